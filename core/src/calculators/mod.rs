@@ -1,0 +1,64 @@
+//! The calculators: one module per handbook page, each a small function that turns
+//! validated inputs into a control volume, asks the engine for the balances and
+//! reports what people need.
+//!
+//! A calculator is registered once in [`CALCULATORS`]; the catalog, the pages, the
+//! wasm adapter and the reference tests all read that one list.
+
+use crate::catalog::{self, CalculatorSpec, FieldEcho, Report, Request, Solution, Values};
+use crate::error::{FieldError, SolveError};
+
+/// One registered calculator.
+pub struct Calculator {
+    pub key: &'static str,
+    /// Builds the description (fields, outputs, cautions).
+    pub spec: fn() -> CalculatorSpec,
+    /// Computes from validated values, writing outputs, tables, diagrams, plots and
+    /// warnings into the report. Errors name the field that makes the case impossible.
+    pub compute: fn(&Values, &mut Report<'_>) -> Result<(), Vec<FieldError>>,
+}
+
+/// Every calculator, in contents order.
+pub const CALCULATORS: &[Calculator] = &[];
+
+/// The descriptions of all calculators.
+pub fn catalog() -> Vec<CalculatorSpec> {
+    CALCULATORS.iter().map(|c| (c.spec)()).collect()
+}
+
+/// The description of one calculator.
+pub fn spec(key: &str) -> Option<CalculatorSpec> {
+    CALCULATORS.iter().find(|c| c.key == key).map(|c| (c.spec)())
+}
+
+/// What solving returns: how each field was read (even when some are invalid), and
+/// the solution or the errors.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Outcome {
+    pub echoes: Vec<FieldEcho>,
+    pub result: Result<Solution, SolveError>,
+}
+
+/// Solves calculator `key` for a request of typed strings.
+///
+/// # Errors
+/// [`SolveError::UnknownCalculator`] for an unknown key; [`SolveError::Fields`] with
+/// every invalid field, each naming the field, what is wrong and the valid range.
+pub fn solve(key: &str, request: &Request) -> Outcome {
+    let Some(calculator) = CALCULATORS.iter().find(|c| c.key == key) else {
+        return Outcome { echoes: Vec::new(), result: Err(SolveError::UnknownCalculator { key: key.to_string() }) };
+    };
+    let spec = (calculator.spec)();
+    let (echoes, values) = catalog::validate(&spec, request);
+    let result = match values {
+        Err(errors) => Err(SolveError::Fields(errors)),
+        Ok(values) => {
+            let mut report = Report::new(&spec, request.system);
+            match (calculator.compute)(&values, &mut report) {
+                Ok(()) => Ok(report.finish()),
+                Err(errors) => Err(SolveError::Fields(errors)),
+            }
+        }
+    };
+    Outcome { echoes, result }
+}

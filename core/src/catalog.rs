@@ -1,0 +1,461 @@
+//! The description of every calculator, and the shape of what solving one returns.
+//!
+//! A key design decision of this crate: every page of the handbook is *described* by
+//! the core, not written by hand in the site. A [`CalculatorSpec`] lists the input
+//! fields (key, label, quantity kind, default unit per unit system, demo value,
+//! limits, help), the outputs, and which job group the page belongs to. The wasm
+//! adapter serialises these descriptions and the site script renders any of them;
+//! reference tests drive calculators through the very same [`solve`] entry point
+//! with the same typed strings a user would type, so a browser and a test see one
+//! code path.
+//!
+//! Inputs arrive as text (`"150 psi"`, `"12 in"`, `"45"`); they are parsed once, at
+//! this edge, by [`crate::units`] into SI values (checked against the field's limits)
+//! and handed to the calculator as validated [`Values`]. Outputs leave as SI values
+//! together with text formatted in the unit system the page asked for.
+
+use std::collections::BTreeMap;
+
+use crate::error::{FieldError, FieldErrorKind};
+use crate::units::{self, QuantityKind, UnitSystem};
+
+/// What a field holds.
+#[derive(Clone, Debug, PartialEq)]
+pub enum FieldKind {
+    /// A physical quantity typed with or without a unit.
+    Quantity(QuantityKind),
+    /// One of a fixed list of options (the stored value is the option key).
+    Choice(&'static [ChoiceOption]),
+    /// Free text that the calculator parses itself (for example a list of rows).
+    Text,
+}
+
+/// One option of a [`FieldKind::Choice`] field.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ChoiceOption {
+    pub key: &'static str,
+    pub label: &'static str,
+}
+
+/// Valid range of a quantity field, in SI base units of its kind.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Limits {
+    pub min: f64,
+    pub max: f64,
+    /// Whether `min` itself is allowed (`false` for strictly positive sizes).
+    pub min_inclusive: bool,
+}
+
+impl Limits {
+    pub const fn closed(min: f64, max: f64) -> Limits {
+        Limits { min, max, min_inclusive: true }
+    }
+    pub const fn positive(max: f64) -> Limits {
+        Limits { min: 0.0, max, min_inclusive: false }
+    }
+    pub fn contains(&self, value: f64) -> bool {
+        let above = if self.min_inclusive { value >= self.min } else { value > self.min };
+        above && value <= self.max
+    }
+}
+
+/// One input field of a calculator.
+#[derive(Clone, Debug, PartialEq)]
+pub struct FieldSpec {
+    /// Stable key used in URLs and reference cases (ASCII, short).
+    pub key: &'static str,
+    pub label: &'static str,
+    pub kind: FieldKind,
+    /// Unit id offered first when the page is in SI (`"kPa"`), or `""` for choices/text.
+    pub si_unit: &'static str,
+    /// Unit id offered first when the page is in US customary (`"psi"`).
+    pub us_unit: &'static str,
+    /// What the page shows before the user types, taken from the invented demo
+    /// scenario (never a reference value). Typed with its unit, e.g. `"45 deg"`.
+    pub demo: &'static str,
+    /// Valid range in SI; `None` for choices and text.
+    pub limits: Option<Limits>,
+    /// When `true` an empty value is allowed and the calculator applies its default.
+    pub optional: bool,
+    /// One or two sentences shown beside the field.
+    pub help: &'static str,
+    /// Show this field only when another choice field has one of these values:
+    /// `(field key, allowed option keys)`.
+    pub visible_when: Option<(&'static str, &'static [&'static str])>,
+}
+
+/// One output a calculator reports.
+#[derive(Clone, Debug, PartialEq)]
+pub struct OutputSpec {
+    pub key: &'static str,
+    pub label: &'static str,
+    pub kind: QuantityKind,
+    /// Headline outputs are shown large at the top of the results.
+    pub headline: bool,
+}
+
+/// The description of one calculator page.
+#[derive(Clone, Debug, PartialEq)]
+pub struct CalculatorSpec {
+    /// Page key, also the page file name (`bend` → `bend.html`).
+    pub key: &'static str,
+    pub title: &'static str,
+    /// The job group on the contents page.
+    pub group: &'static str,
+    /// One sentence for the contents page.
+    pub summary: &'static str,
+    pub fields: Vec<FieldSpec>,
+    pub outputs: Vec<OutputSpec>,
+    /// Page-specific cautions, shown after the common ones.
+    pub cautions: Vec<&'static str>,
+}
+
+impl CalculatorSpec {
+    pub fn field(&self, key: &str) -> Option<&FieldSpec> {
+        self.fields.iter().find(|f| f.key == key)
+    }
+}
+
+/// Cautions shown on every calculator page.
+pub const COMMON_CAUTIONS: &[&str] = &[
+    "Design to the highest pressure the line will see, including the field test pressure and surge, not only the operating pressure.",
+    "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be undermined by later excavation.",
+    "Results are idealised control-volume balances. They support, and do not replace, the judgement of a licensed engineer and the local codes that govern the work.",
+];
+
+/// Raw inputs as typed by the user, keyed by field key.
+pub type Inputs = BTreeMap<String, String>;
+
+/// A validated input value.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Value {
+    /// SI value of a quantity field.
+    Quantity(f64),
+    /// Selected option key of a choice field.
+    Choice(String),
+    Text(String),
+    /// An optional field left empty.
+    Empty,
+}
+
+/// Validated inputs handed to a calculator: every field of its spec is present,
+/// parsed and within limits.
+#[derive(Clone, Debug, Default)]
+pub struct Values {
+    values: BTreeMap<&'static str, Value>,
+}
+
+impl Values {
+    /// SI value of a required quantity field. Fields of the spec are always present
+    /// after validation; an unknown key or an empty optional field returns NaN-free
+    /// `0.0` only through [`Values::quantity_or`], never here.
+    pub fn quantity(&self, key: &str) -> Result<f64, FieldError> {
+        match self.values.get(key) {
+            Some(Value::Quantity(v)) => Ok(*v),
+            _ => Err(FieldError::new(key, FieldErrorKind::Missing)),
+        }
+    }
+    /// SI value of an optional quantity field, or `default` when it was left empty.
+    pub fn quantity_or(&self, key: &str, default: f64) -> f64 {
+        match self.values.get(key) {
+            Some(Value::Quantity(v)) => *v,
+            _ => default,
+        }
+    }
+    /// Whether an optional field was filled in.
+    pub fn is_set(&self, key: &str) -> bool {
+        !matches!(self.values.get(key), None | Some(Value::Empty))
+    }
+    pub fn choice(&self, key: &str) -> Result<&str, FieldError> {
+        match self.values.get(key) {
+            Some(Value::Choice(v)) => Ok(v.as_str()),
+            _ => Err(FieldError::new(key, FieldErrorKind::Missing)),
+        }
+    }
+    pub fn text(&self, key: &str) -> Result<&str, FieldError> {
+        match self.values.get(key) {
+            Some(Value::Text(v)) => Ok(v.as_str()),
+            Some(Value::Empty) => Ok(""),
+            _ => Err(FieldError::new(key, FieldErrorKind::Missing)),
+        }
+    }
+    /// Builds values directly (for calculators that call each other, and tests).
+    pub fn insert(&mut self, key: &'static str, value: Value) {
+        self.values.insert(key, value);
+    }
+}
+
+/// An output value with its SI number and its formatted text.
+#[derive(Clone, Debug, PartialEq)]
+pub struct OutputValue {
+    pub key: &'static str,
+    pub label: &'static str,
+    pub kind: QuantityKind,
+    pub si: f64,
+    /// Formatted in the requested unit system, unit included (`"12.4 kN"`).
+    pub text: String,
+    pub headline: bool,
+}
+
+/// A notice about the result (not an error: the numbers are still shown).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Warning {
+    /// Field the warning is about, if any.
+    pub field: Option<&'static str>,
+    pub message: String,
+}
+
+/// A table of text cells (the ledger, a schedule, a triangle's components).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Table {
+    pub key: &'static str,
+    pub title: String,
+    pub columns: Vec<String>,
+    pub rows: Vec<Vec<String>>,
+    /// Rows (by index) that are totals or residuals and should stand out.
+    pub emphasised_rows: Vec<usize>,
+}
+
+/// Drawing primitives in model coordinates (metres, x to the right, y up).
+#[derive(Clone, Debug, PartialEq)]
+pub enum Shape {
+    /// A filled or outlined polygon (pipe walls, blocks, vanes).
+    Polygon { points: Vec<[f64; 2]>, style: ShapeStyle },
+    /// An open polyline (centre lines, jets).
+    Polyline { points: Vec<[f64; 2]>, style: ShapeStyle },
+    Circle { center: [f64; 2], radius: f64, style: ShapeStyle },
+    /// An arrow from `from` to `to`, labelled.
+    Arrow { from: [f64; 2], to: [f64; 2], label: String, style: ShapeStyle },
+    Text { at: [f64; 2], text: String, style: ShapeStyle },
+}
+
+/// Semantic style of a shape; the site maps each to a stroke and fill of its own.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ShapeStyle {
+    Wall,
+    Fluid,
+    ControlVolume,
+    Flow,
+    /// Force the supports (restraint) exert on the fitting.
+    Restraint,
+    /// Force the fluid exerts on the fitting (thrust).
+    Thrust,
+    Pressure,
+    Momentum,
+    Weight,
+    Velocity,
+    Guide,
+    Label,
+}
+
+/// A diagram: shapes plus the bounding box to show.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Diagram {
+    pub title: String,
+    /// `[min_x, min_y, max_x, max_y]` in model coordinates.
+    pub bounds: [f64; 4],
+    pub shapes: Vec<Shape>,
+    /// A caption saying what is to scale and what is not.
+    pub caption: String,
+}
+
+/// An x–y plot (power against blade speed, torque against speed, ...).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Plot {
+    pub key: &'static str,
+    pub title: String,
+    pub x_label: String,
+    pub y_label: String,
+    pub series: Vec<Series>,
+    /// Marked points (an optimum, the operating point).
+    pub markers: Vec<Marker>,
+}
+
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Series {
+    pub name: String,
+    pub points: Vec<[f64; 2]>,
+}
+
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Marker {
+    pub at: [f64; 2],
+    pub label: String,
+}
+
+/// Everything a solved calculator reports.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Solution {
+    pub outputs: Vec<OutputValue>,
+    pub tables: Vec<Table>,
+    pub diagrams: Vec<Diagram>,
+    pub plots: Vec<Plot>,
+    pub warnings: Vec<Warning>,
+}
+
+impl Solution {
+    pub fn output(&self, key: &str) -> Option<&OutputValue> {
+        self.outputs.iter().find(|o| o.key == key)
+    }
+}
+
+/// Builds a [`Solution`]'s outputs in the requested unit system.
+#[derive(Debug)]
+pub struct Report<'a> {
+    spec: &'a CalculatorSpec,
+    system: UnitSystem,
+    pub solution: Solution,
+}
+
+impl<'a> Report<'a> {
+    pub fn new(spec: &'a CalculatorSpec, system: UnitSystem) -> Report<'a> {
+        Report { spec, system, solution: Solution::default() }
+    }
+    pub fn system(&self) -> UnitSystem {
+        self.system
+    }
+    /// Records output `key` (which must be listed in the spec) with its SI value.
+    /// A non-finite value is reported as a warning instead of a number.
+    pub fn output(&mut self, key: &'static str, si: f64) {
+        let Some(spec) = self.spec.outputs.iter().find(|o| o.key == key) else {
+            self.warn(None, format!("internal: output '{key}' is not described"));
+            return;
+        };
+        if !si.is_finite() {
+            self.warn(None, format!("{} could not be computed for these inputs", spec.label));
+            return;
+        }
+        let text = units::format_quantity(si, spec.kind, self.system);
+        self.solution.outputs.push(OutputValue {
+            key: spec.key,
+            label: spec.label,
+            kind: spec.kind,
+            si,
+            text,
+            headline: spec.headline,
+        });
+    }
+    pub fn warn(&mut self, field: Option<&'static str>, message: impl Into<String>) {
+        self.solution.warnings.push(Warning { field, message: message.into() });
+    }
+    /// Formats a value of `kind` in the report's unit system.
+    pub fn fmt(&self, si: f64, kind: QuantityKind) -> String {
+        units::format_quantity(si, kind, self.system)
+    }
+    pub fn finish(self) -> Solution {
+        self.solution
+    }
+}
+
+/// A request to solve one calculator: what the user typed, the unit each field's
+/// selector shows (applied to bare numbers), and the page's unit system (used for
+/// fields without a selector unit and for formatting results).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Request {
+    pub inputs: Inputs,
+    /// Selector unit per field key; an unknown or wrong-kind unit id falls back to
+    /// the field's default for `system`.
+    pub units: BTreeMap<String, String>,
+    pub system: UnitSystem,
+}
+
+/// How one quantity field was read: its number text and the unit applied, so the
+/// page can show the selector on the unit actually used and write a canonical URL
+/// (`150psi`) without parsing anything itself.
+#[derive(Clone, Debug, PartialEq)]
+pub struct FieldEcho {
+    pub key: &'static str,
+    pub number: String,
+    pub unit: &'static str,
+}
+
+/// The unit applied to bare numbers in `field` for this request.
+pub fn selector_unit(field: &FieldSpec, request: &Request) -> &'static str {
+    let FieldKind::Quantity(kind) = field.kind else { return "" };
+    if let Some(def) = request.units.get(field.key).and_then(|id| units::find_unit(id)) {
+        if def.kind == kind {
+            return def.id;
+        }
+    }
+    match request.system {
+        UnitSystem::Si => field.si_unit,
+        UnitSystem::UsCustomary => field.us_unit,
+    }
+}
+
+/// Parses and validates raw inputs against a spec, collecting every field error and
+/// echoing how each quantity field was read.
+pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Result<Values, Vec<FieldError>>) {
+    let mut values = Values::default();
+    let mut errors = Vec::new();
+    let mut echoes = Vec::new();
+    for field in &spec.fields {
+        let raw = request.inputs.get(field.key).map(|s| s.trim()).unwrap_or("");
+        if raw.is_empty() {
+            if field.optional {
+                values.insert(field.key, Value::Empty);
+            } else {
+                errors.push(FieldError::new(field.key, FieldErrorKind::Missing));
+            }
+            continue;
+        }
+        match &field.kind {
+            FieldKind::Quantity(kind) => {
+                let default_unit = selector_unit(field, request);
+                match units::parse_quantity_echo(raw, *kind, default_unit) {
+                    Ok((si, number, unit)) => {
+                        echoes.push(FieldEcho { key: field.key, number, unit });
+                        if let Some(limits) = field.limits {
+                            if !limits.contains(si) {
+                                errors.push(FieldError::new(
+                                    field.key,
+                                    FieldErrorKind::OutOfRange {
+                                        min: units::format_quantity_in(limits.min, *kind, unit),
+                                        max: units::format_quantity_in(limits.max, *kind, unit),
+                                        min_inclusive: limits.min_inclusive,
+                                    },
+                                ));
+                                continue;
+                            }
+                        }
+                        values.insert(field.key, Value::Quantity(si));
+                    }
+                    Err(kind) => errors.push(FieldError::new(field.key, kind)),
+                }
+            }
+            FieldKind::Choice(options) => {
+                if options.iter().any(|o| o.key == raw) {
+                    values.insert(field.key, Value::Choice(raw.to_string()));
+                } else {
+                    errors.push(FieldError::new(
+                        field.key,
+                        FieldErrorKind::UnknownChoice {
+                            allowed: options.iter().map(|o| o.key.to_string()).collect(),
+                        },
+                    ));
+                }
+            }
+            FieldKind::Text => {
+                if raw.chars().count() > MAX_TEXT_CHARS {
+                    errors.push(FieldError::new(field.key, FieldErrorKind::TooLong { max_chars: MAX_TEXT_CHARS }));
+                } else {
+                    values.insert(field.key, Value::Text(raw.to_string()));
+                }
+            }
+        }
+    }
+    let result = if errors.is_empty() { Ok(values) } else { Err(errors) };
+    (echoes, result)
+}
+
+/// The most characters a free-text field (such as a pasted schedule) accepts.
+pub const MAX_TEXT_CHARS: usize = 200_000;
+
+/// The demo inputs of a spec, as a user would type them.
+pub fn demo_inputs(spec: &CalculatorSpec) -> Inputs {
+    spec.fields
+        .iter()
+        .filter(|f| !f.demo.is_empty())
+        .map(|f| (f.key.to_string(), f.demo.to_string()))
+        .collect()
+}

@@ -1,0 +1,133 @@
+//! Typed errors. Every error names the field (or engine item) it is about, says what
+//! was wrong and, where there is one, the valid range. Messages are lowercase
+//! fragments that read well after the field label ("pressure: must be at least 0 psi").
+
+use std::fmt;
+
+/// What was wrong with one input field.
+#[derive(Clone, Debug, PartialEq)]
+pub enum FieldErrorKind {
+    /// A required field was empty or absent.
+    Missing,
+    /// The text is not a number (optionally followed by a unit).
+    NotANumber { text: String },
+    /// NaN or an infinity was typed.
+    NotFinite,
+    /// The unit is not known at all.
+    UnknownUnit { unit: String, expected: String },
+    /// The unit is known but measures another kind of quantity (`5 psi` for a length).
+    WrongKind { unit: String, unit_kind: &'static str, expected: String },
+    /// `1,500`: a comma that may be a decimal comma or a thousands separator.
+    AmbiguousComma { text: String },
+    /// The value is outside the field's valid range (bounds formatted in the field's unit).
+    OutOfRange { min: String, max: String, min_inclusive: bool },
+    /// A choice field got a value that is not one of its options.
+    UnknownChoice { allowed: Vec<String> },
+    /// The value is valid alone but not together with other inputs.
+    Inconsistent { reason: String },
+    /// The text is too long to be an input (a guard against pasted junk).
+    TooLong { max_chars: usize },
+}
+
+/// An error attached to one input field.
+#[derive(Clone, Debug, PartialEq)]
+pub struct FieldError {
+    /// Key of the field (as in the URL and the calculator description).
+    pub field: String,
+    pub kind: FieldErrorKind,
+}
+
+impl FieldError {
+    pub fn new(field: impl Into<String>, kind: FieldErrorKind) -> FieldError {
+        FieldError { field: field.into(), kind }
+    }
+    /// Shorthand for [`FieldErrorKind::Inconsistent`].
+    pub fn inconsistent(field: impl Into<String>, reason: impl Into<String>) -> FieldError {
+        FieldError::new(field, FieldErrorKind::Inconsistent { reason: reason.into() })
+    }
+}
+
+impl fmt::Display for FieldErrorKind {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            FieldErrorKind::Missing => write!(f, "a value is required"),
+            FieldErrorKind::NotANumber { text } => {
+                write!(f, "'{}' is not a number; type a number, optionally with a unit, e.g. 150 psi", shorten(text))
+            }
+            FieldErrorKind::NotFinite => write!(f, "must be a finite number (NaN and infinity are not accepted)"),
+            FieldErrorKind::UnknownUnit { unit, expected } => {
+                write!(f, "unknown unit '{}'; use one of: {expected}", shorten(unit))
+            }
+            FieldErrorKind::WrongKind { unit, unit_kind, expected } => {
+                write!(f, "'{}' is a unit of {unit_kind}, not of this field; use one of: {expected}", shorten(unit))
+            }
+            FieldErrorKind::AmbiguousComma { text } => write!(
+                f,
+                "'{}' is ambiguous: the comma may be a decimal comma or a thousands separator; write it without the comma or with a decimal point",
+                shorten(text)
+            ),
+            FieldErrorKind::OutOfRange { min, max, min_inclusive } => {
+                let op = if *min_inclusive { "at least" } else { "greater than" };
+                write!(f, "must be {op} {min} and at most {max}")
+            }
+            FieldErrorKind::UnknownChoice { allowed } => write!(f, "must be one of: {}", allowed.join(", ")),
+            FieldErrorKind::Inconsistent { reason } => write!(f, "{reason}"),
+            FieldErrorKind::TooLong { max_chars } => write!(f, "is too long (at most {max_chars} characters)"),
+        }
+    }
+}
+
+impl fmt::Display for FieldError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}: {}", self.field, self.kind)
+    }
+}
+
+impl std::error::Error for FieldError {}
+
+/// Shortens user text echoed back in a message, so a pasted 100 kB string does not
+/// come back whole.
+fn shorten(text: &str) -> String {
+    const MAX: usize = 40;
+    if text.chars().count() <= MAX {
+        text.to_string()
+    } else {
+        let head: String = text.chars().take(MAX).collect();
+        format!("{head}…")
+    }
+}
+
+/// Why a calculator could not be solved.
+#[derive(Clone, Debug, PartialEq)]
+pub enum SolveError {
+    /// No calculator has this key.
+    UnknownCalculator { key: String },
+    /// One or more fields are invalid; every field error found is listed.
+    Fields(Vec<FieldError>),
+}
+
+impl fmt::Display for SolveError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            SolveError::UnknownCalculator { key } => write!(f, "no calculator is called '{}'", shorten(key)),
+            SolveError::Fields(errors) => {
+                let parts: Vec<String> = errors.iter().map(|e| e.to_string()).collect();
+                write!(f, "{}", parts.join("; "))
+            }
+        }
+    }
+}
+
+impl std::error::Error for SolveError {}
+
+impl From<FieldError> for SolveError {
+    fn from(e: FieldError) -> SolveError {
+        SolveError::Fields(vec![e])
+    }
+}
+
+impl From<Vec<FieldError>> for SolveError {
+    fn from(e: Vec<FieldError>) -> SolveError {
+        SolveError::Fields(e)
+    }
+}

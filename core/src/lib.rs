@@ -1,0 +1,30 @@
+//! Fluxledger core: control-volume balances for things moving fluid pushes on.
+//!
+//! Every calculator in the handbook is a view onto one balance over the ports of a
+//! control volume: the Reynolds transport theorem applied to mass, linear momentum,
+//! angular momentum and energy (see [`engine`]). A key design decision of this
+//! crate is that it knows nothing of JSON, JavaScript, files or the browser: it takes
+//! typed text or typed quantities and returns plain data (numbers, tables, drawing
+//! primitives, warnings) that an adapter may serialise. Everything inside is SI.
+//!
+//! - [`units`]: the strict quantity parser and result formatter.
+//! - [`fluid`]: water properties from 0 to 100 °C and custom fluids.
+//! - [`engine`]: ports, control volumes, frames, and the balances with their ledger.
+//! - [`catalog`]: the description of each calculator and the shape of a solution.
+//! - [`calculators`]: the handbook's calculators, registered in one list.
+//! - [`error`]: typed errors that name the field, the problem and the valid range.
+
+pub mod calculators;
+pub mod catalog;
+pub mod engine;
+pub mod error;
+pub mod fluid;
+pub mod friction;
+pub mod profile;
+pub mod units;
+pub mod vector;
+
+pub use calculators::{solve, Outcome};
+pub use catalog::Request;
+pub use error::{FieldError, FieldErrorKind, SolveError};
+pub use units::{QuantityKind, UnitSystem};
