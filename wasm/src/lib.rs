@@ -1,1 +1,82 @@
-//! (being written)
+//! The only crate that knows about JavaScript: a thin wasm-bindgen adapter over
+//! `fluxledger-core`.
+//!
+//! A key design decision: this crate holds no physics, no defaults and no unit
+//! tables. Every export is `from_value` → core call → `to_value`; the wire shapes are
+//! the serialisable mirrors in [`view`], built by pure functions that are tested
+//! natively. The page script calls two functions:
+//!
+//! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
+//!   outputs, cautions) as a plain object.
+//! - [`solve`]`(key, inputs, units, system)` — `inputs` and `units` are plain objects
+//!   of strings keyed by field key, `system` is `"si"` or `"us"`. It never throws for
+//!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.
+//!   It throws only when the script calls it wrongly (values that are not strings,
+//!   an unknown unit system), through the one helper [`adapter_error`].
+//!
+//! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()`, so
+//! `None` becomes `null` and maps become plain objects.
+
+pub mod view;
+
+use std::collections::BTreeMap;
+use std::fmt::Display;
+
+use serde::Serialize;
+use wasm_bindgen::prelude::*;
+
+use fluxledger_core::calculators;
+use fluxledger_core::{Request, UnitSystem};
+
+/// Turns any adapter error into the exception thrown in JavaScript.
+pub fn adapter_error(context: &str, error: impl Display) -> JsError {
+    JsError::new(&format!("fluxledger: {context}: {error}"))
+}
+
+fn to_js<T: Serialize>(value: &T) -> Result<JsValue, JsError> {
+    value
+        .serialize(&serde_wasm_bindgen::Serializer::json_compatible())
+        .map_err(|e| adapter_error("could not convert the result", e))
+}
+
+/// Reads a plain object of strings; `undefined` and `null` read as empty.
+fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, JsError> {
+    if value.is_undefined() || value.is_null() {
+        return Ok(BTreeMap::new());
+    }
+    serde_wasm_bindgen::from_value(value).map_err(|e| {
+        adapter_error(
+            &format!("`{name}` must be an object of strings keyed by field"),
+            e,
+        )
+    })
+}
+
+/// The description of every calculator (see the contract for the shape).
+#[wasm_bindgen]
+pub fn catalog() -> Result<JsValue, JsError> {
+    to_js(&view::catalog_view())
+}
+
+/// Solves calculator `key` for what the user typed.
+///
+/// # Errors
+/// Throws only for a wrong call: `inputs` or `units` not an object of strings, or a
+/// `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
+#[wasm_bindgen]
+pub fn solve(key: &str, inputs: JsValue, units: JsValue, system: &str) -> Result<JsValue, JsError> {
+    let system = UnitSystem::from_key(system).ok_or_else(|| {
+        adapter_error(
+            "unknown unit system",
+            format!("'{system}' (expected \"si\" or \"us\")"),
+        )
+    })?;
+    let request = Request {
+        inputs: string_map(inputs, "inputs")?,
+        units: string_map(units, "units")?,
+        system,
+    };
+    let outcome = fluxledger_core::solve(key, &request);
+    let spec = calculators::spec(key);
+    to_js(&view::solve_view(&outcome, spec.as_ref()))
+}
