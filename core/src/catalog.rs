@@ -48,13 +48,25 @@ pub struct Limits {
 
 impl Limits {
     pub const fn closed(min: f64, max: f64) -> Limits {
-        Limits { min, max, min_inclusive: true }
+        Limits {
+            min,
+            max,
+            min_inclusive: true,
+        }
     }
     pub const fn positive(max: f64) -> Limits {
-        Limits { min: 0.0, max, min_inclusive: false }
+        Limits {
+            min: 0.0,
+            max,
+            min_inclusive: false,
+        }
     }
     pub fn contains(&self, value: f64) -> bool {
-        let above = if self.min_inclusive { value >= self.min } else { value > self.min };
+        let above = if self.min_inclusive {
+            value >= self.min
+        } else {
+            value > self.min
+        };
         above && value <= self.max
     }
 }
@@ -223,10 +235,23 @@ pub enum Shape {
     Polygon { points: Vec<[f64; 2]>, style: ShapeStyle },
     /// An open polyline (centre lines, jets).
     Polyline { points: Vec<[f64; 2]>, style: ShapeStyle },
-    Circle { center: [f64; 2], radius: f64, style: ShapeStyle },
+    Circle {
+        center: [f64; 2],
+        radius: f64,
+        style: ShapeStyle,
+    },
     /// An arrow from `from` to `to`, labelled.
-    Arrow { from: [f64; 2], to: [f64; 2], label: String, style: ShapeStyle },
-    Text { at: [f64; 2], text: String, style: ShapeStyle },
+    Arrow {
+        from: [f64; 2],
+        to: [f64; 2],
+        label: String,
+        style: ShapeStyle,
+    },
+    Text {
+        at: [f64; 2],
+        text: String,
+        style: ShapeStyle,
+    },
 }
 
 /// Semantic style of a shape; the site maps each to a stroke and fill of its own.
@@ -309,7 +334,11 @@ pub struct Report<'a> {
 
 impl<'a> Report<'a> {
     pub fn new(spec: &'a CalculatorSpec, system: UnitSystem) -> Report<'a> {
-        Report { spec, system, solution: Solution::default() }
+        Report {
+            spec,
+            system,
+            solution: Solution::default(),
+        }
     }
     pub fn system(&self) -> UnitSystem {
         self.system
@@ -336,7 +365,10 @@ impl<'a> Report<'a> {
         });
     }
     pub fn warn(&mut self, field: Option<&'static str>, message: impl Into<String>) {
-        self.solution.warnings.push(Warning { field, message: message.into() });
+        self.solution.warnings.push(Warning {
+            field,
+            message: message.into(),
+        });
     }
     /// Formats a value of `kind` in the report's unit system.
     pub fn fmt(&self, si: f64, kind: QuantityKind) -> String {
@@ -371,7 +403,9 @@ pub struct FieldEcho {
 
 /// The unit applied to bare numbers in `field` for this request.
 pub fn selector_unit(field: &FieldSpec, request: &Request) -> &'static str {
-    let FieldKind::Quantity(kind) = field.kind else { return "" };
+    let FieldKind::Quantity(kind) = field.kind else {
+        return "";
+    };
     if let Some(def) = request.units.get(field.key).and_then(|id| units::find_unit(id)) {
         if def.kind == kind {
             return def.id;
@@ -404,7 +438,11 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                 let default_unit = selector_unit(field, request);
                 match units::parse_quantity_echo(raw, *kind, default_unit) {
                     Ok((si, number, unit)) => {
-                        echoes.push(FieldEcho { key: field.key, number, unit });
+                        echoes.push(FieldEcho {
+                            key: field.key,
+                            number,
+                            unit,
+                        });
                         if let Some(limits) = field.limits {
                             if !limits.contains(si) {
                                 errors.push(FieldError::new(
@@ -437,7 +475,12 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
             }
             FieldKind::Text => {
                 if raw.chars().count() > MAX_TEXT_CHARS {
-                    errors.push(FieldError::new(field.key, FieldErrorKind::TooLong { max_chars: MAX_TEXT_CHARS }));
+                    errors.push(FieldError::new(
+                        field.key,
+                        FieldErrorKind::TooLong {
+                            max_chars: MAX_TEXT_CHARS,
+                        },
+                    ));
                 } else {
                     values.insert(field.key, Value::Text(raw.to_string()));
                 }

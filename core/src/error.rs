@@ -16,11 +16,19 @@ pub enum FieldErrorKind {
     /// The unit is not known at all.
     UnknownUnit { unit: String, expected: String },
     /// The unit is known but measures another kind of quantity (`5 psi` for a length).
-    WrongKind { unit: String, unit_kind: &'static str, expected: String },
+    WrongKind {
+        unit: String,
+        unit_kind: &'static str,
+        expected: String,
+    },
     /// `1,500`: a comma that may be a decimal comma or a thousands separator.
     AmbiguousComma { text: String },
     /// The value is outside the field's valid range (bounds formatted in the field's unit).
-    OutOfRange { min: String, max: String, min_inclusive: bool },
+    OutOfRange {
+        min: String,
+        max: String,
+        min_inclusive: bool,
+    },
     /// A choice field got a value that is not one of its options.
     UnknownChoice { allowed: Vec<String> },
     /// The value is valid alone but not together with other inputs.
@@ -39,7 +47,10 @@ pub struct FieldError {
 
 impl FieldError {
     pub fn new(field: impl Into<String>, kind: FieldErrorKind) -> FieldError {
-        FieldError { field: field.into(), kind }
+        FieldError {
+            field: field.into(),
+            kind,
+        }
     }
     /// Shorthand for [`FieldErrorKind::Inconsistent`].
     pub fn inconsistent(field: impl Into<String>, reason: impl Into<String>) -> FieldError {

@@ -145,10 +145,22 @@ pub struct UnitDef {
 }
 
 const fn u(id: &'static str, kind: QuantityKind, factor: f64) -> UnitDef {
-    UnitDef { id, kind, factor, offset: 0.0, aliases: &[] }
+    UnitDef {
+        id,
+        kind,
+        factor,
+        offset: 0.0,
+        aliases: &[],
+    }
 }
 const fn ua(id: &'static str, kind: QuantityKind, factor: f64, aliases: &'static [&'static str]) -> UnitDef {
-    UnitDef { id, kind, factor, offset: 0.0, aliases }
+    UnitDef {
+        id,
+        kind,
+        factor,
+        offset: 0.0,
+        aliases,
+    }
 }
 
 use QuantityKind as Q;
@@ -216,19 +228,45 @@ pub const UNITS: &[UnitDef] = &[
     ua("kip", Q::Force, 1e3 * POUND_FORCE, &["kips"]),
     ua("N.m", Q::Torque, 1.0, &["Nm", "N*m"]),
     ua("kN.m", Q::Torque, 1e3, &["kNm", "kN*m"]),
-    ua("lbf.ft", Q::Torque, POUND_FORCE * FOOT, &["ft.lbf", "lbf*ft", "ftlbf", "lb-ft", "ft-lb"]),
-    ua("lbf.in", Q::Torque, POUND_FORCE * INCH, &["in.lbf", "lbf*in", "lb-in", "in-lb"]),
+    ua(
+        "lbf.ft",
+        Q::Torque,
+        POUND_FORCE * FOOT,
+        &["ft.lbf", "lbf*ft", "ftlbf", "lb-ft", "ft-lb"],
+    ),
+    ua(
+        "lbf.in",
+        Q::Torque,
+        POUND_FORCE * INCH,
+        &["in.lbf", "lbf*in", "lb-in", "in-lb"],
+    ),
     u("W", Q::Power, 1.0),
     u("kW", Q::Power, 1e3),
     u("MW", Q::Power, 1e6),
     ua("hp", Q::Power, HORSEPOWER, &[]),
     ua("ft.lbf/s", Q::Power, FOOT * POUND_FORCE, &[]),
-    ua("deg", Q::Angle, std::f64::consts::PI / 180.0, &["°", "degree", "degrees"]),
+    ua(
+        "deg",
+        Q::Angle,
+        std::f64::consts::PI / 180.0,
+        &["°", "degree", "degrees"],
+    ),
     u("rad", Q::Angle, 1.0),
     u("rad/s", Q::AngularSpeed, 1.0),
-    ua("rpm", Q::AngularSpeed, 2.0 * std::f64::consts::PI / 60.0, &["rev/min", "r/min"]),
+    ua(
+        "rpm",
+        Q::AngularSpeed,
+        2.0 * std::f64::consts::PI / 60.0,
+        &["rev/min", "r/min"],
+    ),
     u("rev/s", Q::AngularSpeed, 2.0 * std::f64::consts::PI),
-    UnitDef { id: "degC", kind: Q::Temperature, factor: 1.0, offset: 273.15, aliases: &["°C", "C", "celsius"] },
+    UnitDef {
+        id: "degC",
+        kind: Q::Temperature,
+        factor: 1.0,
+        offset: 273.15,
+        aliases: &["°C", "C", "celsius"],
+    },
     UnitDef {
         id: "degF",
         kind: Q::Temperature,
@@ -242,10 +280,20 @@ pub const UNITS: &[UnitDef] = &[
     ua("lb/ft3", Q::Density, POUND_MASS / (FOOT * FOOT * FOOT), &["lbm/ft3"]),
     u("kN/m3", Q::SpecificWeight, 1e3),
     u("N/m3", Q::SpecificWeight, 1.0),
-    ua("lbf/ft3", Q::SpecificWeight, POUND_FORCE / (FOOT * FOOT * FOOT), &["pcf"]),
+    ua(
+        "lbf/ft3",
+        Q::SpecificWeight,
+        POUND_FORCE / (FOOT * FOOT * FOOT),
+        &["pcf"],
+    ),
     ua("mPa.s", Q::DynamicViscosity, 1e-3, &["mPas", "cP", "cp"]),
     ua("Pa.s", Q::DynamicViscosity, 1.0, &["Pas", "Pa*s"]),
-    ua("lb/(ft.s)", Q::DynamicViscosity, POUND_MASS / FOOT, &["lb/ft.s", "lb/ft/s"]),
+    ua(
+        "lb/(ft.s)",
+        Q::DynamicViscosity,
+        POUND_MASS / FOOT,
+        &["lb/ft.s", "lb/ft/s"],
+    ),
     ua("lbf.s/ft2", Q::DynamicViscosity, POUND_FORCE / (FOOT * FOOT), &[]),
     ua("mm2/s", Q::KinematicViscosity, 1e-6, &["cSt", "cst"]),
     u("m2/s", Q::KinematicViscosity, 1.0),
@@ -264,7 +312,10 @@ pub fn units_of(kind: QuantityKind) -> impl Iterator<Item = &'static UnitDef> {
 /// rather than guessed between `mm` and `Mm`).
 pub fn find_unit(text: &str) -> Option<&'static UnitDef> {
     let norm = normalise_unit(text);
-    if let Some(def) = UNITS.iter().find(|u| u.id == norm || u.aliases.contains(&norm.as_str())) {
+    if let Some(def) = UNITS
+        .iter()
+        .find(|u| u.id == norm || u.aliases.contains(&norm.as_str()))
+    {
         return Some(def);
     }
     let mut found = UNITS
@@ -316,7 +367,9 @@ pub fn parse_quantity_echo(
 ) -> Result<(f64, String, &'static str), FieldErrorKind> {
     let text = text.trim();
     if text.chars().count() > MAX_INPUT_CHARS {
-        return Err(FieldErrorKind::TooLong { max_chars: MAX_INPUT_CHARS });
+        return Err(FieldErrorKind::TooLong {
+            max_chars: MAX_INPUT_CHARS,
+        });
     }
     let (number_text, unit_text) = split_number(text);
     let lower = text.to_ascii_lowercase();
@@ -336,7 +389,10 @@ pub fn parse_quantity_echo(
     };
     let expected = || units_of(kind).map(|u| u.id).collect::<Vec<_>>().join(", ");
     let Some(unit) = unit else {
-        return Err(FieldErrorKind::UnknownUnit { unit: unit_text.to_string(), expected: expected() });
+        return Err(FieldErrorKind::UnknownUnit {
+            unit: unit_text.to_string(),
+            expected: expected(),
+        });
     };
     if unit.kind != kind {
         return Err(FieldErrorKind::WrongKind {
@@ -404,7 +460,9 @@ fn parse_number(text: &str) -> Result<f64, FieldErrorKind> {
     if dots > 1 {
         return Err(FieldErrorKind::NotANumber { text: text.to_string() });
     }
-    let value: f64 = normalised.parse().map_err(|_| FieldErrorKind::NotANumber { text: text.to_string() })?;
+    let value: f64 = normalised
+        .parse()
+        .map_err(|_| FieldErrorKind::NotANumber { text: text.to_string() })?;
     if value.is_finite() {
         Ok(value)
     } else {
@@ -490,7 +548,9 @@ pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String 
 
 /// The number of `si` expressed in `unit_id`, if that unit exists and fits `kind`.
 pub fn convert_to(si: f64, kind: QuantityKind, unit_id: &str) -> Option<f64> {
-    find_unit(unit_id).filter(|d| d.kind == kind).map(|d| (si - d.offset) / d.factor)
+    find_unit(unit_id)
+        .filter(|d| d.kind == kind)
+        .map(|d| (si - d.offset) / d.factor)
 }
 
 fn format_in(si: f64, def: &UnitDef) -> String {
@@ -517,7 +577,11 @@ pub fn format_significant(value: f64, sig: i32) -> String {
     }
     let decimals = (sig - 1 - magnitude).max(0) as usize;
     let scale = 10f64.powi(magnitude + 1 - sig);
-    let rounded = if decimals == 0 { (value / scale).round() * scale } else { value };
+    let rounded = if decimals == 0 {
+        (value / scale).round() * scale
+    } else {
+        value
+    };
     let text = format!("{rounded:.decimals$}");
     if text.starts_with('-') && text.trim_start_matches('-').chars().all(|c| c == '0' || c == '.') {
         text.trim_start_matches('-').to_string()
@@ -534,9 +598,27 @@ mod tests {
     #[test]
     fn display_units_exist_and_match_kind() {
         let kinds = [
-            Q::Length, Q::Area, Q::Volume, Q::Mass, Q::Time, Q::Pressure, Q::Velocity, Q::Acceleration,
-            Q::VolumeFlow, Q::MassFlow, Q::Force, Q::Torque, Q::Power, Q::Angle, Q::AngularSpeed,
-            Q::Temperature, Q::Density, Q::SpecificWeight, Q::DynamicViscosity, Q::KinematicViscosity, Q::Ratio,
+            Q::Length,
+            Q::Area,
+            Q::Volume,
+            Q::Mass,
+            Q::Time,
+            Q::Pressure,
+            Q::Velocity,
+            Q::Acceleration,
+            Q::VolumeFlow,
+            Q::MassFlow,
+            Q::Force,
+            Q::Torque,
+            Q::Power,
+            Q::Angle,
+            Q::AngularSpeed,
+            Q::Temperature,
+            Q::Density,
+            Q::SpecificWeight,
+            Q::DynamicViscosity,
+            Q::KinematicViscosity,
+            Q::Ratio,
         ];
         for kind in kinds {
             for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
@@ -592,14 +674,35 @@ mod tests {
         assert_eq!(parse_quantity("NaN", Q::Length, "m"), Err(FieldErrorKind::NotFinite));
         assert_eq!(parse_quantity("-inf", Q::Length, "m"), Err(FieldErrorKind::NotFinite));
         assert_eq!(parse_quantity("1e999", Q::Length, "m"), Err(FieldErrorKind::NotFinite));
-        assert!(matches!(parse_quantity("1,500 m", Q::Length, "m"), Err(FieldErrorKind::AmbiguousComma { .. })));
-        assert!(matches!(parse_quantity("5 psi", Q::Length, "m"), Err(FieldErrorKind::WrongKind { .. })));
-        assert!(matches!(parse_quantity("5 furlongs", Q::Length, "m"), Err(FieldErrorKind::UnknownUnit { .. })));
-        assert!(matches!(parse_quantity("abc", Q::Length, "m"), Err(FieldErrorKind::NotANumber { .. })));
-        assert!(matches!(parse_quantity("1.2.3 m", Q::Length, "m"), Err(FieldErrorKind::NotANumber { .. })));
-        assert!(matches!(parse_quantity("<script>", Q::Length, "m"), Err(FieldErrorKind::NotANumber { .. })));
+        assert!(matches!(
+            parse_quantity("1,500 m", Q::Length, "m"),
+            Err(FieldErrorKind::AmbiguousComma { .. })
+        ));
+        assert!(matches!(
+            parse_quantity("5 psi", Q::Length, "m"),
+            Err(FieldErrorKind::WrongKind { .. })
+        ));
+        assert!(matches!(
+            parse_quantity("5 furlongs", Q::Length, "m"),
+            Err(FieldErrorKind::UnknownUnit { .. })
+        ));
+        assert!(matches!(
+            parse_quantity("abc", Q::Length, "m"),
+            Err(FieldErrorKind::NotANumber { .. })
+        ));
+        assert!(matches!(
+            parse_quantity("1.2.3 m", Q::Length, "m"),
+            Err(FieldErrorKind::NotANumber { .. })
+        ));
+        assert!(matches!(
+            parse_quantity("<script>", Q::Length, "m"),
+            Err(FieldErrorKind::NotANumber { .. })
+        ));
         let long = "9".repeat(100_000);
-        assert!(matches!(parse_quantity(&long, Q::Length, "m"), Err(FieldErrorKind::TooLong { .. })));
+        assert!(matches!(
+            parse_quantity(&long, Q::Length, "m"),
+            Err(FieldErrorKind::TooLong { .. })
+        ));
     }
 
     #[test]
@@ -609,6 +712,9 @@ mod tests {
         assert_eq!(format_significant(0.0123456, 4), "0.01235");
         assert_eq!(format_significant(-0.0, 4), "0");
         assert_eq!(format_quantity(12_345.0, Q::Force, UnitSystem::Si), "12.35 kN");
-        assert_eq!(format_quantity(293.15, Q::Temperature, UnitSystem::UsCustomary), "68.00 degF");
+        assert_eq!(
+            format_quantity(293.15, Q::Temperature, UnitSystem::UsCustomary),
+            "68.00 degF"
+        );
     }
 }

@@ -8,6 +8,9 @@
 use crate::catalog::{self, CalculatorSpec, FieldEcho, Report, Request, Solution, Values};
 use crate::error::{FieldError, SolveError};
 
+pub mod bend;
+pub mod common;
+
 /// One registered calculator.
 pub struct Calculator {
     pub key: &'static str,
@@ -19,7 +22,11 @@ pub struct Calculator {
 }
 
 /// Every calculator, in contents order.
-pub const CALCULATORS: &[Calculator] = &[];
+pub const CALCULATORS: &[Calculator] = &[Calculator {
+    key: bend::KEY,
+    spec: bend::spec,
+    compute: bend::compute,
+}];
 
 /// The descriptions of all calculators.
 pub fn catalog() -> Vec<CalculatorSpec> {
@@ -46,7 +53,10 @@ pub struct Outcome {
 /// every invalid field, each naming the field, what is wrong and the valid range.
 pub fn solve(key: &str, request: &Request) -> Outcome {
     let Some(calculator) = CALCULATORS.iter().find(|c| c.key == key) else {
-        return Outcome { echoes: Vec::new(), result: Err(SolveError::UnknownCalculator { key: key.to_string() }) };
+        return Outcome {
+            echoes: Vec::new(),
+            result: Err(SolveError::UnknownCalculator { key: key.to_string() }),
+        };
     };
     let spec = (calculator.spec)();
     let (echoes, values) = catalog::validate(&spec, request);

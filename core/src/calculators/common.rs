@@ -1,0 +1,503 @@
+//! Pieces shared by the calculators: the fluid and flow fields, the ledger tables,
+//! engine-error mapping and drawing helpers. Nothing here is specific to one fitting.
+
+use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, Limits, Report, Shape, ShapeStyle, Table, Values};
+use crate::engine::{Balance, EngineError, EngineWarning, FlowSpec, Role};
+use crate::error::FieldError;
+use crate::fluid::{Fluid, FluidError, ZERO_CELSIUS};
+use crate::units::{self, QuantityKind, UnitSystem};
+use crate::vector::Vec3;
+
+use QuantityKind as Q;
+
+/// A quantity field with the usual defaults; adjust with struct update syntax.
+pub const fn quantity(
+    key: &'static str,
+    label: &'static str,
+    kind: QuantityKind,
+    si_unit: &'static str,
+    us_unit: &'static str,
+    demo: &'static str,
+    limits: Limits,
+    help: &'static str,
+) -> FieldSpec {
+    FieldSpec {
+        key,
+        label,
+        kind: FieldKind::Quantity(kind),
+        si_unit,
+        us_unit,
+        demo,
+        limits: Some(limits),
+        optional: false,
+        help,
+        visible_when: None,
+    }
+}
+
+/// A choice field.
+pub const fn choice(
+    key: &'static str,
+    label: &'static str,
+    options: &'static [ChoiceOption],
+    demo: &'static str,
+    help: &'static str,
+) -> FieldSpec {
+    FieldSpec {
+        key,
+        label,
+        kind: FieldKind::Choice(options),
+        si_unit: "",
+        us_unit: "",
+        demo,
+        limits: None,
+        optional: false,
+        help,
+        visible_when: None,
+    }
+}
+
+/// Upper bound used for sizes: 10 m is larger than any pipe this handbook covers.
+pub const MAX_SIZE_M: f64 = 10.0;
+/// Upper bound for gauge pressures: 100 MPa (≈ 14 500 psi).
+pub const MAX_PRESSURE_PA: f64 = 100e6;
+
+pub const FLUID_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "water",
+        label: "Water (from temperature)",
+    },
+    ChoiceOption {
+        key: "custom",
+        label: "Other liquid (density and viscosity)",
+    },
+];
+
+/// The fluid fields: `fluid` (water/custom), `t`, `rho`, `mu`.
+pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
+    vec![
+        choice(
+            "fluid",
+            "Fluid",
+            FLUID_OPTIONS,
+            "water",
+            "Water properties come from the temperature; choose 'other liquid' to type density and viscosity.",
+        ),
+        FieldSpec {
+            visible_when: Some(("fluid", &["water"])),
+            ..quantity(
+                "t",
+                "Water temperature",
+                Q::Temperature,
+                "degC",
+                "degF",
+                demo_temperature,
+                Limits::closed(ZERO_CELSIUS, ZERO_CELSIUS + 99.9),
+                "Liquid water at atmospheric pressure, 0 to 99.9 degC (32 to 211.8 degF).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("fluid", &["custom"])),
+            optional: true,
+            ..quantity(
+                "rho",
+                "Density",
+                Q::Density,
+                "kg/m3",
+                "lb/ft3",
+                "",
+                Limits::positive(25_000.0),
+                "Density of the liquid.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("fluid", &["custom"])),
+            optional: true,
+            ..quantity(
+                "mu",
+                "Dynamic viscosity",
+                Q::DynamicViscosity,
+                "mPa.s",
+                "lb/(ft.s)",
+                "",
+                Limits::positive(1e3),
+                "Used for warnings and friction only; it does not change the momentum balance.",
+            )
+        },
+    ]
+}
+
+/// Reads the fluid fields.
+pub fn fluid_from(values: &Values) -> Result<Fluid, Vec<FieldError>> {
+    match values.choice("fluid").map_err(|e| vec![e])? {
+        "custom" => {
+            let mut errors = Vec::new();
+            if !values.is_set("rho") {
+                errors.push(FieldError::inconsistent(
+                    "rho",
+                    "a density is required for another liquid",
+                ));
+            }
+            if !values.is_set("mu") {
+                errors.push(FieldError::inconsistent(
+                    "mu",
+                    "a viscosity is required for another liquid",
+                ));
+            }
+            if !errors.is_empty() {
+                return Err(errors);
+            }
+            let density = values.quantity_or("rho", 1000.0);
+            let viscosity = values.quantity_or("mu", 1e-3);
+            Ok(Fluid {
+                name: "custom liquid".to_string(),
+                density,
+                viscosity,
+                vapour_pressure: None,
+            })
+        }
+        _ => {
+            let t = values.quantity("t").map_err(|e| vec![e])?;
+            Fluid::water_kelvin(t).map_err(|e| match e {
+                FluidError::BelowFreezing { .. } | FluidError::AtOrAboveSaturation { .. } => {
+                    vec![FieldError::inconsistent("t", e.to_string())]
+                }
+                FluidError::InvalidProperty { .. } => vec![FieldError::inconsistent("t", e.to_string())],
+            })
+        }
+    }
+}
+
+pub const FLOW_BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "q",
+        label: "Volumetric flow",
+    },
+    ChoiceOption {
+        key: "v",
+        label: "Mean velocity at the inlet",
+    },
+    ChoiceOption {
+        key: "mdot",
+        label: "Mass flow",
+    },
+];
+
+/// The flow fields: `flow_basis` and one of `q`, `v`, `mdot`.
+pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    vec![
+        choice(
+            "flow_basis",
+            "Flow given as",
+            FLOW_BASIS_OPTIONS,
+            "q",
+            "How the flow is given; zero flow is allowed (a full, still line under pressure).",
+        ),
+        FieldSpec {
+            visible_when: Some(("flow_basis", &["q"])),
+            optional: true,
+            ..quantity(
+                "q",
+                "Volumetric flow",
+                Q::VolumeFlow,
+                "m3/h",
+                "gpm",
+                demo_q,
+                Limits::closed(0.0, 1e3),
+                "Flow through the fitting's inlet.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("flow_basis", &["v"])),
+            optional: true,
+            ..quantity(
+                "v",
+                "Mean velocity at the inlet",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                "",
+                Limits::closed(0.0, 100.0),
+                "Mean velocity in the inlet pipe.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("flow_basis", &["mdot"])),
+            optional: true,
+            ..quantity(
+                "mdot",
+                "Mass flow",
+                Q::MassFlow,
+                "kg/s",
+                "lb/s",
+                "",
+                Limits::closed(0.0, 1e6),
+                "Mass flow through the inlet.",
+            )
+        },
+    ]
+}
+
+/// Reads the flow fields into an engine flow spec for the inlet.
+pub fn flow_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
+    let basis = values.choice("flow_basis").map_err(|e| vec![e])?;
+    let need = |key: &'static str| {
+        if values.is_set(key) {
+            Ok(values.quantity_or(key, 0.0))
+        } else {
+            Err(vec![FieldError::inconsistent(
+                key,
+                "a value is required for the chosen flow basis",
+            )])
+        }
+    };
+    Ok(match basis {
+        "v" => FlowSpec::Velocity(need("v")?),
+        "mdot" => FlowSpec::MassFlow(need("mdot")?),
+        _ => FlowSpec::VolumeFlow(need("q")?),
+    })
+}
+
+/// Maps an engine error onto the field most responsible for it.
+pub fn engine_error(err: EngineError, field: &'static str) -> Vec<FieldError> {
+    vec![FieldError::inconsistent(field, err.to_string())]
+}
+
+/// Copies engine warnings into the report.
+pub fn forward_warnings(balance: &Balance, report: &mut Report<'_>) {
+    for w in &balance.warnings {
+        let field = match w {
+            EngineWarning::BelowVapourPressure { .. } => Some("p"),
+            _ => None,
+        };
+        report.warn(field, w.to_string());
+    }
+}
+
+/// Warns when a pipe velocity is outside the usual design range for water lines.
+/// Common practice, no single source: about 0.5–3 m/s in mains, up to about 5 m/s in
+/// plant and fire-water piping; faster lines see erosion, noise and larger surges.
+pub fn pipe_velocity_warning(report: &mut Report<'_>, field: &'static str, place: &str, speed: f64) {
+    if speed > 5.0 {
+        let text = report.fmt(speed, Q::Velocity);
+        report.warn(Some(field), format!("the velocity at the {place} is {text}, above the usual 3 to 5 m/s for water piping: check erosion, noise and surge (common practice)"));
+    }
+}
+
+/// The unit a table column of forces is shown in: chosen from the largest magnitude.
+fn table_unit(max_abs: f64, kind: QuantityKind, system: UnitSystem) -> &'static str {
+    units::display_unit(max_abs, kind, system).id
+}
+
+fn cell(value: f64, kind: QuantityKind, unit: &str) -> String {
+    match units::convert_to(value, kind, unit) {
+        Some(v) => units::format_significant(v, 4),
+        None => "—".to_string(),
+    }
+}
+
+/// The momentum ledger: every term of the support-force equation per port, the
+/// weight and storage terms, the total force the supports supply, the thrust on the
+/// supports, and the residual.
+pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
+    let mut rows: Vec<(String, Vec3)> = Vec::new();
+    for p in &balance.ports {
+        let role = if p.role == Role::Inlet { "in" } else { "out" };
+        rows.push((format!("{} ({role}): pressure, p·A·n", p.name), -p.pressure_force));
+        rows.push((format!("{} ({role}): momentum flux, ±ṁβV", p.name), p.momentum_outflow));
+    }
+    if balance.fluid_weight.norm() > 0.0 {
+        rows.push(("fluid inside: weight, −W".to_string(), -balance.fluid_weight));
+    }
+    for e in &balance.extra_forces {
+        rows.push((format!("{}: −F", e.name), -e.force));
+    }
+    if balance.momentum_storage.norm() > 0.0 {
+        rows.push(("storage: dP/dt".to_string(), balance.momentum_storage));
+    }
+    let total_index = rows.len();
+    rows.push((
+        "R = force the supports exert on the fitting (sum)".to_string(),
+        balance.support_force,
+    ));
+    rows.push(("T = thrust on the supports, −R".to_string(), balance.thrust()));
+    let max = rows.iter().map(|(_, v)| v.norm()).fold(0.0, f64::max);
+    let unit = table_unit(max, Q::Force, system);
+    let mut table = Table {
+        key: "ledger",
+        title: "Momentum ledger: terms of R = Σ p·A·n + Σ ±ṁβV − W − ΣF + dP/dt".to_string(),
+        columns: vec![
+            "Term".to_string(),
+            format!("x ({unit})"),
+            format!("y ({unit})"),
+            format!("z ({unit})"),
+            format!("magnitude ({unit})"),
+        ],
+        rows: Vec::new(),
+        emphasised_rows: vec![total_index, total_index + 1],
+    };
+    for (label, v) in rows {
+        table.rows.push(vec![
+            label,
+            cell(v.x, Q::Force, unit),
+            cell(v.y, Q::Force, unit),
+            cell(v.z, Q::Force, unit),
+            cell(v.norm(), Q::Force, unit),
+        ]);
+    }
+    table.rows.push(vec![
+        "momentum residual |ΣF − Σflux|".to_string(),
+        String::new(),
+        String::new(),
+        String::new(),
+        cell(balance.momentum_residual, Q::Force, unit),
+    ]);
+    table.emphasised_rows.push(table.rows.len() - 1);
+    table
+}
+
+/// The port table: size, flow, velocity and pressure at every port, and the mass
+/// residual.
+pub fn ports_table(balance: &Balance, system: UnitSystem) -> Table {
+    let area_unit = table_unit(
+        balance.ports.iter().map(|p| p.area).fold(0.0, f64::max),
+        Q::Area,
+        system,
+    );
+    let flow_unit = table_unit(
+        balance.ports.iter().map(|p| p.volume_flow).fold(0.0, f64::max),
+        Q::VolumeFlow,
+        system,
+    );
+    let speed_unit = table_unit(1.0, Q::Velocity, system);
+    let p_unit = table_unit(
+        balance.ports.iter().map(|p| p.pressure.abs()).fold(0.0, f64::max),
+        Q::Pressure,
+        system,
+    );
+    let mass_unit = table_unit(1.0, Q::MassFlow, system);
+    let mut table = Table {
+        key: "ports",
+        title: "Ports: mass balance and state".to_string(),
+        columns: vec![
+            "Port".to_string(),
+            format!("area ({area_unit})"),
+            format!("flow ({flow_unit})"),
+            format!("mass flow ({mass_unit})"),
+            format!("mean velocity ({speed_unit})"),
+            format!("gauge pressure ({p_unit})"),
+        ],
+        rows: Vec::new(),
+        emphasised_rows: Vec::new(),
+    };
+    for p in &balance.ports {
+        let role = if p.role == Role::Inlet { "in" } else { "out" };
+        table.rows.push(vec![
+            format!("{} ({role})", p.name),
+            cell(p.area, Q::Area, area_unit),
+            cell(p.volume_flow, Q::VolumeFlow, flow_unit),
+            cell(p.mass_flow, Q::MassFlow, mass_unit),
+            cell(p.speed, Q::Velocity, speed_unit),
+            cell(p.pressure, Q::Pressure, p_unit),
+        ]);
+    }
+    table.rows.push(vec![
+        "mass residual Σout − Σin".to_string(),
+        String::new(),
+        String::new(),
+        cell(balance.mass_residual, Q::MassFlow, mass_unit),
+        String::new(),
+        String::new(),
+    ]);
+    table.emphasised_rows.push(table.rows.len() - 1);
+    table
+}
+
+/// Area of a circle of diameter `d`.
+pub fn circle_area(d: f64) -> f64 {
+    std::f64::consts::PI * d * d / 4.0
+}
+
+/// A force arrow ending at (or starting from) `at`, scaled by `scale` metres per
+/// newton, labelled with its formatted magnitude.
+pub fn force_arrow(
+    at: [f64; 2],
+    force: Vec3,
+    scale: f64,
+    label: String,
+    style: ShapeStyle,
+    tail_at_point: bool,
+) -> Option<Shape> {
+    let dx = force.x * scale;
+    let dy = force.y * scale;
+    if !(dx.is_finite() && dy.is_finite()) || (dx * dx + dy * dy).sqrt() < 1e-9 {
+        return None;
+    }
+    let (from, to) = if tail_at_point {
+        (at, [at[0] + dx, at[1] + dy])
+    } else {
+        ([at[0] - dx, at[1] - dy], at)
+    };
+    Some(Shape::Arrow { from, to, label, style })
+}
+
+/// Points of the two walls of a curved pipe of diameter `d` following an arc of
+/// radius `r` about `center`, from angle `a0` to `a1` (radians), as one closed
+/// polygon (outer wall out, inner wall back).
+pub fn arc_band(center: [f64; 2], r: f64, d: f64, a0: f64, a1: f64, steps: usize) -> Vec<[f64; 2]> {
+    let mut pts = Vec::with_capacity(2 * steps + 2);
+    for i in 0..=steps {
+        let a = a0 + (a1 - a0) * i as f64 / steps as f64;
+        pts.push([center[0] + (r + d / 2.0) * a.cos(), center[1] + (r + d / 2.0) * a.sin()]);
+    }
+    for i in (0..=steps).rev() {
+        let a = a0 + (a1 - a0) * i as f64 / steps as f64;
+        pts.push([center[0] + (r - d / 2.0) * a.cos(), center[1] + (r - d / 2.0) * a.sin()]);
+    }
+    pts
+}
+
+/// A straight pipe band from `a` to `b` of diameter `d` (closed polygon).
+pub fn straight_band(a: [f64; 2], b: [f64; 2], d: f64) -> Vec<[f64; 2]> {
+    let (dx, dy) = (b[0] - a[0], b[1] - a[1]);
+    let len = (dx * dx + dy * dy).sqrt().max(1e-12);
+    let (nx, ny) = (-dy / len * d / 2.0, dx / len * d / 2.0);
+    vec![
+        [a[0] + nx, a[1] + ny],
+        [b[0] + nx, b[1] + ny],
+        [b[0] - nx, b[1] - ny],
+        [a[0] - nx, a[1] - ny],
+    ]
+}
+
+/// Bounds of a set of points with a margin.
+pub fn bounds_of(points: impl IntoIterator<Item = [f64; 2]>, margin: f64) -> [f64; 4] {
+    let mut b = [f64::INFINITY, f64::INFINITY, f64::NEG_INFINITY, f64::NEG_INFINITY];
+    for p in points {
+        if p[0].is_finite() && p[1].is_finite() {
+            b[0] = b[0].min(p[0]);
+            b[1] = b[1].min(p[1]);
+            b[2] = b[2].max(p[0]);
+            b[3] = b[3].max(p[1]);
+        }
+    }
+    if !b.iter().all(|x| x.is_finite()) {
+        return [-1.0, -1.0, 1.0, 1.0];
+    }
+    [b[0] - margin, b[1] - margin, b[2] + margin, b[3] + margin]
+}
+
+/// Every point a shape touches (for bounds).
+pub fn shape_points(shape: &Shape) -> Vec<[f64; 2]> {
+    match shape {
+        Shape::Polygon { points, .. } | Shape::Polyline { points, .. } => points.clone(),
+        Shape::Circle { center, radius, .. } => {
+            vec![
+                [center[0] - radius, center[1] - radius],
+                [center[0] + radius, center[1] + radius],
+            ]
+        }
+        Shape::Arrow { from, to, .. } => vec![*from, *to],
+        Shape::Text { at, .. } => vec![*at],
+    }
+}
