@@ -308,6 +308,18 @@ pub struct Marker {
     pub label: String,
 }
 
+/// A link to another calculator with some of its inputs filled from this result
+/// (a fitting's thrust carried to the thrust-restraint page).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct CarryOver {
+    /// Key of the target calculator.
+    pub calculator: &'static str,
+    /// Text of the link ("Size a thrust block for this force").
+    pub label: String,
+    /// Field key → typed text for the target page.
+    pub inputs: Vec<(&'static str, String)>,
+}
+
 /// Everything a solved calculator reports.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct Solution {
@@ -316,6 +328,7 @@ pub struct Solution {
     pub diagrams: Vec<Diagram>,
     pub plots: Vec<Plot>,
     pub warnings: Vec<Warning>,
+    pub carry_over: Vec<CarryOver>,
 }
 
 impl Solution {
