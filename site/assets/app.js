@@ -1,0 +1,986 @@
+// Fluxledger page script: the one script of every page.
+//
+// It renders what the core describes and nothing more. It parses no numbers and
+// holds no physics: what the user typed goes to the wasm `solve` as text, and the
+// page shows the formatted outputs, the ledger tables, the diagrams and plots, the
+// warnings and the field errors that come back. The state of a calculation lives in
+// the URL (`?p=150psi&d=12in&units=us`); every piece of URL or user text is written
+// to the page through `textContent` or `value`, never as markup, and never into an
+// `href` or `src`.
+//
+// Layout of the calculator section (filled into `<section id="calculator">`):
+//   toolbar (unit system, copy link, print) · #notices · headline results ·
+//   input form · details (other outputs, warnings, tables, diagrams, plots) ·
+//   print footer (link and version).
+
+const SVG_NS = "http://www.w3.org/2000/svg";
+
+/** Longest piece of URL text quoted back in a notice. */
+const QUOTE_MAX = 60;
+
+/** Plain names of the shape styles, for diagram legends. */
+const STYLE_NAMES = {
+  restraint: "Restraint: force the supports exert on the fitting",
+  thrust: "Thrust: force the fluid exerts on the fitting",
+  pressure: "Pressure force (gauge)",
+  momentum: "Momentum flux",
+  weight: "Weight",
+  velocity: "Velocity",
+  flow: "Flow direction",
+  control_volume: "Control volume",
+  wall: "Pipe or body",
+  fluid: "Fluid",
+  guide: "Guide line",
+};
+
+// ---------------------------------------------------------------------------
+// Small DOM helpers (text only).
+
+/** Creates an HTML element with attributes and text or child nodes. */
+function el(tag, attrs, ...children) {
+  const node = document.createElement(tag);
+  setAttrs(node, attrs);
+  for (const child of children) {
+    if (child === null || child === undefined || child === false) continue;
+    node.append(typeof child === "string" ? document.createTextNode(child) : child);
+  }
+  return node;
+}
+
+/** Creates an SVG element with attributes. */
+function svg(tag, attrs, ...children) {
+  const node = document.createElementNS(SVG_NS, tag);
+  setAttrs(node, attrs);
+  for (const child of children) {
+    if (child === null || child === undefined) continue;
+    node.append(typeof child === "string" ? document.createTextNode(child) : child);
+  }
+  return node;
+}
+
+function setAttrs(node, attrs) {
+  if (!attrs) return;
+  for (const [name, value] of Object.entries(attrs)) {
+    if (value === null || value === undefined || value === false) continue;
+    if (name === "text") node.textContent = value;
+    else if (name === "dataset") Object.assign(node.dataset, value);
+    else node.setAttribute(name, value === true ? "" : String(value));
+  }
+}
+
+/** Shortens text for quoting (by code points, so no surrogate is split). */
+function quote(text) {
+  const chars = Array.from(String(text));
+  const cut = chars.length > QUOTE_MAX ? chars.slice(0, QUOTE_MAX).join("") + "…" : chars.join("");
+  return "“" + cut + "”" + (chars.length > QUOTE_MAX ? ` (${chars.length} characters)` : "");
+}
+
+/** Shows unit ids with superscripts and a centre dot (display only; ids stay ASCII). */
+function prettyUnit(id) {
+  if (id === "degC") return "°C";
+  if (id === "degF") return "°F";
+  if (id === "deg") return "°";
+  return id
+    .replace(/([A-Za-z)])2(?![0-9])/g, "$1²")
+    .replace(/([A-Za-z)])3(?![0-9])/g, "$1³")
+    .replace(/\./g, "·");
+}
+
+/** Prettifies the unit of a formatted "number unit" value; other text is untouched. */
+function prettyValue(text) {
+  const match = /^([-+]?[0-9][0-9.,]*(?:e[-+]?[0-9]+)?) (\S+)$/.exec(text);
+  if (!match) return text;
+  const unit = prettyUnit(match[2]);
+  return unit === "°" ? match[1] + "°" : match[1] + " " + unit;
+}
+
+// ---------------------------------------------------------------------------
+// The wasm module. Loaded on calculator pages only; re-initialised after a trap.
+
+let glue = null;
+let glueGeneration = 0;
+
+async function loadGlue() {
+  // A new query string gives a fresh module instance (a trapped instance cannot be
+  // reset); the service worker answers it from the cache as well.
+  const suffix = glueGeneration === 0 ? "" : `?instance=${glueGeneration}`;
+  glueGeneration += 1;
+  const module = await import("./__GLUE__" + suffix);
+  await module.default();
+  glue = module;
+}
+
+// ---------------------------------------------------------------------------
+// Page state.
+
+const state = {
+  catalog: null,
+  spec: null,
+  /** field key -> text as typed */
+  values: {},
+  /** field key -> unit id shown in the selector */
+  units: {},
+  system: "si",
+  /** field key -> {number, unit} from the last solve */
+  echoes: {},
+  firstResultMarked: false,
+  /** Refs to the DOM parts. */
+  ui: {},
+  figureWidth: 0,
+  lastResult: null,
+};
+
+function defaultUnit(field, system) {
+  return system === "us" ? field.us_unit || field.si_unit : field.si_unit || field.us_unit;
+}
+
+function isQuantity(field) {
+  return field.kind === "quantity" && Array.isArray(field.units) && field.units.length > 0;
+}
+
+// ---------------------------------------------------------------------------
+// Notices.
+
+function noticesBox() {
+  let box = document.getElementById("notices");
+  if (!box) {
+    box = el("div", { id: "notices", class: "notices", role: "status", "aria-live": "polite" });
+    const host = document.getElementById("calculator") || document.body;
+    host.prepend(box);
+  }
+  return box;
+}
+
+/**
+ * Shows a notice. `parts` are strings (plain text) or nodes; `action` an optional
+ * `{label, run}` button.
+ */
+function notice(kind, parts, action) {
+  const box = noticesBox();
+  const item = el("p", { class: `notice notice-${kind}` });
+  for (const part of parts) item.append(typeof part === "string" ? document.createTextNode(part) : part);
+  if (action) {
+    const button = el("button", { type: "button", class: "notice-action", text: action.label });
+    button.addEventListener("click", action.run);
+    item.append(" ", button);
+  }
+  const dismiss = el("button", { type: "button", class: "notice-dismiss", "aria-label": "Dismiss this notice", text: "×" });
+  dismiss.addEventListener("click", () => item.remove());
+  item.append(dismiss);
+  box.append(item);
+  return item;
+}
+
+// ---------------------------------------------------------------------------
+// URL state.
+
+/** Reads the query string into state, collecting notices for what cannot be used. */
+function readUrl(spec) {
+  const params = new URLSearchParams(location.search);
+  const fromUrl = new Map();
+  const keys = new Set(spec.fields.map((f) => f.key));
+  for (const [key, value] of params) {
+    if (key === "units") {
+      if (value === "si" || value === "us") state.system = value;
+      else
+        notice("warn", [
+          `The link asks for the unit system ${quote(value)}, which is not known (use “si” or “us”); SI is used.`,
+        ]);
+    } else if (keys.has(key)) {
+      fromUrl.set(key, value);
+    } else {
+      notice("warn", [`The link has an entry ${quote(key)} that this page does not use; it was left out.`]);
+    }
+  }
+  return fromUrl;
+}
+
+/** Writes the current inputs to the address bar (no new history entry). */
+function writeUrl() {
+  const params = new URLSearchParams();
+  for (const field of state.spec.fields) {
+    if (!isVisible(field)) continue;
+    const text = (state.values[field.key] ?? "").trim();
+    const echo = state.echoes[field.key];
+    if (text === "") {
+      if (field.demo) params.set(field.key, "");
+    } else if (echo && isQuantity(field)) {
+      params.set(field.key, echo.number + echo.unit);
+    } else {
+      params.set(field.key, text);
+    }
+  }
+  params.set("units", state.system);
+  history.replaceState(history.state, "", "?" + params.toString());
+  updatePrintFooter();
+}
+
+// ---------------------------------------------------------------------------
+// Solving.
+
+function request() {
+  const inputs = {};
+  const units = {};
+  for (const field of state.spec.fields) {
+    inputs[field.key] = state.values[field.key] ?? "";
+    if (isQuantity(field)) units[field.key] = state.units[field.key] || defaultUnit(field, state.system);
+  }
+  return { inputs, units };
+}
+
+/** Calls the wasm solve; recovers from a trap by loading a fresh module instance. */
+function solveNow() {
+  const { inputs, units } = request();
+  try {
+    return glue.solve(state.spec.key, inputs, units, state.system);
+  } catch (error) {
+    const trapped = error instanceof WebAssembly.RuntimeError;
+    notice("error", [
+      trapped
+        ? "The calculation stopped unexpectedly for these inputs. The calculator was restarted; please check the inputs. This is a fault in Fluxledger."
+        : "The calculation could not be run for these inputs. This is a fault in Fluxledger.",
+    ]);
+    glue = null;
+    restart();
+    return null;
+  }
+}
+
+async function restart() {
+  try {
+    await loadGlue();
+    recompute({ writeToUrl: false });
+  } catch (error) {
+    notice("error", ["The calculator could not be restarted; reload the page."]);
+    document.body.dataset.state = "error";
+  }
+}
+
+function recordEchoes(result) {
+  state.echoes = {};
+  for (const echo of result.echoes || []) {
+    if (echo && echo.field) state.echoes[echo.field] = { number: echo.number, unit: echo.unit };
+  }
+}
+
+/** Recomputes, renders, and optionally writes the URL. */
+function recompute({ writeToUrl }) {
+  if (!glue) return;
+  const result = solveNow();
+  if (!result) return;
+  recordEchoes(result);
+  syncUnitSelectors();
+  applyVisibility();
+  render(result);
+  if (writeToUrl) writeUrl();
+}
+
+// ---------------------------------------------------------------------------
+// Building the form.
+
+function isVisible(field) {
+  const rule = field.visible_when;
+  if (!rule) return true;
+  return Array.isArray(rule.values) && rule.values.includes(state.values[rule.field] ?? "");
+}
+
+function controlId(key) {
+  return "field-" + key;
+}
+
+function buildToolbar() {
+  const bar = el("div", { class: "toolbar" });
+
+  const systems = el("fieldset", { class: "system-switch" }, el("legend", { text: "Units" }));
+  for (const system of state.catalog.unit_systems || [
+    { key: "si", label: "SI" },
+    { key: "us", label: "US customary" },
+  ]) {
+    const input = el("input", { type: "radio", name: "unit-system", value: system.key });
+    input.checked = system.key === state.system;
+    input.addEventListener("change", () => {
+      if (!input.checked) return;
+      changeSystem(system.key);
+    });
+    systems.append(el("label", { class: "system-option" }, input, el("span", { text: system.label })));
+  }
+
+  const copy = el("button", { type: "button", class: "button", text: "Copy link" });
+  copy.addEventListener("click", copyLink);
+  const print = el("button", { type: "button", class: "button", text: "Print sheet" });
+  print.addEventListener("click", () => window.print());
+  const copyStatus = el("span", { class: "copy-status", role: "status", "aria-live": "polite" });
+  const copyField = el("input", {
+    type: "text",
+    class: "copy-field",
+    readonly: true,
+    "aria-label": "Link to this calculation",
+    hidden: true,
+  });
+
+  bar.append(systems, el("div", { class: "toolbar-actions" }, copy, print, copyStatus), copyField);
+  state.ui.systemInputs = systems.querySelectorAll("input");
+  state.ui.copyStatus = copyStatus;
+  state.ui.copyField = copyField;
+  return bar;
+}
+
+function changeSystem(system) {
+  state.system = system;
+  // Empty quantity fields take the new system's default unit; filled ones keep the
+  // unit they were typed in, so no value changes meaning.
+  for (const field of state.spec.fields) {
+    if (!isQuantity(field)) continue;
+    if ((state.values[field.key] ?? "").trim() === "") {
+      state.units[field.key] = defaultUnit(field, system);
+      const select = state.ui.unitSelects.get(field.key);
+      if (select) select.value = state.units[field.key];
+    }
+  }
+  recompute({ writeToUrl: true });
+}
+
+async function copyLink() {
+  const link = location.href;
+  const status = state.ui.copyStatus;
+  try {
+    if (!navigator.clipboard || !window.isSecureContext) throw new Error("no clipboard");
+    await navigator.clipboard.writeText(link);
+    status.textContent = "Link copied.";
+    state.ui.copyField.hidden = true;
+  } catch (error) {
+    const field = state.ui.copyField;
+    field.value = link;
+    field.hidden = false;
+    field.focus();
+    field.select();
+    status.textContent = "Copy the selected link.";
+  }
+}
+
+function buildField(field) {
+  const id = controlId(field.key);
+  const wrap = el("div", { class: "field", dataset: { field: field.key } });
+  const describedBy = [];
+  const label = el("label", { for: id, class: "field-label", text: field.label });
+  if (field.optional) label.append(el("span", { class: "optional", text: " (optional)" }));
+  wrap.append(label);
+
+  let control;
+  const entry = el("div", { class: "entry" });
+  if (field.kind === "choice") {
+    control = el("select", { id, name: field.key, class: "choice" });
+    for (const option of field.options || []) {
+      control.append(el("option", { value: option.key, text: option.label }));
+    }
+    control.value = state.values[field.key] ?? "";
+    entry.append(control);
+  } else if (field.kind === "text") {
+    control = el("textarea", {
+      id,
+      name: field.key,
+      rows: 4,
+      spellcheck: "false",
+      autocapitalize: "off",
+      autocomplete: "off",
+    });
+    control.value = state.values[field.key] ?? "";
+    entry.append(control);
+  } else {
+    control = el("input", {
+      id,
+      name: field.key,
+      type: "text",
+      class: "quantity",
+      autocomplete: "off",
+      autocapitalize: "off",
+      spellcheck: "false",
+      enterkeyhint: "done",
+    });
+    control.value = state.values[field.key] ?? "";
+    entry.append(control);
+    if (isQuantity(field)) {
+      const select = el("select", { class: "unit", "aria-label": `Unit of ${field.label}` });
+      for (const unit of field.units) select.append(el("option", { value: unit, text: prettyUnit(unit) }));
+      select.value = state.units[field.key];
+      select.addEventListener("change", () => {
+        state.units[field.key] = select.value;
+        recompute({ writeToUrl: true });
+      });
+      state.ui.unitSelects.set(field.key, select);
+      entry.append(select);
+    }
+    // When the user leaves a field, show the number alone with its unit in the
+    // selector, as the core read it (`150 psi` -> `150` [psi]).
+    control.addEventListener("change", () => normaliseField(field));
+  }
+  control.addEventListener("input", () => {
+    state.values[field.key] = control.value;
+    recompute({ writeToUrl: true });
+  });
+  if (field.kind === "choice") {
+    control.addEventListener("change", () => {
+      state.values[field.key] = control.value;
+      recompute({ writeToUrl: true });
+    });
+  }
+  wrap.append(entry);
+
+  if (field.help) {
+    const help = el("p", { class: "help", id: id + "-help", text: field.help });
+    describedBy.push(help.id);
+    wrap.append(help);
+  }
+  const error = el("p", { class: "field-error", id: id + "-error", dataset: { errorFor: field.key }, hidden: true });
+  describedBy.push(error.id);
+  const warning = el("p", { class: "field-warning", id: id + "-warning", hidden: true });
+  describedBy.push(warning.id);
+  wrap.append(error, warning);
+  control.setAttribute("aria-describedby", describedBy.join(" "));
+
+  state.ui.controls.set(field.key, control);
+  state.ui.fieldWraps.set(field.key, wrap);
+  state.ui.fieldErrors.set(field.key, error);
+  state.ui.fieldWarnings.set(field.key, warning);
+  return wrap;
+}
+
+function normaliseField(field) {
+  const echo = state.echoes[field.key];
+  const control = state.ui.controls.get(field.key);
+  if (!echo || !control || !isQuantity(field)) return;
+  if (control.value.trim() !== echo.number) {
+    control.value = echo.number;
+    state.values[field.key] = echo.number;
+  }
+  if (state.units[field.key] !== echo.unit) {
+    state.units[field.key] = echo.unit;
+    const select = state.ui.unitSelects.get(field.key);
+    if (select) select.value = echo.unit;
+  }
+}
+
+/** Keeps each unit selector on the unit the core actually applied. */
+function syncUnitSelectors() {
+  for (const [key, select] of state.ui.unitSelects) {
+    const echo = state.echoes[key];
+    if (echo && echo.unit && select.value !== echo.unit) {
+      select.value = echo.unit;
+      state.units[key] = echo.unit;
+    }
+  }
+}
+
+function applyVisibility() {
+  for (const field of state.spec.fields) {
+    const wrap = state.ui.fieldWraps.get(field.key);
+    if (wrap) wrap.hidden = !isVisible(field);
+  }
+}
+
+function buildPage() {
+  const section = document.getElementById("calculator") || document.body.appendChild(el("section", { id: "calculator" }));
+  state.ui.controls = new Map();
+  state.ui.unitSelects = new Map();
+  state.ui.fieldWraps = new Map();
+  state.ui.fieldErrors = new Map();
+  state.ui.fieldWarnings = new Map();
+
+  const toolbar = buildToolbar();
+  const notices = noticesBox();
+
+  const headline = el("div", { class: "headline", "aria-live": "polite", "aria-atomic": "true" });
+  const form = el("form", { class: "inputs", novalidate: true, "aria-label": "Inputs" });
+  form.addEventListener("submit", (event) => event.preventDefault());
+  form.append(el("h2", { class: "panel-title", text: "Inputs" }));
+  for (const field of state.spec.fields) form.append(buildField(field));
+
+  const details = el("div", { class: "details" });
+  const printFooter = el("div", { class: "print-footer" });
+
+  const grid = el("div", { class: "calc-grid" }, headline, form, details);
+  section.replaceChildren(toolbar, notices, grid, printFooter);
+  Object.assign(state.ui, { section, headline, form, details, printFooter });
+
+  window.addEventListener("resize", () => {
+    const width = measureFigureWidth();
+    if (width !== state.figureWidth && state.lastResult) render(state.lastResult);
+  });
+}
+
+function updatePrintFooter() {
+  const footer = state.ui.printFooter;
+  if (!footer) return;
+  footer.replaceChildren(
+    el("p", {}, el("strong", { text: "Link to this calculation: " }), el("span", { class: "print-url", text: location.href })),
+    el("p", {
+      text: `Fluxledger ${state.catalog.version || ""} · printed ${new Date().toISOString().slice(0, 10)} · unit system ${
+        state.system === "us" ? "US customary" : "SI"
+      }`,
+    }),
+  );
+}
+
+// ---------------------------------------------------------------------------
+// Rendering results.
+
+function render(result) {
+  state.lastResult = result;
+  const ui = state.ui;
+  for (const error of ui.fieldErrors.values()) {
+    error.hidden = true;
+    error.textContent = "";
+  }
+  for (const warning of ui.fieldWarnings.values()) {
+    warning.hidden = true;
+    warning.textContent = "";
+  }
+  for (const control of ui.controls.values()) control.removeAttribute("aria-invalid");
+
+  if (!result.ok) {
+    const general = [];
+    for (const error of result.errors || []) {
+      const box = ui.fieldErrors.get(error.field);
+      const wrap = ui.fieldWraps.get(error.field);
+      if (box && wrap && !wrap.hidden) {
+        box.textContent = `${error.label || "This field"}: ${error.message}`;
+        box.hidden = false;
+        ui.controls.get(error.field)?.setAttribute("aria-invalid", "true");
+      } else {
+        general.push(error.label ? `${error.label}: ${error.message}` : error.message);
+      }
+    }
+    ui.headline.replaceChildren(
+      el("p", { class: "no-result", text: "No result yet: correct the marked inputs." }),
+      ...general.map((text) => el("p", { class: "general-error", text })),
+    );
+    ui.details.replaceChildren();
+    finishRender("error");
+    return;
+  }
+
+  const headline = el("dl", { class: "headline-values" });
+  const others = el("dl", { class: "output-list" });
+  for (const output of result.outputs || []) {
+    const target = output.headline ? headline : others;
+    target.append(
+      el(
+        "div",
+        { class: "output" },
+        el("dt", { text: output.label }),
+        el("dd", { dataset: { output: output.key }, title: output.text, text: prettyValue(output.text) }),
+      ),
+    );
+  }
+  ui.headline.replaceChildren(el("h2", { class: "panel-title", text: "Result" }), headline);
+
+  const parts = [];
+  if (others.childElementCount > 0) {
+    parts.push(el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), others));
+  }
+  const warnings = result.warnings || [];
+  if (warnings.length > 0) {
+    const list = el("ul", { class: "warnings" });
+    for (const warning of warnings) {
+      list.append(el("li", { text: warning.message }));
+      const box = warning.field ? ui.fieldWarnings.get(warning.field) : null;
+      if (box) {
+        box.textContent = warning.message;
+        box.hidden = false;
+      }
+    }
+    parts.push(el("section", { class: "panel panel-warnings" }, el("h2", { class: "panel-title", text: "Check" }), list));
+  }
+  for (const table of result.tables || []) parts.push(renderTable(table));
+  const width = state.figureWidth || measureFigureWidth();
+  for (const [index, diagram] of (result.diagrams || []).entries()) parts.push(renderDiagram(diagram, index, width));
+  for (const plot of result.plots || []) parts.push(renderPlot(plot, width));
+  ui.details.replaceChildren(...parts);
+  finishRender("ready");
+}
+
+function finishRender(status) {
+  document.body.dataset.state = status;
+  if (!state.firstResultMarked) {
+    state.firstResultMarked = true;
+    performance.mark("fluxledger:first-result");
+  }
+}
+
+/** Width available to figures, in CSS pixels (measured once per layout change). */
+function measureFigureWidth() {
+  const details = state.ui.details;
+  const width = details ? Math.round(details.clientWidth) : 0;
+  state.figureWidth = width > 0 ? Math.min(width, 720) : 320;
+  return state.figureWidth;
+}
+
+function renderTable(table) {
+  const element = el("table", { class: "ledger", dataset: { table: table.key || "" } });
+  if (table.title) element.append(el("caption", { text: table.title }));
+  const head = el("tr");
+  for (const column of table.columns || []) head.append(el("th", { scope: "col", text: column }));
+  element.append(el("thead", {}, head));
+  const body = el("tbody");
+  const emphasised = new Set(table.emphasised_rows || []);
+  for (const [index, row] of (table.rows || []).entries()) {
+    const tr = el("tr", emphasised.has(index) ? { class: "emphasised" } : {});
+    row.forEach((cell, column) => {
+      tr.append(column === 0 ? el("th", { scope: "row", text: cell }) : el("td", { text: prettyValue(cell) }));
+    });
+    body.append(tr);
+  }
+  element.append(body);
+  return el("section", { class: "panel panel-table" }, el("div", { class: "table-scroll", tabindex: "0" }, element));
+}
+
+// ---------------------------------------------------------------------------
+// Diagrams: model coordinates in metres, y up; SVG y down, so y is negated.
+
+function finite(...numbers) {
+  return numbers.every((n) => typeof n === "number" && Number.isFinite(n));
+}
+
+function renderDiagram(diagram, index, width) {
+  let [minX, minY, maxX, maxY] = diagram.bounds || [0, 0, 1, 1];
+  if (!finite(minX, minY, maxX, maxY) || maxX <= minX || maxY <= minY) [minX, minY, maxX, maxY] = [0, 0, 1, 1];
+  const spanX = maxX - minX;
+  const spanY = maxY - minY;
+  const margin = 0.06 * Math.max(spanX, spanY);
+  const vbX = minX - margin;
+  const vbY = -maxY - margin;
+  const vbW = spanX + 2 * margin;
+  const vbH = spanY + 2 * margin;
+  // Screen size: full width, height by aspect ratio but never taller than the phone.
+  let pxW = width;
+  let pxH = (pxW * vbH) / vbW;
+  const maxH = Math.max(260, Math.min(560, window.innerHeight * 0.7 || 560));
+  if (pxH > maxH) {
+    pxH = maxH;
+    pxW = (pxH * vbW) / vbH;
+  }
+  const scale = pxW / vbW; // screen px per model metre
+  const px = (n) => n / scale; // screen px -> model units
+  const fontSize = px(13);
+  const prefix = `d${index}`;
+
+  const root = svg("svg", {
+    class: "diagram",
+    viewBox: `${vbX} ${vbY} ${vbW} ${vbH}`,
+    width: Math.round(pxW),
+    height: Math.round(pxH),
+    role: "img",
+    "aria-label": diagram.title || "Diagram",
+    "font-size": fontSize,
+  });
+  const styles = new Set();
+  const markerFor = (style) => `${prefix}-head-${style}`;
+  const defs = svg("defs");
+  root.append(defs);
+  const arrowStyles = new Set();
+  const labels = [];
+
+  for (const shape of diagram.shapes || []) {
+    const style = String(shape.style || "label");
+    const cls = `shape s-${style}`;
+    switch (shape.type) {
+      case "polygon":
+      case "polyline": {
+        const points = (shape.points || []).filter((p) => finite(p[0], p[1]));
+        if (points.length < 2) break;
+        root.append(
+          svg(shape.type, {
+            class: cls,
+            points: points.map((p) => `${p[0]},${-p[1]}`).join(" "),
+            "vector-effect": "non-scaling-stroke",
+          }),
+        );
+        styles.add(style);
+        break;
+      }
+      case "circle": {
+        const c = shape.center || [];
+        if (!finite(c[0], c[1], shape.radius)) break;
+        root.append(svg("circle", { class: cls, cx: c[0], cy: -c[1], r: Math.abs(shape.radius), "vector-effect": "non-scaling-stroke" }));
+        styles.add(style);
+        break;
+      }
+      case "arrow": {
+        const a = shape.from || [];
+        const b = shape.to || [];
+        if (!finite(a[0], a[1], b[0], b[1])) break;
+        arrowStyles.add(style);
+        styles.add(style);
+        root.append(
+          svg("line", {
+            class: `${cls} arrow`,
+            x1: a[0],
+            y1: -a[1],
+            x2: b[0],
+            y2: -b[1],
+            "vector-effect": "non-scaling-stroke",
+            "marker-end": `url(#${markerFor(style)})`,
+          }),
+        );
+        if (shape.label) {
+          // Label just beyond the tip, on the side the arrow points to.
+          const dx = b[0] - a[0];
+          const dy = b[1] - a[1];
+          const length = Math.hypot(dx, dy) || 1;
+          const ox = (dx / length) * px(6);
+          const oy = (dy / length) * px(6);
+          labels.push({ x: b[0] + ox, y: b[1] + oy, dx, dy, text: shape.label, style });
+        }
+        break;
+      }
+      case "text": {
+        const at = shape.at || [];
+        if (!finite(at[0], at[1]) || !shape.text) break;
+        labels.push({ x: at[0], y: at[1], dx: 0, dy: 0, text: shape.text, style, plain: true });
+        break;
+      }
+      default:
+        break;
+    }
+  }
+
+  for (const style of arrowStyles) {
+    const size = px(style === "restraint" || style === "thrust" ? 12 : 10);
+    defs.append(
+      svg(
+        "marker",
+        {
+          id: markerFor(style),
+          class: `head s-${style}`,
+          viewBox: "0 0 10 10",
+          refX: 9,
+          refY: 5,
+          markerWidth: size,
+          markerHeight: size,
+          markerUnits: "userSpaceOnUse",
+          orient: "auto-start-reverse",
+        },
+        svg("path", { d: "M0,0 L10,5 L0,10 z" }),
+      ),
+    );
+  }
+  // Labels last, so they sit on top of the lines.
+  for (const label of labels) {
+    let anchor = "middle";
+    if (!label.plain) {
+      if (label.dx > Math.abs(label.dy) * 0.3) anchor = "start";
+      else if (label.dx < -Math.abs(label.dy) * 0.3) anchor = "end";
+    }
+    let baseline = "central";
+    if (!label.plain && Math.abs(label.dy) > Math.abs(label.dx)) baseline = label.dy > 0 ? "auto" : "hanging";
+    root.append(
+      svg("text", {
+        class: `label s-${label.style}`,
+        x: label.x,
+        y: -label.y,
+        "text-anchor": anchor,
+        "dominant-baseline": baseline,
+        text: label.text,
+      }),
+    );
+  }
+
+  const figure = el("figure", { class: "panel figure" });
+  if (diagram.title) figure.append(el("h2", { class: "panel-title", text: diagram.title }));
+  figure.append(el("div", { class: "figure-canvas" }, root));
+  const legend = renderLegend(styles);
+  if (legend) figure.append(legend);
+  if (diagram.caption) figure.append(el("figcaption", { text: diagram.caption }));
+  return figure;
+}
+
+function renderLegend(styles) {
+  const order = ["restraint", "thrust", "pressure", "momentum", "weight", "velocity", "flow", "control_volume", "wall", "fluid"];
+  const shown = order.filter((style) => styles.has(style));
+  if (shown.length === 0) return null;
+  const list = el("ul", { class: "legend" });
+  for (const style of shown) {
+    const isArrow = ["restraint", "thrust", "pressure", "momentum", "weight", "velocity", "flow"].includes(style);
+    const swatch = svg("svg", { class: "swatch", viewBox: "0 0 36 12", width: 36, height: 12, "aria-hidden": "true" });
+    if (isArrow) {
+      swatch.append(
+        svg("line", { class: `shape s-${style} arrow`, x1: 1, y1: 6, x2: 28, y2: 6 }),
+        svg("path", { class: `head s-${style}`, d: "M26,1 L35,6 L26,11 z" }),
+      );
+    } else {
+      swatch.append(svg("rect", { class: `shape s-${style}`, x: 2, y: 1, width: 32, height: 10 }));
+    }
+    list.append(el("li", {}, swatch, el("span", { text: STYLE_NAMES[style] || style })));
+  }
+  return list;
+}
+
+// ---------------------------------------------------------------------------
+// Plots.
+
+/** Round tick values spanning [lo, hi]: steps of 1, 2 or 5 times a power of ten. */
+function ticks(lo, hi, count) {
+  if (!(hi > lo)) return { lo: lo - 1, hi: hi + 1, values: [lo] };
+  const raw = (hi - lo) / Math.max(1, count);
+  const power = Math.pow(10, Math.floor(Math.log10(raw)));
+  const step = [1, 2, 5, 10].map((m) => m * power).find((s) => s >= raw) || raw;
+  const start = Math.floor(lo / step) * step;
+  const end = Math.ceil(hi / step) * step;
+  const values = [];
+  for (let v = start; v <= end + step * 1e-9 && values.length < 50; v += step) values.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+  return { lo: start, hi: end, values, step };
+}
+
+function tickText(value, step) {
+  const decimals = Math.max(0, Math.min(6, -Math.floor(Math.log10(step || 1) + 1e-9)));
+  const abs = Math.abs(value);
+  if (abs !== 0 && (abs >= 1e6 || abs < 1e-4)) return value.toExponential(1);
+  return value.toFixed(decimals);
+}
+
+function renderPlot(plot, width) {
+  const points = [];
+  for (const series of plot.series || []) for (const p of series.points || []) if (finite(p[0], p[1])) points.push(p);
+  for (const marker of plot.markers || []) if (finite(marker.at?.[0], marker.at?.[1])) points.push(marker.at);
+  const figure = el("figure", { class: "panel figure plot", dataset: { plot: plot.key || "" } });
+  if (plot.title) figure.append(el("h2", { class: "panel-title", text: plot.title }));
+  if (points.length === 0) {
+    figure.append(el("p", { text: "Nothing to plot for these inputs." }));
+    return figure;
+  }
+  const W = Math.max(280, width);
+  const H = Math.round(Math.min(360, Math.max(220, W * 0.62)));
+  const pad = { left: 58, right: 14, top: 12, bottom: 44 };
+  const xs = points.map((p) => p[0]);
+  const ys = points.map((p) => p[1]);
+  const tx = ticks(Math.min(...xs), Math.max(...xs), W < 420 ? 4 : 6);
+  const ty = ticks(Math.min(0, Math.min(...ys)), Math.max(...ys), 5);
+  const sx = (x) => pad.left + ((x - tx.lo) / (tx.hi - tx.lo)) * (W - pad.left - pad.right);
+  const sy = (y) => H - pad.bottom - ((y - ty.lo) / (ty.hi - ty.lo)) * (H - pad.top - pad.bottom);
+
+  const root = svg("svg", { class: "plot-svg", viewBox: `0 0 ${W} ${H}`, width: W, height: H, role: "img", "aria-label": plot.title || "Plot" });
+  const grid = svg("g", { class: "plot-grid" });
+  for (const v of tx.values) {
+    grid.append(svg("line", { x1: sx(v), y1: pad.top, x2: sx(v), y2: H - pad.bottom }));
+    root.append(svg("text", { class: "tick", x: sx(v), y: H - pad.bottom + 16, "text-anchor": "middle", text: tickText(v, tx.step) }));
+  }
+  for (const v of ty.values) {
+    grid.append(svg("line", { x1: pad.left, y1: sy(v), x2: W - pad.right, y2: sy(v) }));
+    root.append(svg("text", { class: "tick", x: pad.left - 6, y: sy(v), "text-anchor": "end", "dominant-baseline": "central", text: tickText(v, ty.step) }));
+  }
+  root.prepend(grid);
+  root.append(
+    svg("line", { class: "axis", x1: pad.left, y1: H - pad.bottom, x2: W - pad.right, y2: H - pad.bottom }),
+    svg("line", { class: "axis", x1: pad.left, y1: pad.top, x2: pad.left, y2: H - pad.bottom }),
+    svg("text", { class: "axis-label", x: (pad.left + W - pad.right) / 2, y: H - 6, "text-anchor": "middle", text: plot.x_label || "" }),
+    svg("text", {
+      class: "axis-label",
+      x: 0,
+      y: 0,
+      transform: `translate(14 ${(pad.top + H - pad.bottom) / 2}) rotate(-90)`,
+      "text-anchor": "middle",
+      text: plot.y_label || "",
+    }),
+  );
+  const legend = el("ul", { class: "legend" });
+  (plot.series || []).forEach((series, index) => {
+    const pts = (series.points || []).filter((p) => finite(p[0], p[1]));
+    if (pts.length === 0) return;
+    root.append(svg("polyline", { class: `series series-${index % 4}`, points: pts.map((p) => `${sx(p[0])},${sy(p[1])}`).join(" ") }));
+    const swatch = svg("svg", { class: "swatch", viewBox: "0 0 36 12", width: 36, height: 12, "aria-hidden": "true" });
+    swatch.append(svg("line", { class: `series series-${index % 4}`, x1: 1, y1: 6, x2: 35, y2: 6 }));
+    legend.append(el("li", {}, swatch, el("span", { text: series.name || `Series ${index + 1}` })));
+  });
+  for (const marker of plot.markers || []) {
+    if (!finite(marker.at?.[0], marker.at?.[1])) continue;
+    const x = sx(marker.at[0]);
+    const y = sy(marker.at[1]);
+    root.append(svg("circle", { class: "marker", cx: x, cy: y, r: 5 }));
+    if (marker.label) {
+      const right = x < W * 0.6;
+      root.append(
+        svg("text", { class: "marker-label", x: right ? x + 9 : x - 9, y: y - 9, "text-anchor": right ? "start" : "end", text: marker.label }),
+      );
+    }
+  }
+  figure.append(el("div", { class: "figure-canvas" }, root));
+  if (legend.childElementCount > 0) figure.append(legend);
+  return figure;
+}
+
+// ---------------------------------------------------------------------------
+// Start-up.
+
+/** Solves with the URL's values; any URL value the core refuses falls back to the demo. */
+function settleInitialValues(spec, fromUrl) {
+  for (const field of spec.fields) {
+    state.values[field.key] = fromUrl.has(field.key) ? fromUrl.get(field.key) : field.demo || "";
+    if (isQuantity(field)) state.units[field.key] = defaultUnit(field, state.system);
+  }
+  if (fromUrl.size === 0) return;
+  const labels = new Map(spec.fields.map((f) => [f.key, f]));
+  for (let round = 0; round < 3; round += 1) {
+    const result = solveNow();
+    if (!result || result.ok) return;
+    let changed = false;
+    for (const error of result.errors || []) {
+      if (!fromUrl.has(error.field)) continue;
+      const field = labels.get(error.field);
+      const text = fromUrl.get(error.field);
+      fromUrl.delete(error.field);
+      state.values[error.field] = field.demo || "";
+      changed = true;
+      notice("warn", [
+        `The link gives ${field.label} as ${quote(text)}: ${error.message}. `,
+        field.demo ? `The example value ${field.demo} is used instead.` : "The field was left empty.",
+      ]);
+    }
+    if (!changed) return;
+  }
+}
+
+function registerServiceWorker() {
+  if (!("serviceWorker" in navigator)) return;
+  const hadController = Boolean(navigator.serviceWorker.controller);
+  navigator.serviceWorker.addEventListener("controllerchange", () => {
+    // The first install takes control silently; a later one means a new version.
+    if (!hadController) return;
+    notice("info", ["A new version of Fluxledger is ready."], { label: "Reload", run: () => location.reload() });
+  });
+  navigator.serviceWorker.register("./sw.js").catch(() => {
+    // Without a service worker the page still works online; nothing to report.
+  });
+}
+
+async function start() {
+  const key = document.body.dataset.calculator;
+  if (!key) {
+    registerServiceWorker();
+    return;
+  }
+  try {
+    await loadGlue();
+    state.catalog = glue.catalog();
+  } catch (error) {
+    notice("error", ["The calculator could not be loaded. Reload the page; if this persists, the browser may be blocking WebAssembly."]);
+    document.body.dataset.state = "error";
+    registerServiceWorker();
+    return;
+  }
+  const spec = (state.catalog.calculators || []).find((c) => c.key === key);
+  if (!spec) {
+    notice("error", [`This page asks for a calculator ${quote(key)} that this version does not have.`]);
+    document.body.dataset.state = "error";
+    registerServiceWorker();
+    return;
+  }
+  state.spec = spec;
+  const fromUrl = readUrl(spec);
+  settleInitialValues(spec, fromUrl);
+  buildPage();
+  recompute({ writeToUrl: false });
+  updatePrintFooter();
+  registerServiceWorker();
+}
+
+start();

@@ -1,0 +1,88 @@
+// Fluxledger service worker: makes every page work offline after one visit.
+//
+// Strategy: cache first for same-origin GET requests, from one cache per site
+// build. The site tool fills in the build's version and the list of every file of
+// the site (relative to this script, which sits at the site root so that its scope
+// covers every page, also under a sub-path of a static host).
+//
+// Updates: a new build has a new version, so its worker installs beside the old one
+// and precaches the whole new site. It then takes over at once (skipWaiting +
+// clients.claim) rather than waiting for every tab to close. That is safe here
+// because an open page has already loaded everything it uses (script, wasm glue and
+// wasm, whose names carry a content hash), and the page offers a reload when the
+// controller changes. The first install also claims the page it was installed from,
+// so one visit is enough for offline use.
+
+const VERSION = "__CACHE_VERSION__";
+const CACHE = `fluxledger-${VERSION}`;
+const PRECACHE = __PRECACHE__;
+
+self.addEventListener("install", (event) => {
+  event.waitUntil(
+    (async () => {
+      const cache = await caches.open(CACHE);
+      // `reload` bypasses the HTTP cache, so a new version never precaches stale files.
+      await cache.addAll(PRECACHE.map((url) => new Request(url, { cache: "reload" })));
+      await self.skipWaiting();
+    })(),
+  );
+});
+
+self.addEventListener("activate", (event) => {
+  event.waitUntil(
+    (async () => {
+      const names = await caches.keys();
+      await Promise.all(
+        names.filter((name) => name.startsWith("fluxledger-") && name !== CACHE).map((name) => caches.delete(name)),
+      );
+      await self.clients.claim();
+    })(),
+  );
+});
+
+/** A response that can answer a navigation (a redirected one cannot be reused as is). */
+async function clean(response) {
+  if (!response || !response.redirected) return response;
+  const body = await response.blob();
+  return new Response(body, { status: response.status, statusText: response.statusText, headers: response.headers });
+}
+
+async function fromCache(request) {
+  const cache = await caches.open(CACHE);
+  const url = new URL(request.url);
+  if (request.mode === "navigate") {
+    // A bookmarked page carries its calculation in the query string: match the page
+    // itself. The site root is stored as "./" and as "index.html".
+    const page =
+      (await cache.match(request, { ignoreSearch: true })) ||
+      (url.pathname.endsWith("/") ? await cache.match(new URL("index.html", url), { ignoreSearch: true }) : undefined);
+    return clean(page);
+  }
+  // Files are matched exactly first; a query (the page script adds one when it has
+  // to load a fresh copy of the wasm glue) does not change a static file.
+  return (await cache.match(request)) || (await cache.match(request, { ignoreSearch: true }));
+}
+
+self.addEventListener("fetch", (event) => {
+  const request = event.request;
+  if (request.method !== "GET") return;
+  const url = new URL(request.url);
+  if (url.origin !== self.location.origin) return;
+  // The worker script itself is always fetched by the browser's update check.
+  if (url.pathname.endsWith("/sw.js")) return;
+
+  event.respondWith(
+    (async () => {
+      const cached = await fromCache(request);
+      if (cached) return cached;
+      const response = await fetch(request);
+      // Keep a copy of plain same-origin files not in the precache list (not pages
+      // with a query string: the page itself is already stored once).
+      if (response.ok && response.type === "basic" && url.search === "") {
+        const copy = response.clone();
+        event.waitUntil(caches.open(CACHE).then((cache) => cache.put(request, copy)));
+      }
+      return response;
+    })(),
+  );
+});
