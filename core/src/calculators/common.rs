@@ -85,6 +85,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
         ),
         FieldSpec {
             visible_when: Some(("fluid", &["water"])),
+            // Hidden for another liquid, so not required there; `fluid_from` asks for it for water.
+            optional: true,
             ..quantity(
                 "t",
                 "Water temperature",
