@@ -114,4 +114,8 @@ impl Direction {
     pub fn vec(self) -> Vec3 {
         self.0
     }
+    /// The opposite direction.
+    pub fn reversed(self) -> Direction {
+        Direction(-self.0)
+    }
 }

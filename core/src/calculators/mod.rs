@@ -10,6 +10,8 @@ use crate::error::{FieldError, SolveError};
 
 pub mod bend;
 pub mod common;
+pub mod profile;
+pub mod tank_drain;
 
 /// One registered calculator.
 pub struct Calculator {
@@ -22,11 +24,12 @@ pub struct Calculator {
 }
 
 /// Every calculator, in contents order.
-pub const CALCULATORS: &[Calculator] = &[Calculator {
-    key: bend::KEY,
-    spec: bend::spec,
-    compute: bend::compute,
-}];
+#[rustfmt::skip]
+pub const CALCULATORS: &[Calculator] = &[
+    Calculator { key: bend::KEY, spec: bend::spec, compute: bend::compute },
+    Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
+    Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
+];
 
 /// The descriptions of all calculators.
 pub fn catalog() -> Vec<CalculatorSpec> {
