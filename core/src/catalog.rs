@@ -438,6 +438,12 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
     let mut echoes = Vec::new();
     for field in &spec.fields {
         let raw = request.inputs.get(field.key).map(|s| s.trim()).unwrap_or("");
+        if !is_visible(field, request) {
+            // A hidden field does not take part: whatever it holds is kept by the page
+            // but neither required nor checked.
+            values.insert(field.key, Value::Empty);
+            continue;
+        }
         if raw.is_empty() {
             if field.optional {
                 values.insert(field.key, Value::Empty);
@@ -502,6 +508,18 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
     }
     let result = if errors.is_empty() { Ok(values) } else { Err(errors) };
     (echoes, result)
+}
+
+/// Whether a field is shown for this request: a field with `visible_when` is shown
+/// only while its controlling choice field holds one of the listed options.
+pub fn is_visible(field: &FieldSpec, request: &Request) -> bool {
+    match field.visible_when {
+        None => true,
+        Some((controller, allowed)) => {
+            let value = request.inputs.get(controller).map(|s| s.trim()).unwrap_or("");
+            allowed.contains(&value)
+        }
+    }
 }
 
 /// The most characters a free-text field (such as a pasted schedule) accepts.
