@@ -414,16 +414,11 @@ function buildField(field) {
     // selector, as the core read it (`150 psi` -> `150` [psi]).
     control.addEventListener("change", () => normaliseField(field));
   }
-  control.addEventListener("input", () => {
+  // Text fields recompute on every keystroke; a choice when it is changed.
+  control.addEventListener(field.kind === "choice" ? "change" : "input", () => {
     state.values[field.key] = control.value;
     recompute({ writeToUrl: true });
   });
-  if (field.kind === "choice") {
-    control.addEventListener("change", () => {
-      state.values[field.key] = control.value;
-      recompute({ writeToUrl: true });
-    });
-  }
   wrap.append(entry);
 
   if (field.help) {
@@ -610,8 +605,9 @@ function finishRender(status) {
 /** Width available to figures, in CSS pixels (measured once per layout change). */
 function measureFigureWidth() {
   const details = state.ui.details;
-  const width = details ? Math.round(details.clientWidth) : 0;
-  state.figureWidth = width > 0 ? Math.min(width, 720) : 320;
+  // Panels have 0.75 rem of padding and a 1 px border on each side.
+  const width = details ? Math.round(details.clientWidth) - 26 : 0;
+  state.figureWidth = width > 0 ? Math.min(width, 720) : 300;
   return state.figureWidth;
 }
 
@@ -979,6 +975,8 @@ async function start() {
   settleInitialValues(spec, fromUrl);
   buildPage();
   recompute({ writeToUrl: false });
+  // Show each quantity as the core read it: the number, with its unit selected.
+  for (const field of spec.fields) normaliseField(field);
   updatePrintFooter();
   registerServiceWorker();
 }
