@@ -503,3 +503,43 @@ pub fn shape_points(shape: &Shape) -> Vec<[f64; 2]> {
         Shape::Text { at, .. } => vec![*at],
     }
 }
+
+/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings.
+pub fn flow_field(values: &Values) -> &'static str {
+    match values.choice("flow_basis").unwrap_or("q") {
+        "v" => "v",
+        "mdot" => "mdot",
+        _ => "q",
+    }
+}
+
+/// A force typed as a user would type it, in the report's unit system, five
+/// significant figures (`"83.47 kN"`), for carrying a result to another page.
+pub fn typed_force(report: &Report<'_>, newtons: f64) -> String {
+    let unit = units::display_unit(newtons, Q::Force, report.system());
+    match units::convert_to(newtons, Q::Force, unit.id) {
+        Some(v) if v.is_finite() => format!("{} {}", units::format_significant(v, 5), unit.id),
+        _ => format!("{} N", units::format_significant(newtons, 5)),
+    }
+}
+
+/// A link that carries a fitting's thrust (magnitude, N) to the thrust-restraint page.
+pub fn thrust_carry_over(report: &Report<'_>, label: &str, thrust: f64) -> crate::catalog::CarryOver {
+    crate::catalog::CarryOver {
+        calculator: "thrust-block",
+        label: label.to_string(),
+        inputs: vec![("thrust", typed_force(report, thrust))],
+    }
+}
+
+/// A two-column table of what the result is based on (area basis, loss model, ...),
+/// so the choices that change the answer are shown beside it.
+pub fn basis_table(rows: Vec<(&str, String)>) -> Table {
+    Table {
+        key: "basis",
+        title: "Basis of the result".to_string(),
+        columns: vec!["Item".to_string(), "Used".to_string()],
+        rows: rows.into_iter().map(|(k, v)| vec![k.to_string(), v]).collect(),
+        emphasised_rows: Vec::new(),
+    }
+}

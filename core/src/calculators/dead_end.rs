@@ -1,0 +1,414 @@
+//! Dead end, cap, blind flange, plug or closed valve: the thrust of the pressure on
+//! a closed end of a pipe.
+//!
+//! # Method
+//! A control volume is drawn around the fluid in the last length of pipe, cut at
+//! one face (1) upstream of the closure. Nothing flows through it, so the
+//! linear-momentum balance ([`crate::engine`]) reduces to a balance of forces:
+//!
+//! R + p·A·(−n₁) = 0, with n₁ = −x the outward normal of the face,
+//!
+//! so the supports must supply R = −p·A·x̂ and the closure pushes on them with
+//!
+//! T = p·A, along the pipe axis, towards the closure.
+//!
+//! This is the dead-end formula of the published thrust-restraint guides (e.g. the
+//! ductile-iron pipe industry's *Thrust Restraint Design for Ductile Iron Pipe*,
+//! AWWA Manual M41 and M11, each listing T = P·A for a dead end).
+//!
+//! # Area basis
+//! The area is chosen openly: the inside diameter (a welded or flanged line, where
+//! the pressure acts on the bore), or the outside diameter (push-on and mechanical
+//! joints, where the spigot can slide in its gasket like a piston, so the
+//! pressure acts over the full outside diameter, as those guides use it). Both
+//! thrusts are reported when both diameters are given; the output says which one is
+//! the headline.
+//!
+//! # Assumptions
+//! Gauge pressure, uniform over the face; still fluid; the weight of the fluid and
+//! of the closure is carried by the pipe supports, not by the thrust restraint.
+
+use crate::catalog::{
+    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
+};
+use crate::engine::{self, si, ControlVolume, EngineWarning, Port};
+use crate::error::FieldError;
+use crate::units::QuantityKind as Q;
+use crate::vector::{Direction, Vec3};
+
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+
+pub const KEY: &str = "dead-end";
+
+const CLOSURE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "cap",
+        label: "Cap or plug",
+    },
+    ChoiceOption {
+        key: "blind_flange",
+        label: "Blind flange",
+    },
+    ChoiceOption {
+        key: "closed_valve",
+        label: "Closed valve (line beyond it empty or open)",
+    },
+];
+
+/// Area basis options, shared with the other fitting pages' wording.
+const BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "id",
+        label: "Inside diameter (welded, flanged or restrained joints)",
+    },
+    ChoiceOption {
+        key: "od",
+        label: "Outside diameter (push-on and mechanical joints)",
+    },
+];
+
+pub fn spec() -> CalculatorSpec {
+    let fields = vec![
+        choice(
+            "closure",
+            "Closure",
+            CLOSURE_OPTIONS,
+            "blind_flange",
+            "The thrust is the same for each; a closed valve carries it only while the line beyond is empty or open to air.",
+        ),
+        quantity(
+            "p",
+            "Gauge pressure",
+            Q::Pressure,
+            "bar",
+            "psi",
+            "12 bar",
+            Limits::closed(0.0, MAX_PRESSURE_PA),
+            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so not below 0.",
+        ),
+        quantity(
+            "d",
+            "Pipe inside diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "204 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Bore of the pipe at the closure.",
+        ),
+        choice(
+            "basis",
+            "Thrust area basis",
+            BASIS_OPTIONS,
+            "od",
+            "Push-on and mechanical joints can slide like a piston: their thrust acts on the outside diameter.",
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "d_od",
+                "Pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "222 mm",
+                Limits::positive(MAX_SIZE_M),
+                "Needed for the outside-diameter basis; with it the inside-diameter thrust is shown as well.",
+            )
+        },
+    ];
+    CalculatorSpec {
+        key: KEY,
+        title: "Dead end, cap or closed valve thrust",
+        group: "Pipe fittings and thrust restraint",
+        summary: "Thrust p·A on a cap, blind flange, plug or closed valve, on the inside or outside diameter.",
+        fields,
+        outputs: vec![
+            OutputSpec {
+                key: "thrust",
+                label: "Thrust on the supports, along the axis towards the closure",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec {
+                key: "area",
+                label: "Thrust area used",
+                kind: Q::Area,
+                headline: false,
+            },
+            OutputSpec {
+                key: "diameter_used",
+                label: "Diameter the thrust area is based on",
+                kind: Q::Length,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_id",
+                label: "Thrust on the inside diameter, p·π·d²/4",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_od",
+                label: "Thrust on the outside diameter, p·π·D²/4",
+                kind: Q::Force,
+                headline: false,
+            },
+        ],
+        cautions: vec![
+            "A closed valve must be restrained on the side that can lose its pressure; a valve in a chamber needs its own anchor.",
+            "Caps and blind flanges are often removed later to extend the line: the restraint must stay until the line is depressurised.",
+        ],
+    }
+}
+
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let p = values.quantity("p").map_err(|e| vec![e])?;
+    let d = values.quantity("d").map_err(|e| vec![e])?;
+    let basis = values.choice("basis").map_err(|e| vec![e])?;
+    let closure = values.choice("closure").map_err(|e| vec![e])?;
+    let d_od = values.is_set("d_od").then(|| values.quantity_or("d_od", d));
+    if let Some(od) = d_od {
+        if od <= d {
+            return Err(vec![FieldError::inconsistent(
+                "d_od",
+                "the outside diameter must be larger than the inside diameter",
+            )]);
+        }
+    }
+    let (d_used, basis_text) = match (basis, d_od) {
+        ("od", Some(od)) => (od, "outside diameter (push-on or mechanical joint)"),
+        ("od", None) => {
+            return Err(vec![FieldError::inconsistent(
+                "d_od",
+                "an outside diameter is required for the outside-diameter basis",
+            )])
+        }
+        _ => (d, "inside diameter (the bore)"),
+    };
+    let area = common::circle_area(d_used);
+
+    // The face is cut upstream of the closure; the flow would move towards it (+x).
+    let mut cv = ControlVolume::new(crate::fluid::Fluid {
+        name: "liquid at rest".to_string(),
+        density: 1000.0,
+        viscosity: 1e-3,
+        vapour_pressure: None,
+    });
+    cv.port(
+        Port::inlet("pipe face", si::area(area), Direction::X)
+            .velocity(si::velocity(0.0))
+            .pressure(si::pressure(p))
+            .at(Vec3::ZERO),
+    );
+    let balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    let thrust = balance.thrust();
+
+    report.output("thrust", thrust.norm());
+    report.output("area", area);
+    report.output("diameter_used", d_used);
+    report.output("thrust_id", p * common::circle_area(d));
+    if let Some(od) = d_od {
+        report.output("thrust_od", p * common::circle_area(od));
+    }
+    for w in &balance.warnings {
+        // With nothing flowing the momentum flux is zero by definition; say nothing.
+        if !matches!(w, EngineWarning::MomentumNegligible { .. }) {
+            report.warn(None, w.to_string());
+        }
+    }
+    if p == 0.0 {
+        report.warn(Some("p"), "at zero gauge pressure there is no thrust");
+    }
+    if closure == "closed_valve" {
+        report.warn(
+            Some("closure"),
+            "a closed valve carries this thrust only while the line beyond it is empty or open; with equal pressure on both sides it carries none",
+        );
+    }
+
+    let system = report.system();
+    let closure_label = CLOSURE_OPTIONS
+        .iter()
+        .find(|o| o.key == closure)
+        .map(|o| o.label)
+        .unwrap_or(closure);
+    report.solution.tables.push(common::basis_table(vec![
+        ("Closure", closure_label.to_string()),
+        ("Thrust area basis", basis_text.to_string()),
+        ("Diameter used", report.fmt(d_used, Q::Length)),
+        ("Thrust area", report.fmt(area, Q::Area)),
+        ("Formula", "T = p·A (no flow, so no momentum flux)".to_string()),
+    ]));
+    report.solution.tables.push(common::ledger_table(&balance, system));
+    let diagram = diagram(d, d_od, d_used, closure, &balance, report);
+    report.solution.diagrams.push(diagram);
+    let carry = common::thrust_carry_over(report, "Size a thrust block for this dead end", thrust.norm());
+    report.solution.carry_over.push(carry);
+    Ok(())
+}
+
+fn diagram(
+    d: f64,
+    d_od: Option<f64>,
+    d_used: f64,
+    closure: &str,
+    balance: &engine::Balance,
+    report: &Report<'_>,
+) -> Diagram {
+    let od = d_od.unwrap_or(d * 1.08);
+    let lead = 3.0 * od;
+    let mut shapes = vec![
+        Shape::Polygon {
+            points: common::straight_band([-lead, 0.0], [0.0, 0.0], od),
+            style: ShapeStyle::Wall,
+        },
+        Shape::Polygon {
+            points: common::straight_band([-lead, 0.0], [0.0, 0.0], d),
+            style: ShapeStyle::Fluid,
+        },
+    ];
+    match closure {
+        "blind_flange" => {
+            // Pipe flange and blind flange, about 1.6 × OD across.
+            let f = 1.6 * od;
+            let t = 0.15 * od;
+            shapes.push(Shape::Polygon {
+                points: common::straight_band([-t, 0.0], [0.0, 0.0], f),
+                style: ShapeStyle::Wall,
+            });
+            shapes.push(Shape::Polygon {
+                points: common::straight_band([0.0, 0.0], [t, 0.0], f),
+                style: ShapeStyle::Wall,
+            });
+        }
+        "closed_valve" => {
+            // A gate valve body drawn as a bow-tie.
+            let l = 1.0 * od;
+            shapes.push(Shape::Polygon {
+                points: vec![[0.0, od / 2.0], [l, -od / 2.0], [l, od / 2.0], [0.0, -od / 2.0]],
+                style: ShapeStyle::Wall,
+            });
+        }
+        _ => {
+            let t = 0.12 * od;
+            shapes.push(Shape::Polygon {
+                points: common::straight_band([0.0, 0.0], [t, 0.0], od),
+                style: ShapeStyle::Wall,
+            });
+        }
+    }
+    // Control volume: the fluid in the last length of pipe, cut at the face.
+    let cv_start = -2.0 * od;
+    shapes.push(Shape::Polygon {
+        points: common::straight_band([cv_start, 0.0], [0.0, 0.0], d * 1.15),
+        style: ShapeStyle::ControlVolume,
+    });
+    shapes.push(Shape::Polyline {
+        points: vec![[-lead, 0.0], [0.3 * od, 0.0]],
+        style: ShapeStyle::Guide,
+    });
+    // The thrust diameter, marked across the end.
+    shapes.push(Shape::Polyline {
+        points: vec![[0.02 * od, -d_used / 2.0], [0.02 * od, d_used / 2.0]],
+        style: ShapeStyle::Guide,
+    });
+    let thrust = balance.thrust();
+    let scale = if thrust.norm() > 0.0 {
+        1.5 * od / thrust.norm()
+    } else {
+        0.0
+    };
+    let end = [0.3 * od, 0.0];
+    let fmt = report.fmt(thrust.norm(), Q::Force);
+    if let Some(face) = balance.ports.first() {
+        if let Some(a) = common::force_arrow(
+            [cv_start, 0.0],
+            face.pressure_force,
+            scale,
+            format!("p·A {fmt}"),
+            ShapeStyle::Pressure,
+            false,
+        ) {
+            shapes.push(a);
+        }
+    }
+    if let Some(a) = common::force_arrow(end, thrust, scale, format!("thrust T {fmt}"), ShapeStyle::Thrust, true) {
+        shapes.push(a);
+    }
+    if let Some(a) = common::force_arrow(
+        [end[0] + 1.5 * od + 0.3 * od, -0.6 * od],
+        balance.support_force,
+        scale,
+        format!("restraint R {fmt}"),
+        ShapeStyle::Restraint,
+        true,
+    ) {
+        shapes.push(a);
+    }
+    shapes.push(Shape::Text {
+        at: [-lead, -od],
+        text: format!("thrust diameter {}", report.fmt(d_used, Q::Length)),
+        style: ShapeStyle::Label,
+    });
+    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.4 * od);
+    Diagram {
+        title: "Dead end: control volume and forces".to_string(),
+        bounds,
+        shapes,
+        caption: "Pipe and closure to scale; the force arrows share one scale. T acts on the supports, towards the closure; R = −T is what the restraint supplies.".to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::catalog::Request;
+    use approx::assert_relative_eq;
+
+    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
+        let mut request = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
+            request.inputs.insert(k, v);
+        }
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        crate::solve(super::KEY, &request)
+    }
+
+    fn error_field(pairs: &[(&str, &str)]) -> String {
+        match outcome(pairs).result {
+            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
+            other => panic!("expected a field error, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn thrust_is_pressure_times_the_chosen_area() {
+        // Derived from the definition: T = p·π·D²/4.
+        let s = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("d_od", "326 mm"), ("basis", "od")])
+            .result
+            .expect("solves");
+        let od_area = std::f64::consts::PI * 0.326 * 0.326 / 4.0;
+        assert_relative_eq!(s.output("thrust").unwrap().si, 1e6 * od_area, max_relative = 1e-12);
+        assert_relative_eq!(s.output("area").unwrap().si, od_area, max_relative = 1e-12);
+        let id = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("basis", "id"), ("d_od", "")])
+            .result
+            .expect("solves");
+        assert_relative_eq!(
+            id.output("thrust").unwrap().si,
+            1e6 * std::f64::consts::PI * 0.09 / 4.0,
+            max_relative = 1e-12
+        );
+        assert!(id.output("thrust_od").is_none());
+        assert_eq!(id.carry_over[0].calculator, "thrust-block");
+    }
+
+    #[test]
+    fn bad_inputs_name_their_field() {
+        assert_eq!(error_field(&[("p", "-1 bar")]), "p");
+        assert_eq!(error_field(&[("d", "0 mm")]), "d");
+        assert_eq!(error_field(&[("d_od", "100 mm")]), "d_od");
+        assert_eq!(error_field(&[("basis", "od"), ("d_od", "")]), "d_od");
+    }
+}
