@@ -20,6 +20,7 @@ pub mod engine;
 pub mod error;
 pub mod fluid;
 pub mod friction;
+pub mod pipe_sizes;
 pub mod profile;
 pub mod units;
 pub mod vector;

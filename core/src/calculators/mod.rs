@@ -10,6 +10,7 @@ use crate::error::{FieldError, SolveError};
 
 pub mod bend;
 pub mod common;
+pub mod jet_plate;
 pub mod dead_end;
 pub mod profile;
 pub mod tank_drain;
@@ -31,6 +32,7 @@ pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: dead_end::KEY, spec: dead_end::spec, compute: dead_end::compute },
     Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
     Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
+    Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
 ];
 
 /// The descriptions of all calculators.

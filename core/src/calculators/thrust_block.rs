@@ -1,0 +1,1481 @@
+//! Thrust restraint: the design pressure, the thrust of a fitting at that pressure,
+//! and the concrete block that carries it into the ground.
+//!
+//! # Method
+//! 1. **Design pressure**, chosen openly (`p_basis`): the operating pressure; the
+//!    field test pressure from a named rule ([`TEST_RULES`]) or typed; the working
+//!    pressure plus a surge estimate; or the highest of these. The surge is the
+//!    Joukowsky rise Δp = ρ·a·ΔV for an instantaneous velocity change ΔV, with the
+//!    pipe-elasticity-corrected wave speed (Wylie & Streeter, *Fluid Transients in
+//!    Systems*, 1993, eq. 2.21; Chaudhry, *Applied Hydraulic Transients*, 3rd ed.,
+//!    eq. 2.19 — equation forms from memory, recomputed here):
+//!    a = √( (K/ρ) / (1 + c₁·K·D/(E·e)) ),
+//!    K the liquid's bulk modulus, D the inside diameter, e the wall, E the wall's
+//!    Young's modulus and c₁ the axial-restraint factor (1 for pipe with expansion
+//!    joints throughout, which jointed pipe approximates; 1 − ν² anchored against
+//!    axial movement; 1 − ν/2 anchored at the upstream end only).
+//! 2. **Thrust**, from the engine: a control volume around the fitting, zero flow,
+//!    the design pressure at the inlet and the other faces solved by the energy
+//!    balance (no flow, same point: the same pressure). The momentum balance then
+//!    gives the static thrust, e.g. T = 2·p·A·sin(θ/2) for a bend, p·A for a dead
+//!    end, p·A_branch for a tee, p·(A₁ − A₂) for a reducer. The area A comes from
+//!    the outside diameter for push-on and mechanical joints (the joint seals at
+//!    the outside of the spigot; the ductile-iron pipe industry's thrust-restraint
+//!    design guide uses the OD) and from the inside diameter otherwise.
+//! 3. **Horizontal bearing block** (and the base of a block under a sag bend):
+//!    bearing area A_b = SF·T/σ with σ the allowable soil bearing. Soil presets come
+//!    from three published tables that disagree (see [`SOILS`]); a typed value is
+//!    always allowed. Face dimensions follow from a chosen height or width ÷ height.
+//! 4. **Gravity block** under upward thrust (a vertical bend at a crest): the block's
+//!    effective weight must be SF times the upward component, W = γ_eff·V, with
+//!    γ_eff = γ_c below groundwater reduced by the water's unit weight (buoyancy).
+//!    Optional sliding check: μ·(W − T_v) ≥ SF_slide·T_h.
+//!
+//! # Assumptions
+//! Static thrust (flow momentum neglected: at pipe velocities it is a few percent of
+//! p·A at most, and zero at test); the weights of pipe and water are neglected
+//! (conservative for uplift); the block bears on undisturbed soil; the vertical
+//! bend has one horizontal leg (the other inclined by θ).
+
+use std::f64::consts::PI;
+
+use crate::catalog::{
+    CalculatorSpec, CarryOver, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Table,
+    Values,
+};
+use crate::engine::{self, si, ControlVolume, EngineWarning, Port, Stream};
+use crate::error::FieldError;
+use crate::fluid::Fluid;
+use crate::pipe_sizes;
+use crate::units::{self, QuantityKind as Q, UnitSystem, STANDARD_GRAVITY};
+use crate::vector::{Direction, Vec3};
+
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+
+pub const KEY: &str = "thrust-block";
+
+// ---------------------------------------------------------------------------------
+// Fitting kinds and the engine balance shared with the line schedule.
+
+pub const FITTING_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "bend",
+        label: "Bend (elbow)",
+    },
+    ChoiceOption {
+        key: "dead_end",
+        label: "Dead end, cap, plug or closed valve",
+    },
+    ChoiceOption {
+        key: "tee",
+        label: "Tee (thrust of the branch)",
+    },
+    ChoiceOption {
+        key: "reducer",
+        label: "Reducer (large end to small end)",
+    },
+    ChoiceOption {
+        key: "force",
+        label: "A given thrust (from another page)",
+    },
+];
+
+pub const PLANE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "horizontal",
+        label: "Horizontal (plan): bearing block",
+    },
+    ChoiceOption {
+        key: "vertical_crest",
+        label: "Vertical, turning downward (crest): thrust upward, gravity block",
+    },
+    ChoiceOption {
+        key: "vertical_sag",
+        label: "Vertical, turning upward (sag): thrust downward into the ground",
+    },
+];
+
+pub const JOINT_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "push_on",
+        label: "Push-on joints (area on the OD)",
+    },
+    ChoiceOption {
+        key: "mechanical",
+        label: "Mechanical joints (area on the OD)",
+    },
+    ChoiceOption {
+        key: "flanged",
+        label: "Flanged (area on the ID)",
+    },
+    ChoiceOption {
+        key: "welded",
+        label: "Welded or fused (area on the ID)",
+    },
+];
+
+/// What kind of fitting a block restrains.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum FittingKind {
+    Bend,
+    DeadEnd,
+    Tee,
+    Reducer,
+}
+
+/// The plane of a fitting, which decides the kind of block.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Plane {
+    Horizontal,
+    /// Thrust upward: gravity block.
+    Crest,
+    /// Thrust downward: bearing under the block.
+    Sag,
+}
+
+impl Plane {
+    pub fn from_key(key: &str) -> Plane {
+        match key {
+            "vertical_crest" => Plane::Crest,
+            "vertical_sag" => Plane::Sag,
+            _ => Plane::Horizontal,
+        }
+    }
+    /// Which way the fitting turns in the drawing plane (+1 toward +y).
+    fn turn(self) -> f64 {
+        match self {
+            Plane::Crest => -1.0,
+            Plane::Horizontal | Plane::Sag => 1.0,
+        }
+    }
+}
+
+/// A fitting at rest under pressure: the geometry the engine needs.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct StaticFitting {
+    pub kind: FittingKind,
+    /// Deflection of a bend, rad (ignored otherwise).
+    pub angle: f64,
+    /// Pressure area of the main (inlet) end, m².
+    pub area: f64,
+    /// Pressure area of the branch (tee) or small end (reducer), m².
+    pub area2: f64,
+    pub plane: Plane,
+}
+
+/// The engine's static balance of a fitting at gauge pressure `p`, with no flow.
+///
+/// # Errors
+/// The engine's error (non-finite input, zero area).
+pub fn static_balance(f: &StaticFitting, p: f64, fluid: &Fluid) -> Result<engine::Balance, engine::EngineError> {
+    let mut cv = ControlVolume::new(fluid.clone());
+    cv.gravity(match f.plane {
+        Plane::Horizontal => Vec3::new(0.0, 0.0, -STANDARD_GRAVITY),
+        Plane::Crest | Plane::Sag => Vec3::new(0.0, -STANDARD_GRAVITY, 0.0),
+    });
+    let still = |port: Port| port.velocity(si::velocity(0.0));
+    let inlet = cv.port(still(
+        Port::inlet("inlet", si::area(f.area), Direction::X).pressure(si::pressure(p)),
+    ));
+    let turn = f.plane.turn();
+    let outlets: Vec<(String, f64, Direction)> = match f.kind {
+        FittingKind::Bend => vec![("outlet".into(), f.area, Direction::in_plane(turn * f.angle))],
+        FittingKind::DeadEnd => vec![],
+        FittingKind::Tee => vec![
+            ("run outlet".into(), f.area, Direction::X),
+            ("branch".into(), f.area2, Direction::in_plane(turn * PI / 2.0)),
+        ],
+        FittingKind::Reducer => vec![("small end".into(), f.area2, Direction::X)],
+    };
+    for (name, area, direction) in outlets {
+        let o = cv.port(still(Port::outlet(&name, si::area(area), direction)));
+        cv.stream(Stream::new(inlet, o));
+    }
+    engine::balance(&cv)
+}
+
+// ---------------------------------------------------------------------------------
+// Soil presets.
+
+/// Which published table a soil preset comes from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum SoilTable {
+    SafeBearing,
+    Nfpa24,
+    Bs8004,
+}
+
+impl SoilTable {
+    pub fn citation(self) -> &'static str {
+        match self {
+            SoilTable::SafeBearing => "Safe bearing loads for horizontal thrusts (cover over 2 ft), the table reproduced in AWWA M23 *PVC Pipe — Design and Installation* and in pipe makers' installation guides (from memory; confirmed against a pipe maker's reproduction)",
+            SoilTable::Nfpa24 => "NFPA 24, *Installation of Private Fire Service Mains*, annex table of horizontal bearing strengths (A.10.8.2 in the 2002 edition; numbering varies by edition; from memory)",
+            SoilTable::Bs8004 => "BS 8004:1986 *Foundations*, Table 1, presumed allowable bearing values under static loading, lower end of each range (from memory)",
+        }
+    }
+    pub fn convention(self) -> &'static str {
+        match self {
+            SoilTable::SafeBearing => "already 'safe' values: the source divides the thrust by them directly (SF = 1)",
+            SoilTable::Nfpa24 => "bearing strengths used with a safety factor, 1.5 in the same annex",
+            SoilTable::Bs8004 => "allowable values for vertical foundation loads, already reduced for safety; a proxy for horizontal bearing",
+        }
+    }
+    pub fn short(self) -> &'static str {
+        match self {
+            SoilTable::SafeBearing => "safe-bearing table (M23)",
+            SoilTable::Nfpa24 => "NFPA 24 annex",
+            SoilTable::Bs8004 => "BS 8004 Table 1",
+        }
+    }
+}
+
+/// One soil preset: allowable bearing, Pa.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct SoilPreset {
+    pub key: &'static str,
+    pub table: SoilTable,
+    pub soil: &'static str,
+    pub bearing: f64,
+}
+
+const PSF: f64 = 4.448_221_615_260_5 / (0.3048 * 0.3048);
+
+/// Every soil preset. A zero value means the source gives no bearing at all.
+pub const SOILS: &[SoilPreset] = &[
+    SoilPreset {
+        key: "safe_muck",
+        table: SoilTable::SafeBearing,
+        soil: "Muck, peat",
+        bearing: 0.0,
+    },
+    SoilPreset {
+        key: "safe_soft_clay",
+        table: SoilTable::SafeBearing,
+        soil: "Soft clay",
+        bearing: 1000.0 * PSF,
+    },
+    SoilPreset {
+        key: "safe_sand",
+        table: SoilTable::SafeBearing,
+        soil: "Sand",
+        bearing: 2000.0 * PSF,
+    },
+    SoilPreset {
+        key: "safe_sand_gravel",
+        table: SoilTable::SafeBearing,
+        soil: "Sand and gravel",
+        bearing: 3000.0 * PSF,
+    },
+    SoilPreset {
+        key: "safe_sand_gravel_clay",
+        table: SoilTable::SafeBearing,
+        soil: "Sand and gravel cemented with clay",
+        bearing: 4000.0 * PSF,
+    },
+    SoilPreset {
+        key: "safe_hard_shale",
+        table: SoilTable::SafeBearing,
+        soil: "Hard shale",
+        bearing: 10000.0 * PSF,
+    },
+    SoilPreset {
+        key: "nfpa24_soft_clay",
+        table: SoilTable::Nfpa24,
+        soil: "Soft clay",
+        bearing: 1000.0 * PSF,
+    },
+    SoilPreset {
+        key: "nfpa24_silt",
+        table: SoilTable::Nfpa24,
+        soil: "Silt",
+        bearing: 1500.0 * PSF,
+    },
+    SoilPreset {
+        key: "nfpa24_sandy_silt",
+        table: SoilTable::Nfpa24,
+        soil: "Sandy silt",
+        bearing: 3000.0 * PSF,
+    },
+    SoilPreset {
+        key: "nfpa24_sand",
+        table: SoilTable::Nfpa24,
+        soil: "Sand",
+        bearing: 4000.0 * PSF,
+    },
+    SoilPreset {
+        key: "nfpa24_sandy_clay",
+        table: SoilTable::Nfpa24,
+        soil: "Sandy clay",
+        bearing: 6000.0 * PSF,
+    },
+    SoilPreset {
+        key: "nfpa24_hard_clay",
+        table: SoilTable::Nfpa24,
+        soil: "Hard clay",
+        bearing: 9000.0 * PSF,
+    },
+    SoilPreset {
+        key: "bs8004_firm_clay",
+        table: SoilTable::Bs8004,
+        soil: "Firm clay (75–150 kPa)",
+        bearing: 75e3,
+    },
+    SoilPreset {
+        key: "bs8004_stiff_clay",
+        table: SoilTable::Bs8004,
+        soil: "Stiff clay (150–300 kPa)",
+        bearing: 150e3,
+    },
+    SoilPreset {
+        key: "bs8004_hard_clay",
+        table: SoilTable::Bs8004,
+        soil: "Very stiff boulder clay, hard clay (300–600 kPa)",
+        bearing: 300e3,
+    },
+    SoilPreset {
+        key: "bs8004_medium_sand",
+        table: SoilTable::Bs8004,
+        soil: "Medium dense sand (100–300 kPa)",
+        bearing: 100e3,
+    },
+    SoilPreset {
+        key: "bs8004_compact_sand",
+        table: SoilTable::Bs8004,
+        soil: "Compact sand (over 300 kPa)",
+        bearing: 300e3,
+    },
+    SoilPreset {
+        key: "bs8004_medium_gravel",
+        table: SoilTable::Bs8004,
+        soil: "Medium dense gravel, sand and gravel (200–600 kPa)",
+        bearing: 200e3,
+    },
+    SoilPreset {
+        key: "bs8004_dense_gravel",
+        table: SoilTable::Bs8004,
+        soil: "Dense gravel, sand and gravel (over 600 kPa)",
+        bearing: 600e3,
+    },
+];
+
+pub const SOIL_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "custom",
+        label: "Typed value (from the geotechnical report)",
+    },
+    ChoiceOption {
+        key: "safe_muck",
+        label: "Muck, peat: 0 (safe-bearing table, M23)",
+    },
+    ChoiceOption {
+        key: "safe_soft_clay",
+        label: "Soft clay: 1000 psf (safe-bearing table, M23)",
+    },
+    ChoiceOption {
+        key: "safe_sand",
+        label: "Sand: 2000 psf (safe-bearing table, M23)",
+    },
+    ChoiceOption {
+        key: "safe_sand_gravel",
+        label: "Sand and gravel: 3000 psf (safe-bearing table, M23)",
+    },
+    ChoiceOption {
+        key: "safe_sand_gravel_clay",
+        label: "Sand and gravel cemented with clay: 4000 psf (safe-bearing table, M23)",
+    },
+    ChoiceOption {
+        key: "safe_hard_shale",
+        label: "Hard shale: 10000 psf (safe-bearing table, M23)",
+    },
+    ChoiceOption {
+        key: "nfpa24_soft_clay",
+        label: "Soft clay: 1000 psf (NFPA 24 annex)",
+    },
+    ChoiceOption {
+        key: "nfpa24_silt",
+        label: "Silt: 1500 psf (NFPA 24 annex)",
+    },
+    ChoiceOption {
+        key: "nfpa24_sandy_silt",
+        label: "Sandy silt: 3000 psf (NFPA 24 annex)",
+    },
+    ChoiceOption {
+        key: "nfpa24_sand",
+        label: "Sand: 4000 psf (NFPA 24 annex)",
+    },
+    ChoiceOption {
+        key: "nfpa24_sandy_clay",
+        label: "Sandy clay: 6000 psf (NFPA 24 annex)",
+    },
+    ChoiceOption {
+        key: "nfpa24_hard_clay",
+        label: "Hard clay: 9000 psf (NFPA 24 annex)",
+    },
+    ChoiceOption {
+        key: "bs8004_firm_clay",
+        label: "Firm clay: 75 kPa (BS 8004 Table 1, low end)",
+    },
+    ChoiceOption {
+        key: "bs8004_stiff_clay",
+        label: "Stiff clay: 150 kPa (BS 8004 Table 1, low end)",
+    },
+    ChoiceOption {
+        key: "bs8004_hard_clay",
+        label: "Very stiff or hard clay: 300 kPa (BS 8004 Table 1, low end)",
+    },
+    ChoiceOption {
+        key: "bs8004_medium_sand",
+        label: "Medium dense sand: 100 kPa (BS 8004 Table 1, low end)",
+    },
+    ChoiceOption {
+        key: "bs8004_compact_sand",
+        label: "Compact sand: 300 kPa (BS 8004 Table 1, low end)",
+    },
+    ChoiceOption {
+        key: "bs8004_medium_gravel",
+        label: "Medium dense gravel: 200 kPa (BS 8004 Table 1, low end)",
+    },
+    ChoiceOption {
+        key: "bs8004_dense_gravel",
+        label: "Dense gravel: 600 kPa (BS 8004 Table 1, low end)",
+    },
+];
+
+/// The soil preset with this key.
+pub fn soil(key: &str) -> Option<&'static SoilPreset> {
+    SOILS.iter().find(|s| s.key == key)
+}
+
+// ---------------------------------------------------------------------------------
+// Test-pressure rules.
+
+pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "en805",
+        label: "EN 805 system test pressure, surge not calculated: lower of 1.5 × MDP and MDP + 5 bar",
+    },
+    ChoiceOption {
+        key: "c600",
+        label: "AWWA C600 (ductile iron): 1.5 × working pressure at the point of test",
+    },
+    ChoiceOption {
+        key: "c605",
+        label: "AWWA C605 (PVC): 1.25 × working pressure",
+    },
+    ChoiceOption {
+        key: "nfpa24",
+        label: "NFPA 24 (fire mains): 200 psi or working + 50 psi, whichever is greater",
+    },
+    ChoiceOption {
+        key: "custom",
+        label: "Typed test pressure",
+    },
+];
+
+/// A named test-pressure rule: its citation and the test pressure for a working
+/// pressure (both gauge, Pa).
+pub struct TestRule {
+    pub key: &'static str,
+    pub citation: &'static str,
+    pub apply: fn(f64) -> f64,
+}
+
+pub const TEST_RULES: &[TestRule] = &[
+    TestRule {
+        key: "en805",
+        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + 500 kPa; MDP here is the working pressure typed, which should already include a surge allowance",
+        apply: |p| (1.5 * p).min(p + 500e3),
+    },
+    TestRule {
+        key: "c600",
+        citation: "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing (from memory): not less than 1.5 × the working pressure at the point of testing (and 1.25 × at the highest point)",
+        apply: |p| 1.5 * p,
+    },
+    TestRule {
+        key: "c605",
+        citation: "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing (from memory): not less than 1.25 × the stated working pressure, measured at the highest point of the test section",
+        apply: |p| 1.25 * p,
+    },
+    TestRule {
+        key: "nfpa24",
+        citation: "NFPA 24 (private fire service mains), hydrostatic test (from memory): 200 psi (13.8 bar) or 50 psi (3.4 bar) above the system working pressure, whichever is greater",
+        apply: |p| (200.0 * PSI).max(p + 50.0 * PSI),
+    },
+];
+
+const PSI: f64 = 4.448_221_615_260_5 / (0.0254 * 0.0254);
+
+/// The test rule with this key.
+pub fn test_rule(key: &str) -> Option<&'static TestRule> {
+    TEST_RULES.iter().find(|r| r.key == key)
+}
+
+// ---------------------------------------------------------------------------------
+// Pipe materials for the wave speed.
+
+pub const MATERIAL_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "steel",
+        label: "Steel: E = 207 GPa, ν = 0.30",
+    },
+    ChoiceOption {
+        key: "ductile_iron",
+        label: "Ductile iron: E = 165 GPa, ν = 0.28",
+    },
+    ChoiceOption {
+        key: "pvc",
+        label: "PVC: E = 2.76 GPa, ν = 0.45",
+    },
+    ChoiceOption {
+        key: "pe",
+        label: "Polyethylene (PE100): E = 1.0 GPa, ν = 0.45",
+    },
+    ChoiceOption {
+        key: "custom",
+        label: "Typed modulus",
+    },
+];
+
+/// Young's modulus (Pa), Poisson's ratio and where the values come from.
+pub fn material(key: &str) -> Option<(f64, f64, &'static str)> {
+    match key {
+        "steel" => Some((207e9, 0.30, "steel E = 207 GPa, ν = 0.30: Wylie & Streeter, Fluid Transients in Systems (1993), table of pipe properties (from memory)")),
+        "ductile_iron" => Some((165e9, 0.28, "ductile iron E ≈ 24 × 10⁶ psi (165 GPa): the ductile-iron pipe makers' design literature; ν = 0.28 (from memory)")),
+        "pvc" => Some((2.76e9, 0.45, "PVC E = 400 000 psi (2.76 GPa): the AWWA C900 design basis (from memory); ν = 0.45 common practice, no source")),
+        "pe" => Some((1.0e9, 0.45, "PE100 short-term E ≈ 1.0 GPa, ν = 0.45: common practice, no source (varies with temperature and load time)")),
+        _ => None,
+    }
+}
+
+pub const ANCHOR_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "joints",
+        label: "Joints or expansion joints throughout (c₁ = 1)",
+    },
+    ChoiceOption {
+        key: "anchored",
+        label: "Anchored against axial movement throughout (c₁ = 1 − ν²)",
+    },
+    ChoiceOption {
+        key: "upstream",
+        label: "Anchored at the upstream end only (c₁ = 1 − ν/2)",
+    },
+];
+
+/// Wave speed in a liquid-filled elastic pipe, m/s (see the module doc).
+pub fn wave_speed(bulk_modulus: f64, density: f64, d_inside: f64, wall: f64, e_modulus: f64, c1: f64) -> f64 {
+    (bulk_modulus / density / (1.0 + c1 * bulk_modulus * d_inside / (e_modulus * wall))).sqrt()
+}
+
+pub const BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "highest",
+        label: "Highest of operating, test and working + surge",
+    },
+    ChoiceOption {
+        key: "operating",
+        label: "Operating (working) pressure",
+    },
+    ChoiceOption {
+        key: "test",
+        label: "Field test pressure",
+    },
+    ChoiceOption {
+        key: "surge",
+        label: "Working pressure plus surge",
+    },
+];
+
+pub const BLOCK_DIM_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "height",
+        label: "Given face height",
+    },
+    ChoiceOption {
+        key: "aspect",
+        label: "Given width ÷ height",
+    },
+];
+
+pub const YES_NO: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "no",
+        label: "No (above the water table)",
+    },
+    ChoiceOption {
+        key: "yes",
+        label: "Yes (below groundwater: buoyancy)",
+    },
+];
+
+/// Bulk modulus of water used when none is typed, Pa: 2.2 GPa, the usual round
+/// value near 20 °C (White, *Fluid Mechanics*, gives 2.19 GPa at 20 °C; from memory).
+pub const WATER_BULK_MODULUS: f64 = 2.2e9;
+
+/// Unit weight of water for buoyancy, N/m³ (1000 kg/m³ × standard gravity).
+pub const WATER_UNIT_WEIGHT: f64 = 1000.0 * STANDARD_GRAVITY;
+
+pub fn spec() -> CalculatorSpec {
+    let fitting_only = |keys: &'static [&'static str]| Some(("fitting", keys));
+    let mut fields = vec![
+        choice("fitting", "Fitting to restrain", FITTING_OPTIONS, "bend", "The thrust is recomputed here at the design pressure; choose 'a given thrust' to size a block for a force from elsewhere."),
+        FieldSpec { visible_when: fitting_only(&["force"]), ..quantity("thrust", "Thrust to restrain", Q::Force, "kN", "lbf", "", Limits::positive(1e9), "Resultant thrust on the restraint at the design pressure (from a fitting page).") },
+        FieldSpec { visible_when: fitting_only(&["force"]), optional: true, ..quantity("thrust_elev", "Angle of the given thrust above horizontal", Q::Angle, "deg", "deg", "", Limits::closed(-PI / 2.0, PI / 2.0), "0 for a horizontal thrust, 90° straight up (gravity block), −90° straight down. Empty: from the plane chosen below.") },
+        FieldSpec { visible_when: fitting_only(&["bend"]), ..quantity("angle", "Bend deflection angle", Q::Angle, "deg", "deg", "45 deg", Limits { min: 0.0, max: PI, min_inclusive: false }, "11¼, 22½, 45 and 90° are the usual fittings.") },
+        choice("plane", "Plane and block type", PLANE_OPTIONS, "horizontal", "A horizontal fitting bears sideways on the trench wall; a crest in a vertical bend pushes up and needs a gravity block; a sag pushes down."),
+        choice("size", "Pipe size", pipe_sizes::SIZE_OPTIONS, "di52_12", "A preset gives both diameters; typed diameters below override it."),
+        FieldSpec { optional: true, ..quantity("d", "Inside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Bore of the pipe at the fitting's main end.") },
+        FieldSpec { optional: true, ..quantity("od", "Outside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).") },
+        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), ..choice("size2", "Branch (tee) or small-end (reducer) size", pipe_sizes::SIZE_OPTIONS, "custom", "A preset, or type the diameters below.") },
+        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("d2", "Branch or small-end inside diameter", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Overrides the preset.") },
+        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("od2", "Branch or small-end outside diameter", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Overrides the preset.") },
+        choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", "Push-on and mechanical joints: thrust on the outside diameter; flanged and welded: on the inside diameter."),
+        choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included."),
+        quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting."),
+        FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
+        FieldSpec { optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
+        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "1.5 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Empty: no surge estimate.") },
+        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "ductile_iron", "Sets Young's modulus E and Poisson's ratio ν of the wall.") },
+        FieldSpec { optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e12), "Used when the material is 'typed modulus'.") },
+        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::positive(1.0), "Empty: half the difference of outside and inside diameters.") },
+        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1.") },
+        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e11), "Empty: 2200 MPa, water near 20 °C.") },
+    ];
+    fields.extend(common::fluid_fields("15 degC"));
+    fields.extend([
+        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
+        FieldSpec { optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
+        quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
+        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
+        FieldSpec { visible_when: Some(("block_dims", &["height"])), ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
+        FieldSpec { visible_when: Some(("block_dims", &["aspect"])), ..quantity("block_aspect", "Face width ÷ height", Q::Ratio, "-", "-", "1.5", Limits::closed(0.1, 10.0), "1 for a square face.") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..quantity("gamma_c", "Unit weight of concrete", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..choice("submerged", "Block below groundwater", YES_NO, "no", "Below the water table the block weighs less by the water it displaces.") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::positive(20.0), "Empty: a cube.") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("mu", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: no sliding check. Often 0.3 to 0.5 for concrete on soil (common practice).") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
+    ]);
+    // The fluid fields' viscosity is not used here; keep the water temperature for density.
+    CalculatorSpec {
+        key: KEY,
+        title: "Thrust restraint: design pressure and thrust block",
+        group: "Pipe fittings and thrust restraint",
+        summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), and the bearing or gravity block that carries it.",
+        fields,
+        outputs: vec![
+            OutputSpec { key: "thrust", label: "Thrust on the restraint (at the design pressure)", kind: Q::Force, headline: true },
+            OutputSpec { key: "bearing_area", label: "Required bearing area", kind: Q::Area, headline: true },
+            OutputSpec { key: "block_volume", label: "Gravity block: concrete volume", kind: Q::Volume, headline: true },
+            OutputSpec { key: "p_design", label: "Design pressure used", kind: Q::Pressure, headline: true },
+            OutputSpec { key: "thrust_h", label: "Horizontal component of the thrust", kind: Q::Force, headline: false },
+            OutputSpec { key: "thrust_v", label: "Vertical component of the thrust (+ up)", kind: Q::Force, headline: false },
+            OutputSpec { key: "static_thrust", label: "Closed-form static thrust (check)", kind: Q::Force, headline: false },
+            OutputSpec { key: "area_d", label: "Diameter of the thrust area", kind: Q::Length, headline: false },
+            OutputSpec { key: "thrust_area", label: "Thrust area of the main end", kind: Q::Area, headline: false },
+            OutputSpec { key: "p_test", label: "Field test pressure", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "wave_speed", label: "Pressure wave speed", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "dp_surge", label: "Joukowsky surge rise ρ·a·ΔV", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "p_surge", label: "Working pressure plus surge", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "sigma", label: "Allowable soil bearing used", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "face_h", label: "Bearing face height", kind: Q::Length, headline: false },
+            OutputSpec { key: "face_w", label: "Bearing face width", kind: Q::Length, headline: false },
+            OutputSpec { key: "block_mass", label: "Gravity block: concrete mass", kind: Q::Mass, headline: false },
+            OutputSpec { key: "block_weight", label: "Gravity block: effective weight needed", kind: Q::Force, headline: false },
+            OutputSpec { key: "block_side", label: "Gravity block: plan side (square plan)", kind: Q::Length, headline: false },
+            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: false },
+        ],
+        cautions: vec![
+            "Design to the highest pressure the line will see: the field test pressure and surge usually exceed the operating pressure.",
+            "Allowable soil bearing must have a geotechnical basis; published tables differ by up to about 4× for the same soil name. Pour the block against undisturbed ground, and keep later excavation from undermining it or removing the soil behind it.",
+            "This sizes the bearing area only: the concrete's reinforcement, the block's own stability and any restrained-joint alternative are for the responsible engineer and the local codes.",
+        ],
+    }
+}
+
+/// The diameters of one end of a fitting: inside and outside, m.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Diameters {
+    pub id: f64,
+    pub od: f64,
+}
+
+/// Reads a preset and typed diameters into inside and outside diameters.
+///
+/// # Errors
+/// A field error naming the typed field when a diameter is missing or the inside
+/// is not smaller than the outside.
+pub fn diameters(
+    preset: &str,
+    typed_id: Option<f64>,
+    typed_od: Option<f64>,
+    fields: (&'static str, &'static str, &'static str),
+) -> Result<Diameters, FieldError> {
+    let (size_field, id_field, od_field) = fields;
+    let preset = pipe_sizes::find(preset);
+    let id = typed_id.or(preset.map(|p| p.id));
+    let od = typed_od.or(preset.map(|p| p.od));
+    match (id, od) {
+        (Some(id), Some(od)) if id < od => Ok(Diameters { id, od }),
+        (Some(_), Some(_)) => Err(FieldError::inconsistent(
+            od_field,
+            "the outside diameter must be larger than the inside diameter",
+        )),
+        (None, _) => Err(FieldError::inconsistent(
+            id_field,
+            format!("give an inside diameter or choose a preset in '{size_field}'"),
+        )),
+        (_, None) => Err(FieldError::inconsistent(
+            od_field,
+            format!("give an outside diameter or choose a preset in '{size_field}'"),
+        )),
+    }
+}
+
+/// Whether a joint takes its thrust area on the outside diameter.
+pub fn joint_uses_od(joint: &str) -> bool {
+    matches!(joint, "push_on" | "mechanical")
+}
+
+fn opt(values: &Values, key: &str) -> Option<f64> {
+    values.is_set(key).then(|| values.quantity_or(key, 0.0))
+}
+
+/// Design pressures found from the inputs.
+struct Pressures {
+    work: f64,
+    test: Option<(f64, String)>,
+    surge: Option<Surge>,
+    design: f64,
+    basis: String,
+}
+
+struct Surge {
+    wave_speed: f64,
+    dp: f64,
+    source: String,
+}
+
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let one = |e: FieldError| vec![e];
+    let fitting = values.choice("fitting").map_err(one)?.to_string();
+    let plane = Plane::from_key(values.choice("plane").map_err(one)?);
+    let joint = values.choice("joint").map_err(one)?;
+    let fluid = common::fluid_from(values)?;
+    let sf = values.quantity("sf").map_err(one)?;
+    let uses_od = joint_uses_od(joint);
+
+    // --- Sizes --------------------------------------------------------------------
+    let needs_size = fitting != "force";
+    let size_key = values.choice("size").map_err(one)?.to_string();
+    let main = diameters(&size_key, opt(values, "d"), opt(values, "od"), ("size", "d", "od"));
+    let main = match (main, needs_size) {
+        (Ok(d), _) => Some(d),
+        (Err(e), true) => return Err(vec![e]),
+        (Err(_), false) => None,
+    };
+    let second = if matches!(fitting.as_str(), "tee" | "reducer") {
+        let key = values.choice("size2").unwrap_or(pipe_sizes::CUSTOM).to_string();
+        Some(diameters(&key, opt(values, "d2"), opt(values, "od2"), ("size2", "d2", "od2")).map_err(one)?)
+    } else {
+        None
+    };
+    let basis_d = |d: Diameters| if uses_od { d.od } else { d.id };
+
+    // --- Design pressure -----------------------------------------------------------
+    let pressures = design_pressure(values, main, &fluid, report)?;
+
+    // --- Thrust --------------------------------------------------------------------
+    let p = pressures.design;
+    let (thrust_vec, static_formula, balance) = match fitting.as_str() {
+        "force" => {
+            let t = values.quantity("thrust").map_err(one)?;
+            let elev = match values.is_set("thrust_elev") {
+                true => values.quantity_or("thrust_elev", 0.0),
+                false => match plane {
+                    Plane::Horizontal => 0.0,
+                    Plane::Crest => PI / 2.0,
+                    Plane::Sag => -PI / 2.0,
+                },
+            };
+            // Drawing frame: horizontal plan → along +x; vertical → (cos, sin).
+            let v = match plane {
+                Plane::Horizontal if elev == 0.0 => Vec3::new(t, 0.0, 0.0),
+                _ => Vec3::new(t * elev.cos(), t * elev.sin(), 0.0),
+            };
+            if p > 0.0 && values.is_set("p_work") {
+                report.warn(Some("thrust"), "a given thrust is used as typed: the design pressure above does not change it; to recompute the thrust at the design pressure choose the fitting instead");
+            }
+            (v, t, None)
+        }
+        kind => {
+            let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "a size is required")])?;
+            let a1 = common::circle_area(basis_d(main));
+            let (kind, angle, a2) = match kind {
+                "bend" => (FittingKind::Bend, values.quantity("angle").map_err(one)?, a1),
+                "dead_end" => (FittingKind::DeadEnd, 0.0, a1),
+                "tee" | "reducer" => {
+                    let s = second.ok_or_else(|| {
+                        vec![FieldError::inconsistent("d2", "a branch or small-end size is required")]
+                    })?;
+                    let a2 = common::circle_area(basis_d(s));
+                    if kind == "tee" {
+                        if s.od > main.od * 1.0001 {
+                            return Err(vec![FieldError::inconsistent(
+                                "size2",
+                                "the branch of a tee cannot be larger than the run",
+                            )]);
+                        }
+                        (FittingKind::Tee, 0.0, a2)
+                    } else {
+                        if a2 >= a1 {
+                            return Err(vec![FieldError::inconsistent(
+                                "size2",
+                                "the small end of a reducer must be smaller than the large end",
+                            )]);
+                        }
+                        (FittingKind::Reducer, 0.0, a2)
+                    }
+                }
+                _ => return Err(vec![FieldError::inconsistent("fitting", "unknown fitting")]),
+            };
+            let fit = StaticFitting {
+                kind,
+                angle,
+                area: a1,
+                area2: a2,
+                plane,
+            };
+            let balance = static_balance(&fit, p, &fluid).map_err(|e| common::engine_error(e, "p_work"))?;
+            let closed = match kind {
+                FittingKind::Bend => 2.0 * p * a1 * (angle / 2.0).sin(),
+                FittingKind::DeadEnd => p * a1,
+                FittingKind::Tee => p * a2,
+                FittingKind::Reducer => p * (a1 - a2),
+            };
+            report.output("area_d", basis_d(main));
+            report.output("thrust_area", a1);
+            (balance.thrust(), closed, Some(balance))
+        }
+    };
+    let (t_h, t_v) = match plane {
+        Plane::Horizontal => ((thrust_vec.x.powi(2) + thrust_vec.y.powi(2)).sqrt(), thrust_vec.z),
+        Plane::Crest | Plane::Sag => (thrust_vec.x.abs(), thrust_vec.y),
+    };
+    let thrust = thrust_vec.norm();
+    report.output("thrust", thrust);
+    report.output("thrust_h", t_h);
+    report.output("thrust_v", t_v);
+    report.output("static_thrust", static_formula);
+    report.output("p_design", p);
+    if let Some(b) = &balance {
+        for w in &b.warnings {
+            if !matches!(w, EngineWarning::MomentumNegligible { .. }) {
+                report.warn(Some("p_work"), w.to_string());
+            }
+        }
+    }
+    if thrust == 0.0 {
+        report.warn(Some("p_work"), "with zero pressure there is no thrust to restrain");
+    }
+
+    // --- Block -----------------------------------------------------------------------
+    let od_for_drawing = main.map(|d| d.od).unwrap_or(0.3);
+    let block = match plane {
+        Plane::Horizontal | Plane::Sag => {
+            let sigma = soil_bearing(values)?;
+            report.output("sigma", sigma);
+            let load = if plane == Plane::Horizontal { t_h } else { thrust };
+            let area = sf * load / sigma;
+            report.output("bearing_area", area);
+            let (h, w) = face(values, area)?;
+            report.output("face_h", h);
+            report.output("face_w", w);
+            if plane == Plane::Horizontal && h < od_for_drawing && needs_size {
+                let text = report.fmt(od_for_drawing, Q::Length);
+                report.warn(Some("block_h"), format!("the bearing face is lower than the pipe's outside diameter ({text}): make it at least as tall as the pipe, centred on the thrust line"));
+            }
+            if plane == Plane::Horizontal && t_v.abs() > 1e-9 * thrust.max(1.0) {
+                report.warn(Some("plane"), "the given thrust has a vertical component; only the horizontal part is carried by the bearing face");
+            }
+            soil_comparison(report, load, sf, sigma);
+            Block::Bearing { h, w }
+        }
+        Plane::Crest => {
+            let gamma_c = values.quantity("gamma_c").map_err(one)?;
+            let submerged = values.choice("submerged").map_err(one)? == "yes";
+            let gamma_eff = if submerged {
+                gamma_c - WATER_UNIT_WEIGHT
+            } else {
+                gamma_c
+            };
+            if gamma_eff <= 0.0 {
+                return Err(vec![FieldError::inconsistent(
+                    "gamma_c",
+                    "below groundwater the concrete must be heavier than water",
+                )]);
+            }
+            if t_v <= 0.0 {
+                report.warn(Some("plane"), "the thrust has no upward component: a gravity block is not what holds it; choose a horizontal or sag block");
+            }
+            let weight = sf * t_v.max(0.0);
+            let volume = weight / gamma_eff;
+            let mass = gamma_c * volume / STANDARD_GRAVITY;
+            report.output("block_weight", weight);
+            report.output("block_volume", volume);
+            report.output("block_mass", mass);
+            let height = opt(values, "gravity_h");
+            let side = match height {
+                Some(h) => (volume / h).sqrt(),
+                None => volume.cbrt(),
+            };
+            report.output("block_side", side);
+            if let Some(mu) = opt(values, "mu") {
+                let sf_slide = opt(values, "sf_slide").unwrap_or(1.5);
+                let normal = gamma_eff * volume - t_v.max(0.0);
+                if t_h > 0.0 {
+                    let factor = mu * normal / t_h;
+                    report.output("sliding_sf", factor);
+                    if factor < sf_slide {
+                        report.warn(Some("mu"), format!("sliding: μ·(W − T_up)/T_h = {} is below the required {}; enlarge the block or bear its side against undisturbed soil", units::format_significant(factor, 3), units::format_significant(sf_slide, 3)));
+                    }
+                } else {
+                    report.warn(Some("mu"), "no horizontal thrust: nothing to slide");
+                }
+            }
+            if submerged {
+                report.warn(Some("submerged"), "below groundwater the block's effective weight uses γ_c − γ_w; check the highest groundwater level, not today's");
+            }
+            Block::Gravity {
+                volume,
+                side,
+                height: height.unwrap_or(side),
+            }
+        }
+    };
+
+    // --- Tables, diagram, links ---------------------------------------------------------
+    pressure_table(report, &pressures, values);
+    if let Some(b) = &balance {
+        let system = report.system();
+        report.solution.tables.push(common::ledger_table(b, system));
+    }
+    let diagram = diagram(
+        &fitting,
+        plane,
+        od_for_drawing,
+        second.map(|d| d.od),
+        values,
+        thrust_vec,
+        &block,
+        report,
+    );
+    report.solution.diagrams.push(diagram);
+    if fitting != "force" {
+        let mut inputs: Vec<(&'static str, String)> = vec![
+            ("fitting", "force".to_string()),
+            ("thrust", units::format_quantity(thrust, Q::Force, report.system())),
+        ];
+        inputs.push(("plane", values.choice("plane").unwrap_or("horizontal").to_string()));
+        report.solution.carry_over.push(CarryOver {
+            calculator: KEY,
+            label: "Try other soils or block shapes for this thrust".to_string(),
+            inputs,
+        });
+    }
+    Ok(())
+}
+
+enum Block {
+    Bearing { h: f64, w: f64 },
+    Gravity { volume: f64, side: f64, height: f64 },
+}
+
+fn soil_bearing(values: &Values) -> Result<f64, Vec<FieldError>> {
+    let key = values.choice("soil").map_err(|e| vec![e])?;
+    if key == "custom" {
+        return opt(values, "sigma").ok_or_else(|| {
+            vec![FieldError::inconsistent(
+                "sigma",
+                "type the allowable soil bearing (greater than 0), or choose a soil preset",
+            )]
+        });
+    }
+    match soil(key) {
+        Some(s) if s.bearing > 0.0 => Ok(s.bearing),
+        Some(s) => Err(vec![FieldError::inconsistent("soil", format!("{}: the {} gives no bearing (0); a block cannot bear on it: use restrained joints, piles or tie rods to firm ground, or replace the soil, with a geotechnical engineer", s.soil, s.table.short()))]),
+        None => Err(vec![FieldError::inconsistent("soil", "unknown soil preset")]),
+    }
+}
+
+/// Face height and width for a bearing area.
+fn face(values: &Values, area: f64) -> Result<(f64, f64), Vec<FieldError>> {
+    match values.choice("block_dims").unwrap_or("height") {
+        "aspect" => {
+            let r = values.quantity("block_aspect").map_err(|e| vec![e])?;
+            let h = (area / r).sqrt();
+            Ok((h, r * h))
+        }
+        _ => {
+            let h = values.quantity("block_h").map_err(|e| vec![e])?;
+            Ok((h, area / h))
+        }
+    }
+}
+
+fn design_pressure(
+    values: &Values,
+    main: Option<Diameters>,
+    fluid: &Fluid,
+    report: &mut Report<'_>,
+) -> Result<Pressures, Vec<FieldError>> {
+    let one = |e: FieldError| vec![e];
+    let basis = values.choice("p_basis").map_err(one)?.to_string();
+    let work = values.quantity("p_work").map_err(one)?;
+    let wants_test = matches!(basis.as_str(), "test" | "highest");
+    let wants_surge = matches!(basis.as_str(), "surge" | "highest");
+    let test = if wants_test {
+        let rule = values.choice("test_rule").map_err(one)?;
+        if rule == "custom" {
+            let p = opt(values, "p_test").ok_or_else(|| {
+                vec![FieldError::inconsistent(
+                    "p_test",
+                    "type the test pressure, or choose a named rule",
+                )]
+            })?;
+            Some((p, "typed test pressure".to_string()))
+        } else {
+            let r = test_rule(rule).ok_or_else(|| vec![FieldError::inconsistent("test_rule", "unknown rule")])?;
+            Some(((r.apply)(work), r.citation.to_string()))
+        }
+    } else {
+        None
+    };
+    let surge = if wants_surge && values.is_set("dv") {
+        let dv = values.quantity_or("dv", 0.0);
+        let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "the surge estimate needs the pipe size")])?;
+        let (e_mod, nu, source) = match values.choice("material").map_err(one)? {
+            "custom" => {
+                let e = opt(values, "e_pipe").ok_or_else(|| {
+                    vec![FieldError::inconsistent(
+                        "e_pipe",
+                        "type Young's modulus of the wall, or choose a material",
+                    )]
+                })?;
+                (e, 0.3, "typed modulus, ν = 0.3".to_string())
+            }
+            key => {
+                let (e, nu, s) =
+                    material(key).ok_or_else(|| vec![FieldError::inconsistent("material", "unknown material")])?;
+                (e, nu, s.to_string())
+            }
+        };
+        let wall = opt(values, "wall").unwrap_or((main.od - main.id) / 2.0);
+        if wall >= main.od / 2.0 {
+            return Err(vec![FieldError::inconsistent(
+                "wall",
+                "the wall must be thinner than half the outside diameter",
+            )]);
+        }
+        let c1 = match values.choice("anchoring").unwrap_or("joints") {
+            "anchored" => 1.0 - nu * nu,
+            "upstream" => 1.0 - nu / 2.0,
+            _ => 1.0,
+        };
+        let k = opt(values, "k_fluid").unwrap_or(WATER_BULK_MODULUS);
+        let a = wave_speed(k, fluid.density, main.id, wall, e_mod, c1);
+        let dp = fluid.density * a * dv;
+        report.output("wave_speed", a);
+        report.output("dp_surge", dp);
+        report.output("p_surge", work + dp);
+        Some(Surge {
+            wave_speed: a,
+            dp,
+            source,
+        })
+    } else {
+        if basis == "surge" {
+            return Err(vec![FieldError::inconsistent(
+                "dv",
+                "the surge basis needs the velocity change",
+            )]);
+        }
+        None
+    };
+    if let Some((pt, _)) = &test {
+        report.output("p_test", *pt);
+    }
+    let surge_p = surge.as_ref().map(|s| work + s.dp);
+    let design = match basis.as_str() {
+        "operating" => work,
+        "test" => test.as_ref().map(|t| t.0).unwrap_or(work),
+        "surge" => surge_p.unwrap_or(work),
+        _ => {
+            let mut p = work;
+            if let Some((pt, _)) = &test {
+                p = p.max(*pt);
+            }
+            if let Some(ps) = surge_p {
+                p = p.max(ps);
+            }
+            p
+        }
+    };
+    if basis == "operating" {
+        report.warn(
+            Some("p_basis"),
+            "designing on the operating pressure alone: the field test and any surge will load the block harder",
+        );
+    }
+    if basis == "highest" && surge.is_none() {
+        report.warn(Some("dv"), "no surge estimate: the highest pressure here omits surge; give the velocity change or check transients separately");
+    }
+    Ok(Pressures {
+        work,
+        test,
+        surge,
+        design,
+        basis,
+    })
+}
+
+fn pressure_table(report: &mut Report<'_>, pr: &Pressures, values: &Values) {
+    let unit = units::display_unit(pr.design.max(pr.work).max(1.0), Q::Pressure, report.system()).id;
+    let cell = |v: f64| {
+        units::convert_to(v, Q::Pressure, unit)
+            .map(|x| units::format_significant(x, 4))
+            .unwrap_or_default()
+    };
+    let mut table = Table {
+        key: "pressures",
+        title: "Design pressure: the candidates and the one used".to_string(),
+        columns: vec![
+            "Basis".into(),
+            format!("gauge pressure ({unit})"),
+            "How it was found".into(),
+        ],
+        rows: vec![vec!["Operating (working)".into(), cell(pr.work), "typed".into()]],
+        emphasised_rows: Vec::new(),
+    };
+    if let Some((pt, src)) = &pr.test {
+        table.rows.push(vec!["Field test".into(), cell(*pt), src.clone()]);
+    }
+    if let Some(s) = &pr.surge {
+        let a = report.fmt(s.wave_speed, Q::Velocity);
+        let dv = report.fmt(values.quantity_or("dv", 0.0), Q::Velocity);
+        table.rows.push(vec![
+            "Working + Joukowsky surge".into(),
+            cell(pr.work + s.dp),
+            format!("Δp = ρ·a·ΔV with a = {a}, ΔV = {dv}; {}", s.source),
+        ]);
+    }
+    table.rows.push(vec![
+        format!("Used ({})", pr.basis),
+        cell(pr.design),
+        "the design pressure of the thrust below".into(),
+    ]);
+    table.emphasised_rows.push(table.rows.len() - 1);
+    report.solution.tables.push(table);
+}
+
+/// The soil tables side by side: the bearing area each preset would need for this load.
+fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: f64) {
+    let system = report.system();
+    let p_unit = match system {
+        UnitSystem::Si => "kPa",
+        UnitSystem::UsCustomary => "psf",
+    };
+    let a_unit = units::display_unit(sf * load / 50e3, Q::Area, system).id;
+    let fmt = |v: f64, kind: Q, unit: &str| {
+        units::convert_to(v, kind, unit)
+            .map(|x| units::format_significant(x, 3))
+            .unwrap_or_default()
+    };
+    let mut table = Table {
+        key: "soils",
+        title: format!(
+            "Soil tables compared: bearing area for this load at SF {}",
+            units::format_significant(sf, 3)
+        ),
+        columns: vec![
+            "Table".into(),
+            "Soil".into(),
+            format!("allowable bearing ({p_unit})"),
+            format!("bearing area ({a_unit})"),
+            "Convention".into(),
+        ],
+        rows: Vec::new(),
+        emphasised_rows: Vec::new(),
+    };
+    for s in SOILS {
+        let area = if s.bearing > 0.0 {
+            fmt(sf * load / s.bearing, Q::Area, a_unit)
+        } else {
+            "no bearing".into()
+        };
+        if (s.bearing - used).abs() < 1e-9 * used {
+            table.emphasised_rows.push(table.rows.len());
+        }
+        table.rows.push(vec![
+            s.table.short().into(),
+            s.soil.into(),
+            fmt(s.bearing, Q::Pressure, p_unit),
+            area,
+            s.table.convention().into(),
+        ]);
+    }
+    report.solution.tables.push(table);
+}
+
+#[allow(clippy::too_many_arguments)]
+fn diagram(
+    fitting: &str,
+    plane: Plane,
+    od: f64,
+    od2: Option<f64>,
+    values: &Values,
+    thrust: Vec3,
+    block: &Block,
+    report: &Report<'_>,
+) -> Diagram {
+    let mut shapes = Vec::new();
+    let lead = 3.0 * od;
+    let turn = plane.turn();
+    // The pipe: legs meeting at the origin, to scale (outside diameter).
+    let legs: Vec<([f64; 2], [f64; 2], f64)> = match fitting {
+        "bend" => {
+            let a = turn * values.quantity_or("angle", PI / 4.0);
+            vec![
+                ([-lead, 0.0], [0.0, 0.0], od),
+                ([0.0, 0.0], [lead * a.cos(), lead * a.sin()], od),
+            ]
+        }
+        "tee" => vec![
+            ([-lead, 0.0], [lead, 0.0], od),
+            ([0.0, 0.0], [0.0, turn * lead], od2.unwrap_or(od)),
+        ],
+        "reducer" => vec![
+            ([-lead, 0.0], [0.0, 0.0], od),
+            ([0.0, 0.0], [lead, 0.0], od2.unwrap_or(od)),
+        ],
+        "dead_end" => vec![([-lead, 0.0], [0.0, 0.0], od)],
+        _ => vec![],
+    };
+    for (a, b, d) in &legs {
+        shapes.push(Shape::Polygon {
+            points: common::straight_band(*a, *b, *d),
+            style: ShapeStyle::Wall,
+        });
+    }
+    // Thrust direction in the drawing plane.
+    let (tx, ty) = match plane {
+        Plane::Horizontal if thrust.x.abs() + thrust.y.abs() > 0.0 => (thrust.x, thrust.y),
+        Plane::Horizontal => (1.0, 0.0),
+        _ => (thrust.x, thrust.y),
+    };
+    let tn = (tx * tx + ty * ty).sqrt();
+    let (ux, uy) = if tn > 0.0 { (tx / tn, ty / tn) } else { (1.0, 0.0) };
+    let (nx, ny) = (-uy, ux);
+    let caption;
+    let title;
+    match block {
+        Block::Bearing { w, h, .. } => {
+            // Plan (horizontal): the face width is seen; a sag block is drawn in
+            // elevation, its base under the fitting.
+            let depth = (0.5 * w).max(0.5 * od).max(0.3);
+            let near = 0.5 * od;
+            let far = near + depth;
+            let half = 0.5 * w;
+            let p = |s: f64, t: f64| [s * ux + t * nx, s * uy + t * ny];
+            shapes.push(Shape::Polygon {
+                points: vec![p(near, -half), p(far, -half), p(far, half), p(near, half)],
+                style: ShapeStyle::Restraint,
+            });
+            shapes.push(Shape::Polyline {
+                points: vec![p(far + 0.05 * depth, -half * 1.3), p(far + 0.05 * depth, half * 1.3)],
+                style: ShapeStyle::Guide,
+            });
+            shapes.push(Shape::Text {
+                at: p(far + 0.25 * depth, 0.0),
+                text: "undisturbed soil".into(),
+                style: ShapeStyle::Label,
+            });
+            let label_w = report.fmt(*w, Q::Length);
+            let label_h = report.fmt(*h, Q::Length);
+            shapes.push(Shape::Text {
+                at: p(far, half + 0.15 * depth),
+                text: format!("bearing face {label_w} wide × {label_h} high"),
+                style: ShapeStyle::Label,
+            });
+            // Bearing pressure arrows on the face, pointing back at the block.
+            for k in [-0.6, 0.0, 0.6] {
+                shapes.push(Shape::Arrow {
+                    from: p(far + 0.6 * depth, k * half),
+                    to: p(far, k * half),
+                    label: String::new(),
+                    style: ShapeStyle::Pressure,
+                });
+            }
+            title = if plane == Plane::Horizontal {
+                "Bearing block, plan view"
+            } else {
+                "Block under a sag bend, elevation"
+            }
+            .to_string();
+            caption = "Pipe (outside diameter) and the bearing face width to scale; the block's depth behind the face is schematic. T is the thrust on the block; the soil pushes back on the face.".to_string();
+        }
+        Block::Gravity { volume, side, height } => {
+            // Elevation: the block under the crest fitting, hanging from it.
+            let top = -0.5 * od;
+            let half = 0.5 * side;
+            shapes.push(Shape::Polygon {
+                points: vec![[-half, top], [half, top], [half, top - height], [-half, top - height]],
+                style: ShapeStyle::Restraint,
+            });
+            let weight_arrow_len = 0.6 * height;
+            shapes.push(Shape::Arrow {
+                from: [0.0, top - 0.5 * height],
+                to: [0.0, top - 0.5 * height - weight_arrow_len],
+                label: "W (block)".into(),
+                style: ShapeStyle::Weight,
+            });
+            shapes.push(Shape::Text {
+                at: [half + 0.1, top - 0.5 * height],
+                text: format!("{} of concrete", report.fmt(*volume, Q::Volume)),
+                style: ShapeStyle::Label,
+            });
+            if values.choice("submerged").unwrap_or("no") == "yes" {
+                shapes.push(Shape::Polyline {
+                    points: vec![[-half * 1.5, top + 0.2], [half * 1.5, top + 0.2]],
+                    style: ShapeStyle::Fluid,
+                });
+                shapes.push(Shape::Text {
+                    at: [half * 1.5, top + 0.25],
+                    text: "groundwater".into(),
+                    style: ShapeStyle::Label,
+                });
+            }
+            title = "Gravity block under a crest bend, elevation".to_string();
+            caption = "Pipe and block to scale (square plan, side shown); the block is tied to the fitting, and its effective weight holds the upward thrust.".to_string();
+        }
+    }
+    let len = 1.5 * od.max(0.2);
+    shapes.push(Shape::Arrow {
+        from: [0.0, 0.0],
+        to: [ux * len * 2.0, uy * len * 2.0],
+        label: format!("T {}", report.fmt(thrust.norm(), Q::Force)),
+        style: ShapeStyle::Thrust,
+    });
+    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.5 * od.max(0.2));
+    Diagram {
+        title,
+        bounds,
+        shapes,
+        caption,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::catalog::{demo_inputs, Request};
+    use crate::units::UnitSystem;
+    use approx::assert_relative_eq;
+
+    fn request(pairs: &[(&str, &str)]) -> Request {
+        let mut request = Request::default();
+        for (k, v) in demo_inputs(&super::spec()) {
+            request.inputs.insert(k, v);
+        }
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        request
+    }
+
+    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
+        match crate::solve(super::KEY, &request(pairs)).result {
+            Ok(s) => s,
+            Err(e) => panic!("does not solve: {e}"),
+        }
+    }
+
+    fn error_field(pairs: &[(&str, &str)]) -> String {
+        match crate::solve(super::KEY, &request(pairs)).result {
+            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
+            other => panic!("expected a field error, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn demo_solves_in_both_unit_systems() {
+        let mut r = request(&[]);
+        assert!(crate::solve(super::KEY, &r).result.is_ok());
+        r.system = UnitSystem::UsCustomary;
+        assert!(crate::solve(super::KEY, &r).result.is_ok());
+    }
+
+    #[test]
+    fn bend_thrust_on_outside_diameter_matches_static_formula() {
+        // Derived from the definition: T = 2 p A sin(θ/2), A on the OD for push-on joints.
+        let s = solve(&[
+            ("fitting", "bend"),
+            ("angle", "90 deg"),
+            ("size", "custom"),
+            ("d", "300 mm"),
+            ("od", "320 mm"),
+            ("p_basis", "operating"),
+            ("p_work", "10 bar"),
+        ]);
+        let expected = 2.0 * 1e6 * std::f64::consts::PI * 0.32 * 0.32 / 4.0 * (std::f64::consts::FRAC_PI_4).sin();
+        assert_relative_eq!(
+            s.output("thrust").map(|o| o.si).unwrap_or(0.0),
+            expected,
+            max_relative = 1e-9
+        );
+        assert_relative_eq!(
+            s.output("area_d").map(|o| o.si).unwrap_or(0.0),
+            0.32,
+            max_relative = 1e-12
+        );
+    }
+
+    #[test]
+    fn crest_needs_a_gravity_block_and_sag_bears_down() {
+        let crest = solve(&[
+            ("plane", "vertical_crest"),
+            ("angle", "45 deg"),
+            ("p_basis", "operating"),
+        ]);
+        let tv = crest.output("thrust_v").map(|o| o.si).unwrap_or(0.0);
+        assert!(tv > 0.0);
+        assert!(crest.output("block_volume").is_some());
+        let sag = solve(&[("plane", "vertical_sag"), ("angle", "45 deg"), ("p_basis", "operating")]);
+        assert!(sag.output("thrust_v").map(|o| o.si).unwrap_or(0.0) < 0.0);
+        assert!(sag.output("bearing_area").is_some());
+    }
+
+    #[test]
+    fn bad_inputs_name_their_field() {
+        assert_eq!(error_field(&[("p_work", "-5 psi")]), "p_work");
+        assert_eq!(error_field(&[("soil", "custom"), ("sigma", "0 kPa")]), "sigma");
+        assert_eq!(error_field(&[("soil", "safe_muck")]), "soil");
+        assert_eq!(error_field(&[("size", "custom")]), "d");
+        assert_eq!(error_field(&[("fitting", "reducer"), ("size2", "di52_16")]), "size2");
+        assert_eq!(error_field(&[("p_basis", "surge"), ("dv", "")]), "dv");
+    }
+
+    #[test]
+    fn highest_basis_takes_the_largest_candidate() {
+        let s = solve(&[
+            ("p_basis", "highest"),
+            ("test_rule", "nfpa24"),
+            ("p_work", "100 psi"),
+            ("dv", ""),
+        ]);
+        // NFPA 24: max(200 psi, 100 + 50 psi) = 200 psi.
+        assert_relative_eq!(
+            s.output("p_design").map(|o| o.si).unwrap_or(0.0),
+            200.0 * super::PSI,
+            max_relative = 1e-12
+        );
+    }
+}
