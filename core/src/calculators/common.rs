@@ -543,3 +543,119 @@ pub fn basis_table(rows: Vec<(&str, String)>) -> Table {
         emphasised_rows: Vec::new(),
     }
 }
+
+// --- Free jets from a nozzle (jet on a plate, jet on a vane, ...) -------------------
+
+pub const JET_BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "v",
+        label: "Jet velocity",
+    },
+    ChoiceOption {
+        key: "q",
+        label: "Jet flow",
+    },
+    ChoiceOption {
+        key: "head",
+        label: "Supply head at the nozzle, with Cv",
+    },
+    ChoiceOption {
+        key: "p",
+        label: "Gauge pressure at the nozzle inlet, with Cv",
+    },
+];
+
+/// A free jet leaving a nozzle, SI: diameter and area of the jet, mean speed, flow.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Jet {
+    pub diameter: f64,
+    pub area: f64,
+    pub velocity: f64,
+    pub flow: f64,
+}
+
+/// The jet fields: `d_jet`, `jet_basis` and one of `v_jet`, `q_jet`, `h_supply`,
+/// `p_supply` (the last two with the velocity coefficient `cv`). Demo values are
+/// given in the order diameter, basis, velocity, flow, head, pressure, Cv.
+pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
+    let [d, basis, v, q, head, p, cv] = demo;
+    vec![
+        quantity(
+            "d_jet",
+            "Jet diameter (nozzle outlet)",
+            Q::Length,
+            "mm",
+            "in",
+            d,
+            Limits::positive(2.0),
+            "Diameter of the round jet where it leaves the nozzle (the nozzle's outlet bore).",
+        ),
+        choice(
+            "jet_basis",
+            "Jet given as",
+            JET_BASIS_OPTIONS,
+            basis,
+            "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at the nozzle inlet through V = Cv·√(2gH).",
+        ),
+        FieldSpec {
+            visible_when: Some(("jet_basis", &["v"])),
+            optional: true,
+            ..quantity("v_jet", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::positive(300.0), "Mean speed of the jet at the nozzle outlet.")
+        },
+        FieldSpec {
+            visible_when: Some(("jet_basis", &["q"])),
+            optional: true,
+            ..quantity("q_jet", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::positive(100.0), "Volumetric flow through the nozzle; the jet speed is the flow over the jet area.")
+        },
+        FieldSpec {
+            visible_when: Some(("jet_basis", &["head"])),
+            optional: true,
+            ..quantity("h_supply", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::positive(3000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
+        },
+        FieldSpec {
+            visible_when: Some(("jet_basis", &["p"])),
+            optional: true,
+            ..quantity("p_supply", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::positive(MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
+        },
+        FieldSpec {
+            visible_when: Some(("jet_basis", &["head", "p"])),
+            optional: true,
+            ..quantity("cv", "Velocity coefficient Cv", Q::Ratio, "-", "-", cv, Limits::closed(0.6, 1.0), "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common practice). Empty means 1 (ideal).")
+        },
+    ]
+}
+
+/// Reads the jet fields (see [`jet_fields`]) for a fluid of density `density`.
+pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
+    let diameter = values.quantity("d_jet").map_err(|e| vec![e])?;
+    let area = circle_area(diameter);
+    let need = |key: &'static str| {
+        if values.is_set(key) {
+            Ok(values.quantity_or(key, 0.0))
+        } else {
+            Err(vec![FieldError::inconsistent(
+                key,
+                "a value is required for the chosen way of giving the jet",
+            )])
+        }
+    };
+    let cv = values.quantity_or("cv", 1.0);
+    let velocity = match values.choice("jet_basis").map_err(|e| vec![e])? {
+        "q" => need("q_jet")? / area,
+        "head" => cv * (2.0 * crate::units::STANDARD_GRAVITY * need("h_supply")?).sqrt(),
+        "p" => cv * (2.0 * need("p_supply")? / density).sqrt(),
+        _ => need("v_jet")?,
+    };
+    if !(velocity.is_finite() && velocity > 0.0) {
+        return Err(vec![FieldError::inconsistent(
+            "d_jet",
+            "the jet speed comes out zero or not finite: check the jet inputs",
+        )]);
+    }
+    Ok(Jet {
+        diameter,
+        area,
+        velocity,
+        flow: velocity * area,
+    })
+}
