@@ -102,10 +102,13 @@ pub enum FlowSpec {
     Unknown,
 }
 
+/// A shared, cheaply cloned name (ports keep theirs through every balance).
+pub type Name = std::sync::Arc<str>;
+
 /// One port of a control volume.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Port {
-    pub name: String,
+    pub name: Name,
     pub role: Role,
     /// m²
     pub area: f64,
@@ -126,7 +129,7 @@ pub struct Port {
 impl Port {
     fn new(name: &str, role: Role, area: Area, direction: Direction) -> Port {
         Port {
-            name: name.to_string(),
+            name: Name::from(name),
             role,
             area: area.get::<square_meter>(),
             direction,
@@ -262,7 +265,7 @@ pub enum Frame {
 /// (the pipe's own weight, a valve's weight), acting at a point.
 #[derive(Clone, Debug, PartialEq)]
 pub struct ExtraForce {
-    pub name: String,
+    pub name: Name,
     /// N
     pub force: Vec3,
     pub at: Vec3,
@@ -326,7 +329,7 @@ impl ControlVolume {
     }
     pub fn extra_force(&mut self, name: &str, force: Vec3, at: Vec3) -> &mut ControlVolume {
         self.extra_forces.push(ExtraForce {
-            name: name.to_string(),
+            name: Name::from(name),
             force,
             at,
         });
@@ -457,7 +460,7 @@ impl std::fmt::Display for EngineWarning {
 /// Solved state and ledger terms of one port.
 #[derive(Clone, Debug, PartialEq)]
 pub struct PortState {
-    pub name: String,
+    pub name: Name,
     pub role: Role,
     pub area: f64,
     /// Mean speed relative to the CV, m/s.
@@ -545,7 +548,7 @@ fn check_inputs(cv: &ControlVolume) -> Result<(), EngineError> {
     for p in &cv.ports {
         let bad = |what| {
             Err(EngineError::InvalidPort {
-                port: p.name.clone(),
+                port: p.name.to_string(),
                 what,
             })
         };
@@ -675,164 +678,144 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
     let rho = cv.fluid.density;
     let g = cv.gravity.norm();
     let up = if g > 0.0 { -(cv.gravity * (1.0 / g)) } else { Vec3::ZERO };
+    // Heads are energies per unit mass divided by g; without gravity (a jet in
+    // space, a test case) they are expressed with standard gravity.
+    let g_head = if g > 0.0 { g } else { STANDARD_GRAVITY };
+    let mut warnings = Vec::new();
 
-    // --- Mass -------------------------------------------------------------------
-    let mut mass: Vec<Option<f64>> = cv
+    // One allocation for the port states; unknown mass flows and pressures are NaN
+    // until solved.
+    let mut ports: Vec<PortState> = cv
         .ports
         .iter()
-        .map(|p| match p.flow {
-            FlowSpec::Velocity(v) => Some(rho * v * p.area),
-            FlowSpec::VolumeFlow(q) => Some(rho * q),
-            FlowSpec::MassFlow(m) => Some(m),
-            FlowSpec::Unknown => None,
+        .map(|p| PortState {
+            name: p.name.clone(),
+            role: p.role,
+            area: p.area,
+            speed: 0.0,
+            relative_velocity: Vec3::ZERO,
+            absolute_velocity: Vec3::ZERO,
+            mass_flow: match p.flow {
+                FlowSpec::Velocity(v) => rho * v * p.area,
+                FlowSpec::VolumeFlow(q) => rho * q,
+                FlowSpec::MassFlow(m) => m,
+                FlowSpec::Unknown => f64::NAN,
+            },
+            volume_flow: 0.0,
+            pressure: p.pressure.unwrap_or(f64::NAN),
+            position: p.position,
+            pressure_force: Vec3::ZERO,
+            momentum_outflow: Vec3::ZERO,
         })
         .collect();
-    let unknown: Vec<usize> = (0..mass.len()).filter(|&i| mass[i].is_none()).collect();
-    let signed = |i: usize, m: f64| if cv.ports[i].role == Role::Outlet { m } else { -m };
-    let known_net: f64 = (0..mass.len())
-        .filter_map(|i| mass[i].map(|m| signed(i, m)))
-        .sum::<f64>()
-        + cv.mass_storage_rate;
-    let mut warnings = Vec::new();
-    match unknown.as_slice() {
-        [] => {}
-        [i] => {
-            // signed(i, m) + known_net = 0
-            let m = match cv.ports[*i].role {
-                Role::Outlet => -known_net,
-                Role::Inlet => known_net,
-            };
-            if m < -1e-12 * (1.0 + known_net.abs()) {
-                return Err(EngineError::FlowReverses {
-                    port: cv.ports[*i].name.clone(),
-                    mass_flow: m,
-                });
-            }
-            mass[*i] = Some(m.max(0.0));
-        }
-        many => {
-            return Err(EngineError::TooManyUnknownFlows {
-                ports: many.iter().map(|&i| cv.ports[i].name.clone()).collect(),
-            })
-        }
-    }
-    let mass: Vec<f64> = mass.into_iter().map(|m| m.unwrap_or(0.0)).collect();
-    let mass_residual: f64 = (0..mass.len()).map(|i| signed(i, mass[i])).sum::<f64>() + cv.mass_storage_rate;
-    let flow_scale = mass.iter().fold(0.0f64, |a, m| a.max(*m));
-    if unknown.is_empty() && mass_residual.abs() > 1e-6 * flow_scale.max(1e-9) {
-        warnings.push(EngineWarning::MassDoesNotClose {
-            residual: mass_residual,
+    let signed = |p: &PortState, m: f64| if p.role == Role::Outlet { m } else { -m };
+
+    // --- Mass -------------------------------------------------------------------
+    let unknown_count = ports.iter().filter(|p| p.mass_flow.is_nan()).count();
+    let known_net: f64 =
+        ports.iter().filter(|p| !p.mass_flow.is_nan()).map(|p| signed(p, p.mass_flow)).sum::<f64>() + cv.mass_storage_rate;
+    if unknown_count > 1 {
+        return Err(EngineError::TooManyUnknownFlows {
+            ports: ports.iter().filter(|p| p.mass_flow.is_nan()).map(|p| p.name.to_string()).collect(),
         });
     }
-    let speeds: Vec<f64> = cv.ports.iter().zip(&mass).map(|(p, m)| m / (rho * p.area)).collect();
+    if let Some(port) = ports.iter_mut().find(|p| p.mass_flow.is_nan()) {
+        // signed(port, m) + known_net = 0
+        let m = match port.role {
+            Role::Outlet => -known_net,
+            Role::Inlet => known_net,
+        };
+        if m < -1e-12 * (1.0 + known_net.abs()) {
+            return Err(EngineError::FlowReverses { port: port.name.to_string(), mass_flow: m });
+        }
+        port.mass_flow = m.max(0.0);
+    }
+    let mass_residual: f64 = ports.iter().map(|p| signed(p, p.mass_flow)).sum::<f64>() + cv.mass_storage_rate;
+    let flow_scale = ports.iter().fold(0.0f64, |a, p| a.max(p.mass_flow));
+    if unknown_count == 0 && mass_residual.abs() > 1e-6 * flow_scale.max(1e-9) {
+        warnings.push(EngineWarning::MassDoesNotClose { residual: mass_residual });
+    }
+    for p in &mut ports {
+        p.speed = p.mass_flow / (rho * p.area);
+        p.volume_flow = p.mass_flow / rho;
+    }
 
     // --- Energy -----------------------------------------------------------------
-    let mut pressure: Vec<Option<f64>> = cv.ports.iter().map(|p| p.pressure).collect();
-    let mut streams = Vec::new();
+    let mut streams = Vec::with_capacity(cv.streams.len());
     for s in &cv.streams {
+        // Mechanical energy per unit weight at a port for gauge pressure p.
+        let (speed_from, speed_to) = (ports[s.from].speed, ports[s.to].speed);
         let head_of = |i: usize, p: f64| {
             let port = &cv.ports[i];
-            let z = port.position.dot(up);
+            let speed = if i == s.from { speed_from } else { speed_to };
+            let z = port.position.dot(up) * g / g_head;
             let pot = centrifugal_potential(cv.frame, port.position);
-            p / (rho * g.max(f64::MIN_POSITIVE)) + port.alpha * speeds[i] * speeds[i] / (2.0 * g) + z - pot / g
+            p / (rho * g_head) + port.alpha * speed * speed / (2.0 * g_head) + z - pot / g_head
         };
         let given_loss = match s.loss {
             Loss::None => 0.0,
             Loss::Head(h) => h,
-            Loss::Coefficient { k, reference_port } => k * speeds[reference_port].powi(2) / (2.0 * g),
+            Loss::Coefficient { k, reference_port } => k * ports[reference_port].speed.powi(2) / (2.0 * g_head),
         };
-        let name = |i: usize| cv.ports[i].name.clone();
+        let (p_from, p_to) = (ports[s.from].pressure, ports[s.to].pressure);
+        let underdetermined = || EngineError::StreamUnderdetermined {
+            from: cv.ports[s.from].name.to_string(),
+            to: cv.ports[s.to].name.to_string(),
+        };
         let (mut head_loss, mut shaft_head) = (given_loss, s.shaft_head);
-        match (s.unknown, pressure[s.from], pressure[s.to]) {
-            (StreamUnknown::Pressure, Some(p1), None) => {
-                // head_of(to, p2) = head_of(from, p1) − h_L − h_s
-                let target = head_of(s.from, p1) - head_loss - shaft_head;
-                let p2 = (target - head_of(s.to, 0.0)) * rho * g;
-                pressure[s.to] = Some(p2);
+        match (s.unknown, p_from.is_nan(), p_to.is_nan()) {
+            (StreamUnknown::Pressure, false, true) => {
+                let target = head_of(s.from, p_from) - head_loss - shaft_head;
+                ports[s.to].pressure = (target - head_of(s.to, 0.0)) * rho * g_head;
             }
-            (StreamUnknown::Pressure, None, Some(p2)) => {
-                let target = head_of(s.to, p2) + head_loss + shaft_head;
-                let p1 = (target - head_of(s.from, 0.0)) * rho * g;
-                pressure[s.from] = Some(p1);
+            (StreamUnknown::Pressure, true, false) => {
+                let target = head_of(s.to, p_to) + head_loss + shaft_head;
+                ports[s.from].pressure = (target - head_of(s.from, 0.0)) * rho * g_head;
             }
-            (StreamUnknown::Pressure, Some(_), Some(_)) | (StreamUnknown::Pressure, None, None) => {
-                return Err(EngineError::StreamUnderdetermined {
-                    from: name(s.from),
-                    to: name(s.to),
-                })
-            }
-            (StreamUnknown::HeadLoss, Some(p1), Some(p2)) => {
-                head_loss = head_of(s.from, p1) - head_of(s.to, p2) - shaft_head;
+            (StreamUnknown::HeadLoss, false, false) => {
+                head_loss = head_of(s.from, p_from) - head_of(s.to, p_to) - shaft_head;
                 if head_loss < -1e-9 {
                     warnings.push(EngineWarning::NegativeHeadLoss {
-                        from: name(s.from),
-                        to: name(s.to),
+                        from: cv.ports[s.from].name.to_string(),
+                        to: cv.ports[s.to].name.to_string(),
                         head: head_loss,
                     });
                 }
             }
-            (StreamUnknown::ShaftHead, Some(p1), Some(p2)) => {
-                shaft_head = head_of(s.from, p1) - head_of(s.to, p2) - head_loss;
+            (StreamUnknown::ShaftHead, false, false) => {
+                shaft_head = head_of(s.from, p_from) - head_of(s.to, p_to) - head_loss;
             }
-            _ => {
-                return Err(EngineError::StreamUnderdetermined {
-                    from: name(s.from),
-                    to: name(s.to),
-                })
-            }
+            _ => return Err(underdetermined()),
         }
-        let (p1, p2) = (pressure[s.from].unwrap_or(0.0), pressure[s.to].unwrap_or(0.0));
-        let residual_head = head_of(s.from, p1) - head_of(s.to, p2) - head_loss - shaft_head;
-        streams.push(StreamState {
-            from: s.from,
-            to: s.to,
-            head_loss,
-            shaft_head,
-            residual_head,
-        });
+        let residual_head =
+            head_of(s.from, ports[s.from].pressure) - head_of(s.to, ports[s.to].pressure) - head_loss - shaft_head;
+        if residual_head.abs() > 1e-6 * (1.0 + head_loss.abs() + shaft_head.abs()) {
+            warnings.push(EngineWarning::EnergyDoesNotClose {
+                from: cv.ports[s.from].name.to_string(),
+                to: cv.ports[s.to].name.to_string(),
+                residual_head,
+            });
+        }
+        streams.push(StreamState { from: s.from, to: s.to, head_loss, shaft_head, residual_head });
     }
-    let mut pressures = Vec::with_capacity(pressure.len());
-    for (i, p) in pressure.iter().enumerate() {
-        match p {
-            Some(p) if p.is_finite() => pressures.push(*p),
-            _ => {
-                return Err(EngineError::PressureUnresolved {
-                    port: cv.ports[i].name.clone(),
-                })
-            }
-        }
+    if let Some(p) = ports.iter().find(|p| !p.pressure.is_finite()) {
+        return Err(EngineError::PressureUnresolved { port: p.name.to_string() });
     }
 
     // --- Linear momentum --------------------------------------------------------
-    let ports: Vec<PortState> = cv
-        .ports
-        .iter()
-        .enumerate()
-        .map(|(i, p)| {
-            let relative_velocity = p.direction.vec() * speeds[i];
-            let w = frame_velocity(cv.frame, p.position);
-            let absolute_velocity = relative_velocity
-                + match cv.frame {
-                    Frame::Translating { velocity } => velocity,
-                    _ => w,
-                };
-            let flux = (relative_velocity * p.beta + w) * mass[i];
-            PortState {
-                name: p.name.clone(),
-                role: p.role,
-                area: p.area,
-                speed: speeds[i],
-                relative_velocity,
-                absolute_velocity,
-                mass_flow: mass[i],
-                volume_flow: mass[i] / rho,
-                pressure: pressures[i],
-                position: p.position,
-                pressure_force: p.outward_normal() * (-pressures[i] * p.area),
-                momentum_outflow: if p.role == Role::Outlet { flux } else { -flux },
-            }
-        })
-        .collect();
+    for (state, p) in ports.iter_mut().zip(&cv.ports) {
+        let relative_velocity = p.direction.vec() * state.speed;
+        let w = frame_velocity(cv.frame, p.position);
+        state.relative_velocity = relative_velocity;
+        state.absolute_velocity = relative_velocity
+            + match cv.frame {
+                Frame::Translating { velocity } => velocity,
+                _ => w,
+            };
+        let flux = (relative_velocity * p.beta + w) * state.mass_flow;
+        state.pressure_force = p.outward_normal() * (-state.pressure * p.area);
+        state.momentum_outflow = if p.role == Role::Outlet { flux } else { -flux };
+    }
     let fluid_weight = cv.gravity * (rho * cv.contained_volume);
     let pressure_total: Vec3 = ports.iter().map(|p| p.pressure_force).sum();
     let flux_total: Vec3 = ports.iter().map(|p| p.momentum_outflow).sum();
@@ -843,9 +826,7 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
     let pressure_scale: f64 = ports.iter().map(|p| p.pressure_force.norm()).sum();
     let flux_scale: f64 = ports.iter().map(|p| p.momentum_outflow.norm()).sum();
     if pressure_scale > 0.0 && flux_scale < 0.01 * pressure_scale {
-        warnings.push(EngineWarning::MomentumNegligible {
-            ratio: flux_scale / pressure_scale,
-        });
+        warnings.push(EngineWarning::MomentumNegligible { ratio: flux_scale / pressure_scale });
     }
 
     // --- Angular momentum -------------------------------------------------------
@@ -869,28 +850,13 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
             let absolute = p.pressure + STANDARD_ATMOSPHERE;
             if absolute < pv {
                 warnings.push(EngineWarning::BelowVapourPressure {
-                    port: p.name.clone(),
+                    port: p.name.to_string(),
                     absolute,
                     vapour: pv,
                 });
             }
         }
     }
-    for s in &streams {
-        if cv
-            .streams
-            .iter()
-            .any(|c| c.from == s.from && c.to == s.to && c.unknown == StreamUnknown::Pressure)
-            && s.residual_head.abs() > 1e-6
-        {
-            warnings.push(EngineWarning::EnergyDoesNotClose {
-                from: cv.ports[s.from].name.clone(),
-                to: cv.ports[s.to].name.clone(),
-                residual_head: s.residual_head,
-            });
-        }
-    }
-
     Ok(Balance {
         ports,
         streams,
