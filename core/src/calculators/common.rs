@@ -523,12 +523,32 @@ pub fn typed_force(report: &Report<'_>, newtons: f64) -> String {
     }
 }
 
-/// A link that carries a fitting's thrust (magnitude, N) to the thrust-restraint page.
-pub fn thrust_carry_over(report: &Report<'_>, label: &str, thrust: f64) -> crate::catalog::CarryOver {
+/// A link that carries a fitting's thrust to the thrust-restraint page as "a given
+/// thrust": its magnitude (N) and its angle above the horizontal (radians, + up),
+/// which also picks that page's block type (bearing block, gravity block, sag).
+pub fn thrust_carry_over(
+    report: &Report<'_>,
+    label: &str,
+    thrust: f64,
+    elevation: f64,
+) -> crate::catalog::CarryOver {
+    let degrees = if elevation.is_finite() { elevation.to_degrees() } else { 0.0 };
+    let plane = if degrees > 1.0 {
+        "vertical_crest"
+    } else if degrees < -1.0 {
+        "vertical_sag"
+    } else {
+        "horizontal"
+    };
     crate::catalog::CarryOver {
         calculator: "thrust-block",
         label: label.to_string(),
-        inputs: vec![("thrust", typed_force(report, thrust))],
+        inputs: vec![
+            ("fitting", "force".to_string()),
+            ("thrust", typed_force(report, thrust)),
+            ("thrust_elev", format!("{} deg", units::format_significant(degrees, 4))),
+            ("plane", plane.to_string()),
+        ],
     }
 }
 

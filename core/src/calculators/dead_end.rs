@@ -243,7 +243,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.solution.tables.push(common::ledger_table(&balance, system));
     let diagram = diagram(d, d_od, d_used, closure, &balance, report);
     report.solution.diagrams.push(diagram);
-    let carry = common::thrust_carry_over(report, "Size a thrust block for this dead end", thrust.norm());
+    let carry = common::thrust_carry_over(report, "Size a thrust block for this dead end", thrust.norm(), 0.0);
     report.solution.carry_over.push(carry);
     Ok(())
 }

@@ -1,0 +1,609 @@
+//! Reducer or expander (concentric): the axial thrust the restraint must carry.
+//!
+//! # Method
+//! A control volume is drawn around the fluid in the fitting, cut at the inlet face
+//! (1) and the outlet face (2). With x along the flow, the linear-momentum balance
+//! ([`crate::engine`]) gives the force the supports exert,
+//!
+//! R = p₁A₁n₁ + p₂A₂n₂ + ṁ(β₂V₂ − β₁V₁) − W, and the thrust T = −R,
+//!
+//! whose axial part is T_x = p₁A₁ − p₂A₂ + ṁ(V₁ − V₂). The outlet pressure comes
+//! from the energy balance with the fitting's loss,
+//!
+//! p₂ = p₁ + ρ(V₁² − V₂²)/2 − ρg(z₂ − z₁) − K·ρV_ref²/2,
+//!
+//! with K on the velocity of the smaller pipe (or a named one) and taken from:
+//! - Crane TP-410, *Flow of Fluids Through Valves, Fittings, and Pipe*, formulas for
+//!   conical contractions and expansions by included angle θ and diameter ratio
+//!   β = d_small/d_large (K on the small pipe): contraction 0.8·sin(θ/2)(1 − β²) for
+//!   θ < 45°, else 0.5·(1 − β²)·√sin(θ/2); expansion 2.6·sin(θ/2)(1 − β²)² for
+//!   θ < 45°, else (1 − β²)²;
+//! - Borda–Carnot for a sudden expansion, K = (1 − A₁/A₂)² on the inlet velocity,
+//!   which follows from the momentum balance with the inlet pressure acting on the
+//!   annular step (White, *Fluid Mechanics*, minor losses; Idelchik, *Handbook of
+//!   Hydraulic Resistance*, sudden expansion); with it the thrust is exactly
+//!   p₁(A₂ − A₁), towards the small end;
+//! - a K the user gives, naming its source.
+//!
+//! With no flow the thrust reduces to the static formula T = p(A₁ − A₂) of the
+//! thrust-restraint guides (DIPRA, *Thrust Restraint Design for Ductile Iron Pipe*;
+//! AWWA Manual M41), reported beside the full result.
+//!
+//! # Assumptions
+//! Incompressible, steady flow; uniform pressure over each face; pressure areas on
+//! the inside diameters; the fluid inside is a cone frustum of the included angle.
+//! A horizontal fitting's fluid weight acts out of the drawing plane (z); a vertical
+//! one's along the axis.
+
+use std::f64::consts::PI;
+
+use crate::catalog::{
+    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
+};
+use crate::engine::{self, si, ControlVolume, Loss, Port, Stream};
+use crate::error::FieldError;
+use crate::units::{QuantityKind as Q, STANDARD_GRAVITY};
+use crate::vector::{Direction, Vec3};
+
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+
+pub const KEY: &str = "reducer";
+
+const LOSS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "crane",
+        label: "Crane TP-410 formula for the cone angle",
+    },
+    ChoiceOption {
+        key: "borda",
+        label: "Sudden expansion, Borda–Carnot (1 − A₁/A₂)²",
+    },
+    ChoiceOption {
+        key: "k",
+        label: "Given loss coefficient K",
+    },
+    ChoiceOption {
+        key: "none",
+        label: "No loss (Bernoulli)",
+    },
+];
+
+const K_REF_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "small",
+        label: "Velocity in the smaller pipe",
+    },
+    ChoiceOption {
+        key: "inlet",
+        label: "Velocity at the inlet",
+    },
+    ChoiceOption {
+        key: "outlet",
+        label: "Velocity at the outlet",
+    },
+];
+
+const ORIENTATION_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "horizontal",
+        label: "Horizontal (plan view)",
+    },
+    ChoiceOption {
+        key: "vertical_up",
+        label: "Vertical, flow upward",
+    },
+    ChoiceOption {
+        key: "vertical_down",
+        label: "Vertical, flow downward",
+    },
+];
+
+pub fn spec() -> CalculatorSpec {
+    let mut fields = vec![
+        quantity(
+            "d_in",
+            "Inlet inside diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "310 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Bore of the pipe the flow comes from.",
+        ),
+        quantity(
+            "d_out",
+            "Outlet inside diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "210 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Smaller than the inlet for a reducer, larger for an expander.",
+        ),
+        quantity(
+            "p",
+            "Gauge pressure at the inlet",
+            Q::Pressure,
+            "bar",
+            "psi",
+            "10 bar",
+            Limits::closed(0.0, MAX_PRESSURE_PA),
+            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so not below 0.",
+        ),
+    ];
+    fields.extend(common::flow_fields("850 m3/h"));
+    fields.extend(common::fluid_fields("25 degC"));
+    fields.extend([
+        quantity(
+            "angle",
+            "Included cone angle",
+            Q::Angle,
+            "deg",
+            "deg",
+            "30 deg",
+            Limits {
+                min: 0.0,
+                max: PI,
+                min_inclusive: false,
+            },
+            "Full angle of the cone, more than 0 up to 180 degrees (a sudden step). Sets the length of the fitting and the Crane loss.",
+        ),
+        choice(
+            "loss",
+            "Loss model",
+            LOSS_OPTIONS,
+            "crane",
+            "Where the fitting's head loss comes from; it lowers the outlet pressure and so raises the thrust of a reducer.",
+        ),
+        FieldSpec {
+            visible_when: Some(("loss", &["k"])),
+            ..quantity(
+                "k",
+                "Loss coefficient K",
+                Q::Ratio,
+                "-",
+                "-",
+                "0.05",
+                Limits::closed(0.0, 50.0),
+                "Head loss K·V²/2g on the velocity chosen below; name the method your K comes from.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("loss", &["k"])),
+            ..choice(
+                "k_ref",
+                "K refers to",
+                K_REF_OPTIONS,
+                "small",
+                "Most tables give K on the velocity in the smaller pipe.",
+            )
+        },
+        choice(
+            "orientation",
+            "Orientation",
+            ORIENTATION_OPTIONS,
+            "horizontal",
+            "In a vertical fitting the fluid's weight acts along the axis and the outlet is higher or lower.",
+        ),
+    ]);
+    CalculatorSpec {
+        key: KEY,
+        title: "Reducer or expander thrust",
+        group: "Pipe fittings and thrust restraint",
+        summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance and the fitting's loss.",
+        fields,
+        outputs: vec![
+            OutputSpec { key: "thrust", label: "Axial thrust on the supports (magnitude)", kind: Q::Force, headline: true },
+            OutputSpec { key: "thrust_axial", label: "Axial thrust, + along the flow, − against it", kind: Q::Force, headline: false },
+            OutputSpec { key: "thrust_resultant", label: "Resultant thrust, with the fluid's weight", kind: Q::Force, headline: false },
+            OutputSpec { key: "static_thrust", label: "Static formula p₁(A₁ − A₂), + along the flow", kind: Q::Force, headline: false },
+            OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: true },
+            OutputSpec { key: "k_used", label: "Loss coefficient used, on the reference velocity", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "head_loss", label: "Head loss in the fitting", kind: Q::Length, headline: false },
+            OutputSpec { key: "v_in", label: "Mean velocity at the inlet", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "v_out", label: "Mean velocity at the outlet", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "flow", label: "Volumetric flow", kind: Q::VolumeFlow, headline: false },
+            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
+            OutputSpec { key: "length", label: "Length of the cone", kind: Q::Length, headline: false },
+            OutputSpec { key: "momentum_share", label: "Momentum flux ÷ pressure force", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "fluid_weight", label: "Weight of the fluid inside", kind: Q::Force, headline: false },
+            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+        ],
+        cautions: vec![
+            "The pressure terms use the inside diameters. For push-on and mechanical joints size the restraint on the outside diameters (see the thrust restraint page).",
+            "Loss coefficients of reducers differ between published methods (Crane, Idelchik, Rennels, Miller) by tens of per cent; the thrust is rarely sensitive to them, the outlet pressure more so.",
+        ],
+    }
+}
+
+/// The loss coefficient on the smaller pipe's velocity from Crane TP-410's conical
+/// contraction and expansion formulas; `theta` is the included angle in radians.
+pub fn crane_k_small(d_in: f64, d_out: f64, theta: f64) -> f64 {
+    let beta = d_in.min(d_out) / d_in.max(d_out);
+    let b2 = beta * beta;
+    let s = (theta / 2.0).sin();
+    let steep = theta >= PI / 4.0;
+    if d_out < d_in {
+        if steep {
+            0.5 * (1.0 - b2) * s.sqrt()
+        } else {
+            0.8 * s * (1.0 - b2)
+        }
+    } else if steep {
+        (1.0 - b2).powi(2)
+    } else {
+        2.6 * s * (1.0 - b2).powi(2)
+    }
+}
+
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let d_in = values.quantity("d_in").map_err(|e| vec![e])?;
+    let d_out = values.quantity("d_out").map_err(|e| vec![e])?;
+    let p_in = values.quantity("p").map_err(|e| vec![e])?;
+    let mut theta = values.quantity("angle").map_err(|e| vec![e])?;
+    let loss_model = values.choice("loss").map_err(|e| vec![e])?;
+    let orientation = values.choice("orientation").map_err(|e| vec![e])?;
+    let fluid = common::fluid_from(values)?;
+    let flow = common::flow_from(values)?;
+    let expands = d_out > d_in;
+    let (a_in, a_out) = (common::circle_area(d_in), common::circle_area(d_out));
+    let small_port = if expands { 0 } else { 1 };
+
+    let (k, reference_port, loss_text) = match loss_model {
+        "borda" => {
+            if !expands {
+                return Err(vec![FieldError::inconsistent(
+                    "loss",
+                    "Borda–Carnot is the loss of a sudden expansion; this fitting does not expand (outlet not larger than inlet): choose the Crane formula or a given K",
+                )]);
+            }
+            theta = PI;
+            let k = (1.0 - a_in / a_out).powi(2);
+            (
+                k,
+                0,
+                "Borda–Carnot sudden expansion, K = (1 − A₁/A₂)² on the inlet velocity".to_string(),
+            )
+        }
+        "k" => {
+            let k = values.quantity("k").map_err(|e| vec![e])?;
+            let (port, name) = match values.choice("k_ref").unwrap_or("small") {
+                "inlet" => (0, "the inlet velocity"),
+                "outlet" => (1, "the outlet velocity"),
+                _ => (small_port, "the smaller pipe's velocity"),
+            };
+            (k, port, format!("given K on {name}"))
+        }
+        "none" => (0.0, small_port, "no loss (Bernoulli)".to_string()),
+        _ => (
+            crane_k_small(d_in, d_out, theta),
+            small_port,
+            format!(
+                "Crane TP-410 conical {} formula, K on the smaller pipe's velocity",
+                if expands { "expansion" } else { "contraction" }
+            ),
+        ),
+    };
+
+    let (axis, gravity) = match orientation {
+        "vertical_up" => (Direction::Y, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
+        "vertical_down" => (Direction::in_plane(-PI / 2.0), Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
+        _ => (Direction::X, Vec3::new(0.0, 0.0, -STANDARD_GRAVITY)),
+    };
+    let length = if theta >= PI {
+        0.0
+    } else {
+        (d_in - d_out).abs() / (2.0 * (theta / 2.0).tan())
+    };
+    let volume = PI * length * (d_in * d_in + d_in * d_out + d_out * d_out) / 12.0;
+    let a = axis.vec();
+
+    let mut cv = ControlVolume::new(fluid.clone());
+    cv.gravity(gravity);
+    let mut inlet = Port::inlet("inlet", si::area(a_in), axis)
+        .pressure(si::pressure(p_in))
+        .at(Vec3::ZERO);
+    inlet.flow = flow;
+    let i = cv.port(inlet);
+    let o = cv.port(Port::outlet("outlet", si::area(a_out), axis).at(a * length));
+    cv.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port }));
+    cv.contains(si::volume(volume), a * (0.5 * length));
+    let balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+
+    let thrust = balance.thrust();
+    let axial = thrust.dot(a);
+    let (inlet_state, outlet_state) = (&balance.ports[i], &balance.ports[o]);
+    report.output("thrust", axial.abs());
+    report.output("thrust_axial", axial);
+    report.output("thrust_resultant", thrust.norm());
+    report.output("static_thrust", p_in * (a_in - a_out));
+    report.output("p_out", outlet_state.pressure);
+    report.output("k_used", k);
+    if let Some(s) = balance.streams.first() {
+        report.output("head_loss", s.head_loss);
+    }
+    report.output("v_in", inlet_state.speed);
+    report.output("v_out", outlet_state.speed);
+    report.output("flow", inlet_state.volume_flow);
+    report.output("mass_flow", inlet_state.mass_flow);
+    report.output("length", length);
+    let pressure_force: f64 = balance.ports.iter().map(|p| p.pressure_force.norm()).sum();
+    let momentum: f64 = balance.ports.iter().map(|p| p.momentum_outflow.norm()).sum();
+    if pressure_force > 0.0 {
+        report.output("momentum_share", momentum / pressure_force);
+    }
+    report.output("fluid_weight", balance.fluid_weight.norm());
+    report.output("density", fluid.density);
+
+    common::forward_warnings(&balance, report);
+    common::pipe_velocity_warning(report, common::flow_field(values), "inlet", inlet_state.speed);
+    common::pipe_velocity_warning(report, "d_out", "outlet", outlet_state.speed);
+    if (d_in - d_out).abs() <= 1e-9 * d_in {
+        report.warn(
+            Some("d_out"),
+            "the two diameters are equal: this is straight pipe and only friction and weight load it",
+        );
+    }
+    if outlet_state.pressure < 0.0 {
+        report.warn(
+            Some("p"),
+            "the outlet gauge pressure comes out below atmospheric: check the inputs",
+        );
+    }
+    if loss_model == "crane" && expands && theta > PI / 4.0 && theta < PI {
+        report.warn(
+            Some("angle"),
+            "an expansion steeper than 45 degrees loses about as much as a sudden one: Crane's formula then gives the Borda–Carnot value",
+        );
+    }
+
+    let direction_text = if axial.abs() <= 1e-9 * pressure_force.max(1.0) {
+        "none (balanced)".to_string()
+    } else if axial > 0.0 {
+        "along the flow (downstream)".to_string()
+    } else {
+        "against the flow (upstream)".to_string()
+    };
+    let toward_small = (axial > 0.0) != expands;
+    let kind = if expands {
+        "expander (outlet larger)"
+    } else if d_out < d_in {
+        "reducer (outlet smaller)"
+    } else {
+        "equal sizes"
+    };
+    report.solution.tables.push(common::basis_table(vec![
+        ("Fitting", kind.to_string()),
+        ("Loss model", loss_text),
+        (
+            "Thrust direction",
+            format!(
+                "{direction_text}{}",
+                if toward_small && axial != 0.0 {
+                    ", towards the smaller end"
+                } else {
+                    ""
+                }
+            ),
+        ),
+        (
+            "Thrust area basis",
+            "inside diameters (momentum and pressure terms)".to_string(),
+        ),
+        (
+            "Orientation",
+            ORIENTATION_OPTIONS
+                .iter()
+                .find(|o| o.key == orientation)
+                .map(|o| o.label)
+                .unwrap_or(orientation)
+                .to_string(),
+        ),
+    ]));
+    let system = report.system();
+    report.solution.tables.push(common::ledger_table(&balance, system));
+    report.solution.tables.push(common::ports_table(&balance, system));
+    let diagram = diagram(d_in, d_out, length, axis, &balance, report);
+    report.solution.diagrams.push(diagram);
+    // The carried force is the axial thrust; up is +z in plan view, +y in elevation.
+    let up = if a.y.abs() > 0.5 {
+        Vec3::new(0.0, 1.0, 0.0)
+    } else {
+        Vec3::new(0.0, 0.0, 1.0)
+    };
+    let carried = a * axial;
+    let elevation = if axial != 0.0 {
+        (carried.dot(up) / axial.abs()).clamp(-1.0, 1.0).asin()
+    } else {
+        0.0
+    };
+    let carry = common::thrust_carry_over(
+        report,
+        "Size a thrust block for this axial thrust",
+        axial.abs(),
+        elevation,
+    );
+    report.solution.carry_over.push(carry);
+    Ok(())
+}
+
+fn diagram(
+    d_in: f64,
+    d_out: f64,
+    length: f64,
+    axis: Direction,
+    balance: &engine::Balance,
+    report: &Report<'_>,
+) -> Diagram {
+    let a = axis.vec();
+    let n = Vec3::new(-a.y, a.x, 0.0);
+    let at = |s: f64, t: f64| -> [f64; 2] { [a.x * s + n.x * t, a.y * s + n.y * t] };
+    let big = d_in.max(d_out);
+    let lead = 1.5 * big;
+    let wall = 0.08 * big;
+    let outline = |grow: f64, s0: f64, s1: f64| -> Vec<[f64; 2]> {
+        let (r_in, r_out) = (d_in / 2.0 + grow, d_out / 2.0 + grow);
+        vec![
+            at(s0, r_in),
+            at(0.0, r_in),
+            at(length, r_out),
+            at(s1, r_out),
+            at(s1, -r_out),
+            at(length, -r_out),
+            at(0.0, -r_in),
+            at(s0, -r_in),
+        ]
+    };
+    let mut shapes = vec![
+        Shape::Polygon {
+            points: outline(wall, -lead, length + lead),
+            style: ShapeStyle::Wall,
+        },
+        Shape::Polygon {
+            points: outline(0.0, -lead, length + lead),
+            style: ShapeStyle::Fluid,
+        },
+    ];
+    // Control volume: the fluid between the two faces (a thin band for a sudden step).
+    let cv_len = length.max(0.1 * big);
+    shapes.push(Shape::Polygon {
+        points: vec![
+            at(0.0, 0.6 * d_in),
+            at(cv_len, 0.6 * d_out),
+            at(cv_len, -0.6 * d_out),
+            at(0.0, -0.6 * d_in),
+        ],
+        style: ShapeStyle::ControlVolume,
+    });
+    shapes.push(Shape::Polyline {
+        points: vec![at(-lead, 0.0), at(length + lead, 0.0)],
+        style: ShapeStyle::Guide,
+    });
+
+    let thrust = balance.thrust();
+    let in_plane = |v: Vec3| Vec3::new(v.x, v.y, 0.0);
+    let max_force = balance
+        .ports
+        .iter()
+        .map(|p| p.pressure_force.norm())
+        .chain([in_plane(thrust).norm()])
+        .fold(0.0, f64::max);
+    let scale = if max_force > 0.0 { 1.2 * lead / max_force } else { 0.0 };
+    let fmt = |f: Vec3| report.fmt(in_plane(f).norm(), Q::Force);
+    for (port, s) in balance.ports.iter().zip([0.0, length]) {
+        if let Some(arrow) = common::force_arrow(
+            at(s, 0.0),
+            port.pressure_force,
+            scale,
+            format!("p·A {}", fmt(port.pressure_force)),
+            ShapeStyle::Pressure,
+            false,
+        ) {
+            shapes.push(arrow);
+        }
+    }
+    let side = 0.9 * big;
+    if let Some(arrow) = common::force_arrow(
+        at(0.5 * length, side),
+        in_plane(thrust),
+        scale,
+        format!("thrust T {}", fmt(thrust)),
+        ShapeStyle::Thrust,
+        true,
+    ) {
+        shapes.push(arrow);
+    }
+    if let Some(arrow) = common::force_arrow(
+        at(0.5 * length, -side),
+        in_plane(balance.support_force),
+        scale,
+        format!("restraint R {}", fmt(balance.support_force)),
+        ShapeStyle::Restraint,
+        true,
+    ) {
+        shapes.push(arrow);
+    }
+    shapes.push(Shape::Text {
+        at: at(-lead, -d_in),
+        text: "inlet".to_string(),
+        style: ShapeStyle::Label,
+    });
+    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * big);
+    let view = if a.y.abs() > 0.5 { "elevation" } else { "plan view" };
+    Diagram {
+        title: format!("Reducer, {view}: control volume and forces"),
+        bounds,
+        shapes,
+        caption: "Pipes and cone to scale; force arrows share one scale, in-plane components only. T acts on the supports; R = −T is what the restraint supplies.".to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::catalog::Request;
+    use approx::assert_relative_eq;
+
+    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
+        let mut request = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
+            request.inputs.insert(k, v);
+        }
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        crate::solve(super::KEY, &request)
+    }
+
+    fn solved(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
+        outcome(pairs).result.expect("solves")
+    }
+
+    #[test]
+    fn still_reducer_matches_static_formula() {
+        // Derived from the definition: T = p(A1 − A2) with no flow.
+        let s = solved(&[("q", "0"), ("p", "5 bar"), ("d_in", "400 mm"), ("d_out", "200 mm")]);
+        let expected = 5e5 * std::f64::consts::PI * (0.16 - 0.04) / 4.0;
+        assert_relative_eq!(s.output("thrust_axial").unwrap().si, expected, max_relative = 1e-12);
+        assert_relative_eq!(s.output("static_thrust").unwrap().si, expected, max_relative = 1e-12);
+    }
+
+    #[test]
+    fn borda_carnot_expander_thrust_is_inlet_pressure_on_the_step() {
+        // Derived from the definition: with K = (1 − A1/A2)², p2 − p1 = ρV2(V1 − V2),
+        // and the thrust is −p1(A2 − A1) exactly, whatever the flow.
+        let s = solved(&[
+            ("d_in", "200 mm"),
+            ("d_out", "400 mm"),
+            ("p", "3 bar"),
+            ("q", "300 m3/h"),
+            ("loss", "borda"),
+        ]);
+        let step = std::f64::consts::PI * (0.16 - 0.04) / 4.0;
+        assert_relative_eq!(s.output("thrust_axial").unwrap().si, -3e5 * step, max_relative = 1e-9);
+    }
+
+    #[test]
+    fn crane_k_matches_the_formulas_at_both_sides_of_45_degrees() {
+        use std::f64::consts::PI;
+        let k = super::crane_k_small(0.3, 0.2, 30f64.to_radians());
+        assert_relative_eq!(
+            k,
+            0.8 * (15f64.to_radians()).sin() * (1.0 - 4.0 / 9.0),
+            max_relative = 1e-12
+        );
+        let k = super::crane_k_small(0.2, 0.3, PI);
+        assert_relative_eq!(k, (1.0f64 - 4.0 / 9.0).powi(2), max_relative = 1e-12);
+    }
+
+    #[test]
+    fn bad_inputs_name_their_field() {
+        let field = |pairs: &[(&str, &str)]| match outcome(pairs).result {
+            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
+            other => panic!("expected a field error, got {other:?}"),
+        };
+        assert_eq!(field(&[("loss", "borda")]), "loss");
+        assert_eq!(field(&[("d_out", "0 mm")]), "d_out");
+        assert_eq!(field(&[("p", "-2 psi")]), "p");
+        assert_eq!(field(&[("loss", "k"), ("k", "")]), "k");
+    }
+}
