@@ -14,6 +14,8 @@ pub mod reducer;
 pub mod jet_plate;
 pub mod dead_end;
 pub mod profile;
+pub mod reaction_arm;
+pub mod runner;
 pub mod tank_drain;
 
 /// One registered calculator.
@@ -35,6 +37,8 @@ pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
     Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
     Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
+    Calculator { key: reaction_arm::KEY, spec: reaction_arm::spec, compute: reaction_arm::compute },
+    Calculator { key: runner::KEY, spec: runner::spec, compute: runner::compute },
 ];
 
 /// The descriptions of all calculators.
