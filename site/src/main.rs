@@ -1,1 +1,250 @@
-fn main() {}
+//! `fluxledger-site`: build, serve and test the handbook.
+//!
+//! ```text
+//! cargo run --release -p fluxledger-site -- build [--out DIR]
+//! cargo run --release -p fluxledger-site -- serve [--addr 127.0.0.1] [--port 8080] [--out DIR]
+//! cargo run --release -p fluxledger-site -- test
+//! ```
+//!
+//! `test` is the project's one test command on a fresh Debian 12 machine: it adds
+//! the wasm target when missing, installs Chromium (as root, from Debian) when
+//! `/usr/bin/chromium` is missing, then runs `cargo test --workspace` with the
+//! output passed through and exits with its status.
+//!
+//! Why the tests run in the dev profile and not `--release`: the release profile
+//! has `panic = "abort"`, and cargo builds test harnesses and every crate they link
+//! with `panic = "unwind"`, so `cargo test --release` cannot reuse the release
+//! build of this tool anyway (checked: cargo recompiles the library) and would add
+//! fat LTO to every test binary. The dev build of the workspace is the faster
+//! second compile on two cores.
+
+use std::net::{IpAddr, SocketAddr};
+use std::path::{Path, PathBuf};
+use std::process::{Command, ExitCode};
+
+use fluxledger_site::{build_site, serve, wasm_build, BuildOptions, SiteError};
+
+const USAGE: &str = "\
+usage: fluxledger-site <command> [options]
+
+commands:
+  build [--out DIR]                                 build the site (default DIR: target/site)
+  serve [--addr IP] [--port N] [--out DIR]          build, then serve DIR on loopback
+                                                    (default 127.0.0.1, port 8080)
+  test                                              install what the tests need, then
+                                                    run `cargo test --workspace`
+  help                                              show this text
+";
+
+const CHROMIUM: &str = "/usr/bin/chromium";
+
+#[derive(Debug)]
+struct Args {
+    command: String,
+    out: PathBuf,
+    addr: IpAddr,
+    port: u16,
+}
+
+fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Args, String> {
+    let command = args.next().unwrap_or_else(|| "help".into());
+    let mut parsed = Args {
+        command,
+        out: root.join("target").join("site"),
+        addr: IpAddr::from([127, 0, 0, 1]),
+        port: 8080,
+    };
+    while let Some(flag) = args.next() {
+        let (name, inline) = match flag.split_once('=') {
+            Some((n, v)) => (n.to_string(), Some(v.to_string())),
+            None => (flag.clone(), None),
+        };
+        let mut value = || {
+            inline
+                .clone()
+                .or_else(|| args.next())
+                .ok_or_else(|| format!("{name} needs a value"))
+        };
+        match (parsed.command.as_str(), name.as_str()) {
+            ("build" | "serve", "--out") => parsed.out = PathBuf::from(value()?),
+            ("serve", "--addr") => {
+                let text = value()?;
+                parsed.addr = text
+                    .parse()
+                    .map_err(|_| format!("--addr: '{text}' is not an IP address"))?;
+            }
+            ("serve", "--port") => {
+                let text = value()?;
+                parsed.port = text
+                    .parse()
+                    .map_err(|_| format!("--port: '{text}' is not a port number (0-65535)"))?;
+            }
+            _ => return Err(format!("unknown option '{flag}' for '{}'", parsed.command)),
+        }
+    }
+    Ok(parsed)
+}
+
+fn main() -> ExitCode {
+    let options = BuildOptions {
+        log: true,
+        ..BuildOptions::default()
+    };
+    let args = match parse_args(std::env::args().skip(1), &options.root) {
+        Ok(args) => args,
+        Err(message) => {
+            eprintln!("error: {message}\n\n{USAGE}");
+            return ExitCode::from(2);
+        }
+    };
+    let result = match args.command.as_str() {
+        "build" => build(&args.out, &options).map(|_| ExitCode::SUCCESS),
+        "serve" => build(&args.out, &options).and_then(|_| {
+            let server = serve(&args.out, SocketAddr::new(args.addr, args.port))?;
+            println!("serving {} at {}  (Ctrl-C stops)", args.out.display(), server.url());
+            server.wait();
+            Ok(ExitCode::SUCCESS)
+        }),
+        "test" => run_tests(&options.root),
+        "help" | "--help" | "-h" => {
+            print!("{USAGE}");
+            Ok(ExitCode::SUCCESS)
+        }
+        other => {
+            eprintln!("error: unknown command '{other}'\n\n{USAGE}");
+            return ExitCode::from(2);
+        }
+    };
+    match result {
+        Ok(code) => code,
+        Err(error) => {
+            eprintln!("error: {error}");
+            ExitCode::FAILURE
+        }
+    }
+}
+
+fn build(out: &Path, options: &BuildOptions) -> Result<(), SiteError> {
+    let report = build_site(out, options)?;
+    println!("{report}");
+    Ok(())
+}
+
+fn is_root() -> bool {
+    // The effective uid is the third field of `Uid:` in /proc/self/status.
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| {
+            s.lines()
+                .find(|l| l.starts_with("Uid:"))
+                .map(|l| l.split_whitespace().nth(2) == Some("0"))
+        })
+        .unwrap_or(false)
+}
+
+fn run(command: &mut Command, display: &str) -> Result<(), SiteError> {
+    eprintln!("running: {display}");
+    let status = command
+        .status()
+        .map_err(|e| SiteError::command(display, e.to_string()))?;
+    if status.success() {
+        Ok(())
+    } else {
+        Err(SiteError::command(display, status.to_string()))
+    }
+}
+
+fn ensure_chromium() -> Result<(), SiteError> {
+    if Path::new(CHROMIUM).is_file() {
+        return Ok(());
+    }
+    if !is_root() {
+        return Err(SiteError::command(
+            "chromium check",
+            format!(
+                "{CHROMIUM} is missing and this user cannot install it; as root run \
+                 `apt-get update && apt-get install -y chromium chromium-driver`, then run the tests again"
+            ),
+        ));
+    }
+    run(
+        Command::new("apt-get")
+            .arg("update")
+            .env("DEBIAN_FRONTEND", "noninteractive"),
+        "apt-get update",
+    )?;
+    run(
+        Command::new("apt-get")
+            .args([
+                "install",
+                "-y",
+                "--no-install-recommends",
+                "chromium",
+                "chromium-driver",
+            ])
+            .env("DEBIAN_FRONTEND", "noninteractive"),
+        "apt-get install -y chromium chromium-driver",
+    )?;
+    if !Path::new(CHROMIUM).is_file() {
+        return Err(SiteError::command(
+            "apt-get install chromium",
+            format!("finished but {CHROMIUM} is still missing"),
+        ));
+    }
+    Ok(())
+}
+
+fn run_tests(root: &Path) -> Result<ExitCode, SiteError> {
+    wasm_build::ensure_wasm_target(true)?;
+    ensure_chromium()?;
+    let display = "cargo test --workspace";
+    eprintln!("running: {display}");
+    let status = Command::new(wasm_build::cargo_program())
+        .current_dir(root)
+        .args(["test", "--workspace"])
+        .status()
+        .map_err(|e| SiteError::command(display, e.to_string()))?;
+    Ok(match status.code() {
+        Some(0) => ExitCode::SUCCESS,
+        Some(code) => ExitCode::from(u8::try_from(code).unwrap_or(1)),
+        None => ExitCode::FAILURE,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn parse(args: &[&str]) -> Result<Args, String> {
+        parse_args(args.iter().map(|s| s.to_string()), Path::new("/repo"))
+    }
+
+    #[test]
+    fn defaults_are_loopback_8080_and_target_site() {
+        let args = parse(&["serve"]).expect("valid");
+        assert_eq!(args.addr, IpAddr::from([127, 0, 0, 1]));
+        assert_eq!(args.port, 8080);
+        assert_eq!(args.out, PathBuf::from("/repo/target/site"));
+    }
+
+    #[test]
+    fn options_take_separate_or_inline_values() {
+        let args = parse(&["serve", "--port", "0", "--addr=::1", "--out", "/tmp/x"]).expect("valid");
+        assert_eq!(args.port, 0);
+        assert_eq!(args.addr, "::1".parse::<IpAddr>().expect("ip"));
+        assert_eq!(args.out, PathBuf::from("/tmp/x"));
+    }
+
+    #[test]
+    fn bad_options_are_named() {
+        assert!(parse(&["serve", "--port", "99999"])
+            .err()
+            .is_some_and(|e| e.contains("--port")));
+        assert!(parse(&["build", "--port", "1"])
+            .err()
+            .is_some_and(|e| e.contains("--port")));
+        assert!(parse(&["serve", "--out"])
+            .err()
+            .is_some_and(|e| e.contains("needs a value")));
+    }
+}

@@ -1,0 +1,588 @@
+//! Building the static site into a folder.
+//!
+//! The output is flat: pages, the hashed page script, stylesheet, wasm glue and
+//! wasm module, the service worker, the manifest and the icons, all side by side so
+//! that every URL is relative and the service worker's scope (its own folder)
+//! covers everything. File names of the script, stylesheet, glue and module carry
+//! the first 8 hex digits of the SHA-256 of their content: a page can never load a
+//! glue and a module from different builds, and a new build never reuses a stale
+//! cached file. `sw.js` keeps its name (browsers look it up by URL) and gets the
+//! build's cache version (a hash over every other file) and the list of every file
+//! to precache.
+
+use std::collections::BTreeMap;
+use std::fmt;
+use std::fs;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+use std::sync::Mutex;
+
+use flate2::write::GzEncoder;
+use flate2::Compression;
+use sha2::{Digest, Sha256};
+
+use fluxledger_core::calculators;
+use fluxledger_core::catalog::CalculatorSpec;
+
+use crate::error::{SiteError, SiteErrorKind};
+use crate::pages::{self, PageAssets};
+use crate::{icons, notes, wasm_build};
+
+/// Placeholder in `app.js` for the file name of the hashed wasm glue.
+pub const GLUE_PLACEHOLDER: &str = "__GLUE__";
+/// Placeholder in `sw.js` for the build's cache version (a bare hex string; put it
+/// inside quotes).
+pub const CACHE_VERSION_PLACEHOLDER: &str = "__CACHE_VERSION__";
+/// Placeholder in `sw.js` for the JSON array of every file to precache (written as
+/// an array literal; a quoted placeholder is replaced together with its quotes).
+pub const PRECACHE_PLACEHOLDER: &str = "__PRECACHE__";
+/// Marker file written into every built site, so that a rebuild may clear the folder.
+pub const MARKER_FILE: &str = ".fluxledger-site";
+/// Sizes of the app icons (PNG), besides the SVG icon.
+pub const ICON_SIZES: [u32; 2] = [192, 512];
+
+/// How to build.
+#[derive(Clone, Debug)]
+pub struct BuildOptions {
+    /// The workspace root (holds `Cargo.toml`, `site/assets`, `site/notes`).
+    pub root: PathBuf,
+    /// Cargo's target folder for the wasm build; `None` means `$CARGO_TARGET_DIR`
+    /// or `<root>/target`, so the nested build reuses the workspace's artifacts.
+    pub target_dir: Option<PathBuf>,
+    /// Run `wasm-opt -Os` when it is on `PATH` (never required).
+    pub wasm_opt: bool,
+    /// Print progress (nested cargo output) to stderr; without it, output of a
+    /// failing nested build is put into the error.
+    pub log: bool,
+}
+
+impl Default for BuildOptions {
+    fn default() -> BuildOptions {
+        BuildOptions {
+            root: workspace_root(),
+            target_dir: None,
+            wasm_opt: true,
+            log: false,
+        }
+    }
+}
+
+impl BuildOptions {
+    pub fn target_dir(&self) -> PathBuf {
+        self.target_dir
+            .clone()
+            .or_else(|| std::env::var_os("CARGO_TARGET_DIR").map(PathBuf::from))
+            .map(|dir| if dir.is_relative() { self.root.join(dir) } else { dir })
+            .unwrap_or_else(|| self.root.join("target"))
+    }
+}
+
+/// The workspace root this tool was compiled from.
+pub fn workspace_root() -> PathBuf {
+    let site = Path::new(env!("CARGO_MANIFEST_DIR"));
+    site.parent().unwrap_or(site).to_path_buf()
+}
+
+/// One written file with its size.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct FileReport {
+    /// File name relative to the site folder (also its URL).
+    pub name: String,
+    pub bytes: usize,
+    pub gzip_bytes: usize,
+}
+
+/// The bytes fetched on a first visit to one calculator page.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ColdLoad {
+    pub page: String,
+    /// The files counted: page, stylesheet, script, glue, wasm.
+    pub files: Vec<String>,
+    pub bytes: usize,
+    pub gzip_bytes: usize,
+}
+
+/// What a build wrote.
+#[derive(Clone, Debug)]
+pub struct BuildReport {
+    pub out: PathBuf,
+    /// Every file, sorted by name.
+    pub files: Vec<FileReport>,
+    /// Hashed names of the main assets.
+    pub wasm: String,
+    pub glue: String,
+    pub script: String,
+    pub stylesheet: String,
+    /// The service worker's cache version.
+    pub cache_version: String,
+    /// Calculator pages (`bend.html`, ...), in contents order.
+    pub calculator_pages: Vec<String>,
+    /// Whether wasm-opt ran.
+    pub wasm_optimised: bool,
+    /// First visit to `bend.html`, or to the first calculator page when there is no
+    /// bend page; `None` without calculators.
+    pub cold_load: Option<ColdLoad>,
+}
+
+impl BuildReport {
+    pub fn file(&self, name: &str) -> Option<&FileReport> {
+        self.files.iter().find(|f| f.name == name)
+    }
+}
+
+impl fmt::Display for BuildReport {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        writeln!(f, "site written to {}", self.out.display())?;
+        let width = self.files.iter().map(|x| x.name.len()).max().unwrap_or(4).max(5);
+        writeln!(f, "  {:<width$}  {:>9}  {:>9}", "file", "bytes", "gzip")?;
+        for file in &self.files {
+            writeln!(f, "  {:<width$}  {:>9}  {:>9}", file.name, file.bytes, file.gzip_bytes)?;
+        }
+        let (bytes, gzip) = self
+            .files
+            .iter()
+            .fold((0, 0), |(b, g), x| (b + x.bytes, g + x.gzip_bytes));
+        writeln!(f, "  {:<width$}  {:>9}  {:>9}", "total", bytes, gzip)?;
+        if !self.wasm_optimised {
+            writeln!(
+                f,
+                "  (wasm-opt not on PATH or not used: module as wasm-bindgen wrote it)"
+            )?;
+        }
+        match &self.cold_load {
+            Some(cold) => write!(
+                f,
+                "cold load of {} ({}): {} bytes, {} bytes gzip",
+                cold.page,
+                cold.files.join(", "),
+                cold.bytes,
+                cold.gzip_bytes
+            ),
+            None => write!(f, "no calculator pages yet: no cold-load figure"),
+        }
+    }
+}
+
+/// First 8 hex digits of the SHA-256 of `bytes`.
+pub fn short_hash(bytes: &[u8]) -> String {
+    let digest = Sha256::digest(bytes);
+    digest.iter().take(4).map(|b| format!("{b:02x}")).collect()
+}
+
+/// `stem.<hash>.ext` for the content.
+fn hashed_name(stem: &str, ext: &str, bytes: &[u8]) -> String {
+    format!("{stem}.{}.{ext}", short_hash(bytes))
+}
+
+/// Gzip size of `bytes` at the default level (what a static host typically sends).
+pub fn gzip_size(bytes: &[u8]) -> usize {
+    let mut encoder = GzEncoder::new(Vec::new(), Compression::default());
+    // Writing into a Vec cannot fail.
+    let _ = encoder.write_all(bytes);
+    encoder.finish().map(|v| v.len()).unwrap_or(0)
+}
+
+/// A JSON string literal.
+pub fn json_string(text: &str) -> String {
+    let mut out = String::with_capacity(text.len() + 2);
+    out.push('"');
+    for ch in text.chars() {
+        match ch {
+            '"' => out.push_str("\\\""),
+            '\\' => out.push_str("\\\\"),
+            '\n' => out.push_str("\\n"),
+            '\r' => out.push_str("\\r"),
+            '\t' => out.push_str("\\t"),
+            c if (c as u32) < 0x20 => out.push_str(&format!("\\u{:04x}", c as u32)),
+            c => out.push(c),
+        }
+    }
+    out.push('"');
+    out
+}
+
+/// Serialises builds within one process (tests may build from several threads).
+static BUILD_LOCK: Mutex<()> = Mutex::new(());
+
+/// Builds the site into `out` (created if needed; a previous site build there is
+/// replaced; any other non-empty folder is refused).
+///
+/// Safe to call from several threads at once: builds are serialised by a process
+/// lock, and the nested cargo build waits on cargo's own lock across processes.
+///
+/// # Errors
+/// Missing assets or method notes (all listed at once), a failing wasm build, a
+/// placeholder missing from `app.js` or `sw.js`, bad LaTeX in a note, or I/O.
+pub fn build_site(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteError> {
+    let _guard = BUILD_LOCK.lock().unwrap_or_else(|poisoned| poisoned.into_inner());
+    build_locked(out, opts)
+}
+
+struct Sources {
+    app_js: String,
+    style_css: Vec<u8>,
+    sw_js: String,
+    /// Other files in `site/assets` copied as they are (file name, bytes).
+    extra_assets: Vec<(String, Vec<u8>)>,
+    /// Rendered method note per calculator key.
+    notes: BTreeMap<&'static str, String>,
+}
+
+fn assets_dir(root: &Path) -> PathBuf {
+    root.join("site").join("assets")
+}
+
+fn notes_dir(root: &Path) -> PathBuf {
+    root.join("site").join("notes")
+}
+
+/// Reads every source before anything slow happens, reporting all missing files
+/// at once.
+fn read_sources(root: &Path, specs: &[CalculatorSpec]) -> Result<Sources, SiteError> {
+    let assets = assets_dir(root);
+    let required_assets = ["app.js", "style.css", "sw.js"].map(|name| assets.join(name));
+    let note_paths: Vec<(&'static str, PathBuf)> = specs
+        .iter()
+        .map(|s| (s.key, notes_dir(root).join(format!("{}.md", s.key))))
+        .collect();
+    let missing: Vec<PathBuf> = required_assets
+        .iter()
+        .chain(note_paths.iter().map(|(_, p)| p))
+        .filter(|p| !p.is_file())
+        .map(|p| {
+            p.strip_prefix(root)
+                .map(Path::to_path_buf)
+                .unwrap_or_else(|_| p.clone())
+        })
+        .collect();
+    if !missing.is_empty() {
+        return Err(SiteErrorKind::MissingSources { paths: missing }.into());
+    }
+    let read_text = |path: &Path| fs::read_to_string(path).map_err(|e| SiteError::io(path, e));
+    let app_js = read_text(&required_assets[0])?;
+    let style_css = fs::read(&required_assets[1]).map_err(|e| SiteError::io(&required_assets[1], e))?;
+    let sw_js = read_text(&required_assets[2])?;
+
+    let mut extra_assets = Vec::new();
+    let entries = fs::read_dir(&assets).map_err(|e| SiteError::io(&assets, e))?;
+    for entry in entries {
+        let entry = entry.map_err(|e| SiteError::io(&assets, e))?;
+        let name = entry.file_name().to_string_lossy().into_owned();
+        let path = entry.path();
+        if name.starts_with('.') || ["app.js", "style.css", "sw.js"].contains(&name.as_str()) || !path.is_file() {
+            continue;
+        }
+        extra_assets.push((name, fs::read(&path).map_err(|e| SiteError::io(&path, e))?));
+    }
+    extra_assets.sort();
+
+    let mut rendered = BTreeMap::new();
+    for (key, path) in &note_paths {
+        let markdown = read_text(path)?;
+        let shown = path.strip_prefix(root).unwrap_or(path);
+        rendered.insert(*key, notes::render_note(&markdown, shown)?);
+    }
+    Ok(Sources {
+        app_js,
+        style_css,
+        sw_js,
+        extra_assets,
+        notes: rendered,
+    })
+}
+
+/// Replaces every occurrence of `token`, which must occur at least once.
+fn fill(text: &str, token: &str, value: &str, path: &Path) -> Result<String, SiteError> {
+    if !text.contains(token) {
+        return Err(SiteError::content(path, format!("the placeholder {token} is missing")));
+    }
+    Ok(text.replace(token, value))
+}
+
+/// Replaces a placeholder that stands for a JavaScript literal: a quoted
+/// placeholder (`"__X__"`) is replaced with its quotes, a bare one as it stands.
+fn fill_literal(text: &str, token: &str, literal: &str, path: &Path) -> Result<String, SiteError> {
+    if !text.contains(token) {
+        return Err(SiteError::content(path, format!("the placeholder {token} is missing")));
+    }
+    let mut filled = text.to_string();
+    for quote in ['"', '\'', '`'] {
+        filled = filled.replace(&format!("{quote}{token}{quote}"), literal);
+    }
+    Ok(filled.replace(token, literal))
+}
+
+fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteError> {
+    let root = &opts.root;
+    let specs = calculators::catalog();
+    let sources = read_sources(root, &specs)?;
+    let assets = assets_dir(root);
+
+    wasm_build::ensure_wasm_target(opts.log)?;
+    let wasm_path = wasm_build::cargo_build_wasm(root, &opts.target_dir(), opts.log)?;
+    let wasm = wasm_build::bindgen(&wasm_path, opts.wasm_opt, opts.log)?;
+
+    let mut files: BTreeMap<String, Vec<u8>> = BTreeMap::new();
+
+    let wasm_name = hashed_name("fluxledger_wasm", "wasm", &wasm.wasm);
+    let glue_source = Path::new("wasm-bindgen glue");
+    let glue_js = fill(&wasm.glue_js, wasm_build::GLUE_WASM_NAME, &wasm_name, glue_source)?;
+    let glue_name = hashed_name("fluxledger_wasm", "js", glue_js.as_bytes());
+    let app_js = fill(&sources.app_js, GLUE_PLACEHOLDER, &glue_name, &assets.join("app.js"))?;
+    let script = hashed_name("app", "js", app_js.as_bytes());
+    let stylesheet = hashed_name("style", "css", &sources.style_css);
+    files.insert(wasm_name.clone(), wasm.wasm);
+    files.insert(glue_name.clone(), glue_js.into_bytes());
+    files.insert(script.clone(), app_js.into_bytes());
+    files.insert(stylesheet.clone(), sources.style_css);
+
+    files.insert("icon.svg".into(), icons::svg().into_bytes());
+    for size in ICON_SIZES {
+        files.insert(format!("icon-{size}.png"), icons::png(size));
+    }
+    files.insert("manifest.webmanifest".into(), manifest().into_bytes());
+    // Files in site/assets other than the three above (their own icons, fonts...)
+    // are copied as they are and win over generated ones of the same name.
+    for (name, bytes) in sources.extra_assets {
+        files.insert(name, bytes);
+    }
+
+    let page_assets = PageAssets {
+        stylesheet: stylesheet.clone(),
+        script: script.clone(),
+        theme_colour: icons::theme_colour(),
+        version: env!("CARGO_PKG_VERSION").to_string(),
+    };
+    files.insert(
+        "index.html".into(),
+        pages::contents_page(&specs, &page_assets).into_bytes(),
+    );
+    let mut calculator_pages = Vec::new();
+    for spec in &specs {
+        let note = sources.notes.get(spec.key).map(String::as_str).unwrap_or("");
+        let file = pages::page_file(spec.key);
+        files.insert(
+            file.clone(),
+            pages::calculator_page(spec, note, &page_assets).into_bytes(),
+        );
+        calculator_pages.push(file);
+    }
+
+    // Cache version: a hash over every file's name and content.
+    let mut all = Sha256::new();
+    for (name, bytes) in &files {
+        all.update((name.len() as u64).to_le_bytes());
+        all.update(name.as_bytes());
+        all.update((bytes.len() as u64).to_le_bytes());
+        all.update(bytes);
+    }
+    let cache_version: String = all.finalize().iter().take(8).map(|b| format!("{b:02x}")).collect();
+    let precache: Vec<String> = std::iter::once("./".to_string())
+        .chain(files.keys().cloned())
+        .map(|n| json_string(&n))
+        .collect();
+    let sw_path = assets.join("sw.js");
+    let sw_js = fill(&sources.sw_js, CACHE_VERSION_PLACEHOLDER, &cache_version, &sw_path)?;
+    let sw_js = fill_literal(
+        &sw_js,
+        PRECACHE_PLACEHOLDER,
+        &format!("[{}]", precache.join(", ")),
+        &sw_path,
+    )?;
+    files.insert("sw.js".into(), sw_js.into_bytes());
+
+    write_output(out, &files)?;
+
+    let reports: Vec<FileReport> = files
+        .iter()
+        .map(|(name, bytes)| FileReport {
+            name: name.clone(),
+            bytes: bytes.len(),
+            gzip_bytes: gzip_size(bytes),
+        })
+        .collect();
+    let cold_page = calculator_pages
+        .iter()
+        .find(|p| *p == "bend.html")
+        .or(calculator_pages.first());
+    let cold_load = cold_page.map(|page| {
+        let names = [
+            page.clone(),
+            stylesheet.clone(),
+            script.clone(),
+            glue_name.clone(),
+            wasm_name.clone(),
+        ];
+        let counted: Vec<&FileReport> = reports.iter().filter(|r| names.contains(&r.name)).collect();
+        ColdLoad {
+            page: page.clone(),
+            files: names.to_vec(),
+            bytes: counted.iter().map(|r| r.bytes).sum(),
+            gzip_bytes: counted.iter().map(|r| r.gzip_bytes).sum(),
+        }
+    });
+    Ok(BuildReport {
+        out: out.to_path_buf(),
+        files: reports,
+        wasm: wasm_name,
+        glue: glue_name,
+        script,
+        stylesheet,
+        cache_version,
+        calculator_pages,
+        wasm_optimised: wasm.optimised,
+        cold_load,
+    })
+}
+
+/// The web app manifest (relative start URL and scope: works under a sub-path).
+pub fn manifest() -> String {
+    let theme = json_string(&icons::theme_colour());
+    let mut icons_json: Vec<String> = ICON_SIZES
+        .iter()
+        .map(|s| format!("    {{ \"src\": \"icon-{s}.png\", \"sizes\": \"{s}x{s}\", \"type\": \"image/png\" }}"))
+        .collect();
+    icons_json.push("    { \"src\": \"icon.svg\", \"sizes\": \"any\", \"type\": \"image/svg+xml\" }".into());
+    format!(
+        concat!(
+            "{{\n",
+            "  \"name\": \"Fluxledger: control-volume force calculations\",\n",
+            "  \"short_name\": \"Fluxledger\",\n",
+            "  \"description\": \"Offline handbook of anchor, thrust-block, jet and turbine force calculations.\",\n",
+            "  \"start_url\": \"./index.html\",\n",
+            "  \"scope\": \"./\",\n",
+            "  \"display\": \"standalone\",\n",
+            "  \"background_color\": {theme},\n",
+            "  \"theme_color\": {theme},\n",
+            "  \"icons\": [\n{icons}\n  ]\n",
+            "}}\n"
+        ),
+        theme = theme,
+        icons = icons_json.join(",\n"),
+    )
+}
+
+/// Clears `out` if it is empty or a previous build, then writes every file and the
+/// marker.
+fn write_output(out: &Path, files: &BTreeMap<String, Vec<u8>>) -> Result<(), SiteError> {
+    if out.exists() {
+        let mut entries = fs::read_dir(out).map_err(|e| SiteError::io(out, e))?.peekable();
+        let is_empty = entries.peek().is_none();
+        if !is_empty {
+            if !out.join(MARKER_FILE).is_file() {
+                return Err(SiteErrorKind::UnsafeOutput {
+                    path: out.to_path_buf(),
+                }
+                .into());
+            }
+            for entry in entries {
+                let entry = entry.map_err(|e| SiteError::io(out, e))?;
+                let path = entry.path();
+                let removed = if path.is_dir() {
+                    fs::remove_dir_all(&path)
+                } else {
+                    fs::remove_file(&path)
+                };
+                removed.map_err(|e| SiteError::io(&path, e))?;
+            }
+        }
+    }
+    fs::create_dir_all(out).map_err(|e| SiteError::io(out, e))?;
+    let marker = out.join(MARKER_FILE);
+    fs::write(
+        &marker,
+        "Built by fluxledger-site; this folder is replaced on every build.\n",
+    )
+    .map_err(|e| SiteError::io(&marker, e))?;
+    for (name, bytes) in files {
+        let path = out.join(name);
+        fs::write(&path, bytes).map_err(|e| SiteError::io(&path, e))?;
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn short_hash_is_the_sha256_prefix() {
+        // SHA-256("abc") = ba7816bf 8f01cfea ... (FIPS 180-2, appendix B.1 example).
+        assert_eq!(short_hash(b"abc"), "ba7816bf");
+        assert_eq!(hashed_name("app", "js", b"abc"), "app.ba7816bf.js");
+    }
+
+    #[test]
+    fn json_strings_escape_quotes_backslashes_and_controls() {
+        assert_eq!(json_string("a\"b\\c\nd\u{1}"), "\"a\\\"b\\\\c\\nd\\u0001\"");
+    }
+
+    #[test]
+    fn placeholders_must_be_present() {
+        let path = Path::new("sw.js");
+        assert!(fill("const V = 'x';", CACHE_VERSION_PLACEHOLDER, "abc", path).is_err());
+        assert_eq!(
+            fill("\"v-__CACHE_VERSION__\"", CACHE_VERSION_PLACEHOLDER, "abc", path)
+                .ok()
+                .as_deref(),
+            Some("\"v-abc\"")
+        );
+        assert!(fill_literal("const P = [];", PRECACHE_PLACEHOLDER, "[]", path).is_err());
+    }
+
+    #[test]
+    fn precache_placeholder_is_replaced_bare_or_with_its_quotes() {
+        let path = Path::new("sw.js");
+        let list = "[\"./\", \"index.html\"]";
+        for source in [
+            "const P = __PRECACHE__;",
+            "const P = \"__PRECACHE__\";",
+            "const P = '__PRECACHE__';",
+        ] {
+            let filled = fill_literal(source, PRECACHE_PLACEHOLDER, list, path).ok();
+            assert_eq!(
+                filled.as_deref(),
+                Some("const P = [\"./\", \"index.html\"];"),
+                "{source}"
+            );
+        }
+    }
+
+    #[test]
+    fn manifest_has_relative_start_and_scope_and_lists_icons() {
+        let manifest = manifest();
+        let value: serde_json::Value = serde_json::from_str(&manifest).expect("valid JSON");
+        assert_eq!(value["start_url"], "./index.html");
+        assert_eq!(value["scope"], "./");
+        let icons = value["icons"].as_array().cloned().unwrap_or_default();
+        assert_eq!(icons.len(), ICON_SIZES.len() + 1);
+        assert_eq!(icons[0]["src"], "icon-192.png");
+        assert_eq!(value["theme_color"], icons::theme_colour().as_str());
+    }
+
+    #[test]
+    fn output_folder_that_is_not_a_site_is_refused_and_a_site_is_replaced() {
+        let base = std::env::temp_dir().join(format!("fluxledger-site-out-{}", std::process::id()));
+        let _ = fs::remove_dir_all(&base);
+        fs::create_dir_all(&base).expect("temp dir");
+        fs::write(base.join("precious.txt"), "keep").expect("write");
+        let files: BTreeMap<String, Vec<u8>> = [("index.html".to_string(), b"<p>1</p>".to_vec())].into();
+        let refused = write_output(&base, &files);
+        assert!(matches!(
+            refused,
+            Err(SiteError {
+                kind: SiteErrorKind::UnsafeOutput { .. }
+            })
+        ));
+        assert!(base.join("precious.txt").is_file(), "nothing removed");
+
+        let site = base.join("site");
+        write_output(&site, &files).expect("new folder");
+        fs::write(site.join("stale.7777aaaa.js"), "old").expect("write");
+        let next: BTreeMap<String, Vec<u8>> = [("index.html".to_string(), b"<p>2</p>".to_vec())].into();
+        write_output(&site, &next).expect("rebuild over a previous site");
+        assert!(!site.join("stale.7777aaaa.js").exists(), "stale file removed");
+        assert_eq!(fs::read(site.join("index.html")).ok(), Some(b"<p>2</p>".to_vec()));
+        let _ = fs::remove_dir_all(&base);
+    }
+}

@@ -1,0 +1,296 @@
+//! The HTML pages: the contents page and one page per calculator.
+//!
+//! Every page is static HTML that reads well without script: the calculator pages
+//! carry the method note and the cautions as markup, and the page script fills the
+//! `<section id="calculator">` from the catalog. All text from the core (titles,
+//! summaries, groups, cautions) is HTML-escaped here; the only unescaped markup is
+//! the method note, which [`crate::notes`] renders from our own Markdown.
+//!
+//! Every URL is relative, so the site also works under a sub-path of a static host,
+//! and the content security policy (a meta tag) allows nothing but the site's own
+//! files, plus `'wasm-unsafe-eval'`, without which Chromium refuses to compile the
+//! module.
+
+use fluxledger_core::catalog::{CalculatorSpec, COMMON_CAUTIONS};
+
+/// The content security policy of every page.
+pub const CSP: &str = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self'; \
+img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'";
+
+/// Escapes text for HTML element content and double- or single-quoted attributes.
+pub fn escape(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for ch in text.chars() {
+        match ch {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&#39;"),
+            _ => out.push(ch),
+        }
+    }
+    out
+}
+
+/// File names and values every page refers to.
+#[derive(Clone, Debug)]
+pub struct PageAssets {
+    /// Hashed stylesheet file name (`style.1a2b3c4d.css`).
+    pub stylesheet: String,
+    /// Hashed page script file name (`app.1a2b3c4d.js`).
+    pub script: String,
+    /// Theme colour (`#1f4e5f`).
+    pub theme_colour: String,
+    /// The handbook's version, shown in the footer.
+    pub version: String,
+}
+
+/// The file name of a calculator's page.
+pub fn page_file(key: &str) -> String {
+    format!("{key}.html")
+}
+
+fn head(title: &str, description: &str, assets: &PageAssets) -> String {
+    format!(
+        concat!(
+            "<!doctype html>\n<html lang=\"en\">\n<head>\n",
+            "<meta charset=\"utf-8\">\n",
+            "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n",
+            "<meta http-equiv=\"Content-Security-Policy\" content=\"{csp}\">\n",
+            "<meta name=\"theme-color\" content=\"{theme}\">\n",
+            "<meta name=\"description\" content=\"{description}\">\n",
+            "<title>{title}</title>\n",
+            "<link rel=\"manifest\" href=\"manifest.webmanifest\">\n",
+            "<link rel=\"icon\" href=\"icon.svg\" type=\"image/svg+xml\">\n",
+            "<link rel=\"apple-touch-icon\" href=\"icon-192.png\">\n",
+            "<link rel=\"stylesheet\" href=\"{css}\">\n",
+            "<script type=\"module\" src=\"{js}\"></script>\n",
+            "</head>\n"
+        ),
+        csp = escape(CSP),
+        theme = escape(&assets.theme_colour),
+        description = escape(description),
+        title = escape(title),
+        css = escape(&assets.stylesheet),
+        js = escape(&assets.script),
+    )
+}
+
+fn header() -> &'static str {
+    concat!(
+        "<header>\n",
+        "<a class=\"site-name\" href=\"index.html\">Fluxledger</a>\n",
+        "<nav aria-label=\"Site\"><a href=\"index.html\">Contents</a></nav>\n",
+        "</header>\n"
+    )
+}
+
+fn footer(assets: &PageAssets, page: &str) -> String {
+    format!(
+        concat!(
+            "<footer>\n",
+            "<p>Fluxledger {version} · <span class=\"page-file\">{page}</span> · ",
+            "an offline handbook of control-volume force calculations. ",
+            "Printed sheets carry the link to the calculation and the version; ",
+            "results support, and do not replace, a licensed engineer's judgement and local codes.</p>\n",
+            "</footer>\n"
+        ),
+        version = escape(&assets.version),
+        page = escape(page),
+    )
+}
+
+/// The cautions box: the common cautions, then the page's own.
+pub fn cautions_html(spec: &CalculatorSpec) -> String {
+    let mut html = String::from(concat!(
+        "<aside id=\"cautions\" class=\"cautions\" aria-labelledby=\"cautions-title\">\n",
+        "<h2 id=\"cautions-title\">Cautions</h2>\n<ul>\n"
+    ));
+    for caution in COMMON_CAUTIONS.iter().chain(spec.cautions.iter()) {
+        html.push_str(&format!("<li>{}</li>\n", escape(caution)));
+    }
+    html.push_str("</ul>\n</aside>\n");
+    html
+}
+
+/// One calculator page. `note_html` is the rendered method note.
+pub fn calculator_page(spec: &CalculatorSpec, note_html: &str, assets: &PageAssets) -> String {
+    let file = page_file(spec.key);
+    let mut html = head(&format!("{} — Fluxledger", spec.title), spec.summary, assets);
+    html.push_str(&format!(
+        "<body data-calculator=\"{key}\" data-group=\"{group}\">\n",
+        key = escape(spec.key),
+        group = escape(spec.group)
+    ));
+    html.push_str(header());
+    html.push_str("<main>\n");
+    html.push_str(&format!(
+        "<p class=\"page-group\">{group}</p>\n<h1>{title}</h1>\n<p class=\"summary\">{summary}</p>\n",
+        group = escape(spec.group),
+        title = escape(spec.title),
+        summary = escape(spec.summary)
+    ));
+    html.push_str(concat!(
+        "<section id=\"calculator\" aria-label=\"Calculator\">\n",
+        "<noscript><p class=\"no-result\">The live calculator needs JavaScript and WebAssembly. ",
+        "The method and the cautions below apply without it.</p></noscript>\n",
+        "</section>\n"
+    ));
+    html.push_str(&cautions_html(spec));
+    html.push_str(
+        "<article class=\"method-note\" aria-labelledby=\"method-title\">\n<h2 id=\"method-title\">Method</h2>\n",
+    );
+    html.push_str(note_html);
+    html.push_str("</article>\n</main>\n");
+    html.push_str(&footer(assets, &file));
+    html.push_str("</body>\n</html>\n");
+    html
+}
+
+/// The contents page: calculators grouped by job group, groups in the order of
+/// their first calculator.
+pub fn contents_page(specs: &[CalculatorSpec], assets: &PageAssets) -> String {
+    let mut html = head(
+        "Fluxledger — control-volume force calculations",
+        "Offline handbook of anchor, thrust-block, jet and turbine force calculations: method notes with live calculators.",
+        assets,
+    );
+    html.push_str("<body data-page=\"contents\">\n");
+    html.push_str(header());
+    html.push_str("<main>\n<h1>Fluxledger</h1>\n");
+    html.push_str(concat!(
+        "<p class=\"summary\">Forces and torques that moving fluid puts on bends, reducers, dead ends, tees, ",
+        "nozzles, plates, vanes and reaction turbines, from control-volume balances. Each page pairs a short ",
+        "method note with a live calculator; after one visit every page also works offline.</p>\n"
+    ));
+    let mut groups: Vec<&str> = Vec::new();
+    for spec in specs {
+        if !groups.contains(&spec.group) {
+            groups.push(spec.group);
+        }
+    }
+    if groups.is_empty() {
+        html.push_str("<p class=\"no-result\">No calculators are published in this build yet.</p>\n");
+    }
+    for (index, group) in groups.iter().enumerate() {
+        html.push_str(&format!(
+            "<section class=\"contents-group\" aria-labelledby=\"group-{index}\">\n<h2 id=\"group-{index}\">{}</h2>\n<ul>\n",
+            escape(group)
+        ));
+        for spec in specs.iter().filter(|s| s.group == *group) {
+            html.push_str(&format!(
+                "<li><a href=\"{href}\"><span class=\"entry-title\">{title}</span> <span class=\"entry-summary\">{summary}</span></a></li>\n",
+                href = escape(&page_file(spec.key)),
+                title = escape(spec.title),
+                summary = escape(spec.summary)
+            ));
+        }
+        html.push_str("</ul>\n</section>\n");
+    }
+    html.push_str(concat!(
+        "<aside id=\"cautions\" class=\"cautions\" aria-labelledby=\"cautions-title\">\n",
+        "<h2 id=\"cautions-title\">Before you use a result</h2>\n<ul>\n"
+    ));
+    for caution in COMMON_CAUTIONS {
+        html.push_str(&format!("<li>{}</li>\n", escape(caution)));
+    }
+    html.push_str("</ul>\n</aside>\n</main>\n");
+    html.push_str(&footer(assets, "index.html"));
+    html.push_str("</body>\n</html>\n");
+    html
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn assets() -> PageAssets {
+        PageAssets {
+            stylesheet: "style.00aa11bb.css".into(),
+            script: "app.22cc33dd.js".into(),
+            theme_colour: "#1f4e5f".into(),
+            version: "0.1.0".into(),
+        }
+    }
+
+    fn spec(key: &'static str, group: &'static str, title: &'static str) -> CalculatorSpec {
+        CalculatorSpec {
+            key,
+            title,
+            group,
+            summary: "Forces <on> a \"fitting\" & more.",
+            fields: Vec::new(),
+            outputs: Vec::new(),
+            cautions: vec!["Check the <block> & soil."],
+        }
+    }
+
+    #[test]
+    fn escape_covers_markup_and_both_quotes() {
+        assert_eq!(
+            escape(r#"<a href="x" title='y'>&</a>"#),
+            "&lt;a href=&quot;x&quot; title=&#39;y&#39;&gt;&amp;&lt;/a&gt;"
+        );
+    }
+
+    #[test]
+    fn calculator_page_has_the_frame_the_script_and_tests_rely_on() {
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>note</p>\n", &assets());
+        for needle in [
+            "<body data-calculator=\"bend\"",
+            "<section id=\"calculator\"",
+            "<noscript>",
+            "<script type=\"module\" src=\"app.22cc33dd.js\"></script>",
+            "<link rel=\"stylesheet\" href=\"style.00aa11bb.css\">",
+            "<link rel=\"manifest\" href=\"manifest.webmanifest\">",
+            "<meta name=\"theme-color\" content=\"#1f4e5f\">",
+            "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">",
+            "script-src &#39;self&#39; &#39;wasm-unsafe-eval&#39;",
+            "<a class=\"site-name\" href=\"index.html\">",
+            "<p>note</p>",
+            "Fluxledger 0.1.0",
+        ] {
+            assert!(page.contains(needle), "missing {needle}:\n{page}");
+        }
+        assert!(!page.contains(" style="), "no inline styles under the CSP");
+    }
+
+    #[test]
+    fn cautions_list_common_then_page_cautions_escaped() {
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", &assets());
+        let first_common = page.find(&escape(COMMON_CAUTIONS[0])).expect("common caution shown");
+        let own = page
+            .find("Check the &lt;block&gt; &amp; soil.")
+            .expect("page caution shown, escaped");
+        assert!(first_common < own);
+        assert!(page.contains("id=\"cautions\""));
+        assert!(!page.contains("<block>"));
+    }
+
+    #[test]
+    fn contents_groups_in_first_appearance_order_with_links() {
+        let specs = [
+            spec("bend", "Pipe fittings", "Bend"),
+            spec("jet-plate", "Jets", "Jet on a plate"),
+            spec("reducer", "Pipe fittings", "Reducer"),
+        ];
+        let page = contents_page(&specs, &assets());
+        let fittings = page.find(">Pipe fittings</h2>").expect("group heading");
+        let jets = page.find(">Jets</h2>").expect("group heading");
+        assert!(fittings < jets);
+        let bend = page.find("href=\"bend.html\"").expect("link");
+        let reducer = page.find("href=\"reducer.html\"").expect("link");
+        assert!(bend < reducer && reducer < jets, "both fittings before the jets group");
+        assert!(page.contains("Forces &lt;on&gt; a &quot;fitting&quot; &amp; more."));
+        assert_eq!(page.matches("class=\"contents-group\"").count(), 2);
+    }
+
+    #[test]
+    fn contents_page_without_calculators_still_renders() {
+        let page = contents_page(&[], &assets());
+        assert!(page.contains("No calculators are published in this build yet."));
+        assert!(page.contains("<body data-page=\"contents\">"));
+        assert!(page.trim_end().ends_with("</html>"));
+    }
+}

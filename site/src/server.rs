@@ -1,0 +1,534 @@
+//! A small static file server for the built site, on loopback only.
+//!
+//! Why not a library: the offline browser tests need one behaviour that general
+//! servers do not offer, a [`ServerHandle::stop`] that not only stops accepting but
+//! also closes the keep-alive connections it had already accepted (Chromium keeps
+//! using an open connection after the listener is gone, which would make "offline"
+//! a lie). With std's `TcpListener` and one thread per connection that is a few
+//! lines: every accepted stream is registered, and `stop` shuts them all down.
+//!
+//! What it does: `GET` and `HEAD` of files under one folder; `?query` and
+//! `#fragment` are ignored for the lookup; a path ending in `/` serves
+//! `index.html`; percent-escapes are decoded; `..`, backslashes, NUL and dot-files
+//! are refused; symlinks may not lead outside the folder. Content types include
+//! `application/wasm` (needed by `WebAssembly.instantiateStreaming`),
+//! `text/javascript` and `application/manifest+json`. Pages, the manifest and
+//! `sw.js` are sent with `Cache-Control: no-cache`; content-hashed files
+//! (`name.1a2b3c4d.ext`) as immutable.
+//!
+//! Bounds: at most [`MAX_CONNECTIONS`] open connections (more get `503`), request
+//! heads of at most [`MAX_HEAD_BYTES`], no request bodies, an idle timeout of
+//! [`IDLE_TIMEOUT`], and at most [`MAX_REQUESTS_PER_CONNECTION`] requests on one
+//! connection.
+
+use std::collections::HashMap;
+use std::fs;
+use std::io::{self, BufRead, BufReader, Read, Write};
+use std::net::{Shutdown, SocketAddr, TcpListener, TcpStream};
+use std::path::{Path, PathBuf};
+use std::sync::atomic::{AtomicBool, AtomicU64, AtomicUsize, Ordering};
+use std::sync::{Arc, Mutex, MutexGuard};
+use std::thread::{self, JoinHandle};
+use std::time::{Duration, Instant};
+
+use crate::error::{SiteError, SiteErrorKind};
+
+pub const MAX_CONNECTIONS: usize = 64;
+pub const MAX_HEAD_BYTES: u64 = 16 * 1024;
+pub const MAX_REQUESTS_PER_CONNECTION: usize = 1000;
+pub const IDLE_TIMEOUT: Duration = Duration::from_secs(10);
+
+struct Shared {
+    root: PathBuf,
+    stopped: AtomicBool,
+    next_id: AtomicU64,
+    active: AtomicUsize,
+    connections: Mutex<HashMap<u64, TcpStream>>,
+}
+
+impl Shared {
+    fn connections(&self) -> MutexGuard<'_, HashMap<u64, TcpStream>> {
+        self.connections.lock().unwrap_or_else(|poisoned| poisoned.into_inner())
+    }
+}
+
+/// A running server. Dropping it stops it.
+pub struct ServerHandle {
+    addr: SocketAddr,
+    shared: Arc<Shared>,
+    accept_thread: Option<JoinHandle<()>>,
+}
+
+impl ServerHandle {
+    /// The address bound (with the real port when port 0 was asked for).
+    pub fn addr(&self) -> SocketAddr {
+        self.addr
+    }
+    pub fn port(&self) -> u16 {
+        self.addr.port()
+    }
+    /// `http://127.0.0.1:PORT/` (IPv6 addresses in brackets).
+    pub fn url(&self) -> String {
+        format!("http://{}/", self.addr)
+    }
+
+    /// Stops the server: no new connections are accepted, every open connection
+    /// (including idle keep-alive ones) is shut down, and requests still arriving
+    /// on them are refused. Returns once the connection threads have ended (or
+    /// after two seconds at most). Calling it again does nothing.
+    pub fn stop(&mut self) {
+        if self.shared.stopped.swap(true, Ordering::SeqCst) {
+            return;
+        }
+        // Wake the blocking accept so the thread sees the flag and drops the listener.
+        let _ = TcpStream::connect_timeout(&self.addr, Duration::from_millis(500));
+        if let Some(thread) = self.accept_thread.take() {
+            let _ = thread.join();
+        }
+        for stream in self.shared.connections().values() {
+            let _ = stream.shutdown(Shutdown::Both);
+        }
+        let deadline = Instant::now() + Duration::from_secs(2);
+        while self.shared.active.load(Ordering::SeqCst) > 0 && Instant::now() < deadline {
+            thread::sleep(Duration::from_millis(5));
+        }
+    }
+
+    /// Blocks until the server is stopped (the command-line `serve` waits here
+    /// until the process is interrupted).
+    pub fn wait(mut self) {
+        if let Some(thread) = self.accept_thread.take() {
+            let _ = thread.join();
+        }
+    }
+}
+
+impl Drop for ServerHandle {
+    fn drop(&mut self) {
+        self.stop();
+    }
+}
+
+/// Serves `dir` on `addr`, which must be a loopback address; port 0 picks a free
+/// port (read it from [`ServerHandle::port`]).
+///
+/// # Errors
+/// A non-loopback address, a missing folder, or a port that cannot be bound.
+pub fn serve(dir: &Path, addr: SocketAddr) -> Result<ServerHandle, SiteError> {
+    if !addr.ip().is_loopback() {
+        return Err(SiteErrorKind::NotLoopback { addr: addr.to_string() }.into());
+    }
+    let root = dir.canonicalize().map_err(|e| SiteError::io(dir, e))?;
+    if !root.is_dir() {
+        return Err(SiteError::io(
+            dir,
+            io::Error::new(io::ErrorKind::NotFound, "not a folder"),
+        ));
+    }
+    let listener = TcpListener::bind(addr).map_err(|e| SiteError::io(format!("{addr}"), e))?;
+    let addr = listener.local_addr().map_err(|e| SiteError::io(format!("{addr}"), e))?;
+    let shared = Arc::new(Shared {
+        root,
+        stopped: AtomicBool::new(false),
+        next_id: AtomicU64::new(0),
+        active: AtomicUsize::new(0),
+        connections: Mutex::new(HashMap::new()),
+    });
+    let accept_shared = Arc::clone(&shared);
+    let accept_thread = thread::Builder::new()
+        .name("fluxledger-serve".into())
+        .spawn(move || accept_loop(listener, accept_shared))
+        .map_err(|e| SiteError::io("server thread", e))?;
+    Ok(ServerHandle {
+        addr,
+        shared,
+        accept_thread: Some(accept_thread),
+    })
+}
+
+fn accept_loop(listener: TcpListener, shared: Arc<Shared>) {
+    for stream in listener.incoming() {
+        if shared.stopped.load(Ordering::SeqCst) {
+            break;
+        }
+        let mut stream = match stream {
+            Ok(stream) => stream,
+            Err(_) => {
+                // Out of descriptors or a reset before accept: back off a little.
+                thread::sleep(Duration::from_millis(10));
+                continue;
+            }
+        };
+        if shared.active.load(Ordering::SeqCst) >= MAX_CONNECTIONS {
+            let _ = write_response(&mut stream, &Response::plain(503, "server busy"), false, false);
+            let _ = stream.shutdown(Shutdown::Both);
+            continue;
+        }
+        let id = shared.next_id.fetch_add(1, Ordering::SeqCst);
+        let Ok(registered) = stream.try_clone() else { continue };
+        shared.connections().insert(id, registered);
+        shared.active.fetch_add(1, Ordering::SeqCst);
+        let connection_shared = Arc::clone(&shared);
+        let spawned = thread::Builder::new().name("fluxledger-conn".into()).spawn(move || {
+            let _ = handle_connection(stream, &connection_shared);
+            connection_shared.connections().remove(&id);
+            connection_shared.active.fetch_sub(1, Ordering::SeqCst);
+        });
+        if spawned.is_err() {
+            if let Some(stream) = shared.connections().remove(&id) {
+                let _ = stream.shutdown(Shutdown::Both);
+            }
+            shared.active.fetch_sub(1, Ordering::SeqCst);
+        }
+    }
+}
+
+/// One parsed request head.
+#[derive(Debug, PartialEq)]
+struct RequestHead {
+    method: String,
+    target: String,
+    keep_alive: bool,
+    content_length: u64,
+}
+
+/// Reads one request head; `Ok(None)` at a clean end of the connection.
+fn read_head(reader: &mut impl BufRead) -> io::Result<Option<RequestHead>> {
+    let mut limited = reader.take(MAX_HEAD_BYTES);
+    let mut line = String::new();
+    // Skip empty lines before a request line (allowed by RFC 9112).
+    loop {
+        line.clear();
+        if limited.read_line(&mut line)? == 0 {
+            return Ok(None);
+        }
+        if !line.trim().is_empty() {
+            break;
+        }
+    }
+    if !line.ends_with('\n') {
+        return Err(io::Error::new(io::ErrorKind::InvalidData, "request line too long"));
+    }
+    let mut parts = line.split_whitespace();
+    let (Some(method), Some(target), Some(version), None) = (parts.next(), parts.next(), parts.next(), parts.next())
+    else {
+        return Err(io::Error::new(io::ErrorKind::InvalidData, "malformed request line"));
+    };
+    let http11 = match version {
+        "HTTP/1.1" => true,
+        "HTTP/1.0" => false,
+        _ => return Err(io::Error::new(io::ErrorKind::InvalidData, "unsupported HTTP version")),
+    };
+    let mut head = RequestHead {
+        method: method.to_string(),
+        target: target.to_string(),
+        keep_alive: http11,
+        content_length: 0,
+    };
+    loop {
+        line.clear();
+        if limited.read_line(&mut line)? == 0 || !line.ends_with('\n') {
+            return Err(io::Error::new(
+                io::ErrorKind::InvalidData,
+                "request head incomplete or too long",
+            ));
+        }
+        let header = line.trim_end();
+        if header.is_empty() {
+            break;
+        }
+        let Some((name, value)) = header.split_once(':') else {
+            return Err(io::Error::new(io::ErrorKind::InvalidData, "malformed header"));
+        };
+        let value = value.trim();
+        if name.eq_ignore_ascii_case("connection") {
+            let tokens: Vec<String> = value.split(',').map(|t| t.trim().to_ascii_lowercase()).collect();
+            if tokens.iter().any(|t| t == "close") {
+                head.keep_alive = false;
+            } else if tokens.iter().any(|t| t == "keep-alive") {
+                head.keep_alive = true;
+            }
+        } else if name.eq_ignore_ascii_case("content-length") {
+            head.content_length = value
+                .parse()
+                .map_err(|_| io::Error::new(io::ErrorKind::InvalidData, "bad content-length"))?;
+        } else if name.eq_ignore_ascii_case("transfer-encoding") {
+            head.content_length = u64::MAX; // bodies are not accepted
+        }
+    }
+    Ok(Some(head))
+}
+
+fn handle_connection(stream: TcpStream, shared: &Shared) -> io::Result<()> {
+    stream.set_read_timeout(Some(IDLE_TIMEOUT))?;
+    stream.set_write_timeout(Some(IDLE_TIMEOUT))?;
+    let mut writer = stream.try_clone()?;
+    let mut reader = BufReader::new(stream);
+    for _ in 0..MAX_REQUESTS_PER_CONNECTION {
+        let head = match read_head(&mut reader) {
+            Ok(Some(head)) => head,
+            Ok(None) => break,
+            Err(e) if e.kind() == io::ErrorKind::InvalidData => {
+                if !shared.stopped.load(Ordering::SeqCst) {
+                    write_response(&mut writer, &Response::plain(400, "bad request"), false, false)?;
+                }
+                break;
+            }
+            Err(e) => return Err(e),
+        };
+        // A request that arrives after stop() on an old connection is not answered.
+        if shared.stopped.load(Ordering::SeqCst) {
+            break;
+        }
+        if head.content_length > 0 {
+            write_response(
+                &mut writer,
+                &Response::plain(413, "request bodies are not accepted"),
+                false,
+                false,
+            )?;
+            break;
+        }
+        let head_only = head.method == "HEAD";
+        let response = if head.method == "GET" || head_only {
+            respond(&shared.root, &head.target)
+        } else {
+            let mut r = Response::plain(405, "method not allowed");
+            r.extra_headers.push(("Allow", "GET, HEAD".into()));
+            r
+        };
+        let keep_alive = head.keep_alive && !shared.stopped.load(Ordering::SeqCst);
+        write_response(&mut writer, &response, keep_alive, head_only)?;
+        if !keep_alive {
+            break;
+        }
+    }
+    let _ = writer.shutdown(Shutdown::Both);
+    Ok(())
+}
+
+struct Response {
+    status: u16,
+    content_type: &'static str,
+    cache_control: &'static str,
+    body: Vec<u8>,
+    extra_headers: Vec<(&'static str, String)>,
+}
+
+impl Response {
+    fn plain(status: u16, text: &str) -> Response {
+        Response {
+            status,
+            content_type: "text/plain; charset=utf-8",
+            cache_control: "no-store",
+            body: format!("{status} {text}\n").into_bytes(),
+            extra_headers: Vec::new(),
+        }
+    }
+}
+
+fn reason(status: u16) -> &'static str {
+    match status {
+        200 => "OK",
+        400 => "Bad Request",
+        403 => "Forbidden",
+        404 => "Not Found",
+        405 => "Method Not Allowed",
+        413 => "Content Too Large",
+        500 => "Internal Server Error",
+        503 => "Service Unavailable",
+        _ => "Unknown",
+    }
+}
+
+fn write_response(stream: &mut impl Write, response: &Response, keep_alive: bool, head_only: bool) -> io::Result<()> {
+    let mut head = format!(
+        "HTTP/1.1 {} {}\r\nContent-Type: {}\r\nContent-Length: {}\r\nCache-Control: {}\r\nX-Content-Type-Options: nosniff\r\nConnection: {}\r\n",
+        response.status,
+        reason(response.status),
+        response.content_type,
+        response.body.len(),
+        response.cache_control,
+        if keep_alive { "keep-alive" } else { "close" },
+    );
+    for (name, value) in &response.extra_headers {
+        head.push_str(&format!("{name}: {value}\r\n"));
+    }
+    head.push_str("\r\n");
+    stream.write_all(head.as_bytes())?;
+    if !head_only {
+        stream.write_all(&response.body)?;
+    }
+    stream.flush()
+}
+
+/// Content type by file extension.
+pub fn content_type(name: &str) -> &'static str {
+    let ext = name
+        .rsplit_once('.')
+        .map(|(_, e)| e.to_ascii_lowercase())
+        .unwrap_or_default();
+    match ext.as_str() {
+        "html" | "htm" => "text/html; charset=utf-8",
+        "js" | "mjs" => "text/javascript; charset=utf-8",
+        "css" => "text/css; charset=utf-8",
+        "wasm" => "application/wasm",
+        "webmanifest" => "application/manifest+json",
+        "json" => "application/json",
+        "svg" => "image/svg+xml",
+        "png" => "image/png",
+        "ico" => "image/x-icon",
+        "woff2" => "font/woff2",
+        "txt" | "md" => "text/plain; charset=utf-8",
+        _ => "application/octet-stream",
+    }
+}
+
+/// Whether a file name carries a content hash (`stem.1a2b3c4d.ext`).
+fn is_content_hashed(name: &str) -> bool {
+    let parts: Vec<&str> = name.split('.').collect();
+    parts.len() >= 3 && {
+        let hash = parts[parts.len() - 2];
+        hash.len() == 8 && hash.bytes().all(|b| b.is_ascii_hexdigit())
+    }
+}
+
+/// Cache policy: pages, manifest and the service worker are always revalidated;
+/// hashed files never change.
+pub fn cache_control(name: &str) -> &'static str {
+    if is_content_hashed(name) {
+        "public, max-age=31536000, immutable"
+    } else {
+        "no-cache"
+    }
+}
+
+/// Decodes `%XX` escapes; `None` for a bad escape or non-UTF-8 result.
+fn percent_decode(text: &str) -> Option<String> {
+    let bytes = text.as_bytes();
+    let mut out = Vec::with_capacity(bytes.len());
+    let mut i = 0;
+    while i < bytes.len() {
+        if bytes[i] == b'%' {
+            let hex = text.get(i + 1..i + 3)?;
+            out.push(u8::from_str_radix(hex, 16).ok()?);
+            i += 3;
+        } else {
+            out.push(bytes[i]);
+            i += 1;
+        }
+    }
+    String::from_utf8(out).ok()
+}
+
+/// Maps a request target to a relative file path, or an error status.
+fn resolve_target(target: &str) -> Result<Vec<String>, u16> {
+    let path = target.split(['?', '#']).next().unwrap_or("");
+    if !path.starts_with('/') {
+        return Err(400);
+    }
+    let decoded = percent_decode(path).ok_or(400u16)?;
+    let mut segments = Vec::new();
+    for segment in decoded.split('/') {
+        if segment.is_empty() || segment == "." {
+            continue;
+        }
+        if segment == ".." || segment.contains('\\') || segment.contains('\0') {
+            return Err(400);
+        }
+        if segment.starts_with('.') {
+            return Err(404);
+        }
+        segments.push(segment.to_string());
+    }
+    if decoded.ends_with('/') || segments.is_empty() {
+        segments.push("index.html".into());
+    }
+    Ok(segments)
+}
+
+fn respond(root: &Path, target: &str) -> Response {
+    let segments = match resolve_target(target) {
+        Ok(segments) => segments,
+        Err(status) => return Response::plain(status, if status == 404 { "not found" } else { "bad request" }),
+    };
+    let mut path = root.to_path_buf();
+    for segment in &segments {
+        path.push(segment);
+    }
+    if path.is_dir() {
+        path.push("index.html");
+    }
+    let Ok(real) = path.canonicalize() else {
+        return Response::plain(404, "not found");
+    };
+    if !real.starts_with(root) || !real.is_file() {
+        return Response::plain(404, "not found");
+    }
+    let name = real
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    match fs::read(&real) {
+        Ok(body) => Response {
+            status: 200,
+            content_type: content_type(&name),
+            cache_control: cache_control(&name),
+            body,
+            extra_headers: Vec::new(),
+        },
+        Err(_) => Response::plain(500, "could not read the file"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use std::io::Cursor;
+
+    #[test]
+    fn targets_map_to_files_and_tricks_are_refused() {
+        let ok = |t: &str| resolve_target(t).map(|s| s.join("/"));
+        assert_eq!(ok("/"), Ok("index.html".into()));
+        assert_eq!(ok("/bend.html?p=150psi&angle=45deg"), Ok("bend.html".into()));
+        assert_eq!(ok("/bend.html#results"), Ok("bend.html".into()));
+        assert_eq!(ok("/sub/"), Ok("sub/index.html".into()));
+        assert_eq!(ok("/a%20b.txt"), Ok("a b.txt".into()));
+        assert_eq!(ok("/../etc/passwd"), Err(400));
+        assert_eq!(ok("/%2e%2e/etc/passwd"), Err(400));
+        assert_eq!(ok("/a%5c..%5cb"), Err(400));
+        assert_eq!(ok("/%zz"), Err(400));
+        assert_eq!(ok("/.fluxledger-site"), Err(404));
+        assert_eq!(ok("http://example/x"), Err(400));
+    }
+
+    #[test]
+    fn content_types_and_cache_policy() {
+        assert_eq!(content_type("fluxledger_wasm.1a2b3c4d.wasm"), "application/wasm");
+        assert_eq!(content_type("app.1a2b3c4d.js"), "text/javascript; charset=utf-8");
+        assert_eq!(content_type("manifest.webmanifest"), "application/manifest+json");
+        assert_eq!(content_type("index.html"), "text/html; charset=utf-8");
+        assert_eq!(cache_control("sw.js"), "no-cache");
+        assert_eq!(cache_control("bend.html"), "no-cache");
+        assert_eq!(cache_control("app.1a2b3c4d.js"), "public, max-age=31536000, immutable");
+        assert_eq!(cache_control("app.notahash.js"), "no-cache");
+    }
+
+    #[test]
+    fn request_heads_parse_keep_alive_and_bounds() {
+        let parse = |text: &str| read_head(&mut Cursor::new(text.as_bytes().to_vec()));
+        let head = parse("GET /x HTTP/1.1\r\nHost: a\r\n\r\n").ok().flatten();
+        assert_eq!(
+            head.map(|h| (h.method, h.target, h.keep_alive)),
+            Some(("GET".into(), "/x".into(), true))
+        );
+        let closing = parse("GET / HTTP/1.1\r\nConnection: close\r\n\r\n").ok().flatten();
+        assert_eq!(closing.map(|h| h.keep_alive), Some(false));
+        let old = parse("GET / HTTP/1.0\r\n\r\n").ok().flatten();
+        assert_eq!(old.map(|h| h.keep_alive), Some(false));
+        assert!(matches!(parse(""), Ok(None)));
+        assert!(parse("GARBAGE\r\n\r\n").is_err());
+        let huge = format!("GET / HTTP/1.1\r\nX: {}\r\n\r\n", "a".repeat(MAX_HEAD_BYTES as usize));
+        assert!(parse(&huge).is_err());
+    }
+}

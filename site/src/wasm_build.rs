@@ -1,0 +1,216 @@
+//! Compiling the adapter crate to WebAssembly and generating its JavaScript glue.
+//!
+//! Steps: make sure the `wasm32-unknown-unknown` target is installed (a
+//! `rust-toolchain.toml` does not install it for an existing toolchain, so the tool
+//! adds it), run `cargo build --release --target wasm32-unknown-unknown -p
+//! fluxledger-wasm`, then run wasm-bindgen *in process* through
+//! `wasm-bindgen-cli-support`, pinned in the workspace to the same exact version as
+//! the `wasm-bindgen` crate so that `Cargo.lock` guarantees they match. `wasm-opt`
+//! is used when it is on `PATH` and skipped otherwise; it is never required.
+//!
+//! The nested `cargo build` uses the workspace's own target folder. That is safe
+//! from inside `cargo run` and `cargo test`: both release cargo's build-folder lock
+//! before they start the program (checked with a probe crate whose `main` and whose
+//! test each run `cargo build` on their own target folder).
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Stdio};
+
+use crate::error::{SiteError, SiteErrorKind};
+
+/// The Rust target the adapter is compiled for.
+pub const WASM_TARGET: &str = "wasm32-unknown-unknown";
+/// The adapter crate's package name and its library's file stem.
+const WASM_PACKAGE: &str = "fluxledger-wasm";
+const WASM_LIB_STEM: &str = "fluxledger_wasm";
+
+/// The bindgen output, in memory.
+pub struct WasmOutput {
+    /// The `--target web` ES module glue (refers to the wasm by [`GLUE_WASM_NAME`]).
+    pub glue_js: String,
+    pub wasm: Vec<u8>,
+    /// Whether `wasm-opt` ran on the module.
+    pub optimised: bool,
+}
+
+/// The file name the generated glue uses for the wasm module.
+pub const GLUE_WASM_NAME: &str = "fluxledger_wasm_bg.wasm";
+
+/// The cargo program to run: the one running us when we run under cargo.
+pub fn cargo_program() -> std::ffi::OsString {
+    std::env::var_os("CARGO").unwrap_or_else(|| "cargo".into())
+}
+
+/// Adds the wasm target with rustup when it is not installed yet.
+///
+/// # Errors
+/// When rustup is missing or fails.
+pub fn ensure_wasm_target(log: bool) -> Result<(), SiteError> {
+    let listed = Command::new("rustup")
+        .args(["target", "list", "--installed"])
+        .stderr(Stdio::inherit())
+        .output()
+        .map_err(|e| SiteError::command("rustup target list --installed", format!("{e} (is rustup installed?)")))?;
+    if !listed.status.success() {
+        return Err(SiteError::command(
+            "rustup target list --installed",
+            listed.status.to_string(),
+        ));
+    }
+    if String::from_utf8_lossy(&listed.stdout)
+        .lines()
+        .any(|l| l.trim() == WASM_TARGET)
+    {
+        return Ok(());
+    }
+    if log {
+        eprintln!("adding the Rust target {WASM_TARGET} (rustup target add)");
+    }
+    let status = Command::new("rustup")
+        .args(["target", "add", WASM_TARGET])
+        .status()
+        .map_err(|e| SiteError::command(format!("rustup target add {WASM_TARGET}"), e.to_string()))?;
+    if !status.success() {
+        return Err(SiteError::command(
+            format!("rustup target add {WASM_TARGET}"),
+            status.to_string(),
+        ));
+    }
+    Ok(())
+}
+
+/// Compiles the adapter in release for the wasm target and returns the `.wasm` path.
+///
+/// With `log` the nested cargo prints its progress to stderr; without, its output
+/// is captured and shown only in the error.
+pub fn cargo_build_wasm(root: &Path, target_dir: &Path, log: bool) -> Result<PathBuf, SiteError> {
+    let mut command = Command::new(cargo_program());
+    command
+        .current_dir(root)
+        .arg("build")
+        .arg("--release")
+        .args(["--target", WASM_TARGET, "-p", WASM_PACKAGE])
+        .arg("--manifest-path")
+        .arg(root.join("Cargo.toml"))
+        .arg("--target-dir")
+        .arg(target_dir)
+        .stdin(Stdio::null());
+    let display = format!("cargo build --release --target {WASM_TARGET} -p {WASM_PACKAGE}");
+    if log {
+        eprintln!("building the wasm module ({display})");
+        let status = command
+            .status()
+            .map_err(|e| SiteError::command(&display, e.to_string()))?;
+        if !status.success() {
+            return Err(SiteError::command(&display, status.to_string()));
+        }
+    } else {
+        let output = command
+            .output()
+            .map_err(|e| SiteError::command(&display, e.to_string()))?;
+        if !output.status.success() {
+            let stderr = String::from_utf8_lossy(&output.stderr);
+            let tail: Vec<&str> = stderr.lines().rev().take(40).collect();
+            let tail: Vec<&str> = tail.into_iter().rev().collect();
+            return Err(SiteError::command(
+                &display,
+                format!("{}\n{}", output.status, tail.join("\n")),
+            ));
+        }
+    }
+    let wasm = target_dir
+        .join(WASM_TARGET)
+        .join("release")
+        .join(format!("{WASM_LIB_STEM}.wasm"));
+    if !wasm.is_file() {
+        return Err(SiteError::command(
+            &display,
+            format!("finished but {} is not there", wasm.display()),
+        ));
+    }
+    Ok(wasm)
+}
+
+/// Runs wasm-bindgen (`--target web`, no TypeScript) on the compiled module, then
+/// `wasm-opt -Os` when `use_wasm_opt` is set and the program is on `PATH`.
+pub fn bindgen(wasm_path: &Path, use_wasm_opt: bool, log: bool) -> Result<WasmOutput, SiteError> {
+    let mut bindgen = wasm_bindgen_cli_support::Bindgen::new();
+    bindgen
+        .input_path(wasm_path)
+        .web(true)
+        .map_err(bindgen_error)?
+        .typescript(false);
+    let mut output = bindgen.generate_output().map_err(bindgen_error)?;
+    if !output.snippets().is_empty() || !output.local_modules().is_empty() {
+        return Err(SiteErrorKind::Bindgen {
+            detail: "the adapter uses JavaScript snippets or local modules, which the site build does not copy".into(),
+        }
+        .into());
+    }
+    let glue_js = output.js().to_string();
+    let wasm = output.wasm_mut().emit_wasm();
+    if use_wasm_opt {
+        if let Some(program) = find_on_path("wasm-opt") {
+            match wasm_opt(&program, &wasm, wasm_path) {
+                Ok(optimised) => {
+                    return Ok(WasmOutput {
+                        glue_js,
+                        wasm: optimised,
+                        optimised: true,
+                    })
+                }
+                Err(e) => {
+                    if log {
+                        eprintln!("warning: wasm-opt failed, keeping the module as bindgen wrote it: {e}");
+                    }
+                }
+            }
+        }
+    }
+    Ok(WasmOutput {
+        glue_js,
+        wasm,
+        optimised: false,
+    })
+}
+
+fn bindgen_error(e: impl std::fmt::Display) -> SiteError {
+    SiteErrorKind::Bindgen {
+        detail: format!("{e:#}"),
+    }
+    .into()
+}
+
+/// Finds an executable by name in `PATH`.
+pub fn find_on_path(name: &str) -> Option<PathBuf> {
+    let path = std::env::var_os("PATH")?;
+    std::env::split_paths(&path)
+        .map(|dir| dir.join(name))
+        .find(|candidate| candidate.is_file())
+}
+
+fn wasm_opt(program: &Path, wasm: &[u8], near: &Path) -> Result<Vec<u8>, SiteError> {
+    let dir = near.parent().unwrap_or(Path::new("."));
+    let input = dir.join(format!("{WASM_LIB_STEM}.site-bg.{}.wasm", std::process::id()));
+    let output = dir.join(format!("{WASM_LIB_STEM}.site-opt.{}.wasm", std::process::id()));
+    std::fs::write(&input, wasm).map_err(|e| SiteError::io(&input, e))?;
+    let result = Command::new(program)
+        .arg("-Os")
+        .arg(&input)
+        .arg("-o")
+        .arg(&output)
+        .stdin(Stdio::null())
+        .output();
+    let _ = std::fs::remove_file(&input);
+    let result = result.map_err(|e| SiteError::command("wasm-opt", e.to_string()))?;
+    if !result.status.success() {
+        let _ = std::fs::remove_file(&output);
+        return Err(SiteError::command(
+            "wasm-opt -Os",
+            String::from_utf8_lossy(&result.stderr).trim().to_string(),
+        ));
+    }
+    let bytes = std::fs::read(&output).map_err(|e| SiteError::io(&output, e));
+    let _ = std::fs::remove_file(&output);
+    bytes
+}
