@@ -10,6 +10,7 @@ use crate::error::{FieldError, SolveError};
 
 pub mod bend;
 pub mod common;
+pub mod nozzle;
 pub mod reducer;
 pub mod jet_plate;
 pub mod dead_end;
@@ -32,6 +33,7 @@ pub struct Calculator {
 #[rustfmt::skip]
 pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: bend::KEY, spec: bend::spec, compute: bend::compute },
+    Calculator { key: nozzle::KEY, spec: nozzle::spec, compute: nozzle::compute },
     Calculator { key: reducer::KEY, spec: reducer::spec, compute: reducer::compute },
     Calculator { key: dead_end::KEY, spec: dead_end::spec, compute: dead_end::compute },
     Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },

@@ -1,0 +1,538 @@
+//! Nozzle on a flange: the load on the flange bolts, the jet reaction and the
+//! discharge of a nozzle discharging a free jet to the atmosphere.
+//!
+//! # Method
+//! A control volume is drawn around the fluid in the nozzle, cut at the flange face
+//! (1, the pipe's bore) and at the vena contracta of the jet (j), where the jet's
+//! pressure is atmospheric (zero gauge). The nozzle is described by its velocity
+//! coefficient C_v = V_j / √(2(p₁/ρ + V₁²/2)) and contraction coefficient
+//! C_c = A_j / A_n; the discharge coefficient is C_d = C_c·C_v, so that
+//! Q = C_d·A_n·√(2(p₁/ρ + V₁²/2)). The energy balance between the faces is then
+//!
+//! p₁/ρ + V₁²/2 = V_j²/2 + K·V_j²/2, with K = 1/C_v² − 1,
+//!
+//! which the engine solves for p₁ from a given flow. Given p₁ instead, the flow
+//! follows from the same balance in closed form (with V₁ = V_j·A_j/A₁):
+//!
+//! V_j = √( (2p₁/ρ) / (1/C_v² − (A_j/A₁)²) ).
+//!
+//! The linear-momentum balance ([`crate::engine`]) gives the force the bolts exert
+//! on the nozzle, R = −p₁A₁ + ṁ(V_j − V₁) along the flow, so the nozzle pulls on the
+//! bolts with T = p₁A₁ − ṁ(V_j − V₁), downstream (bolts in tension). The **jet
+//! reaction** on the line as a whole (a control volume from still fluid upstream to
+//! the jet) is ṁ·V_j, pointing upstream; for an ideal nozzle fed from a large pipe it
+//! is 2·p₁·A_n, the fire-service rule "1.57·d²·p" (lbf, in, psi).
+//!
+//! Sources: the integral momentum and energy balances and nozzle coefficients as in
+//! White, *Fluid Mechanics* (chapters 3 and 6), Munson et al., *Fundamentals of Fluid
+//! Mechanics* (chapter 5); the nozzle-reaction and smooth-bore discharge rules of
+//! fire-service hydraulics (NFPA, *Fire Protection Handbook*; IFSTA pump operator
+//! manuals).
+//!
+//! # Assumptions
+//! Incompressible, steady flow; uniform pressure over the flange face; free jet to
+//! atmosphere; horizontal axis (the weight of the nozzle and its water is carried
+//! by the pipe supports and is not part of the bolt load along the axis).
+
+use crate::catalog::{
+    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
+};
+use crate::engine::{self, si, ControlVolume, Loss, Port, Stream};
+use crate::error::FieldError;
+use crate::units::QuantityKind as Q;
+use crate::vector::{Direction, Vec3};
+
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+
+pub const KEY: &str = "nozzle";
+
+const GIVEN_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "p",
+        label: "Pressure at the flange (find the flow)",
+    },
+    ChoiceOption {
+        key: "q",
+        label: "Flow (find the pressure)",
+    },
+];
+
+pub fn spec() -> CalculatorSpec {
+    let mut fields = vec![
+        quantity(
+            "d_pipe",
+            "Pipe inside diameter at the flange",
+            Q::Length,
+            "mm",
+            "in",
+            "154 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Bore of the pipe the nozzle is bolted to.",
+        ),
+        quantity(
+            "d_nozzle",
+            "Nozzle outlet diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "38 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Diameter of the nozzle tip; not larger than the pipe.",
+        ),
+        choice(
+            "given",
+            "Given",
+            GIVEN_OPTIONS,
+            "p",
+            "Give the pressure upstream of the nozzle to find the flow, or the flow to find the pressure.",
+        ),
+        FieldSpec {
+            visible_when: Some(("given", &["p"])),
+            ..quantity(
+                "p",
+                "Gauge pressure at the flange",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "7 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "Pressure in the pipe just upstream of the nozzle (the nozzle pressure). Gauge, so not below 0.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("given", &["q"])),
+            ..quantity(
+                "q",
+                "Flow through the nozzle",
+                Q::VolumeFlow,
+                "m3/h",
+                "gpm",
+                "90 m3/h",
+                Limits::closed(0.0, 1e3),
+                "Volumetric flow leaving the nozzle.",
+            )
+        },
+        quantity(
+            "cd",
+            "Discharge coefficient C_d",
+            Q::Ratio,
+            "-",
+            "-",
+            "0.97",
+            Limits {
+                min: 0.0,
+                max: 1.0,
+                min_inclusive: false,
+            },
+            "Q = C_d·A_n·√(2·total head): about 0.96 to 0.99 for a smooth-bore nozzle, 0.61 for a sharp-edged orifice (common practice).",
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "cc",
+                "Contraction coefficient C_c",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits {
+                    min: 0.0,
+                    max: 1.0,
+                    min_inclusive: false,
+                },
+                "Jet area ÷ nozzle area; empty means 1 (a smooth nozzle fills its tip). About 0.62 for a sharp-edged orifice.",
+            )
+        },
+    ];
+    fields.extend(common::fluid_fields("15 degC"));
+    CalculatorSpec {
+        key: KEY,
+        title: "Nozzle on a flange: bolt load and jet reaction",
+        group: "Pipe fittings and thrust restraint",
+        summary: "Flange bolt load, jet reaction and discharge of a nozzle, from the energy and momentum balances with nozzle coefficients.",
+        fields,
+        outputs: vec![
+            OutputSpec { key: "bolt_load", label: "Load on the flange bolts (+ tension: the nozzle pulls off)", kind: Q::Force, headline: true },
+            OutputSpec { key: "jet_reaction", label: "Jet reaction on the line, ṁ·V_j, upstream", kind: Q::Force, headline: true },
+            OutputSpec { key: "flow", label: "Discharge (volumetric flow)", kind: Q::VolumeFlow, headline: true },
+            OutputSpec { key: "p_in", label: "Gauge pressure at the flange", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "v_jet", label: "Jet velocity at the vena contracta", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "v_pipe", label: "Mean velocity in the pipe", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
+            OutputSpec { key: "cv", label: "Velocity coefficient C_v = C_d ÷ C_c", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "k_nozzle", label: "Loss coefficient on the jet velocity, 1/C_v² − 1", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "head_loss", label: "Head loss in the nozzle", kind: Q::Length, headline: false },
+            OutputSpec { key: "jet_diameter", label: "Jet diameter at the vena contracta", kind: Q::Length, headline: false },
+            OutputSpec { key: "jet_power", label: "Kinetic power of the jet, ṁV_j²/2", kind: Q::Power, headline: false },
+            OutputSpec { key: "pressure_force", label: "Pressure force on the flange face, p₁A₁", kind: Q::Force, headline: false },
+            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+        ],
+        cautions: vec![
+            "A nozzle that is opened suddenly, or a jet that is shut off quickly, causes surge: the bolts and the line's restraint see more than the steady values shown.",
+            "The jet reaction acts on whatever holds the line (a monitor's base, a hose crew, a riser's anchor); a free hose whips. Never stand in line with a jet.",
+        ],
+    }
+}
+
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let d_pipe = values.quantity("d_pipe").map_err(|e| vec![e])?;
+    let d_nozzle = values.quantity("d_nozzle").map_err(|e| vec![e])?;
+    let given = values.choice("given").map_err(|e| vec![e])?;
+    let cd = values.quantity("cd").map_err(|e| vec![e])?;
+    let cc = values.quantity_or("cc", 1.0);
+    let fluid = common::fluid_from(values)?;
+    if d_nozzle > d_pipe {
+        return Err(vec![FieldError::inconsistent(
+            "d_nozzle",
+            "the nozzle outlet must not be larger than the pipe it is bolted to",
+        )]);
+    }
+    if cd > cc {
+        return Err(vec![FieldError::inconsistent(
+            "cd",
+            format!(
+                "C_d must not exceed C_c ({}): a velocity coefficient C_d/C_c above 1 would create energy",
+                crate::units::format_significant(cc, 3)
+            ),
+        )]);
+    }
+    let cv = cd / cc;
+    let k = 1.0 / (cv * cv) - 1.0;
+    let a_pipe = common::circle_area(d_pipe);
+    let a_nozzle = common::circle_area(d_nozzle);
+    let a_jet = cc * a_nozzle;
+    let rho = fluid.density;
+    let approach = (a_jet / a_pipe).powi(2);
+
+    let flow = match given {
+        "q" => values.quantity("q").map_err(|e| vec![e])?,
+        _ => {
+            let p = values.quantity("p").map_err(|e| vec![e])?;
+            // Energy balance solved for the jet velocity (closed form, see module doc).
+            let denominator = 1.0 / (cv * cv) - approach;
+            if denominator <= 0.0 {
+                return Err(vec![FieldError::inconsistent(
+                    "cd",
+                    "with this jet area the pipe velocity would exceed what the pressure can drive: check C_d, C_c and the diameters",
+                )]);
+            }
+            let v_jet = (2.0 * p / rho / denominator).sqrt();
+            v_jet * a_jet
+        }
+    };
+
+    let d_jet = d_nozzle * cc.sqrt();
+    let length = 1.5 * d_pipe;
+    let vena = if cc < 1.0 { length + 0.5 * d_nozzle } else { length };
+    let mut cv_fluid = ControlVolume::new(fluid.clone());
+    let i = cv_fluid.port(
+        Port::inlet("flange face", si::area(a_pipe), Direction::X)
+            .volume_flow(si::volume_flow(flow))
+            .at(Vec3::ZERO),
+    );
+    let o = cv_fluid.port(
+        Port::outlet("jet", si::area(a_jet), Direction::X)
+            .pressure(si::pressure(0.0))
+            .at(Vec3::new(vena, 0.0, 0.0)),
+    );
+    cv_fluid.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port: o }));
+    let balance = engine::balance(&cv_fluid).map_err(|e| common::engine_error(e, "d_nozzle"))?;
+    let (inlet, jet) = (&balance.ports[i], &balance.ports[o]);
+    let bolt_load = balance.thrust().x;
+    let jet_reaction = jet.mass_flow * jet.speed;
+
+    report.output("bolt_load", bolt_load);
+    report.output("jet_reaction", jet_reaction);
+    report.output("flow", jet.volume_flow);
+    report.output("p_in", inlet.pressure);
+    report.output("v_jet", jet.speed);
+    report.output("v_pipe", inlet.speed);
+    report.output("mass_flow", jet.mass_flow);
+    report.output("cv", cv);
+    report.output("k_nozzle", k);
+    if let Some(s) = balance.streams.first() {
+        report.output("head_loss", s.head_loss);
+    }
+    report.output("jet_diameter", d_jet);
+    report.output("jet_power", 0.5 * jet.mass_flow * jet.speed * jet.speed);
+    report.output("pressure_force", inlet.pressure * a_pipe);
+    report.output("density", rho);
+
+    common::forward_warnings(&balance, report);
+    if given == "p" {
+        if let Ok(p) = values.quantity("p") {
+            if (inlet.pressure - p).abs() > 1e-9 * p.max(1.0) {
+                report.warn(
+                    Some("p"),
+                    "the energy balance does not return the given pressure: internal inconsistency, do not use this result",
+                );
+            }
+        }
+    }
+    common::pipe_velocity_warning(report, "d_pipe", "flange", inlet.speed);
+    if bolt_load < 0.0 {
+        report.warn(
+            Some("d_nozzle"),
+            "the momentum of the jet exceeds the pressure force: the nozzle is pushed onto the pipe and the bolts carry no tension from the flow",
+        );
+    }
+    if flow == 0.0 {
+        report.warn(
+            None,
+            "no flow: there is no jet, and with the nozzle open to the air no pressure acts on it",
+        );
+    }
+
+    let system = report.system();
+    report.solution.tables.push(common::basis_table(vec![
+        (
+            "Given",
+            GIVEN_OPTIONS
+                .iter()
+                .find(|o| o.key == given)
+                .map(|o| o.label)
+                .unwrap_or(given)
+                .to_string(),
+        ),
+        (
+            "Nozzle coefficients",
+            format!(
+                "C_d = {}, C_c = {}, C_v = {}",
+                crate::units::format_significant(cd, 4),
+                crate::units::format_significant(cc, 4),
+                crate::units::format_significant(cv, 4)
+            ),
+        ),
+        (
+            "Bolt load",
+            "T = p₁A₁ − ṁ(V_j − V₁), + when the nozzle pulls on the bolts".to_string(),
+        ),
+        (
+            "Jet reaction",
+            "ṁ·V_j on the line as a whole, pointing upstream".to_string(),
+        ),
+        ("Pressure area", "pipe bore at the flange (inside diameter)".to_string()),
+    ]));
+    report.solution.tables.push(common::ledger_table(&balance, system));
+    report.solution.tables.push(common::ports_table(&balance, system));
+    let diagram = diagram(d_pipe, d_nozzle, d_jet, length, vena, &balance, report);
+    report.solution.diagrams.push(diagram);
+    let carry = common::thrust_carry_over(
+        report,
+        "Size a thrust block for the jet reaction on the line",
+        jet_reaction,
+        0.0,
+    );
+    report.solution.carry_over.push(carry);
+    Ok(())
+}
+
+fn diagram(
+    d_pipe: f64,
+    d_nozzle: f64,
+    d_jet: f64,
+    length: f64,
+    vena: f64,
+    balance: &engine::Balance,
+    report: &Report<'_>,
+) -> Diagram {
+    let lead = 2.0 * d_pipe;
+    let wall = 0.08 * d_pipe;
+    let flange = 1.7 * d_pipe;
+    let t = 0.15 * d_pipe;
+    let r1 = d_pipe / 2.0;
+    let rn = d_nozzle / 2.0;
+    let cone = |grow: f64| {
+        vec![
+            [-lead, r1 + grow],
+            [0.0, r1 + grow],
+            [length, rn + grow],
+            [length, -rn - grow],
+            [0.0, -r1 - grow],
+            [-lead, -r1 - grow],
+        ]
+    };
+    let mut shapes = vec![
+        Shape::Polygon {
+            points: cone(wall),
+            style: ShapeStyle::Wall,
+        },
+        Shape::Polygon {
+            points: cone(0.0),
+            style: ShapeStyle::Fluid,
+        },
+        // Pipe flange and nozzle flange, bolted together at x = 0.
+        Shape::Polygon {
+            points: common::straight_band([-t, 0.0], [0.0, 0.0], flange),
+            style: ShapeStyle::Wall,
+        },
+        Shape::Polygon {
+            points: common::straight_band([0.0, 0.0], [t, 0.0], flange),
+            style: ShapeStyle::Wall,
+        },
+        // The free jet, narrowing to the vena contracta.
+        Shape::Polygon {
+            points: vec![
+                [length, rn],
+                [vena, d_jet / 2.0],
+                [vena + 2.0 * d_pipe, d_jet / 2.0],
+                [vena + 2.0 * d_pipe, -d_jet / 2.0],
+                [vena, -d_jet / 2.0],
+                [length, -rn],
+            ],
+            style: ShapeStyle::Flow,
+        },
+        // Control volume: the nozzle's fluid from the flange face to the vena contracta.
+        Shape::Polygon {
+            points: vec![
+                [0.0, 1.15 * r1],
+                [length, 1.3 * rn],
+                [vena, 1.3 * d_jet / 2.0],
+                [vena, -1.3 * d_jet / 2.0],
+                [length, -1.3 * rn],
+                [0.0, -1.15 * r1],
+            ],
+            style: ShapeStyle::ControlVolume,
+        },
+        Shape::Polyline {
+            points: vec![[-lead, 0.0], [vena + 2.0 * d_pipe, 0.0]],
+            style: ShapeStyle::Guide,
+        },
+    ];
+    let thrust = balance.thrust();
+    let flux = balance.ports.get(1).map(|p| p.momentum_outflow).unwrap_or(Vec3::ZERO);
+    let max_force = balance
+        .ports
+        .iter()
+        .map(|p| p.pressure_force.norm())
+        .chain([thrust.norm(), flux.norm()])
+        .fold(0.0, f64::max);
+    let scale = if max_force > 0.0 { 1.2 * lead / max_force } else { 0.0 };
+    let fmt = |f: Vec3| report.fmt(f.norm(), Q::Force);
+    if let Some(face) = balance.ports.first() {
+        if let Some(a) = common::force_arrow(
+            [0.0, 0.0],
+            face.pressure_force,
+            scale,
+            format!("p₁A₁ {}", fmt(face.pressure_force)),
+            ShapeStyle::Pressure,
+            false,
+        ) {
+            shapes.push(a);
+        }
+    }
+    if let Some(a) = common::force_arrow(
+        [vena, 0.0],
+        flux,
+        scale,
+        format!("ṁV_j {}", fmt(flux)),
+        ShapeStyle::Momentum,
+        true,
+    ) {
+        shapes.push(a);
+    }
+    let above = 0.5 * flange + 0.3 * d_pipe;
+    if let Some(a) = common::force_arrow(
+        [t, above],
+        thrust,
+        scale,
+        format!("bolt load T {}", fmt(thrust)),
+        ShapeStyle::Thrust,
+        true,
+    ) {
+        shapes.push(a);
+    }
+    if let Some(a) = common::force_arrow(
+        [-t, -above],
+        balance.support_force,
+        scale,
+        format!("bolts on nozzle R {}", fmt(balance.support_force)),
+        ShapeStyle::Restraint,
+        true,
+    ) {
+        shapes.push(a);
+    }
+    shapes.push(Shape::Text {
+        at: [-lead, -flange / 2.0 - 0.2 * d_pipe],
+        text: "pipe".to_string(),
+        style: ShapeStyle::Label,
+    });
+    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * d_pipe);
+    Diagram {
+        title: "Nozzle on a flange: control volume and forces".to_string(),
+        bounds,
+        shapes,
+        caption: "Pipe, flanges, nozzle and jet to scale (nozzle length drawn as 1.5 pipe diameters); force arrows share one scale. T is the nozzle's pull on the bolts; R = −T is what the bolts supply.".to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::catalog::Request;
+    use approx::assert_relative_eq;
+
+    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
+        let mut request = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
+            request.inputs.insert(k, v);
+        }
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        crate::solve(super::KEY, &request)
+    }
+
+    #[test]
+    fn pressure_and_flow_modes_agree() {
+        let by_p = outcome(&[("given", "p"), ("p", "6 bar")]).result.expect("solves");
+        let q = by_p.output("flow").unwrap().si;
+        let by_q = outcome(&[("given", "q"), ("q", &format!("{q} m3/s"))])
+            .result
+            .expect("solves");
+        assert_relative_eq!(by_q.output("p_in").unwrap().si, 6e5, max_relative = 1e-9);
+        assert_relative_eq!(
+            by_q.output("bolt_load").unwrap().si,
+            by_p.output("bolt_load").unwrap().si,
+            max_relative = 1e-9
+        );
+    }
+
+    #[test]
+    fn ideal_nozzle_bolt_load_matches_the_closed_form() {
+        // Derived from the definition: C = 1, T = p1·A1 − ρQ(Vj − V1) with
+        // p1 = ρ(Vj² − V1²)/2.
+        let s = outcome(&[
+            ("given", "q"),
+            ("q", "0.02 m3/s"),
+            ("d_pipe", "100 mm"),
+            ("d_nozzle", "50 mm"),
+            ("cd", "1"),
+            ("fluid", "custom"),
+            ("rho", "1000 kg/m3"),
+            ("mu", "1 mPa.s"),
+        ])
+        .result
+        .expect("solves");
+        let (a1, a2) = (std::f64::consts::PI * 0.01 / 4.0, std::f64::consts::PI * 0.0025 / 4.0);
+        let (v1, v2) = (0.02 / a1, 0.02 / a2);
+        let p1 = 500.0 * (v2 * v2 - v1 * v1);
+        assert_relative_eq!(s.output("p_in").unwrap().si, p1, max_relative = 1e-12);
+        assert_relative_eq!(
+            s.output("bolt_load").unwrap().si,
+            p1 * a1 - 1000.0 * 0.02 * (v2 - v1),
+            max_relative = 1e-12
+        );
+    }
+
+    #[test]
+    fn bad_inputs_name_their_field() {
+        let field = |pairs: &[(&str, &str)]| match outcome(pairs).result {
+            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
+            other => panic!("expected a field error, got {other:?}"),
+        };
+        assert_eq!(field(&[("d_nozzle", "150 mm")]), "d_nozzle");
+        assert_eq!(field(&[("cd", "0.9"), ("cc", "0.62")]), "cd");
+        assert_eq!(field(&[("p", "-1 bar")]), "p");
+        assert_eq!(field(&[("cd", "0")]), "cd");
+    }
+}
