@@ -493,7 +493,10 @@ function buildPage() {
   const details = el("div", { class: "details" });
   const printFooter = el("div", { class: "print-footer" });
 
-  const grid = el("div", { class: "calc-grid" }, headline, form, details);
+  // The headline stays in view while the inputs scroll past (on phones), and no
+  // further: it sticks within this wrapper only.
+  const main = el("div", { class: "calc-main" }, headline, form);
+  const grid = el("div", { class: "calc-grid" }, main, details);
   section.replaceChildren(toolbar, notices, grid, printFooter);
   Object.assign(state.ui, { section, headline, form, details, printFooter });
 
@@ -637,67 +640,52 @@ function finite(...numbers) {
   return numbers.every((n) => typeof n === "number" && Number.isFinite(n));
 }
 
+/** Screen size of diagram labels, in CSS pixels. */
+const LABEL_PX = 13;
+
+/**
+ * Where a label sits relative to its point: text anchor, baseline, and its box in
+ * screen pixels (x right, y down), estimated from its length.
+ */
+function labelLayout(label) {
+  let anchor = "middle";
+  let baseline = "central";
+  if (!label.plain) {
+    if (label.ux > 0.3) anchor = "start";
+    else if (label.ux < -0.3) anchor = "end";
+    if (Math.abs(label.uy) > Math.abs(label.ux)) baseline = label.uy > 0 ? "auto" : "hanging";
+  }
+  const w = Math.max(...label.lines.map((line) => Array.from(line).length)) * LABEL_PX * 0.6;
+  const h = LABEL_PX * 1.2 * label.lines.length + LABEL_PX * 0.05;
+  const x0 = anchor === "start" ? 0 : anchor === "end" ? -w : -w / 2;
+  const y0 = baseline === "auto" ? -h * 0.85 : baseline === "hanging" ? 0 : -h / 2;
+  return { anchor, baseline, box: [x0, y0, x0 + w, y0 + h] };
+}
+
 function renderDiagram(diagram, index, width) {
   let [minX, minY, maxX, maxY] = diagram.bounds || [0, 0, 1, 1];
   if (!finite(minX, minY, maxX, maxY) || maxX <= minX || maxY <= minY) [minX, minY, maxX, maxY] = [0, 0, 1, 1];
-  const spanX = maxX - minX;
-  const spanY = maxY - minY;
-  const margin = 0.06 * Math.max(spanX, spanY);
-  const vbX = minX - margin;
-  const vbY = -maxY - margin;
-  const vbW = spanX + 2 * margin;
-  const vbH = spanY + 2 * margin;
-  // Screen size: full width, height by aspect ratio but never taller than the phone.
-  let pxW = width;
-  let pxH = (pxW * vbH) / vbW;
-  const maxH = Math.max(260, Math.min(560, window.innerHeight * 0.7 || 560));
-  if (pxH > maxH) {
-    pxH = maxH;
-    pxW = (pxH * vbW) / vbH;
-  }
-  const scale = pxW / vbW; // screen px per model metre
-  const px = (n) => n / scale; // screen px -> model units
-  const fontSize = px(13);
-  const prefix = `d${index}`;
-
-  const root = svg("svg", {
-    class: "diagram",
-    viewBox: `${vbX} ${vbY} ${vbW} ${vbH}`,
-    width: Math.round(pxW),
-    height: Math.round(pxH),
-    role: "img",
-    "aria-label": diagram.title || "Diagram",
-    "font-size": fontSize,
-  });
+  const centre = [(minX + maxX) / 2, (minY + maxY) / 2];
   const styles = new Set();
-  const markerFor = (style) => `${prefix}-head-${style}`;
-  const defs = svg("defs");
-  root.append(defs);
   const arrowStyles = new Set();
+  const geometry = [];
   const labels = [];
 
   for (const shape of diagram.shapes || []) {
     const style = String(shape.style || "label");
-    const cls = `shape s-${style}`;
     switch (shape.type) {
       case "polygon":
       case "polyline": {
-        const points = (shape.points || []).filter((p) => finite(p[0], p[1]));
+        const points = (shape.points || []).filter((p) => Array.isArray(p) && finite(p[0], p[1]));
         if (points.length < 2) break;
-        root.append(
-          svg(shape.type, {
-            class: cls,
-            points: points.map((p) => `${p[0]},${-p[1]}`).join(" "),
-            "vector-effect": "non-scaling-stroke",
-          }),
-        );
+        geometry.push({ tag: shape.type, style, points });
         styles.add(style);
         break;
       }
       case "circle": {
         const c = shape.center || [];
         if (!finite(c[0], c[1], shape.radius)) break;
-        root.append(svg("circle", { class: cls, cx: c[0], cy: -c[1], r: Math.abs(shape.radius), "vector-effect": "non-scaling-stroke" }));
+        geometry.push({ tag: "circle", style, c, r: Math.abs(shape.radius) });
         styles.add(style);
         break;
       }
@@ -705,41 +693,80 @@ function renderDiagram(diagram, index, width) {
         const a = shape.from || [];
         const b = shape.to || [];
         if (!finite(a[0], a[1], b[0], b[1])) break;
+        geometry.push({ tag: "arrow", style, a, b });
         arrowStyles.add(style);
         styles.add(style);
-        root.append(
-          svg("line", {
-            class: `${cls} arrow`,
-            x1: a[0],
-            y1: -a[1],
-            x2: b[0],
-            y2: -b[1],
-            "vector-effect": "non-scaling-stroke",
-            "marker-end": `url(#${markerFor(style)})`,
-          }),
-        );
         if (shape.label) {
-          // Label just beyond the tip, on the side the arrow points to.
-          const dx = b[0] - a[0];
-          const dy = b[1] - a[1];
-          const length = Math.hypot(dx, dy) || 1;
-          const ox = (dx / length) * px(6);
-          const oy = (dy / length) * px(6);
-          labels.push({ x: b[0] + ox, y: b[1] + oy, dx, dy, text: shape.label, style });
+          // Label the end farther from the middle of the drawing, just beyond it,
+          // so labels of arrows meeting at the fitting do not pile up.
+          const far = (p) => Math.hypot(p[0] - centre[0], p[1] - centre[1]);
+          const atTip = far(b) >= far(a);
+          const at = atTip ? b : a;
+          const other = atTip ? a : b;
+          const length = Math.hypot(at[0] - other[0], at[1] - other[1]) || 1;
+          labels.push({ at, ux: (at[0] - other[0]) / length, uy: (at[1] - other[1]) / length, text: String(shape.label), style });
         }
         break;
       }
       case "text": {
         const at = shape.at || [];
         if (!finite(at[0], at[1]) || !shape.text) break;
-        labels.push({ x: at[0], y: at[1], dx: 0, dy: 0, text: shape.text, style, plain: true });
+        labels.push({ at, ux: 0, uy: 0, text: String(shape.text), style, plain: true });
         break;
       }
       default:
         break;
     }
   }
+  // On narrow screens a label "name value unit" takes two lines (name, then value).
+  const narrow = width < 480;
+  for (const label of labels) {
+    const split = narrow ? /^(.*\S)\s+([-+]?[0-9][0-9.,]*(?:e[-+]?[0-9]+)?\s*\S+)$/.exec(label.text) : null;
+    label.lines = split ? [split[1], split[2]] : [label.text];
+    Object.assign(label, labelLayout(label));
+  }
 
+  // Fit the drawing and its labels: the scale depends on the view, and the labels'
+  // extent in model units on the scale, so settle both in a few rounds.
+  const pad = 0.04 * Math.max(maxX - minX, maxY - minY);
+  const maxH = Math.max(260, Math.min(560, (window.innerHeight || 800) * 0.7));
+  let view = [minX - pad, minY - pad, maxX + pad, maxY + pad];
+  let scale = 1;
+  for (let round = 0; round < 4; round += 1) {
+    scale = Math.min(width / (view[2] - view[0]), maxH / (view[3] - view[1]));
+    const next = [minX - pad, minY - pad, maxX + pad, maxY + pad];
+    for (const label of labels) {
+      const gap = label.plain ? 0 : 6 / scale;
+      const x = label.at[0] + label.ux * gap;
+      const y = label.at[1] + label.uy * gap;
+      label.x = x;
+      label.y = y;
+      const [bx0, by0, bx1, by1] = label.box;
+      next[0] = Math.min(next[0], x + bx0 / scale - 3 / scale);
+      next[2] = Math.max(next[2], x + bx1 / scale + 3 / scale);
+      next[1] = Math.min(next[1], y - by1 / scale - 3 / scale);
+      next[3] = Math.max(next[3], y - by0 / scale + 3 / scale);
+    }
+    view = next;
+  }
+  scale = Math.min(width / (view[2] - view[0]), maxH / (view[3] - view[1]));
+  const px = (n) => n / scale; // screen px -> model units
+  const vbW = view[2] - view[0];
+  const vbH = view[3] - view[1];
+  const prefix = `d${index}`;
+  const markerFor = (style) => `${prefix}-head-${style}`;
+
+  const root = svg("svg", {
+    class: "diagram",
+    viewBox: `${view[0]} ${-view[3]} ${vbW} ${vbH}`,
+    width: Math.round(vbW * scale),
+    height: Math.round(vbH * scale),
+    role: "img",
+    "aria-label": diagram.title || "Diagram",
+    "font-size": px(LABEL_PX),
+  });
+  const defs = svg("defs");
+  root.append(defs);
   for (const style of arrowStyles) {
     const size = px(style === "restraint" || style === "thrust" ? 12 : 10);
     defs.append(
@@ -760,25 +787,52 @@ function renderDiagram(diagram, index, width) {
       ),
     );
   }
-  // Labels last, so they sit on top of the lines.
-  for (const label of labels) {
-    let anchor = "middle";
-    if (!label.plain) {
-      if (label.dx > Math.abs(label.dy) * 0.3) anchor = "start";
-      else if (label.dx < -Math.abs(label.dy) * 0.3) anchor = "end";
+  // Model y is up, SVG y is down: every y is negated.
+  for (const item of geometry) {
+    const cls = `shape s-${item.style}`;
+    if (item.tag === "circle") {
+      root.append(svg("circle", { class: cls, cx: item.c[0], cy: -item.c[1], r: item.r, "vector-effect": "non-scaling-stroke" }));
+    } else if (item.tag === "arrow") {
+      root.append(
+        svg("line", {
+          class: `${cls} arrow`,
+          x1: item.a[0],
+          y1: -item.a[1],
+          x2: item.b[0],
+          y2: -item.b[1],
+          "vector-effect": "non-scaling-stroke",
+          "marker-end": `url(#${markerFor(item.style)})`,
+        }),
+      );
+    } else {
+      root.append(
+        svg(item.tag, {
+          class: cls,
+          points: item.points.map((p) => `${p[0]},${-p[1]}`).join(" "),
+          "vector-effect": "non-scaling-stroke",
+        }),
+      );
     }
-    let baseline = "central";
-    if (!label.plain && Math.abs(label.dy) > Math.abs(label.dx)) baseline = label.dy > 0 ? "auto" : "hanging";
-    root.append(
-      svg("text", {
-        class: `label s-${label.style}`,
-        x: label.x,
-        y: -label.y,
-        "text-anchor": anchor,
-        "dominant-baseline": baseline,
-        text: label.text,
-      }),
-    );
+  }
+  // Labels last, so they sit on top of the lines.
+  const lineStep = px(LABEL_PX * 1.2);
+  for (const label of labels) {
+    const text = svg("text", {
+      class: `label s-${label.style}`,
+      x: label.x,
+      y: -label.y,
+      "text-anchor": label.anchor,
+      "dominant-baseline": label.baseline,
+      // The halo behind the text, 3 screen px (in model units: the lines of a
+      // label inherit it, and non-scaling strokes do not reach them).
+      "stroke-width": px(3),
+    });
+    const n = label.lines.length;
+    const first = label.baseline === "auto" ? -(n - 1) * lineStep : label.baseline === "hanging" ? 0 : (-(n - 1) * lineStep) / 2;
+    label.lines.forEach((line, i) => {
+      text.append(svg("tspan", { x: label.x, dy: i === 0 ? first : lineStep, text: line }));
+    });
+    root.append(text);
   }
 
   const figure = el("figure", { class: "panel figure" });
@@ -958,7 +1012,10 @@ async function start() {
     await loadGlue();
     state.catalog = glue.catalog();
   } catch (error) {
-    notice("error", ["The calculator could not be loaded. Reload the page; if this persists, the browser may be blocking WebAssembly."]);
+    notice("error", [
+      "The calculator could not be loaded. Reload the page; if this persists, the browser may be blocking WebAssembly. ",
+      `(${quote(error && error.message ? error.message : String(error))})`,
+    ]);
     document.body.dataset.state = "error";
     registerServiceWorker();
     return;
