@@ -294,31 +294,6 @@ fn basis(values: &Values, jet: &Jet, theta: f64, report: &Report<'_>) -> Table {
     ])
 }
 
-/// Convex hull of a few points (monotone chain), counter-clockwise.
-fn hull(mut points: Vec<[f64; 2]>) -> Vec<[f64; 2]> {
-    points.retain(|p| p[0].is_finite() && p[1].is_finite());
-    points.sort_by(|a, b| a[0].total_cmp(&b[0]).then(a[1].total_cmp(&b[1])));
-    let cross = |o: [f64; 2], a: [f64; 2], b: [f64; 2]| (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0]);
-    let mut lower: Vec<[f64; 2]> = Vec::new();
-    for &p in &points {
-        while lower.len() >= 2 && cross(lower[lower.len() - 2], lower[lower.len() - 1], p) <= 0.0 {
-            lower.pop();
-        }
-        lower.push(p);
-    }
-    let mut upper: Vec<[f64; 2]> = Vec::new();
-    for &p in points.iter().rev() {
-        while upper.len() >= 2 && cross(upper[upper.len() - 2], upper[upper.len() - 1], p) <= 0.0 {
-            upper.pop();
-        }
-        upper.push(p);
-    }
-    lower.pop();
-    upper.pop();
-    lower.extend(upper);
-    lower
-}
-
 fn diagram(g: &Geometry, jet: &Jet, balance: &Balance, q_forward: f64, report: &Report<'_>) -> Diagram {
     let d = jet.diameter;
     let (t, n) = (g.tangent, g.jet_side);
@@ -375,7 +350,7 @@ fn diagram(g: &Geometry, jet: &Jet, balance: &Balance, q_forward: f64, report: &
         p(-t * g.sheet_length + n * (d * (1.0 - share_forward) + m)),
     ];
     shapes.push(Shape::Polygon {
-        points: hull(cv_points),
+        points: common::convex_hull(cv_points),
         style: ShapeStyle::ControlVolume,
     });
     // Velocities.
