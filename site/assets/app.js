@@ -469,7 +469,10 @@ function syncUnitSelectors() {
 function applyVisibility() {
   for (const field of state.spec.fields) {
     const wrap = state.ui.fieldWraps.get(field.key);
-    if (wrap) wrap.hidden = !isVisible(field);
+    if (!wrap) continue;
+    wrap.hidden = !isVisible(field);
+    // Lets the printed sheet show an empty optional field as "not given".
+    wrap.toggleAttribute("data-empty", (state.values[field.key] ?? "").trim() === "");
   }
 }
 
@@ -497,7 +500,9 @@ function buildPage() {
   // further: it sticks within this wrapper only.
   const main = el("div", { class: "calc-main" }, headline, form);
   const grid = el("div", { class: "calc-grid" }, main, details);
-  section.replaceChildren(toolbar, notices, grid, printFooter);
+  section.replaceChildren(toolbar, notices, grid);
+  // The printed sheet ends with the link and version, after the method and cautions.
+  (section.closest("main") || section).append(printFooter);
   Object.assign(state.ui, { section, headline, form, details, printFooter });
 
   window.addEventListener("resize", () => {
@@ -618,7 +623,11 @@ function renderTable(table) {
   const element = el("table", { class: "ledger", dataset: { table: table.key || "" } });
   if (table.title) element.append(el("caption", { text: table.title }));
   const head = el("tr");
-  for (const column of table.columns || []) head.append(el("th", { scope: "col", text: column }));
+  for (const column of table.columns || []) {
+    // "area (mm2)" -> "area (mm²)"
+    const text = String(column).replace(/\(([A-Za-z0-9./%-]+)\)$/, (_, unit) => `(${prettyUnit(unit)})`);
+    head.append(el("th", { scope: "col", text }));
+  }
   element.append(el("thead", {}, head));
   const body = el("tbody");
   const emphasised = new Set(table.emphasised_rows || []);
