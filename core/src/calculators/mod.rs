@@ -13,7 +13,6 @@ pub mod common;
 pub mod nozzle;
 pub mod reducer;
 pub mod jet_plate;
-pub mod vane;
 pub mod dead_end;
 pub mod profile;
 pub mod reaction_arm;
@@ -40,7 +39,6 @@ pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
     Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
     Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
-    Calculator { key: vane::KEY, spec: vane::spec, compute: vane::compute },
     Calculator { key: reaction_arm::KEY, spec: reaction_arm::spec, compute: reaction_arm::compute },
     Calculator { key: runner::KEY, spec: runner::spec, compute: runner::compute },
 ];

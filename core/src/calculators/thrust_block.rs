@@ -31,6 +31,27 @@
 //!    γ_eff = γ_c below groundwater reduced by the water's unit weight (buoyancy).
 //!    Optional sliding check: μ·(W − T_v) ≥ SF_slide·T_h.
 //!
+//! # Field keys (stable: other pages link here with them)
+//! - `fitting`: `bend` | `dead_end` | `tee` | `reducer` | `force` (a given thrust).
+//! - `thrust` (force, used only with `fitting=force`), `thrust_elev` (angle above
+//!   horizontal of a given thrust; empty: from `plane`).
+//! - `angle` (bend deflection), `plane`: `horizontal` | `vertical_crest` | `vertical_sag`.
+//! - `size` (a key of [`crate::pipe_sizes`] or `custom`), `d` (inside), `od` (outside);
+//!   `size2`, `d2`, `od2` for the tee branch or the reducer's small end. Typed
+//!   diameters override presets.
+//! - `joint`: `push_on` | `mechanical` (area on the OD) | `flanged` | `welded` (ID).
+//! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p_work` (gauge),
+//!   `test_rule` (`en805` | `c600` | `c605` | `nfpa24` | `custom`), `p_test`, `dv`,
+//!   `material`, `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields `fluid`, `t`, `rho`, `mu`.
+//! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
+//!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,
+//!   `submerged` (`no` | `yes`), `gravity_h`, `mu`, `sf_slide`.
+//!
+//! A fitting page links here with, e.g., `fitting=tee&size=custom&d=300mm&od=320mm&
+//! d2=200mm&od2=220mm&p_work=10bar` so the thrust is recomputed at the design
+//! pressure chosen here; or with `fitting=force&thrust=85kN` to size a block for
+//! the force it computed.
+//!
 //! # Assumptions
 //! Static thrust (flow momentum neglected: at pipe velocities it is a few percent of
 //! p·A at most, and zero at test); the weights of pipe and water are neglected
@@ -634,7 +655,7 @@ pub fn spec() -> CalculatorSpec {
         quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting."),
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
         FieldSpec { optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "1.5 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Empty: no surge estimate.") },
+        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Empty: no surge estimate.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "ductile_iron", "Sets Young's modulus E and Poisson's ratio ν of the wall.") },
         FieldSpec { optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e12), "Used when the material is 'typed modulus'.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::positive(1.0), "Empty: half the difference of outside and inside diameters.") },
@@ -667,6 +688,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "bearing_area", label: "Required bearing area", kind: Q::Area, headline: true },
             OutputSpec { key: "block_volume", label: "Gravity block: concrete volume", kind: Q::Volume, headline: true },
             OutputSpec { key: "p_design", label: "Design pressure used", kind: Q::Pressure, headline: true },
+            OutputSpec { key: "thrust_angle", label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + upward)", kind: Q::Angle, headline: false },
             OutputSpec { key: "thrust_h", label: "Horizontal component of the thrust", kind: Q::Force, headline: false },
             OutputSpec { key: "thrust_v", label: "Vertical component of the thrust (+ up)", kind: Q::Force, headline: false },
             OutputSpec { key: "static_thrust", label: "Closed-form static thrust (check)", kind: Q::Force, headline: false },
@@ -863,6 +885,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
     let thrust = thrust_vec.norm();
     report.output("thrust", thrust);
+    if thrust > 0.0 && fitting != "force" {
+        report.output("thrust_angle", thrust_vec.y.atan2(thrust_vec.x));
+    }
     report.output("thrust_h", t_h);
     report.output("thrust_v", t_v);
     report.output("static_thrust", static_formula);
@@ -897,7 +922,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             if plane == Plane::Horizontal && t_v.abs() > 1e-9 * thrust.max(1.0) {
                 report.warn(Some("plane"), "the given thrust has a vertical component; only the horizontal part is carried by the bearing face");
             }
-            soil_comparison(report, load, sf, sigma);
+            soil_comparison(report, load, sf, values.choice("soil").unwrap_or("custom"));
             Block::Bearing { h, w }
         }
         Plane::Crest => {
@@ -959,12 +984,15 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         let system = report.system();
         report.solution.tables.push(common::ledger_table(b, system));
     }
+    let angle = values.quantity_or("angle", PI / 4.0);
+    let submerged = values.choice("submerged").unwrap_or("no") == "yes";
     let diagram = diagram(
         &fitting,
         plane,
         od_for_drawing,
         second.map(|d| d.od),
-        values,
+        angle,
+        submerged,
         thrust_vec,
         &block,
         report,
@@ -985,7 +1013,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     Ok(())
 }
 
-enum Block {
+pub(crate) enum Block {
     Bearing { h: f64, w: f64 },
     Gravity { volume: f64, side: f64, height: f64 },
 }
@@ -1178,7 +1206,7 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures, values: &Values) {
 }
 
 /// The soil tables side by side: the bearing area each preset would need for this load.
-fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: f64) {
+fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
     let system = report.system();
     let p_unit = match system {
         UnitSystem::Si => "kPa",
@@ -1212,7 +1240,7 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: f64) {
         } else {
             "no bearing".into()
         };
-        if (s.bearing - used).abs() < 1e-9 * used {
+        if s.key == used {
             table.emphasised_rows.push(table.rows.len());
         }
         table.rows.push(vec![
@@ -1227,12 +1255,13 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: f64) {
 }
 
 #[allow(clippy::too_many_arguments)]
-fn diagram(
+pub(crate) fn diagram(
     fitting: &str,
     plane: Plane,
     od: f64,
     od2: Option<f64>,
-    values: &Values,
+    angle: f64,
+    submerged: bool,
     thrust: Vec3,
     block: &Block,
     report: &Report<'_>,
@@ -1243,7 +1272,7 @@ fn diagram(
     // The pipe: legs meeting at the origin, to scale (outside diameter).
     let legs: Vec<([f64; 2], [f64; 2], f64)> = match fitting {
         "bend" => {
-            let a = turn * values.quantity_or("angle", PI / 4.0);
+            let a = turn * angle;
             vec![
                 ([-lead, 0.0], [0.0, 0.0], od),
                 ([0.0, 0.0], [lead * a.cos(), lead * a.sin()], od),
@@ -1343,7 +1372,7 @@ fn diagram(
                 text: format!("{} of concrete", report.fmt(*volume, Q::Volume)),
                 style: ShapeStyle::Label,
             });
-            if values.choice("submerged").unwrap_or("no") == "yes" {
+            if submerged {
                 shapes.push(Shape::Polyline {
                     points: vec![[-half * 1.5, top + 0.2], [half * 1.5, top + 0.2]],
                     style: ShapeStyle::Fluid,
