@@ -10,14 +10,18 @@ use crate::error::{FieldError, SolveError};
 
 pub mod bend;
 pub mod common;
+pub mod tee;
 pub mod nozzle;
-pub mod reducer;
 pub mod jet_plate;
+pub mod vane;
+pub mod line_schedule;
 pub mod dead_end;
 pub mod profile;
+pub mod reducer;
 pub mod reaction_arm;
 pub mod runner;
 pub mod tank_drain;
+pub mod thrust_block;
 
 /// One registered calculator.
 pub struct Calculator {
@@ -33,12 +37,16 @@ pub struct Calculator {
 #[rustfmt::skip]
 pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: bend::KEY, spec: bend::spec, compute: bend::compute },
-    Calculator { key: nozzle::KEY, spec: nozzle::spec, compute: nozzle::compute },
     Calculator { key: reducer::KEY, spec: reducer::spec, compute: reducer::compute },
     Calculator { key: dead_end::KEY, spec: dead_end::spec, compute: dead_end::compute },
+    Calculator { key: tee::KEY, spec: tee::spec, compute: tee::compute },
+    Calculator { key: nozzle::KEY, spec: nozzle::spec, compute: nozzle::compute },
+    Calculator { key: thrust_block::KEY, spec: thrust_block::spec, compute: thrust_block::compute },
+    Calculator { key: line_schedule::KEY, spec: line_schedule::spec, compute: line_schedule::compute },
+    Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
+    Calculator { key: vane::KEY, spec: vane::spec, compute: vane::compute },
     Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
     Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
-    Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
     Calculator { key: reaction_arm::KEY, spec: reaction_arm::spec, compute: reaction_arm::compute },
     Calculator { key: runner::KEY, spec: runner::spec, compute: runner::compute },
 ];
