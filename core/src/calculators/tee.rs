@@ -1,0 +1,1101 @@
+//! Tee, wye, splitter or manifold: the thrust of a junction of one common pipe and
+//! up to six branches at any angles, dividing or combining flow.
+//!
+//! # Method
+//! A control volume is drawn around the fluid in the junction, cut at the face of
+//! the common pipe (0) and of each branch (i). In the dividing case fluid enters
+//! through the common pipe and leaves through the branches; in the combining case
+//! the reverse. Each branch has a direction û_i (the direction its fluid moves, at
+//! an angle in the plan from the common pipe's flow direction and, optionally, an
+//! elevation angle out of the plan), a diameter, a share of the common flow and a
+//! loss coefficient.
+//!
+//! - **Mass** ([`crate::engine`]): Q_i = s_i·Q₀ for the branches whose share s_i is
+//!   given; one share may be left empty and that branch's flow is solved from
+//!   Σ Q_out = Σ Q_in.
+//! - **Energy**, along each stream between the common pipe and branch i:
+//!   p₀/ρ + V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
+//!   branch to the common pipe), with V_ref the common pipe's velocity (as most
+//!   junction-loss tables give it, e.g. Idelchik, *Handbook of Hydraulic
+//!   Resistance*, or Miller, *Internal Flow Systems*) or the branch's own. The
+//!   pressure is given in the common pipe; each branch pressure is solved.
+//! - **Momentum**: R = Σ p_i·A_i·n_i + Σ_out ṁβV − Σ_in ṁβV − W, thrust T = −R.
+//!
+//! With no flow every face has the same pressure and the thrust reduces to
+//! T = p·|Σ A_i·(−n_i)|, for a tee T = p·A_branch along the branch axis, away from
+//! the branch (on the wall opposite its opening), the tee
+//! formula of the thrust-restraint guides (DIPRA, *Thrust Restraint Design for
+//! Ductile Iron Pipe*; AWWA Manual M41); it is reported beside the full result.
+//!
+//! # Assumptions
+//! Incompressible, steady flow; uniform pressure over each face; pressure areas on
+//! the inside diameters; drawn in plan with gravity out of the plan (−z); the fluid
+//! inside is a stub of each pipe one common-pipe diameter long.
+
+use std::f64::consts::PI;
+
+use crate::catalog::{
+    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Table, Values,
+};
+use crate::engine::{self, si, ControlVolume, FlowSpec, Loss, Port, Stream};
+use crate::error::FieldError;
+use crate::units::{self, QuantityKind as Q};
+use crate::vector::{Direction, Vec3};
+
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+
+pub const KEY: &str = "tee";
+
+/// The most branches a junction may have.
+pub const MAX_BRANCHES: usize = 6;
+
+const MODE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "dividing",
+        label: "Dividing: the common pipe feeds the branches",
+    },
+    ChoiceOption {
+        key: "combining",
+        label: "Combining: the branches feed the common pipe",
+    },
+];
+
+const COUNT_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption { key: "1", label: "1" },
+    ChoiceOption {
+        key: "2",
+        label: "2 (a tee or wye)",
+    },
+    ChoiceOption { key: "3", label: "3" },
+    ChoiceOption { key: "4", label: "4" },
+    ChoiceOption { key: "5", label: "5" },
+    ChoiceOption { key: "6", label: "6" },
+];
+
+const K_REF_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "common",
+        label: "Velocity in the common pipe",
+    },
+    ChoiceOption {
+        key: "branch",
+        label: "Velocity in each branch",
+    },
+];
+
+/// Branch i is shown when the branch count is at least i.
+const N_AT_LEAST: [&[&str]; MAX_BRANCHES] = [
+    &["1", "2", "3", "4", "5", "6"],
+    &["2", "3", "4", "5", "6"],
+    &["3", "4", "5", "6"],
+    &["4", "5", "6"],
+    &["5", "6"],
+    &["6"],
+];
+
+/// Field and output keys of one branch.
+struct BranchKeys {
+    visible: &'static [&'static str],
+    d: &'static str,
+    d_label: &'static str,
+    d_demo: &'static str,
+    angle: &'static str,
+    angle_label: &'static str,
+    angle_demo: &'static str,
+    elev: &'static str,
+    elev_label: &'static str,
+    share: &'static str,
+    share_label: &'static str,
+    share_demo: &'static str,
+    k: &'static str,
+    k_label: &'static str,
+    k_demo: &'static str,
+    p_out: &'static str,
+    p_label: &'static str,
+    q_out: &'static str,
+    q_label: &'static str,
+    v_out: &'static str,
+    v_label: &'static str,
+}
+
+const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
+    BranchKeys {
+        visible: &N_AT_LEAST[0],
+        d: "d1",
+        d_label: "Branch 1 inside diameter",
+        d_demo: "310 mm",
+        angle: "angle1",
+        angle_label: "Branch 1 direction",
+        angle_demo: "0 deg",
+        elev: "elev1",
+        elev_label: "Branch 1 elevation angle",
+        share: "share1",
+        share_label: "Branch 1 flow share",
+        share_demo: "70 %",
+        k: "k1",
+        k_label: "Branch 1 loss coefficient K",
+        k_demo: "0.3",
+        p_out: "p_b1",
+        p_label: "Gauge pressure in branch 1",
+        q_out: "q_b1",
+        q_label: "Flow in branch 1",
+        v_out: "v_b1",
+        v_label: "Mean velocity in branch 1",
+    },
+    BranchKeys {
+        visible: &N_AT_LEAST[1],
+        d: "d2",
+        d_label: "Branch 2 inside diameter",
+        d_demo: "154 mm",
+        angle: "angle2",
+        angle_label: "Branch 2 direction",
+        angle_demo: "90 deg",
+        elev: "elev2",
+        elev_label: "Branch 2 elevation angle",
+        share: "share2",
+        share_label: "Branch 2 flow share",
+        share_demo: "",
+        k: "k2",
+        k_label: "Branch 2 loss coefficient K",
+        k_demo: "1.0",
+        p_out: "p_b2",
+        p_label: "Gauge pressure in branch 2",
+        q_out: "q_b2",
+        q_label: "Flow in branch 2",
+        v_out: "v_b2",
+        v_label: "Mean velocity in branch 2",
+    },
+    BranchKeys {
+        visible: &N_AT_LEAST[2],
+        d: "d3",
+        d_label: "Branch 3 inside diameter",
+        d_demo: "100 mm",
+        angle: "angle3",
+        angle_label: "Branch 3 direction",
+        angle_demo: "-90 deg",
+        elev: "elev3",
+        elev_label: "Branch 3 elevation angle",
+        share: "share3",
+        share_label: "Branch 3 flow share",
+        share_demo: "5 %",
+        k: "k3",
+        k_label: "Branch 3 loss coefficient K",
+        k_demo: "1.0",
+        p_out: "p_b3",
+        p_label: "Gauge pressure in branch 3",
+        q_out: "q_b3",
+        q_label: "Flow in branch 3",
+        v_out: "v_b3",
+        v_label: "Mean velocity in branch 3",
+    },
+    BranchKeys {
+        visible: &N_AT_LEAST[3],
+        d: "d4",
+        d_label: "Branch 4 inside diameter",
+        d_demo: "100 mm",
+        angle: "angle4",
+        angle_label: "Branch 4 direction",
+        angle_demo: "45 deg",
+        elev: "elev4",
+        elev_label: "Branch 4 elevation angle",
+        share: "share4",
+        share_label: "Branch 4 flow share",
+        share_demo: "5 %",
+        k: "k4",
+        k_label: "Branch 4 loss coefficient K",
+        k_demo: "1.0",
+        p_out: "p_b4",
+        p_label: "Gauge pressure in branch 4",
+        q_out: "q_b4",
+        q_label: "Flow in branch 4",
+        v_out: "v_b4",
+        v_label: "Mean velocity in branch 4",
+    },
+    BranchKeys {
+        visible: &N_AT_LEAST[4],
+        d: "d5",
+        d_label: "Branch 5 inside diameter",
+        d_demo: "100 mm",
+        angle: "angle5",
+        angle_label: "Branch 5 direction",
+        angle_demo: "-45 deg",
+        elev: "elev5",
+        elev_label: "Branch 5 elevation angle",
+        share: "share5",
+        share_label: "Branch 5 flow share",
+        share_demo: "5 %",
+        k: "k5",
+        k_label: "Branch 5 loss coefficient K",
+        k_demo: "1.0",
+        p_out: "p_b5",
+        p_label: "Gauge pressure in branch 5",
+        q_out: "q_b5",
+        q_label: "Flow in branch 5",
+        v_out: "v_b5",
+        v_label: "Mean velocity in branch 5",
+    },
+    BranchKeys {
+        visible: &N_AT_LEAST[5],
+        d: "d6",
+        d_label: "Branch 6 inside diameter",
+        d_demo: "100 mm",
+        angle: "angle6",
+        angle_label: "Branch 6 direction",
+        angle_demo: "135 deg",
+        elev: "elev6",
+        elev_label: "Branch 6 elevation angle",
+        share: "share6",
+        share_label: "Branch 6 flow share",
+        share_demo: "5 %",
+        k: "k6",
+        k_label: "Branch 6 loss coefficient K",
+        k_demo: "1.0",
+        p_out: "p_b6",
+        p_label: "Gauge pressure in branch 6",
+        q_out: "q_b6",
+        q_label: "Flow in branch 6",
+        v_out: "v_b6",
+        v_label: "Mean velocity in branch 6",
+    },
+];
+
+pub fn spec() -> CalculatorSpec {
+    let mut fields = vec![
+        choice(
+            "mode",
+            "Flow",
+            MODE_OPTIONS,
+            "dividing",
+            "Dividing: a tee or manifold taking flow off a main. Combining: branches joining into one pipe.",
+        ),
+        quantity(
+            "d",
+            "Common pipe inside diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "310 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when combining).",
+        ),
+        quantity(
+            "p",
+            "Gauge pressure in the common pipe",
+            Q::Pressure,
+            "bar",
+            "psi",
+            "10 bar",
+            Limits::closed(0.0, MAX_PRESSURE_PA),
+            "The design pressure at the common pipe's face: the highest the line will see, test and surge included. Gauge, so not below 0.",
+        ),
+    ];
+    for mut field in common::flow_fields("850 m3/h") {
+        match field.key {
+            "q" => {
+                field.label = "Flow in the common pipe";
+                field.help = "The whole flow through the junction.";
+            }
+            "v" => {
+                field.label = "Mean velocity in the common pipe";
+                field.help = "Mean velocity in the common pipe.";
+            }
+            "mdot" => {
+                field.label = "Mass flow in the common pipe";
+                field.help = "The whole mass flow through the junction.";
+            }
+            _ => {}
+        }
+        fields.push(field);
+    }
+    fields.push(choice(
+        "n",
+        "Number of branches",
+        COUNT_OPTIONS,
+        "2",
+        "Branches other than the common pipe: a tee or wye has 2 (the run and the branch).",
+    ));
+    fields.push(choice(
+        "k_ref",
+        "Loss coefficients refer to",
+        K_REF_OPTIONS,
+        "common",
+        "Most junction tables give each branch's K on the velocity of the common (combined) flow.",
+    ));
+    for b in &BRANCHES {
+        let shown = Some(("n", b.visible));
+        fields.push(FieldSpec {
+            visible_when: shown,
+            ..quantity(
+                b.d,
+                b.d_label,
+                Q::Length,
+                "mm",
+                "in",
+                b.d_demo,
+                Limits::positive(MAX_SIZE_M),
+                "Bore of this branch.",
+            )
+        });
+        fields.push(FieldSpec {
+            visible_when: shown,
+            ..quantity(
+                b.angle,
+                b.angle_label,
+                Q::Angle,
+                "deg",
+                "deg",
+                b.angle_demo,
+                Limits::closed(-PI, PI),
+                "Direction the fluid moves in this branch, counter-clockwise in plan from its direction in the common pipe: 0° straight on, 90° a square branch to the left, −90° to the right.",
+            )
+        });
+        fields.push(FieldSpec {
+            visible_when: shown,
+            optional: true,
+            ..quantity(
+                b.elev,
+                b.elev_label,
+                Q::Angle,
+                "deg",
+                "deg",
+                "",
+                Limits::closed(-PI / 2.0, PI / 2.0),
+                "Angle of the branch's flow above the plan (+ up); empty means in the plan.",
+            )
+        });
+        fields.push(FieldSpec {
+            visible_when: shown,
+            optional: true,
+            ..quantity(
+                b.share,
+                b.share_label,
+                Q::Ratio,
+                "%",
+                "%",
+                b.share_demo,
+                Limits::closed(0.0, 1.0),
+                "Share of the common flow, 0 to 100 %. Leave exactly one branch empty: its flow is solved from the mass balance.",
+            )
+        });
+        fields.push(FieldSpec {
+            visible_when: shown,
+            optional: true,
+            ..quantity(
+                b.k,
+                b.k_label,
+                Q::Ratio,
+                "-",
+                "-",
+                b.k_demo,
+                Limits::closed(0.0, 50.0),
+                "Head loss K·V²/2g between the common pipe and this branch; empty means no loss. Name the method (Idelchik, Miller, Crane).",
+            )
+        });
+    }
+    fields.extend(common::fluid_fields("25 degC"));
+
+    let mut outputs = vec![
+        OutputSpec {
+            key: "thrust_in_plane",
+            label: "Thrust in the plan (horizontal)",
+            kind: Q::Force,
+            headline: true,
+        },
+        OutputSpec {
+            key: "thrust_angle",
+            label: "Direction of the thrust in the plan, from the common pipe's flow direction",
+            kind: Q::Angle,
+            headline: true,
+        },
+        OutputSpec {
+            key: "thrust",
+            label: "Thrust on the supports (resultant, with the fluid's weight)",
+            kind: Q::Force,
+            headline: false,
+        },
+        OutputSpec {
+            key: "thrust_x",
+            label: "Thrust along the common pipe's flow (x)",
+            kind: Q::Force,
+            headline: false,
+        },
+        OutputSpec {
+            key: "thrust_y",
+            label: "Thrust across it, in the plan (y)",
+            kind: Q::Force,
+            headline: false,
+        },
+        OutputSpec {
+            key: "thrust_z",
+            label: "Thrust out of the plan (z, + up)",
+            kind: Q::Force,
+            headline: false,
+        },
+        OutputSpec {
+            key: "static_thrust",
+            label: "Static thrust with no flow, p·|Σ A·(−n)|",
+            kind: Q::Force,
+            headline: false,
+        },
+        OutputSpec {
+            key: "solved_share",
+            label: "Flow share solved from the mass balance (fraction)",
+            kind: Q::Ratio,
+            headline: false,
+        },
+        OutputSpec {
+            key: "flow",
+            label: "Flow in the common pipe",
+            kind: Q::VolumeFlow,
+            headline: false,
+        },
+        OutputSpec {
+            key: "mass_flow",
+            label: "Mass flow in the common pipe",
+            kind: Q::MassFlow,
+            headline: false,
+        },
+        OutputSpec {
+            key: "v_common",
+            label: "Mean velocity in the common pipe",
+            kind: Q::Velocity,
+            headline: false,
+        },
+    ];
+    for b in &BRANCHES {
+        outputs.push(OutputSpec {
+            key: b.p_out,
+            label: b.p_label,
+            kind: Q::Pressure,
+            headline: false,
+        });
+        outputs.push(OutputSpec {
+            key: b.q_out,
+            label: b.q_label,
+            kind: Q::VolumeFlow,
+            headline: false,
+        });
+        outputs.push(OutputSpec {
+            key: b.v_out,
+            label: b.v_label,
+            kind: Q::Velocity,
+            headline: false,
+        });
+    }
+    outputs.extend([
+        OutputSpec {
+            key: "momentum_share",
+            label: "Momentum flux ÷ pressure force",
+            kind: Q::Ratio,
+            headline: false,
+        },
+        OutputSpec {
+            key: "fluid_weight",
+            label: "Weight of the fluid inside",
+            kind: Q::Force,
+            headline: false,
+        },
+        OutputSpec {
+            key: "density",
+            label: "Fluid density",
+            kind: Q::Density,
+            headline: false,
+        },
+    ]);
+    CalculatorSpec {
+        key: KEY,
+        title: "Tee, wye or manifold thrust",
+        group: "Pipe fittings and thrust restraint",
+        summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or combining, with one unknown branch flow solved by mass.",
+        fields,
+        outputs,
+        cautions: vec![
+            "The pressure terms use the inside diameters. For push-on and mechanical joints size the restraint on the outside diameters (see the thrust restraint page).",
+            "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
+            "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
+        ],
+    }
+}
+
+/// One branch as read from the fields.
+struct Branch {
+    index: usize,
+    diameter: f64,
+    direction: Vec3,
+    share: Option<f64>,
+    k: f64,
+}
+
+fn read_branches(values: &Values, count: usize) -> Result<Vec<Branch>, Vec<FieldError>> {
+    let mut branches = Vec::with_capacity(count);
+    let mut errors = Vec::new();
+    for (index, b) in BRANCHES.iter().enumerate().take(count) {
+        let diameter = match values.quantity(b.d) {
+            Ok(d) => d,
+            Err(e) => {
+                errors.push(e);
+                continue;
+            }
+        };
+        let angle = match values.quantity(b.angle) {
+            Ok(a) => a,
+            Err(e) => {
+                errors.push(e);
+                continue;
+            }
+        };
+        let elev = values.quantity_or(b.elev, 0.0);
+        let direction = Vec3::new(elev.cos() * angle.cos(), elev.cos() * angle.sin(), elev.sin());
+        // The branch pipe must not lie along the common pipe (within 10°).
+        if direction.dot(Vec3::new(-1.0, 0.0, 0.0)) > (10f64).to_radians().cos() {
+            errors.push(FieldError::inconsistent(
+                b.angle,
+                "the branch would lie along the common pipe: its direction must differ from 180° by more than 10°",
+            ));
+            continue;
+        }
+        let share = values.is_set(b.share).then(|| values.quantity_or(b.share, 0.0));
+        branches.push(Branch {
+            index,
+            diameter,
+            direction,
+            share,
+            k: values.quantity_or(b.k, 0.0),
+        });
+    }
+    if !errors.is_empty() {
+        return Err(errors);
+    }
+    // Shares: at most one empty; the given ones add up to 100 %, or to at most 100 %
+    // when one is left to be solved.
+    let empty: Vec<usize> = branches.iter().filter(|b| b.share.is_none()).map(|b| b.index).collect();
+    let given_sum: f64 = branches.iter().filter_map(|b| b.share).sum();
+    let last_given = branches
+        .iter()
+        .rev()
+        .find(|b| b.share.is_some())
+        .map(|b| BRANCHES[b.index].share);
+    let percent = |x: f64| format!("{} %", units::format_significant(100.0 * x, 4));
+    if empty.len() > 1 {
+        return Err(vec![FieldError::inconsistent(
+            BRANCHES[empty[1]].share,
+            "only one branch's flow share can be left empty (it is solved from the mass balance): give this one",
+        )]);
+    }
+    let tolerance = 1e-9;
+    match (empty.first(), last_given) {
+        (None, Some(field)) if (given_sum - 1.0).abs() > 1e-6 => {
+            return Err(vec![FieldError::inconsistent(
+                field,
+                format!(
+                    "the branch flow shares add up to {}; they must add up to 100 % (or leave one empty to be solved)",
+                    percent(given_sum)
+                ),
+            )]);
+        }
+        (Some(_), Some(field)) if given_sum > 1.0 + tolerance => {
+            return Err(vec![FieldError::inconsistent(
+                field,
+                format!(
+                    "the given branch flow shares add up to {}, over 100 %: the remaining branch would have to flow backwards",
+                    percent(given_sum)
+                ),
+            )]);
+        }
+        _ => {}
+    }
+    Ok(branches)
+}
+
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let mode = values.choice("mode").map_err(|e| vec![e])?;
+    let dividing = mode != "combining";
+    let d_common = values.quantity("d").map_err(|e| vec![e])?;
+    let p = values.quantity("p").map_err(|e| vec![e])?;
+    let count: usize = values
+        .choice("n")
+        .map_err(|e| vec![e])?
+        .parse()
+        .map_err(|_| vec![FieldError::inconsistent("n", "choose 1 to 6 branches")])?;
+    let count = count.clamp(1, MAX_BRANCHES);
+    let k_on_common = values.choice("k_ref").map_err(|e| vec![e])? != "branch";
+    let fluid = common::fluid_from(values)?;
+    let flow = common::flow_from(values)?;
+    let branches = read_branches(values, count)?;
+
+    let a_common = common::circle_area(d_common);
+    let total_flow = match flow {
+        FlowSpec::Velocity(v) => v * a_common,
+        FlowSpec::VolumeFlow(q) => q,
+        FlowSpec::MassFlow(m) => m / fluid.density,
+        FlowSpec::Unknown => 0.0,
+    };
+    // Each port sits one common-pipe diameter from the junction, on its pipe's axis.
+    let stub = d_common;
+    let mut cv = ControlVolume::new(fluid.clone());
+    let common_position = if dividing {
+        Vec3::new(-stub, 0.0, 0.0)
+    } else {
+        Vec3::new(stub, 0.0, 0.0)
+    };
+    let mut common_port = if dividing {
+        Port::inlet("common pipe", si::area(a_common), Direction::X)
+    } else {
+        Port::outlet("common pipe", si::area(a_common), Direction::X)
+    }
+    .pressure(si::pressure(p))
+    .at(common_position);
+    common_port.flow = flow;
+    let c = cv.port(common_port);
+    let mut volume = a_common * stub;
+    let mut moment = common_position * (0.5 * a_common * stub);
+    let mut port_of = Vec::with_capacity(branches.len());
+    for b in &branches {
+        let area = common::circle_area(b.diameter);
+        let direction = Direction::new(b.direction).unwrap_or(Direction::X);
+        let position = if dividing {
+            b.direction * stub
+        } else {
+            b.direction * (-stub)
+        };
+        let name = format!("branch {}", b.index + 1);
+        let mut port = if dividing {
+            Port::outlet(&name, si::area(area), direction)
+        } else {
+            Port::inlet(&name, si::area(area), direction)
+        }
+        .at(position);
+        if let Some(share) = b.share {
+            port = port.volume_flow(si::volume_flow(share * total_flow));
+        }
+        let i = cv.port(port);
+        port_of.push(i);
+        let reference_port = if k_on_common { c } else { i };
+        let stream = if dividing { Stream::new(c, i) } else { Stream::new(i, c) };
+        cv.stream(stream.loss(Loss::Coefficient { k: b.k, reference_port }));
+        volume += area * stub;
+        moment += position * (0.5 * area * stub);
+    }
+    let centroid = if volume > 0.0 {
+        moment * (1.0 / volume)
+    } else {
+        Vec3::ZERO
+    };
+    cv.contains(si::volume(volume), centroid);
+    let balance = engine::balance(&cv).map_err(|e| {
+        let field = branches
+            .iter()
+            .find(|b| b.share.is_none())
+            .map(|b| BRANCHES[b.index].share)
+            .unwrap_or("p");
+        common::engine_error(e, field)
+    })?;
+
+    let thrust = balance.thrust();
+    let in_plane = (thrust.x * thrust.x + thrust.y * thrust.y).sqrt();
+    report.output("thrust_in_plane", in_plane);
+    if in_plane > 0.0 {
+        report.output("thrust_angle", thrust.plane_angle());
+    }
+    report.output("thrust", thrust.norm());
+    report.output("thrust_x", thrust.x);
+    report.output("thrust_y", thrust.y);
+    report.output("thrust_z", thrust.z);
+    // Static: every face at p, no flow.
+    let static_vector: Vec3 = cv
+        .ports
+        .iter()
+        .map(|port| port.outward_normal() * (-p * port.area))
+        .sum();
+    report.output("static_thrust", static_vector.norm());
+    let common_state = &balance.ports[c];
+    if let Some((_, &i)) = branches.iter().zip(&port_of).find(|(b, _)| b.share.is_none()) {
+        if common_state.volume_flow > 0.0 {
+            report.output("solved_share", balance.ports[i].volume_flow / common_state.volume_flow);
+        }
+    }
+    report.output("flow", common_state.volume_flow);
+    report.output("mass_flow", common_state.mass_flow);
+    report.output("v_common", common_state.speed);
+    for (b, &i) in branches.iter().zip(&port_of) {
+        let keys = &BRANCHES[b.index];
+        let state = &balance.ports[i];
+        report.output(keys.p_out, state.pressure);
+        report.output(keys.q_out, state.volume_flow);
+        report.output(keys.v_out, state.speed);
+    }
+    let pressure_force: f64 = balance.ports.iter().map(|s| s.pressure_force.norm()).sum();
+    let momentum: f64 = balance.ports.iter().map(|s| s.momentum_outflow.norm()).sum();
+    if pressure_force > 0.0 {
+        report.output("momentum_share", momentum / pressure_force);
+    }
+    report.output("fluid_weight", balance.fluid_weight.norm());
+    report.output("density", fluid.density);
+
+    common::forward_warnings(&balance, report);
+    common::pipe_velocity_warning(report, common::flow_field(values), "common pipe", common_state.speed);
+    for (b, &i) in branches.iter().zip(&port_of) {
+        let state = &balance.ports[i];
+        let keys = &BRANCHES[b.index];
+        common::pipe_velocity_warning(report, keys.d, &format!("branch {}", b.index + 1), state.speed);
+        if state.pressure < 0.0 {
+            report.warn(
+                Some(keys.k),
+                format!(
+                    "the gauge pressure in branch {} comes out below atmospheric: check the loss and the flow split",
+                    b.index + 1
+                ),
+            );
+        }
+    }
+    for (n, a) in branches.iter().enumerate() {
+        for b in branches.iter().skip(n + 1) {
+            if a.direction.dot(b.direction) > (5f64).to_radians().cos() {
+                report.warn(
+                    Some(BRANCHES[b.index].angle),
+                    format!(
+                        "branches {} and {} point the same way and would overlap",
+                        a.index + 1,
+                        b.index + 1
+                    ),
+                );
+            }
+        }
+    }
+
+    let system = report.system();
+    let carried = thrust - balance.fluid_weight;
+    let carried_norm = carried.norm();
+    let elevation = if carried_norm > 0.0 {
+        (carried.z / carried_norm).clamp(-1.0, 1.0).asin()
+    } else {
+        0.0
+    };
+    report.solution.tables.push(common::basis_table(vec![
+        (
+            "Flow",
+            MODE_OPTIONS
+                .iter()
+                .find(|o| o.key == mode)
+                .map(|o| o.label)
+                .unwrap_or(mode)
+                .to_string(),
+        ),
+        (
+            "Loss coefficients on",
+            if k_on_common {
+                "the common pipe's velocity"
+            } else {
+                "each branch's own velocity"
+            }
+            .to_string(),
+        ),
+        (
+            "Thrust area basis",
+            "inside diameters (momentum and pressure terms)".to_string(),
+        ),
+        (
+            "Carried to the thrust-block page",
+            "pressure and momentum thrust; the fluid's weight is left to the bedding".to_string(),
+        ),
+    ]));
+    report
+        .solution
+        .tables
+        .push(branch_table(&branches, &port_of, &balance, dividing, report));
+    report.solution.tables.push(common::ledger_table(&balance, system));
+    report.solution.tables.push(common::ports_table(&balance, system));
+    let diagram = diagram(d_common, &branches, &port_of, dividing, &balance, report);
+    report.solution.diagrams.push(diagram);
+    let carry = common::thrust_carry_over(
+        report,
+        "Size a thrust block for this junction's thrust",
+        carried_norm,
+        elevation,
+    );
+    report.solution.carry_over.push(carry);
+    Ok(())
+}
+
+fn branch_table(
+    branches: &[Branch],
+    port_of: &[usize],
+    balance: &engine::Balance,
+    dividing: bool,
+    report: &Report<'_>,
+) -> Table {
+    let mut table = Table {
+        key: "branches",
+        title: format!(
+            "Branches ({})",
+            if dividing { "dividing flow" } else { "combining flow" }
+        ),
+        columns: [
+            "Branch",
+            "direction",
+            "elevation",
+            "diameter",
+            "share",
+            "flow",
+            "velocity",
+            "K",
+            "head loss",
+            "gauge pressure",
+        ]
+        .iter()
+        .map(|s| s.to_string())
+        .collect(),
+        rows: Vec::new(),
+        emphasised_rows: Vec::new(),
+    };
+    for (n, (b, &i)) in branches.iter().zip(port_of).enumerate() {
+        let state = &balance.ports[i];
+        let common_flow = balance.ports.first().map(|s| s.volume_flow).unwrap_or(0.0);
+        let share = if common_flow > 0.0 {
+            state.volume_flow / common_flow
+        } else {
+            b.share.unwrap_or(0.0)
+        };
+        let head_loss = balance.streams.get(n).map(|s| s.head_loss).unwrap_or(0.0);
+        let angle = b.direction.y.atan2(b.direction.x);
+        let elevation = b.direction.z.clamp(-1.0, 1.0).asin();
+        table.rows.push(vec![
+            format!("{}{}", b.index + 1, if b.share.is_none() { " (solved)" } else { "" }),
+            report.fmt(angle, Q::Angle),
+            report.fmt(elevation, Q::Angle),
+            report.fmt(b.diameter, Q::Length),
+            format!("{} %", units::format_significant(100.0 * share, 4)),
+            report.fmt(state.volume_flow, Q::VolumeFlow),
+            report.fmt(state.speed, Q::Velocity),
+            units::format_significant(b.k, 4),
+            report.fmt(head_loss, Q::Length),
+            report.fmt(state.pressure, Q::Pressure),
+        ]);
+        if b.share.is_none() {
+            table.emphasised_rows.push(n);
+        }
+    }
+    table
+}
+
+fn diagram(
+    d_common: f64,
+    branches: &[Branch],
+    port_of: &[usize],
+    dividing: bool,
+    balance: &engine::Balance,
+    report: &Report<'_>,
+) -> Diagram {
+    let stub = d_common;
+    let lead = 3.0 * d_common;
+    let mut shapes = Vec::new();
+    let common_end = if dividing { [-lead, 0.0] } else { [lead, 0.0] };
+    shapes.push(Shape::Polygon {
+        points: common::straight_band(common_end, [0.0, 0.0], 1.1 * d_common),
+        style: ShapeStyle::Wall,
+    });
+    for b in branches {
+        let sign = if dividing { 1.0 } else { -1.0 };
+        let end = [sign * lead * b.direction.x, sign * lead * b.direction.y];
+        shapes.push(Shape::Polygon {
+            points: common::straight_band([0.0, 0.0], end, 1.1 * b.diameter),
+            style: ShapeStyle::Wall,
+        });
+    }
+    shapes.push(Shape::Polygon {
+        points: common::straight_band(common_end, [0.0, 0.0], d_common),
+        style: ShapeStyle::Fluid,
+    });
+    for b in branches {
+        let sign = if dividing { 1.0 } else { -1.0 };
+        let end = [sign * lead * b.direction.x, sign * lead * b.direction.y];
+        shapes.push(Shape::Polygon {
+            points: common::straight_band([0.0, 0.0], end, b.diameter),
+            style: ShapeStyle::Fluid,
+        });
+    }
+    // Control volume: a circle through the faces of the ports.
+    shapes.push(Shape::Circle {
+        center: [0.0, 0.0],
+        radius: stub,
+        style: ShapeStyle::ControlVolume,
+    });
+    // Flow arrows along each pipe, labelled with the branch number and share.
+    let common_flow = balance.ports.first().map(|s| s.volume_flow).unwrap_or(0.0);
+    let flow_arrow = |from: [f64; 2], to: [f64; 2], label: String| Shape::Arrow {
+        from,
+        to,
+        label,
+        style: ShapeStyle::Flow,
+    };
+    if dividing {
+        shapes.push(flow_arrow(
+            [-0.9 * lead, 0.6 * d_common],
+            [-0.5 * lead, 0.6 * d_common],
+            "common".to_string(),
+        ));
+    } else {
+        shapes.push(flow_arrow(
+            [0.5 * lead, 0.6 * d_common],
+            [0.9 * lead, 0.6 * d_common],
+            "common".to_string(),
+        ));
+    }
+    for (b, &i) in branches.iter().zip(port_of) {
+        let u = [b.direction.x, b.direction.y];
+        let share = if common_flow > 0.0 {
+            balance.ports[i].volume_flow / common_flow
+        } else {
+            0.0
+        };
+        let label = format!("{}: {} %", b.index + 1, units::format_significant(100.0 * share, 3));
+        let (s0, s1) = if dividing {
+            (0.5 * lead, 0.9 * lead)
+        } else {
+            (-0.9 * lead, -0.5 * lead)
+        };
+        shapes.push(flow_arrow([s0 * u[0], s0 * u[1]], [s1 * u[0], s1 * u[1]], label));
+    }
+    let thrust = balance.thrust();
+    let flat = |v: Vec3| Vec3::new(v.x, v.y, 0.0);
+    let max_force = balance
+        .ports
+        .iter()
+        .map(|s| flat(s.pressure_force).norm())
+        .chain([flat(thrust).norm()])
+        .fold(0.0, f64::max);
+    let scale = if max_force > 0.0 { 0.8 * lead / max_force } else { 0.0 };
+    let fmt = |f: Vec3| report.fmt(flat(f).norm(), Q::Force);
+    for s in &balance.ports {
+        if let Some(a) = common::force_arrow(
+            s.position.xy(),
+            flat(s.pressure_force),
+            scale,
+            format!("p·A {}", fmt(s.pressure_force)),
+            ShapeStyle::Pressure,
+            false,
+        ) {
+            shapes.push(a);
+        }
+    }
+    if let Some(a) = common::force_arrow(
+        [0.0, 0.0],
+        flat(thrust),
+        scale,
+        format!("thrust T {}", fmt(thrust)),
+        ShapeStyle::Thrust,
+        true,
+    ) {
+        shapes.push(a);
+    }
+    if let Some(a) = common::force_arrow(
+        [0.0, 0.0],
+        flat(balance.support_force),
+        scale,
+        format!("restraint R {}", fmt(balance.support_force)),
+        ShapeStyle::Restraint,
+        true,
+    ) {
+        shapes.push(a);
+    }
+    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * d_common);
+    Diagram {
+        title: format!("{} junction, plan view: control volume and forces", if dividing { "Dividing" } else { "Combining" }),
+        bounds,
+        shapes,
+        caption: "Pipes to scale in plan (branches with an elevation angle are drawn foreshortened); force arrows share one scale, plan components only. T acts on the supports; R = −T is what the restraint supplies.".to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::catalog::Request;
+    use approx::assert_relative_eq;
+
+    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
+        let mut request = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
+            request.inputs.insert(k, v);
+        }
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        crate::solve(super::KEY, &request)
+    }
+
+    fn error_field(pairs: &[(&str, &str)]) -> String {
+        match outcome(pairs).result {
+            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
+            other => panic!("expected a field error, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn still_tee_thrust_is_pressure_on_the_branch_area() {
+        // Derived from the definition: T = p·A_branch along the branch axis, pointing
+        // away from the branch (the unbalanced wall is opposite the branch opening).
+        let s = outcome(&[
+            ("q", "0"),
+            ("p", "10 bar"),
+            ("d", "300 mm"),
+            ("d1", "300 mm"),
+            ("d2", "200 mm"),
+            ("share1", "100 %"),
+        ])
+        .result
+        .expect("solves");
+        let expected = 1e6 * std::f64::consts::PI * 0.04 / 4.0;
+        assert_relative_eq!(s.output("thrust_in_plane").unwrap().si, expected, max_relative = 1e-9);
+        assert_relative_eq!(
+            s.output("thrust_angle").unwrap().si,
+            -std::f64::consts::FRAC_PI_2,
+            max_relative = 1e-9
+        );
+        assert_relative_eq!(s.output("static_thrust").unwrap().si, expected, max_relative = 1e-9);
+    }
+
+    #[test]
+    fn the_empty_share_is_solved_by_mass() {
+        let s = outcome(&[("share1", "70 %"), ("share2", "")]).result.expect("solves");
+        assert_relative_eq!(s.output("solved_share").unwrap().si, 0.3, max_relative = 1e-9);
+        let q = s.output("flow").unwrap().si;
+        assert_relative_eq!(s.output("q_b2").unwrap().si, 0.3 * q, max_relative = 1e-9);
+    }
+
+    #[test]
+    fn combining_mirror_of_a_symmetric_wye_has_no_side_thrust() {
+        let s = outcome(&[
+            ("mode", "combining"),
+            ("angle1", "30 deg"),
+            ("angle2", "-30 deg"),
+            ("d1", "200 mm"),
+            ("d2", "200 mm"),
+            ("share1", "50 %"),
+            ("share2", ""),
+            ("k1", "0.2"),
+            ("k2", "0.2"),
+        ])
+        .result
+        .expect("solves");
+        assert!(s.output("thrust_y").unwrap().si.abs() < 1e-6 * s.output("thrust").unwrap().si);
+        // Combining: the branch pressures exceed the common pressure by the loss.
+        assert!(s.output("p_b1").unwrap().si > 1e6 - 1e4);
+    }
+
+    #[test]
+    fn bad_shares_and_sizes_name_their_field() {
+        assert_eq!(error_field(&[("share1", "120 %")]), "share1");
+        assert_eq!(error_field(&[("share1", "70 %"), ("share2", "40 %")]), "share2");
+        assert_eq!(
+            error_field(&[("n", "3"), ("share1", "70 %"), ("share2", ""), ("share3", "")]),
+            "share3"
+        );
+        assert_eq!(
+            error_field(&[("n", "3"), ("share1", "80 %"), ("share2", ""), ("share3", "30 %")]),
+            "share3"
+        );
+        assert_eq!(error_field(&[("d2", "0 mm")]), "d2");
+        assert_eq!(error_field(&[("angle2", "175 deg")]), "angle2");
+        assert_eq!(error_field(&[("p", "-3 psi")]), "p");
+    }
+}
