@@ -146,7 +146,8 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "force_x", label: "Force on the vane along the jet (x)", kind: Q::Force, headline: true },
             OutputSpec { key: "power", label: "Power delivered to the vane(s), F_x·u", kind: Q::Power, headline: true },
             OutputSpec { key: "efficiency", label: "Efficiency: power ÷ jet kinetic-energy flux", kind: Q::Ratio, headline: true },
-            OutputSpec { key: "force_y", label: "Force on the vane across the jet (y)", kind: Q::Force, headline: false },
+            OutputSpec { key: "force_y", label: "Force on the vane across the jet (y, positive towards the side the water is turned to)", kind: Q::Force, headline: false },
+            OutputSpec { key: "force_side", label: "Side force on the vane, away from the side the water is turned to", kind: Q::Force, headline: false },
             OutputSpec { key: "force", label: "Resultant force on the vane", kind: Q::Force, headline: false },
             OutputSpec { key: "force_x_closed", label: "Closed form ṁ·W₁·(1 − k·cos θ) (check)", kind: Q::Force, headline: false },
             OutputSpec { key: "mass_flow_turned", label: "Mass flow turned by the vane(s)", kind: Q::MassFlow, headline: false },
@@ -414,6 +415,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("power", state.power);
     report.output("efficiency", state.efficiency);
     report.output("force_y", state.force.y);
+    report.output("force_side", -state.force.y);
     report.output("force", state.force.norm());
     report.output("force_x_closed", state.mass_turned * w1 * (1.0 - k * theta.cos()));
     report.output("mass_flow_turned", state.mass_turned);
