@@ -45,7 +45,7 @@
 //!   `material`, `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields `fluid`, `t`, `rho`, `mu`.
 //! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
 //!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,
-//!   `submerged` (`no` | `yes`), `gravity_h`, `mu`, `sf_slide`.
+//!   `submerged` (`no` | `yes`), `gravity_h`, `friction`, `sf_slide`.
 //!
 //! A fitting page links here with, e.g., `fitting=tee&size=custom&d=300mm&od=320mm&
 //! d2=200mm&od2=220mm&p_work=10bar` so the thrust is recomputed at the design
@@ -673,7 +673,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..quantity("gamma_c", "Unit weight of concrete", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..choice("submerged", "Block below groundwater", YES_NO, "no", "Below the water table the block weighs less by the water it displaces.") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::positive(20.0), "Empty: a cube.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("mu", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: no sliding check. Often 0.3 to 0.5 for concrete on soil (common practice).") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("friction", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: no sliding check. Often 0.3 to 0.5 for concrete on soil (common practice).") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
     ]);
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
@@ -954,17 +954,17 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 None => volume.cbrt(),
             };
             report.output("block_side", side);
-            if let Some(mu) = opt(values, "mu") {
+            if let Some(mu) = opt(values, "friction") {
                 let sf_slide = opt(values, "sf_slide").unwrap_or(1.5);
                 let normal = gamma_eff * volume - t_v.max(0.0);
                 if t_h > 0.0 {
                     let factor = mu * normal / t_h;
                     report.output("sliding_sf", factor);
                     if factor < sf_slide {
-                        report.warn(Some("mu"), format!("sliding: μ·(W − T_up)/T_h = {} is below the required {}; enlarge the block or bear its side against undisturbed soil", units::format_significant(factor, 3), units::format_significant(sf_slide, 3)));
+                        report.warn(Some("friction"), format!("sliding: μ·(W − T_up)/T_h = {} is below the required {}; enlarge the block or bear its side against undisturbed soil", units::format_significant(factor, 3), units::format_significant(sf_slide, 3)));
                     }
                 } else {
-                    report.warn(Some("mu"), "no horizontal thrust: nothing to slide");
+                    report.warn(Some("friction"), "no horizontal thrust: nothing to slide");
                 }
             }
             if submerged {
@@ -1431,6 +1431,18 @@ mod tests {
         match crate::solve(super::KEY, &request(pairs)).result {
             Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
             other => panic!("expected a field error, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn field_keys_are_unique() {
+        let spec = super::spec();
+        for (i, f) in spec.fields.iter().enumerate() {
+            assert!(
+                spec.fields[i + 1..].iter().all(|g| g.key != f.key),
+                "duplicate field key {}",
+                f.key
+            );
         }
     }
 
