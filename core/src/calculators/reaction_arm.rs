@@ -106,7 +106,7 @@ pub fn spec() -> CalculatorSpec {
             Q::Ratio,
             "-",
             "-",
-            "2",
+            "4",
             Limits::closed(1.0, MAX_NOZZLES),
             "Whole number of identical nozzles spaced evenly round the arm, 1 to 72.",
         ),
@@ -116,7 +116,7 @@ pub fn spec() -> CalculatorSpec {
             Q::Length,
             "mm",
             "in",
-            "450 mm",
+            "1200 mm",
             Limits::positive(common::MAX_SIZE_M),
             "Distance from the axis of rotation to the centre of each nozzle exit.",
         ),
@@ -126,7 +126,7 @@ pub fn spec() -> CalculatorSpec {
             Q::Length,
             "mm",
             "in",
-            "12 mm",
+            "25 mm",
             Limits::positive(1.0),
             "Diameter of each jet at the nozzle exit (the vena contracta for a sharp orifice).",
         ),
@@ -161,7 +161,7 @@ pub fn spec() -> CalculatorSpec {
             "drive",
             "The arm is fed at",
             DRIVE_OPTIONS,
-            "pressure",
+            "flow",
             "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ + ω²R²).",
         ),
         FieldSpec {
@@ -171,9 +171,9 @@ pub fn spec() -> CalculatorSpec {
                 "q",
                 "Total flow through the arm",
                 Q::VolumeFlow,
-                "L/s",
+                "m3/h",
                 "gpm",
-                "",
+                "40 m3/h",
                 Limits::positive(100.0),
                 "All nozzles together; must be greater than zero.",
             )
@@ -187,7 +187,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Pressure,
                 "kPa",
                 "psi",
-                "4 bar",
+                "20 kPa",
                 Limits::positive(MAX_PRESSURE_PA),
                 "Gauge pressure in the hub on the axis, after the swivel; must be greater than zero.",
             )
@@ -221,7 +221,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Torque,
                 "N.m",
                 "lbf.ft",
-                "6 N.m",
+                "30 N.m",
                 Limits::closed(0.0, 1e7),
                 "The constant torque, or the torque at the speed below.",
             )
@@ -422,7 +422,7 @@ impl Arm {
                 // Hub pressure is a + b·W²: two balances fix a and b.
                 let a = self.supply_pressure_of(&engine::balance(&self.control_volume(omega, 0.0))?);
                 let b = self.supply_pressure_of(&engine::balance(&self.control_volume(omega, 1.0))?) - a;
-                if !(b > 0.0) {
+                if b.is_nan() || b <= 0.0 {
                     return Err(EngineError::InvalidInput {
                         what: "the hub bore is too small: its velocity head exceeds the jets' and no jet speed matches the supply pressure",
                     });
@@ -1059,6 +1059,10 @@ mod tests {
         let s = crate::solve(
             KEY,
             &request(&[
+                ("nozzles", "2"),
+                ("radius", "450 mm"),
+                ("d_nozzle", "12 mm"),
+                ("alpha", "10 deg"),
                 ("drive", "flow"),
                 ("q", "1.5 L/s"),
                 ("fluid", "custom"),
@@ -1085,9 +1089,18 @@ mod tests {
 
     #[test]
     fn ideal_pressure_fed_arm_has_no_finite_runaway() {
-        let s = crate::solve(KEY, &request(&[("alpha", "0 deg"), ("cv", "1"), ("load", "none")]))
-            .result
-            .expect("solves with a warning");
+        let s = crate::solve(
+            KEY,
+            &request(&[
+                ("alpha", "0 deg"),
+                ("cv", "1"),
+                ("load", "none"),
+                ("drive", "pressure"),
+                ("p", "4 bar"),
+            ]),
+        )
+        .result
+        .expect("solves with a warning");
         assert!(s.output("runaway_speed").is_none());
         assert!(s.warnings.iter().any(|w| w.message.contains("no finite runaway")));
     }
@@ -1098,8 +1111,8 @@ mod tests {
         assert_eq!(error_field(&[("nozzles", "0")]), "nozzles");
         assert_eq!(error_field(&[("radius", "0 mm")]), "radius");
         assert_eq!(error_field(&[("drive", "flow"), ("q", "-1 L/s")]), "q");
-        assert_eq!(error_field(&[("drive", "flow")]), "q");
+        assert_eq!(error_field(&[("drive", "flow"), ("q", "")]), "q");
         assert_eq!(error_field(&[("load", "linear")]), "n_load");
-        assert_eq!(error_field(&[("d_hub", "1 mm")]), "d_hub");
+        assert_eq!(error_field(&[("drive", "pressure"), ("d_hub", "1 mm")]), "d_hub");
     }
 }

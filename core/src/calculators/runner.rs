@@ -166,7 +166,7 @@ pub fn spec() -> CalculatorSpec {
         quantity("q", "Flow", Q::VolumeFlow, "m3/h", "gpm", "180 m3/h", Limits::positive(1e3), "Flow through the blades; must be greater than zero."),
         FieldSpec {
             optional: true,
-            ..quantity("head", "Net head H", Q::Length, "m", "ft", "", Limits::positive(1e4), "Turbine: net head available; pump: head delivered. Gives the hydraulic efficiency.")
+            ..quantity("head", "Net head H", Q::Length, "m", "ft", "40 m", Limits::positive(1e4), "Turbine: net head available; pump: head delivered. Gives the hydraulic efficiency.")
         },
     ];
     fields.extend(common::fluid_fields("25 degC"));
@@ -455,7 +455,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("pressure_rise", pressure_rise);
     report.output("mass_flow", flow * runner.fluid.density);
     report.output("density", runner.fluid.density);
-    if !(euler_head > 0.0) {
+    if euler_head.is_nan() || euler_head <= 0.0 {
         report.warn(
             Some("beta2"),
             format!(
