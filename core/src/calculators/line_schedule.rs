@@ -822,23 +822,24 @@ fn solve_row(
     let direction = direction_text(row, plane, thrust);
     let (block, block_text, soil_text) = match plane {
         Plane::Horizontal | Plane::Sag => {
-            let (sigma, soil_text) =
-                match (row.sigma, row.soil.as_deref()) {
-                    (Some(s), _) => (s, format!("typed {}", report.fmt(s, Q::Pressure))),
-                    (None, Some(key)) => preset_bearing(key).map_err(|m| err(m))?,
-                    (None, None) => match default_soil {
-                        "custom" => match default_sigma {
-                            Some(s) => (s, format!("typed {}", report.fmt(s, Q::Pressure))),
-                            None => return Err((
+            let (sigma, soil_text) = match (row.sigma, row.soil.as_deref()) {
+                (Some(s), _) => (s, format!("typed {}", report.fmt(s, Q::Pressure))),
+                (None, Some(key)) => preset_bearing(key).map_err(|m| err(m))?,
+                (None, None) => match default_soil {
+                    "custom" => match default_sigma {
+                        Some(s) => (s, format!("typed {}", report.fmt(s, Q::Pressure))),
+                        None => {
+                            return Err((
                                 true,
                                 format!(
                                     "row {line}: type the allowable soil bearing on the page, or give soil= on the row"
                                 ),
-                            )),
-                        },
-                        key => preset_bearing(key).map_err(|m| err(m))?,
+                            ))
+                        }
                     },
-                };
+                    key => preset_bearing(key).map_err(|m| err(m))?,
+                },
+            };
             let load = if plane == Plane::Horizontal {
                 (thrust.x.powi(2) + thrust.y.powi(2)).sqrt()
             } else {
@@ -962,10 +963,26 @@ mod tests {
 
     #[test]
     fn demo_solves() {
-        let s = crate::solve(KEY, &request(DEMO_ROWS, &[])).result.map_err(|e| e.to_string());
+        let s = crate::solve(KEY, &request(DEMO_ROWS, &[]))
+            .result
+            .map_err(|e| e.to_string());
         let s = s.unwrap_or_else(|e| panic!("{e}"));
         assert_eq!(s.output("row_count").map(|o| o.si), Some(6.0));
         assert_eq!(s.tables[0].rows.len(), 7);
+    }
+
+    #[test]
+    fn the_method_note_examples_parse() {
+        let examples = "bend 45deg di52_12 nfpa24_sand tag=B1\n\
+            tee size=sch40_12 size2=sch40_6 joint=welded p=16bar\n\
+            reducer c900dr18_12 c900dr18_8\n\
+            bend 22.5deg di52_8 turn=down\n\
+            dead_end d=200mm od=219.1mm h=0.9m\n\
+            force thrust=40kN sigma=150kPa";
+        let s = crate::solve(KEY, &request(examples, &[]))
+            .result
+            .unwrap_or_else(|e| panic!("{e}"));
+        assert_eq!(s.output("row_count").map(|o| o.si), Some(6.0));
     }
 
     #[test]
@@ -975,7 +992,11 @@ mod tests {
             .result
             .unwrap_or_else(|e| panic!("{e}"));
         let expected = 2.0 * 1e6 * PI * 0.32 * 0.32 / 4.0 * (PI / 4.0).sin();
-        assert_relative_eq!(s.output("max_thrust").map(|o| o.si).unwrap_or(0.0), expected, max_relative = 1e-9);
+        assert_relative_eq!(
+            s.output("max_thrust").map(|o| o.si).unwrap_or(0.0),
+            expected,
+            max_relative = 1e-9
+        );
     }
 
     #[test]
@@ -1025,8 +1046,19 @@ mod tests {
         // URLSearchParams encoding: unreserved bytes stay, space → '+', others %XX.
         let encoded: usize = text
             .bytes()
-            .map(|b| if b.is_ascii_alphanumeric() || b"*-._ ".contains(&b) { 1 } else { 3 })
+            .map(|b| {
+                if b.is_ascii_alphanumeric() || b"*-._ ".contains(&b) {
+                    1
+                } else {
+                    3
+                }
+            })
             .sum();
-        println!("line-schedule: 500 rows solved in {:.2} ms (this build); rows text {} bytes, {} bytes URL-encoded", elapsed.as_secs_f64() * 1e3, text.len(), encoded);
+        println!(
+            "line-schedule: 500 rows solved in {:.2} ms (this build); rows text {} bytes, {} bytes URL-encoded",
+            elapsed.as_secs_f64() * 1e3,
+            text.len(),
+            encoded
+        );
     }
 }

@@ -1455,6 +1455,17 @@ mod tests {
     }
 
     #[test]
+    fn demo_matches_the_method_note_worked_example() {
+        // site/notes/thrust-block.md works the demo by hand: surge governs at about
+        // 10.69 bar, T ≈ 72.3 kN, bearing area ≈ 0.755 m² (rounded figures).
+        let s = solve(&[]);
+        let get = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
+        assert_relative_eq!(get("p_design"), 10.69e5, max_relative = 2e-3);
+        assert_relative_eq!(get("thrust"), 72.3e3, max_relative = 2e-3);
+        assert_relative_eq!(get("bearing_area"), 0.755, max_relative = 2e-3);
+    }
+
+    #[test]
     fn bend_thrust_on_outside_diameter_matches_static_formula() {
         // Derived from the definition: T = 2 p A sin(θ/2), A on the OD for push-on joints.
         let s = solve(&[
