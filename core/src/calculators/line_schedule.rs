@@ -38,7 +38,7 @@
 
 use std::f64::consts::PI;
 
-use crate::catalog::{CalculatorSpec, FieldSpec, Limits, OutputSpec, Plot, Report, Series, Table, Values};
+use crate::catalog::{CalculatorSpec, CarryOver, FieldSpec, Limits, OutputSpec, Plot, Report, Series, Table, Values};
 use crate::error::FieldError;
 use crate::fluid::Fluid;
 use crate::pipe_sizes;
@@ -716,8 +716,87 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         );
         d.title = format!("Largest thrust, row {}: {}", g.row.line, d.title);
         report.solution.diagrams.push(d);
+        report.solution.carry_over.push(CarryOver {
+            calculator: tb::KEY,
+            label: format!("Open row {} (largest thrust) on the thrust-restraint page", g.row.line),
+            inputs: carry_inputs(g, values, sf),
+        });
     }
     Ok(())
+}
+
+/// The thrust-restraint page's inputs for one solved row: the fitting, its sizes and
+/// the row's design pressure as the operating pressure (so the page shows the same
+/// thrust), the soil and the face height.
+fn carry_inputs(s: &Solved, values: &Values, sf: f64) -> Vec<(&'static str, String)> {
+    let num = |x: f64| units::format_significant(x, 7);
+    let r = &s.row;
+    let mut v: Vec<(&'static str, String)> = Vec::new();
+    let fitting = match r.kind {
+        RowKind::Force => "force",
+        RowKind::Fitting(FittingKind::Bend) => "bend",
+        RowKind::Fitting(FittingKind::Tee) => "tee",
+        RowKind::Fitting(FittingKind::DeadEnd) => "dead_end",
+        RowKind::Fitting(FittingKind::Reducer) => "reducer",
+    };
+    v.push(("fitting", fitting.to_string()));
+    if let Some(t) = r.thrust {
+        v.push(("thrust", format!("{}N", num(t))));
+    }
+    if let Some(a) = r.angle {
+        v.push(("angle", format!("{}deg", num(a.to_degrees()))));
+    }
+    let plane = match s.plane {
+        Plane::Horizontal => "horizontal",
+        Plane::Crest => "vertical_crest",
+        Plane::Sag => "vertical_sag",
+    };
+    v.push(("plane", plane.to_string()));
+    v.push(("size", r.size.clone().unwrap_or_else(|| pipe_sizes::CUSTOM.to_string())));
+    for (key, d) in [("d", r.d), ("od", r.od), ("d2", r.d2), ("od2", r.od2)] {
+        if let Some(d) = d {
+            v.push((key, format!("{}m", num(d))));
+        }
+    }
+    if r.size2.is_some() || r.d2.is_some() {
+        v.push((
+            "size2",
+            r.size2.clone().unwrap_or_else(|| pipe_sizes::CUSTOM.to_string()),
+        ));
+    }
+    let joint = r
+        .joint
+        .clone()
+        .unwrap_or_else(|| values.choice("joint").unwrap_or("push_on").to_string());
+    v.push(("joint", joint));
+    v.push(("p_basis", "operating".to_string()));
+    v.push(("p_work", format!("{}Pa", num(s.p))));
+    match (r.sigma, r.soil.as_deref()) {
+        (Some(sigma), _) => {
+            v.push(("soil", "custom".to_string()));
+            v.push(("sigma", format!("{}Pa", num(sigma))));
+        }
+        (None, Some(key)) => v.push(("soil", key.to_string())),
+        (None, None) => {
+            let key = values.choice("soil").unwrap_or("custom");
+            v.push(("soil", key.to_string()));
+            if key == "custom" && values.is_set("sigma") {
+                v.push(("sigma", format!("{}Pa", num(values.quantity_or("sigma", 0.0)))));
+            }
+        }
+    }
+    v.push(("sf", num(sf)));
+    v.push(("block_dims", "height".to_string()));
+    if let Block::Bearing { h, .. } = s.block {
+        v.push(("block_h", format!("{}m", num(h))));
+    }
+    if s.plane == Plane::Crest {
+        v.push(("gamma_c", format!("{}N/m3", num(values.quantity_or("gamma_c", 23.6e3)))));
+        v.push(("submerged", "no".to_string()));
+    }
+    v.push(("fluid", "water".to_string()));
+    v.push(("t", "15degC".to_string()));
+    v
 }
 
 enum TestBasis {
@@ -983,6 +1062,30 @@ mod tests {
             .result
             .unwrap_or_else(|e| panic!("{e}"));
         assert_eq!(s.output("row_count").map(|o| o.si), Some(6.0));
+    }
+
+    #[test]
+    fn the_governing_row_opens_on_the_thrust_restraint_page_with_the_same_thrust() {
+        for rows in [
+            "bend 90deg di52_12 p=150psi soil=safe_sand h=2ft\ndead_end di52_8",
+            "tee size=sch40_12 size2=sch40_6 joint=welded p=16bar sigma=150kPa",
+            "bend 22.5deg di52_8 turn=down p=10bar",
+        ] {
+            let s = crate::solve(KEY, &request(rows, &[]))
+                .result
+                .unwrap_or_else(|e| panic!("{e}"));
+            let link = &s.carry_over[0];
+            let mut target = Request::default();
+            for (k, v) in &link.inputs {
+                target.inputs.insert(k.to_string(), v.clone());
+            }
+            let t = crate::solve(link.calculator, &target)
+                .result
+                .unwrap_or_else(|e| panic!("{rows}: {e}"));
+            let here = s.output("max_thrust").map(|o| o.si).unwrap_or(0.0);
+            let there = t.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
+            assert_relative_eq!(here, there, max_relative = 1e-6);
+        }
     }
 
     #[test]

@@ -61,8 +61,7 @@
 use std::f64::consts::PI;
 
 use crate::catalog::{
-    CalculatorSpec, CarryOver, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Table,
-    Values,
+    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Table, Values,
 };
 use crate::engine::{self, si, ControlVolume, EngineWarning, Port, Stream};
 use crate::error::FieldError;
@@ -668,8 +667,8 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
-        FieldSpec { visible_when: Some(("block_dims", &["height"])), ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
-        FieldSpec { visible_when: Some(("block_dims", &["aspect"])), ..quantity("block_aspect", "Face width ÷ height", Q::Ratio, "-", "-", "1.5", Limits::closed(0.1, 10.0), "1 for a square face.") },
+        FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
+        FieldSpec { visible_when: Some(("block_dims", &["aspect"])), optional: true, ..quantity("block_aspect", "Face width ÷ height", Q::Ratio, "-", "-", "1.5", Limits::closed(0.1, 10.0), "1 for a square face.") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..quantity("gamma_c", "Unit weight of concrete", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..choice("submerged", "Block below groundwater", YES_NO, "no", "Below the water table the block weighs less by the water it displaces.") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::positive(20.0), "Empty: a cube.") },
@@ -998,18 +997,6 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         report,
     );
     report.solution.diagrams.push(diagram);
-    if fitting != "force" {
-        let mut inputs: Vec<(&'static str, String)> = vec![
-            ("fitting", "force".to_string()),
-            ("thrust", units::format_quantity(thrust, Q::Force, report.system())),
-        ];
-        inputs.push(("plane", values.choice("plane").unwrap_or("horizontal").to_string()));
-        report.solution.carry_over.push(CarryOver {
-            calculator: KEY,
-            label: "Try other soils or block shapes for this thrust".to_string(),
-            inputs,
-        });
-    }
     Ok(())
 }
 
@@ -1039,12 +1026,18 @@ fn soil_bearing(values: &Values) -> Result<f64, Vec<FieldError>> {
 fn face(values: &Values, area: f64) -> Result<(f64, f64), Vec<FieldError>> {
     match values.choice("block_dims").unwrap_or("height") {
         "aspect" => {
-            let r = values.quantity("block_aspect").map_err(|e| vec![e])?;
+            let r = opt(values, "block_aspect").ok_or_else(|| {
+                vec![FieldError::inconsistent(
+                    "block_aspect",
+                    "give the face's width ÷ height",
+                )]
+            })?;
             let h = (area / r).sqrt();
             Ok((h, r * h))
         }
         _ => {
-            let h = values.quantity("block_h").map_err(|e| vec![e])?;
+            let h = opt(values, "block_h")
+                .ok_or_else(|| vec![FieldError::inconsistent("block_h", "give the bearing face height")])?;
             Ok((h, area / h))
         }
     }
