@@ -364,6 +364,16 @@ impl Arm {
         self.hub_area.unwrap_or(100.0 * self.nozzles as f64 * self.nozzle_area)
     }
 
+    /// cos α, exactly zero for a radial jet (so that a 90° nozzle gives no torque
+    /// rather than a rounding residue).
+    fn cos_alpha(&self) -> f64 {
+        if (self.alpha - PI / 2.0).abs() < 1e-12 {
+            0.0
+        } else {
+            self.alpha.cos()
+        }
+    }
+
     /// Position and jet direction (relative to the nozzle) of nozzle `i`: the arm
     /// turns counter-clockwise about +z; the jet points against the rotation and
     /// leans outward by α.
@@ -371,7 +381,7 @@ impl Arm {
         let theta = 2.0 * PI * i as f64 / self.nozzles as f64;
         let radial = Vec3::new(theta.cos(), theta.sin(), 0.0);
         let tangent = Vec3::new(-theta.sin(), theta.cos(), 0.0);
-        let jet = tangent * (-self.alpha.cos()) + radial * self.alpha.sin();
+        let jet = tangent * (-self.cos_alpha()) + radial * self.alpha.sin();
         (radial * self.radius, Direction::new(jet).unwrap_or(Direction::X))
     }
 
@@ -451,7 +461,7 @@ impl Arm {
 
     /// A speed scale: the runaway speed of the same arm with the stall jet speed.
     fn speed_scale(&self, stall_jet: f64) -> f64 {
-        (stall_jet * self.alpha.cos().max(0.05) / self.radius).max(1e-6)
+        (stall_jet * self.cos_alpha().max(0.05) / self.radius).max(1e-6)
     }
 }
 
@@ -599,6 +609,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let net = |w: f64| Ok(arm.torque(w)? - load.torque(w));
     let operating = match load {
         Load::Held(w) => Some(w),
+        Load::None => runaway,
         _ if net(0.0).map_err(fail)? <= 0.0 => {
             report.warn(
                 Some("t_load"),
@@ -628,9 +639,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
     report.output("stall_torque", stall.torque);
     let closed_form = match arm.drive {
-        Drive::Flow(_) => Some(stall.jet * arm.alpha.cos() / arm.radius),
+        Drive::Flow(_) => Some(stall.jet * arm.cos_alpha() / arm.radius),
         Drive::Pressure(p) if arm.hub_area.is_none() => {
-            let c = arm.cv * arm.alpha.cos();
+            let c = arm.cv * arm.cos_alpha();
             (c < 1.0).then(|| c * (2.0 * p / arm.fluid.density).sqrt() / ((1.0 - c * c).sqrt() * arm.radius))
         }
         Drive::Pressure(_) => None,
@@ -677,7 +688,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
     report.output("jet_velocity", shown.jet);
     report.output("tip_speed", shown.omega * arm.radius);
-    report.output("jet_swirl", shown.jet * arm.alpha.cos() - shown.omega * arm.radius);
+    report.output("jet_swirl", shown.jet * arm.cos_alpha() - shown.omega * arm.radius);
     report.output("flow", shown.flow);
     report.output("mass_flow", shown.flow * arm.fluid.density);
     report.output("supply_pressure", shown.supply_pressure);
@@ -728,7 +739,7 @@ fn torque_ledger(state: &State, arm: &Arm, system: UnitSystem) -> Table {
         "T = torque the water delivers to the shaft, −M".to_string(),
         state.torque,
     ));
-    let closed = arm.fluid.density * state.flow * arm.radius * (state.jet * arm.alpha.cos() - state.omega * arm.radius);
+    let closed = arm.fluid.density * state.flow * arm.radius * (state.jet * arm.cos_alpha() - state.omega * arm.radius);
     rows.push(("check: ρQR(W·cos α − ωR)".to_string(), closed));
     let max = rows.iter().map(|(_, v)| v.abs()).fold(0.0, f64::max);
     let unit = units::display_unit(max, Q::Torque, system).id;
