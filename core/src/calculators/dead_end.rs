@@ -351,7 +351,9 @@ fn diagram(
         text: format!("thrust diameter {}", report.fmt(d_used, Q::Length)),
         style: ShapeStyle::Label,
     });
-    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.4 * od);
+    let mut bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.4 * od);
+    // Room for the labels at the arrow heads on the right.
+    bounds[2] += 1.2 * od;
     Diagram {
         title: "Dead end: control volume and forces".to_string(),
         bounds,

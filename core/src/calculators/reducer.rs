@@ -116,7 +116,7 @@ pub fn spec() -> CalculatorSpec {
             Q::Length,
             "mm",
             "in",
-            "210 mm",
+            "250 mm",
             Limits::positive(MAX_SIZE_M),
             "Smaller than the inlet for a reducer, larger for an expander.",
         ),
@@ -490,9 +490,10 @@ fn diagram(
         .fold(0.0, f64::max);
     let scale = if max_force > 0.0 { 1.2 * lead / max_force } else { 0.0 };
     let fmt = |f: Vec3| report.fmt(in_plane(f).norm(), Q::Force);
-    for (port, s) in balance.ports.iter().zip([0.0, length]) {
+    // The two face arrows are drawn a little off the axis so their labels do not meet.
+    for (port, (s, t)) in balance.ports.iter().zip([(0.0, 0.2 * d_in), (length, -0.2 * d_out)]) {
         if let Some(arrow) = common::force_arrow(
-            at(s, 0.0),
+            at(s, t),
             port.pressure_force,
             scale,
             format!("p·A {}", fmt(port.pressure_force)),
