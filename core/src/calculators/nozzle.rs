@@ -530,7 +530,7 @@ mod tests {
             Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
             other => panic!("expected a field error, got {other:?}"),
         };
-        assert_eq!(field(&[("d_nozzle", "150 mm")]), "d_nozzle");
+        assert_eq!(field(&[("d_nozzle", "200 mm")]), "d_nozzle");
         assert_eq!(field(&[("cd", "0.9"), ("cc", "0.62")]), "cd");
         assert_eq!(field(&[("p", "-1 bar")]), "p");
         assert_eq!(field(&[("cd", "0")]), "cd");
