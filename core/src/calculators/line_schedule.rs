@@ -80,10 +80,10 @@ pub fn spec() -> CalculatorSpec {
         choice("p_basis", "Design pressure basis (rows without p=)", BASIS_OPTIONS, "highest", "Applied to the working pressure of each row that does not give its own design pressure."),
         quantity("p_work", "Working pressure, gauge (rows without pw=)", Q::Pressure, "bar", "psi", "150 psi", Limits::closed(0.0, MAX_PRESSURE_PA), "The working pressure along the line; a row may give its own with pw=."),
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "nfpa24", "Named rules of published standards, or a typed test pressure.") },
-        FieldSpec { optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
+        FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
         choice("soil", "Soil (rows without soil=)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison."),
-        FieldSpec { optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Used when the soil is 'typed value'.") },
+        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Used when the soil is 'typed value'.") },
         choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", "Push-on and mechanical: thrust on the OD; flanged and welded: on the ID."),
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Bearing area = SF·T/σ; gravity block weight = SF·T_up."),
         quantity("block_h", "Bearing face height (rows without h=)", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Face width = area ÷ height."),
@@ -372,7 +372,7 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             }
             "thrust" => {
                 let v = typed(value, Q::Force, line, "thrust")?;
-                if !(v > 0.0) {
+                if v <= 0.0 {
                     return Err(format!("row {line}: thrust must be greater than 0"));
                 }
                 row.thrust = Some(v);
@@ -425,10 +425,10 @@ fn bare_key(row: &Row, token: &str, line: usize) -> Result<&'static str, String>
     if tb::soil(token).is_some() {
         return Ok("soil");
     }
-    if let Ok(_) = units::parse_quantity(token, Q::Angle, "") {
+    if units::parse_quantity(token, Q::Angle, "").is_ok() {
         return Ok("angle");
     }
-    if let Ok(_) = units::parse_quantity(token, Q::Pressure, "") {
+    if units::parse_quantity(token, Q::Pressure, "").is_ok() {
         return Ok("p");
     }
     if units::parse_quantity(token, Q::Length, "").is_ok() {
@@ -903,7 +903,7 @@ fn solve_row(
         Plane::Horizontal | Plane::Sag => {
             let (sigma, soil_text) = match (row.sigma, row.soil.as_deref()) {
                 (Some(s), _) => (s, format!("typed {}", report.fmt(s, Q::Pressure))),
-                (None, Some(key)) => preset_bearing(key).map_err(|m| err(m))?,
+                (None, Some(key)) => preset_bearing(key).map_err(&err)?,
                 (None, None) => match default_soil {
                     "custom" => match default_sigma {
                         Some(s) => (s, format!("typed {}", report.fmt(s, Q::Pressure))),
@@ -916,7 +916,7 @@ fn solve_row(
                             ))
                         }
                     },
-                    key => preset_bearing(key).map_err(|m| err(m))?,
+                    key => preset_bearing(key).map_err(&err)?,
                 },
             };
             let load = if plane == Plane::Horizontal {

@@ -653,10 +653,10 @@ pub fn spec() -> CalculatorSpec {
         choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included."),
         quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting."),
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
-        FieldSpec { optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
+        FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Empty: no surge estimate.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "ductile_iron", "Sets Young's modulus E and Poisson's ratio ν of the wall.") },
-        FieldSpec { optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e12), "Used when the material is 'typed modulus'.") },
+        FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e12), "Used when the material is 'typed modulus'.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::positive(1.0), "Empty: half the difference of outside and inside diameters.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1.") },
         FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e11), "Empty: 2200 MPa, water near 20 °C.") },
@@ -664,7 +664,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     fields.extend([
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
-        FieldSpec { optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
+        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
         FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
@@ -1299,6 +1299,7 @@ pub(crate) fn diagram(
     let (nx, ny) = (-uy, ux);
     let caption;
     let title;
+    let mut arrow_end = [ux * 3.0 * od.max(0.2), uy * 3.0 * od.max(0.2)];
     match block {
         Block::Bearing { w, h, .. } => {
             // Plan (horizontal): the face width is seen; a sag block is drawn in
@@ -1317,15 +1318,15 @@ pub(crate) fn diagram(
                 style: ShapeStyle::Guide,
             });
             shapes.push(Shape::Text {
-                at: p(far + 0.25 * depth, 0.0),
+                at: p(far + 0.8 * depth, -0.9 * half),
                 text: "undisturbed soil".into(),
                 style: ShapeStyle::Label,
             });
             let label_w = report.fmt(*w, Q::Length);
             let label_h = report.fmt(*h, Q::Length);
             shapes.push(Shape::Text {
-                at: p(far, half + 0.15 * depth),
-                text: format!("bearing face {label_w} wide × {label_h} high"),
+                at: p(0.5 * (near + far), half + 0.2 * depth),
+                text: format!("face {label_w} × {label_h} (w × h)"),
                 style: ShapeStyle::Label,
             });
             // Bearing pressure arrows on the face, pointing back at the block.
@@ -1337,13 +1338,14 @@ pub(crate) fn diagram(
                     style: ShapeStyle::Pressure,
                 });
             }
+            arrow_end = p(near + 0.55 * depth, 0.0);
             title = if plane == Plane::Horizontal {
                 "Bearing block, plan view"
             } else {
                 "Block under a sag bend, elevation"
             }
             .to_string();
-            caption = "Pipe (outside diameter) and the bearing face width to scale; the block's depth behind the face is schematic. T is the thrust on the block; the soil pushes back on the face.".to_string();
+            caption = "Pipe (outside diameter) and the bearing face width to scale; the block's depth behind the face is schematic (a sag block is drawn square to the resultant). T is the thrust on the block; the soil pushes back on the face.".to_string();
         }
         Block::Gravity { volume, side, height } => {
             // Elevation: the block under the crest fitting, hanging from it.
@@ -1380,10 +1382,9 @@ pub(crate) fn diagram(
             caption = "Pipe and block to scale (square plan, side shown); the block is tied to the fitting, and its effective weight holds the upward thrust.".to_string();
         }
     }
-    let len = 1.5 * od.max(0.2);
     shapes.push(Shape::Arrow {
         from: [0.0, 0.0],
-        to: [ux * len * 2.0, uy * len * 2.0],
+        to: arrow_end,
         label: format!("T {}", report.fmt(thrust.norm(), Q::Force)),
         style: ShapeStyle::Thrust,
     });
