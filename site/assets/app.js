@@ -75,6 +75,12 @@ function quote(text) {
   return "“" + cut + "”" + (chars.length > QUOTE_MAX ? ` (${chars.length} characters)` : "");
 }
 
+/** Shortens a message that may repeat user text (at most 300 characters). */
+function clip(text) {
+  const chars = Array.from(String(text));
+  return chars.length > 300 ? chars.slice(0, 300).join("") + "…" : chars.join("");
+}
+
 /** Shows unit ids with superscripts and a centre dot (display only; ids stay ASCII). */
 function prettyUnit(id) {
   if (id === "degC") return "°C";
@@ -546,7 +552,7 @@ function render(result) {
       const box = ui.fieldErrors.get(error.field);
       const wrap = ui.fieldWraps.get(error.field);
       if (box && wrap && !wrap.hidden) {
-        box.textContent = `${error.label || "This field"}: ${error.message}`;
+        box.textContent = `${error.label || "This field"}: ${clip(error.message)}`;
         box.hidden = false;
         ui.controls.get(error.field)?.setAttribute("aria-invalid", "true");
       } else {
@@ -990,7 +996,7 @@ function settleInitialValues(spec, fromUrl) {
       state.values[error.field] = field.demo || "";
       changed = true;
       notice("warn", [
-        `The link gives ${field.label} as ${quote(text)}: ${error.message}. `,
+        `The link gives ${field.label} as ${quote(text)}: ${clip(error.message)}. `,
         field.demo ? `The example value ${field.demo} is used instead.` : "The field was left empty.",
       ]);
     }
