@@ -388,7 +388,12 @@ impl Arm {
     /// The control volume at speed ω with jet speed `jet`.
     fn control_volume(&self, omega: f64, jet: f64) -> ControlVolume {
         let mut cv = ControlVolume::new(self.fluid.clone());
-        let hub = cv.port(Port::inlet("hub", si::area(self.hub_port_area()), Direction::Z).at(Vec3::ZERO));
+        let hub_name = if self.hub_area.is_some() {
+            "hub"
+        } else {
+            "hub (bore not given: notional)"
+        };
+        let hub = cv.port(Port::inlet(hub_name, si::area(self.hub_port_area()), Direction::Z).at(Vec3::ZERO));
         let mut first = None;
         for i in 0..self.nozzles {
             let (at, direction) = self.nozzle(i);
@@ -1114,6 +1119,39 @@ mod tests {
         .expect("solves with a warning");
         assert!(s.output("runaway_speed").is_none());
         assert!(s.warnings.iter().any(|w| w.message.contains("no finite runaway")));
+    }
+
+    #[test]
+    fn held_speed_above_runaway_and_unheld_ideal_arm_are_warned() {
+        let s = crate::solve(KEY, &request(&[("load", "speed"), ("n_held", "60 rpm")]))
+            .result
+            .expect("solves");
+        assert!(s.output("torque").unwrap().si < 0.0);
+        assert!(s.warnings.iter().any(|w| w.field == Some("n_held")));
+        let s = crate::solve(
+            KEY,
+            &request(&[
+                ("drive", "pressure"),
+                ("alpha", "0 deg"),
+                ("cv", "1"),
+                ("load", "constant"),
+                ("t_load", "1 N.m"),
+            ]),
+        )
+        .result
+        .expect("solves with a warning");
+        assert!(s.output("speed").is_none());
+        assert!(s.warnings.iter().any(|w| w.field == Some("t_load")));
+    }
+
+    #[test]
+    fn radial_jets_give_exactly_no_torque() {
+        let s = crate::solve(KEY, &request(&[("alpha", "90 deg"), ("load", "none")]))
+            .result
+            .expect("solves");
+        assert_eq!(s.output("stall_torque").unwrap().si, 0.0);
+        assert_eq!(s.output("speed").unwrap().si, 0.0);
+        assert!(s.warnings.iter().any(|w| w.field == Some("alpha")));
     }
 
     #[test]

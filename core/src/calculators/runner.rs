@@ -637,19 +637,42 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
             label: format!("u{n} {}", fmt(t.u)),
             style: ShapeStyle::Velocity,
         });
+        // V and W unlabelled at their shared tip; their labels sit beside the middle
+        // of each side, away from the triangle, so they do not pile up at the apex.
         shapes.push(Shape::Arrow {
             from: o,
             to: v_tip,
-            label: format!("V{n} {}", fmt(t.v())),
+            label: String::new(),
             style: ShapeStyle::Momentum,
         });
         shapes.push(Shape::Arrow {
             from: u_tip,
             to: v_tip,
-            label: format!("W{n} {}", fmt(t.w())),
+            label: String::new(),
             style: ShapeStyle::Flow,
         });
-        // Swirl and meridional components.
+        let centroid = [(o[0] + u_tip[0] + v_tip[0]) / 3.0, (o[1] + u_tip[1] + v_tip[1]) / 3.0];
+        let beside = |a: [f64; 2], b: [f64; 2]| {
+            let m = [(a[0] + b[0]) / 2.0, (a[1] + b[1]) / 2.0];
+            let (dx, dy) = (m[0] - centroid[0], m[1] - centroid[1]);
+            let len = dx.hypot(dy);
+            if len > 1e-12 * biggest {
+                [m[0] + 0.1 * biggest * dx / len, m[1] + 0.1 * biggest * dy / len]
+            } else {
+                [m[0], m[1] + 0.1 * biggest]
+            }
+        };
+        shapes.push(Shape::Text {
+            at: beside(o, v_tip),
+            text: format!("V{n} {}", fmt(t.v())),
+            style: ShapeStyle::Label,
+        });
+        shapes.push(Shape::Text {
+            at: beside(u_tip, v_tip),
+            text: format!("W{n} {}", fmt(t.w())),
+            style: ShapeStyle::Label,
+        });
+        // Swirl and meridional components, below the blade-speed line.
         shapes.push(Shape::Polyline {
             points: vec![v_tip, [v_tip[0], -gap]],
             style: ShapeStyle::Guide,
@@ -669,13 +692,15 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
             });
         }
         shapes.push(Shape::Text {
-            at: [v_tip[0] + 0.02 * biggest, 0.5 * t.vm],
+            at: [v_tip[0], -2.2 * gap],
             text: format!("Vm{n} {}", fmt(t.vm)),
             style: ShapeStyle::Label,
         });
         let title = if n == "1" { "inlet (1)" } else { "outlet (2)" };
+        let left = x0 + t.vtheta.min(0.0);
+        let right = x0 + t.u.max(t.vtheta).max(0.0);
         shapes.push(Shape::Text {
-            at: [x0, t.vm.max(0.0) + 0.15 * biggest],
+            at: [0.5 * (left + right), t.vm.max(0.0) + 0.25 * biggest],
             text: title.to_string(),
             style: ShapeStyle::Label,
         });
