@@ -456,6 +456,8 @@ fn short(text: &str) -> String {
 struct Solved {
     row: Row,
     area_d: f64,
+    /// Whether the thrust area is on the outside diameter.
+    on_od: bool,
     p: f64,
     basis: String,
     thrust: Vec3,
@@ -618,7 +620,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             "Row".into(),
             "Tag".into(),
             "Kind".into(),
-            format!("thrust diameter ({d_unit})"),
+            format!("thrust diameter ({d_unit}), basis"),
             "Angle (deg)".into(),
             "Pressure basis".into(),
             format!("design pressure ({p_unit})"),
@@ -643,7 +645,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             s.row.tag.clone(),
             kind.to_string(),
             if s.area_d > 0.0 {
-                cell(s.area_d, Q::Length, d_unit)
+                format!(
+                    "{} {}",
+                    cell(s.area_d, Q::Length, d_unit),
+                    if s.on_od { "OD" } else { "ID" }
+                )
             } else {
                 String::new()
             },
@@ -959,6 +965,7 @@ fn solve_row(
     Ok(Solved {
         row: row.clone(),
         area_d,
+        on_od: uses_od,
         p,
         basis,
         thrust,

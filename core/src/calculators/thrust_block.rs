@@ -818,10 +818,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                     Plane::Sag => -PI / 2.0,
                 },
             };
-            // Drawing frame: horizontal plan → along +x; vertical → (cos, sin).
+            // Plan (horizontal): along +x with any vertical part on z; elevation
+            // (vertical planes): x horizontal, y up.
             let v = match plane {
-                Plane::Horizontal if elev == 0.0 => Vec3::new(t, 0.0, 0.0),
-                _ => Vec3::new(t * elev.cos(), t * elev.sin(), 0.0),
+                Plane::Horizontal => Vec3::new(t * elev.cos(), 0.0, t * elev.sin()),
+                Plane::Crest | Plane::Sag => Vec3::new(t * elev.cos(), t * elev.sin(), 0.0),
             };
             if p > 0.0 && values.is_set("p_work") {
                 report.warn(Some("thrust"), "a given thrust is used as typed: the design pressure above does not change it; to recompute the thrust at the design pressure choose the fitting instead");
@@ -1497,6 +1498,32 @@ mod tests {
         let sag = solve(&[("plane", "vertical_sag"), ("angle", "45 deg"), ("p_basis", "operating")]);
         assert!(sag.output("thrust_v").map(|o| o.si).unwrap_or(0.0) < 0.0);
         assert!(sag.output("bearing_area").is_some());
+    }
+
+    #[test]
+    fn a_given_inclined_thrust_bears_with_its_horizontal_part() {
+        // Derived from the definition: T_h = T cos 30°, A_b = SF·T_h/σ.
+        let s = solve(&[
+            ("fitting", "force"),
+            ("thrust", "10 kN"),
+            ("thrust_elev", "30 deg"),
+            ("soil", "custom"),
+            ("sigma", "100 kPa"),
+            ("sf", "1.5"),
+        ]);
+        let get = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
+        assert_relative_eq!(
+            get("thrust_h"),
+            10e3 * (std::f64::consts::PI / 6.0).cos(),
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(get("thrust_v"), 5e3, max_relative = 1e-12);
+        assert_relative_eq!(
+            get("bearing_area"),
+            1.5 * 10e3 * (std::f64::consts::PI / 6.0).cos() / 100e3,
+            max_relative = 1e-12
+        );
+        assert!(s.warnings.iter().any(|w| w.field == Some("plane")));
     }
 
     #[test]
