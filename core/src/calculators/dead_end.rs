@@ -407,6 +407,28 @@ mod tests {
     }
 
     #[test]
+    fn carried_thrust_opens_the_thrust_block_page_with_the_same_force() {
+        let s = outcome(&[]).result.expect("solves");
+        let carry = &s.carry_over[0];
+        let target = crate::calculators::spec(carry.calculator).expect("the target page is registered");
+        let mut request = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&target) {
+            request.inputs.insert(k, v);
+        }
+        for (k, v) in &carry.inputs {
+            request.inputs.insert(k.to_string(), v.clone());
+        }
+        let block = crate::solve(carry.calculator, &request)
+            .result
+            .expect("the thrust-block page accepts the carried inputs");
+        assert_relative_eq!(
+            block.output("thrust").unwrap().si,
+            s.output("thrust").unwrap().si,
+            max_relative = 1e-4
+        );
+    }
+
+    #[test]
     fn bad_inputs_name_their_field() {
         assert_eq!(error_field(&[("p", "-1 bar")]), "p");
         assert_eq!(error_field(&[("d", "0 mm")]), "d");

@@ -584,7 +584,7 @@ mod tests {
     }
 
     #[test]
-    fn crane_k_matches_the_formulas_at_both_sides_of_45_degrees() {
+    fn crane_k_matches_the_formulas_below_45_degrees_and_for_a_sudden_step() {
         use std::f64::consts::PI;
         let k = super::crane_k_small(0.3, 0.2, 30f64.to_radians());
         assert_relative_eq!(
@@ -594,6 +594,30 @@ mod tests {
         );
         let k = super::crane_k_small(0.2, 0.3, PI);
         assert_relative_eq!(k, (1.0f64 - 4.0 / 9.0).powi(2), max_relative = 1e-12);
+    }
+
+    #[test]
+    fn vertical_thrust_is_carried_with_its_direction() {
+        for (orientation, plane) in [("vertical_up", "vertical_crest"), ("vertical_down", "vertical_sag")] {
+            let s = solved(&[("orientation", orientation)]);
+            let carry = &s.carry_over[0];
+            let field = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+            assert_eq!(field("plane").as_deref(), Some(plane));
+            let target = crate::calculators::spec(carry.calculator).expect("registered");
+            let mut request = Request::default();
+            for (k, v) in crate::catalog::demo_inputs(&target) {
+                request.inputs.insert(k, v);
+            }
+            for (k, v) in &carry.inputs {
+                request.inputs.insert(k.to_string(), v.clone());
+            }
+            let block = crate::solve(carry.calculator, &request).result.expect("accepted");
+            assert_relative_eq!(
+                block.output("thrust").unwrap().si,
+                s.output("thrust").unwrap().si,
+                max_relative = 1e-4
+            );
+        }
     }
 
     #[test]
