@@ -166,7 +166,6 @@ pub fn spec() -> CalculatorSpec {
         ),
         FieldSpec {
             visible_when: Some(("drive", &["flow"])),
-            optional: true,
             ..quantity(
                 "q",
                 "Total flow through the arm",
@@ -180,7 +179,6 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             visible_when: Some(("drive", &["pressure"])),
-            optional: true,
             ..quantity(
                 "p",
                 "Supply gauge pressure at the hub",
@@ -214,7 +212,6 @@ pub fn spec() -> CalculatorSpec {
         ),
         FieldSpec {
             visible_when: Some(("load", &["constant", "linear", "quadratic"])),
-            optional: true,
             ..quantity(
                 "t_load",
                 "Load torque",
@@ -228,7 +225,6 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             visible_when: Some(("load", &["linear", "quadratic"])),
-            optional: true,
             ..quantity(
                 "n_load",
                 "Speed at which that torque applies",
@@ -242,7 +238,6 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             visible_when: Some(("load", &["speed"])),
-            optional: true,
             ..quantity(
                 "n_held",
                 "Held speed",

@@ -120,37 +120,30 @@ pub fn spec() -> CalculatorSpec {
         ),
         FieldSpec {
             visible_when: radial,
-            optional: true,
             ..quantity("r1", "Radius at the blade inlet r₁", Q::Length, "mm", "in", "65 mm", Limits::positive(MAX_SIZE_M), "Where the water enters the blades: the eye of a pump, the outer rim of a radial turbine.")
         },
         FieldSpec {
             visible_when: radial,
-            optional: true,
             ..quantity("r2", "Radius at the blade outlet r₂", Q::Length, "mm", "in", "160 mm", Limits::positive(MAX_SIZE_M), "Where the water leaves the blades.")
         },
         FieldSpec {
             visible_when: radial,
-            optional: true,
             ..quantity("b1", "Blade height at the inlet b₁", Q::Length, "mm", "in", "40 mm", Limits::positive(MAX_SIZE_M), "Width of the passage across the flow at r₁ (flow area 2π·r₁·b₁).")
         },
         FieldSpec {
             visible_when: radial,
-            optional: true,
             ..quantity("b2", "Blade height at the outlet b₂", Q::Length, "mm", "in", "22 mm", Limits::positive(MAX_SIZE_M), "Width of the passage at r₂ (flow area 2π·r₂·b₂).")
         },
         FieldSpec {
             visible_when: axial,
-            optional: true,
             ..quantity("r_mean", "Mean radius", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Radius at which the triangles are drawn, usually the mean of hub and tip radii.")
         },
         FieldSpec {
             visible_when: axial,
-            optional: true,
             ..quantity("a1", "Annulus area at the inlet", Q::Area, "m2", "ft2", "", Limits::positive(100.0), "Flow area between hub and tip where the water enters the blades.")
         },
         FieldSpec {
             visible_when: axial,
-            optional: true,
             ..quantity("a2", "Annulus area at the outlet", Q::Area, "m2", "ft2", "", Limits::positive(100.0), "Flow area where the water leaves the blades.")
         },
         FieldSpec {
