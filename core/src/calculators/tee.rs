@@ -120,7 +120,7 @@ struct BranchKeys {
 
 const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     BranchKeys {
-        visible: &N_AT_LEAST[0],
+        visible: N_AT_LEAST[0],
         d: "d1",
         d_label: "Branch 1 inside diameter",
         d_demo: "310 mm",
@@ -143,7 +143,7 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         v_label: "Mean velocity in branch 1",
     },
     BranchKeys {
-        visible: &N_AT_LEAST[1],
+        visible: N_AT_LEAST[1],
         d: "d2",
         d_label: "Branch 2 inside diameter",
         d_demo: "154 mm",
@@ -166,7 +166,7 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         v_label: "Mean velocity in branch 2",
     },
     BranchKeys {
-        visible: &N_AT_LEAST[2],
+        visible: N_AT_LEAST[2],
         d: "d3",
         d_label: "Branch 3 inside diameter",
         d_demo: "100 mm",
@@ -189,7 +189,7 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         v_label: "Mean velocity in branch 3",
     },
     BranchKeys {
-        visible: &N_AT_LEAST[3],
+        visible: N_AT_LEAST[3],
         d: "d4",
         d_label: "Branch 4 inside diameter",
         d_demo: "100 mm",
@@ -212,7 +212,7 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         v_label: "Mean velocity in branch 4",
     },
     BranchKeys {
-        visible: &N_AT_LEAST[4],
+        visible: N_AT_LEAST[4],
         d: "d5",
         d_label: "Branch 5 inside diameter",
         d_demo: "100 mm",
@@ -235,7 +235,7 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         v_label: "Mean velocity in branch 5",
     },
     BranchKeys {
-        visible: &N_AT_LEAST[5],
+        visible: N_AT_LEAST[5],
         d: "d6",
         d_label: "Branch 6 inside diameter",
         d_demo: "100 mm",
