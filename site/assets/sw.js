@@ -75,7 +75,14 @@ self.addEventListener("fetch", (event) => {
     (async () => {
       const cached = await fromCache(request);
       if (cached) return cached;
-      const response = await fetch(request);
+      let response;
+      try {
+        response = await fetch(request);
+      } catch (error) {
+        // Offline and not stored: a plain network error for the page to handle,
+        // not an uncaught rejection in the worker.
+        return Response.error();
+      }
       // Keep a copy of plain same-origin files not in the precache list (not pages
       // with a query string: the page itself is already stored once).
       if (response.ok && response.type === "basic" && url.search === "") {

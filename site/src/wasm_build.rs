@@ -139,9 +139,17 @@ pub fn bindgen(wasm_path: &Path, use_wasm_opt: bool, log: bool) -> Result<WasmOu
         .input_path(wasm_path)
         .web(true)
         .map_err(bindgen_error)?
-        .typescript(false);
+        .typescript(false)
+        // The library API omits the glue's default wasm URL unless asked; the page
+        // script calls `init()` without arguments and the build renames that URL.
+        .omit_default_module_path(false)
+        // Function names (~90 KB here) and the producers note are not needed in
+        // the browser; the target-features section stays for wasm-opt.
+        .remove_name_section(true)
+        .remove_producers_section(true);
     let mut output = bindgen.generate_output().map_err(bindgen_error)?;
-    if !output.snippets().is_empty() || !output.local_modules().is_empty() {
+    // The snippet map has an (empty) entry per crate that links wasm-bindgen.
+    if output.snippets().values().any(|s| !s.is_empty()) || !output.local_modules().is_empty() {
         return Err(SiteErrorKind::Bindgen {
             detail: "the adapter uses JavaScript snippets or local modules, which the site build does not copy".into(),
         }
