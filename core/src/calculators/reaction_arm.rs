@@ -832,11 +832,12 @@ fn diagram(arm: &Arm, state: &State, report: &Report<'_>) -> Diagram {
     ) {
         shapes.push(a);
     }
-    // Sense of rotation: an arc at 0.45 R ending in an arrow head.
+    // Sense of rotation: an arc at 0.45 R in the lower left (clear of the velocity
+    // arrows at the first nozzle), ending in an arrow head.
     let arc_r = 0.45 * r;
     let arc: Vec<[f64; 2]> = (0..=16)
         .map(|s| {
-            let a = PI / 12.0 + (PI / 3.0) * s as f64 / 16.0;
+            let a = 1.08 * PI + (0.3 * PI) * s as f64 / 16.0;
             [arc_r * a.cos(), arc_r * a.sin()]
         })
         .collect();
@@ -849,12 +850,18 @@ fn diagram(arm: &Arm, state: &State, report: &Report<'_>) -> Diagram {
     shapes.push(Shape::Arrow {
         from: before,
         to: end,
-        label: format!(
-            "ω {}  T {}",
+        label: "ω".to_string(),
+        style: ShapeStyle::Guide,
+    });
+    // Speed and torque below the drawing, clear of arms and jets for any N.
+    shapes.push(Shape::Text {
+        at: [0.0, -1.3 * r],
+        text: format!(
+            "ω {} counter-clockwise, T {}",
             report.fmt(state.omega, Q::AngularSpeed),
             report.fmt(state.torque, Q::Torque)
         ),
-        style: ShapeStyle::Restraint,
+        style: ShapeStyle::Label,
     });
     shapes.push(Shape::Text {
         at: [0.5 * r, -0.12 * r],
@@ -866,7 +873,7 @@ fn diagram(arm: &Arm, state: &State, report: &Report<'_>) -> Diagram {
         title: "Reaction arm, plan view: rotating control volume and jet velocities".to_string(),
         bounds,
         shapes,
-        caption: "Arm radius to scale (arm width and nozzles drawn wider than life); the arm turns counter-clockwise, its jets point back against the rotation. Velocity arrows at the nozzles share one velocity scale: W relative to the nozzle, u = ωR the nozzle's own speed, V = W + u the absolute jet velocity whose tangential part sets the torque.".to_string(),
+        caption: "Arm radius to scale (arm width and nozzles drawn wider than life); the arm turns counter-clockwise, its jets point back against the rotation. Velocity arrows at the nozzles share one velocity scale: W relative to the nozzle, u = ωR the nozzle's own speed, V = W + u the absolute jet velocity (drawn in the momentum-flux colour: the flux is ṁV) whose tangential part sets the torque.".to_string(),
     }
 }
 

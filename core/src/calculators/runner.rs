@@ -704,7 +704,7 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         bounds,
         shapes,
         caption: format!(
-            "Drawn in velocity space, not runner geometry: both triangles to one velocity scale, x along the blade motion u, y the meridional (through-flow) component V_m. V = u + W; the swirl V_θ is the projection of V on u. Largest velocity shown: {}.",
+            "Drawn in velocity space, not runner geometry: both triangles to one velocity scale, x along the blade motion u, y the meridional (through-flow) component V_m. V = u + W, with V the absolute velocity (momentum-flux colour: the flux is ṁV) and W the velocity relative to the blades (flow colour); the swirl V_θ is the projection of V on u. Largest velocity shown: {}.",
             fmt(biggest)
         ),
     }
