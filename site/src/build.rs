@@ -44,8 +44,12 @@ pub const ICON_SIZES: [u32; 2] = [192, 512];
 /// How to build.
 #[derive(Clone, Debug)]
 pub struct BuildOptions {
-    /// The workspace root (holds `Cargo.toml`, `site/assets`, `site/notes`).
+    /// The workspace root (holds `Cargo.toml`; the wasm crate is built from here).
     pub root: PathBuf,
+    /// The site sources: `assets/` (page script, stylesheet, service worker, any
+    /// extra files) and `notes/` (one method note per calculator). `None` means
+    /// `<root>/site`.
+    pub site_dir: Option<PathBuf>,
     /// Cargo's target folder for the wasm build; `None` means `$CARGO_TARGET_DIR`
     /// or `<root>/target`, so the nested build reuses the workspace's artifacts.
     pub target_dir: Option<PathBuf>,
@@ -60,6 +64,7 @@ impl Default for BuildOptions {
     fn default() -> BuildOptions {
         BuildOptions {
             root: workspace_root(),
+            site_dir: None,
             target_dir: None,
             wasm_opt: true,
             log: false,
@@ -68,6 +73,9 @@ impl Default for BuildOptions {
 }
 
 impl BuildOptions {
+    pub fn site_dir(&self) -> PathBuf {
+        self.site_dir.clone().unwrap_or_else(|| self.root.join("site"))
+    }
     pub fn target_dir(&self) -> PathBuf {
         self.target_dir
             .clone()
@@ -228,22 +236,22 @@ struct Sources {
     notes: BTreeMap<&'static str, String>,
 }
 
-fn assets_dir(root: &Path) -> PathBuf {
-    root.join("site").join("assets")
+fn assets_dir(site: &Path) -> PathBuf {
+    site.join("assets")
 }
 
-fn notes_dir(root: &Path) -> PathBuf {
-    root.join("site").join("notes")
+fn notes_dir(site: &Path) -> PathBuf {
+    site.join("notes")
 }
 
 /// Reads every source before anything slow happens, reporting all missing files
 /// at once.
-fn read_sources(root: &Path, specs: &[CalculatorSpec]) -> Result<Sources, SiteError> {
-    let assets = assets_dir(root);
+fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<Sources, SiteError> {
+    let assets = assets_dir(site);
     let required_assets = ["app.js", "style.css", "sw.js"].map(|name| assets.join(name));
     let note_paths: Vec<(&'static str, PathBuf)> = specs
         .iter()
-        .map(|s| (s.key, notes_dir(root).join(format!("{}.md", s.key))))
+        .map(|s| (s.key, notes_dir(site).join(format!("{}.md", s.key))))
         .collect();
     let missing: Vec<PathBuf> = required_assets
         .iter()
@@ -315,8 +323,9 @@ fn fill_literal(text: &str, token: &str, literal: &str, path: &Path) -> Result<S
 fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteError> {
     let root = &opts.root;
     let specs = calculators::catalog();
-    let sources = read_sources(root, &specs)?;
-    let assets = assets_dir(root);
+    let site = opts.site_dir();
+    let sources = read_sources(&site, root, &specs)?;
+    let assets = assets_dir(&site);
 
     wasm_build::ensure_wasm_target(opts.log)?;
     let wasm_path = wasm_build::cargo_build_wasm(root, &opts.target_dir(), opts.log)?;

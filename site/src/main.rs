@@ -31,6 +31,8 @@ commands:
   build [--out DIR]                                 build the site (default DIR: target/site)
   serve [--addr IP] [--port N] [--out DIR]          build, then serve DIR on loopback
                                                     (default 127.0.0.1, port 8080)
+        --site-dir DIR  (build, serve)              site sources: DIR/assets and DIR/notes
+                                                    (default: site/ of the workspace)
   test                                              install what the tests need, then
                                                     run `cargo test --workspace`
   help                                              show this text
@@ -44,6 +46,7 @@ struct Args {
     out: PathBuf,
     addr: IpAddr,
     port: u16,
+    site_dir: Option<PathBuf>,
 }
 
 fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Args, String> {
@@ -53,6 +56,7 @@ fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Arg
         out: root.join("target").join("site"),
         addr: IpAddr::from([127, 0, 0, 1]),
         port: 8080,
+        site_dir: None,
     };
     while let Some(flag) = args.next() {
         let (name, inline) = match flag.split_once('=') {
@@ -67,6 +71,7 @@ fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Arg
         };
         match (parsed.command.as_str(), name.as_str()) {
             ("build" | "serve", "--out") => parsed.out = PathBuf::from(value()?),
+            ("build" | "serve", "--site-dir") => parsed.site_dir = Some(PathBuf::from(value()?)),
             ("serve", "--addr") => {
                 let text = value()?;
                 parsed.addr = text
@@ -86,7 +91,7 @@ fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Arg
 }
 
 fn main() -> ExitCode {
-    let options = BuildOptions {
+    let mut options = BuildOptions {
         log: true,
         ..BuildOptions::default()
     };
@@ -97,6 +102,7 @@ fn main() -> ExitCode {
             return ExitCode::from(2);
         }
     };
+    options.site_dir = args.site_dir.clone();
     let result = match args.command.as_str() {
         "build" => build(&args.out, &options).map(|_| ExitCode::SUCCESS),
         "serve" => build(&args.out, &options).and_then(|_| {

@@ -486,6 +486,132 @@ mod tests {
     use super::*;
     use std::io::Cursor;
 
+    /// Sends one request on `stream` and reads one response: (status, headers, body).
+    fn exchange(stream: &mut TcpStream, request: &str) -> io::Result<(u16, String, Vec<u8>)> {
+        stream.write_all(request.as_bytes())?;
+        let mut reader = BufReader::new(stream.try_clone()?);
+        let mut head = String::new();
+        loop {
+            let mut line = String::new();
+            if reader.read_line(&mut line)? == 0 {
+                return Err(io::Error::new(io::ErrorKind::UnexpectedEof, "connection closed"));
+            }
+            if line == "\r\n" {
+                break;
+            }
+            head.push_str(&line);
+        }
+        let status = head.get(9..12).and_then(|s| s.parse().ok()).unwrap_or(0);
+        let length: usize = head
+            .lines()
+            .find_map(|l| l.strip_prefix("Content-Length: "))
+            .and_then(|v| v.trim().parse().ok())
+            .unwrap_or(0);
+        let mut body = vec![0; if request.starts_with("HEAD") { 0 } else { length }];
+        reader.read_exact(&mut body)?;
+        Ok((status, head, body))
+    }
+
+    fn temp_site(name: &str) -> PathBuf {
+        let dir = std::env::temp_dir().join(format!("fluxledger-serve-{name}-{}", std::process::id()));
+        let _ = fs::remove_dir_all(&dir);
+        fs::create_dir_all(&dir).expect("temp dir");
+        for (file, body) in [
+            ("index.html", "<p>contents</p>"),
+            ("sw.js", "// worker"),
+            ("fluxledger_wasm.1a2b3c4d.wasm", "\0asm"),
+            ("manifest.webmanifest", "{}"),
+            (".fluxledger-site", "marker"),
+        ] {
+            fs::write(dir.join(file), body).expect("write");
+        }
+        dir
+    }
+
+    #[test]
+    fn serves_files_with_types_and_cache_headers_over_keep_alive() {
+        let dir = temp_site("types");
+        let mut server = serve(&dir, "127.0.0.1:0".parse().expect("addr")).expect("serve");
+        assert_ne!(server.port(), 0);
+        let mut conn = TcpStream::connect(server.addr()).expect("connect");
+        let get = |path: &str| format!("GET {path} HTTP/1.1\r\nHost: x\r\n\r\n");
+
+        let (status, head, body) = exchange(&mut conn, &get("/?p=150psi")).expect("index");
+        assert_eq!((status, body), (200, b"<p>contents</p>".to_vec()));
+        assert!(head.contains("Content-Type: text/html; charset=utf-8"), "{head}");
+        assert!(head.contains("Cache-Control: no-cache"), "{head}");
+        assert!(head.contains("Connection: keep-alive"), "{head}");
+
+        let (status, head, _) = exchange(&mut conn, &get("/fluxledger_wasm.1a2b3c4d.wasm")).expect("wasm");
+        assert_eq!(status, 200);
+        assert!(head.contains("Content-Type: application/wasm"), "{head}");
+        assert!(head.contains("immutable"), "{head}");
+
+        let (status, head, _) = exchange(&mut conn, &get("/sw.js")).expect("sw");
+        assert_eq!(status, 200);
+        assert!(
+            head.contains("Content-Type: text/javascript") && head.contains("Cache-Control: no-cache"),
+            "{head}"
+        );
+
+        let (status, head, _) = exchange(&mut conn, &get("/manifest.webmanifest")).expect("manifest");
+        assert!(status == 200 && head.contains("application/manifest+json"), "{head}");
+
+        assert_eq!(exchange(&mut conn, &get("/missing.html")).map(|r| r.0).ok(), Some(404));
+        assert_eq!(
+            exchange(&mut conn, &get("/.fluxledger-site")).map(|r| r.0).ok(),
+            Some(404)
+        );
+        assert_eq!(exchange(&mut conn, &get("/../secret")).map(|r| r.0).ok(), Some(400));
+
+        let mut conn = TcpStream::connect(server.addr()).expect("connect");
+        let head_only = exchange(&mut conn, "HEAD /index.html HTTP/1.1\r\nHost: x\r\n\r\n").expect("head");
+        assert_eq!((head_only.0, head_only.2.len()), (200, 0));
+        assert!(head_only.1.contains("Content-Length: 15"), "{}", head_only.1);
+        let post = exchange(&mut conn, "POST /index.html HTTP/1.1\r\nHost: x\r\n\r\n").expect("post");
+        assert_eq!(post.0, 405);
+        server.stop();
+        let _ = fs::remove_dir_all(&dir);
+    }
+
+    #[test]
+    fn stop_closes_accepted_keep_alive_connections_and_refuses_new_ones() {
+        let dir = temp_site("stop");
+        let mut server = serve(&dir, "127.0.0.1:0".parse().expect("addr")).expect("serve");
+        let addr = server.addr();
+        let mut idle = TcpStream::connect(addr).expect("connect");
+        idle.set_read_timeout(Some(Duration::from_secs(5))).expect("timeout");
+        let request = "GET /index.html HTTP/1.1\r\nHost: x\r\n\r\n";
+        assert_eq!(exchange(&mut idle, request).map(|r| r.0).ok(), Some(200));
+
+        server.stop();
+        // The old keep-alive connection gets no answer (closed or reset), and no
+        // new connection is accepted.
+        assert!(
+            exchange(&mut idle, request).is_err(),
+            "a stopped server must not answer on an old connection"
+        );
+        assert!(
+            TcpStream::connect_timeout(&addr, Duration::from_millis(500)).is_err(),
+            "listener closed"
+        );
+        server.stop(); // idempotent
+        let _ = fs::remove_dir_all(&dir);
+    }
+
+    #[test]
+    fn non_loopback_addresses_are_refused() {
+        let dir = temp_site("loopback");
+        let refused = serve(&dir, "0.0.0.0:0".parse().expect("addr"));
+        assert!(matches!(
+            refused,
+            Err(SiteError {
+                kind: SiteErrorKind::NotLoopback { .. }
+            })
+        ));
+        let _ = fs::remove_dir_all(&dir);
+    }
+
     #[test]
     fn targets_map_to_files_and_tricks_are_refused() {
         let ok = |t: &str| resolve_target(t).map(|s| s.join("/"));
