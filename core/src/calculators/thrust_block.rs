@@ -1223,7 +1223,6 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
             "Soil".into(),
             format!("allowable bearing ({p_unit})"),
             format!("bearing area ({a_unit})"),
-            "Convention".into(),
         ],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
@@ -1242,10 +1241,24 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
             s.soil.into(),
             fmt(s.bearing, Q::Pressure, p_unit),
             area,
-            s.table.convention().into(),
         ]);
     }
     report.solution.tables.push(table);
+    let mut sources = Table {
+        key: "soil_sources",
+        title: "The soil tables: sources and safety-factor conventions".to_string(),
+        columns: vec!["Table".into(), "Source".into(), "Convention".into()],
+        rows: Vec::new(),
+        emphasised_rows: Vec::new(),
+    };
+    for t in [SoilTable::SafeBearing, SoilTable::Nfpa24, SoilTable::Bs8004] {
+        sources.rows.push(vec![
+            t.short().into(),
+            t.citation().replace('*', ""),
+            t.convention().into(),
+        ]);
+    }
+    report.solution.tables.push(sources);
 }
 
 #[allow(clippy::too_many_arguments)]
