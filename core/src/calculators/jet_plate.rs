@@ -385,9 +385,9 @@ fn diagram(g: &Geometry, jet: &Jet, balance: &Balance, q_forward: f64, report: &
     } else {
         0.0
     };
-    let origin = p(back);
+    // F from the plate's back face, away from the jet; R beside it, pushing back.
     if let Some(a) = common::force_arrow(
-        origin,
+        p(back + t * (0.8 * d)),
         thrust,
         scale,
         format!("F on plate {}", report.fmt(thrust.norm(), Q::Force)),
@@ -397,9 +397,9 @@ fn diagram(g: &Geometry, jet: &Jet, balance: &Balance, q_forward: f64, report: &
         shapes.push(a);
     }
     if let Some(a) = common::force_arrow(
-        p(back * 3.0),
+        p(back - t * (0.8 * d)),
         balance.support_force,
-        scale * 0.5,
+        scale,
         "support R = −F".to_string(),
         ShapeStyle::Restraint,
         false,
@@ -407,7 +407,7 @@ fn diagram(g: &Geometry, jet: &Jet, balance: &Balance, q_forward: f64, report: &
         shapes.push(a);
     }
     shapes.push(Shape::Text {
-        at: p(t * reach - n * d),
+        at: p(-t * reach - n * (0.8 * d)),
         text: format!("plate, θ = {}", report.fmt(g.theta, Q::Angle)),
         style: ShapeStyle::Label,
     });

@@ -788,11 +788,11 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
     });
     // Velocities: the jet, the blade, and the exit triangle V₂ = W₂ + u.
     let v = jet.velocity;
-    let scale = if v > 0.0 { 2.5 * d / v } else { 0.0 };
+    let scale = if v > 0.0 { 4.0 * d / v } else { 0.0 };
     let fmt_v = |x: f64| report.fmt(x, Q::Velocity);
     shapes.push(Shape::Arrow {
-        from: [-lead + 0.5 * d, -1.4 * d],
-        to: [-lead + 0.5 * d + v * scale, -1.4 * d],
+        from: [-lead + 0.2 * d, 1.5 * d],
+        to: [-lead + 0.2 * d + v * scale, 1.5 * d],
         label: format!("V = {}", fmt_v(v)),
         style: ShapeStyle::Velocity,
     });
@@ -810,14 +810,14 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
                 from: exit.xy(),
                 to: tip_w.xy(),
                 label: format!("W₂ = {}", fmt_v(state.w_out.norm())),
-                style: ShapeStyle::Guide,
+                style: ShapeStyle::Flow,
             });
         }
         shapes.push(Shape::Arrow {
             from: tip_w.xy(),
             to: (tip_w + Vec3::new(state.u * scale, 0.0, 0.0)).xy(),
             label: "u".to_string(),
-            style: ShapeStyle::Guide,
+            style: ShapeStyle::Flow,
         });
         if state.v_out.norm() * scale > 1e-9 {
             shapes.push(Shape::Arrow {
@@ -865,7 +865,7 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
         style: ShapeStyle::Label,
     });
     shapes.push(Shape::Text {
-        at: [radius + 0.5 * d, radius],
+        at: [-lead - 1.2 * d, 3.0 * d],
         text: format!("{name}, θ = {}", report.fmt(vane.theta, Q::Angle)),
         style: ShapeStyle::Label,
     });
