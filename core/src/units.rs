@@ -522,7 +522,8 @@ pub fn display_unit(si: f64, kind: QuantityKind, system: UnitSystem) -> &'static
     let mut chosen = ids[ids.len() - 1];
     for id in ids {
         if let Some(def) = find_unit(id) {
-            if ((si - def.offset) / def.factor).abs() >= 1.0 {
+            // Compare after rounding to four figures, so 999 999.99 Pa shows as 1.000 MPa.
+            if ((si - def.offset) / def.factor).abs() >= 0.999_95 {
                 chosen = id;
                 break;
             }
@@ -571,7 +572,12 @@ pub fn format_significant(value: f64, sig: i32) -> String {
     if value == 0.0 {
         return "0".to_string();
     }
-    let magnitude = value.abs().log10().floor() as i32;
+    let mut magnitude = value.abs().log10().floor() as i32;
+    // 0.99999 rounds to 1.000, not 1.0000: take the magnitude after rounding.
+    let rounded_to_sig = (value / 10f64.powi(magnitude + 1 - sig)).round() * 10f64.powi(magnitude + 1 - sig);
+    if rounded_to_sig != 0.0 && rounded_to_sig.is_finite() {
+        magnitude = rounded_to_sig.abs().log10().floor() as i32;
+    }
     if !(-5..=11).contains(&magnitude) {
         return format!("{:.*e}", (sig - 1).max(0) as usize, value);
     }
@@ -711,6 +717,9 @@ mod tests {
         assert_eq!(format_significant(1.23456, 4), "1.235");
         assert_eq!(format_significant(0.0123456, 4), "0.01235");
         assert_eq!(format_significant(-0.0, 4), "0");
+        assert_eq!(format_significant(0.999_999_9, 4), "1.000");
+        assert_eq!(format_significant(9999.7, 4), "10000");
+        assert_eq!(format_quantity(999_999.999, Q::Pressure, UnitSystem::Si), "1.000 MPa");
         assert_eq!(format_quantity(12_345.0, Q::Force, UnitSystem::Si), "12.35 kN");
         assert_eq!(
             format_quantity(293.15, Q::Temperature, UnitSystem::UsCustomary),

@@ -85,8 +85,7 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
         ),
         FieldSpec {
             visible_when: Some(("fluid", &["water"])),
-            // Hidden for another liquid, so not required there; `fluid_from` asks for it for water.
-            optional: true,
+            // Required while shown; a hidden field is neither required nor checked.
             ..quantity(
                 "t",
                 "Water temperature",
@@ -100,7 +99,6 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
         },
         FieldSpec {
             visible_when: Some(("fluid", &["custom"])),
-            optional: true,
             ..quantity(
                 "rho",
                 "Density",
@@ -114,7 +112,6 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
         },
         FieldSpec {
             visible_when: Some(("fluid", &["custom"])),
-            optional: true,
             ..quantity(
                 "mu",
                 "Dynamic viscosity",
@@ -197,7 +194,6 @@ pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
         ),
         FieldSpec {
             visible_when: Some(("flow_basis", &["q"])),
-            optional: true,
             ..quantity(
                 "q",
                 "Volumetric flow",
@@ -211,7 +207,6 @@ pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
         },
         FieldSpec {
             visible_when: Some(("flow_basis", &["v"])),
-            optional: true,
             ..quantity(
                 "v",
                 "Mean velocity at the inlet",
@@ -225,7 +220,6 @@ pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
         },
         FieldSpec {
             visible_when: Some(("flow_basis", &["mdot"])),
-            optional: true,
             ..quantity(
                 "mdot",
                 "Mass flow",
@@ -564,6 +558,27 @@ pub fn basis_table(rows: Vec<(&str, String)>) -> Table {
     }
 }
 
+/// The thrust-area basis of a fitting page: the bore, or the outside diameter of
+/// push-on and mechanical joints (whose spigot can slide in its gasket like a piston).
+pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "id",
+        label: "Inside diameter (welded, flanged or restrained joints)",
+    },
+    ChoiceOption {
+        key: "od",
+        label: "Outside diameter (push-on and mechanical joints)",
+    },
+];
+
+/// The extra force of a push-on or mechanical joint at one port: its pressure also
+/// acts on the annulus between the bore and the outside diameter, −p·(A_OD − A)·n,
+/// with n the port's outward normal. Added to the engine as a named extra force so
+/// the ledger shows it as its own term.
+pub fn joint_annulus_force(pressure: f64, bore_area: f64, outside_area: f64, outward_normal: Vec3) -> Vec3 {
+    outward_normal * (-pressure * (outside_area - bore_area))
+}
+
 // --- Free jets from a nozzle (jet on a plate, jet on a vane, ...) -------------------
 
 pub const JET_BASIS_OPTIONS: &[ChoiceOption] = &[
@@ -619,22 +634,18 @@ pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
         ),
         FieldSpec {
             visible_when: Some(("jet_basis", &["v"])),
-            optional: true,
             ..quantity("v_jet", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::positive(300.0), "Mean speed of the jet at the nozzle outlet.")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["q"])),
-            optional: true,
             ..quantity("q_jet", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::positive(100.0), "Volumetric flow through the nozzle; the jet speed is the flow over the jet area.")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["head"])),
-            optional: true,
             ..quantity("h_supply", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::positive(3000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["p"])),
-            optional: true,
             ..quantity("p_supply", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::positive(MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
         },
         FieldSpec {
