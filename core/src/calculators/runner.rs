@@ -617,7 +617,7 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         .into_iter()
         .fold(0.0, f64::max)
         .max(1e-9);
-    let gap = 0.12 * biggest;
+    let gap = 0.14 * biggest;
     // The outlet triangle starts 0.4 × the largest velocity right of the inlet one.
     let x2 = t1.u.max(t1.vtheta).max(0.0) + 0.4 * biggest - t2.vtheta.min(0.0);
     for (t, x0, n) in [(t1, 0.0, "1"), (t2, x2, "2")] {
@@ -627,8 +627,13 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         shapes.push(Shape::Arrow {
             from: o,
             to: u_tip,
-            label: format!("u{n} {}", fmt(t.u)),
+            label: String::new(),
             style: ShapeStyle::Velocity,
+        });
+        shapes.push(Shape::Text {
+            at: [x0 + 0.5 * t.u, -0.05 * biggest],
+            text: format!("u{n} {}", fmt(t.u)),
+            style: ShapeStyle::Label,
         });
         // V and W unlabelled at their shared tip; their labels sit beside the middle
         // of each side, away from the triangle, so they do not pile up at the apex.
