@@ -304,12 +304,15 @@ pub struct FunctionError {
     pub message: String,
 }
 
+/// What a function gives: (output key, SI value) pairs, or the field that is wrong.
+pub type FunctionResult = Result<Vec<(&'static str, f64)>, FunctionError>;
+
 /// A core function a case can call without a calculator: its typed inputs and outputs.
 pub struct FunctionSpec {
     pub name: &'static str,
     pub inputs: &'static [(&'static str, QuantityKind)],
     pub outputs: &'static [(&'static str, QuantityKind)],
-    pub eval: fn(&FunctionInputs) -> Result<Vec<(&'static str, f64)>, FunctionError>,
+    pub eval: fn(&FunctionInputs) -> FunctionResult,
 }
 
 const PROFILE_OUTPUTS: &[(&str, QuantityKind)] = &[

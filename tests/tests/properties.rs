@@ -211,8 +211,8 @@ fn all_ledger_numbers_finite(b: &Balance) -> bool {
         && v(b.fluid_weight)
         && v(b.support_force)
         && v(b.support_moment)
-        && b.shaft_torque.map_or(true, f64::is_finite)
-        && b.shaft_power.map_or(true, f64::is_finite)
+        && b.shaft_torque.iter().all(|x| x.is_finite())
+        && b.shaft_power.iter().all(|x| x.is_finite())
         && b.mass_residual.is_finite()
         && b.momentum_residual.is_finite()
 }
