@@ -597,8 +597,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         }
     }
     report.output("max_thrust", max);
-    report.output("total_area", total_area);
-    report.output("total_volume", total_volume);
+    // Each total only when the schedule has blocks of that kind.
+    if solved.iter().any(|s| matches!(s.block, Block::Bearing { .. })) {
+        report.output("total_area", total_area);
+    }
+    if solved.iter().any(|s| matches!(s.block, Block::Gravity { .. })) {
+        report.output("total_volume", total_volume);
+    }
     report.output("row_count", solved.len() as f64);
     report.output("total_thrust", total);
 
