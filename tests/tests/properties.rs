@@ -224,7 +224,7 @@ proptest! {
     /// finite ledger or a typed error; nothing panics.
     #[test]
     fn engine_never_panics_and_refuses_non_finite_input(
-        nums in prop::collection::vec(any_number(), 16), rotating in any::<bool>(), unknown_pressure in any::<bool>(),
+        nums in prop::collection::vec(any_number(), 17), rotating in any::<bool>(), unknown_pressure in any::<bool>(),
     ) {
         let n = |i: usize| nums[i];
         let mut cv = ControlVolume::new(liquid(if n(0).is_finite() { n(0).abs() + 1.0 } else { n(0) }));
@@ -239,7 +239,7 @@ proptest! {
         if unknown_pressure {
             cv.stream(Stream::new(i, o).loss(Loss::Head(n(9))));
         }
-        cv.gravity(Vec3::new(0.0, n(10), -9.80665));
+        cv.gravity(Vec3::new(0.0, n(10), n(16)));
         cv.contains(si::volume(n(11)), Vec3::new(n(12), 0.0, 0.0));
         cv.storage(n(13), Vec3::new(n(14), 0.0, 0.0));
         if rotating {
