@@ -55,18 +55,6 @@ const CLOSURE_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
-/// Area basis options, shared with the other fitting pages' wording.
-const BASIS_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "id",
-        label: "Inside diameter (welded, flanged or restrained joints)",
-    },
-    ChoiceOption {
-        key: "od",
-        label: "Outside diameter (push-on and mechanical joints)",
-    },
-];
-
 pub fn spec() -> CalculatorSpec {
     let fields = vec![
         choice(
@@ -99,7 +87,7 @@ pub fn spec() -> CalculatorSpec {
         choice(
             "basis",
             "Thrust area basis",
-            BASIS_OPTIONS,
+            common::AREA_BASIS_OPTIONS,
             "od",
             "Push-on and mechanical joints can slide like a piston: their thrust acts on the outside diameter.",
         ),

@@ -29,9 +29,15 @@
 //! thrust-restraint guides (DIPRA, *Thrust Restraint Design for Ductile Iron Pipe*;
 //! AWWA Manual M41), reported beside the full result.
 //!
+//! # Area basis
+//! On the outside-diameter basis (push-on and mechanical joints, whose spigot can
+//! slide in its gasket like a piston) the pressure at each face also acts on the
+//! wall annulus out to the outside diameter: −p·(A_OD − A)·n is added to the engine
+//! as a named force per face, and the static formula uses the outside areas.
+//!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; pressure areas on
-//! the inside diameters; the fluid inside is a cone frustum of the included angle.
+//! Incompressible, steady flow; uniform pressure over each face; momentum on the
+//! bores; the fluid inside is a cone frustum of the included angle.
 //! A horizontal fitting's fluid weight acts out of the drawing plane (z); a vertical
 //! one's along the axis.
 
@@ -185,6 +191,42 @@ pub fn spec() -> CalculatorSpec {
             "horizontal",
             "In a vertical fitting the fluid's weight acts along the axis and the outlet is higher or lower.",
         ),
+        FieldSpec {
+            optional: true,
+            ..choice(
+                "basis",
+                "Thrust area basis",
+                common::AREA_BASIS_OPTIONS,
+                "id",
+                "Push-on and mechanical joints can slide like a piston: the pressure then also acts on the wall annulus out to the outside diameter. Empty means the inside diameter.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("basis", &["od"])),
+            ..quantity(
+                "d_in_od",
+                "Inlet pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "326 mm",
+                Limits::positive(MAX_SIZE_M),
+                "Outside diameter of the inlet pipe at its joint.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("basis", &["od"])),
+            ..quantity(
+                "d_out_od",
+                "Outlet pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "274 mm",
+                Limits::positive(MAX_SIZE_M),
+                "Outside diameter of the outlet pipe at its joint.",
+            )
+        },
     ]);
     CalculatorSpec {
         key: KEY,
@@ -196,7 +238,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "thrust", label: "Axial thrust on the supports (magnitude)", kind: Q::Force, headline: true },
             OutputSpec { key: "thrust_axial", label: "Axial thrust, + along the flow, − against it", kind: Q::Force, headline: false },
             OutputSpec { key: "thrust_resultant", label: "Resultant thrust, with the fluid's weight", kind: Q::Force, headline: false },
-            OutputSpec { key: "static_thrust", label: "Static formula p₁(A₁ − A₂), + along the flow", kind: Q::Force, headline: false },
+            OutputSpec { key: "static_thrust", label: "Static formula p₁(A₁ − A₂) on the area basis, + along the flow", kind: Q::Force, headline: false },
             OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: true },
             OutputSpec { key: "k_used", label: "Loss coefficient used, on the reference velocity", kind: Q::Ratio, headline: false },
             OutputSpec { key: "head_loss", label: "Head loss in the fitting", kind: Q::Length, headline: false },
@@ -210,7 +252,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
         ],
         cautions: vec![
-            "The pressure terms use the inside diameters. For push-on and mechanical joints size the restraint on the outside diameters (see the thrust restraint page).",
+            "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "Loss coefficients of reducers differ between published methods (Crane, Idelchik, Rennels, Miller) by tens of per cent; the thrust is rarely sensitive to them, the outlet pressure more so.",
         ],
     }
@@ -243,6 +285,26 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let mut theta = values.quantity("angle").map_err(|e| vec![e])?;
     let loss_model = values.choice("loss").map_err(|e| vec![e])?;
     let orientation = values.choice("orientation").map_err(|e| vec![e])?;
+    let outside = match values.choice("basis").unwrap_or("id") {
+        "od" => {
+            let od_in = values.quantity("d_in_od").map_err(|e| vec![e])?;
+            let od_out = values.quantity("d_out_od").map_err(|e| vec![e])?;
+            let mut errors = Vec::new();
+            for (field, od, bore) in [("d_in_od", od_in, d_in), ("d_out_od", od_out, d_out)] {
+                if od <= bore {
+                    errors.push(FieldError::inconsistent(
+                        field,
+                        "the outside diameter must be larger than the inside diameter",
+                    ));
+                }
+            }
+            if !errors.is_empty() {
+                return Err(errors);
+            }
+            Some((od_in, od_out))
+        }
+        _ => None,
+    };
     let fluid = common::fluid_from(values)?;
     let flow = common::flow_from(values)?;
     let expands = d_out > d_in;
@@ -308,7 +370,29 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let o = cv.port(Port::outlet("outlet", si::area(a_out), axis).at(a * length));
     cv.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port }));
     cv.contains(si::volume(volume), a * (0.5 * length));
-    let balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    let mut balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    if let Some((od_in, od_out)) = outside {
+        // Push-on or mechanical joints: the solved pressures also act on the wall
+        // annulus out to the outside diameter at each end (a second pass adds them as
+        // named forces; they change no pressure or flow).
+        let ends = [(i, od_in, a_in, "inlet"), (o, od_out, a_out, "outlet")];
+        for (port, od, bore, name) in ends {
+            let pressure = balance.ports[port].pressure;
+            let normal = cv.ports[port].outward_normal();
+            let force = common::joint_annulus_force(pressure, bore, common::circle_area(od), normal);
+            let at = cv.ports[port].position;
+            cv.extra_force(
+                &format!("{name} joint, pressure on the wall annulus to the OD"),
+                force,
+                at,
+            );
+        }
+        balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    }
+    let (basis_a_in, basis_a_out) = match outside {
+        Some((od_in, od_out)) => (common::circle_area(od_in), common::circle_area(od_out)),
+        None => (a_in, a_out),
+    };
 
     let thrust = balance.thrust();
     let axial = thrust.dot(a);
@@ -316,7 +400,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("thrust", axial.abs());
     report.output("thrust_axial", axial);
     report.output("thrust_resultant", thrust.norm());
-    report.output("static_thrust", p_in * (a_in - a_out));
+    report.output("static_thrust", p_in * (basis_a_in - basis_a_out));
     report.output("p_out", outlet_state.pressure);
     report.output("k_used", k);
     if let Some(s) = balance.streams.first() {
@@ -388,7 +472,14 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         ),
         (
             "Thrust area basis",
-            "inside diameters (momentum and pressure terms)".to_string(),
+            match outside {
+                Some((od_in, od_out)) => format!(
+                    "outside diameters {} and {} (push-on or mechanical joints): the pressure on the wall annulus is its own ledger term; momentum on the bores",
+                    report.fmt(od_in, Q::Length),
+                    report.fmt(od_out, Q::Length)
+                ),
+                None => "inside diameters (pressure and momentum terms)".to_string(),
+            },
         ),
         (
             "Orientation",

@@ -27,9 +27,13 @@
 //! formula of the thrust-restraint guides (DIPRA, *Thrust Restraint Design for
 //! Ductile Iron Pipe*; AWWA Manual M41); it is reported beside the full result.
 //!
+//! On the outside-diameter basis (push-on and mechanical joints) each face's pressure
+//! also acts on the wall annulus out to the outside diameter, −p·(A_OD − A)·n, added
+//! to the engine as a named force per face.
+//!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; pressure areas on
-//! the inside diameters; drawn in plan with gravity out of the plan (−z); the fluid
+//! Incompressible, steady flow; uniform pressure over each face; momentum on the
+//! bores; drawn in plan with gravity out of the plan (−z); the fluid
 //! inside is a stub of each pipe one common-pipe diameter long.
 
 use std::f64::consts::PI;
@@ -104,6 +108,8 @@ struct BranchKeys {
     angle_demo: &'static str,
     elev: &'static str,
     elev_label: &'static str,
+    od: &'static str,
+    od_label: &'static str,
     share: &'static str,
     share_label: &'static str,
     share_demo: &'static str,
@@ -129,6 +135,8 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         angle_demo: "0 deg",
         elev: "elev1",
         elev_label: "Branch 1 elevation angle",
+        od: "od1",
+        od_label: "Branch 1 outside diameter",
         share: "share1",
         share_label: "Branch 1 flow share",
         share_demo: "70 %",
@@ -152,6 +160,8 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         angle_demo: "90 deg",
         elev: "elev2",
         elev_label: "Branch 2 elevation angle",
+        od: "od2",
+        od_label: "Branch 2 outside diameter",
         share: "share2",
         share_label: "Branch 2 flow share",
         share_demo: "",
@@ -175,6 +185,8 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         angle_demo: "-90 deg",
         elev: "elev3",
         elev_label: "Branch 3 elevation angle",
+        od: "od3",
+        od_label: "Branch 3 outside diameter",
         share: "share3",
         share_label: "Branch 3 flow share",
         share_demo: "5 %",
@@ -198,6 +210,8 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         angle_demo: "45 deg",
         elev: "elev4",
         elev_label: "Branch 4 elevation angle",
+        od: "od4",
+        od_label: "Branch 4 outside diameter",
         share: "share4",
         share_label: "Branch 4 flow share",
         share_demo: "5 %",
@@ -221,6 +235,8 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         angle_demo: "-45 deg",
         elev: "elev5",
         elev_label: "Branch 5 elevation angle",
+        od: "od5",
+        od_label: "Branch 5 outside diameter",
         share: "share5",
         share_label: "Branch 5 flow share",
         share_demo: "5 %",
@@ -244,6 +260,8 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
         angle_demo: "135 deg",
         elev: "elev6",
         elev_label: "Branch 6 elevation angle",
+        od: "od6",
+        od_label: "Branch 6 outside diameter",
         share: "share6",
         share_label: "Branch 6 flow share",
         share_demo: "5 %",
@@ -321,6 +339,29 @@ pub fn spec() -> CalculatorSpec {
         "common",
         "Most junction tables give each branch's K on the velocity of the common (combined) flow.",
     ));
+    fields.push(FieldSpec {
+        optional: true,
+        ..choice(
+            "basis",
+            "Thrust area basis",
+            common::AREA_BASIS_OPTIONS,
+            "id",
+            "Push-on and mechanical joints can slide like a piston: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Empty means the inside diameter.",
+        )
+    });
+    fields.push(FieldSpec {
+        visible_when: Some(("basis", &["od"])),
+        ..quantity(
+            "d_od",
+            "Common pipe outside diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "326 mm",
+            Limits::positive(MAX_SIZE_M),
+            "Outside diameter of the common pipe at its joint.",
+        )
+    });
     for b in &BRANCHES {
         let shown = Some(("n", b.visible));
         fields.push(FieldSpec {
@@ -389,6 +430,20 @@ pub fn spec() -> CalculatorSpec {
                 b.k_demo,
                 Limits::closed(0.0, 50.0),
                 "Head loss K·V²/2g between the common pipe and this branch; empty means no loss. Name the method (Idelchik, Miller, Crane).",
+            )
+        });
+        fields.push(FieldSpec {
+            visible_when: shown,
+            optional: true,
+            ..quantity(
+                b.od,
+                b.od_label,
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::positive(MAX_SIZE_M),
+                "Only for the outside-diameter basis: the branch pipe's outside diameter at its joint.",
             )
         });
     }
@@ -510,7 +565,7 @@ pub fn spec() -> CalculatorSpec {
         fields,
         outputs,
         cautions: vec![
-            "The pressure terms use the inside diameters. For push-on and mechanical joints size the restraint on the outside diameters (see the thrust restraint page).",
+            "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
             "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
         ],
@@ -521,12 +576,14 @@ pub fn spec() -> CalculatorSpec {
 struct Branch {
     index: usize,
     diameter: f64,
+    /// Outside diameter, on the outside-diameter basis.
+    outside: Option<f64>,
     direction: Vec3,
     share: Option<f64>,
     k: f64,
 }
 
-fn read_branches(values: &Values, count: usize) -> Result<Vec<Branch>, Vec<FieldError>> {
+fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<Branch>, Vec<FieldError>> {
     let mut branches = Vec::with_capacity(count);
     let mut errors = Vec::new();
     for (index, b) in BRANCHES.iter().enumerate().take(count) {
@@ -555,9 +612,30 @@ fn read_branches(values: &Values, count: usize) -> Result<Vec<Branch>, Vec<Field
             continue;
         }
         let share = values.is_set(b.share).then(|| values.quantity_or(b.share, 0.0));
+        let outside = if on_outside {
+            if !values.is_set(b.od) {
+                errors.push(FieldError::inconsistent(
+                    b.od,
+                    "an outside diameter is required for the outside-diameter basis",
+                ));
+                continue;
+            }
+            let od = values.quantity_or(b.od, diameter);
+            if od <= diameter {
+                errors.push(FieldError::inconsistent(
+                    b.od,
+                    "the outside diameter must be larger than the inside diameter",
+                ));
+                continue;
+            }
+            Some(od)
+        } else {
+            None
+        };
         branches.push(Branch {
             index,
             diameter,
+            outside,
             direction,
             share,
             k: values.quantity_or(b.k, 0.0),
@@ -621,7 +699,20 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let k_on_common = values.choice("k_ref").map_err(|e| vec![e])? != "branch";
     let fluid = common::fluid_from(values)?;
     let flow = common::flow_from(values)?;
-    let branches = read_branches(values, count)?;
+    let on_outside = values.choice("basis").unwrap_or("id") == "od";
+    let common_outside = if on_outside {
+        let od = values.quantity("d_od").map_err(|e| vec![e])?;
+        if od <= d_common {
+            return Err(vec![FieldError::inconsistent(
+                "d_od",
+                "the outside diameter must be larger than the inside diameter",
+            )]);
+        }
+        Some(od)
+    } else {
+        None
+    };
+    let branches = read_branches(values, count, on_outside)?;
 
     let a_common = common::circle_area(d_common);
     let total_flow = match flow {
@@ -682,14 +773,36 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         Vec3::ZERO
     };
     cv.contains(si::volume(volume), centroid);
-    let balance = engine::balance(&cv).map_err(|e| {
-        let field = branches
-            .iter()
-            .find(|b| b.share.is_none())
-            .map(|b| BRANCHES[b.index].share)
-            .unwrap_or("p");
-        common::engine_error(e, field)
-    })?;
+    let engine_field = branches
+        .iter()
+        .find(|b| b.share.is_none())
+        .map(|b| BRANCHES[b.index].share)
+        .unwrap_or("p");
+    let mut balance = engine::balance(&cv).map_err(|e| common::engine_error(e, engine_field))?;
+    // Outside diameter of each port on the area basis (the bore on the inside basis).
+    let mut basis_diameters = vec![common_outside.unwrap_or(d_common)];
+    basis_diameters.extend(branches.iter().map(|b| b.outside.unwrap_or(b.diameter)));
+    if on_outside {
+        // Push-on or mechanical joints: the solved pressures also act on the wall
+        // annulus out to each outside diameter (a second pass adds them as named
+        // forces; they change no pressure or flow).
+        for (port, &od) in basis_diameters.iter().enumerate() {
+            let state = &balance.ports[port];
+            let force = common::joint_annulus_force(
+                state.pressure,
+                state.area,
+                common::circle_area(od),
+                cv.ports[port].outward_normal(),
+            );
+            let (name, at) = (cv.ports[port].name.clone(), cv.ports[port].position);
+            cv.extra_force(
+                &format!("{name} joint, pressure on the wall annulus to the OD"),
+                force,
+                at,
+            );
+        }
+        balance = engine::balance(&cv).map_err(|e| common::engine_error(e, engine_field))?;
+    }
 
     let thrust = balance.thrust();
     let in_plane = (thrust.x * thrust.x + thrust.y * thrust.y).sqrt();
@@ -705,7 +818,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let static_vector: Vec3 = cv
         .ports
         .iter()
-        .map(|port| port.outward_normal() * (-p * port.area))
+        .zip(&basis_diameters)
+        .map(|(port, &d)| port.outward_normal() * (-p * common::circle_area(d)))
         .sum();
     report.output("static_thrust", static_vector.norm());
     let common_state = &balance.ports[c];
@@ -792,7 +906,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         ),
         (
             "Thrust area basis",
-            "inside diameters (momentum and pressure terms)".to_string(),
+            if on_outside {
+                "outside diameters (push-on or mechanical joints): the pressure on each joint's wall annulus is its own ledger term; momentum on the bores".to_string()
+            } else {
+                "inside diameters (pressure and momentum terms)".to_string()
+            },
         ),
         (
             "Carried to the thrust-block page",
