@@ -423,4 +423,13 @@ mod tests {
         assert_eq!(error_field(&[("d_od", "100 mm")]), "d_od");
         assert_eq!(error_field(&[("basis", "od"), ("d_od", "")]), "d_od");
     }
+
+    #[test]
+    fn demo_matches_the_method_note_worked_example() {
+        // site/notes/dead-end.md works the demo by hand: 46.45 kN on the outside
+        // diameter, 39.22 kN on the bore.
+        let s = outcome(&[]).result.expect("solves");
+        assert_relative_eq!(s.output("thrust").unwrap().si, 46.45e3, max_relative = 2e-4);
+        assert_relative_eq!(s.output("thrust_id").unwrap().si, 39.22e3, max_relative = 2e-4);
+    }
 }

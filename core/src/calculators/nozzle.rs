@@ -535,4 +535,14 @@ mod tests {
         assert_eq!(field(&[("p", "-1 bar")]), "p");
         assert_eq!(field(&[("cd", "0")]), "cd");
     }
+
+    #[test]
+    fn demo_matches_the_method_note_worked_example() {
+        // site/notes/nozzle.md works the demo by hand: 148.5 m³/h, bolt load
+        // 11.63 kN, jet reaction 1.50 kN.
+        let s = outcome(&[]).result.expect("solves");
+        assert_relative_eq!(s.output("flow").unwrap().si, 148.5 / 3600.0, max_relative = 5e-4);
+        assert_relative_eq!(s.output("bolt_load").unwrap().si, 11.63e3, max_relative = 5e-4);
+        assert_relative_eq!(s.output("jet_reaction").unwrap().si, 1.50e3, max_relative = 5e-3);
+    }
 }

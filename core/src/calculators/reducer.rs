@@ -722,4 +722,15 @@ mod tests {
         assert_eq!(field(&[("p", "-2 psi")]), "p");
         assert_eq!(field(&[("loss", "k"), ("k", "")]), "k");
     }
+
+    #[test]
+    fn demo_matches_the_method_note_worked_example() {
+        // site/notes/reducer.md works the demo by hand: K = 0.0724, p2 = 992.5 kPa,
+        // T = 26.36 kN downstream, static 26.39 kN.
+        let s = solved(&[]);
+        assert_relative_eq!(s.output("k_used").unwrap().si, 0.0724, max_relative = 1e-3);
+        assert_relative_eq!(s.output("p_out").unwrap().si, 992.5e3, max_relative = 1e-4);
+        assert_relative_eq!(s.output("thrust_axial").unwrap().si, 26.36e3, max_relative = 2e-4);
+        assert_relative_eq!(s.output("static_thrust").unwrap().si, 26.39e3, max_relative = 2e-4);
+    }
 }

@@ -1223,4 +1223,20 @@ mod tests {
         assert_eq!(error_field(&[("angle2", "175 deg")]), "angle2");
         assert_eq!(error_field(&[("p", "-3 psi")]), "p");
     }
+
+    #[test]
+    fn demo_matches_the_method_note_worked_example() {
+        // site/notes/tee.md works the demo by hand: p1 = 1001.0 kPa, p2 = 992.8 kPa,
+        // T = 18.76 kN at −89.1°, static 18.63 kN.
+        let s = outcome(&[]).result.expect("solves");
+        assert_relative_eq!(s.output("p_b1").unwrap().si, 1001.0e3, max_relative = 1e-4);
+        assert_relative_eq!(s.output("p_b2").unwrap().si, 992.8e3, max_relative = 1e-4);
+        assert_relative_eq!(s.output("thrust_in_plane").unwrap().si, 18.76e3, max_relative = 5e-4);
+        assert_relative_eq!(
+            s.output("thrust_angle").unwrap().si,
+            (-89.09f64).to_radians(),
+            max_relative = 5e-4
+        );
+        assert_relative_eq!(s.output("static_thrust").unwrap().si, 18.63e3, max_relative = 5e-4);
+    }
 }
