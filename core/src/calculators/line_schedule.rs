@@ -81,7 +81,7 @@ pub fn spec() -> CalculatorSpec {
         quantity("p_work", "Working pressure, gauge (rows without pw=)", Q::Pressure, "bar", "psi", "150 psi", Limits::closed(0.0, MAX_PRESSURE_PA), "The working pressure along the line; a row may give its own with pw=."),
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "nfpa24", "Named rules of published standards, or a typed test pressure.") },
         FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
+        FieldSpec { optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
         choice("soil", "Soil (rows without soil=)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison."),
         FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Used when the soil is 'typed value'.") },
         choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", "Push-on and mechanical: thrust on the OD; flanged and welded: on the ID."),
@@ -517,12 +517,21 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     } else {
         None
     };
-    let surge = if matches!(basis.as_str(), "surge" | "highest") {
-        values.is_set("dp_surge").then(|| values.quantity_or("dp_surge", 0.0))
+    let surge = values.is_set("dp_surge").then(|| values.quantity_or("dp_surge", 0.0));
+    if let Some(TestBasis::Rule(r)) = &test_rule {
+        if r.needs_surge && surge.is_none() {
+            return Err(vec![FieldError::inconsistent(
+                "dp_surge",
+                "this test rule adds the calculated surge: give the surge allowance",
+            )]);
+        }
+    }
+    let surge_in_basis = if matches!(basis.as_str(), "surge" | "highest") {
+        surge
     } else {
         None
     };
-    if basis == "surge" && surge.is_none() {
+    if basis == "surge" && surge_in_basis.is_none() {
         return Err(vec![FieldError::inconsistent(
             "dp_surge",
             "the surge basis needs the surge allowance",
@@ -531,9 +540,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let design_of = |pw: f64| -> (f64, String) {
         let test = test_rule.as_ref().map(|t| match t {
             TestBasis::Typed(p) => (*p, "typed test".to_string()),
-            TestBasis::Rule(r) => ((r.apply)(pw), format!("test ({})", r.key)),
+            TestBasis::Rule(r) => ((r.apply)(pw, surge.unwrap_or(0.0)), format!("test ({})", r.key)),
         });
-        let with_surge = surge.map(|dp| pw + dp);
+        let with_surge = surge_in_basis.map(|dp| pw + dp);
         match basis.as_str() {
             "operating" => (pw, "operating".to_string()),
             "test" => test.unwrap_or((pw, "operating".into())),

@@ -475,6 +475,10 @@ pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
         label: "EN 805 system test pressure, surge not calculated: lower of 1.5 × MDP and MDP + 5 bar",
     },
     ChoiceOption {
+        key: "en805_surge",
+        label: "EN 805 system test pressure, surge calculated: MDPc + 1 bar",
+    },
+    ChoiceOption {
         key: "c600",
         label: "AWWA C600 (ductile iron): 1.5 × working pressure at the point of test",
     },
@@ -497,29 +501,42 @@ pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
 pub struct TestRule {
     pub key: &'static str,
     pub citation: &'static str,
-    pub apply: fn(f64) -> f64,
+    /// Whether the rule needs a calculated surge (the second argument of `apply`).
+    pub needs_surge: bool,
+    /// Test pressure from the working pressure and the calculated surge rise, Pa.
+    pub apply: fn(f64, f64) -> f64,
 }
 
 pub const TEST_RULES: &[TestRule] = &[
     TestRule {
         key: "en805",
         citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + 500 kPa; MDP here is the working pressure typed, which should already include a surge allowance",
-        apply: |p| (1.5 * p).min(p + 500e3),
+        needs_surge: false,
+        apply: |p, _| (1.5 * p).min(p + 500e3),
     },
     TestRule {
         key: "c600",
         citation: "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing (from memory): not less than 1.5 × the working pressure at the point of testing (and 1.25 × at the highest point)",
-        apply: |p| 1.5 * p,
+        needs_surge: false,
+        apply: |p, _| 1.5 * p,
     },
     TestRule {
         key: "c605",
         citation: "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing (from memory): not less than 1.25 × the stated working pressure, measured at the highest point of the test section",
-        apply: |p| 1.25 * p,
+        needs_surge: false,
+        apply: |p, _| 1.25 * p,
     },
     TestRule {
         key: "nfpa24",
         citation: "NFPA 24 (private fire service mains), hydrostatic test (from memory): 200 psi (13.8 bar) or 50 psi (3.4 bar) above the system working pressure, whichever is greater",
-        apply: |p| (200.0 * PSI).max(p + 50.0 * PSI),
+        needs_surge: false,
+        apply: |p, _| (200.0 * PSI).max(p + 50.0 * PSI),
+    },
+    TestRule {
+        key: "en805_surge",
+        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is calculated, STP = MDPc + 100 kPa, MDPc being the working pressure plus the calculated surge",
+        needs_surge: true,
+        apply: |p, surge| p + surge + 100e3,
     },
 ];
 
@@ -654,12 +671,12 @@ pub fn spec() -> CalculatorSpec {
         quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting."),
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
         FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Empty: no surge estimate.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "ductile_iron", "Sets Young's modulus E and Poisson's ratio ν of the wall.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Used by the surge and highest bases and the EN 805 calculated-surge test rule. Empty: no surge estimate.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "ductile_iron", "Sets Young's modulus E and Poisson's ratio ν of the wall.") },
         FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e12), "Used when the material is 'typed modulus'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::positive(1.0), "Empty: half the difference of outside and inside diameters.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1.") },
-        FieldSpec { visible_when: Some(("p_basis", &["surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e11), "Empty: 2200 MPa, water near 20 °C.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::positive(1.0), "Empty: half the difference of outside and inside diameters.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e11), "Empty: 2200 MPa, water near 20 °C.") },
     ];
     fields.extend(common::fluid_fields("15 degC"));
     fields.extend([
@@ -1055,27 +1072,22 @@ fn design_pressure(
     let work = values.quantity("p_work").map_err(one)?;
     let wants_test = matches!(basis.as_str(), "test" | "highest");
     let wants_surge = matches!(basis.as_str(), "surge" | "highest");
-    let test = if wants_test {
-        let rule = values.choice("test_rule").map_err(one)?;
-        if rule == "custom" {
-            let p = opt(values, "p_test").ok_or_else(|| {
-                vec![FieldError::inconsistent(
-                    "p_test",
-                    "type the test pressure, or choose a named rule",
-                )]
-            })?;
-            Some((p, "typed test pressure".to_string()))
-        } else {
-            let r = test_rule(rule).ok_or_else(|| vec![FieldError::inconsistent("test_rule", "unknown rule")])?;
-            Some(((r.apply)(work), r.citation.to_string()))
-        }
+    let rule_key = if wants_test {
+        values.choice("test_rule").map_err(one)?
     } else {
-        None
+        "custom"
     };
-    let surge = if wants_surge && values.is_set("dv") {
+    let rule_needs_surge = wants_test && test_rule(rule_key).is_some_and(|r| r.needs_surge);
+    let surge = if (wants_surge || rule_needs_surge) && values.is_set("dv") {
         let dv = values.quantity_or("dv", 0.0);
         let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "the surge estimate needs the pipe size")])?;
-        let (e_mod, nu, source) = match values.choice("material").map_err(one)? {
+        let (e_mod, nu, source) = match values.choice("material").unwrap_or("") {
+            "" => {
+                return Err(vec![FieldError::inconsistent(
+                    "material",
+                    "choose the pipe wall material for the wave speed",
+                )])
+            }
             "custom" => {
                 let e = opt(values, "e_pipe").ok_or_else(|| {
                     vec![FieldError::inconsistent(
@@ -1121,6 +1133,32 @@ fn design_pressure(
                 "the surge basis needs the velocity change",
             )]);
         }
+        if rule_needs_surge {
+            return Err(vec![FieldError::inconsistent(
+                "dv",
+                "this test rule adds the calculated surge: give the velocity change",
+            )]);
+        }
+        None
+    };
+    let test = if wants_test {
+        let rule = values.choice("test_rule").map_err(one)?;
+        if rule == "custom" {
+            let p = opt(values, "p_test").ok_or_else(|| {
+                vec![FieldError::inconsistent(
+                    "p_test",
+                    "type the test pressure, or choose a named rule",
+                )]
+            })?;
+            Some((p, "typed test pressure".to_string()))
+        } else {
+            let r = test_rule(rule).ok_or_else(|| vec![FieldError::inconsistent("test_rule", "unknown rule")])?;
+            Some((
+                (r.apply)(work, surge.as_ref().map_or(0.0, |s| s.dp)),
+                r.citation.to_string(),
+            ))
+        }
+    } else {
         None
     };
     if let Some((pt, _)) = &test {
@@ -1547,6 +1585,10 @@ mod tests {
         assert_eq!(error_field(&[("size", "custom")]), "d");
         assert_eq!(error_field(&[("fitting", "reducer"), ("size2", "di52_16")]), "size2");
         assert_eq!(error_field(&[("p_basis", "surge"), ("dv", "")]), "dv");
+        assert_eq!(
+            error_field(&[("p_basis", "test"), ("test_rule", "en805_surge"), ("dv", "")]),
+            "dv"
+        );
     }
 
     #[test]
