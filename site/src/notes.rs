@@ -141,6 +141,16 @@ fn blocked_markup(html: &str) -> bool {
 /// # Errors
 /// When the formula does not parse; the message names the note and the formula.
 pub fn latex_to_mathml(tex: &str, display: bool, path: &Path) -> Result<String, SiteError> {
+    if let Some(entity) = html_entity(tex) {
+        return Err(SiteError::content(
+            path,
+            format!(
+                "the formula `{}` contains the HTML entity `{entity}`, which a formula shows literally; \
+                 use `\\,` or `~` for a space",
+                tex.trim()
+            ),
+        ));
+    }
     let storage = Storage::new();
     let events: Vec<_> = pulldown_latex::Parser::new(tex, &storage).collect();
     if let Some(Err(error)) = events.iter().find(|e| e.is_err()) {
@@ -161,6 +171,19 @@ pub fn latex_to_mathml(tex: &str, display: bool, path: &Path) -> Result<String, 
     pulldown_latex::push_mathml(&mut mathml, events.into_iter(), config)
         .map_err(|e| SiteError::content(path, format!("cannot write MathML for `{}`: {e}", tex.trim())))?;
     Ok(strip_style_attributes(&mathml))
+}
+
+/// The first `&name;` or `&#...;` HTML entity in a formula, if any.
+fn html_entity(tex: &str) -> Option<&str> {
+    tex.match_indices('&').find_map(|(start, _)| {
+        let rest = &tex[start + 1..];
+        let end = rest.find(';')?;
+        let name = &rest[..end];
+        let is_entity = !name.is_empty()
+            && (name.chars().all(|c| c.is_ascii_alphanumeric()) || name.starts_with('#'))
+            && name.len() <= 10;
+        is_entity.then(|| &tex[start..start + end + 2])
+    })
 }
 
 /// Removes every ` style="..."` attribute from generated markup.
@@ -263,6 +286,20 @@ mod tests {
             assert!(render_note(bad, Path::new("n.md")).is_err(), "{bad}");
         }
         assert!(render_note("<abbr title=\"one\">x</abbr> fine\n", Path::new("n.md")).is_ok());
+    }
+
+    #[test]
+    fn html_entities_in_formulas_are_refused_but_alignment_ampersands_are_not() {
+        let message = latex_to_mathml(r"A = 0.075&nbsp;m^2", false, Path::new("n.md"))
+            .err()
+            .map(|e| e.to_string());
+        assert!(message.as_deref().is_some_and(|m| m.contains("&nbsp;")), "{message:?}");
+        assert!(latex_to_mathml(
+            r"\begin{aligned} a &= b \\ c &= d \end{aligned}",
+            true,
+            Path::new("n.md")
+        )
+        .is_ok());
     }
 
     #[test]

@@ -138,9 +138,15 @@ pub fn calculator_page(spec: &CalculatorSpec, note_html: &str, assets: &PageAsse
         "</section>\n"
     ));
     html.push_str(&cautions_html(spec));
-    html.push_str(
-        "<article class=\"method-note\" aria-labelledby=\"method-title\">\n<h2 id=\"method-title\">Method</h2>\n",
-    );
+    // A note that opens with its own heading (`# Method` becomes `<h2>`) keeps it;
+    // otherwise the page gives the note a "Method" heading.
+    if note_html.trim_start().starts_with("<h2") {
+        html.push_str("<article class=\"method-note\" aria-label=\"Method note\">\n");
+    } else {
+        html.push_str(
+            "<article class=\"method-note\" aria-labelledby=\"method-title\">\n<h2 id=\"method-title\">Method</h2>\n",
+        );
+    }
     html.push_str(note_html);
     html.push_str("</article>\n</main>\n");
     html.push_str(&footer(assets, &file));
@@ -254,6 +260,18 @@ mod tests {
             assert!(page.contains(needle), "missing {needle}:\n{page}");
         }
         assert!(!page.contains(" style="), "no inline styles under the CSP");
+    }
+
+    #[test]
+    fn method_heading_comes_from_the_note_or_the_page_never_both() {
+        let own = calculator_page(
+            &spec("bend", "Pipe fittings", "Bend"),
+            "<h2>Method</h2>\n<p>x</p>\n",
+            &assets(),
+        );
+        assert_eq!(own.matches(">Method</h2>").count(), 1, "{own}");
+        let bare = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>x</p>\n", &assets());
+        assert!(bare.contains("<h2 id=\"method-title\">Method</h2>"), "{bare}");
     }
 
     #[test]
