@@ -146,7 +146,7 @@ pub fn spec() -> CalculatorSpec {
         ],
         cautions: vec![
             "The pressure terms use the inside diameter. For push-on and mechanical joints size the restraint on the outside diameter (see the thrust restraint page).",
-            "A vertical bend turning upward at the top of a rise pushes up and out: a gravity block must outweigh it; one turning downward pushes into the ground.",
+            "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a gravity block must outweigh it. Where the line turns upward (a sag) it points down into the ground.",
         ],
     }
 }
@@ -278,6 +278,20 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             "with no pressure and no flow the only load is the weight of the fluid",
         );
     }
+
+    // Carry the thrust to the restraint page: its angle above the horizontal is the
+    // in-plane y component for a vertical bend, the z component for a horizontal one.
+    let (vertical, horizontal) = match plane {
+        "vertical_up" | "vertical_down" => (thrust.y, (thrust.x * thrust.x + thrust.z * thrust.z).sqrt()),
+        _ => (thrust.z, in_plane),
+    };
+    let carry = common::thrust_carry_over(
+        report,
+        "Size a thrust block for this thrust",
+        thrust.norm(),
+        vertical.atan2(horizontal),
+    );
+    report.solution.carry_over.push(carry);
 
     let system = report.system();
     report.solution.tables.push(common::ledger_table(&balance, system));
@@ -432,6 +446,36 @@ mod tests {
             s.output("thrust_angle").unwrap().si,
             -std::f64::consts::FRAC_PI_4,
             max_relative = 1e-9
+        );
+    }
+
+    #[test]
+    fn carried_thrust_opens_the_restraint_page_with_the_same_force() {
+        let mut request = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
+            request.inputs.insert(k, v);
+        }
+        request.inputs.insert("plane".into(), "vertical_down".into());
+        let s = crate::solve(super::KEY, &request).result.expect("solves");
+        let thrust = s.output("thrust").unwrap().si;
+        let carry = &s.carry_over[0];
+        let mut target = Request::default();
+        for (k, v) in crate::catalog::demo_inputs(&crate::calculators::spec(carry.calculator).unwrap()) {
+            target.inputs.insert(k, v);
+        }
+        for (k, v) in &carry.inputs {
+            target.inputs.insert(k.to_string(), v.clone());
+        }
+        let block = crate::solve(carry.calculator, &target)
+            .result
+            .expect("restraint page solves");
+        let carried = block.output("thrust").expect("thrust reported").si;
+        assert_relative_eq!(carried, thrust, max_relative = 1e-3);
+        // A crest pushes up: the carried plane says so.
+        assert!(
+            carry.inputs.iter().any(|(k, v)| *k == "plane" && v == "vertical_crest"),
+            "{:?}",
+            carry.inputs
         );
     }
 
