@@ -609,7 +609,8 @@ fn ledger(
     }
 }
 
-/// The two triangles side by side in velocity space.
+/// The two triangles in velocity space, the inlet above the outlet (stacked, so that
+/// each gets the full width of a phone screen), their origins aligned.
 fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagram {
     let mut shapes = Vec::new();
     let fmt = |v: f64| report.fmt(v, Q::Velocity);
@@ -617,26 +618,22 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         .into_iter()
         .fold(0.0, f64::max)
         .max(1e-9);
-    let gap = 0.14 * biggest;
-    // The outlet triangle starts 0.4 × the largest velocity right of the inlet one.
-    let x2 = t1.u.max(t1.vtheta).max(0.0) + 0.4 * biggest - t2.vtheta.min(0.0);
-    for (t, x0, n) in [(t1, 0.0, "1"), (t2, x2, "2")] {
-        let o = [x0, 0.0];
-        let u_tip = [x0 + t.u, 0.0];
-        let v_tip = [x0 + t.vtheta, t.vm];
+    let gap = 0.1 * biggest;
+    // Each triangle occupies from its base line − 1.3 gap (swirl arrow) less a line
+    // for its label, to its apex + 0.12 × the largest velocity (its title).
+    let base2 = -(1.3 * gap + 0.12 * biggest + t2.vm.max(0.0) + 0.17 * biggest);
+    for (t, yb, n) in [(t1, 0.0, "1"), (t2, base2, "2")] {
+        let o = [0.0, yb];
+        let u_tip = [t.u, yb];
+        let v_tip = [t.vtheta, yb + t.vm];
         shapes.push(Shape::Arrow {
             from: o,
             to: u_tip,
             label: String::new(),
             style: ShapeStyle::Velocity,
         });
-        shapes.push(Shape::Text {
-            at: [x0 + 0.5 * t.u, -0.05 * biggest],
-            text: format!("u{n} {}", fmt(t.u)),
-            style: ShapeStyle::Label,
-        });
-        // V and W unlabelled at their shared tip; their labels sit beside the middle
-        // of each side, away from the triangle, so they do not pile up at the apex.
+        // V and W unlabelled at their shared tip; their labels (and u's) sit beside
+        // the middle of each side, away from the triangle, so they do not pile up.
         shapes.push(Shape::Arrow {
             from: o,
             to: v_tip,
@@ -650,66 +647,66 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
             style: ShapeStyle::Flow,
         });
         let centroid = [(o[0] + u_tip[0] + v_tip[0]) / 3.0, (o[1] + u_tip[1] + v_tip[1]) / 3.0];
-        let beside = |a: [f64; 2], b: [f64; 2]| {
+        let beside = |a: [f64; 2], b: [f64; 2], away: f64| {
             let m = [(a[0] + b[0]) / 2.0, (a[1] + b[1]) / 2.0];
             let (dx, dy) = (m[0] - centroid[0], m[1] - centroid[1]);
             let len = dx.hypot(dy);
             if len > 1e-12 * biggest {
-                [m[0] + 0.1 * biggest * dx / len, m[1] + 0.1 * biggest * dy / len]
+                [m[0] + away * dx / len, m[1] + away * dy / len]
             } else {
-                [m[0], m[1] + 0.1 * biggest]
+                [m[0], m[1] + away]
             }
         };
         shapes.push(Shape::Text {
-            at: beside(o, v_tip),
+            at: [0.5 * t.u, yb - 0.45 * gap],
+            text: format!("u{n} {}", fmt(t.u)),
+            style: ShapeStyle::Label,
+        });
+        shapes.push(Shape::Text {
+            at: beside(o, v_tip, 0.08 * biggest),
             text: format!("V{n} {}", fmt(t.v())),
             style: ShapeStyle::Label,
         });
         shapes.push(Shape::Text {
-            at: beside(u_tip, v_tip),
+            at: beside(u_tip, v_tip, 0.08 * biggest),
             text: format!("W{n} {}", fmt(t.w())),
             style: ShapeStyle::Label,
         });
-        // Swirl and meridional components, below the blade-speed line.
+        // Swirl below the blade-speed line, with a guide from the apex.
         shapes.push(Shape::Polyline {
-            points: vec![v_tip, [v_tip[0], -gap]],
+            points: vec![v_tip, [v_tip[0], yb - 1.3 * gap]],
             style: ShapeStyle::Guide,
         });
         if t.vtheta.abs() > 1e-9 * biggest {
             shapes.push(Shape::Arrow {
-                from: [x0, -gap],
-                to: [v_tip[0], -gap],
+                from: [0.0, yb - 1.3 * gap],
+                to: [v_tip[0], yb - 1.3 * gap],
                 label: format!("Vθ{n} {}", fmt(t.vtheta)),
                 style: ShapeStyle::Velocity,
             });
         } else {
             shapes.push(Shape::Text {
-                at: [x0, -gap],
+                at: [0.0, yb - 1.3 * gap],
                 text: format!("Vθ{n} = 0"),
                 style: ShapeStyle::Label,
             });
         }
+        let place = if n == "1" { "inlet (1)" } else { "outlet (2)" };
+        let left = t.vtheta.min(0.0);
+        let right = t.u.max(t.vtheta).max(0.0);
         shapes.push(Shape::Text {
-            at: [v_tip[0], -2.2 * gap],
-            text: format!("Vm{n} {}", fmt(t.vm)),
-            style: ShapeStyle::Label,
-        });
-        let title = if n == "1" { "inlet (1)" } else { "outlet (2)" };
-        let left = x0 + t.vtheta.min(0.0);
-        let right = x0 + t.u.max(t.vtheta).max(0.0);
-        shapes.push(Shape::Text {
-            at: [0.5 * (left + right), t.vm.max(0.0) + 0.25 * biggest],
-            text: title.to_string(),
+            at: [0.5 * (left + right), yb + t.vm.max(0.0) + 0.12 * biggest],
+            text: format!("{place}: Vm{n} {}", fmt(t.vm)),
             style: ShapeStyle::Label,
         });
     }
-    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.15 * biggest);
+    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.1 * biggest);
     Diagram {
-        title: "Velocity triangles, inlet and outlet".to_string(),
+        title: "Velocity triangles, inlet above outlet".to_string(),
         bounds,
         shapes,
         caption: format!(
-            "Drawn in velocity space, not runner geometry: both triangles to one velocity scale, x along the blade motion u, y the meridional (through-flow) component V_m. V = u + W, with V the absolute velocity (momentum-flux colour: the flux is ṁV) and W the velocity relative to the blades (flow colour); the swirl V_θ is the projection of V on u. Largest velocity shown: {}.",
+            "Drawn in velocity space, not runner geometry: both triangles to one velocity scale, x along the blade motion u, y the meridional (through-flow) component V_m. V = u + W, with V the absolute velocity (momentum-flux colour: the flux is ṁV) and W the velocity relative to the blades (flow colour); the swirl V_θ, below each triangle, is the projection of V on u. Largest velocity shown: {}.",
             fmt(biggest)
         ),
     }
