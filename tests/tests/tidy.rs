@@ -5,7 +5,8 @@
 //! - every reference case targets a registered calculator or a known core function,
 //!   types only fields that exist, expects only outputs that exist, and its expected
 //!   values and tolerances parse as the output's quantity kind;
-//! - there are at least 25 reference cases;
+//! - there are at least 25 reference cases, and every registered calculator has at
+//!   least one that checks its outputs against a source;
 //! - every `core/src/**/*.rs` file starts with a `//!` module doc.
 
 use std::path::{Path, PathBuf};
@@ -186,6 +187,25 @@ fn every_pending_case_names_its_source() {
         problems.is_empty(),
         "pending cases break the rules:\n{}",
         report(&problems)
+    );
+}
+
+#[test]
+fn every_calculator_has_a_sourced_case() {
+    let (cases, _) = load_cases(&reference_dir());
+    let missing: Vec<&str> = fluxledger_core::calculators::CALCULATORS
+        .iter()
+        .map(|c| c.key)
+        .filter(|key| {
+            !cases
+                .iter()
+                .any(|case| case.target == Target::Calculator(key.to_string()) && !case.expected.is_empty())
+        })
+        .collect();
+    assert!(
+        missing.is_empty(),
+        "these calculators have no reference case that checks their outputs: {}",
+        missing.join(", ")
     );
 }
 
