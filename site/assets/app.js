@@ -956,20 +956,32 @@ function renderPlot(plot, width) {
     swatch.append(svg("line", { class: `series series-${index % 4}`, x1: 1, y1: 6, x2: 35, y2: 6 }));
     legend.append(el("li", {}, swatch, el("span", { text: series.name || `Series ${index + 1}` })));
   });
+  // Markers are numbered on the plot and named in a list below it: long labels
+  // of nearby points would collide on a phone.
+  const markerList = el("ol", { class: "plot-markers" });
+  let number = 0;
   for (const marker of plot.markers || []) {
     if (!finite(marker.at?.[0], marker.at?.[1])) continue;
+    number += 1;
     const x = sx(marker.at[0]);
     const y = sy(marker.at[1]);
-    root.append(svg("circle", { class: "marker", cx: x, cy: y, r: 5 }));
-    if (marker.label) {
-      const right = x < W * 0.6;
-      root.append(
-        svg("text", { class: "marker-label", x: right ? x + 9 : x - 9, y: y - 9, "text-anchor": right ? "start" : "end", text: marker.label }),
-      );
-    }
+    const right = x < W * 0.75;
+    const below = number % 2 === 0;
+    root.append(
+      svg("circle", { class: "marker", cx: x, cy: y, r: 5 }),
+      svg("text", {
+        class: "marker-label",
+        x: right ? x + 8 : x - 8,
+        y: below ? y + 15 : y - 8,
+        "text-anchor": right ? "start" : "end",
+        text: String(number),
+      }),
+    );
+    markerList.append(el("li", { text: marker.label || `Point ${number}` }));
   }
   figure.append(el("div", { class: "figure-canvas" }, root));
   if (legend.childElementCount > 0) figure.append(legend);
+  if (markerList.childElementCount > 0) figure.append(markerList);
   return figure;
 }
 
