@@ -5,8 +5,9 @@
 //!   the flow would have to reverse);
 //! - a straight constant-area pipe without loss at any pressure and flow carries no
 //!   net axial force;
-//! - rotating the whole control volume (ports, gravity, weights, moment point) rotates
-//!   the support force and moment with it;
+//! - rotating the whole control volume (ports, gravity, weights, moment point, and the
+//!   spin axis of a rotating frame) rotates the support force and moment with it and
+//!   leaves the shaft torque unchanged;
 //! - non-finite inputs give a typed error, finite ones a finite ledger; nothing panics.
 //!
 //! Catalog (`fluxledger_core::solve`, every calculator in `CALCULATORS`):
@@ -144,6 +145,7 @@ proptest! {
         draws in prop::collection::vec(port_draw(), 1..4), p0 in 0.0f64..2e6, k in 0.0f64..5.0,
         volume in 0.0f64..2.0, centroid in point(3.0), extra in point(1e4), extra_at in point(3.0),
         moment_point in point(3.0), axis in unit_vector(), angle in -PI..PI,
+        spin in prop_oneof![Just(0.0), -100.0f64..100.0], spin_axis in unit_vector(), spin_origin in point(2.0),
     ) {
         let build = |rot: &dyn Fn(Vec3) -> Vec3| {
             let mut cv = ControlVolume::new(liquid(1000.0));
@@ -159,6 +161,10 @@ proptest! {
             }
             cv.contains(si::volume(volume), rot(centroid));
             cv.extra_force("load", rot(extra), rot(extra_at));
+            if spin != 0.0 {
+                let spin_direction = Direction::new(rot(spin_axis)).unwrap_or(Direction::Z);
+                cv.frame(Frame::Rotating { axis: spin_direction, origin: rot(spin_origin), omega: spin });
+            }
             cv.moments_about(rot(moment_point));
             engine::balance(&cv)
         };
@@ -172,6 +178,11 @@ proptest! {
                 let moment_scale = a.support_moment.norm() + scale * 10.0;
                 let mdiff = (b.support_moment - rotate(a.support_moment, axis, angle)).norm();
                 prop_assert!(mdiff <= 1e-9 * moment_scale, "moment differs by {mdiff} N.m");
+                match (a.shaft_torque, b.shaft_torque) {
+                    (None, None) => {}
+                    (Some(ta), Some(tb)) => prop_assert!((ta - tb).abs() <= 1e-9 * moment_scale, "shaft torque {ta} vs {tb}"),
+                    other => prop_assert!(false, "shaft torque present in one orientation only: {other:?}"),
+                }
             }
             (Err(a), Err(b)) => prop_assert_eq!(std::mem::discriminant(&a), std::mem::discriminant(&b)),
             (a, b) => prop_assert!(false, "one orientation solved, the other did not: {:?} / {:?}", a.err(), b.err()),
