@@ -251,6 +251,16 @@ pub struct SolvedView {
     pub diagrams: Vec<DiagramView>,
     pub plots: Vec<PlotView>,
     pub warnings: Vec<WarningView>,
+    pub carry_over: Vec<CarryOverView>,
+}
+
+/// A link to another calculator with inputs filled: the page builds the address from
+/// the catalog key and these inputs, never from anything typed into the address bar.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct CarryOverView {
+    pub calculator: &'static str,
+    pub label: String,
+    pub inputs: std::collections::BTreeMap<&'static str, String>,
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -408,6 +418,15 @@ fn solved_view(echoes: Vec<EchoView>, solution: &Solution) -> SolvedView {
         diagrams: solution.diagrams.iter().map(diagram_view).collect(),
         plots: solution.plots.iter().map(plot_view).collect(),
         warnings: solution.warnings.iter().map(warning_view).collect(),
+        carry_over: solution
+            .carry_over
+            .iter()
+            .map(|c| CarryOverView {
+                calculator: c.calculator,
+                label: c.label.clone(),
+                inputs: c.inputs.iter().map(|(k, v)| (*k, v.clone())).collect(),
+            })
+            .collect(),
     }
 }
 
@@ -827,6 +846,7 @@ mod tests {
                     message: "general".into(),
                 },
             ],
+            carry_over: Vec::new(),
         };
         let outcome = Outcome {
             echoes: vec![FieldEcho {
