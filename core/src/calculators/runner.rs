@@ -659,17 +659,17 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         };
         shapes.push(Shape::Text {
             at: [0.5 * t.u, yb - 0.45 * gap],
-            text: format!("u{n} {}", fmt(t.u)),
+            text: format!("u{n}"),
             style: ShapeStyle::Label,
         });
         shapes.push(Shape::Text {
             at: beside(o, v_tip, 0.08 * biggest),
-            text: format!("V{n} {}", fmt(t.v())),
+            text: format!("V{n}"),
             style: ShapeStyle::Label,
         });
         shapes.push(Shape::Text {
             at: beside(u_tip, v_tip, 0.08 * biggest),
-            text: format!("W{n} {}", fmt(t.w())),
+            text: format!("W{n}"),
             style: ShapeStyle::Label,
         });
         // Swirl below the blade-speed line, with a guide from the apex.
@@ -696,7 +696,7 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         let right = t.u.max(t.vtheta).max(0.0);
         shapes.push(Shape::Text {
             at: [0.5 * (left + right), yb + t.vm.max(0.0) + 0.12 * biggest],
-            text: format!("{place}: Vm{n} {}", fmt(t.vm)),
+            text: place.to_string(),
             style: ShapeStyle::Label,
         });
     }
@@ -706,7 +706,7 @@ fn triangles_diagram(t1: &Triangle, t2: &Triangle, report: &Report<'_>) -> Diagr
         bounds,
         shapes,
         caption: format!(
-            "Drawn in velocity space, not runner geometry: both triangles to one velocity scale, x along the blade motion u, y the meridional (through-flow) component V_m. V = u + W, with V the absolute velocity (momentum-flux colour: the flux is ṁV) and W the velocity relative to the blades (flow colour); the swirl V_θ, below each triangle, is the projection of V on u. Largest velocity shown: {}.",
+            "Drawn in velocity space, not runner geometry: both triangles to one velocity scale, x along the blade motion u, y the meridional (through-flow) component V_m. V = u + W, with V the absolute velocity (momentum-flux colour: the flux is ṁV) and W the velocity relative to the blades (flow colour); the swirl V_θ, below each triangle, is the projection of V on u. Magnitudes are in the table above; largest velocity shown: {}.",
             fmt(biggest)
         ),
     }
