@@ -8,8 +8,9 @@
 //!
 //! `test` is the project's one test command on a fresh Debian 12 machine: it adds
 //! the wasm target when missing, installs Chromium (as root, from Debian) when
-//! `/usr/bin/chromium` is missing, then runs `cargo test --workspace` with the
-//! output passed through and exits with its status.
+//! `/usr/bin/chromium` is missing, builds the site once (so a broken build shows
+//! plainly and the sizes are in the log), then runs `cargo test --workspace` with
+//! the output passed through and exits with its status.
 //!
 //! Why the tests run in the dev profile and not `--release`: the release profile
 //! has `panic = "abort"`, and cargo builds test harnesses and every crate they link
@@ -33,8 +34,8 @@ commands:
                                                     (default 127.0.0.1, port 8080)
         --site-dir DIR  (build, serve)              site sources: DIR/assets and DIR/notes
                                                     (default: site/ of the workspace)
-  test                                              install what the tests need, then
-                                                    run `cargo test --workspace`
+  test [--out DIR]                                  install what the tests need, build the
+                                                    site into DIR, run `cargo test --workspace`
   help                                              show this text
 ";
 
@@ -70,7 +71,7 @@ fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Arg
                 .ok_or_else(|| format!("{name} needs a value"))
         };
         match (parsed.command.as_str(), name.as_str()) {
-            ("build" | "serve", "--out") => parsed.out = PathBuf::from(value()?),
+            ("build" | "serve" | "test", "--out") => parsed.out = PathBuf::from(value()?),
             ("build" | "serve", "--site-dir") => parsed.site_dir = Some(PathBuf::from(value()?)),
             ("serve", "--addr") => {
                 let text = value()?;
@@ -111,7 +112,7 @@ fn main() -> ExitCode {
             server.wait();
             Ok(ExitCode::SUCCESS)
         }),
-        "test" => run_tests(&options.root),
+        "test" => run_tests(&args.out, &options),
         "help" | "--help" | "-h" => {
             print!("{USAGE}");
             Ok(ExitCode::SUCCESS)
@@ -200,9 +201,14 @@ fn ensure_chromium() -> Result<(), SiteError> {
     Ok(())
 }
 
-fn run_tests(root: &Path) -> Result<ExitCode, SiteError> {
+fn run_tests(out: &Path, options: &BuildOptions) -> Result<ExitCode, SiteError> {
+    let root = &options.root;
     wasm_build::ensure_wasm_target(true)?;
     ensure_chromium()?;
+    // Build the site once up front: a broken build (missing note, bad formula,
+    // missing placeholder) shows here plainly, the sizes land in the log, and the
+    // browser tests' own builds find the wasm module already compiled.
+    build(out, options)?;
     let display = "cargo test --workspace";
     eprintln!("running: {display}");
     let status = Command::new(wasm_build::cargo_program())
