@@ -670,7 +670,7 @@ function labelLayout(label) {
     else if (label.ux < -0.3) anchor = "end";
     if (Math.abs(label.uy) > Math.abs(label.ux)) baseline = label.uy > 0 ? "auto" : "hanging";
   }
-  const w = Math.max(...label.lines.map((line) => Array.from(line).length)) * LABEL_PX * 0.6;
+  const w = Math.max(...label.lines.map((line) => Array.from(line).length)) * LABEL_PX * 0.64;
   const h = LABEL_PX * 1.2 * label.lines.length + LABEL_PX * 0.05;
   const x0 = anchor === "start" ? 0 : anchor === "end" ? -w : -w / 2;
   const y0 = baseline === "auto" ? -h * 0.85 : baseline === "hanging" ? 0 : -h / 2;
@@ -747,24 +747,48 @@ function renderDiagram(diagram, index, width) {
   const maxH = Math.max(260, Math.min(560, (window.innerHeight || 800) * 0.7));
   let view = [minX - pad, minY - pad, maxX + pad, maxY + pad];
   let scale = 1;
-  for (let round = 0; round < 4; round += 1) {
-    scale = Math.min(width / (view[2] - view[0]), maxH / (view[3] - view[1]));
+  // Force labels are placed first; a label that would overlap one already placed
+  // moves outward along its arrow (plain text moves down) until it is clear.
+  const priority = (label) => (label.style === "restraint" || label.style === "thrust" ? 0 : label.plain ? 2 : 1);
+  labels.sort((a, b) => priority(a) - priority(b));
+  const overlaps = (a, b) => a[0] < b[2] && b[0] < a[2] && a[1] < b[3] && b[1] < a[3];
+  const fit = (v) => Math.min(width / (v[2] - v[0]), maxH / (v[3] - v[1]));
+  /** Places every label at `scale` and returns the view that holds them all. */
+  const place = (scale) => {
     const next = [minX - pad, minY - pad, maxX + pad, maxY + pad];
+    const placed = [];
     for (const label of labels) {
       const gap = label.plain ? 0 : 6 / scale;
-      const x = label.at[0] + label.ux * gap;
-      const y = label.at[1] + label.uy * gap;
+      let x = label.at[0] + label.ux * gap;
+      let y = label.at[1] + label.uy * gap;
+      const [bx0, by0, bx1, by1] = label.box;
+      // Screen box (px, y down) of the label at model point (x, y), 2 px clear.
+      const screen = () => [x * scale + bx0 - 2, -y * scale + by0 - 2, x * scale + bx1 + 2, -y * scale + by1 + 2];
+      const [mx, my] = label.plain || (label.ux === 0 && label.uy === 0) ? [0, -1] : [label.ux, label.uy];
+      // Try further out along the arrow, then to either side of it, 5 px a step.
+      const start = [x, y];
+      const tries = [[0, 0]];
+      for (let k = 1; k <= 16; k += 1) tries.push([mx * k, my * k], [-my * k, mx * k], [my * k, -mx * k]);
+      for (const [tx, ty] of tries) {
+        x = start[0] + (tx * 5) / scale;
+        y = start[1] + (ty * 5) / scale;
+        if (!placed.some((box) => overlaps(box, screen()))) break;
+      }
+      placed.push(screen());
       label.x = x;
       label.y = y;
-      const [bx0, by0, bx1, by1] = label.box;
       next[0] = Math.min(next[0], x + bx0 / scale - 3 / scale);
       next[2] = Math.max(next[2], x + bx1 / scale + 3 / scale);
       next[1] = Math.min(next[1], y - by1 / scale - 3 / scale);
       next[3] = Math.max(next[3], y - by0 / scale + 3 / scale);
     }
-    view = next;
-  }
-  scale = Math.min(width / (view[2] - view[0]), maxH / (view[3] - view[1]));
+    return next;
+  };
+  for (let round = 0; round < 4; round += 1) view = place(fit(view));
+  // Last placement at the scale drawn; if it grows the view a little, the figure
+  // is scaled down to fit by CSS (max-width: 100%).
+  scale = fit(view);
+  view = place(scale);
   const px = (n) => n / scale; // screen px -> model units
   const vbW = view[2] - view[0];
   const vbH = view[3] - view[1];
