@@ -487,6 +487,6 @@ mod measure {
         }
         let _turn = one_at_a_time();
         let site = fixture();
-        harness::print_measurements(&site).unwrap_or_else(|e| panic!("{e}"));
+        harness::print_measurements(site).unwrap_or_else(|e| panic!("{e}"));
     }
 }
