@@ -254,8 +254,9 @@ pub fn print_measurements(site: &Fixture) -> Result<(), String> {
             .map(|a| a.iter().filter_map(Value::as_f64).collect())
             .unwrap_or_default();
         let max = times.iter().copied().fold(0.0, f64::max);
+        let min = times.iter().copied().fold(f64::INFINITY, f64::min);
         println!(
-            "  recompute after a keystroke, CPU {rate}x: median {:.2} ms, max {max:.2} ms (40 edits)",
+            "  recompute after a keystroke, CPU {rate}x: min {min:.2} ms, median {:.2} ms, max {max:.2} ms (40 edits)",
             median(&mut times)
         );
     }
