@@ -263,8 +263,8 @@ mod tests {
         assert_eq!(at(0.1, 0.9), [TILE[0], TILE[1], TILE[2], 255], "plain tile");
         assert_eq!(at(0.25, 0.34), [PIPE[0], PIPE[1], PIPE[2], 255], "on the inlet leg");
         let arc_45 = [
-            BEND_CENTRE[0] + BEND_RADIUS * 0.7071,
-            BEND_CENTRE[1] - BEND_RADIUS * 0.7071,
+            BEND_CENTRE[0] + BEND_RADIUS * std::f64::consts::FRAC_1_SQRT_2,
+            BEND_CENTRE[1] - BEND_RADIUS * std::f64::consts::FRAC_1_SQRT_2,
         ];
         assert_eq!(at(arc_45[0], arc_45[1]), [PIPE[0], PIPE[1], PIPE[2], 255], "on the arc");
         assert_eq!(
