@@ -19,8 +19,8 @@ use serde::Serialize;
 
 use fluxledger_core::calculators::{self, Outcome};
 use fluxledger_core::catalog::{
-    CalculatorSpec, Diagram, FieldEcho, FieldKind, FieldSpec, OutputSpec, OutputValue, Plot, Shape,
-    ShapeStyle, Solution, Table, Warning, COMMON_CAUTIONS,
+    CalculatorSpec, Diagram, FieldEcho, FieldKind, FieldSpec, OutputSpec, OutputValue, Plot, Shape, ShapeStyle,
+    Solution, Table, Warning, COMMON_CAUTIONS,
 };
 use fluxledger_core::units::{self, QuantityKind, UnitSystem};
 use fluxledger_core::{FieldError, SolveError};
@@ -496,21 +496,12 @@ pub fn shape_view(shape: &Shape) -> ShapeView {
             points: points(ps),
             style: style_view(*style),
         },
-        Shape::Circle {
-            center,
-            radius,
-            style,
-        } => ShapeView::Circle {
+        Shape::Circle { center, radius, style } => ShapeView::Circle {
             center: point(*center),
             radius: num(*radius),
             style: style_view(*style),
         },
-        Shape::Arrow {
-            from,
-            to,
-            label,
-            style,
-        } => ShapeView::Arrow {
+        Shape::Arrow { from, to, label, style } => ShapeView::Arrow {
             from: point(*from),
             to: point(*to),
             label: label.clone(),
@@ -681,9 +672,7 @@ mod tests {
         let spec = sample_spec();
         let view = to_json(&calculator_view(&spec));
         let q = &view["fields"][0];
-        let expected_units: Vec<&str> = units::units_of(QuantityKind::VolumeFlow)
-            .map(|u| u.id)
-            .collect();
+        let expected_units: Vec<&str> = units::units_of(QuantityKind::VolumeFlow).map(|u| u.id).collect();
         assert!(!expected_units.is_empty());
         assert_eq!(q["kind"], json!("quantity"));
         assert_eq!(q["quantity"], json!("volume_flow"));
@@ -714,10 +703,7 @@ mod tests {
         let note = &view["fields"][2];
         assert_eq!(note["kind"], json!("text"));
         assert_eq!(note["optional"], json!(true));
-        assert_eq!(
-            note["visible_when"],
-            json!({"field": "layout", "values": ["vertical"]})
-        );
+        assert_eq!(note["visible_when"], json!({"field": "layout", "values": ["vertical"]}));
     }
 
     #[test]
@@ -859,10 +845,7 @@ mod tests {
         let view = to_json(&solve_view(&outcome, Some(&sample_spec())));
         assert_eq!(view["ok"], json!(true));
         assert!(view.get("errors").is_none());
-        assert_eq!(
-            view["echoes"],
-            json!([{"field": "q", "number": "120", "unit": "m3/h"}])
-        );
+        assert_eq!(view["echoes"], json!([{"field": "q", "number": "120", "unit": "m3/h"}]));
         assert_eq!(
             view["outputs"][0],
             json!({"key": "f", "label": "Restraint force", "text": "12.4 kN", "si": 12400.0, "headline": true})
@@ -919,10 +902,7 @@ mod tests {
         let view = to_json(&solve_view(&outcome, Some(&spec)));
         assert_eq!(view["ok"], json!(false));
         assert!(view.get("outputs").is_none());
-        assert_eq!(
-            view["echoes"],
-            json!([{"field": "q", "number": "-3", "unit": "m3/h"}])
-        );
+        assert_eq!(view["echoes"], json!([{"field": "q", "number": "-3", "unit": "m3/h"}]));
         assert_eq!(
             view["errors"],
             json!([
@@ -930,6 +910,36 @@ mod tests {
                 {"field": "mystery", "label": "mystery", "message": FieldErrorKind::Missing.to_string()},
             ])
         );
+    }
+
+    /// Every registered calculator, solved on its own demo inputs in both unit
+    /// systems, comes out as `ok: true` with one numeric `si` per reported output
+    /// and only output keys its spec describes.
+    #[test]
+    fn every_calculator_demo_maps_to_a_solved_view() {
+        for spec in calculators::catalog() {
+            for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                let request = fluxledger_core::Request {
+                    inputs: fluxledger_core::catalog::demo_inputs(&spec),
+                    units: Default::default(),
+                    system,
+                };
+                let outcome = fluxledger_core::solve(spec.key, &request);
+                let view = to_json(&solve_view(&outcome, Some(&spec)));
+                assert_eq!(view["ok"], json!(true), "{} ({system:?}): {view}", spec.key);
+                let outputs = view["outputs"].as_array().cloned().unwrap_or_default();
+                assert!(!outputs.is_empty(), "{}: no outputs", spec.key);
+                for output in outputs {
+                    assert!(output["si"].is_f64(), "{}: {output}", spec.key);
+                    let key = output["key"].as_str().unwrap_or_default();
+                    assert!(
+                        spec.outputs.iter().any(|o| o.key == key),
+                        "{}: undescribed output {key}",
+                        spec.key
+                    );
+                }
+            }
+        }
     }
 
     #[test]
