@@ -190,6 +190,107 @@ mod url_state {
             Duration::from_secs(5),
         )
         .unwrap();
+
+        // A field shown only for one choice: velocity appears, flow hides.
+        let shown = "' ' + [...document.querySelectorAll('[data-field]')].filter(e => !e.hidden).map(e => e.dataset.field).join(' ') + ' '";
+        let before_basis = page.eval(&mut browser, shown).unwrap();
+        assert!(
+            before_basis
+                .as_str()
+                .is_some_and(|f| f.contains(" q ") && !f.contains(" v ")),
+            "{before_basis}"
+        );
+        page.eval(
+            &mut browser,
+            "(() => { const s = document.getElementById('field-flow_basis'); s.value = 'v'; s.dispatchEvent(new Event('change', {bubbles: true})); })()",
+        )
+        .unwrap();
+        let after_basis = page.eval(&mut browser, shown).unwrap();
+        assert!(
+            after_basis
+                .as_str()
+                .is_some_and(|f| f.contains(" v ") && !f.contains(" q ")),
+            "{after_basis}"
+        );
+        let state = page.eval(&mut browser, "document.body.dataset.state").unwrap();
+        let error = page
+            .eval(&mut browser, "document.querySelector('[data-error-for=v]').textContent")
+            .unwrap();
+        assert_eq!(state, "error", "an empty required velocity is an error");
+        assert!(
+            error.as_str().is_some_and(|e| e.contains("required")),
+            "error next to the field: {error}"
+        );
+        page.eval(
+            &mut browser,
+            "(() => { const i = document.getElementById('field-v'); i.focus(); i.select(); })()",
+        )
+        .unwrap();
+        page.call(
+            &mut browser,
+            "Input.insertText",
+            serde_json::json!({ "text": "2.5 m/s" }),
+        )
+        .unwrap();
+        page.wait_for(
+            &mut browser,
+            "document.body.dataset.state === 'ready'",
+            Duration::from_secs(5),
+        )
+        .unwrap();
+        page.wait_for(
+            &mut browser,
+            "location.search.includes('v=2.5m%2Fs')",
+            Duration::from_secs(5),
+        )
+        .unwrap();
+
+        // The page-level unit system: results in US customary units, kept in the URL.
+        page.eval(
+            &mut browser,
+            "document.querySelector('input[name=unit-system][value=us]').click()",
+        )
+        .unwrap();
+        page.wait_for(
+            &mut browser,
+            "location.search.includes('units=us')",
+            Duration::from_secs(5),
+        )
+        .unwrap();
+        let thrust = page
+            .eval(
+                &mut browser,
+                "document.querySelector('[data-output=thrust]').textContent",
+            )
+            .unwrap();
+        assert!(
+            thrust.as_str().is_some_and(|t| t.ends_with(" lbf")),
+            "thrust in US units: {thrust}"
+        );
+
+        // Copy link: the clipboard, or (where it is refused) a selected read-only field.
+        page.eval(
+            &mut browser,
+            "[...document.querySelectorAll('button')].find(b => b.textContent === 'Copy link').click()",
+        )
+        .unwrap();
+        page.wait_for(
+            &mut browser,
+            "document.querySelector('.copy-status').textContent !== ''",
+            Duration::from_secs(5),
+        )
+        .unwrap();
+        let copied = page
+            .eval(
+                &mut browser,
+                "(() => { const f = document.querySelector('.copy-field'); return f.hidden ? document.querySelector('.copy-status').textContent : f.value === location.href; })()",
+            )
+            .unwrap();
+        assert!(
+            copied == Value::Bool(true) || copied == "Link copied.",
+            "copy link: {copied}"
+        );
+
         let edited = page.eval(&mut browser, OUTPUTS).unwrap();
         let url = page.eval(&mut browser, "location.href").unwrap();
 
@@ -217,6 +318,27 @@ mod url_state {
             page.eval(&mut browser, "document.getElementById('field-plane').value")
                 .unwrap(),
             "vertical_up"
+        );
+        assert_eq!(
+            page.eval(&mut browser, "document.getElementById('field-v').value")
+                .unwrap(),
+            "2.5"
+        );
+        assert_eq!(
+            page.eval(
+                &mut browser,
+                "document.querySelector('[data-field=v] select.unit').value"
+            )
+            .unwrap(),
+            "m/s"
+        );
+        assert_eq!(
+            page.eval(
+                &mut browser,
+                "document.querySelector('input[name=unit-system]:checked').value"
+            )
+            .unwrap(),
+            "us"
         );
         assert_eq!(
             page.eval(&mut browser, "document.getElementById('notices').childElementCount")
