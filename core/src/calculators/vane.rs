@@ -421,7 +421,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("mass_flow_turned", state.mass_turned);
     report.output("w_in", w1);
     report.output("w_out", state.w_out.norm());
-    report.output("v_out", state.v_out.norm());
+    // Below the 1e-9·V floor of the wheel's exit sheet the water leaves at rest.
+    let v_out = if state.v_out.norm() > 1e-9 * v {
+        state.v_out.norm()
+    } else {
+        0.0
+    };
+    report.output("v_out", v_out);
     if state.v_out.norm() > 1e-9 * v {
         report.output("v_out_angle", state.v_out.plane_angle());
     }
@@ -438,14 +444,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("density", rho);
 
     common::forward_warnings(&state.balance, report);
-    if mode == Mode::Wheel && u == v {
+    if mode == Mode::Wheel && v - u <= 1e-9 * v {
         report.warn(
             Some("u"),
             "the blade speed equals the jet speed: this is the ideal wheel's runaway speed; no water is turned, no force acts and no power is delivered",
         );
-    }
-    if mode == Mode::Fixed && values.is_set("u") && values.quantity_or("u", 0.0) > 0.0 {
-        report.warn(Some("u"), "a fixed vane does not move: the blade speed is not used");
     }
     if mode != Mode::Fixed && u == 0.0 {
         report.warn(
@@ -791,8 +794,8 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
     let scale = if v > 0.0 { 4.0 * d / v } else { 0.0 };
     let fmt_v = |x: f64| report.fmt(x, Q::Velocity);
     shapes.push(Shape::Arrow {
-        from: [-lead + 0.2 * d, 1.5 * d],
-        to: [-lead + 0.2 * d + v * scale, 1.5 * d],
+        from: [-lead + 0.2 * d, -1.5 * d],
+        to: [-lead + 0.2 * d + v * scale, -1.5 * d],
         label: format!("V = {}", fmt_v(v)),
         style: ShapeStyle::Velocity,
     });
@@ -804,27 +807,51 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
             label: format!("vane moves at u = {}", fmt_v(state.u)),
             style: ShapeStyle::Velocity,
         });
-        let tip_w = exit + state.w_out * scale;
-        if state.w_out.norm() * scale > 1e-9 {
-            shapes.push(Shape::Arrow {
-                from: exit.xy(),
-                to: tip_w.xy(),
-                label: format!("W₂ = {}", fmt_v(state.w_out.norm())),
-                style: ShapeStyle::Flow,
-            });
-        }
-        shapes.push(Shape::Arrow {
-            from: tip_w.xy(),
-            to: (tip_w + Vec3::new(state.u * scale, 0.0, 0.0)).xy(),
-            label: "u".to_string(),
-            style: ShapeStyle::Flow,
+        // The exit velocity triangle, drawn beside the vane at twice the scale:
+        // V₂ = W₂ + u.
+        let big = 2.0 * scale;
+        // Clear of the vane: a relative velocity leaving backwards (θ > 90°) points
+        // left, so the triangle starts further right.
+        let origin = Vec3::new(
+            radius + 2.0 * d + (-state.w_out.x * big).max(0.0),
+            2.0 * radius + 0.5 * d,
+            0.0,
+        );
+        let tip_w = origin + state.w_out * big;
+        let tip_v = tip_w + Vec3::new(state.u * big, 0.0, 0.0);
+        shapes.push(Shape::Text {
+            at: (origin - Vec3::new(0.0, 1.0 * d, 0.0)).xy(),
+            text: "exit triangle (2 × scale)".to_string(),
+            style: ShapeStyle::Label,
         });
-        if state.v_out.norm() * scale > 1e-9 {
+        // Sides unlabelled; each name sits beside the middle of its side, outside the
+        // triangle, so that the names do not pile up at the shared corners.
+        let centroid = (origin + tip_w + tip_v) * (1.0 / 3.0);
+        let sides = [
+            (origin, tip_w, "W₂".to_string(), ShapeStyle::Flow),
+            (tip_w, tip_v, "u".to_string(), ShapeStyle::Flow),
+            (origin, tip_v, "V₂".to_string(), ShapeStyle::Velocity),
+        ];
+        for (from, to, label, style) in sides {
+            if (to - from).norm() < 1e-9 {
+                continue;
+            }
             shapes.push(Shape::Arrow {
-                from: exit.xy(),
-                to: (exit + state.v_out * scale).xy(),
-                label: format!("V₂ = {}", fmt_v(state.v_out.norm())),
-                style: ShapeStyle::Velocity,
+                from: from.xy(),
+                to: to.xy(),
+                label: String::new(),
+                style,
+            });
+            let mid = (from + to) * 0.5;
+            let along = to - from;
+            let mut normal = Vec3::new(-along.y, along.x, 0.0) * (1.0 / along.norm());
+            if normal.dot(mid - centroid) < 0.0 {
+                normal = -normal;
+            }
+            shapes.push(Shape::Text {
+                at: (mid + normal * (0.5 * d)).xy(),
+                text: label,
+                style: ShapeStyle::Label,
             });
         }
     } else {
@@ -860,11 +887,6 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
         Mode::Wheel => "one bucket of the wheel",
     };
     shapes.push(Shape::Text {
-        at: [-lead - 1.2 * d, -2.2 * d],
-        text: "nozzle".to_string(),
-        style: ShapeStyle::Label,
-    });
-    shapes.push(Shape::Text {
         at: [-lead - 1.2 * d, 3.0 * d],
         text: format!("{name}, θ = {}", report.fmt(vane.theta, Q::Angle)),
         style: ShapeStyle::Label,
@@ -874,7 +896,7 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
         title: "Jet on a vane: control volume, velocities and force".to_string(),
         bounds,
         shapes,
-        caption: "Schematic: the jet and vane are drawn to scale with the jet diameter, the vane's radius is not. Velocity arrows share one scale (the jet speed V); at the exit, the relative velocity W₂ plus the blade speed u gives the absolute velocity V₂. The force arrow is the force of the water on the vane; the mounting or the shaft supplies the opposite.".to_string(),
+        caption: "Schematic: the jet and vane are drawn to scale with the jet diameter, the vane's radius is not. Velocity arrows share one scale (the jet speed V), except the exit triangle beside the vane, drawn at twice that scale: the relative velocity W₂ plus the blade speed u gives the absolute velocity V₂ of the water leaving. The force arrow is the force of the water on the vane; the mounting or the shaft supplies the opposite.".to_string(),
     }
 }
 
