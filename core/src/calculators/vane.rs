@@ -775,7 +775,7 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
     });
     // Control volume: around the vane, cutting the jet and the leaving sheet.
     let m = 0.4 * d;
-    let mut cv_points = vec![[-1.0 * d, 0.5 * d + m], [-1.0 * d, -0.5 * d - m]];
+    let mut cv_points = vec![[-d, 0.5 * d + m], [-d, -0.5 * d - m]];
     for i in 0..=steps {
         let a = a0 + (a1 - a0) * i as f64 / steps as f64;
         let r = radius + 0.5 * d + thickness + m;
