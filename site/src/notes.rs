@@ -7,8 +7,11 @@
 //! error naming the note and the formula, never red text on a page.
 //!
 //! Two adjustments keep notes inside the page's frame:
-//! - headings move one level down (a note's `#` becomes `<h2>`), because the page
-//!   title is the page's one `<h1>`;
+//! - headings are shifted so that the note's top level becomes `<h2>` (whether
+//!   the note starts at `#` or `##`), because the page title is the one `<h1>`;
+//!   a note that opens with a heading gets no extra "Method" heading from the page;
+//! - the no-break space of `\ ` and `~`, which pulldown-latex 0.8 writes as
+//!   escaped entity text, is written as a real no-break space;
 //! - `style="..."` attributes that the converter writes for a few rare constructs
 //!   (negative spaces, coloured text) are dropped, since the page's content security
 //!   policy (`style-src 'self'`) would block them and log an error. Raw HTML in a
@@ -29,6 +32,14 @@ use crate::error::SiteError;
 pub fn render_note(markdown: &str, path: &Path) -> Result<String, SiteError> {
     let options =
         Options::ENABLE_MATH | Options::ENABLE_TABLES | Options::ENABLE_FOOTNOTES | Options::ENABLE_STRIKETHROUGH;
+    // The note's top heading level becomes <h2> (the page title is the one <h1>).
+    let top_level = Parser::new_ext(markdown, options)
+        .filter_map(|event| match event {
+            Event::Start(Tag::Heading { level, .. }) => Some(level as usize),
+            _ => None,
+        })
+        .min()
+        .unwrap_or(1);
     let mut events = Vec::new();
     let mut in_code_block = false;
     for (event, range) in Parser::new_ext(markdown, options).into_offset_iter() {
@@ -70,12 +81,12 @@ pub fn render_note(markdown: &str, path: &Path) -> Result<String, SiteError> {
                 classes,
                 attrs,
             }) => Event::Start(Tag::Heading {
-                level: demote(level),
+                level: shift(level, top_level),
                 id,
                 classes,
                 attrs,
             }),
-            Event::End(TagEnd::Heading(level)) => Event::End(TagEnd::Heading(demote(level))),
+            Event::End(TagEnd::Heading(level)) => Event::End(TagEnd::Heading(shift(level, top_level))),
             other => other,
         };
         events.push(event);
@@ -109,13 +120,14 @@ fn has_unescaped_dollar(source: &str) -> bool {
     false
 }
 
-fn demote(level: HeadingLevel) -> HeadingLevel {
-    match level {
-        HeadingLevel::H1 => HeadingLevel::H2,
-        HeadingLevel::H2 => HeadingLevel::H3,
-        HeadingLevel::H3 => HeadingLevel::H4,
-        HeadingLevel::H4 => HeadingLevel::H5,
-        HeadingLevel::H5 | HeadingLevel::H6 => HeadingLevel::H6,
+/// Moves a heading so that the note's `top` level becomes level 2.
+fn shift(level: HeadingLevel, top: usize) -> HeadingLevel {
+    match (level as usize + 2).saturating_sub(top).clamp(2, 6) {
+        2 => HeadingLevel::H2,
+        3 => HeadingLevel::H3,
+        4 => HeadingLevel::H4,
+        5 => HeadingLevel::H5,
+        _ => HeadingLevel::H6,
     }
 }
 
@@ -170,7 +182,10 @@ pub fn latex_to_mathml(tex: &str, display: bool, path: &Path) -> Result<String, 
     let mut mathml = String::new();
     pulldown_latex::push_mathml(&mut mathml, events.into_iter(), config)
         .map_err(|e| SiteError::content(path, format!("cannot write MathML for `{}`: {e}", tex.trim())))?;
-    Ok(strip_style_attributes(&mathml))
+    // pulldown-latex 0.8 writes the no-break space of `\ `, `~` and
+    // `\nobreakspace` as an escaped entity (`&amp;nbsp;`), which a page would show
+    // as text; it means a no-break space.
+    Ok(strip_style_attributes(&mathml).replace("&amp;nbsp;", "&#160;"))
 }
 
 /// The first `&name;` or `&#...;` HTML entity in a formula, if any.
@@ -300,6 +315,25 @@ mod tests {
             Path::new("n.md")
         )
         .is_ok());
+    }
+
+    #[test]
+    fn a_note_whose_top_headings_are_level_two_keeps_them_at_level_two() {
+        let html = render("## Method\n\ntext\n\n### Detail\n\n## Sources\n");
+        assert!(html.starts_with("<h2>Method</h2>"), "{html}");
+        assert!(
+            html.contains("<h3>Detail</h3>") && html.contains("<h2>Sources</h2>"),
+            "{html}"
+        );
+    }
+
+    #[test]
+    fn control_and_tie_spaces_are_no_break_spaces_not_entity_text() {
+        for tex in [r"3.13\ \mathrm{m/s}", r"3.13~\mathrm{m/s}"] {
+            let mathml = latex_to_mathml(tex, false, Path::new("n.md")).unwrap_or_else(|e| panic!("{e}"));
+            assert!(!mathml.contains("&amp;"), "{tex}: {mathml}");
+            assert!(mathml.contains("&#160;"), "{tex}: {mathml}");
+        }
     }
 
     #[test]
