@@ -170,7 +170,7 @@ pub fn spec() -> CalculatorSpec {
         cautions: vec![
             "Idealised jet: no spreading, windage, spray or splash, and the jet's weight neglected. Real vanes and buckets lose more than the factor k suggests (friction, windage, interference between buckets, water leaving at an angle): treat power and efficiency as upper bounds.",
             "Anything that spins needs guards and overspeed protection. An unloaded wheel runs up towards the jet speed at the buckets (runaway); check the runner, bearings and coupling for runaway speed and keep people clear of the jet and the wheel.",
-            "A single vane on a carriage (a test rig) must be stopped before it leaves the jet; the force reverses nothing but the load on its stops can be the full fixed-vane force.",
+            "A single vane on a carriage (a test rig) needs end stops that hold the full fixed-vane force: held still, the vane takes the most force.",
             "Defer to the machine manufacturer's ratings and to a licensed engineer for the vane, wheel, housing and foundations.",
         ],
     }
