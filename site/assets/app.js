@@ -382,10 +382,11 @@ function buildField(field) {
     control.value = state.values[field.key] ?? "";
     entry.append(control);
   } else if (field.kind === "text") {
+    const lines = (state.values[field.key] ?? "").split("\n").length;
     control = el("textarea", {
       id,
       name: field.key,
-      rows: 4,
+      rows: Math.max(4, Math.min(14, lines + 1)),
       spellcheck: "false",
       autocapitalize: "off",
       autocomplete: "off",
