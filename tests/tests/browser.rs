@@ -587,6 +587,19 @@ mod offline {
             "thrust not shown in US units offline: {thrust}"
         );
 
+        // Every other page was stored on the first visit too: the site root and
+        // each calculator open offline and compute their demo.
+        page.goto(&mut browser, &format!("{base}/"))
+            .unwrap_or_else(|e| panic!("offline site root: {e}"));
+        let contents = page.eval(&mut browser, "document.body.dataset.page ?? ''").unwrap();
+        assert_eq!(contents, "contents", "the site root offline is the contents page");
+        for calculator in fluxledger_core::calculators::CALCULATORS {
+            page.goto(&mut browser, &format!("{base}/{}.html", calculator.key))
+                .unwrap_or_else(|e| panic!("offline {}: {e}", calculator.key));
+            let state = page.wait_rendered(&mut browser).unwrap();
+            assert_eq!(state, "ready", "{}.html offline", calculator.key);
+        }
+
         // Errors from the deliberate failed probe are expected; nothing else.
         let errors: Vec<String> = page_errors(&browser, &page)
             .into_iter()
