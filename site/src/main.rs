@@ -34,6 +34,8 @@ commands:
                                                     (default 127.0.0.1, port 8080)
         --site-dir DIR  (build, serve)              site sources: DIR/assets and DIR/notes
                                                     (default: site/ of the workspace)
+        --wasm-opt      (build, serve)              run wasm-opt -Os on the module when it is
+                                                    on PATH (off by default: see BuildOptions)
   test [--out DIR]                                  install what the tests need, build the
                                                     site into DIR, run `cargo test --workspace`
   help                                              show this text
@@ -48,6 +50,7 @@ struct Args {
     addr: IpAddr,
     port: u16,
     site_dir: Option<PathBuf>,
+    wasm_opt: bool,
 }
 
 fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Args, String> {
@@ -58,6 +61,7 @@ fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Arg
         addr: IpAddr::from([127, 0, 0, 1]),
         port: 8080,
         site_dir: None,
+        wasm_opt: false,
     };
     while let Some(flag) = args.next() {
         let (name, inline) = match flag.split_once('=') {
@@ -73,6 +77,7 @@ fn parse_args(mut args: impl Iterator<Item = String>, root: &Path) -> Result<Arg
         match (parsed.command.as_str(), name.as_str()) {
             ("build" | "serve" | "test", "--out") => parsed.out = PathBuf::from(value()?),
             ("build" | "serve", "--site-dir") => parsed.site_dir = Some(PathBuf::from(value()?)),
+            ("build" | "serve", "--wasm-opt") if inline.is_none() => parsed.wasm_opt = true,
             ("serve", "--addr") => {
                 let text = value()?;
                 parsed.addr = text
@@ -104,6 +109,7 @@ fn main() -> ExitCode {
         }
     };
     options.site_dir = args.site_dir.clone();
+    options.wasm_opt = args.wasm_opt;
     let result = match args.command.as_str() {
         "build" => build(&args.out, &options).map(|_| ExitCode::SUCCESS),
         "serve" => build(&args.out, &options).and_then(|_| {
@@ -245,6 +251,13 @@ mod tests {
         assert_eq!(args.port, 0);
         assert_eq!(args.addr, "::1".parse::<IpAddr>().expect("ip"));
         assert_eq!(args.out, PathBuf::from("/tmp/x"));
+    }
+
+    #[test]
+    fn wasm_opt_is_off_unless_asked() {
+        assert!(!parse(&["build"]).expect("valid").wasm_opt);
+        assert!(parse(&["build", "--wasm-opt"]).expect("valid").wasm_opt);
+        assert!(parse(&["build", "--wasm-opt=yes"]).is_err());
     }
 
     #[test]

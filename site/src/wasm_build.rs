@@ -6,7 +6,8 @@
 //! fluxledger-wasm`, then run wasm-bindgen *in process* through
 //! `wasm-bindgen-cli-support`, pinned in the workspace to the same exact version as
 //! the `wasm-bindgen` crate so that `Cargo.lock` guarantees they match. `wasm-opt`
-//! is used when it is on `PATH` and skipped otherwise; it is never required.
+//! runs only when asked (`--wasm-opt`) and found on `PATH`; it is never required
+//! (see [`crate::BuildOptions::wasm_opt`] for why it is off by default).
 //!
 //! The nested `cargo build` uses the workspace's own target folder. That is safe
 //! from inside `cargo run` and `cargo test`: both release cargo's build-folder lock
