@@ -656,6 +656,27 @@ function finite(...numbers) {
   return numbers.every((n) => typeof n === "number" && Number.isFinite(n));
 }
 
+/** Breaks text at spaces into lines of at most `max` characters (longer words stay whole). */
+function wrapWords(text, max) {
+  const lines = [];
+  let line = "";
+  for (const word of String(text).split(/\s+/).filter(Boolean)) {
+    if (line && Array.from(line).length + 1 + Array.from(word).length > max) {
+      lines.push(line);
+      line = word;
+    } else {
+      line = line ? `${line} ${word}` : word;
+    }
+  }
+  if (line) lines.push(line);
+  // A lone "=" or unit letter joins the line before it.
+  if (lines.length > 1 && Array.from(lines[lines.length - 1]).length <= 2) {
+    const last = lines.pop();
+    lines.push(`${lines.pop()} ${last}`);
+  }
+  return lines.length > 0 ? lines : [String(text)];
+}
+
 /** Screen size of diagram labels, in CSS pixels. */
 const LABEL_PX = 13;
 
@@ -734,11 +755,14 @@ function renderDiagram(diagram, index, width) {
         break;
     }
   }
-  // On narrow screens a label "name value unit" takes two lines (name, then value).
+  // On narrow screens a label "name value unit" puts its value on a line of its
+  // own, and long text is wrapped at spaces, so that labels do not shrink the
+  // drawing.
   const narrow = width < 480;
+  const maxChars = narrow ? 16 : 30;
   for (const label of labels) {
     const split = narrow ? /^(.*\S)\s+([-+]?[0-9][0-9.,]*(?:e[-+]?[0-9]+)?\s*\S+)$/.exec(label.text) : null;
-    label.lines = split ? [split[1], split[2]] : [label.text];
+    label.lines = split ? [...wrapWords(split[1], maxChars), split[2]] : wrapWords(label.text, maxChars);
     Object.assign(label, labelLayout(label));
   }
 
@@ -766,15 +790,26 @@ function renderDiagram(diagram, index, width) {
       // Screen box (px, y down) of the label at model point (x, y), 2 px clear.
       const screen = () => [x * scale + bx0 - 2, -y * scale + by0 - 2, x * scale + bx1 + 2, -y * scale + by1 + 2];
       const [mx, my] = label.plain || (label.ux === 0 && label.uy === 0) ? [0, -1] : [label.ux, label.uy];
-      // Try further out along the arrow, then to either side of it, 5 px a step.
+      // Try further out along the arrow (up to 60 px), or a little to either side
+      // (up to 20 px), 5 px a step; a label that finds no free place stays where
+      // it belongs rather than wander away from what it names.
       const start = [x, y];
       const tries = [[0, 0]];
-      for (let k = 1; k <= 16; k += 1) tries.push([mx * k, my * k], [-my * k, mx * k], [my * k, -mx * k]);
+      const along = label.plain ? 4 : 12;
+      for (let k = 1; k <= along; k += 1) {
+        tries.push([mx * k, my * k]);
+        if (k <= 4) tries.push([-my * k, mx * k], [my * k, -mx * k]);
+      }
+      let free = false;
       for (const [tx, ty] of tries) {
         x = start[0] + (tx * 5) / scale;
         y = start[1] + (ty * 5) / scale;
-        if (!placed.some((box) => overlaps(box, screen()))) break;
+        if (!placed.some((box) => overlaps(box, screen()))) {
+          free = true;
+          break;
+        }
       }
+      if (!free) [x, y] = start;
       placed.push(screen());
       label.x = x;
       label.y = y;
@@ -785,11 +820,15 @@ function renderDiagram(diagram, index, width) {
     }
     return next;
   };
-  for (let round = 0; round < 4; round += 1) view = place(fit(view));
-  // Last placement at the scale drawn; if it grows the view a little, the figure
-  // is scaled down to fit by CSS (max-width: 100%).
-  scale = fit(view);
-  view = place(scale);
+  // The view only grows, so the scale only shrinks and this settles; it stops when
+  // the labels placed at the scale drawn fit inside the view.
+  const eps = 1e-9 * Math.max(maxX - minX, maxY - minY);
+  for (let round = 0; round < 12; round += 1) {
+    scale = fit(view);
+    const next = place(scale);
+    if (next[0] >= view[0] - eps && next[1] >= view[1] - eps && next[2] <= view[2] + eps && next[3] <= view[3] + eps) break;
+    view = [Math.min(view[0], next[0]), Math.min(view[1], next[1]), Math.max(view[2], next[2]), Math.max(view[3], next[3])];
+  }
   const px = (n) => n / scale; // screen px -> model units
   const vbW = view[2] - view[0];
   const vbH = view[3] - view[1];
