@@ -294,6 +294,39 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.solution.carry_over.push(carry);
 
     let system = report.system();
+    let equal = (d_in - d_out).abs() <= 1e-9 * d_in;
+    let direction = if equal && p_in > 0.0 {
+        "along the bisector of the bend, away from its centre (equal sizes; flow and weight tilt it slightly, see the angle)"
+    } else {
+        "as given by the angle: a reducing bend's thrust leaves the bisector"
+    };
+    let loss = if k > 0.0 {
+        format!(
+            "K = {} on the inlet velocity (method as typed)",
+            crate::units::format_significant(k, 3)
+        )
+    } else {
+        "none".to_string()
+    };
+    let plane_text = match plane {
+        "vertical_up" => "vertical, the line turning upward (a sag): fluid weight in the plane",
+        "vertical_down" => "vertical, the line turning downward (a crest): fluid weight in the plane",
+        _ => "horizontal: fluid weight normal to the plane (carried by the bedding)",
+    };
+    report.solution.tables.push(common::basis_table(vec![
+        (
+            "Pressure area",
+            "inside diameter (use the outside diameter for push-on and mechanical joints)".to_string(),
+        ),
+        (
+            "Pressure",
+            "gauge, at the inlet; outlet from the energy balance".to_string(),
+        ),
+        ("Direction of the thrust", direction.to_string()),
+        ("Plane", plane_text.to_string()),
+        ("Loss", loss),
+        ("Fluid", fluid.name.clone()),
+    ]));
     report.solution.tables.push(common::ledger_table(&balance, system));
     report.solution.tables.push(common::ports_table(&balance, system));
     let diagram = diagram(&geometry, &balance, report);
