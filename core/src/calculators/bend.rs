@@ -484,21 +484,12 @@ mod tests {
 
     #[test]
     fn carried_thrust_opens_the_restraint_page_with_the_same_force() {
-        let mut request = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
-            request.inputs.insert(k, v);
-        }
-        request.inputs.insert("plane".into(), "vertical_down".into());
+        let request = crate::catalog::demo_request(&super::spec(), &[("plane", "vertical_down")]);
         let s = crate::solve(super::KEY, &request).result.expect("solves");
         let thrust = s.output("thrust").unwrap().si;
         let carry = &s.carry_over[0];
-        let mut target = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&crate::calculators::spec(carry.calculator).unwrap()) {
-            target.inputs.insert(k, v);
-        }
-        for (k, v) in &carry.inputs {
-            target.inputs.insert(k.to_string(), v.clone());
-        }
+        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
         let block = crate::solve(carry.calculator, &target)
             .result
             .expect("restraint page solves");
@@ -514,11 +505,7 @@ mod tests {
 
     #[test]
     fn errors_name_the_field() {
-        let mut request = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
-            request.inputs.insert(k, v);
-        }
-        request.inputs.insert("d_in".into(), "5 psi".into());
+        let request = crate::catalog::demo_request(&super::spec(), &[("d_in", "5 psi")]);
         let outcome = crate::solve(super::KEY, &request);
         match outcome.result {
             Err(crate::SolveError::Fields(errors)) => assert_eq!(errors[0].field, "d_in"),

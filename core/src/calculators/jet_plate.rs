@@ -427,18 +427,12 @@ fn diagram(g: &Geometry, jet: &Jet, balance: &Balance, q_forward: f64, report: &
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::{demo_inputs, Request, Solution};
+    use crate::catalog::{Request, Solution};
     use crate::error::FieldErrorKind;
     use approx::assert_relative_eq;
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let mut request = Request::default();
-        for (k, v) in demo_inputs(&super::spec()) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
+        let request = crate::catalog::demo_request(&super::spec(), pairs);
         request
     }
 

@@ -468,17 +468,10 @@ fn diagram(
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
     fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        let mut request = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&super::spec()) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
+        let request = crate::catalog::demo_request(&super::spec(), pairs);
         crate::solve(super::KEY, &request)
     }
 

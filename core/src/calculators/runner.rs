@@ -755,13 +755,7 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let mut request = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&spec()) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
+        let request = crate::catalog::demo_request(&spec(), pairs);
         request
     }
 

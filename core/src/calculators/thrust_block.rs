@@ -1451,18 +1451,12 @@ pub(crate) fn diagram(
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::{demo_inputs, Request};
+    use crate::catalog::Request;
     use crate::units::UnitSystem;
     use approx::assert_relative_eq;
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let mut request = Request::default();
-        for (k, v) in demo_inputs(&super::spec()) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
+        let request = crate::catalog::demo_request(&super::spec(), pairs);
         request
     }
 

@@ -903,17 +903,11 @@ fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Repor
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::catalog::{demo_inputs, Request, Solution};
+    use crate::catalog::{Request, Solution};
     use approx::assert_relative_eq;
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let mut request = Request::default();
-        for (k, v) in demo_inputs(&super::spec()) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
+        let request = crate::catalog::demo_request(&super::spec(), pairs);
         request
     }
 
