@@ -554,6 +554,61 @@ pub fn convert_to(si: f64, kind: QuantityKind, unit_id: &str) -> Option<f64> {
         .map(|d| (si - d.offset) / d.factor)
 }
 
+/// Significant figures of a converted input ([`convert_text`]): enough that a
+/// value converted there and back reads as typed to the four figures results show.
+pub const CONVERTED_SIGNIFICANT_FIGURES: i32 = 6;
+
+/// Converts what the user typed in a field (`"10"` with `from_default_unit` `"bar"`,
+/// or `"10 bar"`) to the number text in `to_unit` (`"145.038"`), without the unit:
+/// six significant figures, trailing zeros dropped (`"10"`, not `"10.0000"`).
+/// Derived from the definitions of the units in [`UNITS`]
+/// (`si = value * factor + offset`).
+///
+/// # Errors
+/// What [`parse_quantity`] refuses, and [`FieldErrorKind::UnknownUnit`] or
+/// [`FieldErrorKind::WrongKind`] when `to_unit` is not a unit of `kind`.
+pub fn convert_text(
+    text: &str,
+    kind: QuantityKind,
+    from_default_unit: &str,
+    to_unit: &str,
+) -> Result<String, FieldErrorKind> {
+    let si = parse_quantity(text, kind, from_default_unit)?;
+    let expected = || units_of(kind).map(|u| u.id).collect::<Vec<_>>().join(", ");
+    let Some(target) = find_unit(to_unit) else {
+        return Err(FieldErrorKind::UnknownUnit {
+            unit: to_unit.to_string(),
+            expected: expected(),
+        });
+    };
+    if target.kind != kind {
+        return Err(FieldErrorKind::WrongKind {
+            unit: target.id.to_string(),
+            unit_kind: target.kind.name(),
+            expected: expected(),
+        });
+    }
+    let value = (si - target.offset) / target.factor;
+    if !value.is_finite() {
+        return Err(FieldErrorKind::NotFinite);
+    }
+    Ok(trim_zeros(&format_significant(value, CONVERTED_SIGNIFICANT_FIGURES)))
+}
+
+/// Drops trailing zeros of the fraction (`"10.0000"` → `"10"`, `"1.50000e-7"` →
+/// `"1.5e-7"`); integers are left alone.
+fn trim_zeros(number: &str) -> String {
+    let (mantissa, exponent) = match number.find(['e', 'E']) {
+        Some(i) => number.split_at(i),
+        None => (number, ""),
+    };
+    if !mantissa.contains('.') {
+        return number.to_string();
+    }
+    let trimmed = mantissa.trim_end_matches('0').trim_end_matches('.');
+    format!("{trimmed}{exponent}")
+}
+
 fn format_in(si: f64, def: &UnitDef) -> String {
     let value = (si - def.offset) / def.factor;
     let number = format_significant(value, 4);
@@ -709,6 +764,63 @@ mod tests {
             parse_quantity(&long, Q::Length, "m"),
             Err(FieldErrorKind::TooLong { .. })
         ));
+    }
+
+    #[test]
+    fn converts_typed_text_between_units() {
+        // Expected numbers derived from the definitions (NIST SP 811 Appendix B):
+        // 10 bar = 1e6 Pa / 6894.757 293 168 Pa/psi = 145.037 738 psi;
+        // 2.5 m/s / 0.3048 = 8.202 099 7 ft/s; 20 degC = 68 degF; 150 psi = 10.342 136 bar.
+        let cases: &[(&str, QuantityKind, &str, &str, &str)] = &[
+            ("10", Q::Pressure, "bar", "psi", "145.038"),
+            ("10 bar", Q::Pressure, "psi", "psi", "145.038"),
+            ("145.038", Q::Pressure, "psi", "bar", "10"),
+            ("150", Q::Pressure, "psi", "bar", "10.3421"),
+            ("2,5", Q::Velocity, "m/s", "ft/s", "8.2021"),
+            ("20", Q::Temperature, "degC", "degF", "68"),
+            ("-40", Q::Temperature, "degF", "degC", "-40"),
+            ("12", Q::Length, "in", "mm", "304.8"),
+            ("0", Q::Force, "kN", "lbf", "0"),
+            ("1e-9", Q::Length, "m", "mm", "1e-6"),
+            ("45", Q::Angle, "deg", "deg", "45"),
+        ];
+        for (text, kind, from, to, expected) in cases {
+            let got = convert_text(text, *kind, from, to).unwrap_or_else(|e| panic!("{text} {from}->{to}: {e}"));
+            assert_eq!(&got, expected, "{text} {from} -> {to}");
+            // What comes out is read back by the parser as the same value (6 figures).
+            let back = parse_quantity(&got, *kind, to).unwrap_or_else(|e| panic!("{got}: {e}"));
+            let original = parse_quantity(text, *kind, from).unwrap_or_else(|e| panic!("{text}: {e}"));
+            assert_relative_eq!(back, original, max_relative = 5e-6, epsilon = 1e-12);
+        }
+    }
+
+    #[test]
+    fn conversion_refuses_bad_text_and_foreign_units() {
+        assert!(matches!(
+            convert_text("abc", Q::Pressure, "bar", "psi"),
+            Err(FieldErrorKind::NotANumber { .. })
+        ));
+        assert_eq!(
+            convert_text("NaN", Q::Pressure, "bar", "psi"),
+            Err(FieldErrorKind::NotFinite)
+        );
+        assert!(matches!(
+            convert_text("10", Q::Pressure, "bar", "m"),
+            Err(FieldErrorKind::WrongKind { .. })
+        ));
+        assert!(matches!(
+            convert_text("10", Q::Pressure, "bar", "furlong"),
+            Err(FieldErrorKind::UnknownUnit { .. })
+        ));
+        assert!(matches!(
+            convert_text("5 m", Q::Pressure, "bar", "psi"),
+            Err(FieldErrorKind::WrongKind { .. })
+        ));
+        // Past the largest finite number in the target unit.
+        assert_eq!(
+            convert_text("1e306", Q::Length, "m", "mm"),
+            Err(FieldErrorKind::NotFinite)
+        );
     }
 
     #[test]
