@@ -4,10 +4,14 @@
 //! A key design decision: this crate holds no physics, no defaults and no unit
 //! tables. Every export is `from_value` → core call → `to_value`; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
-//! natively. The page script calls two functions:
+//! natively. The page script calls three functions:
 //!
 //! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
 //!   outputs, cautions) as a plain object.
+//! - [`convert`]`(key, field, text, from_unit, system)` — what is typed in a
+//!   quantity field, converted to that field's default unit in `system` (used when
+//!   the page's unit system is switched): `{ok: true, number, unit}` or
+//!   `{ok: false, message}`; it never throws for what a user typed.
 //! - [`solve`]`(key, inputs, units, system)` — `inputs` and `units` are plain objects
 //!   of strings keyed by field key, `system` is `"si"` or `"us"`. It never throws for
 //!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.
@@ -79,4 +83,21 @@ pub fn solve(key: &str, inputs: JsValue, units: JsValue, system: &str) -> Result
     let outcome = fluxledger_core::solve(key, &request);
     let spec = calculators::spec(key);
     to_js(&view::solve_view(&outcome, spec.as_ref()))
+}
+
+/// Converts the text typed in quantity field `field` of calculator `key` (a bare
+/// number is in `from_unit`) to the field's default unit in `system`.
+///
+/// # Errors
+/// Throws only for a `system` other than `"si"` or `"us"`; text that cannot be
+/// converted comes back as `{ok: false, message}`.
+#[wasm_bindgen]
+pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str) -> Result<JsValue, JsError> {
+    let system = UnitSystem::from_key(system).ok_or_else(|| {
+        adapter_error(
+            "unknown unit system",
+            format!("'{system}' (expected \"si\" or \"us\")"),
+        )
+    })?;
+    to_js(&view::convert_view(key, field, text, from_unit, system))
 }

@@ -430,6 +430,57 @@ fn solved_view(echoes: Vec<EchoView>, solution: &Solution) -> SolvedView {
     }
 }
 
+// ---------------------------------------------------------------------------
+// Convert
+
+/// What `convert()` returns: `{ok: true, number, unit}` or `{ok: false, message}`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+#[serde(untagged)]
+pub enum ConvertView {
+    Converted {
+        /// Always `true`.
+        ok: bool,
+        /// The number in `unit`, without the unit (`"145.038"`).
+        number: String,
+        /// The field's default unit in the target system (`"psi"`).
+        unit: &'static str,
+    },
+    Refused {
+        /// Always `false`.
+        ok: bool,
+        message: String,
+    },
+}
+
+fn refused(message: String) -> ConvertView {
+    ConvertView::Refused { ok: false, message }
+}
+
+/// Converts what is typed in field `field` of calculator `key` (a bare number takes
+/// `from_unit`) to that field's default unit in `system`, through
+/// [`units::convert_text`]. The default unit of a system is the spec's `si_unit` or
+/// `us_unit`; an empty one falls back to the other, as the page script does.
+pub fn convert_view(key: &str, field: &str, text: &str, from_unit: &str, system: UnitSystem) -> ConvertView {
+    let Some(spec) = calculators::spec(key) else {
+        return refused(SolveError::UnknownCalculator { key: key.to_string() }.to_string());
+    };
+    let Some(field_spec) = spec.fields.iter().find(|f| f.key == field) else {
+        return refused(format!("the calculator '{key}' has no field '{field}'"));
+    };
+    let FieldKind::Quantity(kind) = field_spec.kind else {
+        return refused(format!("{}: not a quantity, nothing to convert", field_spec.label));
+    };
+    let (own, other) = match system {
+        UnitSystem::Si => (field_spec.si_unit, field_spec.us_unit),
+        UnitSystem::UsCustomary => (field_spec.us_unit, field_spec.si_unit),
+    };
+    let unit = if own.is_empty() { other } else { own };
+    match units::convert_text(text, kind, from_unit, unit) {
+        Ok(number) => ConvertView::Converted { ok: true, number, unit },
+        Err(error) => refused(format!("{}: {error}", field_spec.label)),
+    }
+}
+
 /// Every error of a failed solve, each with its field key, label and message.
 pub fn error_views(error: &SolveError, spec: Option<&CalculatorSpec>) -> Vec<ErrorView> {
     match error {
@@ -940,6 +991,48 @@ mod tests {
                 }
             }
         }
+    }
+
+    #[test]
+    fn convert_goes_to_the_field_default_unit_of_the_target_system() {
+        // The bend page's pressure field: kPa in SI, psi in US customary (its spec).
+        let bend = calculators::spec("bend").expect("bend is registered");
+        let p = bend
+            .fields
+            .iter()
+            .find(|f| f.key == "p")
+            .expect("bend has a pressure field");
+        assert_eq!((p.si_unit, p.us_unit), ("kPa", "psi"));
+        // 10 bar = 1e6 Pa / 6894.757 Pa/psi = 145.038 psi, derived from the definitions
+        // (NIST SP 811 App. B); a bare number takes `from_unit`, a typed unit wins.
+        for (text, from) in [("10", "bar"), ("10 bar", "kPa")] {
+            let to_us = to_json(&convert_view("bend", "p", text, from, UnitSystem::UsCustomary));
+            assert_eq!(
+                to_us,
+                json!({"ok": true, "number": "145.038", "unit": "psi"}),
+                "{text} [{from}]"
+            );
+        }
+        // Back to SI: the SI default unit, 1000 kPa.
+        let back = to_json(&convert_view("bend", "p", "145.038", "psi", UnitSystem::Si));
+        assert_eq!(back, json!({"ok": true, "number": "1000", "unit": "kPa"}));
+    }
+
+    #[test]
+    fn convert_refuses_with_a_message_and_never_throws() {
+        for (key, field, text) in [
+            ("no-such-page", "p", "10"),
+            ("bend", "no-such-field", "10"),
+            ("bend", "plane", "horizontal"),
+            ("bend", "p", "ten"),
+            ("bend", "p", "5 m"),
+        ] {
+            let view = to_json(&convert_view(key, field, text, "bar", UnitSystem::UsCustomary));
+            assert_eq!(view["ok"], json!(false), "{key}/{field}/{text}: {view}");
+            assert!(view["message"].as_str().is_some_and(|m| !m.is_empty()), "{view}");
+        }
+        let view = to_json(&convert_view("bend", "p", "ten", "bar", UnitSystem::UsCustomary));
+        assert!(view["message"].as_str().is_some_and(|m| m.contains("ten")), "{view}");
     }
 
     #[test]
