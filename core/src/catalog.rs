@@ -71,6 +71,13 @@ impl Limits {
     }
 }
 
+/// The job groups of the contents page, in order. Calculators name one of these.
+pub mod group {
+    pub const FITTINGS: &str = "Pipe fittings and thrust restraint";
+    pub const JETS_AND_ROTORS: &str = "Jets, vanes and reaction turbines";
+    pub const FLOW_AND_TANKS: &str = "Flow, profiles and tanks";
+}
+
 /// One input field of a calculator.
 #[derive(Clone, Debug, PartialEq)]
 pub struct FieldSpec {

@@ -123,7 +123,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Pipe bend anchor force",
-        group: "Pipe fittings and thrust restraint",
+        group: crate::catalog::group::FITTINGS,
         summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
         fields,
         outputs: vec![

@@ -108,7 +108,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Dead end, cap or closed valve thrust",
-        group: "Pipe fittings and thrust restraint",
+        group: crate::catalog::group::FITTINGS,
         summary: "Thrust p·A on a cap, blind flange, plug or closed valve, on the inside or outside diameter.",
         fields,
         outputs: vec![

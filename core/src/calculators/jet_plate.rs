@@ -70,7 +70,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Free jet on a fixed flat plate",
-        group: "Jets, vanes and turbines",
+        group: crate::catalog::group::JETS_AND_ROTORS,
         summary: "Force of a free jet on a fixed normal or inclined plate, and how the flow splits along the plate.",
         fields,
         outputs: vec![

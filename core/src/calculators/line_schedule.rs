@@ -92,7 +92,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Line schedule: thrust blocks along a line",
-        group: "Pipe fittings and thrust restraint",
+        group: crate::catalog::group::FITTINGS,
         summary: "Paste the fittings of a line, one per row, and get each thrust, its direction and the block it needs, with totals and a CSV.",
         fields,
         outputs: vec![

@@ -148,7 +148,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Nozzle on a flange: bolt load and jet reaction",
-        group: "Pipe fittings and thrust restraint",
+        group: crate::catalog::group::FITTINGS,
         summary: "Flange bolt load, jet reaction and discharge of a nozzle, from the energy and momentum balances with nozzle coefficients.",
         fields,
         outputs: vec![

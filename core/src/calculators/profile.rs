@@ -52,7 +52,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Velocity profile to flow and correction factors",
-        group: "Flow, profiles and tanks",
+        group: crate::catalog::group::FLOW_AND_TANKS,
         summary: "Flow, mean velocity and the momentum-flux and kinetic-energy factors from a traverse or a profile law.",
         fields: vec![
             quantity("d", "Pipe inside diameter", Q::Length, "mm", "in", "610 mm", Limits::positive(MAX_SIZE_M), "Inside diameter at the traverse section."),

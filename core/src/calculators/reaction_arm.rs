@@ -254,7 +254,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Rotating reaction arm (sprinkler, reaction turbine)",
-        group: "Jets, vanes and reaction turbines",
+        group: crate::catalog::group::JETS_AND_ROTORS,
         summary: "Torque, power and speed of a jet-driven arm from the angular-momentum balance in the rotating frame.",
         fields,
         outputs: vec![

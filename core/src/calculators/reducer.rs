@@ -231,7 +231,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Reducer or expander thrust",
-        group: "Pipe fittings and thrust restraint",
+        group: crate::catalog::group::FITTINGS,
         summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance and the fitting's loss.",
         fields,
         outputs: vec![

@@ -166,7 +166,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Runner from velocity triangles (turbine or pump)",
-        group: "Jets, vanes and reaction turbines",
+        group: crate::catalog::group::JETS_AND_ROTORS,
         summary: "Euler head, torque, power and hydraulic efficiency of a radial or axial runner from its blade angles, speed and flow.",
         fields,
         outputs: vec![

@@ -53,7 +53,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Tank draining through an orifice",
-        group: "Flow, profiles and tanks",
+        group: crate::catalog::group::FLOW_AND_TANKS,
         summary: "Time to lower a vented tank through a bottom orifice, from the unsteady mass balance.",
         fields,
         outputs: vec![

@@ -696,7 +696,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Thrust restraint: design pressure and thrust block",
-        group: "Pipe fittings and thrust restraint",
+        group: crate::catalog::group::FITTINGS,
         summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), and the bearing or gravity block that carries it.",
         fields,
         outputs: vec![

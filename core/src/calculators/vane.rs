@@ -139,7 +139,7 @@ pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
         title: "Jet on a curved vane: fixed, moving, wheel",
-        group: "Jets, vanes and turbines",
+        group: crate::catalog::group::JETS_AND_ROTORS,
         summary: "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with power and efficiency against blade speed.",
         fields,
         outputs: vec![
