@@ -45,10 +45,10 @@ pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: line_schedule::KEY, spec: line_schedule::spec, compute: line_schedule::compute },
     Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
     Calculator { key: vane::KEY, spec: vane::spec, compute: vane::compute },
-    Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
-    Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
     Calculator { key: reaction_arm::KEY, spec: reaction_arm::spec, compute: reaction_arm::compute },
     Calculator { key: runner::KEY, spec: runner::spec, compute: runner::compute },
+    Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
+    Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
 ];
 
 /// The descriptions of all calculators.
