@@ -523,7 +523,10 @@ pub fn display_unit(si: f64, kind: QuantityKind, system: UnitSystem) -> &'static
     for id in ids {
         if let Some(def) = find_unit(id) {
             // Compare after rounding to four figures, so 999 999.99 Pa shows as 1.000 MPa.
-            if ((si - def.offset) / def.factor).abs() >= 0.999_95 {
+            // Areas stay in m² (ft²) down to 0.01: a bearing face of 0.75 m² reads
+            // better than 750 000 mm².
+            let threshold = if kind == QuantityKind::Area { 0.009_999_5 } else { 0.999_95 };
+            if ((si - def.offset) / def.factor).abs() >= threshold {
                 chosen = id;
                 break;
             }
@@ -832,6 +835,8 @@ mod tests {
         assert_eq!(format_significant(0.999_999_9, 4), "1.000");
         assert_eq!(format_significant(9999.7, 4), "10000");
         assert_eq!(format_quantity(999_999.999, Q::Pressure, UnitSystem::Si), "1.000 MPa");
+        assert_eq!(format_quantity(0.7547, Q::Area, UnitSystem::Si), "0.7547 m2");
+        assert_eq!(format_quantity(0.005, Q::Area, UnitSystem::Si), "5000 mm2");
         assert_eq!(format_quantity(12_345.0, Q::Force, UnitSystem::Si), "12.35 kN");
         assert_eq!(
             format_quantity(293.15, Q::Temperature, UnitSystem::UsCustomary),
