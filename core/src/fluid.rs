@@ -177,47 +177,37 @@ pub fn water_viscosity(t: f64, density: f64) -> f64 {
     mu0 * mu1 * 1e-6
 }
 
+/// Coefficients n₁…n₁₀ of the IAPWS-IF97 saturation-line equations (Table 34).
+const SATURATION_N: [f64; 10] = [
+    0.11670521452767e4,
+    -0.72421316703206e6,
+    -0.17073846940092e2,
+    0.12020824702470e5,
+    -0.32325550322333e7,
+    0.14915108613530e2,
+    -0.48232657361591e4,
+    0.40511340542057e6,
+    -0.23855557567849,
+    0.65017534844798e3,
+];
+
 /// Saturation pressure of water, Pa absolute, at `t` kelvin (IAPWS-IF97 eq. 30).
 pub fn water_saturation_pressure(t: f64) -> f64 {
-    const N: [f64; 10] = [
-        0.11670521452767e4,
-        -0.72421316703206e6,
-        -0.17073846940092e2,
-        0.12020824702470e5,
-        -0.32325550322333e7,
-        0.14915108613530e2,
-        -0.48232657361591e4,
-        0.40511340542057e6,
-        -0.23855557567849,
-        0.65017534844798e3,
-    ];
-    let theta = t + N[8] / (t - N[9]);
-    let a = theta * theta + N[0] * theta + N[1];
-    let b = N[2] * theta * theta + N[3] * theta + N[4];
-    let c = N[5] * theta * theta + N[6] * theta + N[7];
+    let theta = t + SATURATION_N[8] / (t - SATURATION_N[9]);
+    let a = theta * theta + SATURATION_N[0] * theta + SATURATION_N[1];
+    let b = SATURATION_N[2] * theta * theta + SATURATION_N[3] * theta + SATURATION_N[4];
+    let c = SATURATION_N[5] * theta * theta + SATURATION_N[6] * theta + SATURATION_N[7];
     (2.0 * c / (-b + (b * b - 4.0 * a * c).sqrt())).powi(4) * 1e6
 }
 
 /// Saturation temperature of water at `p` Pa absolute, K (IAPWS-IF97 eq. 31).
 pub fn water_saturation_temperature(p: f64) -> f64 {
-    const N: [f64; 10] = [
-        0.11670521452767e4,
-        -0.72421316703206e6,
-        -0.17073846940092e2,
-        0.12020824702470e5,
-        -0.32325550322333e7,
-        0.14915108613530e2,
-        -0.48232657361591e4,
-        0.40511340542057e6,
-        -0.23855557567849,
-        0.65017534844798e3,
-    ];
     let beta = (p / 1e6).powf(0.25);
-    let e = beta * beta + N[2] * beta + N[5];
-    let f = N[0] * beta * beta + N[3] * beta + N[6];
-    let g = N[1] * beta * beta + N[4] * beta + N[7];
+    let e = beta * beta + SATURATION_N[2] * beta + SATURATION_N[5];
+    let f = SATURATION_N[0] * beta * beta + SATURATION_N[3] * beta + SATURATION_N[6];
+    let g = SATURATION_N[1] * beta * beta + SATURATION_N[4] * beta + SATURATION_N[7];
     let d = 2.0 * g / (-f - (f * f - 4.0 * e * g).sqrt());
-    (N[9] + d - ((N[9] + d).powi(2) - 4.0 * (N[8] + N[9] * d)).sqrt()) / 2.0
+    (SATURATION_N[9] + d - ((SATURATION_N[9] + d).powi(2) - 4.0 * (SATURATION_N[8] + SATURATION_N[9] * d)).sqrt()) / 2.0
 }
 
 /// Boiling point at one standard atmosphere, K (≈ 373.124 K).

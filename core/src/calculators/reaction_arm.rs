@@ -1045,8 +1045,7 @@ mod tests {
     }
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let request = crate::catalog::demo_request(&spec(), pairs);
-        request
+        crate::catalog::demo_request(&spec(), pairs)
     }
 
     fn error_field(pairs: &[(&str, &str)]) -> String {

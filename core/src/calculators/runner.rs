@@ -755,8 +755,7 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let request = crate::catalog::demo_request(&spec(), pairs);
-        request
+        crate::catalog::demo_request(&spec(), pairs)
     }
 
     fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {

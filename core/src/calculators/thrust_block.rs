@@ -1456,8 +1456,7 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn request(pairs: &[(&str, &str)]) -> Request {
-        let request = crate::catalog::demo_request(&super::spec(), pairs);
-        request
+        crate::catalog::demo_request(&super::spec(), pairs)
     }
 
     fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
