@@ -535,7 +535,10 @@ pub const MAX_TEXT_CHARS: usize = 200_000;
 /// A request holding a spec's demo inputs with some fields replaced: the starting
 /// point of calculator tests and of links that change a few fields.
 pub fn demo_request(spec: &CalculatorSpec, overrides: &[(&str, &str)]) -> Request {
-    let mut request = Request { inputs: demo_inputs(spec), ..Request::default() };
+    let mut request = Request {
+        inputs: demo_inputs(spec),
+        ..Request::default()
+    };
     for (key, value) in overrides {
         request.inputs.insert(key.to_string(), value.to_string());
     }

@@ -712,11 +712,19 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
 
     // --- Mass -------------------------------------------------------------------
     let unknown_count = ports.iter().filter(|p| p.mass_flow.is_nan()).count();
-    let known_net: f64 =
-        ports.iter().filter(|p| !p.mass_flow.is_nan()).map(|p| signed(p, p.mass_flow)).sum::<f64>() + cv.mass_storage_rate;
+    let known_net: f64 = ports
+        .iter()
+        .filter(|p| !p.mass_flow.is_nan())
+        .map(|p| signed(p, p.mass_flow))
+        .sum::<f64>()
+        + cv.mass_storage_rate;
     if unknown_count > 1 {
         return Err(EngineError::TooManyUnknownFlows {
-            ports: ports.iter().filter(|p| p.mass_flow.is_nan()).map(|p| p.name.to_string()).collect(),
+            ports: ports
+                .iter()
+                .filter(|p| p.mass_flow.is_nan())
+                .map(|p| p.name.to_string())
+                .collect(),
         });
     }
     if let Some(port) = ports.iter_mut().find(|p| p.mass_flow.is_nan()) {
@@ -726,14 +734,19 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
             Role::Inlet => known_net,
         };
         if m < -1e-12 * (1.0 + known_net.abs()) {
-            return Err(EngineError::FlowReverses { port: port.name.to_string(), mass_flow: m });
+            return Err(EngineError::FlowReverses {
+                port: port.name.to_string(),
+                mass_flow: m,
+            });
         }
         port.mass_flow = m.max(0.0);
     }
     let mass_residual: f64 = ports.iter().map(|p| signed(p, p.mass_flow)).sum::<f64>() + cv.mass_storage_rate;
     let flow_scale = ports.iter().fold(0.0f64, |a, p| a.max(p.mass_flow));
     if unknown_count == 0 && mass_residual.abs() > 1e-6 * flow_scale.max(1e-9) {
-        warnings.push(EngineWarning::MassDoesNotClose { residual: mass_residual });
+        warnings.push(EngineWarning::MassDoesNotClose {
+            residual: mass_residual,
+        });
     }
     for p in &mut ports {
         p.speed = p.mass_flow / (rho * p.area);
@@ -796,10 +809,18 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
                 residual_head,
             });
         }
-        streams.push(StreamState { from: s.from, to: s.to, head_loss, shaft_head, residual_head });
+        streams.push(StreamState {
+            from: s.from,
+            to: s.to,
+            head_loss,
+            shaft_head,
+            residual_head,
+        });
     }
     if let Some(p) = ports.iter().find(|p| !p.pressure.is_finite()) {
-        return Err(EngineError::PressureUnresolved { port: p.name.to_string() });
+        return Err(EngineError::PressureUnresolved {
+            port: p.name.to_string(),
+        });
     }
 
     // --- Linear momentum --------------------------------------------------------
@@ -826,7 +847,9 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
     let pressure_scale: f64 = ports.iter().map(|p| p.pressure_force.norm()).sum();
     let flux_scale: f64 = ports.iter().map(|p| p.momentum_outflow.norm()).sum();
     if pressure_scale > 0.0 && flux_scale < 0.01 * pressure_scale {
-        warnings.push(EngineWarning::MomentumNegligible { ratio: flux_scale / pressure_scale });
+        warnings.push(EngineWarning::MomentumNegligible {
+            ratio: flux_scale / pressure_scale,
+        });
     }
 
     // --- Angular momentum -------------------------------------------------------

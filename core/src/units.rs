@@ -525,7 +525,11 @@ pub fn display_unit(si: f64, kind: QuantityKind, system: UnitSystem) -> &'static
             // Compare after rounding to four figures, so 999 999.99 Pa shows as 1.000 MPa.
             // Areas stay in m² (ft²) down to 0.01: a bearing face of 0.75 m² reads
             // better than 750 000 mm².
-            let threshold = if kind == QuantityKind::Area { 0.009_999_5 } else { 0.999_95 };
+            let threshold = if kind == QuantityKind::Area {
+                0.009_999_5
+            } else {
+                0.999_95
+            };
             if ((si - def.offset) / def.factor).abs() >= threshold {
                 chosen = id;
                 break;

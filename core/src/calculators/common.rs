@@ -520,13 +520,12 @@ pub fn typed_force(report: &Report<'_>, newtons: f64) -> String {
 /// A link that carries a fitting's thrust to the thrust-restraint page as "a given
 /// thrust": its magnitude (N) and its angle above the horizontal (radians, + up),
 /// which also picks that page's block type (bearing block, gravity block, sag).
-pub fn thrust_carry_over(
-    report: &Report<'_>,
-    label: &str,
-    thrust: f64,
-    elevation: f64,
-) -> crate::catalog::CarryOver {
-    let degrees = if elevation.is_finite() { elevation.to_degrees() } else { 0.0 };
+pub fn thrust_carry_over(report: &Report<'_>, label: &str, thrust: f64, elevation: f64) -> crate::catalog::CarryOver {
+    let degrees = if elevation.is_finite() {
+        elevation.to_degrees()
+    } else {
+        0.0
+    };
     let plane = if degrees > 1.0 {
         "vertical_crest"
     } else if degrees < -1.0 {

@@ -10,18 +10,18 @@ use crate::error::{FieldError, SolveError};
 
 pub mod bend;
 pub mod common;
-pub mod tee;
-pub mod nozzle;
-pub mod jet_plate;
-pub mod vane;
-pub mod line_schedule;
 pub mod dead_end;
+pub mod jet_plate;
+pub mod line_schedule;
+pub mod nozzle;
 pub mod profile;
-pub mod reducer;
 pub mod reaction_arm;
+pub mod reducer;
 pub mod runner;
 pub mod tank_drain;
+pub mod tee;
 pub mod thrust_block;
+pub mod vane;
 
 /// One registered calculator.
 pub struct Calculator {
