@@ -10,8 +10,11 @@
 //
 // Layout of the calculator section (filled into `<section id="calculator">`):
 //   toolbar (unit system, copy link, print) · #notices · headline results ·
-//   input form · details (other outputs, warnings, tables, diagrams, plots) ·
-//   print footer (link and version).
+//   input form · details (links to a next calculator, other outputs, warnings,
+//   tables with a CSV download, diagrams, plots) · print footer (link and version).
+//
+// Links to another calculator (`carry_over` of a result) are built only from a key
+// found in the catalog and the inputs the core wrote, encoded by URLSearchParams.
 
 const SVG_NS = "http://www.w3.org/2000/svg";
 
@@ -134,6 +137,11 @@ const state = {
   ui: {},
   figureWidth: 0,
   lastResult: null,
+  /**
+   * field key -> what the unit-system switch replaced, so that switching back
+   * restores the text as typed: {system, text, unit} before, {shown, shownUnit} after.
+   */
+  converted: new Map(),
 };
 
 function defaultUnit(field, system) {
@@ -311,6 +319,9 @@ function buildToolbar() {
     systems.append(el("label", { class: "system-option" }, input, el("span", { text: system.label })));
   }
 
+  const systemStatus = el("p", { class: "system-status", role: "status", "aria-live": "polite" });
+  systems.setAttribute("aria-describedby", "system-help");
+
   const copy = el("button", { type: "button", class: "button", text: "Copy link" });
   copy.addEventListener("click", copyLink);
   const print = el("button", { type: "button", class: "button", text: "Print sheet" });
@@ -324,26 +335,90 @@ function buildToolbar() {
     hidden: true,
   });
 
-  bar.append(systems, el("div", { class: "toolbar-actions" }, copy, print, copyStatus), copyField);
+  const systemHelp = el("p", {
+    id: "system-help",
+    class: "system-help",
+    text: "Switching converts the filled values to the units of the other system; switching back restores them as typed.",
+  });
+  bar.append(systems, el("div", { class: "toolbar-actions" }, copy, print, copyStatus), copyField, systemHelp, systemStatus);
   state.ui.systemInputs = systems.querySelectorAll("input");
+  state.ui.systemStatus = systemStatus;
   state.ui.copyStatus = copyStatus;
   state.ui.copyField = copyField;
   return bar;
 }
 
+/**
+ * Switches the page's unit system. Every filled quantity field is converted (by the
+ * core, through `convert`) to the field's default unit in the new system, whatever
+ * unit it was typed in; a field the core cannot read stays as typed and is named.
+ * What a field held before is remembered: switching back restores the text and
+ * unit as typed, as long as the converted value was not edited in between.
+ * Empty fields take the new system's default unit.
+ */
 function changeSystem(system) {
+  const from = state.system;
+  if (system === from) return;
   state.system = system;
-  // Empty quantity fields take the new system's default unit; filled ones keep the
-  // unit they were typed in, so no value changes meaning.
+  let converted = 0;
+  let restored = 0;
+  const refused = [];
   for (const field of state.spec.fields) {
     if (!isQuantity(field)) continue;
-    if ((state.values[field.key] ?? "").trim() === "") {
-      state.units[field.key] = defaultUnit(field, system);
-      const select = state.ui.unitSelects.get(field.key);
-      if (select) select.value = state.units[field.key];
+    const key = field.key;
+    const text = (state.values[key] ?? "").trim();
+    const target = defaultUnit(field, system);
+    if (text === "") {
+      state.converted.delete(key);
+      setField(field, "", target);
+      continue;
+    }
+    const unit = state.echoes[key]?.unit || state.units[key] || target;
+    const memo = state.converted.get(key);
+    state.converted.delete(key);
+    if (memo && memo.system === system && memo.shown === text && memo.shownUnit === unit) {
+      setField(field, memo.text, memo.unit);
+      restored += 1;
+      continue;
+    }
+    if (unit === target) continue;
+    let answer = null;
+    try {
+      answer = glue.convert(state.spec.key, key, text, state.units[key] || unit, system);
+    } catch (error) {
+      answer = null;
+    }
+    if (answer && answer.ok) {
+      state.converted.set(key, {
+        system: from,
+        text: state.values[key],
+        unit: state.units[key] || unit,
+        shown: answer.number,
+        shownUnit: answer.unit,
+      });
+      setField(field, answer.number, answer.unit);
+      converted += 1;
+    } else {
+      refused.push(field.label);
     }
   }
   recompute({ writeToUrl: true });
+  const name = system === "us" ? "US customary" : "SI";
+  const parts = [];
+  if (converted > 0) parts.push(`${converted} ${converted === 1 ? "value" : "values"} converted to ${name} units.`);
+  if (restored > 0) parts.push(`${restored} ${restored === 1 ? "value" : "values"} restored as typed.`);
+  if (refused.length > 0) parts.push(`Not converted (check the value): ${refused.join(", ")}.`);
+  if (state.ui.systemStatus) state.ui.systemStatus.textContent = parts.join(" ");
+}
+
+/** Puts text and a unit into a field's input and selector (and the page state). */
+function setField(field, text, unit) {
+  state.values[field.key] = text;
+  state.units[field.key] = unit;
+  const control = state.ui.controls.get(field.key);
+  if (control && control.value !== text) control.value = text;
+  const select = state.ui.unitSelects.get(field.key);
+  if (select && unit) select.value = unit;
 }
 
 async function copyLink() {
@@ -585,6 +660,8 @@ function render(result) {
   ui.headline.replaceChildren(el("h2", { class: "panel-title", text: "Result" }), headline);
 
   const parts = [];
+  const links = renderCarryOver(result.carry_over || []);
+  if (links) parts.push(links);
   if (others.childElementCount > 0) {
     parts.push(el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), others));
   }
@@ -646,7 +723,79 @@ function renderTable(table) {
     body.append(tr);
   }
   element.append(body);
-  return el("section", { class: "panel panel-table" }, el("div", { class: "table-scroll", tabindex: "0" }, element));
+  const download = el("button", {
+    type: "button",
+    class: "button button-small csv-download",
+    text: "Download CSV",
+    "aria-label": `Download ${table.title || "the table"} as CSV`,
+  });
+  download.addEventListener("click", () => downloadCsv(table));
+  return el(
+    "section",
+    { class: "panel panel-table" },
+    el("div", { class: "table-scroll", tabindex: "0" }, element),
+    el("div", { class: "table-actions" }, download),
+  );
+}
+
+// ---------------------------------------------------------------------------
+// CSV of a table (formatting only: the cells are the core's text, as shown).
+
+/** One CSV field (RFC 4180): quoted when it holds a comma, a quote, CR or LF. */
+function csvField(value) {
+  const text = String(value ?? "");
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** The CSV text of a table: the header row, then every row; CRLF line ends. */
+function tableCsv(table) {
+  const lines = [table.columns || [], ...(table.rows || [])].map((row) => row.map(csvField).join(","));
+  return lines.join("\r\n") + "\r\n";
+}
+
+/** Saves a table as `<calculator>-<table key>.csv` through a temporary object URL. */
+function downloadCsv(table) {
+  const text = tableCsv(table);
+  const name = `${state.spec.key}-${table.key || "table"}.csv`;
+  // The last file made, for the browser tests (name and text only).
+  window.__fluxledgerLastCsv = { name, text };
+  // A byte order mark, so that spreadsheet programs read the file as UTF-8.
+  const url = URL.createObjectURL(new Blob(["\ufeff", text], { type: "text/csv;charset=utf-8" }));
+  const link = el("a", { href: url, download: name, hidden: true });
+  document.body.append(link);
+  link.click();
+  link.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+// ---------------------------------------------------------------------------
+// Links to another calculator with inputs carried over.
+
+/**
+ * Renders the result's `carry_over` links. The page name is a key found in the
+ * catalog (never text from the address bar); the inputs are the core's text,
+ * encoded by URLSearchParams; the page's unit system goes along.
+ */
+function renderCarryOver(items) {
+  const list = el("ul", { class: "carry-over" });
+  for (const item of items) {
+    const target = (state.catalog.calculators || []).find((c) => c.key === item?.calculator);
+    if (!target) continue;
+    const params = new URLSearchParams();
+    for (const [key, value] of Object.entries(item.inputs || {})) {
+      if (typeof value === "string") params.set(key, value);
+    }
+    params.set("units", state.system);
+    const link = el(
+      "a",
+      { class: "carry-link", href: `${target.key}.html?${params.toString()}`, dataset: { carryTo: target.key } },
+      el("span", { class: "carry-label", text: item.label || target.title }),
+      el("span", { class: "carry-target", text: target.title }),
+    );
+    list.append(el("li", {}, link));
+  }
+  if (list.childElementCount === 0) return null;
+  return el("nav", { class: "panel panel-next", "aria-label": "Next step" }, el("h2", { class: "panel-title", text: "Next step" }), list);
 }
 
 // ---------------------------------------------------------------------------

@@ -20,6 +20,8 @@
 mod cdp;
 #[path = "browser/harness.rs"]
 mod harness;
+#[path = "browser/links.rs"]
+mod links;
 
 use std::time::Duration;
 
@@ -309,10 +311,12 @@ mod url_state {
             edited,
             "reload did not restore the same results"
         );
+        // The switch to US customary converted the filled fields (16 bar = 232.06 psi,
+        // 2.5 m/s = 8.2021 ft/s; derived from the unit definitions, NIST SP 811 App. B).
         assert_eq!(
             page.eval(&mut browser, "document.getElementById('field-p').value")
                 .unwrap(),
-            "16"
+            "232.06"
         );
         assert_eq!(
             page.eval(&mut browser, "document.getElementById('field-plane').value")
@@ -322,7 +326,7 @@ mod url_state {
         assert_eq!(
             page.eval(&mut browser, "document.getElementById('field-v').value")
                 .unwrap(),
-            "2.5"
+            "8.2021"
         );
         assert_eq!(
             page.eval(
@@ -330,7 +334,7 @@ mod url_state {
                 "document.querySelector('[data-field=v] select.unit').value"
             )
             .unwrap(),
-            "m/s"
+            "ft/s"
         );
         assert_eq!(
             page.eval(

@@ -1,0 +1,423 @@
+//! Browser tests of what a result leads to: the link that carries a fitting's thrust
+//! to the thrust-restraint page, the CSV download of every table, and the unit-system
+//! switch converting the filled inputs (and restoring them on the way back).
+
+use std::time::Duration;
+
+use serde_json::{json, Value};
+
+use fluxledger_core::calculators;
+use fluxledger_core::catalog::{demo_inputs, FieldKind};
+use fluxledger_core::units::QuantityKind;
+use fluxledger_core::{Request, UnitSystem};
+use fluxledger_tests::parse_typed;
+
+use crate::cdp::{Browser, Launch, Page};
+use crate::harness::{fixture, one_at_a_time, page_errors};
+
+/// Text of one output on the page, or `None` when it is not shown.
+fn output_text(page: &Page, browser: &mut Browser, key: &str) -> Option<String> {
+    page.eval(
+        browser,
+        &format!("document.querySelector('[data-output=\"{key}\"]')?.textContent ?? null"),
+    )
+    .unwrap_or_else(|e| panic!("{e}"))
+    .as_str()
+    .map(str::to_string)
+}
+
+fn eval(page: &Page, browser: &mut Browser, expression: &str) -> Value {
+    page.eval(browser, expression).unwrap_or_else(|e| panic!("{e}"))
+}
+
+fn wait(page: &Page, browser: &mut Browser, condition: &str) {
+    page.wait_for(browser, condition, Duration::from_secs(15))
+        .unwrap_or_else(|e| panic!("{e}"));
+}
+
+fn open(page: &Page, browser: &mut Browser, url: &str) {
+    page.goto(browser, url).unwrap_or_else(|e| panic!("{e}"));
+    let state = page.wait_rendered(browser).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(state, "ready", "{url} did not compute");
+}
+
+// ---------------------------------------------------------------------------------
+// The fitting's thrust, carried to the thrust-restraint page.
+
+/// The page shows four significant figures and the link carries five: the thrust
+/// read back on the thrust-block page agrees within 0.1 %.
+const CARRIED_THRUST_TOLERANCE: f64 = 1e-3;
+
+#[test]
+fn bend_links_to_the_thrust_block_page_with_the_same_thrust() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
+    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    for (system, unit_suffix) in [("si", " kN"), ("us", " lbf")] {
+        open(&page, &mut browser, &format!("{}/bend.html?units={system}", site.base));
+        let bend_thrust = output_text(&page, &mut browser, "thrust").expect("the bend page shows its thrust");
+        assert!(
+            bend_thrust.ends_with(unit_suffix),
+            "{system}: bend thrust {bend_thrust:?}"
+        );
+
+        let links = eval(
+            &page,
+            &mut browser,
+            "JSON.stringify([...document.querySelectorAll('a.carry-link')].map(a => [a.getAttribute('href'), a.textContent]))",
+        );
+        let links: Vec<(String, String)> = serde_json::from_str(links.as_str().unwrap_or("[]")).unwrap_or_default();
+        assert_eq!(
+            links.len(),
+            1,
+            "{system}: one carry-over link on the bend page: {links:?}"
+        );
+        let (href, text) = &links[0];
+        assert!(href.starts_with("thrust-block.html?"), "{system}: href {href:?}");
+        assert!(!text.is_empty(), "the link has a label");
+        let params: Value = eval(
+            &page,
+            &mut browser,
+            "Object.fromEntries(new URL(document.querySelector('a.carry-link').href).searchParams)",
+        );
+        assert_eq!(
+            params["units"],
+            json!(system),
+            "the link keeps the page's unit system: {params}"
+        );
+        assert_eq!(params["fitting"], json!("force"), "{params}");
+        let carried = params["thrust"].as_str().unwrap_or_default();
+        let carried_n = parse_typed(carried, QuantityKind::Force).unwrap_or_else(|e| panic!("{e}"));
+        let shown_n = parse_typed(&bend_thrust, QuantityKind::Force).unwrap_or_else(|e| panic!("{e}"));
+        assert!(
+            (carried_n - shown_n).abs() <= 5e-4 * shown_n.abs(),
+            "{system}: carried {carried} but the bend page shows {bend_thrust}"
+        );
+
+        // Follow the link as a user does.
+        eval(&page, &mut browser, "document.querySelector('a.carry-link').click()");
+        wait(
+            &page,
+            &mut browser,
+            "location.pathname.endsWith('/thrust-block.html') && document.readyState === 'complete' && document.body.dataset.state",
+        );
+        assert_eq!(eval(&page, &mut browser, "document.body.dataset.state"), "ready");
+        assert_eq!(
+            eval(&page, &mut browser, "document.getElementById('notices').textContent"),
+            "",
+            "{system}: the thrust-block page refused part of the link"
+        );
+        assert_eq!(
+            eval(
+                &page,
+                &mut browser,
+                "document.querySelector('input[name=unit-system]:checked').value"
+            ),
+            json!(system)
+        );
+        let block_thrust = output_text(&page, &mut browser, "thrust").expect("the thrust-block page shows its thrust");
+        let block_n = parse_typed(&block_thrust, QuantityKind::Force).unwrap_or_else(|e| panic!("{e}"));
+        assert!(
+            (block_n - shown_n).abs() <= CARRIED_THRUST_TOLERANCE * shown_n.abs(),
+            "{system}: bend thrust {bend_thrust}, thrust-block page {block_thrust}"
+        );
+    }
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+// ---------------------------------------------------------------------------------
+// CSV of every table.
+
+/// Reads CSV text as RFC 4180 describes it: fields separated by commas, records by
+/// CRLF, fields with commas, quotes or line breaks in double quotes, a quote inside
+/// written twice. Returns an error for anything else (a bare LF, a stray quote).
+fn parse_csv(text: &str) -> Result<Vec<Vec<String>>, String> {
+    let mut records = Vec::new();
+    let mut record = Vec::new();
+    let mut field = String::new();
+    let mut chars = text.chars().peekable();
+    let mut quoted = false;
+    let mut was_quoted = false;
+    while let Some(ch) = chars.next() {
+        if quoted {
+            if ch == '"' {
+                if chars.peek() == Some(&'"') {
+                    chars.next();
+                    field.push('"');
+                } else {
+                    quoted = false;
+                }
+            } else {
+                field.push(ch);
+            }
+            continue;
+        }
+        match ch {
+            '"' if field.is_empty() && !was_quoted => {
+                quoted = true;
+                was_quoted = true;
+            }
+            '"' => return Err(format!("a quote inside an unquoted field after {field:?}")),
+            ',' => {
+                record.push(std::mem::take(&mut field));
+                was_quoted = false;
+            }
+            '\r' => {
+                if chars.next() != Some('\n') {
+                    return Err("CR without LF".into());
+                }
+                record.push(std::mem::take(&mut field));
+                records.push(std::mem::take(&mut record));
+                was_quoted = false;
+            }
+            '\n' => return Err("a line ends in LF alone, not CRLF".into()),
+            _ if was_quoted => return Err(format!("text after a closing quote: {ch:?}")),
+            _ => field.push(ch),
+        }
+    }
+    if quoted {
+        return Err("a quoted field is not closed".into());
+    }
+    if !field.is_empty() || !record.is_empty() {
+        return Err("the last record does not end in CRLF".into());
+    }
+    Ok(records)
+}
+
+#[test]
+fn csv_reader_of_these_tests_follows_rfc_4180() {
+    // Examples written from RFC 4180 section 2 (rules 5-7).
+    let text = "a,\"b,c\",\"say \"\"hi\"\"\"\r\n\"x\r\ny\",,z\r\n";
+    assert_eq!(
+        parse_csv(text).unwrap(),
+        vec![vec!["a", "b,c", "say \"hi\""], vec!["x\r\ny", "", "z"]]
+    );
+    assert!(parse_csv("a,b\n").is_err());
+    assert!(parse_csv("a,b").is_err());
+    assert!(parse_csv("a\"b\r\n").is_err());
+    assert!(parse_csv("\"ab\r\n").is_err());
+}
+
+/// Clicks every table's "Download CSV" on `key`'s demo page and checks each file
+/// against the core's own table for the same inputs: the file name, the header and
+/// every cell, exactly. Returns the CSV texts.
+fn check_csv_of_every_table(page: &Page, browser: &mut Browser, base: &str, key: &str) -> Vec<String> {
+    open(page, browser, &format!("{base}/{key}.html"));
+    let spec = calculators::spec(key).unwrap_or_else(|| panic!("{key} is registered"));
+    let request = Request {
+        inputs: demo_inputs(&spec),
+        units: Default::default(),
+        system: UnitSystem::Si,
+    };
+    let solution = fluxledger_core::solve(key, &request)
+        .result
+        .unwrap_or_else(|e| panic!("{key}: the demo does not solve natively: {e:?}"));
+    let keys = eval(
+        page,
+        browser,
+        "JSON.stringify([...document.querySelectorAll('table[data-table]')].map(t => t.dataset.table))",
+    );
+    let keys: Vec<String> = serde_json::from_str(keys.as_str().unwrap_or("[]")).unwrap_or_default();
+    let expected_keys: Vec<&str> = solution.tables.iter().map(|t| t.key).collect();
+    assert_eq!(keys, expected_keys, "{key}: the page shows the core's tables");
+    assert!(!keys.is_empty(), "{key}: no table to download");
+    let mut texts = Vec::new();
+    for (index, table) in solution.tables.iter().enumerate() {
+        eval(page, browser, "window.__fluxledgerLastCsv = undefined");
+        eval(
+            page,
+            browser,
+            &format!("document.querySelectorAll('.panel-table')[{index}].querySelector('button.csv-download').click()"),
+        );
+        let file = eval(page, browser, "window.__fluxledgerLastCsv ?? null");
+        let name = file["name"].as_str().unwrap_or_default();
+        assert_eq!(name, format!("{key}-{}.csv", table.key));
+        let text = file["text"].as_str().unwrap_or_default().to_string();
+        let records = parse_csv(&text).unwrap_or_else(|e| panic!("{name} is not RFC 4180 CSV ({e}):\n{text}"));
+        let mut expected = vec![table.columns.clone()];
+        expected.extend(table.rows.iter().cloned());
+        assert_eq!(records, expected, "{name}: the cells differ from the core's table");
+        texts.push(text);
+    }
+    texts
+}
+
+#[test]
+fn every_table_downloads_as_csv_with_the_cells_of_the_result() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
+    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    // The tests read the file through the page's hook; nothing is written to disk.
+    browser
+        .call(None, "Browser.setDownloadBehavior", json!({ "behavior": "deny" }))
+        .unwrap_or_else(|e| panic!("{e}"));
+
+    let bend = check_csv_of_every_table(&page, &mut browser, &site.base, "bend");
+    assert!(bend.iter().all(|t| t.ends_with("\r\n")));
+
+    // Some of the line schedule's cells hold commas: they must come out quoted.
+    let schedule = check_csv_of_every_table(&page, &mut browser, &site.base, "line-schedule");
+    let spec = calculators::spec("line-schedule").expect("line-schedule is registered");
+    let request = Request {
+        inputs: demo_inputs(&spec),
+        units: Default::default(),
+        system: UnitSystem::Si,
+    };
+    let solution = fluxledger_core::solve("line-schedule", &request)
+        .result
+        .expect("the demo solves");
+    let with_comma: Vec<&String> = solution
+        .tables
+        .iter()
+        .flat_map(|t| t.rows.iter().flatten())
+        .filter(|cell| cell.contains(','))
+        .collect();
+    assert!(
+        !with_comma.is_empty(),
+        "the line-schedule demo has no cell with a comma to quote"
+    );
+    for cell in with_comma {
+        let quoted = format!("\"{}\"", cell.replace('"', "\"\""));
+        assert!(
+            schedule.iter().any(|t| t.contains(&quoted)),
+            "the cell {cell:?} is not quoted in the CSV"
+        );
+    }
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+// ---------------------------------------------------------------------------------
+// The unit-system switch converts filled inputs, and switching back restores them.
+
+/// 10 bar in psi: 10⁶ Pa ÷ 6894.757 293 168 Pa/psi = 145.037 74 psi (derived from
+/// the definitions, NIST SP 811 Appendix B: psi = lbf/in², lbf = 0.453 592 37 kg ×
+/// 9.806 65 m/s², in = 0.0254 m).
+const TEN_BAR_IN_PSI: f64 = 145.037_74;
+
+/// Value and unit of field `key` as the page shows them.
+fn field(page: &Page, browser: &mut Browser, key: &str) -> (String, String) {
+    let value = eval(page, browser, &format!("document.getElementById('field-{key}').value"));
+    let unit = eval(
+        page,
+        browser,
+        &format!("document.querySelector('[data-field=\"{key}\"] select.unit')?.value ?? ''"),
+    );
+    (
+        value.as_str().unwrap_or_default().to_string(),
+        unit.as_str().unwrap_or_default().to_string(),
+    )
+}
+
+fn switch_to(page: &Page, browser: &mut Browser, system: &str) {
+    eval(
+        page,
+        browser,
+        &format!("document.querySelector('input[name=unit-system][value={system}]').click()"),
+    );
+    wait(
+        page,
+        browser,
+        &format!("new URLSearchParams(location.search).get('units') === '{system}' && document.body.dataset.state === 'ready'"),
+    );
+}
+
+#[test]
+fn unit_switch_converts_filled_inputs_and_switching_back_restores_them() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let mut browser = Browser::launch(&Launch {
+        width: 360,
+        height: 800,
+    })
+    .unwrap_or_else(|e| panic!("{e}"));
+    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    open(&page, &mut browser, &format!("{}/bend.html?p=10bar", site.base));
+    assert_eq!(field(&page, &mut browser, "p"), ("10".to_string(), "bar".to_string()));
+    let si_thrust = output_text(&page, &mut browser, "thrust").expect("thrust shown");
+    let si_fields = eval(
+        &page,
+        &mut browser,
+        "JSON.stringify([...document.querySelectorAll('input.quantity')].map(i => i.value))",
+    );
+
+    switch_to(&page, &mut browser, "us");
+    let (p, unit) = field(&page, &mut browser, "p");
+    assert_eq!(unit, "psi");
+    let psi: f64 = p.parse().unwrap_or_else(|e| panic!("{p:?}: {e}"));
+    assert!(
+        (psi - TEN_BAR_IN_PSI).abs() <= 1e-5 * TEN_BAR_IN_PSI,
+        "10 bar shown as {p} psi"
+    );
+    assert_eq!(
+        eval(&page, &mut browser, "new URLSearchParams(location.search).get('p')"),
+        json!(format!("{p}psi")),
+        "the URL follows the converted field"
+    );
+    // Every filled quantity field is now in its US customary default unit.
+    let spec = calculators::spec("bend").expect("bend is registered");
+    for field_spec in spec.fields.iter().filter(|f| matches!(f.kind, FieldKind::Quantity(_))) {
+        let (value, unit) = field(&page, &mut browser, field_spec.key);
+        if !value.trim().is_empty() {
+            assert_eq!(unit, field_spec.us_unit, "{}: {value} {unit}", field_spec.key);
+        }
+    }
+    let us_thrust = output_text(&page, &mut browser, "thrust").expect("thrust shown");
+    assert!(us_thrust.ends_with(" lbf"), "{us_thrust}");
+    let si_n = parse_typed(&si_thrust, QuantityKind::Force).unwrap_or_else(|e| panic!("{e}"));
+    let us_n = parse_typed(&us_thrust, QuantityKind::Force).unwrap_or_else(|e| panic!("{e}"));
+    assert!(
+        (si_n - us_n).abs() <= 1e-3 * si_n.abs(),
+        "the same inputs in other units give another thrust: {si_thrust} vs {us_thrust}"
+    );
+    let status = eval(
+        &page,
+        &mut browser,
+        "document.querySelector('.system-status').textContent",
+    );
+    assert!(
+        status.as_str().is_some_and(|s| s.contains("converted to US customary")),
+        "{status}"
+    );
+
+    // Back to SI: everything as typed, and the same result as before.
+    switch_to(&page, &mut browser, "si");
+    assert_eq!(field(&page, &mut browser, "p"), ("10".to_string(), "bar".to_string()));
+    assert_eq!(
+        eval(
+            &page,
+            &mut browser,
+            "JSON.stringify([...document.querySelectorAll('input.quantity')].map(i => i.value))"
+        ),
+        si_fields
+    );
+    assert_eq!(
+        output_text(&page, &mut browser, "thrust").as_deref(),
+        Some(si_thrust.as_str())
+    );
+
+    // A value edited after a switch is converted, not replaced by the old text:
+    // 150 psi = 1034.21 kPa (150 × 6.894 757 kPa, from the definitions).
+    switch_to(&page, &mut browser, "us");
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const i = document.getElementById('field-p'); i.value = '150'; i.dispatchEvent(new Event('input', {bubbles: true})); i.dispatchEvent(new Event('change', {bubbles: true})); })()",
+    );
+    wait(
+        &page,
+        &mut browser,
+        "new URLSearchParams(location.search).get('p') === '150psi'",
+    );
+    switch_to(&page, &mut browser, "si");
+    let (p, unit) = field(&page, &mut browser, "p");
+    assert_eq!(unit, "kPa");
+    let kpa: f64 = p.parse().unwrap_or_else(|e| panic!("{p:?}: {e}"));
+    assert!((kpa - 1034.2136).abs() <= 0.01, "150 psi shown as {p} kPa");
+
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
