@@ -20,6 +20,8 @@
 mod cdp;
 #[path = "browser/harness.rs"]
 mod harness;
+#[path = "browser/pages.rs"]
+mod pages;
 #[path = "browser/links.rs"]
 mod links;
 

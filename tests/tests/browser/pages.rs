@@ -1,0 +1,565 @@
+//! Every calculator page in the browser, driven by the registry and the reference
+//! cases rather than by a list of pages:
+//!
+//! - each registered calculator (`fluxledger_core::calculators::CALCULATORS`) is
+//!   opened by URL with a sourced reference case (one per unit system where the
+//!   folder has one) and must show the case's expected outputs; a calculator
+//!   without a usable case fails and says what to add;
+//! - the line schedule's list of fittings survives a reload;
+//! - every page whose demo draws plots shows them with data, and they follow an
+//!   input; a new page with plots fails until [`PLOT_EDITS`] names the input to
+//!   change.
+//!
+//! Each test runs one browser for all its pages and fails on any console error and
+//! on any request that leaves the site's origin.
+
+use std::collections::BTreeMap;
+use std::time::Duration;
+
+use serde_json::{json, Value};
+
+use fluxledger_core::calculators::{self, CALCULATORS};
+use fluxledger_core::catalog::Solution;
+use fluxledger_core::units::QuantityKind;
+use fluxledger_core::Request;
+use fluxledger_tests::{load_cases, parse_difference, parse_typed, reference_dir, Case, Target, Tolerance};
+
+use crate::cdp::{self, Browser, Launch, Page};
+use crate::harness::{fixture, one_at_a_time, page_errors, query_string};
+
+/// Every `[data-output]` element's text, grouped by output key (an output shown in
+/// two places must agree in both).
+const OUTPUTS: &str =
+    "JSON.stringify([...document.querySelectorAll('[data-output]')].map(e => [e.dataset.output, e.textContent]))";
+
+/// Every ledger table: its key and the text of each cell, row by row.
+const TABLES: &str = "JSON.stringify([...document.querySelectorAll('table.ledger')].map(t => [t.dataset.table, [...t.rows].map(r => [...r.cells].map(c => c.textContent))]))";
+
+/// Every plot: its key, whether it has an SVG, and the `points` of each series line.
+const PLOTS: &str = "JSON.stringify([...document.querySelectorAll('figure.plot')].map(f => ({ key: f.dataset.plot, svg: f.querySelector('svg.plot-svg') !== null, series: [...f.querySelectorAll('svg.plot-svg polyline.series')].map(p => p.getAttribute('points') || '') })))";
+
+/// The page shows four significant figures, so a shown value can be off by half a
+/// unit in the fourth figure: 5e-4 of the value at most. The allowed difference is
+/// the larger of that and the case's own tolerance.
+const DISPLAY_ROUNDING: f64 = 5e-4;
+
+fn launch(width: u32) -> (Browser, Page) {
+    let mut browser = Browser::launch(&Launch { width, height: 900 }).unwrap_or_else(|e| panic!("{e}"));
+    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    (browser, page)
+}
+
+/// Evaluates an expression that returns `JSON.stringify(...)` and parses it.
+fn eval_json(page: &Page, browser: &mut Browser, expression: &str) -> Value {
+    let text = page.eval(browser, expression).unwrap_or_else(|e| panic!("{e}"));
+    let text = text
+        .as_str()
+        .unwrap_or_else(|| panic!("`{}` did not return a string: {text}", cdp::shorten(expression)));
+    serde_json::from_str(text).unwrap_or_else(|e| panic!("`{}` returned bad JSON: {e}", cdp::shorten(expression)))
+}
+
+/// Console errors of the page and its workers, and requests that left the origin.
+fn problems_of_page(browser: &Browser, page: &Page, base: &str) -> Vec<String> {
+    let mut problems = page_errors(browser, page);
+    for url in cdp::request_urls(page.events(browser)) {
+        let local = url.starts_with(&format!("{base}/")) || url.starts_with("data:") || url.starts_with("blob:");
+        if !local {
+            problems.push(format!("request outside the origin: {}", cdp::shorten(&url)));
+        }
+    }
+    problems
+}
+
+/// Types `text` into a field's control the way a user does: focus, select what is
+/// there, insert. Clears `data-state` first so that the caller can wait for the
+/// render of this edit and not see the previous one.
+fn type_into(page: &Page, browser: &mut Browser, field: &str, text: &str) -> Result<(), String> {
+    let id = serde_json::to_string(&format!("field-{field}")).unwrap_or_default();
+    let ready = page.eval(
+        browser,
+        &format!(
+            "(() => {{ const i = document.getElementById({id}); if (!i) return 'missing'; \
+             if (i.closest('[data-field]')?.hidden) return 'hidden'; \
+             i.focus(); i.select(); delete document.body.dataset.state; return 'ok'; }})()"
+        ),
+    )?;
+    if ready != "ok" {
+        return Err(format!("field '{field}': {ready}"));
+    }
+    page.call(browser, "Input.insertText", json!({ "text": text }))?;
+    Ok(())
+}
+
+// ---------------------------------------------------------------------------------
+// A sourced case per calculator, opened by URL.
+
+/// The reference cases a page can be checked against: a calculator's cases with
+/// expected outputs (no refusals) and no `[units]` table (a link carries each value
+/// with its unit typed in), one per unit system: the one with the most expected
+/// outputs, the first by file name on a tie.
+fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {
+    let mut by_system: BTreeMap<&str, &Case> = BTreeMap::new();
+    for case in cases {
+        let usable = case.target == Target::Calculator(key.to_string())
+            && case.expect_error.is_none()
+            && !case.expected.is_empty()
+            && case.units.is_empty();
+        if !usable {
+            continue;
+        }
+        let slot = by_system.entry(case.system.key()).or_insert(case);
+        if case.expected.len() > slot.expected.len() {
+            *slot = case;
+        }
+    }
+    by_system.into_values().collect()
+}
+
+/// The link that opens a case: each typed input as a query parameter, exactly as
+/// typed, and `units=<system>`. A field the case leaves out is sent blank (`key=`),
+/// as the page itself writes a cleared field into the link it shares; a field
+/// missing from a link would be filled with the page's example value instead.
+fn case_query(case: &Case, fields: &[&str]) -> String {
+    let mut params: Vec<(String, String)> = case.inputs.iter().map(|(k, v)| (k.clone(), v.clone())).collect();
+    for field in fields {
+        if !case.inputs.contains_key(*field) {
+            params.push((field.to_string(), String::new()));
+        }
+    }
+    params.push(("units".into(), case.system.key().into()));
+    query_string(&params)
+}
+
+/// What the core itself gives for a case (shown beside a mismatch, so that a
+/// report says whether the page or the core disagrees with the source).
+fn core_solution(key: &str, case: &Case) -> Option<Solution> {
+    let request = Request {
+        inputs: case.inputs.clone(),
+        units: case.units.clone(),
+        system: case.system,
+    };
+    fluxledger_core::solve(key, &request).result.ok()
+}
+
+fn allowed_difference(tolerance: &Tolerance, wanted: f64, kind: QuantityKind) -> f64 {
+    let own = match tolerance {
+        Tolerance::Relative(rel) => rel * wanted.abs(),
+        Tolerance::Absolute(text) => parse_difference(text, kind).unwrap_or_else(|e| panic!("tolerance {text}: {e}")),
+    };
+    own.max(DISPLAY_ROUNDING * wanted.abs())
+}
+
+#[test]
+fn every_page_opened_by_url_with_a_sourced_case_shows_the_expected_outputs() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (cases, errors) = load_cases(&reference_dir());
+    assert!(errors.is_empty(), "reference files that do not load: {errors:#?}");
+    assert!(!CALCULATORS.is_empty(), "no calculator is registered");
+
+    let (mut browser, page) = launch(1280);
+    let mut failures = Vec::new();
+    let mut checked = Vec::new();
+    for calculator in CALCULATORS {
+        let key = calculator.key;
+        let spec = (calculator.spec)();
+        let chosen = cases_for_page(key, &cases);
+        if chosen.is_empty() {
+            failures.push(format!(
+                "{key}.html: no reference case to open it with. Add a sourced case to {} \
+                 (calculator = \"{key}\", [inputs] typed with units, [expected.<output>] values, \
+                 no [expect_error], no [units] table).",
+                reference_dir().display()
+            ));
+            continue;
+        }
+        let fields: Vec<&str> = spec.fields.iter().map(|f| f.key).collect();
+        let kinds: BTreeMap<&str, QuantityKind> = spec.outputs.iter().map(|o| (o.key, o.kind)).collect();
+        for case in chosen {
+            let url = format!("{}/{key}.html?{}", site.base, case_query(case, &fields));
+            let place = format!("{key}.html with {} ({})", case.name(), case.system.key());
+            if let Err(e) = page.goto(&mut browser, &url) {
+                failures.push(format!("{place}: {e}"));
+                continue;
+            }
+            let state = page
+                .wait_rendered(&mut browser)
+                .unwrap_or_else(|e| panic!("{place}: {e}"));
+            let notices = page
+                .eval(&mut browser, "document.getElementById('notices')?.textContent ?? ''")
+                .unwrap_or_else(|e| panic!("{e}"));
+            if state != "ready" || notices.as_str().is_some_and(|n| !n.trim().is_empty()) {
+                failures.push(format!(
+                    "{place}: page state {state:?}, notices {notices}\n  url: {url}"
+                ));
+                continue;
+            }
+            let shown = eval_json(&page, &mut browser, OUTPUTS);
+            let shown: Vec<(String, String)> = shown
+                .as_array()
+                .map(|a| {
+                    a.iter()
+                        .filter_map(|pair| Some((pair[0].as_str()?.to_string(), pair[1].as_str()?.to_string())))
+                        .collect()
+                })
+                .unwrap_or_default();
+            let core = core_solution(key, case);
+            for expected in &case.expected {
+                let Some(&kind) = kinds.get(expected.output.as_str()) else {
+                    failures.push(format!("{place}: the calculator has no output '{}'", expected.output));
+                    continue;
+                };
+                let texts: Vec<&str> = shown
+                    .iter()
+                    .filter(|(k, _)| *k == expected.output)
+                    .map(|(_, t)| t.as_str())
+                    .collect();
+                if texts.is_empty() {
+                    failures.push(format!(
+                        "{place}: output '{}' is not on the page\n  url: {url}",
+                        expected.output
+                    ));
+                    continue;
+                }
+                let wanted = parse_typed(&expected.value, kind)
+                    .unwrap_or_else(|e| panic!("{}: expected.{}: {e}", case.name(), expected.output));
+                let allowed = allowed_difference(&expected.tolerance, wanted, kind);
+                for text in texts {
+                    // The core's own parser reads the page text (units as shown: m², kN·m, °).
+                    let outcome = parse_typed(text, kind).map(|actual| (actual, (actual - wanted).abs() <= allowed));
+                    if let Ok((_, true)) = outcome {
+                        continue;
+                    }
+                    let core_value = core
+                        .as_ref()
+                        .and_then(|s| s.outputs.iter().find(|o| o.key == expected.output))
+                        .map(|o| format!("{} (SI {:e})", o.text, o.si))
+                        .unwrap_or_else(|| "no value".into());
+                    let shown_si = match &outcome {
+                        Ok((actual, _)) => format!("SI {actual:e}"),
+                        Err(e) => format!("does not parse: {e}"),
+                    };
+                    failures.push(format!(
+                        "{place}\n  title:    {}\n  source:   {}\n  output:   {}\n  expected: {} (SI {wanted:e} ± {allowed:e})\n  shown:    {text:?} ({shown_si})\n  core:     {core_value}\n  url:      {url}",
+                        case.title, case.source, expected.output, expected.value
+                    ));
+                }
+            }
+            checked.push(format!("{key}: {}", case.name()));
+        }
+    }
+    browser
+        .pump(Duration::from_millis(300))
+        .unwrap_or_else(|e| panic!("{e}"));
+    failures.extend(problems_of_page(&browser, &page, &site.base));
+    assert!(
+        failures.is_empty(),
+        "\n{rule}\n{}\n{rule}\n(checked: {})",
+        failures.join("\n\n"),
+        checked.join(", "),
+        rule = "─".repeat(60)
+    );
+}
+
+// ---------------------------------------------------------------------------------
+// The line schedule: the typed list of fittings survives a reload.
+
+/// An invented cooling-water header at Harrow Creek Works: five fittings of four
+/// kinds, a comment line, own pressures on two rows and the page's defaults on the
+/// rest; each row tagged so that the table can be matched to the list.
+const SCHEDULE: &str = "# Harrow Creek Works cooling-water header (invented)\n\
+bend 45deg d=300mm od=320mm p=10bar bs8004_stiff_clay h=0.6m tag=CW1\n\
+bend 45deg d=300mm od=320mm p=10bar turn=down tag=CW2\n\
+tee di52_12 di52_8 nfpa24_sand tag=CW3\n\
+reducer di52_12 di52_8 tag=CW4\n\
+dead_end di52_8 tag=CW5 h=0.9m";
+
+#[test]
+fn line_schedule_list_survives_a_reload() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let key = calculators::line_schedule::KEY;
+    let (mut browser, page) = launch(360);
+    page.goto(&mut browser, &format!("{}/{key}.html", site.base))
+        .unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready", "the demo schedule");
+    let demo_tables = eval_json(&page, &mut browser, TABLES);
+
+    type_into(&page, &mut browser, "rows", SCHEDULE).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(
+        page.wait_rendered(&mut browser).unwrap(),
+        "ready",
+        "the typed schedule did not compute: {}",
+        page.eval(
+            &mut browser,
+            "document.querySelector('[data-error-for=rows]')?.textContent"
+        )
+        .unwrap()
+    );
+    assert_eq!(
+        page.eval(&mut browser, "document.getElementById('field-rows').value")
+            .unwrap(),
+        SCHEDULE,
+        "the text field does not hold what was typed"
+    );
+    page.wait_for(
+        &mut browser,
+        &format!(
+            "new URLSearchParams(location.search).get('rows') === {}",
+            serde_json::to_string(SCHEDULE).unwrap()
+        ),
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("the link does not carry the typed list: {e}"));
+
+    let tables = eval_json(&page, &mut browser, TABLES);
+    let outputs = page.eval(&mut browser, OUTPUTS).unwrap();
+    assert_ne!(tables, demo_tables, "the tables did not change from the demo's");
+    let schedule = tables
+        .as_array()
+        .and_then(|t| t.iter().find(|t| t[0] == "schedule"))
+        .unwrap_or_else(|| panic!("no schedule table: {tables}"));
+    let schedule_text = schedule[1].to_string();
+    for tag in ["CW1", "CW2", "CW3", "CW4", "CW5"] {
+        assert!(
+            schedule_text.contains(tag),
+            "row {tag} is not in the schedule table: {schedule_text}"
+        );
+    }
+    let row_count = page
+        .eval(
+            &mut browser,
+            "document.querySelector('[data-output=row_count]')?.textContent",
+        )
+        .unwrap();
+    let row_count = row_count.as_str().map(|t| parse_typed(t, QuantityKind::Ratio));
+    assert_eq!(row_count, Some(Ok(5.0)), "five fittings typed");
+
+    let url = page.eval(&mut browser, "location.href").unwrap();
+    // A marker on the old document: the wait below sees only the reloaded one.
+    page.eval(&mut browser, "window.fluxledgerBeforeReload = true").unwrap();
+    page.call(&mut browser, "Page.reload", json!({})).unwrap();
+    page.wait_for(
+        &mut browser,
+        "window.fluxledgerBeforeReload !== true && document.readyState === 'complete' && document.body.dataset.state",
+        Duration::from_secs(30),
+    )
+    .unwrap_or_else(|e| panic!("the reloaded page did not render: {e}"));
+    assert_eq!(page.eval(&mut browser, "document.body.dataset.state").unwrap(), "ready");
+    assert_eq!(page.eval(&mut browser, "location.href").unwrap(), url);
+    assert_eq!(
+        page.eval(&mut browser, "document.getElementById('field-rows').value")
+            .unwrap(),
+        SCHEDULE,
+        "the list of fittings changed on reload"
+    );
+    assert_eq!(
+        eval_json(&page, &mut browser, TABLES),
+        tables,
+        "the tables changed on reload"
+    );
+    assert_eq!(
+        page.eval(&mut browser, OUTPUTS).unwrap(),
+        outputs,
+        "the results changed on reload"
+    );
+    assert_eq!(
+        page.eval(&mut browser, "document.getElementById('notices').childElementCount")
+            .unwrap(),
+        0,
+        "the reloaded page reported a problem with its link"
+    );
+
+    browser.pump(Duration::from_millis(200)).unwrap();
+    let problems = problems_of_page(&browser, &page, &site.base);
+    assert!(problems.is_empty(), "\n{}", problems.join("\n"));
+}
+
+// ---------------------------------------------------------------------------------
+// Plots: drawn with data, and redrawn when an input changes.
+
+/// For each page that draws plots: the link it is opened with (after `?`; empty for
+/// the demo), and an input whose change moves the curves, with the text typed.
+struct PlotEdit {
+    page: &'static str,
+    start: &'static str,
+    field: &'static str,
+    text: &'static str,
+}
+
+/// A page whose demo draws plots must be listed here (the test says so otherwise).
+const PLOT_EDITS: &[PlotEdit] = &[
+    // Power and efficiency against blade speed: the supply head sets the jet speed,
+    // and so the range of blade speeds and the power.
+    PlotEdit {
+        page: "vane",
+        start: "",
+        field: "h_supply",
+        text: "35 m",
+    },
+    // Torque and power against speed of an arm fed at a fixed pressure.
+    PlotEdit {
+        page: "reaction-arm",
+        start: "drive=pressure",
+        field: "p",
+        text: "450 kPa",
+    },
+    // Level against time: a lower starting level drains sooner.
+    PlotEdit {
+        page: "tank-drain",
+        start: "",
+        field: "h_start",
+        text: "2.5 m",
+    },
+    // The measured profile: other traverse readings.
+    PlotEdit {
+        page: "profile",
+        start: "",
+        field: "points",
+        text: "0 3.1; 0.3 3.0; 0.6 2.7; 0.8 2.3; 0.95 1.6",
+    },
+    // Head against flow at another shaft speed.
+    PlotEdit {
+        page: "runner",
+        start: "",
+        field: "n",
+        text: "1150 rpm",
+    },
+    // Thrust by row: a steeper first bend.
+    PlotEdit {
+        page: "line-schedule",
+        start: "",
+        field: "rows",
+        text: "bend 90deg di52_12 nfpa24_sandy_silt tag=B1\nbend 22.5deg di52_12 nfpa24_sandy_silt tag=B2\ndead_end di52_8 tag=H1",
+    },
+];
+
+/// Counts the finite coordinate pairs of a polyline's `points` attribute.
+fn point_count(points: &str) -> usize {
+    let numbers: Vec<f64> = points
+        .split([' ', ','])
+        .filter(|s| !s.is_empty())
+        .map(|s| s.parse::<f64>().unwrap_or(f64::NAN))
+        .collect();
+    if numbers.len() % 2 == 1 || numbers.iter().any(|v| !v.is_finite()) {
+        return 0;
+    }
+    numbers.len() / 2
+}
+
+/// Plot key -> series points; problems for plots without an SVG or a drawn series.
+fn read_plots(
+    page: &Page,
+    browser: &mut Browser,
+    place: &str,
+    problems: &mut Vec<String>,
+) -> BTreeMap<String, Vec<String>> {
+    let plots = eval_json(page, browser, PLOTS);
+    let mut out = BTreeMap::new();
+    for plot in plots.as_array().cloned().unwrap_or_default() {
+        let key = plot["key"].as_str().unwrap_or_default().to_string();
+        let series: Vec<String> = plot["series"]
+            .as_array()
+            .map(|s| s.iter().filter_map(|p| p.as_str().map(str::to_string)).collect())
+            .unwrap_or_default();
+        if plot["svg"] != Value::Bool(true) {
+            problems.push(format!("{place}: plot '{key}' has no SVG"));
+        } else if !series.iter().any(|p| point_count(p) >= 2) {
+            problems.push(format!(
+                "{place}: plot '{key}' has no series line with points: {series:?}"
+            ));
+        }
+        out.insert(key, series);
+    }
+    out
+}
+
+#[test]
+fn plots_render_with_data_and_follow_an_input() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launch(1280);
+    let mut problems = Vec::new();
+    let mut with_plots = Vec::new();
+    for calculator in CALCULATORS {
+        let key = calculator.key;
+        page.goto(&mut browser, &format!("{}/{key}.html", site.base))
+            .unwrap_or_else(|e| panic!("{e}"));
+        let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
+        if state != "ready" {
+            problems.push(format!("{key}.html: the demo did not compute (state {state:?})"));
+            continue;
+        }
+        let drawn = page
+            .eval(
+                &mut browser,
+                "document.querySelectorAll('figure.plot svg.plot-svg').length",
+            )
+            .unwrap();
+        if drawn == 0 {
+            continue;
+        }
+        with_plots.push(key);
+        let Some(edit) = PLOT_EDITS.iter().find(|e| e.page == key) else {
+            problems.push(format!(
+                "{key}.html draws plots but PLOT_EDITS in {} names no input that moves them; add one",
+                file!()
+            ));
+            continue;
+        };
+        let place = format!("{key}.html?{}", edit.start);
+        if !edit.start.is_empty() {
+            page.goto(&mut browser, &format!("{}/{place}", site.base))
+                .unwrap_or_else(|e| panic!("{e}"));
+            let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
+            if state != "ready" {
+                problems.push(format!("{place}: did not compute (state {state:?})"));
+                continue;
+            }
+        }
+        let before = read_plots(&page, &mut browser, &place, &mut problems);
+        if before.is_empty() {
+            problems.push(format!("{place}: no plot drawn"));
+            continue;
+        }
+        if let Err(e) = type_into(&page, &mut browser, edit.field, edit.text) {
+            problems.push(format!("{place}: cannot edit the input: {e}"));
+            continue;
+        }
+        let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
+        if state != "ready" {
+            problems.push(format!(
+                "{place}: after typing {:?} into '{}', the page state is {state:?}",
+                edit.text, edit.field
+            ));
+            continue;
+        }
+        let after_place = format!("{place} after {}={:?}", edit.field, edit.text);
+        let after = read_plots(&page, &mut browser, &after_place, &mut problems);
+        if after.keys().ne(before.keys()) {
+            problems.push(format!(
+                "{after_place}: the plots changed from {:?} to {:?}",
+                before.keys().collect::<Vec<_>>(),
+                after.keys().collect::<Vec<_>>()
+            ));
+        }
+        for (plot, series) in &before {
+            if after.get(plot) == Some(series) {
+                problems.push(format!("{after_place}: plot '{plot}' did not change"));
+            }
+        }
+    }
+    for edit in PLOT_EDITS {
+        if !with_plots.contains(&edit.page) {
+            problems.push(format!(
+                "PLOT_EDITS lists {}.html, whose demo draws no plot (pages with plots: {with_plots:?})",
+                edit.page
+            ));
+        }
+    }
+    browser
+        .pump(Duration::from_millis(300))
+        .unwrap_or_else(|e| panic!("{e}"));
+    problems.extend(problems_of_page(&browser, &page, &site.base));
+    assert!(problems.is_empty(), "\n{}", problems.join("\n"));
+}
