@@ -13,8 +13,9 @@
 //   input form · details (links to a next calculator, other outputs, warnings,
 //   tables with a CSV download, diagrams, plots) · print footer (link and version).
 //
-// Links to another calculator (`carry_over` of a result) are built only from a key
-// found in the catalog and the inputs the core wrote, encoded by URLSearchParams.
+// The one `href` the script writes is a link to another calculator (`carry_over` of a
+// result): the page name is a key found in the catalog, the query the inputs the core
+// wrote, encoded by URLSearchParams; the target page reads them as data like any URL.
 
 const SVG_NS = "http://www.w3.org/2000/svg";
 
@@ -338,7 +339,7 @@ function buildToolbar() {
   const systemHelp = el("p", {
     id: "system-help",
     class: "system-help",
-    text: "Switching converts the filled values to the units of the other system; switching back restores them as typed.",
+    text: "Switching converts filled values; switching back restores them as typed.",
   });
   bar.append(systems, el("div", { class: "toolbar-actions" }, copy, print, copyStatus), copyField, systemHelp, systemStatus);
   state.ui.systemInputs = systems.querySelectorAll("input");
