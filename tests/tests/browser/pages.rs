@@ -19,7 +19,7 @@ use std::time::Duration;
 use serde_json::{json, Value};
 
 use fluxledger_core::calculators::{self, CALCULATORS};
-use fluxledger_core::catalog::Solution;
+use fluxledger_core::catalog::{demo_request, Solution};
 use fluxledger_core::units::QuantityKind;
 use fluxledger_core::Request;
 use fluxledger_tests::{load_cases, parse_difference, parse_typed, reference_dir, Case, Target, Tolerance};
@@ -378,11 +378,12 @@ fn line_schedule_list_survives_a_reload() {
 // ---------------------------------------------------------------------------------
 // Plots: drawn with data, and redrawn when an input changes.
 
-/// For each page that draws plots: the link it is opened with (after `?`; empty for
-/// the demo), and an input whose change moves the curves, with the text typed.
+/// For each page that draws plots: the inputs it is opened with besides its demo
+/// (as link parameters), and an input whose change moves the curves, with the text
+/// typed into it.
 struct PlotEdit {
     page: &'static str,
-    start: &'static str,
+    start: &'static [(&'static str, &'static str)],
     field: &'static str,
     text: &'static str,
 }
@@ -393,48 +394,53 @@ const PLOT_EDITS: &[PlotEdit] = &[
     // and so the range of blade speeds and the power.
     PlotEdit {
         page: "vane",
-        start: "",
+        start: &[],
         field: "h_supply",
         text: "35 m",
     },
-    // Torque and power against speed of an arm fed at a fixed pressure.
+    // Torque and power against speed of an arm fed at a fixed supply pressure.
     PlotEdit {
         page: "reaction-arm",
-        start: "drive=pressure",
+        start: &[("drive", "pressure")],
         field: "p",
         text: "450 kPa",
     },
     // Level against time: a lower starting level drains sooner.
     PlotEdit {
         page: "tank-drain",
-        start: "",
+        start: &[],
         field: "h_start",
         text: "2.5 m",
     },
     // The measured profile: other traverse readings.
     PlotEdit {
         page: "profile",
-        start: "",
+        start: &[],
         field: "points",
         text: "0 3.1; 0.3 3.0; 0.6 2.7; 0.8 2.3; 0.95 1.6",
     },
     // Head against flow at another shaft speed.
     PlotEdit {
         page: "runner",
-        start: "",
+        start: &[],
         field: "n",
         text: "1150 rpm",
     },
-    // Thrust by row: a steeper first bend.
+    // Thrust by row: another list of fittings.
     PlotEdit {
         page: "line-schedule",
-        start: "",
+        start: &[],
         field: "rows",
         text: "bend 90deg di52_12 nfpa24_sandy_silt tag=B1\nbend 22.5deg di52_12 nfpa24_sandy_silt tag=B2\ndead_end di52_8 tag=H1",
     },
 ];
 
-/// Counts the finite coordinate pairs of a polyline's `points` attribute.
+/// Plots as drawn or described: each plot's key and the number of points of each
+/// series line, in order.
+type PlotShape = Vec<(String, Vec<usize>)>;
+
+/// Counts the finite coordinate pairs of a polyline's `points` attribute (0 when
+/// anything in it is not a number).
 fn point_count(points: &str) -> usize {
     let numbers: Vec<f64> = points
         .split([' ', ','])
@@ -447,31 +453,82 @@ fn point_count(points: &str) -> usize {
     numbers.len() / 2
 }
 
-/// Plot key -> series points; problems for plots without an SVG or a drawn series.
-fn read_plots(
+/// What the core describes for the demo inputs with `overrides`: each plot and the
+/// finite points of each series that has any (the page draws one line for each).
+fn core_plot_shape(key: &str, overrides: &[(&str, &str)]) -> Result<PlotShape, String> {
+    let spec = calculators::spec(key).ok_or_else(|| format!("calculator '{key}' is not registered"))?;
+    match fluxledger_core::solve(key, &demo_request(&spec, overrides)).result {
+        Ok(solution) => Ok(solution
+            .plots
+            .iter()
+            .map(|plot| {
+                let counts = plot
+                    .series
+                    .iter()
+                    .map(|s| s.points.iter().filter(|p| p[0].is_finite() && p[1].is_finite()).count())
+                    .filter(|&n| n > 0)
+                    .collect();
+                (plot.key.to_string(), counts)
+            })
+            .collect()),
+        Err(e) => Err(format!("the core refuses {overrides:?}: {e:?}")),
+    }
+}
+
+/// The plots on the page: each plot's key and the `points` of its series lines
+/// (a plot without an SVG has none).
+fn read_plots(page: &Page, browser: &mut Browser) -> Vec<(String, Vec<String>)> {
+    let plots = eval_json(page, browser, PLOTS);
+    plots
+        .as_array()
+        .cloned()
+        .unwrap_or_default()
+        .iter()
+        .map(|plot| {
+            let key = plot["key"].as_str().unwrap_or_default().to_string();
+            let series: Vec<String> = if plot["svg"] == Value::Bool(true) {
+                plot["series"]
+                    .as_array()
+                    .map(|s| s.iter().filter_map(|p| p.as_str().map(str::to_string)).collect())
+                    .unwrap_or_default()
+            } else {
+                Vec::new()
+            };
+            (key, series)
+        })
+        .collect()
+}
+
+fn shape_of(plots: &[(String, Vec<String>)]) -> PlotShape {
+    plots
+        .iter()
+        .map(|(key, series)| (key.clone(), series.iter().map(|p| point_count(p)).collect()))
+        .collect()
+}
+
+/// Reads the plots and checks them against what the core describes for the same
+/// inputs: the same plots, one line per series with every point.
+fn checked_plots(
     page: &Page,
     browser: &mut Browser,
+    key: &str,
+    overrides: &[(&str, &str)],
     place: &str,
     problems: &mut Vec<String>,
-) -> BTreeMap<String, Vec<String>> {
-    let plots = eval_json(page, browser, PLOTS);
-    let mut out = BTreeMap::new();
-    for plot in plots.as_array().cloned().unwrap_or_default() {
-        let key = plot["key"].as_str().unwrap_or_default().to_string();
-        let series: Vec<String> = plot["series"]
-            .as_array()
-            .map(|s| s.iter().filter_map(|p| p.as_str().map(str::to_string)).collect())
-            .unwrap_or_default();
-        if plot["svg"] != Value::Bool(true) {
-            problems.push(format!("{place}: plot '{key}' has no SVG"));
-        } else if !series.iter().any(|p| point_count(p) >= 2) {
-            problems.push(format!(
-                "{place}: plot '{key}' has no series line with points: {series:?}"
-            ));
+) -> Vec<(String, Vec<String>)> {
+    let plots = read_plots(page, browser);
+    match core_plot_shape(key, overrides) {
+        Ok(described) => {
+            let drawn = shape_of(&plots);
+            if drawn != described {
+                problems.push(format!(
+                    "{place}: the page draws plots (key, points per line) {drawn:?}; the core describes {described:?}"
+                ));
+            }
         }
-        out.insert(key, series);
+        Err(e) => problems.push(format!("{place}: {e}")),
     }
-    out
+    plots
 }
 
 #[test]
@@ -490,16 +547,18 @@ fn plots_render_with_data_and_follow_an_input() {
             problems.push(format!("{key}.html: the demo did not compute (state {state:?})"));
             continue;
         }
-        let drawn = page
-            .eval(
-                &mut browser,
-                "document.querySelectorAll('figure.plot svg.plot-svg').length",
-            )
-            .unwrap();
-        if drawn == 0 {
+        let demo = checked_plots(&page, &mut browser, key, &[], &format!("{key}.html"), &mut problems);
+        if demo.is_empty() {
             continue;
         }
         with_plots.push(key);
+        for (plot, series) in &demo {
+            if !series.iter().any(|p| point_count(p) >= 2) {
+                problems.push(format!(
+                    "{key}.html: plot '{plot}' has no series line with points: {series:?}"
+                ));
+            }
+        }
         let Some(edit) = PLOT_EDITS.iter().find(|e| e.page == key) else {
             problems.push(format!(
                 "{key}.html draws plots but PLOT_EDITS in {} names no input that moves them; add one",
@@ -507,8 +566,15 @@ fn plots_render_with_data_and_follow_an_input() {
             ));
             continue;
         };
-        let place = format!("{key}.html?{}", edit.start);
-        if !edit.start.is_empty() {
+        let start: Vec<(String, String)> = edit.start.iter().map(|(k, v)| (k.to_string(), v.to_string())).collect();
+        let place = if start.is_empty() {
+            format!("{key}.html")
+        } else {
+            format!("{key}.html?{}", query_string(&start))
+        };
+        let before = if edit.start.is_empty() {
+            demo
+        } else {
             page.goto(&mut browser, &format!("{}/{place}", site.base))
                 .unwrap_or_else(|e| panic!("{e}"));
             let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
@@ -516,36 +582,28 @@ fn plots_render_with_data_and_follow_an_input() {
                 problems.push(format!("{place}: did not compute (state {state:?})"));
                 continue;
             }
-        }
-        let before = read_plots(&page, &mut browser, &place, &mut problems);
-        if before.is_empty() {
-            problems.push(format!("{place}: no plot drawn"));
-            continue;
-        }
+            checked_plots(&page, &mut browser, key, edit.start, &place, &mut problems)
+        };
         if let Err(e) = type_into(&page, &mut browser, edit.field, edit.text) {
             problems.push(format!("{place}: cannot edit the input: {e}"));
             continue;
         }
         let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
+        let after_place = format!("{place} after typing {:?} into '{}'", edit.text, edit.field);
         if state != "ready" {
-            problems.push(format!(
-                "{place}: after typing {:?} into '{}', the page state is {state:?}",
-                edit.text, edit.field
-            ));
+            problems.push(format!("{after_place}: the page state is {state:?}"));
             continue;
         }
-        let after_place = format!("{place} after {}={:?}", edit.field, edit.text);
-        let after = read_plots(&page, &mut browser, &after_place, &mut problems);
-        if after.keys().ne(before.keys()) {
-            problems.push(format!(
-                "{after_place}: the plots changed from {:?} to {:?}",
-                before.keys().collect::<Vec<_>>(),
-                after.keys().collect::<Vec<_>>()
-            ));
-        }
+        let mut overrides = edit.start.to_vec();
+        overrides.push((edit.field, edit.text));
+        let after = checked_plots(&page, &mut browser, key, &overrides, &after_place, &mut problems);
         for (plot, series) in &before {
-            if after.get(plot) == Some(series) {
-                problems.push(format!("{after_place}: plot '{plot}' did not change"));
+            match after.iter().find(|(k, _)| k == plot) {
+                Some((_, now)) if now == series => {
+                    problems.push(format!("{after_place}: plot '{plot}' did not change"))
+                }
+                Some(_) => {}
+                None => problems.push(format!("{after_place}: plot '{plot}' is gone")),
             }
         }
     }
