@@ -127,6 +127,83 @@ fn bend_links_to_the_thrust_block_page_with_the_same_thrust() {
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
 
+/// Every page whose demo result carries inputs to another calculator shows one link
+/// per carry-over, to that calculator's page with exactly the core's inputs and the
+/// page's unit system, and the page it opens accepts every one of them.
+#[test]
+fn every_carry_over_link_holds_the_core_inputs_and_opens_cleanly() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
+    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    let mut pages_with_links = Vec::new();
+    for spec in calculators::catalog() {
+        let request = Request {
+            inputs: demo_inputs(&spec),
+            units: Default::default(),
+            system: UnitSystem::Si,
+        };
+        let Ok(solution) = fluxledger_core::solve(spec.key, &request).result else {
+            panic!("{}: the demo does not solve natively", spec.key);
+        };
+        open(&page, &mut browser, &format!("{}/{}.html", site.base, spec.key));
+        let links = eval(
+            &page,
+            &mut browser,
+            "JSON.stringify([...document.querySelectorAll('a.carry-link')].map(a => [a.getAttribute('href').split('?')[0], [...new URL(a.href).searchParams]]))",
+        );
+        let links: Vec<(String, Vec<(String, String)>)> =
+            serde_json::from_str(links.as_str().unwrap_or("[]")).unwrap_or_default();
+        assert_eq!(links.len(), solution.carry_over.len(), "{}: {links:?}", spec.key);
+        for (carry, (path, params)) in solution.carry_over.iter().zip(&links) {
+            assert_eq!(path, &format!("{}.html", carry.calculator), "{}", spec.key);
+            let mut expected: Vec<(String, String)> =
+                carry.inputs.iter().map(|(k, v)| (k.to_string(), v.clone())).collect();
+            expected.push(("units".into(), "si".into()));
+            let mut got = params.clone();
+            expected.sort();
+            got.sort();
+            assert_eq!(got, expected, "{}: link inputs", spec.key);
+        }
+        for (index, (target, _)) in links.iter().enumerate() {
+            open(&page, &mut browser, &format!("{}/{}.html", site.base, spec.key));
+            eval(
+                &page,
+                &mut browser,
+                &format!("document.querySelectorAll('a.carry-link')[{index}].click()"),
+            );
+            wait(
+                &page,
+                &mut browser,
+                &format!("location.pathname.endsWith('/{target}') && document.readyState === 'complete' && document.body.dataset.state"),
+            );
+            assert_eq!(
+                eval(&page, &mut browser, "document.body.dataset.state"),
+                "ready",
+                "{} -> {target}",
+                spec.key
+            );
+            assert_eq!(
+                eval(&page, &mut browser, "document.getElementById('notices').textContent"),
+                "",
+                "{} -> {target}: the page refused part of the link",
+                spec.key
+            );
+        }
+        if !links.is_empty() {
+            pages_with_links.push(spec.key);
+        }
+    }
+    for key in ["bend", "reducer", "dead-end", "tee", "nozzle", "line-schedule"] {
+        assert!(
+            pages_with_links.contains(&key),
+            "{key} shows no carry-over link: {pages_with_links:?}"
+        );
+    }
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
 // ---------------------------------------------------------------------------------
 // CSV of every table.
 
