@@ -137,6 +137,9 @@ const state = {
   /** Refs to the DOM parts. */
   ui: {},
   figureWidth: 0,
+  // Viewport height, read once and on resize: reading it while a result is being
+  // drawn would force a synchronous layout on every keystroke.
+  viewportHeight: window.innerHeight || 800,
   lastResult: null,
   /**
    * field key -> what the unit-system switch replaced, so that switching back
@@ -589,6 +592,7 @@ function buildPage() {
   Object.assign(state.ui, { section, headline, form, details, printFooter });
 
   window.addEventListener("resize", () => {
+    state.viewportHeight = window.innerHeight || 800;
     const width = measureFigureWidth();
     if (width !== state.figureWidth && state.lastResult) render(state.lastResult);
   });
@@ -919,7 +923,7 @@ function renderDiagram(diagram, index, width) {
   // Fit the drawing and its labels: the scale depends on the view, and the labels'
   // extent in model units on the scale, so settle both in a few rounds.
   const pad = 0.04 * Math.max(maxX - minX, maxY - minY);
-  const maxH = Math.max(260, Math.min(560, (window.innerHeight || 800) * 0.7));
+  const maxH = Math.max(260, Math.min(560, state.viewportHeight * 0.7));
   let view = [minX - pad, minY - pad, maxX + pad, maxY + pad];
   let scale = 1;
   // Force labels are placed first; a label that would overlap one already placed
