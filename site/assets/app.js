@@ -710,7 +710,9 @@ function measureFigureWidth() {
 
 function renderTable(table) {
   const element = el("table", { class: "ledger", dataset: { table: table.key || "" } });
-  if (table.title) element.append(el("caption", { text: table.title }));
+  // The title stands above the scrolling area, so a wide table scrolls under it
+  // instead of cutting it off; the caption keeps it for screen readers.
+  if (table.title) element.append(el("caption", { class: "visually-hidden", text: table.title }));
   const head = el("tr");
   for (const column of table.columns || []) {
     // "area (mm2)" -> "area (mm²)"
@@ -738,6 +740,7 @@ function renderTable(table) {
   return el(
     "section",
     { class: "panel panel-table" },
+    table.title ? el("h3", { class: "table-title", "aria-hidden": "true", text: table.title }) : null,
     el("div", { class: "table-scroll", tabindex: "0" }, element),
     el("div", { class: "table-actions" }, download),
   );
