@@ -20,10 +20,10 @@
 mod cdp;
 #[path = "browser/harness.rs"]
 mod harness;
-#[path = "browser/pages.rs"]
-mod pages;
 #[path = "browser/links.rs"]
 mod links;
+#[path = "browser/pages.rs"]
+mod pages;
 
 use std::time::Duration;
 

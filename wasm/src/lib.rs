@@ -48,12 +48,8 @@ fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, Js
     if value.is_undefined() || value.is_null() {
         return Ok(BTreeMap::new());
     }
-    serde_wasm_bindgen::from_value(value).map_err(|e| {
-        adapter_error(
-            &format!("`{name}` must be an object of strings keyed by field"),
-            e,
-        )
-    })
+    serde_wasm_bindgen::from_value(value)
+        .map_err(|e| adapter_error(&format!("`{name}` must be an object of strings keyed by field"), e))
 }
 
 /// The description of every calculator (see the contract for the shape).
@@ -69,12 +65,8 @@ pub fn catalog() -> Result<JsValue, JsError> {
 /// `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
 #[wasm_bindgen]
 pub fn solve(key: &str, inputs: JsValue, units: JsValue, system: &str) -> Result<JsValue, JsError> {
-    let system = UnitSystem::from_key(system).ok_or_else(|| {
-        adapter_error(
-            "unknown unit system",
-            format!("'{system}' (expected \"si\" or \"us\")"),
-        )
-    })?;
+    let system = UnitSystem::from_key(system)
+        .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     let request = Request {
         inputs: string_map(inputs, "inputs")?,
         units: string_map(units, "units")?,
@@ -93,11 +85,7 @@ pub fn solve(key: &str, inputs: JsValue, units: JsValue, system: &str) -> Result
 /// converted comes back as `{ok: false, message}`.
 #[wasm_bindgen]
 pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str) -> Result<JsValue, JsError> {
-    let system = UnitSystem::from_key(system).ok_or_else(|| {
-        adapter_error(
-            "unknown unit system",
-            format!("'{system}' (expected \"si\" or \"us\")"),
-        )
-    })?;
+    let system = UnitSystem::from_key(system)
+        .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     to_js(&view::convert_view(key, field, text, from_unit, system))
 }
