@@ -80,6 +80,31 @@ pub enum QuantityKind {
 }
 
 impl QuantityKind {
+    /// Every kind, in declaration order.
+    pub const ALL: [QuantityKind; 21] = [
+        QuantityKind::Length,
+        QuantityKind::Area,
+        QuantityKind::Volume,
+        QuantityKind::Mass,
+        QuantityKind::Time,
+        QuantityKind::Pressure,
+        QuantityKind::Velocity,
+        QuantityKind::Acceleration,
+        QuantityKind::VolumeFlow,
+        QuantityKind::MassFlow,
+        QuantityKind::Force,
+        QuantityKind::Torque,
+        QuantityKind::Power,
+        QuantityKind::Angle,
+        QuantityKind::AngularSpeed,
+        QuantityKind::Temperature,
+        QuantityKind::Density,
+        QuantityKind::SpecificWeight,
+        QuantityKind::DynamicViscosity,
+        QuantityKind::KinematicViscosity,
+        QuantityKind::Ratio,
+    ];
+
     /// A plain name for messages ("a unit of pressure").
     pub fn name(self) -> &'static str {
         match self {
@@ -664,30 +689,16 @@ mod tests {
     use approx::assert_relative_eq;
 
     #[test]
+    fn all_kinds_are_listed_once_in_declaration_order() {
+        for (index, kind) in QuantityKind::ALL.iter().enumerate() {
+            assert_eq!(*kind as usize, index, "{kind:?}");
+        }
+        assert_eq!(QuantityKind::ALL.len(), QuantityKind::Ratio as usize + 1);
+    }
+
+    #[test]
     fn display_units_exist_and_match_kind() {
-        let kinds = [
-            Q::Length,
-            Q::Area,
-            Q::Volume,
-            Q::Mass,
-            Q::Time,
-            Q::Pressure,
-            Q::Velocity,
-            Q::Acceleration,
-            Q::VolumeFlow,
-            Q::MassFlow,
-            Q::Force,
-            Q::Torque,
-            Q::Power,
-            Q::Angle,
-            Q::AngularSpeed,
-            Q::Temperature,
-            Q::Density,
-            Q::SpecificWeight,
-            Q::DynamicViscosity,
-            Q::KinematicViscosity,
-            Q::Ratio,
-        ];
+        let kinds = QuantityKind::ALL;
         for kind in kinds {
             for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
                 for id in display_units(kind, system) {

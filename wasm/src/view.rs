@@ -759,30 +759,7 @@ mod tests {
 
     #[test]
     fn every_quantity_kind_name_is_distinct_snake_case() {
-        use QuantityKind as Q;
-        let all = [
-            Q::Length,
-            Q::Area,
-            Q::Volume,
-            Q::Mass,
-            Q::Time,
-            Q::Pressure,
-            Q::Velocity,
-            Q::Acceleration,
-            Q::VolumeFlow,
-            Q::MassFlow,
-            Q::Force,
-            Q::Torque,
-            Q::Power,
-            Q::Angle,
-            Q::AngularSpeed,
-            Q::Temperature,
-            Q::Density,
-            Q::SpecificWeight,
-            Q::DynamicViscosity,
-            Q::KinematicViscosity,
-            Q::Ratio,
-        ];
+        let all = QuantityKind::ALL;
         let mut names: Vec<&str> = all.iter().map(|k| quantity_name(*k)).collect();
         for (kind, name) in all.iter().zip(&names) {
             // The Debug name folded to snake_case is the wire name.
