@@ -405,26 +405,7 @@ fn diagram(g: &Geometry, balance: &engine::Balance, report: &Report<'_>) -> Diag
         }
     }
     let c = g.centroid().xy();
-    if let Some(a) = common::force_arrow(
-        c,
-        thrust,
-        scale,
-        format!("thrust T {}", fmt(thrust)),
-        ShapeStyle::Thrust,
-        true,
-    ) {
-        shapes.push(a);
-    }
-    if let Some(a) = common::force_arrow(
-        c,
-        balance.support_force,
-        scale,
-        format!("restraint R {}", fmt(balance.support_force)),
-        ShapeStyle::Restraint,
-        true,
-    ) {
-        shapes.push(a);
-    }
+    common::thrust_and_restraint_arrows(&mut shapes, c, c, thrust, scale, &fmt(thrust));
     shapes.push(Shape::Text {
         at: [-lead, -g.d_in],
         text: "inlet".to_string(),

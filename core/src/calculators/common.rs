@@ -715,3 +715,30 @@ pub fn convex_hull(mut points: Vec<[f64; 2]>) -> Vec<[f64; 2]> {
     lower.extend(upper);
     lower
 }
+
+/// The pair of arrows every fitting diagram draws: the thrust T the fitting puts on
+/// its supports, and the restraint R = −T the supports supply, each from its own
+/// point, labelled with `text` (the formatted magnitude).
+pub fn thrust_and_restraint_arrows(
+    shapes: &mut Vec<Shape>,
+    thrust_at: [f64; 2],
+    restraint_at: [f64; 2],
+    thrust: Vec3,
+    scale: f64,
+    text: &str,
+) {
+    let pair = [
+        (thrust_at, thrust, format!("thrust T {text}"), ShapeStyle::Thrust),
+        (
+            restraint_at,
+            -thrust,
+            format!("restraint R {text}"),
+            ShapeStyle::Restraint,
+        ),
+    ];
+    for (at, force, label, style) in pair {
+        if let Some(arrow) = force_arrow(at, force, scale, label, style, true) {
+            shapes.push(arrow);
+        }
+    }
+}

@@ -321,19 +321,14 @@ fn diagram(
             shapes.push(a);
         }
     }
-    if let Some(a) = common::force_arrow(end, thrust, scale, format!("thrust T {fmt}"), ShapeStyle::Thrust, true) {
-        shapes.push(a);
-    }
-    if let Some(a) = common::force_arrow(
+    common::thrust_and_restraint_arrows(
+        &mut shapes,
+        end,
         [end[0] + 1.5 * od + 0.3 * od, -0.6 * od],
-        balance.support_force,
+        thrust,
         scale,
-        format!("restraint R {fmt}"),
-        ShapeStyle::Restraint,
-        true,
-    ) {
-        shapes.push(a);
-    }
+        &fmt,
+    );
     shapes.push(Shape::Text {
         at: [-lead, -od],
         text: format!("thrust diameter {}", report.fmt(d_used, Q::Length)),

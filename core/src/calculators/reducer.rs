@@ -595,26 +595,14 @@ fn diagram(
         }
     }
     let side = 0.9 * big;
-    if let Some(arrow) = common::force_arrow(
+    common::thrust_and_restraint_arrows(
+        &mut shapes,
         at(0.5 * length, side),
+        at(0.5 * length, -side),
         in_plane(thrust),
         scale,
-        format!("thrust T {}", fmt(thrust)),
-        ShapeStyle::Thrust,
-        true,
-    ) {
-        shapes.push(arrow);
-    }
-    if let Some(arrow) = common::force_arrow(
-        at(0.5 * length, -side),
-        in_plane(balance.support_force),
-        scale,
-        format!("restraint R {}", fmt(balance.support_force)),
-        ShapeStyle::Restraint,
-        true,
-    ) {
-        shapes.push(arrow);
-    }
+        &fmt(thrust),
+    );
     shapes.push(Shape::Text {
         at: at(-lead, -d_in),
         text: "inlet".to_string(),

@@ -1103,26 +1103,7 @@ fn diagram(
             shapes.push(a);
         }
     }
-    if let Some(a) = common::force_arrow(
-        [0.0, 0.0],
-        flat(thrust),
-        scale,
-        format!("thrust T {}", fmt(thrust)),
-        ShapeStyle::Thrust,
-        true,
-    ) {
-        shapes.push(a);
-    }
-    if let Some(a) = common::force_arrow(
-        [0.0, 0.0],
-        flat(balance.support_force),
-        scale,
-        format!("restraint R {}", fmt(balance.support_force)),
-        ShapeStyle::Restraint,
-        true,
-    ) {
-        shapes.push(a);
-    }
+    common::thrust_and_restraint_arrows(&mut shapes, [0.0, 0.0], [0.0, 0.0], flat(thrust), scale, &fmt(thrust));
     let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * d_common);
     Diagram {
         title: format!("{} junction, plan view: control volume and forces", if dividing { "Dividing" } else { "Combining" }),
