@@ -650,22 +650,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         report.output("runaway_closed_form", w);
     }
 
-    // Largest power between standstill and runaway (golden-section search; power
-    // is zero at both ends and has one peak).
+    // Largest power between standstill and runaway (power is zero at both ends with
+    // one peak between).
     if let Some(top) = runaway.filter(|w| *w > 0.0) {
         let power = |w: f64| arm.state(w).map(|s| s.power);
-        let (mut a, mut b) = (0.0, top);
-        let ratio = (5f64.sqrt() - 1.0) / 2.0;
-        for _ in 0..120 {
-            let c = b - ratio * (b - a);
-            let d = a + ratio * (b - a);
-            if power(c).map_err(fail)? > power(d).map_err(fail)? {
-                b = d;
-            } else {
-                a = c;
-            }
-        }
-        let w = 0.5 * (a + b);
+        let w = common::peak_of(0.0, top, power).map_err(fail)?;
         report.output("max_power", power(w).map_err(fail)?);
         report.output("speed_at_max_power", w);
     }

@@ -331,34 +331,12 @@ fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -> Re
     })
 }
 
-/// Golden-section search of the blade speed that gives the most power, over the
-/// balance itself; returns the state there.
+/// The blade speed that gives the most power, searched over the balance itself
+/// (power is zero at standstill and at the jet speed); returns the state there.
 fn best_speed(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode) -> Result<VaneState, EngineError> {
-    let inv_phi = (5.0f64.sqrt() - 1.0) / 2.0;
-    let (mut a, mut b) = (0.0, jet.velocity);
     let power = |u: f64| vane_balance(fluid, jet, vane, mode, u).map(|s| s.power);
-    let mut c = b - inv_phi * (b - a);
-    let mut d = a + inv_phi * (b - a);
-    let (mut pc, mut pd) = (power(c)?, power(d)?);
-    for _ in 0..200 {
-        if (b - a) <= 1e-12 * jet.velocity {
-            break;
-        }
-        if pc > pd {
-            b = d;
-            d = c;
-            pd = pc;
-            c = b - inv_phi * (b - a);
-            pc = power(c)?;
-        } else {
-            a = c;
-            c = d;
-            pc = pd;
-            d = a + inv_phi * (b - a);
-            pd = power(d)?;
-        }
-    }
-    vane_balance(fluid, jet, vane, mode, 0.5 * (a + b))
+    let u = common::peak_of(0.0, jet.velocity, power)?;
+    vane_balance(fluid, jet, vane, mode, u)
 }
 
 fn mode_from(values: &Values) -> Result<Mode, Vec<FieldError>> {
