@@ -332,12 +332,15 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
         rows: Vec::new(),
         emphasised_rows: vec![total_index, total_index + 1],
     };
+    // A component of a term that is rounding residue of sines and cosines (1e-12 of
+    // the largest term) is shown as the 0 it is; the residual row keeps its value.
+    let component = |c: f64| if c.abs() < 1e-12 * max { 0.0 } else { c };
     for (label, v) in rows {
         table.rows.push(vec![
             label,
-            cell(v.x, Q::Force, unit),
-            cell(v.y, Q::Force, unit),
-            cell(v.z, Q::Force, unit),
+            cell(component(v.x), Q::Force, unit),
+            cell(component(v.y), Q::Force, unit),
+            cell(component(v.z), Q::Force, unit),
             cell(v.norm(), Q::Force, unit),
         ]);
     }
