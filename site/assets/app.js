@@ -725,7 +725,14 @@ function renderTable(table) {
   for (const [index, row] of (table.rows || []).entries()) {
     const tr = el("tr", emphasised.has(index) ? { class: "emphasised" } : {});
     row.forEach((cell, column) => {
-      tr.append(column === 0 ? el("th", { scope: "row", text: cell }) : el("td", { text: prettyValue(cell) }));
+      // Numbers line up on the right and never wrap; words (a basis table's
+      // explanations) wrap on the left so a phone shows them whole.
+      const wordy = /[A-Za-z]{3,}/.test(String(cell)) && !/^[-+]?[0-9]/.test(String(cell));
+      tr.append(
+        column === 0
+          ? el("th", { scope: "row", text: cell })
+          : el("td", wordy ? { class: "text", text: prettyValue(cell) } : { text: prettyValue(cell) }),
+      );
     });
     body.append(tr);
   }
