@@ -19,9 +19,10 @@
 //! fat LTO to every test binary. The dev build of the workspace is the faster
 //! second compile on two cores.
 
+use std::io::{BufRead, BufReader, Write};
 use std::net::{IpAddr, SocketAddr};
 use std::path::{Path, PathBuf};
-use std::process::{Command, ExitCode};
+use std::process::{Command, ExitCode, Stdio};
 
 use fluxledger_site::{build_site, serve, wasm_build, BuildOptions, SiteError};
 
@@ -217,11 +218,30 @@ fn run_tests(out: &Path, options: &BuildOptions) -> Result<ExitCode, SiteError> 
     build(out, options)?;
     let display = "cargo test --workspace";
     eprintln!("running: {display}");
-    let status = Command::new(wasm_build::cargo_program())
+    // The test binaries' reports pass through line by line; their counts are summed
+    // into one closing line, so the log ends with the whole run's total rather than
+    // the last crate's (often empty) doc-test summary.
+    let mut child = Command::new(wasm_build::cargo_program())
         .current_dir(root)
         .args(["test", "--workspace"])
-        .status()
+        .stdout(Stdio::piped())
+        .spawn()
         .map_err(|e| SiteError::command(display, e.to_string()))?;
+    let (mut passed, mut failed) = (0u64, 0u64);
+    if let Some(stdout) = child.stdout.take() {
+        let mut out = std::io::stdout().lock();
+        for line in BufReader::new(stdout).lines() {
+            let line = line.map_err(|e| SiteError::command(display, e.to_string()))?;
+            if let Some((p, f)) = result_counts(&line) {
+                passed += p;
+                failed += f;
+            }
+            // A closed stdout (a pager quit early) must not stop the tests.
+            let _ = writeln!(out, "{line}");
+        }
+    }
+    let status = child.wait().map_err(|e| SiteError::command(display, e.to_string()))?;
+    println!("tests: {passed} passed, {failed} failed");
     Ok(match status.code() {
         Some(0) => ExitCode::SUCCESS,
         Some(code) => ExitCode::from(u8::try_from(code).unwrap_or(1)),
@@ -229,8 +249,28 @@ fn run_tests(out: &Path, options: &BuildOptions) -> Result<ExitCode, SiteError> 
     })
 }
 
+/// The passed and failed counts of a libtest summary line
+/// (`test result: ok. 12 passed; 0 failed; 0 ignored; ...`).
+fn result_counts(line: &str) -> Option<(u64, u64)> {
+    let rest = line.trim().strip_prefix("test result:")?;
+    let count = |word: &str| -> Option<u64> {
+        rest.split(';')
+            .find_map(|part| part.trim().strip_suffix(word)?.trim().rsplit(' ').next()?.parse().ok())
+    };
+    Some((count(" passed")?, count(" failed")?))
+}
+
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn summary_lines_give_their_counts() {
+        let line = "test result: ok. 74 passed; 0 failed; 0 ignored; 0 measured; 0 filtered out; finished in 0.04s";
+        assert_eq!(super::result_counts(line), Some((74, 0)));
+        let line = "test result: FAILED. 7 passed; 1 failed; 0 ignored; 0 measured; 0 filtered out";
+        assert_eq!(super::result_counts(line), Some((7, 1)));
+        assert_eq!(super::result_counts("test foo ... ok"), None);
+    }
+
     use super::*;
 
     fn parse(args: &[&str]) -> Result<Args, String> {
