@@ -756,9 +756,14 @@ function renderTable(table) {
 // ---------------------------------------------------------------------------
 // CSV of a table (formatting only: the cells are the core's text, as shown).
 
-/** One CSV field (RFC 4180): quoted when it holds a comma, a quote, CR or LF. */
+/**
+ * One CSV field (RFC 4180): quoted when it holds a comma, a quote, CR or LF. Text
+ * a spreadsheet would run as a formula (a typed tag such as "=cmd", "@x") gets a
+ * leading apostrophe; numbers, negative ones included, stay as they are.
+ */
 function csvField(value) {
-  const text = String(value ?? "");
+  let text = String(value ?? "");
+  if (/^[=@\t\r]/.test(text) || /^[+-][A-Za-z(]/.test(text)) text = "'" + text;
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
