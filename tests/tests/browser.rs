@@ -29,8 +29,8 @@ use std::time::Duration;
 
 use serde_json::Value;
 
-use cdp::{Browser, Launch};
-use harness::{fixture, one_at_a_time, page_errors, query_string};
+use cdp::Launch;
+use harness::{fixture, launched, one_at_a_time, page_errors, query_string};
 
 // ---------------------------------------------------------------------------------
 // A sourced reference case, opened by URL: the page shows the published value.
@@ -61,12 +61,10 @@ mod reference_by_url {
         );
         let kinds = output_kinds(&Target::Calculator("bend".into())).expect("bend outputs");
 
-        let mut browser = Browser::launch(&Launch {
+        let (mut browser, page) = launched(Launch {
             width: 1280,
             height: 900,
-        })
-        .unwrap_or_else(|e| panic!("{e}"));
-        let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+        });
         let mut failures = Vec::new();
         for case in &bend_cases {
             let mut params: Vec<(String, String)> = case.inputs.iter().map(|(k, v)| (k.clone(), v.clone())).collect();
@@ -145,12 +143,10 @@ mod url_state {
     fn editing_updates_result_and_url_and_reload_restores_it() {
         let _turn = one_at_a_time();
         let site = fixture();
-        let mut browser = Browser::launch(&Launch {
+        let (mut browser, page) = launched(Launch {
             width: 360,
             height: 800,
-        })
-        .unwrap_or_else(|e| panic!("{e}"));
-        let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+        });
         page.goto(&mut browser, &format!("{}/bend.html", site.base)).unwrap();
         assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
         let before = page.eval(&mut browser, OUTPUTS).unwrap();
@@ -373,8 +369,7 @@ mod hostile_parameters {
     fn hostile_parameters_are_inert_reported_and_leave_no_console_error() {
         let _turn = one_at_a_time();
         let site = fixture();
-        let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
-        let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+        let (mut browser, page) = launched(Launch::default());
 
         page.goto(&mut browser, &format!("{}/bend.html", site.base)).unwrap();
         assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
@@ -468,12 +463,10 @@ mod every_page {
     fn every_page_is_clean_and_requests_stay_on_the_origin() {
         let _turn = one_at_a_time();
         let site = fixture();
-        let mut browser = Browser::launch(&Launch {
+        let (mut browser, page) = launched(Launch {
             width: 360,
             height: 800,
-        })
-        .unwrap_or_else(|e| panic!("{e}"));
-        let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+        });
 
         page.goto(&mut browser, &format!("{}/index.html", site.base)).unwrap();
         browser.pump(Duration::from_millis(300)).unwrap();
@@ -536,12 +529,10 @@ mod offline {
         // A server of its own, so that stopping it leaves the shared one running.
         let server = harness::serve(&site.dir).unwrap_or_else(|e| panic!("{e}"));
         let base = server.base();
-        let mut browser = Browser::launch(&Launch {
+        let (mut browser, page) = launched(Launch {
             width: 360,
             height: 800,
-        })
-        .unwrap_or_else(|e| panic!("{e}"));
-        let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+        });
 
         page.goto(&mut browser, &format!("{base}/bend.html")).unwrap();
         assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");

@@ -66,6 +66,14 @@ pub fn fixture() -> &'static Fixture {
 }
 
 /// One browser at a time: the tests run on two shared cores.
+/// A fresh browser with one page, for a test: a browser that will not start fails
+/// the test with the reason (a missing Chromium says how to install it).
+pub fn launched(launch: Launch) -> (Browser, Page) {
+    let mut browser = Browser::launch(&launch).unwrap_or_else(|e| panic!("{e}"));
+    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    (browser, page)
+}
+
 pub fn one_at_a_time() -> MutexGuard<'static, ()> {
     static TURN: Mutex<()> = Mutex::new(());
     TURN.lock().unwrap_or_else(|poisoned| poisoned.into_inner())

@@ -13,7 +13,7 @@ use fluxledger_core::{Request, UnitSystem};
 use fluxledger_tests::parse_typed;
 
 use crate::cdp::{Browser, Launch, Page};
-use crate::harness::{fixture, one_at_a_time, page_errors};
+use crate::harness::{fixture, launched, one_at_a_time, page_errors};
 
 /// Text of one output on the page, or `None` when it is not shown.
 fn output_text(page: &Page, browser: &mut Browser, key: &str) -> Option<String> {
@@ -52,8 +52,7 @@ const CARRIED_THRUST_TOLERANCE: f64 = 1e-3;
 fn bend_links_to_the_thrust_block_page_with_the_same_thrust() {
     let _turn = one_at_a_time();
     let site = fixture();
-    let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
-    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    let (mut browser, page) = launched(Launch::default());
     for (system, unit_suffix) in [("si", " kN"), ("us", " lbf")] {
         open(&page, &mut browser, &format!("{}/bend.html?units={system}", site.base));
         let bend_thrust = output_text(&page, &mut browser, "thrust").expect("the bend page shows its thrust");
@@ -134,8 +133,7 @@ fn bend_links_to_the_thrust_block_page_with_the_same_thrust() {
 fn every_carry_over_link_holds_the_core_inputs_and_opens_cleanly() {
     let _turn = one_at_a_time();
     let site = fixture();
-    let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
-    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    let (mut browser, page) = launched(Launch::default());
     let mut pages_with_links = Vec::new();
     for spec in calculators::catalog() {
         let request = Request {
@@ -325,8 +323,7 @@ fn check_csv_of_every_table(page: &Page, browser: &mut Browser, base: &str, key:
 fn every_table_downloads_as_csv_with_the_cells_of_the_result() {
     let _turn = one_at_a_time();
     let site = fixture();
-    let mut browser = Browser::launch(&Launch::default()).unwrap_or_else(|e| panic!("{e}"));
-    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    let (mut browser, page) = launched(Launch::default());
     // The tests read the file through the page's hook; nothing is written to disk.
     browser
         .call(None, "Browser.setDownloadBehavior", json!({ "behavior": "deny" }))
@@ -406,12 +403,10 @@ fn switch_to(page: &Page, browser: &mut Browser, system: &str) {
 fn unit_switch_converts_filled_inputs_and_switching_back_restores_them() {
     let _turn = one_at_a_time();
     let site = fixture();
-    let mut browser = Browser::launch(&Launch {
+    let (mut browser, page) = launched(Launch {
         width: 360,
         height: 800,
-    })
-    .unwrap_or_else(|e| panic!("{e}"));
-    let page = browser.new_page().unwrap_or_else(|e| panic!("{e}"));
+    });
     open(&page, &mut browser, &format!("{}/bend.html?p=10bar", site.base));
     assert_eq!(field(&page, &mut browser, "p"), ("10".to_string(), "bar".to_string()));
     let si_thrust = output_text(&page, &mut browser, "thrust").expect("thrust shown");
