@@ -351,15 +351,11 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        let request = crate::catalog::demo_request(&super::spec(), pairs);
-        crate::solve(super::KEY, &request)
+        crate::calculators::testing::outcome(super::KEY, pairs)
     }
 
     fn error_field(pairs: &[(&str, &str)]) -> String {
-        match outcome(pairs).result {
-            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
-            other => panic!("expected a field error, got {other:?}"),
-        }
+        crate::calculators::testing::error_field(super::KEY, pairs)
     }
 
     #[test]

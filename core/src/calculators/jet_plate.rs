@@ -436,17 +436,11 @@ mod tests {
     }
 
     fn solve(pairs: &[(&str, &str)]) -> Solution {
-        match crate::solve(super::KEY, &request(pairs)).result {
-            Ok(s) => s,
-            Err(e) => panic!("expected a solution, got {e}"),
-        }
+        crate::calculators::testing::solved(super::KEY, pairs)
     }
 
     fn error_field(pairs: &[(&str, &str)]) -> (String, String) {
-        match crate::solve(super::KEY, &request(pairs)).result {
-            Err(crate::SolveError::Fields(errors)) => (errors[0].field.clone(), errors[0].kind.to_string()),
-            other => panic!("expected a field error, got {other:?}"),
-        }
+        crate::calculators::testing::first_error(super::KEY, pairs)
     }
 
     const WATER_1000: &[(&str, &str)] = &[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")];

@@ -95,3 +95,38 @@ pub fn solve(key: &str, request: &Request) -> Outcome {
     };
     Outcome { echoes, result }
 }
+
+/// Helpers for the calculators' own tests: solve a page's demo inputs with some
+/// fields replaced, and read the solution or the first field error.
+#[cfg(test)]
+pub(crate) mod testing {
+    use crate::catalog::{self, Solution};
+    use crate::SolveError;
+
+    /// Solves calculator `key` from its demo inputs with `pairs` replaced.
+    pub fn outcome(key: &str, pairs: &[(&str, &str)]) -> super::Outcome {
+        let spec = super::spec(key).unwrap_or_else(|| panic!("no calculator '{key}'"));
+        super::solve(key, &catalog::demo_request(&spec, pairs))
+    }
+
+    /// The solution, failing the test with the errors when there is none.
+    pub fn solved(key: &str, pairs: &[(&str, &str)]) -> Solution {
+        match outcome(key, pairs).result {
+            Ok(solution) => solution,
+            Err(e) => panic!("expected a solution, got {e}"),
+        }
+    }
+
+    /// The first field error's field key and message, failing the test on a solution.
+    pub fn first_error(key: &str, pairs: &[(&str, &str)]) -> (String, String) {
+        match outcome(key, pairs).result {
+            Err(SolveError::Fields(errors)) => (errors[0].field.clone(), errors[0].kind.to_string()),
+            other => panic!("expected a field error, got {other:?}"),
+        }
+    }
+
+    /// The first field error's field key.
+    pub fn error_field(key: &str, pairs: &[(&str, &str)]) -> String {
+        first_error(key, pairs).0
+    }
+}

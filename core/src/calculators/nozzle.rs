@@ -471,8 +471,7 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        let request = crate::catalog::demo_request(&super::spec(), pairs);
-        crate::solve(super::KEY, &request)
+        crate::calculators::testing::outcome(super::KEY, pairs)
     }
 
     #[test]

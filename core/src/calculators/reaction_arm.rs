@@ -1038,10 +1038,7 @@ mod tests {
     }
 
     fn error_field(pairs: &[(&str, &str)]) -> String {
-        match crate::solve(KEY, &request(pairs)).result {
-            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
-            other => panic!("expected a field error, got {other:?}"),
-        }
+        crate::calculators::testing::error_field(super::KEY, pairs)
     }
 
     #[test]

@@ -624,12 +624,11 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        let request = crate::catalog::demo_request(&super::spec(), pairs);
-        crate::solve(super::KEY, &request)
+        crate::calculators::testing::outcome(super::KEY, pairs)
     }
 
     fn solved(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        outcome(pairs).result.expect("solves")
+        crate::calculators::testing::solved(super::KEY, pairs)
     }
 
     #[test]

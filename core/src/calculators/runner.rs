@@ -759,7 +759,7 @@ mod tests {
     }
 
     fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::solve(KEY, &request(pairs)).result.expect("solves")
+        crate::calculators::testing::solved(super::KEY, pairs)
     }
 
     #[test]

@@ -1460,17 +1460,11 @@ mod tests {
     }
 
     fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        match crate::solve(super::KEY, &request(pairs)).result {
-            Ok(s) => s,
-            Err(e) => panic!("does not solve: {e}"),
-        }
+        crate::calculators::testing::solved(super::KEY, pairs)
     }
 
     fn error_field(pairs: &[(&str, &str)]) -> String {
-        match crate::solve(super::KEY, &request(pairs)).result {
-            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
-            other => panic!("expected a field error, got {other:?}"),
-        }
+        crate::calculators::testing::error_field(super::KEY, pairs)
     }
 
     #[test]
