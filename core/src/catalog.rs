@@ -327,6 +327,40 @@ pub struct CarryOver {
     pub inputs: Vec<(&'static str, String)>,
 }
 
+/// A result compared with the same quantity computed by an independent path: a
+/// closed form, a second balance, a moment balance about another point, or the
+/// mass balance of flows the user gave. Never the same sum restated: a check must be
+/// able to fail.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Check {
+    /// What is checked ("Thrust on the supports").
+    pub label: String,
+    /// The independent path it is compared with ("closed form 2·p·A·sin(θ/2)").
+    pub basis: String,
+    pub kind: QuantityKind,
+    /// The calculator's result, SI.
+    pub value: f64,
+    /// The independent value, SI.
+    pub reference: f64,
+    /// Agreement is `|value − reference| ≤ tolerance · scale`.
+    pub tolerance: f64,
+    /// Magnitude the tolerance is relative to (at least the larger of the two).
+    pub scale: f64,
+}
+
+impl Check {
+    /// `value − reference`.
+    pub fn difference(&self) -> f64 {
+        self.value - self.reference
+    }
+    /// Whether both values are finite and agree within the tolerance.
+    pub fn agrees(&self) -> bool {
+        self.value.is_finite()
+            && self.reference.is_finite()
+            && self.difference().abs() <= self.tolerance * self.scale.max(self.value.abs()).max(self.reference.abs())
+    }
+}
+
 /// Everything a solved calculator reports.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct Solution {
@@ -336,6 +370,12 @@ pub struct Solution {
     pub plots: Vec<Plot>,
     pub warnings: Vec<Warning>,
     pub carry_over: Vec<CarryOver>,
+    /// Independent checks of the results (also shown as the `checks` table).
+    pub checks: Vec<Check>,
+    /// Faults of the calculator itself, never of the input: an output that the spec
+    /// does not describe, a non-finite output or check. Users see a warning; every
+    /// test fails on a non-empty list.
+    pub defects: Vec<String>,
 }
 
 impl Solution {
@@ -364,14 +404,23 @@ impl<'a> Report<'a> {
         self.system
     }
     /// Records output `key` (which must be listed in the spec) with its SI value.
-    /// A non-finite value is reported as a warning instead of a number.
+    /// An undescribed key or a non-finite value is a defect of the calculator: it is
+    /// recorded in [`Solution::defects`] (every test fails on it) and users see a
+    /// "could not compute" warning instead of a number.
     pub fn output(&mut self, key: &'static str, si: f64) {
         let Some(spec) = self.spec.outputs.iter().find(|o| o.key == key) else {
-            self.warn(None, format!("internal: output '{key}' is not described"));
+            self.defect(format!("output '{key}' is not described in the spec"));
             return;
         };
         if !si.is_finite() {
-            self.warn(None, format!("{} could not be computed for these inputs", spec.label));
+            self.defect(format!("output '{key}' is not finite ({si})"));
+            self.warn(
+                None,
+                format!(
+                    "{} could not be computed for these inputs (a fault in Fluxledger)",
+                    spec.label
+                ),
+            );
             return;
         }
         let text = units::format_quantity(si, spec.kind, self.system);
@@ -390,13 +439,101 @@ impl<'a> Report<'a> {
             message: message.into(),
         });
     }
+    /// Records a fault of the calculator (see [`Solution::defects`]).
+    pub fn defect(&mut self, message: impl Into<String>) {
+        self.solution.defects.push(message.into());
+    }
+    /// Records a check of `value` against `reference`, computed by an independent
+    /// path named in `basis`; agreement within `tolerance` relative to the larger
+    /// magnitude (or `scale`, when larger). A check that disagrees is also a warning
+    /// users see in the headline area.
+    pub fn check(
+        &mut self,
+        label: impl Into<String>,
+        basis: impl Into<String>,
+        kind: QuantityKind,
+        value: f64,
+        reference: f64,
+        tolerance: f64,
+        scale: f64,
+    ) {
+        let check = Check {
+            label: label.into(),
+            basis: basis.into(),
+            kind,
+            value,
+            reference,
+            tolerance,
+            scale,
+        };
+        if !value.is_finite() || !reference.is_finite() {
+            self.defect(format!("check '{}' is not finite ({value}, {reference})", check.label));
+        } else if !check.agrees() {
+            let message = format!(
+                "Check failed: {} is {}, but {} gives {}. Do not use this result; please report it.",
+                check.label,
+                self.fmt(value, kind),
+                check.basis,
+                self.fmt(reference, kind)
+            );
+            self.warn(None, message);
+        }
+        self.solution.checks.push(check);
+    }
     /// Formats a value of `kind` in the report's unit system.
     pub fn fmt(&self, si: f64, kind: QuantityKind) -> String {
         units::format_quantity(si, kind, self.system)
     }
-    pub fn finish(self) -> Solution {
+    /// The solution, with the `checks` table appended when any check was made.
+    pub fn finish(mut self) -> Solution {
+        if !self.solution.checks.is_empty() {
+            let table = checks_table(&self.solution.checks, self.system);
+            self.solution.tables.push(table);
+        }
         self.solution
     }
+}
+
+/// The table of independent checks: what is compared with what, both values, the
+/// difference and whether they agree.
+fn checks_table(checks: &[Check], system: UnitSystem) -> Table {
+    let mut table = Table {
+        key: "checks",
+        title: "Checks by an independent path".to_string(),
+        columns: [
+            "Result",
+            "compared with",
+            "this result",
+            "independent value",
+            "difference",
+            "agrees",
+        ]
+        .iter()
+        .map(|c| c.to_string())
+        .collect(),
+        rows: Vec::new(),
+        emphasised_rows: Vec::new(),
+    };
+    for (i, c) in checks.iter().enumerate() {
+        let scale = c.scale.max(c.value.abs()).max(c.reference.abs());
+        let relative = if scale > 0.0 { c.difference().abs() / scale } else { 0.0 };
+        table.rows.push(vec![
+            c.label.clone(),
+            c.basis.clone(),
+            units::format_quantity(c.value, c.kind, system),
+            units::format_quantity(c.reference, c.kind, system),
+            format!("{} %", units::format_significant(relative * 100.0, 2)),
+            if c.agrees() {
+                format!("yes (within {} %)", units::format_significant(c.tolerance * 100.0, 2))
+            } else {
+                "NO".to_string()
+            },
+        ]);
+        if !c.agrees() {
+            table.emphasised_rows.push(i);
+        }
+    }
+    table
 }
 
 /// A request to solve one calculator: what the user typed, the unit each field's

@@ -458,6 +458,9 @@ pub struct Evaluation {
     pub errors: Vec<(String, String)>,
     /// Warnings the calculator gave (shown when a case fails).
     pub warnings: Vec<String>,
+    /// Faults of the calculator (undescribed or non-finite outputs) and independent
+    /// checks that disagree: any of them fails the case.
+    pub faults: Vec<String>,
 }
 
 /// The quantity kind of each output the case's target can give, or why the target
@@ -513,6 +516,13 @@ pub fn evaluate(case: &Case) -> Result<Evaluation, String> {
                         evaluation.outputs.insert(o.key.to_string(), (o.si, o.kind));
                     }
                     evaluation.warnings = solution.warnings.iter().map(|w| w.message.clone()).collect();
+                    evaluation.faults = solution.defects.clone();
+                    for c in solution.checks.iter().filter(|c| !c.agrees()) {
+                        evaluation.faults.push(format!(
+                            "check '{}' against {}: {} vs {}",
+                            c.label, c.basis, c.value, c.reference
+                        ));
+                    }
                 }
                 Err(SolveError::UnknownCalculator { key }) => return Err(format!("unknown calculator '{key}'")),
                 Err(SolveError::Fields(errors)) => {
@@ -597,6 +607,10 @@ pub fn check(case: &Case) -> Result<(), String> {
         }
     }
     let mut failed = false;
+    for fault in &evaluation.faults {
+        failed = true;
+        let _ = writeln!(report, "fault:    {fault}");
+    }
     if let Some(expect) = &case.expect_error {
         let on_field: Vec<&(String, String)> = evaluation.errors.iter().filter(|(f, _)| *f == expect.field).collect();
         let contains_ok = match &expect.contains {
