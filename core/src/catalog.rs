@@ -563,10 +563,12 @@ pub fn selector_unit(field: &FieldSpec, request: &Request) -> &'static str {
     let FieldKind::Quantity(kind) = field.kind else {
         return "";
     };
-    if let Some(def) = request.units.get(field.key).and_then(|id| units::find_unit(id)) {
-        if def.kind == kind {
-            return def.id;
-        }
+    if let Some(def) = request
+        .units
+        .get(field.key)
+        .and_then(|id| units::find_unit_of(id, kind))
+    {
+        return def.id;
     }
     match request.system {
         UnitSystem::Si => field.si_unit,

@@ -13,8 +13,15 @@ pub enum FieldErrorKind {
     NotANumber { text: String },
     /// NaN or an infinity was typed.
     NotFinite,
-    /// The unit is not known at all.
-    UnknownUnit { unit: String, expected: String },
+    /// The unit is not known at all; `suggestions` are the nearest units of the
+    /// field's kind (may be empty), `expected` every unit of that kind.
+    UnknownUnit {
+        unit: String,
+        suggestions: Vec<String>,
+        expected: String,
+    },
+    /// A known spelling that this field refuses, and why (`psia` in a gauge field).
+    RefusedUnit { unit: String, reason: String },
     /// The unit is known but measures another kind of quantity (`5 psi` for a length).
     WrongKind {
         unit: String,
@@ -66,9 +73,23 @@ impl fmt::Display for FieldErrorKind {
                 write!(f, "'{}' is not a number; type a number, optionally with a unit, e.g. 150 psi", shorten(text))
             }
             FieldErrorKind::NotFinite => write!(f, "must be a finite number (NaN and infinity are not accepted)"),
-            FieldErrorKind::UnknownUnit { unit, expected } => {
-                write!(f, "unknown unit '{}'; use one of: {expected}", shorten(unit))
+            FieldErrorKind::UnknownUnit {
+                unit,
+                suggestions,
+                expected,
+            } => {
+                if suggestions.is_empty() {
+                    write!(f, "unknown unit '{}'; use one of: {expected}", shorten(unit))
+                } else {
+                    write!(
+                        f,
+                        "unknown unit '{}'; did you mean {}? (units here: {expected})",
+                        shorten(unit),
+                        suggestions.join(" or ")
+                    )
+                }
             }
+            FieldErrorKind::RefusedUnit { unit, reason } => write!(f, "'{}' is not accepted here: {reason}", shorten(unit)),
             FieldErrorKind::WrongKind { unit, unit_kind, expected } => {
                 write!(f, "'{}' is a unit of {unit_kind}, not of this field; use one of: {expected}", shorten(unit))
             }

@@ -49,9 +49,11 @@ pub fn quantity_name(kind: QuantityKind) -> &'static str {
         QuantityKind::Length => "length",
         QuantityKind::Area => "area",
         QuantityKind::Volume => "volume",
+        QuantityKind::ConcreteVolume => "concrete_volume",
         QuantityKind::Mass => "mass",
         QuantityKind::Time => "time",
         QuantityKind::Pressure => "pressure",
+        QuantityKind::SoilBearing => "soil_bearing",
         QuantityKind::Velocity => "velocity",
         QuantityKind::Acceleration => "acceleration",
         QuantityKind::VolumeFlow => "volume_flow",
@@ -861,6 +863,8 @@ mod tests {
                 },
             ],
             carry_over: Vec::new(),
+            checks: Vec::new(),
+            defects: Vec::new(),
         };
         let outcome = Outcome {
             echoes: vec![FieldEcho {
@@ -980,19 +984,105 @@ mod tests {
             .find(|f| f.key == "p")
             .expect("bend has a pressure field");
         assert_eq!((p.si_unit, p.us_unit), ("kPa", "psi"));
-        // 10 bar = 1e6 Pa / 6894.757 Pa/psi = 145.038 psi, derived from the definitions
-        // (NIST SP 811 App. B); a bare number takes `from_unit`, a typed unit wins.
-        for (text, from) in [("10", "bar"), ("10 bar", "kPa")] {
-            let to_us = to_json(&convert_view("bend", "p", text, from, UnitSystem::UsCustomary));
+        // Expected numbers derived from the definitions (NIST SP 811 App. B:
+        // psi = 6894.757 293 Pa, psf = 47.880 26 Pa), rounded as the core rounds a
+        // converted input: one figure more than typed, at least four. A bare number
+        // takes `from_unit`, a typed unit wins.
+        let cases: &[(&str, &str, &str, &str, UnitSystem, &str, &str)] = &[
+            // 10 bar = 145.0377 psi: "145.0" to four figures, trailing zero dropped.
+            ("bend", "p", "10", "bar", UnitSystem::UsCustomary, "145", "psi"),
+            ("bend", "p", "10 bar", "kPa", UnitSystem::UsCustomary, "145", "psi"),
+            // The thrust-restraint demo's 7 bar showed as 101.526 psi (issue 8).
+            (
+                "thrust-block",
+                "p_work",
+                "7 bar",
+                "bar",
+                UnitSystem::UsCustomary,
+                "101.5",
+                "psi",
+            ),
+            // 150 psi = 1034.214 kPa.
+            ("bend", "p", "150", "psi", UnitSystem::Si, "1034", "kPa"),
+            // Soil bearing goes to psf, not psi: 150 kPa = 3132.8 psf (20.83 psi).
+            (
+                "thrust-block",
+                "sigma",
+                "150",
+                "kPa",
+                UnitSystem::UsCustomary,
+                "3133",
+                "psf",
+            ),
+            (
+                "thrust-block",
+                "sigma",
+                "2000 psf",
+                "psf",
+                UnitSystem::Si,
+                "95.761",
+                "kPa",
+            ),
+        ];
+        for (key, field, text, from, system, number, unit) in cases {
+            let view = to_json(&convert_view(key, field, text, from, *system));
             assert_eq!(
-                to_us,
-                json!({"ok": true, "number": "145.038", "unit": "psi"}),
-                "{text} [{from}]"
+                view,
+                json!({"ok": true, "number": number, "unit": unit}),
+                "{key}/{field}: {text} [{from}]"
             );
         }
-        // Back to SI: the SI default unit, 1000 kPa.
-        let back = to_json(&convert_view("bend", "p", "145.038", "psi", UnitSystem::Si));
-        assert_eq!(back, json!({"ok": true, "number": "1000", "unit": "kPa"}));
+    }
+
+    #[test]
+    fn demo_values_switched_to_either_system_read_rounded() {
+        // Every demo quantity converted to the other system shows at most one figure
+        // more than it was typed with (four for a demo typed with up to three):
+        // "7 bar" gives "101.5", never "101.526".
+        let mut converted = 0;
+        for spec in calculators::catalog() {
+            for field in &spec.fields {
+                let FieldKind::Quantity(_) = field.kind else { continue };
+                if field.demo.is_empty() {
+                    continue;
+                }
+                for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                    let own = match system {
+                        UnitSystem::Si => field.us_unit,
+                        UnitSystem::UsCustomary => field.si_unit,
+                    };
+                    let view = convert_view(spec.key, field.key, field.demo, own, system);
+                    let ConvertView::Converted { number, .. } = &view else {
+                        panic!(
+                            "{}/{}: demo {} not converted: {view:?}",
+                            spec.key, field.key, field.demo
+                        );
+                    };
+                    let typed = significant(field.demo);
+                    let shown = significant(number);
+                    assert!(
+                        shown <= typed.max(3) + 1,
+                        "{}/{}: demo {} shown as {number} ({shown} figures)",
+                        spec.key,
+                        field.key,
+                        field.demo
+                    );
+                    converted += 1;
+                }
+            }
+        }
+        assert!(converted > 50, "only {converted} demo values converted");
+    }
+
+    /// Significant digits of the leading decimal number of `text` (test helper).
+    fn significant(text: &str) -> usize {
+        let number: String = text
+            .trim()
+            .chars()
+            .take_while(|c| c.is_ascii_digit() || matches!(c, '.' | ',' | '-' | '+'))
+            .filter(char::is_ascii_digit)
+            .collect();
+        number.trim_start_matches('0').len().max(1)
     }
 
     #[test]

@@ -681,7 +681,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     fields.extend([
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
+        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
         FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
@@ -702,7 +702,7 @@ pub fn spec() -> CalculatorSpec {
         outputs: vec![
             OutputSpec { key: "thrust", label: "Thrust on the restraint (at the design pressure)", kind: Q::Force, headline: true },
             OutputSpec { key: "bearing_area", label: "Required bearing area", kind: Q::Area, headline: true },
-            OutputSpec { key: "block_volume", label: "Gravity block: concrete volume", kind: Q::Volume, headline: true },
+            OutputSpec { key: "block_volume", label: "Gravity block: concrete volume", kind: Q::ConcreteVolume, headline: true },
             OutputSpec { key: "p_design", label: "Design pressure used", kind: Q::Pressure, headline: true },
             OutputSpec { key: "thrust_angle", label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + upward)", kind: Q::Angle, headline: false },
             OutputSpec { key: "thrust_h", label: "Horizontal component of the thrust", kind: Q::Force, headline: false },
@@ -714,7 +714,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "wave_speed", label: "Pressure wave speed", kind: Q::Velocity, headline: false },
             OutputSpec { key: "dp_surge", label: "Joukowsky surge rise ρ·a·ΔV", kind: Q::Pressure, headline: false },
             OutputSpec { key: "p_surge", label: "Working pressure plus surge", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "sigma", label: "Allowable soil bearing used", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "sigma", label: "Allowable soil bearing used", kind: Q::SoilBearing, headline: false },
             OutputSpec { key: "face_h", label: "Bearing face height", kind: Q::Length, headline: false },
             OutputSpec { key: "face_w", label: "Bearing face width", kind: Q::Length, headline: false },
             OutputSpec { key: "block_mass", label: "Gravity block: concrete mass", kind: Q::Mass, headline: false },
