@@ -1465,6 +1465,33 @@ mod tests {
     }
 
     #[test]
+    fn any_mix_of_number_and_fraction_pieces_is_read_or_refused_never_panics() {
+        // Every string of up to three of these pieces: a value is finite, an error typed.
+        let pieces = [
+            "1", "12", "0", "-", "+", "/", " ", "¼", "½", ",", ".", "e", "in", "psi", "H2O", "\"", "/0", "1000", "a",
+            "°",
+        ];
+        let mut texts = vec![String::new()];
+        for _ in 0..3 {
+            let longer: Vec<String> = texts
+                .iter()
+                .flat_map(|t| pieces.iter().map(move |p| format!("{t}{p}")))
+                .collect();
+            texts.extend(longer);
+        }
+        assert!(texts.len() > 8000);
+        for text in &texts {
+            for kind in [Q::Length, Q::Pressure] {
+                if let Ok((si, number, unit)) = parse_quantity_echo(text, kind, "in") {
+                    assert!(si.is_finite(), "{text:?}");
+                    assert!(text.contains(&number), "{text:?} echoed as {number:?}");
+                    assert!(find_unit_of(unit, kind).is_some(), "{text:?}: {unit}");
+                }
+            }
+        }
+    }
+
+    #[test]
     fn conversion_refuses_bad_text_and_foreign_units() {
         assert!(matches!(
             convert_text("abc", Q::Pressure, "bar", "psi"),
@@ -1491,6 +1518,59 @@ mod tests {
             convert_text("1e306", Q::Length, "m", "mm"),
             Err(FieldErrorKind::NotFinite)
         );
+    }
+
+    #[test]
+    fn us_results_use_the_trades_units() {
+        // (SI value, kind, system, shown): soil bearing in psf, never psi (3000 psf
+        // showed as 20.83 psi); concrete in yd³, or ft³ below one cubic yard.
+        // 3000 psf = 143 640.78 Pa and 1 yd³ = 0.764 554 857 984 m³ (NIST SP 811).
+        let cases: &[(f64, QuantityKind, UnitSystem, &str)] = &[
+            (
+                143_640.776_941_007_6,
+                Q::SoilBearing,
+                UnitSystem::UsCustomary,
+                "3000 psf",
+            ),
+            (143_640.776_941_007_6, Q::Pressure, UnitSystem::UsCustomary, "20.83 psi"),
+            (150e3, Q::SoilBearing, UnitSystem::Si, "150.0 kPa"),
+            (
+                2.0 * 0.764_554_857_984,
+                Q::ConcreteVolume,
+                UnitSystem::UsCustomary,
+                "2.000 yd3",
+            ),
+            (0.5, Q::ConcreteVolume, UnitSystem::UsCustomary, "17.66 ft3"),
+            (0.5, Q::ConcreteVolume, UnitSystem::Si, "0.5000 m3"),
+        ];
+        for (si, kind, system, shown) in cases {
+            assert_eq!(format_quantity(*si, *kind, *system), *shown, "{si} {kind:?} {system:?}");
+        }
+    }
+
+    #[test]
+    fn thrust_block_shows_soil_bearing_in_psf_and_concrete_in_cubic_yards() {
+        use crate::calculators;
+        let solved_us = |pairs: &[(&str, &str)]| {
+            let spec = calculators::spec("thrust-block").expect("thrust-block is registered");
+            let mut request = crate::catalog::demo_request(&spec, pairs);
+            request.system = UnitSystem::UsCustomary;
+            match calculators::solve("thrust-block", &request).result {
+                Ok(solution) => solution,
+                Err(e) => panic!("{pairs:?}: {e}"),
+            }
+        };
+        let text = |solution: &crate::catalog::Solution, key: &str| {
+            let output = solution.outputs.iter().find(|o| o.key == key);
+            output
+                .map(|o| o.text.clone())
+                .unwrap_or_else(|| panic!("no output {key}"))
+        };
+        let bearing = solved_us(&[("soil", "custom"), ("sigma", "3000 psf")]);
+        assert_eq!(text(&bearing, "sigma"), "3000 psf");
+        let gravity = solved_us(&[("plane", "vertical_crest")]);
+        let volume = text(&gravity, "block_volume");
+        assert!(volume.ends_with(" yd3") || volume.ends_with(" ft3"), "{volume}");
     }
 
     #[test]
