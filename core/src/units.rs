@@ -1521,6 +1521,37 @@ mod tests {
     }
 
     #[test]
+    fn every_field_default_unit_is_offered_for_its_kind() {
+        // A default unit the field's kind does not offer would refuse every bare number.
+        for spec in crate::calculators::catalog() {
+            for field in &spec.fields {
+                let crate::catalog::FieldKind::Quantity(kind) = field.kind else {
+                    continue;
+                };
+                for unit in [field.si_unit, field.us_unit] {
+                    assert!(
+                        unit.is_empty() || find_unit_of(unit, kind).is_some(),
+                        "{}/{}: default unit '{unit}' is not a unit of {}",
+                        spec.key,
+                        field.key,
+                        kind.name()
+                    );
+                }
+                if !field.demo.is_empty() {
+                    let unit = if field.si_unit.is_empty() {
+                        field.us_unit
+                    } else {
+                        field.si_unit
+                    };
+                    if let Err(e) = parse_quantity(field.demo, kind, unit) {
+                        panic!("{}/{}: demo '{}': {e}", spec.key, field.key, field.demo);
+                    }
+                }
+            }
+        }
+    }
+
+    #[test]
     fn us_results_use_the_trades_units() {
         // (SI value, kind, system, shown): soil bearing in psf, never psi (3000 psf
         // showed as 20.83 psi); concrete in yd³, or ft³ below one cubic yard.

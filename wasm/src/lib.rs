@@ -10,8 +10,9 @@
 //!   outputs, cautions) as a plain object.
 //! - [`convert`]`(key, field, text, from_unit, system)` — what is typed in a
 //!   quantity field, converted to that field's default unit in `system` (used when
-//!   the page's unit system is switched): `{ok: true, number, unit}` or
-//!   `{ok: false, message}`; it never throws for what a user typed.
+//!   the page's unit system is switched) and rounded by the core to one figure more
+//!   than was typed, at least four (`7 bar` → `101.5` psi): `{ok: true, number,
+//!   unit}` or `{ok: false, message}`; it never throws for what a user typed.
 //! - [`solve`]`(key, inputs, units, system)` — `inputs` and `units` are plain objects
 //!   of strings keyed by field key, `system` is `"si"` or `"us"`. It never throws for
 //!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.

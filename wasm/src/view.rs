@@ -460,7 +460,9 @@ fn refused(message: String) -> ConvertView {
 
 /// Converts what is typed in field `field` of calculator `key` (a bare number takes
 /// `from_unit`) to that field's default unit in `system`, through
-/// [`units::convert_text`]. The default unit of a system is the spec's `si_unit` or
+/// [`units::convert_text`], which rounds for the eye (one figure more than typed, at
+/// least four); the page script keeps the typed text and restores it when the system
+/// is switched back. The default unit of a system is the spec's `si_unit` or
 /// `us_unit`; an empty one falls back to the other, as the page script does.
 pub fn convert_view(key: &str, field: &str, text: &str, from_unit: &str, system: UnitSystem) -> ConvertView {
     let Some(spec) = calculators::spec(key) else {
