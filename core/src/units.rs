@@ -42,6 +42,16 @@
 //!   `"1 1/4 in"`, `"1¼ in"`, `"3/4 in"` (a proper fraction after a whole number,
 //!   denominators 1 to 1000); other kinds take decimal numbers only.
 //! - NaN, infinities and text are refused with a typed error.
+//!
+//! Kinds that share a dimension: a soil bearing pressure ([`QuantityKind::SoilBearing`])
+//! is measured in pressure units and a concrete volume ([`QuantityKind::ConcreteVolume`])
+//! in volume units, but each offers and shows only the trade's units: soil bearing in
+//! kPa or psf (also MPa, Pa, kgf/cm², ksf, tsf, psi; never 20.83 psi for 3000 psf),
+//! concrete in m³ or yd³ (ft³ below one cubic yard).
+//!
+//! Switching a page's unit system converts what was typed ([`convert_text`]) to one
+//! significant figure more than was typed, at least four, so a demo value of 7 bar
+//! reads 101.5 psi rather than 101.526 psi; the page keeps the typed text to restore.
 
 use crate::error::FieldErrorKind;
 
