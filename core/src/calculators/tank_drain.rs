@@ -57,7 +57,7 @@
 //! source; about 0.8 for a short tube and 0.95–0.98 for a rounded nozzle) and C_v
 //! (≈ 0.98 for a sharp-edged orifice, common practice, no source).
 
-use std::f64::consts::{FRAC_PI_2, PI};
+use std::f64::consts::PI;
 
 use crate::catalog::{
     CalculatorSpec, Diagram, FieldSpec, Limits, Marker, OutputSpec, Plot, Report, Series, Shape, ShapeStyle, Values,
@@ -154,7 +154,7 @@ impl Tank {
     /// Time for the level to fall from `high` to `low` (h₁ ≥ high > low ≥ 0).
     fn time(&self, high: f64, low: f64, step: f64) -> f64 {
         let at_start = high >= self.start;
-        tanh_sinh(low, high, step, |from_low, from_high| {
+        crate::quadrature::tanh_sinh(low, high, step, |from_low, from_high| {
             let (h, below_start) = if from_low < from_high || !at_start {
                 let h = low + from_low;
                 (h, self.start - h)
@@ -183,30 +183,6 @@ impl Tank {
         };
         (self.start * ln_x.exp()).max(low)
     }
-}
-
-/// ∫ f over [a, b] by tanh-sinh quadrature with step `step` in the transformed
-/// variable; `f` receives the distances from a and from b (exact near the ends,
-/// where the integrand may be singular but integrable).
-fn tanh_sinh(a: f64, b: f64, step: f64, f: impl Fn(f64, f64) -> f64) -> f64 {
-    let half = 0.5 * (b - a);
-    let last = (4.5 / step).ceil() as i64;
-    let mut sum = 0.0;
-    for j in -last..=last {
-        let t = j as f64 * step;
-        let u = FRAC_PI_2 * t.sinh();
-        let cosh_u = u.cosh();
-        let weight = FRAC_PI_2 * t.cosh() / (cosh_u * cosh_u);
-        let from_a = half * u.exp() / cosh_u;
-        let from_b = half * (-u).exp() / cosh_u;
-        if from_a > 0.0 && from_b > 0.0 {
-            let value = f(from_a, from_b);
-            if value.is_finite() {
-                sum += weight * value;
-            }
-        }
-    }
-    half * step * sum
 }
 
 /// The quasi-steady (Torricelli) closed form, used as the independent check.
