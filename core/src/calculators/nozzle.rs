@@ -624,4 +624,50 @@ mod tests {
         assert_relative_eq!(s.output("end_force_bore").unwrap().si, 11.63e3, max_relative = 5e-4);
         assert_relative_eq!(s.output("jet_reaction").unwrap().si, 1.50e3, max_relative = 5e-3);
     }
+
+    #[test]
+    fn extreme_accepted_inputs_show_finite_numbers() {
+        let mut count = 0;
+        for (d_pipe, d_nozzle) in [
+            ("1 mm", "1 mm"),
+            ("10 m", "1 mm"),
+            ("10 m", "10 m"),
+            ("154 mm", "38 mm"),
+        ] {
+            for (cd, cc) in [("0.3", "0.5"), ("1", ""), ("0.5", "0.5"), ("0.97", "1")] {
+                for (given, value) in [
+                    ("p", "0 bar"),
+                    ("p", "100 MPa"),
+                    ("q", "0 m3/h"),
+                    ("q", "1000 m3/s"),
+                    ("q", "1e-300 m3/s"),
+                ] {
+                    let key = if given == "p" { "p" } else { "q" };
+                    let pairs = [
+                        ("d_pipe", d_pipe),
+                        ("d_nozzle", d_nozzle),
+                        ("cd", cd),
+                        ("cc", cc),
+                        ("given", given),
+                        (key, value),
+                        ("d_gasket", "10 m"),
+                    ];
+                    match outcome(&pairs).result {
+                        Ok(s) => {
+                            crate::calculators::profile::tests::clean(&s).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+                            count += 1;
+                        }
+                        Err(crate::SolveError::Fields(errors)) => {
+                            assert!(
+                                errors.iter().all(|e| ["q", "cd"].contains(&e.field.as_str())),
+                                "{pairs:?}: {errors:?}"
+                            )
+                        }
+                        Err(e) => panic!("{pairs:?}: {e}"),
+                    }
+                }
+            }
+        }
+        assert!(count >= 50, "only {count} solved");
+    }
 }

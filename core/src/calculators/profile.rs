@@ -512,8 +512,75 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
 }
 
 #[cfg(test)]
-mod tests {
+pub(crate) mod tests {
     use super::*;
+    use crate::catalog::{Shape, Solution};
+
+    /// Whether a solution shows only finite numbers and agreeing checks: outputs,
+    /// table cells (no NaN, inf or "—"), plot points, diagram shapes; no defects.
+    pub(crate) fn clean(s: &Solution) -> Result<(), String> {
+        if !s.defects.is_empty() {
+            return Err(format!("defects {:?}", s.defects));
+        }
+        if let Some(c) = s.checks.iter().find(|c| !c.agrees()) {
+            return Err(format!(
+                "check '{}' disagrees: {} against {}",
+                c.label, c.value, c.reference
+            ));
+        }
+        if let Some(o) = s.outputs.iter().find(|o| !o.si.is_finite()) {
+            return Err(format!("output {} is {}", o.key, o.si));
+        }
+        for t in &s.tables {
+            for cell in t.rows.iter().flatten() {
+                let lower = cell.to_lowercase();
+                if lower.contains("nan") || lower.contains("inf") || cell.contains('—') {
+                    return Err(format!("table '{}' shows '{cell}'", t.title));
+                }
+            }
+        }
+        for p in &s.plots {
+            if !p
+                .series
+                .iter()
+                .flat_map(|s| &s.points)
+                .flatten()
+                .chain(p.markers.iter().flat_map(|m| &m.at))
+                .all(|x| x.is_finite())
+            {
+                return Err(format!("plot '{}' has a non-finite point", p.title));
+            }
+        }
+        for d in &s.diagrams {
+            let finite = d.bounds.iter().all(|x| x.is_finite())
+                && d.shapes.iter().all(|shape| {
+                    common::shape_points(shape).iter().flatten().all(|x| x.is_finite())
+                        && !matches!(shape, Shape::Circle { radius, .. } if !radius.is_finite())
+                });
+            if !finite {
+                return Err(format!("diagram '{}' has a non-finite shape", d.title));
+            }
+        }
+        Ok(())
+    }
+
+    #[test]
+    fn extreme_accepted_inputs_show_finite_numbers() {
+        let sets: &[&[(&str, &str)]] = &[
+            &[("d", "1 mm"), ("points", "0 100; 0.999999 100")],
+            &[("d", "10 m"), ("points", "0 0.001; 0.5 0; 0.9 0")],
+            &[("d", "10 m"), ("points", "0 100; 1e-12 0.001")],
+            &[("points", "0 1; 0.3 100; 0.6 0.001; 1 0"), ("m_wall", "4")],
+            &[("points", "0.999 5; 1 5"), ("m_wall", "10")],
+            &[("shape", "power_law"), ("u_max", "0.001 m/s"), ("n", "1")],
+            &[("shape", "power_law"), ("u_max", "100 m/s"), ("n", "20"), ("d", "10 m")],
+            &[("shape", "laminar"), ("u_max", "0.001 m/s"), ("d", "1 mm")],
+        ];
+        for pairs in sets {
+            let s = crate::calculators::testing::solved(KEY, pairs);
+            clean(&s).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+        }
+    }
     use approx::assert_relative_eq;
 
     #[test]

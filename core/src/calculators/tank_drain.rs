@@ -512,4 +512,42 @@ mod tests {
             assert!((t / expected - 1.0).abs() < 1e-9, "r {ratio}: {t} against {expected}");
         }
     }
+
+    #[test]
+    fn extreme_accepted_inputs_show_finite_numbers() {
+        let mut count = 0;
+        for d_tank in ["0.01 m", "1 m", "100 m"] {
+            for d_orifice in ["1 mm", "9.99 mm", "999 mm", "99.9 m"] {
+                for (cd, cv) in [("0.1", "0.5"), ("1", "1"), ("0.61", "0.98")] {
+                    for (h1, h2) in [
+                        ("1 mm", "0 m"),
+                        ("1000 m", "999.999 m"),
+                        ("4 m", "0 m"),
+                        ("1000 m", "0 m"),
+                    ] {
+                        let pairs = [
+                            ("d_tank", d_tank),
+                            ("d_orifice", d_orifice),
+                            ("cd", cd),
+                            ("cv", cv),
+                            ("h_start", h1),
+                            ("h_end", h2),
+                        ];
+                        match crate::calculators::testing::outcome(KEY, &pairs).result {
+                            Ok(s) => {
+                                crate::calculators::profile::tests::clean(&s)
+                                    .unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+                                count += 1;
+                            }
+                            Err(crate::SolveError::Fields(errors)) => {
+                                assert!(errors.iter().all(|e| e.field == "d_orifice"), "{pairs:?}: {errors:?}")
+                            }
+                            Err(e) => panic!("{pairs:?}: {e}"),
+                        }
+                    }
+                }
+            }
+        }
+        assert!(count >= 72, "only {count} solved");
+    }
 }
