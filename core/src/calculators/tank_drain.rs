@@ -37,7 +37,11 @@
 //!
 //! The jet at the vena contracta has area C_c·a and velocity C_v·V (C_d = C_c·C_v).
 //!
-//! Check shown to users: for a small outlet (r ≤ 0.2) the time is compared with the
+//! Checks shown to users. (1) The energy balance of the whole drain, a second balance
+//! the solution must satisfy: the potential energy released, ρgA_t(h₁² − h₂²)/2, leaves
+//! as the jet's kinetic energy ρA_t·½∫W dh or stays as the tank's, ½ρA_t·h₂·r²·W(h₂)
+//! (shown per unit weight drained; the quasi-steady law overshoots it by a factor
+//! 1/(1 − r²)). (2) For a small outlet (r ≤ 0.2) the time is compared with the
 //! closed-form quasi-steady Torricelli time
 //! t = (2A_t/(C_d·a))·√((1 − r²)/(2g))·(√h₁ − √h₂), an independent path that the
 //! unsteady solution must approach as r → 0; the allowed difference is
@@ -279,6 +283,28 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             0.0,
         );
     }
+    // Second balance: the potential energy released must leave as the jet's kinetic
+    // energy or stay as kinetic energy in the tank. Per unit weight drained (ρ·g·A_t
+    // ·(h₁ − h₂)): released (h₁ + h₂)/2; jet ½∫W dh and tank ½h₂·r²·W(h₂), over g·(h₁ − h₂).
+    let jet_energy = 0.5
+        * crate::quadrature::tanh_sinh(h2, h1, 1.0 / 64.0, |from_low, from_high| {
+            let (h, below_start) = if from_low < from_high {
+                (h2 + from_low, h1 - h2 - from_low)
+            } else {
+                (h1 - from_high, from_high)
+            };
+            tank.velocity_squared(h, below_start)
+        });
+    let tank_energy = 0.5 * h2 * r * r * v_end * v_end;
+    report.check(
+        "Energy carried out by the jet plus kinetic energy left in the tank, per unit weight drained",
+        "the potential energy released per unit weight drained, (h₁ + h₂)/2 (energy balance of the whole drain; the quasi-steady law would overshoot it by r²/(1 − r²))",
+        Q::Length,
+        (jet_energy + tank_energy) / (STANDARD_GRAVITY * (h1 - h2)),
+        0.5 * (h1 + h2),
+        1e-8,
+        0.0,
+    );
     if r > UNSTEADY_NOTICE_RATIO {
         report.warn(
             Some("d_orifice"),
