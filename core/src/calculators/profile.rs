@@ -119,8 +119,9 @@ pub fn spec() -> CalculatorSpec {
     }
 }
 
-/// Parses traverse text into (r/R, u SI) pairs sorted by radius.
-fn parse_points(text: &str, unit: &str) -> Result<Vec<(f64, f64)>, FieldError> {
+/// Parses traverse text into (r/R, u SI) pairs sorted by radius, starting at the
+/// axis, and whether the axis point was added (flat from the innermost point).
+fn parse_points(text: &str, unit: &str) -> Result<(Vec<(f64, f64)>, bool), FieldError> {
     let mut points = Vec::new();
     for (index, entry) in text
         .split([';', '\n'])
@@ -186,7 +187,8 @@ fn parse_points(text: &str, unit: &str) -> Result<Vec<(f64, f64)>, FieldError> {
     if out.len() < 2 {
         return Err(FieldError::inconsistent("points", "give at least two points"));
     }
-    if out.first().map(|p| p.0 > 0.0).unwrap_or(false) {
+    let axis_added = out.first().map(|p| p.0 > 0.0).unwrap_or(false);
+    if axis_added {
         // Extend flat to the axis (symmetry: du/dr = 0 there).
         let u0 = out[0].1;
         out.insert(0, (0.0, u0));
@@ -207,7 +209,7 @@ fn parse_points(text: &str, unit: &str) -> Result<Vec<(f64, f64)>, FieldError> {
             ),
         ));
     }
-    Ok(out)
+    Ok((out, axis_added))
 }
 
 /// A traverse closed for integration: linear between `points` (the first at the
@@ -215,6 +217,8 @@ fn parse_points(text: &str, unit: &str) -> Result<Vec<(f64, f64)>, FieldError> {
 /// exponent 1/`wall_exponent` down to zero at the wall.
 struct ClosedTraverse {
     points: Vec<(f64, f64)>,
+    /// Whether the point on the axis was added (flat from the innermost point).
+    axis_added: bool,
     wall_exponent: f64,
 }
 
@@ -280,8 +284,7 @@ impl ClosedTraverse {
     fn samples(&self) -> Vec<(f64, f64, &'static str)> {
         let mut out: Vec<(f64, f64, &'static str)> = Vec::new();
         for (i, &(s, u)) in self.points.iter().enumerate() {
-            let note = if i == 0 && self.points.len() > 1 && s == 0.0 && self.points[1].0 > 0.0 && self.points[1].1 == u
-            {
+            let note = if i == 0 && self.axis_added {
                 "axis (flat)"
             } else {
                 "measured"
@@ -346,9 +349,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             if text.trim().is_empty() {
                 return Err(vec![FieldError::inconsistent("points", "give the traverse points")]);
             }
-            let points = parse_points(text, unit).map_err(|e| vec![e])?;
+            let (points, axis_added) = parse_points(text, unit).map_err(|e| vec![e])?;
             let wall_exponent = values.quantity_or("m_wall", DEFAULT_WALL_EXPONENT);
-            let traverse = ClosedTraverse { points, wall_exponent };
+            let traverse = ClosedTraverse {
+                points,
+                axis_added,
+                wall_exponent,
+            };
             let [m1, m2, m3] = traverse.means();
             if m1 <= 0.0 {
                 return Err(vec![FieldError::inconsistent(
