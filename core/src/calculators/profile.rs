@@ -631,11 +631,11 @@ pub(crate) mod tests {
     fn wall_zone_closed_form_matches_quadrature() {
         for (s_last, u_last, m) in [(0.0, 1.0, 7.0), (0.9, 2.5, 4.0), (0.99, 1.0, 10.0)] {
             let closed = profile::wall_zone_means(s_last, u_last, m);
-            for k in 0..3 {
+            for (power, closed) in (1..=3).zip(closed) {
                 let numeric = quadrature::tanh_sinh(s_last, 1.0, 1.0 / 64.0, |from_a, from_wall| {
-                    (u_last * (from_wall / (1.0 - s_last)).powf(1.0 / m)).powi(k as i32 + 1) * 2.0 * (s_last + from_a)
+                    (u_last * (from_wall / (1.0 - s_last)).powf(1.0 / m)).powi(power) * 2.0 * (s_last + from_a)
                 });
-                assert_relative_eq!(closed[k], numeric, max_relative = 1e-11);
+                assert_relative_eq!(closed, numeric, max_relative = 1e-11);
             }
         }
     }

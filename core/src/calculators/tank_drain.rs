@@ -449,7 +449,18 @@ mod tests {
     fn never_drains_faster_than_free_fall() {
         // Derived from the definition: from rest the surface accelerates at most at
         // g, so the time to fall Δh is at least √(2Δh/g), for every outlet size.
-        for ratio in [1e-6, 1e-3, 0.05, 0.2, 0.5, 0.70710678, 0.8, 0.95, 0.99, 0.998] {
+        for ratio in [
+            1e-6,
+            1e-3,
+            0.05,
+            0.2,
+            0.5,
+            std::f64::consts::FRAC_1_SQRT_2,
+            0.8,
+            0.95,
+            0.99,
+            0.998,
+        ] {
             for (h1, h2) in [(4.0, 0.0), (1.0, 0.5), (10.0, 9.0), (0.01, 0.0)] {
                 let t = tank(ratio, h1).time(h1, h2, 1.0 / 64.0);
                 let free = (2.0 * (h1 - h2) / STANDARD_GRAVITY).sqrt();
@@ -474,7 +485,7 @@ mod tests {
     fn solution_of_the_linear_balance_satisfies_it() {
         // The closed form W(h) must satisfy dW/dh − k·W/h = −2g/r² (checked by a
         // central difference, independent of the closed form's derivation).
-        for ratio in [0.05, 0.3, 0.70710678118, 0.9] {
+        for ratio in [0.05, 0.3, std::f64::consts::FRAC_1_SQRT_2, 0.9] {
             let t = tank(ratio, 2.0);
             let k = (1.0 - ratio * ratio) / (ratio * ratio);
             for h in [0.1, 0.7, 1.5, 1.99] {
@@ -493,7 +504,7 @@ mod tests {
     #[test]
     fn peak_lies_on_the_quasi_steady_curve() {
         // Derived from the definition: dW/dh = 0 where W = 2gh/(1 − r²).
-        for ratio in [0.01, 0.3, 0.70710678118, 0.9] {
+        for ratio in [0.01, 0.3, std::f64::consts::FRAC_1_SQRT_2, 0.9] {
             let t = tank(ratio, 3.0);
             let h = t.level_of_peak(0.0);
             let w = t.velocity_squared(h, 3.0 - h);
