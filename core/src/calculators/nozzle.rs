@@ -189,6 +189,7 @@ pub fn spec() -> CalculatorSpec {
         cautions: vec![
             "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction diameter G plus the gasket load: ASME BPVC Section VIII Division 1, Appendix 2 sizes them for the hydrostatic end force H = 0.785·G²·P plus the operating gasket load H_p = 2b·3.14·G·m·P, and for the seating load W_m2 = 3.14·b·G·y (from memory). Size bolts and flanges to the flange standard you work to, not to this page.",
             "A nozzle that is opened suddenly, or a jet that is shut off quickly, causes surge: the bolts and the line's restraint see more than the steady values shown.",
+            "Defer to the local codes and a licensed engineer for the flange, its bolts and the line's restraint.",
             "The jet reaction acts on whatever holds the line (a monitor's base, a hose crew, a riser's anchor); a free hose whips. Never stand in line with a jet.",
         ],
     }

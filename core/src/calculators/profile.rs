@@ -114,6 +114,7 @@ pub fn spec() -> CalculatorSpec {
         ],
         cautions: vec![
             "The wall zone is assumed, not measured: a disturbed or rough-walled section can differ; a traverse with points close to the wall depends least on it.",
+            "For flow measured for a contract, a permit or an acceptance test, follow the measurement standard and the local rules, and have the result checked by a licensed engineer; this page does not replace them.",
             "Traverse point positions and counts follow the measurement standard you work to (e.g. ISO 3966, ISO 7194); this page integrates what you give it.",
         ],
     }

@@ -116,6 +116,7 @@ pub fn spec() -> CalculatorSpec {
             "Vent the tank: a tank that cannot draw air in as it drains is pulled into vacuum and can collapse.",
             "The discharge coefficient governs the answer; measure it or take it from a published source for your outlet.",
             "A dam-break-like release from a large outlet is violent: keep people clear of the outlet and the receiving area.",
+            "Defer to the tank's manufacturer, the local codes and a licensed engineer for the tank, its vent and where the drained liquid goes.",
         ],
     }
 }
