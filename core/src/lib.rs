@@ -12,6 +12,7 @@
 //! - [`engine`]: ports, control volumes, frames, and the balances with their ledger.
 //! - [`catalog`]: the description of each calculator and the shape of a solution.
 //! - [`calculators`]: the handbook's calculators, registered in one list.
+//! - [`quadrature`]: tanh-sinh integration for end-singular integrands.
 //! - [`error`]: typed errors that name the field, the problem and the valid range.
 
 pub mod calculators;
@@ -22,6 +23,7 @@ pub mod fluid;
 pub mod friction;
 pub mod pipe_sizes;
 pub mod profile;
+pub mod quadrature;
 pub mod units;
 pub mod vector;
 

@@ -1,4 +1,4 @@
-//! Nozzle on a flange: the load on the flange bolts, the jet reaction and the
+//! Nozzle on a flange: the end force on the flange joint, the jet reaction and the
 //! discharge of a nozzle discharging a free jet to the atmosphere.
 //!
 //! # Method
@@ -16,12 +16,25 @@
 //!
 //! V_j = √( (2p₁/ρ) / (1/C_v² − (A_j/A₁)²) ).
 //!
-//! The linear-momentum balance ([`crate::engine`]) gives the force the bolts exert
-//! on the nozzle, R = −p₁A₁ + ṁ(V_j − V₁) along the flow, so the nozzle pulls on the
-//! bolts with T = p₁A₁ − ṁ(V_j − V₁), downstream (bolts in tension). The **jet
+//! The linear-momentum balance ([`crate::engine`]) gives the force the pipe exerts
+//! on the nozzle across the flange joint, R = −p₁A₁ + ṁ(V_j − V₁) along the flow, so
+//! the nozzle pulls on the joint with the **end force on the bore**
+//! T = p₁A₁ − ṁ(V_j − V₁), downstream. That is not the bolt load: the pressure also
+//! acts between the flange faces out to the gasket reaction diameter G, and the bolts
+//! carry the gasket load besides. When G is given the page reports the hydrostatic
+//! end force of flange design, H = (π/4)·G²·p₁ = 0.785·G²·P (ASME BPVC Section VIII
+//! Division 1, Mandatory Appendix 2, which adds the operating gasket load
+//! H_p = 2b·π·G·m·P and the seating load W_m2 = π·b·G·y; from memory), with no
+//! credit for the flow, which stops when the nozzle is shut or blocked. The **jet
 //! reaction** on the line as a whole (a control volume from still fluid upstream to
 //! the jet) is ṁ·V_j, pointing upstream; for an ideal nozzle fed from a large pipe it
 //! is 2·p₁·A_n, the fire-service rule "1.57·d²·p" (lbf, in, psi).
+//!
+//! Checks shown to users: the end force on the bore against the closed form
+//! p₁A₁ − ρQ(V_j − V₁) with p₁ = ρ(V_j²/C_v² − V₁²)/2 worked in plain arithmetic
+//! (independent of the engine's balance); the jet reaction ṁV_j against the energy
+//! form 2·C_v²·A_j·(p₁ + ρV₁²/2) with the engine's p₁; and, with the pressure given,
+//! the engine's p₁ against it.
 //!
 //! Sources: the integral momentum and energy balances and nozzle coefficients as in
 //! White, *Fluid Mechanics* (chapters 3 and 6), Munson et al., *Fundamentals of Fluid
@@ -32,7 +45,7 @@
 //! # Assumptions
 //! Incompressible, steady flow; uniform pressure over the flange face; free jet to
 //! atmosphere; horizontal axis (the weight of the nozzle and its water is carried
-//! by the pipe supports and is not part of the bolt load along the axis).
+//! by the pipe supports and is not part of the end force along the axis).
 
 use crate::catalog::{
     CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
@@ -66,7 +79,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "154 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(1e-3, MAX_SIZE_M),
             "Bore of the pipe the nozzle is bolted to.",
         ),
         quantity(
@@ -76,7 +89,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "38 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(1e-3, MAX_SIZE_M),
             "Diameter of the nozzle tip; not larger than the pipe.",
         ),
         choice(
@@ -119,11 +132,7 @@ pub fn spec() -> CalculatorSpec {
             "-",
             "-",
             "0.97",
-            Limits {
-                min: 0.0,
-                max: 1.0,
-                min_inclusive: false,
-            },
+            Limits::closed(0.3, 1.0),
             "Q = C_d·A_n·√(2·total head): about 0.96 to 0.99 for a smooth-bore nozzle, 0.61 for a sharp-edged orifice (common practice).",
         ),
         FieldSpec {
@@ -135,24 +144,34 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "-",
                 "",
-                Limits {
-                    min: 0.0,
-                    max: 1.0,
-                    min_inclusive: false,
-                },
-                "Jet area ÷ nozzle area; empty means 1 (a smooth nozzle fills its tip). About 0.62 for a sharp-edged orifice.",
+                Limits::closed(0.5, 1.0),
+                "Jet area ÷ nozzle area, from 0.5 (a re-entrant Borda mouthpiece) to 1; empty means 1 (a smooth nozzle fills its tip). About 0.62 for a sharp-edged orifice.",
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "d_gasket",
+                "Gasket reaction diameter G",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(1e-3, MAX_SIZE_M),
+                "Diameter at which the gasket reaction acts (ASME BPVC VIII-1 Appendix 2: the mean diameter of a narrow gasket contact, or the contact's outside diameter less 2b; from memory). Not smaller than the bore. Empty: the end force at the gasket is not shown.",
             )
         },
     ];
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Nozzle on a flange: bolt load and jet reaction",
+        title: "Nozzle on a flange: end force and jet reaction",
         group: crate::catalog::group::FITTINGS,
-        summary: "Flange bolt load, jet reaction and discharge of a nozzle, from the energy and momentum balances with nozzle coefficients.",
+        summary: "End force on the flange joint, jet reaction and discharge of a nozzle, from the energy and momentum balances with nozzle coefficients.",
         fields,
         outputs: vec![
-            OutputSpec { key: "bolt_load", label: "Load on the flange bolts (+ tension: the nozzle pulls off)", kind: Q::Force, headline: true },
+            OutputSpec { key: "end_force_bore", label: "End force on the flange joint over the bore, p₁A₁ − ṁ(V_j − V₁) (+: the nozzle pulls off)", kind: Q::Force, headline: true },
+            OutputSpec { key: "end_force_gasket", label: "Hydrostatic end force at the gasket reaction diameter, (π/4)·G²·p₁ (the bolts carry this plus the gasket load)", kind: Q::Force, headline: true },
             OutputSpec { key: "jet_reaction", label: "Jet reaction on the line, ṁ·V_j, upstream", kind: Q::Force, headline: true },
             OutputSpec { key: "flow", label: "Discharge (volumetric flow)", kind: Q::VolumeFlow, headline: true },
             OutputSpec { key: "p_in", label: "Gauge pressure at the flange", kind: Q::Pressure, headline: false },
@@ -168,7 +187,9 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
         ],
         cautions: vec![
+            "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction diameter G plus the gasket load: ASME BPVC Section VIII Division 1, Appendix 2 sizes them for the hydrostatic end force H = 0.785·G²·P plus the operating gasket load H_p = 2b·3.14·G·m·P, and for the seating load W_m2 = 3.14·b·G·y (from memory). Size bolts and flanges to the flange standard you work to, not to this page.",
             "A nozzle that is opened suddenly, or a jet that is shut off quickly, causes surge: the bolts and the line's restraint see more than the steady values shown.",
+            "Defer to the local codes and a licensed engineer for the flange, its bolts and the line's restraint.",
             "The jet reaction acts on whatever holds the line (a monitor's base, a hose crew, a riser's anchor); a free hose whips. Never stand in line with a jet.",
         ],
     }
@@ -180,7 +201,20 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let given = values.choice("given").map_err(|e| vec![e])?;
     let cd = values.quantity("cd").map_err(|e| vec![e])?;
     let cc = values.quantity_or("cc", 1.0);
+    let d_gasket = if values.is_set("d_gasket") {
+        Some(values.quantity("d_gasket").map_err(|e| vec![e])?)
+    } else {
+        None
+    };
     let fluid = common::fluid_from(values)?;
+    if let Some(g) = d_gasket {
+        if g < d_pipe {
+            return Err(vec![FieldError::inconsistent(
+                "d_gasket",
+                "the gasket reaction diameter must not be smaller than the pipe bore",
+            )]);
+        }
+    }
     if d_nozzle > d_pipe {
         return Err(vec![FieldError::inconsistent(
             "d_nozzle",
@@ -205,7 +239,24 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let approach = (a_jet / a_pipe).powi(2);
 
     let flow = match given {
-        "q" => values.quantity("q").map_err(|e| vec![e])?,
+        "q" => {
+            let q = values.quantity("q").map_err(|e| vec![e])?;
+            // Energy balance solved for the pressure (closed form, see module doc).
+            let v_jet = q / a_jet;
+            let v_pipe = q / a_pipe;
+            let p_needed = 0.5 * rho * (v_jet * v_jet / (cv * cv) - v_pipe * v_pipe);
+            if p_needed > MAX_PRESSURE_PA {
+                return Err(vec![FieldError::inconsistent(
+                    "q",
+                    format!(
+                        "this flow needs {} at the flange, above the {} this page covers: check the flow and the nozzle diameter",
+                        report.fmt(p_needed, Q::Pressure),
+                        report.fmt(MAX_PRESSURE_PA, Q::Pressure)
+                    ),
+                )]);
+            }
+            q
+        }
         _ => {
             let p = values.quantity("p").map_err(|e| vec![e])?;
             // Energy balance solved for the jet velocity (closed form, see module doc).
@@ -238,10 +289,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     cv_fluid.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port: o }));
     let balance = engine::balance(&cv_fluid).map_err(|e| common::engine_error(e, "d_nozzle"))?;
     let (inlet, jet) = (&balance.ports[i], &balance.ports[o]);
-    let bolt_load = balance.thrust().x;
+    let end_force = balance.thrust().x;
     let jet_reaction = jet.mass_flow * jet.speed;
 
-    report.output("bolt_load", bolt_load);
+    report.output("end_force_bore", end_force);
+    if let Some(g) = d_gasket {
+        report.output("end_force_gasket", inlet.pressure * common::circle_area(g));
+    }
     report.output("jet_reaction", jet_reaction);
     report.output("flow", jet.volume_flow);
     report.output("p_in", inlet.pressure);
@@ -258,22 +312,46 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("pressure_force", inlet.pressure * a_pipe);
     report.output("density", rho);
 
-    common::forward_warnings(&balance, report);
+    // Checks by independent paths (see the module doc).
+    let (v_jet_closed, v_pipe_closed) = (flow / a_jet, flow / a_pipe);
+    let p_closed = 0.5 * rho * (v_jet_closed * v_jet_closed / (cv * cv) - v_pipe_closed * v_pipe_closed);
+    report.check(
+        "End force on the bore",
+        "the closed form p₁A₁ − ρQ(V_j − V₁) with p₁ = ρ(V_j²/C_v² − V₁²)/2, in plain arithmetic",
+        Q::Force,
+        end_force,
+        p_closed * a_pipe - rho * flow * (v_jet_closed - v_pipe_closed),
+        1e-9,
+        p_closed * a_pipe,
+    );
+    report.check(
+        "Jet reaction ṁV_j",
+        "the energy form 2·C_v²·A_j·(p₁ + ρV₁²/2) with the balance's p₁",
+        Q::Force,
+        jet_reaction,
+        2.0 * cv * cv * a_jet * (inlet.pressure + 0.5 * rho * inlet.speed * inlet.speed),
+        1e-9,
+        0.0,
+    );
     if given == "p" {
         if let Ok(p) = values.quantity("p") {
-            if (inlet.pressure - p).abs() > 1e-9 * p.max(1.0) {
-                report.warn(
-                    Some("p"),
-                    "the energy balance does not return the given pressure: internal inconsistency, do not use this result",
-                );
-            }
+            report.check(
+                "Gauge pressure at the flange",
+                "the pressure given (the flow was found from it in closed form; the balance recomputes the pressure from that flow)",
+                Q::Pressure,
+                inlet.pressure,
+                p,
+                1e-9,
+                0.0,
+            );
         }
     }
+    common::forward_warnings(&balance, report);
     common::pipe_velocity_warning(report, "d_pipe", "flange", inlet.speed);
-    if bolt_load < 0.0 {
+    if end_force < 0.0 {
         report.warn(
             Some("d_nozzle"),
-            "the momentum of the jet exceeds the pressure force: the nozzle is pushed onto the pipe and the bolts carry no tension from the flow",
+            "the momentum of the jet exceeds the pressure force on the bore: the nozzle is pushed onto the pipe while it flows; shut or blocked, the pressure alone pulls it off",
         );
     }
     if flow == 0.0 {
@@ -304,8 +382,18 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             ),
         ),
         (
-            "Bolt load",
-            "T = p₁A₁ − ṁ(V_j − V₁), + when the nozzle pulls on the bolts".to_string(),
+            "End force on the bore",
+            "T = p₁A₁ − ṁ(V_j − V₁), + when the nozzle pulls off; not the bolt load".to_string(),
+        ),
+        (
+            "End force at the gasket",
+            match d_gasket {
+                Some(g) => format!(
+                    "H = (π/4)·G²·p₁ with G = {}, no credit for the flow; the bolts carry H plus the gasket load (ASME BPVC VIII-1 Appendix 2)",
+                    report.fmt(g, Q::Length)
+                ),
+                None => "not shown: give the gasket reaction diameter G".to_string(),
+            },
         ),
         (
             "Jet reaction",
@@ -436,7 +524,7 @@ fn diagram(
         [t, above],
         thrust,
         scale,
-        format!("bolt load T {}", fmt(thrust)),
+        format!("end force T {}", fmt(thrust)),
         ShapeStyle::Thrust,
         true,
     ) {
@@ -446,7 +534,7 @@ fn diagram(
         [-t, -above],
         balance.support_force,
         scale,
-        format!("bolts on nozzle R {}", fmt(balance.support_force)),
+        format!("joint on nozzle R {}", fmt(balance.support_force)),
         ShapeStyle::Restraint,
         true,
     ) {
@@ -462,7 +550,7 @@ fn diagram(
         title: "Nozzle on a flange: control volume and forces".to_string(),
         bounds,
         shapes,
-        caption: "Pipe, flanges, nozzle and jet to scale (nozzle length drawn as 1.5 pipe diameters); force arrows share one scale. T is the nozzle's pull on the bolts; R = −T is what the bolts supply.".to_string(),
+        caption: "Pipe, flanges, nozzle and jet to scale (nozzle length drawn as 1.5 pipe diameters); force arrows share one scale. T is the nozzle's pull on the joint over the bore; R = −T is what the joint supplies.".to_string(),
     }
 }
 
@@ -483,14 +571,14 @@ mod tests {
             .expect("solves");
         assert_relative_eq!(by_q.output("p_in").unwrap().si, 6e5, max_relative = 1e-9);
         assert_relative_eq!(
-            by_q.output("bolt_load").unwrap().si,
-            by_p.output("bolt_load").unwrap().si,
+            by_q.output("end_force_bore").unwrap().si,
+            by_p.output("end_force_bore").unwrap().si,
             max_relative = 1e-9
         );
     }
 
     #[test]
-    fn ideal_nozzle_bolt_load_matches_the_closed_form() {
+    fn ideal_nozzle_end_force_matches_the_closed_form() {
         // Derived from the definition: C = 1, T = p1·A1 − ρQ(Vj − V1) with
         // p1 = ρ(Vj² − V1²)/2.
         let s = outcome(&[
@@ -510,7 +598,7 @@ mod tests {
         let p1 = 500.0 * (v2 * v2 - v1 * v1);
         assert_relative_eq!(s.output("p_in").unwrap().si, p1, max_relative = 1e-12);
         assert_relative_eq!(
-            s.output("bolt_load").unwrap().si,
+            s.output("end_force_bore").unwrap().si,
             p1 * a1 - 1000.0 * 0.02 * (v2 - v1),
             max_relative = 1e-12
         );
@@ -530,11 +618,57 @@ mod tests {
 
     #[test]
     fn demo_matches_the_method_note_worked_example() {
-        // site/notes/nozzle.md works the demo by hand: 148.5 m³/h, bolt load
+        // site/notes/nozzle.md works the demo by hand: 148.5 m³/h, end force
         // 11.63 kN, jet reaction 1.50 kN.
         let s = outcome(&[]).result.expect("solves");
         assert_relative_eq!(s.output("flow").unwrap().si, 148.5 / 3600.0, max_relative = 5e-4);
-        assert_relative_eq!(s.output("bolt_load").unwrap().si, 11.63e3, max_relative = 5e-4);
+        assert_relative_eq!(s.output("end_force_bore").unwrap().si, 11.63e3, max_relative = 5e-4);
         assert_relative_eq!(s.output("jet_reaction").unwrap().si, 1.50e3, max_relative = 5e-3);
+    }
+
+    #[test]
+    fn extreme_accepted_inputs_show_finite_numbers() {
+        let mut count = 0;
+        for (d_pipe, d_nozzle) in [
+            ("1 mm", "1 mm"),
+            ("10 m", "1 mm"),
+            ("10 m", "10 m"),
+            ("154 mm", "38 mm"),
+        ] {
+            for (cd, cc) in [("0.3", "0.5"), ("1", ""), ("0.5", "0.5"), ("0.97", "1")] {
+                for (given, value) in [
+                    ("p", "0 bar"),
+                    ("p", "100 MPa"),
+                    ("q", "0 m3/h"),
+                    ("q", "1000 m3/s"),
+                    ("q", "1e-300 m3/s"),
+                ] {
+                    let key = if given == "p" { "p" } else { "q" };
+                    let pairs = [
+                        ("d_pipe", d_pipe),
+                        ("d_nozzle", d_nozzle),
+                        ("cd", cd),
+                        ("cc", cc),
+                        ("given", given),
+                        (key, value),
+                        ("d_gasket", "10 m"),
+                    ];
+                    match outcome(&pairs).result {
+                        Ok(s) => {
+                            crate::calculators::profile::tests::clean(&s).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+                            count += 1;
+                        }
+                        Err(crate::SolveError::Fields(errors)) => {
+                            assert!(
+                                errors.iter().all(|e| ["q", "cd"].contains(&e.field.as_str())),
+                                "{pairs:?}: {errors:?}"
+                            )
+                        }
+                        Err(e) => panic!("{pairs:?}: {e}"),
+                    }
+                }
+            }
+        }
+        assert!(count >= 50, "only {count} solved");
     }
 }
