@@ -59,6 +59,9 @@ pub const fn choice(
 
 /// Upper bound used for sizes: 10 m is larger than any pipe this handbook covers.
 pub const MAX_SIZE_M: f64 = 10.0;
+
+/// Smallest pipe diameter or bend radius the fitting pages accept, m (1 mm).
+pub const MIN_SIZE_M: f64 = 1e-3;
 /// Upper bound for gauge pressures: 100 MPa (≈ 14 500 psi).
 pub const MAX_PRESSURE_PA: f64 = 100e6;
 
@@ -560,18 +563,23 @@ pub fn basis_table(rows: Vec<(&str, String)>) -> Table {
     }
 }
 
-/// The thrust-area basis of a fitting page: the bore, or the outside diameter of
-/// push-on and mechanical joints (whose spigot can slide in its gasket like a piston).
+/// The thrust-area basis of a fitting page: the bore only for joints that seal on
+/// it (welded, flanged, fused); the outside diameter for push-on and mechanical
+/// joints, restrained or not, whose gasket seals on the spigot's outside, so the
+/// pressure acts over the OD of the nearest sealing joint.
 pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "id",
-        label: "Inside diameter (welded, flanged or restrained joints)",
+        label: "Inside diameter (welded, flanged or fused joints only)",
     },
     ChoiceOption {
         key: "od",
-        label: "Outside diameter (push-on and mechanical joints)",
+        label: "Outside diameter (push-on and mechanical joints, restrained or not)",
     },
 ];
+
+/// Help text of every area-basis selector: why restrained joints take the OD.
+pub const AREA_BASIS_HELP: &str = "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the inside diameter.";
 
 /// The extra force of a push-on or mechanical joint at one port: its pressure also
 /// acts on the annulus between the bore and the outside diameter, −p·(A_OD − A)·n,

@@ -8,7 +8,8 @@
 //! working plus a typed surge allowance, or the highest of these. The thrust comes
 //! from the engine's static balance of the fitting at that pressure with no flow
 //! ([`super::thrust_block::static_balance`]), on the outside diameter for push-on and
-//! mechanical joints and the inside diameter otherwise. A horizontal or sag fitting
+//! mechanical joints, restrained or not (they seal on the spigot), and on the bore
+//! only for welded, flanged or fused joints. A horizontal or sag fitting
 //! gets a bearing block, area SF·T/σ; a crest (thrust upward) gets a gravity block,
 //! volume SF·T_up/γ_concrete (above groundwater). The thrust-restraint page does
 //! the same for one fitting with every option shown; this page is its list form.
@@ -25,7 +26,7 @@
 //! - `key=value` tokens: `angle=`, `size=`, `d=` (inside), `od=` (outside),
 //!   `size2=`, `d2=`, `od2=`, `p=` (design pressure), `pw=` (working pressure at
 //!   this fitting, the page basis applies), `soil=`, `sigma=` (typed bearing),
-//!   `joint=` (`push_on`, `mechanical`, `flanged`, `welded`), `h=` (face height),
+//!   `joint=` (`push_on`, `mechanical`, `restrained`, `flanged`, `welded`), `h=` (face height),
 //!   `turn=` (`left`, `right` in plan; `down` a crest: thrust up, gravity block;
 //!   `up` a sag: thrust down), `thrust=` (force rows), `tag=` (a label, no spaces).
 //! - Quantities carry their unit (`12in`, `0.9m`, `10bar`); a bare number is refused.
@@ -84,7 +85,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
         choice("soil", "Soil (rows without soil=)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison."),
         FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Used when the soil is 'typed value'.") },
-        choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", "Push-on and mechanical: thrust on the OD; flanged and welded: on the ID."),
+        choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", tb::JOINT_HELP),
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Bearing area = SF·T/σ; gravity block weight = SF·T_up."),
         quantity("block_h", "Bearing face height (rows without h=)", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Face width = area ÷ height."),
         quantity("gamma_c", "Unit weight of concrete (gravity blocks)", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy."),
@@ -356,7 +357,7 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             "joint" => {
                 if !JOINT_OPTIONS.iter().any(|o| o.key == value) {
                     return Err(format!(
-                        "row {line}: joint must be push_on, mechanical, flanged or welded"
+                        "row {line}: joint must be push_on, mechanical, restrained, flanged or welded"
                     ));
                 }
                 row.joint = Some(value.to_string());
@@ -540,7 +541,10 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let design_of = |pw: f64| -> (f64, String) {
         let test = test_rule.as_ref().map(|t| match t {
             TestBasis::Typed(p) => (*p, "typed test".to_string()),
-            TestBasis::Rule(r) => ((r.apply)(pw, surge.unwrap_or(0.0)), format!("test ({})", r.key)),
+            TestBasis::Rule(r) => (
+                r.test_pressure(pw, None, surge.unwrap_or(0.0)),
+                format!("test ({})", r.key),
+            ),
         });
         let with_surge = surge_in_basis.map(|dp| pw + dp);
         match basis.as_str() {
@@ -728,7 +732,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             g.plane,
             g.od,
             g.od2,
-            g.row.angle.unwrap_or(PI / 4.0),
+            (0.0, g.row.angle.unwrap_or(PI / 4.0)),
             false,
             g.thrust,
             &g.block,
@@ -908,6 +912,7 @@ fn solve_row(
                 area: a1,
                 area2: a2,
                 plane,
+                symmetric: false,
             };
             let balance = tb::static_balance(&fit, p, fluid).map_err(|e| err(e.to_string()))?;
             let mut t = balance.thrust();
