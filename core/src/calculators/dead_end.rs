@@ -36,7 +36,7 @@ use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 use crate::vector::{Direction, Vec3};
 
-use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
 pub const KEY: &str = "dead-end";
 
@@ -81,7 +81,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "204 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
             "Bore of the pipe at the closure.",
         ),
         choice(
@@ -89,7 +89,7 @@ pub fn spec() -> CalculatorSpec {
             "Thrust area basis",
             common::AREA_BASIS_OPTIONS,
             "od",
-            "Push-on and mechanical joints can slide like a piston: their thrust acts on the outside diameter.",
+            common::AREA_BASIS_HELP,
         ),
         FieldSpec {
             optional: true,
@@ -100,7 +100,7 @@ pub fn spec() -> CalculatorSpec {
                 "mm",
                 "in",
                 "222 mm",
-                Limits::positive(MAX_SIZE_M),
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
                 "Needed for the outside-diameter basis; with it the inside-diameter thrust is shown as well.",
             )
         },
@@ -193,6 +193,15 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let thrust = balance.thrust();
 
     report.output("thrust", thrust.norm());
+    report.check(
+        "Thrust on the supports",
+        "closed form p·A on the area basis (p·π·d²/4)",
+        Q::Force,
+        thrust.norm(),
+        p * std::f64::consts::PI * d_used * d_used / 4.0,
+        1e-12,
+        0.0,
+    );
     report.output("area", area);
     report.output("diameter_used", d_used);
     report.output("thrust_id", p * common::circle_area(d));
