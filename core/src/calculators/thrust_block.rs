@@ -775,7 +775,12 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::closed(10e6, 1e11), "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.") },
     ];
-    fields.extend(common::fluid_fields("15 degC"));
+    // The fluid sets the density of a fitting's balance and surge; a given thrust
+    // needs none of it.
+    fields.extend(common::fluid_fields("15 degC").into_iter().map(|f| FieldSpec {
+        visible_when: f.visible_when.or(fitting_only(FITTINGS)),
+        ..f
+    }));
     fields.extend([
         choice("soil", "Soil (allowable bearing, friction)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis. A preset also gives the friction coefficient of the sliding check."),
         FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::closed(1e3, 20e6), "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound rock).") },
@@ -816,7 +821,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "block_mass", label: "Gravity block: concrete mass", kind: Q::Mass, headline: false },
             OutputSpec { key: "block_weight", label: "Gravity block: effective weight needed", kind: Q::Force, headline: false },
             OutputSpec { key: "block_side", label: "Gravity block: plan side (square plan)", kind: Q::Length, headline: false },
-            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: true },
             OutputSpec { key: "friction", label: "Friction coefficient used for sliding", kind: Q::Ratio, headline: false },
             OutputSpec { key: "side_bearing_area", label: "Sag block: bearing area against the trench wall for the horizontal thrust", kind: Q::Area, headline: false },
             OutputSpec { key: "mdp", label: "Maximum design pressure MDP (EN 805)", kind: Q::Pressure, headline: false },
@@ -899,9 +904,14 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let fitting = values.choice("fitting").map_err(one)?.to_string();
     let plane = Plane::from_key(values.choice("plane").map_err(one)?);
     let symmetric = values.choice("legs").unwrap_or("symmetric") == "symmetric";
-    let fluid = common::fluid_from(values)?;
     let sf = values.quantity("sf").map_err(one)?;
     let given_force = fitting == "force";
+    // The fluid matters only to a fitting's balance and surge (hidden for a given thrust).
+    let fluid = if given_force {
+        None
+    } else {
+        Some(common::fluid_from(values)?)
+    };
     // A given thrust carries no joint: its area basis was chosen on the page it came from.
     let uses_od = !given_force && joint_uses_od(values.choice("joint").map_err(one)?);
 
@@ -922,10 +932,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let basis_d = |d: Diameters| if uses_od { d.od } else { d.id };
 
     // --- Design pressure (not for a given thrust: it was found elsewhere) ------------
-    let pressures = if given_force {
-        None
-    } else {
-        Some(design_pressure(values, main, &size_key, &fluid, report)?)
+    let pressures = match &fluid {
+        None => None,
+        Some(fluid) => Some(design_pressure(values, main, &size_key, fluid, report)?),
     };
     let p = pressures.as_ref().map_or(0.0, |pr| pr.design);
 
@@ -952,6 +961,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         }
         kind => {
             let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "a size is required")])?;
+            let fluid = fluid
+                .as_ref()
+                .ok_or_else(|| vec![FieldError::inconsistent("fluid", "choose the fluid")])?;
             let a1 = common::circle_area(basis_d(main));
             let (kind, angle, a2) = match kind {
                 "bend" => (FittingKind::Bend, values.quantity("angle").map_err(one)?, a1),
@@ -990,7 +1002,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 symmetric,
             };
             inlet_angle = fit.inlet_angle();
-            let balance = static_balance(&fit, p, &fluid).map_err(|e| common::engine_error(e, "p_work"))?;
+            let balance = static_balance(&fit, p, fluid).map_err(|e| common::engine_error(e, "p_work"))?;
             let thrust = balance.thrust();
             static_checks(report, &fit, p, thrust);
             report.output("area_d", basis_d(main));
@@ -1822,6 +1834,95 @@ mod tests {
         assert_eq!(
             error_field(&[("p_basis", "test"), ("test_rule", "en805_surge"), ("dv", "")]),
             "dv"
+        );
+    }
+
+    #[test]
+    fn a_field_that_does_not_apply_is_hidden_along_its_chain() {
+        let spec = super::spec();
+        let shown = |pairs: &[(&str, &str)], key: &str| {
+            let field = spec.field(key).expect("field");
+            crate::catalog::is_shown(&spec, field, &request(pairs))
+        };
+        // The face height depends on the proportions selector, which a crest hides.
+        assert!(shown(&[("plane", "horizontal")], "block_h"));
+        assert!(!shown(&[("plane", "vertical_crest")], "block_h"));
+        assert!(shown(&[("plane", "vertical_crest")], "gravity_h"));
+        assert!(!shown(&[("plane", "horizontal")], "legs"));
+        // A given thrust has no design pressure, joint or fluid of its own.
+        for key in [
+            "p_work",
+            "p_basis",
+            "test_rule",
+            "dv",
+            "material",
+            "joint",
+            "fluid",
+            "t",
+        ] {
+            assert!(!shown(&[("fitting", "force")], key), "{key}");
+        }
+        assert!(shown(&[("fitting", "bend")], "p_work"));
+    }
+
+    #[test]
+    fn an_unchecked_sliding_mode_is_said_not_silent() {
+        let s = solve(&[
+            ("plane", "vertical_crest"),
+            ("legs", "one_level"),
+            ("soil", "custom"),
+            ("friction", ""),
+            ("p_basis", "operating"),
+        ]);
+        assert!(s.output("sliding_sf").is_none());
+        assert!(
+            s.warnings
+                .iter()
+                .any(|w| w.field.is_none() && w.message.contains("NOT checked")),
+            "{:?}",
+            s.warnings
+        );
+        // A typed coefficient overrides the soil's.
+        let s = solve(&[
+            ("plane", "vertical_crest"),
+            ("legs", "one_level"),
+            ("soil", "nfpa24_sand"),
+            ("friction", "0.5"),
+            ("p_basis", "operating"),
+        ]);
+        assert_relative_eq!(s.output("friction").unwrap().si, 0.5);
+        // Both legs sloped: no horizontal thrust, nothing to slide, no warning.
+        let s = solve(&[
+            ("plane", "vertical_sag"),
+            ("legs", "symmetric"),
+            ("p_basis", "operating"),
+        ]);
+        assert!(s.output("side_bearing_area").is_none());
+        assert!(
+            !s.warnings.iter().any(|w| w.message.contains("sliding")),
+            "{:?}",
+            s.warnings
+        );
+    }
+
+    #[test]
+    fn the_wave_speed_material_follows_the_size_preset() {
+        let get = |pairs: &[(&str, &str)]| solve(pairs).output("wave_speed").map(|o| o.si).unwrap_or(f64::NAN);
+        let base = [("p_basis", "surge"), ("dv", "0.5 m/s"), ("size", "c900dr18_8")];
+        let preset = get(&[base[0], base[1], base[2], ("material", "from_size")]);
+        let pvc = get(&[base[0], base[1], base[2], ("material", "pvc")]);
+        let iron = get(&[base[0], base[1], base[2], ("material", "ductile_iron")]);
+        assert_relative_eq!(preset, pvc, max_relative = 1e-12);
+        assert!(iron > 2.0 * pvc);
+        assert_eq!(
+            error_field(&[
+                ("p_basis", "surge"),
+                ("size", "custom"),
+                ("d", "300 mm"),
+                ("od", "320 mm"),
+                ("material", "from_size")
+            ]),
+            "material"
         );
     }
 
