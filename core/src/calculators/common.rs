@@ -109,8 +109,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "kg/m3",
                 "lb/ft3",
                 "",
-                Limits::positive(25_000.0),
-                "Density of the liquid.",
+                Limits::closed(50.0, 25_000.0),
+                "Density of the liquid, from 50 kg/m³ (cryogenic liquids) to 25 000 kg/m³.",
             )
         },
         FieldSpec {
@@ -122,8 +122,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "mPa.s",
                 "lb/(ft.s)",
                 "",
-                Limits::positive(1e3),
-                "Used for warnings and friction only; it does not change the momentum balance.",
+                Limits::closed(1e-6, 1e3),
+                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 mPa·s to 10⁶ mPa·s.",
             )
         },
     ]
@@ -779,4 +779,165 @@ pub fn peak_of<E>(lo: f64, hi: f64, f: impl Fn(f64) -> Result<f64, E>) -> Result
         }
     }
     Ok(0.5 * (a + b))
+}
+
+/// Every quantity field of the restraint pages at the ends of its range, alone and
+/// all together, in both unit systems and in each plane, fitting and area basis:
+/// an accepted request must give finite outputs, agreeing checks, and tables and
+/// diagrams free of NaN, ±inf and "—".
+#[cfg(test)]
+mod extremes {
+    use crate::catalog::{demo_request, FieldKind, Limits, Request, Shape, Solution};
+    use crate::units::{self, UnitSystem};
+
+    const PAGES: &[(&str, &[&[(&str, &str)]])] = &[
+        (
+            super::super::bend::KEY,
+            &[
+                &[],
+                &[("plane", "vertical_up")],
+                &[("plane", "vertical_down")],
+                &[("basis", "od")],
+            ],
+        ),
+        (
+            super::super::reducer::KEY,
+            &[
+                &[],
+                &[("orientation", "vertical_up")],
+                &[("basis", "od")],
+                &[("loss", "none")],
+            ],
+        ),
+        (super::super::dead_end::KEY, &[&[], &[("basis", "id")]]),
+        (
+            super::super::thrust_block::KEY,
+            &[
+                &[],
+                &[("plane", "vertical_crest"), ("legs", "one_level")],
+                &[("plane", "vertical_sag"), ("legs", "one_level")],
+                &[("plane", "vertical_sag")],
+                &[("fitting", "force"), ("thrust", "10 kN")],
+                &[
+                    ("fitting", "force"),
+                    ("thrust", "10 kN"),
+                    ("plane", "vertical_crest"),
+                    ("thrust_elev", "40 deg"),
+                ],
+                &[("fitting", "tee"), ("size2", "di52_8")],
+                &[("fitting", "reducer"), ("size2", "di52_8")],
+                &[("fitting", "dead_end"), ("joint", "welded"), ("block_dims", "aspect")],
+                &[("p_basis", "test"), ("test_rule", "en805")],
+            ],
+        ),
+        (super::super::line_schedule::KEY, &[&[]]),
+    ];
+
+    fn typed(limits: Limits, kind: crate::units::QuantityKind, unit: &str, high: bool) -> Option<String> {
+        let si = match (high, limits.min_inclusive) {
+            (true, _) => limits.max,
+            (false, true) => limits.min,
+            (false, false) => limits.min + (limits.max - limits.min) * 1e-9,
+        };
+        let v = units::convert_to(si, kind, unit)?;
+        Some(format!("{v:e} {unit}"))
+    }
+
+    fn faults(s: &Solution) -> Vec<String> {
+        let mut out: Vec<String> = s.defects.clone();
+        for c in s.checks.iter().filter(|c| !c.agrees()) {
+            out.push(format!("check disagrees: {c:?}"));
+        }
+        for t in &s.tables {
+            for cell in t.rows.iter().flatten() {
+                let lower = cell.to_ascii_lowercase();
+                let bad_word = lower
+                    .split(|c: char| !c.is_ascii_alphanumeric())
+                    .any(|w| w == "nan" || w == "inf" || w == "infinity");
+                if cell.trim() == "—" || bad_word {
+                    out.push(format!("table {}: cell '{cell}'", t.key));
+                }
+            }
+        }
+        for d in &s.diagrams {
+            if d.bounds.iter().any(|b| !b.is_finite()) || d.bounds[2] <= d.bounds[0] || d.bounds[3] <= d.bounds[1] {
+                out.push(format!("diagram bounds {:?}", d.bounds));
+            }
+            for shape in &d.shapes {
+                let finite = super::shape_points(shape).iter().flatten().all(|v| v.is_finite())
+                    && !matches!(shape, Shape::Circle { radius, .. } if !radius.is_finite());
+                if !finite {
+                    out.push(format!("diagram shape {shape:?}"));
+                }
+            }
+        }
+        for p in &s.plots {
+            if p.series
+                .iter()
+                .flat_map(|s| s.points.iter())
+                .flatten()
+                .any(|v| !v.is_finite())
+            {
+                out.push(format!("plot {}", p.key));
+            }
+        }
+        out
+    }
+
+    #[test]
+    fn restraint_pages_stay_finite_at_the_ends_of_every_range() {
+        let mut solved = 0;
+        let mut tried = 0;
+        let mut problems = Vec::new();
+        for (key, scenarios) in PAGES {
+            let spec = super::super::spec(key).expect("registered");
+            for scenario in *scenarios {
+                for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                    let base = demo_request(&spec, scenario);
+                    let quantities: Vec<_> = spec
+                        .fields
+                        .iter()
+                        .filter_map(|f| match (&f.kind, f.limits) {
+                            (FieldKind::Quantity(kind), Some(limits)) if !f.si_unit.is_empty() => {
+                                Some((f.key, *kind, limits, f.si_unit))
+                            }
+                            _ => None,
+                        })
+                        .collect();
+                    let mut requests: Vec<(String, Request)> = Vec::new();
+                    for high in [false, true] {
+                        let mut all = base.clone();
+                        for (field, kind, limits, unit) in &quantities {
+                            let Some(text) = typed(*limits, *kind, unit, high) else {
+                                continue;
+                            };
+                            let mut one = base.clone();
+                            one.inputs.insert(field.to_string(), text.clone());
+                            requests.push((format!("{field}={text}"), one));
+                            all.inputs.insert(field.to_string(), text);
+                        }
+                        requests.push((format!("all {}", if high { "max" } else { "min" }), all));
+                    }
+                    for (what, mut request) in requests {
+                        request.system = system;
+                        tried += 1;
+                        if let Ok(s) = crate::solve(key, &request).result {
+                            solved += 1;
+                            for fault in faults(&s) {
+                                problems.push(format!("{key} {scenario:?} {what}: {fault}"));
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        assert!(
+            problems.is_empty(),
+            "{} problems, e.g.\n{}",
+            problems.len(),
+            problems[..problems.len().min(15)].join("\n")
+        );
+        // Most single-field extremes are accepted; a test that solved nothing tests nothing.
+        assert!(solved * 2 > tried, "only {solved} of {tried} requests solved");
+    }
 }

@@ -1026,7 +1026,7 @@ fn solve_row(
                     height: side,
                 },
                 text,
-                "—".to_string(),
+                "not used (gravity block)".to_string(),
             )
         }
     };
@@ -1062,7 +1062,7 @@ fn preset_bearing(key: &str) -> Result<(f64, String), String> {
 
 fn direction_text(row: &Row, plane: Plane, t: Vec3) -> String {
     if t.norm() == 0.0 {
-        return "—".to_string();
+        return "none (no thrust)".to_string();
     }
     match plane {
         Plane::Horizontal => {
