@@ -16,12 +16,31 @@
 //! For an equal-size bend at rest the thrust reduces to the static formula
 //! T = 2pA·sin(θ/2), directed along the bisector, away from the bend's centre
 //! (e.g. AWWA Manual M11, *Steel Pipe*, chapter on thrust restraint; the ductile-iron
-//! pipe industry's thrust-restraint design guides). The calculator reports both.
+//! pipe industry's thrust-restraint design guides).
+//!
+//! # Checks
+//! Recorded with [`Report::check`], each by a path that does not use the engine:
+//! the outlet pressure by the Bernoulli line above; the x and y thrust by the
+//! closed form T = (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + (W + W_f)·ĝ with that
+//! pressure (areas on the chosen basis, momentum on the bores); and for an
+//! equal-size horizontal bend at rest, the static formula 2pA·sin(θ/2).
+//!
+//! # Area basis
+//! The bore (`basis=id`) is for joints that seal on it: welded, flanged or fused.
+//! Push-on and mechanical joints, restrained or not, seal on the spigot's outside,
+//! so the pressure acts out to the outside diameter of the sealing joint
+//! (`basis=od`, with `d_od` and `d_out_od`): −p·(A_OD − A)·n is added at each face
+//! as a named force, as on the reducer page. 12 in ductile iron (OD 13.20 in, bore
+//! 12.46 in), 150 psi, 90°: 29,030 lbf on the OD, 25,866 lbf on the bore.
+//!
+//! # Carried to the thrust-restraint page
+//! A vertical bend carries its resultant and its angle above the horizontal; a
+//! horizontal bend carries its in-plane thrust only, since the fluid's weight rests
+//! on the bedding, not on the block.
 //!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; pressure area from
-//! the inside diameter (for push-on and mechanical joints the thrust-restraint page
-//! uses the outside diameter); the fluid inside follows the centre-line arc
+//! Incompressible, steady flow; uniform pressure over each face; pressure area on
+//! the chosen basis; the fluid inside follows the centre-line arc
 //! (volume A·R·θ for equal sizes, mean area for reducing bends).
 
 use std::f64::consts::PI;

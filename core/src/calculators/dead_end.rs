@@ -17,10 +17,12 @@
 //! AWWA Manual M41 and M11, each listing T = P·A for a dead end).
 //!
 //! # Area basis
-//! The area is chosen openly: the inside diameter (a welded or flanged line, where
-//! the pressure acts on the bore), or the outside diameter (push-on and mechanical
-//! joints, where the spigot can slide in its gasket like a piston, so the
-//! pressure acts over the full outside diameter, as those guides use it). Both
+//! The area is chosen openly: the inside diameter (a welded, flanged or fused line,
+//! where the joint seals on the bore), or the outside diameter (push-on and
+//! mechanical joints, restrained or not: they seal on the spigot's outside, so the
+//! pressure acts over the outside diameter of the sealing joint, as those guides
+//! use it). The engine's thrust is checked against p·π·d²/4 on the diameter used
+//! ([`Report::check`]). Both
 //! thrusts are reported when both diameters are given; the output says which one is
 //! the headline.
 //!

@@ -12,7 +12,11 @@
 //! only for welded, flanged or fused joints. A horizontal or sag fitting
 //! gets a bearing block, area SF·T/σ; a crest (thrust upward) gets a gravity block,
 //! volume SF·T_up/γ_concrete (above groundwater). The thrust-restraint page does
-//! the same for one fitting with every option shown; this page is its list form.
+//! the same for one fitting with every option shown (and checks sliding, which
+//! this list does not); this page is its list form. The sum of the rows' thrusts
+//! is checked against the sum of each row's closed form (2pA·sin(θ/2), pA,
+//! pA_branch, p(A₁ − A₂), or the typed force) with [`Report::check`]. EN 805 rows
+//! use MDP = working + 200 kPa (see [`super::thrust_block::TEST_RULES`]).
 //!
 //! # Row format (ours; one fitting per line, `#` starts a comment)
 //! ```text

@@ -27,11 +27,18 @@
 //!
 //! With no flow the thrust reduces to the static formula T = p(A₁ − A₂) of the
 //! thrust-restraint guides (DIPRA, *Thrust Restraint Design for Ductile Iron Pipe*;
-//! AWWA Manual M41), reported beside the full result.
+//! AWWA Manual M41).
+//!
+//! # Checks
+//! Recorded with [`Report::check`], each without the engine: the outlet pressure by
+//! the energy line above; the axial thrust by the closed form
+//! p₁A₁ − p₂A₂ + ṁ(V₁ − V₂) + W·(ĝ·x̂) on the area basis; at rest in a horizontal
+//! fitting, the static formula p(A₁ − A₂); with Borda–Carnot on the bores,
+//! −p₁(A₂ − A₁).
 //!
 //! # Area basis
-//! On the outside-diameter basis (push-on and mechanical joints, whose spigot can
-//! slide in its gasket like a piston) the pressure at each face also acts on the
+//! On the outside-diameter basis (push-on and mechanical joints, restrained or not:
+//! they seal on the spigot's outside) the pressure at each face also acts on the
 //! wall annulus out to the outside diameter: −p·(A_OD − A)·n is added to the engine
 //! as a named force per face, and the static formula uses the outside areas.
 //!

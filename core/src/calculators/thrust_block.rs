@@ -4,7 +4,12 @@
 //! # Method
 //! 1. **Design pressure**, chosen openly (`p_basis`): the operating pressure; the
 //!    field test pressure from a named rule ([`TEST_RULES`]) or typed; the working
-//!    pressure plus a surge estimate; or the highest of these. The surge is the
+//!    pressure plus a surge estimate; or the highest of these. EN 805's rule applies
+//!    to the maximum design pressure MDP, which includes surge: typed (`mdp`), or the
+//!    working pressure plus the standard's smallest allowance where surge is not
+//!    calculated, 200 kPa (EN 805:2000 cl. 11.3.3 as usually read, from memory):
+//!    6 bar working → MDP 8 bar → STP min(1.5·8, 8 + 5) = 12 bar. The pressure table
+//!    says which MDP was used. The surge is the
 //!    Joukowsky rise Δp = ρ·a·ΔV for an instantaneous velocity change ΔV, with the
 //!    pipe-elasticity-corrected wave speed (Wylie & Streeter, *Fluid Transients in
 //!    Systems*, 1993, eq. 2.21; Chaudhry, *Applied Hydraulic Transients*, 3rd ed.,
@@ -18,34 +23,57 @@
 //!    the design pressure at the inlet and the other faces solved by the energy
 //!    balance (no flow, same point: the same pressure). The momentum balance then
 //!    gives the static thrust, e.g. T = 2·p·A·sin(θ/2) for a bend, p·A for a dead
-//!    end, p·A_branch for a tee, p·(A₁ − A₂) for a reducer. The area A comes from
-//!    the outside diameter for push-on and mechanical joints (the joint seals at
-//!    the outside of the spigot; the ductile-iron pipe industry's thrust-restraint
-//!    design guide uses the OD) and from the inside diameter otherwise.
+//!    end, p·A_branch for a tee, p·(A₁ − A₂) for a reducer; each is recorded as a
+//!    check of the engine's result ([`Report::check`]), and for a vertical bend so is
+//!    the vertical part. The area A comes from the outside diameter for push-on and
+//!    mechanical joints, restrained or not (they seal on the outside of the spigot,
+//!    so the thrust acts on the OD of the nearest sealing joint; the ductile-iron
+//!    pipe industry's thrust-restraint design guide uses the OD), and from the bore
+//!    only for welded, flanged or fused joints, which seal on it.
+//!    A vertical bend has either both legs sloped by θ/2 (a summit or low point, the
+//!    default: thrust 2pA·sin(θ/2) straight up or down) or one leg level and the
+//!    other sloped by θ (thrust pA·(1 − cos θ, ±sin θ)); the uplift of the first is
+//!    2·sin(θ/2)/sin θ times the second's, 8 % more at 45°, 41 % more at 90°.
 //! 3. **Horizontal bearing block** (and the base of a block under a sag bend):
-//!    bearing area A_b = SF·T/σ with σ the allowable soil bearing. Soil presets come
+//!    bearing area A_b = SF·T/σ with σ the allowable soil bearing. A sag block's
+//!    base carries the resultant; its horizontal part T_h must also be held: by
+//!    friction under the base, μ·T_down ≥ SF_slide·T_h (the block's own weight
+//!    neglected, conservative), or by a side face of SF·T_h/σ against the trench
+//!    wall, which is reported. Soil presets come
 //!    from three published tables that disagree (see [`SOILS`]); a typed value is
 //!    always allowed. Face dimensions follow from a chosen height or width ÷ height.
 //! 4. **Gravity block** under upward thrust (a vertical bend at a crest): the block's
 //!    effective weight must be SF times the upward component, W = γ_eff·V, with
 //!    γ_eff = γ_c below groundwater reduced by the water's unit weight (buoyancy).
-//!    Optional sliding check: μ·(W − T_v) ≥ SF_slide·T_h.
+//!    Sliding is checked by default, μ·(W − T_v) ≥ SF_slide·T_h, with μ from the
+//!    soil preset ([`FRICTION_SOURCE`]: NAVFAC DM-7.02 ultimate friction factors,
+//!    lower end, from memory) or typed; where neither gives μ and the thrust has a
+//!    horizontal part, an unchecked-sliding warning is raised.
+//! 5. **A given thrust** (`fitting=force`, e.g. carried from a fitting page) is used
+//!    as typed: the design-pressure, joint and fluid fields are hidden and no design
+//!    pressure is shown. A sag block for a given thrust warns that its face lies
+//!    below the pipe.
 //!
 //! # Field keys (stable: other pages link here with them)
 //! - `fitting`: `bend` | `dead_end` | `tee` | `reducer` | `force` (a given thrust).
 //! - `thrust` (force, used only with `fitting=force`), `thrust_elev` (angle above
 //!   horizontal of a given thrust; empty: from `plane`).
-//! - `angle` (bend deflection), `plane`: `horizontal` | `vertical_crest` | `vertical_sag`.
+//! - `angle` (bend deflection), `plane`: `horizontal` | `vertical_crest` | `vertical_sag`;
+//!   `legs` (vertical bends): `symmetric` (default) | `one_level`.
 //! - `size` (a key of [`crate::pipe_sizes`] or `custom`), `d` (inside), `od` (outside);
 //!   `size2`, `d2`, `od2` for the tee branch or the reducer's small end. Typed
 //!   diameters override presets.
-//! - `joint`: `push_on` | `mechanical` (area on the OD) | `flanged` | `welded` (ID).
+//! - `joint`: `push_on` | `mechanical` | `restrained` (area on the OD) | `flanged` |
+//!   `welded` (bore).
 //! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p_work` (gauge),
-//!   `test_rule` (`en805` | `c600` | `c605` | `nfpa24` | `custom`), `p_test`, `dv`,
-//!   `material`, `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields `fluid`, `t`, `rho`, `mu`.
+//!   `test_rule` (`en805` | `en805_surge` | `c600` | `c605` | `nfpa24` | `custom`),
+//!   `mdp` (EN 805), `p_test`, `dv`, `material` (`from_size`: the size preset's
+//!   material, the default), `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields
+//!   `fluid`, `t`, `rho`, `mu`.
 //! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
 //!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,
-//!   `submerged` (`no` | `yes`), `gravity_h`, `friction`, `sf_slide`.
+//!   `submerged` (`no` | `yes`), `gravity_h`; sliding (crest and sag) `friction`
+//!   (empty: from the soil), `sf_slide`.
 //!
 //! A fitting page links here with, e.g., `fitting=tee&size=custom&d=300mm&od=320mm&
 //! d2=200mm&od2=220mm&p_work=10bar` so the thrust is recomputed at the design
@@ -55,8 +83,8 @@
 //! # Assumptions
 //! Static thrust (flow momentum neglected: at pipe velocities it is a few percent of
 //! p·A at most, and zero at test); the weights of pipe and water are neglected
-//! (conservative for uplift); the block bears on undisturbed soil; the vertical
-//! bend has one horizontal leg (the other inclined by θ).
+//! (conservative for uplift); the block bears on undisturbed soil; a vertical bend's
+//! legs are as chosen (both sloped by θ/2, or one level).
 
 use std::f64::consts::PI;
 
