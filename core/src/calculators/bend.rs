@@ -226,10 +226,12 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             let mut errors = Vec::new();
             for (field, od, bore) in [("d_od", od_in, d_in), ("d_out_od", od_out, d_out)] {
                 if od <= bore {
-                    errors.push(FieldError::inconsistent(
-                        field,
-                        "the outside diameter must be larger than the inside diameter",
-                    ));
+                    let message = if field == "d_out_od" && !values.is_set("d_out_od") {
+                        "give the outlet's outside diameter: the inlet's is not larger than the outlet bore"
+                    } else {
+                        "the outside diameter must be larger than the inside diameter"
+                    };
+                    errors.push(FieldError::inconsistent(field, message));
                 }
             }
             if !errors.is_empty() {
