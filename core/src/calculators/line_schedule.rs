@@ -651,6 +651,18 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
     report.output("row_count", solved.len() as f64);
     report.output("total_thrust", total);
+    // Vertical blocks with a horizontal thrust can slide; this list does not check
+    // that, so it says so rather than stay silent.
+    let sliding: Vec<String> = solved
+        .iter()
+        .filter(|s| s.plane != Plane::Horizontal && s.thrust.x.abs() > 1e-9 * s.thrust.norm().max(1.0))
+        .map(|s| s.row.line.to_string())
+        .collect();
+    if !sliding.is_empty() {
+        let shown = sliding.iter().take(12).cloned().collect::<Vec<_>>().join(", ");
+        let more = if sliding.len() > 12 { ", …" } else { "" };
+        report.warn(None, format!("sliding is NOT checked here for the vertical blocks with a horizontal thrust (rows {shown}{more}): open each on the thrust-restraint page, which checks it"));
+    }
     report.check(
         "Sum of the rows' thrusts",
         "each row's closed form (2pA·sin(θ/2), pA, pA_branch, p(A₁ − A₂), or the typed force), summed",
@@ -1166,6 +1178,19 @@ mod tests {
             let there = t.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
             assert_relative_eq!(here, there, max_relative = 1e-6);
         }
+    }
+
+    #[test]
+    fn unchecked_sliding_of_a_vertical_block_is_said() {
+        let said = |rows: &str| {
+            let s = crate::solve(KEY, &request(rows, &[]))
+                .result
+                .unwrap_or_else(|e| panic!("{e}"));
+            s.warnings.iter().any(|w| w.message.contains("sliding is NOT checked"))
+        };
+        assert!(said("bend 45deg di52_12 turn=down legs=one_level"));
+        assert!(!said("bend 45deg di52_12 turn=down"));
+        assert!(!said("bend 45deg di52_12"));
     }
 
     #[test]
