@@ -342,14 +342,20 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         outlet_state.pressure,
         p_out,
         1e-9,
-        p_in.abs() + fluid.density * v1 * v1,
+        // Relative to the largest term of the energy line (they can cancel).
+        p_in.abs() + fluid.density * (v1 * v1 + v2 * v2 + k * v1 * v1 + STANDARD_GRAVITY * dz.abs()),
     );
     let e1 = Direction::X.vec();
     let e2 = geometry.outlet_direction().vec();
     let down = gravity * (1.0 / STANDARD_GRAVITY);
     let closed = e1 * (p_in * basis_a_in + mass_flow * v1) - e2 * (p_out * basis_a_out + mass_flow * v2)
         + down * (fluid.density * STANDARD_GRAVITY * volume + w_fitting);
-    let scale = closed.norm().max(thrust.norm());
+    // Relative to the sum of the terms' magnitudes: the terms can cancel.
+    let scale = p_in.abs() * basis_a_in
+        + p_out.abs() * basis_a_out
+        + mass_flow * (v1 + v2)
+        + fluid.density * STANDARD_GRAVITY * volume
+        + w_fitting;
     report.check(
         "Thrust, along the inlet (x)",
         "closed form (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + W",

@@ -790,7 +790,10 @@ mod extremes {
     use crate::catalog::{demo_request, FieldKind, Limits, Request, Shape, Solution};
     use crate::units::{self, UnitSystem};
 
-    const PAGES: &[(&str, &[&[(&str, &str)]])] = &[
+    /// Field overrides of one scenario of a page.
+    type Scenario = &'static [(&'static str, &'static str)];
+
+    const PAGES: &[(&str, &[Scenario])] = &[
         (
             super::super::bend::KEY,
             &[
@@ -843,7 +846,7 @@ mod extremes {
         Some(format!("{v:e} {unit}"))
     }
 
-    fn faults(s: &Solution) -> Vec<String> {
+    pub(super) fn faults(s: &Solution) -> Vec<String> {
         let mut out: Vec<String> = s.defects.clone();
         for c in s.checks.iter().filter(|c| !c.agrees()) {
             out.push(format!("check disagrees: {c:?}"));
@@ -939,5 +942,89 @@ mod extremes {
         );
         // Most single-field extremes are accepted; a test that solved nothing tests nothing.
         assert!(solved * 2 > tried, "only {solved} of {tried} requests solved");
+    }
+}
+
+/// Random requests to the restraint pages (fixed seed, so a failure repeats).
+#[cfg(test)]
+mod random_requests {
+    use crate::catalog::{demo_request, FieldKind};
+    use crate::units::UnitSystem;
+
+    /// A small deterministic generator (64-bit LCG, Knuth's MMIX constants).
+    struct Lcg(u64);
+    impl Lcg {
+        fn next(&mut self) -> f64 {
+            self.0 = self
+                .0
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (self.0 >> 11) as f64 / (1u64 << 53) as f64
+        }
+    }
+
+    /// Random requests to the restraint pages: every choice drawn from its options,
+    /// every quantity log-uniform (or uniform where the range starts at 0 or below)
+    /// within its limits. Accepted requests must be free of defects and failed
+    /// checks, and a fair share must be accepted.
+    #[test]
+    fn random_requests_to_the_restraint_pages_stay_finite() {
+        let mut rng = Lcg(0x5eed_0008);
+        let mut problems = Vec::new();
+        let (mut tried, mut solved) = (0, 0);
+        for key in ["bend", "reducer", "dead-end", "thrust-block", "line-schedule"] {
+            let spec = super::super::spec(key).expect("registered");
+            for n in 0..1500 {
+                let mut request = demo_request(&spec, &[]);
+                request.system = if n % 2 == 0 {
+                    UnitSystem::Si
+                } else {
+                    UnitSystem::UsCustomary
+                };
+                for field in &spec.fields {
+                    if rng.next() < 0.5 {
+                        continue; // keep the demo value for half the fields
+                    }
+                    let text = match (&field.kind, field.limits) {
+                        (FieldKind::Choice(options), _) => options
+                            [((rng.next() * options.len() as f64) as usize).min(options.len() - 1)]
+                        .key
+                        .to_string(),
+                        (FieldKind::Quantity(kind), Some(l)) if !field.si_unit.is_empty() => {
+                            let u = rng.next();
+                            let si = if l.min > 0.0 {
+                                (l.min.ln() + u * (l.max.ln() - l.min.ln())).exp()
+                            } else if u < 0.1 {
+                                l.min.max(0.0)
+                            } else {
+                                let lo = l.max * 1e-6;
+                                (lo.ln() + rng.next() * (l.max.ln() - lo.ln())).exp()
+                            };
+                            match crate::units::convert_to(si, *kind, field.si_unit) {
+                                Some(v) => format!("{v:e} {}", field.si_unit),
+                                None => continue,
+                            }
+                        }
+                        _ => continue,
+                    };
+                    request.inputs.insert(field.key.to_string(), text);
+                }
+                tried += 1;
+                if let Ok(s) = crate::solve(key, &request).result {
+                    solved += 1;
+                    for fault in super::extremes::faults(&s) {
+                        problems.push(format!("{key} {:?}: {fault}", request.inputs));
+                    }
+                }
+            }
+        }
+        assert!(
+            problems.is_empty(),
+            "{} problems, e.g.\n{}",
+            problems.len(),
+            problems[..problems.len().min(5)].join("\n\n")
+        );
+        assert!(solved * 4 > tried, "only {solved} of {tried} random requests solved");
+        println!("restraint pages: {solved} of {tried} random requests solved");
     }
 }

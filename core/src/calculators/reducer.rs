@@ -437,7 +437,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         outlet_state.pressure,
         p_out,
         1e-9,
-        p_in.abs() + rho * v1.max(v2).powi(2),
+        // Relative to the largest term of the energy line (they can cancel).
+        p_in.abs() + rho * (v1 * v1 + v2 * v2 + k * v_ref * v_ref) + rho * STANDARD_GRAVITY * length,
     );
     let weight_along = -up * rho * STANDARD_GRAVITY * volume;
     let closed_axial = p_in * basis_a_in - p_out * basis_a_out + mass_flow * (v1 - v2) + weight_along;
@@ -448,7 +449,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         axial,
         closed_axial,
         1e-9,
-        p_in.abs() * basis_a_in.max(basis_a_out),
+        // Relative to the sum of the terms' magnitudes: the terms can cancel.
+        p_in.abs() * basis_a_in + p_out.abs() * basis_a_out + mass_flow * (v1 + v2) + weight_along.abs(),
     );
     if mass_flow == 0.0 && orientation == "horizontal" {
         report.check(
@@ -469,7 +471,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             axial,
             -p_in * (a_out - a_in),
             1e-9,
-            p_in.abs() * a_out,
+            p_in.abs() * a_out + p_out.abs() * a_out + mass_flow * (v1 + v2),
         );
     }
 
