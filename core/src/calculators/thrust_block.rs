@@ -102,6 +102,10 @@ use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZ
 
 pub const KEY: &str = "thrust-block";
 
+/// Range of a typed allowable soil bearing, Pa: 1 kPa to 20 MPa (sound rock).
+pub const MIN_TYPED_BEARING: f64 = 1e3;
+pub const MAX_TYPED_BEARING: f64 = 20e6;
+
 /// Smallest bend deflection accepted, rad (0.1°).
 pub const MIN_ANGLE: f64 = PI / 1800.0;
 
@@ -810,8 +814,8 @@ pub fn spec() -> CalculatorSpec {
         ..f
     }));
     fields.extend([
-        choice("soil", "Soil (allowable bearing, friction)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis. A preset also gives the friction coefficient of the sliding check."),
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::closed(1e3, 20e6), "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound rock).") },
+        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
+        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
         FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::closed(0.05, 20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
@@ -822,6 +826,13 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("friction", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. With a typed soil and no value the sliding check cannot be made and the page says so.") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
     ]);
+    // The soil also gives the friction of the sliding check, so it is shown for
+    // every plane (set here, apart from its declaration, which the unit work shares).
+    if let Some(soil) = fields.iter_mut().find(|f| f.key == "soil") {
+        soil.visible_when = None;
+        soil.label = "Soil (allowable bearing, friction)";
+        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
+    }
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
@@ -1109,7 +1120,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                     sf_slide,
                     "μ·T_down/T_h (block weight neglected)",
                     format!(
-                        "or bear a side face of {} against undisturbed soil",
+                        "bear a side face of {} against undisturbed soil",
                         report.fmt(side, Q::Area)
                     ),
                 );
@@ -1260,7 +1271,7 @@ fn sliding_check(
                 report.warn(Some("friction"), format!("sliding: {formula} = {} is below the required {}; {remedy}", units::format_significant(factor, 3), units::format_significant(sf_slide, 3)));
             }
         }
-        None => report.warn(None, format!("sliding is NOT checked: the thrust has a horizontal part of {} and the chosen soil gives no friction coefficient; type one (concrete on soil) to check it, {remedy}", report.fmt(t_h, Q::Force))),
+        None => report.warn(None, format!("sliding is NOT checked: the thrust has a horizontal part of {} and the chosen soil gives no friction coefficient; type one (concrete on soil) to check it, or {remedy}", report.fmt(t_h, Q::Force))),
     }
 }
 
@@ -1272,6 +1283,14 @@ pub(crate) enum Block {
 fn soil_bearing(values: &Values) -> Result<f64, Vec<FieldError>> {
     let key = values.choice("soil").map_err(|e| vec![e])?;
     if key == "custom" {
+        if let Some(sigma) = opt(values, "sigma") {
+            if !(MIN_TYPED_BEARING..=MAX_TYPED_BEARING).contains(&sigma) {
+                return Err(vec![FieldError::inconsistent(
+                    "sigma",
+                    "the allowable soil bearing must be at least 1 kPa (21 psf) and at most 20 MPa (sound rock)",
+                )]);
+            }
+        }
         return opt(values, "sigma").ok_or_else(|| {
             vec![FieldError::inconsistent(
                 "sigma",
