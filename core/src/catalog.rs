@@ -584,7 +584,7 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
     let mut echoes = Vec::new();
     for field in &spec.fields {
         let raw = request.inputs.get(field.key).map(|s| s.trim()).unwrap_or("");
-        if !is_visible(field, request) {
+        if !is_shown(spec, field, request) {
             // A hidden field does not take part: whatever it holds is kept by the page
             // but neither required nor checked.
             values.insert(field.key, Value::Empty);
@@ -666,6 +666,23 @@ pub fn is_visible(field: &FieldSpec, request: &Request) -> bool {
             allowed.contains(&value)
         }
     }
+}
+
+/// Whether a field is shown: it is visible and so is every field that controls it
+/// (a face height whose proportions selector is hidden for a crest block is hidden
+/// too). The chain is followed at most as deep as the spec is long.
+pub fn is_shown(spec: &CalculatorSpec, field: &FieldSpec, request: &Request) -> bool {
+    let mut current = field;
+    for _ in 0..=spec.fields.len() {
+        if !is_visible(current, request) {
+            return false;
+        }
+        match current.visible_when.and_then(|(controller, _)| spec.field(controller)) {
+            Some(controller) => current = controller,
+            None => return true,
+        }
+    }
+    true
 }
 
 /// The most characters a free-text field (such as a pasted schedule) accepts.

@@ -297,9 +297,18 @@ function recompute({ writeToUrl }) {
 // Building the form.
 
 function isVisible(field) {
-  const rule = field.visible_when;
-  if (!rule) return true;
-  return Array.isArray(rule.values) && rule.values.includes(state.values[rule.field] ?? "");
+  // A field is shown while its rule holds and the field it depends on is shown
+  // (the core's catalog::is_shown follows the same chain).
+  let current = field;
+  for (let depth = 0; depth <= state.spec.fields.length; depth += 1) {
+    const rule = current.visible_when;
+    if (!rule) return true;
+    if (!(Array.isArray(rule.values) && rule.values.includes(state.values[rule.field] ?? ""))) return false;
+    const controller = state.spec.fields.find((f) => f.key === rule.field);
+    if (!controller) return true;
+    current = controller;
+  }
+  return true;
 }
 
 function controlId(key) {

@@ -16,12 +16,31 @@
 //! For an equal-size bend at rest the thrust reduces to the static formula
 //! T = 2pA·sin(θ/2), directed along the bisector, away from the bend's centre
 //! (e.g. AWWA Manual M11, *Steel Pipe*, chapter on thrust restraint; the ductile-iron
-//! pipe industry's thrust-restraint design guides). The calculator reports both.
+//! pipe industry's thrust-restraint design guides).
+//!
+//! # Checks
+//! Recorded with [`Report::check`], each by a path that does not use the engine:
+//! the outlet pressure by the Bernoulli line above; the x and y thrust by the
+//! closed form T = (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + (W + W_f)·ĝ with that
+//! pressure (areas on the chosen basis, momentum on the bores); and for an
+//! equal-size horizontal bend at rest, the static formula 2pA·sin(θ/2).
+//!
+//! # Area basis
+//! The bore (`basis=id`) is for joints that seal on it: welded, flanged or fused.
+//! Push-on and mechanical joints, restrained or not, seal on the spigot's outside,
+//! so the pressure acts out to the outside diameter of the sealing joint
+//! (`basis=od`, with `d_od` and `d_out_od`): −p·(A_OD − A)·n is added at each face
+//! as a named force, as on the reducer page. 12 in ductile iron (OD 13.20 in, bore
+//! 12.46 in), 150 psi, 90°: 29,030 lbf on the OD, 25,866 lbf on the bore.
+//!
+//! # Carried to the thrust-restraint page
+//! A vertical bend carries its resultant and its angle above the horizontal; a
+//! horizontal bend carries its in-plane thrust only, since the fluid's weight rests
+//! on the bedding, not on the block.
 //!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; pressure area from
-//! the inside diameter (for push-on and mechanical joints the thrust-restraint page
-//! uses the outside diameter); the fluid inside follows the centre-line arc
+//! Incompressible, steady flow; uniform pressure over each face; pressure area on
+//! the chosen basis; the fluid inside follows the centre-line arc
 //! (volume A·R·θ for equal sizes, mean area for reducing bends).
 
 use std::f64::consts::PI;
@@ -34,7 +53,7 @@ use crate::error::FieldError;
 use crate::units::{QuantityKind as Q, STANDARD_GRAVITY};
 use crate::vector::{Direction, Vec3};
 
-use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
 pub const KEY: &str = "bend";
 
@@ -62,12 +81,8 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "deg",
             "45 deg",
-            Limits {
-                min: 0.0,
-                max: PI,
-                min_inclusive: false,
-            },
-            "How far the flow turns, from more than 0 to 180 degrees (a return bend).",
+            Limits::closed(super::thrust_block::MIN_ANGLE, PI),
+            "How far the flow turns, from 0.1 to 180 degrees (a return bend).",
         ),
         quantity(
             "d_in",
@@ -76,7 +91,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "310 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
             "Inside diameter of the pipe entering the bend.",
         ),
         FieldSpec {
@@ -88,7 +103,7 @@ pub fn spec() -> CalculatorSpec {
                 "mm",
                 "in",
                 "",
-                Limits::positive(MAX_SIZE_M),
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
                 "Leave empty for an equal-size bend; give it for a reducing bend.",
             )
         },
@@ -110,10 +125,23 @@ pub fn spec() -> CalculatorSpec {
             optional: true,
             ..quantity("k", "Loss coefficient K", Q::Ratio, "-", "-", "", Limits::closed(0.0, 50.0), "Head loss K·V²/2g on the inlet velocity; empty means no loss. Name the method your K comes from (Crane, Idelchik, ...).")
         },
+        FieldSpec {
+            optional: true,
+            ..choice("basis", "Thrust area basis", common::AREA_BASIS_OPTIONS, "id", common::AREA_BASIS_HELP)
+        },
+        FieldSpec {
+            visible_when: Some(("basis", &["od"])),
+            ..quantity("d_od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
+        },
+        FieldSpec {
+            visible_when: Some(("basis", &["od"])),
+            optional: true,
+            ..quantity("d_out_od", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
+        },
         choice("plane", "Plane of the bend", PLANE_OPTIONS, "horizontal", "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the plane."),
         FieldSpec {
             optional: true,
-            ..quantity("r_bend", "Centre-line bend radius", Q::Length, "mm", "in", "", Limits::positive(100.0), "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet diameter.")
+            ..quantity("r_bend", "Centre-line bend radius", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, 100.0), "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet diameter.")
         },
         FieldSpec {
             optional: true,
@@ -133,7 +161,6 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "thrust_x", label: "Thrust along the inlet flow (x)", kind: Q::Force, headline: false },
             OutputSpec { key: "thrust_y", label: "Thrust across it, in the plane (y)", kind: Q::Force, headline: false },
             OutputSpec { key: "thrust_z", label: "Thrust normal to the plane (z, up in plan view)", kind: Q::Force, headline: false },
-            OutputSpec { key: "static_thrust", label: "Static formula 2·p·A·sin(θ/2), inlet area", kind: Q::Force, headline: false },
             OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: false },
             OutputSpec { key: "v_in", label: "Mean velocity at the inlet", kind: Q::Velocity, headline: false },
             OutputSpec { key: "v_out", label: "Mean velocity at the outlet", kind: Q::Velocity, headline: false },
@@ -145,7 +172,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "viscosity", label: "Fluid viscosity", kind: Q::DynamicViscosity, headline: false },
         ],
         cautions: vec![
-            "The pressure terms use the inside diameter. For push-on and mechanical joints size the restraint on the outside diameter (see the thrust restraint page).",
+            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical joints, restrained or not, seal on the spigot's outside: choose the outside-diameter basis for them.",
             "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a gravity block must outweigh it. Where the line turns upward (a sag) it points down into the ground.",
         ],
     }
@@ -192,6 +219,28 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let w_fitting = values.quantity_or("w_fitting", 0.0);
     let fluid = common::fluid_from(values)?;
     let flow = common::flow_from(values)?;
+    let outside = match values.choice("basis").unwrap_or("id") {
+        "od" => {
+            let od_in = values.quantity("d_od").map_err(|e| vec![e])?;
+            let od_out = values.quantity_or("d_out_od", od_in);
+            let mut errors = Vec::new();
+            for (field, od, bore) in [("d_od", od_in, d_in), ("d_out_od", od_out, d_out)] {
+                if od <= bore {
+                    let message = if field == "d_out_od" && !values.is_set("d_out_od") {
+                        "give the outlet's outside diameter: the inlet's is not larger than the outlet bore"
+                    } else {
+                        "the outside diameter must be larger than the inside diameter"
+                    };
+                    errors.push(FieldError::inconsistent(field, message));
+                }
+            }
+            if !errors.is_empty() {
+                return Err(errors);
+            }
+            Some((od_in, od_out))
+        }
+        _ => None,
+    };
     if radius < 0.5 * d_in.max(d_out) {
         return Err(vec![FieldError::inconsistent(
             "r_bend",
@@ -229,7 +278,28 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         let weight_dir = gravity * (1.0 / STANDARD_GRAVITY);
         cv.extra_force("fitting weight", weight_dir * w_fitting, geometry.centroid());
     }
-    let balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    let mut balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    if let Some((od_in, od_out)) = outside {
+        // Push-on or mechanical joints: the solved pressures also act on the wall
+        // annulus out to the outside diameter at each end (a second pass adds them as
+        // named forces; they change no pressure or flow).
+        for (port, od, bore, name) in [(i, od_in, a_in, "inlet"), (o, od_out, a_out, "outlet")] {
+            let pressure = balance.ports[port].pressure;
+            let normal = cv.ports[port].outward_normal();
+            let force = common::joint_annulus_force(pressure, bore, common::circle_area(od), normal);
+            let at = cv.ports[port].position;
+            cv.extra_force(
+                &format!("{name} joint, pressure on the wall annulus to the OD"),
+                force,
+                at,
+            );
+        }
+        balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    }
+    let (basis_a_in, basis_a_out) = match outside {
+        Some((od_in, od_out)) => (common::circle_area(od_in), common::circle_area(od_out)),
+        None => (a_in, a_out),
+    };
 
     let thrust = balance.thrust();
     let inlet_state = &balance.ports[i];
@@ -243,7 +313,6 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("thrust_x", thrust.x);
     report.output("thrust_y", thrust.y);
     report.output("thrust_z", thrust.z);
-    report.output("static_thrust", 2.0 * p_in * a_in * (theta / 2.0).sin());
     report.output("p_out", outlet_state.pressure);
     report.output("v_in", inlet_state.speed);
     report.output("v_out", outlet_state.speed);
@@ -257,6 +326,65 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("fluid_weight", balance.fluid_weight.norm());
     report.output("density", fluid.density);
     report.output("viscosity", fluid.viscosity);
+
+    // Check: the closed-form momentum balance of a bend, with the outlet pressure
+    // from Bernoulli with the loss (not the engine's), the weights along gravity.
+    let mass_flow = inlet_state.mass_flow;
+    let (v1, v2) = (mass_flow / (fluid.density * a_in), mass_flow / (fluid.density * a_out));
+    let dz = gravity.dot(geometry.outlet_position()) / -STANDARD_GRAVITY;
+    let p_out = p_in + 0.5 * fluid.density * (v1 * v1 - v2 * v2)
+        - fluid.density * STANDARD_GRAVITY * dz
+        - k * 0.5 * fluid.density * v1 * v1;
+    report.check(
+        "Gauge pressure at the outlet",
+        "Bernoulli with the loss K·ρV₁²/2",
+        Q::Pressure,
+        outlet_state.pressure,
+        p_out,
+        1e-9,
+        // Relative to the largest term of the energy line (they can cancel).
+        p_in.abs() + fluid.density * (v1 * v1 + v2 * v2 + k * v1 * v1 + STANDARD_GRAVITY * dz.abs()),
+    );
+    let e1 = Direction::X.vec();
+    let e2 = geometry.outlet_direction().vec();
+    let down = gravity * (1.0 / STANDARD_GRAVITY);
+    let closed = e1 * (p_in * basis_a_in + mass_flow * v1) - e2 * (p_out * basis_a_out + mass_flow * v2)
+        + down * (fluid.density * STANDARD_GRAVITY * volume + w_fitting);
+    // Relative to the sum of the terms' magnitudes: the terms can cancel.
+    let scale = p_in.abs() * basis_a_in
+        + p_out.abs() * basis_a_out
+        + mass_flow * (v1 + v2)
+        + fluid.density * STANDARD_GRAVITY * volume
+        + w_fitting;
+    report.check(
+        "Thrust, along the inlet (x)",
+        "closed form (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + W",
+        Q::Force,
+        thrust.x,
+        closed.x,
+        1e-9,
+        scale,
+    );
+    report.check(
+        "Thrust, across the inlet in the plane (y)",
+        "the same closed form, y component",
+        Q::Force,
+        thrust.y,
+        closed.y,
+        1e-9,
+        scale,
+    );
+    if outside.is_none() && (d_in - d_out).abs() <= 1e-12 * d_in && mass_flow == 0.0 && plane == "horizontal" {
+        report.check(
+            "Thrust in the plane of the bend",
+            "static formula 2·p·A·sin(θ/2) of the thrust-restraint guides",
+            Q::Force,
+            in_plane,
+            2.0 * p_in * a_in * (theta / 2.0).sin(),
+            1e-9,
+            0.0,
+        );
+    }
 
     common::forward_warnings(&balance, report);
     let flow_field = match values.choice("flow_basis").unwrap_or("q") {
@@ -279,16 +407,18 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         );
     }
 
-    // Carry the thrust to the restraint page: its angle above the horizontal is the
-    // in-plane y component for a vertical bend, the z component for a horizontal one.
-    let (vertical, horizontal) = match plane {
-        "vertical_up" | "vertical_down" => (thrust.y, (thrust.x * thrust.x + thrust.z * thrust.z).sqrt()),
-        _ => (thrust.z, in_plane),
+    // Carry the thrust to the restraint page. A vertical bend carries its resultant
+    // with its angle above the horizontal; a horizontal bend carries the in-plane
+    // thrust only: the fluid's weight (z) rests on the bedding, not on the block
+    // (carried with it, a large low-pressure bend would open as a sag block).
+    let (carried, vertical, horizontal) = match plane {
+        "vertical_up" | "vertical_down" => (thrust.norm(), thrust.y, thrust.x.hypot(thrust.z)),
+        _ => (in_plane, 0.0, in_plane),
     };
     let carry = common::thrust_carry_over(
         report,
         "Size a thrust block for this thrust",
-        thrust.norm(),
+        carried,
         vertical.atan2(horizontal),
     );
     report.solution.carry_over.push(carry);
@@ -316,7 +446,14 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.solution.tables.push(common::basis_table(vec![
         (
             "Pressure area",
-            "inside diameter (use the outside diameter for push-on and mechanical joints)".to_string(),
+            match outside {
+                Some((od_in, od_out)) => format!(
+                    "outside diameters {} and {} (push-on or mechanical joints, restrained or not): the pressure on the wall annulus is its own ledger term; momentum on the bores",
+                    report.fmt(od_in, Q::Length),
+                    report.fmt(od_out, Q::Length)
+                ),
+                None => "inside diameter (welded, flanged or fused joints only)".to_string(),
+            },
         ),
         (
             "Pressure",
@@ -482,6 +619,60 @@ mod tests {
             "{:?}",
             carry.inputs
         );
+    }
+
+    #[test]
+    fn a_horizontal_bend_carries_its_in_plane_thrust_to_a_horizontal_block() {
+        // Issue 8: 1200 mm, 90°, 5 bar. The fluid's weight (out of the plane) once
+        // tipped the carried force below −1° and opened a sag block.
+        let request = crate::catalog::demo_request(
+            &super::spec(),
+            &[
+                ("d_in", "1200 mm"),
+                ("angle", "90 deg"),
+                ("p", "5 bar"),
+                ("plane", "horizontal"),
+            ],
+        );
+        let s = crate::solve(super::KEY, &request).result.expect("solves");
+        assert!(
+            s.output("thrust_z").unwrap().si.abs() > 1e3,
+            "the fluid weight is there"
+        );
+        let in_plane = s.output("thrust_in_plane").unwrap().si;
+        let carry = &s.carry_over[0];
+        let get = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+        assert_eq!(get("plane").as_deref(), Some("horizontal"));
+        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
+        let block = crate::solve(carry.calculator, &target)
+            .result
+            .expect("restraint page solves");
+        assert_relative_eq!(block.output("thrust").unwrap().si, in_plane, max_relative = 1e-4);
+        assert_relative_eq!(block.output("thrust_v").unwrap().si, 0.0);
+        // No design pressure of the restraint page's own is shown for a carried force.
+        assert!(block.output("p_design").is_none());
+    }
+
+    #[test]
+    fn the_outside_diameter_basis_adds_the_annulus_at_both_ends() {
+        // Derived from the definition: at rest the thrust is 2·p·A_OD·sin(θ/2).
+        let s = solve(&[
+            ("angle", "60 deg"),
+            ("d_in", "300 mm"),
+            ("basis", "od"),
+            ("d_od", "326 mm"),
+            ("p", "10 bar"),
+            ("flow_basis", "q"),
+            ("q", "0"),
+            ("fluid", "water"),
+            ("t", "20 degC"),
+            ("plane", "horizontal"),
+        ]);
+        let area = std::f64::consts::PI * 0.326 * 0.326 / 4.0;
+        let expected = 2.0 * 1e6 * area * (std::f64::consts::PI / 6.0).sin();
+        assert_relative_eq!(s.output("thrust_in_plane").unwrap().si, expected, max_relative = 1e-12);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
     }
 
     #[test]

@@ -59,6 +59,9 @@ pub const fn choice(
 
 /// Upper bound used for sizes: 10 m is larger than any pipe this handbook covers.
 pub const MAX_SIZE_M: f64 = 10.0;
+
+/// Smallest pipe diameter or bend radius the fitting pages accept, m (1 mm).
+pub const MIN_SIZE_M: f64 = 1e-3;
 /// Upper bound for gauge pressures: 100 MPa (≈ 14 500 psi).
 pub const MAX_PRESSURE_PA: f64 = 100e6;
 
@@ -106,8 +109,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "kg/m3",
                 "lb/ft3",
                 "",
-                Limits::positive(25_000.0),
-                "Density of the liquid.",
+                Limits::closed(50.0, 25_000.0),
+                "Density of the liquid, from 50 kg/m³ (cryogenic liquids) to 25 000 kg/m³.",
             )
         },
         FieldSpec {
@@ -119,8 +122,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "mPa.s",
                 "lb/(ft.s)",
                 "",
-                Limits::positive(1e3),
-                "Used for warnings and friction only; it does not change the momentum balance.",
+                Limits::closed(1e-6, 1e3),
+                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 mPa·s to 10⁶ mPa·s.",
             )
         },
     ]
@@ -560,18 +563,23 @@ pub fn basis_table(rows: Vec<(&str, String)>) -> Table {
     }
 }
 
-/// The thrust-area basis of a fitting page: the bore, or the outside diameter of
-/// push-on and mechanical joints (whose spigot can slide in its gasket like a piston).
+/// The thrust-area basis of a fitting page: the bore only for joints that seal on
+/// it (welded, flanged, fused); the outside diameter for push-on and mechanical
+/// joints, restrained or not, whose gasket seals on the spigot's outside, so the
+/// pressure acts over the OD of the nearest sealing joint.
 pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "id",
-        label: "Inside diameter (welded, flanged or restrained joints)",
+        label: "Inside diameter (welded, flanged or fused joints only)",
     },
     ChoiceOption {
         key: "od",
-        label: "Outside diameter (push-on and mechanical joints)",
+        label: "Outside diameter (push-on and mechanical joints, restrained or not)",
     },
 ];
+
+/// Help text of every area-basis selector: why restrained joints take the OD.
+pub const AREA_BASIS_HELP: &str = "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the inside diameter.";
 
 /// The extra force of a push-on or mechanical joint at one port: its pressure also
 /// acts on the annulus between the bore and the outside diameter, −p·(A_OD − A)·n,
@@ -771,4 +779,252 @@ pub fn peak_of<E>(lo: f64, hi: f64, f: impl Fn(f64) -> Result<f64, E>) -> Result
         }
     }
     Ok(0.5 * (a + b))
+}
+
+/// Every quantity field of the restraint pages at the ends of its range, alone and
+/// all together, in both unit systems and in each plane, fitting and area basis:
+/// an accepted request must give finite outputs, agreeing checks, and tables and
+/// diagrams free of NaN, ±inf and "—".
+#[cfg(test)]
+mod extremes {
+    use crate::catalog::{demo_request, FieldKind, Limits, Request, Shape, Solution};
+    use crate::units::{self, UnitSystem};
+
+    /// Field overrides of one scenario of a page.
+    type Scenario = &'static [(&'static str, &'static str)];
+
+    const PAGES: &[(&str, &[Scenario])] = &[
+        (
+            super::super::bend::KEY,
+            &[
+                &[],
+                &[("plane", "vertical_up")],
+                &[("plane", "vertical_down")],
+                &[("basis", "od")],
+            ],
+        ),
+        (
+            super::super::reducer::KEY,
+            &[
+                &[],
+                &[("orientation", "vertical_up")],
+                &[("basis", "od")],
+                &[("loss", "none")],
+            ],
+        ),
+        (super::super::dead_end::KEY, &[&[], &[("basis", "id")]]),
+        (
+            super::super::thrust_block::KEY,
+            &[
+                &[],
+                &[("plane", "vertical_crest"), ("legs", "one_level")],
+                &[("plane", "vertical_sag"), ("legs", "one_level")],
+                &[("plane", "vertical_sag")],
+                &[("fitting", "force"), ("thrust", "10 kN")],
+                &[
+                    ("fitting", "force"),
+                    ("thrust", "10 kN"),
+                    ("plane", "vertical_crest"),
+                    ("thrust_elev", "40 deg"),
+                ],
+                &[("fitting", "tee"), ("size2", "di52_8")],
+                &[("fitting", "reducer"), ("size2", "di52_8")],
+                &[("fitting", "dead_end"), ("joint", "welded"), ("block_dims", "aspect")],
+                &[("p_basis", "test"), ("test_rule", "en805")],
+            ],
+        ),
+        (super::super::line_schedule::KEY, &[&[]]),
+    ];
+
+    fn typed(limits: Limits, kind: crate::units::QuantityKind, unit: &str, high: bool) -> Option<String> {
+        let si = match (high, limits.min_inclusive) {
+            (true, _) => limits.max,
+            (false, true) => limits.min,
+            (false, false) => limits.min + (limits.max - limits.min) * 1e-9,
+        };
+        let v = units::convert_to(si, kind, unit)?;
+        Some(format!("{v:e} {unit}"))
+    }
+
+    pub(super) fn faults(s: &Solution) -> Vec<String> {
+        let mut out: Vec<String> = s.defects.clone();
+        for c in s.checks.iter().filter(|c| !c.agrees()) {
+            out.push(format!("check disagrees: {c:?}"));
+        }
+        for t in &s.tables {
+            for cell in t.rows.iter().flatten() {
+                let lower = cell.to_ascii_lowercase();
+                let bad_word = lower
+                    .split(|c: char| !c.is_ascii_alphanumeric())
+                    .any(|w| w == "nan" || w == "inf" || w == "infinity");
+                if cell.trim() == "—" || bad_word {
+                    out.push(format!("table {}: cell '{cell}'", t.key));
+                }
+            }
+        }
+        for d in &s.diagrams {
+            if d.bounds.iter().any(|b| !b.is_finite()) || d.bounds[2] <= d.bounds[0] || d.bounds[3] <= d.bounds[1] {
+                out.push(format!("diagram bounds {:?}", d.bounds));
+            }
+            for shape in &d.shapes {
+                let finite = super::shape_points(shape).iter().flatten().all(|v| v.is_finite())
+                    && !matches!(shape, Shape::Circle { radius, .. } if !radius.is_finite());
+                if !finite {
+                    out.push(format!("diagram shape {shape:?}"));
+                }
+            }
+        }
+        for p in &s.plots {
+            if p.series
+                .iter()
+                .flat_map(|s| s.points.iter())
+                .flatten()
+                .any(|v| !v.is_finite())
+            {
+                out.push(format!("plot {}", p.key));
+            }
+        }
+        out
+    }
+
+    #[test]
+    fn restraint_pages_stay_finite_at_the_ends_of_every_range() {
+        let mut solved = 0;
+        let mut tried = 0;
+        let mut problems = Vec::new();
+        for (key, scenarios) in PAGES {
+            let spec = super::super::spec(key).expect("registered");
+            for scenario in *scenarios {
+                for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                    let base = demo_request(&spec, scenario);
+                    let quantities: Vec<_> = spec
+                        .fields
+                        .iter()
+                        .filter_map(|f| match (&f.kind, f.limits) {
+                            (FieldKind::Quantity(kind), Some(limits)) if !f.si_unit.is_empty() => {
+                                Some((f.key, *kind, limits, f.si_unit))
+                            }
+                            _ => None,
+                        })
+                        .collect();
+                    let mut requests: Vec<(String, Request)> = Vec::new();
+                    for high in [false, true] {
+                        let mut all = base.clone();
+                        for (field, kind, limits, unit) in &quantities {
+                            let Some(text) = typed(*limits, *kind, unit, high) else {
+                                continue;
+                            };
+                            let mut one = base.clone();
+                            one.inputs.insert(field.to_string(), text.clone());
+                            requests.push((format!("{field}={text}"), one));
+                            all.inputs.insert(field.to_string(), text);
+                        }
+                        requests.push((format!("all {}", if high { "max" } else { "min" }), all));
+                    }
+                    for (what, mut request) in requests {
+                        request.system = system;
+                        tried += 1;
+                        if let Ok(s) = crate::solve(key, &request).result {
+                            solved += 1;
+                            for fault in faults(&s) {
+                                problems.push(format!("{key} {scenario:?} {what}: {fault}"));
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        assert!(
+            problems.is_empty(),
+            "{} problems, e.g.\n{}",
+            problems.len(),
+            problems[..problems.len().min(15)].join("\n")
+        );
+        // Most single-field extremes are accepted; a test that solved nothing tests nothing.
+        assert!(solved * 2 > tried, "only {solved} of {tried} requests solved");
+    }
+}
+
+/// Random requests to the restraint pages (fixed seed, so a failure repeats).
+#[cfg(test)]
+mod random_requests {
+    use crate::catalog::{demo_request, FieldKind};
+    use crate::units::UnitSystem;
+
+    /// A small deterministic generator (64-bit LCG, Knuth's MMIX constants).
+    struct Lcg(u64);
+    impl Lcg {
+        fn next(&mut self) -> f64 {
+            self.0 = self
+                .0
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (self.0 >> 11) as f64 / (1u64 << 53) as f64
+        }
+    }
+
+    /// Random requests to the restraint pages: every choice drawn from its options,
+    /// every quantity log-uniform (or uniform where the range starts at 0 or below)
+    /// within its limits. Accepted requests must be free of defects and failed
+    /// checks, and a fair share must be accepted.
+    #[test]
+    fn random_requests_to_the_restraint_pages_stay_finite() {
+        let mut rng = Lcg(0x5eed_0008);
+        let mut problems = Vec::new();
+        let (mut tried, mut solved) = (0, 0);
+        for key in ["bend", "reducer", "dead-end", "thrust-block", "line-schedule"] {
+            let spec = super::super::spec(key).expect("registered");
+            for n in 0..1500 {
+                let mut request = demo_request(&spec, &[]);
+                request.system = if n % 2 == 0 {
+                    UnitSystem::Si
+                } else {
+                    UnitSystem::UsCustomary
+                };
+                for field in &spec.fields {
+                    if rng.next() < 0.5 {
+                        continue; // keep the demo value for half the fields
+                    }
+                    let text = match (&field.kind, field.limits) {
+                        (FieldKind::Choice(options), _) => options
+                            [((rng.next() * options.len() as f64) as usize).min(options.len() - 1)]
+                        .key
+                        .to_string(),
+                        (FieldKind::Quantity(kind), Some(l)) if !field.si_unit.is_empty() => {
+                            let u = rng.next();
+                            let si = if l.min > 0.0 {
+                                (l.min.ln() + u * (l.max.ln() - l.min.ln())).exp()
+                            } else if u < 0.1 {
+                                l.min.max(0.0)
+                            } else {
+                                let lo = l.max * 1e-6;
+                                (lo.ln() + rng.next() * (l.max.ln() - lo.ln())).exp()
+                            };
+                            match crate::units::convert_to(si, *kind, field.si_unit) {
+                                Some(v) => format!("{v:e} {}", field.si_unit),
+                                None => continue,
+                            }
+                        }
+                        _ => continue,
+                    };
+                    request.inputs.insert(field.key.to_string(), text);
+                }
+                tried += 1;
+                if let Ok(s) = crate::solve(key, &request).result {
+                    solved += 1;
+                    for fault in super::extremes::faults(&s) {
+                        problems.push(format!("{key} {:?}: {fault}", request.inputs));
+                    }
+                }
+            }
+        }
+        assert!(
+            problems.is_empty(),
+            "{} problems, e.g.\n{}",
+            problems.len(),
+            problems[..problems.len().min(5)].join("\n\n")
+        );
+        assert!(solved * 4 > tried, "only {solved} of {tried} random requests solved");
+        println!("restraint pages: {solved} of {tried} random requests solved");
+    }
 }

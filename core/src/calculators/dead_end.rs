@@ -17,10 +17,12 @@
 //! AWWA Manual M41 and M11, each listing T = P·A for a dead end).
 //!
 //! # Area basis
-//! The area is chosen openly: the inside diameter (a welded or flanged line, where
-//! the pressure acts on the bore), or the outside diameter (push-on and mechanical
-//! joints, where the spigot can slide in its gasket like a piston, so the
-//! pressure acts over the full outside diameter, as those guides use it). Both
+//! The area is chosen openly: the inside diameter (a welded, flanged or fused line,
+//! where the joint seals on the bore), or the outside diameter (push-on and
+//! mechanical joints, restrained or not: they seal on the spigot's outside, so the
+//! pressure acts over the outside diameter of the sealing joint, as those guides
+//! use it). The engine's thrust is checked against p·π·d²/4 on the diameter used
+//! ([`Report::check`]). Both
 //! thrusts are reported when both diameters are given; the output says which one is
 //! the headline.
 //!
@@ -36,7 +38,7 @@ use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 use crate::vector::{Direction, Vec3};
 
-use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
 pub const KEY: &str = "dead-end";
 
@@ -81,7 +83,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "204 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
             "Bore of the pipe at the closure.",
         ),
         choice(
@@ -89,7 +91,7 @@ pub fn spec() -> CalculatorSpec {
             "Thrust area basis",
             common::AREA_BASIS_OPTIONS,
             "od",
-            "Push-on and mechanical joints can slide like a piston: their thrust acts on the outside diameter.",
+            common::AREA_BASIS_HELP,
         ),
         FieldSpec {
             optional: true,
@@ -100,7 +102,7 @@ pub fn spec() -> CalculatorSpec {
                 "mm",
                 "in",
                 "222 mm",
-                Limits::positive(MAX_SIZE_M),
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
                 "Needed for the outside-diameter basis; with it the inside-diameter thrust is shown as well.",
             )
         },
@@ -193,6 +195,15 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let thrust = balance.thrust();
 
     report.output("thrust", thrust.norm());
+    report.check(
+        "Thrust on the supports",
+        "closed form p·A on the area basis (p·π·d²/4)",
+        Q::Force,
+        thrust.norm(),
+        p * std::f64::consts::PI * d_used * d_used / 4.0,
+        1e-12,
+        0.0,
+    );
     report.output("area", area);
     report.output("diameter_used", d_used);
     report.output("thrust_id", p * common::circle_area(d));

@@ -8,10 +8,15 @@
 //! working plus a typed surge allowance, or the highest of these. The thrust comes
 //! from the engine's static balance of the fitting at that pressure with no flow
 //! ([`super::thrust_block::static_balance`]), on the outside diameter for push-on and
-//! mechanical joints and the inside diameter otherwise. A horizontal or sag fitting
+//! mechanical joints, restrained or not (they seal on the spigot), and on the bore
+//! only for welded, flanged or fused joints. A horizontal or sag fitting
 //! gets a bearing block, area SF·T/σ; a crest (thrust upward) gets a gravity block,
 //! volume SF·T_up/γ_concrete (above groundwater). The thrust-restraint page does
-//! the same for one fitting with every option shown; this page is its list form.
+//! the same for one fitting with every option shown (and checks sliding, which
+//! this list does not); this page is its list form. The sum of the rows' thrusts
+//! is checked against the sum of each row's closed form (2pA·sin(θ/2), pA,
+//! pA_branch, p(A₁ − A₂), or the typed force) with [`Report::check`]. EN 805 rows
+//! use MDP = working + 200 kPa (see [`super::thrust_block::TEST_RULES`]).
 //!
 //! # Row format (ours; one fitting per line, `#` starts a comment)
 //! ```text
@@ -25,9 +30,11 @@
 //! - `key=value` tokens: `angle=`, `size=`, `d=` (inside), `od=` (outside),
 //!   `size2=`, `d2=`, `od2=`, `p=` (design pressure), `pw=` (working pressure at
 //!   this fitting, the page basis applies), `soil=`, `sigma=` (typed bearing),
-//!   `joint=` (`push_on`, `mechanical`, `flanged`, `welded`), `h=` (face height),
+//!   `joint=` (`push_on`, `mechanical`, `restrained`, `flanged`, `welded`), `h=` (face height),
 //!   `turn=` (`left`, `right` in plan; `down` a crest: thrust up, gravity block;
-//!   `up` a sag: thrust down), `thrust=` (force rows), `tag=` (a label, no spaces).
+//!   `up` a sag: thrust down), `legs=` (a vertical bend's legs: `symmetric`, both
+//!   sloped by θ/2, uplift 2pA·sin(θ/2), the default; `one_level`, uplift pA·sin θ),
+//!   `thrust=` (force rows, 1 N to 1 GN), `tag=` (a label, no spaces).
 //! - Quantities carry their unit (`12in`, `0.9m`, `10bar`); a bare number is refused.
 //!
 //! Example: `bend 45deg di52_12 nfpa24_sand tag=B1` or
@@ -45,7 +52,7 @@ use crate::pipe_sizes;
 use crate::units::{self, QuantityKind as Q, STANDARD_GRAVITY};
 use crate::vector::Vec3;
 
-use super::common::{choice, quantity, MAX_PRESSURE_PA};
+use super::common::{choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 use super::thrust_block::{
     self as tb, Block, FittingKind, Plane, StaticFitting, BASIS_OPTIONS, JOINT_OPTIONS, SOIL_OPTIONS, TEST_RULE_OPTIONS,
 };
@@ -54,6 +61,12 @@ pub const KEY: &str = "line-schedule";
 
 /// The most rows a schedule may have.
 pub const MAX_ROWS: usize = 2000;
+
+/// Largest thrust a force row accepts, N (1 GN).
+pub const MAX_ROW_THRUST: f64 = 1e9;
+/// Range of a typed allowable soil bearing, Pa (1 kPa to 20 MPa, sound rock).
+pub const MIN_BEARING: f64 = 1e3;
+pub const MAX_BEARING: f64 = 20e6;
 
 const DEMO_ROWS: &str = "# Harrow Creek Works fire-water ring main (invented demo)\n\
 bend 90deg di52_12 nfpa24_sandy_silt tag=B1\n\
@@ -83,10 +96,10 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
         FieldSpec { optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
         choice("soil", "Soil (rows without soil=)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison."),
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::Pressure, "kPa", "psf", "", Limits::positive(1e8), "Used when the soil is 'typed value'.") },
-        choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", "Push-on and mechanical: thrust on the OD; flanged and welded: on the ID."),
+        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::closed(MIN_BEARING, MAX_BEARING), "Used when the soil is 'typed value'; from 1 kPa to 20 MPa.") },
+        choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", tb::JOINT_HELP),
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Bearing area = SF·T/σ; gravity block weight = SF·T_up."),
-        quantity("block_h", "Bearing face height (rows without h=)", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Face width = area ÷ height."),
+        quantity("block_h", "Bearing face height (rows without h=)", Q::Length, "m", "ft", "0.6 m", Limits::closed(0.05, 20.0), "Face width = area ÷ height."),
         quantity("gamma_c", "Unit weight of concrete (gravity blocks)", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy."),
     ];
     CalculatorSpec {
@@ -131,6 +144,8 @@ pub struct Row {
     pub joint: Option<String>,
     pub h: Option<f64>,
     pub turn: Turn,
+    /// A vertical bend with both legs sloped by θ/2 (the default), or one leg level.
+    pub symmetric: bool,
     pub thrust: Option<f64>,
 }
 
@@ -168,6 +183,7 @@ impl Row {
             joint: None,
             h: None,
             turn: Turn::Left,
+            symmetric: true,
             thrust: None,
         }
     }
@@ -272,11 +288,12 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             "joint" => "joint",
             "h" => "h",
             "turn" => "turn",
+            "legs" => "legs",
             "thrust" => "thrust",
             "tag" => "tag",
             other => {
                 return Err(format!(
-                    "row {line}: unknown key '{}'; use angle, size, d, od, size2, d2, od2, p, pw, soil, sigma, joint, h, turn, thrust or tag",
+                    "row {line}: unknown key '{}'; use angle, size, d, od, size2, d2, od2, p, pw, soil, sigma, joint, h, turn, legs, thrust or tag",
                     short(other)
                 ))
             }
@@ -291,8 +308,10 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
         match key_static {
             "angle" => {
                 let a = typed(value, Q::Angle, line, "angle")?;
-                if !(a > 0.0 && a <= PI) {
-                    return Err(format!("row {line}: angle must be greater than 0 and at most 180 deg"));
+                if !(tb::MIN_ANGLE..=PI).contains(&a) {
+                    return Err(format!(
+                        "row {line}: angle must be at least 0.1 deg and at most 180 deg"
+                    ));
                 }
                 row.angle = Some(a);
             }
@@ -311,10 +330,13 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             }
             "d" | "od" | "d2" | "od2" | "h" => {
                 let v = typed(value, Q::Length, line, key_static)?;
-                if !(v > 0.0 && v <= 20.0) {
-                    return Err(format!(
-                        "row {line}: {key_static} must be greater than 0 and at most 20 m"
-                    ));
+                let (lo, hi, range) = if key_static == "h" {
+                    (0.05, 20.0, "at least 0.05 m and at most 20 m")
+                } else {
+                    (MIN_SIZE_M, MAX_SIZE_M, "at least 1 mm and at most 10 m")
+                };
+                if !(lo..=hi).contains(&v) {
+                    return Err(format!("row {line}: {key_static} must be {range}"));
                 }
                 match key_static {
                     "d" => row.d = Some(v),
@@ -338,9 +360,11 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
                 }
             }
             "sigma" => {
-                let v = typed(value, Q::Pressure, line, "sigma")?;
-                if !(v > 0.0 && v.is_finite()) {
-                    return Err(format!("row {line}: sigma (soil bearing) must be greater than 0"));
+                let v = typed(value, Q::SoilBearing, line, "sigma")?;
+                if !(MIN_BEARING..=MAX_BEARING).contains(&v) {
+                    return Err(format!(
+                        "row {line}: sigma (soil bearing) must be at least 1 kPa and at most 20 MPa"
+                    ));
                 }
                 row.sigma = Some(v);
             }
@@ -356,7 +380,7 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             "joint" => {
                 if !JOINT_OPTIONS.iter().any(|o| o.key == value) {
                     return Err(format!(
-                        "row {line}: joint must be push_on, mechanical, flanged or welded"
+                        "row {line}: joint must be push_on, mechanical, restrained, flanged or welded"
                     ));
                 }
                 row.joint = Some(value.to_string());
@@ -370,10 +394,17 @@ fn parse_row(line: usize, content: &str) -> Result<Row, String> {
                     _ => return Err(format!("row {line}: turn must be left, right, up or down")),
                 }
             }
+            "legs" => {
+                row.symmetric = match value.to_ascii_lowercase().as_str() {
+                    "symmetric" => true,
+                    "one_level" => false,
+                    _ => return Err(format!("row {line}: legs must be symmetric or one_level")),
+                }
+            }
             "thrust" => {
                 let v = typed(value, Q::Force, line, "thrust")?;
-                if v <= 0.0 {
-                    return Err(format!("row {line}: thrust must be greater than 0"));
+                if !(1.0..=MAX_ROW_THRUST).contains(&v) {
+                    return Err(format!("row {line}: thrust must be at least 1 N and at most 1 GN"));
                 }
                 row.thrust = Some(v);
             }
@@ -468,6 +499,8 @@ struct Solved {
     direction: String,
     od: f64,
     od2: Option<f64>,
+    /// The row's thrust by its closed form, computed without the engine.
+    closed_form: f64,
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
@@ -540,7 +573,10 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let design_of = |pw: f64| -> (f64, String) {
         let test = test_rule.as_ref().map(|t| match t {
             TestBasis::Typed(p) => (*p, "typed test".to_string()),
-            TestBasis::Rule(r) => ((r.apply)(pw, surge.unwrap_or(0.0)), format!("test ({})", r.key)),
+            TestBasis::Rule(r) => (
+                r.test_pressure(pw, None, surge.unwrap_or(0.0)),
+                format!("test ({})", r.key),
+            ),
         });
         let with_surge = surge_in_basis.map(|dp| pw + dp);
         match basis.as_str() {
@@ -615,6 +651,27 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
     report.output("row_count", solved.len() as f64);
     report.output("total_thrust", total);
+    // Vertical blocks with a horizontal thrust can slide; this list does not check
+    // that, so it says so rather than stay silent.
+    let sliding: Vec<String> = solved
+        .iter()
+        .filter(|s| s.plane != Plane::Horizontal && s.thrust.x.abs() > 1e-9 * s.thrust.norm().max(1.0))
+        .map(|s| s.row.line.to_string())
+        .collect();
+    if !sliding.is_empty() {
+        let shown = sliding.iter().take(12).cloned().collect::<Vec<_>>().join(", ");
+        let more = if sliding.len() > 12 { ", …" } else { "" };
+        report.warn(None, format!("sliding is NOT checked here for the vertical blocks with a horizontal thrust (rows {shown}{more}): open each on the thrust-restraint page, which checks it"));
+    }
+    report.check(
+        "Sum of the rows' thrusts",
+        "each row's closed form (2pA·sin(θ/2), pA, pA_branch, p(A₁ − A₂), or the typed force), summed",
+        Q::Force,
+        total,
+        solved.iter().map(|s| s.closed_form).sum(),
+        1e-9,
+        0.0,
+    );
 
     let f_unit = units::display_unit(max.max(1.0), Q::Force, system).id;
     let p_unit = units::display_unit(solved.iter().map(|s| s.p).fold(1.0, f64::max), Q::Pressure, system).id;
@@ -728,7 +785,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             g.plane,
             g.od,
             g.od2,
-            g.row.angle.unwrap_or(PI / 4.0),
+            (0.0, g.row.angle.unwrap_or(PI / 4.0)),
             false,
             g.thrust,
             &g.block,
@@ -772,6 +829,10 @@ fn carry_inputs(s: &Solved, values: &Values, sf: f64) -> Vec<(&'static str, Stri
         Plane::Sag => "vertical_sag",
     };
     v.push(("plane", plane.to_string()));
+    if s.plane != Plane::Horizontal {
+        let legs = if r.symmetric { "symmetric" } else { "one_level" };
+        v.push(("legs", legs.to_string()));
+    }
     v.push(("size", r.size.clone().unwrap_or_else(|| pipe_sizes::CUSTOM.to_string())));
     for (key, d) in [("d", r.d), ("od", r.od), ("d2", r.d2), ("od2", r.od2)] {
         if let Some(d) = d {
@@ -858,9 +919,11 @@ fn solve_row(
     let mut area_d = 0.0;
     let mut od_main = 0.3;
     let mut od_second = None;
+    let closed_form;
     let thrust = match row.kind {
         RowKind::Force => {
             let t = row.thrust.unwrap_or(0.0);
+            closed_form = t;
             match plane {
                 Plane::Horizontal => Vec3::new(t, 0.0, 0.0),
                 Plane::Crest => Vec3::new(0.0, t, 0.0),
@@ -908,6 +971,13 @@ fn solve_row(
                 area: a1,
                 area2: a2,
                 plane,
+                symmetric: row.symmetric,
+            };
+            closed_form = match kind {
+                FittingKind::Bend => 2.0 * p * a1 * (fit.angle / 2.0).sin(),
+                FittingKind::DeadEnd => p * a1,
+                FittingKind::Tee => p * a2,
+                FittingKind::Reducer => p * (a1 - a2),
             };
             let balance = tb::static_balance(&fit, p, fluid).map_err(|e| err(e.to_string()))?;
             let mut t = balance.thrust();
@@ -972,7 +1042,7 @@ fn solve_row(
                     height: side,
                 },
                 text,
-                "—".to_string(),
+                "not used (gravity block)".to_string(),
             )
         }
     };
@@ -990,6 +1060,7 @@ fn solve_row(
         direction,
         od: od_main,
         od2: od_second,
+        closed_form,
     })
 }
 
@@ -1007,7 +1078,7 @@ fn preset_bearing(key: &str) -> Result<(f64, String), String> {
 
 fn direction_text(row: &Row, plane: Plane, t: Vec3) -> String {
     if t.norm() == 0.0 {
-        return "—".to_string();
+        return "none (no thrust)".to_string();
     }
     match plane {
         Plane::Horizontal => {
@@ -1110,6 +1181,19 @@ mod tests {
     }
 
     #[test]
+    fn unchecked_sliding_of_a_vertical_block_is_said() {
+        let said = |rows: &str| {
+            let s = crate::solve(KEY, &request(rows, &[]))
+                .result
+                .unwrap_or_else(|e| panic!("{e}"));
+            s.warnings.iter().any(|w| w.message.contains("sliding is NOT checked"))
+        };
+        assert!(said("bend 45deg di52_12 turn=down legs=one_level"));
+        assert!(!said("bend 45deg di52_12 turn=down"));
+        assert!(!said("bend 45deg di52_12"));
+    }
+
+    #[test]
     fn a_bend_row_matches_the_static_formula() {
         // Derived from the definition: T = 2 p A sin(θ/2) on the OD (push-on joints).
         let s = crate::solve(KEY, &request("bend 90deg d=300mm od=320mm p=10bar", &[]))
@@ -1132,7 +1216,15 @@ mod tests {
         let e = errors("bend 45deg di52_12 p=-5psi");
         assert!(e[0].contains("row 1: p is a gauge pressure"), "{e:?}");
         let e = errors("bend 45deg di52_12 sigma=0kPa");
-        assert!(e[0].contains("sigma (soil bearing) must be greater than 0"), "{e:?}");
+        assert!(e[0].contains("sigma (soil bearing) must be at least 1 kPa"), "{e:?}");
+        let e = errors("force thrust=5e-324N");
+        assert!(e[0].contains("thrust must be at least 1 N and at most 1 GN"), "{e:?}");
+        let e = errors("force thrust=2000MN");
+        assert!(e[0].contains("at most 1 GN"), "{e:?}");
+        let e = errors("bend 45deg d=300mm od=320mm d=0.0001mm");
+        assert!(e[0].contains("given twice"), "{e:?}");
+        let e = errors("bend 45deg d=0.0001mm od=320mm");
+        assert!(e[0].contains("at least 1 mm"), "{e:?}");
         let e = errors("bend 45deg 12in");
         assert!(e[0].contains("bare length '12in' is ambiguous"), "{e:?}");
         let e = errors("bend di52_12");
@@ -1147,10 +1239,12 @@ mod tests {
         assert!(e[0].contains("no fittings"), "{e:?}");
     }
 
-    /// 500 rows: prints the native solve time and the length of the rows as a URL
+    /// 500 rows: every 23rd row's thrust against the same fitting solved alone on
+    /// the thrust-restraint page (through its carried link), and the totals against
+    /// the rows; prints the native solve time and the length of the rows as a URL
     /// query parameter (no assertion on time).
     #[test]
-    fn five_hundred_rows_time_and_url_length() {
+    fn five_hundred_rows_match_single_fitting_solves() {
         let kinds = [
             "bend 45deg di52_12 nfpa24_sand tag=B",
             "bend 90deg sch40_8 joint=welded p=16bar turn=right tag=E",
@@ -1167,6 +1261,35 @@ mod tests {
         let elapsed = start.elapsed();
         let s = outcome.result.unwrap_or_else(|e| panic!("{e}"));
         assert_eq!(s.output("row_count").map(|o| o.si), Some(500.0));
+        assert!(s.defects.is_empty(), "{:?}", s.defects);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+        // The plot holds each row's thrust in its axis unit.
+        let plot = s.plots.iter().find(|p| p.key == "thrust_by_row").expect("thrust plot");
+        let unit = plot.y_label.split(['(', ')']).nth(1).expect("unit in the axis label");
+        let per_unit = crate::units::convert_to(1.0, Q::Force, unit).expect("a force unit");
+        let thrusts: Vec<f64> = plot.series[0].points.iter().map(|p| p[1] / per_unit).collect();
+        assert_eq!(thrusts.len(), 500);
+        let total: f64 = thrusts.iter().sum();
+        assert_relative_eq!(s.output("total_thrust").unwrap().si, total, max_relative = 1e-9);
+        let max = thrusts.iter().copied().fold(0.0, f64::max);
+        assert_relative_eq!(s.output("max_thrust").unwrap().si, max, max_relative = 1e-12);
+        for i in (0..500).step_by(23) {
+            // The row alone, opened on the thrust-restraint page by its own link.
+            let alone = crate::solve(KEY, &request(&rows[i], &[]))
+                .result
+                .unwrap_or_else(|e| panic!("row {i}: {e}"));
+            let link = &alone.carry_over[0];
+            let mut target = Request::default();
+            for (k, v) in &link.inputs {
+                target.inputs.insert(k.to_string(), v.clone());
+            }
+            let page = crate::solve(link.calculator, &target)
+                .result
+                .unwrap_or_else(|e| panic!("row {i} on the page: {e}"));
+            let there = page.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
+            assert_relative_eq!(thrusts[i], there, max_relative = 1e-6);
+            assert!(thrusts[i] > 1e3, "row {i}: {}", thrusts[i]);
+        }
         // URLSearchParams encoding: unreserved bytes stay, space → '+', others %XX.
         let encoded: usize = text
             .bytes()

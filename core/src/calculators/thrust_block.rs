@@ -4,7 +4,12 @@
 //! # Method
 //! 1. **Design pressure**, chosen openly (`p_basis`): the operating pressure; the
 //!    field test pressure from a named rule ([`TEST_RULES`]) or typed; the working
-//!    pressure plus a surge estimate; or the highest of these. The surge is the
+//!    pressure plus a surge estimate; or the highest of these. EN 805's rule applies
+//!    to the maximum design pressure MDP, which includes surge: typed (`mdp`), or the
+//!    working pressure plus the standard's smallest allowance where surge is not
+//!    calculated, 200 kPa (EN 805:2000 cl. 11.3.3 as usually read, from memory):
+//!    6 bar working → MDP 8 bar → STP min(1.5·8, 8 + 5) = 12 bar. The pressure table
+//!    says which MDP was used. The surge is the
 //!    Joukowsky rise Δp = ρ·a·ΔV for an instantaneous velocity change ΔV, with the
 //!    pipe-elasticity-corrected wave speed (Wylie & Streeter, *Fluid Transients in
 //!    Systems*, 1993, eq. 2.21; Chaudhry, *Applied Hydraulic Transients*, 3rd ed.,
@@ -18,34 +23,57 @@
 //!    the design pressure at the inlet and the other faces solved by the energy
 //!    balance (no flow, same point: the same pressure). The momentum balance then
 //!    gives the static thrust, e.g. T = 2·p·A·sin(θ/2) for a bend, p·A for a dead
-//!    end, p·A_branch for a tee, p·(A₁ − A₂) for a reducer. The area A comes from
-//!    the outside diameter for push-on and mechanical joints (the joint seals at
-//!    the outside of the spigot; the ductile-iron pipe industry's thrust-restraint
-//!    design guide uses the OD) and from the inside diameter otherwise.
+//!    end, p·A_branch for a tee, p·(A₁ − A₂) for a reducer; each is recorded as a
+//!    check of the engine's result ([`Report::check`]), and for a vertical bend so is
+//!    the vertical part. The area A comes from the outside diameter for push-on and
+//!    mechanical joints, restrained or not (they seal on the outside of the spigot,
+//!    so the thrust acts on the OD of the nearest sealing joint; the ductile-iron
+//!    pipe industry's thrust-restraint design guide uses the OD), and from the bore
+//!    only for welded, flanged or fused joints, which seal on it.
+//!    A vertical bend has either both legs sloped by θ/2 (a summit or low point, the
+//!    default: thrust 2pA·sin(θ/2) straight up or down) or one leg level and the
+//!    other sloped by θ (thrust pA·(1 − cos θ, ±sin θ)); the uplift of the first is
+//!    2·sin(θ/2)/sin θ times the second's, 8 % more at 45°, 41 % more at 90°.
 //! 3. **Horizontal bearing block** (and the base of a block under a sag bend):
-//!    bearing area A_b = SF·T/σ with σ the allowable soil bearing. Soil presets come
+//!    bearing area A_b = SF·T/σ with σ the allowable soil bearing. A sag block's
+//!    base carries the resultant; its horizontal part T_h must also be held: by
+//!    friction under the base, μ·T_down ≥ SF_slide·T_h (the block's own weight
+//!    neglected, conservative), or by a side face of SF·T_h/σ against the trench
+//!    wall, which is reported. Soil presets come
 //!    from three published tables that disagree (see [`SOILS`]); a typed value is
 //!    always allowed. Face dimensions follow from a chosen height or width ÷ height.
 //! 4. **Gravity block** under upward thrust (a vertical bend at a crest): the block's
 //!    effective weight must be SF times the upward component, W = γ_eff·V, with
 //!    γ_eff = γ_c below groundwater reduced by the water's unit weight (buoyancy).
-//!    Optional sliding check: μ·(W − T_v) ≥ SF_slide·T_h.
+//!    Sliding is checked by default, μ·(W − T_v) ≥ SF_slide·T_h, with μ from the
+//!    soil preset ([`FRICTION_SOURCE`]: NAVFAC DM-7.02 ultimate friction factors,
+//!    lower end, from memory) or typed; where neither gives μ and the thrust has a
+//!    horizontal part, an unchecked-sliding warning is raised.
+//! 5. **A given thrust** (`fitting=force`, e.g. carried from a fitting page) is used
+//!    as typed: the design-pressure, joint and fluid fields are hidden and no design
+//!    pressure is shown. A sag block for a given thrust warns that its face lies
+//!    below the pipe.
 //!
 //! # Field keys (stable: other pages link here with them)
 //! - `fitting`: `bend` | `dead_end` | `tee` | `reducer` | `force` (a given thrust).
 //! - `thrust` (force, used only with `fitting=force`), `thrust_elev` (angle above
 //!   horizontal of a given thrust; empty: from `plane`).
-//! - `angle` (bend deflection), `plane`: `horizontal` | `vertical_crest` | `vertical_sag`.
+//! - `angle` (bend deflection), `plane`: `horizontal` | `vertical_crest` | `vertical_sag`;
+//!   `legs` (vertical bends): `symmetric` (default) | `one_level`.
 //! - `size` (a key of [`crate::pipe_sizes`] or `custom`), `d` (inside), `od` (outside);
 //!   `size2`, `d2`, `od2` for the tee branch or the reducer's small end. Typed
 //!   diameters override presets.
-//! - `joint`: `push_on` | `mechanical` (area on the OD) | `flanged` | `welded` (ID).
+//! - `joint`: `push_on` | `mechanical` | `restrained` (area on the OD) | `flanged` |
+//!   `welded` (bore).
 //! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p_work` (gauge),
-//!   `test_rule` (`en805` | `c600` | `c605` | `nfpa24` | `custom`), `p_test`, `dv`,
-//!   `material`, `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields `fluid`, `t`, `rho`, `mu`.
+//!   `test_rule` (`en805` | `en805_surge` | `c600` | `c605` | `nfpa24` | `custom`),
+//!   `mdp` (EN 805), `p_test`, `dv`, `material` (`from_size`: the size preset's
+//!   material, the default), `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields
+//!   `fluid`, `t`, `rho`, `mu`.
 //! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
 //!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,
-//!   `submerged` (`no` | `yes`), `gravity_h`, `friction`, `sf_slide`.
+//!   `submerged` (`no` | `yes`), `gravity_h`; sliding (crest and sag) `friction`
+//!   (empty: from the soil), `sf_slide`.
 //!
 //! A fitting page links here with, e.g., `fitting=tee&size=custom&d=300mm&od=320mm&
 //! d2=200mm&od2=220mm&p_work=10bar` so the thrust is recomputed at the design
@@ -55,8 +83,8 @@
 //! # Assumptions
 //! Static thrust (flow momentum neglected: at pipe velocities it is a few percent of
 //! p·A at most, and zero at test); the weights of pipe and water are neglected
-//! (conservative for uplift); the block bears on undisturbed soil; the vertical
-//! bend has one horizontal leg (the other inclined by θ).
+//! (conservative for uplift); the block bears on undisturbed soil; a vertical bend's
+//! legs are as chosen (both sloped by θ/2, or one level).
 
 use std::f64::consts::PI;
 
@@ -70,9 +98,16 @@ use crate::pipe_sizes;
 use crate::units::{self, QuantityKind as Q, UnitSystem, STANDARD_GRAVITY};
 use crate::vector::{Direction, Vec3};
 
-use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
 pub const KEY: &str = "thrust-block";
+
+/// Range of a typed allowable soil bearing, Pa: 1 kPa to 20 MPa (sound rock).
+pub const MIN_TYPED_BEARING: f64 = 1e3;
+pub const MAX_TYPED_BEARING: f64 = 20e6;
+
+/// Smallest bend deflection accepted, rad (0.1°).
+pub const MIN_ANGLE: f64 = PI / 1800.0;
 
 // ---------------------------------------------------------------------------------
 // Fitting kinds and the engine balance shared with the line schedule.
@@ -125,12 +160,31 @@ pub const JOINT_OPTIONS: &[ChoiceOption] = &[
         label: "Mechanical joints (area on the OD)",
     },
     ChoiceOption {
+        key: "restrained",
+        label: "Restrained push-on or mechanical joints (area on the OD of the sealing joint)",
+    },
+    ChoiceOption {
         key: "flanged",
-        label: "Flanged (area on the ID)",
+        label: "Flanged (area on the bore)",
     },
     ChoiceOption {
         key: "welded",
-        label: "Welded or fused (area on the ID)",
+        label: "Welded or fused (area on the bore)",
+    },
+];
+
+/// Help text of every joint selector: why the bore is offered only for joints that
+/// seal on it.
+pub const JOINT_HELP: &str = "Push-on and mechanical joints seal on the outside of the spigot, restrained or not, so the pressure acts over the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints seal on the bore.";
+
+pub const LEGS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "symmetric",
+        label: "Both legs sloped by θ/2 (a summit or low point): vertical thrust 2·p·A·sin(θ/2)",
+    },
+    ChoiceOption {
+        key: "one_level",
+        label: "One leg level, the other sloped by θ: vertical thrust p·A·sin θ",
     },
 ];
 
@@ -181,6 +235,20 @@ pub struct StaticFitting {
     /// Pressure area of the branch (tee) or small end (reducer), m².
     pub area2: f64,
     pub plane: Plane,
+    /// A vertical bend with both legs sloped by θ/2 (`true`), or with its inlet leg
+    /// level and the outlet leg sloped by θ (`false`). Ignored for horizontal bends.
+    pub symmetric: bool,
+}
+
+impl StaticFitting {
+    /// Direction of the inlet flow in the drawing plane, rad from +x: level, or for a
+    /// symmetric vertical bend rising (crest) or falling (sag) by θ/2.
+    pub fn inlet_angle(&self) -> f64 {
+        match (self.kind, self.plane, self.symmetric) {
+            (FittingKind::Bend, Plane::Crest | Plane::Sag, true) => -self.plane.turn() * self.angle / 2.0,
+            _ => 0.0,
+        }
+    }
 }
 
 /// The engine's static balance of a fitting at gauge pressure `p`, with no flow.
@@ -194,12 +262,13 @@ pub fn static_balance(f: &StaticFitting, p: f64, fluid: &Fluid) -> Result<engine
         Plane::Crest | Plane::Sag => Vec3::new(0.0, -STANDARD_GRAVITY, 0.0),
     });
     let still = |port: Port| port.velocity(si::velocity(0.0));
+    let a_in = f.inlet_angle();
     let inlet = cv.port(still(
-        Port::inlet("inlet", si::area(f.area), Direction::X).pressure(si::pressure(p)),
+        Port::inlet("inlet", si::area(f.area), Direction::in_plane(a_in)).pressure(si::pressure(p)),
     ));
     let turn = f.plane.turn();
     let outlets: Vec<(String, f64, Direction)> = match f.kind {
-        FittingKind::Bend => vec![("outlet".into(), f.area, Direction::in_plane(turn * f.angle))],
+        FittingKind::Bend => vec![("outlet".into(), f.area, Direction::in_plane(a_in + turn * f.angle))],
         FittingKind::DeadEnd => vec![],
         FittingKind::Tee => vec![
             ("run outlet".into(), f.area, Direction::X),
@@ -249,14 +318,19 @@ impl SoilTable {
     }
 }
 
-/// One soil preset: allowable bearing, Pa.
+/// One soil preset: allowable bearing, Pa, and the friction coefficient of mass
+/// concrete cast on it (see [`FRICTION_SOURCE`]; `None` where that table gives none).
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct SoilPreset {
     pub key: &'static str,
     pub table: SoilTable,
     pub soil: &'static str,
     pub bearing: f64,
+    pub friction: Option<f64>,
 }
+
+/// Where the presets' friction coefficients come from.
+pub const FRICTION_SOURCE: &str = "NAVFAC DM-7.02 (1986), table of ultimate friction factors for dissimilar materials, mass concrete on the soil named (from memory), lower end of the range of the row that fits the soil name; none for soft clay, muck and peat, which that table does not cover";
 
 const PSF: f64 = 4.448_221_615_260_5 / (0.3048 * 0.3048);
 
@@ -267,114 +341,133 @@ pub const SOILS: &[SoilPreset] = &[
         table: SoilTable::SafeBearing,
         soil: "Muck, peat",
         bearing: 0.0,
+        friction: None,
     },
     SoilPreset {
         key: "safe_soft_clay",
         table: SoilTable::SafeBearing,
         soil: "Soft clay",
         bearing: 1000.0 * PSF,
+        friction: None,
     },
     SoilPreset {
         key: "safe_sand",
         table: SoilTable::SafeBearing,
         soil: "Sand",
         bearing: 2000.0 * PSF,
+        friction: Some(0.35),
     },
     SoilPreset {
         key: "safe_sand_gravel",
         table: SoilTable::SafeBearing,
         soil: "Sand and gravel",
         bearing: 3000.0 * PSF,
+        friction: Some(0.45),
     },
     SoilPreset {
         key: "safe_sand_gravel_clay",
         table: SoilTable::SafeBearing,
         soil: "Sand and gravel cemented with clay",
         bearing: 4000.0 * PSF,
+        friction: Some(0.45),
     },
     SoilPreset {
         key: "safe_hard_shale",
         table: SoilTable::SafeBearing,
         soil: "Hard shale",
         bearing: 10000.0 * PSF,
+        friction: Some(0.40),
     },
     SoilPreset {
         key: "nfpa24_soft_clay",
         table: SoilTable::Nfpa24,
         soil: "Soft clay",
         bearing: 1000.0 * PSF,
+        friction: None,
     },
     SoilPreset {
         key: "nfpa24_silt",
         table: SoilTable::Nfpa24,
         soil: "Silt",
         bearing: 1500.0 * PSF,
+        friction: Some(0.30),
     },
     SoilPreset {
         key: "nfpa24_sandy_silt",
         table: SoilTable::Nfpa24,
         soil: "Sandy silt",
         bearing: 3000.0 * PSF,
+        friction: Some(0.30),
     },
     SoilPreset {
         key: "nfpa24_sand",
         table: SoilTable::Nfpa24,
         soil: "Sand",
         bearing: 4000.0 * PSF,
+        friction: Some(0.35),
     },
     SoilPreset {
         key: "nfpa24_sandy_clay",
         table: SoilTable::Nfpa24,
         soil: "Sandy clay",
         bearing: 6000.0 * PSF,
+        friction: Some(0.30),
     },
     SoilPreset {
         key: "nfpa24_hard_clay",
         table: SoilTable::Nfpa24,
         soil: "Hard clay",
         bearing: 9000.0 * PSF,
+        friction: Some(0.40),
     },
     SoilPreset {
         key: "bs8004_firm_clay",
         table: SoilTable::Bs8004,
         soil: "Firm clay (75–150 kPa)",
         bearing: 75e3,
+        friction: Some(0.30),
     },
     SoilPreset {
         key: "bs8004_stiff_clay",
         table: SoilTable::Bs8004,
         soil: "Stiff clay (150–300 kPa)",
         bearing: 150e3,
+        friction: Some(0.30),
     },
     SoilPreset {
         key: "bs8004_hard_clay",
         table: SoilTable::Bs8004,
         soil: "Very stiff boulder clay, hard clay (300–600 kPa)",
         bearing: 300e3,
+        friction: Some(0.40),
     },
     SoilPreset {
         key: "bs8004_medium_sand",
         table: SoilTable::Bs8004,
         soil: "Medium dense sand (100–300 kPa)",
         bearing: 100e3,
+        friction: Some(0.35),
     },
     SoilPreset {
         key: "bs8004_compact_sand",
         table: SoilTable::Bs8004,
         soil: "Compact sand (over 300 kPa)",
         bearing: 300e3,
+        friction: Some(0.35),
     },
     SoilPreset {
         key: "bs8004_medium_gravel",
         table: SoilTable::Bs8004,
         soil: "Medium dense gravel, sand and gravel (200–600 kPa)",
         bearing: 200e3,
+        friction: Some(0.45),
     },
     SoilPreset {
         key: "bs8004_dense_gravel",
         table: SoilTable::Bs8004,
         soil: "Dense gravel, sand and gravel (over 600 kPa)",
         bearing: 600e3,
+        friction: Some(0.45),
     },
 ];
 
@@ -472,7 +565,7 @@ pub fn soil(key: &str) -> Option<&'static SoilPreset> {
 pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "en805",
-        label: "EN 805 system test pressure, surge not calculated: lower of 1.5 × MDP and MDP + 5 bar",
+        label: "EN 805 system test pressure, surge not calculated: lower of 1.5 × MDP and MDP + 5 bar, MDP at least working + 2 bar",
     },
     ChoiceOption {
         key: "en805_surge",
@@ -503,39 +596,59 @@ pub struct TestRule {
     pub citation: &'static str,
     /// Whether the rule needs a calculated surge (the second argument of `apply`).
     pub needs_surge: bool,
-    /// Test pressure from the working pressure and the calculated surge rise, Pa.
+    /// Surge allowance the rule's base pressure includes when surge is not
+    /// calculated, Pa: the rule applies to working + allowance (EN 805's MDP).
+    pub allowance: f64,
+    /// Test pressure from the rule's base pressure (working + allowance, or a typed
+    /// MDP) and the calculated surge rise, Pa.
     pub apply: fn(f64, f64) -> f64,
 }
+
+impl TestRule {
+    /// The test pressure for a working pressure `work`: the rule applied to
+    /// `work + allowance` (or to a typed base pressure such as EN 805's MDP).
+    pub fn test_pressure(&self, work: f64, typed_base: Option<f64>, surge: f64) -> f64 {
+        (self.apply)(typed_base.unwrap_or(work + self.allowance), surge)
+    }
+}
+
+/// EN 805's smallest surge allowance where surge is not calculated, Pa (200 kPa).
+pub const EN805_SURGE_ALLOWANCE: f64 = 200e3;
 
 pub const TEST_RULES: &[TestRule] = &[
     TestRule {
         key: "en805",
-        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + 500 kPa; MDP here is the working pressure typed, which should already include a surge allowance",
+        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + 500 kPa, and MDP includes a surge allowance of at least 200 kPa (as the standard is usually read; from memory): MDP = working + 200 kPa unless MDP is typed",
         needs_surge: false,
+        allowance: EN805_SURGE_ALLOWANCE,
         apply: |p, _| (1.5 * p).min(p + 500e3),
     },
     TestRule {
         key: "c600",
         citation: "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing (from memory): not less than 1.5 × the working pressure at the point of testing (and 1.25 × at the highest point)",
         needs_surge: false,
+        allowance: 0.0,
         apply: |p, _| 1.5 * p,
     },
     TestRule {
         key: "c605",
         citation: "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing (from memory): not less than 1.25 × the stated working pressure, measured at the highest point of the test section",
         needs_surge: false,
+        allowance: 0.0,
         apply: |p, _| 1.25 * p,
     },
     TestRule {
         key: "nfpa24",
         citation: "NFPA 24 (private fire service mains), hydrostatic test (from memory): 200 psi (13.8 bar) or 50 psi (3.4 bar) above the system working pressure, whichever is greater",
         needs_surge: false,
+        allowance: 0.0,
         apply: |p, _| (200.0 * PSI).max(p + 50.0 * PSI),
     },
     TestRule {
         key: "en805_surge",
         citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is calculated, STP = MDPc + 100 kPa, MDPc being the working pressure plus the calculated surge",
         needs_surge: true,
+        allowance: 0.0,
         apply: |p, surge| p + surge + 100e3,
     },
 ];
@@ -551,6 +664,10 @@ pub fn test_rule(key: &str) -> Option<&'static TestRule> {
 // Pipe materials for the wave speed.
 
 pub const MATERIAL_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "from_size",
+        label: "The material of the pipe size preset",
+    },
     ChoiceOption {
         key: "steel",
         label: "Steel: E = 207 GPa, ν = 0.30",
@@ -572,6 +689,15 @@ pub const MATERIAL_OPTIONS: &[ChoiceOption] = &[
         label: "Typed modulus",
     },
 ];
+
+/// The wall material of a pipe size preset's family (a key of [`material`]).
+pub fn preset_material(family: pipe_sizes::Family) -> &'static str {
+    match family {
+        pipe_sizes::Family::SteelSch40 | pipe_sizes::Family::SteelSch80 => "steel",
+        pipe_sizes::Family::DuctileIronClass52 => "ductile_iron",
+        pipe_sizes::Family::PvcC900Dr18 => "pvc",
+    }
+}
 
 /// Young's modulus (Pa), Poisson's ratio and where the values come from.
 pub fn material(key: &str) -> Option<(f64, f64, &'static str)> {
@@ -654,44 +780,59 @@ pub const WATER_UNIT_WEIGHT: f64 = 1000.0 * STANDARD_GRAVITY;
 
 pub fn spec() -> CalculatorSpec {
     let fitting_only = |keys: &'static [&'static str]| Some(("fitting", keys));
+    const FITTINGS: &[&str] = &["bend", "dead_end", "tee", "reducer"];
     let mut fields = vec![
         choice("fitting", "Fitting to restrain", FITTING_OPTIONS, "bend", "The thrust is recomputed here at the design pressure; choose 'a given thrust' to size a block for a force from elsewhere."),
-        FieldSpec { visible_when: fitting_only(&["force"]), ..quantity("thrust", "Thrust to restrain", Q::Force, "kN", "lbf", "", Limits::positive(1e9), "Resultant thrust on the restraint at the design pressure (from a fitting page).") },
+        FieldSpec { visible_when: fitting_only(&["force"]), ..quantity("thrust", "Thrust to restrain", Q::Force, "kN", "lbf", "", Limits::closed(1.0, 1e9), "Resultant thrust on the restraint at the design pressure (from a fitting page).") },
         FieldSpec { visible_when: fitting_only(&["force"]), optional: true, ..quantity("thrust_elev", "Angle of the given thrust above horizontal", Q::Angle, "deg", "deg", "", Limits::closed(-PI / 2.0, PI / 2.0), "0 for a horizontal thrust, 90° straight up (gravity block), −90° straight down. Empty: from the plane chosen below.") },
-        FieldSpec { visible_when: fitting_only(&["bend"]), ..quantity("angle", "Bend deflection angle", Q::Angle, "deg", "deg", "45 deg", Limits { min: 0.0, max: PI, min_inclusive: false }, "11¼, 22½, 45 and 90° are the usual fittings.") },
+        FieldSpec { visible_when: fitting_only(&["bend"]), ..quantity("angle", "Bend deflection angle", Q::Angle, "deg", "deg", "45 deg", Limits::closed(MIN_ANGLE, PI), "From 0.1° to 180°; 11¼, 22½, 45 and 90° are the usual fittings.") },
         choice("plane", "Plane and block type", PLANE_OPTIONS, "horizontal", "A horizontal fitting bears sideways on the trench wall; a crest in a vertical bend pushes up and needs a gravity block; a sag pushes down."),
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..choice("legs", "Legs of a vertical bend", LEGS_OPTIONS, "symmetric", "A bend at a summit or low point with both legs sloped has the larger vertical thrust (2·sin(θ/2) against sin θ: 8 % more at 45°, 41 % more at 90°). Used for bends only; empty: both legs sloped.") },
         choice("size", "Pipe size", pipe_sizes::SIZE_OPTIONS, "di52_12", "A preset gives both diameters; typed diameters below override it."),
-        FieldSpec { optional: true, ..quantity("d", "Inside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Bore of the pipe at the fitting's main end.") },
-        FieldSpec { optional: true, ..quantity("od", "Outside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).") },
+        FieldSpec { optional: true, ..quantity("d", "Inside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Bore of the pipe at the fitting's main end.") },
+        FieldSpec { optional: true, ..quantity("od", "Outside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).") },
         FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), ..choice("size2", "Branch (tee) or small-end (reducer) size", pipe_sizes::SIZE_OPTIONS, "custom", "A preset, or type the diameters below.") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("d2", "Branch or small-end inside diameter", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Overrides the preset.") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("od2", "Branch or small-end outside diameter", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Overrides the preset.") },
-        choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", "Push-on and mechanical joints: thrust on the outside diameter; flanged and welded: on the inside diameter."),
-        choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included."),
-        quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting."),
+        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("d2", "Branch or small-end inside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
+        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("od2", "Branch or small-end outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
+        FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", JOINT_HELP) },
+        FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included.") },
+        FieldSpec { visible_when: fitting_only(FITTINGS), ..quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting.") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
+        FieldSpec { visible_when: Some(("test_rule", &["en805"])), optional: true, ..quantity("mdp", "Maximum design pressure MDP (EN 805), gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "MDP includes surge. Empty: the working pressure plus EN 805's smallest surge allowance, 2 bar (200 kPa).") },
         FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Used by the surge and highest bases and the EN 805 calculated-surge test rule. Empty: no surge estimate.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "ductile_iron", "Sets Young's modulus E and Poisson's ratio ν of the wall.") },
-        FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e12), "Used when the material is 'typed modulus'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::positive(1.0), "Empty: half the difference of outside and inside diameters.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "from_size", "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of the size preset (a PVC size gets PVC).") },
+        FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::closed(50e6, 1e12), "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to 1000 GPa.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::closed(0.1e-3, 1.0), "Empty: half the difference of outside and inside diameters.") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::positive(1e11), "Empty: 2200 MPa, water near 20 °C.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::closed(10e6, 1e11), "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.") },
     ];
-    fields.extend(common::fluid_fields("15 degC"));
+    // The fluid sets the density of a fitting's balance and surge; a given thrust
+    // needs none of it.
+    fields.extend(common::fluid_fields("15 degC").into_iter().map(|f| FieldSpec {
+        visible_when: f.visible_when.or(fitting_only(FITTINGS)),
+        ..f
+    }));
     fields.extend([
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::positive(1e8), "Allowable bearing of the undisturbed soil against the block face.") },
+        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::closed(1e3, 20e6), "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound rock).") },
         quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
         FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
-        FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::positive(20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
+        FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::closed(0.05, 20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
         FieldSpec { visible_when: Some(("block_dims", &["aspect"])), optional: true, ..quantity("block_aspect", "Face width ÷ height", Q::Ratio, "-", "-", "1.5", Limits::closed(0.1, 10.0), "1 for a square face.") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..quantity("gamma_c", "Unit weight of concrete", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).") },
         FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..choice("submerged", "Block below groundwater", YES_NO, "no", "Below the water table the block weighs less by the water it displaces.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::positive(20.0), "Empty: a cube.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("friction", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: no sliding check. Often 0.3 to 0.5 for concrete on soil (common practice).") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::closed(0.05, 20.0), "Empty: a cube.") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("friction", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. With a typed soil and no value the sliding check cannot be made and the page says so.") },
+        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
     ]);
+    // The soil also gives the friction of the sliding check, so it is shown for
+    // every plane (set here, apart from its declaration, which the unit work shares).
+    if let Some(soil) = fields.iter_mut().find(|f| f.key == "soil") {
+        soil.visible_when = None;
+        soil.label = "Soil (allowable bearing, friction)";
+        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
+    }
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
@@ -707,7 +848,6 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "thrust_angle", label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + upward)", kind: Q::Angle, headline: false },
             OutputSpec { key: "thrust_h", label: "Horizontal component of the thrust", kind: Q::Force, headline: false },
             OutputSpec { key: "thrust_v", label: "Vertical component of the thrust (+ up)", kind: Q::Force, headline: false },
-            OutputSpec { key: "static_thrust", label: "Closed-form static thrust (check)", kind: Q::Force, headline: false },
             OutputSpec { key: "area_d", label: "Diameter of the thrust area", kind: Q::Length, headline: false },
             OutputSpec { key: "thrust_area", label: "Thrust area of the main end", kind: Q::Area, headline: false },
             OutputSpec { key: "p_test", label: "Field test pressure", kind: Q::Pressure, headline: false },
@@ -720,7 +860,10 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "block_mass", label: "Gravity block: concrete mass", kind: Q::Mass, headline: false },
             OutputSpec { key: "block_weight", label: "Gravity block: effective weight needed", kind: Q::Force, headline: false },
             OutputSpec { key: "block_side", label: "Gravity block: plan side (square plan)", kind: Q::Length, headline: false },
-            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: true },
+            OutputSpec { key: "friction", label: "Friction coefficient used for sliding", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "side_bearing_area", label: "Sag block: bearing area against the trench wall for the horizontal thrust", kind: Q::Area, headline: false },
+            OutputSpec { key: "mdp", label: "Maximum design pressure MDP (EN 805)", kind: Q::Pressure, headline: false },
         ],
         cautions: vec![
             "Design to the highest pressure the line will see: the field test pressure and surge usually exceed the operating pressure.",
@@ -771,7 +914,7 @@ pub fn diameters(
 
 /// Whether a joint takes its thrust area on the outside diameter.
 pub fn joint_uses_od(joint: &str) -> bool {
-    matches!(joint, "push_on" | "mechanical")
+    matches!(joint, "push_on" | "mechanical" | "restrained")
 }
 
 fn opt(values: &Values, key: &str) -> Option<f64> {
@@ -781,6 +924,8 @@ fn opt(values: &Values, key: &str) -> Option<f64> {
 /// Design pressures found from the inputs.
 struct Pressures {
     work: f64,
+    /// EN 805's maximum design pressure and how it was found.
+    mdp: Option<(f64, String)>,
     test: Option<(f64, String)>,
     surge: Option<Surge>,
     design: f64,
@@ -797,19 +942,25 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let one = |e: FieldError| vec![e];
     let fitting = values.choice("fitting").map_err(one)?.to_string();
     let plane = Plane::from_key(values.choice("plane").map_err(one)?);
-    let joint = values.choice("joint").map_err(one)?;
-    let fluid = common::fluid_from(values)?;
+    let symmetric = values.choice("legs").unwrap_or("symmetric") == "symmetric";
     let sf = values.quantity("sf").map_err(one)?;
-    let uses_od = joint_uses_od(joint);
+    let given_force = fitting == "force";
+    // The fluid matters only to a fitting's balance and surge (hidden for a given thrust).
+    let fluid = if given_force {
+        None
+    } else {
+        Some(common::fluid_from(values)?)
+    };
+    // A given thrust carries no joint: its area basis was chosen on the page it came from.
+    let uses_od = !given_force && joint_uses_od(values.choice("joint").map_err(one)?);
 
     // --- Sizes --------------------------------------------------------------------
-    let needs_size = fitting != "force";
     let size_key = values.choice("size").map_err(one)?.to_string();
     let main = diameters(&size_key, opt(values, "d"), opt(values, "od"), ("size", "d", "od"));
-    let main = match (main, needs_size) {
+    let main = match (main, given_force) {
         (Ok(d), _) => Some(d),
-        (Err(e), true) => return Err(vec![e]),
-        (Err(_), false) => None,
+        (Err(e), false) => return Err(vec![e]),
+        (Err(_), true) => None,
     };
     let second = if matches!(fitting.as_str(), "tee" | "reducer") {
         let key = values.choice("size2").unwrap_or(pipe_sizes::CUSTOM).to_string();
@@ -819,12 +970,16 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
     let basis_d = |d: Diameters| if uses_od { d.od } else { d.id };
 
-    // --- Design pressure -----------------------------------------------------------
-    let pressures = design_pressure(values, main, &fluid, report)?;
+    // --- Design pressure (not for a given thrust: it was found elsewhere) ------------
+    let pressures = match &fluid {
+        None => None,
+        Some(fluid) => Some(design_pressure(values, main, &size_key, fluid, report)?),
+    };
+    let p = pressures.as_ref().map_or(0.0, |pr| pr.design);
 
     // --- Thrust --------------------------------------------------------------------
-    let p = pressures.design;
-    let (thrust_vec, static_formula, balance) = match fitting.as_str() {
+    let mut inlet_angle = 0.0;
+    let (thrust_vec, balance) = match fitting.as_str() {
         "force" => {
             let t = values.quantity("thrust").map_err(one)?;
             let elev = match values.is_set("thrust_elev") {
@@ -841,13 +996,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 Plane::Horizontal => Vec3::new(t * elev.cos(), 0.0, t * elev.sin()),
                 Plane::Crest | Plane::Sag => Vec3::new(t * elev.cos(), t * elev.sin(), 0.0),
             };
-            if p > 0.0 && values.is_set("p_work") {
-                report.warn(Some("thrust"), "a given thrust is used as typed: the design pressure above does not change it; to recompute the thrust at the design pressure choose the fitting instead");
-            }
-            (v, t, None)
+            (v, None)
         }
         kind => {
             let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "a size is required")])?;
+            let fluid = fluid
+                .as_ref()
+                .ok_or_else(|| vec![FieldError::inconsistent("fluid", "choose the fluid")])?;
             let a1 = common::circle_area(basis_d(main));
             let (kind, angle, a2) = match kind {
                 "bend" => (FittingKind::Bend, values.quantity("angle").map_err(one)?, a1),
@@ -883,32 +1038,31 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 area: a1,
                 area2: a2,
                 plane,
+                symmetric,
             };
-            let balance = static_balance(&fit, p, &fluid).map_err(|e| common::engine_error(e, "p_work"))?;
-            let closed = match kind {
-                FittingKind::Bend => 2.0 * p * a1 * (angle / 2.0).sin(),
-                FittingKind::DeadEnd => p * a1,
-                FittingKind::Tee => p * a2,
-                FittingKind::Reducer => p * (a1 - a2),
-            };
+            inlet_angle = fit.inlet_angle();
+            let balance = static_balance(&fit, p, fluid).map_err(|e| common::engine_error(e, "p_work"))?;
+            let thrust = balance.thrust();
+            static_checks(report, &fit, p, thrust);
             report.output("area_d", basis_d(main));
             report.output("thrust_area", a1);
-            (balance.thrust(), closed, Some(balance))
+            (thrust, Some(balance))
         }
     };
     let (t_h, t_v) = match plane {
-        Plane::Horizontal => ((thrust_vec.x.powi(2) + thrust_vec.y.powi(2)).sqrt(), thrust_vec.z),
+        Plane::Horizontal => (thrust_vec.x.hypot(thrust_vec.y), thrust_vec.z),
         Plane::Crest | Plane::Sag => (thrust_vec.x.abs(), thrust_vec.y),
     };
     let thrust = thrust_vec.norm();
     report.output("thrust", thrust);
-    if thrust > 0.0 && fitting != "force" {
+    if thrust > 0.0 && !given_force {
         report.output("thrust_angle", thrust_vec.y.atan2(thrust_vec.x));
     }
     report.output("thrust_h", t_h);
     report.output("thrust_v", t_v);
-    report.output("static_thrust", static_formula);
-    report.output("p_design", p);
+    if pressures.is_some() {
+        report.output("p_design", p);
+    }
     if let Some(b) = &balance {
         for w in &b.warnings {
             if !matches!(w, EngineWarning::MomentumNegligible { .. }) {
@@ -919,9 +1073,21 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     if thrust == 0.0 {
         report.warn(Some("p_work"), "with zero pressure there is no thrust to restrain");
     }
+    if given_force && plane == Plane::Sag {
+        report.warn(None, "the block is sized as a sag block: its bearing face lies below the pipe and takes the thrust downward. A horizontal bend's thrust is horizontal (the fluid's weight is carried by the bedding); choose the horizontal plane unless the fitting really turns upward in a vertical plane");
+    }
 
     // --- Block -----------------------------------------------------------------------
     let od_for_drawing = main.map(|d| d.od).unwrap_or(0.3);
+    let soil_key = values.choice("soil").map_err(one)?;
+    let friction = match opt(values, "friction") {
+        Some(mu) => Some((mu, "typed".to_string())),
+        None => soil(soil_key).and_then(|s| {
+            s.friction
+                .map(|mu| (mu, format!("{} preset ({FRICTION_SOURCE})", s.soil)))
+        }),
+    };
+    let sf_slide = opt(values, "sf_slide").unwrap_or(1.5);
     let block = match plane {
         Plane::Horizontal | Plane::Sag => {
             let sigma = soil_bearing(values)?;
@@ -932,14 +1098,34 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             let (h, w) = face(values, area)?;
             report.output("face_h", h);
             report.output("face_w", w);
-            if plane == Plane::Horizontal && h < od_for_drawing && needs_size {
+            if plane == Plane::Horizontal && main.is_some() && h < od_for_drawing {
                 let text = report.fmt(od_for_drawing, Q::Length);
                 report.warn(Some("block_h"), format!("the bearing face is lower than the pipe's outside diameter ({text}): make it at least as tall as the pipe, centred on the thrust line"));
             }
             if plane == Plane::Horizontal && t_v.abs() > 1e-9 * thrust.max(1.0) {
                 report.warn(Some("plane"), "the given thrust has a vertical component; only the horizontal part is carried by the bearing face");
             }
-            soil_comparison(report, load, sf, values.choice("soil").unwrap_or("custom"));
+            if plane == Plane::Sag && t_h > 1e-9 * thrust.max(1.0) {
+                // The base bears the resultant; its horizontal part must also be held,
+                // by friction under the base (the thrust's own downward part presses
+                // it on; the block's weight is neglected, which is conservative) or by
+                // a face against the trench wall.
+                let side = sf * t_h / sigma;
+                report.output("side_bearing_area", side);
+                sliding_check(
+                    report,
+                    friction.as_ref(),
+                    (-t_v).max(0.0),
+                    t_h,
+                    sf_slide,
+                    "μ·T_down/T_h (block weight neglected)",
+                    format!(
+                        "bear a side face of {} against undisturbed soil",
+                        report.fmt(side, Q::Area)
+                    ),
+                );
+            }
+            soil_comparison(report, load, sf, soil_key);
             Block::Bearing { h, w }
         }
         Plane::Crest => {
@@ -971,18 +1157,17 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 None => volume.cbrt(),
             };
             report.output("block_side", side);
-            if let Some(mu) = opt(values, "friction") {
-                let sf_slide = opt(values, "sf_slide").unwrap_or(1.5);
+            if t_h > 1e-9 * thrust.max(1.0) {
                 let normal = gamma_eff * volume - t_v.max(0.0);
-                if t_h > 0.0 {
-                    let factor = mu * normal / t_h;
-                    report.output("sliding_sf", factor);
-                    if factor < sf_slide {
-                        report.warn(Some("friction"), format!("sliding: μ·(W − T_up)/T_h = {} is below the required {}; enlarge the block or bear its side against undisturbed soil", units::format_significant(factor, 3), units::format_significant(sf_slide, 3)));
-                    }
-                } else {
-                    report.warn(Some("friction"), "no horizontal thrust: nothing to slide");
-                }
+                sliding_check(
+                    report,
+                    friction.as_ref(),
+                    normal,
+                    t_h,
+                    sf_slide,
+                    "μ·(W − T_up)/T_h",
+                    "enlarge the block or bear its side against undisturbed soil".to_string(),
+                );
             }
             if submerged {
                 report.warn(Some("submerged"), "below groundwater the block's effective weight uses γ_c − γ_w; check the highest groundwater level, not today's");
@@ -996,7 +1181,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
 
     // --- Tables, diagram, links ---------------------------------------------------------
-    pressure_table(report, &pressures, values);
+    if let Some(pr) = &pressures {
+        pressure_table(report, pr, values);
+    }
     if let Some(b) = &balance {
         let system = report.system();
         report.solution.tables.push(common::ledger_table(b, system));
@@ -1008,7 +1195,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         plane,
         od_for_drawing,
         second.map(|d| d.od),
-        angle,
+        (inlet_angle, angle),
         submerged,
         thrust_vec,
         &block,
@@ -1016,6 +1203,76 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     );
     report.solution.diagrams.push(diagram);
     Ok(())
+}
+
+/// Checks of the engine's static thrust against the closed forms of the
+/// thrust-restraint guides, computed from the areas and the angle alone: the
+/// resultant (2pA·sin(θ/2), pA, pA_branch, p(A₁ − A₂)) and, for a vertical bend, the
+/// vertical part (pA·sin θ with one leg level, 2pA·sin(θ/2) with both legs sloped).
+fn static_checks(report: &mut Report<'_>, fit: &StaticFitting, p: f64, thrust: Vec3) {
+    let (closed, formula) = match fit.kind {
+        FittingKind::Bend => (
+            2.0 * p * fit.area * (fit.angle / 2.0).sin(),
+            "closed form 2·p·A·sin(θ/2)",
+        ),
+        FittingKind::DeadEnd => (p * fit.area, "closed form p·A"),
+        FittingKind::Tee => (p * fit.area2, "closed form p·A_branch"),
+        FittingKind::Reducer => (p * (fit.area - fit.area2), "closed form p·(A₁ − A₂)"),
+    };
+    report.check(
+        "Thrust on the restraint",
+        formula,
+        Q::Force,
+        thrust.norm(),
+        closed,
+        1e-9,
+        0.0,
+    );
+    if fit.kind == FittingKind::Bend && fit.plane != Plane::Horizontal {
+        let (closed_v, formula_v) = if fit.symmetric {
+            (
+                2.0 * p * fit.area * (fit.angle / 2.0).sin(),
+                "closed form 2·p·A·sin(θ/2), both legs sloped",
+            )
+        } else {
+            (p * fit.area * fit.angle.sin(), "closed form p·A·sin θ, one leg level")
+        };
+        let sign = if fit.plane == Plane::Crest { 1.0 } else { -1.0 };
+        report.check(
+            "Vertical thrust",
+            formula_v,
+            Q::Force,
+            thrust.y,
+            sign * closed_v,
+            1e-9,
+            thrust.norm(),
+        );
+    }
+}
+
+/// Sliding of a block on its base: friction `μ·normal` against `SF_slide·T_h`.
+/// Without a friction coefficient the check cannot be made: that is a warning in
+/// the headline area, never silence.
+fn sliding_check(
+    report: &mut Report<'_>,
+    friction: Option<&(f64, String)>,
+    normal: f64,
+    t_h: f64,
+    sf_slide: f64,
+    formula: &str,
+    remedy: String,
+) {
+    match friction {
+        Some((mu, _)) => {
+            report.output("friction", *mu);
+            let factor = mu * normal.max(0.0) / t_h;
+            report.output("sliding_sf", factor);
+            if factor < sf_slide {
+                report.warn(Some("friction"), format!("sliding: {formula} = {} is below the required {}; {remedy}", units::format_significant(factor, 3), units::format_significant(sf_slide, 3)));
+            }
+        }
+        None => report.warn(None, format!("sliding is NOT checked: the thrust has a horizontal part of {} and the chosen soil gives no friction coefficient; type one (concrete on soil) to check it, or {remedy}", report.fmt(t_h, Q::Force))),
+    }
 }
 
 pub(crate) enum Block {
@@ -1026,6 +1283,14 @@ pub(crate) enum Block {
 fn soil_bearing(values: &Values) -> Result<f64, Vec<FieldError>> {
     let key = values.choice("soil").map_err(|e| vec![e])?;
     if key == "custom" {
+        if let Some(sigma) = opt(values, "sigma") {
+            if !(MIN_TYPED_BEARING..=MAX_TYPED_BEARING).contains(&sigma) {
+                return Err(vec![FieldError::inconsistent(
+                    "sigma",
+                    "the allowable soil bearing must be at least 1 kPa (21 psf) and at most 20 MPa (sound rock)",
+                )]);
+            }
+        }
         return opt(values, "sigma").ok_or_else(|| {
             vec![FieldError::inconsistent(
                 "sigma",
@@ -1064,6 +1329,7 @@ fn face(values: &Values, area: f64) -> Result<(f64, f64), Vec<FieldError>> {
 fn design_pressure(
     values: &Values,
     main: Option<Diameters>,
+    size_key: &str,
     fluid: &Fluid,
     report: &mut Report<'_>,
 ) -> Result<Pressures, Vec<FieldError>> {
@@ -1081,7 +1347,19 @@ fn design_pressure(
     let surge = if (wants_surge || rule_needs_surge) && values.is_set("dv") {
         let dv = values.quantity_or("dv", 0.0);
         let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "the surge estimate needs the pipe size")])?;
-        let (e_mod, nu, source) = match values.choice("material").unwrap_or("") {
+        let material_key = match values.choice("material").unwrap_or("") {
+            "from_size" => match pipe_sizes::find(size_key) {
+                Some(size) => preset_material(size.family),
+                None => {
+                    return Err(vec![FieldError::inconsistent(
+                        "material",
+                        "the pipe size is typed, so its material is not known: choose the wall material",
+                    )])
+                }
+            },
+            key => key,
+        };
+        let (e_mod, nu, source) = match material_key {
             "" => {
                 return Err(vec![FieldError::inconsistent(
                     "material",
@@ -1141,6 +1419,7 @@ fn design_pressure(
         }
         None
     };
+    let mut mdp = None;
     let test = if wants_test {
         let rule = values.choice("test_rule").map_err(one)?;
         if rule == "custom" {
@@ -1153,8 +1432,29 @@ fn design_pressure(
             Some((p, "typed test pressure".to_string()))
         } else {
             let r = test_rule(rule).ok_or_else(|| vec![FieldError::inconsistent("test_rule", "unknown rule")])?;
+            let typed_mdp = if rule == "en805" { opt(values, "mdp") } else { None };
+            if r.allowance > 0.0 || typed_mdp.is_some() {
+                let (base, how) = match typed_mdp {
+                    Some(m) => (m, "typed".to_string()),
+                    None => (
+                        work + r.allowance,
+                        format!(
+                            "working + {} surge allowance (surge not calculated; EN 805's smallest allowance, from memory)",
+                            report.fmt(r.allowance, Q::Pressure)
+                        ),
+                    ),
+                };
+                if base < work {
+                    return Err(vec![FieldError::inconsistent(
+                        "mdp",
+                        "MDP includes surge: it cannot be below the working pressure",
+                    )]);
+                }
+                report.output("mdp", base);
+                mdp = Some((base, how));
+            }
             Some((
-                (r.apply)(work, surge.as_ref().map_or(0.0, |s| s.dp)),
+                r.test_pressure(work, typed_mdp, surge.as_ref().map_or(0.0, |s| s.dp)),
                 r.citation.to_string(),
             ))
         }
@@ -1191,6 +1491,7 @@ fn design_pressure(
     }
     Ok(Pressures {
         work,
+        mdp,
         test,
         surge,
         design,
@@ -1216,6 +1517,11 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures, values: &Values) {
         rows: vec![vec!["Operating (working)".into(), cell(pr.work), "typed".into()]],
         emphasised_rows: Vec::new(),
     };
+    if let Some((m, how)) = &pr.mdp {
+        table
+            .rows
+            .push(vec!["MDP (EN 805, surge included)".into(), cell(*m), how.clone()]);
+    }
     if let Some((pt, src)) = &pr.test {
         table.rows.push(vec!["Field test".into(), cell(*pt), src.clone()]);
     }
@@ -1305,7 +1611,7 @@ pub(crate) fn diagram(
     plane: Plane,
     od: f64,
     od2: Option<f64>,
-    angle: f64,
+    (inlet_angle, angle): (f64, f64),
     submerged: bool,
     thrust: Vec3,
     block: &Block,
@@ -1317,9 +1623,9 @@ pub(crate) fn diagram(
     // The pipe: legs meeting at the origin, to scale (outside diameter).
     let legs: Vec<([f64; 2], [f64; 2], f64)> = match fitting {
         "bend" => {
-            let a = turn * angle;
+            let a = inlet_angle + turn * angle;
             vec![
-                ([-lead, 0.0], [0.0, 0.0], od),
+                ([-lead * inlet_angle.cos(), -lead * inlet_angle.sin()], [0.0, 0.0], od),
                 ([0.0, 0.0], [lead * a.cos(), lead * a.sin()], od),
             ]
         }
@@ -1575,6 +1881,95 @@ mod tests {
         assert_eq!(
             error_field(&[("p_basis", "test"), ("test_rule", "en805_surge"), ("dv", "")]),
             "dv"
+        );
+    }
+
+    #[test]
+    fn a_field_that_does_not_apply_is_hidden_along_its_chain() {
+        let spec = super::spec();
+        let shown = |pairs: &[(&str, &str)], key: &str| {
+            let field = spec.field(key).expect("field");
+            crate::catalog::is_shown(&spec, field, &request(pairs))
+        };
+        // The face height depends on the proportions selector, which a crest hides.
+        assert!(shown(&[("plane", "horizontal")], "block_h"));
+        assert!(!shown(&[("plane", "vertical_crest")], "block_h"));
+        assert!(shown(&[("plane", "vertical_crest")], "gravity_h"));
+        assert!(!shown(&[("plane", "horizontal")], "legs"));
+        // A given thrust has no design pressure, joint or fluid of its own.
+        for key in [
+            "p_work",
+            "p_basis",
+            "test_rule",
+            "dv",
+            "material",
+            "joint",
+            "fluid",
+            "t",
+        ] {
+            assert!(!shown(&[("fitting", "force")], key), "{key}");
+        }
+        assert!(shown(&[("fitting", "bend")], "p_work"));
+    }
+
+    #[test]
+    fn an_unchecked_sliding_mode_is_said_not_silent() {
+        let s = solve(&[
+            ("plane", "vertical_crest"),
+            ("legs", "one_level"),
+            ("soil", "custom"),
+            ("friction", ""),
+            ("p_basis", "operating"),
+        ]);
+        assert!(s.output("sliding_sf").is_none());
+        assert!(
+            s.warnings
+                .iter()
+                .any(|w| w.field.is_none() && w.message.contains("NOT checked")),
+            "{:?}",
+            s.warnings
+        );
+        // A typed coefficient overrides the soil's.
+        let s = solve(&[
+            ("plane", "vertical_crest"),
+            ("legs", "one_level"),
+            ("soil", "nfpa24_sand"),
+            ("friction", "0.5"),
+            ("p_basis", "operating"),
+        ]);
+        assert_relative_eq!(s.output("friction").unwrap().si, 0.5);
+        // Both legs sloped: no horizontal thrust, nothing to slide, no warning.
+        let s = solve(&[
+            ("plane", "vertical_sag"),
+            ("legs", "symmetric"),
+            ("p_basis", "operating"),
+        ]);
+        assert!(s.output("side_bearing_area").is_none());
+        assert!(
+            !s.warnings.iter().any(|w| w.message.contains("sliding")),
+            "{:?}",
+            s.warnings
+        );
+    }
+
+    #[test]
+    fn the_wave_speed_material_follows_the_size_preset() {
+        let get = |pairs: &[(&str, &str)]| solve(pairs).output("wave_speed").map(|o| o.si).unwrap_or(f64::NAN);
+        let base = [("p_basis", "surge"), ("dv", "0.5 m/s"), ("size", "c900dr18_8")];
+        let preset = get(&[base[0], base[1], base[2], ("material", "from_size")]);
+        let pvc = get(&[base[0], base[1], base[2], ("material", "pvc")]);
+        let iron = get(&[base[0], base[1], base[2], ("material", "ductile_iron")]);
+        assert_relative_eq!(preset, pvc, max_relative = 1e-12);
+        assert!(iron > 2.0 * pvc);
+        assert_eq!(
+            error_field(&[
+                ("p_basis", "surge"),
+                ("size", "custom"),
+                ("d", "300 mm"),
+                ("od", "320 mm"),
+                ("material", "from_size")
+            ]),
+            "material"
         );
     }
 
