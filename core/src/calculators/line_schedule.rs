@@ -216,6 +216,7 @@ fn example_unit(kind: Q) -> &'static str {
     match kind {
         Q::Angle => "deg",
         Q::Pressure => "psi",
+        Q::SoilBearing => "psf",
         Q::Length => "in",
         Q::Force => "kN",
         _ => "",
