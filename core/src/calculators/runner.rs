@@ -116,6 +116,9 @@ const SPEED_RANGE: Limits = Limits::closed(2.0 * PI / 60.0, 1e5 * 2.0 * PI / 60.
 const FLOW_RANGE: Limits = Limits::closed(1e-6, 1e3);
 /// Net heads: 1 cm to 10 km.
 const HEAD_RANGE: Limits = Limits::closed(0.01, 1e4);
+/// The fastest blade speed accepted, m/s: well above the tip speeds of water
+/// turbines and pumps (a few tens to about 200 m/s, common practice, no source).
+const MAX_BLADE_SPEED: f64 = 500.0;
 /// Results within this fraction of the terms they were summed from are rounding
 /// residue and shown as 0.
 const RESIDUE: f64 = 1e-12;
@@ -384,6 +387,17 @@ fn read(values: &Values) -> Result<Runner, Vec<FieldError>> {
     let omega = values.quantity("n").map_err(|e| vec![e])?;
     let flow = values.quantity("q").map_err(|e| vec![e])?;
     let beta2 = values.quantity("beta2").map_err(|e| vec![e])?;
+    let fastest = omega * inlet.0.max(outlet.0);
+    if fastest > MAX_BLADE_SPEED {
+        errors.push(FieldError::inconsistent(
+            "n",
+            format!(
+                "at this speed the blades move at {} at the larger radius, above the {} m/s of any water runner or impeller: check the speed and the radii",
+                units::format_quantity_in(fastest, Q::Velocity, "m/s"),
+                MAX_BLADE_SPEED
+            ),
+        ));
+    }
     if !errors.is_empty() {
         return Err(errors);
     }
@@ -408,7 +422,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let (t1, t2, balance) = runner.momentum(flow).map_err(fail)?;
     // A torque that is rounding residue of the moments of momentum it is summed from
     // (inlet and outlet swirl moments that balance) is the 0 it stands for.
-    let moment_scale = runner.fluid.density * flow * (t1.radius * t1.vtheta.abs() + t2.radius * t2.vtheta.abs());
+    let moment_scale = moment_scale(&runner, &t1, &t2);
     let water_torque = balance.shaft_torque.unwrap_or(f64::NAN);
     let water_torque = if water_torque.abs() <= RESIDUE * moment_scale {
         0.0
@@ -504,6 +518,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     Ok(())
 }
 
+/// The size of the moments of momentum the engine sums: it writes each swirl as the
+/// relative swirl plus the blade speed, so its rounding follows ρQ·r·(|V_θ| + u).
+fn moment_scale(runner: &Runner, t1: &Triangle, t2: &Triangle) -> f64 {
+    let station = |t: &Triangle| t.radius * (t.vtheta.abs() + t.u.abs());
+    runner.fluid.density * runner.flow * (station(t1) + station(t2))
+}
+
 /// Checks against paths that do not use the engine's angular-momentum balance:
 ///
 /// - the torque against the moment of momentum written from the triangles,
@@ -526,7 +547,7 @@ fn independent_checks(
     let g = STANDARD_GRAVITY;
     let sign = if runner.machine == Machine::Turbine { 1.0 } else { -1.0 };
     let moment = rho * runner.flow * (t1.radius * t1.vtheta - t2.radius * t2.vtheta);
-    let moment_scale = rho * runner.flow * (t1.radius * t1.vtheta.abs() + t2.radius * t2.vtheta.abs());
+    let moment_scale = moment_scale(runner, t1, t2);
     report.check(
         "Shaft torque",
         "moment of momentum from the triangles, ρQ(r₁V_θ1 − r₂V_θ2)",
@@ -912,6 +933,8 @@ mod tests {
         assert_eq!(field(&[("b1", "1e-300 mm")]), "b1");
         assert_eq!(field(&[("n", "1e-300 rpm")]), "n");
         assert_eq!(field(&[("head", "1e-300 m")]), "head");
+        // 160 mm at 60 000 rpm: blades at 1005 m/s, faster than any water runner.
+        assert_eq!(field(&[("n", "60000 rpm")]), "n");
     }
 
     #[test]
