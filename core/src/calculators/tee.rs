@@ -474,7 +474,7 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 b.od_demo,
                 Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-                "Only for the outside-diameter basis: the branch pipe's outside diameter at its joint.",
+                "Needed only on the outside-diameter basis, and then required for every branch in use: the branch pipe's outside diameter at its joint. Left empty on the inside-diameter basis.",
             )
         });
     }

@@ -394,7 +394,17 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
     report.output("force_x", state.force.x);
     report.output("power", state.power);
-    report.output("efficiency", state.efficiency);
+    match (mode, v - u <= 1e-9 * v) {
+        (Mode::Fixed, _) => report.warn(
+            None,
+            "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); choose a moving vane or a wheel",
+        ),
+        (Mode::Wheel, true) => report.warn(
+            Some("u"),
+            "Efficiency: not applicable, at the runaway speed no load takes power from the wheel",
+        ),
+        _ => report.output("efficiency", state.efficiency),
+    }
     report.output("force_y", force_y);
     report.output("force_side", -force_y);
     report.output("force", state.force.norm());
@@ -1113,6 +1123,12 @@ mod tests {
         // Turned straight back the side force is 0, not 1e-16 of the flux.
         let back = solve(&with(&[("mode", "fixed"), ("angle", "180 deg"), ("k", "1")]));
         assert_eq!(out(&back, "force_y"), 0.0);
+        // A fixed vane does no work: its efficiency is not applicable, and says why.
+        assert!(back.output("efficiency").is_none());
+        assert!(back
+            .warnings
+            .iter()
+            .any(|w| w.message.starts_with("Efficiency: not applicable")));
     }
 
     #[test]
