@@ -37,7 +37,9 @@
 //! Shown in the checks table ([`Report::check`]): the engine's branch flows against
 //! the common flow as given, and each thrust component against the impulse-function
 //! sum −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
-//! written out from Bernoulli per branch, not taken from the engine.
+//! written out from Bernoulli per branch, not taken from the engine. A thrust
+//! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
+//! square branch's pressure force) is rounding residue and shown as 0.
 //!
 //! On the outside-diameter basis (push-on and mechanical joints) each face's pressure
 //! also acts on the wall annulus out to the outside diameter, −p·(A_OD − A)·n, added

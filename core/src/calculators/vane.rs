@@ -35,7 +35,9 @@
 //! ṁ·W₁·(1 − k·cos θ) written by hand, the power F_x·u with the energy balance (jet
 //! flux − kinetic energy carried off − vane loss ṁ(1 − k²)W₁²/2 − the lengthening
 //! jet of a single vane), and the searched peak powers with their closed forms. A
-//! side force that is rounding residue of the flux turned is shown as 0.
+//! side force that is rounding residue of the flux turned is shown as 0. The
+//! efficiency is reported as not applicable, with the reason, for a fixed vane (it
+//! does no work) and for a wheel at its runaway speed (no load).
 //!
 //! Sources: the moving-vane and impulse-turbine sections of White, *Fluid
 //! Mechanics* (chapters 3 and 11), Munson et al., *Fundamentals of Fluid Mechanics*
