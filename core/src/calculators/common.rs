@@ -702,7 +702,8 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         return Err(vec![FieldError::inconsistent(
             field,
             format!(
-                "the jet speed comes out {velocity:.4} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} m/s"
+                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} m/s",
+                crate::units::format_significant(velocity, 4)
             ),
         )]);
     }

@@ -78,7 +78,8 @@ const MIN_RADIUS_M: f64 = 5e-3;
 const MIN_NOZZLE_M: f64 = 5e-4;
 /// The smallest flow accepted: 0.01 L/min.
 const MIN_FLOW_M3_S: f64 = 1e-5 / 60.0;
-/// The smallest supply pressure accepted: 10 Pa (1 mm of water).
+/// The smallest supply pressure accepted: 10 Pa (1 mm of water). Whatever drives it, a
+/// jet leaving the arm held still faster than `common::MAX_JET_SPEED` is refused.
 const MIN_PRESSURE_PA: f64 = 10.0;
 /// Speeds typed for a load: 0.1 to 100 000 rpm.
 const MIN_SPEED_RAD_S: f64 = 0.1 * 2.0 * PI / 60.0;
@@ -648,6 +649,16 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
 
     let stall = arm.state(0.0).map_err(fail)?;
+    if !(stall.jet.is_finite() && stall.jet <= common::MAX_JET_SPEED) {
+        return Err(vec![FieldError::inconsistent(
+            engine_field,
+            format!(
+                "the jets leave the arm held still at {} m/s; free jets are handled up to {} m/s: check the flow, the pressure and the nozzle size",
+                units::format_significant(stall.jet, 4),
+                common::MAX_JET_SPEED
+            ),
+        )]);
+    }
     let scale = arm.speed_scale(stall.jet);
     // No arm of this handbook turns faster than a nozzle speed of 2 km/s.
     let speed_limit = 2000.0 / arm.radius;
@@ -1172,6 +1183,11 @@ mod tests {
         let (field, message) = crate::calculators::testing::first_error(KEY, &[("d_hub", "40 mm")]);
         assert_eq!(field, "d_hub");
         assert!(message.contains("50.00 mm"), "{message}");
+        // 100 m³/s through four 0.5 mm nozzles would leave at 1.3e8 m/s: refused.
+        let (field, message) =
+            crate::calculators::testing::first_error(KEY, &[("q", "100 m3/s"), ("d_nozzle", "0.5 mm")]);
+        assert_eq!(field, "q");
+        assert!(message.contains("500 m/s"), "{message}");
         let s = crate::calculators::testing::solved(KEY, &[("d_hub", "50 mm")]);
         assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
     }
