@@ -601,7 +601,7 @@ pub fn spec() -> CalculatorSpec {
             "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
             "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
-            "A negative loss coefficient holds only for the flow split and area ratio it was published for: it raises that branch's pressure estimate (combining) or lowers the others' losses; recheck it whenever the split changes.",
+            "A negative loss coefficient (the stream gains energy from the others) holds only for the flow split and area ratio it was published for: recheck it whenever the split changes.",
         ],
     }
 }
