@@ -625,9 +625,11 @@ fn check_inputs(cv: &ControlVolume) -> Result<(), EngineError> {
         }
         match s.loss {
             Loss::Coefficient { k, reference_port } => {
-                if !(finite(k) && k >= 0.0) {
+                // A negative K is physical in a junction (a stream drawn along by
+                // another gains energy); the calculator bounds it.
+                if !finite(k) {
                     return Err(EngineError::InvalidInput {
-                        what: "loss coefficient must be finite and not negative",
+                        what: "loss coefficient must be finite",
                     });
                 }
                 if reference_port >= cv.ports.len() {

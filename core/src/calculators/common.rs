@@ -610,6 +610,13 @@ pub const JET_BASIS_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
+/// The smallest jet accepted: 0.5 mm.
+const MIN_JET_DIAMETER_M: f64 = 5e-4;
+/// Jet speeds handled, m/s: from a trickle to the jet of a 125 MPa cutting head (the
+/// incompressible model is already stretched there).
+pub const MIN_JET_SPEED: f64 = 0.1;
+pub const MAX_JET_SPEED: f64 = 500.0;
+
 /// A free jet leaving a nozzle, SI: diameter and area of the jet, mean speed, flow.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Jet {
@@ -632,8 +639,8 @@ pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
             "mm",
             "in",
             d,
-            Limits::positive(2.0),
-            "Diameter of the round jet where it leaves the nozzle (the nozzle's outlet bore).",
+            Limits::closed(MIN_JET_DIAMETER_M, 2.0),
+            "Diameter of the round jet where it leaves the nozzle (the nozzle's outlet bore), 0.5 mm to 2 m.",
         ),
         choice(
             "jet_basis",
@@ -644,19 +651,19 @@ pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
         ),
         FieldSpec {
             visible_when: Some(("jet_basis", &["v"])),
-            ..quantity("v_jet", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::positive(300.0), "Mean speed of the jet at the nozzle outlet.")
+            ..quantity("v_jet", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED), "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["q"])),
-            ..quantity("q_jet", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::positive(100.0), "Volumetric flow through the nozzle; the jet speed is the flow over the jet area.")
+            ..quantity("q_jet", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::closed(1e-6, 100.0), "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet area.")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["head"])),
-            ..quantity("h_supply", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::positive(3000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
+            ..quantity("h_supply", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::closed(1e-3, 10_000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["p"])),
-            ..quantity("p_supply", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::positive(MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
+            ..quantity("p_supply", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::closed(10.0, MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
         },
         FieldSpec {
             visible_when: Some(("jet_basis", &["head", "p"])),
@@ -691,6 +698,21 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         return Err(vec![FieldError::inconsistent(
             "d_jet",
             "the jet speed comes out zero or not finite: check the jet inputs",
+        )]);
+    }
+    if !(MIN_JET_SPEED..=MAX_JET_SPEED).contains(&velocity) {
+        let field = match values.choice("jet_basis").unwrap_or("v") {
+            "q" => "q_jet",
+            "head" => "h_supply",
+            "p" => "p_supply",
+            _ => "v_jet",
+        };
+        return Err(vec![FieldError::inconsistent(
+            field,
+            format!(
+                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} m/s",
+                crate::units::format_significant(velocity, 4)
+            ),
         )]);
     }
     Ok(Jet {

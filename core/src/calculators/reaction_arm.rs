@@ -13,7 +13,16 @@
 //! T = −Σ_out r × ṁ(W + ω×r) · ẑ = ρQ·R·(W·cos α − ωR),
 //!
 //! (the inlet, on the axis, carries no moment of momentum) and the shaft power is
-//! P = T·ω. Both are taken from the engine; the closed form is a check (unit test).
+//! P = T·ω. Both are taken from the engine. The checks table compares them with
+//! paths that do not use its angular-momentum balance: the torque with N tangential
+//! jet reactions ṁ_n(W·cos α − ωR) at R, the power with the fixed-frame energy
+//! balance Q·p₀,hub − ṁ|V|²/2 − ṁ·K·W²/2, and the searched runaway speed with its
+//! closed form (fed at fixed pressure the search is good to about 1e-12/(1 − c²)²,
+//! c = C_v·cos α: the tolerance follows, and no comparison is made for c² within
+//! 1e-4 of 1). A given hub bore must have at least the nozzles' total area (the
+//! model puts all the loss in the nozzles). Rounding residue (below 1e-12 of the terms summed) is shown as 0;
+//! the efficiency is reported as not applicable, with the reason, when the arm runs
+//! free, is driven by its shaft, or sees no hub pressure.
 //!
 //! The jet speed comes either from the given flow, W = Q/(N·A_n), or from the supply
 //! gauge pressure p at the hub through the energy balance in the rotating frame
@@ -63,6 +72,21 @@ pub const KEY: &str = "reaction-arm";
 const MAX_NOZZLES: f64 = 72.0;
 /// Points on the torque–speed and power–speed curves.
 const PLOT_POINTS: usize = 61;
+/// The shortest arm accepted: 5 mm from the axis to the nozzle.
+const MIN_RADIUS_M: f64 = 5e-3;
+/// The smallest nozzle (and hub bore) accepted: 0.5 mm.
+const MIN_NOZZLE_M: f64 = 5e-4;
+/// The smallest flow accepted: 0.01 L/min.
+const MIN_FLOW_M3_S: f64 = 1e-5 / 60.0;
+/// The smallest supply pressure accepted: 10 Pa (1 mm of water). Whatever drives it, a
+/// jet leaving the arm held still faster than `common::MAX_JET_SPEED` is refused.
+const MIN_PRESSURE_PA: f64 = 10.0;
+/// Speeds typed for a load: 0.1 to 100 000 rpm.
+const MIN_SPEED_RAD_S: f64 = 0.1 * 2.0 * PI / 60.0;
+const MAX_SPEED_RAD_S: f64 = 1e5 * 2.0 * PI / 60.0;
+/// Results within this fraction of the terms they were summed from are rounding
+/// residue and shown as 0 (a free-running arm's torque, its hub pressure at runaway).
+const RESIDUE: f64 = 1e-12;
 
 const DRIVE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -117,7 +141,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "1200 mm",
-            Limits::positive(common::MAX_SIZE_M),
+            Limits::closed(MIN_RADIUS_M, common::MAX_SIZE_M),
             "Distance from the axis of rotation to the centre of each nozzle exit.",
         ),
         quantity(
@@ -127,8 +151,8 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "25 mm",
-            Limits::positive(1.0),
-            "Diameter of each jet at the nozzle exit (the vena contracta for a sharp orifice).",
+            Limits::closed(MIN_NOZZLE_M, 1.0),
+            "Diameter of each jet at the nozzle exit (the vena contracta for a sharp orifice), 0.5 mm to 1 m.",
         ),
         quantity(
             "alpha",
@@ -173,8 +197,8 @@ pub fn spec() -> CalculatorSpec {
                 "m3/h",
                 "gpm",
                 "40 m3/h",
-                Limits::positive(100.0),
-                "All nozzles together; must be greater than zero.",
+                Limits::closed(MIN_FLOW_M3_S, 100.0),
+                "All nozzles together, 0.01 L/min to 100 m³/s.",
             )
         },
         FieldSpec {
@@ -186,8 +210,8 @@ pub fn spec() -> CalculatorSpec {
                 "kPa",
                 "psi",
                 "20 kPa",
-                Limits::positive(MAX_PRESSURE_PA),
-                "Gauge pressure in the hub on the axis, after the swivel; must be greater than zero.",
+                Limits::closed(MIN_PRESSURE_PA, MAX_PRESSURE_PA),
+                "Gauge pressure in the hub on the axis, after the swivel, 10 Pa to 100 MPa.",
             )
         },
         FieldSpec {
@@ -199,7 +223,7 @@ pub fn spec() -> CalculatorSpec {
                 "mm",
                 "in",
                 "",
-                Limits::positive(common::MAX_SIZE_M),
+                Limits::closed(MIN_NOZZLE_M, common::MAX_SIZE_M),
                 "Bore of the passage where the supply pressure is read. Empty: the velocity head in the hub is neglected (the pressure is the total head).",
             )
         },
@@ -232,8 +256,8 @@ pub fn spec() -> CalculatorSpec {
                 "rpm",
                 "rpm",
                 "",
-                Limits::positive(1e5),
-                "The load torque scales with speed (or speed squared) through this point.",
+                Limits::closed(MIN_SPEED_RAD_S, MAX_SPEED_RAD_S),
+                "The load torque scales with speed (or speed squared) through this point; 0.1 to 100 000 rpm.",
             )
         },
         FieldSpec {
@@ -245,8 +269,8 @@ pub fn spec() -> CalculatorSpec {
                 "rpm",
                 "rpm",
                 "",
-                Limits::closed(0.0, 1e5),
-                "The speed the driven machine holds; 0 gives the stall torque.",
+                Limits::closed(0.0, MAX_SPEED_RAD_S),
+                "The speed the driven machine holds, 0 to 100 000 rpm; 0 gives the stall torque.",
             )
         },
     ];
@@ -265,7 +289,6 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "stall_torque", label: "Stall torque (arm held still)", kind: Q::Torque, headline: false },
             OutputSpec { key: "max_power", label: "Largest shaft power (over speed)", kind: Q::Power, headline: false },
             OutputSpec { key: "speed_at_max_power", label: "Speed of largest power", kind: Q::AngularSpeed, headline: false },
-            OutputSpec { key: "runaway_closed_form", label: "Runaway speed, closed form (check)", kind: Q::AngularSpeed, headline: false },
             OutputSpec { key: "jet_velocity", label: "Jet speed relative to the nozzle W", kind: Q::Velocity, headline: false },
             OutputSpec { key: "tip_speed", label: "Nozzle speed ωR", kind: Q::Velocity, headline: false },
             OutputSpec { key: "jet_swirl", label: "Absolute tangential jet velocity W·cos α − ωR", kind: Q::Velocity, headline: false },
@@ -343,7 +366,10 @@ struct Arm {
 struct State {
     omega: f64,
     jet: f64,
+    /// Torque the water delivers, with rounding residue shown as 0.
     torque: f64,
+    /// The engine's torque as computed, for finding where it changes sign.
+    raw_torque: f64,
     power: f64,
     flow: f64,
     /// Gauge pressure at the hub as the supply sees it (total when the bore is not given).
@@ -441,27 +467,50 @@ impl Arm {
             }
         };
         let balance = engine::balance(&self.control_volume(omega, jet))?;
-        let torque = balance.shaft_torque.unwrap_or(f64::NAN);
-        let power = balance.shaft_power.unwrap_or(f64::NAN);
         let flow: f64 = balance.ports.iter().skip(1).map(|p| p.volume_flow).sum();
+        // Rounding residue of the terms each result is summed from is the 0 it
+        // stands for (a free-running arm's torque, the hub pressure at runaway).
+        let (rho, r) = (self.fluid.density, self.radius);
+        // The engine sums moments of jets of speed W leaving at R on a frame moving
+        // at ωR: its rounding follows ρQR(W + ωR), whatever the nozzle angle.
+        let torque_scale = rho * flow * r * (jet + omega * r);
+        let raw_torque = balance.shaft_torque.unwrap_or(f64::NAN);
+        let torque = zero_if_residue(raw_torque, torque_scale);
+        // P = T·ω, from the torque as shown (the engine's power is the same product).
+        let power = torque * omega;
+        let hub_speed = balance.ports[0].speed;
+        let pressure_scale = 0.5 * rho * (jet * jet * (1.0 + self.k) + (omega * r).powi(2) + hub_speed * hub_speed);
         Ok(State {
             omega,
             jet,
             torque,
+            raw_torque,
             power,
             flow,
-            supply_pressure: self.supply_pressure_of(&balance),
+            supply_pressure: zero_if_residue(self.supply_pressure_of(&balance), pressure_scale),
             balance,
         })
     }
 
+    /// The water's torque at ω as the engine computes it (residue included, so that
+    /// a search for its zero is not stopped short by the band shown as 0).
     fn torque(&self, omega: f64) -> Result<f64, EngineError> {
-        Ok(self.state(omega)?.torque)
+        Ok(self.state(omega)?.raw_torque)
     }
 
     /// A speed scale: the runaway speed of the same arm with the stall jet speed.
     fn speed_scale(&self, stall_jet: f64) -> f64 {
         (stall_jet * self.cos_alpha().max(0.05) / self.radius).max(1e-6)
+    }
+}
+
+/// `value`, or 0 when it is within [`RESIDUE`] of `scale`, the size of the terms it
+/// was summed from.
+fn zero_if_residue(value: f64, scale: f64) -> f64 {
+    if value.abs() <= RESIDUE * scale.abs() {
+        0.0
+    } else {
+        value
     }
 }
 
@@ -557,6 +606,16 @@ fn read(values: &Values) -> Result<(Arm, Load), Vec<FieldError>> {
     let hub_area = values
         .is_set("d_hub")
         .then(|| common::circle_area(values.quantity_or("d_hub", 1.0)));
+    let nozzles_area = nozzles_raw.max(1.0) * common::circle_area(d_nozzle);
+    if hub_area.is_some_and(|a| a < nozzles_area) {
+        errors.push(FieldError::inconsistent(
+            "d_hub",
+            format!(
+                "the hub bore must pass the flow at least as freely as the nozzles: at least √N × the nozzle diameter ({}), or leave it empty",
+                units::format_quantity_in((4.0 * nozzles_area / PI).sqrt(), Q::Length, "mm")
+            ),
+        ));
+    }
     if !errors.is_empty() {
         return Err(errors);
     }
@@ -590,6 +649,16 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
 
     let stall = arm.state(0.0).map_err(fail)?;
+    if !(stall.jet.is_finite() && stall.jet <= common::MAX_JET_SPEED) {
+        return Err(vec![FieldError::inconsistent(
+            engine_field,
+            format!(
+                "the jets leave the arm held still at {} m/s; free jets are handled up to {} m/s: check the flow, the pressure and the nozzle size",
+                units::format_significant(stall.jet, 4),
+                common::MAX_JET_SPEED
+            ),
+        )]);
+    }
     let scale = arm.speed_scale(stall.jet);
     // No arm of this handbook turns faster than a nozzle speed of 2 km/s.
     let speed_limit = 2000.0 / arm.radius;
@@ -646,8 +715,28 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         }
         Drive::Pressure(_) => None,
     };
-    if let Some(w) = closed_form {
-        report.output("runaway_closed_form", w);
+    // Fed at fixed pressure, the jet speed near runaway comes from a hub pressure
+    // that nearly cancels the centrifugal head: the searched speed is good to about
+    // 1e-12/(1 − c²)² of itself, so the tolerance follows that, and the comparison is
+    // not made where it could no longer fail (c² within 1e-4 of 1).
+    let tolerance = match arm.drive {
+        Drive::Flow(_) => Some(1e-9),
+        Drive::Pressure(_) => {
+            let c = arm.cv * arm.cos_alpha();
+            let gap = 1.0 - c * c;
+            (gap >= 1e-4).then(|| 1e-9 + 1e-12 / (gap * gap))
+        }
+    };
+    if let (Some(closed), Some(found), Some(tolerance)) = (closed_form, runaway, tolerance) {
+        report.check(
+            "Runaway speed (searched over the balances)",
+            "closed form: fixed flow ω = W·cos α/R; fixed pressure ω = c·√(2p/ρ)/(R·√(1 − c²)), c = C_v·cos α",
+            Q::AngularSpeed,
+            found,
+            closed,
+            tolerance,
+            0.0,
+        );
     }
 
     // Largest power between standstill and runaway (power is zero at both ends with
@@ -665,7 +754,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             report.output("speed", s.omega);
             report.output("torque", s.torque);
             report.output("power", s.power);
-            if s.torque < 0.0 {
+            if matches!(load, Load::Held(_)) && s.torque < 0.0 {
                 report.warn(
                     Some("n_held"),
                     "the held speed is above the runaway speed: the shaft drives the arm, which then works as a pump (negative torque and power)",
@@ -681,9 +770,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("flow", shown.flow);
     report.output("mass_flow", shown.flow * arm.fluid.density);
     report.output("supply_pressure", shown.supply_pressure);
-    if shown.supply_pressure > 0.0 && shown.flow > 0.0 && shown.power >= 0.0 {
-        report.output("efficiency", shown.power / (shown.flow * shown.supply_pressure));
+    match efficiency_of(&shown, &load) {
+        Ok(efficiency) => report.output("efficiency", efficiency),
+        Err(reason) => report.warn(None, format!("Efficiency: not applicable, {reason}")),
     }
+    independent_checks(report, &arm, &shown);
     report.output("density", arm.fluid.density);
     if shown.supply_pressure < 0.0 {
         report.warn(
@@ -697,17 +788,79 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     common::forward_warnings(&shown.balance, report);
 
     let system = report.system();
-    report.solution.tables.push(torque_ledger(&shown, &arm, system));
+    report.solution.tables.push(torque_ledger(&shown, system));
     report.solution.tables.push(common::ports_table(&shown.balance, system));
     report.solution.diagrams.push(diagram(&arm, &shown, report));
     plots(&arm, &load, operating, runaway, scale, report).map_err(fail)?;
     Ok(())
 }
 
+/// Shaft power over the hydraulic power the supply delivers, Q × total hub pressure;
+/// or why that ratio means nothing at this state.
+fn efficiency_of(state: &State, load: &Load) -> Result<f64, &'static str> {
+    if matches!(load, Load::None) {
+        return Err("the arm runs free (no load): it takes no shaft power, so all the supply's energy leaves in the jets and the nozzle loss");
+    }
+    if state.power < 0.0 {
+        return Err("the shaft drives the arm at this speed (it works as a pump): the ratio of shaft to supply power has no meaning");
+    }
+    if !(state.supply_pressure > 0.0 && state.flow > 0.0) {
+        return Err("the hub pressure is not above atmospheric at this speed, so the supply delivers no hydraulic power to compare with");
+    }
+    Ok(state.power / (state.flow * state.supply_pressure))
+}
+
+/// Checks of the state shown against paths that do not go through the engine's
+/// angular-momentum balance:
+///
+/// - torque: N nozzles, each with the tangential reaction of its jet,
+///   ṁ_n·(W·cos α − ωR), at the radius R;
+/// - power: T·ω against the energy balance in the fixed frame, the hydraulic power
+///   the supply delivers, Q·p_total, less the kinetic energy the jets carry off,
+///   ṁ·|V|²/2 with V = W + ωR, and the nozzle loss ṁ·K·W²/2.
+fn independent_checks(report: &mut Report<'_>, arm: &Arm, state: &State) {
+    let rho = arm.fluid.density;
+    let (r, w, omega) = (arm.radius, state.jet, state.omega);
+    let mass_flow = rho * state.flow;
+    let per_nozzle = mass_flow / arm.nozzles as f64;
+    let tangential = w * arm.cos_alpha() - omega * r;
+    let torque = arm.nozzles as f64 * per_nozzle * tangential * r;
+    let torque_scale = mass_flow * r * (w + omega * r);
+    report.check(
+        "Torque delivered to the shaft",
+        "N × tangential jet reaction ṁ_n(W·cos α − ωR) × R",
+        Q::Torque,
+        state.torque,
+        torque,
+        1e-9,
+        torque_scale,
+    );
+    let hub_speed = state.flow / arm.hub_port_area();
+    let total_hub_pressure = match arm.hub_area {
+        // A given bore: the supply pressure is static; add the hub velocity head.
+        Some(_) => state.supply_pressure + 0.5 * rho * hub_speed * hub_speed,
+        // No bore: the supply pressure is already the total head.
+        None => state.supply_pressure,
+    };
+    let jet_speed_squared = tangential * tangential + (w * arm.alpha.sin()).powi(2);
+    let carried = 0.5 * mass_flow * jet_speed_squared;
+    let loss = 0.5 * mass_flow * arm.k * w * w;
+    let supplied = state.flow * total_hub_pressure;
+    report.check(
+        "Shaft power T·ω",
+        "energy balance: Q·p_total at the hub − jets' kinetic energy ṁV²/2 − nozzle loss ṁ·K·W²/2",
+        Q::Power,
+        state.power,
+        supplied - carried - loss,
+        1e-9,
+        supplied.abs() + 0.5 * mass_flow * (w * w * (1.0 + arm.k) + (omega * r).powi(2)),
+    );
+}
+
 /// The angular-momentum ledger about the axis: each nozzle's moment of momentum
 /// outflow and pressure moment, the torque the shaft supplies and the torque the
 /// water delivers.
-fn torque_ledger(state: &State, arm: &Arm, system: UnitSystem) -> Table {
+fn torque_ledger(state: &State, system: UnitSystem) -> Table {
     let b = &state.balance;
     let o = b.moment_point;
     let mut rows: Vec<(String, f64)> = Vec::new();
@@ -728,8 +881,6 @@ fn torque_ledger(state: &State, arm: &Arm, system: UnitSystem) -> Table {
         "T = torque the water delivers to the shaft, −M".to_string(),
         state.torque,
     ));
-    let closed = arm.fluid.density * state.flow * arm.radius * (state.jet * arm.cos_alpha() - state.omega * arm.radius);
-    rows.push(("check: ρQR(W·cos α − ωR)".to_string(), closed));
     let max = rows.iter().map(|(_, v)| v.abs()).fold(0.0, f64::max);
     let unit = units::display_unit(max, Q::Torque, system).id;
     Table {
@@ -995,6 +1146,59 @@ mod tests {
             hub_area: None,
             drive,
         }
+    }
+
+    #[test]
+    fn a_free_running_arm_shows_zero_torque_and_hub_pressure_and_no_efficiency() {
+        // Derived from the definition: an ideal tangential arm fed a fixed flow runs
+        // free at ωR = W, where T = ρQR(W − ωR) = 0 and the rotating-frame energy
+        // balance gives a hub pressure ρ(W² − ω²R²)/2 = 0: rounding residue of
+        // 1e-16 N·m or 1e-11 Pa is shown as the 0 it is.
+        for alpha in ["0 deg", "0.000001 deg"] {
+            let s = crate::calculators::testing::solved(
+                KEY,
+                &[("load", "none"), ("alpha", alpha), ("cv", "1"), ("nozzles", "3")],
+            );
+            let out = |k: &str| s.output(k).map(|o| o.si);
+            assert_eq!(out("torque"), Some(0.0), "{alpha}");
+            assert_eq!(out("power"), Some(0.0), "{alpha}");
+            if alpha == "0 deg" {
+                assert_eq!(out("supply_pressure"), Some(0.0));
+            }
+            assert_eq!(out("efficiency"), None, "{alpha}");
+            let texts: Vec<&str> = s.warnings.iter().map(|w| w.message.as_str()).collect();
+            assert!(
+                texts.iter().any(|t| t.starts_with("Efficiency: not applicable")),
+                "{texts:?}"
+            );
+            assert!(!texts.iter().any(|t| t.contains("held speed")), "{texts:?}");
+            assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+        }
+    }
+
+    #[test]
+    fn a_hub_bore_narrower_than_the_nozzles_together_is_refused() {
+        // Four 25 mm nozzles need a hub bore of at least 50 mm (√4 × 25 mm): a
+        // narrower one would be faster than the jets, outside this model.
+        let (field, message) = crate::calculators::testing::first_error(KEY, &[("d_hub", "40 mm")]);
+        assert_eq!(field, "d_hub");
+        assert!(message.contains("50.00 mm"), "{message}");
+        // 100 m³/s through four 0.5 mm nozzles would leave at 1.3e8 m/s: refused.
+        let (field, message) =
+            crate::calculators::testing::first_error(KEY, &[("q", "100 m3/s"), ("d_nozzle", "0.5 mm")]);
+        assert_eq!(field, "q");
+        assert!(message.contains("500 m/s"), "{message}");
+        let s = crate::calculators::testing::solved(KEY, &[("d_hub", "50 mm")]);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+    }
+
+    #[test]
+    fn held_speed_above_runaway_is_warned_only_when_a_speed_is_held() {
+        let held = crate::calculators::testing::solved(KEY, &[("load", "speed"), ("n_held", "5000 rpm")]);
+        assert!(held.output("torque").map(|o| o.si < 0.0).unwrap_or(false));
+        assert!(held.warnings.iter().any(|w| w.message.contains("held speed is above")));
+        assert_eq!(held.output("efficiency"), None);
+        assert!(held.checks.iter().all(|c| c.agrees()), "{:?}", held.checks);
     }
 
     #[test]

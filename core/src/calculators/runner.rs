@@ -42,6 +42,15 @@
 //! term (the rothalpy is constant along an ideal blade passage):
 //! p₂ − p₁ = ρ/2·[(W₁² − W₂²) + (u₂² − u₁²)].
 //!
+//! # Checks
+//! The checks table ([`Report::check`]) compares the engine's torque with
+//! ρQ(r₁V_θ1 − r₂V_θ2) written from the triangles, and the Euler head with the energy
+//! form of the triangles [(V₁² − V₂²) + (u₁² − u₂²) + (W₂² − W₁²)]/2g and with the
+//! static pressure change of the second balance plus the change of absolute velocity
+//! head. A torque within 1e-12 of the swirl moments is rounding residue, shown as 0;
+//! the efficiency is reported as not applicable, with the reason, when the Euler head
+//! is not positive.
+//!
 //! # Assumptions
 //! Ideal (Euler) flow: the water follows the blades exactly (infinitely many blades,
 //! no slip), uniform velocities over each station, no leakage, disc friction or
@@ -94,11 +103,25 @@ const LAYOUT_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
-const ANGLE_OPEN: Limits = Limits {
-    min: 0.0,
-    max: PI - 1e-9,
-    min_inclusive: false,
-};
+/// Blade and flow angles: 1° to 179° (a blade at 0° or 180° lies in the plane of
+/// the motion and passes no flow; tan of a vanishing angle overflows the swirl).
+const ANGLE_RANGE: Limits = Limits::closed(PI / 180.0, 179.0 * PI / 180.0);
+/// Sizes: 1 mm to 10 m.
+const SIZE_RANGE: Limits = Limits::closed(1e-3, MAX_SIZE_M);
+/// Annulus areas: 1 mm² to 100 m².
+const AREA_RANGE: Limits = Limits::closed(1e-6, 100.0);
+/// Shaft speeds: 1 to 100 000 rpm.
+const SPEED_RANGE: Limits = Limits::closed(2.0 * PI / 60.0, 1e5 * 2.0 * PI / 60.0);
+/// Flows: 0.001 L/s to 1000 m³/s.
+const FLOW_RANGE: Limits = Limits::closed(1e-6, 1e3);
+/// Net heads: 1 cm to 10 km.
+const HEAD_RANGE: Limits = Limits::closed(0.01, 1e4);
+/// The fastest blade speed accepted, m/s: well above the tip speeds of water
+/// turbines and pumps (a few tens to about 200 m/s, common practice, no source).
+const MAX_BLADE_SPEED: f64 = 500.0;
+/// Results within this fraction of the terms they were summed from are rounding
+/// residue and shown as 0.
+const RESIDUE: f64 = 1e-12;
 
 pub fn spec() -> CalculatorSpec {
     let radial = Some(("layout", &["radial"][..]));
@@ -120,46 +143,46 @@ pub fn spec() -> CalculatorSpec {
         ),
         FieldSpec {
             visible_when: radial,
-            ..quantity("r1", "Radius at the blade inlet r₁", Q::Length, "mm", "in", "65 mm", Limits::positive(MAX_SIZE_M), "Where the water enters the blades: the eye of a pump, the outer rim of a radial turbine.")
+            ..quantity("r1", "Radius at the blade inlet r₁", Q::Length, "mm", "in", "65 mm", SIZE_RANGE, "Where the water enters the blades: the eye of a pump, the outer rim of a radial turbine.")
         },
         FieldSpec {
             visible_when: radial,
-            ..quantity("r2", "Radius at the blade outlet r₂", Q::Length, "mm", "in", "160 mm", Limits::positive(MAX_SIZE_M), "Where the water leaves the blades.")
+            ..quantity("r2", "Radius at the blade outlet r₂", Q::Length, "mm", "in", "160 mm", SIZE_RANGE, "Where the water leaves the blades.")
         },
         FieldSpec {
             visible_when: radial,
-            ..quantity("b1", "Blade height at the inlet b₁", Q::Length, "mm", "in", "40 mm", Limits::positive(MAX_SIZE_M), "Width of the passage across the flow at r₁ (flow area 2π·r₁·b₁).")
+            ..quantity("b1", "Blade height at the inlet b₁", Q::Length, "mm", "in", "40 mm", SIZE_RANGE, "Width of the passage across the flow at r₁ (flow area 2π·r₁·b₁).")
         },
         FieldSpec {
             visible_when: radial,
-            ..quantity("b2", "Blade height at the outlet b₂", Q::Length, "mm", "in", "22 mm", Limits::positive(MAX_SIZE_M), "Width of the passage at r₂ (flow area 2π·r₂·b₂).")
+            ..quantity("b2", "Blade height at the outlet b₂", Q::Length, "mm", "in", "22 mm", SIZE_RANGE, "Width of the passage at r₂ (flow area 2π·r₂·b₂).")
         },
         FieldSpec {
             visible_when: axial,
-            ..quantity("r_mean", "Mean radius", Q::Length, "mm", "in", "", Limits::positive(MAX_SIZE_M), "Radius at which the triangles are drawn, usually the mean of hub and tip radii.")
+            ..quantity("r_mean", "Mean radius", Q::Length, "mm", "in", "", SIZE_RANGE, "Radius at which the triangles are drawn, usually the mean of hub and tip radii.")
         },
         FieldSpec {
             visible_when: axial,
-            ..quantity("a1", "Annulus area at the inlet", Q::Area, "m2", "ft2", "", Limits::positive(100.0), "Flow area between hub and tip where the water enters the blades.")
+            ..quantity("a1", "Annulus area at the inlet", Q::Area, "m2", "ft2", "", AREA_RANGE, "Flow area between hub and tip where the water enters the blades.")
         },
         FieldSpec {
             visible_when: axial,
-            ..quantity("a2", "Annulus area at the outlet", Q::Area, "m2", "ft2", "", Limits::positive(100.0), "Flow area where the water leaves the blades.")
+            ..quantity("a2", "Annulus area at the outlet", Q::Area, "m2", "ft2", "", AREA_RANGE, "Flow area where the water leaves the blades.")
         },
         FieldSpec {
             optional: true,
-            ..quantity("beta1", "Blade angle at the inlet β₁", Q::Angle, "deg", "deg", "", ANGLE_OPEN, "From the direction opposite to the blade motion (90 deg = radial or axial blade). Empty: taken to match the inlet flow (no incidence).")
+            ..quantity("beta1", "Blade angle at the inlet β₁", Q::Angle, "deg", "deg", "", ANGLE_RANGE, "From the direction opposite to the blade motion (90 deg = radial or axial blade). Empty: taken to match the inlet flow (no incidence).")
         },
-        quantity("beta2", "Blade angle at the outlet β₂", Q::Angle, "deg", "deg", "25 deg", ANGLE_OPEN, "From the direction opposite to the blade motion; sets the outlet swirl V_θ2 = u₂ − V_m2/tan β₂."),
+        quantity("beta2", "Blade angle at the outlet β₂", Q::Angle, "deg", "deg", "25 deg", ANGLE_RANGE, "From the direction opposite to the blade motion; sets the outlet swirl V_θ2 = u₂ − V_m2/tan β₂."),
         FieldSpec {
             optional: true,
-            ..quantity("alpha1", "Guide-vane (inlet flow) angle α₁", Q::Angle, "deg", "deg", "", ANGLE_OPEN, "Angle of the absolute inlet velocity from the direction of blade motion, V_θ1 = V_m1/tan α₁. Empty: 90 deg, no pre-swirl.")
+            ..quantity("alpha1", "Guide-vane (inlet flow) angle α₁", Q::Angle, "deg", "deg", "", ANGLE_RANGE, "Angle of the absolute inlet velocity from the direction of blade motion, V_θ1 = V_m1/tan α₁. Empty: 90 deg, no pre-swirl.")
         },
-        quantity("n", "Speed", Q::AngularSpeed, "rpm", "rpm", "1480 rpm", Limits::positive(1e5), "Shaft speed."),
-        quantity("q", "Flow", Q::VolumeFlow, "m3/h", "gpm", "180 m3/h", Limits::positive(1e3), "Flow through the blades; must be greater than zero."),
+        quantity("n", "Speed", Q::AngularSpeed, "rpm", "rpm", "1480 rpm", SPEED_RANGE, "Shaft speed, 1 to 100 000 rpm."),
+        quantity("q", "Flow", Q::VolumeFlow, "m3/h", "gpm", "180 m3/h", FLOW_RANGE, "Flow through the blades, 0.001 L/s to 1000 m³/s."),
         FieldSpec {
             optional: true,
-            ..quantity("head", "Net head H", Q::Length, "m", "ft", "40 m", Limits::positive(1e4), "Turbine: net head available; pump: head delivered. Gives the hydraulic efficiency.")
+            ..quantity("head", "Net head H", Q::Length, "m", "ft", "40 m", HEAD_RANGE, "Turbine: net head available; pump: head delivered. Gives the hydraulic efficiency.")
         },
     ];
     fields.extend(common::fluid_fields("25 degC"));
@@ -364,6 +387,17 @@ fn read(values: &Values) -> Result<Runner, Vec<FieldError>> {
     let omega = values.quantity("n").map_err(|e| vec![e])?;
     let flow = values.quantity("q").map_err(|e| vec![e])?;
     let beta2 = values.quantity("beta2").map_err(|e| vec![e])?;
+    let fastest = omega * inlet.0.max(outlet.0);
+    if fastest > MAX_BLADE_SPEED {
+        errors.push(FieldError::inconsistent(
+            "n",
+            format!(
+                "at this speed the blades move at {} at the larger radius, above the {} m/s of any water runner or impeller: check the speed and the radii",
+                units::format_quantity_in(fastest, Q::Velocity, "m/s"),
+                MAX_BLADE_SPEED
+            ),
+        ));
+    }
     if !errors.is_empty() {
         return Err(errors);
     }
@@ -386,7 +420,15 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let fail = |e: EngineError| common::engine_error(e, "q");
     let flow = runner.flow;
     let (t1, t2, balance) = runner.momentum(flow).map_err(fail)?;
+    // A torque that is rounding residue of the moments of momentum it is summed from
+    // (inlet and outlet swirl moments that balance) is the 0 it stands for.
+    let moment_scale = moment_scale(&runner, &t1, &t2);
     let water_torque = balance.shaft_torque.unwrap_or(f64::NAN);
+    let water_torque = if water_torque.abs() <= RESIDUE * moment_scale {
+        0.0
+    } else {
+        water_torque
+    };
     let euler_head = runner.euler_head(water_torque, flow);
     let (torque, name, other) = match runner.machine {
         Machine::Turbine => (water_torque, "turbine", "pump"),
@@ -404,7 +446,12 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             Machine::Turbine => euler_head / head,
             Machine::Pump => head / euler_head,
         };
-        if euler_head > 0.0 {
+        if euler_head <= 0.0 {
+            report.warn(
+                Some("head"),
+                format!("Efficiency: not applicable, the Euler head is not positive: the {name} neither takes head out of the water nor gives it any with these triangles"),
+            );
+        } else {
             report.output("efficiency", efficiency);
             if efficiency > 1.0 {
                 report.warn(
@@ -457,17 +504,86 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         );
     }
     common::forward_warnings(&balance, report);
+    independent_checks(report, &runner, &t1, &t2, torque, euler_head, pressure_rise);
 
     let system = report.system();
     report.solution.tables.push(triangle_table(&t1, &t2, system));
     report
         .solution
         .tables
-        .push(ledger(&balance, &runner, &t1, &t2, euler_head, system));
+        .push(ledger(&balance, water_torque, euler_head, system));
     report.solution.diagrams.push(triangles_diagram(&t1, &t2, report));
     let plot = head_plot(&runner, report).map_err(fail)?;
     report.solution.plots.push(plot);
     Ok(())
+}
+
+/// The size of the moments of momentum the engine sums: it writes each swirl as the
+/// relative swirl plus the blade speed, so its rounding follows ρQ·r·(|V_θ| + u).
+fn moment_scale(runner: &Runner, t1: &Triangle, t2: &Triangle) -> f64 {
+    let station = |t: &Triangle| t.radius * (t.vtheta.abs() + t.u.abs());
+    runner.fluid.density * runner.flow * (station(t1) + station(t2))
+}
+
+/// Checks against paths that do not use the engine's angular-momentum balance:
+///
+/// - the torque against the moment of momentum written from the triangles,
+///   ρQ(r₁V_θ1 − r₂V_θ2) (with the machine's sign);
+/// - the Euler head against the energy form of the triangles,
+///   [(V₁² − V₂²) + (u₁² − u₂²) + (W₂² − W₁²)]/2g, in the machine's sense;
+/// - the Euler head against the static pressure change from the engine's energy
+///   balance in the rotating frame plus the change of absolute kinetic head:
+///   pump (p₂ − p₁)/ρg + (V₂² − V₁²)/2g, turbine the reverse.
+fn independent_checks(
+    report: &mut Report<'_>,
+    runner: &Runner,
+    t1: &Triangle,
+    t2: &Triangle,
+    torque: f64,
+    euler_head: f64,
+    pressure_rise: f64,
+) {
+    let rho = runner.fluid.density;
+    let g = STANDARD_GRAVITY;
+    let sign = if runner.machine == Machine::Turbine { 1.0 } else { -1.0 };
+    let moment = rho * runner.flow * (t1.radius * t1.vtheta - t2.radius * t2.vtheta);
+    let moment_scale = moment_scale(runner, t1, t2);
+    report.check(
+        "Shaft torque",
+        "moment of momentum from the triangles, ρQ(r₁V_θ1 − r₂V_θ2)",
+        Q::Torque,
+        torque,
+        sign * moment,
+        1e-9,
+        moment_scale,
+    );
+    let head_scale = [t1.v(), t2.v(), t1.u, t2.u, t1.w(), t2.w()]
+        .iter()
+        .map(|x| x * x)
+        .sum::<f64>()
+        / (2.0 * g);
+    let triangles =
+        (t1.v().powi(2) - t2.v().powi(2) + t1.u.powi(2) - t2.u.powi(2) + t2.w().powi(2) - t1.w().powi(2)) / (2.0 * g);
+    report.check(
+        "Euler head",
+        "energy form of the triangles, [(V₁²−V₂²) + (u₁²−u₂²) + (W₂²−W₁²)]/2g",
+        Q::Length,
+        euler_head,
+        sign * triangles,
+        1e-9,
+        head_scale,
+    );
+    let kinetic_rise = (t2.v().powi(2) - t1.v().powi(2)) / (2.0 * g);
+    let head_from_pressure = -sign * (pressure_rise / (rho * g) + kinetic_rise);
+    report.check(
+        "Euler head",
+        "static pressure change from the rotating-frame energy balance plus the change of absolute velocity head",
+        Q::Length,
+        euler_head,
+        head_from_pressure,
+        1e-9,
+        head_scale,
+    );
 }
 
 fn cell(v: f64, kind: Q, unit: &str) -> String {
@@ -536,15 +652,9 @@ fn triangle_table(t1: &Triangle, t2: &Triangle, system: UnitSystem) -> Table {
     }
 }
 
-/// The angular-momentum ledger about the axis and the two forms of the Euler head.
-fn ledger(
-    balance: &Balance,
-    runner: &Runner,
-    t1: &Triangle,
-    t2: &Triangle,
-    euler_head: f64,
-    system: UnitSystem,
-) -> Table {
+/// The angular-momentum ledger about the axis (terms of one balance) and the Euler
+/// head that follows from it; the checks table holds the independent forms.
+fn ledger(balance: &Balance, water_torque: f64, euler_head: f64, system: UnitSystem) -> Table {
     let o = balance.moment_point;
     let mut rows: Vec<(String, f64, Q)> = Vec::new();
     for p in &balance.ports {
@@ -562,27 +672,12 @@ fn ledger(
     ));
     rows.push((
         "T = torque the water exerts on the runner, −M".to_string(),
-        balance.shaft_torque.unwrap_or(f64::NAN),
-        Q::Torque,
-    ));
-    let rho = runner.fluid.density;
-    rows.push((
-        "check: ρQ(r₁V_θ1 − r₂V_θ2)".to_string(),
-        rho * runner.flow * (t1.radius * t1.vtheta - t2.radius * t2.vtheta),
+        water_torque,
         Q::Torque,
     ));
     rows.push((
         "Euler head from the torque, ±Tω/(ρgQ)".to_string(),
         euler_head,
-        Q::Length,
-    ));
-    let g2 = 2.0 * STANDARD_GRAVITY;
-    let energy_form =
-        (t1.v().powi(2) - t2.v().powi(2) + t1.u.powi(2) - t2.u.powi(2) + t2.w().powi(2) - t1.w().powi(2)) / g2;
-    let sign = if runner.machine == Machine::Turbine { 1.0 } else { -1.0 };
-    rows.push((
-        "check: [(V₁²−V₂²) + (u₁²−u₂²) + (W₂²−W₁²)]/2g, same sense".to_string(),
-        sign * energy_form,
         Q::Length,
     ));
     let torque_max = rows
@@ -605,7 +700,7 @@ fn ledger(
                 vec![label, cell(v, kind, unit), unit.to_string()]
             })
             .collect(),
-        emphasised_rows: vec![total + 1, total + 3],
+        emphasised_rows: vec![total + 1, total + 2],
     }
 }
 
@@ -832,5 +927,30 @@ mod tests {
         assert_eq!(field(&[("q", "0")]), "q");
         assert_eq!(field(&[("layout", "axial")]), "r_mean");
         assert_eq!(field(&[("beta2", "0 deg")]), "beta2");
+        // A vanishing angle would make the swirl V_m/tan α overflow: refused, as are
+        // sizes and speeds that are not physical.
+        assert_eq!(field(&[("alpha1", "1e-300 deg")]), "alpha1");
+        assert_eq!(field(&[("b1", "1e-300 mm")]), "b1");
+        assert_eq!(field(&[("n", "1e-300 rpm")]), "n");
+        assert_eq!(field(&[("head", "1e-300 m")]), "head");
+        // 160 mm at 60 000 rpm: blades at 1005 m/s, faster than any water runner.
+        assert_eq!(field(&[("n", "60000 rpm")]), "n");
+    }
+
+    #[test]
+    fn checks_agree_and_efficiency_is_explained_when_not_applicable() {
+        for machine in ["pump", "turbine"] {
+            let s = solve(&[("machine", machine)]);
+            assert_eq!(s.checks.len(), 3, "{machine}");
+            assert!(s.checks.iter().all(|c| c.agrees()), "{machine}: {:?}", s.checks);
+        }
+        // The demo pump's triangles run as a turbine give no positive Euler head:
+        // the efficiency is not applicable and the page says why.
+        let s = solve(&[("machine", "turbine"), ("head", "40 m")]);
+        assert!(s.output("efficiency").is_none());
+        assert!(s
+            .warnings
+            .iter()
+            .any(|w| w.message.starts_with("Efficiency: not applicable")));
     }
 }

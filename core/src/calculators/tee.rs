@@ -12,13 +12,19 @@
 //!
 //! - **Mass** ([`crate::engine`]): Q_i = s_i·Q₀ for the branches whose share s_i is
 //!   given; one share may be left empty and that branch's flow is solved from
-//!   Σ Q_out = Σ Q_in.
+//!   Σ Q_out = Σ Q_in. When every share is given (they must add up to 100 % within
+//!   1e-6), the branch with the largest share takes Q₀ less the others, so that mass
+//!   closes exactly.
 //! - **Energy**, along each stream between the common pipe and branch i:
 //!   p₀/ρ + V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
 //!   branch to the common pipe), with V_ref the common pipe's velocity (as most
 //!   junction-loss tables give it, e.g. Idelchik, *Handbook of Hydraulic
 //!   Resistance*, or Miller, *Internal Flow Systems*) or the branch's own. The
-//!   pressure is given in the common pipe; each branch pressure is solved.
+//!   pressure is given in the common pipe; each branch pressure is solved. K may be
+//!   negative (published tee data has it where a stream is drawn along by another:
+//!   Crane TP-410, 2009, Example 7-36, K = −0.040 for a converging branch), down to
+//!   [`MIN_LOSS_COEFFICIENT`] on the common velocity, as long as the junction as a whole
+//!   dissipates energy: Σ ρQ_i·K_i·V_ref,i²/2 ≥ 0.
 //! - **Momentum**: R = Σ p_i·A_i·n_i + Σ_out ṁβV − Σ_in ṁβV − W, thrust T = −R.
 //!
 //! With no flow every face has the same pressure and the thrust reduces to
@@ -26,6 +32,14 @@
 //! the branch (on the wall opposite its opening), the tee
 //! formula of the thrust-restraint guides (DIPRA, *Thrust Restraint Design for
 //! Ductile Iron Pipe*; AWWA Manual M41); it is reported beside the full result.
+//!
+//! # Checks
+//! Shown in the checks table ([`Report::check`]): the engine's branch flows against
+//! the common flow as given, and each thrust component against the impulse-function
+//! sum −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
+//! written out from Bernoulli per branch, not taken from the engine. A thrust
+//! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
+//! square branch's pressure force) is rounding residue and shown as 0.
 //!
 //! On the outside-diameter basis (push-on and mechanical joints) each face's pressure
 //! also acts on the wall annulus out to the outside diameter, −p·(A_OD − A)·n, added
@@ -52,6 +66,18 @@ pub const KEY: &str = "tee";
 
 /// The most branches a junction may have.
 pub const MAX_BRANCHES: usize = 6;
+
+/// The lowest loss coefficient accepted, on the common pipe's velocity. Published
+/// junction data has negative K where one stream is drawn along by another: the
+/// Crane method for a converging tee's branch (Crane, *Flow of Fluids Through Valves,
+/// Fittings, and Pipe*, TP-410, 2009 edition, as coded in `fluids==1.3.1`,
+/// `fluids.fittings.K_branch_converging_Crane(0.3, 0.1, 1.0, 0.0, 90)`) gives −1.0 as
+/// the branch flow vanishes, its lowest value; Crane's Example 7-36 gives −0.040.
+pub const MIN_LOSS_COEFFICIENT: f64 = -1.0;
+/// The highest loss coefficient accepted: far above any tee or wye in the tables.
+pub const MAX_LOSS_COEFFICIENT: f64 = 50.0;
+/// The smallest bore accepted for the common pipe and the branches.
+const MIN_BORE_M: f64 = 1e-3;
 
 const MODE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -300,7 +326,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "310 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(MIN_BORE_M, MAX_SIZE_M),
             "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when combining).",
         ),
         quantity(
@@ -365,7 +391,7 @@ pub fn spec() -> CalculatorSpec {
             "mm",
             "in",
             "326 mm",
-            Limits::positive(MAX_SIZE_M),
+            Limits::closed(MIN_BORE_M, MAX_SIZE_M),
             "Outside diameter of the common pipe at its joint.",
         )
     });
@@ -380,7 +406,7 @@ pub fn spec() -> CalculatorSpec {
                 "mm",
                 "in",
                 b.d_demo,
-                Limits::positive(MAX_SIZE_M),
+                Limits::closed(MIN_BORE_M, MAX_SIZE_M),
                 "Bore of this branch.",
             )
         });
@@ -435,8 +461,8 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "-",
                 b.k_demo,
-                Limits::closed(0.0, 50.0),
-                "Head loss K·V²/2g between the common pipe and this branch; empty means no loss. Name the method (Idelchik, Miller, Crane).",
+                Limits::closed(MIN_LOSS_COEFFICIENT, MAX_LOSS_COEFFICIENT),
+                "Head loss K·V²/2g between the common pipe and this branch, −1 to 50; empty means no loss. Published tee data has negative K for some flow splits (the stream gains energy from the others), down to −1 on the common pipe's velocity; the losses of all branches together must not create energy. Name the method (Idelchik, Miller, Crane).",
             )
         });
         fields.push(FieldSpec {
@@ -449,8 +475,8 @@ pub fn spec() -> CalculatorSpec {
                 "mm",
                 "in",
                 b.od_demo,
-                Limits::positive(MAX_SIZE_M),
-                "Only for the outside-diameter basis: the branch pipe's outside diameter at its joint.",
+                Limits::closed(MIN_BORE_M, MAX_SIZE_M),
+                "Needed only on the outside-diameter basis, and then required for every branch in use: the branch pipe's outside diameter at its joint. Left empty on the inside-diameter basis.",
             )
         });
     }
@@ -575,6 +601,7 @@ pub fn spec() -> CalculatorSpec {
             "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
             "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
+            "A negative loss coefficient (the stream gains energy from the others) holds only for the flow split and area ratio it was published for: recheck it whenever the split changes.",
         ],
     }
 }
@@ -692,6 +719,92 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
     Ok(branches)
 }
 
+/// The flow given to each branch (`None` for the one solved by mass). When every
+/// share is given, they add up to 100 % only within 1e-6: the branch with the largest
+/// share takes the common flow less the others, so that mass closes exactly rather
+/// than to the rounding of the typed shares.
+fn branch_flows(branches: &[Branch], total_flow: f64) -> Vec<Option<f64>> {
+    let mut flows: Vec<Option<f64>> = branches.iter().map(|b| b.share.map(|s| s * total_flow)).collect();
+    if flows.iter().all(Option::is_some) {
+        let largest = branches
+            .iter()
+            .enumerate()
+            .max_by(|a, b| a.1.share.unwrap_or(0.0).total_cmp(&b.1.share.unwrap_or(0.0)))
+            .map(|(n, _)| n);
+        if let Some(n) = largest {
+            let others: f64 = flows
+                .iter()
+                .enumerate()
+                .filter(|(m, _)| *m != n)
+                .filter_map(|(_, q)| *q)
+                .sum();
+            flows[n] = Some((total_flow - others).max(0.0));
+        }
+    }
+    flows
+}
+
+/// Negative loss coefficients are physical (a stream drawn along by another gains
+/// energy) but bounded: each, taken on the common pipe's velocity, is at least
+/// [`MIN_LOSS_COEFFICIENT`], and the junction as a whole must not create energy:
+/// the dissipation Σ ṁ_i·K_i·V_ref,i²/2 over the branches is not negative. (The
+/// mechanical energy the streams carry in less what they carry out is that sum, for
+/// dividing and combining flow alike.)
+fn check_loss_coefficients(
+    branches: &[Branch],
+    flows: &[Option<f64>],
+    a_common: f64,
+    total_flow: f64,
+    k_on_common: bool,
+) -> Result<(), Vec<FieldError>> {
+    let v_common = total_flow / a_common;
+    if v_common <= 0.0 {
+        // No flow, no loss: the coefficients do not enter.
+        return Ok(());
+    }
+    let given: f64 = flows.iter().flatten().sum();
+    let mut dissipation = 0.0;
+    let mut magnitude = 0.0;
+    let mut most_negative: Option<(f64, &'static str)> = None;
+    for (b, q) in branches.iter().zip(flows) {
+        let q = q.unwrap_or((total_flow - given).max(0.0));
+        let v_ref = if k_on_common {
+            v_common
+        } else {
+            q / common::circle_area(b.diameter)
+        };
+        let key = BRANCHES[b.index].k;
+        let on_common = b.k * (v_ref / v_common).powi(2);
+        if on_common < MIN_LOSS_COEFFICIENT - 1e-12 {
+            return Err(vec![FieldError::inconsistent(
+                key,
+                format!(
+                    "on the common pipe's velocity this loss coefficient is {}, below the lowest published junction value of {} (Crane TP-410, converging tee): allowed is {} to {} on the common velocity",
+                    units::format_significant(on_common, 4),
+                    MIN_LOSS_COEFFICIENT,
+                    MIN_LOSS_COEFFICIENT,
+                    MAX_LOSS_COEFFICIENT
+                ),
+            )]);
+        }
+        let term = q * b.k * v_ref * v_ref / 2.0;
+        dissipation += term;
+        magnitude += term.abs();
+        if b.k < 0.0 && most_negative.map_or(true, |(t, _)| term < t) {
+            most_negative = Some((term, key));
+        }
+    }
+    if let Some((_, key)) = most_negative {
+        if dissipation < -1e-12 * magnitude {
+            return Err(vec![FieldError::inconsistent(
+                key,
+                "with these loss coefficients and flows the junction would create energy: the gain of the streams with negative K exceeds the losses of the others (Σ flow × K × V²/2 over the branches must not be negative); check the coefficients and the split they belong to",
+            )]);
+        }
+    }
+    Ok(())
+}
+
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let mode = values.choice("mode").map_err(|e| vec![e])?;
     let dividing = mode != "combining";
@@ -728,6 +841,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         FlowSpec::MassFlow(m) => m / fluid.density,
         FlowSpec::Unknown => 0.0,
     };
+    let branch_flows = branch_flows(&branches, total_flow);
+    check_loss_coefficients(&branches, &branch_flows, a_common, total_flow, k_on_common)?;
     // Each port sits one common-pipe diameter from the junction, on its pipe's axis.
     let stub = d_common;
     let mut cv = ControlVolume::new(fluid.clone());
@@ -748,7 +863,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let mut volume = a_common * stub;
     let mut moment = common_position * (0.5 * a_common * stub);
     let mut port_of = Vec::with_capacity(branches.len());
-    for b in &branches {
+    for (b, given) in branches.iter().zip(&branch_flows) {
         let area = common::circle_area(b.diameter);
         let direction = Direction::new(b.direction).unwrap_or(Direction::X);
         let position = if dividing {
@@ -763,8 +878,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             Port::inlet(&name, si::area(area), direction)
         }
         .at(position);
-        if let Some(share) = b.share {
-            port = port.volume_flow(si::volume_flow(share * total_flow));
+        if let Some(q) = given {
+            port = port.volume_flow(si::volume_flow(*q));
         }
         let i = cv.port(port);
         port_of.push(i);
@@ -811,7 +926,21 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         balance = engine::balance(&cv).map_err(|e| common::engine_error(e, engine_field))?;
     }
 
-    let thrust = balance.thrust();
+    // A component that is rounding residue of the terms it was summed from (a
+    // symmetric wye's side thrust) is the 0 it stands for.
+    let term_scale: f64 = balance
+        .ports
+        .iter()
+        .map(|s| s.pressure_force.norm() + s.momentum_outflow.norm())
+        .sum::<f64>()
+        + balance.fluid_weight.norm()
+        + balance.extra_forces.iter().map(|e| e.force.norm()).sum::<f64>();
+    let raw = balance.thrust();
+    let thrust = Vec3::new(
+        zero_if_residue(raw.x, term_scale),
+        zero_if_residue(raw.y, term_scale),
+        zero_if_residue(raw.z, term_scale),
+    );
     let in_plane = (thrust.x * thrust.x + thrust.y * thrust.y).sqrt();
     report.output("thrust_in_plane", in_plane);
     if in_plane > 0.0 {
@@ -852,6 +981,24 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
     report.output("fluid_weight", balance.fluid_weight.norm());
     report.output("density", fluid.density);
+    independent_checks(
+        report,
+        &Junction {
+            dividing,
+            k_on_common,
+            p,
+            density: fluid.density,
+            d_common,
+            common_outside,
+            total_flow,
+            stub,
+            volume,
+            branch_flows: branch_flows.clone(),
+        },
+        &branches,
+        &balance,
+        &port_of,
+    );
 
     common::forward_warnings(&balance, report);
     common::pipe_velocity_warning(report, common::flow_field(values), "common pipe", common_state.speed);
@@ -940,6 +1087,115 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     );
     report.solution.carry_over.push(carry);
     Ok(())
+}
+
+/// `value`, or 0 when it is rounding residue: within 1e-12 of `scale`, the size of the
+/// terms it was summed from.
+fn zero_if_residue(value: f64, scale: f64) -> f64 {
+    if value.abs() <= 1e-12 * scale.abs() {
+        0.0
+    } else {
+        value
+    }
+}
+
+/// What the independent checks need to know of the junction, SI.
+struct Junction {
+    dividing: bool,
+    k_on_common: bool,
+    /// Gauge pressure in the common pipe.
+    p: f64,
+    density: f64,
+    d_common: f64,
+    common_outside: Option<f64>,
+    /// Common-pipe flow as the user gave it.
+    total_flow: f64,
+    /// Length of each pipe stub inside the control volume.
+    stub: f64,
+    /// Volume of fluid inside.
+    volume: f64,
+    /// Flow given to each branch (the mass-balance closure applied), `None` for the
+    /// one left to be solved.
+    branch_flows: Vec<Option<f64>>,
+}
+
+/// Checks the balance against results computed without the engine:
+///
+/// - mass: the engine's branch flows add up to the common-pipe flow the user gave;
+/// - thrust: each face's impulse function (p + ρV²)·A, plus p on the wall annulus on
+///   the outside-diameter basis, along its outward normal, with the branch pressures
+///   from Bernoulli written out per branch (p_i = p₀ + ρ(V₀² − V_i²)/2 + ρg(z₀ − z_i)
+///   ∓ K_i·ρV_ref²/2, − dividing, + combining), velocities from the given flows
+///   (the one left empty: the common flow less the others), and the weight ρg·volume: T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
+fn independent_checks(
+    report: &mut Report<'_>,
+    junction: &Junction,
+    branches: &[Branch],
+    balance: &engine::Balance,
+    port_of: &[usize],
+) {
+    let Junction {
+        dividing,
+        k_on_common,
+        p,
+        density: rho,
+        d_common,
+        common_outside,
+        total_flow,
+        stub,
+        volume,
+        ref branch_flows,
+    } = *junction;
+    let g = crate::units::STANDARD_GRAVITY;
+    let engine_sum: f64 = port_of.iter().map(|&i| balance.ports[i].volume_flow).sum();
+    report.check(
+        "Sum of the branch flows",
+        "the common-pipe flow as given",
+        Q::VolumeFlow,
+        engine_sum,
+        total_flow,
+        1e-9,
+        0.0,
+    );
+
+    let a_common = common::circle_area(d_common);
+    let v_common = total_flow / a_common;
+    let given: f64 = branch_flows.iter().flatten().sum();
+    // Outward normal of the common pipe's face: upstream (−x) when it feeds the
+    // junction, downstream (+x) when it is fed.
+    let common_normal = Vec3::new(if dividing { -1.0 } else { 1.0 }, 0.0, 0.0);
+    let face = |pressure: f64, speed: f64, area: f64, outside_area: f64, normal: Vec3| {
+        normal * (-((pressure + rho * speed * speed) * area + pressure * (outside_area - area)))
+    };
+    let a_common_outside = common_outside.map_or(a_common, common::circle_area);
+    let mut thrust = face(p, v_common, a_common, a_common_outside, common_normal);
+    let mut scale = (p.abs() + rho * v_common * v_common) * a_common_outside;
+    for (b, q) in branches.iter().zip(branch_flows) {
+        let q = q.unwrap_or((total_flow - given).max(0.0));
+        let area = common::circle_area(b.diameter);
+        let speed = q / area;
+        let v_ref = if k_on_common { v_common } else { speed };
+        let loss = b.k * rho * v_ref * v_ref / 2.0;
+        // The common face sits at z = 0; a branch's face one stub along its axis.
+        let z = stub * b.direction.z * if dividing { 1.0 } else { -1.0 };
+        let pressure =
+            p + rho * (v_common * v_common - speed * speed) / 2.0 - rho * g * z + if dividing { -loss } else { loss };
+        let normal = b.direction * if dividing { 1.0 } else { -1.0 };
+        let outside_area = b.outside.map_or(area, common::circle_area);
+        thrust += face(pressure, speed, area, outside_area, normal);
+        scale += (pressure.abs() + rho * speed * speed) * outside_area;
+    }
+    thrust += Vec3::new(0.0, 0.0, -rho * g * volume);
+    scale += rho * g * volume;
+    let engine_thrust = balance.thrust();
+    let basis = "Σ (p + ρV²)·A on each face with Bernoulli branch pressures, plus the weight";
+    for (label, value, reference) in [
+        ("Thrust along the common pipe (x)", engine_thrust.x, thrust.x),
+        ("Thrust across it, in the plan (y)", engine_thrust.y, thrust.y),
+        ("Thrust out of the plan (z)", engine_thrust.z, thrust.z),
+    ] {
+        report.check(label, basis, Q::Force, value, reference, 1e-9, scale);
+    }
 }
 
 fn branch_table(
@@ -1147,6 +1403,9 @@ mod tests {
             max_relative = 1e-9
         );
         assert_relative_eq!(s.output("static_thrust").unwrap().si, expected, max_relative = 1e-9);
+        // cos 90° is 6e-17 in floating point: the along-run thrust it leaves is
+        // rounding residue, shown as the 0 it is.
+        assert_eq!(s.output("thrust_x").unwrap().si, 0.0);
     }
 
     #[test]
@@ -1192,6 +1451,58 @@ mod tests {
         assert_eq!(error_field(&[("d2", "0 mm")]), "d2");
         assert_eq!(error_field(&[("angle2", "175 deg")]), "angle2");
         assert_eq!(error_field(&[("p", "-3 psi")]), "p");
+    }
+
+    #[test]
+    fn shares_within_the_tolerance_of_100_percent_close_mass_exactly() {
+        // 70.00005 % + 30 % is accepted (within 1e-6 of 100 %); the branch flows must
+        // still add up to the common flow to rounding, not leave 5e-7 of it over.
+        let s = outcome(&[("share1", "70.00005 %"), ("share2", "30 %")])
+            .result
+            .expect("solves");
+        let q = s.output("flow").unwrap().si;
+        let sum = s.output("q_b1").unwrap().si + s.output("q_b2").unwrap().si;
+        assert!((sum - q).abs() <= 1e-12 * q, "branch flows {sum} against {q}");
+        assert_relative_eq!(s.output("q_b2").unwrap().si, 0.3 * q, max_relative = 1e-12);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+    }
+
+    #[test]
+    fn negative_loss_coefficients_are_accepted_while_the_junction_loses_energy() {
+        // Combining, small branch share: a negative branch K (Crane TP-410 gives down
+        // to −1 on the combined velocity) with a positive run K.
+        let combining = [
+            ("mode", "combining"),
+            ("share1", "90 %"),
+            ("share2", ""),
+            ("k1", "0.3"),
+            ("k2", "-0.9"),
+        ];
+        let s = outcome(&combining).result.expect("solves");
+        // The branch gains the energy: its pressure is below the common pipe's plus
+        // its own velocity-head change by 0.9·ρV0²/2.
+        let (rho, v0) = (s.output("density").unwrap().si, s.output("v_common").unwrap().si);
+        let v2 = s.output("v_b2").unwrap().si;
+        let p0 = 1e6;
+        let expected = p0 + rho * (v0 * v0 - v2 * v2) / 2.0 - 0.9 * rho * v0 * v0 / 2.0;
+        assert_relative_eq!(s.output("p_b2").unwrap().si, expected, max_relative = 1e-12);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+        // Both streams gaining energy would create it: refused on the more negative K.
+        assert_eq!(error_field(&[("k1", "-0.1"), ("k2", "-0.2")]), "k1");
+        // Below −1 on the common velocity: refused by the field's range.
+        assert_eq!(error_field(&[("k2", "-1.5")]), "k2");
+        // On the branch's own velocity a K of −1 in a branch faster than the common
+        // pipe is below −1 on the common velocity.
+        assert_eq!(
+            error_field(&[
+                ("k_ref", "branch"),
+                ("d2", "100 mm"),
+                ("share1", "50 %"),
+                ("share2", "50 %"),
+                ("k2", "-1")
+            ]),
+            "k2"
+        );
     }
 
     #[test]

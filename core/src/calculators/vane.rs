@@ -25,15 +25,19 @@
 //! In each case the engine ([`crate::engine`]) returns the force of the water on the
 //! vane; its component along the jet is F_x = ṁ·W₁·(1 − k·cos θ), the power is
 //! P = F_x·u, and the efficiency is P over the jet's kinetic-energy flux ρQV²/2.
-//! That gives the classic results, which the page shows beside the balance as
-//! checks: a single vane delivers most power at u = V/3 (efficiency
-//! (8/27)(1 − k·cos θ), 16/27 for θ = 180°, k = 1); a wheel at u = V/2 (efficiency
-//! (1 − k·cos θ)/2, 100 % for θ = 180°, k = 1). The plotted curves are balances at
-//! each blade speed, and the optimum speeds are found by searching those balances,
-//! not from the formulas. An energy table checks that the jet's power is accounted
-//! for: power to the vane, kinetic energy carried off, the loss on the vane (from the
-//! engine's energy balance in the vane's frame, or the wheel's shaft head), and, for
-//! a single vane, the kinetic energy of the lengthening jet.
+//! That gives the classic results: a single vane delivers most power at u = V/3
+//! (efficiency (8/27)(1 − k·cos θ), 16/27 for θ = 180°, k = 1); a wheel at u = V/2
+//! (efficiency (1 − k·cos θ)/2, 100 % for θ = 180°, k = 1). The plotted curves are
+//! balances at each blade speed, and the optimum speeds are found by searching those
+//! balances, not from the formulas. An energy table lists where the jet's power goes.
+//!
+//! The checks table ([`Report::check`]) compares the force along the jet with
+//! ṁ·W₁·(1 − k·cos θ) written by hand, the power F_x·u with the energy balance (jet
+//! flux − kinetic energy carried off − vane loss ṁ(1 − k²)W₁²/2 − the lengthening
+//! jet of a single vane), and the searched peak powers with their closed forms. A
+//! side force that is rounding residue of the flux turned is shown as 0. The
+//! efficiency is reported as not applicable, with the reason, for a fixed vane (it
+//! does no work) and for a wheel at its runaway speed (no load).
 //!
 //! Sources: the moving-vane and impulse-turbine sections of White, *Fluid
 //! Mechanics* (chapters 3 and 11), Munson et al., *Fundamentals of Fluid Mechanics*
@@ -80,6 +84,9 @@ const MODE_OPTIONS: &[ChoiceOption] = &[
 
 /// Points on each plotted curve (blade speed from 0 to the jet speed).
 const PLOT_POINTS: usize = 41;
+/// The smallest relative-velocity factor accepted: a vane that keeps less than 5 % of
+/// the relative speed is a brake, not a vane.
+const MIN_K: f64 = 0.05;
 
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
@@ -91,8 +98,8 @@ pub fn spec() -> CalculatorSpec {
             "A fixed vane; a single vane moving away from the jet (only the water that catches up with it is turned); or a wheel, where one vane follows another and the whole jet is turned.",
         ),
         FieldSpec {
+            // Required while shown (a single vane or a wheel); hidden for a fixed vane.
             visible_when: Some(("mode", &["single", "wheel"])),
-            optional: true,
             ..quantity(
                 "u",
                 "Blade speed",
@@ -100,7 +107,7 @@ pub fn spec() -> CalculatorSpec {
                 "m/s",
                 "ft/s",
                 "16 m/s",
-                Limits::closed(0.0, 300.0),
+                Limits::closed(0.0, common::MAX_JET_SPEED),
                 "Speed of the vane along the jet, away from the nozzle. For a wheel: the bucket speed at the jet's line, ω·r. A single vane must move slower than the jet.",
             )
         },
@@ -111,12 +118,8 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "deg",
             "165 deg",
-            Limits {
-                min: 0.0,
-                max: PI,
-                min_inclusive: false,
-            },
-            "How far the vane turns the flow relative to itself, more than 0 up to 180 degrees (straight back). Impulse buckets turn about 160 to 170 degrees.",
+            Limits::closed(PI / 180.0, PI),
+            "How far the vane turns the flow relative to itself, 1 to 180 degrees (straight back). Impulse buckets turn about 160 to 170 degrees.",
         ),
         FieldSpec {
             optional: true,
@@ -127,8 +130,8 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "-",
                 "0.9",
-                Limits::positive(1.0),
-                "Relative speed leaving the vane over relative speed entering it; 1 for a smooth vane (empty means 1). Friction makes it less than 1.",
+                Limits::closed(MIN_K, 1.0),
+                "Relative speed leaving the vane over relative speed entering it, 0.05 to 1; 1 for a smooth vane (empty means 1). Friction makes it less than 1.",
             )
         },
     ];
@@ -149,7 +152,6 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "force_y", label: "Force on the vane across the jet (y, positive towards the side the water is turned to)", kind: Q::Force, headline: false },
             OutputSpec { key: "force_side", label: "Side force on the vane, away from the side the water is turned to", kind: Q::Force, headline: false },
             OutputSpec { key: "force", label: "Resultant force on the vane", kind: Q::Force, headline: false },
-            OutputSpec { key: "force_x_closed", label: "Closed form ṁ·W₁·(1 − k·cos θ) (check)", kind: Q::Force, headline: false },
             OutputSpec { key: "mass_flow_turned", label: "Mass flow turned by the vane(s)", kind: Q::MassFlow, headline: false },
             OutputSpec { key: "w_in", label: "Relative velocity entering the vane, W₁ = V − u", kind: Q::Velocity, headline: false },
             OutputSpec { key: "w_out", label: "Relative velocity leaving the vane, W₂ = k·W₁", kind: Q::Velocity, headline: false },
@@ -210,8 +212,6 @@ struct VaneState {
     v_out: Vec3,
     /// Loss on the vane, m of head (relative frame).
     head_loss: f64,
-    /// Wheel only: power from the energy balance (shaft head solved by the engine).
-    shaft_power_from_energy: Option<f64>,
 }
 
 /// Where the flow enters and leaves the vane (for moments and the drawing): it enters
@@ -271,7 +271,6 @@ fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -> Re
                 w_out: outlet.relative_velocity,
                 v_out: outlet.absolute_velocity,
                 head_loss,
-                shaft_power_from_energy: None,
                 balance,
             }
         }
@@ -303,7 +302,6 @@ fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -> Re
                     .solve_for(StreamUnknown::ShaftHead),
             );
             let balance = engine::balance(&cv)?;
-            let shaft_head = balance.streams.first().map(|s| s.shaft_head).unwrap_or(0.0);
             let inlet = &balance.ports[i];
             let outlet = &balance.ports[o];
             let mass = inlet.mass_flow;
@@ -317,7 +315,6 @@ fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -> Re
                 w_out: w_out_vec,
                 v_out: outlet.absolute_velocity,
                 head_loss,
-                shaft_power_from_energy: Some(mass * STANDARD_GRAVITY * shaft_head),
                 balance,
             }
         }
@@ -389,13 +386,30 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let rho = fluid.density;
     let jet_power = 0.5 * rho * jet.flow * v * v;
     let w1 = state.w_in.norm();
+    // A component that is rounding residue of the momentum flux turned (the side
+    // force of a vane turning the flow straight back, sin 180° = 1.2e-16) is 0.
+    let flux = state.mass_turned * w1;
+    let force_y = if state.force.y.abs() <= 1e-12 * flux {
+        0.0
+    } else {
+        state.force.y
+    };
     report.output("force_x", state.force.x);
     report.output("power", state.power);
-    report.output("efficiency", state.efficiency);
-    report.output("force_y", state.force.y);
-    report.output("force_side", -state.force.y);
+    match (mode, v - u <= 1e-9 * v) {
+        (Mode::Fixed, _) => report.warn(
+            None,
+            "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); choose a moving vane or a wheel",
+        ),
+        (Mode::Wheel, true) => report.warn(
+            Some("u"),
+            "Efficiency: not applicable, at the runaway speed no load takes power from the wheel",
+        ),
+        _ => report.output("efficiency", state.efficiency),
+    }
+    report.output("force_y", force_y);
+    report.output("force_side", -force_y);
     report.output("force", state.force.norm());
-    report.output("force_x_closed", state.mass_turned * w1 * (1.0 - k * theta.cos()));
     report.output("mass_flow_turned", state.mass_turned);
     report.output("w_in", w1);
     report.output("w_out", state.w_out.norm());
@@ -420,6 +434,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     report.output("power_best_wheel", best_wheel.power);
     report.output("efficiency_best_wheel", best_wheel.efficiency);
     report.output("density", rho);
+
+    independent_checks(report, &jet, &vane, mode, rho, &state, &best_single, &best_wheel);
 
     common::forward_warnings(&state.balance, report);
     if mode == Mode::Wheel && v - u <= 1e-9 * v {
@@ -462,6 +478,80 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let diagram = diagram(&jet, &vane, mode, &state, report);
     report.solution.diagrams.push(diagram);
     Ok(())
+}
+
+/// Checks against paths that do not go through the engine's momentum balance:
+///
+/// - the force along the jet against ṁ·W₁·(1 − k·cos θ), with ṁ = ρA(V − u) for a
+///   single vane and ρAV otherwise, written by hand;
+/// - the power F_x·u (momentum) against the energy balance: the jet's kinetic-energy
+///   flux less what the water carries off, ṁ|V₂|²/2, the loss on the vane,
+///   ṁ(1 − k²)W₁²/2, and for a single vane the lengthening jet, ρAu·V²/2;
+/// - the searched peak powers against (4/27)ρAV³(1 − k·cos θ) for a single vane and
+///   ρAV³(1 − k·cos θ)/4 for a wheel.
+#[allow(clippy::too_many_arguments)]
+fn independent_checks(
+    report: &mut Report<'_>,
+    jet: &Jet,
+    vane: &Vane,
+    mode: Mode,
+    rho: f64,
+    state: &VaneState,
+    best_single: &VaneState,
+    best_wheel: &VaneState,
+) {
+    let (v, u, a) = (jet.velocity, state.u, jet.area);
+    let w1 = v - u;
+    let turning = 1.0 - vane.k * vane.theta.cos();
+    let mass = match mode {
+        Mode::Single => rho * a * w1,
+        Mode::Fixed | Mode::Wheel => rho * a * v,
+    };
+    report.check(
+        "Force on the vane along the jet",
+        "closed form ṁ·W₁·(1 − k·cos θ)",
+        Q::Force,
+        state.force.x,
+        mass * w1 * turning,
+        1e-9,
+        mass * w1 * 2.0,
+    );
+    let jet_power = 0.5 * rho * jet.flow * v * v;
+    let carried = 0.5 * mass * state.v_out.dot(state.v_out);
+    let loss = 0.5 * mass * (1.0 - vane.k * vane.k) * w1 * w1;
+    let lengthening = if mode == Mode::Single {
+        0.5 * rho * a * u * v * v
+    } else {
+        0.0
+    };
+    report.check(
+        "Power delivered to the vane(s), F_x·u",
+        "energy balance: jet's kinetic-energy flux − kinetic energy carried off − loss on the vane ṁ(1 − k²)W₁²/2 (− the lengthening jet, single vane)",
+        Q::Power,
+        state.power,
+        jet_power - carried - loss - lengthening,
+        1e-9,
+        jet_power,
+    );
+    let rav3 = rho * a * v * v * v;
+    report.check(
+        "Single vane: peak power (searched)",
+        "closed form (4/27)ρAV³(1 − k·cos θ) at u = V/3",
+        Q::Power,
+        best_single.power,
+        4.0 / 27.0 * rav3 * turning,
+        1e-8,
+        0.0,
+    );
+    report.check(
+        "Wheel: peak power (searched)",
+        "closed form ρAV³(1 − k·cos θ)/4 at u = V/2",
+        Q::Power,
+        best_wheel.power,
+        0.25 * rav3 * turning,
+        1e-8,
+        0.0,
+    );
 }
 
 fn fmt_in(value: f64, kind: Q, unit: &str) -> String {
@@ -510,7 +600,6 @@ fn energy_table(state: &VaneState, mode: Mode, jet: &Jet, rho: f64, system: Unit
         vec!["kinetic energy carried off, ṁ·V₂²/2".to_string(), f(carried)],
         vec!["loss on the vane, ṁ·g·h_L".to_string(), f(loss)],
     ];
-    let mut accounted = state.power + carried + loss;
     if mode == Mode::Single {
         // The jet between nozzle and vane grows by u every second: ρA·u of jet at V.
         let lengthening = 0.5 * rho * jet.area * state.u * v * v;
@@ -518,25 +607,13 @@ fn energy_table(state: &VaneState, mode: Mode, jet: &Jet, rho: f64, system: Unit
             "kinetic energy of the lengthening jet, ρAu·V²/2".to_string(),
             f(lengthening),
         ]);
-        accounted += lengthening;
     }
-    if let Some(p) = state.shaft_power_from_energy {
-        rows.push(vec![
-            "wheel power from the energy balance, ṁ·g·h_s (check)".to_string(),
-            f(p),
-        ]);
-    }
-    rows.push(vec![
-        "residual: jet flux − the terms above".to_string(),
-        f(jet_power - accounted),
-    ]);
-    let last = rows.len() - 1;
     Table {
         key: "energy",
-        title: "Where the jet's power goes".to_string(),
+        title: "Where the jet's power goes (the checks table compares F_x·u with the energy balance)".to_string(),
         columns: vec!["Term".to_string(), format!("power ({unit})")],
         rows,
-        emphasised_rows: vec![1, last],
+        emphasised_rows: vec![1],
     }
 }
 
@@ -982,8 +1059,13 @@ mod tests {
                 max_relative = 1e-8,
                 epsilon = 1e-6
             );
-            // Euler (F_x·u) and energy (ṁ g h_s) agree for the wheel.
-            let from_energy = wheel.shaft_power_from_energy.unwrap_or(f64::NAN);
+            // Euler (F_x·u) and energy (jet flux − carried off − vane loss) agree for
+            // the wheel.
+            let j = jet();
+            let m = 1000.0 * j.flow;
+            let from_energy = 0.5 * m * 30.0 * 30.0
+                - 0.5 * m * wheel.v_out.dot(wheel.v_out)
+                - 0.5 * m * (1.0 - k * k) * (30.0 - u) * (30.0 - u);
             assert_relative_eq!(wheel.power, from_energy, max_relative = 1e-8, epsilon = 1e-6);
         }
     }
@@ -1018,7 +1100,7 @@ mod tests {
     }
 
     #[test]
-    fn energy_table_closes_in_every_mode() {
+    fn force_and_power_agree_with_the_independent_paths_in_every_mode() {
         for mode in ["fixed", "single", "wheel"] {
             let s = solve(&with(&[
                 ("mode", mode),
@@ -1026,19 +1108,29 @@ mod tests {
                 ("angle", "150 deg"),
                 ("k", "0.8"),
             ]));
-            let energy = s
-                .tables
-                .iter()
-                .find(|t| t.key == "energy")
-                .map(|t| t.rows.clone())
-                .unwrap_or_default();
-            let residual: f64 = energy.last().and_then(|r| r[1].parse().ok()).unwrap_or(f64::NAN);
-            let jet_power: f64 = energy.first().and_then(|r| r[1].parse().ok()).unwrap_or(f64::NAN);
+            let labels: Vec<&str> = s.checks.iter().map(|c| c.label.as_str()).collect();
             assert!(
-                residual.abs() < 1e-6 * jet_power,
-                "{mode}: residual {residual} of {jet_power}"
+                labels.iter().any(|l| l.starts_with("Power delivered")),
+                "{mode}: {labels:?}"
             );
+            assert!(
+                labels.iter().any(|l| l.starts_with("Force on the vane")),
+                "{mode}: {labels:?}"
+            );
+            assert!(s.checks.iter().all(|c| c.agrees()), "{mode}: {:?}", s.checks);
+            // The energy table lists terms only: no residual row restating the sum.
+            let energy = s.tables.iter().find(|t| t.key == "energy").expect("energy table");
+            assert!(!energy.rows.iter().any(|r| r[0].contains("residual")));
         }
+        // Turned straight back the side force is 0, not 1e-16 of the flux.
+        let back = solve(&with(&[("mode", "fixed"), ("angle", "180 deg"), ("k", "1")]));
+        assert_eq!(out(&back, "force_y"), 0.0);
+        // A fixed vane does no work: its efficiency is not applicable, and says why.
+        assert!(back.output("efficiency").is_none());
+        assert!(back
+            .warnings
+            .iter()
+            .any(|w| w.message.starts_with("Efficiency: not applicable")));
     }
 
     #[test]
@@ -1071,8 +1163,15 @@ mod tests {
     fn bad_jet_inputs_name_their_field() {
         let (field, message) = error_of(&with(&[("jet_basis", "q"), ("q_jet", "-2 L/s")]));
         assert_eq!(field, "q_jet");
-        assert!(message.contains("greater than"), "{message}");
+        assert!(message.contains("at least"), "{message}");
         assert_eq!(error_of(&with(&[("d_jet", "0 mm")])).0, "d_jet");
+        // A flow that would make a jet faster than 500 m/s names the flow field.
+        let (field, message) = error_of(&with(&[("jet_basis", "q"), ("q_jet", "90 m3/s")]));
+        assert_eq!(field, "q_jet");
+        assert!(message.contains("500 m/s"), "{message}");
+        // The smallest k and deflection accepted are physical, not 5e-324.
+        assert_eq!(error_of(&with(&[("k", "1e-300")])).0, "k");
+        assert_eq!(error_of(&with(&[("angle", "1e-300 deg")])).0, "angle");
         assert_eq!(error_of(&with(&[("k", "1.2")])).0, "k");
         assert_eq!(error_of(&with(&[("angle", "0 deg")])).0, "angle");
     }
