@@ -12,9 +12,8 @@
 //! Chromium is required: when `/usr/bin/chromium` is missing these tests fail and
 //! name the install command. They are not skipped.
 //!
-//! `FLUXLEDGER_MEASURE=1 cargo test --release -p fluxledger-tests --test browser measure -- --nocapture`
-//! prints load size and timing figures (see [`measure`]); a normal run does not
-//! measure.
+//! Load size and timing figures are measurements, not tests: they are printed by
+//! `cargo bench -p fluxledger-tests --bench pages` (`benches/pages.rs`).
 
 #[path = "browser/cdp.rs"]
 mod cdp;
@@ -794,22 +793,5 @@ mod offline {
             .filter(|e| !e.contains("never-stored-"))
             .collect();
         assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
-    }
-}
-
-// ---------------------------------------------------------------------------------
-// Measurements, printed, never asserted (run by hand with FLUXLEDGER_MEASURE=1).
-mod measure {
-    use super::*;
-
-    #[test]
-    fn measure() {
-        if std::env::var("FLUXLEDGER_MEASURE").as_deref() != Ok("1") {
-            println!("measurements not taken: set FLUXLEDGER_MEASURE=1 to print them");
-            return;
-        }
-        let _turn = one_at_a_time();
-        let site = fixture();
-        harness::print_measurements(site).unwrap_or_else(|e| panic!("{e}"));
     }
 }
