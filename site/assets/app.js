@@ -169,13 +169,33 @@ function noticesBox() {
   return box;
 }
 
+/** Most notices shown at once; any further ones are counted in one closing line. */
+const NOTICES_MAX = 20;
+
 /**
  * Shows a notice. `parts` are strings (plain text) or nodes; `action` an optional
- * `{label, run}` button.
+ * `{label, run}` button. A notice with the same kind and text as one already shown
+ * is not repeated; beyond NOTICES_MAX, notices are only counted.
  */
 function notice(kind, parts, action) {
   const box = noticesBox();
-  const item = el("p", { class: `notice notice-${kind}` });
+  const text = parts.map((part) => (typeof part === "string" ? part : part.textContent)).join("");
+  for (const shown of box.querySelectorAll(":scope > p.notice")) {
+    if (shown.dataset.kind === kind && shown.dataset.text === text) return shown;
+  }
+  const items = box.querySelectorAll(":scope > p.notice:not(.notice-overflow)");
+  if (items.length >= NOTICES_MAX) {
+    let overflow = box.querySelector(":scope > p.notice-overflow");
+    if (!overflow) {
+      overflow = el("p", { class: "notice notice-warn notice-overflow" });
+      box.append(overflow);
+    }
+    const count = Number(overflow.dataset.count || 0) + 1;
+    overflow.dataset.count = String(count);
+    overflow.textContent = `${count} further ${count === 1 ? "notice was" : "notices were"} left out.`;
+    return overflow;
+  }
+  const item = el("p", { class: `notice notice-${kind}`, dataset: { kind, text } });
   for (const part of parts) item.append(typeof part === "string" ? document.createTextNode(part) : part);
   if (action) {
     const button = el("button", { type: "button", class: "notice-action", text: action.label });
@@ -185,30 +205,88 @@ function notice(kind, parts, action) {
   const dismiss = el("button", { type: "button", class: "notice-dismiss", "aria-label": "Dismiss this notice", text: "×" });
   dismiss.addEventListener("click", () => item.remove());
   item.append(dismiss);
-  box.append(item);
+  const overflow = box.querySelector(":scope > p.notice-overflow");
+  if (overflow) box.insertBefore(item, overflow);
+  else box.append(item);
   return item;
 }
 
 // ---------------------------------------------------------------------------
 // URL state.
 
-/** Reads the query string into state, collecting notices for what cannot be used. */
+/** How many keys a notice names before it says "and N more". */
+const NOTICE_NAMES_MAX = 10;
+
+/** Quotes up to NOTICE_NAMES_MAX texts, then says how many more there are. */
+function quoteList(texts) {
+  const named = texts.slice(0, NOTICE_NAMES_MAX).map(quote).join(", ");
+  const more = texts.length - NOTICE_NAMES_MAX;
+  return more > 0 ? `${named} and ${more} more` : named;
+}
+
+/**
+ * Reads the query string into state, collecting notices for what cannot be used:
+ * one notice for every key this page does not use (naming the first few), one for
+ * each key given more than once (the last value is the one used, as before, but
+ * never silently), and one for an unknown unit system naming the system used.
+ */
 function readUrl(spec) {
   const params = new URLSearchParams(location.search);
   const fromUrl = new Map();
   const keys = new Set(spec.fields.map((f) => f.key));
+  keys.add("units");
+  /** key -> every value given, in order (known keys only) */
+  const given = new Map();
+  const unknown = [];
+  const unknownSeen = new Set();
   for (const [key, value] of params) {
+    if (!keys.has(key)) {
+      if (!unknownSeen.has(key)) {
+        unknownSeen.add(key);
+        unknown.push(key);
+      }
+      continue;
+    }
+    if (!given.has(key)) given.set(key, []);
+    given.get(key).push(value);
+  }
+  const repeated = [];
+  for (const [key, values] of given) {
+    const value = values[values.length - 1];
+    if (values.length > 1) repeated.push([key, values]);
     if (key === "units") {
       if (value === "si" || value === "us") state.system = value;
       else
         notice("warn", [
-          `The link asks for the unit system ${quote(value)}, which is not known (use “si” or “us”); SI is used.`,
+          `The link asks for the unit system ${quote(value)}, which is not known (use “si” or “us”); ${
+            state.system === "us" ? "US customary" : "SI"
+          } is used.`,
         ]);
-    } else if (keys.has(key)) {
-      fromUrl.set(key, value);
     } else {
-      notice("warn", [`The link has an entry ${quote(key)} that this page does not use; it was left out.`]);
+      fromUrl.set(key, value);
     }
+  }
+  for (const [key, values] of repeated.slice(0, NOTICE_NAMES_MAX)) {
+    const distinct = new Set(values).size;
+    notice("warn", [
+      `The link gives ${quote(key)} ${values.length} times${
+        distinct === 1 ? " with the same value" : ` (${quoteList(values)})`
+      }; the last, ${quote(values[values.length - 1])}, is used. Check it before using the result.`,
+    ]);
+  }
+  if (repeated.length > NOTICE_NAMES_MAX) {
+    notice("warn", [
+      `The link gives ${repeated.length - NOTICE_NAMES_MAX} more entries more than once (${quoteList(
+        repeated.slice(NOTICE_NAMES_MAX).map(([key]) => key),
+      )}); the last value of each is used.`,
+    ]);
+  }
+  if (unknown.length === 1) {
+    notice("warn", [`The link has an entry ${quote(unknown[0])} that this page does not use; it was left out.`]);
+  } else if (unknown.length > 1) {
+    notice("warn", [
+      `The link has ${unknown.length} entries that this page does not use; they were left out: ${quoteList(unknown)}.`,
+    ]);
   }
   return fromUrl;
 }
@@ -649,6 +727,7 @@ function render(result) {
         general.push(error.label ? `${error.label}: ${error.message}` : error.message);
       }
     }
+    ui.headline.classList.remove("has-warnings");
     ui.headline.replaceChildren(
       el("p", { class: "no-result", text: "No result yet: correct the marked inputs." }),
       ...general.map((text) => el("p", { class: "general-error", text })),
@@ -671,26 +750,30 @@ function render(result) {
       ),
     );
   }
-  ui.headline.replaceChildren(el("h2", { class: "panel-title", text: "Result" }), headline);
-
-  const parts = [];
-  const links = renderCarryOver(result.carry_over || []);
-  if (links) parts.push(links);
-  if (others.childElementCount > 0) {
-    parts.push(el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), others));
-  }
+  // Warnings belong with the numbers they qualify: in the headline, where nobody
+  // reads a force without them (a check that failed, a value that could not be
+  // computed, a mode left unchecked). A warning about one field is also shown there.
   const warnings = result.warnings || [];
+  let warningList = null;
   if (warnings.length > 0) {
-    const list = el("ul", { class: "warnings" });
+    warningList = el("ul", { class: "warnings headline-warnings", "aria-label": "Warnings" });
     for (const warning of warnings) {
-      list.append(el("li", { text: warning.message }));
+      warningList.append(el("li", { text: warning.message }));
       const box = warning.field ? ui.fieldWarnings.get(warning.field) : null;
       if (box) {
         box.textContent = warning.message;
         box.hidden = false;
       }
     }
-    parts.push(el("section", { class: "panel panel-warnings" }, el("h2", { class: "panel-title", text: "Check" }), list));
+  }
+  ui.headline.classList.toggle("has-warnings", warningList !== null);
+  ui.headline.replaceChildren(el("h2", { class: "panel-title", text: "Result" }), headline, warningList);
+
+  const parts = [];
+  const links = renderCarryOver(result.carry_over || []);
+  if (links) parts.push(links);
+  if (others.childElementCount > 0) {
+    parts.push(el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), others));
   }
   for (const table of result.tables || []) parts.push(renderTable(table));
   const width = state.figureWidth || measureFigureWidth();
@@ -763,28 +846,13 @@ function renderTable(table) {
 }
 
 // ---------------------------------------------------------------------------
-// CSV of a table (formatting only: the cells are the core's text, as shown).
-
-/**
- * One CSV field (RFC 4180): quoted when it holds a comma, a quote, CR or LF. Text
- * a spreadsheet would run as a formula (a typed tag such as "=cmd", "@x") gets a
- * leading apostrophe; numbers, negative ones included, stay as they are.
- */
-function csvField(value) {
-  let text = String(value ?? "");
-  if (/^[=@\t\r]/.test(text) || /^[+-][A-Za-z(]/.test(text)) text = "'" + text;
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
-/** The CSV text of a table: the header row, then every row; CRLF line ends. */
-function tableCsv(table) {
-  const lines = [table.columns || [], ...(table.rows || [])].map((row) => row.map(csvField).join(","));
-  return lines.join("\r\n") + "\r\n";
-}
+// CSV of a table (the adapter writes it from the core's cells, as shown).
 
 /** Saves a table as `<calculator>-<table key>.csv` through a temporary object URL. */
 function downloadCsv(table) {
-  const text = tableCsv(table);
+  // The adapter writes the CSV and neutralises every cell a spreadsheet would run
+  // as a formula (one rule, tested natively in wasm/src/csv.rs).
+  const text = glue.table_csv(table.columns || [], table.rows || []);
   const name = `${state.spec.key}-${table.key || "table"}.csv`;
   // The last file made, for the browser tests (name and text only).
   window.__fluxledgerLastCsv = { name, text };
@@ -1230,31 +1298,31 @@ function renderPlot(plot, width) {
 // ---------------------------------------------------------------------------
 // Start-up.
 
-/** Solves with the URL's values; any URL value the core refuses falls back to the demo. */
+/**
+ * Fills the fields: a value the link gives is kept exactly as given, valid or not
+ * (nothing the user sent is lost); fields the link does not give take the demo
+ * values. A link value the core refuses is named in a notice, and the page shows
+ * no result until it is corrected: a result computed from a demo value in its
+ * place would look like the link's calculation and is not.
+ */
 function settleInitialValues(spec, fromUrl) {
   for (const field of spec.fields) {
     state.values[field.key] = fromUrl.has(field.key) ? fromUrl.get(field.key) : field.demo || "";
     if (isQuantity(field)) state.units[field.key] = defaultUnit(field, state.system);
   }
   if (fromUrl.size === 0) return;
-  const labels = new Map(spec.fields.map((f) => [f.key, f]));
-  for (let round = 0; round < 3; round += 1) {
-    const result = solveNow();
-    if (!result || result.ok) return;
-    let changed = false;
-    for (const error of result.errors || []) {
-      if (!fromUrl.has(error.field)) continue;
-      const field = labels.get(error.field);
-      const text = fromUrl.get(error.field);
-      fromUrl.delete(error.field);
-      state.values[error.field] = field.demo || "";
-      changed = true;
-      notice("warn", [
-        `The link gives ${field.label} as ${quote(text)}: ${clip(error.message)}. `,
-        field.demo ? `The example value ${field.demo} is used instead.` : "The field was left empty.",
-      ]);
-    }
-    if (!changed) return;
+  const result = solveNow();
+  if (!result || result.ok) return;
+  const fields = new Map(spec.fields.map((f) => [f.key, f]));
+  const refused = new Set();
+  for (const error of result.errors || []) {
+    if (!fromUrl.has(error.field) || refused.has(error.field)) continue;
+    refused.add(error.field);
+    const field = fields.get(error.field);
+    notice("warn", [
+      `The link gives ${field.label} as ${quote(fromUrl.get(error.field))}: ${clip(error.message)}. `,
+      "No result is shown until it is corrected.",
+    ]);
   }
 }
 

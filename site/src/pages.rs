@@ -9,7 +9,9 @@
 //! Every URL is relative, so the site also works under a sub-path of a static host,
 //! and the content security policy (a meta tag) allows nothing but the site's own
 //! files, plus `'wasm-unsafe-eval'`, without which Chromium refuses to compile the
-//! module.
+//! module. A `referrer` meta tag keeps a calculation's link (its whole query) from
+//! being sent on; the headers a meta tag cannot carry (`frame-ancestors`) come from
+//! the server (see [`crate::server`] and the README).
 
 use fluxledger_core::catalog::{CalculatorSpec, COMMON_CAUTIONS};
 
@@ -58,6 +60,7 @@ fn head(title: &str, description: &str, assets: &PageAssets) -> String {
             "<meta charset=\"utf-8\">\n",
             "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n",
             "<meta http-equiv=\"Content-Security-Policy\" content=\"{csp}\">\n",
+            "<meta name=\"referrer\" content=\"no-referrer\">\n",
             "<meta name=\"theme-color\" content=\"{theme}\">\n",
             "<meta name=\"description\" content=\"{description}\">\n",
             "<title>{title}</title>\n",
@@ -252,6 +255,7 @@ mod tests {
             "<link rel=\"manifest\" href=\"manifest.webmanifest\">",
             "<meta name=\"theme-color\" content=\"#1f4e5f\">",
             "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">",
+            "<meta name=\"referrer\" content=\"no-referrer\">",
             "script-src &#39;self&#39; &#39;wasm-unsafe-eval&#39;",
             "<a class=\"site-name\" href=\"index.html\">",
             "<p>note</p>",

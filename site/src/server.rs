@@ -16,10 +16,22 @@
 //! `sw.js` are sent with `Cache-Control: no-cache`; content-hashed files
 //! (`name.1a2b3c4d.ext`) as immutable.
 //!
+//! Every response carries the headers a page cannot set for itself in a meta tag:
+//! `Content-Security-Policy: frame-ancestors 'none'` and `X-Frame-Options: DENY` (no
+//! other site may frame a calculation sheet), `Referrer-Policy: no-referrer` (a
+//! link holds a whole calculation; it is not sent on to anyone) and
+//! `X-Content-Type-Options: nosniff`. The README lists them for static hosts.
+//!
 //! Bounds: at most [`MAX_CONNECTIONS`] open connections (more get `503`), request
-//! heads of at most [`MAX_HEAD_BYTES`], no request bodies, an idle timeout of
-//! [`IDLE_TIMEOUT`], and at most [`MAX_REQUESTS_PER_CONNECTION`] requests on one
-//! connection.
+//! heads of at most [`MAX_HEAD_BYTES`] (more get `431`), no request bodies, an idle
+//! timeout of [`IDLE_TIMEOUT`], and at most [`MAX_REQUESTS_PER_CONNECTION`] requests
+//! on one connection.
+//!
+//! Why the head may be large: a calculation lives in its link, and a line schedule
+//! is one text field of up to [`fluxledger_core::catalog::MAX_TEXT_CHARS`]
+//! characters, which percent-encoding makes up to three times as long. The bound is
+//! sized so that such a link loads on a first visit (before the service worker
+//! answers from its cache), and no larger: 64 connections hold at most 64 MiB.
 
 use std::collections::HashMap;
 use std::fs;
@@ -33,8 +45,19 @@ use std::time::{Duration, Instant};
 
 use crate::error::{SiteError, SiteErrorKind};
 
+/// Headers sent with every response (see the module doc).
+pub const SECURITY_HEADERS: &[(&str, &str)] = &[
+    ("Content-Security-Policy", "frame-ancestors 'none'"),
+    ("X-Frame-Options", "DENY"),
+    ("Referrer-Policy", "no-referrer"),
+    ("X-Content-Type-Options", "nosniff"),
+];
+
 pub const MAX_CONNECTIONS: usize = 64;
-pub const MAX_HEAD_BYTES: u64 = 16 * 1024;
+/// The longest request head accepted: room for a link whose text field is at the
+/// core's limit, percent-encoded (3 bytes a character), with every other field and
+/// the usual headers (checked by a test against the core's constant).
+pub const MAX_HEAD_BYTES: u64 = 1024 * 1024;
 pub const MAX_REQUESTS_PER_CONNECTION: usize = 1000;
 pub const IDLE_TIMEOUT: Duration = Duration::from_secs(10);
 
@@ -192,8 +215,25 @@ struct RequestHead {
     content_length: u64,
 }
 
+/// Why a request head was refused.
+#[derive(Debug)]
+enum HeadError {
+    /// Not an HTTP/1.x request head (answered `400`).
+    Malformed(&'static str),
+    /// Longer than [`MAX_HEAD_BYTES`] (answered `431`).
+    TooLarge,
+    /// The connection failed or timed out (not answered).
+    Io(io::Error),
+}
+
+impl From<io::Error> for HeadError {
+    fn from(error: io::Error) -> HeadError {
+        HeadError::Io(error)
+    }
+}
+
 /// Reads one request head; `Ok(None)` at a clean end of the connection.
-fn read_head(reader: &mut impl BufRead) -> io::Result<Option<RequestHead>> {
+fn read_head(reader: &mut impl BufRead) -> Result<Option<RequestHead>, HeadError> {
     let mut limited = reader.take(MAX_HEAD_BYTES);
     let mut line = String::new();
     // Skip empty lines before a request line (allowed by RFC 9112).
@@ -207,17 +247,21 @@ fn read_head(reader: &mut impl BufRead) -> io::Result<Option<RequestHead>> {
         }
     }
     if !line.ends_with('\n') {
-        return Err(io::Error::new(io::ErrorKind::InvalidData, "request line too long"));
+        return Err(if limited.limit() == 0 {
+            HeadError::TooLarge
+        } else {
+            HeadError::Malformed("request line incomplete")
+        });
     }
     let mut parts = line.split_whitespace();
     let (Some(method), Some(target), Some(version), None) = (parts.next(), parts.next(), parts.next(), parts.next())
     else {
-        return Err(io::Error::new(io::ErrorKind::InvalidData, "malformed request line"));
+        return Err(HeadError::Malformed("malformed request line"));
     };
     let http11 = match version {
         "HTTP/1.1" => true,
         "HTTP/1.0" => false,
-        _ => return Err(io::Error::new(io::ErrorKind::InvalidData, "unsupported HTTP version")),
+        _ => return Err(HeadError::Malformed("unsupported HTTP version")),
     };
     let mut head = RequestHead {
         method: method.to_string(),
@@ -228,17 +272,18 @@ fn read_head(reader: &mut impl BufRead) -> io::Result<Option<RequestHead>> {
     loop {
         line.clear();
         if limited.read_line(&mut line)? == 0 || !line.ends_with('\n') {
-            return Err(io::Error::new(
-                io::ErrorKind::InvalidData,
-                "request head incomplete or too long",
-            ));
+            return Err(if limited.limit() == 0 {
+                HeadError::TooLarge
+            } else {
+                HeadError::Malformed("request head incomplete")
+            });
         }
         let header = line.trim_end();
         if header.is_empty() {
             break;
         }
         let Some((name, value)) = header.split_once(':') else {
-            return Err(io::Error::new(io::ErrorKind::InvalidData, "malformed header"));
+            return Err(HeadError::Malformed("malformed header"));
         };
         let value = value.trim();
         if name.eq_ignore_ascii_case("connection") {
@@ -249,9 +294,7 @@ fn read_head(reader: &mut impl BufRead) -> io::Result<Option<RequestHead>> {
                 head.keep_alive = true;
             }
         } else if name.eq_ignore_ascii_case("content-length") {
-            head.content_length = value
-                .parse()
-                .map_err(|_| io::Error::new(io::ErrorKind::InvalidData, "bad content-length"))?;
+            head.content_length = value.parse().map_err(|_| HeadError::Malformed("bad content-length"))?;
         } else if name.eq_ignore_ascii_case("transfer-encoding") {
             head.content_length = u64::MAX; // bodies are not accepted
         }
@@ -268,13 +311,31 @@ fn handle_connection(stream: TcpStream, shared: &Shared) -> io::Result<()> {
         let head = match read_head(&mut reader) {
             Ok(Some(head)) => head,
             Ok(None) => break,
-            Err(e) if e.kind() == io::ErrorKind::InvalidData => {
+            Err(HeadError::Malformed(why)) => {
                 if !shared.stopped.load(Ordering::SeqCst) {
-                    write_response(&mut writer, &Response::plain(400, "bad request"), false, false)?;
+                    write_response(
+                        &mut writer,
+                        &Response::plain(400, &format!("bad request: {why}")),
+                        false,
+                        false,
+                    )?;
                 }
                 break;
             }
-            Err(e) => return Err(e),
+            Err(HeadError::TooLarge) => {
+                if !shared.stopped.load(Ordering::SeqCst) {
+                    let text = format!("request head longer than {MAX_HEAD_BYTES} bytes");
+                    write_response(&mut writer, &Response::plain(431, &text), false, false)?;
+                    // Read (and drop) what the client is still sending before
+                    // closing: closing with unread data resets the connection, and
+                    // the client may then lose the answer it was sent.
+                    writer.shutdown(Shutdown::Write)?;
+                    reader.get_ref().set_read_timeout(Some(Duration::from_millis(500)))?;
+                    let _ = io::copy(&mut (&mut reader).take(MAX_HEAD_BYTES), &mut io::sink());
+                }
+                break;
+            }
+            Err(HeadError::Io(e)) => return Err(e),
         };
         // A request that arrives after stop() on an old connection is not answered.
         if shared.stopped.load(Ordering::SeqCst) {
@@ -335,6 +396,7 @@ fn reason(status: u16) -> &'static str {
         404 => "Not Found",
         405 => "Method Not Allowed",
         413 => "Content Too Large",
+        431 => "Request Header Fields Too Large",
         500 => "Internal Server Error",
         503 => "Service Unavailable",
         _ => "Unknown",
@@ -343,7 +405,7 @@ fn reason(status: u16) -> &'static str {
 
 fn write_response(stream: &mut impl Write, response: &Response, keep_alive: bool, head_only: bool) -> io::Result<()> {
     let mut head = format!(
-        "HTTP/1.1 {} {}\r\nContent-Type: {}\r\nContent-Length: {}\r\nCache-Control: {}\r\nX-Content-Type-Options: nosniff\r\nConnection: {}\r\n",
+        "HTTP/1.1 {} {}\r\nContent-Type: {}\r\nContent-Length: {}\r\nCache-Control: {}\r\nConnection: {}\r\n",
         response.status,
         reason(response.status),
         response.content_type,
@@ -351,6 +413,9 @@ fn write_response(stream: &mut impl Write, response: &Response, keep_alive: bool
         response.cache_control,
         if keep_alive { "keep-alive" } else { "close" },
     );
+    for (name, value) in SECURITY_HEADERS {
+        head.push_str(&format!("{name}: {value}\r\n"));
+    }
     for (name, value) in &response.extra_headers {
         head.push_str(&format!("{name}: {value}\r\n"));
     }
@@ -655,6 +720,90 @@ mod tests {
         assert!(matches!(parse(""), Ok(None)));
         assert!(parse("GARBAGE\r\n\r\n").is_err());
         let huge = format!("GET / HTTP/1.1\r\nX: {}\r\n\r\n", "a".repeat(MAX_HEAD_BYTES as usize));
-        assert!(parse(&huge).is_err());
+        assert!(matches!(parse(&huge), Err(HeadError::TooLarge)));
+        let long_line = format!("GET /?q={} HTTP/1.1\r\n\r\n", "a".repeat(MAX_HEAD_BYTES as usize));
+        assert!(matches!(parse(&long_line), Err(HeadError::TooLarge)));
+        assert!(matches!(
+            parse("GET / HTTP/1.1\r\nno colon\r\n\r\n"),
+            Err(HeadError::Malformed(_))
+        ));
+        assert!(matches!(
+            parse("GET / HTTP/1.1\r\nHost: a\r\n"),
+            Err(HeadError::Malformed(_))
+        ));
+    }
+
+    /// A link whose one text field is at the core's limit, every character
+    /// percent-encoded (`%41`), with the headers a browser sends.
+    fn longest_link_request() -> String {
+        let rows = "%41".repeat(fluxledger_core::catalog::MAX_TEXT_CHARS);
+        let mut others = String::new();
+        for i in 0..40 {
+            others.push_str(&format!(
+                "&f{i}={}",
+                "%39".repeat(fluxledger_core::units::MAX_INPUT_CHARS)
+            ));
+        }
+        format!(
+            "GET /line-schedule.html?rows={rows}{others}&units=si HTTP/1.1\r\nHost: 127.0.0.1\r\nUser-Agent: {}\r\nAccept: text/html\r\nAccept-Language: en\r\nCookie: {}\r\n\r\n",
+            "u".repeat(400),
+            "c".repeat(4096),
+        )
+    }
+
+    #[test]
+    fn the_head_bound_holds_a_link_at_the_core_text_limit_and_no_more() {
+        let longest = longest_link_request();
+        assert!(
+            (longest.len() as u64) < MAX_HEAD_BYTES,
+            "a {}-byte link head does not fit in {MAX_HEAD_BYTES}",
+            longest.len()
+        );
+        assert!(
+            MAX_HEAD_BYTES <= 2 * longest.len() as u64,
+            "the bound is far larger than a link needs"
+        );
+        let dir = temp_site("long");
+        fs::write(dir.join("line-schedule.html"), "<p>schedule</p>").expect("write");
+        let mut server = serve(&dir, "127.0.0.1:0".parse().expect("addr")).expect("serve");
+        let mut conn = TcpStream::connect(server.addr()).expect("connect");
+        let (status, _, body) = exchange(&mut conn, &longest).expect("long link");
+        assert_eq!((status, body), (200, b"<p>schedule</p>".to_vec()));
+
+        let mut conn = TcpStream::connect(server.addr()).expect("connect");
+        let too_long = format!(
+            "GET /line-schedule.html?rows={} HTTP/1.1\r\nHost: x\r\n\r\n",
+            "a".repeat(MAX_HEAD_BYTES as usize)
+        );
+        let (status, head, _) = exchange(&mut conn, &too_long).expect("too long");
+        assert_eq!(status, 431, "{head}");
+        assert!(head.contains("Connection: close"), "{head}");
+        server.stop();
+        let _ = fs::remove_dir_all(&dir);
+    }
+
+    #[test]
+    fn every_response_forbids_framing_referrers_and_sniffing() {
+        let dir = temp_site("headers");
+        let mut server = serve(&dir, "127.0.0.1:0".parse().expect("addr")).expect("serve");
+        for request in [
+            "GET /index.html HTTP/1.1\r\nHost: x\r\n\r\n",
+            "GET /missing.html HTTP/1.1\r\nHost: x\r\n\r\n",
+            "HEAD /sw.js HTTP/1.1\r\nHost: x\r\n\r\n",
+            "DELETE /index.html HTTP/1.1\r\nHost: x\r\n\r\n",
+        ] {
+            let mut conn = TcpStream::connect(server.addr()).expect("connect");
+            let (status, head, _) = exchange(&mut conn, request).expect("response");
+            for line in [
+                "Content-Security-Policy: frame-ancestors 'none'\r\n",
+                "X-Frame-Options: DENY\r\n",
+                "Referrer-Policy: no-referrer\r\n",
+                "X-Content-Type-Options: nosniff\r\n",
+            ] {
+                assert!(head.contains(line), "{status} to {request:?} lacks {line:?}:\n{head}");
+            }
+        }
+        server.stop();
+        let _ = fs::remove_dir_all(&dir);
     }
 }

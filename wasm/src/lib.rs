@@ -18,10 +18,13 @@
 //!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.
 //!   It throws only when the script calls it wrongly (values that are not strings,
 //!   an unknown unit system), through the one helper [`adapter_error`].
+//! - [`table_csv`]`(columns, rows)` — the CSV text of a result table, every cell a
+//!   spreadsheet would run as a formula neutralised (see [`csv`]).
 //!
 //! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()`, so
 //! `None` becomes `null` and maps become plain objects.
 
+pub mod csv;
 pub mod view;
 
 use std::collections::BTreeMap;
@@ -89,4 +92,19 @@ pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     to_js(&view::convert_view(key, field, text, from_unit, system))
+}
+
+/// The CSV text of a table (`columns`: an array of strings, `rows`: an array of
+/// arrays of strings): RFC 4180, CRLF line ends, every cell a spreadsheet would run
+/// as a formula neutralised by [`csv::neutralise`].
+///
+/// # Errors
+/// Throws only when `columns` or `rows` are not arrays of strings.
+#[wasm_bindgen]
+pub fn table_csv(columns: JsValue, rows: JsValue) -> Result<String, JsError> {
+    let columns: Vec<String> = serde_wasm_bindgen::from_value(columns)
+        .map_err(|e| adapter_error("`columns` must be an array of strings", e))?;
+    let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
+        .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
+    Ok(csv::table(&columns, &rows))
 }

@@ -376,6 +376,7 @@ impl Page {
 
     /// Saves a PNG of the whole page (the emulated screen is stretched to the
     /// page's height first).
+    #[allow(dead_code)] // used by the page measurements (benches/pages.rs)
     pub fn screenshot(&self, browser: &mut Browser, path: &Path) -> Result<()> {
         let height = self
             .eval(browser, "Math.ceil(document.documentElement.scrollHeight)")?

@@ -275,20 +275,110 @@ fn csv_reader_of_these_tests_follows_rfc_4180() {
     assert!(parse_csv("\"ab\r\n").is_err());
 }
 
-/// Clicks every table's "Download CSV" on `key`'s demo page and checks each file
-/// against the core's own table for the same inputs: the file name, the header and
-/// every cell, exactly. Returns the CSV texts.
-fn check_csv_of_every_table(page: &Page, browser: &mut Browser, base: &str, key: &str) -> Vec<String> {
-    open(page, browser, &format!("{base}/{key}.html"));
+/// Characters that start a formula in a spreadsheet cell (ASCII and full-width).
+const FORMULA_STARTS: [char; 8] = ['=', '+', '-', '@', '＝', '＋', '－', '＠'];
+/// Characters where some reader starts a new cell: the separators of every locale
+/// and line breaks.
+const CELL_BREAKS: [char; 5] = [',', ';', '\t', '\r', '\n'];
+
+/// A plain decimal number (`-12.5`, `+3`, `1.2e-5`): what a spreadsheet reads as a
+/// number, not a formula. Written for these tests, apart from the adapter's rule.
+fn plain_number(text: &str) -> bool {
+    text.chars().any(|c| c.is_ascii_digit())
+        && text.chars().all(|c| c.is_ascii_digit() || "+-.eE".contains(c))
+        && text.parse::<f64>().is_ok()
+}
+
+/// Whether a spreadsheet in some locale would run part of `cell` as a formula: the
+/// cell start, or the start of any piece after a separator or line break (a reader
+/// that splits there), begins with a formula character and is not a plain number.
+/// A tab or CR at the very start is stripped by some readers.
+fn would_run_as_formula(cell: &str) -> bool {
+    let risky = |piece: &str| piece.starts_with(FORMULA_STARTS) && !plain_number(piece);
+    let first = cell.split(CELL_BREAKS).next().unwrap_or("");
+    cell.starts_with(['\t', '\r'])
+        || risky(first)
+        || cell.match_indices(CELL_BREAKS).any(|(i, sep)| {
+            let rest = &cell[i + sep.len()..];
+            risky(rest.split(CELL_BREAKS).next().unwrap_or(""))
+        })
+}
+
+/// Takes out the apostrophes a neutralised cell gained: one at the start or after a
+/// separator, before a formula character, tab or CR.
+fn without_neutralising(cell: &str) -> String {
+    let mut out = String::new();
+    let mut at_start = true;
+    let mut chars = cell.chars().peekable();
+    while let Some(ch) = chars.next() {
+        let before_formula = chars
+            .peek()
+            .is_some_and(|next| FORMULA_STARTS.contains(next) || *next == '\t' || *next == '\r');
+        if !(ch == '\'' && at_start && before_formula) {
+            out.push(ch);
+        }
+        at_start = CELL_BREAKS.contains(&ch);
+    }
+    out
+}
+
+#[test]
+fn the_formula_oracle_of_these_tests_knows_numbers_from_formulas() {
+    for safe in [
+        "-12.5", "+3", "1.2e-5", "B1", "1,500", "'=1+1", "a - b", "x;'=cmd", "a;-12.5",
+    ] {
+        assert!(!would_run_as_formula(safe), "{safe:?}");
+    }
+    for risky in [
+        "=1+1",
+        "-1+cmd|'/C calc'!A0",
+        "@SUM(A1)",
+        "+A1",
+        "x;=cmd",
+        "x,=cmd",
+        "x\t=cmd",
+        "\t1",
+        "-12.5 kN",
+        "＝1",
+        "-inf",
+    ] {
+        assert!(would_run_as_formula(risky), "{risky:?}");
+    }
+    assert_eq!(without_neutralising("'=1;'@x,'-12.5 kN"), "=1;@x,-12.5 kN");
+    assert_eq!(without_neutralising("it's"), "it's");
+}
+
+/// Clicks every table's "Download CSV" on `key`'s page opened with its demo inputs
+/// and `overrides`, and checks each file against the core's own table for the same
+/// inputs: the file name, the header and every cell, with no cell a spreadsheet
+/// would run as a formula, and any cell that differs from the core's only by the
+/// apostrophes that neutralise a formula. Returns the CSV texts.
+fn check_csv_of_every_table(
+    page: &Page,
+    browser: &mut Browser,
+    base: &str,
+    key: &str,
+    overrides: &[(&str, &str)],
+) -> Vec<String> {
+    let query: Vec<(String, String)> = overrides.iter().map(|(k, v)| (k.to_string(), v.to_string())).collect();
+    open(
+        page,
+        browser,
+        &format!("{base}/{key}.html?{}", crate::harness::query_string(&query)),
+    );
     let spec = calculators::spec(key).unwrap_or_else(|| panic!("{key} is registered"));
+    let mut inputs = demo_inputs(&spec);
+    for (k, v) in overrides {
+        inputs.insert(k.to_string(), v.to_string());
+    }
     let request = Request {
-        inputs: demo_inputs(&spec),
+        inputs,
         units: Default::default(),
         system: UnitSystem::Si,
     };
     let solution = fluxledger_core::solve(key, &request)
         .result
-        .unwrap_or_else(|e| panic!("{key}: the demo does not solve natively: {e:?}"));
+        .unwrap_or_else(|e| panic!("{key}: the inputs do not solve natively: {e:?}"));
     let keys = eval(
         page,
         browser,
@@ -313,11 +403,41 @@ fn check_csv_of_every_table(page: &Page, browser: &mut Browser, base: &str, key:
         let records = parse_csv(&text).unwrap_or_else(|e| panic!("{name} is not RFC 4180 CSV ({e}):\n{text}"));
         let mut expected = vec![table.columns.clone()];
         expected.extend(table.rows.iter().cloned());
-        assert_eq!(records, expected, "{name}: the cells differ from the core's table");
+        assert_eq!(records.len(), expected.len(), "{name}: row count");
+        for (record, wanted) in records.iter().zip(&expected) {
+            assert_eq!(record.len(), wanted.len(), "{name}: cells in {wanted:?}");
+            for (cell, core) in record.iter().zip(wanted) {
+                assert!(
+                    !would_run_as_formula(cell),
+                    "{name}: the cell {cell:?} would run as a formula"
+                );
+                assert_eq!(
+                    &without_neutralising(cell),
+                    core,
+                    "{name}: the cell differs from the core's"
+                );
+                assert!(
+                    cell == core || would_run_as_formula(core),
+                    "{name}: {core:?} was changed to {cell:?} although no spreadsheet would run it"
+                );
+            }
+        }
         texts.push(text);
     }
     texts
 }
+
+/// Line-schedule rows whose tags (text the user typed, shown in a table cell) a
+/// spreadsheet would run, and one plain negative number that must stay a number.
+const HOSTILE_TAGS: [&str; 7] = [
+    "-1+cmd|'/Ccalc'!A0",
+    "=1+1",
+    "@SUM(A1:A9)",
+    "+A1",
+    "x;=cmd",
+    "x,=cmd",
+    "-12.5",
+];
 
 #[test]
 fn every_table_downloads_as_csv_with_the_cells_of_the_result() {
@@ -329,36 +449,63 @@ fn every_table_downloads_as_csv_with_the_cells_of_the_result() {
         .call(None, "Browser.setDownloadBehavior", json!({ "behavior": "deny" }))
         .unwrap_or_else(|e| panic!("{e}"));
 
-    let bend = check_csv_of_every_table(&page, &mut browser, &site.base, "bend");
+    let bend = check_csv_of_every_table(&page, &mut browser, &site.base, "bend", &[]);
     assert!(bend.iter().all(|t| t.ends_with("\r\n")));
 
     // Some of the line schedule's cells hold commas: they must come out quoted.
-    let schedule = check_csv_of_every_table(&page, &mut browser, &site.base, "line-schedule");
     let spec = calculators::spec("line-schedule").expect("line-schedule is registered");
+    let demo_rows = demo_inputs(&spec)
+        .get("rows")
+        .cloned()
+        .expect("the line schedule has demo rows");
+    let mut rows = demo_rows.clone();
+    for tag in HOSTILE_TAGS {
+        rows.push_str(&format!("\nforce thrust=40kN tag={tag}"));
+    }
+    let schedule = check_csv_of_every_table(&page, &mut browser, &site.base, "line-schedule", &[("rows", &rows)]);
     let request = Request {
-        inputs: demo_inputs(&spec),
+        inputs: {
+            let mut inputs = demo_inputs(&spec);
+            inputs.insert("rows".into(), rows.clone());
+            inputs
+        },
         units: Default::default(),
         system: UnitSystem::Si,
     };
     let solution = fluxledger_core::solve("line-schedule", &request)
         .result
-        .expect("the demo solves");
-    let with_comma: Vec<&String> = solution
-        .tables
-        .iter()
-        .flat_map(|t| t.rows.iter().flatten())
-        .filter(|cell| cell.contains(','))
-        .collect();
+        .expect("the rows solve");
+    let cells: Vec<&String> = solution.tables.iter().flat_map(|t| t.rows.iter().flatten()).collect();
+    let with_comma: Vec<&&String> = cells.iter().filter(|cell| cell.contains(',')).collect();
     assert!(
         !with_comma.is_empty(),
         "the line-schedule demo has no cell with a comma to quote"
     );
     for cell in with_comma {
-        let quoted = format!("\"{}\"", cell.replace('"', "\"\""));
+        let written = format!("\"{}\"", cell.replace('"', "\"\"").replace(",=", ",'="));
         assert!(
-            schedule.iter().any(|t| t.contains(&quoted)),
+            schedule.iter().any(|t| t.contains(&written)),
             "the cell {cell:?} is not quoted in the CSV"
         );
+    }
+    // Each hostile tag reached a cell (so the check above saw it), and came out inert.
+    for tag in HOSTILE_TAGS {
+        assert!(
+            cells.iter().any(|c| c.as_str() == tag),
+            "no table cell holds the tag {tag:?}"
+        );
+    }
+    let text = schedule.join("");
+    for written in [
+        "'-1+cmd|'/Ccalc'!A0",
+        "'=1+1",
+        "'@SUM(A1:A9)",
+        "'+A1",
+        "\"x;'=cmd\"",
+        "\"x,'=cmd\"",
+        ",-12.5,",
+    ] {
+        assert!(text.contains(written), "the CSV does not hold {written:?}:\n{text}");
     }
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));

@@ -375,6 +375,136 @@ fn line_schedule_list_survives_a_reload() {
     assert!(problems.is_empty(), "\n{}", problems.join("\n"));
 }
 
+/// A shared link to a 420-row schedule opens on a first visit (a fresh browser, no
+/// service worker yet: the server answers it), with every row computed as the
+/// core computes it. Its link is longer than the 16 KiB request heads the server
+/// once refused.
+#[test]
+fn a_420_row_schedule_link_opens_on_a_first_visit() {
+    const ROWS: usize = 420;
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let key = calculators::line_schedule::KEY;
+    let kinds = [
+        "bend 90deg di52_12 nfpa24_sandy_silt",
+        "bend 45deg di52_12 nfpa24_sandy_silt turn=right",
+        "tee di52_12 di52_8 nfpa24_sand",
+        "reducer di52_12 di52_8",
+        "bend 22.5deg di52_8 turn=down",
+        "dead_end di52_8 h=0.9m",
+    ];
+    let rows: Vec<String> = (0..ROWS)
+        .map(|i| format!("{} tag=F{:03}", kinds[i % kinds.len()], i + 1))
+        .collect();
+    let rows = rows.join("\n");
+    let query = query_string(&[("rows".to_string(), rows.clone())]);
+    assert!(query.len() > 16 * 1024, "the link is only {} bytes", query.len());
+
+    let (mut browser, page) = launch(1280);
+    page.goto(&mut browser, &format!("{}/{key}.html?{query}", site.base))
+        .unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(
+        page.wait_rendered(&mut browser).unwrap(),
+        "ready",
+        "the {}-byte link did not compute on a first visit",
+        query.len()
+    );
+    assert_eq!(
+        page.eval(&mut browser, "navigator.serviceWorker.controller === null")
+            .unwrap(),
+        true,
+        "not a first visit: a service worker answered"
+    );
+    assert_eq!(
+        page.eval(&mut browser, "document.getElementById('field-rows').value")
+            .unwrap(),
+        rows.as_str(),
+        "the field does not hold the link's rows"
+    );
+    let request = demo_request(&calculators::spec(key).expect("registered"), &[("rows", &rows)]);
+    let solution = fluxledger_core::solve(key, &request)
+        .result
+        .unwrap_or_else(|e| panic!("the rows do not solve natively: {e:?}"));
+    let schedule = solution
+        .tables
+        .iter()
+        .find(|t| t.key == "schedule")
+        .expect("a schedule table");
+    assert!(schedule.rows.len() >= ROWS, "the core lists every row (and its totals)");
+    let shown = eval_json(&page, &mut browser, TABLES);
+    let shown = shown
+        .as_array()
+        .and_then(|t| t.iter().find(|t| t[0] == "schedule"))
+        .unwrap_or_else(|| panic!("no schedule table on the page"));
+    let body: Vec<Vec<String>> = serde_json::from_value(shown[1].clone()).unwrap_or_default();
+    assert_eq!(body.len(), schedule.rows.len() + 1, "the header and the core's rows");
+    for (i, (cells, core)) in body[1..].iter().zip(&schedule.rows).enumerate() {
+        assert_eq!(cells.first(), core.first(), "row {} is not the core's", i + 1);
+        assert_eq!(cells.len(), core.len(), "row {} has other cells than the core's", i + 1);
+    }
+    // Every headline number is the core's, as text (units shown prettier).
+    let outputs: Vec<(String, String)> =
+        serde_json::from_value(eval_json(&page, &mut browser, OUTPUTS)).unwrap_or_default();
+    let number = |t: &str| t.split(' ').next().unwrap_or_default().to_string();
+    let shown: BTreeMap<String, String> = outputs.iter().map(|(k, t)| (k.clone(), number(t))).collect();
+    let core: BTreeMap<String, String> = solution
+        .outputs
+        .iter()
+        .map(|o| (o.key.to_string(), number(&o.text)))
+        .collect();
+    assert_eq!(shown, core, "the page's numbers are not the core's");
+    let problems = problems_of_page(&browser, &page, &site.base);
+    assert!(problems.is_empty(), "\n{}", problems.join("\n"));
+}
+
+/// Every page's demo: each warning the core gives is shown in the headline, next to
+/// the numbers it qualifies; every table is shown under its title, and its
+/// emphasised rows (a failed check among them) stand out.
+#[test]
+fn warnings_sit_in_the_headline_and_tables_keep_titles_and_emphasis() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launch(360);
+    let mut problems = Vec::new();
+    let mut warnings_seen = 0;
+    for calculator in CALCULATORS {
+        let key = calculator.key;
+        let solution = fluxledger_core::solve(key, &demo_request(&calculators::spec(key).expect("registered"), &[]))
+            .result
+            .unwrap_or_else(|e| panic!("{key}: the demo does not solve natively: {e:?}"));
+        page.goto(&mut browser, &format!("{}/{key}.html", site.base))
+            .unwrap_or_else(|e| panic!("{e}"));
+        assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready", "{key}");
+        let shown: Vec<String> = serde_json::from_value(eval_json(
+            &page,
+            &mut browser,
+            "JSON.stringify([...document.querySelectorAll('.headline .headline-warnings li')].map(li => li.textContent))",
+        ))
+        .unwrap_or_default();
+        let wanted: Vec<String> = solution.warnings.iter().map(|w| w.message.clone()).collect();
+        warnings_seen += wanted.len();
+        if shown != wanted {
+            problems.push(format!("{key}: headline warnings {shown:?}, the core gave {wanted:?}"));
+        }
+        let tables: Vec<(String, String, Vec<usize>)> = serde_json::from_value(eval_json(
+            &page,
+            &mut browser,
+            "JSON.stringify([...document.querySelectorAll('.panel-table')].map(p => [p.querySelector('table').dataset.table, p.querySelector('.table-title')?.textContent ?? '', [...p.querySelectorAll('tbody tr')].flatMap((r, i) => r.classList.contains('emphasised') ? [i] : [])]))",
+        ))
+        .unwrap_or_default();
+        let wanted: Vec<(String, String, Vec<usize>)> = solution
+            .tables
+            .iter()
+            .map(|t| (t.key.to_string(), t.title.clone(), t.emphasised_rows.clone()))
+            .collect();
+        if tables != wanted {
+            problems.push(format!("{key}: tables {tables:?}, the core gave {wanted:?}"));
+        }
+    }
+    assert!(problems.is_empty(), "\n{}", problems.join("\n"));
+    assert!(warnings_seen > 0, "no demo gives a warning: this test would see none");
+}
+
 // ---------------------------------------------------------------------------------
 // Plots: drawn with data, and redrawn when an input changes.
 
