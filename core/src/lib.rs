@@ -21,6 +21,7 @@ pub mod engine;
 pub mod error;
 pub mod fluid;
 pub mod friction;
+pub mod glossary;
 pub mod pipe_sizes;
 pub mod profile;
 pub mod quadrature;
