@@ -198,10 +198,59 @@ impl Values {
             _ => Err(FieldError::new(key, FieldErrorKind::Missing)),
         }
     }
+    /// A required quantity field as a typed `uom` quantity (`Length`, `Pressure`…):
+    /// the stored SI value in the quantity's SI base unit.
+    pub fn typed<Q: FromSi>(&self, key: &str) -> Result<Q, FieldError> {
+        self.quantity(key).map(Q::from_si)
+    }
+    /// An optional quantity field as a typed quantity, `None` when left empty.
+    pub fn typed_opt<Q: FromSi>(&self, key: &str) -> Option<Q> {
+        match self.values.get(key) {
+            Some(Value::Quantity(v)) => Some(Q::from_si(*v)),
+            _ => None,
+        }
+    }
     /// Builds values directly (for calculators that call each other, and tests).
     pub fn insert(&mut self, key: &'static str, value: Value) {
         self.values.insert(key, value);
     }
+}
+
+/// A `uom` quantity built from its value in SI base units (what validation stores).
+pub trait FromSi {
+    fn from_si(value: f64) -> Self;
+}
+
+macro_rules! from_si {
+    ($($quantity:ident => $unit:path),* $(,)?) => {
+        $(impl FromSi for uom::si::f64::$quantity {
+            fn from_si(value: f64) -> Self {
+                uom::si::f64::$quantity::new::<$unit>(value)
+            }
+        })*
+    };
+}
+
+from_si! {
+    Length => uom::si::length::meter,
+    Area => uom::si::area::square_meter,
+    Volume => uom::si::volume::cubic_meter,
+    Mass => uom::si::mass::kilogram,
+    Time => uom::si::time::second,
+    Pressure => uom::si::pressure::pascal,
+    Velocity => uom::si::velocity::meter_per_second,
+    Acceleration => uom::si::acceleration::meter_per_second_squared,
+    VolumeRate => uom::si::volume_rate::cubic_meter_per_second,
+    MassRate => uom::si::mass_rate::kilogram_per_second,
+    Force => uom::si::force::newton,
+    Torque => uom::si::torque::newton_meter,
+    Power => uom::si::power::watt,
+    Angle => uom::si::angle::radian,
+    AngularVelocity => uom::si::angular_velocity::radian_per_second,
+    ThermodynamicTemperature => uom::si::thermodynamic_temperature::kelvin,
+    MassDensity => uom::si::mass_density::kilogram_per_cubic_meter,
+    DynamicViscosity => uom::si::dynamic_viscosity::pascal_second,
+    Ratio => uom::si::ratio::ratio,
 }
 
 /// An output value with its SI number and its formatted text.
@@ -708,4 +757,25 @@ pub fn demo_inputs(spec: &CalculatorSpec) -> Inputs {
         .filter(|f| !f.demo.is_empty())
         .map(|f| (f.key.to_string(), f.demo.to_string()))
         .collect()
+}
+
+#[cfg(test)]
+mod typed_tests {
+    use super::*;
+    use uom::si::f64::{Length, Pressure};
+    use uom::si::{length::millimeter, pressure::bar};
+
+    #[test]
+    fn typed_reads_the_si_value_as_its_quantity() {
+        let mut values = Values::default();
+        values.insert("d", Value::Quantity(0.3));
+        values.insert("p", Value::Quantity(1.0e6));
+        values.insert("od", Value::Empty);
+        let d: Length = values.typed("d").unwrap();
+        let p: Pressure = values.typed("p").unwrap();
+        assert!((d.get::<millimeter>() - 300.0).abs() < 1e-9);
+        assert!((p.get::<bar>() - 10.0).abs() < 1e-12);
+        assert_eq!(values.typed_opt::<Length>("od"), None);
+        assert!(values.typed::<Length>("missing").is_err());
+    }
 }

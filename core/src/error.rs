@@ -138,6 +138,53 @@ pub enum SolveError {
     Fields(Vec<FieldError>),
 }
 
+/// Every field error of one request, so that reading typed inputs can use `?` on
+/// each field (`FieldError` converts) and still report all of them where it
+/// collects them.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct FieldErrors(pub Vec<FieldError>);
+
+impl FieldErrors {
+    pub fn is_empty(&self) -> bool {
+        self.0.is_empty()
+    }
+    pub fn push(&mut self, e: FieldError) {
+        self.0.push(e);
+    }
+    /// `Ok(value)` when no error was collected.
+    pub fn or_ok<T>(self, value: T) -> Result<T, FieldErrors> {
+        if self.0.is_empty() {
+            Ok(value)
+        } else {
+            Err(self)
+        }
+    }
+}
+
+impl From<FieldError> for FieldErrors {
+    fn from(e: FieldError) -> FieldErrors {
+        FieldErrors(vec![e])
+    }
+}
+
+impl From<Vec<FieldError>> for FieldErrors {
+    fn from(e: Vec<FieldError>) -> FieldErrors {
+        FieldErrors(e)
+    }
+}
+
+impl From<FieldErrors> for Vec<FieldError> {
+    fn from(e: FieldErrors) -> Vec<FieldError> {
+        e.0
+    }
+}
+
+impl From<FieldErrors> for SolveError {
+    fn from(e: FieldErrors) -> SolveError {
+        SolveError::Fields(e.0)
+    }
+}
+
 impl fmt::Display for SolveError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {

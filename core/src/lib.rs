@@ -30,5 +30,5 @@ pub mod vector;
 
 pub use calculators::{solve, Outcome};
 pub use catalog::Request;
-pub use error::{FieldError, FieldErrorKind, SolveError};
+pub use error::{FieldError, FieldErrorKind, FieldErrors, SolveError};
 pub use units::{QuantityKind, UnitSystem};
