@@ -217,6 +217,21 @@ pub fn traverse_points(rng: &mut Rng) -> String {
     points.join(if rng.chance(0.5) { "; " } else { "\n" })
 }
 
+/// A valid entry for one field: a value within its limits typed in its SI or US
+/// unit, one of its options, or valid free text. `None` for a quantity field
+/// without limits.
+pub fn valid_field_text(spec: &CalculatorSpec, field: &FieldSpec, rng: &mut Rng) -> Option<String> {
+    match &field.kind {
+        FieldKind::Quantity(kind) => {
+            let value = value_within(field.limits?, *kind, rng);
+            let unit = if rng.chance(0.5) { field.si_unit } else { field.us_unit };
+            typed(value, *kind, unit)
+        }
+        FieldKind::Choice(options) => (!options.is_empty()).then(|| rng.pick(options).key.to_string()),
+        FieldKind::Text => Some(valid_text(spec, field, rng)),
+    }
+}
+
 /// Junk text: what a user might paste by mistake.
 fn junk_text(rng: &mut Rng) -> String {
     let samples = [

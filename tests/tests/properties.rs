@@ -11,14 +11,19 @@
 //! - non-finite inputs give a typed error, finite ones a finite ledger; nothing panics.
 //!
 //! Catalog (`fluxledger_core::solve`, every calculator in `CALCULATORS`):
-//! - the same case typed in SI or in US customary units gives the same SI result
-//!   (free-text fields aside, whose numbers take the page's unit system);
+//! - the same case typed in SI or in US customary units gives the same SI result,
+//!   free-text fields (a line schedule, a traverse) filled with valid generated text
+//!   whose numbers carry their units;
 //! - every output (and every drawn or plotted number) is finite, or the result is a
 //!   typed error naming fields the calculator has;
 //! - arbitrary strings, non-finite numbers included, in any field never panic.
 //!
+//! Every catalog property requires a least share of its generated requests to solve
+//! for every calculator (`SolvedShare`), so that it cannot pass by refusing them all.
+//!
 //! Case counts are modest so the whole file runs in seconds.
 
+use std::cell::RefCell;
 use std::collections::BTreeMap;
 use std::f64::consts::PI;
 
@@ -29,8 +34,9 @@ use fluxledger_core::fluid::Fluid;
 use fluxledger_core::units::{self, QuantityKind};
 use fluxledger_core::vector::{Direction, Vec3};
 use fluxledger_core::{Request, SolveError, UnitSystem};
+use fluxledger_tests::generate::{self, Rng};
 use proptest::prelude::*;
-use proptest::test_runner::Config;
+use proptest::test_runner::{Config, TestRunner};
 
 fn config(cases: u32) -> Config {
     Config {
@@ -374,16 +380,17 @@ fn draw_quantity(
 
 /// Builds the same inputs in SI and US customary text. Per field, `modes` picks the
 /// demo value or option (0 to 5) or a drawn one (6 and 7), so that most requests
-/// solve and every field still gets moved. Free-text fields (a pasted
-/// traverse, a schedule) read their numbers in the page's unit system, so the same
-/// text means different things in the two; they get their demo text only when
-/// `with_text` is set.
+/// solve and every field still gets moved. Free-text fields (a pasted traverse, a
+/// schedule) get valid generated text drawn from `text_seed`
+/// (`fluxledger_tests::generate::valid_text`) whose every number carries its unit, so
+/// the same text means the same in both systems; a bare number in such text would
+/// take the page's system and is not generated here.
 fn twin_requests(
     spec: &CalculatorSpec,
     draws: &[f64],
     modes: &[usize],
     fill_optional: &[bool],
-    with_text: bool,
+    text_seed: u64,
 ) -> (Request, Request) {
     let mut si_req = Request {
         system: UnitSystem::Si,
@@ -425,10 +432,9 @@ fn twin_requests(
                 }
             }
             FieldKind::Text => {
-                if with_text && !field.demo.is_empty() {
-                    si_req.inputs.insert(field.key.to_string(), field.demo.to_string());
-                    us_req.inputs.insert(field.key.to_string(), field.demo.to_string());
-                }
+                let text = generate::valid_text(spec, field, &mut Rng::new(text_seed.wrapping_add(n as u64)));
+                si_req.inputs.insert(field.key.to_string(), text.clone());
+                us_req.inputs.insert(field.key.to_string(), text);
             }
         }
     }
@@ -485,40 +491,117 @@ fn same_si_result(spec: &CalculatorSpec, si_req: &Request, us_req: &Request) -> 
     }
 }
 
-proptest! {
-    #![proptest_config(config(64))]
+/// Solved and tried requests per calculator over one property's cases: a property
+/// whose requests are all refused would pass without testing anything, so each
+/// property requires a least share of solved requests for every calculator.
+#[derive(Default)]
+struct SolvedShare(RefCell<BTreeMap<&'static str, (usize, usize)>>);
 
-    /// The same case typed in SI or US customary units gives the same SI result.
-    #[test]
-    fn si_and_us_typing_give_the_same_result(
-        draws in prop::collection::vec(0.0f64..1.0, 24), modes in prop::collection::vec(0usize..8, 24),
-        fill in prop::collection::vec(any::<bool>(), 24),
-    ) {
+impl SolvedShare {
+    fn note(&self, key: &'static str, solved: bool) {
+        let mut counts = self.0.borrow_mut();
+        let entry = counts.entry(key).or_default();
+        entry.0 += usize::from(solved);
+        entry.1 += 1;
+    }
+    /// Fails when a calculator solved fewer than `min_share` of its requests.
+    fn require(&self, property: &str, min_share: f64) {
+        let counts = self.0.borrow();
+        let too_few: Vec<String> = calculators::CALCULATORS
+            .iter()
+            .map(|c| {
+                let (solved, tried) = counts.get(c.key).copied().unwrap_or((0, 0));
+                (c.key, solved, tried)
+            })
+            .filter(|(_, solved, tried)| (*solved as f64) < min_share * (*tried).max(1) as f64)
+            .map(|(key, solved, tried)| format!("{key}: {solved} of {tried}"))
+            .collect();
+        assert!(
+            too_few.is_empty(),
+            "{property}: fewer than {:.0} % of the generated requests solved, so the property tests little: {}",
+            min_share * 100.0,
+            too_few.join(", ")
+        );
+    }
+}
+
+/// The least share of generated requests that must solve in the catalog properties
+/// with plausible inputs.
+const MIN_SOLVED_SHARE: f64 = 0.3;
+
+fn solved(spec: &CalculatorSpec, request: &Request) -> bool {
+    fluxledger_core::solve(spec.key, request).result.is_ok()
+}
+
+/// Runs `test` on `cases` values of `strategy`, failing with proptest's minimal case.
+fn run_property<S: Strategy>(cases: u32, strategy: S, test: impl Fn(S::Value) -> Result<(), TestCaseError>)
+where
+    S::Value: std::fmt::Debug,
+{
+    let mut runner = TestRunner::new(config(cases));
+    if let Err(e) = runner.run(&strategy, test) {
+        panic!("{e}");
+    }
+}
+
+/// The same case typed in SI or US customary units gives the same SI result.
+#[test]
+fn si_and_us_typing_give_the_same_result() {
+    let share = SolvedShare::default();
+    let strategy = (
+        prop::collection::vec(0.0f64..1.0, 24),
+        prop::collection::vec(0usize..8, 24),
+        prop::collection::vec(any::<bool>(), 24),
+        any::<u64>(),
+    );
+    run_property(64, strategy, |(draws, modes, fill, text_seed)| {
         for spec in specs() {
-            let (si_req, us_req) = twin_requests(&spec, &draws, &modes, &fill, false);
-            prop_assert!(si_req.inputs != us_req.inputs || spec.fields.iter().all(|f| f.si_unit == f.us_unit),
-                "the twin requests should differ in their units");
+            let (si_req, us_req) = twin_requests(&spec, &draws, &modes, &fill, text_seed);
+            prop_assert!(
+                si_req.inputs != us_req.inputs || spec.fields.iter().all(|f| f.si_unit == f.us_unit),
+                "the twin requests should differ in their units"
+            );
+            share.note(spec.key, solved(&spec, &si_req));
             if let Err(message) = same_si_result(&spec, &si_req, &us_req) {
-                prop_assert!(false, "{}: {message}\nSI: {:?}\nUS: {:?}", spec.key, si_req.inputs, us_req.inputs);
+                prop_assert!(
+                    false,
+                    "{}: {message}\nSI: {:?}\nUS: {:?}",
+                    spec.key,
+                    si_req.inputs,
+                    us_req.inputs
+                );
             }
         }
-    }
+        Ok(())
+    });
+    share.require("SI/US typing", MIN_SOLVED_SHARE);
+}
 
-    /// Plausible and implausible numbers in every field: finite results or typed errors.
-    #[test]
-    fn every_output_is_finite_or_a_typed_error(
-        draws in prop::collection::vec(prop_oneof![3 => 0.0f64..1.0, 1 => -2.0f64..40.0], 24),
-        modes in prop::collection::vec(0usize..8, 24), fill in prop::collection::vec(any::<bool>(), 24),
-        us in any::<bool>(),
-    ) {
+/// Plausible and implausible numbers in every field: finite results or typed errors.
+#[test]
+fn every_output_is_finite_or_a_typed_error() {
+    let share = SolvedShare::default();
+    let strategy = (
+        prop::collection::vec(prop_oneof![3 => 0.0f64..1.0, 1 => -2.0f64..40.0], 24),
+        prop::collection::vec(0usize..8, 24),
+        prop::collection::vec(any::<bool>(), 24),
+        any::<bool>(),
+        any::<u64>(),
+    );
+    run_property(64, strategy, |(draws, modes, fill, us, text_seed)| {
         for spec in specs() {
-            let (si_req, us_req) = twin_requests(&spec, &draws, &modes, &fill, true);
+            let (si_req, us_req) = twin_requests(&spec, &draws, &modes, &fill, text_seed);
             let request = if us { us_req } else { si_req };
+            share.note(spec.key, solved(&spec, &request));
             if let Err(message) = finite_or_typed_error(&spec, &request) {
                 prop_assert!(false, "{}: {message}\ninputs: {:?}", spec.key, request.inputs);
             }
         }
-    }
+        Ok(())
+    });
+    // A quarter of the drawn numbers lie outside [0, 1) scaled demo values, many
+    // outside the limits: fewer requests solve, but still a real share.
+    share.require("finite or typed error", 0.15);
 }
 
 /// Text a user (or a pasted URL) might put in a field.
@@ -537,29 +620,64 @@ fn field_text() -> impl Strategy<Value = String> {
     ]
 }
 
-proptest! {
-    #![proptest_config(config(256))]
-
-    /// Arbitrary text in every field (and arbitrary selector units) never panics, and
-    /// the result is finite numbers or typed errors.
-    #[test]
-    fn arbitrary_text_never_panics(texts in prop::collection::vec(field_text(), 24),
-                                   selector in prop::collection::vec(field_text(), 24), us in any::<bool>(),
-                                   which in prop::collection::vec(0usize..3, 24)) {
+/// Arbitrary text in every field (and arbitrary selector units) never panics, and
+/// the result is finite numbers or typed errors. Besides requests with text in many
+/// fields, each case also changes one field of the demo inputs, to the arbitrary
+/// text or (every other case) to a valid entry drawn for that field; a real share
+/// of those must solve.
+#[test]
+fn arbitrary_text_never_panics() {
+    let share = SolvedShare::default();
+    let strategy = (
+        prop::collection::vec(field_text(), 24),
+        prop::collection::vec(field_text(), 24),
+        any::<bool>(),
+        prop::collection::vec(0usize..3, 24),
+        any::<usize>(),
+        any::<u64>(),
+    );
+    run_property(256, strategy, |(texts, selector, us, which, focus, seed)| {
+        let system = if us { UnitSystem::UsCustomary } else { UnitSystem::Si };
         for spec in specs() {
-            let mut request = Request { system: if us { UnitSystem::UsCustomary } else { UnitSystem::Si }, ..Request::default() };
+            let mut request = Request {
+                system,
+                ..Request::default()
+            };
             for (n, field) in spec.fields.iter().enumerate() {
                 let text = match (&field.kind, which[n % which.len()]) {
                     // A valid option sometimes, so later fields get exercised too.
-                    (FieldKind::Choice(options), 0) if !options.is_empty() => options[n % options.len()].key.to_string(),
+                    (FieldKind::Choice(options), 0) if !options.is_empty() => {
+                        options[n % options.len()].key.to_string()
+                    }
                     (_, 1) if !field.demo.is_empty() => field.demo.to_string(),
                     _ => texts[n % texts.len()].clone(),
                 };
                 request.inputs.insert(field.key.to_string(), text);
-                request.units.insert(field.key.to_string(), selector[n % selector.len()].clone());
+                request
+                    .units
+                    .insert(field.key.to_string(), selector[n % selector.len()].clone());
             }
             if let Err(message) = finite_or_typed_error(&spec, &request) {
                 prop_assert!(false, "{}: {message}\ninputs: {:?}", spec.key, request.inputs);
+            }
+            // One field of the demo changed: to arbitrary text with an arbitrary
+            // selector unit, or (every other case) to a valid entry drawn for it.
+            let field = &spec.fields[focus % spec.fields.len()];
+            let mut rng = Rng::new(seed);
+            let valid = if seed % 2 == 0 {
+                generate::valid_field_text(&spec, field, &mut rng)
+            } else {
+                None
+            };
+            let text = valid.clone().unwrap_or_else(|| texts[0].clone());
+            let mut focused = fluxledger_core::catalog::demo_request(&spec, &[(field.key, text.as_str())]);
+            focused.system = system;
+            if valid.is_none() {
+                focused.units.insert(field.key.to_string(), selector[0].clone());
+            }
+            share.note(spec.key, solved(&spec, &focused));
+            if let Err(message) = finite_or_typed_error(&spec, &focused) {
+                prop_assert!(false, "{}: {message}\ninputs: {:?}", spec.key, focused.inputs);
             }
         }
         // An unknown calculator is a typed error too.
@@ -568,7 +686,9 @@ proptest! {
             let is_unknown = matches!(unknown.result, Err(SolveError::UnknownCalculator { .. }));
             prop_assert!(is_unknown, "unknown key '{}' gave {:?}", texts[0], unknown.result);
         }
-    }
+        Ok(())
+    });
+    share.require("arbitrary text", MIN_SOLVED_SHARE);
 }
 
 #[test]
