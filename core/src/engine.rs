@@ -54,8 +54,8 @@ use uom::si::{
 
 use crate::fluid::Fluid;
 use crate::profile::ProfileFactors;
-use crate::units::STANDARD_ATMOSPHERE;
 use crate::units::STANDARD_GRAVITY;
+use crate::units::{format_significant, STANDARD_ATMOSPHERE};
 use crate::vector::{Direction, Vec3};
 
 /// Typed SI quantities from plain SI numbers, for building control volumes from
@@ -455,11 +455,17 @@ impl std::fmt::Display for EngineWarning {
                 ratio * 100.0
             ),
             EngineWarning::MassDoesNotClose { residual } => {
-                write!(f, "the given flows do not balance: {residual:.4} kg/s more leaves than enters")
+                let (amount, way) = (format_significant(residual.abs(), 3), if *residual > 0.0 {
+                    "more leaves than enters"
+                } else {
+                    "more enters than leaves"
+                });
+                write!(f, "the given flows do not balance: {amount} kg/s {way}")
             }
             EngineWarning::EnergyDoesNotClose { from, to, residual_head } => write!(
                 f,
-                "the energy balance from '{from}' to '{to}' is off by {residual_head:.3} m of head with all terms given"
+                "the energy balance from '{from}' to '{to}' is off by {} m of head with all terms given",
+                format_significant(*residual_head, 3)
             ),
             EngineWarning::NegativeHeadLoss { from, to, head } => write!(
                 f,
@@ -506,7 +512,8 @@ pub struct StreamState {
     pub residual_head: f64,
 }
 
-/// The result of balancing a control volume: every term and every residual.
+/// The result of balancing a control volume: every term of every balance, and the
+/// residuals that are checks (see the module doc).
 #[derive(Clone, Debug, PartialEq)]
 pub struct Balance {
     pub ports: Vec<PortState>,
@@ -999,7 +1006,9 @@ mod tests {
         assert!(found[0].to_string().contains("0.880"), "{}", found[0]);
         // A small disagreement (1 Pa in 48.6 kPa, 2e-5) is still reported; rounding is not.
         let off_by_one_pascal = balance(&contraction(bernoulli_inlet_pressure() + 1.0)).expect("balances");
-        assert_eq!(energy_warnings(&off_by_one_pascal).len(), 1);
+        let small = energy_warnings(&off_by_one_pascal);
+        assert_eq!(small.len(), 1);
+        assert!(small[0].to_string().contains("0.000102 m"), "{}", small[0]);
     }
 
     #[test]
@@ -1031,6 +1040,8 @@ mod tests {
             .iter()
             .any(|w| matches!(w, EngineWarning::MassDoesNotClose { .. })));
         assert!((b.mass_residual - 1.0).abs() < 1e-9, "{}", b.mass_residual);
+        let message = b.warnings.iter().map(|w| w.to_string()).collect::<Vec<_>>().join("; ");
+        assert!(message.contains("1.00 kg/s more leaves than enters"), "{message}");
 
         let mut solved = contraction(bernoulli_inlet_pressure());
         solved.ports[1].flow = FlowSpec::Unknown;
