@@ -861,6 +861,7 @@ mod tests {
                 },
             ],
             carry_over: Vec::new(),
+            ..Solution::default()
         };
         let outcome = Outcome {
             echoes: vec![FieldEcho {
