@@ -274,7 +274,7 @@ pub fn request(spec: &CalculatorSpec, system: UnitSystem, reach: Reach, rng: &mu
         // mass balance).
         let skip = match (edges, field.demo.is_empty(), proportional) {
             (true, _, _) => 0.3,
-            (false, true, true) => 0.8,
+            (false, true, true) => 1.0,
             (false, true, false) => 0.3,
             (false, false, _) => 0.05,
         };
@@ -345,4 +345,32 @@ pub fn request(spec: &CalculatorSpec, system: UnitSystem, reach: Reach, rng: &mu
         request.inputs.insert(field.key.to_string(), text);
     }
     request
+}
+
+/// The same generated case typed twice: every quantity in the SI request in its
+/// field's SI unit, in the US customary request in its US unit (the same SI value
+/// at full precision); options and text alike in both (text carries its units).
+pub fn twin_requests(spec: &CalculatorSpec, reach: Reach, rng: &mut Rng) -> (Request, Request) {
+    let base = request(spec, UnitSystem::Si, reach, rng);
+    let mut si = Request {
+        system: UnitSystem::Si,
+        ..Request::default()
+    };
+    let mut us = Request {
+        system: UnitSystem::UsCustomary,
+        ..Request::default()
+    };
+    for (key, text) in &base.inputs {
+        let field = spec.field(key);
+        let retyped = match field.map(|f| (&f.kind, f)) {
+            Some((FieldKind::Quantity(kind), f)) => units::parse_quantity(text, *kind, f.si_unit)
+                .ok()
+                .and_then(|v| Some((typed(v, *kind, f.si_unit)?, typed(v, *kind, f.us_unit)?))),
+            _ => None,
+        };
+        let (a, b) = retyped.unwrap_or_else(|| (text.clone(), text.clone()));
+        si.inputs.insert(key.clone(), a);
+        us.inputs.insert(key.clone(), b);
+    }
+    (si, us)
 }
