@@ -38,6 +38,11 @@ pub struct ChoiceOption {
 }
 
 /// Valid range of a quantity field, in SI base units of its kind.
+///
+/// Validation also refuses any non-zero magnitude below [`smallest_meaningful`] of
+/// the field's kind, so a "greater than 0" field does not accept 5e-324 (whose
+/// square or reciprocal is no longer a number), and every quantity field must have
+/// finite bounds within [`largest_meaningful`] (the registry lint checks this).
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Limits {
     pub min: f64,
@@ -68,6 +73,71 @@ impl Limits {
             value > self.min
         };
         above && value <= self.max
+    }
+}
+
+/// The smallest non-zero magnitude of a quantity that means anything in this
+/// handbook, SI: a micrometre, a millipascal, a micrometre per second, ... Typed
+/// values below it (other than 0 itself) are refused with the field's valid range:
+/// they are typing slips or probes, and their squares and reciprocals underflow or
+/// overflow. Each is far below any size, pressure or flow in a water main.
+pub fn smallest_meaningful(kind: QuantityKind) -> f64 {
+    match kind {
+        QuantityKind::Length => 1e-6,
+        QuantityKind::Area => 1e-12,
+        QuantityKind::Volume => 1e-15,
+        QuantityKind::ConcreteVolume => 1e-15,
+        QuantityKind::Mass => 1e-9,
+        QuantityKind::Time => 1e-6,
+        QuantityKind::Pressure => 1e-3,
+        QuantityKind::SoilBearing => 1e-3,
+        QuantityKind::Velocity => 1e-6,
+        QuantityKind::Acceleration => 1e-6,
+        QuantityKind::VolumeFlow => 1e-12,
+        QuantityKind::MassFlow => 1e-9,
+        QuantityKind::Force => 1e-6,
+        QuantityKind::Torque => 1e-9,
+        QuantityKind::Power => 1e-9,
+        QuantityKind::Angle => 1e-6,
+        QuantityKind::AngularSpeed => 1e-6,
+        QuantityKind::Temperature => 1e-3,
+        QuantityKind::Density => 1e-3,
+        QuantityKind::SpecificWeight => 1e-2,
+        QuantityKind::DynamicViscosity => 1e-7,
+        QuantityKind::KinematicViscosity => 1e-9,
+        QuantityKind::Ratio => 1e-9,
+    }
+}
+
+/// The largest magnitude a field limit of this kind may have, SI: generous physical
+/// ceilings (10 km, 1 TPa, 1 km/s, ...) that keep every accepted input, and what is
+/// computed from it, far from overflow. Field limits must lie within ±this value
+/// (checked by the registry lint in the tests).
+pub fn largest_meaningful(kind: QuantityKind) -> f64 {
+    match kind {
+        QuantityKind::Length => 1e4,
+        QuantityKind::Area => 1e4,
+        QuantityKind::Volume => 1e6,
+        QuantityKind::ConcreteVolume => 1e6,
+        QuantityKind::Mass => 1e9,
+        QuantityKind::Time => 1e9,
+        QuantityKind::Pressure => 1e12,
+        QuantityKind::SoilBearing => 1e12,
+        QuantityKind::Velocity => 1e3,
+        QuantityKind::Acceleration => 1e3,
+        QuantityKind::VolumeFlow => 1e4,
+        QuantityKind::MassFlow => 1e7,
+        QuantityKind::Force => 1e10,
+        QuantityKind::Torque => 1e9,
+        QuantityKind::Power => 1e10,
+        QuantityKind::Angle => 4.0 * std::f64::consts::PI,
+        QuantityKind::AngularSpeed => 1e6,
+        QuantityKind::Temperature => 1e4,
+        QuantityKind::Density => 1e5,
+        QuantityKind::SpecificWeight => 1e6,
+        QuantityKind::DynamicViscosity => 1e4,
+        QuantityKind::KinematicViscosity => 1e2,
+        QuantityKind::Ratio => 1e6,
     }
 }
 
@@ -157,31 +227,40 @@ pub enum Value {
     Empty,
 }
 
-/// Validated inputs handed to a calculator: every field of its spec is present,
-/// parsed and within limits.
+/// Validated inputs handed to a calculator. After [`validate`], every field of the
+/// spec has an entry: a visible, filled-in field holds its parsed value (a quantity
+/// in SI, within its limits), while an optional field left empty and a field hidden
+/// by its `visible_when` condition hold [`Value::Empty`]. Values built with
+/// [`Values::insert`] have not been validated at all.
 #[derive(Clone, Debug, Default)]
 pub struct Values {
     values: BTreeMap<&'static str, Value>,
 }
 
 impl Values {
-    /// SI value of a required quantity field. Fields of the spec are always present
-    /// after validation; an unknown key or an empty optional field returns NaN-free
-    /// `0.0` only through [`Values::quantity_or`], never here.
+    /// SI value of a quantity field.
+    ///
+    /// # Errors
+    /// [`FieldErrorKind::Missing`] naming `key` when there is no quantity under it:
+    /// an unknown key, a field that is not a quantity, an optional field left empty or
+    /// a hidden field (both [`Value::Empty`]). Use [`Values::quantity_or`] for optional
+    /// fields.
     pub fn quantity(&self, key: &str) -> Result<f64, FieldError> {
         match self.values.get(key) {
             Some(Value::Quantity(v)) => Ok(*v),
             _ => Err(FieldError::new(key, FieldErrorKind::Missing)),
         }
     }
-    /// SI value of an optional quantity field, or `default` when it was left empty.
+    /// SI value of an optional quantity field, or `default` when it holds no quantity
+    /// (left empty, hidden, or not in the values at all).
     pub fn quantity_or(&self, key: &str, default: f64) -> f64 {
         match self.values.get(key) {
             Some(Value::Quantity(v)) => *v,
             _ => default,
         }
     }
-    /// Whether an optional field was filled in.
+    /// Whether `key` holds a value: `false` for a field left empty, a hidden field and
+    /// an unknown key.
     pub fn is_set(&self, key: &str) -> bool {
         !matches!(self.values.get(key), None | Some(Value::Empty))
     }
@@ -210,7 +289,9 @@ impl Values {
             _ => None,
         }
     }
-    /// Builds values directly (for calculators that call each other, and tests).
+    /// Sets `key` to `value`, replacing any value already there. Nothing is parsed or
+    /// checked against a spec's limits: this builds values directly for calculators
+    /// that call each other and for tests, which must respect the limits themselves.
     pub fn insert(&mut self, key: &'static str, value: Value) {
         self.values.insert(key, value);
     }
@@ -657,6 +738,25 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                             number,
                             unit,
                         });
+                        let smallest = smallest_meaningful(*kind);
+                        if si != 0.0 && si.abs() < smallest && *kind != QuantityKind::Temperature {
+                            let (max, zero_allowed) = match field.limits {
+                                Some(limits) => {
+                                    (units::format_quantity_in(limits.max, *kind, unit), limits.contains(0.0))
+                                }
+                                None => (String::new(), true),
+                            };
+                            errors.push(FieldError::new(
+                                field.key,
+                                FieldErrorKind::BelowSmallest {
+                                    smallest: without_trailing_zeros(&units::format_quantity_in(smallest, *kind, unit)),
+                                    zero: units::format_quantity_in(0.0, *kind, unit),
+                                    max,
+                                    zero_allowed,
+                                },
+                            ));
+                            continue;
+                        }
                         if let Some(limits) = field.limits {
                             if !limits.contains(si) {
                                 errors.push(FieldError::new(
@@ -703,6 +803,21 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
     }
     let result = if errors.is_empty() { Ok(values) } else { Err(errors) };
     (echoes, result)
+}
+
+/// `"0.001000 mm"` → `"0.001 mm"`: a bound in a message reads as typed.
+fn without_trailing_zeros(text: &str) -> String {
+    let (number, rest) = text.split_once(' ').unwrap_or((text, ""));
+    let number = if number.contains('.') && !number.contains(['e', 'E']) {
+        number.trim_end_matches('0').trim_end_matches('.')
+    } else {
+        number
+    };
+    if rest.is_empty() {
+        number.to_string()
+    } else {
+        format!("{number} {rest}")
+    }
 }
 
 /// Whether a field is shown for this request: a field with `visible_when` is shown
@@ -757,6 +872,100 @@ pub fn demo_inputs(spec: &CalculatorSpec) -> Inputs {
         .filter(|f| !f.demo.is_empty())
         .map(|f| (f.key.to_string(), f.demo.to_string()))
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn spec() -> CalculatorSpec {
+        let field = |key, kind, si_unit, limits| FieldSpec {
+            key,
+            label: key,
+            kind: FieldKind::Quantity(kind),
+            si_unit,
+            us_unit: si_unit,
+            demo: "",
+            limits: Some(limits),
+            optional: false,
+            help: "",
+            visible_when: None,
+        };
+        CalculatorSpec {
+            key: "test",
+            title: "test",
+            group: group::FITTINGS,
+            summary: "",
+            fields: vec![
+                field("d", QuantityKind::Length, "mm", Limits::positive(10.0)),
+                field(
+                    "angle",
+                    QuantityKind::Angle,
+                    "deg",
+                    Limits::closed(-std::f64::consts::PI, std::f64::consts::PI),
+                ),
+            ],
+            outputs: Vec::new(),
+            cautions: Vec::new(),
+        }
+    }
+
+    fn errors(d: &str, angle: &str) -> Vec<FieldError> {
+        let mut request = Request::default();
+        request.inputs.insert("d".into(), d.into());
+        request.inputs.insert("angle".into(), angle.into());
+        match validate(&spec(), &request).1 {
+            Ok(_) => Vec::new(),
+            Err(errors) => errors,
+        }
+    }
+
+    #[test]
+    fn a_greater_than_zero_field_refuses_the_smallest_subnormal() {
+        // 5e-324 mm underflows to 0 m and meets the plain range message below.
+        let in_metres = errors("5e-324 m", "0 deg");
+        assert!(
+            matches!(in_metres[0].kind, FieldErrorKind::BelowSmallest { .. }),
+            "{in_metres:?}"
+        );
+        let found = errors("1e-300 mm", "0 deg");
+        assert_eq!(found.len(), 1, "{found:?}");
+        assert_eq!(found[0].field, "d");
+        let message = found[0].kind.to_string();
+        assert!(message.contains("greater than 0 mm"), "{message}");
+        assert!(message.contains("at least 0.001 mm"), "{message}");
+        assert!(message.contains("at most 10000 mm"), "{message}");
+        // Zero and negatives keep the plain range message.
+        let zero = errors("0 mm", "0 deg");
+        assert!(matches!(zero[0].kind, FieldErrorKind::OutOfRange { .. }), "{zero:?}");
+    }
+
+    #[test]
+    fn a_field_that_allows_zero_offers_zero_or_the_smallest_value() {
+        let found = errors("300 mm", "1e-300 deg");
+        assert_eq!(found.len(), 1, "{found:?}");
+        assert_eq!(found[0].field, "angle");
+        let message = found[0].kind.to_string();
+        assert!(message.contains("type 0 deg"), "{message}");
+        assert!(errors("300 mm", "-1e-300 deg").len() == 1);
+    }
+
+    #[test]
+    fn values_at_and_above_the_smallest_magnitude_are_accepted() {
+        assert!(errors("0.001 mm", "0 deg").is_empty());
+        assert!(errors("300 mm", "-0.0001 deg").is_empty());
+        assert!(errors("10 m", "180 deg").is_empty());
+    }
+
+    #[test]
+    fn every_kind_has_a_smallest_magnitude_far_below_its_largest() {
+        for kind in QuantityKind::ALL {
+            let (lo, hi) = (smallest_meaningful(kind), largest_meaningful(kind));
+            assert!(lo > 0.0 && hi.is_finite() && hi / lo >= 1e6, "{kind:?}: {lo} .. {hi}");
+            // Squares and reciprocals of everything in between stay normal numbers.
+            assert!((lo * lo).is_normal() && (hi * hi).is_finite() && (1.0 / lo).is_finite());
+        }
+    }
 }
 
 #[cfg(test)]

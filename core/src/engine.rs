@@ -38,9 +38,13 @@
 //! the centroid); steady flow apart from the given storage rates; the rotating CV's
 //! contents are periodic about the axis (its stored angular momentum is constant).
 //!
-//! # Ledger
+//! # Ledger and checks
 //! [`Balance`] keeps every term of every balance as a vector, so that a checker can
-//! see where each newton comes from, and the residual of each balance after solving.
+//! see where each newton comes from. The support force is *defined* by the momentum
+//! sum, so no momentum residual is kept: it would be zero by algebra. What can fail
+//! is reported as a warning: the mass balance when every flow was given
+//! ([`EngineWarning::MassDoesNotClose`]) and the energy balance of a stream whose
+//! every term was given ([`StreamUnknown::Nothing`], [`EngineWarning::EnergyDoesNotClose`]).
 
 use uom::si::f64::{Area, Length, MassRate, Pressure, Velocity, Volume, VolumeRate};
 use uom::si::{
@@ -50,8 +54,8 @@ use uom::si::{
 
 use crate::fluid::Fluid;
 use crate::profile::ProfileFactors;
-use crate::units::STANDARD_ATMOSPHERE;
 use crate::units::STANDARD_GRAVITY;
+use crate::units::{format_significant, STANDARD_ATMOSPHERE};
 use crate::vector::{Direction, Vec3};
 
 /// Typed SI quantities from plain SI numbers, for building control volumes from
@@ -206,6 +210,12 @@ pub enum StreamUnknown {
     HeadLoss,
     /// The shaft head (both pressures known).
     ShaftHead,
+    /// Nothing: both pressures, both flows, the loss and the shaft head are given,
+    /// and the balance is a check. When it does not close (beyond 1e-6 of the largest
+    /// head in it) the engine warns [`EngineWarning::EnergyDoesNotClose`]. This is
+    /// how a flow the calculator found outside the engine (a flow fixed by a supply
+    /// pressure) is checked by an independent final balance.
+    Nothing,
 }
 
 /// An energy balance along the flow from one port to another.
@@ -412,13 +422,14 @@ impl std::error::Error for EngineError {}
 /// A note about the balance that does not stop it.
 #[derive(Clone, Debug, PartialEq)]
 pub enum EngineWarning {
-    /// The absolute pressure at a port falls below the fluid's vapour pressure.
+    /// The absolute pressure at a port (gauge plus the standard atmosphere,
+    /// 101.325 kPa) falls below the fluid's vapour pressure.
     BelowVapourPressure { port: String, absolute: f64, vapour: f64 },
     /// The momentum flux is under 1 % of the pressure force (static formula governs).
     MomentumNegligible { ratio: f64 },
     /// All flows were given and they do not balance.
     MassDoesNotClose { residual: f64 },
-    /// Both pressures and the loss of a stream were given and they disagree.
+    /// Every term of a stream ([`StreamUnknown::Nothing`]) was given and they disagree.
     EnergyDoesNotClose {
         from: String,
         to: String,
@@ -433,8 +444,9 @@ impl std::fmt::Display for EngineWarning {
         match self {
             EngineWarning::BelowVapourPressure { port, absolute, vapour } => write!(
                 f,
-                "the absolute pressure at '{port}' ({:.1} kPa) is below the vapour pressure ({:.1} kPa): the liquid would flash or cavitate and this balance does not hold",
+                "the absolute pressure at '{port}' ({:.1} kPa, gauge pressure plus a standard atmosphere of {} kPa) is below the vapour pressure ({:.1} kPa): the liquid would flash or cavitate and this balance does not hold; at altitude the atmosphere is lower and the margin smaller",
                 absolute / 1e3,
+                STANDARD_ATMOSPHERE / 1e3,
                 vapour / 1e3
             ),
             EngineWarning::MomentumNegligible { ratio } => write!(
@@ -443,11 +455,17 @@ impl std::fmt::Display for EngineWarning {
                 ratio * 100.0
             ),
             EngineWarning::MassDoesNotClose { residual } => {
-                write!(f, "the given flows do not balance: {residual:.4} kg/s more leaves than enters")
+                let (amount, way) = (format_significant(residual.abs(), 3), if *residual > 0.0 {
+                    "more leaves than enters"
+                } else {
+                    "more enters than leaves"
+                });
+                write!(f, "the given flows do not balance: {amount} kg/s {way}")
             }
             EngineWarning::EnergyDoesNotClose { from, to, residual_head } => write!(
                 f,
-                "the energy balance from '{from}' to '{to}' is off by {residual_head:.3} m of head with all terms given"
+                "the energy balance from '{from}' to '{to}' is off by {} m of head with all terms given",
+                format_significant(*residual_head, 3)
             ),
             EngineWarning::NegativeHeadLoss { from, to, head } => write!(
                 f,
@@ -489,11 +507,13 @@ pub struct StreamState {
     pub head_loss: f64,
     /// Shaft head taken out, m.
     pub shaft_head: f64,
-    /// Left minus right side of the energy equation, m (zero when solved).
+    /// Left minus right side of the energy equation, m: zero by algebra when the
+    /// stream solved an unknown, a real check for [`StreamUnknown::Nothing`].
     pub residual_head: f64,
 }
 
-/// The result of balancing a control volume: every term and every residual.
+/// The result of balancing a control volume: every term of every balance, and the
+/// residuals that are checks (see the module doc).
 #[derive(Clone, Debug, PartialEq)]
 pub struct Balance {
     pub ports: Vec<PortState>,
@@ -512,10 +532,11 @@ pub struct Balance {
     /// N·m (positive in the sense of rotation), and the power, W.
     pub shaft_torque: Option<f64>,
     pub shaft_power: Option<f64>,
-    /// Σ_out ṁ − Σ_in ṁ + dm/dt, kg/s.
+    /// Σ_out ṁ − Σ_in ṁ + dm/dt, kg/s: a check only when every flow was given
+    /// ([`Balance::solved_flow`] is `None`); otherwise zero up to rounding.
     pub mass_residual: f64,
-    /// |ΣF − Σflux − storage|, N, recomputed from the ledger terms.
-    pub momentum_residual: f64,
+    /// The port whose flow the mass balance solved, if any.
+    pub solved_flow: Option<usize>,
     pub warnings: Vec<EngineWarning>,
 }
 
@@ -729,6 +750,7 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
                 .collect(),
         });
     }
+    let solved_flow = ports.iter().position(|p| p.mass_flow.is_nan());
     if let Some(port) = ports.iter_mut().find(|p| p.mass_flow.is_nan()) {
         // signed(port, m) + known_net = 0
         let m = match port.role {
@@ -800,16 +822,29 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
             (StreamUnknown::ShaftHead, false, false) => {
                 shaft_head = head_of(s.from, p_from) - head_of(s.to, p_to) - head_loss;
             }
+            (StreamUnknown::Nothing, false, false) => {}
             _ => return Err(underdetermined()),
         }
-        let residual_head =
-            head_of(s.from, ports[s.from].pressure) - head_of(s.to, ports[s.to].pressure) - head_loss - shaft_head;
-        if residual_head.abs() > 1e-6 * (1.0 + head_loss.abs() + shaft_head.abs()) {
-            warnings.push(EngineWarning::EnergyDoesNotClose {
-                from: cv.ports[s.from].name.to_string(),
-                to: cv.ports[s.to].name.to_string(),
-                residual_head,
-            });
+        let (head_from, head_to) = (
+            head_of(s.from, ports[s.from].pressure),
+            head_of(s.to, ports[s.to].pressure),
+        );
+        let residual_head = head_from - head_to - head_loss - shaft_head;
+        // Only a stream with every term given can fail to close; the others solved
+        // their unknown from this very equation.
+        if s.unknown == StreamUnknown::Nothing {
+            let largest = head_from
+                .abs()
+                .max(head_to.abs())
+                .max(head_loss.abs())
+                .max(shaft_head.abs());
+            if residual_head.abs() > 1e-6 * largest.max(1e-3) {
+                warnings.push(EngineWarning::EnergyDoesNotClose {
+                    from: cv.ports[s.from].name.to_string(),
+                    to: cv.ports[s.to].name.to_string(),
+                    residual_head,
+                });
+            }
         }
         streams.push(StreamState {
             from: s.from,
@@ -844,8 +879,6 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
     let flux_total: Vec3 = ports.iter().map(|p| p.momentum_outflow).sum();
     let extra_total: Vec3 = cv.extra_forces.iter().map(|e| e.force).sum();
     let support_force = flux_total + cv.momentum_storage_rate - pressure_total - fluid_weight - extra_total;
-    let momentum_residual =
-        (support_force + pressure_total + fluid_weight + extra_total - flux_total - cv.momentum_storage_rate).norm();
     let pressure_scale: f64 = ports.iter().map(|p| p.pressure_force.norm()).sum();
     let flux_scale: f64 = ports.iter().map(|p| p.momentum_outflow.norm()).sum();
     if pressure_scale > 0.0 && flux_scale < 0.01 * pressure_scale {
@@ -894,7 +927,155 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
         shaft_torque,
         shaft_power,
         mass_residual,
-        momentum_residual,
+        solved_flow,
         warnings,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn water_like() -> Fluid {
+        Fluid {
+            name: "water at 1000 kg/m³".into(),
+            density: 1000.0,
+            viscosity: 1e-3,
+            vapour_pressure: None,
+        }
+    }
+
+    /// A horizontal contraction from 100 mm to 50 mm bore carrying 20 L/s, with the
+    /// inlet pressure given and the outlet open (0 gauge): every term of the energy
+    /// balance is given. Bernoulli without loss needs p₁ = ρ(V₂² − V₁²)/2 (derived
+    /// from the definition); any other p₁ must be reported as not closing.
+    fn contraction(inlet_pressure: f64) -> ControlVolume {
+        let (a1, a2) = (
+            std::f64::consts::PI * 0.1 * 0.1 / 4.0,
+            std::f64::consts::PI * 0.05 * 0.05 / 4.0,
+        );
+        let mut cv = ControlVolume::new(water_like());
+        let i = cv.port(
+            Port::inlet("inlet", si::area(a1), Direction::X)
+                .volume_flow(si::volume_flow(0.02))
+                .pressure(si::pressure(inlet_pressure)),
+        );
+        let o = cv.port(
+            Port::outlet("outlet", si::area(a2), Direction::X)
+                .volume_flow(si::volume_flow(0.02))
+                .pressure(si::pressure(0.0))
+                .at(Vec3::new(0.3, 0.0, 0.0)),
+        );
+        cv.stream(Stream::new(i, o).solve_for(StreamUnknown::Nothing));
+        cv
+    }
+
+    fn bernoulli_inlet_pressure() -> f64 {
+        let (a1, a2) = (
+            std::f64::consts::PI * 0.1 * 0.1 / 4.0,
+            std::f64::consts::PI * 0.05 * 0.05 / 4.0,
+        );
+        let (v1, v2) = (0.02 / a1, 0.02 / a2);
+        0.5 * 1000.0 * (v2 * v2 - v1 * v1)
+    }
+
+    fn energy_warnings(b: &Balance) -> Vec<&EngineWarning> {
+        b.warnings
+            .iter()
+            .filter(|w| matches!(w, EngineWarning::EnergyDoesNotClose { .. }))
+            .collect()
+    }
+
+    #[test]
+    fn a_stream_with_every_term_given_closes_when_bernoulli_holds() {
+        let p1 = bernoulli_inlet_pressure();
+        // 48.63 kPa: V₁ = 2.546 m/s, V₂ = 10.186 m/s.
+        assert!((p1 - 48_634.0).abs() < 1.0, "{p1}");
+        let b = balance(&contraction(p1)).expect("balances");
+        assert!(energy_warnings(&b).is_empty(), "{:?}", b.warnings);
+        assert!(b.streams[0].residual_head.abs() < 1e-9);
+    }
+
+    #[test]
+    fn a_stream_with_every_term_given_warns_when_it_does_not_close() {
+        // 40 kPa is 8.63 kPa short of what the flows need: 0.880 m of head.
+        let b = balance(&contraction(40_000.0)).expect("balances");
+        let found = energy_warnings(&b);
+        assert_eq!(found.len(), 1, "{:?}", b.warnings);
+        let expected_head = (40_000.0 - bernoulli_inlet_pressure()) / (1000.0 * STANDARD_GRAVITY);
+        let residual = b.streams[0].residual_head;
+        assert!((residual - expected_head).abs() < 1e-9, "{residual} vs {expected_head}");
+        assert!(found[0].to_string().contains("0.880"), "{}", found[0]);
+        // A small disagreement (1 Pa in 48.6 kPa, 2e-5) is still reported; rounding is not.
+        let off_by_one_pascal = balance(&contraction(bernoulli_inlet_pressure() + 1.0)).expect("balances");
+        let small = energy_warnings(&off_by_one_pascal);
+        assert_eq!(small.len(), 1);
+        assert!(small[0].to_string().contains("0.000102 m"), "{}", small[0]);
+    }
+
+    #[test]
+    fn a_stream_that_solves_its_unknown_never_warns_about_closure() {
+        let mut cv = contraction(40_000.0);
+        cv.ports[1].pressure = None;
+        cv.streams[0].unknown = StreamUnknown::Pressure;
+        let b = balance(&cv).expect("balances");
+        assert!(energy_warnings(&b).is_empty());
+        // The outlet pressure follows from Bernoulli: 40 kPa − 48.63 kPa.
+        assert!((b.ports[1].pressure - (40_000.0 - bernoulli_inlet_pressure())).abs() < 1e-6);
+    }
+
+    #[test]
+    fn a_stream_with_every_term_given_needs_both_pressures() {
+        let mut cv = contraction(40_000.0);
+        cv.ports[1].pressure = None;
+        assert!(matches!(balance(&cv), Err(EngineError::StreamUnderdetermined { .. })));
+    }
+
+    #[test]
+    fn the_mass_balance_of_given_flows_can_fail_and_a_solved_flow_is_named() {
+        let mut cv = contraction(bernoulli_inlet_pressure());
+        cv.ports[1].flow = FlowSpec::VolumeFlow(0.021);
+        let b = balance(&cv).expect("balances");
+        assert_eq!(b.solved_flow, None);
+        assert!(b
+            .warnings
+            .iter()
+            .any(|w| matches!(w, EngineWarning::MassDoesNotClose { .. })));
+        assert!((b.mass_residual - 1.0).abs() < 1e-9, "{}", b.mass_residual);
+        let message = b.warnings.iter().map(|w| w.to_string()).collect::<Vec<_>>().join("; ");
+        assert!(message.contains("1.00 kg/s more leaves than enters"), "{message}");
+
+        let mut solved = contraction(bernoulli_inlet_pressure());
+        solved.ports[1].flow = FlowSpec::Unknown;
+        let b = balance(&solved).expect("balances");
+        assert_eq!(b.solved_flow, Some(1));
+        assert!(!b
+            .warnings
+            .iter()
+            .any(|w| matches!(w, EngineWarning::MassDoesNotClose { .. })));
+    }
+
+    #[test]
+    fn the_vapour_pressure_warning_names_the_atmosphere_it_assumes() {
+        // Water at 20 °C: saturation pressure 2.339 kPa (IAPWS-IF97 eq. 30). A gauge
+        // pressure of −100 kPa is 1.3 kPa absolute at a standard atmosphere.
+        let mut fluid = water_like();
+        fluid.vapour_pressure = Some(2_339.0);
+        let mut cv = ControlVolume::new(fluid);
+        cv.port(
+            Port::inlet("suction", si::area(0.01), Direction::X)
+                .velocity(si::velocity(1.0))
+                .pressure(si::pressure(-100_000.0)),
+        );
+        cv.port(Port::outlet("out", si::area(0.01), Direction::X).pressure(si::pressure(-100_000.0)));
+        let b = balance(&cv).expect("balances");
+        let message = b
+            .warnings
+            .iter()
+            .find(|w| matches!(w, EngineWarning::BelowVapourPressure { .. }))
+            .map(|w| w.to_string())
+            .unwrap_or_default();
+        assert!(message.contains("standard atmosphere of 101.325 kPa"), "{message}");
+        assert!(message.contains("1.3 kPa"), "{message}");
+    }
 }

@@ -36,6 +36,18 @@ pub enum FieldErrorKind {
         max: String,
         min_inclusive: bool,
     },
+    /// A non-zero value below the smallest meaningful magnitude of its kind
+    /// (`catalog::smallest_meaningful`): 5e-324 mm is not a diameter.
+    BelowSmallest {
+        /// The smallest meaningful magnitude, in the field's unit.
+        smallest: String,
+        /// Zero, in the field's unit.
+        zero: String,
+        /// The field's upper limit, in its unit (empty when it has none).
+        max: String,
+        /// Whether 0 itself is a valid value of the field.
+        zero_allowed: bool,
+    },
     /// A choice field got a value that is not one of its options.
     UnknownChoice { allowed: Vec<String> },
     /// The value is valid alone but not together with other inputs.
@@ -101,6 +113,29 @@ impl fmt::Display for FieldErrorKind {
             FieldErrorKind::OutOfRange { min, max, min_inclusive } => {
                 let op = if *min_inclusive { "at least" } else { "greater than" };
                 write!(f, "must be {op} {min} and at most {max}")
+            }
+            FieldErrorKind::BelowSmallest {
+                smallest,
+                zero,
+                max,
+                zero_allowed,
+            } => {
+                let upper = if max.is_empty() {
+                    String::new()
+                } else {
+                    format!(" and at most {max}")
+                };
+                if *zero_allowed {
+                    write!(
+                        f,
+                        "is below {smallest}, the smallest meaningful value: type {zero}, or at least {smallest}{upper}"
+                    )
+                } else {
+                    write!(
+                        f,
+                        "must be greater than {zero}: at least {smallest} (the smallest meaningful value){upper}"
+                    )
+                }
             }
             FieldErrorKind::UnknownChoice { allowed } => write!(f, "must be one of: {}", allowed.join(", ")),
             FieldErrorKind::Inconsistent { reason } => write!(f, "{reason}"),

@@ -33,8 +33,17 @@ impl Vec3 {
             self.x * o.y - self.y * o.x,
         )
     }
+    /// Euclidean length. The components are scaled by the largest magnitude before
+    /// squaring, so the length of a vector with components near `f64::MAX` (or near
+    /// the smallest subnormal) neither overflows to infinity nor underflows to zero.
     pub fn norm(self) -> f64 {
-        self.dot(self).sqrt()
+        let largest = self.x.abs().max(self.y.abs()).max(self.z.abs());
+        if largest == 0.0 || !largest.is_finite() {
+            // Zero, or an infinity/NaN that the plain sum carries through unchanged.
+            return self.dot(self).sqrt();
+        }
+        let (x, y, z) = (self.x / largest, self.y / largest, self.z / largest);
+        largest * (x * x + y * y + z * z).sqrt()
     }
     pub fn is_finite(self) -> bool {
         self.x.is_finite() && self.y.is_finite() && self.z.is_finite()
@@ -117,5 +126,36 @@ impl Direction {
     /// The opposite direction.
     pub fn reversed(self) -> Direction {
         Direction(-self.0)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn norm_of_small_vectors_is_exact() {
+        assert_eq!(Vec3::new(3.0, 4.0, 0.0).norm(), 5.0);
+        assert_eq!(Vec3::new(2.0, 3.0, 6.0).norm(), 7.0);
+        assert_eq!(Vec3::ZERO.norm(), 0.0);
+    }
+
+    #[test]
+    fn norm_does_not_overflow_or_underflow() {
+        // 1e200² overflows f64; the scaled length is 5e200 (a 3-4-5 triangle).
+        let big = Vec3::new(3e200, -4e200, 0.0);
+        assert!((big.norm() - 5e200).abs() <= 1e-15 * 5e200, "{}", big.norm());
+        let max = Vec3::new(f64::MAX, 0.0, 0.0);
+        assert_eq!(max.norm(), f64::MAX);
+        // 1e-200² underflows to zero unscaled.
+        let tiny = Vec3::new(0.0, 3e-200, 4e-200);
+        assert!((tiny.norm() - 5e-200).abs() <= 1e-15 * 5e-200, "{}", tiny.norm());
+        assert!(Direction::new(Vec3::new(1e300, 1e300, 0.0)).is_some());
+    }
+
+    #[test]
+    fn norm_of_non_finite_vectors_is_not_finite() {
+        assert!(Vec3::new(f64::INFINITY, 1.0, 0.0).norm().is_infinite());
+        assert!(Vec3::new(f64::NAN, 1.0, 0.0).norm().is_nan());
     }
 }

@@ -31,6 +31,8 @@
 //! written ahead of their calculator wait in `tests/data/pending/`, which the driver
 //! does not read (the tidy test still checks that they name a source).
 
+pub mod generate;
+
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};

@@ -7,7 +7,14 @@
 //!   values and tolerances parse as the output's quantity kind;
 //! - there are at least 25 reference cases, and every registered calculator has at
 //!   least one that checks its outputs against a source;
-//! - every `core/src/**/*.rs` file starts with a `//!` module doc.
+//! - every `core/src/**/*.rs` file starts with a `//!` module doc;
+//! - registry lint over every calculator: unique calculator, field, option and
+//!   output keys; `visible_when` names a choice field and real options of it; every
+//!   quantity field has SI and US units of its kind and finite limits within the
+//!   kind's physical ceiling; demo values parse, lie within limits and are among the
+//!   options; option lists backed by a data table (pipe sizes, soils, test rules)
+//!   list exactly its entries and their labels show its values; the demo page solves
+//!   in both unit systems without defects or disagreeing checks.
 
 use std::path::{Path, PathBuf};
 
@@ -239,4 +246,356 @@ fn every_core_module_starts_with_a_module_doc() {
         "these core files do not start with a `//!` module doc:\n{}",
         missing.join("\n")
     );
+}
+
+// ---------------------------------------------------------------------------------
+// Registry lint: every calculator's description, checked against itself and against
+// the data tables behind its option lists.
+
+mod registry {
+    use std::collections::BTreeSet;
+
+    use fluxledger_core::calculators::{self, thrust_block, CALCULATORS};
+    use fluxledger_core::catalog::{
+        self, demo_request, is_visible, largest_meaningful, smallest_meaningful, CalculatorSpec, ChoiceOption,
+        FieldKind, FieldSpec, MAX_TEXT_CHARS,
+    };
+    use fluxledger_core::pipe_sizes;
+    use fluxledger_core::units::{self, QuantityKind};
+    use fluxledger_core::{SolveError, UnitSystem};
+
+    /// Keys that are stable in URLs: short, lowercase ASCII, digits and `_`/`-`.
+    fn key_problem(what: &str, key: &str) -> Option<String> {
+        let ok = !key.is_empty()
+            && key.len() <= 24
+            && key
+                .chars()
+                .all(|c| c.is_ascii_lowercase() || c.is_ascii_digit() || c == '_' || c == '-');
+        (!ok).then(|| format!("{what} key '{key}' must be 1–24 characters of a–z, 0–9, '_' or '-'"))
+    }
+
+    fn duplicates<'a>(keys: impl IntoIterator<Item = &'a str>) -> Vec<&'a str> {
+        let mut seen = BTreeSet::new();
+        keys.into_iter().filter(|k| !seen.insert(*k)).collect()
+    }
+
+    fn quantity_problems(field: &FieldSpec, kind: QuantityKind) -> Vec<String> {
+        let mut problems = Vec::new();
+        let key = field.key;
+        for (system, unit) in [("SI", field.si_unit), ("US", field.us_unit)] {
+            match units::find_unit_of(unit, kind) {
+                Some(_) => {}
+                _ => problems.push(format!(
+                    "field '{key}': {system} unit '{unit}' is not a unit of {kind:?}"
+                )),
+            }
+        }
+        let Some(limits) = field.limits else {
+            problems.push(format!("field '{key}': a quantity field needs limits"));
+            return problems;
+        };
+        let (smallest, largest) = (smallest_meaningful(kind), largest_meaningful(kind));
+        if !(limits.min.is_finite() && limits.max.is_finite() && limits.min < limits.max) {
+            problems.push(format!(
+                "field '{key}': limits {} .. {} must be finite with min < max",
+                limits.min, limits.max
+            ));
+        }
+        if kind != QuantityKind::Temperature && (limits.min.abs() > largest || limits.max.abs() > largest) {
+            problems.push(format!(
+                "field '{key}': limits {} .. {} go beyond the physical ceiling ±{largest} of {kind:?} (catalog::largest_meaningful)",
+                limits.min, limits.max
+            ));
+        }
+        if kind != QuantityKind::Temperature && limits.max < smallest {
+            problems.push(format!(
+                "field '{key}': upper limit {} is below the smallest meaningful {kind:?} ({smallest})",
+                limits.max
+            ));
+        }
+        if !field.demo.is_empty() {
+            match units::parse_quantity(field.demo, kind, field.si_unit) {
+                Err(e) => problems.push(format!("field '{key}': demo '{}' does not parse: {e}", field.demo)),
+                Ok(v) => {
+                    if !limits.contains(v) {
+                        problems.push(format!(
+                            "field '{key}': demo '{}' ({v} SI) is outside its limits {:?}",
+                            field.demo, limits
+                        ));
+                    }
+                    if v != 0.0 && v.abs() < smallest && kind != QuantityKind::Temperature {
+                        problems.push(format!(
+                            "field '{key}': demo '{}' is below the smallest meaningful value",
+                            field.demo
+                        ));
+                    }
+                }
+            }
+        }
+        problems
+    }
+
+    fn choice_problems(field: &FieldSpec, options: &[ChoiceOption]) -> Vec<String> {
+        let mut problems = Vec::new();
+        let key = field.key;
+        if options.is_empty() {
+            problems.push(format!("field '{key}': a choice needs options"));
+        }
+        for d in duplicates(options.iter().map(|o| o.key)) {
+            problems.push(format!("field '{key}': option '{d}' is listed twice"));
+        }
+        for o in options {
+            if o.key.is_empty()
+                || o.key
+                    .chars()
+                    .any(|c| c.is_whitespace() || c == '&' || c == '=' || c == '#')
+            {
+                problems.push(format!("field '{key}': option key '{}' is not URL-safe", o.key));
+            }
+            if o.label.trim().is_empty() {
+                problems.push(format!("field '{key}': option '{}' has no label", o.key));
+            }
+        }
+        if !field.demo.is_empty() && !options.iter().any(|o| o.key == field.demo) {
+            problems.push(format!(
+                "field '{key}': demo '{}' is not one of its options",
+                field.demo
+            ));
+        }
+        problems.extend(data_table_problems(key, options));
+        problems
+    }
+
+    /// Options backed by a data table must list exactly the table's entries (plus the
+    /// "typed value" option), and a number in a label must be the table's value.
+    fn data_table_problems(key: &str, options: &[ChoiceOption]) -> Vec<String> {
+        let mut problems = Vec::new();
+        let keys: BTreeSet<&str> = options.iter().map(|o| o.key).collect();
+        let label_of = |k: &str| options.iter().find(|o| o.key == k).map(|o| o.label).unwrap_or("");
+        let mut compare = |table: &str, expected: BTreeSet<&str>| {
+            if keys != expected {
+                problems.push(format!(
+                    "field '{key}': options {:?} differ from the {table} entries {:?}",
+                    keys.symmetric_difference(&expected).collect::<Vec<_>>(),
+                    expected.len()
+                ));
+            }
+        };
+        if options == pipe_sizes::SIZE_OPTIONS {
+            let expected = pipe_sizes::SIZES
+                .iter()
+                .map(|s| s.key)
+                .chain([pipe_sizes::CUSTOM])
+                .collect();
+            compare("pipe_sizes::SIZES", expected);
+            for size in pipe_sizes::SIZES {
+                let label = label_of(size.key);
+                for (what, metres) in [("OD", size.od), ("ID", size.id)] {
+                    let shown = label
+                        .split_once(&format!("{what} "))
+                        .and_then(|(_, rest)| rest.split_once(" mm"))
+                        .and_then(|(number, _)| number.trim().parse::<f64>().ok());
+                    match shown {
+                        Some(mm) if (mm / 1000.0 - metres).abs() <= 0.051e-3 => {}
+                        _ => problems.push(format!(
+                            "field '{key}': option '{}' label '{label}' does not show {what} {:.1} mm",
+                            size.key,
+                            metres * 1000.0
+                        )),
+                    }
+                }
+            }
+        } else if options == thrust_block::SOIL_OPTIONS {
+            let expected = thrust_block::SOILS.iter().map(|s| s.key).chain(["custom"]).collect();
+            compare("thrust_block::SOILS", expected);
+            for soil in thrust_block::SOILS {
+                let label = label_of(soil.key);
+                // "Sand: 2000 psf (...)": the value between ': ' and ' (' is the table's.
+                let shown = label
+                    .split_once(": ")
+                    .and_then(|(_, rest)| rest.split_once(" ("))
+                    .and_then(|(value, _)| units::parse_quantity(value, QuantityKind::Pressure, "kPa").ok());
+                match shown {
+                    Some(v) if (v - soil.bearing).abs() <= 1e-6 * soil.bearing.max(1.0) => {}
+                    _ => problems.push(format!(
+                        "field '{key}': option '{}' label '{label}' does not show the table's {} Pa",
+                        soil.key, soil.bearing
+                    )),
+                }
+            }
+        } else if options == thrust_block::TEST_RULE_OPTIONS {
+            let expected = thrust_block::TEST_RULES
+                .iter()
+                .map(|r| r.key)
+                .chain(["custom"])
+                .collect();
+            compare("thrust_block::TEST_RULES", expected);
+            for rule in thrust_block::TEST_RULES {
+                // A field test is never below the working pressure it tests.
+                for p in [0.0, 1e5, 1e6, 1e7] {
+                    let test = (rule.apply)(p, 0.0);
+                    if !(test.is_finite() && test >= p) {
+                        problems.push(format!("test rule '{}' gives {test} Pa for {p} Pa", rule.key));
+                    }
+                }
+            }
+        }
+        problems
+    }
+
+    fn spec_problems(spec: &CalculatorSpec) -> Vec<String> {
+        let mut problems = Vec::new();
+        problems.extend(key_problem("calculator", spec.key));
+        for d in duplicates(spec.fields.iter().map(|f| f.key)) {
+            problems.push(format!("field key '{d}' is used twice"));
+        }
+        for d in duplicates(spec.outputs.iter().map(|o| o.key)) {
+            problems.push(format!("output key '{d}' is used twice"));
+        }
+        for o in &spec.outputs {
+            problems.extend(key_problem("output", o.key));
+        }
+        let demo = demo_request(spec, &[]);
+        for field in &spec.fields {
+            problems.extend(key_problem("field", field.key));
+            if let Some((target, allowed)) = field.visible_when {
+                match spec.field(target).map(|t| &t.kind) {
+                    None => problems.push(format!("field '{}': visible_when names no field '{target}'", field.key)),
+                    Some(FieldKind::Choice(options)) => {
+                        if target == field.key {
+                            problems.push(format!("field '{}': visible_when names itself", field.key));
+                        }
+                        if allowed.is_empty() {
+                            problems.push(format!("field '{}': visible_when lists no options", field.key));
+                        }
+                        for a in allowed.iter() {
+                            if !options.iter().any(|o| o.key == *a) {
+                                problems.push(format!(
+                                    "field '{}': visible_when names '{a}', not an option of '{target}'",
+                                    field.key
+                                ));
+                            }
+                        }
+                    }
+                    Some(_) => problems.push(format!(
+                        "field '{}': visible_when names '{target}', which is not a choice field",
+                        field.key
+                    )),
+                }
+            }
+            match &field.kind {
+                FieldKind::Quantity(kind) => problems.extend(quantity_problems(field, *kind)),
+                FieldKind::Choice(options) => problems.extend(choice_problems(field, options)),
+                FieldKind::Text => {
+                    if field.demo.chars().count() > MAX_TEXT_CHARS {
+                        problems.push(format!("field '{}': demo text is longer than fields accept", field.key));
+                    }
+                }
+            }
+            if field.demo.is_empty() && !field.optional && is_visible(field, &demo) {
+                problems.push(format!(
+                    "field '{}' is required and shown with the demo inputs but has no demo value",
+                    field.key
+                ));
+            }
+        }
+        // The demo page solves cleanly in both unit systems.
+        for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+            let mut request = demo.clone();
+            request.system = system;
+            match calculators::solve(spec.key, &request).result {
+                Ok(solution) => {
+                    for d in &solution.defects {
+                        problems.push(format!("demo ({system:?}): defect: {d}"));
+                    }
+                    for c in solution.checks.iter().filter(|c| !c.agrees()) {
+                        problems.push(format!("demo ({system:?}): check '{}' disagrees: {c:?}", c.label));
+                    }
+                }
+                Err(SolveError::Fields(errors)) => {
+                    problems.push(format!("demo ({system:?}) is refused: {}", SolveError::Fields(errors)))
+                }
+                Err(other) => problems.push(format!("demo ({system:?}): {other}")),
+            }
+        }
+        problems
+    }
+
+    #[test]
+    fn every_calculator_description_is_consistent() {
+        let specs = calculators::catalog();
+        let mut problems: Vec<String> = duplicates(CALCULATORS.iter().map(|c| c.key))
+            .into_iter()
+            .map(|d| format!("calculator key '{d}' is registered twice"))
+            .collect();
+        for (calculator, spec) in CALCULATORS.iter().zip(&specs) {
+            if calculator.key != spec.key {
+                problems.push(format!(
+                    "registered as '{}' but its spec says '{}'",
+                    calculator.key, spec.key
+                ));
+            }
+            if ![
+                catalog::group::FITTINGS,
+                catalog::group::JETS_AND_ROTORS,
+                catalog::group::FLOW_AND_TANKS,
+            ]
+            .contains(&spec.group)
+            {
+                problems.push(format!("{}: unknown group '{}'", spec.key, spec.group));
+            }
+            problems.extend(spec_problems(spec).into_iter().map(|p| format!("{}: {p}", spec.key)));
+        }
+        assert!(
+            problems.is_empty(),
+            "calculator descriptions break the registry rules:\n  {}",
+            problems.join("\n  ")
+        );
+    }
+
+    /// The lint must be able to fail: a description with each kind of fault is caught.
+    #[test]
+    fn the_registry_lint_catches_each_fault() {
+        let good = calculators::spec("bend").expect("bend is registered");
+        assert!(spec_problems(&good).is_empty(), "{:?}", spec_problems(&good));
+        let faults: Vec<(&str, Box<dyn Fn(&mut CalculatorSpec)>)> = vec![
+            ("used twice", Box::new(|s| s.fields.push(s.fields[0].clone()))),
+            ("output key", Box::new(|s| s.outputs.push(s.outputs[0].clone()))),
+            (
+                "visible_when names no field",
+                Box::new(|s| s.fields[1].visible_when = Some(("nothing", &["x"]))),
+            ),
+            (
+                "not an option",
+                Box::new(|s| s.fields[1].visible_when = Some(("fluid", &["lava"]))),
+            ),
+            ("outside its limits", Box::new(|s| s.fields[1].demo = "20 m")),
+            (
+                "not one of its options",
+                Box::new(|s| {
+                    if let Some(f) = s.fields.iter_mut().find(|f| f.key == "fluid") {
+                        f.demo = "lava";
+                    }
+                }),
+            ),
+            (
+                "physical ceiling",
+                Box::new(|s| {
+                    if let Some(l) = s.fields[1].limits.as_mut() {
+                        l.max = 1e300;
+                    }
+                }),
+            ),
+            ("needs limits", Box::new(|s| s.fields[1].limits = None)),
+        ];
+        for (expected, fault) in faults {
+            let mut spec = good.clone();
+            fault(&mut spec);
+            let found = spec_problems(&spec);
+            assert!(
+                found.iter().any(|p| p.contains(expected)),
+                "a fault expected to give '{expected}' gave {found:?}"
+            );
+        }
+    }
 }

@@ -296,8 +296,10 @@ fn cell(value: f64, kind: QuantityKind, unit: &str) -> String {
 }
 
 /// The momentum ledger: every term of the support-force equation per port, the
-/// weight and storage terms, the total force the supports supply, the thrust on the
-/// supports, and the residual.
+/// weight and storage terms, the total force the supports supply and the thrust on
+/// the supports. It shows the terms of one balance, so it has no residual row (the
+/// total is defined by the sum and would close by algebra); the independent checks
+/// are in the `checks` table (see `Report::check`).
 pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
     let mut rows: Vec<(String, Vec3)> = Vec::new();
     for p in &balance.ports {
@@ -324,7 +326,7 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
     let unit = table_unit(max, Q::Force, system);
     let mut table = Table {
         key: "ledger",
-        title: "Momentum ledger: terms of R = Σ p·A·n + Σ ±ṁβV − W − ΣF + dP/dt".to_string(),
+        title: "Momentum ledger: the terms of one balance, R = Σ p·A·n + Σ ±ṁβV − W − ΣF + dP/dt (R is their sum, so this table cannot disagree with itself; the checks table compares results with independent paths)".to_string(),
         columns: vec![
             "Term".to_string(),
             format!("x ({unit})"),
@@ -336,7 +338,7 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
         emphasised_rows: vec![total_index, total_index + 1],
     };
     // A component of a term that is rounding residue of sines and cosines (1e-12 of
-    // the largest term) is shown as the 0 it is; the residual row keeps its value.
+    // the largest term) is shown as the 0 it is.
     let component = |c: f64| if c.abs() < 1e-12 * max { 0.0 } else { c };
     for (label, v) in rows {
         table.rows.push(vec![
@@ -347,19 +349,14 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
             cell(v.norm(), Q::Force, unit),
         ]);
     }
-    table.rows.push(vec![
-        "momentum residual |ΣF − Σflux|".to_string(),
-        String::new(),
-        String::new(),
-        String::new(),
-        cell(balance.momentum_residual, Q::Force, unit),
-    ]);
-    table.emphasised_rows.push(table.rows.len() - 1);
     table
 }
 
-/// The port table: size, flow, velocity and pressure at every port, and the mass
-/// residual.
+/// The port table: size, flow, velocity and pressure at every port. When every flow
+/// was given (none solved by the mass balance) a last row shows how far the given
+/// flows are from balancing: a real check, which the engine also raises as a
+/// warning beyond 1e-6. When a flow was solved, that row would be zero by algebra
+/// and is left out; the solved port is marked instead.
 pub fn ports_table(balance: &Balance, system: UnitSystem) -> Table {
     let area_unit = table_unit(
         balance.ports.iter().map(|p| p.area).fold(0.0, f64::max),
@@ -380,7 +377,11 @@ pub fn ports_table(balance: &Balance, system: UnitSystem) -> Table {
     let mass_unit = table_unit(1.0, Q::MassFlow, system);
     let mut table = Table {
         key: "ports",
-        title: "Ports: mass balance and state".to_string(),
+        title: if balance.solved_flow.is_some() {
+            "Ports: state (the port marked \"flow solved\" takes the flow that closes the mass balance)".to_string()
+        } else {
+            "Ports: state, and the mass balance of the given flows".to_string()
+        },
         columns: vec![
             "Port".to_string(),
             format!("area ({area_unit})"),
@@ -392,10 +393,15 @@ pub fn ports_table(balance: &Balance, system: UnitSystem) -> Table {
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
     };
-    for p in &balance.ports {
+    for (index, p) in balance.ports.iter().enumerate() {
         let role = if p.role == Role::Inlet { "in" } else { "out" };
+        let solved = if balance.solved_flow == Some(index) {
+            ", flow solved"
+        } else {
+            ""
+        };
         table.rows.push(vec![
-            format!("{} ({role})", p.name),
+            format!("{} ({role}{solved})", p.name),
             cell(p.area, Q::Area, area_unit),
             cell(p.volume_flow, Q::VolumeFlow, flow_unit),
             cell(p.mass_flow, Q::MassFlow, mass_unit),
@@ -403,15 +409,17 @@ pub fn ports_table(balance: &Balance, system: UnitSystem) -> Table {
             cell(p.pressure, Q::Pressure, p_unit),
         ]);
     }
-    table.rows.push(vec![
-        "mass residual Σout − Σin".to_string(),
-        String::new(),
-        String::new(),
-        cell(balance.mass_residual, Q::MassFlow, mass_unit),
-        String::new(),
-        String::new(),
-    ]);
-    table.emphasised_rows.push(table.rows.len() - 1);
+    if balance.solved_flow.is_none() {
+        table.rows.push(vec![
+            "given flows: Σout − Σin (+ storage)".to_string(),
+            String::new(),
+            String::new(),
+            cell(balance.mass_residual, Q::MassFlow, mass_unit),
+            String::new(),
+            String::new(),
+        ]);
+        table.emphasised_rows.push(table.rows.len() - 1);
+    }
     table
 }
 

@@ -641,7 +641,7 @@ mod tests {
                     ("p", "100 MPa"),
                     ("q", "0 m3/h"),
                     ("q", "1000 m3/s"),
-                    ("q", "1e-300 m3/s"),
+                    ("q", "1e-9 m3/s"),
                 ] {
                     let key = if given == "p" { "p" } else { "q" };
                     let pairs = [

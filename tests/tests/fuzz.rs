@@ -1,0 +1,291 @@
+//! Fuzz-style property over every registered calculator.
+//!
+//! Requests are generated from each calculator's own description
+//! (`fluxledger_tests::generate`): values inside, at and just beyond every field's
+//! limits, in either unit system's units, every option, and valid free text (a
+//! generated line schedule or traverse) as well as junk. For every request the core
+//! accepts, nothing shown may be broken:
+//!
+//! - no output, diagram coordinate or plot point is NaN or ±∞;
+//! - no output text, table cell or warning shows "—", "NaN" or "inf";
+//! - `Solution::defects` is empty and every `Solution::checks` entry agrees.
+//!
+//! Refused requests must name fields the calculator has. At least
+//! [`MIN_SOLVED_SHARE`] of the requests drawn inside the limits must solve, so the
+//! property cannot pass by refusing everything.
+//!
+//! Bounded in time: each calculator gets [`BUDGET`] (dev profile) and at least
+//! [`MIN_REQUESTS`] requests. `FLUXLEDGER_FUZZ_SECONDS=60` runs longer;
+//! `FLUXLEDGER_FUZZ_SEED` replays a run (the seed is printed on failure).
+
+use std::time::{Duration, Instant};
+
+use fluxledger_core::catalog::{CalculatorSpec, Shape, Solution};
+use fluxledger_core::{calculators, Request, SolveError, UnitSystem};
+use fluxledger_tests::generate::{self, Reach, Rng};
+
+/// Time per calculator.
+const BUDGET: Duration = Duration::from_millis(1500);
+/// Requests per calculator at the least, whatever the time.
+const MIN_REQUESTS: usize = 150;
+/// The smallest share of requests drawn inside the limits that must solve.
+const MIN_SOLVED_SHARE: f64 = 0.3;
+
+fn budget() -> Duration {
+    std::env::var("FLUXLEDGER_FUZZ_SECONDS")
+        .ok()
+        .and_then(|s| s.parse::<f64>().ok())
+        .filter(|s| s.is_finite() && *s > 0.0)
+        .map(Duration::from_secs_f64)
+        .unwrap_or(BUDGET)
+}
+
+fn seed() -> u64 {
+    std::env::var("FLUXLEDGER_FUZZ_SEED")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(0x5EED_F1E1_D5)
+}
+
+/// Text that shows a number that is not one: NaN or an infinity anywhere, or the
+/// placeholder dash of a failed format as the whole text or in front of a unit
+/// (`"—"`, `"— kN"`). A dash inside a sentence is punctuation.
+fn broken_text(text: &str) -> bool {
+    let trimmed = text.trim();
+    let placeholder = trimmed == "—" || (trimmed.starts_with("— ") && !trimmed[4..].contains(' '));
+    placeholder
+        || trimmed
+            .split(|c: char| c.is_whitespace() || matches!(c, '(' | ')' | ',' | ';' | ':' | '[' | ']' | '='))
+            .any(|token| {
+                let lower = token
+                    .trim_matches(|c: char| c == '.' || c == '\'' || c == '"')
+                    .to_ascii_lowercase();
+                ["nan", "inf", "-inf", "+inf", "infinity", "-infinity"].contains(&lower.as_str())
+            })
+}
+
+/// What is wrong with an accepted solution, if anything.
+fn solution_problems(solution: &Solution) -> Vec<String> {
+    let mut problems = Vec::new();
+    for d in &solution.defects {
+        problems.push(format!("defect: {d}"));
+    }
+    for c in &solution.checks {
+        if !c.agrees() {
+            problems.push(format!(
+                "check '{}' disagrees: {} against {} ({})",
+                c.label, c.value, c.reference, c.basis
+            ));
+        }
+    }
+    for o in &solution.outputs {
+        if !o.si.is_finite() || broken_text(&o.text) {
+            problems.push(format!("output {} = {} shown as '{}'", o.key, o.si, o.text));
+        }
+    }
+    for t in &solution.tables {
+        for (r, row) in t.rows.iter().enumerate() {
+            for cell in row {
+                if broken_text(cell) {
+                    problems.push(format!("table '{}' row {r}: cell '{cell}' in {row:?}", t.key));
+                }
+            }
+        }
+        for c in &t.columns {
+            if broken_text(c) {
+                problems.push(format!("table '{}': column '{c}'", t.key));
+            }
+        }
+    }
+    for w in &solution.warnings {
+        if broken_text(&w.message) {
+            problems.push(format!("warning shows a broken number: {}", w.message));
+        }
+    }
+    for d in &solution.diagrams {
+        if !d.bounds.iter().all(|x| x.is_finite()) {
+            problems.push(format!("diagram '{}' bounds {:?}", d.title, d.bounds));
+        }
+        for shape in &d.shapes {
+            let ok = match shape {
+                Shape::Polygon { points, .. } | Shape::Polyline { points, .. } => {
+                    points.iter().flatten().all(|x| x.is_finite())
+                }
+                Shape::Circle { center, radius, .. } => center.iter().all(|x| x.is_finite()) && radius.is_finite(),
+                Shape::Arrow { from, to, .. } => from.iter().chain(to).all(|x| x.is_finite()),
+                Shape::Text { at, .. } => at.iter().all(|x| x.is_finite()),
+            };
+            if !ok {
+                problems.push(format!("diagram '{}': non-finite shape {shape:?}", d.title));
+            }
+        }
+    }
+    for p in &solution.plots {
+        let series_ok = p.series.iter().flat_map(|s| &s.points).flatten().all(|x| x.is_finite());
+        let markers_ok = p.markers.iter().flat_map(|m| m.at).all(|x| x.is_finite());
+        if !(series_ok && markers_ok) {
+            problems.push(format!("plot '{}' has a non-finite point", p.title));
+        }
+    }
+    problems
+}
+
+/// The outcome of fuzzing one calculator.
+#[derive(Default)]
+struct Tally {
+    requests: usize,
+    valid_requests: usize,
+    valid_solved: usize,
+    failures: Vec<String>,
+}
+
+fn fuzz(spec: &CalculatorSpec, seed: u64, budget: Duration) -> Tally {
+    let mut rng = Rng::new(seed);
+    let mut tally = Tally::default();
+    let start = Instant::now();
+    while tally.requests < MIN_REQUESTS || start.elapsed() < budget {
+        tally.requests += 1;
+        let reach = if rng.chance(0.6) { Reach::Valid } else { Reach::Edges };
+        let system = if rng.chance(0.5) {
+            UnitSystem::Si
+        } else {
+            UnitSystem::UsCustomary
+        };
+        let request: Request = generate::request(spec, system, reach, &mut rng);
+        let outcome = calculators::solve(spec.key, &request);
+        if reach == Reach::Valid {
+            tally.valid_requests += 1;
+        }
+        let problems = match &outcome.result {
+            Ok(solution) => {
+                if reach == Reach::Valid {
+                    tally.valid_solved += 1;
+                }
+                solution_problems(solution)
+            }
+            Err(SolveError::Fields(errors)) => errors
+                .iter()
+                .filter(|e| spec.field(&e.field).is_none() || e.kind.to_string().trim().is_empty())
+                .map(|e| format!("error on unknown field or without a message: {e}"))
+                .collect(),
+            Err(other) => vec![format!("{other}")],
+        };
+        if !problems.is_empty() && tally.failures.len() < 3 {
+            tally.failures.push(format!(
+                "{}: {}\n    system: {:?}\n    inputs: {:?}",
+                spec.key,
+                problems.join("; "),
+                request.system,
+                request.inputs
+            ));
+        }
+    }
+    tally
+}
+
+/// Fuzzes the calculators with these keys and fails with every broken request found.
+fn fuzz_calculators(keys: &[&str]) {
+    let (seed, budget) = (seed(), budget());
+    let mut failures = Vec::new();
+    for (n, key) in keys.iter().enumerate() {
+        let Some(spec) = calculators::spec(key) else {
+            failures.push(format!("{key}: not registered"));
+            continue;
+        };
+        let tally = fuzz(&spec, seed.wrapping_add(n as u64), budget);
+        let share = tally.valid_solved as f64 / tally.valid_requests.max(1) as f64;
+        println!(
+            "{key}: {} requests, {} of {} inside the limits solved ({:.0} %)",
+            tally.requests,
+            tally.valid_solved,
+            tally.valid_requests,
+            share * 100.0
+        );
+        if share < MIN_SOLVED_SHARE {
+            failures.push(format!(
+                "{key}: only {:.0} % of the requests inside the limits solved (at least {:.0} % required): the generator or the calculator refuses too much",
+                share * 100.0,
+                MIN_SOLVED_SHARE * 100.0
+            ));
+        }
+        failures.extend(tally.failures);
+    }
+    assert!(
+        failures.is_empty(),
+        "fuzzing found broken results (seed {seed}; replay with FLUXLEDGER_FUZZ_SEED={seed}):\n{}",
+        failures.join("\n")
+    );
+}
+
+/// One test per calculator, so that each runs in its own thread and a failure names
+/// the calculator. A calculator added to `CALCULATORS` without a line here fails
+/// [`every_calculator_is_fuzzed`].
+macro_rules! fuzz_tests {
+    ($($(#[$attr:meta])* $name:ident => $key:literal,)*) => {
+        $(
+            #[test]
+            $(#[$attr])*
+            fn $name() {
+                fuzz_calculators(&[$key]);
+            }
+        )*
+        const FUZZED: &[&str] = &[$($key),*];
+    };
+}
+
+fuzz_tests! {
+    bend_is_robust => "bend",
+    reducer_is_robust => "reducer",
+    dead_end_is_robust => "dead-end",
+    tee_is_robust => "tee",
+    nozzle_is_robust => "nozzle",
+    thrust_block_is_robust => "thrust-block",
+    line_schedule_is_robust => "line-schedule",
+    jet_plate_is_robust => "jet-plate",
+    vane_is_robust => "vane",
+    reaction_arm_is_robust => "reaction-arm",
+    runner_is_robust => "runner",
+    tank_drain_is_robust => "tank-drain",
+    profile_is_robust => "profile",
+}
+
+#[test]
+fn every_calculator_is_fuzzed() {
+    let missing: Vec<&str> = calculators::CALCULATORS
+        .iter()
+        .map(|c| c.key)
+        .filter(|key| !FUZZED.contains(key))
+        .collect();
+    assert!(
+        missing.is_empty(),
+        "add these calculators to fuzz_tests! in tests/tests/fuzz.rs: {}",
+        missing.join(", ")
+    );
+}
+
+#[test]
+fn broken_text_is_recognised() {
+    for text in [
+        "—",
+        "— kN",
+        " — ",
+        "NaN kN",
+        "inf",
+        "-inf m",
+        "1.0 (NaN)",
+        "Infinity",
+        "x = NaN",
+    ] {
+        assert!(broken_text(text), "{text}");
+    }
+    for text in [
+        "12.4 kN",
+        "information",
+        "inflow 3 m/s",
+        "in",
+        "1e-300",
+        "AWWA M23 PVC Pipe — Design and Installation",
+    ] {
+        assert!(!broken_text(text), "{text}");
+    }
+}
