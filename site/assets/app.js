@@ -767,7 +767,10 @@ function render(result) {
     }
   }
   ui.headline.classList.toggle("has-warnings", warningList !== null);
-  ui.headline.replaceChildren(el("h2", { class: "panel-title", text: "Result" }), headline, warningList);
+  // replaceChildren writes a null argument as the text "null": pass only nodes.
+  const headlineParts = [el("h2", { class: "panel-title", text: "Result" }), headline];
+  if (warningList) headlineParts.push(warningList);
+  ui.headline.replaceChildren(...headlineParts);
 
   const parts = [];
   const links = renderCarryOver(result.carry_over || []);
