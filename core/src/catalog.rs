@@ -391,6 +391,21 @@ pub enum Shape {
     },
 }
 
+impl Shape {
+    /// Whether every coordinate and size of the shape is a finite number (a shape
+    /// with NaN or ±inf cannot be drawn; every test of accepted inputs asks this).
+    pub fn is_finite(&self) -> bool {
+        match self {
+            Shape::Polygon { points, .. } | Shape::Polyline { points, .. } => {
+                points.iter().flatten().all(|x| x.is_finite())
+            }
+            Shape::Circle { center, radius, .. } => center.iter().all(|x| x.is_finite()) && radius.is_finite(),
+            Shape::Arrow { from, to, .. } => from.iter().chain(to).all(|x| x.is_finite()),
+            Shape::Text { at, .. } => at.iter().all(|x| x.is_finite()),
+        }
+    }
+}
+
 /// Semantic style of a shape; the site maps each to a stroke and fill of its own.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum ShapeStyle {

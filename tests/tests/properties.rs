@@ -28,7 +28,7 @@ use std::collections::BTreeMap;
 use std::f64::consts::PI;
 
 use fluxledger_core::calculators::{self, CALCULATORS};
-use fluxledger_core::catalog::{CalculatorSpec, FieldKind, Shape, Solution};
+use fluxledger_core::catalog::{CalculatorSpec, FieldKind, Solution};
 use fluxledger_core::engine::{self, si, Balance, ControlVolume, EngineError, Frame, Loss, Port, Stream};
 use fluxledger_core::fluid::Fluid;
 use fluxledger_core::units::{self, QuantityKind};
@@ -398,15 +398,7 @@ fn solution_numbers_finite(s: &Solution) -> Result<(), String> {
             return Err(format!("diagram '{}' bounds {:?}", d.title, d.bounds));
         }
         for shape in &d.shapes {
-            let ok = match shape {
-                Shape::Polygon { points, .. } | Shape::Polyline { points, .. } => {
-                    points.iter().flatten().all(|x| x.is_finite())
-                }
-                Shape::Circle { center, radius, .. } => center.iter().all(|x| x.is_finite()) && radius.is_finite(),
-                Shape::Arrow { from, to, .. } => from.iter().chain(to).all(|x| x.is_finite()),
-                Shape::Text { at, .. } => at.iter().all(|x| x.is_finite()),
-            };
-            if !ok {
+            if !shape.is_finite() {
                 return Err(format!("diagram '{}' has a non-finite shape {shape:?}", d.title));
             }
         }
