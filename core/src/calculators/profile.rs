@@ -102,7 +102,7 @@ pub fn spec() -> CalculatorSpec {
             FieldSpec {
                 optional: true,
                 visible_when: Some(("shape", &["power_law"])),
-                ..quantity("n", "Power-law exponent n in u = U(1 − r/R)^(1/n)", Q::Ratio, "-", "-", "7", Limits::closed(1.0, 20.0), "About 6 to 10 for turbulent pipe flow; 7 is the usual default (common practice).")
+                ..quantity("n_power", "Power-law exponent n in u = U(1 − r/R)^(1/n)", Q::Ratio, "-", "-", "7", Limits::closed(1.0, 20.0), "About 6 to 10 for turbulent pipe flow; 7 is the usual default (common practice).")
             },
         ],
         outputs: vec![
@@ -404,12 +404,12 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             let (factors, exponent) = if kind == "laminar" {
                 (profile::laminar(), None)
             } else {
-                if !values.is_set("n") {
-                    return Err(vec![FieldError::inconsistent("n", "give the power-law exponent")]);
+                if !values.is_set("n_power") {
+                    return Err(vec![FieldError::inconsistent("n_power", "give the power-law exponent")]);
                 }
-                let n = values.quantity_or("n", 7.0);
+                let n = values.quantity_or("n_power", 7.0);
                 let f = profile::power_law(n)
-                    .ok_or_else(|| vec![FieldError::inconsistent("n", "n must be greater than 0")])?;
+                    .ok_or_else(|| vec![FieldError::inconsistent("n_power", "n must be greater than 0")])?;
                 (f, Some(n))
             };
             // u/U at s, with the distance from the wall passed for precision there.
@@ -580,8 +580,13 @@ pub(crate) mod tests {
             &[("d", "10 m"), ("points", "0 100; 1e-12 0.001")],
             &[("points", "0 1; 0.3 100; 0.6 0.001; 1 0"), ("m_wall", "4")],
             &[("points", "0.999 5; 1 5"), ("m_wall", "10")],
-            &[("shape", "power_law"), ("u_max", "0.001 m/s"), ("n", "1")],
-            &[("shape", "power_law"), ("u_max", "100 m/s"), ("n", "20"), ("d", "10 m")],
+            &[("shape", "power_law"), ("u_max", "0.001 m/s"), ("n_power", "1")],
+            &[
+                ("shape", "power_law"),
+                ("u_max", "100 m/s"),
+                ("n_power", "20"),
+                ("d", "10 m"),
+            ],
             &[("shape", "laminar"), ("u_max", "0.001 m/s"), ("d", "1 mm")],
         ];
         for pairs in sets {

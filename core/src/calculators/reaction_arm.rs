@@ -88,13 +88,13 @@ const MAX_SPEED_RAD_S: f64 = 1e5 * 2.0 * PI / 60.0;
 /// residue and shown as 0 (a free-running arm's torque, its hub pressure at runaway).
 const RESIDUE: f64 = 1e-12;
 
-const DRIVE_OPTIONS: &[ChoiceOption] = &[
+const FLOW_GIVEN_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
-        key: "flow",
+        key: "q",
         label: "Fixed flow (positive-displacement or throttled supply)",
     },
     ChoiceOption {
-        key: "pressure",
+        key: "p",
         label: "Fixed supply pressure at the hub",
     },
 ];
@@ -182,14 +182,14 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         choice(
-            "drive",
+            "flow_given",
             "The arm is fed at",
-            DRIVE_OPTIONS,
-            "flow",
+            FLOW_GIVEN_OPTIONS,
+            "q",
             "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ + ω²R²).",
         ),
         FieldSpec {
-            visible_when: Some(("drive", &["flow"])),
+            visible_when: Some(("flow_given", &["q"])),
             ..quantity(
                 "q",
                 "Total flow through the arm",
@@ -202,7 +202,7 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         FieldSpec {
-            visible_when: Some(("drive", &["pressure"])),
+            visible_when: Some(("flow_given", &["p"])),
             ..quantity(
                 "p",
                 "Supply gauge pressure at the hub",
@@ -250,7 +250,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec {
             visible_when: Some(("load", &["linear", "quadratic"])),
             ..quantity(
-                "n_load",
+                "speed_load",
                 "Speed at which that torque applies",
                 Q::AngularSpeed,
                 "rpm",
@@ -263,7 +263,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec {
             visible_when: Some(("load", &["speed"])),
             ..quantity(
-                "n_held",
+                "speed_held",
                 "Held speed",
                 Q::AngularSpeed,
                 "rpm",
@@ -557,8 +557,8 @@ fn read(values: &Values) -> Result<(Arm, Load), Vec<FieldError>> {
     let alpha = values.quantity("alpha").map_err(|e| vec![e])?;
     let cv = values.quantity_or("cv", 1.0);
     let fluid = common::fluid_from(values)?;
-    let drive = match values.choice("drive").map_err(|e| vec![e])? {
-        "flow" => match values.is_set("q") {
+    let drive = match values.choice("flow_given").map_err(|e| vec![e])? {
+        "q" => match values.is_set("q") {
             true => Drive::Flow(values.quantity_or("q", 0.0)),
             false => {
                 errors.push(FieldError::inconsistent("q", "a flow is required for a fixed-flow arm"));
@@ -591,10 +591,10 @@ fn read(values: &Values) -> Result<(Arm, Load), Vec<FieldError>> {
         "constant" => Load::Constant(need("t_load", "a torque", &mut errors)),
         kind @ ("linear" | "quadratic") => Load::Power {
             torque: need("t_load", "a torque", &mut errors),
-            speed: need("n_load", "the speed of that torque", &mut errors),
+            speed: need("speed_load", "the speed of that torque", &mut errors),
             exponent: if kind == "linear" { 1 } else { 2 },
         },
-        "speed" => Load::Held(need("n_held", "a speed", &mut errors)),
+        "speed" => Load::Held(need("speed_held", "a speed", &mut errors)),
         _ => Load::None,
     };
     if d_nozzle > 2.0 * radius {
@@ -756,7 +756,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             report.output("power", s.power);
             if matches!(load, Load::Held(_)) && s.torque < 0.0 {
                 report.warn(
-                    Some("n_held"),
+                    Some("speed_held"),
                     "the held speed is above the runaway speed: the shaft drives the arm, which then works as a pump (negative torque and power)",
                 );
             }
@@ -1194,7 +1194,7 @@ mod tests {
 
     #[test]
     fn held_speed_above_runaway_is_warned_only_when_a_speed_is_held() {
-        let held = crate::calculators::testing::solved(KEY, &[("load", "speed"), ("n_held", "5000 rpm")]);
+        let held = crate::calculators::testing::solved(KEY, &[("load", "speed"), ("speed_held", "5000 rpm")]);
         assert!(held.output("torque").map(|o| o.si < 0.0).unwrap_or(false));
         assert!(held.warnings.iter().any(|w| w.message.contains("held speed is above")));
         assert_eq!(held.output("efficiency"), None);
@@ -1264,7 +1264,7 @@ mod tests {
                 ("radius", "450 mm"),
                 ("d_nozzle", "12 mm"),
                 ("alpha", "10 deg"),
-                ("drive", "flow"),
+                ("flow_given", "q"),
                 ("q", "1.5 L/s"),
                 ("fluid", "custom"),
                 ("rho", "1000 kg/m3"),
@@ -1296,7 +1296,7 @@ mod tests {
                 ("alpha", "0 deg"),
                 ("cv", "1"),
                 ("load", "none"),
-                ("drive", "pressure"),
+                ("flow_given", "p"),
                 ("p", "4 bar"),
             ]),
         )
@@ -1308,15 +1308,15 @@ mod tests {
 
     #[test]
     fn held_speed_above_runaway_and_unheld_ideal_arm_are_warned() {
-        let s = crate::solve(KEY, &request(&[("load", "speed"), ("n_held", "60 rpm")]))
+        let s = crate::solve(KEY, &request(&[("load", "speed"), ("speed_held", "60 rpm")]))
             .result
             .expect("solves");
         assert!(s.output("torque").unwrap().si < 0.0);
-        assert!(s.warnings.iter().any(|w| w.field == Some("n_held")));
+        assert!(s.warnings.iter().any(|w| w.field == Some("speed_held")));
         let s = crate::solve(
             KEY,
             &request(&[
-                ("drive", "pressure"),
+                ("flow_given", "p"),
                 ("alpha", "0 deg"),
                 ("cv", "1"),
                 ("load", "constant"),
@@ -1344,9 +1344,9 @@ mod tests {
         assert_eq!(error_field(&[("nozzles", "2.5")]), "nozzles");
         assert_eq!(error_field(&[("nozzles", "0")]), "nozzles");
         assert_eq!(error_field(&[("radius", "0 mm")]), "radius");
-        assert_eq!(error_field(&[("drive", "flow"), ("q", "-1 L/s")]), "q");
-        assert_eq!(error_field(&[("drive", "flow"), ("q", "")]), "q");
-        assert_eq!(error_field(&[("load", "linear")]), "n_load");
-        assert_eq!(error_field(&[("drive", "pressure"), ("d_hub", "1 mm")]), "d_hub");
+        assert_eq!(error_field(&[("flow_given", "q"), ("q", "-1 L/s")]), "q");
+        assert_eq!(error_field(&[("flow_given", "q"), ("q", "")]), "q");
+        assert_eq!(error_field(&[("load", "linear")]), "speed_load");
+        assert_eq!(error_field(&[("flow_given", "p"), ("d_hub", "1 mm")]), "d_hub");
     }
 }

@@ -178,7 +178,7 @@ pub fn spec() -> CalculatorSpec {
             optional: true,
             ..quantity("alpha1", "Guide-vane (inlet flow) angle α₁", Q::Angle, "deg", "deg", "", ANGLE_RANGE, "Angle of the absolute inlet velocity from the direction of blade motion, V_θ1 = V_m1/tan α₁. Empty: 90 deg, no pre-swirl.")
         },
-        quantity("n", "Speed", Q::AngularSpeed, "rpm", "rpm", "1480 rpm", SPEED_RANGE, "Shaft speed, 1 to 100 000 rpm."),
+        quantity("speed", "Speed", Q::AngularSpeed, "rpm", "rpm", "1480 rpm", SPEED_RANGE, "Shaft speed, 1 to 100 000 rpm."),
         quantity("q", "Flow", Q::VolumeFlow, "m3/h", "gpm", "180 m3/h", FLOW_RANGE, "Flow through the blades, 0.001 L/s to 1000 m³/s."),
         FieldSpec {
             optional: true,
@@ -384,13 +384,13 @@ fn read(values: &Values) -> Result<Runner, Vec<FieldError>> {
         ((r1, 2.0 * PI * r1 * b1), (r2, 2.0 * PI * r2 * b2))
     };
     let fluid = common::fluid_from(values)?;
-    let omega = values.quantity("n").map_err(|e| vec![e])?;
+    let omega = values.quantity("speed").map_err(|e| vec![e])?;
     let flow = values.quantity("q").map_err(|e| vec![e])?;
     let beta2 = values.quantity("beta2").map_err(|e| vec![e])?;
     let fastest = omega * inlet.0.max(outlet.0);
     if fastest > MAX_BLADE_SPEED {
         errors.push(FieldError::inconsistent(
-            "n",
+            "speed",
             format!(
                 "at this speed the blades move at {} at the larger radius, above the {} m/s of any water runner or impeller: check the speed and the radii",
                 units::format_quantity_in(fastest, Q::Velocity, "m/s"),
@@ -931,10 +931,10 @@ mod tests {
         // sizes and speeds that are not physical.
         assert_eq!(field(&[("alpha1", "1e-300 deg")]), "alpha1");
         assert_eq!(field(&[("b1", "1e-300 mm")]), "b1");
-        assert_eq!(field(&[("n", "1e-300 rpm")]), "n");
+        assert_eq!(field(&[("speed", "1e-300 rpm")]), "speed");
         assert_eq!(field(&[("head", "1e-300 m")]), "head");
         // 160 mm at 60 000 rpm: blades at 1005 m/s, faster than any water runner.
-        assert_eq!(field(&[("n", "60000 rpm")]), "n");
+        assert_eq!(field(&[("speed", "60000 rpm")]), "speed");
     }
 
     #[test]
