@@ -56,7 +56,7 @@ fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, Js
         .map_err(|e| adapter_error(&format!("`{name}` must be an object of strings keyed by field"), e))
 }
 
-/// The description of every calculator (see the contract for the shape).
+/// The description of every calculator (its shape: [`view::CatalogView`]).
 #[wasm_bindgen]
 pub fn catalog() -> Result<JsValue, JsError> {
     to_js(&view::catalog_view())

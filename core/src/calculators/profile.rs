@@ -17,8 +17,8 @@
 //! β = 1.055 (exact 1.020) that way, and 0.6 % low with β = 1.020 with the wall zone
 //! (scipy 1.17.1, `scipy.integrate.quad` of both closures). The linear segments
 //! (integrand of degree ≤ 4 in s) are integrated exactly by three-point Gauss–Legendre
-//! quadrature and the wall zone in closed form ([`crate::profile::wall_zone_means`]).
-//! The laminar and power-law profiles use the closed forms of [`crate::profile`].
+//! quadrature and the wall zone in closed form ([`crate::velocity_profile::wall_zone_means`]).
+//! The laminar and power-law profiles use the closed forms of [`crate::velocity_profile`].
 //!
 //! Checks shown to users compare the mean velocity and β with a tanh-sinh quadrature
 //! ([`crate::quadrature`]) of the same profile function, an independent numerical
@@ -33,9 +33,9 @@ use crate::catalog::{
     CalculatorSpec, ChoiceOption, FieldKind, FieldSpec, Limits, OutputSpec, Plot, Report, Series, Table, Values,
 };
 use crate::error::FieldError;
-use crate::profile;
 use crate::quadrature;
 use crate::units::{self, QuantityKind as Q};
+use crate::velocity_profile;
 
 use super::common::{self, choice, quantity, MAX_SIZE_M};
 
@@ -252,7 +252,7 @@ impl ClosedTraverse {
         let mut sums = area_means(&self.points);
         if self.has_wall_zone() {
             let (s_last, u_last) = self.outermost();
-            let wall = profile::wall_zone_means(s_last, u_last, self.wall_exponent);
+            let wall = velocity_profile::wall_zone_means(s_last, u_last, self.wall_exponent);
             for (sum, part) in sums.iter_mut().zip(wall) {
                 *sum += part;
             }
@@ -402,13 +402,13 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             }
             let u_max = values.quantity_or("u_max", 0.0);
             let (factors, exponent) = if kind == "laminar" {
-                (profile::laminar(), None)
+                (velocity_profile::laminar(), None)
             } else {
                 if !values.is_set("n_power") {
                     return Err(vec![FieldError::inconsistent("n_power", "give the power-law exponent")]);
                 }
                 let n = values.quantity_or("n_power", 7.0);
-                let f = profile::power_law(n)
+                let f = velocity_profile::power_law(n)
                     .ok_or_else(|| vec![FieldError::inconsistent("n_power", "n must be greater than 0")])?;
                 (f, Some(n))
             };
@@ -636,7 +636,7 @@ pub(crate) mod tests {
     #[test]
     fn wall_zone_closed_form_matches_quadrature() {
         for (s_last, u_last, m) in [(0.0, 1.0, 7.0), (0.9, 2.5, 4.0), (0.99, 1.0, 10.0)] {
-            let closed = profile::wall_zone_means(s_last, u_last, m);
+            let closed = velocity_profile::wall_zone_means(s_last, u_last, m);
             for (power, closed) in (1..=3).zip(closed) {
                 let numeric = quadrature::tanh_sinh(s_last, 1.0, 1.0 / 64.0, |from_a, from_wall| {
                     (u_last * (from_wall / (1.0 - s_last)).powf(1.0 / m)).powi(power) * 2.0 * (s_last + from_a)
