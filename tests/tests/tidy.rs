@@ -423,7 +423,6 @@ const FILES_STILL_TOO_WIDE: &[&str] = &[
     "calculators/line_schedule.rs",
     "calculators/nozzle.rs",
     "calculators/profile.rs",
-    "calculators/reaction_arm.rs",
     "calculators/reducer.rs",
     "calculators/runner.rs",
     "calculators/tank_drain.rs",
