@@ -424,7 +424,6 @@ const FILES_STILL_TOO_WIDE: &[&str] = &[
     "calculators/nozzle.rs",
     "calculators/profile.rs",
     "calculators/reducer.rs",
-    "calculators/tank_drain.rs",
     "calculators/tee.rs",
     "calculators/thrust_block.rs",
     "calculators/vane.rs",
