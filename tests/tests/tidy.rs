@@ -422,7 +422,6 @@ const FILES_STILL_TOO_WIDE: &[&str] = &[
     "calculators/jet_plate.rs",
     "calculators/line_schedule.rs",
     "calculators/nozzle.rs",
-    "calculators/profile.rs",
     "calculators/reducer.rs",
     "calculators/tee.rs",
     "calculators/thrust_block.rs",
