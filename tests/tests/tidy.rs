@@ -1,7 +1,7 @@
 //! Tidy: project rules that `cargo test` enforces.
 //!
 //! - every reference case (and every pending one) loads, has a title and names a
-//!   source that says where its value comes from (see `shared/REFERENCES.md`);
+//!   source that says where its value comes from (see DEVELOPERS.md, "Sources");
 //! - every reference case targets a registered calculator or a known core function,
 //!   types only fields that exist, expects only outputs that exist, and its expected
 //!   values and tolerances parse as the output's quantity kind;
@@ -14,7 +14,14 @@
 //!   kind's physical ceiling; demo values parse, lie within limits and are among the
 //!   options; option lists backed by a data table (pipe sizes, soils, test rules)
 //!   list exactly its entries and their labels show its values; the demo page solves
-//!   in both unit systems without defects or disagreeing checks.
+//!   in both unit systems without defects or disagreeing checks;
+//! - every field key is a glossary term (`core/src/glossary.rs`), no page uses a key
+//!   it retired, a choice offers only its term's options, and every alias lands on a
+//!   field of its page;
+//! - the invariants DEVELOPERS.md states as absences: no `serde` in the core, no
+//!   HTML-writing DOM calls in any page script, every wasm export named in
+//!   DEVELOPERS.md, every intra-doc link of the core resolving, no core line wider
+//!   than rustfmt's `max_width`.
 
 use std::path::{Path, PathBuf};
 
@@ -867,6 +874,56 @@ mod registry {
             "field keys break the glossary (core/src/glossary.rs):\n  {}",
             problems.join("\n  ")
         );
+    }
+
+    /// Every retired key of a page's alias table lands on a field of that page (and
+    /// a renamed option value on an option of it), so that an old bookmarked link
+    /// still fills the page.
+    #[test]
+    fn every_alias_lands_on_a_field_of_its_page() {
+        let mut problems = Vec::new();
+        for alias in glossary::KEY_ALIASES {
+            if PAGES_BEING_RENAMED.contains(&alias.page) {
+                continue;
+            }
+            let Some(spec) = calculators::spec(alias.page) else {
+                problems.push(format!("alias {} → {}: no page '{}'", alias.old, alias.new, alias.page));
+                continue;
+            };
+            let Some(field) = spec.field(alias.new) else {
+                problems.push(format!(
+                    "{}: alias {} → {} names no field",
+                    alias.page, alias.old, alias.new
+                ));
+                continue;
+            };
+            for (old, new) in alias.values {
+                let offered = match &field.kind {
+                    FieldKind::Choice(options) => options.iter().any(|o| o.key == *new),
+                    _ => false,
+                };
+                if !offered {
+                    problems.push(format!(
+                        "{}: alias value {}={old} → {}={new} is not an option of the page",
+                        alias.page, alias.old, alias.new
+                    ));
+                }
+            }
+        }
+        assert!(
+            problems.is_empty(),
+            "aliases that fill no field:\n  {}",
+            problems.join("\n  ")
+        );
+        // An old link to the reaction arm reads as today's keys, and says what it read.
+        let old: Vec<(String, String)> = [("drive", "pressure"), ("p", "300 kPa"), ("n_held", "100 rpm")]
+            .iter()
+            .map(|(k, v)| (k.to_string(), v.to_string()))
+            .collect();
+        let upgraded = glossary::upgrade("reaction-arm", &old);
+        let keys: Vec<(&str, &str)> = upgraded.pairs.iter().map(|(k, v)| (k.as_str(), v.as_str())).collect();
+        assert_eq!(keys, [("flow_given", "p"), ("p", "300 kPa"), ("speed_held", "100 rpm")]);
+        assert_eq!(upgraded.translations.len(), 2);
     }
 
     /// The glossary check must be able to fail: a retired key, an unknown key and a
