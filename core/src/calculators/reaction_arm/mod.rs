@@ -515,6 +515,35 @@ mod tests {
     }
 
     #[test]
+    fn the_typed_model_solves_without_values() {
+        // Derived from the definition: a fixed-flow arm with no load runs away at
+        // ω = W·cos α/R and its power peaks at half of that, W = Q/(N·A_n).
+        use uom::si::angle::degree;
+        use uom::si::f64::{Angle, Length, Ratio, VolumeRate};
+        use uom::si::length::millimeter;
+        use uom::si::ratio::ratio;
+        use uom::si::volume_rate::liter_per_second;
+        let inputs = model::Inputs {
+            fluid: water(),
+            nozzles: 3,
+            radius: Length::new::<millimeter>(250.0),
+            nozzle_diameter: Length::new::<millimeter>(6.0),
+            alpha: Angle::new::<degree>(20.0),
+            cv: Ratio::new::<ratio>(1.0),
+            hub_bore: None,
+            drive: Drive::Flow(VolumeRate::new::<liter_per_second>(0.9)),
+            load: model::Load::None,
+        };
+        let solved = model::solve(&inputs).expect("solves");
+        let w = 0.9e-3 / (3.0 * PI * 0.006 * 0.006 / 4.0);
+        let runaway = w * 20f64.to_radians().cos() / 0.25;
+        assert_relative_eq!(solved.runaway.expect("finite"), runaway, max_relative = 1e-9);
+        assert_eq!(solved.operating, model::Operating::At(solved.runaway.unwrap_or(0.0)));
+        assert_relative_eq!(solved.peak.expect("a peak").0, 0.5 * runaway, max_relative = 1e-6);
+        assert_eq!(solved.curve.len(), PLOT_POINTS);
+    }
+
+    #[test]
     fn pressure_fed_jet_follows_rotating_frame_bernoulli() {
         // Derived from the definition: W = C_v √(2p/ρ + ω²R²) with the hub head neglected.
         let mut a = arm(2, 0.0, Drive::Pressure(si::pressure(3e5)));

@@ -516,6 +516,45 @@ mod tests {
     }
 
     #[test]
+    fn the_typed_model_solves_without_values() {
+        // Derived from the definition: a radial pump with no pre-swirl has
+        // H_E = u₂V_θ2/g, V_θ2 = u₂ − V_m2/tan β₂, V_m2 = Q/(2π·r₂·b₂).
+        use uom::si::angle::degree;
+        use uom::si::angular_velocity::revolution_per_minute;
+        use uom::si::f64::{Angle, AngularVelocity, Length, VolumeRate};
+        use uom::si::length::millimeter;
+        use uom::si::volume_rate::cubic_meter_per_second;
+        let inputs = model::Inputs {
+            machine: model::Machine::Pump,
+            stations: model::Stations::Radial {
+                r1: Length::new::<millimeter>(50.0),
+                r2: Length::new::<millimeter>(150.0),
+                b1: Length::new::<millimeter>(30.0),
+                b2: Length::new::<millimeter>(20.0),
+            },
+            fluid: crate::fluid::Fluid {
+                name: "test".to_string(),
+                density: 1000.0,
+                viscosity: 1e-3,
+                vapour_pressure: None,
+            },
+            speed: AngularVelocity::new::<revolution_per_minute>(1200.0),
+            flow: VolumeRate::new::<cubic_meter_per_second>(0.05),
+            alpha1: Angle::new::<degree>(90.0),
+            beta1: None,
+            beta2: Angle::new::<degree>(30.0),
+            head: None,
+        };
+        let solved = model::solve(&inputs).expect("solves");
+        let u2 = 1200.0 * 2.0 * PI / 60.0 * 0.15;
+        let vm2 = 0.05 / (2.0 * PI * 0.15 * 0.02);
+        let vtheta2 = u2 - vm2 / 30f64.to_radians().tan();
+        assert_relative_eq!(solved.euler_head, u2 * vtheta2 / STANDARD_GRAVITY, max_relative = 1e-10);
+        assert_relative_eq!(solved.torque, 1000.0 * 0.05 * 0.15 * vtheta2, max_relative = 1e-10);
+        assert_eq!(solved.curve.len(), 40);
+    }
+
+    #[test]
     fn pressure_change_follows_rothalpy() {
         // Derived from the definition: p₂ − p₁ = ρ/2 [(W₁² − W₂²) + (u₂² − u₁²)].
         let s = solve(&[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")]);
