@@ -4,7 +4,7 @@
 //! A key design decision: this crate holds no physics, no defaults and no unit
 //! tables. Every export is `from_value` → core call → `to_value`; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
-//! natively. The page script calls three functions:
+//! natively. The page script calls four functions:
 //!
 //! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
 //!   outputs, cautions) as a plain object.
