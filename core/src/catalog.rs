@@ -5,7 +5,7 @@
 //! fields (key, label, quantity kind, default unit per unit system, demo value,
 //! limits, help), the outputs, and which job group the page belongs to. The wasm
 //! adapter serialises these descriptions and the site script renders any of them;
-//! reference tests drive calculators through the very same [`solve`] entry point
+//! reference tests drive calculators through the very same [`solve`](crate::solve) entry point
 //! with the same typed strings a user would type, so a browser and a test see one
 //! code path.
 //!

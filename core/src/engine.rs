@@ -6,7 +6,7 @@
 //! The Reynolds transport theorem turns each conservation law for the fluid in a
 //! control volume (CV) into a balance of storage and port fluxes. For steady,
 //! incompressible flow through ports with uniform properties, momentum-flux factor
-//! β and kinetic-energy factor α (see [`crate::profile`]):
+//! β and kinetic-energy factor α (see [`crate::velocity_profile`]):
 //!
 //! - Mass: Σ_out ṁ − Σ_in ṁ + dm/dt = 0, with ṁ = ρ·V_rel·A. At most one port flow
 //!   may be unknown; it is solved here.
@@ -53,10 +53,10 @@ use uom::si::{
 };
 
 use crate::fluid::Fluid;
-use crate::profile::ProfileFactors;
 use crate::units::STANDARD_GRAVITY;
 use crate::units::{format_significant, STANDARD_ATMOSPHERE};
 use crate::vector::{Direction, Vec3};
+use crate::velocity_profile::ProfileFactors;
 
 /// Typed SI quantities from plain SI numbers, for building control volumes from
 /// validated calculator values.

@@ -9,7 +9,12 @@
 //!
 //! - [`units`]: the strict quantity parser and result formatter.
 //! - [`fluid`]: water properties from 0 to 100 °C and custom fluids.
+//! - [`friction`]: the Darcy friction factor (laminar, Colebrook).
+//! - [`pipe_sizes`]: pipe size presets (outside and inside diameters).
+//! - [`vector`]: three-component vectors and unit directions.
+//! - [`velocity_profile`]: momentum-flux and kinetic-energy correction factors.
 //! - [`engine`]: ports, control volumes, frames, and the balances with their ledger.
+//! - [`glossary`]: the one vocabulary of query keys and the alias table of old keys.
 //! - [`catalog`]: the description of each calculator and the shape of a solution.
 //! - [`calculators`]: the handbook's calculators, registered in one list.
 //! - [`quadrature`]: tanh-sinh integration for end-singular integrands.
@@ -23,10 +28,10 @@ pub mod fluid;
 pub mod friction;
 pub mod glossary;
 pub mod pipe_sizes;
-pub mod profile;
 pub mod quadrature;
 pub mod units;
 pub mod vector;
+pub mod velocity_profile;
 
 pub use calculators::{solve, Outcome};
 pub use catalog::Request;

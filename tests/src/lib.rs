@@ -40,8 +40,8 @@ use std::path::{Path, PathBuf};
 use fluxledger_core::calculators;
 use fluxledger_core::fluid::Fluid;
 use fluxledger_core::friction::{self, FrictionError};
-use fluxledger_core::profile::{self, ProfileFactors};
 use fluxledger_core::units::{self, QuantityKind};
+use fluxledger_core::velocity_profile::{self, ProfileFactors};
 use fluxledger_core::{Request, SolveError, UnitSystem};
 
 /// The folder of reference cases the driver runs.
@@ -391,24 +391,26 @@ pub const FUNCTIONS: &[FunctionSpec] = &[
             }
         },
     },
-    // Fully developed laminar profile: `profile::laminar`.
+    // Fully developed laminar profile: `velocity_profile::laminar`.
     FunctionSpec {
         name: "laminar_factors",
         inputs: &[],
         outputs: PROFILE_OUTPUTS,
-        eval: |_| Ok(profile_outputs(profile::laminar())),
+        eval: |_| Ok(profile_outputs(velocity_profile::laminar())),
     },
-    // Power-law profile u = U(1 − r/R)^(1/n): `profile::power_law`.
+    // Power-law profile u = U(1 − r/R)^(1/n): `velocity_profile::power_law`.
     FunctionSpec {
         name: "power_law_factors",
         inputs: &[("n", QuantityKind::Ratio)],
         outputs: PROFILE_OUTPUTS,
         eval: |inputs| {
             let n = input(inputs, "n")?;
-            profile::power_law(n).map(profile_outputs).ok_or(FunctionError {
-                field: "n",
-                message: "must be finite and greater than 0".into(),
-            })
+            velocity_profile::power_law(n)
+                .map(profile_outputs)
+                .ok_or(FunctionError {
+                    field: "n",
+                    message: "must be finite and greater than 0".into(),
+                })
         },
     },
 ];

@@ -4,7 +4,7 @@
 //! A key design decision: this crate holds no physics, no defaults and no unit
 //! tables. Every export is `from_value` → core call → `to_value`; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
-//! natively. The page script calls three functions:
+//! natively. The page script calls four functions:
 //!
 //! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
 //!   outputs, cautions) as a plain object.
@@ -56,7 +56,7 @@ fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, Js
         .map_err(|e| adapter_error(&format!("`{name}` must be an object of strings keyed by field"), e))
 }
 
-/// The description of every calculator (see the contract for the shape).
+/// The description of every calculator (its shape: [`view::CatalogView`]).
 #[wasm_bindgen]
 pub fn catalog() -> Result<JsValue, JsError> {
     to_js(&view::catalog_view())

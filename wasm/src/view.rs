@@ -4,7 +4,7 @@
 //! The core keeps its types free of serde on purpose (it knows nothing of JSON or
 //! JavaScript); this module is the one place where they get a wire shape. Every
 //! struct here is a field-by-field copy of a core type with snake_case keys, as
-//! documented in the project's contract between core, adapter and page script.
+//! the page script reads (the exports and their shapes are listed in `lib.rs`).
 //! Nothing here computes, defaults or converts physical values: unit lists come from
 //! [`fluxledger_core::units::units_of`], labels and messages from the core.
 //!

@@ -531,7 +531,7 @@ const PLOT_EDITS: &[PlotEdit] = &[
     // Torque and power against speed of an arm fed at a fixed supply pressure.
     PlotEdit {
         page: "reaction-arm",
-        start: &[("drive", "pressure")],
+        start: &[("flow_given", "p")],
         field: "p",
         text: "450 kPa",
     },
@@ -553,7 +553,7 @@ const PLOT_EDITS: &[PlotEdit] = &[
     PlotEdit {
         page: "runner",
         start: &[],
-        field: "n",
+        field: "speed",
         text: "1150 rpm",
     },
     // Thrust by row: another list of fittings.

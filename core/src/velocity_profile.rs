@@ -1,4 +1,5 @@
-//! Velocity-profile correction factors for ports.
+//! Velocity-profile correction factors for ports (the `profile` page, which measures
+//! a profile, is [`crate::calculators::profile`]).
 //!
 //! The momentum flux through a port is β·ṁ·V and its kinetic-energy flux α·ṁ·V²/2,
 //! with V the mean velocity and β = (1/A)∫(u/V)² dA, α = (1/A)∫(u/V)³ dA.

@@ -1,0 +1,627 @@
+//! Runner (impeller) from its velocity triangles: Euler head, torque, shaft power and
+//! hydraulic efficiency of a radial or axial turbine runner or pump impeller.
+//!
+//! # Method
+//! Index 1 is where the water enters the blades and 2 where it leaves, in the
+//! direction of flow, for both machines (a radial turbine: 1 outer, 2 inner; a
+//! centrifugal pump: 1 at the eye, 2 at the rim). At each station
+//!
+//! - blade speed u = ω·r (axial machine: r the mean radius, u₁ = u₂);
+//! - meridional (through-flow) velocity V_m = Q/A, with A = 2π·r·b for a radial
+//!   runner of blade height b (no blade blockage) and the given annulus area for an
+//!   axial one;
+//! - inlet swirl from the guide vanes, V_θ1 = V_m1 / tan α₁, with α₁ the angle of the
+//!   absolute velocity from the direction of blade motion (90° = no pre-swirl);
+//! - outlet swirl from the blade, the flow leaving along it (no slip):
+//!   V_θ2 = u₂ − V_m2 / tan β₂, with β the blade angle measured from the direction
+//!   opposite to the blade motion (90° = a radial or axial blade; below 90° = a
+//!   blade swept back from the motion, as in a backward-curved pump impeller);
+//! - relative velocity W = V − u; the inlet relative flow angle
+//!   β₁,flow = atan2(V_m1, u₁ − V_θ1) is compared with the inlet blade angle β₁: the
+//!   difference is the incidence (a shock loss the ideal head does not include).
+//!
+//! The torque comes from the engine's angular-momentum balance ([`crate::engine`])
+//! on the runner as a **rotating control volume** (`Frame::Rotating`): each station
+//! is a port at its radius whose velocity is the relative velocity W; the engine adds
+//! the frame velocity ω×r, so the moment of momentum is written with the absolute
+//! velocity, and the torque the water delivers to the shaft is
+//! T = ρQ(r₁V_θ1 − r₂V_θ2). The Euler head follows from it:
+//!
+//! - turbine: H_E = T·ω/(ρgQ) = (u₁V_θ1 − u₂V_θ2)/g, head taken out of the water;
+//!   hydraulic efficiency η_h = H_E/H against the net head H;
+//! - pump: H_E = −T·ω/(ρgQ) = (u₂V_θ2 − u₁V_θ1)/g, head given to the water;
+//!   η_h = H/H_E.
+//!
+//! The station pressures do not enter that balance: over a surface of revolution
+//! (the cylinder r = r₁ of a radial runner, the annulus of an axial one) pressure
+//! acts radially or axially and has no moment about the axis. The engine's ports
+//! take the pressure force along the flow direction, which is right for a pipe cut
+//! square to the flow but not for these oblique ports, so the momentum balance is
+//! run with gauge pressures of zero. A second balance in the same rotating frame
+//! solves the static pressure change from the energy equation with the centrifugal
+//! term (the rothalpy is constant along an ideal blade passage):
+//! p₂ − p₁ = ρ/2·[(W₁² − W₂²) + (u₂² − u₁²)].
+//!
+//! # Checks
+//! The checks table ([`Report::check`]) compares the engine's torque with
+//! ρQ(r₁V_θ1 − r₂V_θ2) written from the triangles, and the Euler head with the energy
+//! form of the triangles [(V₁² − V₂²) + (u₁² − u₂²) + (W₂² − W₁²)]/2g and with the
+//! static pressure change of the second balance plus the change of absolute velocity
+//! head. A torque within 1e-12 of the swirl moments is rounding residue, shown as 0;
+//! the efficiency is reported as not applicable, with the reason, when the Euler head
+//! is not positive.
+//!
+//! # Assumptions
+//! Ideal (Euler) flow: the water follows the blades exactly (infinitely many blades,
+//! no slip), uniform velocities over each station, no leakage, disc friction or
+//! shock loss; incompressible, steady in the rotating frame.
+//!
+//! Sources: Euler's turbomachine equation and velocity triangles as derived in
+//! White, *Fluid Mechanics* (chapter 11), Munson et al., *Fundamentals of Fluid
+//! Mechanics* (chapter 12), Çengel & Cimbala, *Fluid Mechanics* (chapter 14), Dixon &
+//! Hall, *Fluid Mechanics and Thermodynamics of Turbomachinery* (chapters 1 and 2).
+//!
+//! # Code
+//! [`model::read`] reads the values once into typed [`model::Inputs`] (`uom`
+//! quantities); [`model::solve`] is the pure physics, returning [`model::Solved`];
+//! `report` writes the outputs, checks, tables and the plot from it and `diagram`
+//! draws the velocity triangles.
+
+use std::f64::consts::PI;
+
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::error::FieldError;
+use crate::units::QuantityKind as Q;
+
+use super::common::{self, choice, quantity, MAX_SIZE_M};
+
+mod diagram;
+pub mod model;
+mod report;
+
+pub const KEY: &str = "runner";
+
+/// Incidence beyond which a warning is given (common practice, no source: a few
+/// degrees of incidence already cost measurable shock loss).
+const INCIDENCE_WARNING_RAD: f64 = PI / 180.0;
+
+const MACHINE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "turbine",
+        label: "Turbine (water drives the runner)",
+    },
+    ChoiceOption {
+        key: "pump",
+        label: "Pump (impeller drives the water)",
+    },
+];
+
+const LAYOUT_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "radial",
+        label: "Radial flow (Francis runner, centrifugal impeller)",
+    },
+    ChoiceOption {
+        key: "axial",
+        label: "Axial flow (propeller, Kaplan, axial pump), at the mean radius",
+    },
+];
+
+/// Blade and flow angles: 1° to 179° (a blade at 0° or 180° lies in the plane of
+/// the motion and passes no flow; tan of a vanishing angle overflows the swirl).
+const ANGLE_RANGE: Limits = Limits::closed(PI / 180.0, 179.0 * PI / 180.0);
+/// Sizes: 1 mm to 10 m.
+const SIZE_RANGE: Limits = Limits::closed(1e-3, MAX_SIZE_M);
+/// Annulus areas: 1 mm² to 100 m².
+const AREA_RANGE: Limits = Limits::closed(1e-6, 100.0);
+/// Shaft speeds: 1 to 100 000 rpm.
+const SPEED_RANGE: Limits = Limits::closed(2.0 * PI / 60.0, 1e5 * 2.0 * PI / 60.0);
+/// Flows: 0.001 L/s to 1000 m³/s.
+const FLOW_RANGE: Limits = Limits::closed(1e-6, 1e3);
+/// Net heads: 1 cm to 10 km.
+const HEAD_RANGE: Limits = Limits::closed(0.01, 1e4);
+/// The fastest blade speed accepted, m/s: well above the tip speeds of water
+/// turbines and pumps (a few tens to about 200 m/s, common practice, no source).
+const MAX_BLADE_SPEED: f64 = 500.0;
+/// Results within this fraction of the terms they were summed from are rounding
+/// residue and shown as 0.
+const RESIDUE: f64 = 1e-12;
+
+/// The usual cautions of the page.
+const CAUTIONS: &[&str] = &[
+    "Euler head is the ideal, infinite-blade figure: real runners lose more (slip, shock at off-design incidence, \
+        friction, leakage, disc friction); real heads and powers are lower for a pump's delivery and a turbine's \
+        output.",
+    "Anything that spins needs a guard and overspeed protection; a turbine that loses its load runs away. Defer to the \
+        machine's manufacturer and to a licensed engineer for ratings, speeds and foundations.",
+];
+
+const SUMMARY: &str = "Euler head, torque, power and hydraulic efficiency of a radial or axial runner from its blade \
+    angles, speed and flow.";
+const R1_HELP: &str = "Where the water enters the blades: the eye of a pump, the outer rim of a radial turbine.";
+const R2_HELP: &str = "Where the water leaves the blades.";
+const B1_HELP: &str = "Width of the passage across the flow at r₁ (flow area 2π·r₁·b₁).";
+const B2_HELP: &str = "Width of the passage at r₂ (flow area 2π·r₂·b₂).";
+const R_MEAN_HELP: &str = "Radius at which the triangles are drawn, usually the mean of hub and tip radii.";
+const A1_HELP: &str = "Flow area between hub and tip where the water enters the blades.";
+const A2_HELP: &str = "Flow area where the water leaves the blades.";
+const BETA1_HELP: &str = "From the direction opposite to the blade motion (90 deg = radial or axial blade). Empty: \
+    taken to match the inlet flow (no incidence).";
+const BETA2_HELP: &str =
+    "From the direction opposite to the blade motion; sets the outlet swirl V_θ2 = u₂ − V_m2/tan β₂.";
+const ALPHA1_HELP: &str = "Angle of the absolute inlet velocity from the direction of blade motion, V_θ1 = V_m1/tan \
+    α₁. Empty: 90 deg, no pre-swirl.";
+const SPEED_HELP: &str = "Shaft speed, 1 to 100 000 rpm.";
+const Q_HELP: &str = "Flow through the blades, 0.001 L/s to 1000 m³/s.";
+const HEAD_HELP: &str = "Turbine: net head available; pump: head delivered. Gives the hydraulic efficiency.";
+
+pub fn spec() -> CalculatorSpec {
+    let radial = Some(("layout", &["radial"][..]));
+    let axial = Some(("layout", &["axial"][..]));
+    let mut fields = vec![
+        choice(
+            "machine",
+            "Machine",
+            MACHINE_OPTIONS,
+            "pump",
+            "Sets the sign convention: a turbine's Euler head is taken out of the water, a pump's is given to it.",
+        ),
+        choice(
+            "layout",
+            "Flow through the blades",
+            LAYOUT_OPTIONS,
+            "radial",
+            "Radial: give the two radii and blade heights. Axial: give the mean radius and the two annulus areas.",
+        ),
+        FieldSpec {
+            visible_when: radial,
+            ..quantity(
+                "r1",
+                "Radius at the blade inlet r₁",
+                Q::Length,
+                "mm",
+                "in",
+                "65 mm",
+                SIZE_RANGE,
+                R1_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: radial,
+            ..quantity(
+                "r2",
+                "Radius at the blade outlet r₂",
+                Q::Length,
+                "mm",
+                "in",
+                "160 mm",
+                SIZE_RANGE,
+                R2_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: radial,
+            ..quantity(
+                "b1",
+                "Blade height at the inlet b₁",
+                Q::Length,
+                "mm",
+                "in",
+                "40 mm",
+                SIZE_RANGE,
+                B1_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: radial,
+            ..quantity(
+                "b2",
+                "Blade height at the outlet b₂",
+                Q::Length,
+                "mm",
+                "in",
+                "22 mm",
+                SIZE_RANGE,
+                B2_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: axial,
+            ..quantity(
+                "r_mean",
+                "Mean radius",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                SIZE_RANGE,
+                R_MEAN_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: axial,
+            ..quantity(
+                "a1",
+                "Annulus area at the inlet",
+                Q::Area,
+                "m2",
+                "ft2",
+                "",
+                AREA_RANGE,
+                A1_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: axial,
+            ..quantity(
+                "a2",
+                "Annulus area at the outlet",
+                Q::Area,
+                "m2",
+                "ft2",
+                "",
+                AREA_RANGE,
+                A2_HELP,
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "beta1",
+                "Blade angle at the inlet β₁",
+                Q::Angle,
+                "deg",
+                "deg",
+                "",
+                ANGLE_RANGE,
+                BETA1_HELP,
+            )
+        },
+        quantity(
+            "beta2",
+            "Blade angle at the outlet β₂",
+            Q::Angle,
+            "deg",
+            "deg",
+            "25 deg",
+            ANGLE_RANGE,
+            BETA2_HELP,
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "alpha1",
+                "Guide-vane (inlet flow) angle α₁",
+                Q::Angle,
+                "deg",
+                "deg",
+                "",
+                ANGLE_RANGE,
+                ALPHA1_HELP,
+            )
+        },
+        quantity(
+            "speed",
+            "Speed",
+            Q::AngularSpeed,
+            "rpm",
+            "rpm",
+            "1480 rpm",
+            SPEED_RANGE,
+            SPEED_HELP,
+        ),
+        quantity(
+            "q",
+            "Flow",
+            Q::VolumeFlow,
+            "m3/h",
+            "gpm",
+            "180 m3/h",
+            FLOW_RANGE,
+            Q_HELP,
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "head",
+                "Net head H",
+                Q::Length,
+                "m",
+                "ft",
+                "40 m",
+                HEAD_RANGE,
+                HEAD_HELP,
+            )
+        },
+    ];
+    fields.extend(common::fluid_fields("25 degC"));
+    CalculatorSpec {
+        key: KEY,
+        title: "Runner from velocity triangles (turbine or pump)",
+        group: crate::catalog::group::JETS_AND_ROTORS,
+        summary: SUMMARY,
+        fields,
+        outputs: vec![
+            OutputSpec {
+                key: "euler_head",
+                label: "Euler head H_E",
+                kind: Q::Length,
+                headline: true,
+            },
+            OutputSpec {
+                key: "torque",
+                label: "Shaft torque (turbine: delivered; pump: needed)",
+                kind: Q::Torque,
+                headline: true,
+            },
+            OutputSpec {
+                key: "power",
+                label: "Shaft power, ideal",
+                kind: Q::Power,
+                headline: true,
+            },
+            OutputSpec {
+                key: "efficiency",
+                label: "Hydraulic efficiency (turbine H_E/H, pump H/H_E)",
+                kind: Q::Ratio,
+                headline: true,
+            },
+            OutputSpec {
+                key: "u1",
+                label: "Blade speed at the inlet u₁",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "u2",
+                label: "Blade speed at the outlet u₂",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "vm1",
+                label: "Meridional velocity at the inlet V_m1",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "vm2",
+                label: "Meridional velocity at the outlet V_m2",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "vtheta1",
+                label: "Swirl at the inlet V_θ1",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "vtheta2",
+                label: "Swirl at the outlet V_θ2",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "v1",
+                label: "Absolute velocity at the inlet V₁",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "v2",
+                label: "Absolute velocity at the outlet V₂",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "w1",
+                label: "Relative velocity at the inlet W₁",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "w2",
+                label: "Relative velocity at the outlet W₂",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "alpha2",
+                label: "Outlet flow angle α₂ (from the blade motion; 90 deg = no swirl)",
+                kind: Q::Angle,
+                headline: false,
+            },
+            OutputSpec {
+                key: "beta1_flow",
+                label: "Inlet relative flow angle β₁,flow",
+                kind: Q::Angle,
+                headline: false,
+            },
+            OutputSpec {
+                key: "incidence",
+                label: "Incidence β₁ − β₁,flow",
+                kind: Q::Angle,
+                headline: false,
+            },
+            OutputSpec {
+                key: "pressure_rise",
+                label: "Static pressure change p₂ − p₁ (ideal; negative = drop)",
+                kind: Q::Pressure,
+                headline: false,
+            },
+            OutputSpec {
+                key: "mass_flow",
+                label: "Mass flow",
+                kind: Q::MassFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "density",
+                label: "Fluid density",
+                kind: Q::Density,
+                headline: false,
+            },
+        ],
+        cautions: CAUTIONS.to_vec(),
+    }
+}
+
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let inputs = model::read(values)?;
+    let solved = model::solve(&inputs)?;
+    report::write(&solved, report);
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::catalog::Request;
+    use crate::units::STANDARD_GRAVITY;
+    use approx::assert_relative_eq;
+
+    fn request(pairs: &[(&str, &str)]) -> Request {
+        crate::catalog::demo_request(&spec(), pairs)
+    }
+
+    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
+        crate::calculators::testing::solved(super::KEY, pairs)
+    }
+
+    #[test]
+    fn engine_torque_equals_euler_form_for_pump_and_turbine() {
+        // Derived from the definition: T = ρQ(r₁V_θ1 − r₂V_θ2), H_E = (u₁V_θ1 − u₂V_θ2)/g.
+        for machine in ["pump", "turbine"] {
+            for alpha1 in ["90 deg", "60 deg", "120 deg"] {
+                let s = solve(&[
+                    ("machine", machine),
+                    ("alpha1", alpha1),
+                    ("fluid", "custom"),
+                    ("rho", "1000 kg/m3"),
+                    ("mu", "1 mPa.s"),
+                ]);
+                let get = |k: &str| s.output(k).unwrap().si;
+                let omega = 1480.0 * 2.0 * PI / 60.0;
+                let q = 180.0 / 3600.0;
+                let (r1, r2) = (0.065, 0.160);
+                let water = 1000.0 * q * (r1 * get("vtheta1") - r2 * get("vtheta2"));
+                let sign = if machine == "turbine" { 1.0 } else { -1.0 };
+                assert_relative_eq!(get("torque"), sign * water, max_relative = 1e-10);
+                let h = sign * (get("u1") * get("vtheta1") - get("u2") * get("vtheta2")) / STANDARD_GRAVITY;
+                assert_relative_eq!(get("euler_head"), h, max_relative = 1e-10);
+                assert_relative_eq!(get("power"), get("torque") * omega, max_relative = 1e-12);
+            }
+        }
+    }
+
+    #[test]
+    fn the_typed_model_solves_without_values() {
+        // Derived from the definition: a radial pump with no pre-swirl has
+        // H_E = u₂V_θ2/g, V_θ2 = u₂ − V_m2/tan β₂, V_m2 = Q/(2π·r₂·b₂).
+        use uom::si::angle::degree;
+        use uom::si::angular_velocity::revolution_per_minute;
+        use uom::si::f64::{Angle, AngularVelocity, Length, VolumeRate};
+        use uom::si::length::millimeter;
+        use uom::si::volume_rate::cubic_meter_per_second;
+        let inputs = model::Inputs {
+            machine: model::Machine::Pump,
+            stations: model::Stations::Radial {
+                r1: Length::new::<millimeter>(50.0),
+                r2: Length::new::<millimeter>(150.0),
+                b1: Length::new::<millimeter>(30.0),
+                b2: Length::new::<millimeter>(20.0),
+            },
+            fluid: crate::fluid::Fluid {
+                name: "test".to_string(),
+                density: 1000.0,
+                viscosity: 1e-3,
+                vapour_pressure: None,
+            },
+            speed: AngularVelocity::new::<revolution_per_minute>(1200.0),
+            flow: VolumeRate::new::<cubic_meter_per_second>(0.05),
+            alpha1: Angle::new::<degree>(90.0),
+            beta1: None,
+            beta2: Angle::new::<degree>(30.0),
+            head: None,
+        };
+        let solved = model::solve(&inputs).expect("solves");
+        let u2 = 1200.0 * 2.0 * PI / 60.0 * 0.15;
+        let vm2 = 0.05 / (2.0 * PI * 0.15 * 0.02);
+        let vtheta2 = u2 - vm2 / 30f64.to_radians().tan();
+        assert_relative_eq!(solved.euler_head, u2 * vtheta2 / STANDARD_GRAVITY, max_relative = 1e-10);
+        assert_relative_eq!(solved.torque, 1000.0 * 0.05 * 0.15 * vtheta2, max_relative = 1e-10);
+        assert_eq!(solved.curve.len(), 40);
+    }
+
+    #[test]
+    fn pressure_change_follows_rothalpy() {
+        // Derived from the definition: p₂ − p₁ = ρ/2 [(W₁² − W₂²) + (u₂² − u₁²)].
+        let s = solve(&[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")]);
+        let get = |k: &str| s.output(k).unwrap().si;
+        let expected = 500.0 * (get("w1").powi(2) - get("w2").powi(2) + get("u2").powi(2) - get("u1").powi(2));
+        assert_relative_eq!(get("pressure_rise"), expected, max_relative = 1e-9);
+        // And the ideal pump's total-head rise equals its Euler head.
+        let total =
+            (get("pressure_rise") + 500.0 * (get("v2").powi(2) - get("v1").powi(2))) / (1000.0 * STANDARD_GRAVITY);
+        assert_relative_eq!(total, get("euler_head"), max_relative = 1e-9);
+    }
+
+    #[test]
+    fn incidence_is_warned() {
+        let s = solve(&[("beta1", "60 deg")]);
+        assert!(s.warnings.iter().any(|w| w.field == Some("beta1")));
+        let matched = s.output("beta1_flow").unwrap().si;
+        let deg = format!("{} rad", matched);
+        let s = solve(&[("beta1", deg.as_str())]);
+        assert!(s.warnings.iter().all(|w| w.field != Some("beta1")));
+        assert!(s.output("incidence").unwrap().si.abs() < 1e-9);
+    }
+
+    #[test]
+    fn demo_has_triangles_table_and_plot() {
+        let s = solve(&[]);
+        assert_eq!(s.diagrams.len(), 1);
+        assert!(s.tables.iter().any(|t| t.key == "triangles"));
+        assert_eq!(s.plots.len(), 1);
+        assert!(s.output("euler_head").unwrap().si > 0.0);
+    }
+
+    #[test]
+    fn bad_inputs_name_their_field() {
+        let field = |pairs: &[(&str, &str)]| match crate::solve(KEY, &request(pairs)).result {
+            Err(crate::SolveError::Fields(errors)) => errors[0].field.clone(),
+            other => panic!("expected a field error, got {other:?}"),
+        };
+        assert_eq!(field(&[("r1", "0 mm")]), "r1");
+        assert_eq!(field(&[("q", "-5 m3/h")]), "q");
+        assert_eq!(field(&[("q", "0")]), "q");
+        assert_eq!(field(&[("layout", "axial")]), "r_mean");
+        assert_eq!(field(&[("beta2", "0 deg")]), "beta2");
+        // A vanishing angle would make the swirl V_m/tan α overflow: refused, as are
+        // sizes and speeds that are not physical.
+        assert_eq!(field(&[("alpha1", "1e-300 deg")]), "alpha1");
+        assert_eq!(field(&[("b1", "1e-300 mm")]), "b1");
+        assert_eq!(field(&[("speed", "1e-300 rpm")]), "speed");
+        assert_eq!(field(&[("head", "1e-300 m")]), "head");
+        // 160 mm at 60 000 rpm: blades at 1005 m/s, faster than any water runner.
+        assert_eq!(field(&[("speed", "60000 rpm")]), "speed");
+    }
+
+    #[test]
+    fn checks_agree_and_efficiency_is_explained_when_not_applicable() {
+        for machine in ["pump", "turbine"] {
+            let s = solve(&[("machine", machine)]);
+            assert_eq!(s.checks.len(), 3, "{machine}");
+            assert!(s.checks.iter().all(|c| c.agrees()), "{machine}: {:?}", s.checks);
+        }
+        // The demo pump's triangles run as a turbine give no positive Euler head:
+        // the efficiency is not applicable and the page says why.
+        let s = solve(&[("machine", "turbine"), ("head", "40 m")]);
+        assert!(s.output("efficiency").is_none());
+        assert!(s
+            .warnings
+            .iter()
+            .any(|w| w.message.starts_with("Efficiency: not applicable")));
+    }
+}
