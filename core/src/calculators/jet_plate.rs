@@ -57,7 +57,7 @@ const MIN_ANGLE: f64 = PI / 180.0;
 
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![quantity(
-        "angle",
+        "plate_angle",
         "Angle between the jet and the plate",
         Q::Angle,
         "deg",
@@ -170,11 +170,12 @@ fn frictionless_split(fluid: &Fluid, jet: &Jet, g: &Geometry) -> Result<(f64, Ba
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let theta = values.quantity("angle").map_err(|e| vec![e])?;
+    let theta = values.quantity("plate_angle").map_err(|e| vec![e])?;
     let fluid = common::fluid_from(values)?;
     let jet = common::jet_from(values, fluid.density)?;
     let g = Geometry::new(theta, jet.diameter);
-    let (q_forward, balance) = frictionless_split(&fluid, &jet, &g).map_err(|e| common::engine_error(e, "angle"))?;
+    let (q_forward, balance) =
+        frictionless_split(&fluid, &jet, &g).map_err(|e| common::engine_error(e, "plate_angle"))?;
 
     let thrust = balance.thrust();
     let into_plate = -g.jet_side;
@@ -222,7 +223,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     common::forward_warnings(&balance, report);
     if theta < 10.0 * PI / 180.0 {
         report.warn(
-            Some("angle"),
+            Some("plate_angle"),
             "the jet nearly grazes the plate: almost all of it runs on forward and the normal force is small; a real jet spreads and may miss the plate",
         );
     }
@@ -279,7 +280,7 @@ fn split_table(jet: &Jet, theta: f64, q_forward: f64, q_back: f64, system: units
 
 fn basis(values: &Values, jet: &Jet, theta: f64, report: &Report<'_>) -> Table {
     let speed = report.fmt(jet.velocity, Q::Velocity);
-    let how = match values.choice("jet_basis").unwrap_or("v") {
+    let how = match values.choice("flow_given").unwrap_or("v") {
         "q" => format!("V = Q/A = {speed}"),
         "head" => format!(
             "V = Cv·√(2gH), Cv = {}: {speed}",
@@ -473,9 +474,9 @@ mod tests {
         for deg in [1.0f64, 10.0, 30.0, 45.0, 60.0, 75.0, 90.0] {
             let angle = format!("{deg} deg");
             let mut pairs = vec![
-                ("angle", angle.as_str()),
-                ("jet_basis", "v"),
-                ("v_jet", "20 m/s"),
+                ("plate_angle", angle.as_str()),
+                ("flow_given", "v"),
+                ("v", "20 m/s"),
                 ("d_jet", "50 mm"),
             ];
             pairs.extend_from_slice(WATER_1000);
@@ -507,9 +508,9 @@ mod tests {
     #[test]
     fn head_and_pressure_bases_give_the_same_jet() {
         // V = Cv·√(2gH) and V = Cv·√(2p/ρ) with p = ρgH: derived from the definition.
-        let mut a = vec![("jet_basis", "head"), ("h_supply", "20 m"), ("cv", "0.95")];
+        let mut a = vec![("flow_given", "head"), ("head", "20 m"), ("cv", "0.95")];
         a.extend_from_slice(WATER_1000);
-        let mut b = vec![("jet_basis", "p"), ("p_supply", "196.133 kPa"), ("cv", "0.95")];
+        let mut b = vec![("flow_given", "p"), ("p", "196.133 kPa"), ("cv", "0.95")];
         b.extend_from_slice(WATER_1000);
         let (sa, sb) = (solve(&a), solve(&b));
         let v = 0.95 * (2.0 * 9.80665 * 20.0f64).sqrt();
@@ -527,14 +528,14 @@ mod tests {
 
     #[test]
     fn bad_inputs_name_their_field() {
-        let (field, message) = error_field(&[("jet_basis", "q"), ("q_jet", "-5 L/s")]);
-        assert_eq!(field, "q_jet");
+        let (field, message) = error_field(&[("flow_given", "q"), ("q", "-5 L/s")]);
+        assert_eq!(field, "q");
         assert!(message.contains("at least"), "{message}");
         assert_eq!(error_field(&[("d_jet", "0 mm")]).0, "d_jet");
-        assert_eq!(error_field(&[("angle", "120 deg")]).0, "angle");
-        let (field, _) = error_field(&[("jet_basis", "v"), ("v_jet", "")]);
-        assert_eq!(field, "v_jet");
-        match crate::solve(super::KEY, &request(&[("jet_basis", "nozzle")])).result {
+        assert_eq!(error_field(&[("plate_angle", "120 deg")]).0, "plate_angle");
+        let (field, _) = error_field(&[("flow_given", "v"), ("v", "")]);
+        assert_eq!(field, "v");
+        match crate::solve(super::KEY, &request(&[("flow_given", "nozzle")])).result {
             Err(crate::SolveError::Fields(errors)) => {
                 assert!(matches!(errors[0].kind, FieldErrorKind::UnknownChoice { .. }))
             }

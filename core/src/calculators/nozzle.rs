@@ -73,7 +73,7 @@ const GIVEN_OPTIONS: &[ChoiceOption] = &[
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         quantity(
-            "d_pipe",
+            "d",
             "Pipe inside diameter at the flange",
             Q::Length,
             "mm",
@@ -93,14 +93,14 @@ pub fn spec() -> CalculatorSpec {
             "Diameter of the nozzle tip; not larger than the pipe.",
         ),
         choice(
-            "given",
+            "flow_given",
             "Given",
             GIVEN_OPTIONS,
             "p",
             "Give the pressure upstream of the nozzle to find the flow, or the flow to find the pressure.",
         ),
         FieldSpec {
-            visible_when: Some(("given", &["p"])),
+            visible_when: Some(("flow_given", &["p"])),
             ..quantity(
                 "p",
                 "Gauge pressure at the flange",
@@ -113,7 +113,7 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         FieldSpec {
-            visible_when: Some(("given", &["q"])),
+            visible_when: Some(("flow_given", &["q"])),
             ..quantity(
                 "q",
                 "Flow through the nozzle",
@@ -196,9 +196,9 @@ pub fn spec() -> CalculatorSpec {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let d_pipe = values.quantity("d_pipe").map_err(|e| vec![e])?;
+    let d_pipe = values.quantity("d").map_err(|e| vec![e])?;
     let d_nozzle = values.quantity("d_nozzle").map_err(|e| vec![e])?;
-    let given = values.choice("given").map_err(|e| vec![e])?;
+    let given = values.choice("flow_given").map_err(|e| vec![e])?;
     let cd = values.quantity("cd").map_err(|e| vec![e])?;
     let cc = values.quantity_or("cc", 1.0);
     let d_gasket = if values.is_set("d_gasket") {
@@ -347,7 +347,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         }
     }
     common::forward_warnings(&balance, report);
-    common::pipe_velocity_warning(report, "d_pipe", "flange", inlet.speed);
+    common::pipe_velocity_warning(report, "d", "flange", inlet.speed);
     if end_force < 0.0 {
         report.warn(
             Some("d_nozzle"),
@@ -564,9 +564,9 @@ mod tests {
 
     #[test]
     fn pressure_and_flow_modes_agree() {
-        let by_p = outcome(&[("given", "p"), ("p", "6 bar")]).result.expect("solves");
+        let by_p = outcome(&[("flow_given", "p"), ("p", "6 bar")]).result.expect("solves");
         let q = by_p.output("flow").unwrap().si;
-        let by_q = outcome(&[("given", "q"), ("q", &format!("{q} m3/s"))])
+        let by_q = outcome(&[("flow_given", "q"), ("q", &format!("{q} m3/s"))])
             .result
             .expect("solves");
         assert_relative_eq!(by_q.output("p_in").unwrap().si, 6e5, max_relative = 1e-9);
@@ -582,9 +582,9 @@ mod tests {
         // Derived from the definition: C = 1, T = p1·A1 − ρQ(Vj − V1) with
         // p1 = ρ(Vj² − V1²)/2.
         let s = outcome(&[
-            ("given", "q"),
+            ("flow_given", "q"),
             ("q", "0.02 m3/s"),
-            ("d_pipe", "100 mm"),
+            ("d", "100 mm"),
             ("d_nozzle", "50 mm"),
             ("cd", "1"),
             ("fluid", "custom"),
@@ -645,11 +645,11 @@ mod tests {
                 ] {
                     let key = if given == "p" { "p" } else { "q" };
                     let pairs = [
-                        ("d_pipe", d_pipe),
+                        ("d", d_pipe),
                         ("d_nozzle", d_nozzle),
                         ("cd", cd),
                         ("cc", cc),
-                        ("given", given),
+                        ("flow_given", given),
                         (key, value),
                         ("d_gasket", "10 m"),
                     ];

@@ -90,6 +90,38 @@ const MODE_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
+/// The joints at a junction: the first three seal on the outside diameter, the
+/// rest on the bore (the glossary's `joint` options).
+const JOINT_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "push_on",
+        label: "Push-on joints (area on the OD)",
+    },
+    ChoiceOption {
+        key: "mechanical",
+        label: "Mechanical joints (area on the OD)",
+    },
+    ChoiceOption {
+        key: "restrained",
+        label: "Restrained push-on or mechanical joints (area on the OD of the sealing joint)",
+    },
+    ChoiceOption {
+        key: "flanged",
+        label: "Flanged (area on the bore)",
+    },
+    ChoiceOption {
+        key: "welded",
+        label: "Welded (area on the bore)",
+    },
+    ChoiceOption {
+        key: "fused",
+        label: "Fused (area on the bore)",
+    },
+];
+
+/// The joints whose thrust area is the outside diameter.
+const OUTSIDE_DIAMETER_JOINTS: &[&str] = &["push_on", "mechanical", "restrained"];
+
 const COUNT_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption { key: "1", label: "1" },
     ChoiceOption {
@@ -154,21 +186,21 @@ struct BranchKeys {
 const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     BranchKeys {
         visible: N_AT_LEAST[0],
-        d: "d1",
+        d: "b1_d",
         d_label: "Branch 1 inside diameter",
         d_demo: "310 mm",
-        angle: "angle1",
+        angle: "b1_angle",
         angle_label: "Branch 1 direction",
         angle_demo: "0 deg",
-        elev: "elev1",
+        elev: "b1_elev",
         elev_label: "Branch 1 elevation angle",
-        od: "od1",
+        od: "b1_od",
         od_label: "Branch 1 outside diameter",
         od_demo: "326 mm",
-        share: "share1",
+        share: "b1_share",
         share_label: "Branch 1 flow share",
         share_demo: "70 %",
-        k: "k1",
+        k: "b1_k",
         k_label: "Branch 1 loss coefficient K",
         k_demo: "0.3",
         p_out: "p_b1",
@@ -180,21 +212,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[1],
-        d: "d2",
+        d: "b2_d",
         d_label: "Branch 2 inside diameter",
         d_demo: "154 mm",
-        angle: "angle2",
+        angle: "b2_angle",
         angle_label: "Branch 2 direction",
         angle_demo: "90 deg",
-        elev: "elev2",
+        elev: "b2_elev",
         elev_label: "Branch 2 elevation angle",
-        od: "od2",
+        od: "b2_od",
         od_label: "Branch 2 outside diameter",
         od_demo: "170 mm",
-        share: "share2",
+        share: "b2_share",
         share_label: "Branch 2 flow share",
         share_demo: "",
-        k: "k2",
+        k: "b2_k",
         k_label: "Branch 2 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b2",
@@ -206,21 +238,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[2],
-        d: "d3",
+        d: "b3_d",
         d_label: "Branch 3 inside diameter",
         d_demo: "100 mm",
-        angle: "angle3",
+        angle: "b3_angle",
         angle_label: "Branch 3 direction",
         angle_demo: "-90 deg",
-        elev: "elev3",
+        elev: "b3_elev",
         elev_label: "Branch 3 elevation angle",
-        od: "od3",
+        od: "b3_od",
         od_label: "Branch 3 outside diameter",
         od_demo: "118 mm",
-        share: "share3",
+        share: "b3_share",
         share_label: "Branch 3 flow share",
         share_demo: "5 %",
-        k: "k3",
+        k: "b3_k",
         k_label: "Branch 3 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b3",
@@ -232,21 +264,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[3],
-        d: "d4",
+        d: "b4_d",
         d_label: "Branch 4 inside diameter",
         d_demo: "100 mm",
-        angle: "angle4",
+        angle: "b4_angle",
         angle_label: "Branch 4 direction",
         angle_demo: "45 deg",
-        elev: "elev4",
+        elev: "b4_elev",
         elev_label: "Branch 4 elevation angle",
-        od: "od4",
+        od: "b4_od",
         od_label: "Branch 4 outside diameter",
         od_demo: "118 mm",
-        share: "share4",
+        share: "b4_share",
         share_label: "Branch 4 flow share",
         share_demo: "5 %",
-        k: "k4",
+        k: "b4_k",
         k_label: "Branch 4 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b4",
@@ -258,21 +290,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[4],
-        d: "d5",
+        d: "b5_d",
         d_label: "Branch 5 inside diameter",
         d_demo: "100 mm",
-        angle: "angle5",
+        angle: "b5_angle",
         angle_label: "Branch 5 direction",
         angle_demo: "-45 deg",
-        elev: "elev5",
+        elev: "b5_elev",
         elev_label: "Branch 5 elevation angle",
-        od: "od5",
+        od: "b5_od",
         od_label: "Branch 5 outside diameter",
         od_demo: "118 mm",
-        share: "share5",
+        share: "b5_share",
         share_label: "Branch 5 flow share",
         share_demo: "5 %",
-        k: "k5",
+        k: "b5_k",
         k_label: "Branch 5 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b5",
@@ -284,21 +316,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[5],
-        d: "d6",
+        d: "b6_d",
         d_label: "Branch 6 inside diameter",
         d_demo: "100 mm",
-        angle: "angle6",
+        angle: "b6_angle",
         angle_label: "Branch 6 direction",
         angle_demo: "135 deg",
-        elev: "elev6",
+        elev: "b6_elev",
         elev_label: "Branch 6 elevation angle",
-        od: "od6",
+        od: "b6_od",
         od_label: "Branch 6 outside diameter",
         od_demo: "118 mm",
-        share: "share6",
+        share: "b6_share",
         share_label: "Branch 6 flow share",
         share_demo: "5 %",
-        k: "k6",
+        k: "b6_k",
         k_label: "Branch 6 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b6",
@@ -313,7 +345,7 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         choice(
-            "mode",
+            "junction",
             "Flow",
             MODE_OPTIONS,
             "dividing",
@@ -341,6 +373,14 @@ pub fn spec() -> CalculatorSpec {
         ),
     ];
     for mut field in common::flow_fields("850 m3/h") {
+        // The glossary's key for how the flow is given (a no-op once the shared flow
+        // fields use it).
+        if field.key == "flow_basis" {
+            field.key = "flow_given";
+        }
+        if let Some(("flow_basis", shown)) = field.visible_when {
+            field.visible_when = Some(("flow_given", shown));
+        }
         match field.key {
             "q" => {
                 field.label = "Flow in the common pipe";
@@ -359,7 +399,7 @@ pub fn spec() -> CalculatorSpec {
         fields.push(field);
     }
     fields.push(choice(
-        "n",
+        "branches",
         "Number of branches",
         COUNT_OPTIONS,
         "2",
@@ -375,17 +415,17 @@ pub fn spec() -> CalculatorSpec {
     fields.push(FieldSpec {
         optional: true,
         ..choice(
-            "basis",
-            "Thrust area basis",
-            common::AREA_BASIS_OPTIONS,
-            "id",
-            "Push-on and mechanical joints can slide like a piston: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Empty means the inside diameter.",
+            "joint",
+            "Joints at the junction",
+            JOINT_OPTIONS,
+            "flanged",
+            "Push-on and mechanical joints, restrained or not, seal on the spigot's outside: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Flanged, welded and fused joints seal on the bore. Empty means a joint that seals on the bore.",
         )
     });
     fields.push(FieldSpec {
-        visible_when: Some(("basis", &["od"])),
+        visible_when: Some(("joint", OUTSIDE_DIAMETER_JOINTS)),
         ..quantity(
-            "d_od",
+            "od",
             "Common pipe outside diameter",
             Q::Length,
             "mm",
@@ -396,7 +436,7 @@ pub fn spec() -> CalculatorSpec {
         )
     });
     for b in &BRANCHES {
-        let shown = Some(("n", b.visible));
+        let shown = Some(("branches", b.visible));
         fields.push(FieldSpec {
             visible_when: shown,
             ..quantity(
@@ -598,7 +638,7 @@ pub fn spec() -> CalculatorSpec {
         fields,
         outputs,
         cautions: vec![
-            "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
+            "For push-on and mechanical joints, restrained or not, choose them under joints (the outside-diameter basis): using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
             "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
             "A negative loss coefficient (the stream gains energy from the others) holds only for the flow split and area ratio it was published for: recheck it whenever the split changes.",
@@ -805,26 +845,53 @@ fn check_loss_coefficients(
     Ok(())
 }
 
+/// The key of the flow field the user filled (`q`, `v` or `mdot`).
+fn flow_key(values: &Values) -> &'static str {
+    match values.choice("flow_given").unwrap_or("q") {
+        "v" => "v",
+        "mdot" => "mdot",
+        _ => "q",
+    }
+}
+
+/// Reads the common pipe's flow as an engine flow spec.
+fn flow_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
+    values.choice("flow_given").map_err(|e| vec![e])?;
+    let key = flow_key(values);
+    if !values.is_set(key) {
+        return Err(vec![FieldError::inconsistent(
+            key,
+            "a value is required for the chosen way of giving the flow",
+        )]);
+    }
+    let value = values.quantity(key).map_err(|e| vec![e])?;
+    Ok(match key {
+        "v" => FlowSpec::Velocity(value),
+        "mdot" => FlowSpec::MassFlow(value),
+        _ => FlowSpec::VolumeFlow(value),
+    })
+}
+
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let mode = values.choice("mode").map_err(|e| vec![e])?;
+    let mode = values.choice("junction").map_err(|e| vec![e])?;
     let dividing = mode != "combining";
     let d_common = values.quantity("d").map_err(|e| vec![e])?;
     let p = values.quantity("p").map_err(|e| vec![e])?;
     let count: usize = values
-        .choice("n")
+        .choice("branches")
         .map_err(|e| vec![e])?
         .parse()
-        .map_err(|_| vec![FieldError::inconsistent("n", "choose 1 to 6 branches")])?;
+        .map_err(|_| vec![FieldError::inconsistent("branches", "choose 1 to 6 branches")])?;
     let count = count.clamp(1, MAX_BRANCHES);
     let k_on_common = values.choice("k_ref").map_err(|e| vec![e])? != "branch";
     let fluid = common::fluid_from(values)?;
-    let flow = common::flow_from(values)?;
-    let on_outside = values.choice("basis").unwrap_or("id") == "od";
+    let flow = flow_from(values)?;
+    let on_outside = OUTSIDE_DIAMETER_JOINTS.contains(&values.choice("joint").unwrap_or("flanged"));
     let common_outside = if on_outside {
-        let od = values.quantity("d_od").map_err(|e| vec![e])?;
+        let od = values.quantity("od").map_err(|e| vec![e])?;
         if od <= d_common {
             return Err(vec![FieldError::inconsistent(
-                "d_od",
+                "od",
                 "the outside diameter must be larger than the inside diameter",
             )]);
         }
@@ -1001,7 +1068,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     );
 
     common::forward_warnings(&balance, report);
-    common::pipe_velocity_warning(report, common::flow_field(values), "common pipe", common_state.speed);
+    common::pipe_velocity_warning(report, flow_key(values), "common pipe", common_state.speed);
     for (b, &i) in branches.iter().zip(&port_of) {
         let state = &balance.ports[i];
         let keys = &BRANCHES[b.index];
@@ -1389,9 +1456,9 @@ mod tests {
             ("q", "0"),
             ("p", "10 bar"),
             ("d", "300 mm"),
-            ("d1", "300 mm"),
-            ("d2", "200 mm"),
-            ("share1", "100 %"),
+            ("b1_d", "300 mm"),
+            ("b2_d", "200 mm"),
+            ("b1_share", "100 %"),
         ])
         .result
         .expect("solves");
@@ -1410,7 +1477,9 @@ mod tests {
 
     #[test]
     fn the_empty_share_is_solved_by_mass() {
-        let s = outcome(&[("share1", "70 %"), ("share2", "")]).result.expect("solves");
+        let s = outcome(&[("b1_share", "70 %"), ("b2_share", "")])
+            .result
+            .expect("solves");
         assert_relative_eq!(s.output("solved_share").unwrap().si, 0.3, max_relative = 1e-9);
         let q = s.output("flow").unwrap().si;
         assert_relative_eq!(s.output("q_b2").unwrap().si, 0.3 * q, max_relative = 1e-9);
@@ -1419,15 +1488,15 @@ mod tests {
     #[test]
     fn combining_mirror_of_a_symmetric_wye_has_no_side_thrust() {
         let s = outcome(&[
-            ("mode", "combining"),
-            ("angle1", "30 deg"),
-            ("angle2", "-30 deg"),
-            ("d1", "200 mm"),
-            ("d2", "200 mm"),
-            ("share1", "50 %"),
-            ("share2", ""),
-            ("k1", "0.2"),
-            ("k2", "0.2"),
+            ("junction", "combining"),
+            ("b1_angle", "30 deg"),
+            ("b2_angle", "-30 deg"),
+            ("b1_d", "200 mm"),
+            ("b2_d", "200 mm"),
+            ("b1_share", "50 %"),
+            ("b2_share", ""),
+            ("b1_k", "0.2"),
+            ("b2_k", "0.2"),
         ])
         .result
         .expect("solves");
@@ -1438,18 +1507,28 @@ mod tests {
 
     #[test]
     fn bad_shares_and_sizes_name_their_field() {
-        assert_eq!(error_field(&[("share1", "120 %")]), "share1");
-        assert_eq!(error_field(&[("share1", "70 %"), ("share2", "40 %")]), "share2");
+        assert_eq!(error_field(&[("b1_share", "120 %")]), "b1_share");
+        assert_eq!(error_field(&[("b1_share", "70 %"), ("b2_share", "40 %")]), "b2_share");
         assert_eq!(
-            error_field(&[("n", "3"), ("share1", "70 %"), ("share2", ""), ("share3", "")]),
-            "share3"
+            error_field(&[
+                ("branches", "3"),
+                ("b1_share", "70 %"),
+                ("b2_share", ""),
+                ("b3_share", "")
+            ]),
+            "b3_share"
         );
         assert_eq!(
-            error_field(&[("n", "3"), ("share1", "80 %"), ("share2", ""), ("share3", "30 %")]),
-            "share3"
+            error_field(&[
+                ("branches", "3"),
+                ("b1_share", "80 %"),
+                ("b2_share", ""),
+                ("b3_share", "30 %")
+            ]),
+            "b3_share"
         );
-        assert_eq!(error_field(&[("d2", "0 mm")]), "d2");
-        assert_eq!(error_field(&[("angle2", "175 deg")]), "angle2");
+        assert_eq!(error_field(&[("b2_d", "0 mm")]), "b2_d");
+        assert_eq!(error_field(&[("b2_angle", "175 deg")]), "b2_angle");
         assert_eq!(error_field(&[("p", "-3 psi")]), "p");
     }
 
@@ -1457,7 +1536,7 @@ mod tests {
     fn shares_within_the_tolerance_of_100_percent_close_mass_exactly() {
         // 70.00005 % + 30 % is accepted (within 1e-6 of 100 %); the branch flows must
         // still add up to the common flow to rounding, not leave 5e-7 of it over.
-        let s = outcome(&[("share1", "70.00005 %"), ("share2", "30 %")])
+        let s = outcome(&[("b1_share", "70.00005 %"), ("b2_share", "30 %")])
             .result
             .expect("solves");
         let q = s.output("flow").unwrap().si;
@@ -1472,11 +1551,11 @@ mod tests {
         // Combining, small branch share: a negative branch K (Crane TP-410 gives down
         // to −1 on the combined velocity) with a positive run K.
         let combining = [
-            ("mode", "combining"),
-            ("share1", "90 %"),
-            ("share2", ""),
-            ("k1", "0.3"),
-            ("k2", "-0.9"),
+            ("junction", "combining"),
+            ("b1_share", "90 %"),
+            ("b2_share", ""),
+            ("b1_k", "0.3"),
+            ("b2_k", "-0.9"),
         ];
         let s = outcome(&combining).result.expect("solves");
         // The branch gains the energy: its pressure is below the common pipe's plus
@@ -1488,20 +1567,20 @@ mod tests {
         assert_relative_eq!(s.output("p_b2").unwrap().si, expected, max_relative = 1e-12);
         assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
         // Both streams gaining energy would create it: refused on the more negative K.
-        assert_eq!(error_field(&[("k1", "-0.1"), ("k2", "-0.2")]), "k1");
+        assert_eq!(error_field(&[("b1_k", "-0.1"), ("b2_k", "-0.2")]), "b1_k");
         // Below −1 on the common velocity: refused by the field's range.
-        assert_eq!(error_field(&[("k2", "-1.5")]), "k2");
+        assert_eq!(error_field(&[("b2_k", "-1.5")]), "b2_k");
         // On the branch's own velocity a K of −1 in a branch faster than the common
         // pipe is below −1 on the common velocity.
         assert_eq!(
             error_field(&[
                 ("k_ref", "branch"),
-                ("d2", "100 mm"),
-                ("share1", "50 %"),
-                ("share2", "50 %"),
-                ("k2", "-1")
+                ("b2_d", "100 mm"),
+                ("b1_share", "50 %"),
+                ("b2_share", "50 %"),
+                ("b2_k", "-1")
             ]),
-            "k2"
+            "b2_k"
         );
     }
 

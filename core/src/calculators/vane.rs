@@ -91,7 +91,7 @@ const MIN_K: f64 = 0.05;
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         choice(
-            "mode",
+            "vane",
             "Vane",
             MODE_OPTIONS,
             "wheel",
@@ -99,7 +99,7 @@ pub fn spec() -> CalculatorSpec {
         ),
         FieldSpec {
             // Required while shown (a single vane or a wheel); hidden for a fixed vane.
-            visible_when: Some(("mode", &["single", "wheel"])),
+            visible_when: Some(("vane", &["single", "wheel"])),
             ..quantity(
                 "u",
                 "Blade speed",
@@ -124,7 +124,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec {
             optional: true,
             ..quantity(
-                "k",
+                "w_ratio",
                 "Relative-velocity factor k = W₂/W₁",
                 Q::Ratio,
                 "-",
@@ -337,7 +337,7 @@ fn best_speed(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode) -> Result<VaneS
 }
 
 fn mode_from(values: &Values) -> Result<Mode, Vec<FieldError>> {
-    Ok(match values.choice("mode").map_err(|e| vec![e])? {
+    Ok(match values.choice("vane").map_err(|e| vec![e])? {
         "fixed" => Mode::Fixed,
         "single" => Mode::Single,
         _ => Mode::Wheel,
@@ -347,7 +347,7 @@ fn mode_from(values: &Values) -> Result<Mode, Vec<FieldError>> {
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let mode = mode_from(values)?;
     let theta = values.quantity("angle").map_err(|e| vec![e])?;
-    let k = values.quantity_or("k", 1.0);
+    let k = values.quantity_or("w_ratio", 1.0);
     let fluid = common::fluid_from(values)?;
     let jet = common::jet_from(values, fluid.density)?;
     let vane = Vane { theta, k };
@@ -666,7 +666,7 @@ fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &V
 fn basis(values: &Values, mode: Mode, jet: &Jet, vane: &Vane, report: &Report<'_>) -> Table {
     let speed = report.fmt(jet.velocity, Q::Velocity);
     let cv = units::format_significant(values.quantity_or("cv", 1.0), 4);
-    let how = match values.choice("jet_basis").unwrap_or("v") {
+    let how = match values.choice("flow_given").unwrap_or("v") {
         "q" => format!("V = Q/A = {speed}"),
         "head" => format!("V = Cv·√(2gH), Cv = {cv}: {speed}"),
         "p" => format!("V = Cv·√(2p/ρ), Cv = {cv}: {speed}"),
@@ -984,8 +984,8 @@ mod tests {
         ("fluid", "custom"),
         ("rho", "1000 kg/m3"),
         ("mu", "1 mPa.s"),
-        ("jet_basis", "v"),
-        ("v_jet", "30 m/s"),
+        ("flow_given", "v"),
+        ("v", "30 m/s"),
         ("d_jet", "50 mm"),
     ];
 
@@ -1074,10 +1074,10 @@ mod tests {
     fn searched_optima_are_at_a_third_and_a_half_of_the_jet_speed() {
         // Derived from the definition: d/du[(V − u)²u] = 0 at u = V/3; d/du[(V − u)u] = 0 at V/2.
         let s = solve(&with(&[
-            ("mode", "single"),
+            ("vane", "single"),
             ("u", "10 m/s"),
             ("angle", "180 deg"),
-            ("k", "1"),
+            ("w_ratio", "1"),
         ]));
         assert_relative_eq!(out(&s, "u_best_single"), 10.0, max_relative = 1e-6);
         assert_relative_eq!(out(&s, "efficiency_best_single"), 16.0 / 27.0, max_relative = 1e-9);
@@ -1103,10 +1103,10 @@ mod tests {
     fn force_and_power_agree_with_the_independent_paths_in_every_mode() {
         for mode in ["fixed", "single", "wheel"] {
             let s = solve(&with(&[
-                ("mode", mode),
+                ("vane", mode),
                 ("u", "12 m/s"),
                 ("angle", "150 deg"),
-                ("k", "0.8"),
+                ("w_ratio", "0.8"),
             ]));
             let labels: Vec<&str> = s.checks.iter().map(|c| c.label.as_str()).collect();
             assert!(
@@ -1123,7 +1123,7 @@ mod tests {
             assert!(!energy.rows.iter().any(|r| r[0].contains("residual")));
         }
         // Turned straight back the side force is 0, not 1e-16 of the flux.
-        let back = solve(&with(&[("mode", "fixed"), ("angle", "180 deg"), ("k", "1")]));
+        let back = solve(&with(&[("vane", "fixed"), ("angle", "180 deg"), ("w_ratio", "1")]));
         assert_eq!(out(&back, "force_y"), 0.0);
         // A fixed vane does no work: its efficiency is not applicable, and says why.
         assert!(back.output("efficiency").is_none());
@@ -1135,25 +1135,25 @@ mod tests {
 
     #[test]
     fn blade_speed_errors_and_meanings() {
-        let (field, message) = error_of(&with(&[("mode", "single"), ("u", "30 m/s")]));
+        let (field, message) = error_of(&with(&[("vane", "single"), ("u", "30 m/s")]));
         assert_eq!(field, "u");
         assert!(message.contains("less than the jet speed"), "{message}");
-        let (field, message) = error_of(&with(&[("mode", "wheel"), ("u", "31 m/s")]));
+        let (field, message) = error_of(&with(&[("vane", "wheel"), ("u", "31 m/s")]));
         assert_eq!(field, "u");
         assert!(message.contains("outrun"), "{message}");
-        let (field, _) = error_of(&with(&[("mode", "wheel"), ("u", "")]));
+        let (field, _) = error_of(&with(&[("vane", "wheel"), ("u", "")]));
         assert_eq!(field, "u");
         assert_eq!(error_of(&with(&[("u", "-3 m/s")])).0, "u");
         // At the jet speed the ideal wheel runs away: zero force, stated.
-        let s = solve(&with(&[("mode", "wheel"), ("u", "30 m/s")]));
+        let s = solve(&with(&[("vane", "wheel"), ("u", "30 m/s")]));
         assert!(out(&s, "force_x").abs() < 1e-9);
         assert!(s.warnings.iter().any(|w| w.message.contains("runaway")));
         // A fixed vane ignores the hidden blade speed.
         let s = solve(&with(&[
-            ("mode", "fixed"),
+            ("vane", "fixed"),
             ("u", "50 m/s"),
             ("angle", "180 deg"),
-            ("k", "1"),
+            ("w_ratio", "1"),
         ]));
         let q = jet().flow;
         assert_relative_eq!(out(&s, "force_x"), 2.0 * 1000.0 * q * 30.0, max_relative = 1e-12);
@@ -1161,18 +1161,18 @@ mod tests {
 
     #[test]
     fn bad_jet_inputs_name_their_field() {
-        let (field, message) = error_of(&with(&[("jet_basis", "q"), ("q_jet", "-2 L/s")]));
-        assert_eq!(field, "q_jet");
+        let (field, message) = error_of(&with(&[("flow_given", "q"), ("q", "-2 L/s")]));
+        assert_eq!(field, "q");
         assert!(message.contains("at least"), "{message}");
         assert_eq!(error_of(&with(&[("d_jet", "0 mm")])).0, "d_jet");
         // A flow that would make a jet faster than 500 m/s names the flow field.
-        let (field, message) = error_of(&with(&[("jet_basis", "q"), ("q_jet", "90 m3/s")]));
-        assert_eq!(field, "q_jet");
+        let (field, message) = error_of(&with(&[("flow_given", "q"), ("q", "90 m3/s")]));
+        assert_eq!(field, "q");
         assert!(message.contains("500 m/s"), "{message}");
         // The smallest k and deflection accepted are physical, not 5e-324.
-        assert_eq!(error_of(&with(&[("k", "1e-300")])).0, "k");
+        assert_eq!(error_of(&with(&[("w_ratio", "1e-300")])).0, "w_ratio");
         assert_eq!(error_of(&with(&[("angle", "1e-300 deg")])).0, "angle");
-        assert_eq!(error_of(&with(&[("k", "1.2")])).0, "k");
+        assert_eq!(error_of(&with(&[("w_ratio", "1.2")])).0, "w_ratio");
         assert_eq!(error_of(&with(&[("angle", "0 deg")])).0, "angle");
     }
 
