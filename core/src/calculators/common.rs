@@ -731,6 +731,30 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
     })
 }
 
+/// How the speed of a jet was given, typed: what a report says about it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum JetGiven {
+    Velocity(uom::si::f64::Velocity),
+    Flow(uom::si::f64::VolumeRate),
+    /// Total head at the nozzle inlet, with the velocity coefficient.
+    Head(uom::si::f64::Length, uom::si::f64::Ratio),
+    /// Gauge pressure at the nozzle inlet, with the velocity coefficient.
+    Pressure(uom::si::f64::Pressure, uom::si::f64::Ratio),
+}
+
+/// Reads how the jet's speed is given (see [`jet_fields`]); `cv` is 1 when empty.
+pub fn jet_given(values: &Values) -> Result<JetGiven, crate::error::FieldErrors> {
+    let cv = values
+        .typed_opt("cv")
+        .unwrap_or(uom::si::f64::Ratio::new::<uom::si::ratio::ratio>(1.0));
+    Ok(match values.choice("flow_given")? {
+        "q" => JetGiven::Flow(values.typed("q")?),
+        "head" => JetGiven::Head(values.typed("head")?, cv),
+        "p" => JetGiven::Pressure(values.typed("p")?, cv),
+        _ => JetGiven::Velocity(values.typed("v")?),
+    })
+}
+
 /// Convex hull of a few points (monotone chain), counter-clockwise; for drawing a
 /// control volume around the parts of a diagram.
 pub fn convex_hull(mut points: Vec<[f64; 2]>) -> Vec<[f64; 2]> {
