@@ -274,21 +274,8 @@ mod tests {
     }
 
     #[test]
-    fn every_field_key_is_a_glossary_term() {
-        for field in super::spec().fields {
-            assert!(
-                crate::glossary::term_of(field.key).is_some(),
-                "{} is not in the glossary",
-                field.key
-            );
-            assert!(
-                !crate::glossary::KEY_ALIASES
-                    .iter()
-                    .any(|a| a.page == super::KEY && a.old == field.key),
-                "{} is a retired key",
-                field.key
-            );
-        }
+    fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
+        crate::calculators::testing::assert_glossary_keys(super::KEY);
     }
 
     #[test]
