@@ -41,9 +41,10 @@
 //! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
 //! square branch's pressure force) is rounding residue and shown as 0.
 //!
-//! On the outside-diameter basis (push-on and mechanical joints) each face's pressure
-//! also acts on the wall annulus out to the outside diameter, −p·(A_OD − A)·n, added
-//! to the engine as a named force per face.
+//! On the outside-diameter basis (`joint` = push-on, mechanical or restrained: joints
+//! that seal on the spigot's outside) each face's pressure also acts on the wall
+//! annulus out to the outside diameter, −p·(A_OD − A)·n, added to the engine as a
+//! named force per face. Flanged, welded and fused joints seal on the bore.
 //!
 //! # Layout
 //! [`read`] turns the validated values into typed [`Inputs`] once (and refuses
@@ -527,7 +528,7 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 b.od_demo,
                 Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-                "Needed only on the outside-diameter basis, and then required for every branch in use: the branch pipe's outside diameter at its joint. Left empty on the inside-diameter basis.",
+                "Needed only for push-on, mechanical or restrained joints (the thrust acts on the outside diameter), and then for every branch in use: the branch pipe's outside diameter at its joint. Left empty for flanged, welded or fused joints.",
             )
         });
     }
@@ -759,7 +760,7 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             if !values.is_set(b.od) {
                 errors.push(FieldError::inconsistent(
                     b.od,
-                    "an outside diameter is required for the outside-diameter basis",
+                    "an outside diameter is required for push-on, mechanical or restrained joints: the thrust acts on it",
                 ));
                 continue;
             }
