@@ -91,7 +91,7 @@ pub const MAX_LOSS_COEFFICIENT: f64 = 50.0;
 /// The smallest bore accepted for the common pipe and the branches.
 const MIN_BORE_M: f64 = 1e-3;
 
-pub(crate) const MODE_OPTIONS: &[ChoiceOption] = &[
+pub(crate) const JUNCTION_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "dividing",
         label: "Dividing: the common pipe feeds the branches",
@@ -359,7 +359,7 @@ pub fn spec() -> CalculatorSpec {
         choice(
             "junction",
             "Flow",
-            MODE_OPTIONS,
+            JUNCTION_OPTIONS,
             "dividing",
             "Dividing: a tee or manifold taking flow off a main. Combining: branches joining into one pipe.",
         ),

@@ -8,7 +8,7 @@ use crate::vector::Vec3;
 
 use super::super::common;
 use super::model::{Inputs, Junction, Solved};
-use super::{BRANCHES, MODE_OPTIONS};
+use super::{BRANCHES, JUNCTION_OPTIONS};
 
 /// Writes the whole report of a solved junction.
 pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
@@ -94,8 +94,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         (
             "Flow",
             match inputs.junction {
-                Junction::Dividing => MODE_OPTIONS[0].label,
-                Junction::Combining => MODE_OPTIONS[1].label,
+                Junction::Dividing => JUNCTION_OPTIONS[0].label,
+                Junction::Combining => JUNCTION_OPTIONS[1].label,
             }
             .to_string(),
         ),
@@ -111,7 +111,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         (
             "Thrust area basis",
             if on_outside {
-                "outside diameters (push-on or mechanical joints): the pressure on each joint's wall annulus is its own ledger term; momentum on the bores".to_string()
+                "outside diameters (push-on, mechanical or restrained joints): the pressure on each joint's wall annulus is its own ledger term; momentum on the bores".to_string()
             } else {
                 "inside diameters (pressure and momentum terms)".to_string()
             },

@@ -8,10 +8,10 @@ use crate::units::QuantityKind as Q;
 use crate::vector::Vec3;
 
 use super::super::common::{self, Jet};
-use super::model::{exit_point, Mode, Vane, VaneState};
+use super::model::{exit_point, Vane, VaneKind, VaneState};
 
 /// The jet, the vane and its exit triangle, the control volume and the force.
-pub fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &Report<'_>) -> Diagram {
+pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report: &Report<'_>) -> Diagram {
     let d = jet.diameter;
     let radius = 2.5 * d;
     let center = [0.0, radius];
@@ -77,7 +77,7 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &R
         label: format!("V = {}", fmt_v(v)),
         style: ShapeStyle::Velocity,
     });
-    if mode != Mode::Fixed && state.u > 0.0 {
+    if mode != VaneKind::Fixed && state.u > 0.0 {
         let base = [radius + d, -1.4 * d];
         shapes.push(Shape::Arrow {
             from: base,
@@ -160,9 +160,9 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: Mode, state: &VaneState, report: &R
         shapes.push(a);
     }
     let name = match mode {
-        Mode::Fixed => "fixed vane",
-        Mode::Single => "single vane, moving",
-        Mode::Wheel => "one bucket of the wheel",
+        VaneKind::Fixed => "fixed vane",
+        VaneKind::Single => "single vane, moving",
+        VaneKind::Wheel => "one bucket of the wheel",
     };
     shapes.push(Shape::Text {
         at: [-lead - 1.2 * d, 3.0 * d],

@@ -71,11 +71,11 @@ mod diagram;
 pub mod model;
 mod report;
 
-use model::{Inputs, Mode};
+use model::{Inputs, VaneKind};
 
 pub const KEY: &str = "vane";
 
-const MODE_OPTIONS: &[ChoiceOption] = &[
+const VANE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "fixed",
         label: "Fixed vane",
@@ -98,7 +98,7 @@ pub fn spec() -> CalculatorSpec {
         choice(
             "vane",
             "Vane",
-            MODE_OPTIONS,
+            VANE_OPTIONS,
             "wheel",
             "A fixed vane; a single vane moving away from the jet (only the water that catches up with it is turned); or a wheel, where one vane follows another and the whole jet is turned.",
         ),
@@ -190,9 +190,9 @@ pub fn spec() -> CalculatorSpec {
 /// out of range, named.
 pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     let mode = match values.choice("vane")? {
-        "fixed" => Mode::Fixed,
-        "single" => Mode::Single,
-        _ => Mode::Wheel,
+        "fixed" => VaneKind::Fixed,
+        "single" => VaneKind::Single,
+        _ => VaneKind::Wheel,
     };
     let angle = values.typed("angle")?;
     let w_ratio = values
@@ -202,8 +202,8 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     let jet = common::jet_from(values, fluid.density)?;
     let jet_given = common::jet_given(values)?;
     let u = match mode {
-        Mode::Fixed => Velocity::new::<uom::si::velocity::meter_per_second>(0.0),
-        Mode::Single | Mode::Wheel => values.typed_opt("u").ok_or_else(|| {
+        VaneKind::Fixed => Velocity::new::<uom::si::velocity::meter_per_second>(0.0),
+        VaneKind::Single | VaneKind::Wheel => values.typed_opt("u").ok_or_else(|| {
             FieldError::inconsistent(
                 "u",
                 "a blade speed is required for a moving vane or a wheel (0 for one held still)",
@@ -211,7 +211,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         })?,
     };
     Ok(Inputs {
-        mode,
+        kind: mode,
         angle,
         w_ratio,
         u,
@@ -302,7 +302,7 @@ mod tests {
         // and the absolute exit velocity is W₂ + u.
         let vane = Vane { theta: 2.0, k: 0.85 };
         let (v, u) = (30.0, 11.0);
-        let s = match vane_balance(&water(), &jet(), &vane, Mode::Single, u) {
+        let s = match vane_balance(&water(), &jet(), &vane, VaneKind::Single, u) {
             Ok(s) => s,
             Err(e) => panic!("{e}"),
         };
@@ -328,8 +328,8 @@ mod tests {
         // balance (relative velocities) differ only in the mass flow turned.
         for (theta, k, u) in [(PI, 1.0, 15.0), (165f64.to_radians(), 0.9, 10.0), (1.2, 0.7, 25.0)] {
             let vane = Vane { theta, k };
-            let single = vane_balance(&water(), &jet(), &vane, Mode::Single, u).map_err(|e| e.to_string());
-            let wheel = vane_balance(&water(), &jet(), &vane, Mode::Wheel, u).map_err(|e| e.to_string());
+            let single = vane_balance(&water(), &jet(), &vane, VaneKind::Single, u).map_err(|e| e.to_string());
+            let wheel = vane_balance(&water(), &jet(), &vane, VaneKind::Wheel, u).map_err(|e| e.to_string());
             let (Ok(single), Ok(wheel)) = (single, wheel) else {
                 panic!("balances fail")
             };

@@ -19,7 +19,7 @@ pub const PLOT_POINTS: usize = 41;
 /// The validated inputs of the page.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Inputs {
-    pub mode: Mode,
+    pub kind: VaneKind,
     /// Deflection angle θ of the relative flow.
     pub angle: Angle,
     /// Relative-velocity factor k = W₂/W₁ (1 when left empty).
@@ -88,16 +88,16 @@ impl From<FieldErrors> for Refusal {
 pub fn solve(inputs: &Inputs) -> Result<Solved, Refusal> {
     let (fluid, jet, vane) = (&inputs.fluid, &inputs.jet, inputs.vane());
     let (u, v) = (inputs.u.value, jet.velocity);
-    match inputs.mode {
-        Mode::Single if u >= v => return Err(Refusal::VaneOutrunsJet { u, v }),
-        Mode::Wheel if u > v => return Err(Refusal::WheelOutrunsJet { u, v }),
+    match inputs.kind {
+        VaneKind::Single if u >= v => return Err(Refusal::VaneOutrunsJet { u, v }),
+        VaneKind::Wheel if u > v => return Err(Refusal::WheelOutrunsJet { u, v }),
         _ => {}
     }
     let named = |e: EngineError| FieldErrors::from(common::engine_error(e, "d_jet"));
-    let state = vane_balance(fluid, jet, &vane, inputs.mode, inputs.u.value).map_err(named)?;
-    let best_single = best_speed(fluid, jet, &vane, Mode::Single).map_err(named)?;
-    let best_wheel = best_speed(fluid, jet, &vane, Mode::Wheel).map_err(named)?;
-    let curve = |mode: Mode| -> Result<Vec<CurvePoint>, FieldErrors> {
+    let state = vane_balance(fluid, jet, &vane, inputs.kind, inputs.u.value).map_err(named)?;
+    let best_single = best_speed(fluid, jet, &vane, VaneKind::Single).map_err(named)?;
+    let best_wheel = best_speed(fluid, jet, &vane, VaneKind::Wheel).map_err(named)?;
+    let curve = |mode: VaneKind| -> Result<Vec<CurvePoint>, FieldErrors> {
         (0..PLOT_POINTS)
             .map(|i| {
                 let u = jet.velocity * i as f64 / (PLOT_POINTS - 1) as f64;
@@ -111,8 +111,8 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, Refusal> {
             .collect()
     };
     Ok(Solved {
-        single_curve: curve(Mode::Single)?,
-        wheel_curve: curve(Mode::Wheel)?,
+        single_curve: curve(VaneKind::Single)?,
+        wheel_curve: curve(VaneKind::Wheel)?,
         state,
         best_single,
         best_wheel,
@@ -120,7 +120,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, Refusal> {
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Mode {
+pub enum VaneKind {
     Fixed,
     Single,
     Wheel,
@@ -169,9 +169,9 @@ pub fn exit_point(vane: &Vane, radius: f64) -> Vec3 {
 ///
 /// # Errors
 /// An engine refusal.
-pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -> Result<VaneState, EngineError> {
+pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f64) -> Result<VaneState, EngineError> {
     let v = jet.velocity;
-    let u = if mode == Mode::Fixed { 0.0 } else { u };
+    let u = if mode == VaneKind::Fixed { 0.0 } else { u };
     let w1 = (v - u).max(0.0);
     let radius = 2.5 * jet.diameter;
     let exit = exit_point(vane, radius);
@@ -179,10 +179,10 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -
     let w_out_vec = exit_dir * (vane.k * w1);
     let mut cv = ControlVolume::new(fluid.clone());
     let state = match mode {
-        Mode::Fixed | Mode::Single => {
+        VaneKind::Fixed | VaneKind::Single => {
             // A CV on the vane, moving with it: relative velocities, relative mass flow.
             cv.frame(match mode {
-                Mode::Fixed => Frame::Fixed,
+                VaneKind::Fixed => Frame::Fixed,
                 _ => Frame::Translating {
                     velocity: Vec3::new(u, 0.0, 0.0),
                 },
@@ -221,7 +221,7 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -
                 balance,
             }
         }
-        Mode::Wheel => {
+        VaneKind::Wheel => {
             // A CV fixed around the wheel: the whole jet enters at V and leaves with
             // the absolute velocity of the exit triangle, V₂ = u + W₂.
             let v2 = Vec3::new(u, 0.0, 0.0) + w_out_vec;
@@ -277,7 +277,7 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode, u: f64) -
 
 /// The blade speed that gives the most power, searched over the balance itself
 /// (power is zero at standstill and at the jet speed); returns the state there.
-pub fn best_speed(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: Mode) -> Result<VaneState, EngineError> {
+pub fn best_speed(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind) -> Result<VaneState, EngineError> {
     let power = |u: f64| vane_balance(fluid, jet, vane, mode, u).map(|s| s.power);
     let u = common::peak_of(0.0, jet.velocity, power)?;
     vane_balance(fluid, jet, vane, mode, u)

@@ -10,7 +10,7 @@ use crate::units::{self, QuantityKind as Q, UnitSystem, STANDARD_GRAVITY};
 use crate::vector::Vec3;
 
 use super::super::common::{self, Jet, JetGiven};
-use super::model::{CurvePoint, Inputs, Mode, Refusal, Solved, Vane, VaneState};
+use super::model::{CurvePoint, Inputs, Refusal, Solved, Vane, VaneKind, VaneState};
 
 /// The field errors of a refusal, with speeds in the report's units.
 pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
@@ -36,7 +36,7 @@ pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
 
 /// Writes the whole report of a solved vane.
 pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
-    let (fluid, jet, vane, mode) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.mode);
+    let (fluid, jet, vane, mode) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.kind);
     let (state, best_single, best_wheel) = (&solved.state, &solved.best_single, &solved.best_wheel);
     let (u, v, theta) = (state.u, jet.velocity, vane.theta);
     let rho = fluid.density;
@@ -53,11 +53,11 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("force_x", state.force.x);
     report.output("power", state.power);
     match (mode, v - u <= 1e-9 * v) {
-        (Mode::Fixed, _) => report.warn(
+        (VaneKind::Fixed, _) => report.warn(
             None,
             "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); choose a moving vane or a wheel",
         ),
-        (Mode::Wheel, true) => report.warn(
+        (VaneKind::Wheel, true) => report.warn(
             Some("u"),
             "Efficiency: not applicable, at the runaway speed no load takes power from the wheel",
         ),
@@ -94,13 +94,13 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     independent_checks(report, jet, &vane, mode, rho, state, best_single, best_wheel);
 
     common::forward_warnings(&state.balance, report);
-    if mode == Mode::Wheel && v - u <= 1e-9 * v {
+    if mode == VaneKind::Wheel && v - u <= 1e-9 * v {
         report.warn(
             Some("u"),
             "the blade speed equals the jet speed: this is the ideal wheel's runaway speed; no water is turned, no force acts and no power is delivered",
         );
     }
-    if mode != Mode::Fixed && u == 0.0 {
+    if mode != VaneKind::Fixed && u == 0.0 {
         report.warn(
             Some("u"),
             "with the vane held still the force is the fixed-vane force and no power is delivered",
@@ -145,7 +145,7 @@ fn independent_checks(
     report: &mut Report<'_>,
     jet: &Jet,
     vane: &Vane,
-    mode: Mode,
+    mode: VaneKind,
     rho: f64,
     state: &VaneState,
     best_single: &VaneState,
@@ -155,8 +155,8 @@ fn independent_checks(
     let w1 = v - u;
     let turning = 1.0 - vane.k * vane.theta.cos();
     let mass = match mode {
-        Mode::Single => rho * a * w1,
-        Mode::Fixed | Mode::Wheel => rho * a * v,
+        VaneKind::Single => rho * a * w1,
+        VaneKind::Fixed | VaneKind::Wheel => rho * a * v,
     };
     report.check(
         "Force on the vane along the jet",
@@ -170,7 +170,7 @@ fn independent_checks(
     let jet_power = 0.5 * rho * jet.flow * v * v;
     let carried = 0.5 * mass * state.v_out.dot(state.v_out);
     let loss = 0.5 * mass * (1.0 - vane.k * vane.k) * w1 * w1;
-    let lengthening = if mode == Mode::Single {
+    let lengthening = if mode == VaneKind::Single {
         0.5 * rho * a * u * v * v
     } else {
         0.0
@@ -238,7 +238,7 @@ fn velocity_table(state: &VaneState, system: UnitSystem) -> Table {
     }
 }
 
-fn energy_table(state: &VaneState, mode: Mode, jet: &Jet, rho: f64, system: UnitSystem) -> Table {
+fn energy_table(state: &VaneState, mode: VaneKind, jet: &Jet, rho: f64, system: UnitSystem) -> Table {
     let v = jet.velocity;
     let jet_power = 0.5 * rho * jet.flow * v * v;
     let unit = units::display_unit(jet_power.max(1e-12), Q::Power, system).id;
@@ -251,7 +251,7 @@ fn energy_table(state: &VaneState, mode: Mode, jet: &Jet, rho: f64, system: Unit
         vec!["kinetic energy carried off, ṁ·V₂²/2".to_string(), f(carried)],
         vec!["loss on the vane, ṁ·g·h_L".to_string(), f(loss)],
     ];
-    if mode == Mode::Single {
+    if mode == VaneKind::Single {
         // The jet between nozzle and vane grows by u every second: ρA·u of jet at V.
         let lengthening = 0.5 * rho * jet.area * state.u * v * v;
         rows.push(vec![
@@ -315,7 +315,7 @@ fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &V
 }
 
 fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
-    let (mode, jet, vane) = (inputs.mode, &inputs.jet, inputs.vane());
+    let (mode, jet, vane) = (inputs.kind, &inputs.jet, inputs.vane());
     let speed = report.fmt(jet.velocity, Q::Velocity);
     let cv = |cv: uom::si::f64::Ratio| units::format_significant(cv.value, 4);
     let how = match inputs.jet_given {
@@ -325,9 +325,9 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
         JetGiven::Velocity(_) => format!("given: {speed}"),
     };
     let frame = match mode {
-        Mode::Fixed => "fixed control volume around the vane; ṁ = ρAV",
-        Mode::Single => "control volume moving with the vane at u (relative velocities); ṁ = ρA(V − u)",
-        Mode::Wheel => {
+        VaneKind::Fixed => "fixed control volume around the vane; ṁ = ρAV",
+        VaneKind::Single => "control volume moving with the vane at u (relative velocities); ṁ = ρA(V − u)",
+        VaneKind::Wheel => {
             "fixed control volume around the wheel (absolute velocities from the exit triangle); ṁ = ρAV, the whole jet"
         }
     };
@@ -356,7 +356,7 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
 
 /// Power and efficiency against blade speed, from the balances of the solved curves.
 fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
-    let (fluid, jet, vane, mode, state) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.mode, &solved.state);
+    let (fluid, jet, vane, mode, state) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.kind, &solved.state);
     let v = jet.velocity;
     let c = 1.0 - vane.k * vane.theta.cos();
     let rav3 = fluid.density * jet.area * v * v * v;
@@ -396,7 +396,7 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
             label: "wheel optimum, u = V/2".to_string(),
         },
     ];
-    if mode != Mode::Fixed {
+    if mode != VaneKind::Fixed {
         power_markers.push(Marker {
             at: [sx(state.u), py(state.power)],
             label: "this case".to_string(),
