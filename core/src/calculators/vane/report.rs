@@ -91,7 +91,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("efficiency_best_wheel", best_wheel.efficiency);
     report.output("density", rho);
 
-    independent_checks(report, jet, &vane, mode, rho, state, best_single, best_wheel);
+    independent_checks(report, inputs, solved);
 
     common::forward_warnings(&state.balance, report);
     if mode == VaneKind::Wheel && v - u <= 1e-9 * v {
@@ -140,17 +140,9 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 ///   ṁ(1 − k²)W₁²/2, and for a single vane the lengthening jet, ρAu·V²/2;
 /// - the searched peak powers against (4/27)ρAV³(1 − k·cos θ) for a single vane and
 ///   ρAV³(1 − k·cos θ)/4 for a wheel.
-#[allow(clippy::too_many_arguments)]
-fn independent_checks(
-    report: &mut Report<'_>,
-    jet: &Jet,
-    vane: &Vane,
-    mode: VaneKind,
-    rho: f64,
-    state: &VaneState,
-    best_single: &VaneState,
-    best_wheel: &VaneState,
-) {
+fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
+    let (jet, vane, mode, rho) = (&inputs.jet, inputs.vane(), inputs.kind, inputs.fluid.density);
+    let (state, best_single, best_wheel) = (&solved.state, &solved.best_single, &solved.best_wheel);
     let (v, u, a) = (jet.velocity, state.u, jet.area);
     let w1 = v - u;
     let turning = 1.0 - vane.k * vane.theta.cos();
