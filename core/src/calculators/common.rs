@@ -634,8 +634,8 @@ pub struct Jet {
     pub flow: f64,
 }
 
-/// The jet fields: `d_jet`, `jet_basis` and one of `v_jet`, `q_jet`, `h_supply`,
-/// `p_supply` (the last two with the velocity coefficient `cv`). Demo values are
+/// The jet fields: `d_jet`, `flow_given` and one of `v`, `q`, `head`,
+/// `p` (the last two with the velocity coefficient `cv`). Demo values are
 /// given in the order diameter, basis, velocity, flow, head, pressure, Cv.
 pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
     let [d, basis, v, q, head, p, cv] = demo;
@@ -651,30 +651,30 @@ pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
             "Diameter of the round jet where it leaves the nozzle (the nozzle's outlet bore), 0.5 mm to 2 m.",
         ),
         choice(
-            "jet_basis",
+            "flow_given",
             "Jet given as",
             JET_BASIS_OPTIONS,
             basis,
             "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at the nozzle inlet through V = Cv·√(2gH).",
         ),
         FieldSpec {
-            visible_when: Some(("jet_basis", &["v"])),
-            ..quantity("v_jet", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED), "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.")
+            visible_when: Some(("flow_given", &["v"])),
+            ..quantity("v", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED), "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.")
         },
         FieldSpec {
-            visible_when: Some(("jet_basis", &["q"])),
-            ..quantity("q_jet", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::closed(1e-6, 100.0), "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet area.")
+            visible_when: Some(("flow_given", &["q"])),
+            ..quantity("q", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::closed(1e-6, 100.0), "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet area.")
         },
         FieldSpec {
-            visible_when: Some(("jet_basis", &["head"])),
-            ..quantity("h_supply", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::closed(1e-3, 10_000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
+            visible_when: Some(("flow_given", &["head"])),
+            ..quantity("head", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::closed(1e-3, 10_000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
         },
         FieldSpec {
-            visible_when: Some(("jet_basis", &["p"])),
-            ..quantity("p_supply", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::closed(10.0, MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
+            visible_when: Some(("flow_given", &["p"])),
+            ..quantity("p", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::closed(10.0, MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
         },
         FieldSpec {
-            visible_when: Some(("jet_basis", &["head", "p"])),
+            visible_when: Some(("flow_given", &["head", "p"])),
             optional: true,
             ..quantity("cv", "Velocity coefficient Cv", Q::Ratio, "-", "-", cv, Limits::closed(0.6, 1.0), "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common practice). Empty means 1 (ideal).")
         },
@@ -696,11 +696,11 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         }
     };
     let cv = values.quantity_or("cv", 1.0);
-    let velocity = match values.choice("jet_basis").map_err(|e| vec![e])? {
-        "q" => need("q_jet")? / area,
-        "head" => cv * (2.0 * crate::units::STANDARD_GRAVITY * need("h_supply")?).sqrt(),
-        "p" => cv * (2.0 * need("p_supply")? / density).sqrt(),
-        _ => need("v_jet")?,
+    let velocity = match values.choice("flow_given").map_err(|e| vec![e])? {
+        "q" => need("q")? / area,
+        "head" => cv * (2.0 * crate::units::STANDARD_GRAVITY * need("head")?).sqrt(),
+        "p" => cv * (2.0 * need("p")? / density).sqrt(),
+        _ => need("v")?,
     };
     if !(velocity.is_finite() && velocity > 0.0) {
         return Err(vec![FieldError::inconsistent(
@@ -709,11 +709,11 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         )]);
     }
     if !(MIN_JET_SPEED..=MAX_JET_SPEED).contains(&velocity) {
-        let field = match values.choice("jet_basis").unwrap_or("v") {
-            "q" => "q_jet",
-            "head" => "h_supply",
-            "p" => "p_supply",
-            _ => "v_jet",
+        let field = match values.choice("flow_given").unwrap_or("v") {
+            "q" => "q",
+            "head" => "head",
+            "p" => "p",
+            _ => "v",
         };
         return Err(vec![FieldError::inconsistent(
             field,
@@ -728,6 +728,30 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         area,
         velocity,
         flow: velocity * area,
+    })
+}
+
+/// How the speed of a jet was given, typed: what a report says about it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum JetGiven {
+    Velocity(uom::si::f64::Velocity),
+    Flow(uom::si::f64::VolumeRate),
+    /// Total head at the nozzle inlet, with the velocity coefficient.
+    Head(uom::si::f64::Length, uom::si::f64::Ratio),
+    /// Gauge pressure at the nozzle inlet, with the velocity coefficient.
+    Pressure(uom::si::f64::Pressure, uom::si::f64::Ratio),
+}
+
+/// Reads how the jet's speed is given (see [`jet_fields`]); `cv` is 1 when empty.
+pub fn jet_given(values: &Values) -> Result<JetGiven, crate::error::FieldErrors> {
+    let cv = values
+        .typed_opt("cv")
+        .unwrap_or(uom::si::f64::Ratio::new::<uom::si::ratio::ratio>(1.0));
+    Ok(match values.choice("flow_given")? {
+        "q" => JetGiven::Flow(values.typed("q")?),
+        "head" => JetGiven::Head(values.typed("head")?, cv),
+        "p" => JetGiven::Pressure(values.typed("p")?, cv),
+        _ => JetGiven::Velocity(values.typed("v")?),
     })
 }
 

@@ -129,4 +129,48 @@ pub(crate) mod testing {
     pub fn error_field(key: &str, pairs: &[(&str, &str)]) -> String {
         first_error(key, pairs).0
     }
+
+    /// Fails unless every field key of page `key` is a glossary term that is not a
+    /// retired key of the page, every choice offers only the term's options, and
+    /// every retired key of the page lands on one of its fields (its renamed values
+    /// on that field's options): old links then read as today's.
+    pub fn assert_glossary_keys(key: &str) {
+        use crate::catalog::FieldKind;
+        use crate::glossary::{term_of, KEY_ALIASES};
+        let spec = super::spec(key).unwrap_or_else(|| panic!("no calculator '{key}'"));
+        let options = |field: &str| match spec.field(field).map(|f| &f.kind) {
+            Some(FieldKind::Choice(options)) => options.iter().map(|o| o.key).collect(),
+            _ => Vec::new(),
+        };
+        for field in &spec.fields {
+            let term = term_of(field.key).unwrap_or_else(|| panic!("{key}: '{}' is not in the glossary", field.key));
+            let retired = KEY_ALIASES.iter().any(|a| a.page == key && a.old == field.key);
+            assert!(!retired, "{key}: '{}' is a retired key", field.key);
+            if !term.options.is_empty() {
+                for option in options(field.key) {
+                    assert!(
+                        term.options.contains(&option),
+                        "{key}: option {option} of '{}' is not in the glossary",
+                        field.key
+                    );
+                }
+            }
+        }
+        for alias in KEY_ALIASES.iter().filter(|a| a.page == key) {
+            assert!(
+                spec.field(alias.new).is_some(),
+                "{key}: old key {} lands on no field ({})",
+                alias.old,
+                alias.new
+            );
+            for (old, new) in alias.values {
+                assert!(
+                    options(alias.new).contains(new),
+                    "{key}: {}={old} lands on no option of '{}'",
+                    alias.old,
+                    alias.new
+                );
+            }
+        }
+    }
 }

@@ -525,7 +525,7 @@ const PLOT_EDITS: &[PlotEdit] = &[
     PlotEdit {
         page: "vane",
         start: &[],
-        field: "h_supply",
+        field: "head",
         text: "35 m",
     },
     // Torque and power against speed of an arm fed at a fixed supply pressure.

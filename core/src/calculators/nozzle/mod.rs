@@ -42,24 +42,34 @@
 //! fire-service hydraulics (NFPA, *Fire Protection Handbook*; IFSTA pump operator
 //! manuals).
 //!
+//! # Layout
+//! [`read`] turns the validated values into typed [`Inputs`] once; [`model::solve`]
+//! is the physics, a pure function of them; `report` writes outputs, checks,
+//! warnings, tables and the carry-over from the solved [`model::Nozzle`], and
+//! `diagram` draws it.
+//!
 //! # Assumptions
 //! Incompressible, steady flow; uniform pressure over the flange face; free jet to
 //! atmosphere; horizontal axis (the weight of the nozzle and its water is carried
 //! by the pipe supports and is not part of the end force along the axis).
 
-use crate::catalog::{
-    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
-};
-use crate::engine::{self, si, ControlVolume, Loss, Port, Stream};
-use crate::error::FieldError;
+use uom::si::f64::{Length, Ratio};
+
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::error::{FieldError, FieldErrors};
 use crate::units::QuantityKind as Q;
-use crate::vector::{Direction, Vec3};
 
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
 
+mod diagram;
+pub mod model;
+mod report;
+
+use model::{Given, Inputs};
+
 pub const KEY: &str = "nozzle";
 
-const GIVEN_OPTIONS: &[ChoiceOption] = &[
+pub(crate) const GIVEN_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "p",
         label: "Pressure at the flange (find the flow)",
@@ -73,7 +83,7 @@ const GIVEN_OPTIONS: &[ChoiceOption] = &[
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         quantity(
-            "d_pipe",
+            "d",
             "Pipe inside diameter at the flange",
             Q::Length,
             "mm",
@@ -93,14 +103,14 @@ pub fn spec() -> CalculatorSpec {
             "Diameter of the nozzle tip; not larger than the pipe.",
         ),
         choice(
-            "given",
+            "flow_given",
             "Given",
             GIVEN_OPTIONS,
             "p",
             "Give the pressure upstream of the nozzle to find the flow, or the flow to find the pressure.",
         ),
         FieldSpec {
-            visible_when: Some(("given", &["p"])),
+            visible_when: Some(("flow_given", &["p"])),
             ..quantity(
                 "p",
                 "Gauge pressure at the flange",
@@ -113,7 +123,7 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         FieldSpec {
-            visible_when: Some(("given", &["q"])),
+            visible_when: Some(("flow_given", &["q"])),
             ..quantity(
                 "q",
                 "Flow through the nozzle",
@@ -195,363 +205,64 @@ pub fn spec() -> CalculatorSpec {
     }
 }
 
-pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let d_pipe = values.quantity("d_pipe").map_err(|e| vec![e])?;
-    let d_nozzle = values.quantity("d_nozzle").map_err(|e| vec![e])?;
-    let given = values.choice("given").map_err(|e| vec![e])?;
-    let cd = values.quantity("cd").map_err(|e| vec![e])?;
-    let cc = values.quantity_or("cc", 1.0);
-    let d_gasket = if values.is_set("d_gasket") {
-        Some(values.quantity("d_gasket").map_err(|e| vec![e])?)
-    } else {
-        None
+/// Reads the page's validated values into typed inputs, refusing a nozzle larger
+/// than its pipe, a gasket inside the bore and C_d above C_c.
+///
+/// # Errors
+/// The first inconsistent field, named, with the valid range.
+pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
+    let d_pipe: Length = values.typed("d")?;
+    let d_nozzle: Length = values.typed("d_nozzle")?;
+    let given = match values.choice("flow_given")? {
+        "q" => Given::Flow(values.typed("q")?),
+        _ => Given::Pressure(values.typed("p")?),
     };
+    let cd: Ratio = values.typed("cd")?;
+    let cc: Ratio = values
+        .typed_opt("cc")
+        .unwrap_or(Ratio::new::<uom::si::ratio::ratio>(1.0));
+    let d_gasket: Option<Length> = values.typed_opt("d_gasket");
     let fluid = common::fluid_from(values)?;
-    if let Some(g) = d_gasket {
-        if g < d_pipe {
-            return Err(vec![FieldError::inconsistent(
-                "d_gasket",
-                "the gasket reaction diameter must not be smaller than the pipe bore",
-            )]);
-        }
+    if d_gasket.is_some_and(|g| g < d_pipe) {
+        return Err(FieldError::inconsistent(
+            "d_gasket",
+            "the gasket reaction diameter must not be smaller than the pipe bore",
+        )
+        .into());
     }
     if d_nozzle > d_pipe {
-        return Err(vec![FieldError::inconsistent(
+        return Err(FieldError::inconsistent(
             "d_nozzle",
             "the nozzle outlet must not be larger than the pipe it is bolted to",
-        )]);
+        )
+        .into());
     }
     if cd > cc {
-        return Err(vec![FieldError::inconsistent(
+        return Err(FieldError::inconsistent(
             "cd",
             format!(
                 "C_d must not exceed C_c ({}): a velocity coefficient C_d/C_c above 1 would create energy",
-                crate::units::format_significant(cc, 3)
+                crate::units::format_significant(cc.value, 3)
             ),
-        )]);
+        )
+        .into());
     }
-    let cv = cd / cc;
-    let k = 1.0 / (cv * cv) - 1.0;
-    let a_pipe = common::circle_area(d_pipe);
-    let a_nozzle = common::circle_area(d_nozzle);
-    let a_jet = cc * a_nozzle;
-    let rho = fluid.density;
-    let approach = (a_jet / a_pipe).powi(2);
-
-    let flow = match given {
-        "q" => {
-            let q = values.quantity("q").map_err(|e| vec![e])?;
-            // Energy balance solved for the pressure (closed form, see module doc).
-            let v_jet = q / a_jet;
-            let v_pipe = q / a_pipe;
-            let p_needed = 0.5 * rho * (v_jet * v_jet / (cv * cv) - v_pipe * v_pipe);
-            if p_needed > MAX_PRESSURE_PA {
-                return Err(vec![FieldError::inconsistent(
-                    "q",
-                    format!(
-                        "this flow needs {} at the flange, above the {} this page covers: check the flow and the nozzle diameter",
-                        report.fmt(p_needed, Q::Pressure),
-                        report.fmt(MAX_PRESSURE_PA, Q::Pressure)
-                    ),
-                )]);
-            }
-            q
-        }
-        _ => {
-            let p = values.quantity("p").map_err(|e| vec![e])?;
-            // Energy balance solved for the jet velocity (closed form, see module doc).
-            let denominator = 1.0 / (cv * cv) - approach;
-            if denominator <= 0.0 {
-                return Err(vec![FieldError::inconsistent(
-                    "cd",
-                    "with this jet area the pipe velocity would exceed what the pressure can drive: check C_d, C_c and the diameters",
-                )]);
-            }
-            let v_jet = (2.0 * p / rho / denominator).sqrt();
-            v_jet * a_jet
-        }
-    };
-
-    let d_jet = d_nozzle * cc.sqrt();
-    let length = 1.5 * d_pipe;
-    let vena = if cc < 1.0 { length + 0.5 * d_nozzle } else { length };
-    let mut cv_fluid = ControlVolume::new(fluid.clone());
-    let i = cv_fluid.port(
-        Port::inlet("flange face", si::area(a_pipe), Direction::X)
-            .volume_flow(si::volume_flow(flow))
-            .at(Vec3::ZERO),
-    );
-    let o = cv_fluid.port(
-        Port::outlet("jet", si::area(a_jet), Direction::X)
-            .pressure(si::pressure(0.0))
-            .at(Vec3::new(vena, 0.0, 0.0)),
-    );
-    cv_fluid.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port: o }));
-    let balance = engine::balance(&cv_fluid).map_err(|e| common::engine_error(e, "d_nozzle"))?;
-    let (inlet, jet) = (&balance.ports[i], &balance.ports[o]);
-    let end_force = balance.thrust().x;
-    let jet_reaction = jet.mass_flow * jet.speed;
-
-    report.output("end_force_bore", end_force);
-    if let Some(g) = d_gasket {
-        report.output("end_force_gasket", inlet.pressure * common::circle_area(g));
-    }
-    report.output("jet_reaction", jet_reaction);
-    report.output("flow", jet.volume_flow);
-    report.output("p_in", inlet.pressure);
-    report.output("v_jet", jet.speed);
-    report.output("v_pipe", inlet.speed);
-    report.output("mass_flow", jet.mass_flow);
-    report.output("cv", cv);
-    report.output("k_nozzle", k);
-    if let Some(s) = balance.streams.first() {
-        report.output("head_loss", s.head_loss);
-    }
-    report.output("jet_diameter", d_jet);
-    report.output("jet_power", 0.5 * jet.mass_flow * jet.speed * jet.speed);
-    report.output("pressure_force", inlet.pressure * a_pipe);
-    report.output("density", rho);
-
-    // Checks by independent paths (see the module doc).
-    let (v_jet_closed, v_pipe_closed) = (flow / a_jet, flow / a_pipe);
-    let p_closed = 0.5 * rho * (v_jet_closed * v_jet_closed / (cv * cv) - v_pipe_closed * v_pipe_closed);
-    report.check(
-        "End force on the bore",
-        "the closed form p₁A₁ − ρQ(V_j − V₁) with p₁ = ρ(V_j²/C_v² − V₁²)/2, in plain arithmetic",
-        Q::Force,
-        end_force,
-        p_closed * a_pipe - rho * flow * (v_jet_closed - v_pipe_closed),
-        1e-9,
-        p_closed * a_pipe,
-    );
-    report.check(
-        "Jet reaction ṁV_j",
-        "the energy form 2·C_v²·A_j·(p₁ + ρV₁²/2) with the balance's p₁",
-        Q::Force,
-        jet_reaction,
-        2.0 * cv * cv * a_jet * (inlet.pressure + 0.5 * rho * inlet.speed * inlet.speed),
-        1e-9,
-        0.0,
-    );
-    if given == "p" {
-        if let Ok(p) = values.quantity("p") {
-            report.check(
-                "Gauge pressure at the flange",
-                "the pressure given (the flow was found from it in closed form; the balance recomputes the pressure from that flow)",
-                Q::Pressure,
-                inlet.pressure,
-                p,
-                1e-9,
-                0.0,
-            );
-        }
-    }
-    common::forward_warnings(&balance, report);
-    common::pipe_velocity_warning(report, "d_pipe", "flange", inlet.speed);
-    if end_force < 0.0 {
-        report.warn(
-            Some("d_nozzle"),
-            "the momentum of the jet exceeds the pressure force on the bore: the nozzle is pushed onto the pipe while it flows; shut or blocked, the pressure alone pulls it off",
-        );
-    }
-    if flow == 0.0 {
-        report.warn(
-            None,
-            "no flow: there is no jet, and with the nozzle open to the air no pressure acts on it",
-        );
-    }
-
-    let system = report.system();
-    report.solution.tables.push(common::basis_table(vec![
-        (
-            "Given",
-            GIVEN_OPTIONS
-                .iter()
-                .find(|o| o.key == given)
-                .map(|o| o.label)
-                .unwrap_or(given)
-                .to_string(),
-        ),
-        (
-            "Nozzle coefficients",
-            format!(
-                "C_d = {}, C_c = {}, C_v = {}",
-                crate::units::format_significant(cd, 4),
-                crate::units::format_significant(cc, 4),
-                crate::units::format_significant(cv, 4)
-            ),
-        ),
-        (
-            "End force on the bore",
-            "T = p₁A₁ − ṁ(V_j − V₁), + when the nozzle pulls off; not the bolt load".to_string(),
-        ),
-        (
-            "End force at the gasket",
-            match d_gasket {
-                Some(g) => format!(
-                    "H = (π/4)·G²·p₁ with G = {}, no credit for the flow; the bolts carry H plus the gasket load (ASME BPVC VIII-1 Appendix 2)",
-                    report.fmt(g, Q::Length)
-                ),
-                None => "not shown: give the gasket reaction diameter G".to_string(),
-            },
-        ),
-        (
-            "Jet reaction",
-            "ṁ·V_j on the line as a whole, pointing upstream".to_string(),
-        ),
-        ("Pressure area", "pipe bore at the flange (inside diameter)".to_string()),
-    ]));
-    report.solution.tables.push(common::ledger_table(&balance, system));
-    report.solution.tables.push(common::ports_table(&balance, system));
-    let diagram = diagram(d_pipe, d_nozzle, d_jet, length, vena, &balance, report);
-    report.solution.diagrams.push(diagram);
-    let carry = common::thrust_carry_over(
-        report,
-        "Size a thrust block for the jet reaction on the line",
-        jet_reaction,
-        0.0,
-    );
-    report.solution.carry_over.push(carry);
-    Ok(())
+    Ok(Inputs {
+        d_pipe,
+        d_nozzle,
+        given,
+        cd,
+        cc,
+        d_gasket,
+        fluid,
+    })
 }
 
-fn diagram(
-    d_pipe: f64,
-    d_nozzle: f64,
-    d_jet: f64,
-    length: f64,
-    vena: f64,
-    balance: &engine::Balance,
-    report: &Report<'_>,
-) -> Diagram {
-    let lead = 2.0 * d_pipe;
-    let wall = 0.08 * d_pipe;
-    let flange = 1.7 * d_pipe;
-    let t = 0.15 * d_pipe;
-    let r1 = d_pipe / 2.0;
-    let rn = d_nozzle / 2.0;
-    let cone = |grow: f64| {
-        vec![
-            [-lead, r1 + grow],
-            [0.0, r1 + grow],
-            [length, rn + grow],
-            [length, -rn - grow],
-            [0.0, -r1 - grow],
-            [-lead, -r1 - grow],
-        ]
-    };
-    let mut shapes = vec![
-        Shape::Polygon {
-            points: cone(wall),
-            style: ShapeStyle::Wall,
-        },
-        Shape::Polygon {
-            points: cone(0.0),
-            style: ShapeStyle::Fluid,
-        },
-        // Pipe flange and nozzle flange, bolted together at x = 0.
-        Shape::Polygon {
-            points: common::straight_band([-t, 0.0], [0.0, 0.0], flange),
-            style: ShapeStyle::Wall,
-        },
-        Shape::Polygon {
-            points: common::straight_band([0.0, 0.0], [t, 0.0], flange),
-            style: ShapeStyle::Wall,
-        },
-        // The free jet, narrowing to the vena contracta.
-        Shape::Polygon {
-            points: vec![
-                [length, rn],
-                [vena, d_jet / 2.0],
-                [vena + 2.0 * d_pipe, d_jet / 2.0],
-                [vena + 2.0 * d_pipe, -d_jet / 2.0],
-                [vena, -d_jet / 2.0],
-                [length, -rn],
-            ],
-            style: ShapeStyle::Flow,
-        },
-        // Control volume: the nozzle's fluid from the flange face to the vena contracta.
-        Shape::Polygon {
-            points: vec![
-                [0.0, 1.15 * r1],
-                [length, 1.3 * rn],
-                [vena, 1.3 * d_jet / 2.0],
-                [vena, -1.3 * d_jet / 2.0],
-                [length, -1.3 * rn],
-                [0.0, -1.15 * r1],
-            ],
-            style: ShapeStyle::ControlVolume,
-        },
-        Shape::Polyline {
-            points: vec![[-lead, 0.0], [vena + 2.0 * d_pipe, 0.0]],
-            style: ShapeStyle::Guide,
-        },
-    ];
-    let thrust = balance.thrust();
-    let flux = balance.ports.get(1).map(|p| p.momentum_outflow).unwrap_or(Vec3::ZERO);
-    let max_force = balance
-        .ports
-        .iter()
-        .map(|p| p.pressure_force.norm())
-        .chain([thrust.norm(), flux.norm()])
-        .fold(0.0, f64::max);
-    let scale = if max_force > 0.0 { 1.2 * lead / max_force } else { 0.0 };
-    let fmt = |f: Vec3| report.fmt(f.norm(), Q::Force);
-    if let Some(face) = balance.ports.first() {
-        if let Some(a) = common::force_arrow(
-            [0.0, 0.0],
-            face.pressure_force,
-            scale,
-            format!("p₁A₁ {}", fmt(face.pressure_force)),
-            ShapeStyle::Pressure,
-            false,
-        ) {
-            shapes.push(a);
-        }
-    }
-    if let Some(a) = common::force_arrow(
-        [vena, 0.0],
-        flux,
-        scale,
-        format!("ṁV_j {}", fmt(flux)),
-        ShapeStyle::Momentum,
-        true,
-    ) {
-        shapes.push(a);
-    }
-    let above = 0.5 * flange + 0.3 * d_pipe;
-    if let Some(a) = common::force_arrow(
-        [t, above],
-        thrust,
-        scale,
-        format!("end force T {}", fmt(thrust)),
-        ShapeStyle::Thrust,
-        true,
-    ) {
-        shapes.push(a);
-    }
-    if let Some(a) = common::force_arrow(
-        [-t, -above],
-        balance.support_force,
-        scale,
-        format!("joint on nozzle R {}", fmt(balance.support_force)),
-        ShapeStyle::Restraint,
-        true,
-    ) {
-        shapes.push(a);
-    }
-    shapes.push(Shape::Text {
-        at: [-lead, -flange / 2.0 - 0.2 * d_pipe],
-        text: "pipe".to_string(),
-        style: ShapeStyle::Label,
-    });
-    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * d_pipe);
-    Diagram {
-        title: "Nozzle on a flange: control volume and forces".to_string(),
-        bounds,
-        shapes,
-        caption: "Pipe, flanges, nozzle and jet to scale (nozzle length drawn as 1.5 pipe diameters); force arrows share one scale. T is the nozzle's pull on the joint over the bore; R = −T is what the joint supplies.".to_string(),
-    }
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let inputs = read(values)?;
+    let nozzle = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
+    report::write(&inputs, &nozzle, report);
+    Ok(())
 }
 
 #[cfg(test)]
@@ -563,10 +274,15 @@ mod tests {
     }
 
     #[test]
+    fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
+        crate::calculators::testing::assert_glossary_keys(super::KEY);
+    }
+
+    #[test]
     fn pressure_and_flow_modes_agree() {
-        let by_p = outcome(&[("given", "p"), ("p", "6 bar")]).result.expect("solves");
+        let by_p = outcome(&[("flow_given", "p"), ("p", "6 bar")]).result.expect("solves");
         let q = by_p.output("flow").unwrap().si;
-        let by_q = outcome(&[("given", "q"), ("q", &format!("{q} m3/s"))])
+        let by_q = outcome(&[("flow_given", "q"), ("q", &format!("{q} m3/s"))])
             .result
             .expect("solves");
         assert_relative_eq!(by_q.output("p_in").unwrap().si, 6e5, max_relative = 1e-9);
@@ -582,9 +298,9 @@ mod tests {
         // Derived from the definition: C = 1, T = p1·A1 − ρQ(Vj − V1) with
         // p1 = ρ(Vj² − V1²)/2.
         let s = outcome(&[
-            ("given", "q"),
+            ("flow_given", "q"),
             ("q", "0.02 m3/s"),
-            ("d_pipe", "100 mm"),
+            ("d", "100 mm"),
             ("d_nozzle", "50 mm"),
             ("cd", "1"),
             ("fluid", "custom"),
@@ -645,11 +361,11 @@ mod tests {
                 ] {
                     let key = if given == "p" { "p" } else { "q" };
                     let pairs = [
-                        ("d_pipe", d_pipe),
+                        ("d", d_pipe),
                         ("d_nozzle", d_nozzle),
                         ("cd", cd),
                         ("cc", cc),
-                        ("given", given),
+                        ("flow_given", given),
                         (key, value),
                         ("d_gasket", "10 m"),
                     ];

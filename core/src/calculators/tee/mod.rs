@@ -41,9 +41,16 @@
 //! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
 //! square branch's pressure force) is rounding residue and shown as 0.
 //!
-//! On the outside-diameter basis (push-on and mechanical joints) each face's pressure
-//! also acts on the wall annulus out to the outside diameter, −p·(A_OD − A)·n, added
-//! to the engine as a named force per face.
+//! On the outside-diameter basis (`joint` = push-on, mechanical or restrained: joints
+//! that seal on the spigot's outside) each face's pressure also acts on the wall
+//! annulus out to the outside diameter, −p·(A_OD − A)·n, added to the engine as a
+//! named force per face. Flanged, welded and fused joints seal on the bore.
+//!
+//! # Layout
+//! [`read`] turns the validated values into typed [`Inputs`] once (and refuses
+//! shares and loss coefficients that cannot hold); [`model::solve`] is the physics,
+//! a pure function of them; `report` writes outputs, checks, warnings, tables and
+//! the carry-over from the solved [`model::Solved`], and `diagram` draws it.
 //!
 //! # Assumptions
 //! Incompressible, steady flow; uniform pressure over each face; momentum on the
@@ -52,15 +59,20 @@
 
 use std::f64::consts::PI;
 
-use crate::catalog::{
-    CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Table, Values,
-};
-use crate::engine::{self, si, ControlVolume, FlowSpec, Loss, Port, Stream};
-use crate::error::FieldError;
+use uom::si::f64::{Length, Ratio};
+
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::error::{FieldError, FieldErrors};
 use crate::units::{self, QuantityKind as Q};
-use crate::vector::{Direction, Vec3};
+use crate::vector::Vec3;
 
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
+
+mod diagram;
+pub mod model;
+mod report;
+
+use model::{Branch, CommonFlow, Inputs, Junction, LossReference};
 
 pub const KEY: &str = "tee";
 
@@ -79,7 +91,7 @@ pub const MAX_LOSS_COEFFICIENT: f64 = 50.0;
 /// The smallest bore accepted for the common pipe and the branches.
 const MIN_BORE_M: f64 = 1e-3;
 
-const MODE_OPTIONS: &[ChoiceOption] = &[
+pub(crate) const JUNCTION_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "dividing",
         label: "Dividing: the common pipe feeds the branches",
@@ -89,6 +101,38 @@ const MODE_OPTIONS: &[ChoiceOption] = &[
         label: "Combining: the branches feed the common pipe",
     },
 ];
+
+/// The joints at a junction: the first three seal on the outside diameter, the
+/// rest on the bore (the glossary's `joint` options).
+const JOINT_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "push_on",
+        label: "Push-on joints (area on the OD)",
+    },
+    ChoiceOption {
+        key: "mechanical",
+        label: "Mechanical joints (area on the OD)",
+    },
+    ChoiceOption {
+        key: "restrained",
+        label: "Restrained push-on or mechanical joints (area on the OD of the sealing joint)",
+    },
+    ChoiceOption {
+        key: "flanged",
+        label: "Flanged (area on the bore)",
+    },
+    ChoiceOption {
+        key: "welded",
+        label: "Welded (area on the bore)",
+    },
+    ChoiceOption {
+        key: "fused",
+        label: "Fused (area on the bore)",
+    },
+];
+
+/// The joints whose thrust area is the outside diameter.
+const OUTSIDE_DIAMETER_JOINTS: &[&str] = &["push_on", "mechanical", "restrained"];
 
 const COUNT_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption { key: "1", label: "1" },
@@ -124,51 +168,51 @@ const N_AT_LEAST: [&[&str]; MAX_BRANCHES] = [
 ];
 
 /// Field and output keys of one branch.
-struct BranchKeys {
-    visible: &'static [&'static str],
-    d: &'static str,
-    d_label: &'static str,
-    d_demo: &'static str,
-    angle: &'static str,
-    angle_label: &'static str,
-    angle_demo: &'static str,
-    elev: &'static str,
-    elev_label: &'static str,
-    od: &'static str,
-    od_label: &'static str,
-    od_demo: &'static str,
-    share: &'static str,
-    share_label: &'static str,
-    share_demo: &'static str,
-    k: &'static str,
-    k_label: &'static str,
-    k_demo: &'static str,
-    p_out: &'static str,
-    p_label: &'static str,
-    q_out: &'static str,
-    q_label: &'static str,
-    v_out: &'static str,
-    v_label: &'static str,
+pub(crate) struct BranchKeys {
+    pub(crate) visible: &'static [&'static str],
+    pub(crate) d: &'static str,
+    pub(crate) d_label: &'static str,
+    pub(crate) d_demo: &'static str,
+    pub(crate) angle: &'static str,
+    pub(crate) angle_label: &'static str,
+    pub(crate) angle_demo: &'static str,
+    pub(crate) elev: &'static str,
+    pub(crate) elev_label: &'static str,
+    pub(crate) od: &'static str,
+    pub(crate) od_label: &'static str,
+    pub(crate) od_demo: &'static str,
+    pub(crate) share: &'static str,
+    pub(crate) share_label: &'static str,
+    pub(crate) share_demo: &'static str,
+    pub(crate) k: &'static str,
+    pub(crate) k_label: &'static str,
+    pub(crate) k_demo: &'static str,
+    pub(crate) p_out: &'static str,
+    pub(crate) p_label: &'static str,
+    pub(crate) q_out: &'static str,
+    pub(crate) q_label: &'static str,
+    pub(crate) v_out: &'static str,
+    pub(crate) v_label: &'static str,
 }
 
-const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
+pub(crate) const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     BranchKeys {
         visible: N_AT_LEAST[0],
-        d: "d1",
+        d: "b1_d",
         d_label: "Branch 1 inside diameter",
         d_demo: "310 mm",
-        angle: "angle1",
+        angle: "b1_angle",
         angle_label: "Branch 1 direction",
         angle_demo: "0 deg",
-        elev: "elev1",
+        elev: "b1_elev",
         elev_label: "Branch 1 elevation angle",
-        od: "od1",
+        od: "b1_od",
         od_label: "Branch 1 outside diameter",
         od_demo: "326 mm",
-        share: "share1",
+        share: "b1_share",
         share_label: "Branch 1 flow share",
         share_demo: "70 %",
-        k: "k1",
+        k: "b1_k",
         k_label: "Branch 1 loss coefficient K",
         k_demo: "0.3",
         p_out: "p_b1",
@@ -180,21 +224,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[1],
-        d: "d2",
+        d: "b2_d",
         d_label: "Branch 2 inside diameter",
         d_demo: "154 mm",
-        angle: "angle2",
+        angle: "b2_angle",
         angle_label: "Branch 2 direction",
         angle_demo: "90 deg",
-        elev: "elev2",
+        elev: "b2_elev",
         elev_label: "Branch 2 elevation angle",
-        od: "od2",
+        od: "b2_od",
         od_label: "Branch 2 outside diameter",
         od_demo: "170 mm",
-        share: "share2",
+        share: "b2_share",
         share_label: "Branch 2 flow share",
         share_demo: "",
-        k: "k2",
+        k: "b2_k",
         k_label: "Branch 2 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b2",
@@ -206,21 +250,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[2],
-        d: "d3",
+        d: "b3_d",
         d_label: "Branch 3 inside diameter",
         d_demo: "100 mm",
-        angle: "angle3",
+        angle: "b3_angle",
         angle_label: "Branch 3 direction",
         angle_demo: "-90 deg",
-        elev: "elev3",
+        elev: "b3_elev",
         elev_label: "Branch 3 elevation angle",
-        od: "od3",
+        od: "b3_od",
         od_label: "Branch 3 outside diameter",
         od_demo: "118 mm",
-        share: "share3",
+        share: "b3_share",
         share_label: "Branch 3 flow share",
         share_demo: "5 %",
-        k: "k3",
+        k: "b3_k",
         k_label: "Branch 3 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b3",
@@ -232,21 +276,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[3],
-        d: "d4",
+        d: "b4_d",
         d_label: "Branch 4 inside diameter",
         d_demo: "100 mm",
-        angle: "angle4",
+        angle: "b4_angle",
         angle_label: "Branch 4 direction",
         angle_demo: "45 deg",
-        elev: "elev4",
+        elev: "b4_elev",
         elev_label: "Branch 4 elevation angle",
-        od: "od4",
+        od: "b4_od",
         od_label: "Branch 4 outside diameter",
         od_demo: "118 mm",
-        share: "share4",
+        share: "b4_share",
         share_label: "Branch 4 flow share",
         share_demo: "5 %",
-        k: "k4",
+        k: "b4_k",
         k_label: "Branch 4 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b4",
@@ -258,21 +302,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[4],
-        d: "d5",
+        d: "b5_d",
         d_label: "Branch 5 inside diameter",
         d_demo: "100 mm",
-        angle: "angle5",
+        angle: "b5_angle",
         angle_label: "Branch 5 direction",
         angle_demo: "-45 deg",
-        elev: "elev5",
+        elev: "b5_elev",
         elev_label: "Branch 5 elevation angle",
-        od: "od5",
+        od: "b5_od",
         od_label: "Branch 5 outside diameter",
         od_demo: "118 mm",
-        share: "share5",
+        share: "b5_share",
         share_label: "Branch 5 flow share",
         share_demo: "5 %",
-        k: "k5",
+        k: "b5_k",
         k_label: "Branch 5 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b5",
@@ -284,21 +328,21 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
     },
     BranchKeys {
         visible: N_AT_LEAST[5],
-        d: "d6",
+        d: "b6_d",
         d_label: "Branch 6 inside diameter",
         d_demo: "100 mm",
-        angle: "angle6",
+        angle: "b6_angle",
         angle_label: "Branch 6 direction",
         angle_demo: "135 deg",
-        elev: "elev6",
+        elev: "b6_elev",
         elev_label: "Branch 6 elevation angle",
-        od: "od6",
+        od: "b6_od",
         od_label: "Branch 6 outside diameter",
         od_demo: "118 mm",
-        share: "share6",
+        share: "b6_share",
         share_label: "Branch 6 flow share",
         share_demo: "5 %",
-        k: "k6",
+        k: "b6_k",
         k_label: "Branch 6 loss coefficient K",
         k_demo: "1.0",
         p_out: "p_b6",
@@ -313,9 +357,9 @@ const BRANCHES: [BranchKeys; MAX_BRANCHES] = [
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         choice(
-            "mode",
+            "junction",
             "Flow",
-            MODE_OPTIONS,
+            JUNCTION_OPTIONS,
             "dividing",
             "Dividing: a tee or manifold taking flow off a main. Combining: branches joining into one pipe.",
         ),
@@ -341,6 +385,14 @@ pub fn spec() -> CalculatorSpec {
         ),
     ];
     for mut field in common::flow_fields("850 m3/h") {
+        // The glossary's key for how the flow is given (a no-op once the shared flow
+        // fields use it).
+        if field.key == "flow_basis" {
+            field.key = "flow_given";
+        }
+        if let Some(("flow_basis", shown)) = field.visible_when {
+            field.visible_when = Some(("flow_given", shown));
+        }
         match field.key {
             "q" => {
                 field.label = "Flow in the common pipe";
@@ -359,7 +411,7 @@ pub fn spec() -> CalculatorSpec {
         fields.push(field);
     }
     fields.push(choice(
-        "n",
+        "branches",
         "Number of branches",
         COUNT_OPTIONS,
         "2",
@@ -375,17 +427,17 @@ pub fn spec() -> CalculatorSpec {
     fields.push(FieldSpec {
         optional: true,
         ..choice(
-            "basis",
-            "Thrust area basis",
-            common::AREA_BASIS_OPTIONS,
-            "id",
-            "Push-on and mechanical joints can slide like a piston: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Empty means the inside diameter.",
+            "joint",
+            "Joints at the junction",
+            JOINT_OPTIONS,
+            "flanged",
+            "Push-on and mechanical joints, restrained or not, seal on the spigot's outside: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Flanged, welded and fused joints seal on the bore. Empty means a joint that seals on the bore.",
         )
     });
     fields.push(FieldSpec {
-        visible_when: Some(("basis", &["od"])),
+        visible_when: Some(("joint", OUTSIDE_DIAMETER_JOINTS)),
         ..quantity(
-            "d_od",
+            "od",
             "Common pipe outside diameter",
             Q::Length,
             "mm",
@@ -396,7 +448,7 @@ pub fn spec() -> CalculatorSpec {
         )
     });
     for b in &BRANCHES {
-        let shown = Some(("n", b.visible));
+        let shown = Some(("branches", b.visible));
         fields.push(FieldSpec {
             visible_when: shown,
             ..quantity(
@@ -476,7 +528,7 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 b.od_demo,
                 Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-                "Needed only on the outside-diameter basis, and then required for every branch in use: the branch pipe's outside diameter at its joint. Left empty on the inside-diameter basis.",
+                "Needed only for push-on, mechanical or restrained joints (the thrust acts on the outside diameter), and then for every branch in use: the branch pipe's outside diameter at its joint. Left empty for flanged, welded or fused joints.",
             )
         });
     }
@@ -598,7 +650,7 @@ pub fn spec() -> CalculatorSpec {
         fields,
         outputs,
         cautions: vec![
-            "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
+            "For push-on and mechanical joints, restrained or not, choose them under joints (the outside-diameter basis): using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
             "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
             "A negative loss coefficient (the stream gains energy from the others) holds only for the flow split and area ratio it was published for: recheck it whenever the split changes.",
@@ -606,22 +658,80 @@ pub fn spec() -> CalculatorSpec {
     }
 }
 
-/// One branch as read from the fields.
-struct Branch {
-    index: usize,
-    diameter: f64,
-    /// Outside diameter, on the outside-diameter basis.
-    outside: Option<f64>,
-    direction: Vec3,
-    share: Option<f64>,
-    k: f64,
+/// Reads the page's validated values into typed inputs.
+///
+/// # Errors
+/// Each inconsistent field, named with what is allowed: an outside diameter not
+/// above its bore, a branch along the common pipe, shares that cannot add up to
+/// 100 %, loss coefficients that would create energy.
+pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
+    let junction = match values.choice("junction")? {
+        "combining" => Junction::Combining,
+        _ => Junction::Dividing,
+    };
+    let d_common: Length = values.typed("d")?;
+    let p = values.typed("p")?;
+    let count: usize = values
+        .choice("branches")?
+        .parse()
+        .map_err(|_| FieldError::inconsistent("branches", "choose 1 to 6 branches"))?;
+    let count = count.clamp(1, MAX_BRANCHES);
+    let loss_reference = match values.choice("k_ref")? {
+        "branch" => LossReference::OwnBranch,
+        _ => LossReference::CommonPipe,
+    };
+    let fluid = common::fluid_from(values)?;
+    let flow = read_flow(values)?;
+    let on_outside = OUTSIDE_DIAMETER_JOINTS.contains(&values.choice("joint").unwrap_or("flanged"));
+    let common_outside = if on_outside {
+        let od: Length = values.typed("od")?;
+        if od <= d_common {
+            return Err(
+                FieldError::inconsistent("od", "the outside diameter must be larger than the inside diameter").into(),
+            );
+        }
+        Some(od)
+    } else {
+        None
+    };
+    let branches = read_branches(values, count, on_outside)?;
+    let inputs = Inputs {
+        junction,
+        d_common,
+        common_outside,
+        p,
+        flow,
+        loss_reference,
+        branches,
+        fluid,
+    };
+    check_loss_coefficients(&inputs)?;
+    Ok(inputs)
 }
 
-fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<Branch>, Vec<FieldError>> {
+/// Reads the common pipe's flow in the way it is given.
+fn read_flow(values: &Values) -> Result<CommonFlow, FieldErrors> {
+    let key = match values.choice("flow_given")? {
+        "v" => "v",
+        "mdot" => "mdot",
+        _ => "q",
+    };
+    if !values.is_set(key) {
+        return Err(FieldError::inconsistent(key, "a value is required for the chosen flow basis").into());
+    }
+    Ok(match key {
+        "v" => CommonFlow::Velocity(values.typed("v")?),
+        "mdot" => CommonFlow::Mass(values.typed("mdot")?),
+        _ => CommonFlow::Volume(values.typed("q")?),
+    })
+}
+
+/// Reads the first `count` branches and refuses shares that cannot add up.
+fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<Branch>, FieldErrors> {
     let mut branches = Vec::with_capacity(count);
     let mut errors = Vec::new();
     for (index, b) in BRANCHES.iter().enumerate().take(count) {
-        let diameter = match values.quantity(b.d) {
+        let diameter: Length = match values.typed(b.d) {
             Ok(d) => d,
             Err(e) => {
                 errors.push(e);
@@ -645,16 +755,16 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             ));
             continue;
         }
-        let share = values.is_set(b.share).then(|| values.quantity_or(b.share, 0.0));
+        let share: Option<Ratio> = values.typed_opt(b.share);
         let outside = if on_outside {
             if !values.is_set(b.od) {
                 errors.push(FieldError::inconsistent(
                     b.od,
-                    "an outside diameter is required for the outside-diameter basis",
+                    "an outside diameter is required for push-on, mechanical or restrained joints: the thrust acts on it",
                 ));
                 continue;
             }
-            let od = values.quantity_or(b.od, diameter);
+            let od: Length = values.typed_opt(b.od).unwrap_or(diameter);
             if od <= diameter {
                 errors.push(FieldError::inconsistent(
                     b.od,
@@ -672,16 +782,18 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             outside,
             direction,
             share,
-            k: values.quantity_or(b.k, 0.0),
+            k: values
+                .typed_opt(b.k)
+                .unwrap_or(Ratio::new::<uom::si::ratio::ratio>(0.0)),
         });
     }
     if !errors.is_empty() {
-        return Err(errors);
+        return Err(errors.into());
     }
     // Shares: at most one empty; the given ones add up to 100 %, or to at most 100 %
     // when one is left to be solved.
     let empty: Vec<usize> = branches.iter().filter(|b| b.share.is_none()).map(|b| b.index).collect();
-    let given_sum: f64 = branches.iter().filter_map(|b| b.share).sum();
+    let given_sum: f64 = branches.iter().filter_map(|b| b.share.map(|s| s.value)).sum();
     let last_given = branches
         .iter()
         .rev()
@@ -689,59 +801,36 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
         .map(|b| BRANCHES[b.index].share);
     let percent = |x: f64| format!("{} %", units::format_significant(100.0 * x, 4));
     if empty.len() > 1 {
-        return Err(vec![FieldError::inconsistent(
+        return Err(FieldError::inconsistent(
             BRANCHES[empty[1]].share,
             "only one branch's flow share can be left empty (it is solved from the mass balance): give this one",
-        )]);
+        )
+        .into());
     }
     let tolerance = 1e-9;
     match (empty.first(), last_given) {
         (None, Some(field)) if (given_sum - 1.0).abs() > 1e-6 => {
-            return Err(vec![FieldError::inconsistent(
+            return Err(FieldError::inconsistent(
                 field,
                 format!(
                     "the branch flow shares add up to {}; they must add up to 100 % (or leave one empty to be solved)",
                     percent(given_sum)
                 ),
-            )]);
+            )
+            .into());
         }
         (Some(_), Some(field)) if given_sum > 1.0 + tolerance => {
-            return Err(vec![FieldError::inconsistent(
+            return Err(FieldError::inconsistent(
                 field,
                 format!(
                     "the given branch flow shares add up to {}, over 100 %: the remaining branch would have to flow backwards",
                     percent(given_sum)
                 ),
-            )]);
+            ).into());
         }
         _ => {}
     }
     Ok(branches)
-}
-
-/// The flow given to each branch (`None` for the one solved by mass). When every
-/// share is given, they add up to 100 % only within 1e-6: the branch with the largest
-/// share takes the common flow less the others, so that mass closes exactly rather
-/// than to the rounding of the typed shares.
-fn branch_flows(branches: &[Branch], total_flow: f64) -> Vec<Option<f64>> {
-    let mut flows: Vec<Option<f64>> = branches.iter().map(|b| b.share.map(|s| s * total_flow)).collect();
-    if flows.iter().all(Option::is_some) {
-        let largest = branches
-            .iter()
-            .enumerate()
-            .max_by(|a, b| a.1.share.unwrap_or(0.0).total_cmp(&b.1.share.unwrap_or(0.0)))
-            .map(|(n, _)| n);
-        if let Some(n) = largest {
-            let others: f64 = flows
-                .iter()
-                .enumerate()
-                .filter(|(m, _)| *m != n)
-                .filter_map(|(_, q)| *q)
-                .sum();
-            flows[n] = Some((total_flow - others).max(0.0));
-        }
-    }
-    flows
 }
 
 /// Negative loss coefficients are physical (a stream drawn along by another gains
@@ -750,13 +839,11 @@ fn branch_flows(branches: &[Branch], total_flow: f64) -> Vec<Option<f64>> {
 /// the dissipation Σ ṁ_i·K_i·V_ref,i²/2 over the branches is not negative. (The
 /// mechanical energy the streams carry in less what they carry out is that sum, for
 /// dividing and combining flow alike.)
-fn check_loss_coefficients(
-    branches: &[Branch],
-    flows: &[Option<f64>],
-    a_common: f64,
-    total_flow: f64,
-    k_on_common: bool,
-) -> Result<(), Vec<FieldError>> {
+fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
+    let (branches, k_on_common) = (&inputs.branches, inputs.k_on_common());
+    let a_common = common::circle_area(inputs.d_common.value);
+    let total_flow = inputs.total_flow();
+    let flows = model::branch_flows(branches, total_flow);
     let v_common = total_flow / a_common;
     if v_common <= 0.0 {
         // No flow, no loss: the coefficients do not enter.
@@ -766,17 +853,18 @@ fn check_loss_coefficients(
     let mut dissipation = 0.0;
     let mut magnitude = 0.0;
     let mut most_negative: Option<(f64, &'static str)> = None;
-    for (b, q) in branches.iter().zip(flows) {
+    for (b, q) in branches.iter().zip(&flows) {
         let q = q.unwrap_or((total_flow - given).max(0.0));
         let v_ref = if k_on_common {
             v_common
         } else {
-            q / common::circle_area(b.diameter)
+            q / common::circle_area(b.diameter.value)
         };
         let key = BRANCHES[b.index].k;
-        let on_common = b.k * (v_ref / v_common).powi(2);
+        let k = b.k.value;
+        let on_common = k * (v_ref / v_common).powi(2);
         if on_common < MIN_LOSS_COEFFICIENT - 1e-12 {
-            return Err(vec![FieldError::inconsistent(
+            return Err(FieldError::inconsistent(
                 key,
                 format!(
                     "on the common pipe's velocity this loss coefficient is {}, below the lowest published junction value of {} (Crane TP-410, converging tee): allowed is {} to {} on the common velocity",
@@ -785,588 +873,31 @@ fn check_loss_coefficients(
                     MIN_LOSS_COEFFICIENT,
                     MAX_LOSS_COEFFICIENT
                 ),
-            )]);
+            ));
         }
-        let term = q * b.k * v_ref * v_ref / 2.0;
+        let term = q * k * v_ref * v_ref / 2.0;
         dissipation += term;
         magnitude += term.abs();
-        if b.k < 0.0 && most_negative.map_or(true, |(t, _)| term < t) {
+        if k < 0.0 && most_negative.is_none_or(|(t, _)| term < t) {
             most_negative = Some((term, key));
         }
     }
     if let Some((_, key)) = most_negative {
         if dissipation < -1e-12 * magnitude {
-            return Err(vec![FieldError::inconsistent(
+            return Err(FieldError::inconsistent(
                 key,
                 "with these loss coefficients and flows the junction would create energy: the gain of the streams with negative K exceeds the losses of the others (Σ flow × K × V²/2 over the branches must not be negative); check the coefficients and the split they belong to",
-            )]);
+            ));
         }
     }
     Ok(())
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let mode = values.choice("mode").map_err(|e| vec![e])?;
-    let dividing = mode != "combining";
-    let d_common = values.quantity("d").map_err(|e| vec![e])?;
-    let p = values.quantity("p").map_err(|e| vec![e])?;
-    let count: usize = values
-        .choice("n")
-        .map_err(|e| vec![e])?
-        .parse()
-        .map_err(|_| vec![FieldError::inconsistent("n", "choose 1 to 6 branches")])?;
-    let count = count.clamp(1, MAX_BRANCHES);
-    let k_on_common = values.choice("k_ref").map_err(|e| vec![e])? != "branch";
-    let fluid = common::fluid_from(values)?;
-    let flow = common::flow_from(values)?;
-    let on_outside = values.choice("basis").unwrap_or("id") == "od";
-    let common_outside = if on_outside {
-        let od = values.quantity("d_od").map_err(|e| vec![e])?;
-        if od <= d_common {
-            return Err(vec![FieldError::inconsistent(
-                "d_od",
-                "the outside diameter must be larger than the inside diameter",
-            )]);
-        }
-        Some(od)
-    } else {
-        None
-    };
-    let branches = read_branches(values, count, on_outside)?;
-
-    let a_common = common::circle_area(d_common);
-    let total_flow = match flow {
-        FlowSpec::Velocity(v) => v * a_common,
-        FlowSpec::VolumeFlow(q) => q,
-        FlowSpec::MassFlow(m) => m / fluid.density,
-        FlowSpec::Unknown => 0.0,
-    };
-    let branch_flows = branch_flows(&branches, total_flow);
-    check_loss_coefficients(&branches, &branch_flows, a_common, total_flow, k_on_common)?;
-    // Each port sits one common-pipe diameter from the junction, on its pipe's axis.
-    let stub = d_common;
-    let mut cv = ControlVolume::new(fluid.clone());
-    let common_position = if dividing {
-        Vec3::new(-stub, 0.0, 0.0)
-    } else {
-        Vec3::new(stub, 0.0, 0.0)
-    };
-    let mut common_port = if dividing {
-        Port::inlet("common pipe", si::area(a_common), Direction::X)
-    } else {
-        Port::outlet("common pipe", si::area(a_common), Direction::X)
-    }
-    .pressure(si::pressure(p))
-    .at(common_position);
-    common_port.flow = flow;
-    let c = cv.port(common_port);
-    let mut volume = a_common * stub;
-    let mut moment = common_position * (0.5 * a_common * stub);
-    let mut port_of = Vec::with_capacity(branches.len());
-    for (b, given) in branches.iter().zip(&branch_flows) {
-        let area = common::circle_area(b.diameter);
-        let direction = Direction::new(b.direction).unwrap_or(Direction::X);
-        let position = if dividing {
-            b.direction * stub
-        } else {
-            b.direction * (-stub)
-        };
-        let name = format!("branch {}", b.index + 1);
-        let mut port = if dividing {
-            Port::outlet(&name, si::area(area), direction)
-        } else {
-            Port::inlet(&name, si::area(area), direction)
-        }
-        .at(position);
-        if let Some(q) = given {
-            port = port.volume_flow(si::volume_flow(*q));
-        }
-        let i = cv.port(port);
-        port_of.push(i);
-        let reference_port = if k_on_common { c } else { i };
-        let stream = if dividing { Stream::new(c, i) } else { Stream::new(i, c) };
-        cv.stream(stream.loss(Loss::Coefficient { k: b.k, reference_port }));
-        volume += area * stub;
-        moment += position * (0.5 * area * stub);
-    }
-    let centroid = if volume > 0.0 {
-        moment * (1.0 / volume)
-    } else {
-        Vec3::ZERO
-    };
-    cv.contains(si::volume(volume), centroid);
-    let engine_field = branches
-        .iter()
-        .find(|b| b.share.is_none())
-        .map(|b| BRANCHES[b.index].share)
-        .unwrap_or("p");
-    let mut balance = engine::balance(&cv).map_err(|e| common::engine_error(e, engine_field))?;
-    // Outside diameter of each port on the area basis (the bore on the inside basis).
-    let mut basis_diameters = vec![common_outside.unwrap_or(d_common)];
-    basis_diameters.extend(branches.iter().map(|b| b.outside.unwrap_or(b.diameter)));
-    if on_outside {
-        // Push-on or mechanical joints: the solved pressures also act on the wall
-        // annulus out to each outside diameter (a second pass adds them as named
-        // forces; they change no pressure or flow).
-        for (port, &od) in basis_diameters.iter().enumerate() {
-            let state = &balance.ports[port];
-            let force = common::joint_annulus_force(
-                state.pressure,
-                state.area,
-                common::circle_area(od),
-                cv.ports[port].outward_normal(),
-            );
-            let (name, at) = (cv.ports[port].name.clone(), cv.ports[port].position);
-            cv.extra_force(
-                &format!("{name} joint, pressure on the wall annulus to the OD"),
-                force,
-                at,
-            );
-        }
-        balance = engine::balance(&cv).map_err(|e| common::engine_error(e, engine_field))?;
-    }
-
-    // A component that is rounding residue of the terms it was summed from (a
-    // symmetric wye's side thrust) is the 0 it stands for.
-    let term_scale: f64 = balance
-        .ports
-        .iter()
-        .map(|s| s.pressure_force.norm() + s.momentum_outflow.norm())
-        .sum::<f64>()
-        + balance.fluid_weight.norm()
-        + balance.extra_forces.iter().map(|e| e.force.norm()).sum::<f64>();
-    let raw = balance.thrust();
-    let thrust = Vec3::new(
-        zero_if_residue(raw.x, term_scale),
-        zero_if_residue(raw.y, term_scale),
-        zero_if_residue(raw.z, term_scale),
-    );
-    let in_plane = (thrust.x * thrust.x + thrust.y * thrust.y).sqrt();
-    report.output("thrust_in_plane", in_plane);
-    if in_plane > 0.0 {
-        report.output("thrust_angle", thrust.plane_angle());
-    }
-    report.output("thrust", thrust.norm());
-    report.output("thrust_x", thrust.x);
-    report.output("thrust_y", thrust.y);
-    report.output("thrust_z", thrust.z);
-    // Static: every face at p, no flow.
-    let static_vector: Vec3 = cv
-        .ports
-        .iter()
-        .zip(&basis_diameters)
-        .map(|(port, &d)| port.outward_normal() * (-p * common::circle_area(d)))
-        .sum();
-    report.output("static_thrust", static_vector.norm());
-    let common_state = &balance.ports[c];
-    if let Some((_, &i)) = branches.iter().zip(&port_of).find(|(b, _)| b.share.is_none()) {
-        if common_state.volume_flow > 0.0 {
-            report.output("solved_share", balance.ports[i].volume_flow / common_state.volume_flow);
-        }
-    }
-    report.output("flow", common_state.volume_flow);
-    report.output("mass_flow", common_state.mass_flow);
-    report.output("v_common", common_state.speed);
-    for (b, &i) in branches.iter().zip(&port_of) {
-        let keys = &BRANCHES[b.index];
-        let state = &balance.ports[i];
-        report.output(keys.p_out, state.pressure);
-        report.output(keys.q_out, state.volume_flow);
-        report.output(keys.v_out, state.speed);
-    }
-    let pressure_force: f64 = balance.ports.iter().map(|s| s.pressure_force.norm()).sum();
-    let momentum: f64 = balance.ports.iter().map(|s| s.momentum_outflow.norm()).sum();
-    if pressure_force > 0.0 {
-        report.output("momentum_share", momentum / pressure_force);
-    }
-    report.output("fluid_weight", balance.fluid_weight.norm());
-    report.output("density", fluid.density);
-    independent_checks(
-        report,
-        &Junction {
-            dividing,
-            k_on_common,
-            p,
-            density: fluid.density,
-            d_common,
-            common_outside,
-            total_flow,
-            stub,
-            volume,
-            branch_flows: branch_flows.clone(),
-        },
-        &branches,
-        &balance,
-        &port_of,
-    );
-
-    common::forward_warnings(&balance, report);
-    common::pipe_velocity_warning(report, common::flow_field(values), "common pipe", common_state.speed);
-    for (b, &i) in branches.iter().zip(&port_of) {
-        let state = &balance.ports[i];
-        let keys = &BRANCHES[b.index];
-        common::pipe_velocity_warning(report, keys.d, &format!("branch {}", b.index + 1), state.speed);
-        if state.pressure < 0.0 {
-            report.warn(
-                Some(keys.k),
-                format!(
-                    "the gauge pressure in branch {} comes out below atmospheric: check the loss and the flow split",
-                    b.index + 1
-                ),
-            );
-        }
-    }
-    for (n, a) in branches.iter().enumerate() {
-        for b in branches.iter().skip(n + 1) {
-            if a.direction.dot(b.direction) > (5f64).to_radians().cos() {
-                report.warn(
-                    Some(BRANCHES[b.index].angle),
-                    format!(
-                        "branches {} and {} point the same way and would overlap",
-                        a.index + 1,
-                        b.index + 1
-                    ),
-                );
-            }
-        }
-    }
-
-    let system = report.system();
-    let carried = thrust - balance.fluid_weight;
-    let carried_norm = carried.norm();
-    let elevation = if carried_norm > 0.0 {
-        (carried.z / carried_norm).clamp(-1.0, 1.0).asin()
-    } else {
-        0.0
-    };
-    report.solution.tables.push(common::basis_table(vec![
-        (
-            "Flow",
-            MODE_OPTIONS
-                .iter()
-                .find(|o| o.key == mode)
-                .map(|o| o.label)
-                .unwrap_or(mode)
-                .to_string(),
-        ),
-        (
-            "Loss coefficients on",
-            if k_on_common {
-                "the common pipe's velocity"
-            } else {
-                "each branch's own velocity"
-            }
-            .to_string(),
-        ),
-        (
-            "Thrust area basis",
-            if on_outside {
-                "outside diameters (push-on or mechanical joints): the pressure on each joint's wall annulus is its own ledger term; momentum on the bores".to_string()
-            } else {
-                "inside diameters (pressure and momentum terms)".to_string()
-            },
-        ),
-        (
-            "Carried to the thrust-block page",
-            "pressure and momentum thrust; the fluid's weight is left to the bedding".to_string(),
-        ),
-    ]));
-    report
-        .solution
-        .tables
-        .push(branch_table(&branches, &port_of, &balance, dividing, report));
-    report.solution.tables.push(common::ledger_table(&balance, system));
-    report.solution.tables.push(common::ports_table(&balance, system));
-    let diagram = diagram(d_common, &branches, &port_of, dividing, &balance, report);
-    report.solution.diagrams.push(diagram);
-    let carry = common::thrust_carry_over(
-        report,
-        "Size a thrust block for this junction's thrust",
-        carried_norm,
-        elevation,
-    );
-    report.solution.carry_over.push(carry);
+    let inputs = read(values)?;
+    let solved = model::solve(&inputs)?;
+    report::write(&inputs, &solved, report);
     Ok(())
-}
-
-/// `value`, or 0 when it is rounding residue: within 1e-12 of `scale`, the size of the
-/// terms it was summed from.
-fn zero_if_residue(value: f64, scale: f64) -> f64 {
-    if value.abs() <= 1e-12 * scale.abs() {
-        0.0
-    } else {
-        value
-    }
-}
-
-/// What the independent checks need to know of the junction, SI.
-struct Junction {
-    dividing: bool,
-    k_on_common: bool,
-    /// Gauge pressure in the common pipe.
-    p: f64,
-    density: f64,
-    d_common: f64,
-    common_outside: Option<f64>,
-    /// Common-pipe flow as the user gave it.
-    total_flow: f64,
-    /// Length of each pipe stub inside the control volume.
-    stub: f64,
-    /// Volume of fluid inside.
-    volume: f64,
-    /// Flow given to each branch (the mass-balance closure applied), `None` for the
-    /// one left to be solved.
-    branch_flows: Vec<Option<f64>>,
-}
-
-/// Checks the balance against results computed without the engine:
-///
-/// - mass: the engine's branch flows add up to the common-pipe flow the user gave;
-/// - thrust: each face's impulse function (p + ρV²)·A, plus p on the wall annulus on
-///   the outside-diameter basis, along its outward normal, with the branch pressures
-///   from Bernoulli written out per branch (p_i = p₀ + ρ(V₀² − V_i²)/2 + ρg(z₀ − z_i)
-///   ∓ K_i·ρV_ref²/2, − dividing, + combining), velocities from the given flows
-///   (the one left empty: the common flow less the others), and the weight ρg·volume: T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
-fn independent_checks(
-    report: &mut Report<'_>,
-    junction: &Junction,
-    branches: &[Branch],
-    balance: &engine::Balance,
-    port_of: &[usize],
-) {
-    let Junction {
-        dividing,
-        k_on_common,
-        p,
-        density: rho,
-        d_common,
-        common_outside,
-        total_flow,
-        stub,
-        volume,
-        ref branch_flows,
-    } = *junction;
-    let g = crate::units::STANDARD_GRAVITY;
-    let engine_sum: f64 = port_of.iter().map(|&i| balance.ports[i].volume_flow).sum();
-    report.check(
-        "Sum of the branch flows",
-        "the common-pipe flow as given",
-        Q::VolumeFlow,
-        engine_sum,
-        total_flow,
-        1e-9,
-        0.0,
-    );
-
-    let a_common = common::circle_area(d_common);
-    let v_common = total_flow / a_common;
-    let given: f64 = branch_flows.iter().flatten().sum();
-    // Outward normal of the common pipe's face: upstream (−x) when it feeds the
-    // junction, downstream (+x) when it is fed.
-    let common_normal = Vec3::new(if dividing { -1.0 } else { 1.0 }, 0.0, 0.0);
-    let face = |pressure: f64, speed: f64, area: f64, outside_area: f64, normal: Vec3| {
-        normal * (-((pressure + rho * speed * speed) * area + pressure * (outside_area - area)))
-    };
-    let a_common_outside = common_outside.map_or(a_common, common::circle_area);
-    let mut thrust = face(p, v_common, a_common, a_common_outside, common_normal);
-    let mut scale = (p.abs() + rho * v_common * v_common) * a_common_outside;
-    for (b, q) in branches.iter().zip(branch_flows) {
-        let q = q.unwrap_or((total_flow - given).max(0.0));
-        let area = common::circle_area(b.diameter);
-        let speed = q / area;
-        let v_ref = if k_on_common { v_common } else { speed };
-        let loss = b.k * rho * v_ref * v_ref / 2.0;
-        // The common face sits at z = 0; a branch's face one stub along its axis.
-        let z = stub * b.direction.z * if dividing { 1.0 } else { -1.0 };
-        let pressure =
-            p + rho * (v_common * v_common - speed * speed) / 2.0 - rho * g * z + if dividing { -loss } else { loss };
-        let normal = b.direction * if dividing { 1.0 } else { -1.0 };
-        let outside_area = b.outside.map_or(area, common::circle_area);
-        thrust += face(pressure, speed, area, outside_area, normal);
-        scale += (pressure.abs() + rho * speed * speed) * outside_area;
-    }
-    thrust += Vec3::new(0.0, 0.0, -rho * g * volume);
-    scale += rho * g * volume;
-    let engine_thrust = balance.thrust();
-    let basis = "Σ (p + ρV²)·A on each face with Bernoulli branch pressures, plus the weight";
-    for (label, value, reference) in [
-        ("Thrust along the common pipe (x)", engine_thrust.x, thrust.x),
-        ("Thrust across it, in the plan (y)", engine_thrust.y, thrust.y),
-        ("Thrust out of the plan (z)", engine_thrust.z, thrust.z),
-    ] {
-        report.check(label, basis, Q::Force, value, reference, 1e-9, scale);
-    }
-}
-
-fn branch_table(
-    branches: &[Branch],
-    port_of: &[usize],
-    balance: &engine::Balance,
-    dividing: bool,
-    report: &Report<'_>,
-) -> Table {
-    let mut table = Table {
-        key: "branches",
-        title: format!(
-            "Branches ({})",
-            if dividing { "dividing flow" } else { "combining flow" }
-        ),
-        columns: [
-            "Branch",
-            "direction",
-            "elevation",
-            "diameter",
-            "share",
-            "flow",
-            "velocity",
-            "K",
-            "head loss",
-            "gauge pressure",
-        ]
-        .iter()
-        .map(|s| s.to_string())
-        .collect(),
-        rows: Vec::new(),
-        emphasised_rows: Vec::new(),
-    };
-    for (n, (b, &i)) in branches.iter().zip(port_of).enumerate() {
-        let state = &balance.ports[i];
-        let common_flow = balance.ports.first().map(|s| s.volume_flow).unwrap_or(0.0);
-        let share = if common_flow > 0.0 {
-            state.volume_flow / common_flow
-        } else {
-            b.share.unwrap_or(0.0)
-        };
-        let head_loss = balance.streams.get(n).map(|s| s.head_loss).unwrap_or(0.0);
-        let angle = b.direction.y.atan2(b.direction.x);
-        let elevation = b.direction.z.clamp(-1.0, 1.0).asin();
-        table.rows.push(vec![
-            format!("{}{}", b.index + 1, if b.share.is_none() { " (solved)" } else { "" }),
-            report.fmt(angle, Q::Angle),
-            report.fmt(elevation, Q::Angle),
-            report.fmt(b.diameter, Q::Length),
-            format!("{} %", units::format_significant(100.0 * share, 4)),
-            report.fmt(state.volume_flow, Q::VolumeFlow),
-            report.fmt(state.speed, Q::Velocity),
-            units::format_significant(b.k, 4),
-            report.fmt(head_loss, Q::Length),
-            report.fmt(state.pressure, Q::Pressure),
-        ]);
-        if b.share.is_none() {
-            table.emphasised_rows.push(n);
-        }
-    }
-    table
-}
-
-fn diagram(
-    d_common: f64,
-    branches: &[Branch],
-    port_of: &[usize],
-    dividing: bool,
-    balance: &engine::Balance,
-    report: &Report<'_>,
-) -> Diagram {
-    let stub = d_common;
-    let lead = 3.0 * d_common;
-    let mut shapes = Vec::new();
-    let common_end = if dividing { [-lead, 0.0] } else { [lead, 0.0] };
-    shapes.push(Shape::Polygon {
-        points: common::straight_band(common_end, [0.0, 0.0], 1.1 * d_common),
-        style: ShapeStyle::Wall,
-    });
-    for b in branches {
-        let sign = if dividing { 1.0 } else { -1.0 };
-        let end = [sign * lead * b.direction.x, sign * lead * b.direction.y];
-        shapes.push(Shape::Polygon {
-            points: common::straight_band([0.0, 0.0], end, 1.1 * b.diameter),
-            style: ShapeStyle::Wall,
-        });
-    }
-    shapes.push(Shape::Polygon {
-        points: common::straight_band(common_end, [0.0, 0.0], d_common),
-        style: ShapeStyle::Fluid,
-    });
-    for b in branches {
-        let sign = if dividing { 1.0 } else { -1.0 };
-        let end = [sign * lead * b.direction.x, sign * lead * b.direction.y];
-        shapes.push(Shape::Polygon {
-            points: common::straight_band([0.0, 0.0], end, b.diameter),
-            style: ShapeStyle::Fluid,
-        });
-    }
-    // Control volume: a circle through the faces of the ports.
-    shapes.push(Shape::Circle {
-        center: [0.0, 0.0],
-        radius: stub,
-        style: ShapeStyle::ControlVolume,
-    });
-    // Flow arrows along each pipe, labelled with the branch number and share.
-    let common_flow = balance.ports.first().map(|s| s.volume_flow).unwrap_or(0.0);
-    let flow_arrow = |from: [f64; 2], to: [f64; 2], label: String| Shape::Arrow {
-        from,
-        to,
-        label,
-        style: ShapeStyle::Flow,
-    };
-    if dividing {
-        shapes.push(flow_arrow(
-            [-0.9 * lead, 0.6 * d_common],
-            [-0.5 * lead, 0.6 * d_common],
-            "common".to_string(),
-        ));
-    } else {
-        shapes.push(flow_arrow(
-            [0.5 * lead, 0.6 * d_common],
-            [0.9 * lead, 0.6 * d_common],
-            "common".to_string(),
-        ));
-    }
-    for (b, &i) in branches.iter().zip(port_of) {
-        let u = [b.direction.x, b.direction.y];
-        let share = if common_flow > 0.0 {
-            balance.ports[i].volume_flow / common_flow
-        } else {
-            0.0
-        };
-        let label = format!("{}: {} %", b.index + 1, units::format_significant(100.0 * share, 3));
-        let (s0, s1) = if dividing {
-            (0.5 * lead, 0.9 * lead)
-        } else {
-            (-0.9 * lead, -0.5 * lead)
-        };
-        shapes.push(flow_arrow([s0 * u[0], s0 * u[1]], [s1 * u[0], s1 * u[1]], label));
-    }
-    let thrust = balance.thrust();
-    let flat = |v: Vec3| Vec3::new(v.x, v.y, 0.0);
-    let max_force = balance
-        .ports
-        .iter()
-        .map(|s| flat(s.pressure_force).norm())
-        .chain([flat(thrust).norm()])
-        .fold(0.0, f64::max);
-    let scale = if max_force > 0.0 { 0.8 * lead / max_force } else { 0.0 };
-    let fmt = |f: Vec3| report.fmt(flat(f).norm(), Q::Force);
-    for s in &balance.ports {
-        if let Some(a) = common::force_arrow(
-            s.position.xy(),
-            flat(s.pressure_force),
-            scale,
-            format!("p·A {}", fmt(s.pressure_force)),
-            ShapeStyle::Pressure,
-            false,
-        ) {
-            shapes.push(a);
-        }
-    }
-    common::thrust_and_restraint_arrows(&mut shapes, [0.0, 0.0], [0.0, 0.0], flat(thrust), scale, &fmt(thrust));
-    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * d_common);
-    Diagram {
-        title: format!("{} junction, plan view: control volume and forces", if dividing { "Dividing" } else { "Combining" }),
-        bounds,
-        shapes,
-        caption: "Pipes to scale in plan (branches with an elevation angle are drawn foreshortened); force arrows share one scale, plan components only. T acts on the supports; R = −T is what the restraint supplies.".to_string(),
-    }
 }
 
 #[cfg(test)]
@@ -1382,6 +913,11 @@ mod tests {
     }
 
     #[test]
+    fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
+        crate::calculators::testing::assert_glossary_keys(super::KEY);
+    }
+
+    #[test]
     fn still_tee_thrust_is_pressure_on_the_branch_area() {
         // Derived from the definition: T = p·A_branch along the branch axis, pointing
         // away from the branch (the unbalanced wall is opposite the branch opening).
@@ -1389,9 +925,9 @@ mod tests {
             ("q", "0"),
             ("p", "10 bar"),
             ("d", "300 mm"),
-            ("d1", "300 mm"),
-            ("d2", "200 mm"),
-            ("share1", "100 %"),
+            ("b1_d", "300 mm"),
+            ("b2_d", "200 mm"),
+            ("b1_share", "100 %"),
         ])
         .result
         .expect("solves");
@@ -1409,8 +945,97 @@ mod tests {
     }
 
     #[test]
+    fn the_model_solves_typed_inputs_on_the_outside_diameter() {
+        // Derived from the definition (the outside-diameter basis of push-on joints,
+        // DIPRA, Thrust Restraint Design for Ductile Iron Pipe, from memory): a still
+        // square tee with equal run ODs takes T = p·A_OD,branch, away from the branch.
+        use super::model::{self, Branch, CommonFlow, Inputs, Junction, LossReference};
+        use crate::vector::Vec3;
+        use uom::si::f64::{Length, Pressure, Ratio, VolumeRate};
+        use uom::si::{length::millimeter, pressure::bar, ratio::ratio, volume_rate::cubic_meter_per_second};
+        let mm = Length::new::<millimeter>;
+        let branch = |index, d, od, direction, share: Option<f64>| Branch {
+            index,
+            diameter: mm(d),
+            outside: Some(mm(od)),
+            direction,
+            share: share.map(Ratio::new::<ratio>),
+            k: Ratio::new::<ratio>(0.0),
+        };
+        let inputs = Inputs {
+            junction: Junction::Dividing,
+            d_common: mm(300.0),
+            common_outside: Some(mm(326.0)),
+            p: Pressure::new::<bar>(10.0),
+            flow: CommonFlow::Volume(VolumeRate::new::<cubic_meter_per_second>(0.0)),
+            loss_reference: LossReference::CommonPipe,
+            branches: vec![
+                branch(0, 300.0, 326.0, Vec3::new(1.0, 0.0, 0.0), Some(1.0)),
+                branch(1, 200.0, 222.0, Vec3::new(0.0, 1.0, 0.0), None),
+            ],
+            fluid: crate::fluid::water_celsius(15.0).expect("water at 15 °C"),
+        };
+        let solved = model::solve(&inputs).expect("solves");
+        let expected = 1e6 * std::f64::consts::PI * 0.222 * 0.222 / 4.0;
+        assert_relative_eq!(solved.thrust.y, -expected, max_relative = 1e-9);
+        assert_eq!(solved.thrust.x, 0.0);
+        assert_relative_eq!(solved.static_thrust.y, -expected, max_relative = 1e-9);
+    }
+
+    #[test]
+    fn an_old_link_reads_as_today_s_keys() {
+        // A bookmarked link in the retired keys solves as the same link in today's.
+        let old = [
+            ("mode", "dividing"),
+            ("n", "2"),
+            ("flow_basis", "q"),
+            ("basis", "od"),
+            ("d_od", "326 mm"),
+            ("d1", "300 mm"),
+            ("od1", "326 mm"),
+            ("share1", "60 %"),
+            ("d2", "200 mm"),
+            ("od2", "222 mm"),
+            ("angle2", "90 deg"),
+            ("k2", "0.9"),
+        ];
+        let pairs: Vec<(String, String)> = old.iter().map(|(k, v)| (k.to_string(), v.to_string())).collect();
+        let up = crate::glossary::upgrade(super::KEY, &pairs);
+        assert_eq!(up.translations.len(), old.len());
+        let new: Vec<(&str, &str)> = up.pairs.iter().map(|(k, v)| (k.as_str(), v.as_str())).collect();
+        assert!(new.contains(&("joint", "push_on")), "{new:?}");
+        let today = crate::calculators::testing::solved(super::KEY, &new);
+        let mut by_hand = vec![
+            ("junction", "dividing"),
+            ("branches", "2"),
+            ("flow_given", "q"),
+            ("joint", "push_on"),
+            ("od", "326 mm"),
+            ("b1_d", "300 mm"),
+            ("b1_od", "326 mm"),
+            ("b1_share", "60 %"),
+            ("b2_d", "200 mm"),
+            ("b2_od", "222 mm"),
+            ("b2_angle", "90 deg"),
+            ("b2_k", "0.9"),
+        ];
+        let thrust = |pairs: &[(&str, &str)]| {
+            crate::calculators::testing::solved(super::KEY, pairs)
+                .output("thrust_in_plane")
+                .map(|o| o.si)
+        };
+        assert_eq!(today.output("thrust_in_plane").map(|o| o.si), thrust(&by_hand));
+        // The same link on flanged joints (the bore) gives less: the alias kept the OD.
+        let on_outside = thrust(&by_hand);
+        by_hand[3] = ("joint", "flanged");
+        assert!(on_outside > thrust(&by_hand));
+    }
+
+    #[test]
     fn the_empty_share_is_solved_by_mass() {
-        let s = outcome(&[("share1", "70 %"), ("share2", "")]).result.expect("solves");
+        let s = outcome(&[("b1_share", "70 %"), ("b2_share", "")])
+            .result
+            .expect("solves");
         assert_relative_eq!(s.output("solved_share").unwrap().si, 0.3, max_relative = 1e-9);
         let q = s.output("flow").unwrap().si;
         assert_relative_eq!(s.output("q_b2").unwrap().si, 0.3 * q, max_relative = 1e-9);
@@ -1419,15 +1044,15 @@ mod tests {
     #[test]
     fn combining_mirror_of_a_symmetric_wye_has_no_side_thrust() {
         let s = outcome(&[
-            ("mode", "combining"),
-            ("angle1", "30 deg"),
-            ("angle2", "-30 deg"),
-            ("d1", "200 mm"),
-            ("d2", "200 mm"),
-            ("share1", "50 %"),
-            ("share2", ""),
-            ("k1", "0.2"),
-            ("k2", "0.2"),
+            ("junction", "combining"),
+            ("b1_angle", "30 deg"),
+            ("b2_angle", "-30 deg"),
+            ("b1_d", "200 mm"),
+            ("b2_d", "200 mm"),
+            ("b1_share", "50 %"),
+            ("b2_share", ""),
+            ("b1_k", "0.2"),
+            ("b2_k", "0.2"),
         ])
         .result
         .expect("solves");
@@ -1438,18 +1063,28 @@ mod tests {
 
     #[test]
     fn bad_shares_and_sizes_name_their_field() {
-        assert_eq!(error_field(&[("share1", "120 %")]), "share1");
-        assert_eq!(error_field(&[("share1", "70 %"), ("share2", "40 %")]), "share2");
+        assert_eq!(error_field(&[("b1_share", "120 %")]), "b1_share");
+        assert_eq!(error_field(&[("b1_share", "70 %"), ("b2_share", "40 %")]), "b2_share");
         assert_eq!(
-            error_field(&[("n", "3"), ("share1", "70 %"), ("share2", ""), ("share3", "")]),
-            "share3"
+            error_field(&[
+                ("branches", "3"),
+                ("b1_share", "70 %"),
+                ("b2_share", ""),
+                ("b3_share", "")
+            ]),
+            "b3_share"
         );
         assert_eq!(
-            error_field(&[("n", "3"), ("share1", "80 %"), ("share2", ""), ("share3", "30 %")]),
-            "share3"
+            error_field(&[
+                ("branches", "3"),
+                ("b1_share", "80 %"),
+                ("b2_share", ""),
+                ("b3_share", "30 %")
+            ]),
+            "b3_share"
         );
-        assert_eq!(error_field(&[("d2", "0 mm")]), "d2");
-        assert_eq!(error_field(&[("angle2", "175 deg")]), "angle2");
+        assert_eq!(error_field(&[("b2_d", "0 mm")]), "b2_d");
+        assert_eq!(error_field(&[("b2_angle", "175 deg")]), "b2_angle");
         assert_eq!(error_field(&[("p", "-3 psi")]), "p");
     }
 
@@ -1457,7 +1092,7 @@ mod tests {
     fn shares_within_the_tolerance_of_100_percent_close_mass_exactly() {
         // 70.00005 % + 30 % is accepted (within 1e-6 of 100 %); the branch flows must
         // still add up to the common flow to rounding, not leave 5e-7 of it over.
-        let s = outcome(&[("share1", "70.00005 %"), ("share2", "30 %")])
+        let s = outcome(&[("b1_share", "70.00005 %"), ("b2_share", "30 %")])
             .result
             .expect("solves");
         let q = s.output("flow").unwrap().si;
@@ -1472,11 +1107,11 @@ mod tests {
         // Combining, small branch share: a negative branch K (Crane TP-410 gives down
         // to −1 on the combined velocity) with a positive run K.
         let combining = [
-            ("mode", "combining"),
-            ("share1", "90 %"),
-            ("share2", ""),
-            ("k1", "0.3"),
-            ("k2", "-0.9"),
+            ("junction", "combining"),
+            ("b1_share", "90 %"),
+            ("b2_share", ""),
+            ("b1_k", "0.3"),
+            ("b2_k", "-0.9"),
         ];
         let s = outcome(&combining).result.expect("solves");
         // The branch gains the energy: its pressure is below the common pipe's plus
@@ -1488,20 +1123,20 @@ mod tests {
         assert_relative_eq!(s.output("p_b2").unwrap().si, expected, max_relative = 1e-12);
         assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
         // Both streams gaining energy would create it: refused on the more negative K.
-        assert_eq!(error_field(&[("k1", "-0.1"), ("k2", "-0.2")]), "k1");
+        assert_eq!(error_field(&[("b1_k", "-0.1"), ("b2_k", "-0.2")]), "b1_k");
         // Below −1 on the common velocity: refused by the field's range.
-        assert_eq!(error_field(&[("k2", "-1.5")]), "k2");
+        assert_eq!(error_field(&[("b2_k", "-1.5")]), "b2_k");
         // On the branch's own velocity a K of −1 in a branch faster than the common
         // pipe is below −1 on the common velocity.
         assert_eq!(
             error_field(&[
                 ("k_ref", "branch"),
-                ("d2", "100 mm"),
-                ("share1", "50 %"),
-                ("share2", "50 %"),
-                ("k2", "-1")
+                ("b2_d", "100 mm"),
+                ("b1_share", "50 %"),
+                ("b2_share", "50 %"),
+                ("b2_k", "-1")
             ]),
-            "k2"
+            "b2_k"
         );
     }
 

@@ -1,0 +1,318 @@
+//! The junction's physics as a pure function of its typed inputs: the flows given
+//! to the branches (mass closed exactly), the engine's mass, energy and momentum
+//! balances over the junction's fluid, the pressure on each joint's wall annulus on
+//! the outside-diameter basis, and the static thrust. Nothing here reads a field or
+//! formats a number.
+
+use uom::si::f64::{Length, MassRate, Pressure, Ratio, Velocity, VolumeRate};
+
+use crate::engine::{self, si, Balance, ControlVolume, FlowSpec, Loss, Port, Stream};
+use crate::error::FieldErrors;
+use crate::fluid::Fluid;
+use crate::vector::{Direction, Vec3};
+
+use super::super::common;
+use super::BRANCHES;
+
+/// Direction of flow at the junction.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Junction {
+    /// The common pipe feeds the branches.
+    Dividing,
+    /// The branches feed the common pipe.
+    Combining,
+}
+
+/// The velocity the branches' loss coefficients refer to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum LossReference {
+    CommonPipe,
+    OwnBranch,
+}
+
+/// The flow in the common pipe, as given.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum CommonFlow {
+    Volume(VolumeRate),
+    Velocity(Velocity),
+    Mass(MassRate),
+}
+
+impl CommonFlow {
+    /// The field the flow was typed in.
+    pub fn key(&self) -> &'static str {
+        match self {
+            CommonFlow::Volume(_) => "q",
+            CommonFlow::Velocity(_) => "v",
+            CommonFlow::Mass(_) => "mdot",
+        }
+    }
+
+    /// The engine's flow spec for the common pipe's port.
+    fn spec(&self) -> FlowSpec {
+        match self {
+            CommonFlow::Volume(q) => FlowSpec::VolumeFlow(q.value),
+            CommonFlow::Velocity(v) => FlowSpec::Velocity(v.value),
+            CommonFlow::Mass(m) => FlowSpec::MassFlow(m.value),
+        }
+    }
+
+    /// Volumetric flow, m³/s, through a pipe of area `area` (m²) for a liquid of
+    /// density `density` (kg/m³).
+    pub fn volume_flow(&self, area: f64, density: f64) -> f64 {
+        match self {
+            CommonFlow::Volume(q) => q.value,
+            CommonFlow::Velocity(v) => v.value * area,
+            CommonFlow::Mass(m) => m.value / density,
+        }
+    }
+}
+
+/// One branch as read from its fields.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Branch {
+    /// Position of the branch among the page's branches (0 for branch 1).
+    pub index: usize,
+    pub diameter: Length,
+    /// Outside diameter, on the outside-diameter basis.
+    pub outside: Option<Length>,
+    /// Unit vector of the direction the branch's fluid moves.
+    pub direction: Vec3,
+    /// Share of the common flow; `None` for the one branch solved by mass.
+    pub share: Option<Ratio>,
+    /// Loss coefficient K between the common pipe and this branch.
+    pub k: Ratio,
+}
+
+/// The validated inputs of the page.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Inputs {
+    pub junction: Junction,
+    /// Bore of the common pipe.
+    pub d_common: Length,
+    /// Outside diameter of the common pipe, on the outside-diameter basis (joints
+    /// that seal on the spigot's outside).
+    pub common_outside: Option<Length>,
+    /// Gauge pressure in the common pipe.
+    pub p: Pressure,
+    pub flow: CommonFlow,
+    pub loss_reference: LossReference,
+    /// One to six branches; at most one share is empty and the shares add up to
+    /// 100 % (or to at most 100 % with one empty).
+    pub branches: Vec<Branch>,
+    pub fluid: Fluid,
+}
+
+impl Inputs {
+    pub fn dividing(&self) -> bool {
+        self.junction == Junction::Dividing
+    }
+    /// Whether the thrust area is the outside diameter (push-on, mechanical or
+    /// restrained joints).
+    pub fn on_outside(&self) -> bool {
+        self.common_outside.is_some()
+    }
+    pub fn k_on_common(&self) -> bool {
+        self.loss_reference == LossReference::CommonPipe
+    }
+    /// The common pipe's volumetric flow, m³/s.
+    pub fn total_flow(&self) -> f64 {
+        self.flow
+            .volume_flow(common::circle_area(self.d_common.value), self.fluid.density)
+    }
+}
+
+/// The solved junction, SI units.
+#[derive(Clone, Debug)]
+pub struct Solved {
+    /// The common pipe's flow as given, m³/s.
+    pub total_flow: f64,
+    /// Flow given to each branch (the mass-balance closure applied), `None` for the
+    /// one left to be solved.
+    pub branch_flows: Vec<Option<f64>>,
+    /// Length of each pipe stub inside the control volume, m.
+    pub stub: f64,
+    /// Volume of fluid inside, m³.
+    pub volume: f64,
+    /// The engine's balance (with the joints' annulus forces on the OD basis).
+    pub balance: Balance,
+    /// Index of the common pipe's port and of each branch's port in the balance.
+    pub common_port: usize,
+    pub port_of: Vec<usize>,
+    /// Thrust on the supports, N, with rounding residue of its terms shown as 0.
+    pub thrust: Vec3,
+    /// Static thrust (every face at p, no flow), N.
+    pub static_thrust: Vec3,
+}
+
+/// The flow given to each branch (`None` for the one solved by mass). When every
+/// share is given, they add up to 100 % only within 1e-6: the branch with the largest
+/// share takes the common flow less the others, so that mass closes exactly rather
+/// than to the rounding of the typed shares.
+pub fn branch_flows(branches: &[Branch], total_flow: f64) -> Vec<Option<f64>> {
+    let share = |b: &Branch| b.share.map_or(0.0, |s| s.value);
+    let mut flows: Vec<Option<f64>> = branches.iter().map(|b| b.share.map(|s| s.value * total_flow)).collect();
+    if flows.iter().all(Option::is_some) {
+        let largest = branches
+            .iter()
+            .enumerate()
+            .max_by(|a, b| share(a.1).total_cmp(&share(b.1)))
+            .map(|(n, _)| n);
+        if let Some(n) = largest {
+            let others: f64 = flows
+                .iter()
+                .enumerate()
+                .filter(|(m, _)| *m != n)
+                .filter_map(|(_, q)| *q)
+                .sum();
+            flows[n] = Some((total_flow - others).max(0.0));
+        }
+    }
+    flows
+}
+
+/// `value`, or 0 when it is rounding residue: within 1e-12 of `scale`, the size of the
+/// terms it was summed from.
+fn zero_if_residue(value: f64, scale: f64) -> f64 {
+    if value.abs() <= 1e-12 * scale.abs() {
+        0.0
+    } else {
+        value
+    }
+}
+
+/// Solves the junction for its inputs.
+///
+/// # Errors
+/// An engine refusal, named on the share solved by mass (or the pressure).
+pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
+    let dividing = inputs.dividing();
+    let k_on_common = inputs.k_on_common();
+    let d_common = inputs.d_common.value;
+    let p = inputs.p.value;
+    let branches = &inputs.branches;
+    let a_common = common::circle_area(d_common);
+    let total_flow = inputs.total_flow();
+    let branch_flows = branch_flows(branches, total_flow);
+    // Each port sits one common-pipe diameter from the junction, on its pipe's axis.
+    let stub = d_common;
+    let mut cv = ControlVolume::new(inputs.fluid.clone());
+    let common_position = if dividing {
+        Vec3::new(-stub, 0.0, 0.0)
+    } else {
+        Vec3::new(stub, 0.0, 0.0)
+    };
+    let mut common_port = if dividing {
+        Port::inlet("common pipe", si::area(a_common), Direction::X)
+    } else {
+        Port::outlet("common pipe", si::area(a_common), Direction::X)
+    }
+    .pressure(si::pressure(p))
+    .at(common_position);
+    common_port.flow = inputs.flow.spec();
+    let c = cv.port(common_port);
+    let mut volume = a_common * stub;
+    let mut moment = common_position * (0.5 * a_common * stub);
+    let mut port_of = Vec::with_capacity(branches.len());
+    for (b, given) in branches.iter().zip(&branch_flows) {
+        let area = common::circle_area(b.diameter.value);
+        let direction = Direction::new(b.direction).unwrap_or(Direction::X);
+        let position = if dividing {
+            b.direction * stub
+        } else {
+            b.direction * (-stub)
+        };
+        let name = format!("branch {}", b.index + 1);
+        let mut port = if dividing {
+            Port::outlet(&name, si::area(area), direction)
+        } else {
+            Port::inlet(&name, si::area(area), direction)
+        }
+        .at(position);
+        if let Some(q) = given {
+            port = port.volume_flow(si::volume_flow(*q));
+        }
+        let i = cv.port(port);
+        port_of.push(i);
+        let reference_port = if k_on_common { c } else { i };
+        let stream = if dividing { Stream::new(c, i) } else { Stream::new(i, c) };
+        cv.stream(stream.loss(Loss::Coefficient {
+            k: b.k.value,
+            reference_port,
+        }));
+        volume += area * stub;
+        moment += position * (0.5 * area * stub);
+    }
+    let centroid = if volume > 0.0 {
+        moment * (1.0 / volume)
+    } else {
+        Vec3::ZERO
+    };
+    cv.contains(si::volume(volume), centroid);
+    let engine_field = branches
+        .iter()
+        .find(|b| b.share.is_none())
+        .and_then(|b| BRANCHES.get(b.index))
+        .map(|keys| keys.share)
+        .unwrap_or("p");
+    let named = |e| FieldErrors::from(common::engine_error(e, engine_field));
+    let mut balance = engine::balance(&cv).map_err(named)?;
+    // Outside diameter of each port on the area basis (the bore on the inside basis).
+    let mut basis_diameters = vec![inputs.common_outside.unwrap_or(inputs.d_common).value];
+    basis_diameters.extend(branches.iter().map(|b| b.outside.unwrap_or(b.diameter).value));
+    if inputs.on_outside() {
+        // Push-on or mechanical joints: the solved pressures also act on the wall
+        // annulus out to each outside diameter (a second pass adds them as named
+        // forces; they change no pressure or flow).
+        for (port, &od) in basis_diameters.iter().enumerate() {
+            let state = &balance.ports[port];
+            let force = common::joint_annulus_force(
+                state.pressure,
+                state.area,
+                common::circle_area(od),
+                cv.ports[port].outward_normal(),
+            );
+            let (name, at) = (cv.ports[port].name.clone(), cv.ports[port].position);
+            cv.extra_force(
+                &format!("{name} joint, pressure on the wall annulus to the OD"),
+                force,
+                at,
+            );
+        }
+        balance = engine::balance(&cv).map_err(named)?;
+    }
+
+    // A component that is rounding residue of the terms it was summed from (a
+    // symmetric wye's side thrust) is the 0 it stands for.
+    let term_scale: f64 = balance
+        .ports
+        .iter()
+        .map(|s| s.pressure_force.norm() + s.momentum_outflow.norm())
+        .sum::<f64>()
+        + balance.fluid_weight.norm()
+        + balance.extra_forces.iter().map(|e| e.force.norm()).sum::<f64>();
+    let raw = balance.thrust();
+    let thrust = Vec3::new(
+        zero_if_residue(raw.x, term_scale),
+        zero_if_residue(raw.y, term_scale),
+        zero_if_residue(raw.z, term_scale),
+    );
+    // Static: every face at p, no flow.
+    let static_thrust: Vec3 = cv
+        .ports
+        .iter()
+        .zip(&basis_diameters)
+        .map(|(port, &d)| port.outward_normal() * (-p * common::circle_area(d)))
+        .sum();
+    Ok(Solved {
+        total_flow,
+        branch_flows,
+        stub,
+        volume,
+        balance,
+        common_port: c,
+        port_of,
+        thrust,
+        static_thrust,
+    })
+}

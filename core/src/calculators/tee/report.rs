@@ -1,0 +1,261 @@
+//! The junction's report, built from the solved [`Solved`]: outputs, the checks by
+//! independent paths, warnings, the basis, branch, ledger and ports tables, the
+//! diagram and the carry-over to the thrust-restraint page.
+
+use crate::catalog::{Report, Table};
+use crate::units::{self, QuantityKind as Q};
+use crate::vector::Vec3;
+
+use super::super::common;
+use super::model::{Inputs, Junction, Solved};
+use super::{BRANCHES, JUNCTION_OPTIONS};
+
+/// Writes the whole report of a solved junction.
+pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
+    let (balance, thrust, port_of) = (&solved.balance, solved.thrust, &solved.port_of);
+    let branches = &inputs.branches;
+    let (on_outside, k_on_common) = (inputs.on_outside(), inputs.k_on_common());
+    let c = solved.common_port;
+    let in_plane = (thrust.x * thrust.x + thrust.y * thrust.y).sqrt();
+    report.output("thrust_in_plane", in_plane);
+    if in_plane > 0.0 {
+        report.output("thrust_angle", thrust.plane_angle());
+    }
+    report.output("thrust", thrust.norm());
+    report.output("thrust_x", thrust.x);
+    report.output("thrust_y", thrust.y);
+    report.output("thrust_z", thrust.z);
+    report.output("static_thrust", solved.static_thrust.norm());
+    let common_state = &balance.ports[c];
+    if let Some((_, &i)) = branches.iter().zip(port_of).find(|(b, _)| b.share.is_none()) {
+        if common_state.volume_flow > 0.0 {
+            report.output("solved_share", balance.ports[i].volume_flow / common_state.volume_flow);
+        }
+    }
+    report.output("flow", common_state.volume_flow);
+    report.output("mass_flow", common_state.mass_flow);
+    report.output("v_common", common_state.speed);
+    for (b, &i) in branches.iter().zip(port_of) {
+        let keys = &BRANCHES[b.index];
+        let state = &balance.ports[i];
+        report.output(keys.p_out, state.pressure);
+        report.output(keys.q_out, state.volume_flow);
+        report.output(keys.v_out, state.speed);
+    }
+    let pressure_force: f64 = balance.ports.iter().map(|s| s.pressure_force.norm()).sum();
+    let momentum: f64 = balance.ports.iter().map(|s| s.momentum_outflow.norm()).sum();
+    if pressure_force > 0.0 {
+        report.output("momentum_share", momentum / pressure_force);
+    }
+    report.output("fluid_weight", balance.fluid_weight.norm());
+    report.output("density", inputs.fluid.density);
+    independent_checks(report, inputs, solved);
+
+    common::forward_warnings(balance, report);
+    common::pipe_velocity_warning(report, inputs.flow.key(), "common pipe", common_state.speed);
+    for (b, &i) in branches.iter().zip(port_of) {
+        let state = &balance.ports[i];
+        let keys = &BRANCHES[b.index];
+        common::pipe_velocity_warning(report, keys.d, &format!("branch {}", b.index + 1), state.speed);
+        if state.pressure < 0.0 {
+            report.warn(
+                Some(keys.k),
+                format!(
+                    "the gauge pressure in branch {} comes out below atmospheric: check the loss and the flow split",
+                    b.index + 1
+                ),
+            );
+        }
+    }
+    for (n, a) in branches.iter().enumerate() {
+        for b in branches.iter().skip(n + 1) {
+            if a.direction.dot(b.direction) > (5f64).to_radians().cos() {
+                report.warn(
+                    Some(BRANCHES[b.index].angle),
+                    format!(
+                        "branches {} and {} point the same way and would overlap",
+                        a.index + 1,
+                        b.index + 1
+                    ),
+                );
+            }
+        }
+    }
+
+    let system = report.system();
+    let carried = thrust - balance.fluid_weight;
+    let carried_norm = carried.norm();
+    let elevation = if carried_norm > 0.0 {
+        (carried.z / carried_norm).clamp(-1.0, 1.0).asin()
+    } else {
+        0.0
+    };
+    report.solution.tables.push(common::basis_table(vec![
+        (
+            "Flow",
+            match inputs.junction {
+                Junction::Dividing => JUNCTION_OPTIONS[0].label,
+                Junction::Combining => JUNCTION_OPTIONS[1].label,
+            }
+            .to_string(),
+        ),
+        (
+            "Loss coefficients on",
+            if k_on_common {
+                "the common pipe's velocity"
+            } else {
+                "each branch's own velocity"
+            }
+            .to_string(),
+        ),
+        (
+            "Thrust area basis",
+            if on_outside {
+                "outside diameters (push-on, mechanical or restrained joints): the pressure on each joint's wall annulus is its own ledger term; momentum on the bores".to_string()
+            } else {
+                "inside diameters (pressure and momentum terms)".to_string()
+            },
+        ),
+        (
+            "Carried to the thrust-block page",
+            "pressure and momentum thrust; the fluid's weight is left to the bedding".to_string(),
+        ),
+    ]));
+    report.solution.tables.push(branch_table(inputs, solved, report));
+    report.solution.tables.push(common::ledger_table(balance, system));
+    report.solution.tables.push(common::ports_table(balance, system));
+    let diagram = super::diagram::diagram(inputs, solved, report);
+    report.solution.diagrams.push(diagram);
+    let carry = common::thrust_carry_over(
+        report,
+        "Size a thrust block for this junction's thrust",
+        carried_norm,
+        elevation,
+    );
+    report.solution.carry_over.push(carry);
+}
+
+/// Checks the balance against results computed without the engine:
+///
+/// - mass: the engine's branch flows add up to the common-pipe flow the user gave;
+/// - thrust: each face's impulse function (p + ρV²)·A, plus p on the wall annulus on
+///   the outside-diameter basis, along its outward normal, with the branch pressures
+///   from Bernoulli written out per branch (p_i = p₀ + ρ(V₀² − V_i²)/2 + ρg(z₀ − z_i)
+///   ∓ K_i·ρV_ref²/2, − dividing, + combining), velocities from the given flows
+///   (the one left empty: the common flow less the others), and the weight ρg·volume: T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
+fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
+    let (dividing, k_on_common) = (inputs.dividing(), inputs.k_on_common());
+    let (p, rho, d_common) = (inputs.p.value, inputs.fluid.density, inputs.d_common.value);
+    let (total_flow, stub, volume) = (solved.total_flow, solved.stub, solved.volume);
+    let (branches, branch_flows) = (&inputs.branches, &solved.branch_flows);
+    let (balance, port_of) = (&solved.balance, &solved.port_of);
+    let g = crate::units::STANDARD_GRAVITY;
+    let engine_sum: f64 = port_of.iter().map(|&i| balance.ports[i].volume_flow).sum();
+    report.check(
+        "Sum of the branch flows",
+        "the common-pipe flow as given",
+        Q::VolumeFlow,
+        engine_sum,
+        total_flow,
+        1e-9,
+        0.0,
+    );
+
+    let a_common = common::circle_area(d_common);
+    let v_common = total_flow / a_common;
+    let given: f64 = branch_flows.iter().flatten().sum();
+    // Outward normal of the common pipe's face: upstream (−x) when it feeds the
+    // junction, downstream (+x) when it is fed.
+    let common_normal = Vec3::new(if dividing { -1.0 } else { 1.0 }, 0.0, 0.0);
+    let face = |pressure: f64, speed: f64, area: f64, outside_area: f64, normal: Vec3| {
+        normal * (-((pressure + rho * speed * speed) * area + pressure * (outside_area - area)))
+    };
+    let a_common_outside = inputs
+        .common_outside
+        .map_or(a_common, |od| common::circle_area(od.value));
+    let mut thrust = face(p, v_common, a_common, a_common_outside, common_normal);
+    let mut scale = (p.abs() + rho * v_common * v_common) * a_common_outside;
+    for (b, q) in branches.iter().zip(branch_flows) {
+        let q = q.unwrap_or((total_flow - given).max(0.0));
+        let area = common::circle_area(b.diameter.value);
+        let speed = q / area;
+        let v_ref = if k_on_common { v_common } else { speed };
+        let loss = b.k.value * rho * v_ref * v_ref / 2.0;
+        // The common face sits at z = 0; a branch's face one stub along its axis.
+        let z = stub * b.direction.z * if dividing { 1.0 } else { -1.0 };
+        let pressure =
+            p + rho * (v_common * v_common - speed * speed) / 2.0 - rho * g * z + if dividing { -loss } else { loss };
+        let normal = b.direction * if dividing { 1.0 } else { -1.0 };
+        let outside_area = b.outside.map_or(area, |od| common::circle_area(od.value));
+        thrust += face(pressure, speed, area, outside_area, normal);
+        scale += (pressure.abs() + rho * speed * speed) * outside_area;
+    }
+    thrust += Vec3::new(0.0, 0.0, -rho * g * volume);
+    scale += rho * g * volume;
+    let engine_thrust = balance.thrust();
+    let basis = "Σ (p + ρV²)·A on each face with Bernoulli branch pressures, plus the weight";
+    for (label, value, reference) in [
+        ("Thrust along the common pipe (x)", engine_thrust.x, thrust.x),
+        ("Thrust across it, in the plan (y)", engine_thrust.y, thrust.y),
+        ("Thrust out of the plan (z)", engine_thrust.z, thrust.z),
+    ] {
+        report.check(label, basis, Q::Force, value, reference, 1e-9, scale);
+    }
+}
+
+fn branch_table(inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Table {
+    let (branches, port_of, balance, dividing) =
+        (&inputs.branches, &solved.port_of, &solved.balance, inputs.dividing());
+    let mut table = Table {
+        key: "branches",
+        title: format!(
+            "Branches ({})",
+            if dividing { "dividing flow" } else { "combining flow" }
+        ),
+        columns: [
+            "Branch",
+            "direction",
+            "elevation",
+            "diameter",
+            "share",
+            "flow",
+            "velocity",
+            "K",
+            "head loss",
+            "gauge pressure",
+        ]
+        .iter()
+        .map(|s| s.to_string())
+        .collect(),
+        rows: Vec::new(),
+        emphasised_rows: Vec::new(),
+    };
+    for (n, (b, &i)) in branches.iter().zip(port_of).enumerate() {
+        let state = &balance.ports[i];
+        let common_flow = balance.ports.first().map(|s| s.volume_flow).unwrap_or(0.0);
+        let share = if common_flow > 0.0 {
+            state.volume_flow / common_flow
+        } else {
+            b.share.map_or(0.0, |s| s.value)
+        };
+        let head_loss = balance.streams.get(n).map(|s| s.head_loss).unwrap_or(0.0);
+        let angle = b.direction.y.atan2(b.direction.x);
+        let elevation = b.direction.z.clamp(-1.0, 1.0).asin();
+        table.rows.push(vec![
+            format!("{}{}", b.index + 1, if b.share.is_none() { " (solved)" } else { "" }),
+            report.fmt(angle, Q::Angle),
+            report.fmt(elevation, Q::Angle),
+            report.fmt(b.diameter.value, Q::Length),
+            format!("{} %", units::format_significant(100.0 * share, 4)),
+            report.fmt(state.volume_flow, Q::VolumeFlow),
+            report.fmt(state.speed, Q::Velocity),
+            units::format_significant(b.k.value, 4),
+            report.fmt(head_loss, Q::Length),
+            report.fmt(state.pressure, Q::Pressure),
+        ]);
+        if b.share.is_none() {
+            table.emphasised_rows.push(n);
+        }
+    }
+    table
+}
