@@ -19,6 +19,8 @@
 //! - [`calculators`]: the handbook's calculators, registered in one list.
 //! - [`quadrature`]: tanh-sinh integration for end-singular integrands.
 //! - [`error`]: typed errors that name the field, the problem and the valid range.
+//! - [`verification`]: runs a sourced reference case and judges it (tests and the
+//!   live verification page share it).
 
 pub mod calculators;
 pub mod catalog;
@@ -32,6 +34,7 @@ pub mod quadrature;
 pub mod units;
 pub mod vector;
 pub mod velocity_profile;
+pub mod verification;
 
 pub use calculators::{solve, Outcome};
 pub use catalog::Request;

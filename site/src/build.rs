@@ -280,7 +280,10 @@ fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<So
         let entry = entry.map_err(|e| SiteError::io(&assets, e))?;
         let name = entry.file_name().to_string_lossy().into_owned();
         let path = entry.path();
-        if name.starts_with('.') || ["app.js", "style.css", "sw.js"].contains(&name.as_str()) || !path.is_file() {
+        if name.starts_with('.')
+            || ["app.js", "style.css", "sw.js", crate::verify::SCRIPT].contains(&name.as_str())
+            || !path.is_file()
+        {
             continue;
         }
         extra_assets.push((name, fs::read(&path).map_err(|e| SiteError::io(&path, e))?));
@@ -379,6 +382,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         );
         calculator_pages.push(file);
     }
+    crate::verify::add_page(&site, root, &glue_name, &page_assets, &mut files)?;
 
     // Cache version: a hash over every file's name and content.
     let mut all = Sha256::new();

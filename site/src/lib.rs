@@ -30,7 +30,7 @@
 //!
 //! Modules: [`build`] (the build pipeline), [`wasm_build`] (cargo + wasm-bindgen),
 //! [`pages`] (HTML), [`notes`] (Markdown and math), [`icons`] (PNG/SVG icon),
-//! [`server`] (loopback HTTP), [`error`].
+//! [`server`] (loopback HTTP), [`verify`] (the live verification page), [`error`].
 
 pub mod build;
 pub mod error;
@@ -38,6 +38,7 @@ pub mod icons;
 pub mod notes;
 pub mod pages;
 pub mod server;
+pub mod verify;
 pub mod wasm_build;
 
 pub use build::{build_site, workspace_root, BuildOptions, BuildReport, ColdLoad, FileReport};

@@ -53,7 +53,7 @@ pub fn page_file(key: &str) -> String {
     format!("{key}.html")
 }
 
-fn head(title: &str, description: &str, assets: &PageAssets) -> String {
+pub(crate) fn head(title: &str, description: &str, assets: &PageAssets) -> String {
     format!(
         concat!(
             "<!doctype html>\n<html lang=\"en\">\n<head>\n",
@@ -80,7 +80,7 @@ fn head(title: &str, description: &str, assets: &PageAssets) -> String {
     )
 }
 
-fn header() -> &'static str {
+pub(crate) fn header() -> &'static str {
     concat!(
         "<header>\n",
         "<a class=\"site-name\" href=\"index.html\">Fluxledger</a>\n",
@@ -89,7 +89,7 @@ fn header() -> &'static str {
     )
 }
 
-fn footer(assets: &PageAssets, page: &str) -> String {
+pub(crate) fn footer(assets: &PageAssets, page: &str) -> String {
     format!(
         concat!(
             "<footer>\n",
@@ -97,6 +97,7 @@ fn footer(assets: &PageAssets, page: &str) -> String {
             "an offline handbook of control-volume force calculations. ",
             "Printed sheets carry the link to the calculation and the version; ",
             "results support, and do not replace, a licensed engineer's judgement and local codes.</p>\n",
+            "<p class=\"verify-link\"><a href=\"verify.html\">Checks: every sourced case, run in your browser</a></p>\n",
             "</footer>\n"
         ),
         version = escape(&assets.version),

@@ -19,10 +19,14 @@
 mod cdp;
 #[path = "browser/harness.rs"]
 mod harness;
+#[path = "browser/layout.rs"]
+mod layout;
 #[path = "browser/links.rs"]
 mod links;
 #[path = "browser/pages.rs"]
 mod pages;
+#[path = "browser/verify.rs"]
+mod verify;
 
 use std::time::Duration;
 

@@ -25,6 +25,7 @@
 //! `None` becomes `null` and maps become plain objects.
 
 pub mod csv;
+pub mod verify;
 pub mod view;
 
 use std::collections::BTreeMap;
