@@ -507,7 +507,7 @@ pub fn evaluate(case: &Case) -> Result<Evaluation, String> {
             }
             let request = Request {
                 inputs: case.inputs.clone(),
-                units: case.units.clone(),
+                field_units: case.units.clone(),
                 system: case.system,
             };
             let outcome = fluxledger_core::solve(key, &request);

@@ -138,7 +138,7 @@ fn every_carry_over_link_holds_the_core_inputs_and_opens_cleanly() {
     for spec in calculators::catalog() {
         let request = Request {
             inputs: demo_inputs(&spec),
-            units: Default::default(),
+            field_units: Default::default(),
             system: UnitSystem::Si,
         };
         let Ok(solution) = fluxledger_core::solve(spec.key, &request).result else {
@@ -373,7 +373,7 @@ fn check_csv_of_every_table(
     }
     let request = Request {
         inputs,
-        units: Default::default(),
+        field_units: Default::default(),
         system: UnitSystem::Si,
     };
     let solution = fluxledger_core::solve(key, &request)
@@ -469,7 +469,7 @@ fn every_table_downloads_as_csv_with_the_cells_of_the_result() {
             inputs.insert("rows".into(), rows.clone());
             inputs
         },
-        units: Default::default(),
+        field_units: Default::default(),
         system: UnitSystem::Si,
     };
     let solution = fluxledger_core::solve("line-schedule", &request)

@@ -135,7 +135,7 @@ fn case_query(case: &Case, fields: &[&str]) -> String {
 fn core_solution(key: &str, case: &Case) -> Option<Solution> {
     let request = Request {
         inputs: case.inputs.clone(),
-        units: case.units.clone(),
+        field_units: case.units.clone(),
         system: case.system,
     };
     fluxledger_core::solve(key, &request).result.ok()
