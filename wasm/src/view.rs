@@ -622,19 +622,26 @@ pub fn split_label(label: &str) -> (String, String) {
 
 /// Reads a link's `(key, value)` pairs for page `key` in today's vocabulary, through
 /// the core's alias table ([`glossary::upgrade`]). Pairs this page already
-/// understands (a key it has, with a value it offers) pass unchanged, so a key that
-/// is retired on one page but still in use on another is never mistranslated. The
+/// understands (a key it has, with any value but a renamed one it no longer offers)
+/// pass unchanged, so a key still in use is never mistranslated. The
 /// unit system's key `units=` is read as `system=` (unless the link gives both) and
 /// reported the same way.
 pub fn upgrade_view(page: &str, pairs: &[(String, String)]) -> UpgradeView {
     let spec = calculators::spec(page);
+    // A key the page has is never renamed; its value only when the glossary renames
+    // that value and the page no longer offers it.
     let understood = |key: &str, value: &str| {
         key == "system"
             || spec
                 .as_ref()
                 .and_then(|s| s.field(key))
                 .is_some_and(|field| match field.kind {
-                    FieldKind::Choice(options) => options.iter().any(|o| o.key == value),
+                    FieldKind::Choice(options) => {
+                        options.iter().any(|o| o.key == value)
+                            || !glossary::VALUE_ALIASES
+                                .iter()
+                                .any(|a| a.page == page && a.key == key && a.old == value)
+                    }
                     _ => true,
                 })
     };
@@ -1334,6 +1341,9 @@ mod tests {
             if spec.field(alias.old).is_some() {
                 assert_eq!(up.pairs, link(&[(alias.old, value)]), "{}: {}", alias.page, alias.old);
                 assert!(up.translations.is_empty());
+                // A field left blank in a link is still this page's field.
+                let blank = upgrade_view(alias.page, &link(&[(alias.old, "")]));
+                assert_eq!(blank.pairs, link(&[(alias.old, "")]), "{}: {}", alias.page, alias.old);
             } else {
                 let core = glossary::upgrade(alias.page, &link(&[(alias.old, value)]));
                 assert_eq!(up.pairs, core.pairs, "{}: {}", alias.page, alias.old);

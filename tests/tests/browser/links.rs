@@ -592,7 +592,7 @@ fn switch_to(page: &Page, browser: &mut Browser, system: &str) {
     wait(
         page,
         browser,
-        &format!("new URLSearchParams(location.search).get('units') === '{system}' && document.body.dataset.state === 'ready'"),
+        &format!("new URLSearchParams(location.search).get('system') === '{system}' && document.body.dataset.state === 'ready'"),
     );
 }
 
