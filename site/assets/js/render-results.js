@@ -74,7 +74,8 @@ export function render(result) {
     }
   }
   ui.headline.classList.toggle("has-warnings", warningList !== null);
-  ui.headline.replaceChildren(el("h2", { class: "panel-title", text: "Result" }), headline, warningList);
+  // (replaceChildren would write a missing warning list as the text "null")
+  ui.headline.replaceChildren(...[el("h2", { class: "panel-title", text: "Result" }), headline, warningList].filter(Boolean));
 
   const parts = [];
   const links = renderCarryOver(result.carry_over || []);
