@@ -1,6 +1,7 @@
 //! Building the static site into a folder.
 //!
-//! The output is flat: pages, the hashed page script, stylesheet, wasm glue and
+//! The output is flat: pages, the hashed page script (and its modules, see
+//! [`link_modules`]), stylesheet, wasm glue and
 //! wasm module, the service worker, the manifest and the icons, all side by side so
 //! that every URL is relative and the service worker's scope (its own folder)
 //! covers everything. File names of the script, stylesheet, glue and module carry
@@ -447,6 +448,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     }
     let (app_js, linked) =
         link_modules(&app_js, &modules).map_err(|message| SiteError::content(&assets.join(MODULES_DIR), message))?;
+    let module_names: Vec<String> = linked.keys().cloned().collect();
     for (name, text) in linked {
         files.insert(name, text.into_bytes());
     }
@@ -527,17 +529,21 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         .find(|p| *p == "bend.html")
         .or(calculator_pages.first());
     let cold_load = cold_page.map(|page| {
-        let names = [
+        // Every module of the page script is loaded on every page.
+        let names: Vec<String> = [
             page.clone(),
             stylesheet.clone(),
             script.clone(),
             glue_name.clone(),
             wasm_name.clone(),
-        ];
+        ]
+        .into_iter()
+        .chain(module_names.iter().cloned())
+        .collect();
         let counted: Vec<&FileReport> = reports.iter().filter(|r| names.contains(&r.name)).collect();
         ColdLoad {
             page: page.clone(),
-            files: names.to_vec(),
+            files: names.clone(),
             bytes: counted.iter().map(|r| r.bytes).sum(),
             gzip_bytes: counted.iter().map(|r| r.gzip_bytes).sum(),
         }
