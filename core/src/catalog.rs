@@ -30,6 +30,17 @@ pub enum FieldKind {
     Text,
 }
 
+impl FieldKind {
+    /// The wire name of the kind: `"quantity"`, `"choice"` or `"text"`.
+    pub fn key(&self) -> &'static str {
+        match self {
+            FieldKind::Quantity(_) => "quantity",
+            FieldKind::Choice(_) => "choice",
+            FieldKind::Text => "text",
+        }
+    }
+}
+
 /// One option of a [`FieldKind::Choice`] field.
 #[derive(Clone, Debug, PartialEq)]
 pub struct ChoiceOption {

@@ -3,10 +3,15 @@
 //!
 //! The core keeps its types free of serde on purpose (it knows nothing of JSON or
 //! JavaScript); this module is the one place where they get a wire shape. Every
-//! struct here is a field-by-field copy of a core type with snake_case keys, as
-//! documented in the project's contract between core, adapter and page script.
-//! Nothing here computes, defaults or converts physical values: unit lists come from
-//! [`fluxledger_core::units::units_of`], labels and messages from the core.
+//! struct here is a copy of a core type with snake_case keys; enum names on the wire
+//! are the core's own `key()` (quantity kinds, shape styles, field kinds, unit
+//! systems), so there is no mirror enum to keep in step. Nothing here computes,
+//! defaults or converts physical values: unit lists and labels come from
+//! [`fluxledger_core::units`], default units and visibility rules from
+//! [`fluxledger_core::catalog`], messages from the core. Values travel split: an
+//! output as `{number, unit, text, shown}`, a table cell as `{text, number, unit,
+//! shown}` under per-column `{title, unit, kind}` ([`Table::layout`]), an arrow label
+//! as `{label, name, value}`, so the page script takes no text apart.
 //!
 //! Non-finite numbers are never meant to leave the core (its report filters them),
 //! but a NaN or infinity that slipped through is written as `null` here, because
@@ -182,9 +187,8 @@ pub fn calculator_view(spec: &CalculatorSpec) -> CalculatorView {
 }
 
 pub fn field_view(spec: &CalculatorSpec, field: &FieldSpec) -> FieldView {
-    let (kind, quantity, unit_ids, options) = match &field.kind {
+    let (quantity, unit_ids, options) = match &field.kind {
         FieldKind::Quantity(q) => (
-            "quantity",
             Some(q.key()),
             units::units_of(*q)
                 .map(|u| UnitView {
@@ -195,7 +199,6 @@ pub fn field_view(spec: &CalculatorSpec, field: &FieldSpec) -> FieldView {
             Vec::new(),
         ),
         FieldKind::Choice(options) => (
-            "choice",
             None,
             Vec::new(),
             options
@@ -206,12 +209,12 @@ pub fn field_view(spec: &CalculatorSpec, field: &FieldSpec) -> FieldView {
                 })
                 .collect(),
         ),
-        FieldKind::Text => ("text", None, Vec::new(), Vec::new()),
+        FieldKind::Text => (None, Vec::new(), Vec::new()),
     };
     FieldView {
         key: field.key,
         label: field.label,
-        kind,
+        kind: field.kind.key(),
         quantity,
         units: unit_ids,
         default_units: DefaultUnitsView {
