@@ -823,3 +823,95 @@ fn an_old_key_link_opens_in_todays_keys_with_the_same_result_and_one_notice() {
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
+
+/// Event listeners the DevTools protocol finds on the element `expression` names
+/// (event types, sorted).
+fn listeners(page: &Page, browser: &mut Browser, expression: &str) -> Vec<String> {
+    let found = page
+        .call(browser, "Runtime.evaluate", json!({ "expression": expression }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    let object = found["result"]["objectId"]
+        .as_str()
+        .unwrap_or_else(|| panic!("{expression} names no element: {found}"))
+        .to_string();
+    let listed = page
+        .call(browser, "DOMDebugger.getEventListeners", json!({ "objectId": object }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    let mut types: Vec<String> = listed["listeners"]
+        .as_array()
+        .cloned()
+        .unwrap_or_default()
+        .iter()
+        .filter_map(|l| l["type"].as_str().map(str::to_string))
+        .collect();
+    types.sort();
+    types
+}
+
+/// The form has one listener per event type on the calculator section and none on
+/// its controls, unit selectors, unit-system switch or buttons, and the delegated
+/// listeners still drive the page: typing recomputes, a unit selector and the
+/// unit-system switch take effect.
+#[test]
+fn one_delegated_listener_per_event_drives_every_control() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch::default());
+    open(&page, &mut browser, &format!("{}/bend.html", site.base));
+
+    assert_eq!(
+        listeners(&page, &mut browser, "document.getElementById('calculator')"),
+        ["change", "click", "input"]
+    );
+    let count = eval(
+        &page,
+        &mut browser,
+        "document.querySelectorAll('#calculator input, #calculator select, #calculator textarea, #calculator button').length",
+    );
+    let count = count.as_u64().unwrap_or(0);
+    assert!(count > 10, "only {count} controls");
+    for index in 0..count {
+        let expression = format!(
+            "document.querySelectorAll('#calculator input, #calculator select, #calculator textarea, #calculator button')[{index}]"
+        );
+        let own = listeners(&page, &mut browser, &expression);
+        // The notices' own buttons (dismiss, reload) keep theirs; form controls have none.
+        let in_notice = eval(
+            &page,
+            &mut browser,
+            &format!("Boolean({expression}.closest('#notices'))"),
+        );
+        if in_notice != json!(true) {
+            let what = eval(
+                &page,
+                &mut browser,
+                &format!("(e => e.tagName + ' ' + (e.name || e.className))({expression})"),
+            );
+            assert!(own.is_empty(), "{what}: listeners of its own: {own:?}");
+        }
+    }
+
+    // Typing into the pressure field recomputes through the delegated listener.
+    let before = output_text(&page, &mut browser, "thrust").unwrap_or_default();
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const f = document.getElementById('field-p'); f.value = '20'; f.dispatchEvent(new Event('input', { bubbles: true })); })()",
+    );
+    wait(&page, &mut browser, "new URLSearchParams(location.search).get('p') === '20kPa' || new URLSearchParams(location.search).get('p')?.startsWith('20')");
+    let after = output_text(&page, &mut browser, "thrust").unwrap_or_default();
+    assert_ne!(before, after, "typing did not recompute");
+    // A unit selector takes effect.
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const s = document.querySelector('[data-field=p] select.unit'); s.value = 'bar'; s.dispatchEvent(new Event('change', { bubbles: true })); })()",
+    );
+    wait(
+        &page,
+        &mut browser,
+        "new URLSearchParams(location.search).get('p') === '20bar'",
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
