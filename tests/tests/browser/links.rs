@@ -720,10 +720,13 @@ fn old_link(page: &str) -> (Vec<(String, String)>, usize) {
             continue;
         }
         let Some(field) = spec.field(alias.new) else { continue };
+        // A renamed value that reads as the field's example first (the example
+        // inputs are known to solve), else any renamed value the field offers.
         let renamed = alias
             .values
             .iter()
-            .find(|(_, new)| offers(alias.new, new))
+            .find(|(_, new)| *new == field.demo)
+            .or_else(|| alias.values.iter().find(|(_, new)| offers(alias.new, new)))
             .map(|(old, _)| *old);
         let value = match field.kind {
             FieldKind::Choice(_) => renamed.or((!field.demo.is_empty()).then_some(field.demo)),
