@@ -1237,7 +1237,8 @@ mod label_tests {
 
     #[test]
     fn shown_values_split_into_number_and_unit() {
-        let cases: &[(&str, Option<(&str, Option<&str>)>)] = &[
+        type Split<'a> = Option<(&'a str, Option<&'a str>)>;
+        let cases: &[(&str, Split)] = &[
             ("12.4 kN", Some(("12.4", Some("kN")))),
             ("45 deg", Some(("45", Some("deg")))),
             ("-3.5e-7 m2/s", Some(("-3.5e-7", Some("m2/s")))),

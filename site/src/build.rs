@@ -447,7 +447,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         None => app_js = fill(&app_js, GLUE_PLACEHOLDER, &glue_name, &assets.join("app.js"))?,
     }
     let (app_js, linked) =
-        link_modules(&app_js, &modules).map_err(|message| SiteError::content(&assets.join(MODULES_DIR), message))?;
+        link_modules(&app_js, &modules).map_err(|message| SiteError::content(assets.join(MODULES_DIR), message))?;
     let module_names: Vec<String> = linked.keys().cloned().collect();
     for (name, text) in linked {
         files.insert(name, text.into_bytes());
