@@ -394,6 +394,9 @@ pub enum ShapeView {
     Text {
         at: [Num; 2],
         text: String,
+        /// As for an arrow's label: the text without a trailing value, and the value.
+        name: String,
+        value: String,
         style: StyleView,
     },
 }
@@ -714,11 +717,16 @@ pub fn shape_view(shape: &Shape) -> ShapeView {
                 style: style.key(),
             }
         }
-        Shape::Text { at, text, style } => ShapeView::Text {
-            at: point(*at),
-            text: text.clone(),
-            style: style.key(),
-        },
+        Shape::Text { at, text, style } => {
+            let (name, value) = split_label(text);
+            ShapeView::Text {
+                at: point(*at),
+                text: text.clone(),
+                name,
+                value,
+                style: style.key(),
+            }
+        }
     }
 }
 
@@ -1055,7 +1063,7 @@ mod tests {
                 {"type": "circle", "center": [0.5, 0.5], "radius": 0.25, "style": "control_volume"},
                 {"type": "arrow", "from": [0.0, 0.0], "to": [1.0, 1.0], "label": "R", "name": "R", "value": "",
                  "style": "restraint"},
-                {"type": "text", "at": [0.2, 0.3], "text": "inlet", "style": "label"},
+                {"type": "text", "at": [0.2, 0.3], "text": "inlet", "name": "inlet", "value": "", "style": "label"},
             ])
         );
         assert_eq!(

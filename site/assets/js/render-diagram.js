@@ -120,14 +120,23 @@ export function renderDiagram(diagram, index, width) {
       case "text": {
         const at = shape.at || [];
         if (!finite(at[0], at[1]) || !shape.text) break;
-        labels.push({ at, ux: 0, uy: 0, text: String(shape.text), style, plain: true });
+        labels.push({
+          at,
+          ux: 0,
+          uy: 0,
+          text: String(shape.text),
+          name: String(shape.name || ""),
+          value: String(shape.value || ""),
+          style,
+          plain: true,
+        });
         break;
       }
       default:
         break;
     }
   }
-  // On narrow screens an arrow label puts its value (split off by the core) on a
+  // On narrow screens a label puts its value (split off by the adapter) on a
   // line of its own, and long text is wrapped at spaces, so that labels do not
   // shrink the drawing.
   const narrow = width < 480;
