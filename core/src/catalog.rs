@@ -30,6 +30,17 @@ pub enum FieldKind {
     Text,
 }
 
+impl FieldKind {
+    /// The wire name of the kind: `"quantity"`, `"choice"` or `"text"`.
+    pub fn key(&self) -> &'static str {
+        match self {
+            FieldKind::Quantity(_) => "quantity",
+            FieldKind::Choice(_) => "choice",
+            FieldKind::Text => "text",
+        }
+    }
+}
+
 /// One option of a [`FieldKind::Choice`] field.
 #[derive(Clone, Debug, PartialEq)]
 pub struct ChoiceOption {
@@ -343,6 +354,10 @@ pub struct OutputValue {
     pub si: f64,
     /// Formatted in the requested unit system, unit included (`"12.4 kN"`).
     pub text: String,
+    /// The number of `text` alone (`"12.4"`).
+    pub number: String,
+    /// The unit of `text` (its id, `"kN"`; `"-"` for a plain number).
+    pub unit: &'static str,
     pub headline: bool,
 }
 
@@ -363,6 +378,68 @@ pub struct Table {
     pub rows: Vec<Vec<String>>,
     /// Rows (by index) that are totals or residuals and should stand out.
     pub emphasised_rows: Vec<usize>,
+}
+
+/// Whether a table column holds words or values (numbers, with or without a unit).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ColumnKind {
+    Text,
+    Number,
+}
+
+impl ColumnKind {
+    pub fn key(self) -> &'static str {
+        match self {
+            ColumnKind::Text => "text",
+            ColumnKind::Number => "number",
+        }
+    }
+}
+
+/// How one column of a [`Table`] is shown: its title without the unit, the unit its
+/// header names (`"area (mm2)"` → `area`, mm2), and its kind.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Column {
+    pub title: String,
+    pub unit: Option<&'static units::UnitDef>,
+    pub kind: ColumnKind,
+}
+
+impl Table {
+    /// The columns as shown, read from the headers and the cells the calculators
+    /// wrote: a column whose every filled cell begins with a number (and is not the
+    /// row-name column) is a [`ColumnKind::Number`] column; a header ending in a
+    /// unit id in parentheses names that unit. `—` and empty cells count as neither.
+    pub fn layout(&self) -> Vec<Column> {
+        self.columns
+            .iter()
+            .enumerate()
+            .map(|(index, header)| {
+                let (title, unit) = match header.strip_suffix(')').and_then(|h| h.rsplit_once(" (")) {
+                    Some((title, id)) => match units::UNITS.iter().find(|u| u.id == id) {
+                        Some(unit) => (title.to_string(), Some(unit)),
+                        None => (header.clone(), None),
+                    },
+                    None => (header.clone(), None),
+                };
+                let mut cells = self
+                    .rows
+                    .iter()
+                    .filter_map(|row| row.get(index))
+                    .map(|cell| cell.trim())
+                    .filter(|cell| !cell.is_empty() && *cell != "—")
+                    .peekable();
+                let numeric = index > 0
+                    && cells.peek().is_some()
+                    && cells.all(|cell| {
+                        let head = cell.split(' ').next().unwrap_or(cell);
+                        units::split_shown(head).is_some()
+                    });
+                let kind = if numeric { ColumnKind::Number } else { ColumnKind::Text };
+                Column { title, unit, kind }
+            })
+            .collect()
+    }
 }
 
 /// Drawing primitives in model coordinates (metres, x to the right, y up).
@@ -402,6 +479,26 @@ impl Shape {
             Shape::Circle { center, radius, .. } => center.iter().all(|x| x.is_finite()) && radius.is_finite(),
             Shape::Arrow { from, to, .. } => from.iter().chain(to).all(|x| x.is_finite()),
             Shape::Text { at, .. } => at.iter().all(|x| x.is_finite()),
+        }
+    }
+}
+
+impl ShapeStyle {
+    /// The wire name of the style (`"control_volume"`), the page's CSS class suffix.
+    pub fn key(self) -> &'static str {
+        match self {
+            ShapeStyle::Wall => "wall",
+            ShapeStyle::Fluid => "fluid",
+            ShapeStyle::ControlVolume => "control_volume",
+            ShapeStyle::Flow => "flow",
+            ShapeStyle::Restraint => "restraint",
+            ShapeStyle::Thrust => "thrust",
+            ShapeStyle::Pressure => "pressure",
+            ShapeStyle::Momentum => "momentum",
+            ShapeStyle::Weight => "weight",
+            ShapeStyle::Velocity => "velocity",
+            ShapeStyle::Guide => "guide",
+            ShapeStyle::Label => "label",
         }
     }
 }
@@ -569,12 +666,15 @@ impl<'a> Report<'a> {
             return;
         }
         let text = units::format_quantity(si, spec.kind, self.system);
+        let (number, unit) = units::display_parts(si, spec.kind, self.system);
         self.solution.outputs.push(OutputValue {
             key: spec.key,
             label: spec.label,
             kind: spec.kind,
             si,
             text,
+            number,
+            unit: unit.id,
             headline: spec.headline,
         });
     }
@@ -688,8 +788,9 @@ fn checks_table(checks: &[Check], system: UnitSystem) -> Table {
 pub struct Request {
     pub inputs: Inputs,
     /// Selector unit per field key; an unknown or wrong-kind unit id falls back to
-    /// the field's default for `system`.
-    pub units: BTreeMap<String, String>,
+    /// the field's default for `system` (see [`default_unit`]). Not the page's unit
+    /// system, which is `system` (`system=` in links).
+    pub field_units: BTreeMap<String, String>,
     pub system: UnitSystem,
 }
 
@@ -709,15 +810,26 @@ pub fn selector_unit(field: &FieldSpec, request: &Request) -> &'static str {
         return "";
     };
     if let Some(def) = request
-        .units
+        .field_units
         .get(field.key)
         .and_then(|id| units::find_unit_of(id, kind))
     {
         return def.id;
     }
-    match request.system {
-        UnitSystem::Si => field.si_unit,
-        UnitSystem::UsCustomary => field.us_unit,
+    default_unit(field, request.system)
+}
+
+/// The unit a field starts in for `system`: the spec's `si_unit` or `us_unit`, the
+/// other one when that is empty (the one rule; the page receives its result).
+pub fn default_unit(field: &FieldSpec, system: UnitSystem) -> &'static str {
+    let (own, other) = match system {
+        UnitSystem::Si => (field.si_unit, field.us_unit),
+        UnitSystem::UsCustomary => (field.us_unit, field.si_unit),
+    };
+    if own.is_empty() {
+        other
+    } else {
+        own
     }
 }
 
@@ -851,17 +963,30 @@ pub fn is_visible(field: &FieldSpec, request: &Request) -> bool {
 /// (a face height whose proportions selector is hidden for a crest block is hidden
 /// too). The chain is followed at most as deep as the spec is long.
 pub fn is_shown(spec: &CalculatorSpec, field: &FieldSpec, request: &Request) -> bool {
+    shown_when(spec, field).iter().all(|(controller, allowed)| {
+        let value = request.inputs.get(*controller).map(|s| s.trim()).unwrap_or("");
+        allowed.contains(&value)
+    })
+}
+
+/// The conditions under which a field is shown: its own `visible_when`, then that of
+/// the field controlling it, and so on (followed at most as deep as the spec is
+/// long). The field is shown while every condition holds; the page receives this
+/// chain and applies it as [`is_shown`] does.
+pub fn shown_when(spec: &CalculatorSpec, field: &FieldSpec) -> Vec<(&'static str, &'static [&'static str])> {
+    let mut chain = Vec::new();
     let mut current = field;
     for _ in 0..=spec.fields.len() {
-        if !is_visible(current, request) {
-            return false;
-        }
-        match current.visible_when.and_then(|(controller, _)| spec.field(controller)) {
-            Some(controller) => current = controller,
-            None => return true,
+        let Some((controller, allowed)) = current.visible_when else {
+            break;
+        };
+        chain.push((controller, allowed));
+        match spec.field(controller) {
+            Some(next) => current = next,
+            None => break,
         }
     }
-    true
+    chain
 }
 
 /// The most characters a free-text field (such as a pasted schedule) accepts.

@@ -157,6 +157,35 @@ impl QuantityKind {
         QuantityKind::Ratio,
     ];
 
+    /// The wire name of the kind (`"volume_flow"`): the variant name in snake_case.
+    pub fn key(self) -> &'static str {
+        match self {
+            QuantityKind::Length => "length",
+            QuantityKind::Area => "area",
+            QuantityKind::Volume => "volume",
+            QuantityKind::ConcreteVolume => "concrete_volume",
+            QuantityKind::Mass => "mass",
+            QuantityKind::Time => "time",
+            QuantityKind::Pressure => "pressure",
+            QuantityKind::SoilBearing => "soil_bearing",
+            QuantityKind::Velocity => "velocity",
+            QuantityKind::Acceleration => "acceleration",
+            QuantityKind::VolumeFlow => "volume_flow",
+            QuantityKind::MassFlow => "mass_flow",
+            QuantityKind::Force => "force",
+            QuantityKind::Torque => "torque",
+            QuantityKind::Power => "power",
+            QuantityKind::Angle => "angle",
+            QuantityKind::AngularSpeed => "angular_speed",
+            QuantityKind::Temperature => "temperature",
+            QuantityKind::Density => "density",
+            QuantityKind::SpecificWeight => "specific_weight",
+            QuantityKind::DynamicViscosity => "dynamic_viscosity",
+            QuantityKind::KinematicViscosity => "kinematic_viscosity",
+            QuantityKind::Ratio => "ratio",
+        }
+    }
+
     /// A plain name for messages ("a unit of pressure").
     pub fn name(self) -> &'static str {
         match self {
@@ -231,6 +260,13 @@ impl UnitSystem {
             UnitSystem::UsCustomary => "us",
         }
     }
+    /// How the system is named on the page ("US customary").
+    pub fn label(self) -> &'static str {
+        match self {
+            UnitSystem::Si => "SI",
+            UnitSystem::UsCustomary => "US customary",
+        }
+    }
     pub fn from_key(key: &str) -> Option<UnitSystem> {
         match key {
             "si" => Some(UnitSystem::Si),
@@ -252,6 +288,90 @@ pub struct UnitDef {
     /// after [`normalise_unit`]. Case variants are listed one by one, and only where
     /// no SI prefix could be misread (`KPA` for kPa, never `mpa` for MPa).
     pub aliases: &'static [&'static str],
+}
+
+impl UnitDef {
+    /// How the unit is shown to people (`m³/h`, `°C`, `kN·m`); the id stays the ASCII
+    /// spelling used in links and selectors' values. Typed back, a label reads as its
+    /// unit (superscripts and the centre dot fold to the id).
+    pub fn label(&self) -> &'static str {
+        unit_label(self.id)
+    }
+
+    /// A number in this unit as shown: `12.4 kN`, `45°`, a bare number for `-`.
+    pub fn show(&self, number: &str) -> String {
+        match self.label() {
+            "" | "-" => number.to_string(),
+            "°" => format!("{number}°"),
+            label => format!("{number} {label}"),
+        }
+    }
+}
+
+/// The display label of a unit id (see [`UnitDef::label`]); ids without superscripts
+/// or products are their own label.
+fn unit_label(id: &'static str) -> &'static str {
+    match id {
+        "m2" => "m²",
+        "mm2" => "mm²",
+        "cm2" => "cm²",
+        "in2" => "in²",
+        "ft2" => "ft²",
+        "m3" => "m³",
+        "ft3" => "ft³",
+        "yd3" => "yd³",
+        "in3" => "in³",
+        "kgf/cm2" => "kgf/cm²",
+        "m/s2" => "m/s²",
+        "ft/s2" => "ft/s²",
+        "m3/h" => "m³/h",
+        "m3/s" => "m³/s",
+        "ft3/s" => "ft³/s",
+        "N.m" => "N·m",
+        "kN.m" => "kN·m",
+        "lbf.ft" => "lbf·ft",
+        "lbf.in" => "lbf·in",
+        "ft.lbf/s" => "ft·lbf/s",
+        "deg" => "°",
+        "degC" => "°C",
+        "degF" => "°F",
+        "kg/m3" => "kg/m³",
+        "g/cm3" => "g/cm³",
+        "lb/ft3" => "lb/ft³",
+        "kN/m3" => "kN/m³",
+        "N/m3" => "N/m³",
+        "lbf/ft3" => "lbf/ft³",
+        "mPa.s" => "mPa·s",
+        "Pa.s" => "Pa·s",
+        "lb/(ft.s)" => "lb/(ft·s)",
+        "lbf.s/ft2" => "lbf·s/ft²",
+        "mm2/s" => "mm²/s",
+        "m2/s" => "m²/s",
+        "ft2/s" => "ft²/s",
+        other => other,
+    }
+}
+
+/// A formatted value split into its number and unit: `"12.4 kN"` → (`"12.4"`, kN),
+/// `"0.5"` → (`"0.5"`, none). Reads only what [`format_quantity`] and
+/// [`format_significant`] write (a finite number, one space, a unit id); anything
+/// else (words, `—`) is `None`. Used where formatted text leaves the core, so that
+/// the page never takes text apart itself.
+pub fn split_shown(text: &str) -> Option<(String, Option<&'static UnitDef>)> {
+    let text = text.trim();
+    let (number, unit) = match text.split_once(' ') {
+        Some((number, unit)) => (number, Some(unit)),
+        None => (text, None),
+    };
+    if !number.parse::<f64>().is_ok_and(f64::is_finite)
+        || number.contains(|c: char| c.is_ascii_alphabetic() && c != 'e')
+    {
+        return None;
+    }
+    match unit {
+        None => Some((number.to_string(), None)),
+        Some(id) => UNITS.iter().find(|u| u.id == id).map(|u| (number.to_string(), Some(u))),
+    }
 }
 
 const fn u(id: &'static str, kind: QuantityKind, factor: f64) -> UnitDef {
@@ -954,6 +1074,13 @@ pub fn display_unit(si: f64, kind: QuantityKind, system: UnitSystem) -> &'static
     find_unit_of(chosen, kind).unwrap_or(&UNITS[0])
 }
 
+/// An SI value in the display unit for `system`: the number (four significant
+/// figures) and the unit, apart ([`format_quantity`] joins them).
+pub fn display_parts(si: f64, kind: QuantityKind, system: UnitSystem) -> (String, &'static UnitDef) {
+    let def = display_unit(si, kind, system);
+    (format_significant((si - def.offset) / def.factor, 4), def)
+}
+
 /// Formats an SI value in the display unit for `system`, four significant figures.
 pub fn format_quantity(si: f64, kind: QuantityKind, system: UnitSystem) -> String {
     let def = display_unit(si, kind, system);
@@ -1080,6 +1207,79 @@ pub fn format_significant(value: f64, sig: i32) -> String {
         text.trim_start_matches('-').to_string()
     } else {
         text
+    }
+}
+
+#[cfg(test)]
+mod label_tests {
+    use super::*;
+
+    #[test]
+    fn every_label_reads_back_as_its_unit_and_has_no_ascii_exponent_or_dot() {
+        for unit in UNITS {
+            let label = unit.label();
+            assert!(!label.is_empty(), "{}", unit.id);
+            assert_eq!(
+                find_unit(label).map(|u| u.id),
+                Some(unit.id),
+                "label {label} of {}",
+                unit.id
+            );
+            if unit.id != "-" {
+                assert!(
+                    !label.contains(|c: char| c.is_ascii_digit() || c == '.'),
+                    "label {label} of {} keeps an ASCII exponent or dot",
+                    unit.id
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn shown_values_split_into_number_and_unit() {
+        type Split<'a> = Option<(&'a str, Option<&'a str>)>;
+        let cases: &[(&str, Split)] = &[
+            ("12.4 kN", Some(("12.4", Some("kN")))),
+            ("45 deg", Some(("45", Some("deg")))),
+            ("-3.5e-7 m2/s", Some(("-3.5e-7", Some("m2/s")))),
+            ("0.5", Some(("0.5", None))),
+            ("1.2 %", Some(("1.2", Some("%")))),
+            ("—", None),
+            ("yes (within 1 %)", None),
+            ("12 apples", None),
+            ("inf kN", None),
+            ("NaN", None),
+            ("12.4 kN up", None),
+        ];
+        for (text, expected) in cases {
+            let got = split_shown(text).map(|(n, u)| (n, u.map(|u| u.id)));
+            let expected = expected.map(|(n, u)| (n.to_string(), u));
+            assert_eq!(got, expected, "{text}");
+        }
+        let deg = find_unit("deg").map(|u| u.show("45"));
+        assert_eq!(deg.as_deref(), Some("45°"));
+        let flow = find_unit("m3/h").map(|u| u.show("3.2"));
+        assert_eq!(flow.as_deref(), Some("3.2 m³/h"));
+        let ratio = find_unit("-").map(|u| u.show("0.9"));
+        assert_eq!(ratio.as_deref(), Some("0.9"));
+    }
+
+    #[test]
+    fn display_parts_join_to_the_formatted_text() {
+        for kind in QuantityKind::ALL {
+            for si in [0.0, 1.5e-4, 0.75, 12.0, 3.4e4, 9.9e6] {
+                for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                    let (number, unit) = display_parts(si, kind, system);
+                    let text = format_quantity(si, kind, system);
+                    let joined = if unit.id == "-" {
+                        number.clone()
+                    } else {
+                        format!("{number} {}", unit.id)
+                    };
+                    assert_eq!(joined, text, "{kind:?} {si} {system:?}");
+                }
+            }
+        }
     }
 }
 

@@ -341,7 +341,7 @@ pub fn evaluate(case: &CaseData) -> Result<Evaluation, String> {
             }
             let request = Request {
                 inputs: case.inputs.clone(),
-                units: case.units.clone(),
+                field_units: case.units.clone(),
                 system: case.system,
             };
             let outcome = crate::solve(key, &request);

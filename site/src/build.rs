@@ -1,6 +1,7 @@
 //! Building the static site into a folder.
 //!
-//! The output is flat: pages, the hashed page script, stylesheet, wasm glue and
+//! The output is flat: pages, the hashed page script (and its modules, see
+//! [`link_modules`]), stylesheet, wasm glue and
 //! wasm module, the service worker, the manifest and the icons, all side by side so
 //! that every URL is relative and the service worker's scope (its own folder)
 //! covers everything. File names of the script, stylesheet, glue and module carry
@@ -28,8 +29,11 @@ use crate::error::{SiteError, SiteErrorKind};
 use crate::pages::{self, PageAssets};
 use crate::{icons, notes, wasm_build};
 
-/// Placeholder in `app.js` for the file name of the hashed wasm glue.
+/// Placeholder in a page-script module (`js/wasm.js`) for the file name of the
+/// hashed wasm glue.
 pub const GLUE_PLACEHOLDER: &str = "__GLUE__";
+/// Folder of `site/assets` with the page script's ES modules, imported by `app.js`.
+pub const MODULES_DIR: &str = "js";
 /// Placeholder in `sw.js` for the build's cache version (a bare hex string; put it
 /// inside quotes).
 pub const CACHE_VERSION_PLACEHOLDER: &str = "__CACHE_VERSION__";
@@ -231,6 +235,8 @@ pub fn build_site(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteEr
 
 struct Sources {
     app_js: String,
+    /// The page script's modules in `site/assets/js` (file name, text).
+    modules: BTreeMap<String, String>,
     style_css: Vec<u8>,
     sw_js: String,
     /// Other files in `site/assets` copied as they are (file name, bytes).
@@ -273,6 +279,7 @@ fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<So
     let app_js = read_text(&required_assets[0])?;
     let style_css = fs::read(&required_assets[1]).map_err(|e| SiteError::io(&required_assets[1], e))?;
     let sw_js = read_text(&required_assets[2])?;
+    let modules = read_modules(&assets.join(MODULES_DIR))?;
 
     let mut extra_assets = Vec::new();
     let entries = fs::read_dir(&assets).map_err(|e| SiteError::io(&assets, e))?;
@@ -298,11 +305,96 @@ fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<So
     }
     Ok(Sources {
         app_js,
+        modules,
         style_css,
         sw_js,
         extra_assets,
         notes: rendered,
     })
+}
+
+/// The `.js` files of the modules folder (none when it does not exist).
+fn read_modules(dir: &Path) -> Result<BTreeMap<String, String>, SiteError> {
+    let mut modules = BTreeMap::new();
+    if !dir.is_dir() {
+        return Ok(modules);
+    }
+    for entry in fs::read_dir(dir).map_err(|e| SiteError::io(dir, e))? {
+        let path = entry.map_err(|e| SiteError::io(dir, e))?.path();
+        let name = path
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        if path.is_file() && name.ends_with(".js") && !name.starts_with('.') {
+            modules.insert(name, fs::read_to_string(&path).map_err(|e| SiteError::io(&path, e))?);
+        }
+    }
+    Ok(modules)
+}
+
+/// Gives every page-script module a content-hashed name (`dom.1a2b3c4d.js`) and
+/// rewrites the import specifiers that name another module (`"./dom.js"` in a
+/// module, `"./js/main.js"` in the entry) to those names, so that the output stays
+/// flat, the browser loads the modules without a bundler, and the CSP needs no
+/// hashes. A module's hash covers its rewritten imports, so modules are hashed
+/// dependencies first. Returns the rewritten entry and the hashed modules.
+///
+/// # Errors
+/// A static import (`from "./x.js"`, `import "./x.js"`) of a module that does not
+/// exist, or an import cycle (its hashes could not be settled).
+pub fn link_modules(
+    entry: &str,
+    modules: &BTreeMap<String, String>,
+) -> Result<(String, BTreeMap<String, String>), String> {
+    for (name, text) in std::iter::once(("app.js", entry)).chain(modules.iter().map(|(n, t)| (n.as_str(), t.as_str())))
+    {
+        for opener in ["from \"./", "import \"./"] {
+            for (at, _) in text.match_indices(opener) {
+                let rest = &text[at + opener.len()..];
+                let target = rest.split('"').next().unwrap_or("");
+                let target = if name == "app.js" {
+                    target.strip_prefix(&format!("{MODULES_DIR}/")).unwrap_or(target)
+                } else {
+                    target
+                };
+                if !modules.contains_key(target) {
+                    return Err(format!("{name} imports ./{target}, which is not a module"));
+                }
+            }
+        }
+    }
+    let imports = |text: &str, other: &str| text.contains(&format!("\"./{other}\""));
+    let mut hashed: BTreeMap<String, String> = BTreeMap::new();
+    let mut out = BTreeMap::new();
+    while hashed.len() < modules.len() {
+        let ready = modules.iter().find(|(name, text)| {
+            !hashed.contains_key(*name)
+                && modules
+                    .keys()
+                    .all(|other| other == *name || hashed.contains_key(other) || !imports(text, other))
+        });
+        let Some((name, text)) = ready else {
+            let left: Vec<&str> = modules
+                .keys()
+                .filter(|n| !hashed.contains_key(*n))
+                .map(String::as_str)
+                .collect();
+            return Err(format!("the modules {} import each other in a cycle", left.join(", ")));
+        };
+        let mut linked = text.clone();
+        for (dep, dep_hashed) in &hashed {
+            linked = linked.replace(&format!("\"./{dep}\""), &format!("\"./{dep_hashed}\""));
+        }
+        let stem = name.strip_suffix(".js").unwrap_or(name);
+        let file = hashed_name(stem, "js", linked.as_bytes());
+        hashed.insert(name.clone(), file.clone());
+        out.insert(file, linked);
+    }
+    let mut entry = entry.to_string();
+    for (name, file) in &hashed {
+        entry = entry.replace(&format!("\"./{MODULES_DIR}/{name}\""), &format!("\"./{file}\""));
+    }
+    Ok((entry, out))
 }
 
 /// Replaces every occurrence of `token`, which must occur at least once.
@@ -343,7 +435,26 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     let glue_source = Path::new("wasm-bindgen glue");
     let glue_js = fill(&wasm.glue_js, wasm_build::GLUE_WASM_NAME, &wasm_name, glue_source)?;
     let glue_name = hashed_name("fluxledger_wasm", "js", glue_js.as_bytes());
-    let app_js = fill(&sources.app_js, GLUE_PLACEHOLDER, &glue_name, &assets.join("app.js"))?;
+    let mut modules = sources.modules.clone();
+    let glue_module = modules
+        .iter()
+        .find(|(_, text)| text.contains(GLUE_PLACEHOLDER))
+        .map(|(n, _)| n.clone());
+    let mut app_js = sources.app_js.clone();
+    match glue_module {
+        Some(name) => {
+            let path = assets.join(MODULES_DIR).join(&name);
+            let filled = fill(&modules[&name], GLUE_PLACEHOLDER, &glue_name, &path)?;
+            modules.insert(name, filled);
+        }
+        None => app_js = fill(&app_js, GLUE_PLACEHOLDER, &glue_name, &assets.join("app.js"))?,
+    }
+    let (app_js, linked) =
+        link_modules(&app_js, &modules).map_err(|message| SiteError::content(assets.join(MODULES_DIR), message))?;
+    let module_names: Vec<String> = linked.keys().cloned().collect();
+    for (name, text) in linked {
+        files.insert(name, text.into_bytes());
+    }
     let script = hashed_name("app", "js", app_js.as_bytes());
     let stylesheet = hashed_name("style", "css", &sources.style_css);
     files.insert(wasm_name.clone(), wasm.wasm);
@@ -422,17 +533,21 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         .find(|p| *p == "bend.html")
         .or(calculator_pages.first());
     let cold_load = cold_page.map(|page| {
-        let names = [
+        // Every module of the page script is loaded on every page.
+        let names: Vec<String> = [
             page.clone(),
             stylesheet.clone(),
             script.clone(),
             glue_name.clone(),
             wasm_name.clone(),
-        ];
+        ]
+        .into_iter()
+        .chain(module_names.iter().cloned())
+        .collect();
         let counted: Vec<&FileReport> = reports.iter().filter(|r| names.contains(&r.name)).collect();
         ColdLoad {
             page: page.clone(),
-            files: names.to_vec(),
+            files: names.clone(),
             bytes: counted.iter().map(|r| r.bytes).sum(),
             gzip_bytes: counted.iter().map(|r| r.gzip_bytes).sum(),
         }
@@ -526,6 +641,50 @@ mod tests {
         // SHA-256("abc") = ba7816bf 8f01cfea ... (FIPS 180-2, appendix B.1 example).
         assert_eq!(short_hash(b"abc"), "ba7816bf");
         assert_eq!(hashed_name("app", "js", b"abc"), "app.ba7816bf.js");
+    }
+
+    #[test]
+    fn modules_get_hashed_names_and_imports_follow_them() {
+        let modules: BTreeMap<String, String> = [
+            ("dom.js", "export const x = 1;\n"),
+            ("main.js", "import { x } from \"./dom.js\";\nimport \"./state.js\";\n"),
+            ("state.js", "import { x } from \"./dom.js\";\nexport const s = x;\n"),
+        ]
+        .into_iter()
+        .map(|(n, t)| (n.to_string(), t.to_string()))
+        .collect();
+        let (entry, out) = link_modules("import \"./js/main.js\";\n", &modules).expect("links");
+        let dom = hashed_name("dom", "js", modules["dom.js"].as_bytes());
+        let state = "import { x } from \"./DOM\";\nexport const s = x;\n".replace("DOM", &dom);
+        let state_name = hashed_name("state", "js", state.as_bytes());
+        let main = format!("import {{ x }} from \"./{dom}\";\nimport \"./{state_name}\";\n");
+        let main_name = hashed_name("main", "js", main.as_bytes());
+        assert_eq!(entry, format!("import \"./{main_name}\";\n"));
+        assert_eq!(out.get(&dom).map(String::as_str), Some("export const x = 1;\n"));
+        assert_eq!(out.get(&state_name), Some(&state));
+        assert_eq!(out.get(&main_name), Some(&main));
+        assert_eq!(out.len(), 3);
+        // A change in a dependency changes the names of every module importing it.
+        let mut changed = modules.clone();
+        changed.insert("dom.js".into(), "export const x = 2;\n".into());
+        let (entry2, _) = link_modules("import \"./js/main.js\";\n", &changed).expect("links");
+        assert_ne!(entry, entry2);
+    }
+
+    #[test]
+    fn missing_imports_and_cycles_are_refused() {
+        let one = |a: &str, b: &str| -> BTreeMap<String, String> {
+            [("a.js".to_string(), a.to_string()), ("b.js".to_string(), b.to_string())].into()
+        };
+        let missing = link_modules("import \"./js/a.js\";", &one("import \"./c.js\";", ""));
+        assert!(missing.is_err_and(|e| e.contains("c.js")));
+        let entry_missing = link_modules("import \"./js/z.js\";", &one("", ""));
+        assert!(entry_missing.is_err());
+        let cycle = link_modules(
+            "import \"./js/a.js\";",
+            &one("import { b } from \"./b.js\";", "import { a } from \"./a.js\";"),
+        );
+        assert!(cycle.is_err_and(|e| e.contains("cycle")));
     }
 
     #[test]

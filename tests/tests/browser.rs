@@ -71,7 +71,7 @@ mod reference_by_url {
         let mut failures = Vec::new();
         for case in &bend_cases {
             let mut params: Vec<(String, String)> = case.inputs.iter().map(|(k, v)| (k.clone(), v.clone())).collect();
-            params.push(("units".into(), case.system.key().into()));
+            params.push(("system".into(), case.system.key().into()));
             let url = format!("{}/bend.html?{}", site.base, query_string(&params));
             page.goto(&mut browser, &url).unwrap_or_else(|e| panic!("{e}"));
             let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
@@ -256,7 +256,7 @@ mod url_state {
         .unwrap();
         page.wait_for(
             &mut browser,
-            "location.search.includes('units=us')",
+            "location.search.includes('system=us')",
             Duration::from_secs(5),
         )
         .unwrap();
@@ -396,7 +396,7 @@ mod hostile_parameters {
             ("angle".into(), "NaN".into()),
             ("d_in".into(), "inf".into()),
             ("p".into(), "12 m".into()),
-            ("units".into(), "javascript:alert(1)".into()),
+            ("system".into(), "javascript:alert(1)".into()),
         ];
         let url = format!("{}/bend.html?{}", site.base, query_string(&hostile));
         page.goto(&mut browser, &url).unwrap();
@@ -566,8 +566,8 @@ mod hostile_parameters {
             ("p".into(), "12bar".into()),
             ("angle".into(), "45deg".into()),
             ("angle".into(), "45deg".into()),
-            ("units".into(), "us".into()),
-            ("units".into(), "metric".into()),
+            ("system".into(), "us".into()),
+            ("system".into(), "metric".into()),
         ];
         for i in 0..5000 {
             params.push((format!("junk{i}"), "1".into()));
@@ -612,7 +612,7 @@ mod hostile_parameters {
             "{unknown}"
         );
         assert_eq!(unknown.matches("“junk").count(), 10, "{unknown}");
-        // `units` was given as "us" then "metric": the last is unknown, so the page
+        // `system` was given as "us" then "metric": the last is unknown, so the page
         // says which system it used, and uses it.
         let system = notices
             .iter()
@@ -754,7 +754,7 @@ mod offline {
             .unwrap();
         assert_eq!(probe, "failed", "the server still answers after stop()");
 
-        let bookmark = format!("{base}/bend.html?angle=30deg&d_in=12in&p=150psi&plane=horizontal&units=us");
+        let bookmark = format!("{base}/bend.html?angle=30deg&d_in=12in&p=150psi&plane=horizontal&system=us");
         page.goto(&mut browser, &bookmark)
             .unwrap_or_else(|e| panic!("offline load of a bookmarked URL failed: {e}"));
         assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");

@@ -761,7 +761,7 @@ fn arbitrary_text_never_panics() {
                 };
                 request.inputs.insert(field.key.to_string(), text);
                 request
-                    .units
+                    .field_units
                     .insert(field.key.to_string(), selector[n % selector.len()].clone());
             }
             if let Err(message) = finite_or_typed_error(&spec, &request) {
@@ -780,7 +780,7 @@ fn arbitrary_text_never_panics() {
             let mut focused = fluxledger_core::catalog::demo_request(&spec, &[(field.key, text.as_str())]);
             focused.system = system;
             if valid.is_none() {
-                focused.units.insert(field.key.to_string(), selector[0].clone());
+                focused.field_units.insert(field.key.to_string(), selector[0].clone());
             }
             share.note(spec.key, solved(&spec, &focused));
             if let Err(message) = finite_or_typed_error(&spec, &focused) {

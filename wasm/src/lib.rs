@@ -4,21 +4,31 @@
 //! A key design decision: this crate holds no physics, no defaults and no unit
 //! tables. Every export is `from_value` → core call → `to_value`; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
-//! natively. The page script calls four functions:
+//! natively. The page script calls these functions:
 //!
 //! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
-//!   outputs, cautions) as a plain object.
+//!   outputs, cautions) as a plain object; used by the contents page only.
+//! - [`calculator`]`(key)` — the description of one calculator (its fields with
+//!   their units `{id, label}`, default unit per system and the chain of conditions
+//!   under which each is shown; outputs; cautions), with the version and the unit
+//!   systems: what a calculator page asks for.
+//! - [`upgrade_link`]`(page, pairs)` — a link's `[key, value]` pairs read in today's
+//!   vocabulary through the core's glossary, `{pairs, translations}`; the page runs
+//!   every link through it before reading fields and reports the translations.
 //! - [`convert`]`(key, field, text, from_unit, system)` — what is typed in a
 //!   quantity field, converted to that field's default unit in `system` (used when
 //!   the page's unit system is switched) and rounded by the core to one figure more
 //!   than was typed, at least four (`7 bar` → `101.5` psi): `{ok: true, number,
 //!   unit}` or `{ok: false, message}`; it never throws for what a user typed.
-//! - [`solve`]`(key, inputs, units, system)` — `inputs` and `units` are plain objects
-//!   of strings keyed by field key, `system` is `"si"` or `"us"`. It never throws for
+//! - [`solve`]`(key, inputs, field_units, system)` — `inputs` and `field_units` (the
+//!   unit each selector shows) are plain objects of strings keyed by field key,
+//!   `system` is `"si"` or `"us"`. Outputs travel as `{number, unit, text, shown}`,
+//!   table cells as `{text, number, unit, shown}` with per-column `{title, unit,
+//!   kind}`, so the page takes no text apart. It never throws for
 //!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.
 //!   It throws only when the script calls it wrongly (values that are not strings,
 //!   an unknown unit system), through the one helper [`adapter_error`].
-//! - [`table_csv`]`(columns, rows)` — the CSV text of a result table, every cell a
+//! - [`table_csv`]`(headers, rows)` — the CSV text of a result table, every cell a
 //!   spreadsheet would run as a formula neutralised (see [`csv`]).
 //!
 //! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()`, so
@@ -57,24 +67,46 @@ fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, Js
         .map_err(|e| adapter_error(&format!("`{name}` must be an object of strings keyed by field"), e))
 }
 
-/// The description of every calculator (its shape: [`view::CatalogView`]).
+/// The description of every calculator ([`view::CatalogView`]).
 #[wasm_bindgen]
 pub fn catalog() -> Result<JsValue, JsError> {
     to_js(&view::catalog_view())
 }
 
+/// The description of calculator `key` ([`view::PageView`]).
+///
+/// # Errors
+/// Throws for a key that is not a registered calculator.
+#[wasm_bindgen]
+pub fn calculator(key: &str) -> Result<JsValue, JsError> {
+    let page = view::page_view(key).ok_or_else(|| adapter_error("unknown calculator", format!("'{key}'")))?;
+    to_js(&page)
+}
+
+/// A link's pairs (`[[key, value], ...]`) for page `page`, read in today's
+/// vocabulary ([`view::upgrade_view`]): `{pairs, translations}`.
+///
+/// # Errors
+/// Throws only when `pairs` is not an array of two-string arrays.
+#[wasm_bindgen]
+pub fn upgrade_link(page: &str, pairs: JsValue) -> Result<JsValue, JsError> {
+    let pairs: Vec<(String, String)> = serde_wasm_bindgen::from_value(pairs)
+        .map_err(|e| adapter_error("`pairs` must be an array of [key, value] strings", e))?;
+    to_js(&view::upgrade_view(page, &pairs))
+}
+
 /// Solves calculator `key` for what the user typed.
 ///
 /// # Errors
-/// Throws only for a wrong call: `inputs` or `units` not an object of strings, or a
-/// `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
+/// Throws only for a wrong call: `inputs` or `field_units` not an object of strings,
+/// or a `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
 #[wasm_bindgen]
-pub fn solve(key: &str, inputs: JsValue, units: JsValue, system: &str) -> Result<JsValue, JsError> {
+pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> Result<JsValue, JsError> {
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     let request = Request {
         inputs: string_map(inputs, "inputs")?,
-        units: string_map(units, "units")?,
+        field_units: string_map(field_units, "field_units")?,
         system,
     };
     let outcome = fluxledger_core::solve(key, &request);
@@ -95,7 +127,7 @@ pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str
     to_js(&view::convert_view(key, field, text, from_unit, system))
 }
 
-/// The CSV text of a table (`columns`: an array of strings, `rows`: an array of
+/// The CSV text of a table (`columns`: the headers, an array of strings, `rows`: an array of
 /// arrays of strings): RFC 4180, CRLF line ends, every cell a spreadsheet would run
 /// as a formula neutralised by [`csv::neutralise`].
 ///

@@ -3,10 +3,15 @@
 //!
 //! The core keeps its types free of serde on purpose (it knows nothing of JSON or
 //! JavaScript); this module is the one place where they get a wire shape. Every
-//! struct here is a field-by-field copy of a core type with snake_case keys, as
-//! the page script reads (the exports and their shapes are listed in `lib.rs`).
-//! Nothing here computes, defaults or converts physical values: unit lists come from
-//! [`fluxledger_core::units::units_of`], labels and messages from the core.
+//! struct here is a copy of a core type with snake_case keys; enum names on the wire
+//! are the core's own `key()` (quantity kinds, shape styles, field kinds, unit
+//! systems), so there is no mirror enum to keep in step. Nothing here computes,
+//! defaults or converts physical values: unit lists and labels come from
+//! [`fluxledger_core::units`], default units and visibility rules from
+//! [`fluxledger_core::catalog`], messages from the core. Values travel split: an
+//! output as `{number, unit, text, shown}`, a table cell as `{text, number, unit,
+//! shown}` under per-column `{title, unit, kind}` ([`Table::layout`]), an arrow label
+//! as `{label, name, value}`, so the page script takes no text apart.
 //!
 //! Non-finite numbers are never meant to leave the core (its report filters them),
 //! but a NaN or infinity that slipped through is written as `null` here, because
@@ -19,10 +24,11 @@ use serde::Serialize;
 
 use fluxledger_core::calculators::{self, Outcome};
 use fluxledger_core::catalog::{
-    CalculatorSpec, Diagram, FieldEcho, FieldKind, FieldSpec, OutputSpec, OutputValue, Plot, Shape, ShapeStyle,
-    Solution, Table, Warning, COMMON_CAUTIONS,
+    self as core_catalog, CalculatorSpec, Diagram, FieldEcho, FieldKind, FieldSpec, OutputSpec, OutputValue, Plot,
+    Shape, Solution, Table, Warning, COMMON_CAUTIONS,
 };
-use fluxledger_core::units::{self, QuantityKind, UnitSystem};
+use fluxledger_core::glossary;
+use fluxledger_core::units::{self, UnitSystem};
 use fluxledger_core::{FieldError, SolveError};
 
 /// A number that is `null` on the JavaScript side when it is not finite.
@@ -41,45 +47,6 @@ fn points(ps: &[[f64; 2]]) -> Vec<[Num; 2]> {
     ps.iter().copied().map(point).collect()
 }
 
-/// The wire name of a quantity kind (`"volume_flow"`): the variant name in
-/// snake_case. An explicit match so that a new kind is a compile error here, not a
-/// silently misspelt name.
-pub fn quantity_name(kind: QuantityKind) -> &'static str {
-    match kind {
-        QuantityKind::Length => "length",
-        QuantityKind::Area => "area",
-        QuantityKind::Volume => "volume",
-        QuantityKind::ConcreteVolume => "concrete_volume",
-        QuantityKind::Mass => "mass",
-        QuantityKind::Time => "time",
-        QuantityKind::Pressure => "pressure",
-        QuantityKind::SoilBearing => "soil_bearing",
-        QuantityKind::Velocity => "velocity",
-        QuantityKind::Acceleration => "acceleration",
-        QuantityKind::VolumeFlow => "volume_flow",
-        QuantityKind::MassFlow => "mass_flow",
-        QuantityKind::Force => "force",
-        QuantityKind::Torque => "torque",
-        QuantityKind::Power => "power",
-        QuantityKind::Angle => "angle",
-        QuantityKind::AngularSpeed => "angular_speed",
-        QuantityKind::Temperature => "temperature",
-        QuantityKind::Density => "density",
-        QuantityKind::SpecificWeight => "specific_weight",
-        QuantityKind::DynamicViscosity => "dynamic_viscosity",
-        QuantityKind::KinematicViscosity => "kinematic_viscosity",
-        QuantityKind::Ratio => "ratio",
-    }
-}
-
-/// The label of a page unit system in the switch.
-fn unit_system_label(system: UnitSystem) -> &'static str {
-    match system {
-        UnitSystem::Si => "SI",
-        UnitSystem::UsCustomary => "US customary",
-    }
-}
-
 // ---------------------------------------------------------------------------
 // Catalog
 
@@ -90,6 +57,16 @@ pub struct CatalogView {
     pub common_cautions: Vec<&'static str>,
     pub unit_systems: Vec<UnitSystemView>,
     pub calculators: Vec<CalculatorView>,
+}
+
+/// What `calculator(key)` returns: one page's description and what its page shows
+/// around it (version, unit systems, common cautions), without the other pages.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct PageView {
+    pub version: &'static str,
+    pub common_cautions: Vec<&'static str>,
+    pub unit_systems: Vec<UnitSystemView>,
+    pub calculator: CalculatorView,
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -117,15 +94,30 @@ pub struct FieldView {
     pub kind: &'static str,
     /// Quantity kind name for quantity fields, else `null`.
     pub quantity: Option<&'static str>,
-    /// Unit ids offered in the selector, in order (`[]` for choice and text).
-    pub units: Vec<&'static str>,
-    pub si_unit: &'static str,
-    pub us_unit: &'static str,
+    /// Units offered in the selector, in order (`[]` for choice and text).
+    pub units: Vec<UnitView>,
+    /// The unit the field starts in per unit system (`""` for choice and text).
+    pub default_units: DefaultUnitsView,
     pub demo: &'static str,
     pub optional: bool,
     pub help: &'static str,
     pub options: Vec<OptionView>,
-    pub visible_when: Option<VisibleWhenView>,
+    /// Every condition under which the field is shown, its controller's first
+    /// ([`core_catalog::shown_when`]): shown while all hold.
+    pub shown_when: Vec<VisibleWhenView>,
+}
+
+/// A unit: its ASCII id (links, selector values) and its label (`m³/h`).
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct UnitView {
+    pub id: &'static str,
+    pub label: &'static str,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct DefaultUnitsView {
+    pub si: &'static str,
+    pub us: &'static str,
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -163,11 +155,23 @@ pub fn catalog_view_of(specs: &[CalculatorSpec]) -> CatalogView {
             .into_iter()
             .map(|s| UnitSystemView {
                 key: s.key(),
-                label: unit_system_label(s),
+                label: s.label(),
             })
             .collect(),
         calculators: specs.iter().map(calculator_view).collect(),
     }
+}
+
+/// The description of one page (`None` for a key that is not registered).
+pub fn page_view(key: &str) -> Option<PageView> {
+    let spec = calculators::spec(key)?;
+    let catalog = catalog_view_of(&[]);
+    Some(PageView {
+        version: catalog.version,
+        common_cautions: catalog.common_cautions,
+        unit_systems: catalog.unit_systems,
+        calculator: calculator_view(&spec),
+    })
 }
 
 pub fn calculator_view(spec: &CalculatorSpec) -> CalculatorView {
@@ -177,21 +181,24 @@ pub fn calculator_view(spec: &CalculatorSpec) -> CalculatorView {
         group: spec.group,
         summary: spec.summary,
         cautions: spec.cautions.clone(),
-        fields: spec.fields.iter().map(field_view).collect(),
+        fields: spec.fields.iter().map(|f| field_view(spec, f)).collect(),
         outputs: spec.outputs.iter().map(output_spec_view).collect(),
     }
 }
 
-pub fn field_view(field: &FieldSpec) -> FieldView {
-    let (kind, quantity, unit_ids, options) = match &field.kind {
+pub fn field_view(spec: &CalculatorSpec, field: &FieldSpec) -> FieldView {
+    let (quantity, unit_ids, options) = match &field.kind {
         FieldKind::Quantity(q) => (
-            "quantity",
-            Some(quantity_name(*q)),
-            units::units_of(*q).map(|u| u.id).collect(),
+            Some(q.key()),
+            units::units_of(*q)
+                .map(|u| UnitView {
+                    id: u.id,
+                    label: u.label(),
+                })
+                .collect(),
             Vec::new(),
         ),
         FieldKind::Choice(options) => (
-            "choice",
             None,
             Vec::new(),
             options
@@ -202,24 +209,29 @@ pub fn field_view(field: &FieldSpec) -> FieldView {
                 })
                 .collect(),
         ),
-        FieldKind::Text => ("text", None, Vec::new(), Vec::new()),
+        FieldKind::Text => (None, Vec::new(), Vec::new()),
     };
     FieldView {
         key: field.key,
         label: field.label,
-        kind,
+        kind: field.kind.key(),
         quantity,
         units: unit_ids,
-        si_unit: field.si_unit,
-        us_unit: field.us_unit,
+        default_units: DefaultUnitsView {
+            si: core_catalog::default_unit(field, UnitSystem::Si),
+            us: core_catalog::default_unit(field, UnitSystem::UsCustomary),
+        },
         demo: field.demo,
         optional: field.optional,
         help: field.help,
         options,
-        visible_when: field.visible_when.map(|(field, values)| VisibleWhenView {
-            field,
-            values: values.to_vec(),
-        }),
+        shown_when: core_catalog::shown_when(spec, field)
+            .into_iter()
+            .map(|(field, values)| VisibleWhenView {
+                field,
+                values: values.to_vec(),
+            })
+            .collect(),
     }
 }
 
@@ -227,7 +239,7 @@ fn output_spec_view(output: &OutputSpec) -> OutputSpecView {
     OutputSpecView {
         key: output.key,
         label: output.label,
-        quantity: quantity_name(output.kind),
+        quantity: output.kind.key(),
         headline: output.headline,
     }
 }
@@ -261,6 +273,8 @@ pub struct SolvedView {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct CarryOverView {
     pub calculator: &'static str,
+    /// The target page's title (from its spec).
+    pub title: &'static str,
     pub label: String,
     pub inputs: std::collections::BTreeMap<&'static str, String>,
 }
@@ -293,7 +307,14 @@ pub struct ErrorView {
 pub struct OutputView {
     pub key: &'static str,
     pub label: &'static str,
+    /// The formatted value with the unit id (`"3.2 m3/h"`).
     pub text: String,
+    /// The number alone (`"3.2"`).
+    pub number: String,
+    /// The unit id (`"m3/h"`; `"-"` for a plain number).
+    pub unit: &'static str,
+    /// The value as shown, with the unit's label (`"3.2 m³/h"`, `"45°"`).
+    pub shown: String,
     pub si: Num,
     pub headline: bool,
 }
@@ -302,9 +323,38 @@ pub struct OutputView {
 pub struct TableView {
     pub key: &'static str,
     pub title: String,
-    pub columns: Vec<String>,
-    pub rows: Vec<Vec<String>>,
+    /// Each column as shown: title, unit label (`""` when the header names none),
+    /// kind (`"text"` or `"number"`).
+    pub columns: Vec<ColumnView>,
+    /// The headers as the core wrote them (for the CSV file).
+    pub headers: Vec<String>,
+    pub rows: Vec<Vec<CellView>>,
     pub emphasised_rows: Vec<usize>,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ColumnView {
+    pub title: String,
+    pub unit: &'static str,
+    pub kind: &'static str,
+}
+
+/// One table cell: the core's text (for the CSV file), the number and unit label
+/// when the cell is a value (`null` otherwise), and the text as shown.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct CellView {
+    pub text: String,
+    pub number: Option<String>,
+    pub unit: Option<&'static str>,
+    pub shown: String,
+}
+
+/// What `upgrade_link()` returns: the link's pairs in today's vocabulary and what
+/// was translated (`"basis=od → joint=push_on"`), in link order.
+#[derive(Clone, Debug, Default, PartialEq, Serialize)]
+pub struct UpgradeView {
+    pub pairs: Vec<(String, String)>,
+    pub translations: Vec<String>,
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -335,31 +385,24 @@ pub enum ShapeView {
         from: [Num; 2],
         to: [Num; 2],
         label: String,
+        /// The label without a trailing value (`"R ="`), and the value (`"12.4 kN"`);
+        /// `name` is the whole label and `value` empty when it ends in no value.
+        name: String,
+        value: String,
         style: StyleView,
     },
     Text {
         at: [Num; 2],
         text: String,
+        /// As for an arrow's label: the text without a trailing value, and the value.
+        name: String,
+        value: String,
         style: StyleView,
     },
 }
 
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "snake_case")]
-pub enum StyleView {
-    Wall,
-    Fluid,
-    ControlVolume,
-    Flow,
-    Restraint,
-    Thrust,
-    Pressure,
-    Momentum,
-    Weight,
-    Velocity,
-    Guide,
-    Label,
-}
+/// A shape style's key (`"control_volume"`): [`fluxledger_core::catalog::ShapeStyle::key`].
+pub type StyleView = &'static str;
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct PlotView {
@@ -425,6 +468,7 @@ fn solved_view(echoes: Vec<EchoView>, solution: &Solution) -> SolvedView {
             .iter()
             .map(|c| CarryOverView {
                 calculator: c.calculator,
+                title: calculators::spec(c.calculator).map(|s| s.title).unwrap_or(""),
                 label: c.label.clone(),
                 inputs: c.inputs.iter().map(|(k, v)| (*k, v.clone())).collect(),
             })
@@ -462,8 +506,8 @@ fn refused(message: String) -> ConvertView {
 /// `from_unit`) to that field's default unit in `system`, through
 /// [`units::convert_text`], which rounds for the eye (one figure more than typed, at
 /// least four); the page script keeps the typed text and restores it when the system
-/// is switched back. The default unit of a system is the spec's `si_unit` or
-/// `us_unit`; an empty one falls back to the other, as the page script does.
+/// is switched back. The default unit of a system is the core's
+/// [`core_catalog::default_unit`], the one the page receives in `default_units`.
 pub fn convert_view(key: &str, field: &str, text: &str, from_unit: &str, system: UnitSystem) -> ConvertView {
     let Some(spec) = calculators::spec(key) else {
         return refused(SolveError::UnknownCalculator { key: key.to_string() }.to_string());
@@ -474,11 +518,7 @@ pub fn convert_view(key: &str, field: &str, text: &str, from_unit: &str, system:
     let FieldKind::Quantity(kind) = field_spec.kind else {
         return refused(format!("{}: not a quantity, nothing to convert", field_spec.label));
     };
-    let (own, other) = match system {
-        UnitSystem::Si => (field_spec.si_unit, field_spec.us_unit),
-        UnitSystem::UsCustomary => (field_spec.us_unit, field_spec.si_unit),
-    };
-    let unit = if own.is_empty() { other } else { own };
+    let unit = core_catalog::default_unit(field_spec, system);
     match units::convert_text(text, kind, from_unit, unit) {
         Ok(number) => ConvertView::Converted { ok: true, number, unit },
         Err(error) => refused(format!("{}: {error}", field_spec.label)),
@@ -512,23 +552,133 @@ fn field_error_view(error: &FieldError, spec: Option<&CalculatorSpec>) -> ErrorV
 }
 
 fn output_view(output: &OutputValue) -> OutputView {
+    let shown = match units::find_unit(output.unit) {
+        Some(unit) => unit.show(&output.number),
+        None => output.text.clone(),
+    };
     OutputView {
         key: output.key,
         label: output.label,
         text: output.text.clone(),
+        number: output.number.clone(),
+        unit: output.unit,
+        shown,
         si: num(output.si),
         headline: output.headline,
     }
 }
 
-fn table_view(table: &Table) -> TableView {
+/// A cell as it travels: a value (`"12.4 kN"`) gets its number, unit label and
+/// shown text (`"12.4 kN"`, `"3 m³/h"`); other text is shown as written.
+pub fn cell_view(text: &str) -> CellView {
+    match units::split_shown(text) {
+        Some((number, unit)) => CellView {
+            text: text.to_string(),
+            shown: unit.map(|u| u.show(&number)).unwrap_or_else(|| number.clone()),
+            unit: unit.map(|u| u.label()),
+            number: Some(number),
+        },
+        None => CellView {
+            text: text.to_string(),
+            number: None,
+            unit: None,
+            shown: text.to_string(),
+        },
+    }
+}
+
+pub fn table_view(table: &Table) -> TableView {
     TableView {
         key: table.key,
         title: table.title.clone(),
-        columns: table.columns.clone(),
-        rows: table.rows.clone(),
+        columns: table
+            .layout()
+            .into_iter()
+            .map(|c| ColumnView {
+                title: c.title,
+                unit: c.unit.map(|u| u.label()).unwrap_or(""),
+                kind: c.kind.key(),
+            })
+            .collect(),
+        headers: table.columns.clone(),
+        rows: table
+            .rows
+            .iter()
+            .map(|row| row.iter().map(|cell| cell_view(cell)).collect())
+            .collect(),
         emphasised_rows: table.emphasised_rows.clone(),
     }
+}
+
+/// Splits an arrow label that ends in a value (`"R = 12.4 kN"`) into the name
+/// (`"R ="`) and the value (`"12.4 kN"`), so that a narrow page can put the value on
+/// its own line without reading the text; a label without a value is all name.
+pub fn split_label(label: &str) -> (String, String) {
+    let words: Vec<&str> = label.split(' ').collect();
+    for tail in [2, 1] {
+        if words.len() > tail {
+            let value = words[words.len() - tail..].join(" ");
+            if units::split_shown(&value).is_some() {
+                return (words[..words.len() - tail].join(" ").trim_end().to_string(), value);
+            }
+        }
+    }
+    (label.to_string(), String::new())
+}
+
+/// Reads a link's `(key, value)` pairs for page `key` in today's vocabulary, through
+/// the core's alias table ([`glossary::upgrade`]). Pairs this page already
+/// understands (a key it has, with any value but a renamed one it no longer offers)
+/// pass unchanged, so a key still in use is never mistranslated. The
+/// unit system's key `units=` is read as `system=` (unless the link gives both) and
+/// reported the same way.
+pub fn upgrade_view(page: &str, pairs: &[(String, String)]) -> UpgradeView {
+    let spec = calculators::spec(page);
+    // A key the page has is never renamed; its value only when the glossary renames
+    // that value and the page no longer offers it.
+    let understood = |key: &str, value: &str| {
+        key == "system"
+            || spec
+                .as_ref()
+                .and_then(|s| s.field(key))
+                .is_some_and(|field| match field.kind {
+                    FieldKind::Choice(options) => {
+                        options.iter().any(|o| o.key == value)
+                            || !glossary::VALUE_ALIASES
+                                .iter()
+                                .any(|a| a.page == page && a.key == key && a.old == value)
+                    }
+                    _ => true,
+                })
+    };
+    let given = |key: &str| pairs.iter().any(|(k, _)| k == key);
+    let mut out = UpgradeView::default();
+    for (key, value) in pairs {
+        if understood(key, value) {
+            out.pairs.push((key.clone(), value.clone()));
+            continue;
+        }
+        if key == "units" {
+            if !given("system") {
+                out.translations.push(format!("units={value} → system={value}"));
+                out.pairs.push(("system".to_string(), value.clone()));
+            }
+            continue;
+        }
+        let one = glossary::upgrade(page, &[(key.clone(), value.clone())]);
+        match (one.pairs.first(), one.translations.first()) {
+            (Some((new_key, new_value)), Some(translation)) => {
+                if new_key != key && given(new_key) {
+                    // The link carries both: today's key wins, the old one is dropped.
+                    continue;
+                }
+                out.translations.push(translation.to_string());
+                out.pairs.push((new_key.clone(), new_value.clone()));
+            }
+            _ => out.pairs.push((key.clone(), value.clone())),
+        }
+    }
+    out
 }
 
 fn diagram_view(diagram: &Diagram) -> DiagramView {
@@ -545,45 +695,38 @@ pub fn shape_view(shape: &Shape) -> ShapeView {
     match shape {
         Shape::Polygon { points: ps, style } => ShapeView::Polygon {
             points: points(ps),
-            style: style_view(*style),
+            style: style.key(),
         },
         Shape::Polyline { points: ps, style } => ShapeView::Polyline {
             points: points(ps),
-            style: style_view(*style),
+            style: style.key(),
         },
         Shape::Circle { center, radius, style } => ShapeView::Circle {
             center: point(*center),
             radius: num(*radius),
-            style: style_view(*style),
+            style: style.key(),
         },
-        Shape::Arrow { from, to, label, style } => ShapeView::Arrow {
-            from: point(*from),
-            to: point(*to),
-            label: label.clone(),
-            style: style_view(*style),
-        },
-        Shape::Text { at, text, style } => ShapeView::Text {
-            at: point(*at),
-            text: text.clone(),
-            style: style_view(*style),
-        },
-    }
-}
-
-fn style_view(style: ShapeStyle) -> StyleView {
-    match style {
-        ShapeStyle::Wall => StyleView::Wall,
-        ShapeStyle::Fluid => StyleView::Fluid,
-        ShapeStyle::ControlVolume => StyleView::ControlVolume,
-        ShapeStyle::Flow => StyleView::Flow,
-        ShapeStyle::Restraint => StyleView::Restraint,
-        ShapeStyle::Thrust => StyleView::Thrust,
-        ShapeStyle::Pressure => StyleView::Pressure,
-        ShapeStyle::Momentum => StyleView::Momentum,
-        ShapeStyle::Weight => StyleView::Weight,
-        ShapeStyle::Velocity => StyleView::Velocity,
-        ShapeStyle::Guide => StyleView::Guide,
-        ShapeStyle::Label => StyleView::Label,
+        Shape::Arrow { from, to, label, style } => {
+            let (name, value) = split_label(label);
+            ShapeView::Arrow {
+                from: point(*from),
+                to: point(*to),
+                label: label.clone(),
+                name,
+                value,
+                style: style.key(),
+            }
+        }
+        Shape::Text { at, text, style } => {
+            let (name, value) = split_label(text);
+            ShapeView::Text {
+                at: point(*at),
+                text: text.clone(),
+                name,
+                value,
+                style: style.key(),
+            }
+        }
     }
 }
 
@@ -626,7 +769,8 @@ mod tests {
     //! `serde-wasm-bindgen` walks in the browser).
 
     use super::*;
-    use fluxledger_core::catalog::{ChoiceOption, Limits, Marker, Series};
+    use fluxledger_core::catalog::{ChoiceOption, Limits, Marker, Series, ShapeStyle};
+    use fluxledger_core::units::QuantityKind;
     use fluxledger_core::FieldErrorKind;
     use serde_json::{json, Value};
 
@@ -731,10 +875,18 @@ mod tests {
         assert!(!expected_units.is_empty());
         assert_eq!(q["kind"], json!("quantity"));
         assert_eq!(q["quantity"], json!("volume_flow"));
-        assert_eq!(q["units"], json!(expected_units));
+        let ids: Vec<Value> = q["units"]
+            .as_array()
+            .cloned()
+            .unwrap_or_default()
+            .iter()
+            .map(|u| u["id"].clone())
+            .collect();
+        assert_eq!(json!(ids), json!(expected_units));
+        assert_eq!(q["units"][0], json!({"id": "m3/h", "label": "m³/h"}));
         assert_eq!(q["options"], json!([]));
-        assert_eq!(q["visible_when"], Value::Null);
-        assert_eq!(q["si_unit"], json!("m3/h"));
+        assert_eq!(q["shown_when"], json!([]));
+        assert_eq!(q["default_units"], json!({"si": "m3/h", "us": "gpm"}));
         assert_eq!(q["demo"], json!("120 m3/h"));
         assert_eq!(
             view["outputs"],
@@ -758,13 +910,14 @@ mod tests {
         let note = &view["fields"][2];
         assert_eq!(note["kind"], json!("text"));
         assert_eq!(note["optional"], json!(true));
-        assert_eq!(note["visible_when"], json!({"field": "layout", "values": ["vertical"]}));
+        assert_eq!(note["shown_when"], json!([{"field": "layout", "values": ["vertical"]}]));
+        assert_eq!(layout["default_units"], json!({"si": "", "us": ""}));
     }
 
     #[test]
     fn every_quantity_kind_name_is_distinct_snake_case() {
         let all = QuantityKind::ALL;
-        let mut names: Vec<&str> = all.iter().map(|k| quantity_name(*k)).collect();
+        let mut names: Vec<&str> = all.iter().map(|k| k.key()).collect();
         for (kind, name) in all.iter().zip(&names) {
             // The Debug name folded to snake_case is the wire name.
             let mut snake = String::new();
@@ -791,6 +944,8 @@ mod tests {
                     kind: QuantityKind::Force,
                     si: 12_400.0,
                     text: "12.4 kN".into(),
+                    number: "12.4".into(),
+                    unit: "kN",
                     headline: true,
                 },
                 OutputValue {
@@ -799,6 +954,8 @@ mod tests {
                     kind: QuantityKind::Force,
                     si: f64::NAN,
                     text: "—".into(),
+                    number: "—".into(),
+                    unit: "kN",
                     headline: false,
                 },
             ],
@@ -882,12 +1039,18 @@ mod tests {
         assert_eq!(view["echoes"], json!([{"field": "q", "number": "120", "unit": "m3/h"}]));
         assert_eq!(
             view["outputs"][0],
-            json!({"key": "f", "label": "Restraint force", "text": "12.4 kN", "si": 12400.0, "headline": true})
+            json!({"key": "f", "label": "Restraint force", "text": "12.4 kN", "number": "12.4", "unit": "kN",
+                   "shown": "12.4 kN", "si": 12400.0, "headline": true})
         );
         assert_eq!(view["outputs"][1]["si"], Value::Null);
         assert_eq!(
             view["tables"][0],
-            json!({"key": "ledger", "title": "Ledger", "columns": ["Term", "x"], "rows": [["Total", "1 kN"]], "emphasised_rows": [0]})
+            json!({"key": "ledger", "title": "Ledger",
+                   "columns": [{"title": "Term", "unit": "", "kind": "text"}, {"title": "x", "unit": "", "kind": "number"}],
+                   "headers": ["Term", "x"],
+                   "rows": [[{"text": "Total", "number": null, "unit": null, "shown": "Total"},
+                             {"text": "1 kN", "number": "1", "unit": "kN", "shown": "1 kN"}]],
+                   "emphasised_rows": [0]})
         );
         let diagram = &view["diagrams"][0];
         assert_eq!(diagram["bounds"], json!([-1.0, -2.0, 3.0, null]));
@@ -898,8 +1061,9 @@ mod tests {
                 {"type": "polygon", "points": [[0.0, 0.0], [1.0, 0.0], [1.0, 1.0]], "style": "wall"},
                 {"type": "polyline", "points": [[0.0, null]], "style": "flow"},
                 {"type": "circle", "center": [0.5, 0.5], "radius": 0.25, "style": "control_volume"},
-                {"type": "arrow", "from": [0.0, 0.0], "to": [1.0, 1.0], "label": "R", "style": "restraint"},
-                {"type": "text", "at": [0.2, 0.3], "text": "inlet", "style": "label"},
+                {"type": "arrow", "from": [0.0, 0.0], "to": [1.0, 1.0], "label": "R", "name": "R", "value": "",
+                 "style": "restraint"},
+                {"type": "text", "at": [0.2, 0.3], "text": "inlet", "name": "inlet", "value": "", "style": "label"},
             ])
         );
         assert_eq!(
@@ -955,7 +1119,7 @@ mod tests {
             for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
                 let request = fluxledger_core::Request {
                     inputs: fluxledger_core::catalog::demo_inputs(&spec),
-                    units: Default::default(),
+                    field_units: Default::default(),
                     system,
                 };
                 let outcome = fluxledger_core::solve(spec.key, &request);
@@ -1120,5 +1284,98 @@ mod tests {
                 .is_some_and(|m| m.contains("no-such-page")),
             "{errors:?}"
         );
+    }
+
+    #[test]
+    fn table_columns_carry_title_unit_and_kind_and_cells_their_parts() {
+        let table = Table {
+            key: "t",
+            title: "T".into(),
+            columns: vec!["Term".into(), "area (mm2)".into(), "note".into(), "flow".into()],
+            rows: vec![
+                vec!["inlet".into(), "12.5".into(), "pressure side".into(), "3.2 m3/h".into()],
+                vec!["outlet".into(), "—".into(), "12 too".into(), "45 deg".into()],
+            ],
+            emphasised_rows: Vec::new(),
+        };
+        let view = to_json(&table_view(&table));
+        assert_eq!(
+            view["columns"],
+            json!([
+                {"title": "Term", "unit": "", "kind": "text"},
+                {"title": "area", "unit": "mm²", "kind": "number"},
+                {"title": "note", "unit": "", "kind": "text"},
+                {"title": "flow", "unit": "", "kind": "number"},
+            ])
+        );
+        assert_eq!(
+            view["rows"][0][3],
+            json!({"text": "3.2 m3/h", "number": "3.2", "unit": "m³/h", "shown": "3.2 m³/h"})
+        );
+        assert_eq!(view["rows"][1][3]["shown"], json!("45°"));
+        assert_eq!(view["rows"][1][2]["number"], Value::Null);
+    }
+
+    #[test]
+    fn arrow_labels_split_into_name_and_value_only_when_they_end_in_one() {
+        for (label, name, value) in [
+            ("R = 12.4 kN", "R =", "12.4 kN"),
+            ("Restraint 3.1 kip", "Restraint", "3.1 kip"),
+            ("V1 2.5 m/s", "V1", "2.5 m/s"),
+            ("ratio 0.5", "ratio", "0.5"),
+            ("Flow", "Flow", ""),
+            ("Flow out at 2 points", "Flow out at 2 points", ""),
+            ("12 kN", "12 kN", ""),
+        ] {
+            assert_eq!(split_label(label), (name.to_string(), value.to_string()), "{label}");
+        }
+    }
+
+    fn link(list: &[(&str, &str)]) -> Vec<(String, String)> {
+        list.iter().map(|(k, v)| (k.to_string(), v.to_string())).collect()
+    }
+
+    #[test]
+    fn old_links_upgrade_through_the_glossary_and_keys_in_use_pass_unchanged() {
+        // Every alias whose old key this page no longer has is translated as the
+        // core's glossary says; a key the page has today is never touched.
+        for alias in glossary::KEY_ALIASES {
+            let Some(spec) = calculators::spec(alias.page) else {
+                continue;
+            };
+            let option = spec.field(alias.old).and_then(|f| match f.kind {
+                FieldKind::Choice(options) => options.first().map(|o| o.key),
+                _ => None,
+            });
+            let value = option.or(alias.values.first().map(|(old, _)| *old)).unwrap_or("1");
+            let up = upgrade_view(alias.page, &link(&[(alias.old, value)]));
+            if spec.field(alias.old).is_some() {
+                assert_eq!(up.pairs, link(&[(alias.old, value)]), "{}: {}", alias.page, alias.old);
+                assert!(up.translations.is_empty());
+                // A field left blank in a link is still this page's field.
+                let blank = upgrade_view(alias.page, &link(&[(alias.old, "")]));
+                assert_eq!(blank.pairs, link(&[(alias.old, "")]), "{}: {}", alias.page, alias.old);
+            } else {
+                let core = glossary::upgrade(alias.page, &link(&[(alias.old, value)]));
+                assert_eq!(up.pairs, core.pairs, "{}: {}", alias.page, alias.old);
+                assert_eq!(up.translations.len(), 1);
+            }
+        }
+        let up = upgrade_view("bend", &link(&[("units", "us"), ("angle", "45deg")]));
+        assert_eq!(up.pairs, link(&[("system", "us"), ("angle", "45deg")]));
+        assert_eq!(up.translations, ["units=us → system=us"]);
+        let both = upgrade_view("bend", &link(&[("units", "us"), ("system", "si")]));
+        assert_eq!(both.pairs, link(&[("system", "si")]));
+        assert!(both.translations.is_empty());
+        let unknown = upgrade_view("bend", &link(&[("zzz", "1")]));
+        assert_eq!(unknown.pairs, link(&[("zzz", "1")]));
+        assert!(unknown.translations.is_empty());
+    }
+
+    #[test]
+    fn page_view_describes_one_calculator_and_refuses_unknown_keys() {
+        let page = page_view("bend").map(|p| p.calculator.key);
+        assert_eq!(page, Some("bend"));
+        assert!(page_view("no-such-page").is_none());
     }
 }

@@ -54,7 +54,7 @@ fn bend_links_to_the_thrust_block_page_with_the_same_thrust() {
     let site = fixture();
     let (mut browser, page) = launched(Launch::default());
     for (system, unit_suffix) in [("si", " kN"), ("us", " lbf")] {
-        open(&page, &mut browser, &format!("{}/bend.html?units={system}", site.base));
+        open(&page, &mut browser, &format!("{}/bend.html?system={system}", site.base));
         let bend_thrust = output_text(&page, &mut browser, "thrust").expect("the bend page shows its thrust");
         assert!(
             bend_thrust.ends_with(unit_suffix),
@@ -81,7 +81,7 @@ fn bend_links_to_the_thrust_block_page_with_the_same_thrust() {
             "Object.fromEntries(new URL(document.querySelector('a.carry-link').href).searchParams)",
         );
         assert_eq!(
-            params["units"],
+            params["system"],
             json!(system),
             "the link keeps the page's unit system: {params}"
         );
@@ -138,7 +138,7 @@ fn every_carry_over_link_holds_the_core_inputs_and_opens_cleanly() {
     for spec in calculators::catalog() {
         let request = Request {
             inputs: demo_inputs(&spec),
-            units: Default::default(),
+            field_units: Default::default(),
             system: UnitSystem::Si,
         };
         let Ok(solution) = fluxledger_core::solve(spec.key, &request).result else {
@@ -157,7 +157,7 @@ fn every_carry_over_link_holds_the_core_inputs_and_opens_cleanly() {
             assert_eq!(path, &format!("{}.html", carry.calculator), "{}", spec.key);
             let mut expected: Vec<(String, String)> =
                 carry.inputs.iter().map(|(k, v)| (k.to_string(), v.clone())).collect();
-            expected.push(("units".into(), "si".into()));
+            expected.push(("system".into(), "si".into()));
             let mut got = params.clone();
             expected.sort();
             got.sort();
@@ -373,7 +373,7 @@ fn check_csv_of_every_table(
     }
     let request = Request {
         inputs,
-        units: Default::default(),
+        field_units: Default::default(),
         system: UnitSystem::Si,
     };
     let solution = fluxledger_core::solve(key, &request)
@@ -390,16 +390,17 @@ fn check_csv_of_every_table(
     assert!(!keys.is_empty(), "{key}: no table to download");
     let mut texts = Vec::new();
     for (index, table) in solution.tables.iter().enumerate() {
-        eval(page, browser, "window.__fluxledgerLastCsv = undefined");
-        eval(
-            page,
-            browser,
-            &format!("document.querySelectorAll('.panel-table')[{index}].querySelector('button.csv-download').click()"),
-        );
-        let file = eval(page, browser, "window.__fluxledgerLastCsv ?? null");
-        let name = file["name"].as_str().unwrap_or_default();
-        assert_eq!(name, format!("{key}-{}.csv", table.key));
-        let text = file["text"].as_str().unwrap_or_default().to_string();
+        let name = format!("{key}-{}.csv", table.key);
+        let click =
+            format!("document.querySelectorAll('.panel-table')[{index}].querySelector('button.csv-download').click()");
+        let bytes = download(page, browser, &click, &name);
+        let text = String::from_utf8(bytes).unwrap_or_else(|e| panic!("{name} is not UTF-8: {e}"));
+        // The file starts with a byte order mark so that spreadsheets read UTF-8.
+        let text = text
+            .strip_prefix('\u{feff}')
+            .unwrap_or_else(|| panic!("{name} has no byte order mark"))
+            .to_string();
+        let name = name.as_str();
         let records = parse_csv(&text).unwrap_or_else(|e| panic!("{name} is not RFC 4180 CSV ({e}):\n{text}"));
         let mut expected = vec![table.columns.clone()];
         expected.extend(table.rows.iter().cloned());
@@ -425,6 +426,55 @@ fn check_csv_of_every_table(
         texts.push(text);
     }
     texts
+}
+
+/// Clicks what `click` names and returns the bytes of the file the browser saves
+/// as `name`, captured through the DevTools protocol (downloads allowed into a
+/// fresh folder): the production script has no test hook.
+fn download(page: &Page, browser: &mut Browser, click: &str, name: &str) -> Vec<u8> {
+    static COUNT: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
+    let n = COUNT.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+    let dir = std::env::temp_dir().join(format!("fluxledger-downloads-{}-{n}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap_or_else(|e| panic!("{}: {e}", dir.display()));
+    browser
+        .call(
+            None,
+            "Browser.setDownloadBehavior",
+            json!({ "behavior": "allow", "downloadPath": dir.to_string_lossy(), "eventsEnabled": true }),
+        )
+        .unwrap_or_else(|e| panic!("{e}"));
+    eval(page, browser, click);
+    let path = dir.join(name);
+    let deadline = std::time::Instant::now() + Duration::from_secs(15);
+    loop {
+        let partial = std::fs::read_dir(&dir)
+            .map(|entries| {
+                entries
+                    .flatten()
+                    .any(|e| e.file_name().to_string_lossy().ends_with(".crdownload"))
+            })
+            .unwrap_or(false);
+        if path.is_file() && !partial {
+            let bytes = std::fs::read(&path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+            let _ = std::fs::remove_dir_all(&dir);
+            return bytes;
+        }
+        if std::time::Instant::now() > deadline {
+            let seen: Vec<String> = std::fs::read_dir(&dir)
+                .map(|entries| {
+                    entries
+                        .flatten()
+                        .map(|e| e.file_name().to_string_lossy().into_owned())
+                        .collect()
+                })
+                .unwrap_or_default();
+            panic!("no download named {name} within 15 s (the folder holds {seen:?})");
+        }
+        browser
+            .pump(Duration::from_millis(50))
+            .unwrap_or_else(|e| panic!("{e}"));
+    }
 }
 
 /// Line-schedule rows whose tags (text the user typed, shown in a table cell) a
@@ -469,7 +519,7 @@ fn every_table_downloads_as_csv_with_the_cells_of_the_result() {
             inputs.insert("rows".into(), rows.clone());
             inputs
         },
-        units: Default::default(),
+        field_units: Default::default(),
         system: UnitSystem::Si,
     };
     let solution = fluxledger_core::solve("line-schedule", &request)
@@ -542,7 +592,7 @@ fn switch_to(page: &Page, browser: &mut Browser, system: &str) {
     wait(
         page,
         browser,
-        &format!("new URLSearchParams(location.search).get('units') === '{system}' && document.body.dataset.state === 'ready'"),
+        &format!("new URLSearchParams(location.search).get('system') === '{system}' && document.body.dataset.state === 'ready'"),
     );
 }
 
@@ -642,6 +692,229 @@ fn unit_switch_converts_filled_inputs_and_switching_back_restores_them() {
     assert_eq!(p, "1034", "150 psi shown as {p} kPa");
     assert!((kpa - 1034.2136).abs() <= 0.5, "150 psi shown as {p} kPa");
 
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+// ---------------------------------------------------------------------------------
+// Old links: retired keys read through the core's glossary.
+
+/// An old link for `page`: every retired key of the glossary that the page no
+/// longer has but whose new key it has (with a value it takes), every renamed option
+/// value of one of its choices, and the retired unit-system key `units=`. Returns
+/// the old pairs and how many glossary entries (besides `units=`) they exercise.
+fn old_link(page: &str) -> (Vec<(String, String)>, usize) {
+    use fluxledger_core::glossary::{KEY_ALIASES, VALUE_ALIASES};
+    let Some(spec) = calculators::spec(page) else {
+        return (Vec::new(), 0);
+    };
+    let mut pairs: Vec<(String, String)> = Vec::new();
+    let offers = |key: &str, value: &str| {
+        spec.field(key).is_some_and(|f| match f.kind {
+            FieldKind::Choice(options) => options.iter().any(|o| o.key == value),
+            _ => true,
+        })
+    };
+    for alias in KEY_ALIASES.iter().filter(|a| a.page == page) {
+        if spec.field(alias.old).is_some() || pairs.iter().any(|(k, _)| k == alias.old) {
+            continue;
+        }
+        let Some(field) = spec.field(alias.new) else { continue };
+        // A renamed value that reads as the field's example first (the example
+        // inputs are known to solve), else any renamed value the field offers.
+        let renamed = alias
+            .values
+            .iter()
+            .find(|(_, new)| *new == field.demo)
+            .or_else(|| alias.values.iter().find(|(_, new)| offers(alias.new, new)))
+            .map(|(old, _)| *old);
+        let value = match field.kind {
+            FieldKind::Choice(_) => renamed.or((!field.demo.is_empty()).then_some(field.demo)),
+            _ => (!field.demo.is_empty()).then_some(field.demo),
+        };
+        if let Some(value) = value {
+            pairs.push((alias.old.to_string(), value.to_string()));
+        }
+    }
+    for alias in VALUE_ALIASES.iter().filter(|a| a.page == page) {
+        if offers(alias.key, alias.new) && !offers(alias.key, alias.old) && !pairs.iter().any(|(k, _)| k == alias.key) {
+            pairs.push((alias.key.to_string(), alias.old.to_string()));
+        }
+    }
+    let exercised = pairs.len();
+    pairs.push(("units".into(), "si".into()));
+    (pairs, exercised)
+}
+
+/// A bookmarked link in retired keys (`bend.html?d_in=300mm&basis=od&plane=vertical_up`
+/// once the pages use the glossary's keys) opens with today's keys in the address
+/// bar, shows the same result as the link written in today's keys, and names every
+/// translation in one notice. The old keys come from the core's alias table, so the
+/// test follows the glossary rather than a page's key list of today.
+#[test]
+fn an_old_key_link_opens_in_todays_keys_with_the_same_result_and_one_notice() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch::default());
+
+    // The page whose link exercises the most glossary entries (the bend page first).
+    let mut pages: Vec<&str> = calculators::CALCULATORS.iter().map(|c| c.key).collect();
+    pages.sort_by_key(|p| (std::cmp::Reverse(old_link(p).1), *p != "bend"));
+    let key = pages[0];
+    let (old, _) = old_link(key);
+    // Today's link, from the core's glossary (each pair on its own, as the page
+    // reads pairs it does not understand) and the unit-system key renamed.
+    let mut expected_notes = Vec::new();
+    let mut new: Vec<(String, String)> = Vec::new();
+    for (k, v) in &old {
+        if k == "units" {
+            expected_notes.push(format!("units={v} → system={v}"));
+            new.push(("system".into(), v.clone()));
+            continue;
+        }
+        let up = fluxledger_core::glossary::upgrade(key, &[(k.clone(), v.clone())]);
+        expected_notes.extend(up.translations.iter().map(|t| t.to_string()));
+        new.extend(up.pairs);
+    }
+    assert_eq!(
+        expected_notes.len(),
+        old.len(),
+        "{key}: every old pair is translated: {old:?}"
+    );
+
+    let outputs =
+        "JSON.stringify([...document.querySelectorAll('[data-output]')].map(e => [e.dataset.output, e.textContent]))";
+    open(
+        &page,
+        &mut browser,
+        &format!("{}/{key}.html?{}", site.base, crate::harness::query_string(&new)),
+    );
+    let today = eval(&page, &mut browser, outputs);
+    let today_notices = eval(&page, &mut browser, "document.getElementById('notices').textContent");
+    assert_eq!(today_notices, json!(""), "{key}: today's link needs no notice");
+
+    open(
+        &page,
+        &mut browser,
+        &format!("{}/{key}.html?{}", site.base, crate::harness::query_string(&old)),
+    );
+    let before = eval(&page, &mut browser, outputs);
+    assert_eq!(before, today, "{key}: the old link gives the same result as today's");
+    assert_ne!(before, json!("[]"), "{key}: no result shown");
+    let search = eval(
+        &page,
+        &mut browser,
+        "JSON.stringify([...new URLSearchParams(location.search)])",
+    );
+    let shown: Vec<(String, String)> = serde_json::from_str(search.as_str().unwrap_or("[]")).unwrap_or_default();
+    assert_eq!(shown, new, "{key}: the address bar shows the link in today's keys");
+    let notices: Vec<String> = serde_json::from_str(
+        eval(
+            &page,
+            &mut browser,
+            "JSON.stringify([...document.querySelectorAll('#notices > p')].map(p => p.firstChild.textContent))",
+        )
+        .as_str()
+        .unwrap_or("[]"),
+    )
+    .unwrap_or_default();
+    assert_eq!(
+        notices,
+        [format!("Old link keys read as: {}.", expected_notes.join(", "))],
+        "{key}: one notice naming every translation"
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+/// Event listeners the DevTools protocol finds on the element `expression` names
+/// (event types, sorted).
+fn listeners(page: &Page, browser: &mut Browser, expression: &str) -> Vec<String> {
+    let found = page
+        .call(browser, "Runtime.evaluate", json!({ "expression": expression }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    let object = found["result"]["objectId"]
+        .as_str()
+        .unwrap_or_else(|| panic!("{expression} names no element: {found}"))
+        .to_string();
+    let listed = page
+        .call(browser, "DOMDebugger.getEventListeners", json!({ "objectId": object }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    let mut types: Vec<String> = listed["listeners"]
+        .as_array()
+        .cloned()
+        .unwrap_or_default()
+        .iter()
+        .filter_map(|l| l["type"].as_str().map(str::to_string))
+        .collect();
+    types.sort();
+    types
+}
+
+/// The form has one listener per event type on the calculator section and none on
+/// its controls, unit selectors, unit-system switch or buttons, and the delegated
+/// listeners still drive the page: typing recomputes, a unit selector and the
+/// unit-system switch take effect.
+#[test]
+fn one_delegated_listener_per_event_drives_every_control() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch::default());
+    open(&page, &mut browser, &format!("{}/bend.html", site.base));
+
+    assert_eq!(
+        listeners(&page, &mut browser, "document.getElementById('calculator')"),
+        ["change", "click", "input"]
+    );
+    let count = eval(
+        &page,
+        &mut browser,
+        "document.querySelectorAll('#calculator input, #calculator select, #calculator textarea, #calculator button').length",
+    );
+    let count = count.as_u64().unwrap_or(0);
+    assert!(count > 10, "only {count} controls");
+    for index in 0..count {
+        let expression = format!(
+            "document.querySelectorAll('#calculator input, #calculator select, #calculator textarea, #calculator button')[{index}]"
+        );
+        let own = listeners(&page, &mut browser, &expression);
+        // The notices' own buttons (dismiss, reload) keep theirs; form controls have none.
+        let in_notice = eval(
+            &page,
+            &mut browser,
+            &format!("Boolean({expression}.closest('#notices'))"),
+        );
+        if in_notice != json!(true) {
+            let what = eval(
+                &page,
+                &mut browser,
+                &format!("(e => e.tagName + ' ' + (e.name || e.className))({expression})"),
+            );
+            assert!(own.is_empty(), "{what}: listeners of its own: {own:?}");
+        }
+    }
+
+    // Typing into the pressure field recomputes through the delegated listener.
+    let before = output_text(&page, &mut browser, "thrust").unwrap_or_default();
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const f = document.getElementById('field-p'); f.value = '20'; f.dispatchEvent(new Event('input', { bubbles: true })); })()",
+    );
+    wait(&page, &mut browser, "new URLSearchParams(location.search).get('p') === '20kPa' || new URLSearchParams(location.search).get('p')?.startsWith('20')");
+    let after = output_text(&page, &mut browser, "thrust").unwrap_or_default();
+    assert_ne!(before, after, "typing did not recompute");
+    // A unit selector takes effect.
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const s = document.querySelector('[data-field=p] select.unit'); s.value = 'bar'; s.dispatchEvent(new Event('change', { bubbles: true })); })()",
+    );
+    wait(
+        &page,
+        &mut browser,
+        "new URLSearchParams(location.search).get('p') === '20bar'",
+    );
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }

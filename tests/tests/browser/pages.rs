@@ -116,7 +116,7 @@ fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {
 }
 
 /// The link that opens a case: each typed input as a query parameter, exactly as
-/// typed, and `units=<system>`. A field the case leaves out is sent blank (`key=`),
+/// typed, and `system=<system>`. A field the case leaves out is sent blank (`key=`),
 /// as the page itself writes a cleared field into the link it shares; a field
 /// missing from a link would be filled with the page's example value instead.
 fn case_query(case: &Case, fields: &[&str]) -> String {
@@ -126,7 +126,7 @@ fn case_query(case: &Case, fields: &[&str]) -> String {
             params.push((field.to_string(), String::new()));
         }
     }
-    params.push(("units".into(), case.system.key().into()));
+    params.push(("system".into(), case.system.key().into()));
     query_string(&params)
 }
 
@@ -135,7 +135,7 @@ fn case_query(case: &Case, fields: &[&str]) -> String {
 fn core_solution(key: &str, case: &Case) -> Option<Solution> {
     let request = Request {
         inputs: case.inputs.clone(),
-        units: case.units.clone(),
+        field_units: case.units.clone(),
         system: case.system,
     };
     fluxledger_core::solve(key, &request).result.ok()

@@ -1,0 +1,67 @@
+// Small DOM helpers: every piece of text goes in through `textContent` or an
+// attribute, never as markup.
+
+export const SVG_NS = "http://www.w3.org/2000/svg";
+
+/** Longest piece of URL text quoted back in a notice. */
+const QUOTE_MAX = 60;
+
+/** How many keys a notice names before it says "and N more". */
+export const NOTICE_NAMES_MAX = 10;
+
+/** Creates an HTML element with attributes and text or child nodes. */
+export function el(tag, attrs, ...children) {
+  const node = document.createElement(tag);
+  setAttrs(node, attrs);
+  for (const child of children) {
+    if (child === null || child === undefined || child === false) continue;
+    node.append(typeof child === "string" ? document.createTextNode(child) : child);
+  }
+  return node;
+}
+
+/** Creates an SVG element with attributes. */
+export function svg(tag, attrs, ...children) {
+  const node = document.createElementNS(SVG_NS, tag);
+  setAttrs(node, attrs);
+  for (const child of children) {
+    if (child === null || child === undefined) continue;
+    node.append(typeof child === "string" ? document.createTextNode(child) : child);
+  }
+  return node;
+}
+
+function setAttrs(node, attrs) {
+  if (!attrs) return;
+  for (const [name, value] of Object.entries(attrs)) {
+    if (value === null || value === undefined || value === false) continue;
+    if (name === "text") node.textContent = value;
+    else if (name === "dataset") Object.assign(node.dataset, value);
+    else node.setAttribute(name, value === true ? "" : String(value));
+  }
+}
+
+/** Shortens text for quoting (by code points, so no surrogate is split). */
+export function quote(text) {
+  const chars = Array.from(String(text));
+  const cut = chars.length > QUOTE_MAX ? chars.slice(0, QUOTE_MAX).join("") + "…" : chars.join("");
+  return "“" + cut + "”" + (chars.length > QUOTE_MAX ? ` (${chars.length} characters)` : "");
+}
+
+/** Shortens a message that may repeat user text (at most 300 characters). */
+export function clip(text) {
+  const chars = Array.from(String(text));
+  return chars.length > 300 ? chars.slice(0, 300).join("") + "…" : chars.join("");
+}
+
+/** Quotes up to NOTICE_NAMES_MAX texts, then says how many more there are. */
+export function quoteList(texts) {
+  const named = texts.slice(0, NOTICE_NAMES_MAX).map(quote).join(", ");
+  const more = texts.length - NOTICE_NAMES_MAX;
+  return more > 0 ? `${named} and ${more} more` : named;
+}
+
+/** Whether every argument is a finite number. */
+export function finite(...numbers) {
+  return numbers.every((n) => typeof n === "number" && Number.isFinite(n));
+}

@@ -1,0 +1,350 @@
+// The page frame and the input form: toolbar, fields, the unit-system switch. One
+// delegated listener per event type on the calculator section reads every control
+// (fields by `name`, unit selectors by `data-unit-for`, buttons by `data-action`).
+
+import { el } from "./dom.js";
+import { noticesBox } from "./notices.js";
+import { state, defaultUnit, isQuantity, isVisible, systemLabel } from "./state.js";
+import { glue } from "./wasm.js";
+import { downloadCsv } from "./csv.js";
+
+function controlId(key) {
+  return "field-" + key;
+}
+
+function buildToolbar() {
+  const bar = el("div", { class: "toolbar" });
+
+  const systems = el("fieldset", { class: "system-switch" }, el("legend", { text: "Units" }));
+  for (const system of state.page.unit_systems || []) {
+    const input = el("input", { type: "radio", name: "unit-system", value: system.key });
+    input.checked = system.key === state.system;
+    systems.append(el("label", { class: "system-option" }, input, el("span", { text: system.label })));
+  }
+
+  const systemStatus = el("p", { class: "system-status", role: "status", "aria-live": "polite" });
+  systems.setAttribute("aria-describedby", "system-help");
+
+  const copy = el("button", { type: "button", class: "button", text: "Copy link", dataset: { action: "copy-link" } });
+  const print = el("button", { type: "button", class: "button", text: "Print sheet", dataset: { action: "print" } });
+  const copyStatus = el("span", { class: "copy-status", role: "status", "aria-live": "polite" });
+  const copyField = el("input", {
+    type: "text",
+    class: "copy-field",
+    readonly: true,
+    "aria-label": "Link to this calculation",
+    hidden: true,
+  });
+
+  const systemHelp = el("p", {
+    id: "system-help",
+    class: "system-help",
+    text: "Switching converts filled values; switching back restores them as typed.",
+  });
+  bar.append(systems, el("div", { class: "toolbar-actions" }, copy, print, copyStatus), copyField, systemHelp, systemStatus);
+  state.ui.systemInputs = systems.querySelectorAll("input");
+  state.ui.systemStatus = systemStatus;
+  state.ui.copyStatus = copyStatus;
+  state.ui.copyField = copyField;
+  return bar;
+}
+
+/**
+ * Switches the page's unit system. Every filled quantity field is converted (by the
+ * core, through `convert`) to the field's default unit in the new system, whatever
+ * unit it was typed in; a field the core cannot read stays as typed and is named.
+ * What a field held before is remembered: switching back restores the text and
+ * unit as typed, as long as the converted value was not edited in between.
+ * Empty fields take the new system's default unit.
+ */
+function changeSystem(system) {
+  const from = state.system;
+  if (system === from) return;
+  state.system = system;
+  let converted = 0;
+  let restored = 0;
+  const refused = [];
+  for (const field of state.spec.fields) {
+    if (!isQuantity(field)) continue;
+    const key = field.key;
+    const text = (state.values[key] ?? "").trim();
+    const target = defaultUnit(field, system);
+    if (text === "") {
+      state.converted.delete(key);
+      setField(field, "", target);
+      continue;
+    }
+    const unit = state.echoes[key]?.unit || state.units[key] || target;
+    const memo = state.converted.get(key);
+    state.converted.delete(key);
+    if (memo && memo.system === system && memo.shown === text && memo.shownUnit === unit) {
+      setField(field, memo.text, memo.unit);
+      restored += 1;
+      continue;
+    }
+    if (unit === target) continue;
+    let answer = null;
+    try {
+      answer = glue.convert(state.spec.key, key, text, state.units[key] || unit, system);
+    } catch (error) {
+      answer = null;
+    }
+    if (answer && answer.ok) {
+      state.converted.set(key, {
+        system: from,
+        text: state.values[key],
+        unit: state.units[key] || unit,
+        shown: answer.number,
+        shownUnit: answer.unit,
+      });
+      setField(field, answer.number, answer.unit);
+      converted += 1;
+    } else {
+      refused.push(field.label);
+    }
+  }
+  state.recompute({ writeToUrl: true });
+  const name = systemLabel(system);
+  const parts = [];
+  if (converted > 0) parts.push(`${converted} ${converted === 1 ? "value" : "values"} converted to ${name} units.`);
+  if (restored > 0) parts.push(`${restored} ${restored === 1 ? "value" : "values"} restored as typed.`);
+  if (refused.length > 0) parts.push(`Not converted (check the value): ${refused.join(", ")}.`);
+  if (state.ui.systemStatus) state.ui.systemStatus.textContent = parts.join(" ");
+}
+
+/** Puts text and a unit into a field's input and selector (and the page state). */
+function setField(field, text, unit) {
+  state.values[field.key] = text;
+  state.units[field.key] = unit;
+  const control = state.ui.controls.get(field.key);
+  if (control && control.value !== text) control.value = text;
+  const select = state.ui.unitSelects.get(field.key);
+  if (select && unit) select.value = unit;
+}
+
+async function copyLink() {
+  const link = location.href;
+  const status = state.ui.copyStatus;
+  try {
+    if (!navigator.clipboard || !window.isSecureContext) throw new Error("no clipboard");
+    await navigator.clipboard.writeText(link);
+    status.textContent = "Link copied.";
+    state.ui.copyField.hidden = true;
+  } catch (error) {
+    const field = state.ui.copyField;
+    field.value = link;
+    field.hidden = false;
+    field.focus();
+    field.select();
+    status.textContent = "Copy the selected link.";
+  }
+}
+
+function buildField(field) {
+  const id = controlId(field.key);
+  const wrap = el("div", { class: "field", dataset: { field: field.key } });
+  const describedBy = [];
+  const label = el("label", { for: id, class: "field-label", text: field.label });
+  if (field.optional) label.append(el("span", { class: "optional", text: " (optional)" }));
+  wrap.append(label);
+
+  let control;
+  const entry = el("div", { class: "entry" });
+  if (field.kind === "choice") {
+    control = el("select", { id, name: field.key, class: "choice" });
+    for (const option of field.options || []) {
+      control.append(el("option", { value: option.key, text: option.label }));
+    }
+    control.value = state.values[field.key] ?? "";
+    entry.append(control);
+  } else if (field.kind === "text") {
+    const lines = (state.values[field.key] ?? "").split("\n").length;
+    control = el("textarea", {
+      id,
+      name: field.key,
+      rows: Math.max(4, Math.min(14, lines + 1)),
+      spellcheck: "false",
+      autocapitalize: "off",
+      autocomplete: "off",
+    });
+    control.value = state.values[field.key] ?? "";
+    entry.append(control);
+  } else {
+    control = el("input", {
+      id,
+      name: field.key,
+      type: "text",
+      class: "quantity",
+      autocomplete: "off",
+      autocapitalize: "off",
+      spellcheck: "false",
+      enterkeyhint: "done",
+    });
+    control.value = state.values[field.key] ?? "";
+    entry.append(control);
+    if (isQuantity(field)) {
+      const select = el("select", { class: "unit", "aria-label": `Unit of ${field.label}`, dataset: { unitFor: field.key } });
+      for (const unit of field.units) select.append(el("option", { value: unit.id, text: unit.label }));
+      select.value = state.units[field.key];
+      state.ui.unitSelects.set(field.key, select);
+      entry.append(select);
+    }
+  }
+  wrap.append(entry);
+
+  if (field.help) {
+    const help = el("p", { class: "help", id: id + "-help", text: field.help });
+    describedBy.push(help.id);
+    wrap.append(help);
+  }
+  const error = el("p", { class: "field-error", id: id + "-error", dataset: { errorFor: field.key }, hidden: true });
+  describedBy.push(error.id);
+  const warning = el("p", { class: "field-warning", id: id + "-warning", hidden: true });
+  describedBy.push(warning.id);
+  wrap.append(error, warning);
+  control.setAttribute("aria-describedby", describedBy.join(" "));
+
+  state.ui.controls.set(field.key, control);
+  state.ui.fieldWraps.set(field.key, wrap);
+  state.ui.fieldErrors.set(field.key, error);
+  state.ui.fieldWarnings.set(field.key, warning);
+  return wrap;
+}
+
+/**
+ * When the user leaves a quantity field, shows the number alone with its unit in
+ * the selector, as the core read it (`150 psi` -> `150` [psi]).
+ */
+export function normaliseField(field) {
+  const echo = state.echoes[field.key];
+  const control = state.ui.controls.get(field.key);
+  if (!echo || !control || !isQuantity(field)) return;
+  if (control.value.trim() !== echo.number) {
+    control.value = echo.number;
+    state.values[field.key] = echo.number;
+  }
+  if (state.units[field.key] !== echo.unit) {
+    state.units[field.key] = echo.unit;
+    const select = state.ui.unitSelects.get(field.key);
+    if (select) select.value = echo.unit;
+  }
+}
+
+/** Keeps each unit selector on the unit the core actually applied. */
+export function syncUnitSelectors() {
+  for (const [key, select] of state.ui.unitSelects) {
+    const echo = state.echoes[key];
+    if (echo && echo.unit && select.value !== echo.unit) {
+      select.value = echo.unit;
+      state.units[key] = echo.unit;
+    }
+  }
+}
+
+export function applyVisibility() {
+  for (const field of state.spec.fields) {
+    const wrap = state.ui.fieldWraps.get(field.key);
+    if (!wrap) continue;
+    wrap.hidden = !isVisible(field);
+    // Lets the printed sheet show an empty optional field as "not given".
+    wrap.toggleAttribute("data-empty", (state.values[field.key] ?? "").trim() === "");
+  }
+}
+
+/** The field a form control belongs to (by its `name`), if any. */
+function fieldOf(target) {
+  const key = target && target.name;
+  return key ? state.spec.fields.find((f) => f.key === key) : undefined;
+}
+
+/** Text fields recompute on every keystroke; a choice when it is changed. */
+function onInput(event) {
+  const target = event.target;
+  if (!(target instanceof HTMLInputElement || target instanceof HTMLTextAreaElement)) return;
+  if (target.type === "radio") return;
+  const field = fieldOf(target);
+  if (!field) return;
+  state.values[field.key] = target.value;
+  state.recompute({ writeToUrl: true });
+}
+
+function onChange(event) {
+  const target = event.target;
+  if (target instanceof HTMLInputElement && target.name === "unit-system") {
+    if (target.checked) changeSystem(target.value);
+    return;
+  }
+  if (target instanceof HTMLSelectElement && target.dataset.unitFor) {
+    state.units[target.dataset.unitFor] = target.value;
+    state.recompute({ writeToUrl: true });
+    return;
+  }
+  const field = fieldOf(target);
+  if (!field) return;
+  if (target instanceof HTMLSelectElement) {
+    state.values[field.key] = target.value;
+    state.recompute({ writeToUrl: true });
+  } else if (target instanceof HTMLInputElement) {
+    normaliseField(field);
+  }
+}
+
+function onClick(event) {
+  const button = event.target instanceof Element ? event.target.closest("button[data-action]") : null;
+  if (!button) return;
+  const action = button.dataset.action;
+  if (action === "copy-link") copyLink();
+  else if (action === "print") window.print();
+  else if (action === "csv") {
+    const table = (state.lastResult?.tables || [])[Number(button.dataset.tableIndex)];
+    if (table) downloadCsv(table);
+  }
+}
+
+export function buildPage() {
+  const section = document.getElementById("calculator") || document.body.appendChild(el("section", { id: "calculator" }));
+  state.ui.controls = new Map();
+  state.ui.unitSelects = new Map();
+  state.ui.fieldWraps = new Map();
+  state.ui.fieldErrors = new Map();
+  state.ui.fieldWarnings = new Map();
+
+  const toolbar = buildToolbar();
+  const notices = noticesBox();
+
+  const headline = el("div", { class: "headline", "aria-live": "polite", "aria-atomic": "true" });
+  const form = el("form", { class: "inputs", novalidate: true, "aria-label": "Inputs" });
+  form.addEventListener("submit", (event) => event.preventDefault());
+  form.append(el("h2", { class: "panel-title", text: "Inputs" }));
+  for (const field of state.spec.fields) form.append(buildField(field));
+
+  const details = el("div", { class: "details" });
+  const printFooter = el("div", { class: "print-footer" });
+
+  // The headline stays in view while the inputs scroll past (on phones), and no
+  // further: it sticks within this wrapper only.
+  const main = el("div", { class: "calc-main" }, headline, form);
+  const grid = el("div", { class: "calc-grid" }, main, details);
+  section.replaceChildren(toolbar, notices, grid);
+  // The printed sheet ends with the link and version, after the method and cautions.
+  (section.closest("main") || section).append(printFooter);
+  Object.assign(state.ui, { section, headline, form, details, printFooter });
+
+  // One listener per event type for every control of the calculator.
+  section.addEventListener("input", onInput);
+  section.addEventListener("change", onChange);
+  section.addEventListener("click", onClick);
+}
+
+export function updatePrintFooter() {
+  const footer = state.ui.printFooter;
+  if (!footer) return;
+  footer.replaceChildren(
+    el("p", {}, el("strong", { text: "Link to this calculation: " }), el("span", { class: "print-url", text: location.href })),
+    el("p", {
+      text: `Fluxledger ${state.page.version || ""} · printed ${new Date().toISOString().slice(0, 10)} · unit system ${systemLabel(
+        state.system,
+      )}`,
+    }),
+  );
+}

@@ -1,0 +1,177 @@
+// Fluxledger page script, entry module: loads the core, reads the link, builds the
+// form and recomputes on every change.
+//
+// It renders what the core describes and nothing more. It parses no numbers and
+// holds no physics: what the user typed goes to the wasm `solve` as text, and the
+// page shows the values, the ledger tables, the diagrams and plots, the warnings
+// and the field errors that come back, each already split by the core into its
+// number, unit and shown text. The state of a calculation lives in the URL
+// (`?p=150psi&d=12in&system=us`); every piece of URL or user text is written to the
+// page through `textContent` or `value`, never as markup, and never into an `href`
+// or `src`.
+//
+// Modules: dom (element helpers), notices, wasm (the core, re-initialised after a
+// trap), state (the page's state and the core's field rules), url (reading links
+// through the glossary, writing them back), form (frame, fields, unit switch, the
+// delegated listeners), csv, render-results / render-table / render-diagram /
+// render-plot. The site tool rewrites the imports to content-hashed file names.
+//
+// Layout of the calculator section (filled into `<section id="calculator">`):
+//   toolbar (unit system, copy link, print) · #notices · headline results ·
+//   input form · details (links to a next calculator, other outputs, warnings,
+//   tables with a CSV download, diagrams, plots) · print footer (link and version).
+
+import { clip, quote } from "./dom.js";
+import { notice } from "./notices.js";
+import { state, defaultUnit, isQuantity } from "./state.js";
+import { glue, loadGlue, dropGlue } from "./wasm.js";
+import { readUrl, writeUrl } from "./url.js";
+import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
+import { measureFigureWidth, render } from "./render-results.js";
+
+function request() {
+  const inputs = {};
+  const fieldUnits = {};
+  for (const field of state.spec.fields) {
+    inputs[field.key] = state.values[field.key] ?? "";
+    if (isQuantity(field)) fieldUnits[field.key] = state.units[field.key] || defaultUnit(field, state.system);
+  }
+  return { inputs, fieldUnits };
+}
+
+/** Calls the wasm solve; recovers from a trap by loading a fresh module instance. */
+function solveNow() {
+  const { inputs, fieldUnits } = request();
+  try {
+    return glue.solve(state.spec.key, inputs, fieldUnits, state.system);
+  } catch (error) {
+    const trapped = error instanceof WebAssembly.RuntimeError;
+    notice("error", [
+      trapped
+        ? "The calculation stopped unexpectedly for these inputs. The calculator was restarted; please check the inputs. This is a fault in Fluxledger."
+        : "The calculation could not be run for these inputs. This is a fault in Fluxledger.",
+    ]);
+    dropGlue();
+    restart();
+    return null;
+  }
+}
+
+async function restart() {
+  try {
+    await loadGlue();
+    recompute({ writeToUrl: false });
+  } catch (error) {
+    notice("error", ["The calculator could not be restarted; reload the page."]);
+    document.body.dataset.state = "error";
+  }
+}
+
+function recordEchoes(result) {
+  state.echoes = {};
+  for (const echo of result.echoes || []) {
+    if (echo && echo.field) state.echoes[echo.field] = { number: echo.number, unit: echo.unit };
+  }
+}
+
+/** Recomputes, renders, and optionally writes the URL. */
+function recompute({ writeToUrl }) {
+  if (!glue) return;
+  const result = solveNow();
+  if (!result) return;
+  recordEchoes(result);
+  syncUnitSelectors();
+  applyVisibility();
+  render(result);
+  if (writeToUrl) {
+    writeUrl();
+    updatePrintFooter();
+  }
+}
+
+/**
+ * Fills the fields: a value the link gives is kept exactly as given, valid or not
+ * (nothing the user sent is lost); fields the link does not give take the demo
+ * values. A link value the core refuses is named in a notice, and the page shows
+ * no result until it is corrected: a result computed from a demo value in its
+ * place would look like the link's calculation and is not.
+ */
+function settleInitialValues(spec, fromUrl) {
+  for (const field of spec.fields) {
+    state.values[field.key] = fromUrl.has(field.key) ? fromUrl.get(field.key) : field.demo || "";
+    if (isQuantity(field)) state.units[field.key] = defaultUnit(field, state.system);
+  }
+  if (fromUrl.size === 0) return;
+  const result = solveNow();
+  if (!result || result.ok) return;
+  const fields = new Map(spec.fields.map((f) => [f.key, f]));
+  const refused = new Set();
+  for (const error of result.errors || []) {
+    if (!fromUrl.has(error.field) || refused.has(error.field)) continue;
+    refused.add(error.field);
+    const field = fields.get(error.field);
+    notice("warn", [
+      `The link gives ${field.label} as ${quote(fromUrl.get(error.field))}: ${clip(error.message)}. `,
+      "No result is shown until it is corrected.",
+    ]);
+  }
+}
+
+function registerServiceWorker() {
+  if (!("serviceWorker" in navigator)) return;
+  const hadController = Boolean(navigator.serviceWorker.controller);
+  navigator.serviceWorker.addEventListener("controllerchange", () => {
+    // The first install takes control silently; a later one means a new version.
+    if (!hadController) return;
+    notice("info", ["A new version of Fluxledger is ready."], { label: "Reload", run: () => location.reload() });
+  });
+  navigator.serviceWorker.register("./sw.js").catch(() => {
+    // Without a service worker the page still works online; nothing to report.
+  });
+}
+
+async function start() {
+  const key = document.body.dataset.calculator;
+  if (!key) {
+    registerServiceWorker();
+    return;
+  }
+  try {
+    await loadGlue();
+  } catch (error) {
+    notice("error", [
+      "The calculator could not be loaded. Reload the page; if this persists, the browser may be blocking WebAssembly. ",
+      `(${quote(error && error.message ? error.message : String(error))})`,
+    ]);
+    document.body.dataset.state = "error";
+    registerServiceWorker();
+    return;
+  }
+  try {
+    state.page = glue.calculator(key);
+  } catch (error) {
+    notice("error", [`This page asks for a calculator ${quote(key)} that this version does not have.`]);
+    document.body.dataset.state = "error";
+    registerServiceWorker();
+    return;
+  }
+  state.spec = state.page.calculator;
+  state.recompute = recompute;
+  const spec = state.spec;
+  const fromUrl = readUrl(spec);
+  settleInitialValues(spec, fromUrl);
+  buildPage();
+  window.addEventListener("resize", () => {
+    state.viewportHeight = window.innerHeight || 800;
+    const before = state.figureWidth;
+    const width = measureFigureWidth();
+    if (width !== before && state.lastResult) render(state.lastResult);
+  });
+  recompute({ writeToUrl: false });
+  // Show each quantity as the core read it: the number, with its unit selected.
+  for (const field of spec.fields) normaliseField(field);
+  updatePrintFooter();
+  registerServiceWorker();
+}
+
+start();
