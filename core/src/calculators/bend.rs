@@ -26,10 +26,11 @@
 //! equal-size horizontal bend at rest, the static formula 2pA·sin(θ/2).
 //!
 //! # Area basis
-//! The bore (`basis=id`) is for joints that seal on it: welded, flanged or fused.
-//! Push-on and mechanical joints, restrained or not, seal on the spigot's outside,
-//! so the pressure acts out to the outside diameter of the sealing joint
-//! (`basis=od`, with `d_od` and `d_out_od`): −p·(A_OD − A)·n is added at each face
+//! The bore (`joint=flanged` or `welded`, the default flanged) is for joints that
+//! seal on it: welded, flanged or fused. Push-on and mechanical joints, restrained
+//! or not (`joint=push_on`, `mechanical`, `restrained`), seal on the spigot's
+//! outside, so the pressure acts out to the outside diameter of the sealing joint
+//! (`od` and `od2`): −p·(A_OD − A)·n is added at each face
 //! as a named force, as on the reducer page. 12 in ductile iron (OD 13.20 in, bore
 //! 12.46 in), 150 psi, 90°: 29,030 lbf on the OD, 25,866 lbf on the bore.
 //!
@@ -63,12 +64,12 @@ const PLANE_OPTIONS: &[ChoiceOption] = &[
         label: "Horizontal (plan view)",
     },
     ChoiceOption {
-        key: "vertical_up",
-        label: "Vertical, turning upward",
+        key: "vertical_sag",
+        label: "Vertical, turning upward (a sag)",
     },
     ChoiceOption {
-        key: "vertical_down",
-        label: "Vertical, turning downward",
+        key: "vertical_crest",
+        label: "Vertical, turning downward (a crest)",
     },
 ];
 
@@ -85,7 +86,7 @@ pub fn spec() -> CalculatorSpec {
             "How far the flow turns, from 0.1 to 180 degrees (a return bend).",
         ),
         quantity(
-            "d_in",
+            "d",
             "Inlet inside diameter",
             Q::Length,
             "mm",
@@ -97,7 +98,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec {
             optional: true,
             ..quantity(
-                "d_out",
+                "d2",
                 "Outlet inside diameter",
                 Q::Length,
                 "mm",
@@ -118,7 +119,7 @@ pub fn spec() -> CalculatorSpec {
             "The design pressure: the highest the line will see, including test pressure and surge.",
         ),
     ];
-    fields.extend(common::flow_fields("850 m3/h"));
+    fields.extend(common::flow_given_fields("850 m3/h"));
     fields.extend(common::fluid_fields("25 degC"));
     fields.extend([
         FieldSpec {
@@ -127,16 +128,16 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             optional: true,
-            ..choice("basis", "Thrust area basis", common::AREA_BASIS_OPTIONS, "id", common::AREA_BASIS_HELP)
+            ..choice("joint", "Joints at the bend (thrust area)", super::thrust_block::JOINT_OPTIONS, "flanged", super::thrust_block::JOINT_HELP)
         },
         FieldSpec {
-            visible_when: Some(("basis", &["od"])),
-            ..quantity("d_od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
+            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
+            ..quantity("od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
         },
         FieldSpec {
-            visible_when: Some(("basis", &["od"])),
+            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
             optional: true,
-            ..quantity("d_out_od", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
+            ..quantity("od2", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
         },
         choice("plane", "Plane of the bend", PLANE_OPTIONS, "horizontal", "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the plane."),
         FieldSpec {
@@ -172,7 +173,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "viscosity", label: "Fluid viscosity", kind: Q::DynamicViscosity, headline: false },
         ],
         cautions: vec![
-            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical joints, restrained or not, seal on the spigot's outside: choose the outside-diameter basis for them.",
+            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical joints, restrained or not, seal on the spigot's outside: choose their joint (the outside diameter) for them.",
             "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a gravity block must outweigh it. Where the line turns upward (a sag) it points down into the ground.",
         ],
     }
@@ -210,23 +211,23 @@ impl Geometry {
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let theta = values.quantity("angle").map_err(|e| vec![e])?;
-    let d_in = values.quantity("d_in").map_err(|e| vec![e])?;
-    let d_out = values.quantity_or("d_out", d_in);
+    let d_in = values.quantity("d").map_err(|e| vec![e])?;
+    let d_out = values.quantity_or("d2", d_in);
     let p_in = values.quantity("p").map_err(|e| vec![e])?;
     let k = values.quantity_or("k", 0.0);
     let plane = values.choice("plane").map_err(|e| vec![e])?;
     let radius = values.quantity_or("r_bend", 1.5 * d_in);
     let w_fitting = values.quantity_or("w_fitting", 0.0);
     let fluid = common::fluid_from(values)?;
-    let flow = common::flow_from(values)?;
-    let outside = match values.choice("basis").unwrap_or("id") {
-        "od" => {
-            let od_in = values.quantity("d_od").map_err(|e| vec![e])?;
-            let od_out = values.quantity_or("d_out_od", od_in);
+    let flow = common::flow_given_from(values)?;
+    let outside = match super::thrust_block::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
+        true => {
+            let od_in = values.quantity("od").map_err(|e| vec![e])?;
+            let od_out = values.quantity_or("od2", od_in);
             let mut errors = Vec::new();
-            for (field, od, bore) in [("d_od", od_in, d_in), ("d_out_od", od_out, d_out)] {
+            for (field, od, bore) in [("od", od_in, d_in), ("od2", od_out, d_out)] {
                 if od <= bore {
-                    let message = if field == "d_out_od" && !values.is_set("d_out_od") {
+                    let message = if field == "od2" && !values.is_set("od2") {
                         "give the outlet's outside diameter: the inlet's is not larger than the outlet bore"
                     } else {
                         "the outside diameter must be larger than the inside diameter"
@@ -239,7 +240,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             }
             Some((od_in, od_out))
         }
-        _ => None,
+        false => None,
     };
     if radius < 0.5 * d_in.max(d_out) {
         return Err(vec![FieldError::inconsistent(
@@ -249,8 +250,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
 
     let (sense, gravity) = match plane {
-        "vertical_up" => (1.0, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
-        "vertical_down" => (-1.0, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
+        "vertical_sag" => (1.0, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
+        "vertical_crest" => (-1.0, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
         _ => (1.0, Vec3::new(0.0, 0.0, -STANDARD_GRAVITY)),
     };
     let geometry = Geometry {
@@ -387,13 +388,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
 
     common::forward_warnings(&balance, report);
-    let flow_field = match values.choice("flow_basis").unwrap_or("q") {
-        "v" => "v",
-        "mdot" => "mdot",
-        _ => "q",
-    };
+    let flow_field = common::flow_field(values);
     common::pipe_velocity_warning(report, flow_field, "inlet", inlet_state.speed);
-    common::pipe_velocity_warning(report, "d_out", "outlet", outlet_state.speed);
+    common::pipe_velocity_warning(report, "d2", "outlet", outlet_state.speed);
     if outlet_state.pressure < 0.0 {
         report.warn(
             Some("p"),
@@ -412,7 +409,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     // thrust only: the fluid's weight (z) rests on the bedding, not on the block
     // (carried with it, a large low-pressure bend would open as a sag block).
     let (carried, vertical, horizontal) = match plane {
-        "vertical_up" | "vertical_down" => (thrust.norm(), thrust.y, thrust.x.hypot(thrust.z)),
+        "vertical_sag" | "vertical_crest" => (thrust.norm(), thrust.y, thrust.x.hypot(thrust.z)),
         _ => (in_plane, 0.0, in_plane),
     };
     let carry = common::thrust_carry_over(
@@ -439,8 +436,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         "none".to_string()
     };
     let plane_text = match plane {
-        "vertical_up" => "vertical, the line turning upward (a sag): fluid weight in the plane",
-        "vertical_down" => "vertical, the line turning downward (a crest): fluid weight in the plane",
+        "vertical_sag" => "vertical, the line turning upward (a sag): fluid weight in the plane",
+        "vertical_crest" => "vertical, the line turning downward (a crest): fluid weight in the plane",
         _ => "horizontal: fluid weight normal to the plane (carried by the bedding)",
     };
     report.solution.tables.push(common::basis_table(vec![
@@ -580,9 +577,9 @@ mod tests {
         // Derived from the definition: T = 2pA sin(θ/2) with no flow.
         let s = solve(&[
             ("angle", "90 deg"),
-            ("d_in", "300 mm"),
+            ("d", "300 mm"),
             ("p", "1 bar"),
-            ("flow_basis", "q"),
+            ("flow_given", "q"),
             ("q", "0"),
             ("fluid", "water"),
             ("t", "20 degC"),
@@ -602,7 +599,7 @@ mod tests {
 
     #[test]
     fn carried_thrust_opens_the_restraint_page_with_the_same_force() {
-        let request = crate::catalog::demo_request(&super::spec(), &[("plane", "vertical_down")]);
+        let request = crate::catalog::demo_request(&super::spec(), &[("plane", "vertical_crest")]);
         let s = crate::solve(super::KEY, &request).result.expect("solves");
         let thrust = s.output("thrust").unwrap().si;
         let carry = &s.carry_over[0];
@@ -628,7 +625,7 @@ mod tests {
         let request = crate::catalog::demo_request(
             &super::spec(),
             &[
-                ("d_in", "1200 mm"),
+                ("d", "1200 mm"),
                 ("angle", "90 deg"),
                 ("p", "5 bar"),
                 ("plane", "horizontal"),
@@ -659,11 +656,11 @@ mod tests {
         // Derived from the definition: at rest the thrust is 2·p·A_OD·sin(θ/2).
         let s = solve(&[
             ("angle", "60 deg"),
-            ("d_in", "300 mm"),
-            ("basis", "od"),
-            ("d_od", "326 mm"),
+            ("d", "300 mm"),
+            ("joint", "push_on"),
+            ("od", "326 mm"),
             ("p", "10 bar"),
-            ("flow_basis", "q"),
+            ("flow_given", "q"),
             ("q", "0"),
             ("fluid", "water"),
             ("t", "20 degC"),
@@ -677,10 +674,10 @@ mod tests {
 
     #[test]
     fn errors_name_the_field() {
-        let request = crate::catalog::demo_request(&super::spec(), &[("d_in", "5 psi")]);
+        let request = crate::catalog::demo_request(&super::spec(), &[("d", "5 psi")]);
         let outcome = crate::solve(super::KEY, &request);
         match outcome.result {
-            Err(crate::SolveError::Fields(errors)) => assert_eq!(errors[0].field, "d_in"),
+            Err(crate::SolveError::Fields(errors)) => assert_eq!(errors[0].field, "d"),
             other => panic!("expected a field error, got {other:?}"),
         }
     }

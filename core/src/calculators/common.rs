@@ -185,18 +185,34 @@ pub const FLOW_BASIS_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
-/// The flow fields: `flow_basis` and one of `q`, `v`, `mdot`.
+/// The flow fields: the glossary's `flow_given` and one of `q`, `v`, `mdot`.
+pub fn flow_given_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    flow_fields_keyed(FLOW_GIVEN, demo_q)
+}
+
+/// The flow fields under the retired key `flow_basis` (the tee's, until its keys
+/// move to the glossary: old links are read through [`crate::glossary::upgrade`]).
 pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    flow_fields_keyed("flow_basis", demo_q)
+}
+
+/// The glossary key of how the flow is given.
+pub const FLOW_GIVEN: &str = "flow_given";
+
+fn flow_fields_keyed(key: &'static str, demo_q: &'static str) -> Vec<FieldSpec> {
+    // `visible_when` needs a `'static` key: the two keys in use are spelled out.
+    let on =
+        |options: &'static [&'static str]| -> Option<(&'static str, &'static [&'static str])> { Some((key, options)) };
     vec![
         choice(
-            "flow_basis",
+            key,
             "Flow given as",
             FLOW_BASIS_OPTIONS,
             "q",
             "How the flow is given; zero flow is allowed (a full, still line under pressure).",
         ),
         FieldSpec {
-            visible_when: Some(("flow_basis", &["q"])),
+            visible_when: on(&["q"]),
             ..quantity(
                 "q",
                 "Volumetric flow",
@@ -209,7 +225,7 @@ pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
             )
         },
         FieldSpec {
-            visible_when: Some(("flow_basis", &["v"])),
+            visible_when: on(&["v"]),
             ..quantity(
                 "v",
                 "Mean velocity at the inlet",
@@ -222,7 +238,7 @@ pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
             )
         },
         FieldSpec {
-            visible_when: Some(("flow_basis", &["mdot"])),
+            visible_when: on(&["mdot"]),
             ..quantity(
                 "mdot",
                 "Mass flow",
@@ -237,9 +253,19 @@ pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
     ]
 }
 
-/// Reads the flow fields into an engine flow spec for the inlet.
+/// Reads the flow fields of [`flow_given_fields`] into an engine flow spec for the
+/// inlet.
+pub fn flow_given_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
+    flow_from_keyed(values, FLOW_GIVEN)
+}
+
+/// Reads the flow fields of [`flow_fields`] (retired key `flow_basis`).
 pub fn flow_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
-    let basis = values.choice("flow_basis").map_err(|e| vec![e])?;
+    flow_from_keyed(values, "flow_basis")
+}
+
+fn flow_from_keyed(values: &Values, key: &str) -> Result<FlowSpec, Vec<FieldError>> {
+    let basis = values.choice(key).map_err(|e| vec![e])?;
     let need = |key: &'static str| {
         if values.is_set(key) {
             Ok(values.quantity_or(key, 0.0))
@@ -512,9 +538,11 @@ pub fn shape_points(shape: &Shape) -> Vec<[f64; 2]> {
     }
 }
 
-/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings.
+/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings;
+/// read from `flow_given`, or from the retired `flow_basis` of the tee.
 pub fn flow_field(values: &Values) -> &'static str {
-    match values.choice("flow_basis").unwrap_or("q") {
+    let given = values.choice(FLOW_GIVEN).or_else(|_| values.choice("flow_basis"));
+    match given.unwrap_or("q") {
         "v" => "v",
         "mdot" => "mdot",
         _ => "q",

@@ -87,23 +87,23 @@ pub fn spec() -> CalculatorSpec {
             "Bore of the pipe at the closure.",
         ),
         choice(
-            "basis",
-            "Thrust area basis",
-            common::AREA_BASIS_OPTIONS,
-            "od",
-            common::AREA_BASIS_HELP,
+            "joint",
+            "Joint at the closure (thrust area)",
+            super::thrust_block::JOINT_OPTIONS,
+            "push_on",
+            super::thrust_block::JOINT_HELP,
         ),
         FieldSpec {
             optional: true,
             ..quantity(
-                "d_od",
+                "od",
                 "Pipe outside diameter",
                 Q::Length,
                 "mm",
                 "in",
                 "222 mm",
                 Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Needed for the outside-diameter basis; with it the inside-diameter thrust is shown as well.",
+                "Needed for push-on and mechanical joints (the outside-diameter basis); with it the inside-diameter thrust is shown as well.",
             )
         },
     ];
@@ -155,23 +155,23 @@ pub fn spec() -> CalculatorSpec {
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let p = values.quantity("p").map_err(|e| vec![e])?;
     let d = values.quantity("d").map_err(|e| vec![e])?;
-    let basis = values.choice("basis").map_err(|e| vec![e])?;
+    let on_od = super::thrust_block::joint_uses_od(values.choice("joint").map_err(|e| vec![e])?);
     let closure = values.choice("closure").map_err(|e| vec![e])?;
-    let d_od = values.is_set("d_od").then(|| values.quantity_or("d_od", d));
+    let d_od = values.is_set("od").then(|| values.quantity_or("od", d));
     if let Some(od) = d_od {
         if od <= d {
             return Err(vec![FieldError::inconsistent(
-                "d_od",
+                "od",
                 "the outside diameter must be larger than the inside diameter",
             )]);
         }
     }
-    let (d_used, basis_text) = match (basis, d_od) {
-        ("od", Some(od)) => (od, "outside diameter (push-on or mechanical joint)"),
-        ("od", None) => {
+    let (d_used, basis_text) = match (on_od, d_od) {
+        (true, Some(od)) => (od, "outside diameter (push-on or mechanical joint)"),
+        (true, None) => {
             return Err(vec![FieldError::inconsistent(
-                "d_od",
-                "an outside diameter is required for the outside-diameter basis",
+                "od",
+                "an outside diameter is required: push-on and mechanical joints take the thrust area on it",
             )])
         }
         _ => (d, "inside diameter (the bore)"),
@@ -372,13 +372,13 @@ mod tests {
     #[test]
     fn thrust_is_pressure_times_the_chosen_area() {
         // Derived from the definition: T = p·π·D²/4.
-        let s = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("d_od", "326 mm"), ("basis", "od")])
+        let s = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("od", "326 mm"), ("joint", "push_on")])
             .result
             .expect("solves");
         let od_area = std::f64::consts::PI * 0.326 * 0.326 / 4.0;
         assert_relative_eq!(s.output("thrust").unwrap().si, 1e6 * od_area, max_relative = 1e-12);
         assert_relative_eq!(s.output("area").unwrap().si, od_area, max_relative = 1e-12);
-        let id = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("basis", "id"), ("d_od", "")])
+        let id = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("joint", "flanged"), ("od", "")])
             .result
             .expect("solves");
         assert_relative_eq!(
@@ -416,8 +416,8 @@ mod tests {
     fn bad_inputs_name_their_field() {
         assert_eq!(error_field(&[("p", "-1 bar")]), "p");
         assert_eq!(error_field(&[("d", "0 mm")]), "d");
-        assert_eq!(error_field(&[("d_od", "100 mm")]), "d_od");
-        assert_eq!(error_field(&[("basis", "od"), ("d_od", "")]), "d_od");
+        assert_eq!(error_field(&[("od", "100 mm")]), "od");
+        assert_eq!(error_field(&[("joint", "push_on"), ("od", "")]), "od");
     }
 
     #[test]

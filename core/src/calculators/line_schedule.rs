@@ -91,7 +91,7 @@ pub fn spec() -> CalculatorSpec {
             label: "Fittings along the line",
         },
         choice("p_basis", "Design pressure basis (rows without p=)", BASIS_OPTIONS, "highest", "Applied to the working pressure of each row that does not give its own design pressure."),
-        quantity("p_work", "Working pressure, gauge (rows without pw=)", Q::Pressure, "bar", "psi", "150 psi", Limits::closed(0.0, MAX_PRESSURE_PA), "The working pressure along the line; a row may give its own with pw=."),
+        quantity("p", "Working pressure, gauge (rows without pw=)", Q::Pressure, "bar", "psi", "150 psi", Limits::closed(0.0, MAX_PRESSURE_PA), "The working pressure along the line; a row may give its own with pw=."),
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "nfpa24", "Named rules of published standards, or a typed test pressure.") },
         FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
         FieldSpec { optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
@@ -520,7 +520,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         )]);
     }
     let basis = values.choice("p_basis").map_err(one)?.to_string();
-    let work = values.quantity("p_work").map_err(one)?;
+    let work = values.quantity("p").map_err(one)?;
     let sf = values.quantity("sf").map_err(one)?;
     let default_h = values.quantity("block_h").map_err(one)?;
     let gamma_c = values.quantity("gamma_c").map_err(one)?;
@@ -852,7 +852,7 @@ fn carry_inputs(s: &Solved, values: &Values, sf: f64) -> Vec<(&'static str, Stri
         .unwrap_or_else(|| values.choice("joint").unwrap_or("push_on").to_string());
     v.push(("joint", joint));
     v.push(("p_basis", "operating".to_string()));
-    v.push(("p_work", format!("{}Pa", num(s.p))));
+    v.push(("p", format!("{}Pa", num(s.p))));
     match (r.sigma, r.soil.as_deref()) {
         (Some(sigma), _) => {
             v.push(("soil", "custom".to_string()));

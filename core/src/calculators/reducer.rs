@@ -37,8 +37,9 @@
 //! −p₁(A₂ − A₁).
 //!
 //! # Area basis
-//! On the outside-diameter basis (push-on and mechanical joints, restrained or not:
-//! they seal on the spigot's outside) the pressure at each face also acts on the
+//! The joint (`joint`, empty: flanged) sets the area. For push-on and mechanical
+//! joints, restrained or not (they seal on the spigot's outside; `od`, `od2`), the
+//! pressure at each face also acts on the
 //! wall annulus out to the outside diameter: −p·(A_OD − A)·n is added to the engine
 //! as a named force per face, and the static formula uses the outside areas.
 //!
@@ -102,11 +103,11 @@ const ORIENTATION_OPTIONS: &[ChoiceOption] = &[
         label: "Horizontal (plan view)",
     },
     ChoiceOption {
-        key: "vertical_up",
+        key: "upward",
         label: "Vertical, flow upward",
     },
     ChoiceOption {
-        key: "vertical_down",
+        key: "downward",
         label: "Vertical, flow downward",
     },
 ];
@@ -114,7 +115,7 @@ const ORIENTATION_OPTIONS: &[ChoiceOption] = &[
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         quantity(
-            "d_in",
+            "d",
             "Inlet inside diameter",
             Q::Length,
             "mm",
@@ -124,7 +125,7 @@ pub fn spec() -> CalculatorSpec {
             "Bore of the pipe the flow comes from.",
         ),
         quantity(
-            "d_out",
+            "d2",
             "Outlet inside diameter",
             Q::Length,
             "mm",
@@ -144,11 +145,11 @@ pub fn spec() -> CalculatorSpec {
             "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so not below 0.",
         ),
     ];
-    fields.extend(common::flow_fields("850 m3/h"));
+    fields.extend(common::flow_given_fields("850 m3/h"));
     fields.extend(common::fluid_fields("25 degC"));
     fields.extend([
         quantity(
-            "angle",
+            "cone_angle",
             "Included cone angle",
             Q::Angle,
             "deg",
@@ -188,8 +189,8 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         choice(
-            "orientation",
-            "Orientation",
+            "flow_dir",
+            "Direction of flow",
             ORIENTATION_OPTIONS,
             "horizontal",
             "In a vertical fitting the fluid's weight acts along the axis and the outlet is higher or lower.",
@@ -197,17 +198,17 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec {
             optional: true,
             ..choice(
-                "basis",
-                "Thrust area basis",
-                common::AREA_BASIS_OPTIONS,
-                "id",
-                "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the pressure then also acts on the wall annulus out to the outside diameter of the sealing joint. Only welded, flanged or fused joints take the bore. Empty means the inside diameter.",
+                "joint",
+                "Joints at the fitting (thrust area)",
+                super::thrust_block::JOINT_OPTIONS,
+                "flanged",
+                "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the pressure then also acts on the wall annulus out to the outside diameter of the sealing joint. Only welded, flanged or fused joints take the bore. Empty means flanged (the bore).",
             )
         },
         FieldSpec {
-            visible_when: Some(("basis", &["od"])),
+            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
             ..quantity(
-                "d_in_od",
+                "od",
                 "Inlet pipe outside diameter",
                 Q::Length,
                 "mm",
@@ -218,9 +219,9 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         FieldSpec {
-            visible_when: Some(("basis", &["od"])),
+            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
             ..quantity(
-                "d_out_od",
+                "od2",
                 "Outlet pipe outside diameter",
                 Q::Length,
                 "mm",
@@ -254,7 +255,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
         ],
         cautions: vec![
-            "For push-on and mechanical joints choose the outside-diameter basis: using the bores there under-states the thrust by the wall's share, often 15 % or more.",
+            "For push-on and mechanical joints choose that joint (the outside-diameter basis): using the bores there under-states the thrust by the wall's share, often 15 % or more.",
             "Loss coefficients of reducers differ between published methods (Crane, Idelchik, Rennels, Miller) by tens of per cent; the thrust is rarely sensitive to them, the outlet pressure more so.",
         ],
     }
@@ -281,18 +282,18 @@ pub fn crane_k_small(d_in: f64, d_out: f64, theta: f64) -> f64 {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let d_in = values.quantity("d_in").map_err(|e| vec![e])?;
-    let d_out = values.quantity("d_out").map_err(|e| vec![e])?;
+    let d_in = values.quantity("d").map_err(|e| vec![e])?;
+    let d_out = values.quantity("d2").map_err(|e| vec![e])?;
     let p_in = values.quantity("p").map_err(|e| vec![e])?;
-    let mut theta = values.quantity("angle").map_err(|e| vec![e])?;
+    let mut theta = values.quantity("cone_angle").map_err(|e| vec![e])?;
     let loss_model = values.choice("loss").map_err(|e| vec![e])?;
-    let orientation = values.choice("orientation").map_err(|e| vec![e])?;
-    let outside = match values.choice("basis").unwrap_or("id") {
-        "od" => {
-            let od_in = values.quantity("d_in_od").map_err(|e| vec![e])?;
-            let od_out = values.quantity("d_out_od").map_err(|e| vec![e])?;
+    let orientation = values.choice("flow_dir").map_err(|e| vec![e])?;
+    let outside = match super::thrust_block::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
+        true => {
+            let od_in = values.quantity("od").map_err(|e| vec![e])?;
+            let od_out = values.quantity("od2").map_err(|e| vec![e])?;
             let mut errors = Vec::new();
-            for (field, od, bore) in [("d_in_od", od_in, d_in), ("d_out_od", od_out, d_out)] {
+            for (field, od, bore) in [("od", od_in, d_in), ("od2", od_out, d_out)] {
                 if od <= bore {
                     errors.push(FieldError::inconsistent(
                         field,
@@ -305,10 +306,10 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             }
             Some((od_in, od_out))
         }
-        _ => None,
+        false => None,
     };
     let fluid = common::fluid_from(values)?;
-    let flow = common::flow_from(values)?;
+    let flow = common::flow_given_from(values)?;
     let expands = d_out > d_in;
     let (a_in, a_out) = (common::circle_area(d_in), common::circle_area(d_out));
     let small_port = if expands { 0 } else { 1 };
@@ -350,8 +351,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
 
     let (axis, gravity) = match orientation {
-        "vertical_up" => (Direction::Y, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
-        "vertical_down" => (Direction::in_plane(-PI / 2.0), Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
+        "upward" => (Direction::Y, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
+        "downward" => (Direction::in_plane(-PI / 2.0), Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
         _ => (Direction::X, Vec3::new(0.0, 0.0, -STANDARD_GRAVITY)),
     };
     let length = if theta >= PI {
@@ -477,10 +478,10 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
 
     common::forward_warnings(&balance, report);
     common::pipe_velocity_warning(report, common::flow_field(values), "inlet", inlet_state.speed);
-    common::pipe_velocity_warning(report, "d_out", "outlet", outlet_state.speed);
+    common::pipe_velocity_warning(report, "d2", "outlet", outlet_state.speed);
     if (d_in - d_out).abs() <= 1e-9 * d_in {
         report.warn(
-            Some("d_out"),
+            Some("d2"),
             "the two diameters are equal: this is straight pipe and only friction and weight load it",
         );
     }
@@ -492,7 +493,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
     if loss_model == "crane" && expands && theta > PI / 4.0 && theta < PI {
         report.warn(
-            Some("angle"),
+            Some("cone_angle"),
             "an expansion steeper than 45 degrees loses about as much as a sudden one: Crane's formula then gives the Borda–Carnot value",
         );
     }
@@ -690,7 +691,7 @@ mod tests {
     #[test]
     fn still_reducer_matches_static_formula() {
         // Derived from the definition: T = p(A1 − A2) with no flow.
-        let s = solved(&[("q", "0"), ("p", "5 bar"), ("d_in", "400 mm"), ("d_out", "200 mm")]);
+        let s = solved(&[("q", "0"), ("p", "5 bar"), ("d", "400 mm"), ("d2", "200 mm")]);
         let expected = 5e5 * std::f64::consts::PI * (0.16 - 0.04) / 4.0;
         assert_relative_eq!(s.output("thrust_axial").unwrap().si, expected, max_relative = 1e-12);
         assert!(
@@ -707,8 +708,8 @@ mod tests {
         // Derived from the definition: with K = (1 − A1/A2)², p2 − p1 = ρV2(V1 − V2),
         // and the thrust is −p1(A2 − A1) exactly, whatever the flow.
         let s = solved(&[
-            ("d_in", "200 mm"),
-            ("d_out", "400 mm"),
+            ("d", "200 mm"),
+            ("d2", "400 mm"),
             ("p", "3 bar"),
             ("q", "300 m3/h"),
             ("loss", "borda"),
@@ -732,8 +733,8 @@ mod tests {
 
     #[test]
     fn vertical_thrust_is_carried_with_its_direction() {
-        for (orientation, plane) in [("vertical_up", "vertical_crest"), ("vertical_down", "vertical_sag")] {
-            let s = solved(&[("orientation", orientation)]);
+        for (orientation, plane) in [("upward", "vertical_crest"), ("downward", "vertical_sag")] {
+            let s = solved(&[("flow_dir", orientation)]);
             let carry = &s.carry_over[0];
             let field = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
             assert_eq!(field("plane").as_deref(), Some(plane));
@@ -761,7 +762,7 @@ mod tests {
             other => panic!("expected a field error, got {other:?}"),
         };
         assert_eq!(field(&[("loss", "borda")]), "loss");
-        assert_eq!(field(&[("d_out", "0 mm")]), "d_out");
+        assert_eq!(field(&[("d2", "0 mm")]), "d2");
         assert_eq!(field(&[("p", "-2 psi")]), "p");
         assert_eq!(field(&[("loss", "k"), ("k", "")]), "k");
     }

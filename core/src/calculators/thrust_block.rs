@@ -65,10 +65,10 @@
 //!   diameters override presets.
 //! - `joint`: `push_on` | `mechanical` | `restrained` (area on the OD) | `flanged` |
 //!   `welded` (bore).
-//! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p_work` (gauge),
+//! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p` (the working pressure, gauge),
 //!   `test_rule` (`en805` | `en805_surge` | `c600` | `c605` | `nfpa24` | `custom`),
 //!   `mdp` (EN 805), `p_test`, `dv`, `material` (`from_size`: the size preset's
-//!   material, the default), `e_pipe`, `wall`, `anchoring`, `k_fluid`; fluid fields
+//!   material, the default), `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; fluid fields
 //!   `fluid`, `t`, `rho`, `mu`.
 //! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
 //!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,
@@ -76,7 +76,7 @@
 //!   (empty: from the soil), `sf_slide`.
 //!
 //! A fitting page links here with, e.g., `fitting=tee&size=custom&d=300mm&od=320mm&
-//! d2=200mm&od2=220mm&p_work=10bar` so the thrust is recomputed at the design
+//! d2=200mm&od2=220mm&p=10bar` so the thrust is recomputed at the design
 //! pressure chosen here; or with `fitting=force&thrust=85kN` to size a block for
 //! the force it computed.
 //!
@@ -796,7 +796,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("od2", "Branch or small-end outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
         FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", JOINT_HELP) },
         FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included.") },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..quantity("p_work", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting.") },
+        FieldSpec { visible_when: fitting_only(FITTINGS), ..quantity("p", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting.") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
         FieldSpec { visible_when: Some(("test_rule", &["en805"])), optional: true, ..quantity("mdp", "Maximum design pressure MDP (EN 805), gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "MDP includes surge. Empty: the working pressure plus EN 805's smallest surge allowance, 2 bar (200 kPa).") },
         FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
@@ -805,7 +805,7 @@ pub fn spec() -> CalculatorSpec {
         FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::closed(50e6, 1e12), "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to 1000 GPa.") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::closed(0.1e-3, 1.0), "Empty: half the difference of outside and inside diameters.") },
         FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("k_fluid", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::closed(10e6, 1e11), "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.") },
+        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("bulk_modulus", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::closed(10e6, 1e11), "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.") },
     ];
     // The fluid sets the density of a fitting's balance and surge; a given thrust
     // needs none of it.
@@ -911,6 +911,9 @@ pub fn diameters(
         )),
     }
 }
+
+/// The joints whose thrust area is on the outside diameter (for `visible_when`).
+pub const OD_JOINTS: &[&str] = &["push_on", "mechanical", "restrained"];
 
 /// Whether a joint takes its thrust area on the outside diameter.
 pub fn joint_uses_od(joint: &str) -> bool {
@@ -1041,7 +1044,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 symmetric,
             };
             inlet_angle = fit.inlet_angle();
-            let balance = static_balance(&fit, p, fluid).map_err(|e| common::engine_error(e, "p_work"))?;
+            let balance = static_balance(&fit, p, fluid).map_err(|e| common::engine_error(e, "p"))?;
             let thrust = balance.thrust();
             static_checks(report, &fit, p, thrust);
             report.output("area_d", basis_d(main));
@@ -1066,12 +1069,12 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     if let Some(b) = &balance {
         for w in &b.warnings {
             if !matches!(w, EngineWarning::MomentumNegligible { .. }) {
-                report.warn(Some("p_work"), w.to_string());
+                report.warn(Some("p"), w.to_string());
             }
         }
     }
     if thrust == 0.0 {
-        report.warn(Some("p_work"), "with zero pressure there is no thrust to restrain");
+        report.warn(Some("p"), "with zero pressure there is no thrust to restrain");
     }
     if given_force && plane == Plane::Sag {
         report.warn(None, "the block is sized as a sag block: its bearing face lies below the pipe and takes the thrust downward. A horizontal bend's thrust is horizontal (the fluid's weight is carried by the bedding); choose the horizontal plane unless the fitting really turns upward in a vertical plane");
@@ -1335,7 +1338,7 @@ fn design_pressure(
 ) -> Result<Pressures, Vec<FieldError>> {
     let one = |e: FieldError| vec![e];
     let basis = values.choice("p_basis").map_err(one)?.to_string();
-    let work = values.quantity("p_work").map_err(one)?;
+    let work = values.quantity("p").map_err(one)?;
     let wants_test = matches!(basis.as_str(), "test" | "highest");
     let wants_surge = matches!(basis.as_str(), "surge" | "highest");
     let rule_key = if wants_test {
@@ -1393,7 +1396,7 @@ fn design_pressure(
             "upstream" => 1.0 - nu / 2.0,
             _ => 1.0,
         };
-        let k = opt(values, "k_fluid").unwrap_or(WATER_BULK_MODULUS);
+        let k = opt(values, "bulk_modulus").unwrap_or(WATER_BULK_MODULUS);
         let a = wave_speed(k, fluid.density, main.id, wall, e_mod, c1);
         let dp = fluid.density * a * dv;
         report.output("wave_speed", a);
@@ -1814,7 +1817,7 @@ mod tests {
             ("d", "300 mm"),
             ("od", "320 mm"),
             ("p_basis", "operating"),
-            ("p_work", "10 bar"),
+            ("p", "10 bar"),
         ]);
         let expected = 2.0 * 1e6 * std::f64::consts::PI * 0.32 * 0.32 / 4.0 * (std::f64::consts::FRAC_PI_4).sin();
         assert_relative_eq!(
@@ -1872,7 +1875,7 @@ mod tests {
 
     #[test]
     fn bad_inputs_name_their_field() {
-        assert_eq!(error_field(&[("p_work", "-5 psi")]), "p_work");
+        assert_eq!(error_field(&[("p", "-5 psi")]), "p");
         assert_eq!(error_field(&[("soil", "custom"), ("sigma", "0 kPa")]), "sigma");
         assert_eq!(error_field(&[("soil", "safe_muck")]), "soil");
         assert_eq!(error_field(&[("size", "custom")]), "d");
@@ -1897,19 +1900,10 @@ mod tests {
         assert!(shown(&[("plane", "vertical_crest")], "gravity_h"));
         assert!(!shown(&[("plane", "horizontal")], "legs"));
         // A given thrust has no design pressure, joint or fluid of its own.
-        for key in [
-            "p_work",
-            "p_basis",
-            "test_rule",
-            "dv",
-            "material",
-            "joint",
-            "fluid",
-            "t",
-        ] {
+        for key in ["p", "p_basis", "test_rule", "dv", "material", "joint", "fluid", "t"] {
             assert!(!shown(&[("fitting", "force")], key), "{key}");
         }
-        assert!(shown(&[("fitting", "bend")], "p_work"));
+        assert!(shown(&[("fitting", "bend")], "p"));
     }
 
     #[test]
@@ -1978,7 +1972,7 @@ mod tests {
         let s = solve(&[
             ("p_basis", "highest"),
             ("test_rule", "nfpa24"),
-            ("p_work", "100 psi"),
+            ("p", "100 psi"),
             ("dv", ""),
         ]);
         // NFPA 24: max(200 psi, 100 + 50 psi) = 200 psi.
