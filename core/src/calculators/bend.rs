@@ -82,7 +82,7 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "deg",
             "45 deg",
-            Limits::closed(super::thrust_block::MIN_ANGLE, PI),
+            Limits::closed(crate::restraint::MIN_ANGLE, PI),
             "How far the flow turns, from 0.1 to 180 degrees (a return bend).",
         ),
         quantity(
@@ -128,14 +128,14 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             optional: true,
-            ..choice("joint", "Joints at the bend (thrust area)", super::thrust_block::JOINT_OPTIONS, "flanged", super::thrust_block::JOINT_HELP)
+            ..choice("joint", "Joints at the bend (thrust area)", crate::restraint::Joint::OPTIONS, "flanged", crate::restraint::JOINT_HELP)
         },
         FieldSpec {
-            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
+            visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
             ..quantity("od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
         },
         FieldSpec {
-            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
+            visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
             optional: true,
             ..quantity("od2", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
         },
@@ -220,7 +220,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let w_fitting = values.quantity_or("w_fitting", 0.0);
     let fluid = common::fluid_from(values)?;
     let flow = common::flow_given_from(values)?;
-    let outside = match super::thrust_block::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
+    let outside = match crate::restraint::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
         true => {
             let od_in = values.quantity("od").map_err(|e| vec![e])?;
             let od_out = values.quantity_or("od2", od_in);

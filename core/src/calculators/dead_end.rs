@@ -89,9 +89,9 @@ pub fn spec() -> CalculatorSpec {
         choice(
             "joint",
             "Joint at the closure (thrust area)",
-            super::thrust_block::JOINT_OPTIONS,
+            crate::restraint::Joint::OPTIONS,
             "push_on",
-            super::thrust_block::JOINT_HELP,
+            crate::restraint::JOINT_HELP,
         ),
         FieldSpec {
             optional: true,
@@ -155,7 +155,7 @@ pub fn spec() -> CalculatorSpec {
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let p = values.quantity("p").map_err(|e| vec![e])?;
     let d = values.quantity("d").map_err(|e| vec![e])?;
-    let on_od = super::thrust_block::joint_uses_od(values.choice("joint").map_err(|e| vec![e])?);
+    let on_od = crate::restraint::joint_uses_od(values.choice("joint").map_err(|e| vec![e])?);
     let closure = values.choice("closure").map_err(|e| vec![e])?;
     let d_od = values.is_set("od").then(|| values.quantity_or("od", d));
     if let Some(od) = d_od {

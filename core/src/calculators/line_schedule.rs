@@ -53,9 +53,10 @@ use crate::units::{self, QuantityKind as Q, STANDARD_GRAVITY};
 use crate::vector::Vec3;
 
 use super::common::{choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
-use super::thrust_block::{
-    self as tb, Block, FittingKind, Plane, StaticFitting, BASIS_OPTIONS, JOINT_OPTIONS, SOIL_OPTIONS, TEST_RULE_OPTIONS,
-};
+use super::thrust_block::{self as tb, BASIS_OPTIONS, JOINT_OPTIONS, SOIL_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::block::Block;
+use crate::restraint::pressure::{self, Governing, PressureBasis};
+use crate::restraint::{self, FittingChoice, FittingKind, Legs, Plane, StaticFitting};
 
 pub const KEY: &str = "line-schedule";
 
@@ -189,15 +190,30 @@ impl Row {
     }
 }
 
+/// The kind of a row from its first word: the restraint module's fitting keys
+/// (`bend`, `dead_end`, `tee`, `reducer`, `force`), and the older spellings rows
+/// were written with (`elbow`, `cap`, `plug`, `valve`, `dead-end`, `deadend`).
 fn kind_of(word: &str) -> Option<RowKind> {
-    Some(match word.to_ascii_lowercase().as_str() {
-        "bend" | "elbow" => RowKind::Fitting(FittingKind::Bend),
-        "tee" => RowKind::Fitting(FittingKind::Tee),
-        "dead_end" | "cap" | "plug" | "valve" => RowKind::Fitting(FittingKind::DeadEnd),
-        "reducer" => RowKind::Fitting(FittingKind::Reducer),
-        "force" => RowKind::Force,
-        _ => return None,
+    let word = word.to_ascii_lowercase();
+    let key = match word.as_str() {
+        "elbow" => "bend",
+        "cap" | "plug" | "valve" | "dead-end" | "deadend" => "dead_end",
+        other => other,
+    };
+    Some(match FittingChoice::from_key(key)?.kind() {
+        Some(kind) => RowKind::Fitting(kind),
+        None => RowKind::Force,
     })
+}
+
+impl RowKind {
+    /// The restraint module's key of the row's fitting (`dead_end`, …, `force`).
+    pub fn key(self) -> &'static str {
+        match self {
+            RowKind::Fitting(kind) => kind.key(),
+            RowKind::Force => FittingChoice::GivenForce.key(),
+        }
+    }
 }
 
 /// Parses a quantity token that must carry its unit.
@@ -520,6 +536,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         )]);
     }
     let basis = values.choice("p_basis").map_err(one)?.to_string();
+    let p_basis = PressureBasis::from_key(&basis)
+        .ok_or_else(|| vec![FieldError::inconsistent("p_basis", "unknown design pressure basis")])?;
     let work = values.quantity("p").map_err(one)?;
     let sf = values.quantity("sf").map_err(one)?;
     let default_h = values.quantity("block_h").map_err(one)?;
@@ -579,25 +597,19 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 format!("test ({})", r.key),
             ),
         });
-        let with_surge = surge_in_basis.map(|dp| pw + dp);
-        match basis.as_str() {
-            "operating" => (pw, "operating".to_string()),
-            "test" => test.unwrap_or((pw, "operating".into())),
-            "surge" => (with_surge.unwrap_or(pw), "working + surge".into()),
-            _ => {
-                let mut best = (pw, "operating".to_string());
-                if let Some(t) = test {
-                    if t.0 > best.0 {
-                        best = t;
-                    }
-                }
-                if let Some(s) = with_surge {
-                    if s > best.0 {
-                        best = (s, "working + surge".into());
-                    }
-                }
-                (best.0, format!("highest: {}", best.1))
-            }
+        let (p, governing) = pressure::design_pressure(
+            p_basis,
+            pw,
+            test.as_ref().map(|t| t.0),
+            surge_in_basis.map(|dp| pw + dp),
+        );
+        let text = match (governing, &test) {
+            (Governing::Test, Some((_, text))) => text.clone(),
+            (other, _) => other.text().to_string(),
+        };
+        match p_basis {
+            PressureBasis::Highest => (p, format!("highest: {text}")),
+            _ => (p, text),
         }
     };
     report.output("p_design", design_of(work).0);
@@ -705,13 +717,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         emphasised_rows: Vec::new(),
     };
     for s in &solved {
-        let kind = match s.row.kind {
-            RowKind::Force => "force",
-            RowKind::Fitting(FittingKind::Bend) => "bend",
-            RowKind::Fitting(FittingKind::Tee) => "tee",
-            RowKind::Fitting(FittingKind::DeadEnd) => "dead end",
-            RowKind::Fitting(FittingKind::Reducer) => "reducer",
-        };
+        let kind = s.row.kind.key();
         table.rows.push(vec![
             s.row.line.to_string(),
             s.row.tag.clone(),
@@ -774,13 +780,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         markers: Vec::new(),
     });
     if let Some(g) = solved.iter().max_by(|a, b| a.thrust.norm().total_cmp(&b.thrust.norm())) {
-        let fitting = match g.row.kind {
-            RowKind::Force => "force",
-            RowKind::Fitting(FittingKind::Bend) => "bend",
-            RowKind::Fitting(FittingKind::Tee) => "tee",
-            RowKind::Fitting(FittingKind::DeadEnd) => "dead_end",
-            RowKind::Fitting(FittingKind::Reducer) => "reducer",
-        };
+        let fitting = g.row.kind.key();
         let mut d = tb::diagram(
             fitting,
             g.plane,
@@ -810,29 +810,17 @@ fn carry_inputs(s: &Solved, values: &Values, sf: f64) -> Vec<(&'static str, Stri
     let num = |x: f64| units::format_significant(x, 7);
     let r = &s.row;
     let mut v: Vec<(&'static str, String)> = Vec::new();
-    let fitting = match r.kind {
-        RowKind::Force => "force",
-        RowKind::Fitting(FittingKind::Bend) => "bend",
-        RowKind::Fitting(FittingKind::Tee) => "tee",
-        RowKind::Fitting(FittingKind::DeadEnd) => "dead_end",
-        RowKind::Fitting(FittingKind::Reducer) => "reducer",
-    };
-    v.push(("fitting", fitting.to_string()));
+    v.push(("fitting", r.kind.key().to_string()));
     if let Some(t) = r.thrust {
         v.push(("thrust", format!("{}N", num(t))));
     }
     if let Some(a) = r.angle {
         v.push(("angle", format!("{}deg", num(a.to_degrees()))));
     }
-    let plane = match s.plane {
-        Plane::Horizontal => "horizontal",
-        Plane::Crest => "vertical_crest",
-        Plane::Sag => "vertical_sag",
-    };
-    v.push(("plane", plane.to_string()));
+    v.push(("plane", s.plane.key().to_string()));
     if s.plane != Plane::Horizontal {
-        let legs = if r.symmetric { "symmetric" } else { "one_level" };
-        v.push(("legs", legs.to_string()));
+        let legs = if r.symmetric { Legs::Symmetric } else { Legs::OneLevel };
+        v.push(("legs", legs.key().to_string()));
     }
     v.push(("size", r.size.clone().unwrap_or_else(|| pipe_sizes::CUSTOM.to_string())));
     for (key, d) in [("d", r.d), ("od", r.od), ("d2", r.d2), ("od2", r.od2)] {
@@ -925,11 +913,8 @@ fn solve_row(
         RowKind::Force => {
             let t = row.thrust.unwrap_or(0.0);
             closed_form = t;
-            match plane {
-                Plane::Horizontal => Vec3::new(t, 0.0, 0.0),
-                Plane::Crest => Vec3::new(0.0, t, 0.0),
-                Plane::Sag => Vec3::new(0.0, -t, 0.0),
-            }
+            // As the thrust-restraint page draws a given thrust with no typed angle.
+            plane.given_thrust(t, plane.default_elevation())
         }
         RowKind::Fitting(kind) => {
             let main = tb::diameters(
@@ -974,12 +959,7 @@ fn solve_row(
                 plane,
                 symmetric: row.symmetric,
             };
-            closed_form = match kind {
-                FittingKind::Bend => 2.0 * p * a1 * (fit.angle / 2.0).sin(),
-                FittingKind::DeadEnd => p * a1,
-                FittingKind::Tee => p * a2,
-                FittingKind::Reducer => p * (a1 - a2),
-            };
+            closed_form = restraint::closed_form_thrust(&fit, p).0;
             let balance = tb::static_balance(&fit, p, fluid).map_err(|e| err(e.to_string()))?;
             let mut t = balance.thrust();
             if row.turn == Turn::Right {

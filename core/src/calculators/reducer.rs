@@ -155,7 +155,7 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "deg",
             "30 deg",
-            Limits::closed(super::thrust_block::MIN_ANGLE, PI),
+            Limits::closed(crate::restraint::MIN_ANGLE, PI),
             "Full angle of the cone, from 0.1 up to 180 degrees (a sudden step). Sets the length of the fitting and the Crane loss.",
         ),
         choice(
@@ -200,13 +200,13 @@ pub fn spec() -> CalculatorSpec {
             ..choice(
                 "joint",
                 "Joints at the fitting (thrust area)",
-                super::thrust_block::JOINT_OPTIONS,
+                crate::restraint::Joint::OPTIONS,
                 "flanged",
                 "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the pressure then also acts on the wall annulus out to the outside diameter of the sealing joint. Only welded, flanged or fused joints take the bore. Empty means flanged (the bore).",
             )
         },
         FieldSpec {
-            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
+            visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
             ..quantity(
                 "od",
                 "Inlet pipe outside diameter",
@@ -219,7 +219,7 @@ pub fn spec() -> CalculatorSpec {
             )
         },
         FieldSpec {
-            visible_when: Some(("joint", super::thrust_block::OD_JOINTS)),
+            visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
             ..quantity(
                 "od2",
                 "Outlet pipe outside diameter",
@@ -288,7 +288,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let mut theta = values.quantity("cone_angle").map_err(|e| vec![e])?;
     let loss_model = values.choice("loss").map_err(|e| vec![e])?;
     let orientation = values.choice("flow_dir").map_err(|e| vec![e])?;
-    let outside = match super::thrust_block::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
+    let outside = match crate::restraint::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
         true => {
             let od_in = values.quantity("od").map_err(|e| vec![e])?;
             let od_out = values.quantity("od2").map_err(|e| vec![e])?;

@@ -91,692 +91,41 @@ use std::f64::consts::PI;
 use crate::catalog::{
     CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Table, Values,
 };
-use crate::engine::{self, si, ControlVolume, EngineWarning, Port, Stream};
+use crate::engine::EngineWarning;
 use crate::error::FieldError;
 use crate::fluid::Fluid;
 use crate::pipe_sizes;
+use crate::restraint::pressure::{self, Anchoring, PressureBasis};
 use crate::units::{self, QuantityKind as Q, UnitSystem, STANDARD_GRAVITY};
-use crate::vector::{Direction, Vec3};
+use crate::vector::Vec3;
 
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
 pub const KEY: &str = "thrust-block";
 
-/// Range of a typed allowable soil bearing, Pa: 1 kPa to 20 MPa (sound rock).
-pub const MIN_TYPED_BEARING: f64 = 1e3;
-pub const MAX_TYPED_BEARING: f64 = 20e6;
+// The restraint model shared with the line schedule lives in `crate::restraint`;
+// its names are re-exported here for the pages and tests that use them.
+pub use crate::restraint::block::{Block, BLOCK_DIM_OPTIONS, WATER_UNIT_WEIGHT, YES_NO};
+pub use crate::restraint::pressure::{
+    material, preset_material, test_rule, wave_speed, TestRule, ANCHOR_OPTIONS, BASIS_OPTIONS, EN805_SURGE_ALLOWANCE,
+    MATERIAL_OPTIONS, TEST_RULES, TEST_RULE_OPTIONS, WATER_BULK_MODULUS,
+};
+pub use crate::restraint::soil::{
+    soil, SoilPreset, SoilTable, FRICTION_SOURCE, MAX_TYPED_BEARING, MIN_TYPED_BEARING, SOILS, SOIL_OPTIONS,
+};
+pub use crate::restraint::{
+    diameters, joint_uses_od, static_balance, Diameters, FittingChoice, FittingKind, Joint, Legs, Plane, StaticFitting,
+    JOINT_HELP, MIN_ANGLE, OD_JOINTS,
+};
 
-/// Smallest bend deflection accepted, rad (0.1°).
-pub const MIN_ANGLE: f64 = PI / 1800.0;
-
-// ---------------------------------------------------------------------------------
-// Fitting kinds and the engine balance shared with the line schedule.
-
-pub const FITTING_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "bend",
-        label: "Bend (elbow)",
-    },
-    ChoiceOption {
-        key: "dead_end",
-        label: "Dead end, cap, plug or closed valve",
-    },
-    ChoiceOption {
-        key: "tee",
-        label: "Tee (thrust of the branch)",
-    },
-    ChoiceOption {
-        key: "reducer",
-        label: "Reducer (large end to small end)",
-    },
-    ChoiceOption {
-        key: "force",
-        label: "A given thrust (from another page)",
-    },
-];
-
-pub const PLANE_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "horizontal",
-        label: "Horizontal (plan): bearing block",
-    },
-    ChoiceOption {
-        key: "vertical_crest",
-        label: "Vertical, turning downward (crest): thrust upward, gravity block",
-    },
-    ChoiceOption {
-        key: "vertical_sag",
-        label: "Vertical, turning upward (sag): thrust downward into the ground",
-    },
-];
-
-pub const JOINT_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "push_on",
-        label: "Push-on joints (area on the OD)",
-    },
-    ChoiceOption {
-        key: "mechanical",
-        label: "Mechanical joints (area on the OD)",
-    },
-    ChoiceOption {
-        key: "restrained",
-        label: "Restrained push-on or mechanical joints (area on the OD of the sealing joint)",
-    },
-    ChoiceOption {
-        key: "flanged",
-        label: "Flanged (area on the bore)",
-    },
-    ChoiceOption {
-        key: "welded",
-        label: "Welded or fused (area on the bore)",
-    },
-];
-
-/// Help text of every joint selector: why the bore is offered only for joints that
-/// seal on it.
-pub const JOINT_HELP: &str = "Push-on and mechanical joints seal on the outside of the spigot, restrained or not, so the pressure acts over the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints seal on the bore.";
-
-pub const LEGS_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "symmetric",
-        label: "Both legs sloped by θ/2 (a summit or low point): vertical thrust 2·p·A·sin(θ/2)",
-    },
-    ChoiceOption {
-        key: "one_level",
-        label: "One leg level, the other sloped by θ: vertical thrust p·A·sin θ",
-    },
-];
-
-/// What kind of fitting a block restrains.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum FittingKind {
-    Bend,
-    DeadEnd,
-    Tee,
-    Reducer,
-}
-
-/// The plane of a fitting, which decides the kind of block.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Plane {
-    Horizontal,
-    /// Thrust upward: gravity block.
-    Crest,
-    /// Thrust downward: bearing under the block.
-    Sag,
-}
-
-impl Plane {
-    pub fn from_key(key: &str) -> Plane {
-        match key {
-            "vertical_crest" => Plane::Crest,
-            "vertical_sag" => Plane::Sag,
-            _ => Plane::Horizontal,
-        }
-    }
-    /// Which way the fitting turns in the drawing plane (+1 toward +y).
-    fn turn(self) -> f64 {
-        match self {
-            Plane::Crest => -1.0,
-            Plane::Horizontal | Plane::Sag => 1.0,
-        }
-    }
-}
-
-/// A fitting at rest under pressure: the geometry the engine needs.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct StaticFitting {
-    pub kind: FittingKind,
-    /// Deflection of a bend, rad (ignored otherwise).
-    pub angle: f64,
-    /// Pressure area of the main (inlet) end, m².
-    pub area: f64,
-    /// Pressure area of the branch (tee) or small end (reducer), m².
-    pub area2: f64,
-    pub plane: Plane,
-    /// A vertical bend with both legs sloped by θ/2 (`true`), or with its inlet leg
-    /// level and the outlet leg sloped by θ (`false`). Ignored for horizontal bends.
-    pub symmetric: bool,
-}
-
-impl StaticFitting {
-    /// Direction of the inlet flow in the drawing plane, rad from +x: level, or for a
-    /// symmetric vertical bend rising (crest) or falling (sag) by θ/2.
-    pub fn inlet_angle(&self) -> f64 {
-        match (self.kind, self.plane, self.symmetric) {
-            (FittingKind::Bend, Plane::Crest | Plane::Sag, true) => -self.plane.turn() * self.angle / 2.0,
-            _ => 0.0,
-        }
-    }
-}
-
-/// The engine's static balance of a fitting at gauge pressure `p`, with no flow.
-///
-/// # Errors
-/// The engine's error (non-finite input, zero area).
-pub fn static_balance(f: &StaticFitting, p: f64, fluid: &Fluid) -> Result<engine::Balance, engine::EngineError> {
-    let mut cv = ControlVolume::new(fluid.clone());
-    cv.gravity(match f.plane {
-        Plane::Horizontal => Vec3::new(0.0, 0.0, -STANDARD_GRAVITY),
-        Plane::Crest | Plane::Sag => Vec3::new(0.0, -STANDARD_GRAVITY, 0.0),
-    });
-    let still = |port: Port| port.velocity(si::velocity(0.0));
-    let a_in = f.inlet_angle();
-    let inlet = cv.port(still(
-        Port::inlet("inlet", si::area(f.area), Direction::in_plane(a_in)).pressure(si::pressure(p)),
-    ));
-    let turn = f.plane.turn();
-    let outlets: Vec<(String, f64, Direction)> = match f.kind {
-        FittingKind::Bend => vec![("outlet".into(), f.area, Direction::in_plane(a_in + turn * f.angle))],
-        FittingKind::DeadEnd => vec![],
-        FittingKind::Tee => vec![
-            ("run outlet".into(), f.area, Direction::X),
-            ("branch".into(), f.area2, Direction::in_plane(turn * PI / 2.0)),
-        ],
-        FittingKind::Reducer => vec![("small end".into(), f.area2, Direction::X)],
-    };
-    for (name, area, direction) in outlets {
-        let o = cv.port(still(Port::outlet(&name, si::area(area), direction)));
-        cv.stream(Stream::new(inlet, o));
-    }
-    engine::balance(&cv)
-}
-
-// ---------------------------------------------------------------------------------
-// Soil presets.
-
-/// Which published table a soil preset comes from.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum SoilTable {
-    SafeBearing,
-    Nfpa24,
-    Bs8004,
-}
-
-impl SoilTable {
-    pub fn citation(self) -> &'static str {
-        match self {
-            SoilTable::SafeBearing => "Safe bearing loads for horizontal thrusts (cover over 2 ft), the table reproduced in AWWA M23 *PVC Pipe — Design and Installation* and in pipe makers' installation guides (from memory; confirmed against a pipe maker's reproduction)",
-            SoilTable::Nfpa24 => "NFPA 24, *Installation of Private Fire Service Mains*, annex table of horizontal bearing strengths (A.10.8.2 in the 2002 edition; numbering varies by edition; from memory)",
-            SoilTable::Bs8004 => "BS 8004:1986 *Foundations*, Table 1, presumed allowable bearing values under static loading, lower end of each range (from memory)",
-        }
-    }
-    pub fn convention(self) -> &'static str {
-        match self {
-            SoilTable::SafeBearing => "already 'safe' values: the source divides the thrust by them directly (SF = 1)",
-            SoilTable::Nfpa24 => "bearing strengths used with a safety factor, 1.5 in the same annex",
-            SoilTable::Bs8004 => "allowable values for vertical foundation loads, already reduced for safety; a proxy for horizontal bearing",
-        }
-    }
-    pub fn short(self) -> &'static str {
-        match self {
-            SoilTable::SafeBearing => "safe-bearing table (M23)",
-            SoilTable::Nfpa24 => "NFPA 24 annex",
-            SoilTable::Bs8004 => "BS 8004 Table 1",
-        }
-    }
-}
-
-/// One soil preset: allowable bearing, Pa, and the friction coefficient of mass
-/// concrete cast on it (see [`FRICTION_SOURCE`]; `None` where that table gives none).
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct SoilPreset {
-    pub key: &'static str,
-    pub table: SoilTable,
-    pub soil: &'static str,
-    pub bearing: f64,
-    pub friction: Option<f64>,
-}
-
-/// Where the presets' friction coefficients come from.
-pub const FRICTION_SOURCE: &str = "NAVFAC DM-7.02 (1986), table of ultimate friction factors for dissimilar materials, mass concrete on the soil named (from memory), lower end of the range of the row that fits the soil name; none for soft clay, muck and peat, which that table does not cover";
-
-const PSF: f64 = 4.448_221_615_260_5 / (0.3048 * 0.3048);
-
-/// Every soil preset. A zero value means the source gives no bearing at all.
-pub const SOILS: &[SoilPreset] = &[
-    SoilPreset {
-        key: "safe_muck",
-        table: SoilTable::SafeBearing,
-        soil: "Muck, peat",
-        bearing: 0.0,
-        friction: None,
-    },
-    SoilPreset {
-        key: "safe_soft_clay",
-        table: SoilTable::SafeBearing,
-        soil: "Soft clay",
-        bearing: 1000.0 * PSF,
-        friction: None,
-    },
-    SoilPreset {
-        key: "safe_sand",
-        table: SoilTable::SafeBearing,
-        soil: "Sand",
-        bearing: 2000.0 * PSF,
-        friction: Some(0.35),
-    },
-    SoilPreset {
-        key: "safe_sand_gravel",
-        table: SoilTable::SafeBearing,
-        soil: "Sand and gravel",
-        bearing: 3000.0 * PSF,
-        friction: Some(0.45),
-    },
-    SoilPreset {
-        key: "safe_sand_gravel_clay",
-        table: SoilTable::SafeBearing,
-        soil: "Sand and gravel cemented with clay",
-        bearing: 4000.0 * PSF,
-        friction: Some(0.45),
-    },
-    SoilPreset {
-        key: "safe_hard_shale",
-        table: SoilTable::SafeBearing,
-        soil: "Hard shale",
-        bearing: 10000.0 * PSF,
-        friction: Some(0.40),
-    },
-    SoilPreset {
-        key: "nfpa24_soft_clay",
-        table: SoilTable::Nfpa24,
-        soil: "Soft clay",
-        bearing: 1000.0 * PSF,
-        friction: None,
-    },
-    SoilPreset {
-        key: "nfpa24_silt",
-        table: SoilTable::Nfpa24,
-        soil: "Silt",
-        bearing: 1500.0 * PSF,
-        friction: Some(0.30),
-    },
-    SoilPreset {
-        key: "nfpa24_sandy_silt",
-        table: SoilTable::Nfpa24,
-        soil: "Sandy silt",
-        bearing: 3000.0 * PSF,
-        friction: Some(0.30),
-    },
-    SoilPreset {
-        key: "nfpa24_sand",
-        table: SoilTable::Nfpa24,
-        soil: "Sand",
-        bearing: 4000.0 * PSF,
-        friction: Some(0.35),
-    },
-    SoilPreset {
-        key: "nfpa24_sandy_clay",
-        table: SoilTable::Nfpa24,
-        soil: "Sandy clay",
-        bearing: 6000.0 * PSF,
-        friction: Some(0.30),
-    },
-    SoilPreset {
-        key: "nfpa24_hard_clay",
-        table: SoilTable::Nfpa24,
-        soil: "Hard clay",
-        bearing: 9000.0 * PSF,
-        friction: Some(0.40),
-    },
-    SoilPreset {
-        key: "bs8004_firm_clay",
-        table: SoilTable::Bs8004,
-        soil: "Firm clay (75–150 kPa)",
-        bearing: 75e3,
-        friction: Some(0.30),
-    },
-    SoilPreset {
-        key: "bs8004_stiff_clay",
-        table: SoilTable::Bs8004,
-        soil: "Stiff clay (150–300 kPa)",
-        bearing: 150e3,
-        friction: Some(0.30),
-    },
-    SoilPreset {
-        key: "bs8004_hard_clay",
-        table: SoilTable::Bs8004,
-        soil: "Very stiff boulder clay, hard clay (300–600 kPa)",
-        bearing: 300e3,
-        friction: Some(0.40),
-    },
-    SoilPreset {
-        key: "bs8004_medium_sand",
-        table: SoilTable::Bs8004,
-        soil: "Medium dense sand (100–300 kPa)",
-        bearing: 100e3,
-        friction: Some(0.35),
-    },
-    SoilPreset {
-        key: "bs8004_compact_sand",
-        table: SoilTable::Bs8004,
-        soil: "Compact sand (over 300 kPa)",
-        bearing: 300e3,
-        friction: Some(0.35),
-    },
-    SoilPreset {
-        key: "bs8004_medium_gravel",
-        table: SoilTable::Bs8004,
-        soil: "Medium dense gravel, sand and gravel (200–600 kPa)",
-        bearing: 200e3,
-        friction: Some(0.45),
-    },
-    SoilPreset {
-        key: "bs8004_dense_gravel",
-        table: SoilTable::Bs8004,
-        soil: "Dense gravel, sand and gravel (over 600 kPa)",
-        bearing: 600e3,
-        friction: Some(0.45),
-    },
-];
-
-pub const SOIL_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "custom",
-        label: "Typed value (from the geotechnical report)",
-    },
-    ChoiceOption {
-        key: "safe_muck",
-        label: "Muck, peat: 0 (safe-bearing table, M23)",
-    },
-    ChoiceOption {
-        key: "safe_soft_clay",
-        label: "Soft clay: 1000 psf (safe-bearing table, M23)",
-    },
-    ChoiceOption {
-        key: "safe_sand",
-        label: "Sand: 2000 psf (safe-bearing table, M23)",
-    },
-    ChoiceOption {
-        key: "safe_sand_gravel",
-        label: "Sand and gravel: 3000 psf (safe-bearing table, M23)",
-    },
-    ChoiceOption {
-        key: "safe_sand_gravel_clay",
-        label: "Sand and gravel cemented with clay: 4000 psf (safe-bearing table, M23)",
-    },
-    ChoiceOption {
-        key: "safe_hard_shale",
-        label: "Hard shale: 10000 psf (safe-bearing table, M23)",
-    },
-    ChoiceOption {
-        key: "nfpa24_soft_clay",
-        label: "Soft clay: 1000 psf (NFPA 24 annex)",
-    },
-    ChoiceOption {
-        key: "nfpa24_silt",
-        label: "Silt: 1500 psf (NFPA 24 annex)",
-    },
-    ChoiceOption {
-        key: "nfpa24_sandy_silt",
-        label: "Sandy silt: 3000 psf (NFPA 24 annex)",
-    },
-    ChoiceOption {
-        key: "nfpa24_sand",
-        label: "Sand: 4000 psf (NFPA 24 annex)",
-    },
-    ChoiceOption {
-        key: "nfpa24_sandy_clay",
-        label: "Sandy clay: 6000 psf (NFPA 24 annex)",
-    },
-    ChoiceOption {
-        key: "nfpa24_hard_clay",
-        label: "Hard clay: 9000 psf (NFPA 24 annex)",
-    },
-    ChoiceOption {
-        key: "bs8004_firm_clay",
-        label: "Firm clay: 75 kPa (BS 8004 Table 1, low end)",
-    },
-    ChoiceOption {
-        key: "bs8004_stiff_clay",
-        label: "Stiff clay: 150 kPa (BS 8004 Table 1, low end)",
-    },
-    ChoiceOption {
-        key: "bs8004_hard_clay",
-        label: "Very stiff or hard clay: 300 kPa (BS 8004 Table 1, low end)",
-    },
-    ChoiceOption {
-        key: "bs8004_medium_sand",
-        label: "Medium dense sand: 100 kPa (BS 8004 Table 1, low end)",
-    },
-    ChoiceOption {
-        key: "bs8004_compact_sand",
-        label: "Compact sand: 300 kPa (BS 8004 Table 1, low end)",
-    },
-    ChoiceOption {
-        key: "bs8004_medium_gravel",
-        label: "Medium dense gravel: 200 kPa (BS 8004 Table 1, low end)",
-    },
-    ChoiceOption {
-        key: "bs8004_dense_gravel",
-        label: "Dense gravel: 600 kPa (BS 8004 Table 1, low end)",
-    },
-];
-
-/// The soil preset with this key.
-pub fn soil(key: &str) -> Option<&'static SoilPreset> {
-    SOILS.iter().find(|s| s.key == key)
-}
-
-// ---------------------------------------------------------------------------------
-// Test-pressure rules.
-
-pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "en805",
-        label: "EN 805 system test pressure, surge not calculated: lower of 1.5 × MDP and MDP + 5 bar, MDP at least working + 2 bar",
-    },
-    ChoiceOption {
-        key: "en805_surge",
-        label: "EN 805 system test pressure, surge calculated: MDPc + 1 bar",
-    },
-    ChoiceOption {
-        key: "c600",
-        label: "AWWA C600 (ductile iron): 1.5 × working pressure at the point of test",
-    },
-    ChoiceOption {
-        key: "c605",
-        label: "AWWA C605 (PVC): 1.25 × working pressure",
-    },
-    ChoiceOption {
-        key: "nfpa24",
-        label: "NFPA 24 (fire mains): 200 psi or working + 50 psi, whichever is greater",
-    },
-    ChoiceOption {
-        key: "custom",
-        label: "Typed test pressure",
-    },
-];
-
-/// A named test-pressure rule: its citation and the test pressure for a working
-/// pressure (both gauge, Pa).
-pub struct TestRule {
-    pub key: &'static str,
-    pub citation: &'static str,
-    /// Whether the rule needs a calculated surge (the second argument of `apply`).
-    pub needs_surge: bool,
-    /// Surge allowance the rule's base pressure includes when surge is not
-    /// calculated, Pa: the rule applies to working + allowance (EN 805's MDP).
-    pub allowance: f64,
-    /// Test pressure from the rule's base pressure (working + allowance, or a typed
-    /// MDP) and the calculated surge rise, Pa.
-    pub apply: fn(f64, f64) -> f64,
-}
-
-impl TestRule {
-    /// The test pressure for a working pressure `work`: the rule applied to
-    /// `work + allowance` (or to a typed base pressure such as EN 805's MDP).
-    pub fn test_pressure(&self, work: f64, typed_base: Option<f64>, surge: f64) -> f64 {
-        (self.apply)(typed_base.unwrap_or(work + self.allowance), surge)
-    }
-}
-
-/// EN 805's smallest surge allowance where surge is not calculated, Pa (200 kPa).
-pub const EN805_SURGE_ALLOWANCE: f64 = 200e3;
-
-pub const TEST_RULES: &[TestRule] = &[
-    TestRule {
-        key: "en805",
-        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + 500 kPa, and MDP includes a surge allowance of at least 200 kPa (as the standard is usually read; from memory): MDP = working + 200 kPa unless MDP is typed",
-        needs_surge: false,
-        allowance: EN805_SURGE_ALLOWANCE,
-        apply: |p, _| (1.5 * p).min(p + 500e3),
-    },
-    TestRule {
-        key: "c600",
-        citation: "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing (from memory): not less than 1.5 × the working pressure at the point of testing (and 1.25 × at the highest point)",
-        needs_surge: false,
-        allowance: 0.0,
-        apply: |p, _| 1.5 * p,
-    },
-    TestRule {
-        key: "c605",
-        citation: "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing (from memory): not less than 1.25 × the stated working pressure, measured at the highest point of the test section",
-        needs_surge: false,
-        allowance: 0.0,
-        apply: |p, _| 1.25 * p,
-    },
-    TestRule {
-        key: "nfpa24",
-        citation: "NFPA 24 (private fire service mains), hydrostatic test (from memory): 200 psi (13.8 bar) or 50 psi (3.4 bar) above the system working pressure, whichever is greater",
-        needs_surge: false,
-        allowance: 0.0,
-        apply: |p, _| (200.0 * PSI).max(p + 50.0 * PSI),
-    },
-    TestRule {
-        key: "en805_surge",
-        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is calculated, STP = MDPc + 100 kPa, MDPc being the working pressure plus the calculated surge",
-        needs_surge: true,
-        allowance: 0.0,
-        apply: |p, surge| p + surge + 100e3,
-    },
-];
-
-const PSI: f64 = 4.448_221_615_260_5 / (0.0254 * 0.0254);
-
-/// The test rule with this key.
-pub fn test_rule(key: &str) -> Option<&'static TestRule> {
-    TEST_RULES.iter().find(|r| r.key == key)
-}
-
-// ---------------------------------------------------------------------------------
-// Pipe materials for the wave speed.
-
-pub const MATERIAL_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "from_size",
-        label: "The material of the pipe size preset",
-    },
-    ChoiceOption {
-        key: "steel",
-        label: "Steel: E = 207 GPa, ν = 0.30",
-    },
-    ChoiceOption {
-        key: "ductile_iron",
-        label: "Ductile iron: E = 165 GPa, ν = 0.28",
-    },
-    ChoiceOption {
-        key: "pvc",
-        label: "PVC: E = 2.76 GPa, ν = 0.45",
-    },
-    ChoiceOption {
-        key: "pe",
-        label: "Polyethylene (PE100): E = 1.0 GPa, ν = 0.45",
-    },
-    ChoiceOption {
-        key: "custom",
-        label: "Typed modulus",
-    },
-];
-
-/// The wall material of a pipe size preset's family (a key of [`material`]).
-pub fn preset_material(family: pipe_sizes::Family) -> &'static str {
-    match family {
-        pipe_sizes::Family::SteelSch40 | pipe_sizes::Family::SteelSch80 => "steel",
-        pipe_sizes::Family::DuctileIronClass52 => "ductile_iron",
-        pipe_sizes::Family::PvcC900Dr18 => "pvc",
-    }
-}
-
-/// Young's modulus (Pa), Poisson's ratio and where the values come from.
-pub fn material(key: &str) -> Option<(f64, f64, &'static str)> {
-    match key {
-        "steel" => Some((207e9, 0.30, "steel E = 207 GPa, ν = 0.30: Wylie & Streeter, Fluid Transients in Systems (1993), table of pipe properties (from memory)")),
-        "ductile_iron" => Some((165e9, 0.28, "ductile iron E ≈ 24 × 10⁶ psi (165 GPa): the ductile-iron pipe makers' design literature; ν = 0.28 (from memory)")),
-        "pvc" => Some((2.76e9, 0.45, "PVC E = 400 000 psi (2.76 GPa): the AWWA C900 design basis (from memory); ν = 0.45 common practice, no source")),
-        "pe" => Some((1.0e9, 0.45, "PE100 short-term E ≈ 1.0 GPa, ν = 0.45: common practice, no source (varies with temperature and load time)")),
-        _ => None,
-    }
-}
-
-pub const ANCHOR_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "joints",
-        label: "Joints or expansion joints throughout (c₁ = 1)",
-    },
-    ChoiceOption {
-        key: "anchored",
-        label: "Anchored against axial movement throughout (c₁ = 1 − ν²)",
-    },
-    ChoiceOption {
-        key: "upstream",
-        label: "Anchored at the upstream end only (c₁ = 1 − ν/2)",
-    },
-];
-
-/// Wave speed in a liquid-filled elastic pipe, m/s (see the module doc).
-pub fn wave_speed(bulk_modulus: f64, density: f64, d_inside: f64, wall: f64, e_modulus: f64, c1: f64) -> f64 {
-    (bulk_modulus / density / (1.0 + c1 * bulk_modulus * d_inside / (e_modulus * wall))).sqrt()
-}
-
-pub const BASIS_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "highest",
-        label: "Highest of operating, test and working + surge",
-    },
-    ChoiceOption {
-        key: "operating",
-        label: "Operating (working) pressure",
-    },
-    ChoiceOption {
-        key: "test",
-        label: "Field test pressure",
-    },
-    ChoiceOption {
-        key: "surge",
-        label: "Working pressure plus surge",
-    },
-];
-
-pub const BLOCK_DIM_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "height",
-        label: "Given face height",
-    },
-    ChoiceOption {
-        key: "aspect",
-        label: "Given width ÷ height",
-    },
-];
-
-pub const YES_NO: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "no",
-        label: "No (above the water table)",
-    },
-    ChoiceOption {
-        key: "yes",
-        label: "Yes (below groundwater: buoyancy)",
-    },
-];
-
-/// Bulk modulus of water used when none is typed, Pa: 2.2 GPa, the usual round
-/// value near 20 °C (White, *Fluid Mechanics*, gives 2.19 GPa at 20 °C; from memory).
-pub const WATER_BULK_MODULUS: f64 = 2.2e9;
-
-/// Unit weight of water for buoyancy, N/m³ (1000 kg/m³ × standard gravity).
-pub const WATER_UNIT_WEIGHT: f64 = 1000.0 * STANDARD_GRAVITY;
+/// The fitting options (derived from [`FittingChoice`]).
+pub const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
+/// The plane options (derived from [`Plane`]).
+pub const PLANE_OPTIONS: &[ChoiceOption] = Plane::OPTIONS;
+/// The joint options (derived from [`Joint`]).
+pub const JOINT_OPTIONS: &[ChoiceOption] = Joint::OPTIONS;
+/// The legs options (derived from [`Legs`]).
+pub const LEGS_OPTIONS: &[ChoiceOption] = Legs::OPTIONS;
 
 pub fn spec() -> CalculatorSpec {
     let fitting_only = |keys: &'static [&'static str]| Some(("fitting", keys));
@@ -873,53 +222,6 @@ pub fn spec() -> CalculatorSpec {
     }
 }
 
-/// The diameters of one end of a fitting: inside and outside, m.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Diameters {
-    pub id: f64,
-    pub od: f64,
-}
-
-/// Reads a preset and typed diameters into inside and outside diameters.
-///
-/// # Errors
-/// A field error naming the typed field when a diameter is missing or the inside
-/// is not smaller than the outside.
-pub fn diameters(
-    preset: &str,
-    typed_id: Option<f64>,
-    typed_od: Option<f64>,
-    fields: (&'static str, &'static str, &'static str),
-) -> Result<Diameters, FieldError> {
-    let (size_field, id_field, od_field) = fields;
-    let preset = pipe_sizes::find(preset);
-    let id = typed_id.or(preset.map(|p| p.id));
-    let od = typed_od.or(preset.map(|p| p.od));
-    match (id, od) {
-        (Some(id), Some(od)) if id < od => Ok(Diameters { id, od }),
-        (Some(_), Some(_)) => Err(FieldError::inconsistent(
-            od_field,
-            "the outside diameter must be larger than the inside diameter",
-        )),
-        (None, _) => Err(FieldError::inconsistent(
-            id_field,
-            format!("give an inside diameter or choose a preset in '{size_field}'"),
-        )),
-        (_, None) => Err(FieldError::inconsistent(
-            od_field,
-            format!("give an outside diameter or choose a preset in '{size_field}'"),
-        )),
-    }
-}
-
-/// The joints whose thrust area is on the outside diameter (for `visible_when`).
-pub const OD_JOINTS: &[&str] = &["push_on", "mechanical", "restrained"];
-
-/// Whether a joint takes its thrust area on the outside diameter.
-pub fn joint_uses_od(joint: &str) -> bool {
-    matches!(joint, "push_on" | "mechanical" | "restrained")
-}
-
 fn opt(values: &Values, key: &str) -> Option<f64> {
     values.is_set(key).then(|| values.quantity_or(key, 0.0))
 }
@@ -944,7 +246,8 @@ struct Surge {
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let one = |e: FieldError| vec![e];
     let fitting = values.choice("fitting").map_err(one)?.to_string();
-    let plane = Plane::from_key(values.choice("plane").map_err(one)?);
+    let plane = Plane::from_key(values.choice("plane").map_err(one)?)
+        .ok_or_else(|| vec![FieldError::inconsistent("plane", "unknown plane")])?;
     let symmetric = values.choice("legs").unwrap_or("symmetric") == "symmetric";
     let sf = values.quantity("sf").map_err(one)?;
     let given_force = fitting == "force";
@@ -987,19 +290,9 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             let t = values.quantity("thrust").map_err(one)?;
             let elev = match values.is_set("thrust_elev") {
                 true => values.quantity_or("thrust_elev", 0.0),
-                false => match plane {
-                    Plane::Horizontal => 0.0,
-                    Plane::Crest => PI / 2.0,
-                    Plane::Sag => -PI / 2.0,
-                },
+                false => plane.default_elevation(),
             };
-            // Plan (horizontal): along +x with any vertical part on z; elevation
-            // (vertical planes): x horizontal, y up.
-            let v = match plane {
-                Plane::Horizontal => Vec3::new(t * elev.cos(), 0.0, t * elev.sin()),
-                Plane::Crest | Plane::Sag => Vec3::new(t * elev.cos(), t * elev.sin(), 0.0),
-            };
-            (v, None)
+            (plane.given_thrust(t, elev), None)
         }
         kind => {
             let main = main.ok_or_else(|| vec![FieldError::inconsistent("d", "a size is required")])?;
@@ -1213,15 +506,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
 /// resultant (2pA·sin(θ/2), pA, pA_branch, p(A₁ − A₂)) and, for a vertical bend, the
 /// vertical part (pA·sin θ with one leg level, 2pA·sin(θ/2) with both legs sloped).
 fn static_checks(report: &mut Report<'_>, fit: &StaticFitting, p: f64, thrust: Vec3) {
-    let (closed, formula) = match fit.kind {
-        FittingKind::Bend => (
-            2.0 * p * fit.area * (fit.angle / 2.0).sin(),
-            "closed form 2·p·A·sin(θ/2)",
-        ),
-        FittingKind::DeadEnd => (p * fit.area, "closed form p·A"),
-        FittingKind::Tee => (p * fit.area2, "closed form p·A_branch"),
-        FittingKind::Reducer => (p * (fit.area - fit.area2), "closed form p·(A₁ − A₂)"),
-    };
+    let (closed, formula) = crate::restraint::closed_form_thrust(fit, p);
     report.check(
         "Thrust on the restraint",
         formula,
@@ -1231,22 +516,13 @@ fn static_checks(report: &mut Report<'_>, fit: &StaticFitting, p: f64, thrust: V
         1e-9,
         0.0,
     );
-    if fit.kind == FittingKind::Bend && fit.plane != Plane::Horizontal {
-        let (closed_v, formula_v) = if fit.symmetric {
-            (
-                2.0 * p * fit.area * (fit.angle / 2.0).sin(),
-                "closed form 2·p·A·sin(θ/2), both legs sloped",
-            )
-        } else {
-            (p * fit.area * fit.angle.sin(), "closed form p·A·sin θ, one leg level")
-        };
-        let sign = if fit.plane == Plane::Crest { 1.0 } else { -1.0 };
+    if let Some((closed_v, formula_v)) = crate::restraint::closed_form_vertical(fit, p) {
         report.check(
             "Vertical thrust",
             formula_v,
             Q::Force,
             thrust.y,
-            sign * closed_v,
+            closed_v,
             1e-9,
             thrust.norm(),
         );
@@ -1276,11 +552,6 @@ fn sliding_check(
         }
         None => report.warn(None, format!("sliding is NOT checked: the thrust has a horizontal part of {} and the chosen soil gives no friction coefficient; type one (concrete on soil) to check it, or {remedy}", report.fmt(t_h, Q::Force))),
     }
-}
-
-pub(crate) enum Block {
-    Bearing { h: f64, w: f64 },
-    Gravity { volume: f64, side: f64, height: f64 },
 }
 
 fn soil_bearing(values: &Values) -> Result<f64, Vec<FieldError>> {
@@ -1391,14 +662,12 @@ fn design_pressure(
                 "the wall must be thinner than half the outside diameter",
             )]);
         }
-        let c1 = match values.choice("anchoring").unwrap_or("joints") {
-            "anchored" => 1.0 - nu * nu,
-            "upstream" => 1.0 - nu / 2.0,
-            _ => 1.0,
-        };
+        let c1 = Anchoring::from_key(values.choice("anchoring").unwrap_or("joints"))
+            .unwrap_or(Anchoring::Joints)
+            .c1(nu);
         let k = opt(values, "bulk_modulus").unwrap_or(WATER_BULK_MODULUS);
         let a = wave_speed(k, fluid.density, main.id, wall, e_mod, c1);
-        let dp = fluid.density * a * dv;
+        let dp = pressure::joukowsky(fluid.density, a, dv);
         report.output("wave_speed", a);
         report.output("dp_surge", dp);
         report.output("p_surge", work + dp);
@@ -1468,21 +737,9 @@ fn design_pressure(
         report.output("p_test", *pt);
     }
     let surge_p = surge.as_ref().map(|s| work + s.dp);
-    let design = match basis.as_str() {
-        "operating" => work,
-        "test" => test.as_ref().map(|t| t.0).unwrap_or(work),
-        "surge" => surge_p.unwrap_or(work),
-        _ => {
-            let mut p = work;
-            if let Some((pt, _)) = &test {
-                p = p.max(*pt);
-            }
-            if let Some(ps) = surge_p {
-                p = p.max(ps);
-            }
-            p
-        }
-    };
+    let p_basis = PressureBasis::from_key(&basis)
+        .ok_or_else(|| vec![FieldError::inconsistent("p_basis", "unknown design pressure basis")])?;
+    let (design, _) = pressure::design_pressure(p_basis, work, test.as_ref().map(|t| t.0), surge_p);
     if basis == "operating" {
         report.warn(
             Some("p_basis"),
@@ -1978,7 +1235,7 @@ mod tests {
         // NFPA 24: max(200 psi, 100 + 50 psi) = 200 psi.
         assert_relative_eq!(
             s.output("p_design").map(|o| o.si).unwrap_or(0.0),
-            200.0 * super::PSI,
+            200.0 * 6_894.757_293_168_361, // 1 psi in Pa (NIST SP 811, App. B)
             max_relative = 1e-12
         );
     }
