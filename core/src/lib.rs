@@ -12,6 +12,7 @@
 //! - [`engine`]: ports, control volumes, frames, and the balances with their ledger.
 //! - [`catalog`]: the description of each calculator and the shape of a solution.
 //! - [`calculators`]: the handbook's calculators, registered in one list.
+//! - [`numeric`]: root finding and peak search.
 //! - [`restraint`]: the restraint model shared by the thrust-restraint pages.
 //! - [`quadrature`]: tanh-sinh integration for end-singular integrands.
 //! - [`error`]: typed errors that name the field, the problem and the valid range.
@@ -23,6 +24,7 @@ pub mod error;
 pub mod fluid;
 pub mod friction;
 pub mod glossary;
+pub mod numeric;
 pub mod pipe_sizes;
 pub mod profile;
 pub mod quadrature;
