@@ -207,6 +207,7 @@ pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
 
 /// A named test-pressure rule: its citation and the test pressure for a working
 /// pressure (both gauge, Pa).
+#[derive(Debug)]
 pub struct TestRule {
     pub key: &'static str,
     pub citation: &'static str,
