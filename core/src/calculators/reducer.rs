@@ -43,6 +43,11 @@
 //! wall annulus out to the outside diameter: −p·(A_OD − A)·n is added to the engine
 //! as a named force per face, and the static formula uses the outside areas.
 //!
+//! # Code
+//! [`read`] reads the values once into typed [`Inputs`] (uom quantities), [`solve`]
+//! is the pure model (control volume, balances, joint annulus forces) returning a
+//! [`Solved`], from which the report and diagram are built.
+//!
 //! # Assumptions
 //! Incompressible, steady flow; uniform pressure over each face; momentum on the
 //! bores; the fluid inside is a cone frustum of the included angle.
@@ -55,9 +60,10 @@ use crate::catalog::{
     CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
 };
 use crate::engine::{self, si, ControlVolume, Loss, Port, Stream};
-use crate::error::FieldError;
+use crate::error::{FieldError, FieldErrors};
 use crate::units::{QuantityKind as Q, STANDARD_GRAVITY};
 use crate::vector::{Direction, Vec3};
+use uom::si::f64::{Angle, Length, Pressure, Ratio};
 
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
@@ -281,19 +287,52 @@ pub fn crane_k_small(d_in: f64, d_out: f64, theta: f64) -> f64 {
     }
 }
 
-pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let d_in = values.quantity("d").map_err(|e| vec![e])?;
-    let d_out = values.quantity("d2").map_err(|e| vec![e])?;
-    let p_in = values.quantity("p").map_err(|e| vec![e])?;
-    let mut theta = values.quantity("cone_angle").map_err(|e| vec![e])?;
-    let loss_model = values.choice("loss").map_err(|e| vec![e])?;
-    let orientation = values.choice("flow_dir").map_err(|e| vec![e])?;
+/// The page's inputs, validated. Diameters and pressures are uom quantities.
+#[derive(Clone, Debug)]
+pub struct Inputs {
+    pub d: Length,
+    pub d2: Length,
+    pub p: Pressure,
+    pub cone_angle: Angle,
+    /// The loss model key (`crane`, `borda`, `k`, `none`).
+    pub loss: &'static str,
+    /// A given K and the velocity it refers to (`loss=k`).
+    pub k_given: Option<(Ratio, &'static str)>,
+    /// Flow direction along the axis (`horizontal`, `upward`, `downward`).
+    pub flow_dir: &'static str,
+    /// Outside diameters at the two joints when the joint seals on them.
+    pub outside: Option<(Length, Length)>,
+    pub fluid: crate::fluid::Fluid,
+    pub flow: crate::engine::FlowSpec,
+    /// The flow field the user filled, for warnings.
+    pub flow_field: &'static str,
+}
+
+fn option_key(options: &'static [ChoiceOption], field: &'static str, key: &str) -> Result<&'static str, FieldError> {
+    options
+        .iter()
+        .find(|o| o.key == key)
+        .map(|o| o.key)
+        .ok_or_else(|| FieldError::inconsistent(field, format!("'{key}' is not an option here")))
+}
+
+/// Reads the page's values once.
+///
+/// # Errors
+/// Each bad field by name.
+pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
+    let d: Length = values.typed("d")?;
+    let d2: Length = values.typed("d2")?;
+    let p = values.typed("p")?;
+    let cone_angle = values.typed("cone_angle")?;
+    let loss = option_key(LOSS_OPTIONS, "loss", values.choice("loss")?)?;
+    let flow_dir = option_key(ORIENTATION_OPTIONS, "flow_dir", values.choice("flow_dir")?)?;
     let outside = match crate::restraint::joint_uses_od(values.choice("joint").unwrap_or("flanged")) {
         true => {
-            let od_in = values.quantity("od").map_err(|e| vec![e])?;
-            let od_out = values.quantity("od2").map_err(|e| vec![e])?;
-            let mut errors = Vec::new();
-            for (field, od, bore) in [("od", od_in, d_in), ("od2", od_out, d_out)] {
+            let od: Length = values.typed("od")?;
+            let od2: Length = values.typed("od2")?;
+            let mut errors = FieldErrors::default();
+            for (field, od, bore) in [("od", od, d), ("od2", od2, d2)] {
                 if od <= bore {
                     errors.push(FieldError::inconsistent(
                         field,
@@ -301,27 +340,84 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                     ));
                 }
             }
-            if !errors.is_empty() {
-                return Err(errors);
-            }
-            Some((od_in, od_out))
+            Some(errors.or_ok((od, od2))?)
         }
         false => None,
     };
     let fluid = common::fluid_from(values)?;
     let flow = common::flow_given_from(values)?;
+    if loss == "borda" && d2 <= d {
+        return Err(FieldError::inconsistent(
+            "loss",
+            "Borda–Carnot is the loss of a sudden expansion; this fitting does not expand (outlet not larger than inlet): choose the Crane formula or a given K",
+        )
+        .into());
+    }
+    let k_given = match loss {
+        "k" => Some((
+            values.typed("k")?,
+            option_key(K_REF_OPTIONS, "k_ref", values.choice("k_ref").unwrap_or("small"))?,
+        )),
+        _ => None,
+    };
+    Ok(Inputs {
+        d,
+        d2,
+        p,
+        cone_angle,
+        loss,
+        k_given,
+        flow_dir,
+        outside,
+        fluid,
+        flow,
+        flow_field: common::flow_field(values),
+    })
+}
+
+/// The solved reducer.
+#[derive(Clone, Debug)]
+pub struct Solved {
+    pub balance: engine::Balance,
+    /// The loss coefficient used and the description of its method.
+    pub k: f64,
+    pub loss_text: String,
+    /// Included angle used (π for Borda–Carnot, a sudden step), rad.
+    pub theta: f64,
+    /// Length of the cone, m.
+    pub length: f64,
+    pub axis: Direction,
+    pub expands: bool,
+    pub a_in: f64,
+    pub a_out: f64,
+    pub basis_a_in: f64,
+    pub basis_a_out: f64,
+    /// The port the loss coefficient refers to (0 inlet, 1 outlet).
+    pub reference_port: usize,
+    /// Gravity in the drawing axes, m/s².
+    pub gravity: Vec3,
+    /// Volume of fluid inside, m³.
+    pub volume: f64,
+}
+
+/// The pure model: the control volume of the fluid in the cone and its balances.
+///
+/// # Errors
+/// An engine refusal, on `p`.
+pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
+    let (d_in, d_out, p_in) = (inputs.d.value, inputs.d2.value, inputs.p.value);
+    let mut theta = inputs.cone_angle.value;
+    let loss_model = inputs.loss;
+    let orientation = inputs.flow_dir;
+    let outside = inputs.outside.map(|(od, od2)| (od.value, od2.value));
+    let fluid = &inputs.fluid;
+    let flow = inputs.flow;
     let expands = d_out > d_in;
     let (a_in, a_out) = (common::circle_area(d_in), common::circle_area(d_out));
     let small_port = if expands { 0 } else { 1 };
 
     let (k, reference_port, loss_text) = match loss_model {
         "borda" => {
-            if !expands {
-                return Err(vec![FieldError::inconsistent(
-                    "loss",
-                    "Borda–Carnot is the loss of a sudden expansion; this fitting does not expand (outlet not larger than inlet): choose the Crane formula or a given K",
-                )]);
-            }
             theta = PI;
             let k = (1.0 - a_in / a_out).powi(2);
             (
@@ -331,8 +427,8 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
             )
         }
         "k" => {
-            let k = values.quantity("k").map_err(|e| vec![e])?;
-            let (port, name) = match values.choice("k_ref").unwrap_or("small") {
+            let (k, k_ref) = inputs.k_given.map_or((0.0, "small"), |(k, r)| (k.value, r));
+            let (port, name) = match k_ref {
                 "inlet" => (0, "the inlet velocity"),
                 "outlet" => (1, "the outlet velocity"),
                 _ => (small_port, "the smaller pipe's velocity"),
@@ -373,7 +469,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     let o = cv.port(Port::outlet("outlet", si::area(a_out), axis).at(a * length));
     cv.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port }));
     cv.contains(si::volume(volume), a * (0.5 * length));
-    let mut balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    let mut balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
     if let Some((od_in, od_out)) = outside {
         // Push-on or mechanical joints: the solved pressures also act on the wall
         // annulus out to the outside diameter at each end (a second pass adds them as
@@ -390,13 +486,66 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
                 at,
             );
         }
-        balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+        balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
     }
     let (basis_a_in, basis_a_out) = match outside {
         Some((od_in, od_out)) => (common::circle_area(od_in), common::circle_area(od_out)),
         None => (a_in, a_out),
     };
 
+    Ok(Solved {
+        balance,
+        k,
+        loss_text,
+        theta,
+        length,
+        axis,
+        expands,
+        a_in,
+        a_out,
+        basis_a_in,
+        basis_a_out,
+        reference_port,
+        gravity,
+        volume,
+    })
+}
+
+/// The registered entry point: read the values once, solve the pure model, report.
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let inputs = read(values)?;
+    let solved = solve(&inputs)?;
+    write(&inputs, &solved, report);
+    Ok(())
+}
+
+/// The report, built from the solved model.
+fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
+    let (d_in, d_out, p_in) = (inputs.d.value, inputs.d2.value, inputs.p.value);
+    let (loss_model, orientation) = (inputs.loss, inputs.flow_dir);
+    let outside = inputs.outside.map(|(od, od2)| (od.value, od2.value));
+    let fluid = &inputs.fluid;
+    let Solved {
+        balance,
+        k,
+        loss_text,
+        theta,
+        length,
+        axis,
+        expands,
+        a_in,
+        a_out,
+        basis_a_in,
+        basis_a_out,
+        reference_port,
+        gravity,
+        volume,
+    } = solved;
+    let (reference_port, gravity, volume) = (*reference_port, *gravity, *volume);
+    let (k, theta, length, axis, expands) = (*k, *theta, *length, *axis, *expands);
+    let (a_in, a_out, basis_a_in, basis_a_out) = (*a_in, *a_out, *basis_a_in, *basis_a_out);
+    let a = axis.vec();
+    let (i, o) = (0, 1);
     let thrust = balance.thrust();
     let axial = thrust.dot(a);
     let (inlet_state, outlet_state) = (&balance.ports[i], &balance.ports[o]);
@@ -477,7 +626,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     }
 
     common::forward_warnings(&balance, report);
-    common::pipe_velocity_warning(report, common::flow_field(values), "inlet", inlet_state.speed);
+    common::pipe_velocity_warning(report, inputs.flow_field, "inlet", inlet_state.speed);
     common::pipe_velocity_warning(report, "d2", "outlet", outlet_state.speed);
     if (d_in - d_out).abs() <= 1e-9 * d_in {
         report.warn(
@@ -515,7 +664,7 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     };
     report.solution.tables.push(common::basis_table(vec![
         ("Fitting", kind.to_string()),
-        ("Loss model", loss_text),
+        ("Loss model", loss_text.clone()),
         (
             "Thrust direction",
             format!(
@@ -572,7 +721,6 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         elevation,
     );
     report.solution.carry_over.push(carry);
-    Ok(())
 }
 
 fn diagram(
