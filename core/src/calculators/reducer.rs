@@ -625,7 +625,7 @@ fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         );
     }
 
-    common::forward_warnings(&balance, report);
+    common::forward_warnings(balance, report);
     common::pipe_velocity_warning(report, inputs.flow_field, "inlet", inlet_state.speed);
     common::pipe_velocity_warning(report, "d2", "outlet", outlet_state.speed);
     if (d_in - d_out).abs() <= 1e-9 * d_in {
@@ -698,9 +698,9 @@ fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         ),
     ]));
     let system = report.system();
-    report.solution.tables.push(common::ledger_table(&balance, system));
-    report.solution.tables.push(common::ports_table(&balance, system));
-    let diagram = diagram(d_in, d_out, length, axis, &balance, report);
+    report.solution.tables.push(common::ledger_table(balance, system));
+    report.solution.tables.push(common::ports_table(balance, system));
+    let diagram = diagram(d_in, d_out, length, axis, balance, report);
     report.solution.diagrams.push(diagram);
     // The carried force is the axial thrust; up is +z in plan view, +y in elevation.
     let up = if a.y.abs() > 0.5 {

@@ -117,7 +117,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         );
     }
 
-    common::forward_warnings(&balance, report);
+    common::forward_warnings(balance, report);
     let flow_field = inputs.flow_field;
     common::pipe_velocity_warning(report, flow_field, "inlet", inlet_state.speed);
     common::pipe_velocity_warning(report, "d2", "outlet", outlet_state.speed);
@@ -191,8 +191,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         ("Loss", loss),
         ("Fluid", fluid.name.clone()),
     ]));
-    report.solution.tables.push(common::ledger_table(&balance, system));
-    report.solution.tables.push(common::ports_table(&balance, system));
-    let diagram = super::diagram::diagram(&geometry, &balance, report);
+    report.solution.tables.push(common::ledger_table(balance, system));
+    report.solution.tables.push(common::ports_table(balance, system));
+    let diagram = super::diagram::diagram(&geometry, balance, report);
     report.solution.diagrams.push(diagram);
 }
