@@ -6,7 +6,7 @@ use crate::catalog::{Report, Table};
 use crate::engine::EngineWarning;
 use crate::restraint::pressure::PressureBasis;
 use crate::restraint::soil::{SoilTable, SOILS};
-use crate::restraint::{self, FittingKind, Plane, StaticFitting};
+use crate::restraint::{self, Plane, StaticFitting};
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 use crate::vector::Vec3;
 
@@ -174,7 +174,6 @@ fn static_checks(report: &mut Report<'_>, fit: &StaticFitting, p: f64, thrust: V
         0.0,
     );
     if let Some((closed_v, formula_v)) = restraint::closed_form_vertical(fit, p) {
-        debug_assert!(fit.kind == FittingKind::Bend);
         report.check(
             "Vertical thrust",
             formula_v,
