@@ -17,6 +17,8 @@
 //! - [`glossary`]: the one vocabulary of query keys and the alias table of old keys.
 //! - [`catalog`]: the description of each calculator and the shape of a solution.
 //! - [`calculators`]: the handbook's calculators, registered in one list.
+//! - [`numeric`]: root finding and peak search.
+//! - [`restraint`]: the restraint model shared by the thrust-restraint pages.
 //! - [`quadrature`]: tanh-sinh integration for end-singular integrands.
 //! - [`error`]: typed errors that name the field, the problem and the valid range.
 //! - [`verification`]: runs a sourced reference case and judges it (tests and the
@@ -29,8 +31,10 @@ pub mod error;
 pub mod fluid;
 pub mod friction;
 pub mod glossary;
+pub mod numeric;
 pub mod pipe_sizes;
 pub mod quadrature;
+pub mod restraint;
 pub mod units;
 pub mod vector;
 pub mod velocity_profile;

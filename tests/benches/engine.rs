@@ -104,9 +104,9 @@ fn main() {
     let mut request = Request::default();
     for (key, value) in [
         ("angle", "45 deg"),
-        ("d_in", "300 mm"),
+        ("d", "300 mm"),
         ("p", "10 bar"),
-        ("flow_basis", "q"),
+        ("flow_given", "q"),
         ("q", "720 m3/h"),
         ("fluid", "water"),
         ("t", "20 degC"),

@@ -184,12 +184,12 @@ mod url_state {
         // A second kind of edit: the choice of plane.
         page.eval(
             &mut browser,
-            "(() => { const s = document.getElementById('field-plane'); s.value = 'vertical_up'; s.dispatchEvent(new Event('change', {bubbles: true})); })()",
+            "(() => { const s = document.getElementById('field-plane'); s.value = 'vertical_sag'; s.dispatchEvent(new Event('change', {bubbles: true})); })()",
         )
         .unwrap();
         page.wait_for(
             &mut browser,
-            "location.search.includes('plane=vertical_up')",
+            "location.search.includes('plane=vertical_sag')",
             Duration::from_secs(5),
         )
         .unwrap();
@@ -205,7 +205,7 @@ mod url_state {
         );
         page.eval(
             &mut browser,
-            "(() => { const s = document.getElementById('field-flow_basis'); s.value = 'v'; s.dispatchEvent(new Event('change', {bubbles: true})); })()",
+            "(() => { const s = document.getElementById('field-flow_given'); s.value = 'v'; s.dispatchEvent(new Event('change', {bubbles: true})); })()",
         )
         .unwrap();
         let after_basis = page.eval(&mut browser, shown).unwrap();
@@ -323,7 +323,7 @@ mod url_state {
         assert_eq!(
             page.eval(&mut browser, "document.getElementById('field-plane').value")
                 .unwrap(),
-            "vertical_up"
+            "vertical_sag"
         );
         assert_eq!(
             page.eval(&mut browser, "document.getElementById('field-v').value")
@@ -386,7 +386,7 @@ mod hostile_parameters {
         // as well as from the service worker.
         let long = "9".repeat(100_000);
         let hostile: Vec<(String, String)> = vec![
-            ("d_out".into(), "<script>alert(1)</script>".into()),
+            ("d2".into(), "<script>alert(1)</script>".into()),
             (
                 "<img src=x onerror=alert(1)>".into(),
                 "<img src=x onerror=alert(1)>".into(),
@@ -394,7 +394,7 @@ mod hostile_parameters {
             ("plane".into(), "javascript:alert(1)".into()),
             ("k".into(), long.clone()),
             ("angle".into(), "NaN".into()),
-            ("d_in".into(), "inf".into()),
+            ("d".into(), "inf".into()),
             ("p".into(), "12 m".into()),
             ("system".into(), "javascript:alert(1)".into()),
         ];
@@ -425,10 +425,10 @@ mod hostile_parameters {
         );
         // What the link gave stays in its field, to be corrected, not replaced.
         for (field, value) in [
-            ("d_out", "<script>alert(1)</script>"),
+            ("d2", "<script>alert(1)</script>"),
             ("k", long.as_str()),
             ("angle", "NaN"),
-            ("d_in", "inf"),
+            ("d", "inf"),
             ("p", "12 m"),
         ] {
             let shown = page
@@ -485,7 +485,7 @@ mod hostile_parameters {
         for field in spec
             .fields
             .iter()
-            .filter(|f| ["d_out", "k", "angle", "d_in", "p", "plane"].contains(&f.key))
+            .filter(|f| ["d2", "k", "angle", "d", "p", "plane"].contains(&f.key))
         {
             let event = if field.key == "plane" { "change" } else { "input" };
             page.eval(
@@ -754,7 +754,7 @@ mod offline {
             .unwrap();
         assert_eq!(probe, "failed", "the server still answers after stop()");
 
-        let bookmark = format!("{base}/bend.html?angle=30deg&d_in=12in&p=150psi&plane=horizontal&system=us");
+        let bookmark = format!("{base}/bend.html?angle=30deg&d=12in&p=150psi&plane=horizontal&system=us");
         page.goto(&mut browser, &bookmark)
             .unwrap_or_else(|e| panic!("offline load of a bookmarked URL failed: {e}"));
         assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");

@@ -1161,7 +1161,7 @@ mod tests {
             // The thrust-restraint demo's 7 bar showed as 101.526 psi (issue 8).
             (
                 "thrust-block",
-                "p_work",
+                "p",
                 "7 bar",
                 "bar",
                 UnitSystem::UsCustomary,

@@ -17,14 +17,20 @@
 //! AWWA Manual M41 and M11, each listing T = P·A for a dead end).
 //!
 //! # Area basis
-//! The area is chosen openly: the inside diameter (a welded, flanged or fused line,
-//! where the joint seals on the bore), or the outside diameter (push-on and
+//! The area follows the joint (`joint`): the inside diameter (`flanged`, `welded`:
+//! a welded, flanged or fused line, where the joint seals on the bore), or the
+//! outside diameter `od` (`push_on`, `mechanical`, `restrained`: push-on and
 //! mechanical joints, restrained or not: they seal on the spigot's outside, so the
 //! pressure acts over the outside diameter of the sealing joint, as those guides
 //! use it). The engine's thrust is checked against p·π·d²/4 on the diameter used
 //! ([`Report::check`]). Both
 //! thrusts are reported when both diameters are given; the output says which one is
 //! the headline.
+//!
+//! # Code
+//! [`read`] reads the values once into typed [`Inputs`], [`solve`] is the pure
+//! model (the engine's balance of the still liquid), and the report is built from
+//! its [`Solved`] result.
 //!
 //! # Assumptions
 //! Gauge pressure, uniform over the face; still fluid; the weight of the fluid and
@@ -34,9 +40,11 @@ use crate::catalog::{
     CalculatorSpec, ChoiceOption, Diagram, FieldSpec, Limits, OutputSpec, Report, Shape, ShapeStyle, Values,
 };
 use crate::engine::{self, si, ControlVolume, EngineWarning, Port};
-use crate::error::FieldError;
+use crate::error::{FieldError, FieldErrors};
+use crate::restraint::Joint;
 use crate::units::QuantityKind as Q;
 use crate::vector::{Direction, Vec3};
+use uom::si::f64::{Length, Pressure};
 
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
@@ -87,23 +95,23 @@ pub fn spec() -> CalculatorSpec {
             "Bore of the pipe at the closure.",
         ),
         choice(
-            "basis",
-            "Thrust area basis",
-            common::AREA_BASIS_OPTIONS,
-            "od",
-            common::AREA_BASIS_HELP,
+            "joint",
+            "Joint at the closure (thrust area)",
+            crate::restraint::Joint::OPTIONS,
+            "push_on",
+            crate::restraint::JOINT_HELP,
         ),
         FieldSpec {
             optional: true,
             ..quantity(
-                "d_od",
+                "od",
                 "Pipe outside diameter",
                 Q::Length,
                 "mm",
                 "in",
                 "222 mm",
                 Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Needed for the outside-diameter basis; with it the inside-diameter thrust is shown as well.",
+                "Needed for push-on and mechanical joints (the outside-diameter basis); with it the inside-diameter thrust is shown as well.",
             )
         },
     ];
@@ -152,32 +160,75 @@ pub fn spec() -> CalculatorSpec {
     }
 }
 
-pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let p = values.quantity("p").map_err(|e| vec![e])?;
-    let d = values.quantity("d").map_err(|e| vec![e])?;
-    let basis = values.choice("basis").map_err(|e| vec![e])?;
-    let closure = values.choice("closure").map_err(|e| vec![e])?;
-    let d_od = values.is_set("d_od").then(|| values.quantity_or("d_od", d));
-    if let Some(od) = d_od {
-        if od <= d {
-            return Err(vec![FieldError::inconsistent(
-                "d_od",
-                "the outside diameter must be larger than the inside diameter",
-            )]);
-        }
+/// The page's inputs, validated.
+#[derive(Clone, Debug)]
+pub struct Inputs {
+    /// Gauge pressure.
+    pub p: Pressure,
+    /// Bore.
+    pub d: Length,
+    /// Outside diameter, when given.
+    pub od: Option<Length>,
+    pub joint: Joint,
+    pub closure: &'static str,
+}
+
+/// Reads the page's values once.
+///
+/// # Errors
+/// Each bad field by name.
+pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
+    let p = values.typed("p")?;
+    let d: Length = values.typed("d")?;
+    let joint =
+        Joint::from_key(values.choice("joint")?).ok_or_else(|| FieldError::inconsistent("joint", "unknown joint"))?;
+    let closure_key = values.choice("closure")?;
+    let closure = CLOSURE_OPTIONS
+        .iter()
+        .find(|o| o.key == closure_key)
+        .map(|o| o.key)
+        .ok_or_else(|| FieldError::inconsistent("closure", "unknown closure"))?;
+    let od: Option<Length> = values.typed_opt("od");
+    if od.is_some_and(|od| od <= d) {
+        return Err(
+            FieldError::inconsistent("od", "the outside diameter must be larger than the inside diameter").into(),
+        );
     }
-    let (d_used, basis_text) = match (basis, d_od) {
-        ("od", Some(od)) => (od, "outside diameter (push-on or mechanical joint)"),
-        ("od", None) => {
-            return Err(vec![FieldError::inconsistent(
-                "d_od",
-                "an outside diameter is required for the outside-diameter basis",
-            )])
-        }
-        _ => (d, "inside diameter (the bore)"),
+    if joint.uses_od() && od.is_none() {
+        return Err(FieldError::inconsistent(
+            "od",
+            "an outside diameter is required: push-on and mechanical joints take the thrust area on it",
+        )
+        .into());
+    }
+    Ok(Inputs {
+        p,
+        d,
+        od,
+        joint,
+        closure,
+    })
+}
+
+/// The solved dead end.
+#[derive(Clone, Debug)]
+pub struct Solved {
+    /// The diameter the thrust acts on, m.
+    pub d_used: f64,
+    pub area: f64,
+    pub balance: engine::Balance,
+}
+
+/// The pure model: the balance of the still fluid against the closure.
+///
+/// # Errors
+/// An engine refusal, on `p`.
+pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
+    let d_used = match (inputs.joint.uses_od(), inputs.od) {
+        (true, Some(od)) => od.value,
+        _ => inputs.d.value,
     };
     let area = common::circle_area(d_used);
-
     // The face is cut upstream of the closure; the flow would move towards it (+x).
     let mut cv = ControlVolume::new(crate::fluid::Fluid {
         name: "liquid at rest".to_string(),
@@ -188,10 +239,32 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
     cv.port(
         Port::inlet("pipe face", si::area(area), Direction::X)
             .velocity(si::velocity(0.0))
-            .pressure(si::pressure(p))
+            .pressure(si::pressure(inputs.p.value))
             .at(Vec3::ZERO),
     );
-    let balance = engine::balance(&cv).map_err(|e| common::engine_error(e, "p"))?;
+    let balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
+    Ok(Solved { d_used, area, balance })
+}
+
+/// The registered entry point: read the values once, solve the pure model, report.
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let inputs = read(values)?;
+    let solved = solve(&inputs)?;
+    write(&inputs, &solved, report);
+    Ok(())
+}
+
+/// The report, built from the solved model.
+fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
+    let (p, d, closure) = (inputs.p.value, inputs.d.value, inputs.closure);
+    let d_od = inputs.od.map(|od| od.value);
+    let Solved { d_used, area, balance } = solved;
+    let (d_used, area) = (*d_used, *area);
+    let basis_text = if inputs.joint.uses_od() {
+        "outside diameter (push-on or mechanical joint)"
+    } else {
+        "inside diameter (the bore)"
+    };
     let thrust = balance.thrust();
 
     report.output("thrust", thrust.norm());
@@ -239,12 +312,11 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
         ("Thrust area", report.fmt(area, Q::Area)),
         ("Formula", "T = p·A (no flow, so no momentum flux)".to_string()),
     ]));
-    report.solution.tables.push(common::ledger_table(&balance, system));
-    let diagram = diagram(d, d_od, d_used, closure, &balance, report);
+    report.solution.tables.push(common::ledger_table(balance, system));
+    let diagram = diagram(d, d_od, d_used, closure, balance, report);
     report.solution.diagrams.push(diagram);
     let carry = common::thrust_carry_over(report, "Size a thrust block for this dead end", thrust.norm(), 0.0);
     report.solution.carry_over.push(carry);
-    Ok(())
 }
 
 fn diagram(
@@ -372,13 +444,13 @@ mod tests {
     #[test]
     fn thrust_is_pressure_times_the_chosen_area() {
         // Derived from the definition: T = p·π·D²/4.
-        let s = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("d_od", "326 mm"), ("basis", "od")])
+        let s = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("od", "326 mm"), ("joint", "push_on")])
             .result
             .expect("solves");
         let od_area = std::f64::consts::PI * 0.326 * 0.326 / 4.0;
         assert_relative_eq!(s.output("thrust").unwrap().si, 1e6 * od_area, max_relative = 1e-12);
         assert_relative_eq!(s.output("area").unwrap().si, od_area, max_relative = 1e-12);
-        let id = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("basis", "id"), ("d_od", "")])
+        let id = outcome(&[("p", "10 bar"), ("d", "300 mm"), ("joint", "flanged"), ("od", "")])
             .result
             .expect("solves");
         assert_relative_eq!(
@@ -416,8 +488,8 @@ mod tests {
     fn bad_inputs_name_their_field() {
         assert_eq!(error_field(&[("p", "-1 bar")]), "p");
         assert_eq!(error_field(&[("d", "0 mm")]), "d");
-        assert_eq!(error_field(&[("d_od", "100 mm")]), "d_od");
-        assert_eq!(error_field(&[("basis", "od"), ("d_od", "")]), "d_od");
+        assert_eq!(error_field(&[("od", "100 mm")]), "od");
+        assert_eq!(error_field(&[("joint", "push_on"), ("od", "")]), "od");
     }
 
     #[test]

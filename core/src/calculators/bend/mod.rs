@@ -1,0 +1,318 @@
+//! Pipe bend: the force an anchor or thrust block must supply to hold a bend.
+//!
+//! # Method
+//! A control volume is drawn around the fluid in the bend, cutting the pipe at the
+//! inlet (1) and outlet (2) faces. With x along the inlet flow and the bend turning
+//! through θ in its plane, the linear-momentum balance ([`crate::engine`]) gives the
+//! force the supports exert on the bend,
+//!
+//! R = p₁A₁n₁ + p₂A₂n₂ + ṁ(β₂V₂ − β₁V₁) − W − W_f,
+//!
+//! with n the outward normals, p gauge pressures, W the contained fluid's weight and
+//! W_f any given weight of the fitting. The thrust on the supports is T = −R. The
+//! outlet pressure comes from the energy balance with the bend's loss coefficient K
+//! on the inlet velocity: p₂ = p₁ + ρ(V₁² − V₂²)/2 − ρg(z₂ − z₁) − K·ρV₁²/2.
+//!
+//! For an equal-size bend at rest the thrust reduces to the static formula
+//! T = 2pA·sin(θ/2), directed along the bisector, away from the bend's centre
+//! (e.g. AWWA Manual M11, *Steel Pipe*, chapter on thrust restraint; the ductile-iron
+//! pipe industry's thrust-restraint design guides).
+//!
+//! # Checks
+//! Recorded with [`Report::check`], each by a path that does not use the engine:
+//! the outlet pressure by the Bernoulli line above; the x and y thrust by the
+//! closed form T = (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + (W + W_f)·ĝ with that
+//! pressure (areas on the chosen basis, momentum on the bores); and for an
+//! equal-size horizontal bend at rest, the static formula 2pA·sin(θ/2).
+//!
+//! # Area basis
+//! The bore (`joint=flanged` or `welded`, the default flanged) is for joints that
+//! seal on it: welded, flanged or fused. Push-on and mechanical joints, restrained
+//! or not (`joint=push_on`, `mechanical`, `restrained`), seal on the spigot's
+//! outside, so the pressure acts out to the outside diameter of the sealing joint
+//! (`od` and `od2`): −p·(A_OD − A)·n is added at each face
+//! as a named force, as on the reducer page. 12 in ductile iron (OD 13.20 in, bore
+//! 12.46 in), 150 psi, 90°: 29,030 lbf on the OD, 25,866 lbf on the bore.
+//!
+//! # Carried to the thrust-restraint page
+//! A vertical bend carries its resultant and its angle above the horizontal; a
+//! horizontal bend carries its in-plane thrust only, since the fluid's weight rests
+//! on the bedding, not on the block.
+//!
+//! # Code
+//! [`model::read`] reads the values once into typed inputs (uom quantities),
+//! [`model::solve`] builds and balances the control volume, [`report::write`]
+//! reports from the solved model and [`diagram::diagram`] draws it.
+//!
+//! # Assumptions
+//! Incompressible, steady flow; uniform pressure over each face; pressure area on
+//! the chosen basis; the fluid inside follows the centre-line arc
+//! (volume A·R·θ for equal sizes, mean area for reducing bends).
+
+use std::f64::consts::PI;
+
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::error::FieldError;
+use crate::restraint::Plane;
+use crate::units::QuantityKind as Q;
+
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
+
+pub mod diagram;
+pub mod model;
+pub mod report;
+
+pub const KEY: &str = "bend";
+
+const PLANE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: Plane::Horizontal.key(),
+        label: "Horizontal (plan view)",
+    },
+    ChoiceOption {
+        key: Plane::Sag.key(),
+        label: "Vertical, turning upward (a sag)",
+    },
+    ChoiceOption {
+        key: Plane::Crest.key(),
+        label: "Vertical, turning downward (a crest)",
+    },
+];
+
+pub fn spec() -> CalculatorSpec {
+    let mut fields = vec![
+        quantity(
+            "angle",
+            "Deflection angle",
+            Q::Angle,
+            "deg",
+            "deg",
+            "45 deg",
+            Limits::closed(crate::restraint::MIN_ANGLE, PI),
+            "How far the flow turns, from 0.1 to 180 degrees (a return bend).",
+        ),
+        quantity(
+            "d",
+            "Inlet inside diameter",
+            Q::Length,
+            "mm",
+            "in",
+            "310 mm",
+            Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+            "Inside diameter of the pipe entering the bend.",
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "d2",
+                "Outlet inside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Leave empty for an equal-size bend; give it for a reducing bend.",
+            )
+        },
+        quantity(
+            "p",
+            "Gauge pressure at the inlet",
+            Q::Pressure,
+            "kPa",
+            "psi",
+            "10 bar",
+            Limits::closed(0.0, MAX_PRESSURE_PA),
+            "The design pressure: the highest the line will see, including test pressure and surge.",
+        ),
+    ];
+    fields.extend(common::flow_given_fields("850 m3/h"));
+    fields.extend(common::fluid_fields("25 degC"));
+    fields.extend([
+        FieldSpec {
+            optional: true,
+            ..quantity("k", "Loss coefficient K", Q::Ratio, "-", "-", "", Limits::closed(0.0, 50.0), "Head loss K·V²/2g on the inlet velocity; empty means no loss. Name the method your K comes from (Crane, Idelchik, ...).")
+        },
+        FieldSpec {
+            optional: true,
+            ..choice("joint", "Joints at the bend (thrust area)", crate::restraint::Joint::OPTIONS, "flanged", crate::restraint::JOINT_HELP)
+        },
+        FieldSpec {
+            visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
+            ..quantity("od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
+        },
+        FieldSpec {
+            visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
+            optional: true,
+            ..quantity("od2", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
+        },
+        choice("plane", "Plane of the bend", PLANE_OPTIONS, "horizontal", "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the plane."),
+        FieldSpec {
+            optional: true,
+            ..quantity("r_bend", "Centre-line bend radius", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, 100.0), "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet diameter.")
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity("w_fitting", "Weight of the fitting and carried pipe", Q::Force, "kN", "lbf", "", Limits::closed(0.0, 1e8), "Optional dead weight the restraint also carries (vertical bends).")
+        },
+    ]);
+    CalculatorSpec {
+        key: KEY,
+        title: "Pipe bend anchor force",
+        group: crate::catalog::group::FITTINGS,
+        summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
+        fields,
+        outputs: vec![
+            OutputSpec { key: "thrust", label: "Thrust on the supports (resultant)", kind: Q::Force, headline: true },
+            OutputSpec { key: "thrust_in_plane", label: "Thrust in the plane of the bend", kind: Q::Force, headline: true },
+            OutputSpec { key: "thrust_angle", label: "Direction of the in-plane thrust, from the inlet flow direction", kind: Q::Angle, headline: false },
+            OutputSpec { key: "thrust_x", label: "Thrust along the inlet flow (x)", kind: Q::Force, headline: false },
+            OutputSpec { key: "thrust_y", label: "Thrust across it, in the plane (y)", kind: Q::Force, headline: false },
+            OutputSpec { key: "thrust_z", label: "Thrust normal to the plane (z, up in plan view)", kind: Q::Force, headline: false },
+            OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: false },
+            OutputSpec { key: "v_in", label: "Mean velocity at the inlet", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "v_out", label: "Mean velocity at the outlet", kind: Q::Velocity, headline: false },
+            OutputSpec { key: "flow", label: "Volumetric flow", kind: Q::VolumeFlow, headline: false },
+            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
+            OutputSpec { key: "momentum_share", label: "Momentum flux ÷ pressure force", kind: Q::Ratio, headline: false },
+            OutputSpec { key: "fluid_weight", label: "Weight of the fluid inside", kind: Q::Force, headline: false },
+            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec { key: "viscosity", label: "Fluid viscosity", kind: Q::DynamicViscosity, headline: false },
+        ],
+        cautions: vec![
+            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical joints, restrained or not, seal on the spigot's outside: choose their joint (the outside diameter) for them.",
+            "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a gravity block must outweigh it. Where the line turns upward (a sag) it points down into the ground.",
+        ],
+    }
+}
+
+/// The registered entry point: read the values once, solve the pure model, report.
+pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
+    let inputs = model::read(values)?;
+    let solved = model::solve(&inputs)?;
+    report::write(&inputs, &solved, report);
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::catalog::Request;
+    use approx::assert_relative_eq;
+
+    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
+        let mut request = Request::default();
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        crate::solve(super::KEY, &request).result.expect("solves")
+    }
+
+    #[test]
+    fn still_equal_bend_matches_static_formula() {
+        // Derived from the definition: T = 2pA sin(θ/2) with no flow.
+        let s = solve(&[
+            ("angle", "90 deg"),
+            ("d", "300 mm"),
+            ("p", "1 bar"),
+            ("flow_given", "q"),
+            ("q", "0"),
+            ("fluid", "water"),
+            ("t", "20 degC"),
+            ("plane", "horizontal"),
+        ]);
+        let area = std::f64::consts::PI * 0.3 * 0.3 / 4.0;
+        let expected = 2.0 * 1e5 * area * (std::f64::consts::FRAC_PI_4).sin();
+        assert_relative_eq!(s.output("thrust_in_plane").unwrap().si, expected, max_relative = 1e-12);
+        // Along the bisector, away from the centre: 45° below the inlet direction...
+        // the bend turns to +y, so the thrust points to −45°.
+        assert_relative_eq!(
+            s.output("thrust_angle").unwrap().si,
+            -std::f64::consts::FRAC_PI_4,
+            max_relative = 1e-9
+        );
+    }
+
+    #[test]
+    fn carried_thrust_opens_the_restraint_page_with_the_same_force() {
+        let request = crate::catalog::demo_request(&super::spec(), &[("plane", "vertical_crest")]);
+        let s = crate::solve(super::KEY, &request).result.expect("solves");
+        let thrust = s.output("thrust").unwrap().si;
+        let carry = &s.carry_over[0];
+        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
+        let block = crate::solve(carry.calculator, &target)
+            .result
+            .expect("restraint page solves");
+        let carried = block.output("thrust").expect("thrust reported").si;
+        assert_relative_eq!(carried, thrust, max_relative = 1e-3);
+        // A crest pushes up: the carried plane says so.
+        assert!(
+            carry.inputs.iter().any(|(k, v)| *k == "plane" && v == "vertical_crest"),
+            "{:?}",
+            carry.inputs
+        );
+    }
+
+    #[test]
+    fn a_horizontal_bend_carries_its_in_plane_thrust_to_a_horizontal_block() {
+        // Issue 8: 1200 mm, 90°, 5 bar. The fluid's weight (out of the plane) once
+        // tipped the carried force below −1° and opened a sag block.
+        let request = crate::catalog::demo_request(
+            &super::spec(),
+            &[
+                ("d", "1200 mm"),
+                ("angle", "90 deg"),
+                ("p", "5 bar"),
+                ("plane", "horizontal"),
+            ],
+        );
+        let s = crate::solve(super::KEY, &request).result.expect("solves");
+        assert!(
+            s.output("thrust_z").unwrap().si.abs() > 1e3,
+            "the fluid weight is there"
+        );
+        let in_plane = s.output("thrust_in_plane").unwrap().si;
+        let carry = &s.carry_over[0];
+        let get = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+        assert_eq!(get("plane").as_deref(), Some("horizontal"));
+        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
+        let block = crate::solve(carry.calculator, &target)
+            .result
+            .expect("restraint page solves");
+        assert_relative_eq!(block.output("thrust").unwrap().si, in_plane, max_relative = 1e-4);
+        assert_relative_eq!(block.output("thrust_v").unwrap().si, 0.0);
+        // No design pressure of the restraint page's own is shown for a carried force.
+        assert!(block.output("p_design").is_none());
+    }
+
+    #[test]
+    fn the_outside_diameter_basis_adds_the_annulus_at_both_ends() {
+        // Derived from the definition: at rest the thrust is 2·p·A_OD·sin(θ/2).
+        let s = solve(&[
+            ("angle", "60 deg"),
+            ("d", "300 mm"),
+            ("joint", "push_on"),
+            ("od", "326 mm"),
+            ("p", "10 bar"),
+            ("flow_given", "q"),
+            ("q", "0"),
+            ("fluid", "water"),
+            ("t", "20 degC"),
+            ("plane", "horizontal"),
+        ]);
+        let area = std::f64::consts::PI * 0.326 * 0.326 / 4.0;
+        let expected = 2.0 * 1e6 * area * (std::f64::consts::PI / 6.0).sin();
+        assert_relative_eq!(s.output("thrust_in_plane").unwrap().si, expected, max_relative = 1e-12);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+    }
+
+    #[test]
+    fn errors_name_the_field() {
+        let request = crate::catalog::demo_request(&super::spec(), &[("d", "5 psi")]);
+        let outcome = crate::solve(super::KEY, &request);
+        match outcome.result {
+            Err(crate::SolveError::Fields(errors)) => assert_eq!(errors[0].field, "d"),
+            other => panic!("expected a field error, got {other:?}"),
+        }
+    }
+}

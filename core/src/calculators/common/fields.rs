@@ -1,0 +1,474 @@
+//! Fields shared by the calculators: the quantity and choice constructors, the
+//! fluid fields, the flow fields (`flow_given` and `q`, `v`, `mdot`), the jet
+//! fields, and the readers that turn them into engine inputs.
+
+use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, Limits, Values};
+use crate::engine::FlowSpec;
+use crate::error::FieldError;
+use crate::fluid::{Fluid, FluidError, ZERO_CELSIUS};
+use crate::units::QuantityKind;
+
+use QuantityKind as Q;
+
+/// A quantity field with the usual defaults; adjust with struct update syntax.
+pub const fn quantity(
+    key: &'static str,
+    label: &'static str,
+    kind: QuantityKind,
+    si_unit: &'static str,
+    us_unit: &'static str,
+    demo: &'static str,
+    limits: Limits,
+    help: &'static str,
+) -> FieldSpec {
+    FieldSpec {
+        key,
+        label,
+        kind: FieldKind::Quantity(kind),
+        si_unit,
+        us_unit,
+        demo,
+        limits: Some(limits),
+        optional: false,
+        help,
+        visible_when: None,
+    }
+}
+
+/// A choice field.
+pub const fn choice(
+    key: &'static str,
+    label: &'static str,
+    options: &'static [ChoiceOption],
+    demo: &'static str,
+    help: &'static str,
+) -> FieldSpec {
+    FieldSpec {
+        key,
+        label,
+        kind: FieldKind::Choice(options),
+        si_unit: "",
+        us_unit: "",
+        demo,
+        limits: None,
+        optional: false,
+        help,
+        visible_when: None,
+    }
+}
+
+/// Upper bound used for sizes: 10 m is larger than any pipe this handbook covers.
+pub const MAX_SIZE_M: f64 = 10.0;
+
+/// Smallest pipe diameter or bend radius the fitting pages accept, m (1 mm).
+pub const MIN_SIZE_M: f64 = 1e-3;
+
+/// Upper bound for gauge pressures: 100 MPa (≈ 14 500 psi).
+pub const MAX_PRESSURE_PA: f64 = 100e6;
+
+pub const FLUID_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "water",
+        label: "Water (from temperature)",
+    },
+    ChoiceOption {
+        key: "custom",
+        label: "Other liquid (density and viscosity)",
+    },
+];
+
+/// The fluid fields: `fluid` (water/custom), `t`, `rho`, `mu`.
+pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
+    vec![
+        choice(
+            "fluid",
+            "Fluid",
+            FLUID_OPTIONS,
+            "water",
+            "Water properties come from the temperature; choose 'other liquid' to type density and viscosity.",
+        ),
+        FieldSpec {
+            visible_when: Some(("fluid", &["water"])),
+            // Required while shown; a hidden field is neither required nor checked.
+            ..quantity(
+                "t",
+                "Water temperature",
+                Q::Temperature,
+                "degC",
+                "degF",
+                demo_temperature,
+                Limits::closed(ZERO_CELSIUS, ZERO_CELSIUS + 99.9),
+                "Liquid water at atmospheric pressure, 0 to 99.9 degC (32 to 211.8 degF).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("fluid", &["custom"])),
+            ..quantity(
+                "rho",
+                "Density",
+                Q::Density,
+                "kg/m3",
+                "lb/ft3",
+                "",
+                Limits::closed(50.0, 25_000.0),
+                "Density of the liquid, from 50 kg/m³ (cryogenic liquids) to 25 000 kg/m³.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("fluid", &["custom"])),
+            ..quantity(
+                "mu",
+                "Dynamic viscosity",
+                Q::DynamicViscosity,
+                "mPa.s",
+                "lb/(ft.s)",
+                "",
+                Limits::closed(1e-6, 1e3),
+                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 mPa·s to 10⁶ mPa·s.",
+            )
+        },
+    ]
+}
+
+/// Reads the fluid fields.
+pub fn fluid_from(values: &Values) -> Result<Fluid, Vec<FieldError>> {
+    match values.choice("fluid").map_err(|e| vec![e])? {
+        "custom" => {
+            let mut errors = Vec::new();
+            if !values.is_set("rho") {
+                errors.push(FieldError::inconsistent(
+                    "rho",
+                    "a density is required for another liquid",
+                ));
+            }
+            if !values.is_set("mu") {
+                errors.push(FieldError::inconsistent(
+                    "mu",
+                    "a viscosity is required for another liquid",
+                ));
+            }
+            if !errors.is_empty() {
+                return Err(errors);
+            }
+            let density = values.quantity_or("rho", 1000.0);
+            let viscosity = values.quantity_or("mu", 1e-3);
+            Ok(Fluid {
+                name: "custom liquid".to_string(),
+                density,
+                viscosity,
+                vapour_pressure: None,
+            })
+        }
+        _ => {
+            let t = values.quantity("t").map_err(|e| vec![e])?;
+            Fluid::water_kelvin(t).map_err(|e| match e {
+                FluidError::BelowFreezing { .. } | FluidError::AtOrAboveSaturation { .. } => {
+                    vec![FieldError::inconsistent("t", e.to_string())]
+                }
+                FluidError::InvalidProperty { .. } => vec![FieldError::inconsistent("t", e.to_string())],
+            })
+        }
+    }
+}
+
+pub const FLOW_BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "q",
+        label: "Volumetric flow",
+    },
+    ChoiceOption {
+        key: "v",
+        label: "Mean velocity at the inlet",
+    },
+    ChoiceOption {
+        key: "mdot",
+        label: "Mass flow",
+    },
+];
+
+/// The flow fields: the glossary's `flow_given` and one of `q`, `v`, `mdot`.
+pub fn flow_given_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    flow_fields_keyed(FLOW_GIVEN, demo_q)
+}
+
+/// The flow fields under the retired key `flow_basis` (the tee's, until its keys
+/// move to the glossary: old links are read through [`crate::glossary::upgrade`]).
+pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    flow_fields_keyed("flow_basis", demo_q)
+}
+
+/// The glossary key of how the flow is given.
+pub const FLOW_GIVEN: &str = "flow_given";
+
+fn flow_fields_keyed(key: &'static str, demo_q: &'static str) -> Vec<FieldSpec> {
+    // `visible_when` needs a `'static` key: the two keys in use are spelled out.
+    let on =
+        |options: &'static [&'static str]| -> Option<(&'static str, &'static [&'static str])> { Some((key, options)) };
+    vec![
+        choice(
+            key,
+            "Flow given as",
+            FLOW_BASIS_OPTIONS,
+            "q",
+            "How the flow is given; zero flow is allowed (a full, still line under pressure).",
+        ),
+        FieldSpec {
+            visible_when: on(&["q"]),
+            ..quantity(
+                "q",
+                "Volumetric flow",
+                Q::VolumeFlow,
+                "m3/h",
+                "gpm",
+                demo_q,
+                Limits::closed(0.0, 1e3),
+                "Flow through the fitting's inlet.",
+            )
+        },
+        FieldSpec {
+            visible_when: on(&["v"]),
+            ..quantity(
+                "v",
+                "Mean velocity at the inlet",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                "",
+                Limits::closed(0.0, 100.0),
+                "Mean velocity in the inlet pipe.",
+            )
+        },
+        FieldSpec {
+            visible_when: on(&["mdot"]),
+            ..quantity(
+                "mdot",
+                "Mass flow",
+                Q::MassFlow,
+                "kg/s",
+                "lb/s",
+                "",
+                Limits::closed(0.0, 1e6),
+                "Mass flow through the inlet.",
+            )
+        },
+    ]
+}
+
+/// Reads the flow fields of [`flow_given_fields`] into an engine flow spec for the
+/// inlet.
+pub fn flow_given_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
+    flow_from_keyed(values, FLOW_GIVEN)
+}
+
+/// Reads the flow fields of [`flow_fields`] (retired key `flow_basis`).
+pub fn flow_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
+    flow_from_keyed(values, "flow_basis")
+}
+
+fn flow_from_keyed(values: &Values, key: &str) -> Result<FlowSpec, Vec<FieldError>> {
+    let basis = values.choice(key).map_err(|e| vec![e])?;
+    let need = |key: &'static str| {
+        if values.is_set(key) {
+            Ok(values.quantity_or(key, 0.0))
+        } else {
+            Err(vec![FieldError::inconsistent(
+                key,
+                "a value is required for the chosen flow basis",
+            )])
+        }
+    };
+    Ok(match basis {
+        "v" => FlowSpec::Velocity(need("v")?),
+        "mdot" => FlowSpec::MassFlow(need("mdot")?),
+        _ => FlowSpec::VolumeFlow(need("q")?),
+    })
+}
+
+/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings;
+/// read from `flow_given`, or from the retired `flow_basis` of the tee.
+pub fn flow_field(values: &Values) -> &'static str {
+    let given = values.choice(FLOW_GIVEN).or_else(|_| values.choice("flow_basis"));
+    match given.unwrap_or("q") {
+        "v" => "v",
+        "mdot" => "mdot",
+        _ => "q",
+    }
+}
+
+/// The thrust-area basis of a fitting page: the bore only for joints that seal on
+/// it (welded, flanged, fused); the outside diameter for push-on and mechanical
+/// joints, restrained or not, whose gasket seals on the spigot's outside, so the
+/// pressure acts over the OD of the nearest sealing joint.
+pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "id",
+        label: "Inside diameter (welded, flanged or fused joints only)",
+    },
+    ChoiceOption {
+        key: "od",
+        label: "Outside diameter (push-on and mechanical joints, restrained or not)",
+    },
+];
+
+/// Help text of every area-basis selector: why restrained joints take the OD.
+pub const AREA_BASIS_HELP: &str = "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the inside diameter.";
+
+// --- Free jets from a nozzle (jet on a plate, jet on a vane, ...) -------------------
+
+pub const JET_BASIS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "v",
+        label: "Jet velocity",
+    },
+    ChoiceOption {
+        key: "q",
+        label: "Jet flow",
+    },
+    ChoiceOption {
+        key: "head",
+        label: "Supply head at the nozzle, with Cv",
+    },
+    ChoiceOption {
+        key: "p",
+        label: "Gauge pressure at the nozzle inlet, with Cv",
+    },
+];
+
+/// The smallest jet accepted: 0.5 mm.
+const MIN_JET_DIAMETER_M: f64 = 5e-4;
+
+/// Jet speeds handled, m/s: from a trickle to the jet of a 125 MPa cutting head (the
+/// incompressible model is already stretched there).
+pub const MIN_JET_SPEED: f64 = 0.1;
+
+pub const MAX_JET_SPEED: f64 = 500.0;
+
+/// A free jet leaving a nozzle, SI: diameter and area of the jet, mean speed, flow.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Jet {
+    pub diameter: f64,
+    pub area: f64,
+    pub velocity: f64,
+    pub flow: f64,
+}
+
+/// The jet fields: `d_jet`, `flow_given` and one of `v`, `q`, `head`,
+/// `p` (the last two with the velocity coefficient `cv`). Demo values are
+/// given in the order diameter, basis, velocity, flow, head, pressure, Cv.
+pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
+    let [d, basis, v, q, head, p, cv] = demo;
+    vec![
+        quantity(
+            "d_jet",
+            "Jet diameter (nozzle outlet)",
+            Q::Length,
+            "mm",
+            "in",
+            d,
+            Limits::closed(MIN_JET_DIAMETER_M, 2.0),
+            "Diameter of the round jet where it leaves the nozzle (the nozzle's outlet bore), 0.5 mm to 2 m.",
+        ),
+        choice(
+            "flow_given",
+            "Jet given as",
+            JET_BASIS_OPTIONS,
+            basis,
+            "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at the nozzle inlet through V = Cv·√(2gH).",
+        ),
+        FieldSpec {
+            visible_when: Some(("flow_given", &["v"])),
+            ..quantity("v", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED), "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.")
+        },
+        FieldSpec {
+            visible_when: Some(("flow_given", &["q"])),
+            ..quantity("q", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::closed(1e-6, 100.0), "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet area.")
+        },
+        FieldSpec {
+            visible_when: Some(("flow_given", &["head"])),
+            ..quantity("head", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::closed(1e-3, 10_000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
+        },
+        FieldSpec {
+            visible_when: Some(("flow_given", &["p"])),
+            ..quantity("p", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::closed(10.0, MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
+        },
+        FieldSpec {
+            visible_when: Some(("flow_given", &["head", "p"])),
+            optional: true,
+            ..quantity("cv", "Velocity coefficient Cv", Q::Ratio, "-", "-", cv, Limits::closed(0.6, 1.0), "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common practice). Empty means 1 (ideal).")
+        },
+    ]
+}
+
+/// Reads the jet fields (see [`jet_fields`]) for a fluid of density `density`.
+pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
+    let diameter = values.quantity("d_jet").map_err(|e| vec![e])?;
+    let area = super::drawing::circle_area(diameter);
+    let need = |key: &'static str| {
+        if values.is_set(key) {
+            Ok(values.quantity_or(key, 0.0))
+        } else {
+            Err(vec![FieldError::inconsistent(
+                key,
+                "a value is required for the chosen way of giving the jet",
+            )])
+        }
+    };
+    let cv = values.quantity_or("cv", 1.0);
+    let velocity = match values.choice("flow_given").map_err(|e| vec![e])? {
+        "q" => need("q")? / area,
+        "head" => cv * (2.0 * crate::units::STANDARD_GRAVITY * need("head")?).sqrt(),
+        "p" => cv * (2.0 * need("p")? / density).sqrt(),
+        _ => need("v")?,
+    };
+    if !(velocity.is_finite() && velocity > 0.0) {
+        return Err(vec![FieldError::inconsistent(
+            "d_jet",
+            "the jet speed comes out zero or not finite: check the jet inputs",
+        )]);
+    }
+    if !(MIN_JET_SPEED..=MAX_JET_SPEED).contains(&velocity) {
+        let field = match values.choice("flow_given").unwrap_or("v") {
+            "q" => "q",
+            "head" => "head",
+            "p" => "p",
+            _ => "v",
+        };
+        return Err(vec![FieldError::inconsistent(
+            field,
+            format!(
+                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} m/s",
+                crate::units::format_significant(velocity, 4)
+            ),
+        )]);
+    }
+    Ok(Jet {
+        diameter,
+        area,
+        velocity,
+        flow: velocity * area,
+    })
+}
+
+/// How the speed of a jet was given, typed: what a report says about it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum JetGiven {
+    Velocity(uom::si::f64::Velocity),
+    Flow(uom::si::f64::VolumeRate),
+    /// Total head at the nozzle inlet, with the velocity coefficient.
+    Head(uom::si::f64::Length, uom::si::f64::Ratio),
+    /// Gauge pressure at the nozzle inlet, with the velocity coefficient.
+    Pressure(uom::si::f64::Pressure, uom::si::f64::Ratio),
+}
+
+/// Reads how the jet's speed is given (see [`jet_fields`]); `cv` is 1 when empty.
+pub fn jet_given(values: &Values) -> Result<JetGiven, crate::error::FieldErrors> {
+    let cv = values
+        .typed_opt("cv")
+        .unwrap_or(uom::si::f64::Ratio::new::<uom::si::ratio::ratio>(1.0));
+    Ok(match values.choice("flow_given")? {
+        "q" => JetGiven::Flow(values.typed("q")?),
+        "head" => JetGiven::Head(values.typed("head")?, cv),
+        "p" => JetGiven::Pressure(values.typed("p")?, cv),
+        _ => JetGiven::Velocity(values.typed("v")?),
+    })
+}

@@ -1,0 +1,311 @@
+//! Design pressure: the pressure a restraint is sized for, chosen openly.
+//!
+//! # Method
+//! The candidates are the operating (working) pressure; the field test pressure by
+//! a named rule ([`TEST_RULES`]) or typed; and the working pressure plus surge. The
+//! basis ([`PressureBasis`]) picks one, or the highest ([`design_pressure`]).
+//!
+//! EN 805's rule applies to the maximum design pressure MDP, which includes surge:
+//! typed, or the working pressure plus the standard's smallest allowance where
+//! surge is not calculated, 200 kPa (EN 805:2000 cl. 11.3.3 as usually read, from
+//! memory): 6 bar working → MDP 8 bar → STP min(1.5·8, 8 + 5) = 12 bar.
+//!
+//! The surge is the Joukowsky rise Δp = ρ·a·ΔV for an instantaneous velocity change
+//! ΔV ([`joukowsky`]), with the pipe-elasticity-corrected wave speed ([`wave_speed`];
+//! Wylie & Streeter, *Fluid Transients in Systems*, 1993, eq. 2.21; Chaudhry,
+//! *Applied Hydraulic Transients*, 3rd ed., eq. 2.19 — equation forms from memory):
+//! a = √( (K/ρ) / (1 + c₁·K·D/(E·e)) ),
+//! K the liquid's bulk modulus, D the inside diameter, e the wall, E the wall's
+//! Young's modulus and c₁ the axial-restraint factor ([`Anchoring`]).
+//!
+//! # Assumptions
+//! Gauge pressures; an instantaneous velocity change (a valve closing faster than
+//! 2L/a); the rules as their standards are usually read (check the edition a
+//! contract cites).
+
+use super::keyed_choice;
+use crate::catalog::ChoiceOption;
+use crate::pipe_sizes;
+
+keyed_choice! {
+    /// Which pressure a restraint is designed for.
+    pub enum PressureBasis {
+        Highest => ("highest", "Highest of operating, test and working + surge"),
+        Operating => ("operating", "Operating (working) pressure"),
+        Test => ("test", "Field test pressure"),
+        Surge => ("surge", "Working pressure plus surge"),
+    }
+}
+
+impl PressureBasis {
+    /// Whether the basis needs the field test pressure.
+    pub fn wants_test(self) -> bool {
+        matches!(self, PressureBasis::Test | PressureBasis::Highest)
+    }
+    /// Whether the basis needs the surge.
+    pub fn wants_surge(self) -> bool {
+        matches!(self, PressureBasis::Surge | PressureBasis::Highest)
+    }
+}
+
+/// Which candidate a design pressure is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Governing {
+    Operating,
+    Test,
+    WorkingPlusSurge,
+}
+
+impl Governing {
+    pub fn text(self) -> &'static str {
+        match self {
+            Governing::Operating => "operating",
+            Governing::Test => "test",
+            Governing::WorkingPlusSurge => "working + surge",
+        }
+    }
+}
+
+/// The design pressure on a basis from its candidates (gauge, Pa): the working
+/// pressure, the test pressure and the working pressure plus surge (each `None`
+/// when not found). A basis whose candidate is missing falls back to the working
+/// pressure; the highest takes the largest (ties to the working pressure, then the
+/// test).
+pub fn design_pressure(
+    basis: PressureBasis,
+    work: f64,
+    test: Option<f64>,
+    work_plus_surge: Option<f64>,
+) -> (f64, Governing) {
+    let operating = (work, Governing::Operating);
+    let test = test.map(|t| (t, Governing::Test));
+    let surge = work_plus_surge.map(|s| (s, Governing::WorkingPlusSurge));
+    match basis {
+        PressureBasis::Operating => operating,
+        PressureBasis::Test => test.unwrap_or(operating),
+        PressureBasis::Surge => surge.unwrap_or(operating),
+        PressureBasis::Highest => {
+            [test, surge]
+                .into_iter()
+                .flatten()
+                .fold(operating, |best, c| if c.0 > best.0 { c } else { best })
+        }
+    }
+}
+
+/// The Joukowsky pressure rise ρ·a·ΔV, Pa.
+pub fn joukowsky(density: f64, wave_speed: f64, dv: f64) -> f64 {
+    density * wave_speed * dv
+}
+
+/// Wave speed in a liquid-filled elastic pipe, m/s (see the module doc).
+pub fn wave_speed(bulk_modulus: f64, density: f64, d_inside: f64, wall: f64, e_modulus: f64, c1: f64) -> f64 {
+    (bulk_modulus / density / (1.0 + c1 * bulk_modulus * d_inside / (e_modulus * wall))).sqrt()
+}
+
+/// Bulk modulus of water used when none is typed, Pa: 2.2 GPa, the usual round
+/// value near 20 °C (White, *Fluid Mechanics*, gives 2.19 GPa at 20 °C; from memory).
+pub const WATER_BULK_MODULUS: f64 = 2.2e9;
+
+keyed_choice! {
+    /// The wall material of a pipe, for the wave speed.
+    pub enum Material {
+        FromSize => ("from_size", "The material of the pipe size preset"),
+        Steel => ("steel", "Steel: E = 207 GPa, ν = 0.30"),
+        DuctileIron => ("ductile_iron", "Ductile iron: E = 165 GPa, ν = 0.28"),
+        Pvc => ("pvc", "PVC: E = 2.76 GPa, ν = 0.45"),
+        Pe => ("pe", "Polyethylene (PE100): E = 1.0 GPa, ν = 0.45"),
+        Custom => ("custom", "Typed modulus"),
+    }
+}
+
+impl Material {
+    /// The wall material of a pipe size preset's family.
+    pub fn of_family(family: pipe_sizes::Family) -> Material {
+        match family {
+            pipe_sizes::Family::SteelSch40 | pipe_sizes::Family::SteelSch80 => Material::Steel,
+            pipe_sizes::Family::DuctileIronClass52 => Material::DuctileIron,
+            pipe_sizes::Family::PvcC900Dr18 => Material::Pvc,
+        }
+    }
+}
+
+/// The material options (derived from [`Material`]).
+pub const MATERIAL_OPTIONS: &[ChoiceOption] = Material::OPTIONS;
+
+/// The wall material of a pipe size preset's family (a key of [`material`]).
+pub fn preset_material(family: pipe_sizes::Family) -> &'static str {
+    Material::of_family(family).key()
+}
+
+/// Young's modulus (Pa), Poisson's ratio and where the values come from.
+pub fn material(key: &str) -> Option<(f64, f64, &'static str)> {
+    match key {
+        "steel" => Some((207e9, 0.30, "steel E = 207 GPa, ν = 0.30: Wylie & Streeter, Fluid Transients in Systems (1993), table of pipe properties (from memory)")),
+        "ductile_iron" => Some((165e9, 0.28, "ductile iron E ≈ 24 × 10⁶ psi (165 GPa): the ductile-iron pipe makers' design literature; ν = 0.28 (from memory)")),
+        "pvc" => Some((2.76e9, 0.45, "PVC E = 400 000 psi (2.76 GPa): the AWWA C900 design basis (from memory); ν = 0.45 common practice, no source")),
+        "pe" => Some((1.0e9, 0.45, "PE100 short-term E ≈ 1.0 GPa, ν = 0.45: common practice, no source (varies with temperature and load time)")),
+        _ => None,
+    }
+}
+
+keyed_choice! {
+    /// Axial restraint of the pipe: Wylie & Streeter's factor c₁ of the wave speed.
+    pub enum Anchoring {
+        Joints => ("joints", "Joints or expansion joints throughout (c₁ = 1)"),
+        Anchored => ("anchored", "Anchored against axial movement throughout (c₁ = 1 − ν²)"),
+        Upstream => ("upstream", "Anchored at the upstream end only (c₁ = 1 − ν/2)"),
+    }
+}
+
+impl Anchoring {
+    /// The factor c₁ for a wall of Poisson's ratio `nu`.
+    pub fn c1(self, nu: f64) -> f64 {
+        match self {
+            Anchoring::Joints => 1.0,
+            Anchoring::Anchored => 1.0 - nu * nu,
+            Anchoring::Upstream => 1.0 - nu / 2.0,
+        }
+    }
+}
+
+/// The anchoring options (derived from [`Anchoring`]).
+pub const ANCHOR_OPTIONS: &[ChoiceOption] = Anchoring::OPTIONS;
+
+/// The design-pressure basis options (derived from [`PressureBasis`]).
+pub const BASIS_OPTIONS: &[ChoiceOption] = PressureBasis::OPTIONS;
+
+// ---------------------------------------------------------------------------------
+// Test-pressure rules.
+
+pub const TEST_RULE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "en805",
+        label: "EN 805 system test pressure, surge not calculated: lower of 1.5 × MDP and MDP + 5 bar, MDP at least working + 2 bar",
+    },
+    ChoiceOption {
+        key: "en805_surge",
+        label: "EN 805 system test pressure, surge calculated: MDPc + 1 bar",
+    },
+    ChoiceOption {
+        key: "c600",
+        label: "AWWA C600 (ductile iron): 1.5 × working pressure at the point of test",
+    },
+    ChoiceOption {
+        key: "c605",
+        label: "AWWA C605 (PVC): 1.25 × working pressure",
+    },
+    ChoiceOption {
+        key: "nfpa24",
+        label: "NFPA 24 (fire mains): 200 psi or working + 50 psi, whichever is greater",
+    },
+    ChoiceOption {
+        key: "custom",
+        label: "Typed test pressure",
+    },
+];
+
+/// A named test-pressure rule: its citation and the test pressure for a working
+/// pressure (both gauge, Pa).
+#[derive(Debug)]
+pub struct TestRule {
+    pub key: &'static str,
+    pub citation: &'static str,
+    /// Whether the rule needs a calculated surge (the second argument of `apply`).
+    pub needs_surge: bool,
+    /// Surge allowance the rule's base pressure includes when surge is not
+    /// calculated, Pa: the rule applies to working + allowance (EN 805's MDP).
+    pub allowance: f64,
+    /// Test pressure from the rule's base pressure (working + allowance, or a typed
+    /// MDP) and the calculated surge rise, Pa.
+    pub apply: fn(f64, f64) -> f64,
+}
+
+impl TestRule {
+    /// The test pressure for a working pressure `work`: the rule applied to
+    /// `work + allowance` (or to a typed base pressure such as EN 805's MDP).
+    pub fn test_pressure(&self, work: f64, typed_base: Option<f64>, surge: f64) -> f64 {
+        (self.apply)(typed_base.unwrap_or(work + self.allowance), surge)
+    }
+}
+
+/// EN 805's smallest surge allowance where surge is not calculated, Pa (200 kPa).
+pub const EN805_SURGE_ALLOWANCE: f64 = 200e3;
+
+pub const TEST_RULES: &[TestRule] = &[
+    TestRule {
+        key: "en805",
+        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + 500 kPa, and MDP includes a surge allowance of at least 200 kPa (as the standard is usually read; from memory): MDP = working + 200 kPa unless MDP is typed",
+        needs_surge: false,
+        allowance: EN805_SURGE_ALLOWANCE,
+        apply: |p, _| (1.5 * p).min(p + 500e3),
+    },
+    TestRule {
+        key: "c600",
+        citation: "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing (from memory): not less than 1.5 × the working pressure at the point of testing (and 1.25 × at the highest point)",
+        needs_surge: false,
+        allowance: 0.0,
+        apply: |p, _| 1.5 * p,
+    },
+    TestRule {
+        key: "c605",
+        citation: "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing (from memory): not less than 1.25 × the stated working pressure, measured at the highest point of the test section",
+        needs_surge: false,
+        allowance: 0.0,
+        apply: |p, _| 1.25 * p,
+    },
+    TestRule {
+        key: "nfpa24",
+        citation: "NFPA 24 (private fire service mains), hydrostatic test (from memory): 200 psi (13.8 bar) or 50 psi (3.4 bar) above the system working pressure, whichever is greater",
+        needs_surge: false,
+        allowance: 0.0,
+        apply: |p, _| (200.0 * PSI).max(p + 50.0 * PSI),
+    },
+    TestRule {
+        key: "en805_surge",
+        citation: "EN 805:2000 clause 11.3.3 (from memory): where surge is calculated, STP = MDPc + 100 kPa, MDPc being the working pressure plus the calculated surge",
+        needs_surge: true,
+        allowance: 0.0,
+        apply: |p, surge| p + surge + 100e3,
+    },
+];
+
+const PSI: f64 = 4.448_221_615_260_5 / (0.0254 * 0.0254);
+
+/// The test rule with this key.
+pub fn test_rule(key: &str) -> Option<&'static TestRule> {
+    TEST_RULES.iter().find(|r| r.key == key)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn en805_without_calculated_surge_tests_6_bar_working_at_12_bar() {
+        // EN 805:2000 cl. 11.3.3 as usually read (from memory): MDP = 6 + 2 bar,
+        // STP = min(1.5 × 8, 8 + 5) = 12 bar.
+        let rule = test_rule("en805").unwrap();
+        assert_relative_eq!(rule.test_pressure(6e5, None, 0.0), 12e5, max_relative = 1e-12);
+    }
+
+    #[test]
+    fn the_highest_basis_takes_the_largest_candidate_and_says_which() {
+        let (p, g) = design_pressure(PressureBasis::Highest, 7e5, Some(10.5e5), Some(10.69e5));
+        assert_eq!((p, g), (10.69e5, Governing::WorkingPlusSurge));
+        let (p, g) = design_pressure(PressureBasis::Highest, 7e5, Some(10.5e5), None);
+        assert_eq!((p, g), (10.5e5, Governing::Test));
+        assert_eq!(
+            design_pressure(PressureBasis::Test, 7e5, None, None),
+            (7e5, Governing::Operating)
+        );
+    }
+
+    #[test]
+    fn wave_speed_in_a_rigid_pipe_is_the_liquids_sound_speed() {
+        // Derived from the definition: E → ∞ leaves a = √(K/ρ) = √(2.2e9/1000) m/s.
+        let a = wave_speed(2.2e9, 1000.0, 0.3, 0.01, 1e30, 1.0);
+        assert_relative_eq!(a, (2.2e6f64).sqrt(), max_relative = 1e-12);
+    }
+}
