@@ -17,6 +17,8 @@
 
 #[path = "browser/cdp.rs"]
 mod cdp;
+#[path = "browser/fast_edits.rs"]
+mod fast_edits;
 #[path = "browser/harness.rs"]
 mod harness;
 #[path = "browser/layout.rs"]
@@ -498,6 +500,9 @@ mod hostile_parameters {
             )
             .unwrap();
         }
+        // Keystrokes recompute at the next animation frame.
+        page.eval(&mut browser, "new Promise(r => requestAnimationFrame(() => r(true)))")
+            .unwrap();
         let errors = page
             .eval(&mut browser, "[...document.querySelectorAll('[data-error-for]')].filter(e => !e.hidden).map(e => e.textContent).join(' | ')")
             .unwrap();

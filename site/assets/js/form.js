@@ -257,7 +257,10 @@ function fieldOf(target) {
   return key ? state.spec.fields.find((f) => f.key === key) : undefined;
 }
 
-/** Text fields recompute on every keystroke; a choice when it is changed. */
+/**
+ * Text fields recompute at the next frame after a keystroke (several keystrokes in
+ * one frame cost one solve); a choice recomputes at once when it is changed.
+ */
 function onInput(event) {
   const target = event.target;
   if (!(target instanceof HTMLInputElement || target instanceof HTMLTextAreaElement)) return;
@@ -265,10 +268,12 @@ function onInput(event) {
   const field = fieldOf(target);
   if (!field) return;
   state.values[field.key] = target.value;
-  state.recompute({ writeToUrl: true });
+  state.recomputeNextFrame({ writeToUrl: true });
 }
 
 function onChange(event) {
+  // What follows reads the last solve's echoes: it must be the current inputs' solve.
+  state.settlePending();
   const target = event.target;
   if (target instanceof HTMLInputElement && target.name === "unit-system") {
     if (target.checked) changeSystem(target.value);
@@ -292,6 +297,8 @@ function onChange(event) {
 function onClick(event) {
   const button = event.target instanceof Element ? event.target.closest("button[data-action]") : null;
   if (!button) return;
+  // The link copied, the sheet printed and the CSV saved follow the latest keystroke.
+  state.settlePending();
   const action = button.dataset.action;
   if (action === "copy-link") copyLink();
   else if (action === "print") window.print();

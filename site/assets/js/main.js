@@ -74,8 +74,36 @@ function recordEchoes(result) {
   }
 }
 
+/** The animation frame that will recompute for keystrokes typed since the last one. */
+let frame = 0;
+/** Whether the recompute that frame runs writes the URL. */
+let frameWritesUrl = false;
+
+/**
+ * Recomputes at the next animation frame: the keystrokes of one frame cost one
+ * solve, with the latest inputs (the field values are stored as they are typed).
+ */
+function recomputeNextFrame({ writeToUrl }) {
+  frameWritesUrl = frameWritesUrl || writeToUrl;
+  if (frame) return;
+  frame = requestAnimationFrame(() => {
+    frame = 0;
+    recompute({ writeToUrl: false });
+  });
+}
+
+/** Runs a recompute still waiting for its frame now (before reading its echoes or the URL). */
+function settlePending() {
+  if (frame) recompute({ writeToUrl: false });
+}
+
 /** Recomputes, renders, and optionally writes the URL. */
 function recompute({ writeToUrl }) {
+  // A recompute now also answers the keystrokes waiting for the next frame.
+  if (frame) cancelAnimationFrame(frame);
+  frame = 0;
+  writeToUrl = writeToUrl || frameWritesUrl;
+  frameWritesUrl = false;
   if (!glue) return;
   const result = solveNow();
   if (!result) return;
@@ -157,6 +185,8 @@ async function start() {
   }
   state.spec = state.page.calculator;
   state.recompute = recompute;
+  state.recomputeNextFrame = recomputeNextFrame;
+  state.settlePending = settlePending;
   const spec = state.spec;
   const fromUrl = readUrl(spec);
   settleInitialValues(spec, fromUrl);

@@ -1,12 +1,32 @@
 // The result: headline values with their warnings, links to a next calculator,
 // other outputs, tables, diagrams and plots, or the field errors of a failed solve.
+//
+// An edit updates what is there instead of rebuilding it: the headline values'
+// text in place while the same outputs are shown (the headline first, so it is
+// never behind), each table's changed cells (render-table), each diagram's and
+// plot's SVG attributes where the drawing keeps its structure (render-morph). A
+// part that is off screen (IntersectionObserver) is brought up to date when it
+// comes into view, in idle time, or before printing, whichever is first; until then
+// it carries `data-stale`. A change in the list of parts rebuilds them all.
 
 import { clip, el } from "./dom.js";
 import { state } from "./state.js";
 import { SYSTEM_KEY } from "./url.js";
-import { renderTable } from "./render-table.js";
+import { renderTable, updateTable } from "./render-table.js";
 import { renderDiagram } from "./render-diagram.js";
 import { renderPlot } from "./render-plot.js";
+import { morph } from "./render-morph.js";
+
+/**
+ * The parts shown under the headline, in order: {id, node, build, update, pending}.
+ * `id` names a part's kind and key (a change of ids rebuilds them all); `pending`
+ * says an update still waits for the part to come into view.
+ */
+let parts = [];
+/** Parts off screen, by node (a node the observer has not reported yet counts as on screen). */
+const offScreen = new WeakSet();
+let observer = null;
+let idleFlush = 0;
 
 export function render(result) {
   state.lastResult = result;
@@ -39,16 +59,61 @@ export function render(result) {
       el("p", { class: "no-result", text: "No result yet: correct the marked inputs." }),
       ...general.map((text) => el("p", { class: "general-error", text })),
     );
+    forgetParts();
     ui.details.replaceChildren();
     finishRender("error");
     return;
   }
 
-  const headline = el("dl", { class: "headline-values" });
-  const others = el("dl", { class: "output-list" });
-  for (const output of result.outputs || []) {
-    const target = output.headline ? headline : others;
-    target.append(
+  const outputs = result.outputs || [];
+  // Warnings belong with the numbers they qualify: in the headline, where nobody
+  // reads a force without them (a check that failed, a value that could not be
+  // computed, a mode left unchecked). A warning about one field is also shown there.
+  const warnings = result.warnings || [];
+  for (const warning of warnings) {
+    const box = warning.field ? ui.fieldWarnings.get(warning.field) : null;
+    if (box) {
+      box.textContent = warning.message;
+      box.hidden = false;
+    }
+  }
+  if (!updateHeadline(outputs.filter((o) => o.headline), warnings)) buildHeadline(outputs.filter((o) => o.headline), warnings);
+
+  const next = [];
+  const links = (result.carry_over || []).length > 0 ? result.carry_over : null;
+  if (links) next.push({ id: "carry", build: () => renderCarryOver(links) });
+  const others = outputs.filter((o) => !o.headline);
+  if (others.length > 0) {
+    next.push({
+      id: `others:${others.map((o) => o.key).join(",")}`,
+      build: () => el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), outputList(others, "output-list")),
+      update: (node) => updateOutputList(node.querySelector("dl"), others),
+    });
+  }
+  for (const [index, table] of (result.tables || []).entries()) {
+    next.push({ id: `table:${table.key || index}`, build: () => renderTable(table, index), update: (node) => updateTable(node, table) });
+  }
+  const width = state.figureWidth || measureFigureWidth();
+  for (const [index, diagram] of (result.diagrams || []).entries()) {
+    next.push({ id: `diagram:${index}`, build: () => renderDiagram(diagram, index, width), update: morphInto });
+  }
+  for (const [index, plot] of (result.plots || []).entries()) {
+    next.push({ id: `plot:${plot.key || index}`, build: () => renderPlot(plot, width), update: morphInto });
+  }
+  updateParts(next);
+  finishRender("ready");
+}
+
+/** Redraws `part` and brings its node up to the new drawing. */
+function morphInto(node, part) {
+  part.node = morph(node, part.build());
+  return true;
+}
+
+function outputList(outputs, cls) {
+  const list = el("dl", { class: cls });
+  for (const output of outputs) {
+    list.append(
       el(
         "div",
         { class: "output" },
@@ -57,38 +122,140 @@ export function render(result) {
       ),
     );
   }
-  // Warnings belong with the numbers they qualify: in the headline, where nobody
-  // reads a force without them (a check that failed, a value that could not be
-  // computed, a mode left unchecked). A warning about one field is also shown there.
-  const warnings = result.warnings || [];
-  let warningList = null;
-  if (warnings.length > 0) {
-    warningList = el("ul", { class: "warnings headline-warnings", "aria-label": "Warnings" });
-    for (const warning of warnings) {
-      warningList.append(el("li", { text: warning.message }));
-      const box = warning.field ? ui.fieldWarnings.get(warning.field) : null;
-      if (box) {
-        box.textContent = warning.message;
-        box.hidden = false;
-      }
-    }
-  }
-  ui.headline.classList.toggle("has-warnings", warningList !== null);
-  // (replaceChildren would write a missing warning list as the text "null")
-  ui.headline.replaceChildren(...[el("h2", { class: "panel-title", text: "Result" }), headline, warningList].filter(Boolean));
+  return list;
+}
 
-  const parts = [];
-  const links = renderCarryOver(result.carry_over || []);
-  if (links) parts.push(links);
-  if (others.childElementCount > 0) {
-    parts.push(el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), others));
+/** Rewrites the values of a list made by `outputList` when it shows the same outputs. */
+function updateOutputList(list, outputs) {
+  if (!list) return false;
+  const values = list.querySelectorAll("dd[data-output]");
+  if (values.length !== outputs.length || outputs.some((o, i) => values[i].dataset.output !== o.key)) return false;
+  outputs.forEach((output, i) => {
+    const dd = values[i];
+    const label = dd.previousElementSibling;
+    if (label && label.textContent !== (output.label ?? "")) label.textContent = output.label ?? "";
+    if (dd.textContent !== (output.shown ?? "")) dd.textContent = output.shown ?? "";
+    if (dd.title !== (output.text ?? "")) dd.title = output.text ?? "";
+  });
+  return true;
+}
+
+function warningList(warnings) {
+  if (warnings.length === 0) return null;
+  const list = el("ul", { class: "warnings headline-warnings", "aria-label": "Warnings" });
+  for (const warning of warnings) list.append(el("li", { text: warning.message }));
+  return list;
+}
+
+function buildHeadline(outputs, warnings) {
+  const headline = state.ui.headline;
+  const list = warningList(warnings);
+  headline.classList.toggle("has-warnings", list !== null);
+  // (replaceChildren would write a missing warning list as the text "null")
+  headline.replaceChildren(
+    ...[el("h2", { class: "panel-title", text: "Result" }), outputList(outputs, "headline-values"), list].filter(Boolean),
+  );
+}
+
+/** Updates the headline in place; false when its outputs changed (then it is rebuilt). */
+function updateHeadline(outputs, warnings) {
+  const headline = state.ui.headline;
+  if (!updateOutputList(headline.querySelector("dl.headline-values"), outputs)) return false;
+  const shown = headline.querySelector("ul.headline-warnings");
+  const before = shown ? Array.from(shown.children, (li) => li.textContent) : [];
+  const same = before.length === warnings.length && warnings.every((w, i) => w.message === before[i]);
+  if (!same) {
+    const list = warningList(warnings);
+    if (shown) shown.remove();
+    if (list) headline.append(list);
+    headline.classList.toggle("has-warnings", list !== null);
   }
-  for (const [index, table] of (result.tables || []).entries()) parts.push(renderTable(table, index));
-  const width = state.figureWidth || measureFigureWidth();
-  for (const [index, diagram] of (result.diagrams || []).entries()) parts.push(renderDiagram(diagram, index, width));
-  for (const plot of result.plots || []) parts.push(renderPlot(plot, width));
-  ui.details.replaceChildren(...parts);
-  finishRender("ready");
+  return true;
+}
+
+/**
+ * Shows `next` under the headline: the same list of parts is updated part by part
+ * (parts off screen when they come into view); another list is rebuilt.
+ */
+function updateParts(next) {
+  const same = next.length === parts.length && next.every((part, i) => part.id === parts[i].id);
+  if (!same) {
+    forgetParts();
+    for (const part of next) part.node = part.build();
+    parts = next;
+    state.ui.details.replaceChildren(...parts.map((p) => p.node));
+    for (const part of parts) watch(part.node);
+    return;
+  }
+  next.forEach((part, i) => {
+    const current = parts[i];
+    part.node = current.node;
+    parts[i] = part;
+    if (!part.update) {
+      replaceNode(part, part.build());
+    } else if (offScreen.has(part.node)) {
+      part.pending = true;
+      part.node.dataset.stale = "";
+    } else {
+      applyUpdate(part);
+    }
+  });
+  if (parts.some((p) => p.pending)) scheduleIdleFlush();
+}
+
+function replaceNode(part, fresh) {
+  const old = part.node;
+  if (observer) observer.unobserve(old);
+  old.replaceWith(fresh);
+  part.node = fresh;
+  watch(fresh);
+}
+
+/** Brings one part up to date (or rebuilds it when it cannot be updated). */
+function applyUpdate(part) {
+  part.pending = false;
+  const before = part.node;
+  if (!part.update(part.node, part)) replaceNode(part, part.build());
+  else if (part.node !== before) {
+    if (observer) observer.unobserve(before);
+    watch(part.node);
+  }
+  delete part.node.dataset.stale;
+}
+
+/** Brings every part up to date (before printing, in idle time). */
+export function flushParts() {
+  idleFlush = 0;
+  for (const part of parts) if (part.pending) applyUpdate(part);
+}
+
+function scheduleIdleFlush() {
+  if (idleFlush) return;
+  idleFlush = "requestIdleCallback" in window ? requestIdleCallback(flushParts, { timeout: 1000 }) : setTimeout(flushParts, 200);
+}
+
+function forgetParts() {
+  if (observer) observer.disconnect();
+  parts = [];
+}
+
+function watch(node) {
+  if (!("IntersectionObserver" in window)) return;
+  if (!observer) {
+    observer = new IntersectionObserver((entries) => {
+      for (const entry of entries) {
+        if (entry.isIntersecting) {
+          offScreen.delete(entry.target);
+          const part = parts.find((p) => p.node === entry.target);
+          if (part && part.pending) applyUpdate(part);
+        } else {
+          offScreen.add(entry.target);
+        }
+      }
+    }, { rootMargin: "200px 0px" });
+    window.addEventListener("beforeprint", flushParts);
+  }
+  observer.observe(node);
 }
 
 function finishRender(status) {

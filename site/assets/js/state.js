@@ -29,6 +29,10 @@ export const state = {
   converted: new Map(),
   /** Set by main.js: recomputes and renders ({writeToUrl}). */
   recompute: () => {},
+  /** Set by main.js: the same at the next animation frame, for keystrokes. */
+  recomputeNextFrame: () => {},
+  /** Set by main.js: runs a recompute waiting for its frame now. */
+  settlePending: () => {},
 };
 
 /** The unit a field starts in for `system` (the core's rule, sent per field). */

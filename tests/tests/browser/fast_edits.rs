@@ -1,0 +1,181 @@
+//! Fast edits: keystrokes are coalesced per animation frame and the page updates
+//! its parts in place; after a burst of edits the page shows exactly what the core
+//! computes for the final URL (headline values, every table cell, a diagram's
+//! restraint arrow), and the table and the diagram were updated, not rebuilt.
+
+use std::time::Duration;
+
+use serde_json::Value;
+
+use fluxledger_core::catalog::{demo_request, Shape, ShapeStyle};
+
+use crate::cdp::Launch;
+use crate::harness::{fixture, launched, one_at_a_time, page_errors};
+
+const OUTPUTS: &str =
+    "JSON.stringify([...document.querySelectorAll('[data-output]')].map(e => [e.dataset.output, e.textContent]))";
+const TABLES: &str = "JSON.stringify([...document.querySelectorAll('table.ledger')].map(t => [t.dataset.table, [...t.tBodies[0].rows].map(r => [...r.cells].map(c => c.textContent))]))";
+
+/// Pressure and angle edits, some in the same frame, some a frame apart.
+const BURST: &str = r#"(async () => {
+  const frame = () => new Promise((r) => requestAnimationFrame(() => r()));
+  const type = (id, value) => {
+    const i = document.getElementById(id);
+    i.value = value;
+    i.dispatchEvent(new Event('input', { bubbles: true }));
+  };
+  const edits = [['field-p', '11'], ['field-p', '12'], ['field-angle', '30'], ['field-p', '13.5'],
+    ['field-angle', '60'], ['field-p', '14'], ['field-angle', '75'], ['field-p', '17.5']];
+  for (const [n, [id, value]] of edits.entries()) {
+    type(id, value);
+    if (n % 3 === 2) await frame();
+  }
+  return 'typed';
+})()"#;
+
+/// The leading number of a shown text ("1.234 kN" -> "1.234", "45°" -> "45"),
+/// empty for words.
+fn leading_number(text: &str) -> String {
+    text.chars()
+        .take_while(|c| c.is_ascii_digit() || ".-+eE".contains(*c))
+        .collect()
+}
+
+#[test]
+fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch {
+        width: 360,
+        height: 740,
+    });
+    page.goto(&mut browser, &format!("{}/bend.html", site.base)).unwrap();
+    assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
+    page.eval(
+        &mut browser,
+        "window.before = { svg: document.querySelector('svg.diagram'), table: document.querySelector('table.ledger') }",
+    )
+    .unwrap();
+    let typed = page.eval(&mut browser, BURST).unwrap();
+    assert_eq!(typed, "typed");
+    page.wait_for(
+        &mut browser,
+        "new URLSearchParams(location.search).get('p') === '17.5bar' && new URLSearchParams(location.search).get('angle') === '75deg'",
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("the URL did not follow the last edits: {e}"));
+    // Parts off screen are brought up to date in idle time.
+    page.wait_for(
+        &mut browser,
+        "document.querySelector('[data-stale]') === null",
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("a part stayed stale: {e}"));
+    assert_eq!(page.eval(&mut browser, "document.body.dataset.state").unwrap(), "ready");
+
+    // The core's result for the page's final URL.
+    let query = page
+        .eval(
+            &mut browser,
+            "JSON.stringify([...new URLSearchParams(location.search)])",
+        )
+        .unwrap();
+    let pairs: Vec<(String, String)> = serde_json::from_str(query.as_str().unwrap_or("[]")).unwrap();
+    let system = pairs.iter().find(|(k, _)| k == "system").map(|(_, v)| v.as_str());
+    assert!(matches!(system, None | Some("si")), "the page stays in SI: {pairs:?}");
+    let overrides: Vec<(&str, &str)> = pairs
+        .iter()
+        .filter(|(k, _)| k != "system")
+        .map(|(k, v)| (k.as_str(), v.as_str()))
+        .collect();
+    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
+    let solution = fluxledger_core::solve("bend", &demo_request(&spec, &overrides))
+        .result
+        .unwrap_or_else(|e| panic!("the final URL does not solve natively: {e:?}"));
+
+    // Headline and other outputs: the core's numbers.
+    let shown: Vec<(String, String)> =
+        serde_json::from_str(page.eval(&mut browser, OUTPUTS).unwrap().as_str().unwrap_or("[]")).unwrap();
+    assert!(!shown.is_empty(), "no output on the page");
+    for (key, text) in &shown {
+        let core = solution
+            .output(key)
+            .unwrap_or_else(|| panic!("the page shows an output '{key}' the core does not give"));
+        assert_eq!(
+            leading_number(text),
+            leading_number(&core.text),
+            "output {key}: page {text:?}, core {:?}",
+            core.text
+        );
+    }
+
+    // Every table cell: the core's text (its number, as units are shown prettier).
+    let tables: Vec<(String, Vec<Vec<String>>)> =
+        serde_json::from_str(page.eval(&mut browser, TABLES).unwrap().as_str().unwrap_or("[]")).unwrap();
+    assert_eq!(
+        tables.len(),
+        solution.tables.len(),
+        "the page's tables are not the core's"
+    );
+    let mut numbers_compared = 0;
+    for ((key, rows), core) in tables.iter().zip(&solution.tables) {
+        assert_eq!(key, core.key);
+        assert_eq!(rows.len(), core.rows.len(), "table {key}: rows");
+        for (r, (row, core_row)) in rows.iter().zip(&core.rows).enumerate() {
+            assert_eq!(row.len(), core_row.len(), "table {key} row {r}: cells");
+            for (c, (cell, core_cell)) in row.iter().zip(core_row).enumerate() {
+                assert_eq!(
+                    leading_number(cell),
+                    leading_number(core_cell),
+                    "table {key} row {r} column {c}: page {cell:?}, core {core_cell:?}"
+                );
+                numbers_compared += usize::from(!leading_number(core_cell).is_empty());
+            }
+        }
+    }
+    assert!(numbers_compared > 0, "no numeric table cell was compared");
+
+    // The diagram's restraint arrow ends where the core's does (SVG y is down).
+    let arrow = solution.diagrams[0]
+        .shapes
+        .iter()
+        .find_map(|s| match s {
+            Shape::Arrow {
+                to,
+                style: ShapeStyle::Restraint,
+                ..
+            } => Some(*to),
+            _ => None,
+        })
+        .expect("the core draws a restraint arrow");
+    let drawn = page
+        .eval(
+            &mut browser,
+            "(() => { const l = document.querySelector('svg.diagram line.arrow.s-restraint'); return l ? [l.getAttribute('x2'), l.getAttribute('y2')] : null; })()",
+        )
+        .unwrap();
+    let drawn: Vec<f64> = drawn
+        .as_array()
+        .unwrap_or_else(|| panic!("no restraint arrow drawn"))
+        .iter()
+        .map(|v| v.as_str().and_then(|t| t.parse().ok()).unwrap_or(f64::NAN))
+        .collect();
+    assert_eq!(
+        drawn,
+        vec![arrow[0], -arrow[1]],
+        "the drawn restraint arrow is not the core's"
+    );
+
+    // Updated in place: the same table and the same drawing as before the edits.
+    assert_eq!(
+        page.eval(
+            &mut browser,
+            "[window.before.svg === document.querySelector('svg.diagram'), window.before.table === document.querySelector('table.ledger')]"
+        )
+        .unwrap(),
+        Value::from(vec![true, true]),
+        "the diagram or the table was rebuilt for an edit that keeps its structure"
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
