@@ -245,9 +245,12 @@ export function applyVisibility() {
   for (const field of state.spec.fields) {
     const wrap = state.ui.fieldWraps.get(field.key);
     if (!wrap) continue;
-    wrap.hidden = !isVisible(field);
+    // Written only when it changes: a keystroke restyles nothing it does not change.
+    const hidden = !isVisible(field);
+    if (wrap.hidden !== hidden) wrap.hidden = hidden;
     // Lets the printed sheet show an empty optional field as "not given".
-    wrap.toggleAttribute("data-empty", (state.values[field.key] ?? "").trim() === "");
+    const empty = (state.values[field.key] ?? "").trim() === "";
+    if (wrap.hasAttribute("data-empty") !== empty) wrap.toggleAttribute("data-empty", empty);
   }
 }
 

@@ -92,9 +92,38 @@ function recomputeNextFrame({ writeToUrl }) {
   });
 }
 
-/** Runs a recompute still waiting for its frame now (before reading its echoes or the URL). */
+/** The task that writes the URL after the frame that showed its result. */
+let urlTask = 0;
+
+/**
+ * Writes the URL (and the printed sheet's link) in a task of its own: the browser
+ * takes milliseconds to replace the URL, and the result it describes is painted
+ * first. Several results in a row are written once, the last.
+ */
+function writeUrlSoon() {
+  if (urlTask) return;
+  urlTask = setTimeout(writeUrlNow, 0);
+}
+
+function writeUrlNow() {
+  if (urlTask) clearTimeout(urlTask);
+  urlTask = 0;
+  writeUrl();
+  updatePrintFooter();
+}
+
+// A reload or a closed tab right after a keystroke still leaves its URL behind.
+window.addEventListener("pagehide", () => {
+  if (urlTask) writeUrlNow();
+});
+
+/**
+ * Runs a recompute still waiting for its frame, and a URL write still waiting for
+ * its task, now (before reading the echoes of the last solve, or the URL).
+ */
 function settlePending() {
   if (frame) recompute({ writeToUrl: false });
+  if (urlTask) writeUrlNow();
 }
 
 /** Recomputes, renders, and optionally writes the URL. */
@@ -111,10 +140,7 @@ function recompute({ writeToUrl }) {
   syncUnitSelectors();
   applyVisibility();
   render(result);
-  if (writeToUrl) {
-    writeUrl();
-    updatePrintFooter();
-  }
+  if (writeToUrl) writeUrlSoon();
 }
 
 /**

@@ -31,15 +31,12 @@ let idleFlush = 0;
 export function render(result) {
   state.lastResult = result;
   const ui = state.ui;
-  for (const error of ui.fieldErrors.values()) {
-    error.hidden = true;
-    error.textContent = "";
+  // Cleared only where something is shown: a keystroke restyles nothing it does not change.
+  for (const box of [...ui.fieldErrors.values(), ...ui.fieldWarnings.values()]) {
+    if (!box.hidden) box.hidden = true;
+    if (box.firstChild) box.textContent = "";
   }
-  for (const warning of ui.fieldWarnings.values()) {
-    warning.hidden = true;
-    warning.textContent = "";
-  }
-  for (const control of ui.controls.values()) control.removeAttribute("aria-invalid");
+  for (const control of ui.controls.values()) if (control.hasAttribute("aria-invalid")) control.removeAttribute("aria-invalid");
 
   if (!result.ok) {
     const general = [];
