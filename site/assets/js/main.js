@@ -133,9 +133,13 @@ function recompute({ writeToUrl }) {
   frame = 0;
   writeToUrl = writeToUrl || frameWritesUrl;
   frameWritesUrl = false;
-  if (!glue) return;
-  const result = solveNow();
-  if (!result) return;
+  // Without a module (being reloaded after a trap) the recompute after the reload
+  // still owes the URL its write.
+  const result = glue ? solveNow() : null;
+  if (!result) {
+    frameWritesUrl = writeToUrl;
+    return;
+  }
   recordEchoes(result);
   syncUnitSelectors();
   applyVisibility();

@@ -7,7 +7,8 @@
 // plot's SVG attributes where the drawing keeps its structure (render-morph). A
 // part that is off screen (IntersectionObserver) is brought up to date when it
 // comes into view, in idle time, or before printing, whichever is first; until then
-// it carries `data-stale`. A change in the list of parts rebuilds them all.
+// it carries `data-stale` (the other results, a few values, are never deferred). A
+// change in the list of parts rebuilds them all.
 
 import { clip, el } from "./dom.js";
 import { state } from "./state.js";
@@ -18,7 +19,7 @@ import { renderPlot } from "./render-plot.js";
 import { morph } from "./render-morph.js";
 
 /**
- * The parts shown under the headline, in order: {id, node, build, update, pending}.
+ * The parts shown under the headline, in order: {id, node, build, update, eager, pending}.
  * `id` names a part's kind and key (a change of ids rebuilds them all); `pending`
  * says an update still waits for the part to come into view.
  */
@@ -85,6 +86,8 @@ export function render(result) {
       id: `others:${others.map((o) => o.key).join(",")}`,
       build: () => el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), outputList(others, "output-list")),
       update: (node) => updateOutputList(node.querySelector("dl"), others),
+      // A few values, cheap to write: never left behind the headline, even off screen.
+      eager: true,
     });
   }
   for (const [index, table] of (result.tables || []).entries()) {
@@ -190,7 +193,7 @@ function updateParts(next) {
     parts[i] = part;
     if (!part.update) {
       replaceNode(part, part.build());
-    } else if (offScreen.has(part.node)) {
+    } else if (offScreen.has(part.node) && !part.eager) {
       part.pending = true;
       part.node.dataset.stale = "";
     } else {

@@ -423,11 +423,13 @@ impl Page {
         }
     }
 
-    /// Waits until the calculator has rendered (`body[data-state]` set).
+    /// Waits until the calculator has rendered (`body[data-state]` set) and no part
+    /// waits for its update.
     pub fn wait_rendered(&self, browser: &mut Browser) -> Result<String> {
         self.wait_for(
             browser,
-            "document.body && document.body.dataset.state",
+            // ...and no part off screen still waits for its update (`data-stale`).
+            "document.body && document.body.dataset.state && !document.querySelector('[data-stale]')",
             Duration::from_secs(30),
         )?;
         let state = self.eval(browser, "document.body.dataset.state")?;
