@@ -35,8 +35,9 @@
 //! # Field keys
 //! `size`, `d`, `od`, `joint`, `wave_speed` (empty: computed), `material`,
 //! `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; `fluid`, `t`, `rho`, `mu`; `dv`
-//! (the velocity stopped), `length` (to the reflecting boundary), `closure_time`,
-//! `p` (working pressure, gauge), `run_length`.
+//! (the velocity stopped) or `q` (the flow stopped, ΔV = Q/A on the bore), `length`
+//! (to the reflecting boundary), `closure_time`, `p` (working pressure, gauge),
+//! `run_length`.
 //!
 //! # Assumptions
 //! A single pipe of uniform size and wave speed; friction, line packing and cavitation
@@ -68,7 +69,10 @@ const CLOSURE_HELP: &str = "Effective closure time of the valve. Faster than 2L/
     the slow-closure estimate, which is not a transient analysis.";
 const RUN_HELP: &str = "Length of a straight run between two elbows on the line. While the front is on it, the run \
     carries an unbalanced axial force its supports or anchors must hold.";
-const DV_HELP: &str = "The flow velocity stopped by the closure (the mean velocity in the pipe before closure).";
+const DV_HELP: &str = "The flow velocity stopped by the closure (the mean velocity in the pipe before closure). \
+    Leave it empty to give the flow instead.";
+const Q_HELP: &str = "The flow stopped by the closure, instead of the velocity: ΔV = Q ÷ bore area. Give one of \
+    the two, not both.";
 const SLOW_CAUTION: &str = "A slow-closure estimate is not a transient analysis: valves close most of their flow in \
     the last part of the stroke, and pumps, air, branches and column separation change the surge. For a design \
     surge, have a transient analysis made.";
@@ -210,16 +214,32 @@ pub fn spec() -> CalculatorSpec {
     ];
     fields.extend(common::fluid_fields("15 degC"));
     fields.extend([
-        quantity(
-            "dv",
-            "Flow velocity stopped",
-            Q::Velocity,
-            "m/s",
-            "ft/s",
-            "1.2 m/s",
-            Limits::closed(0.0, 50.0),
-            DV_HELP,
-        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "dv",
+                "Flow velocity stopped",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                "1.2 m/s",
+                Limits::closed(0.0, 50.0),
+                DV_HELP,
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "q",
+                "Or: flow stopped",
+                Q::VolumeFlow,
+                "m3/h",
+                "gpm",
+                "",
+                Limits::closed(0.0, 1e3),
+                Q_HELP,
+            )
+        },
         quantity(
             "length",
             "Pipe length to the reflecting boundary L",
@@ -463,6 +483,27 @@ mod tests {
         assert_eq!(field(&[("closure_time", "0 s")]), "closure_time");
         assert_eq!(field(&[("length", "-5 m")]), "length");
         assert_eq!(field(&[("wall", "200 mm")]), "wall");
+        assert_eq!(field(&[("dv", "")]), "dv");
+        assert_eq!(field(&[("q", "100 m3/h")]), "q");
+    }
+
+    #[test]
+    fn a_flow_gives_the_velocity_over_the_bore() {
+        // Derived from the definition: ΔV = Q/A = 0.1 m³/s ÷ (π/4 × 0.2² m²).
+        let s = solve(&[
+            ("fluid", "custom"),
+            ("rho", "1000 kg/m3"),
+            ("mu", "1 mPa.s"),
+            ("size", "custom"),
+            ("d", "200 mm"),
+            ("od", "220 mm"),
+            ("wave_speed", "1000 m/s"),
+            ("dv", ""),
+            ("q", "360 m3/h"),
+            ("closure_time", "0.1 s"),
+        ]);
+        let dv = 0.1 / (std::f64::consts::PI * 0.2 * 0.2 / 4.0);
+        assert_relative_eq!(get(&s, "dp_joukowsky"), 1e6 * dv, max_relative = 1e-9);
     }
 
     #[test]

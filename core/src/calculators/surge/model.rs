@@ -79,12 +79,30 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         joint,
         wave,
         fluid,
-        dv: values.typed("dv")?,
+        dv: read_velocity_change(values, pipe)?,
         length: values.typed("length")?,
         closure_time: values.typed("closure_time")?,
         work: values.typed("p")?,
         run_length: values.typed("run_length")?,
     })
+}
+
+/// The velocity stopped: typed, or the flow stopped over the bore area.
+fn read_velocity_change(values: &Values, pipe: Diameters) -> Result<Velocity, FieldError> {
+    match (values.typed_opt::<Velocity>("dv"), si(values, "q")) {
+        (Some(_), Some(_)) => Err(FieldError::inconsistent(
+            "q",
+            "give the velocity stopped or the flow stopped, not both",
+        )),
+        (Some(dv), None) => Ok(dv),
+        (None, Some(q)) => Ok(Velocity::new::<uom::si::velocity::meter_per_second>(
+            q / common::circle_area(pipe.id),
+        )),
+        (None, None) => Err(FieldError::inconsistent(
+            "dv",
+            "give the flow velocity stopped (or the flow stopped)",
+        )),
+    }
 }
 
 /// The wall and liquid of a computed wave speed, through the restraint model's
