@@ -121,7 +121,7 @@ pub fn smallest_meaningful(kind: QuantityKind) -> f64 {
 }
 
 /// The largest magnitude a field limit of this kind may have, SI: generous physical
-/// ceilings (10 km, 1 TPa, 1 km/s, ...) that keep every accepted input, and what is
+/// ceilings (10 km, 1 TPa, 10 km/s, ...) that keep every accepted input, and what is
 /// computed from it, far from overflow. Field limits must lie within ±this value
 /// (checked by the registry lint in the tests).
 pub fn largest_meaningful(kind: QuantityKind) -> f64 {
@@ -134,7 +134,7 @@ pub fn largest_meaningful(kind: QuantityKind) -> f64 {
         QuantityKind::Time => 1e9,
         QuantityKind::Pressure => 1e12,
         QuantityKind::SoilBearing => 1e12,
-        QuantityKind::Velocity => 1e3,
+        QuantityKind::Velocity => 1e4,
         QuantityKind::Acceleration => 1e3,
         QuantityKind::VolumeFlow => 1e4,
         QuantityKind::MassFlow => 1e7,

@@ -239,6 +239,7 @@ fuzz_tests! {
     runner_is_robust => "runner",
     tank_drain_is_robust => "tank-drain",
     profile_is_robust => "profile",
+    surge_is_robust => "surge",
 }
 
 #[test]
