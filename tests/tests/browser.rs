@@ -23,6 +23,8 @@ mod harness;
 mod links;
 #[path = "browser/pages.rs"]
 mod pages;
+#[path = "browser/prerender.rs"]
+mod prerender;
 
 use std::time::Duration;
 
