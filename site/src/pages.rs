@@ -1,8 +1,12 @@
 //! The HTML pages: the contents page and one page per calculator.
 //!
 //! Every page is static HTML that reads well without script: the calculator pages
-//! carry the method note and the cautions as markup, and the page script fills the
-//! `<section id="calculator">` from the catalog. All text from the core (titles,
+//! carry the method note, the cautions and, in `<section id="calculator">`, the
+//! demo's form and result rendered at build time ([`crate::prerender`]); the page
+//! script takes that section over for edits and for links with a query. Their
+//! head requests the page script and the wasm glue (`modulepreload`) and the wasm
+//! module (`preload`, `as="fetch"`, CORS mode like `instantiateStreaming`) while
+//! the HTML is parsed, and loads `query.js`, which marks a page opened with a query. All text from the core (titles,
 //! summaries, groups, cautions) is HTML-escaped here; the only unescaped markup is
 //! the method note, which [`crate::notes`] renders from our own Markdown.
 //!
