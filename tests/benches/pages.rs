@@ -5,7 +5,8 @@
 //! A std harness (`harness = false`), like the engine benchmark. It builds the site
 //! the way the browser tests do (their fixture and DevTools client are shared with
 //! `#[path]`) and serves the baseline (`../shared/peer-bend/` from the workspace
-//! root, copied unchanged into a temporary folder) with the same server, so both
+//! root, or the nearest `shared/peer-bend` further up; copied unchanged into a
+//! temporary folder) with the same server, so both
 //! get the same headers. Run with
 //! `cargo bench -p fluxledger-tests --bench pages`
 //! (Chromium at `/usr/bin/chromium`, as for the browser tests;
@@ -82,12 +83,19 @@ fn shown(values: &[f64]) -> String {
     format!("median {:>6.0} of [{}]", median(values), rounded.join(", "))
 }
 
-/// The baseline folder: `FLUXLEDGER_PEER`, or `../shared/peer-bend` beside the
-/// workspace root.
+/// The baseline folder: `FLUXLEDGER_PEER`, or `shared/peer-bend` in the nearest
+/// folder above the workspace root that has one (`../shared/peer-bend` for a
+/// checkout beside `shared/`, also found from a worktree further down).
 fn peer_source() -> PathBuf {
-    std::env::var_os("FLUXLEDGER_PEER")
-        .map(PathBuf::from)
-        .unwrap_or_else(|| fluxledger_site::workspace_root().join("../shared/peer-bend"))
+    if let Some(dir) = std::env::var_os("FLUXLEDGER_PEER") {
+        return PathBuf::from(dir);
+    }
+    let root = fluxledger_site::workspace_root();
+    root.ancestors()
+        .skip(1)
+        .map(|dir| dir.join("shared").join("peer-bend"))
+        .find(|dir| dir.is_dir())
+        .unwrap_or_else(|| root.join("../shared/peer-bend"))
 }
 
 /// Copies the baseline unchanged into a temporary folder (the server serves one

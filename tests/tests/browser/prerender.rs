@@ -239,6 +239,14 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
             .any(|h| h.starts_with("fluxledger_wasm.") && h.ends_with(".js")),
         "{preloaded:?}"
     );
+    // The preload matches the glue's own fetch (same URL, CORS mode): the module is
+    // downloaded once, not twice.
+    let fetched = eval(
+        &page,
+        &mut browser,
+        "performance.getEntriesByType('resource').filter((e) => e.name.endsWith('.wasm')).length",
+    );
+    assert_eq!(fetched, json!(1), "the wasm module was fetched {fetched} times");
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
