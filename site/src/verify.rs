@@ -285,6 +285,7 @@ pub fn verify_page(cases: &[Case], assets: &PageAssets) -> String {
         "Checks: every sourced case, run in your browser — Fluxledger",
         "Every sourced reference case of the handbook, run on this device through the same module as the calculators.",
         assets,
+        false,
     );
     html.push_str("<body data-page=\"verify\">\n");
     html.push_str(pages::header());

@@ -27,6 +27,8 @@ mod links;
 mod pages;
 #[path = "browser/verify.rs"]
 mod verify;
+#[path = "browser/prerender.rs"]
+mod prerender;
 
 use std::time::Duration;
 
