@@ -576,6 +576,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     let page_assets = PageAssets {
         stylesheet: stylesheet.clone(),
         script: script.clone(),
+        modules: module_names.clone(),
         glue: glue_name.clone(),
         wasm: wasm_name.clone(),
         query_script: query_script.clone(),

@@ -40,12 +40,16 @@ pub fn escape(text: &str) -> String {
 }
 
 /// File names and values every page refers to.
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, Default)]
 pub struct PageAssets {
     /// Hashed stylesheet file name (`style.1a2b3c4d.css`).
     pub stylesheet: String,
     /// Hashed page script file name (`app.1a2b3c4d.js`).
     pub script: String,
+    /// Hashed modules of the page script (`js/*.js` as `main.1a2b3c4d.js`…), each
+    /// preloaded by calculator pages so that the chain of imports does not wait
+    /// for one module after another.
+    pub modules: Vec<String>,
     /// Hashed wasm glue (`fluxledger_wasm.1a2b3c4d.js`), preloaded by calculator
     /// pages; empty for none.
     pub glue: String,
@@ -65,12 +69,15 @@ pub fn page_file(key: &str) -> String {
     format!("{key}.html")
 }
 
-/// The links that let a calculator page request its module early: the glue as a
-/// module preload, the wasm as a fetch preload (CORS mode, as
-/// `instantiateStreaming` fetches it), so both download while the HTML is parsed
-/// instead of after the page script has run.
+/// The links that let a calculator page request its code early: the page script
+/// and every one of its modules, and the glue, as module preloads, the wasm as a
+/// fetch preload (CORS mode, as `instantiateStreaming` fetches it), so all of them
+/// download while the HTML is parsed instead of one import after another.
 fn preloads(assets: &PageAssets) -> String {
     let mut html = format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(&assets.script));
+    for module in &assets.modules {
+        html.push_str(&format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(module)));
+    }
     if !assets.glue.is_empty() {
         html.push_str(&format!(
             "<link rel=\"modulepreload\" href=\"{}\">\n",
@@ -270,6 +277,7 @@ mod tests {
         PageAssets {
             stylesheet: "style.00aa11bb.css".into(),
             script: "app.22cc33dd.js".into(),
+            modules: vec!["main.1a1a1a1a.js".into(), "dom.2b2b2b2b.js".into()],
             glue: "fluxledger_wasm.44ee55ff.js".into(),
             wasm: "fluxledger_wasm.66aa77bb.wasm".into(),
             query_script: "query.88cc99dd.js".into(),
@@ -315,6 +323,8 @@ mod tests {
             "<a class=\"site-name\" href=\"index.html\">",
             "<p>note</p>",
             "Fluxledger 0.1.0",
+            "<link rel=\"modulepreload\" href=\"main.1a1a1a1a.js\">",
+            "<link rel=\"modulepreload\" href=\"dom.2b2b2b2b.js\">",
             "<link rel=\"modulepreload\" href=\"fluxledger_wasm.44ee55ff.js\">",
             "<link rel=\"preload\" href=\"fluxledger_wasm.66aa77bb.wasm\" as=\"fetch\" type=\"application/wasm\" crossorigin>",
             "<script src=\"query.88cc99dd.js\"></script>",

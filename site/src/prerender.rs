@@ -10,8 +10,9 @@
 //! (every field's demo text, each quantity field's default unit, the SI system), and
 //! the result goes through the adapter's own wire view
 //! (`fluxledger_wasm::view::solve_view`, serialised as JSON values, natively). The
-//! markup below mirrors the page script's render functions in `site/assets/app.js`
-//! (same elements, classes and order), so that when the script re-renders the same
+//! markup below mirrors the page script's render functions in `site/assets/js/`
+//! (`form.js`, `render-results.js`, `render-table.js`, `render-diagram.js`,
+//! `render-plot.js`: same elements, classes and order), so that when the script re-renders the same
 //! result nothing moves (no layout shift). Figures are drawn for a phone: the width
 //! and viewport height the script measures at 360 × 740 CSS px.
 //!
@@ -31,6 +32,9 @@ use fluxledger_core::UnitSystem;
 use fluxledger_wasm::view;
 
 use crate::pages::escape;
+
+/// The query key of the unit system in links (`SYSTEM_KEY` in `site/assets/js/url.js`).
+const SYSTEM_KEY: &str = "system";
 
 /// Width the page script gives figures on a 360 px wide phone (the details panel's
 /// client width less the panel padding and border, as `measureFigureWidth` does).
@@ -133,69 +137,11 @@ fn a(value: impl Into<String>) -> String {
 }
 
 // ---------------------------------------------------------------------------------
-// Units and values shown as the script shows them.
-
-/// `m2` → `m²`, `kN.m` → `kN·m`, `degC` → `°C` (display only; ids stay ASCII).
-pub fn pretty_unit(id: &str) -> String {
-    match id {
-        "degC" => return "°C".into(),
-        "degF" => return "°F".into(),
-        "deg" => return "°".into(),
-        _ => {}
-    }
-    let chars: Vec<char> = id.chars().collect();
-    let mut out = String::new();
-    for (i, &c) in chars.iter().enumerate() {
-        let after_letter = i > 0 && (chars[i - 1].is_ascii_alphabetic() || chars[i - 1] == ')');
-        let next_digit = chars.get(i + 1).is_some_and(char::is_ascii_digit);
-        match c {
-            '2' if after_letter && !next_digit => out.push('²'),
-            '3' if after_letter && !next_digit => out.push('³'),
-            '.' => out.push('·'),
-            _ => out.push(c),
-        }
-    }
-    out
-}
-
-/// Whether `text` is a number as the script's pattern reads it:
-/// `[-+]?[0-9][0-9.,]*(e[-+]?[0-9]+)?`.
-fn is_number_text(text: &str) -> bool {
-    let body = text.strip_prefix(['-', '+']).unwrap_or(text);
-    let (mantissa, exponent) = match body.find('e') {
-        Some(at) => (&body[..at], Some(&body[at + 1..])),
-        None => (body, None),
-    };
-    let mantissa_ok = mantissa.chars().next().is_some_and(|c| c.is_ascii_digit())
-        && mantissa.chars().all(|c| c.is_ascii_digit() || c == '.' || c == ',');
-    let exponent_ok = exponent.is_none_or(|e| {
-        let digits = e.strip_prefix(['-', '+']).unwrap_or(e);
-        !digits.is_empty() && digits.chars().all(|c| c.is_ascii_digit())
-    });
-    mantissa_ok && exponent_ok
-}
-
-/// `"150 kN.m"` → `"150 kN·m"`, `"30 deg"` → `"30°"`; other text as it is.
-pub fn pretty_value(text: &str) -> String {
-    let Some((number, unit)) = text.split_once(' ') else {
-        return text.to_string();
-    };
-    if !is_number_text(number) || unit.is_empty() || unit.chars().any(char::is_whitespace) {
-        return text.to_string();
-    }
-    let unit = pretty_unit(unit);
-    if unit == "°" {
-        format!("{number}°")
-    } else {
-        format!("{number} {unit}")
-    }
-}
-
-// ---------------------------------------------------------------------------------
 // The demo solve.
 
 /// The request the page script sends for the demo: every field's demo text (empty
-/// when it has none), each quantity field's default unit in `system`.
+/// when it has none), each quantity field's default unit in `system` (as `request()`
+/// in `site/assets/js/main.js` builds it).
 pub fn demo_request(spec: &CalculatorSpec, system: UnitSystem) -> Request {
     let calculator = view::calculator_view(spec);
     let mut request = Request {
@@ -205,12 +151,12 @@ pub fn demo_request(spec: &CalculatorSpec, system: UnitSystem) -> Request {
     for field in &calculator.fields {
         request.inputs.insert(field.key.to_string(), field.demo.to_string());
         if field.kind == "quantity" && !field.units.is_empty() {
+            // The script's `defaultUnit`: the core's default for the system.
             let unit = match system {
-                UnitSystem::UsCustomary if !field.us_unit.is_empty() => field.us_unit,
-                _ if !field.si_unit.is_empty() => field.si_unit,
-                _ => field.us_unit,
+                UnitSystem::UsCustomary => field.default_units.us,
+                _ => field.default_units.si,
             };
-            request.units.insert(field.key.to_string(), unit.to_string());
+            request.field_units.insert(field.key.to_string(), unit.to_string());
         }
     }
     request
@@ -227,11 +173,11 @@ pub fn calculator_section(spec: &CalculatorSpec) -> Option<String> {
     if !flag(&solved, "ok") {
         return None;
     }
-    let catalog = serde_json::to_value(view::catalog_view()).ok()?;
-    let calculator = serde_json::to_value(view::calculator_view(spec)).ok()?;
+    let page_view = serde_json::to_value(view::page_view(spec.key)?).ok()?;
+    let calculator = page_view.get("calculator")?;
     let page = Page {
-        catalog: &catalog,
-        spec: &calculator,
+        page: &page_view,
+        spec: calculator,
         request: &request,
         result: &solved,
         system: system.key(),
@@ -240,7 +186,8 @@ pub fn calculator_section(spec: &CalculatorSpec) -> Option<String> {
 }
 
 struct Page<'a> {
-    catalog: &'a Value,
+    /// The page's description, as `calculator(key)` gives it to the script.
+    page: &'a Value,
     spec: &'a Value,
     request: &'a Request,
     result: &'a Value,
@@ -268,7 +215,7 @@ impl Page<'_> {
 
     fn toolbar(&self) -> String {
         let mut systems = String::from("<legend>Units</legend>");
-        for system in list(self.catalog, "unit_systems") {
+        for system in list(self.page, "unit_systems") {
             let key = text(system, "key");
             let checked = if key == self.system { " checked" } else { "" };
             systems.push_str(&format!(
@@ -281,8 +228,8 @@ impl Page<'_> {
             concat!(
                 "<div class=\"toolbar\"{demo}>",
                 "<fieldset class=\"system-switch\" aria-describedby=\"system-help\">{systems}</fieldset>",
-                "<div class=\"toolbar-actions\"><button type=\"button\" class=\"button\">Copy link</button>",
-                "<button type=\"button\" class=\"button\">Print sheet</button>",
+                "<div class=\"toolbar-actions\"><button type=\"button\" class=\"button\" data-action=\"copy-link\">Copy link</button>",
+                "<button type=\"button\" class=\"button\" data-action=\"print\">Print sheet</button>",
                 "<span class=\"copy-status\" role=\"status\" aria-live=\"polite\"></span></div>",
                 "<input type=\"text\" class=\"copy-field\" readonly aria-label=\"Link to this calculation\" hidden>",
                 "<p id=\"system-help\" class=\"system-help\">Switching converts filled values; switching back restores them as typed.</p>",
@@ -331,26 +278,13 @@ impl Page<'_> {
         self.request.inputs.get(key).map(String::as_str).unwrap_or("")
     }
 
+    /// Whether a field is shown: every condition of the core's chain holds (the
+    /// script's `isVisible`).
     fn is_visible(&self, field: &Value) -> bool {
-        let fields = list(self.spec, "fields");
-        let mut current = field;
-        for _ in 0..=fields.len() {
-            let Some(rule) = current.get("visible_when").filter(|r| !r.is_null()) else {
-                return true;
-            };
-            let controller_key = text(rule, "field");
-            let shown = list(rule, "values")
-                .iter()
-                .any(|v| v.as_str() == Some(self.value_of(controller_key)));
-            if !shown {
-                return false;
-            }
-            match fields.iter().find(|f| text(f, "key") == controller_key) {
-                Some(controller) => current = controller,
-                None => return true,
-            }
-        }
-        true
+        list(field, "shown_when").iter().all(|rule| {
+            let value = self.value_of(text(rule, "field"));
+            list(rule, "values").iter().any(|v| v.as_str() == Some(value))
+        })
     }
 
     fn form(&self) -> String {
@@ -422,7 +356,10 @@ impl Page<'_> {
                     // alone, its unit in the selector.
                     let (shown, unit) = match (is_quantity, echo) {
                         (true, Some(echo)) => (text(echo, "number"), text(echo, "unit")),
-                        _ => (typed, self.request.units.get(key).map(String::as_str).unwrap_or("")),
+                        _ => (
+                            typed,
+                            self.request.field_units.get(key).map(String::as_str).unwrap_or(""),
+                        ),
                     };
                     entry.push_str(&format!(
                         "<input{}>",
@@ -440,19 +377,23 @@ impl Page<'_> {
                     if is_quantity {
                         let options: String = list(field, "units")
                             .iter()
-                            .filter_map(Value::as_str)
                             .map(|u| {
-                                let selected = if u == unit { " selected" } else { "" };
+                                let id = text(u, "id");
+                                let selected = if id == unit { " selected" } else { "" };
                                 format!(
                                     "<option value=\"{}\"{selected}>{}</option>",
-                                    escape(u),
-                                    escape(&pretty_unit(u))
+                                    escape(id),
+                                    escape(text(u, "label"))
                                 )
                             })
                             .collect();
                         entry.push_str(&tag(
                             "select",
-                            &[("class", a("unit")), ("aria-label", format!("Unit of {label}"))],
+                            &[
+                                ("class", a("unit")),
+                                ("aria-label", format!("Unit of {label}")),
+                                ("data-unit-for", a(key)),
+                            ],
                             &options,
                         ));
                     }
@@ -515,8 +456,8 @@ impl Page<'_> {
                 "<section class=\"panel\"><h2 class=\"panel-title\">Other results</h2><dl class=\"output-list\">{others}</dl></section>"
             ));
         }
-        for table in list(self.result, "tables") {
-            parts.push_str(&render_table(table));
+        for (index, table) in list(self.result, "tables").iter().enumerate() {
+            parts.push_str(&render_table(table, index));
         }
         for (index, diagram) in list(self.result, "diagrams").iter().enumerate() {
             parts.push_str(&render_diagram(diagram, index, FIGURE_WIDTH, VIEWPORT_HEIGHT));
@@ -527,16 +468,16 @@ impl Page<'_> {
         parts
     }
 
+    /// Links to a next calculator (the script's `renderCarryOver`): the core's
+    /// inputs, form-encoded, and the page's unit system.
     fn carry_over(&self) -> String {
         let mut items = String::new();
         for item in list(self.result, "carry_over") {
             let target_key = text(item, "calculator");
-            let Some(target) = list(self.catalog, "calculators")
-                .iter()
-                .find(|c| text(c, "key") == target_key)
-            else {
+            let title = text(item, "title");
+            if target_key.is_empty() || title.is_empty() {
                 continue;
-            };
+            }
             let mut query: Vec<(String, String)> = item
                 .get("inputs")
                 .and_then(Value::as_object)
@@ -546,21 +487,22 @@ impl Page<'_> {
                         .collect()
                 })
                 .unwrap_or_default();
-            query.push(("units".into(), self.system.to_string()));
+            query.retain(|(k, _)| k != SYSTEM_KEY);
+            query.push((SYSTEM_KEY.into(), self.system.to_string()));
             let query: Vec<String> = query
                 .iter()
                 .map(|(k, v)| format!("{}={}", form_encode(k), form_encode(v)))
                 .collect();
             let label = match text(item, "label") {
-                "" => text(target, "title"),
+                "" => title,
                 l => l,
             };
             items.push_str(&format!(
                 "<li><a class=\"carry-link\" href=\"{href}\" data-carry-to=\"{key}\"><span class=\"carry-label\">{label}</span><span class=\"carry-target\">{title}</span></a></li>",
-                href = escape(&format!("{}.html?{}", text(target, "key"), query.join("&"))),
-                key = escape(text(target, "key")),
+                href = escape(&format!("{target_key}.html?{}", query.join("&"))),
+                key = escape(target_key),
                 label = escape(label),
-                title = escape(text(target, "title"))
+                title = escape(title)
             ));
         }
         if items.is_empty() {
@@ -591,44 +533,16 @@ fn output_item(output: &Value) -> String {
         label = escape(text(output, "label")),
         key = escape(text(output, "key")),
         title = escape(text(output, "text")),
-        shown = escape(&pretty_value(text(output, "text")))
+        shown = escape(text(output, "shown"))
     )
 }
 
-/// `"area (mm2)"` → `"area (mm²)"`: a unit in brackets at the end is prettified.
-fn pretty_column(column: &str) -> String {
-    if let Some(stripped) = column.strip_suffix(')') {
-        if let Some(open) = stripped.rfind('(') {
-            let unit = &stripped[open + 1..];
-            let unit_ok = !unit.is_empty()
-                && unit
-                    .chars()
-                    .all(|c| c.is_ascii_alphanumeric() || matches!(c, '.' | '/' | '%' | '-'));
-            if unit_ok {
-                return format!("{}({})", &stripped[..open], pretty_unit(unit));
-            }
-        }
-    }
-    column.to_string()
-}
-
-/// Words (three letters in a row) that do not start with a number.
-fn is_wordy(cell: &str) -> bool {
-    let mut run = 0;
-    let mut letters = false;
-    for c in cell.chars() {
-        run = if c.is_ascii_alphabetic() { run + 1 } else { 0 };
-        if run >= 3 {
-            letters = true;
-            break;
-        }
-    }
-    let body = cell.strip_prefix(['-', '+']).unwrap_or(cell);
-    letters && !body.chars().next().is_some_and(|c| c.is_ascii_digit())
-}
-
-fn render_table(table: &Value) -> String {
+/// A table panel as the script's `renderTable` builds it: a column's unit goes into
+/// its header, its kind sets the cells' alignment, and each cell shows the text the
+/// core prepared (`shown`).
+fn render_table(table: &Value, index: usize) -> String {
     let title = text(table, "title");
+    let columns = list(table, "columns");
     let mut html = format!("<table class=\"ledger\" data-table=\"{}\">", escape(text(table, "key")));
     if !title.is_empty() {
         html.push_str(&format!(
@@ -637,29 +551,34 @@ fn render_table(table: &Value) -> String {
         ));
     }
     html.push_str("<thead><tr>");
-    for column in list(table, "columns") {
-        let column = column.as_str().unwrap_or("");
-        html.push_str(&format!("<th scope=\"col\">{}</th>", escape(&pretty_column(column))));
+    for column in columns {
+        let heading = match text(column, "unit") {
+            "" => text(column, "title").to_string(),
+            unit => format!("{} ({unit})", text(column, "title")),
+        };
+        html.push_str(&format!("<th scope=\"col\">{}</th>", escape(&heading)));
     }
     html.push_str("</tr></thead><tbody>");
     let emphasised: Vec<u64> = list(table, "emphasised_rows")
         .iter()
         .filter_map(Value::as_u64)
         .collect();
-    for (index, row) in list(table, "rows").iter().enumerate() {
-        if emphasised.contains(&(index as u64)) {
+    for (row_index, row) in list(table, "rows").iter().enumerate() {
+        if emphasised.contains(&(row_index as u64)) {
             html.push_str("<tr class=\"emphasised\">");
         } else {
             html.push_str("<tr>");
         }
         for (column, cell) in row.as_array().map(Vec::as_slice).unwrap_or(&[]).iter().enumerate() {
-            let cell = cell.as_str().unwrap_or("");
+            let shown = escape(text(cell, "shown"));
+            // Numbers line up on the right; words wrap on the left.
+            let words = columns.get(column).map(|c| text(c, "kind")) != Some("number");
             if column == 0 {
-                html.push_str(&format!("<th scope=\"row\">{}</th>", escape(cell)));
-            } else if is_wordy(cell) {
-                html.push_str(&format!("<td class=\"text\">{}</td>", escape(&pretty_value(cell))));
+                html.push_str(&format!("<th scope=\"row\">{shown}</th>"));
+            } else if words {
+                html.push_str(&format!("<td class=\"text\">{shown}</td>"));
             } else {
-                html.push_str(&format!("<td>{}</td>", escape(&pretty_value(cell))));
+                html.push_str(&format!("<td>{shown}</td>"));
             }
         }
         html.push_str("</tr>");
@@ -670,7 +589,7 @@ fn render_table(table: &Value) -> String {
         concat!(
             "<section class=\"panel panel-table\">{heading}",
             "<div class=\"table-scroll\" tabindex=\"0\">{table}</div>",
-            "<div class=\"table-actions\"><button type=\"button\" class=\"button button-small csv-download\" aria-label=\"{aria}\">Download CSV</button></div>",
+            "<div class=\"table-actions\"><button type=\"button\" class=\"button button-small csv-download\" aria-label=\"{aria}\" data-action=\"csv\" data-table-index=\"{index}\">Download CSV</button></div>",
             "</section>"
         ),
         heading = if title.is_empty() {
@@ -679,7 +598,8 @@ fn render_table(table: &Value) -> String {
             format!("<h3 class=\"table-title\" aria-hidden=\"true\">{}</h3>", escape(title))
         },
         table = html,
-        aria = escape(&aria)
+        aria = escape(&aria),
+        index = index
     )
 }
 
@@ -723,42 +643,14 @@ fn wrap_words(text: &str, max: usize) -> Vec<String> {
     }
 }
 
-/// `"name value unit"` split into the name and `"value unit"`, as the script's
-/// pattern `^(.*\S)\s+([-+]?[0-9][0-9.,]*(?:e[-+]?[0-9]+)?\s*\S+)$` does.
-fn split_value(text: &str) -> Option<(String, String)> {
-    // The value part is the last one or two words: "12.3 kN" or "12.3kN".
-    let words: Vec<&str> = text.split_whitespace().collect();
-    if words.len() < 2 || text.ends_with(char::is_whitespace) {
-        return None;
-    }
-    let try_split = |value_words: usize| -> Option<(String, String)> {
-        if words.len() <= value_words {
-            return None;
-        }
-        let value = &words[words.len() - value_words..];
-        let ok = match value {
-            [number, _unit] => is_number_text(number),
-            [joined] => {
-                // A number glued to its unit ("12kN"): after an optional sign, a
-                // digit and at least one more character (the unit pattern takes
-                // whatever follows).
-                let body = joined.strip_prefix(['-', '+']).unwrap_or(joined);
-                let mut chars = body.chars();
-                chars.next().is_some_and(|c| c.is_ascii_digit()) && chars.next().is_some()
-            }
-            _ => false,
-        };
-        ok.then(|| (words[..words.len() - value_words].join(" "), value.join(" ")))
-    };
-    // The pattern's first group is greedy: the shortest value part wins.
-    try_split(1).or_else(|| try_split(2))
-}
-
 struct Label {
     at: [f64; 2],
     ux: f64,
     uy: f64,
     text: String,
+    /// The label without its trailing value, and the value (split by the adapter).
+    name: String,
+    value: String,
     style: String,
     plain: bool,
     lines: Vec<String>,
@@ -892,6 +784,8 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
                         ux: (at[0] - other[0]) / length,
                         uy: (at[1] - other[1]) / length,
                         text: label.to_string(),
+                        name: text(shape, "name").to_string(),
+                        value: text(shape, "value").to_string(),
                         style: style.into(),
                         plain: false,
                         lines: Vec::new(),
@@ -914,6 +808,8 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
                     ux: 0.0,
                     uy: 0.0,
                     text: content.to_string(),
+                    name: text(shape, "name").to_string(),
+                    value: text(shape, "value").to_string(),
                     style: style.into(),
                     plain: true,
                     lines: Vec::new(),
@@ -930,13 +826,12 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
     let narrow = width < 480.0;
     let max_chars = if narrow { 16 } else { 30 };
     for label in &mut labels {
-        label.lines = match narrow.then(|| split_value(&label.text)).flatten() {
-            Some((name, value)) => {
-                let mut lines = wrap_words(&name, max_chars);
-                lines.push(value);
-                lines
-            }
-            None => wrap_words(&label.text, max_chars),
+        label.lines = if narrow && !label.name.is_empty() && !label.value.is_empty() {
+            let mut lines = wrap_words(&label.name, max_chars);
+            lines.push(label.value.clone());
+            lines
+        } else {
+            wrap_words(&label.text, max_chars)
         };
         label_layout(label);
     }
@@ -1409,26 +1304,7 @@ mod tests {
     }
 
     #[test]
-    fn units_and_values_are_prettified_like_the_script() {
-        assert_eq!(pretty_unit("m2"), "m²");
-        assert_eq!(pretty_unit("m3/h"), "m³/h");
-        assert_eq!(pretty_unit("kN.m"), "kN·m");
-        assert_eq!(pretty_unit("m25"), "m25");
-        assert_eq!(pretty_value("30 deg"), "30°");
-        assert_eq!(pretty_value("1.5e3 m2"), "1.5e3 m²");
-        assert_eq!(pretty_value("not a value"), "not a value");
-        assert_eq!(pretty_column("area (mm2)"), "area (mm²)");
-        assert!(is_wordy("pressure force"));
-        assert!(!is_wordy("12 kN"));
-    }
-
-    #[test]
-    fn labels_split_their_value_and_wrap_at_spaces() {
-        assert_eq!(
-            split_value("Restraint 12.3 kN"),
-            Some(("Restraint".to_string(), "12.3 kN".to_string()))
-        );
-        assert_eq!(split_value("Flow"), None);
+    fn labels_wrap_at_spaces_like_the_script() {
         assert_eq!(
             wrap_words("a long label that wraps here", 10),
             ["a long", "label that", "wraps here"]

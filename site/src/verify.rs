@@ -342,6 +342,7 @@ mod tests {
             script: "verify.22cc33dd.js".into(),
             theme_colour: "#1f4e5f".into(),
             version: "0.1.0".into(),
+            ..PageAssets::default()
         }
     }
 

@@ -25,10 +25,10 @@ mod layout;
 mod links;
 #[path = "browser/pages.rs"]
 mod pages;
-#[path = "browser/verify.rs"]
-mod verify;
 #[path = "browser/prerender.rs"]
 mod prerender;
+#[path = "browser/verify.rs"]
+mod verify;
 
 use std::time::Duration;
 
