@@ -344,7 +344,7 @@ fn line_schedule(base: &str) -> Result<Vec<f64>, String> {
 fn print_measurements(site: &Fixture) -> Result<(), String> {
     let (peer_server, peer_dir) = serve_peer()?;
     let handbook = format!("{}/bend.html", site.base);
-    let handbook_query = format!("{handbook}?angle=30deg&d_in=12in&p=150psi&plane=horizontal&units=us");
+    let handbook_query = format!("{handbook}?angle=30deg&d=12in&p=150psi&plane=horizontal&system=us");
     let peer = format!("{}/index.html", peer_server.base());
     let peer_query = format!("{peer}?angle=30&d=300&p=10");
     println!("Fluxledger against the baseline page, bend calculation");
