@@ -10,6 +10,16 @@
 //! cached file. `sw.js` keeps its name (browsers look it up by URL) and gets the
 //! build's cache version (a hash over every other file) and the list of every file
 //! to precache.
+//!
+//! Each calculator page carries its demo result, computed natively by the core at
+//! build time ([`crate::prerender`]), and asks for the page script, the glue and the
+//! wasm from its head (`modulepreload`, `preload`), so a first visit shows a result
+//! with the HTML and the module downloads while the page is read.
+//!
+//! Every text file and the wasm module are also written precompressed beside
+//! themselves: `name.br` (Brotli, quality 11) and `name.gz` (gzip, level 9). The
+//! local server sends them with `Content-Encoding` and `Vary: Accept-Encoding`
+//! when the request accepts them; a static host should do the same (README).
 
 use std::collections::BTreeMap;
 use std::fmt;
@@ -27,7 +37,7 @@ use fluxledger_core::catalog::CalculatorSpec;
 
 use crate::error::{SiteError, SiteErrorKind};
 use crate::pages::{self, PageAssets};
-use crate::{icons, notes, wasm_build};
+use crate::{icons, notes, prerender, wasm_build};
 
 /// Placeholder in a page-script module (`js/wasm.js`) for the file name of the
 /// hashed wasm glue.
@@ -42,6 +52,11 @@ pub const CACHE_VERSION_PLACEHOLDER: &str = "__CACHE_VERSION__";
 pub const PRECACHE_PLACEHOLDER: &str = "__PRECACHE__";
 /// Marker file written into every built site, so that a rebuild may clear the folder.
 pub const MARKER_FILE: &str = ".fluxledger-site";
+/// The classic script in `site/assets` that marks a page opened with a query
+/// before its body is parsed (see [`crate::prerender`]).
+pub const QUERY_SCRIPT: &str = "query.js";
+/// File name endings written precompressed (`.br`, `.gz`) beside the file.
+pub const COMPRESSED_EXTENSIONS: [&str; 7] = ["html", "js", "css", "wasm", "svg", "webmanifest", "json"];
 /// Sizes of the app icons (PNG), besides the SVG icon.
 pub const ICON_SIZES: [u32; 2] = [192, 512];
 
@@ -105,16 +120,30 @@ pub struct FileReport {
     pub name: String,
     pub bytes: usize,
     pub gzip_bytes: usize,
+    /// Size of the `.br` file written beside it (`None`: not precompressed).
+    pub brotli_bytes: Option<usize>,
+}
+
+impl FileReport {
+    /// Bytes a browser that accepts Brotli receives for this file.
+    pub fn transfer_bytes(&self) -> usize {
+        self.brotli_bytes.unwrap_or(self.bytes)
+    }
 }
 
 /// The bytes fetched on a first visit to one calculator page.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct ColdLoad {
     pub page: String,
-    /// The files counted: page, stylesheet, script, glue, wasm.
+    /// The files counted: page, stylesheet, query script, page script, glue, wasm.
     pub files: Vec<String>,
     pub bytes: usize,
     pub gzip_bytes: usize,
+    pub brotli_bytes: usize,
+    /// What shows the first (prerendered) result: page, stylesheet, query script.
+    pub first_result_files: Vec<String>,
+    pub first_result_gzip_bytes: usize,
+    pub first_result_brotli_bytes: usize,
 }
 
 /// What a build wrote.
@@ -137,6 +166,11 @@ pub struct BuildReport {
     /// First visit to `bend.html`, or to the first calculator page when there is no
     /// bend page; `None` without calculators.
     pub cold_load: Option<ColdLoad>,
+    /// What the service worker stores for offline use, as sent compressed
+    /// (Brotli where written): everything, and the part a first visit to the
+    /// cold-load page had not already fetched.
+    pub precache_bytes: usize,
+    pub precache_extra_bytes: usize,
 }
 
 impl BuildReport {
@@ -149,15 +183,31 @@ impl fmt::Display for BuildReport {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         writeln!(f, "site written to {}", self.out.display())?;
         let width = self.files.iter().map(|x| x.name.len()).max().unwrap_or(4).max(5);
-        writeln!(f, "  {:<width$}  {:>9}  {:>9}", "file", "bytes", "gzip")?;
+        writeln!(
+            f,
+            "  {:<width$}  {:>9}  {:>9}  {:>9}",
+            "file", "bytes", "gzip", "brotli"
+        )?;
+        let brotli = |x: &FileReport| x.brotli_bytes.map(|b| b.to_string()).unwrap_or_else(|| "-".into());
         for file in &self.files {
-            writeln!(f, "  {:<width$}  {:>9}  {:>9}", file.name, file.bytes, file.gzip_bytes)?;
+            writeln!(
+                f,
+                "  {:<width$}  {:>9}  {:>9}  {:>9}",
+                file.name,
+                file.bytes,
+                file.gzip_bytes,
+                brotli(file)
+            )?;
         }
-        let (bytes, gzip) = self
-            .files
-            .iter()
-            .fold((0, 0), |(b, g), x| (b + x.bytes, g + x.gzip_bytes));
-        writeln!(f, "  {:<width$}  {:>9}  {:>9}", "total", bytes, gzip)?;
+        let (bytes, gzip, transfer) = self.files.iter().fold((0, 0, 0), |(b, g, t), x| {
+            (b + x.bytes, g + x.gzip_bytes, t + x.transfer_bytes())
+        });
+        writeln!(f, "  {:<width$}  {:>9}  {:>9}  {:>9}", "total", bytes, gzip, transfer)?;
+        writeln!(
+            f,
+            "service worker precache: {} bytes as sent (Brotli), {} of them not already fetched by the first visit",
+            self.precache_bytes, self.precache_extra_bytes
+        )?;
         if !self.wasm_optimised {
             writeln!(
                 f,
@@ -167,11 +217,19 @@ impl fmt::Display for BuildReport {
         match &self.cold_load {
             Some(cold) => write!(
                 f,
-                "cold load of {} ({}): {} bytes, {} bytes gzip",
+                concat!(
+                    "first result of {} ({}): {} bytes gzip, {} bytes Brotli\n",
+                    "cold load of {} until interactive ({}): {} bytes, {} bytes gzip, {} bytes Brotli"
+                ),
+                cold.page,
+                cold.first_result_files.join(", "),
+                cold.first_result_gzip_bytes,
+                cold.first_result_brotli_bytes,
                 cold.page,
                 cold.files.join(", "),
                 cold.bytes,
-                cold.gzip_bytes
+                cold.gzip_bytes,
+                cold.brotli_bytes
             ),
             None => write!(f, "no calculator pages yet: no cold-load figure"),
         }
@@ -191,10 +249,35 @@ fn hashed_name(stem: &str, ext: &str, bytes: &[u8]) -> String {
 
 /// Gzip size of `bytes` at the default level (what a static host typically sends).
 pub fn gzip_size(bytes: &[u8]) -> usize {
-    let mut encoder = GzEncoder::new(Vec::new(), Compression::default());
+    gzip(bytes, Compression::default()).len()
+}
+
+/// `bytes` gzipped at `level`.
+pub fn gzip(bytes: &[u8], level: Compression) -> Vec<u8> {
+    let mut encoder = GzEncoder::new(Vec::new(), level);
     // Writing into a Vec cannot fail.
     let _ = encoder.write_all(bytes);
-    encoder.finish().map(|v| v.len()).unwrap_or(0)
+    encoder.finish().unwrap_or_default()
+}
+
+/// `bytes` compressed with Brotli at quality 11, window 2^22 (the `.br` files).
+pub fn brotli_compress(bytes: &[u8]) -> Vec<u8> {
+    let mut out = Vec::new();
+    let params = brotli::enc::BrotliEncoderParams {
+        quality: 11,
+        lgwin: 22,
+        ..Default::default()
+    };
+    let mut input = bytes;
+    // Reading from a slice and writing into a Vec cannot fail.
+    let _ = brotli::BrotliCompress(&mut input, &mut out, &params);
+    out
+}
+
+/// Whether a file is written precompressed beside itself.
+pub fn is_compressed_type(name: &str) -> bool {
+    name.rsplit_once('.')
+        .is_some_and(|(_, ext)| COMPRESSED_EXTENSIONS.contains(&ext))
 }
 
 /// A JSON string literal.
@@ -237,6 +320,8 @@ struct Sources {
     app_js: String,
     /// The page script's modules in `site/assets/js` (file name, text).
     modules: BTreeMap<String, String>,
+    /// `query.js`, when the assets have one.
+    query_js: Option<Vec<u8>>,
     style_css: Vec<u8>,
     sw_js: String,
     /// Other files in `site/assets` copied as they are (file name, bytes).
@@ -288,7 +373,7 @@ fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<So
         let name = entry.file_name().to_string_lossy().into_owned();
         let path = entry.path();
         if name.starts_with('.')
-            || ["app.js", "style.css", "sw.js", crate::verify::SCRIPT].contains(&name.as_str())
+            || ["app.js", "style.css", "sw.js", crate::verify::SCRIPT, QUERY_SCRIPT].contains(&name.as_str())
             || !path.is_file()
         {
             continue;
@@ -303,9 +388,16 @@ fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<So
         let shown = path.strip_prefix(root).unwrap_or(path);
         rendered.insert(*key, notes::render_note(&markdown, shown)?);
     }
+    let query_path = assets.join(QUERY_SCRIPT);
+    let query_js = if query_path.is_file() {
+        Some(fs::read(&query_path).map_err(|e| SiteError::io(&query_path, e))?)
+    } else {
+        None
+    };
     Ok(Sources {
         app_js,
         modules,
+        query_js,
         style_css,
         sw_js,
         extra_assets,
@@ -461,6 +553,14 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     files.insert(glue_name.clone(), glue_js.into_bytes());
     files.insert(script.clone(), app_js.into_bytes());
     files.insert(stylesheet.clone(), sources.style_css);
+    let query_script = match sources.query_js {
+        Some(bytes) => {
+            let name = hashed_name("query", "js", &bytes);
+            files.insert(name.clone(), bytes);
+            name
+        }
+        None => String::new(),
+    };
 
     files.insert("icon.svg".into(), icons::svg().into_bytes());
     for size in ICON_SIZES {
@@ -476,6 +576,10 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     let page_assets = PageAssets {
         stylesheet: stylesheet.clone(),
         script: script.clone(),
+        modules: module_names.clone(),
+        glue: glue_name.clone(),
+        wasm: wasm_name.clone(),
+        query_script: query_script.clone(),
         theme_colour: icons::theme_colour(),
         version: env!("CARGO_PKG_VERSION").to_string(),
     };
@@ -489,7 +593,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         let file = pages::page_file(spec.key);
         files.insert(
             file.clone(),
-            pages::calculator_page(spec, note, &page_assets).into_bytes(),
+            pages::calculator_page(spec, note, prerender::calculator_section(spec).as_deref(), &page_assets)
+                .into_bytes(),
         );
         calculator_pages.push(file);
     }
@@ -518,7 +623,9 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     )?;
     files.insert("sw.js".into(), sw_js.into_bytes());
 
+    let compressed = compress_all(&files);
     write_output(out, &files)?;
+    write_compressed(out, &compressed)?;
 
     let reports: Vec<FileReport> = files
         .iter()
@@ -526,6 +633,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
             name: name.clone(),
             bytes: bytes.len(),
             gzip_bytes: gzip_size(bytes),
+            brotli_bytes: compressed.get(name).map(|(br, _)| br.len()),
         })
         .collect();
     let cold_page = calculator_pages
@@ -533,25 +641,39 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         .find(|p| *p == "bend.html")
         .or(calculator_pages.first());
     let cold_load = cold_page.map(|page| {
-        // Every module of the page script is loaded on every page.
-        let names: Vec<String> = [
-            page.clone(),
-            stylesheet.clone(),
-            script.clone(),
-            glue_name.clone(),
-            wasm_name.clone(),
-        ]
-        .into_iter()
-        .chain(module_names.iter().cloned())
-        .collect();
+        // Every module of the page script is loaded on every page; the first result
+        // needs only the page, the stylesheet and the query script.
+        let first: Vec<String> = [page.clone(), stylesheet.clone(), query_script.clone()]
+            .into_iter()
+            .filter(|n| !n.is_empty())
+            .collect();
+        let names: Vec<String> = first
+            .iter()
+            .cloned()
+            .chain([script.clone(), glue_name.clone(), wasm_name.clone()])
+            .chain(module_names.iter().cloned())
+            .collect();
         let counted: Vec<&FileReport> = reports.iter().filter(|r| names.contains(&r.name)).collect();
+        let first_counted: Vec<&FileReport> = reports.iter().filter(|r| first.contains(&r.name)).collect();
         ColdLoad {
             page: page.clone(),
             files: names.clone(),
             bytes: counted.iter().map(|r| r.bytes).sum(),
             gzip_bytes: counted.iter().map(|r| r.gzip_bytes).sum(),
+            brotli_bytes: counted.iter().map(|r| r.transfer_bytes()).sum(),
+            first_result_files: first.clone(),
+            first_result_gzip_bytes: first_counted.iter().map(|r| r.gzip_bytes).sum(),
+            first_result_brotli_bytes: first_counted.iter().map(|r| r.transfer_bytes()).sum(),
         }
     });
+    // The precache list is every file but sw.js; the files of the first visit are
+    // in the HTTP cache already, and the worker reads hashed files from there.
+    let precached = reports.iter().filter(|r| r.name != "sw.js");
+    let precache_bytes: usize = precached.clone().map(FileReport::transfer_bytes).sum();
+    let precache_extra_bytes: usize = precached
+        .filter(|r| !cold_load.as_ref().is_some_and(|c| c.files.contains(&r.name)))
+        .map(FileReport::transfer_bytes)
+        .sum();
     Ok(BuildReport {
         out: out.to_path_buf(),
         files: reports,
@@ -563,7 +685,49 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         calculator_pages,
         wasm_optimised: wasm.optimised,
         cold_load,
+        precache_bytes,
+        precache_extra_bytes,
     })
+}
+
+/// The `.br` and `.gz` bytes of every file of a compressed type, by file name,
+/// compressed on as many threads as the machine has (Brotli 11 is slow).
+fn compress_all(files: &BTreeMap<String, Vec<u8>>) -> BTreeMap<String, (Vec<u8>, Vec<u8>)> {
+    let todo: Vec<(&String, &Vec<u8>)> = files.iter().filter(|(name, _)| is_compressed_type(name)).collect();
+    let threads = std::thread::available_parallelism()
+        .map(|n| n.get())
+        .unwrap_or(1)
+        .max(1);
+    let chunk = todo.len().div_ceil(threads).max(1);
+    std::thread::scope(|scope| {
+        let handles: Vec<_> = todo
+            .chunks(chunk)
+            .map(|part| {
+                scope.spawn(move || {
+                    part.iter()
+                        .map(|(name, bytes)| {
+                            (
+                                (*name).clone(),
+                                (brotli_compress(bytes), gzip(bytes, Compression::best())),
+                            )
+                        })
+                        .collect::<Vec<_>>()
+                })
+            })
+            .collect();
+        handles.into_iter().flat_map(|h| h.join().unwrap_or_default()).collect()
+    })
+}
+
+/// Writes `name.br` and `name.gz` beside each file.
+fn write_compressed(out: &Path, compressed: &BTreeMap<String, (Vec<u8>, Vec<u8>)>) -> Result<(), SiteError> {
+    for (name, (br, gz)) in compressed {
+        for (ext, bytes) in [("br", br), ("gz", gz)] {
+            let path = out.join(format!("{name}.{ext}"));
+            fs::write(&path, bytes).map_err(|e| SiteError::io(&path, e))?;
+        }
+    }
+    Ok(())
 }
 
 /// The web app manifest (relative start URL and scope: works under a sub-path).

@@ -37,6 +37,7 @@ pub mod error;
 pub mod icons;
 pub mod notes;
 pub mod pages;
+pub mod prerender;
 pub mod server;
 pub mod verify;
 pub mod wasm_build;

@@ -1,8 +1,12 @@
 //! The HTML pages: the contents page and one page per calculator.
 //!
 //! Every page is static HTML that reads well without script: the calculator pages
-//! carry the method note and the cautions as markup, and the page script fills the
-//! `<section id="calculator">` from the catalog. All text from the core (titles,
+//! carry the method note, the cautions and, in `<section id="calculator">`, the
+//! demo's form and result rendered at build time ([`crate::prerender`]); the page
+//! script takes that section over for edits and for links with a query. Their
+//! head requests the page script and the wasm glue (`modulepreload`) and the wasm
+//! module (`preload`, `as="fetch"`, CORS mode like `instantiateStreaming`) while
+//! the HTML is parsed, and loads `query.js`, which marks a page opened with a query. All text from the core (titles,
 //! summaries, groups, cautions) is HTML-escaped here; the only unescaped markup is
 //! the method note, which [`crate::notes`] renders from our own Markdown.
 //!
@@ -36,12 +40,24 @@ pub fn escape(text: &str) -> String {
 }
 
 /// File names and values every page refers to.
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, Default)]
 pub struct PageAssets {
     /// Hashed stylesheet file name (`style.1a2b3c4d.css`).
     pub stylesheet: String,
     /// Hashed page script file name (`app.1a2b3c4d.js`).
     pub script: String,
+    /// Hashed modules of the page script (`js/*.js` as `main.1a2b3c4d.js`…), each
+    /// preloaded by calculator pages so that the chain of imports does not wait
+    /// for one module after another.
+    pub modules: Vec<String>,
+    /// Hashed wasm glue (`fluxledger_wasm.1a2b3c4d.js`), preloaded by calculator
+    /// pages; empty for none.
+    pub glue: String,
+    /// Hashed wasm module, preloaded by calculator pages; empty for none.
+    pub wasm: String,
+    /// Hashed classic script that marks a page opened with a query (`query.js`),
+    /// loaded before the body; empty for none.
+    pub query_script: String,
     /// Theme colour (`#1f4e5f`).
     pub theme_colour: String,
     /// The handbook's version, shown in the footer.
@@ -53,7 +69,35 @@ pub fn page_file(key: &str) -> String {
     format!("{key}.html")
 }
 
-pub(crate) fn head(title: &str, description: &str, assets: &PageAssets) -> String {
+/// The links that let a calculator page request its code early: the page script
+/// and every one of its modules, and the glue, as module preloads, the wasm as a
+/// fetch preload (CORS mode, as `instantiateStreaming` fetches it), so all of them
+/// download while the HTML is parsed instead of one import after another.
+fn preloads(assets: &PageAssets) -> String {
+    let mut html = format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(&assets.script));
+    for module in &assets.modules {
+        html.push_str(&format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(module)));
+    }
+    if !assets.glue.is_empty() {
+        html.push_str(&format!(
+            "<link rel=\"modulepreload\" href=\"{}\">\n",
+            escape(&assets.glue)
+        ));
+    }
+    if !assets.wasm.is_empty() {
+        html.push_str(&format!(
+            "<link rel=\"preload\" href=\"{}\" as=\"fetch\" type=\"application/wasm\" crossorigin>\n",
+            escape(&assets.wasm)
+        ));
+    }
+    if !assets.query_script.is_empty() {
+        html.push_str(&format!("<script src=\"{}\"></script>\n", escape(&assets.query_script)));
+    }
+    html
+}
+
+pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculator: bool) -> String {
+    let extra = if calculator { preloads(assets) } else { String::new() };
     format!(
         concat!(
             "<!doctype html>\n<html lang=\"en\">\n<head>\n",
@@ -68,9 +112,10 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets) -> Strin
             "<link rel=\"icon\" href=\"icon.svg\" type=\"image/svg+xml\">\n",
             "<link rel=\"apple-touch-icon\" href=\"icon-192.png\">\n",
             "<link rel=\"stylesheet\" href=\"{css}\">\n",
-            "<script type=\"module\" src=\"{js}\"></script>\n",
+            "{extra}<script type=\"module\" src=\"{js}\"></script>\n",
             "</head>\n"
         ),
+        extra = extra,
         csp = escape(CSP),
         theme = escape(&assets.theme_colour),
         description = escape(description),
@@ -119,9 +164,18 @@ pub fn cautions_html(spec: &CalculatorSpec) -> String {
 }
 
 /// One calculator page. `note_html` is the rendered method note.
-pub fn calculator_page(spec: &CalculatorSpec, note_html: &str, assets: &PageAssets) -> String {
+///
+/// `prerendered` is the calculator section's demo (from [`crate::prerender`]), put
+/// in place so the first response already shows a result; `None` leaves the
+/// section for the script to fill.
+pub fn calculator_page(
+    spec: &CalculatorSpec,
+    note_html: &str,
+    prerendered: Option<&str>,
+    assets: &PageAssets,
+) -> String {
     let file = page_file(spec.key);
-    let mut html = head(&format!("{} — Fluxledger", spec.title), spec.summary, assets);
+    let mut html = head(&format!("{} — Fluxledger", spec.title), spec.summary, assets, true);
     html.push_str(&format!(
         "<body data-calculator=\"{key}\" data-group=\"{group}\">\n",
         key = escape(spec.key),
@@ -138,9 +192,12 @@ pub fn calculator_page(spec: &CalculatorSpec, note_html: &str, assets: &PageAsse
     html.push_str(concat!(
         "<section id=\"calculator\" aria-label=\"Calculator\">\n",
         "<noscript><p class=\"no-result\">The live calculator needs JavaScript and WebAssembly. ",
-        "The method and the cautions below apply without it.</p></noscript>\n",
-        "</section>\n"
+        "The method and the cautions below apply without it.</p></noscript>\n"
     ));
+    if let Some(section) = prerendered {
+        html.push_str(section);
+    }
+    html.push_str("</section>\n");
     html.push_str(&cautions_html(spec));
     // A note that opens with its own heading (`# Method` becomes `<h2>`) keeps it;
     // otherwise the page gives the note a "Method" heading.
@@ -165,6 +222,7 @@ pub fn contents_page(specs: &[CalculatorSpec], assets: &PageAssets) -> String {
         "Fluxledger — control-volume force calculations",
         "Offline handbook of anchor, thrust-block, jet and turbine force calculations: method notes with live calculators.",
         assets,
+        false,
     );
     html.push_str("<body data-page=\"contents\">\n");
     html.push_str(header());
@@ -219,6 +277,10 @@ mod tests {
         PageAssets {
             stylesheet: "style.00aa11bb.css".into(),
             script: "app.22cc33dd.js".into(),
+            modules: vec!["main.1a1a1a1a.js".into(), "dom.2b2b2b2b.js".into()],
+            glue: "fluxledger_wasm.44ee55ff.js".into(),
+            wasm: "fluxledger_wasm.66aa77bb.wasm".into(),
+            query_script: "query.88cc99dd.js".into(),
             theme_colour: "#1f4e5f".into(),
             version: "0.1.0".into(),
         }
@@ -246,7 +308,7 @@ mod tests {
 
     #[test]
     fn calculator_page_has_the_frame_the_script_and_tests_rely_on() {
-        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>note</p>\n", &assets());
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>note</p>\n", None, &assets());
         for needle in [
             "<body data-calculator=\"bend\"",
             "<section id=\"calculator\"",
@@ -261,6 +323,11 @@ mod tests {
             "<a class=\"site-name\" href=\"index.html\">",
             "<p>note</p>",
             "Fluxledger 0.1.0",
+            "<link rel=\"modulepreload\" href=\"main.1a1a1a1a.js\">",
+            "<link rel=\"modulepreload\" href=\"dom.2b2b2b2b.js\">",
+            "<link rel=\"modulepreload\" href=\"fluxledger_wasm.44ee55ff.js\">",
+            "<link rel=\"preload\" href=\"fluxledger_wasm.66aa77bb.wasm\" as=\"fetch\" type=\"application/wasm\" crossorigin>",
+            "<script src=\"query.88cc99dd.js\"></script>",
         ] {
             assert!(page.contains(needle), "missing {needle}:\n{page}");
         }
@@ -272,16 +339,17 @@ mod tests {
         let own = calculator_page(
             &spec("bend", "Pipe fittings", "Bend"),
             "<h2>Method</h2>\n<p>x</p>\n",
+            None,
             &assets(),
         );
         assert_eq!(own.matches(">Method</h2>").count(), 1, "{own}");
-        let bare = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>x</p>\n", &assets());
+        let bare = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>x</p>\n", None, &assets());
         assert!(bare.contains("<h2 id=\"method-title\">Method</h2>"), "{bare}");
     }
 
     #[test]
     fn cautions_list_common_then_page_cautions_escaped() {
-        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", &assets());
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", None, &assets());
         let first_common = page.find(&escape(COMMON_CAUTIONS[0])).expect("common caution shown");
         let own = page
             .find("Check the &lt;block&gt; &amp; soil.")

@@ -16,6 +16,12 @@
 //! `sw.js` are sent with `Cache-Control: no-cache`; content-hashed files
 //! (`name.1a2b3c4d.ext`) as immutable.
 //!
+//! Precompressed files: when the build wrote `name.br` or `name.gz` beside a file
+//! and the request's `Accept-Encoding` accepts that coding (`q=0` refuses it),
+//! the compressed file is sent with `Content-Encoding` (Brotli preferred, then
+//! gzip); every response of a file that has a compressed variant says
+//! `Vary: Accept-Encoding`, so caches keep the codings apart.
+//!
 //! Every response carries the headers a page cannot set for itself in a meta tag:
 //! `Content-Security-Policy: frame-ancestors 'none'` and `X-Frame-Options: DENY` (no
 //! other site may frame a calculation sheet), `Referrer-Policy: no-referrer` (a
@@ -213,6 +219,46 @@ struct RequestHead {
     target: String,
     keep_alive: bool,
     content_length: u64,
+    accepts: Accepts,
+}
+
+/// Which content codings a request accepts.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Accepts {
+    pub brotli: bool,
+    pub gzip: bool,
+}
+
+impl Accepts {
+    /// Reads an `Accept-Encoding` value: `br`, `gzip` (or `x-gzip`) and `*`, each
+    /// refused by `q=0`.
+    pub fn parse(value: &str) -> Accepts {
+        let mut accepts = Accepts::default();
+        let mut star: Option<bool> = None;
+        let mut explicit_br: Option<bool> = None;
+        let mut explicit_gzip: Option<bool> = None;
+        for item in value.split(',') {
+            let mut parts = item.split(';');
+            let coding = parts.next().unwrap_or("").trim().to_ascii_lowercase();
+            let mut ok = true;
+            for param in parts {
+                if let Some((name, q)) = param.split_once('=') {
+                    if name.trim().eq_ignore_ascii_case("q") {
+                        ok = q.trim().parse::<f64>().map(|q| q > 0.0).unwrap_or(false);
+                    }
+                }
+            }
+            match coding.as_str() {
+                "br" => explicit_br = Some(ok),
+                "gzip" | "x-gzip" => explicit_gzip = Some(ok),
+                "*" => star = Some(ok),
+                _ => {}
+            }
+        }
+        accepts.brotli = explicit_br.or(star).unwrap_or(false);
+        accepts.gzip = explicit_gzip.or(star).unwrap_or(false);
+        accepts
+    }
 }
 
 /// Why a request head was refused.
@@ -268,6 +314,7 @@ fn read_head(reader: &mut impl BufRead) -> Result<Option<RequestHead>, HeadError
         target: target.to_string(),
         keep_alive: http11,
         content_length: 0,
+        accepts: Accepts::default(),
     };
     loop {
         line.clear();
@@ -295,6 +342,8 @@ fn read_head(reader: &mut impl BufRead) -> Result<Option<RequestHead>, HeadError
             }
         } else if name.eq_ignore_ascii_case("content-length") {
             head.content_length = value.parse().map_err(|_| HeadError::Malformed("bad content-length"))?;
+        } else if name.eq_ignore_ascii_case("accept-encoding") {
+            head.accepts = Accepts::parse(value);
         } else if name.eq_ignore_ascii_case("transfer-encoding") {
             head.content_length = u64::MAX; // bodies are not accepted
         }
@@ -352,7 +401,7 @@ fn handle_connection(stream: TcpStream, shared: &Shared) -> io::Result<()> {
         }
         let head_only = head.method == "HEAD";
         let response = if head.method == "GET" || head_only {
-            respond(&shared.root, &head.target)
+            respond_encoded(&shared.root, &head.target, head.accepts)
         } else {
             let mut r = Response::plain(405, "method not allowed");
             r.extra_headers.push(("Allow", "GET, HEAD".into()));
@@ -512,7 +561,9 @@ fn resolve_target(target: &str) -> Result<Vec<String>, u16> {
     Ok(segments)
 }
 
-fn respond(root: &Path, target: &str) -> Response {
+/// The file for `target`, as `.br` or `.gz` when one was written beside it and the
+/// request accepts it.
+fn respond_encoded(root: &Path, target: &str, accepts: Accepts) -> Response {
     let segments = match resolve_target(target) {
         Ok(segments) => segments,
         Err(status) => return Response::plain(status, if status == 404 { "not found" } else { "bad request" }),
@@ -534,13 +585,34 @@ fn respond(root: &Path, target: &str) -> Response {
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default();
-    match fs::read(&real) {
+    let variant = |ext: &str| {
+        let mut os = real.clone().into_os_string();
+        os.push(format!(".{ext}"));
+        PathBuf::from(os)
+    };
+    let (br, gz) = (variant("br"), variant("gz"));
+    let has_variant = br.is_file() || gz.is_file();
+    let (file, coding) = if accepts.brotli && br.is_file() {
+        (br, Some("br"))
+    } else if accepts.gzip && gz.is_file() {
+        (gz, Some("gzip"))
+    } else {
+        (real, None)
+    };
+    let mut extra_headers = Vec::new();
+    if let Some(coding) = coding {
+        extra_headers.push(("Content-Encoding", coding.to_string()));
+    }
+    if has_variant {
+        extra_headers.push(("Vary", "Accept-Encoding".to_string()));
+    }
+    match fs::read(&file) {
         Ok(body) => Response {
             status: 200,
             content_type: content_type(&name),
             cache_control: cache_control(&name),
             body,
-            extra_headers: Vec::new(),
+            extra_headers,
         },
         Err(_) => Response::plain(500, "could not read the file"),
     }
@@ -637,6 +709,75 @@ mod tests {
         assert_eq!(post.0, 405);
         server.stop();
         let _ = fs::remove_dir_all(&dir);
+    }
+
+    #[test]
+    fn precompressed_files_are_sent_when_accepted_with_vary() {
+        let dir = temp_site("encodings");
+        let page = b"<p>contents</p>".to_vec();
+        let gz = crate::build::gzip(&page, flate2::Compression::best());
+        let br = crate::build::brotli_compress(&page);
+        fs::write(dir.join("index.html.gz"), &gz).expect("write");
+        fs::write(dir.join("index.html.br"), &br).expect("write");
+        let mut server = serve(&dir, "127.0.0.1:0".parse().expect("addr")).expect("serve");
+        let mut conn = TcpStream::connect(server.addr()).expect("connect");
+        let get =
+            |path: &str, accept: &str| format!("GET {path} HTTP/1.1\r\nHost: x\r\nAccept-Encoding: {accept}\r\n\r\n");
+
+        let (status, head, body) = exchange(&mut conn, &get("/index.html", "gzip, deflate, br, zstd")).expect("br");
+        assert_eq!(status, 200);
+        assert!(head.contains("Content-Encoding: br\r\n"), "{head}");
+        assert!(head.contains("Vary: Accept-Encoding"), "{head}");
+        assert!(head.contains("Content-Type: text/html; charset=utf-8"), "{head}");
+        let mut decoded = Vec::new();
+        brotli::BrotliDecompress(&mut body.as_slice(), &mut decoded).expect("valid brotli");
+        assert_eq!(decoded, page, "the .br file decodes to the page");
+
+        let (_, head, body) = exchange(&mut conn, &get("/", "gzip;q=1.0, br;q=0")).expect("gzip");
+        assert!(head.contains("Content-Encoding: gzip\r\n"), "{head}");
+        let mut decoded = Vec::new();
+        flate2::read::GzDecoder::new(body.as_slice())
+            .read_to_end(&mut decoded)
+            .expect("valid gzip");
+        assert_eq!(decoded, page, "the .gz file decodes to the page");
+
+        let (_, head, body) = exchange(&mut conn, &get("/index.html", "identity")).expect("plain");
+        assert!(!head.contains("Content-Encoding"), "{head}");
+        assert!(head.contains("Vary: Accept-Encoding"), "{head}");
+        assert_eq!(body, page);
+
+        // A file without compressed variants: no coding, no Vary.
+        let (_, head, _) = exchange(&mut conn, &get("/sw.js", "br, gzip")).expect("sw");
+        assert!(!head.contains("Content-Encoding") && !head.contains("Vary"), "{head}");
+        server.stop();
+        let _ = fs::remove_dir_all(&dir);
+    }
+
+    #[test]
+    fn accept_encoding_values_are_read_with_their_weights() {
+        let both = Accepts {
+            brotli: true,
+            gzip: true,
+        };
+        assert_eq!(Accepts::parse("gzip, deflate, br, zstd"), both);
+        assert_eq!(Accepts::parse("*"), both);
+        assert_eq!(
+            Accepts::parse("br;q=0, *"),
+            Accepts {
+                brotli: false,
+                gzip: true
+            }
+        );
+        assert_eq!(
+            Accepts::parse("GZIP; q=0.5"),
+            Accepts {
+                brotli: false,
+                gzip: true
+            }
+        );
+        assert_eq!(Accepts::parse("x-gzip;q=0"), Accepts::default());
+        assert_eq!(Accepts::parse("identity"), Accepts::default());
+        assert_eq!(Accepts::parse(""), Accepts::default());
     }
 
     #[test]

@@ -285,6 +285,7 @@ pub fn verify_page(cases: &[Case], assets: &PageAssets) -> String {
         "Checks: every sourced case, run in your browser — Fluxledger",
         "Every sourced reference case of the handbook, run on this device through the same module as the calculators.",
         assets,
+        false,
     );
     html.push_str("<body data-page=\"verify\">\n");
     html.push_str(pages::header());
@@ -341,6 +342,7 @@ mod tests {
             script: "verify.22cc33dd.js".into(),
             theme_colour: "#1f4e5f".into(),
             version: "0.1.0".into(),
+            ..PageAssets::default()
         }
     }
 

@@ -27,6 +27,8 @@ mod layout;
 mod links;
 #[path = "browser/pages.rs"]
 mod pages;
+#[path = "browser/prerender.rs"]
+mod prerender;
 #[path = "browser/verify.rs"]
 mod verify;
 

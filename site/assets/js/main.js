@@ -175,8 +175,18 @@ function settleInitialValues(spec, fromUrl) {
   }
 }
 
+/**
+ * Registers the service worker in idle time (after the first result, when called
+ * at the end of `start`), so its precache does not compete with the page's own
+ * requests; browsers without `requestIdleCallback` wait a second instead.
+ */
 function registerServiceWorker() {
   if (!("serviceWorker" in navigator)) return;
+  if ("requestIdleCallback" in window) window.requestIdleCallback(registerNow, { timeout: 5000 });
+  else setTimeout(registerNow, 1000);
+}
+
+function registerNow() {
   const hadController = Boolean(navigator.serviceWorker.controller);
   navigator.serviceWorker.addEventListener("controllerchange", () => {
     // The first install takes control silently; a later one means a new version.
