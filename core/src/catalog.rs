@@ -218,9 +218,12 @@ impl CalculatorSpec {
 
 /// Cautions shown on every calculator page.
 pub const COMMON_CAUTIONS: &[&str] = &[
-    "Design to the highest pressure the line will see, including the field test pressure and surge, not only the operating pressure.",
-    "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be undermined by later excavation.",
-    "Results are idealised control-volume balances. They support, and do not replace, the judgement of a licensed engineer and the local codes that govern the work.",
+    "Design to the highest pressure the line will see, including the field test pressure and surge, not only \
+            the operating pressure.",
+    "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be \
+            undermined by later excavation.",
+    "Results are idealised control-volume balances. They support, and do not replace, the judgement of a \
+            licensed engineer and the local codes that govern the work.",
 ];
 
 /// Raw inputs as typed by the user, keyed by field key.

@@ -418,30 +418,6 @@ fn max_width() -> usize {
         .unwrap_or(100)
 }
 
-/// Core files that still have lines rustfmt could not bring within the width (long
-/// help texts and labels inside expressions), being fixed by the helpers who own them
-/// (issue 13 §6). The lead shrinks this list after merging; a listed file is still
-/// measured and its count printed.
-const FILES_STILL_TOO_WIDE: &[&str] = &[
-    "calculators/bend",
-    "calculators/common",
-    "calculators/dead_end",
-    "calculators/jet_plate",
-    "calculators/line_schedule",
-    "calculators/nozzle",
-    "calculators/reducer",
-    "calculators/tee",
-    "calculators/thrust_block",
-    "calculators/vane",
-    "restraint",
-    "catalog.rs",
-    "engine.rs",
-    "error.rs",
-    "fluid.rs",
-    "glossary.rs",
-    "units.rs",
-];
-
 #[test]
 fn core_lines_are_within_the_configured_width() {
     let width = max_width();
@@ -462,19 +438,7 @@ fn core_lines_are_within_the_configured_width() {
             .filter(|(_, line)| line.chars().count() > width)
             .map(|(number, _)| number + 1)
             .collect();
-        // An entry names a file, or a page's module and its folder (`calculators/tee`
-        // covers `calculators/tee.rs` and `calculators/tee/*.rs`).
-        let still_allowed = FILES_STILL_TOO_WIDE.iter().any(|entry| {
-            relative == *entry
-                || relative.starts_with(&format!("{entry}."))
-                || relative.starts_with(&format!("{entry}/"))
-        });
-        if still_allowed {
-            println!(
-                "note: core/src/{relative}: {} lines wider than {width} (allowed for now)",
-                wide.len()
-            );
-        } else if !wide.is_empty() {
+        if !wide.is_empty() {
             problems.push(format!("core/src/{relative}: lines {wide:?}"));
         }
     }

@@ -72,7 +72,8 @@ pub fn spec() -> CalculatorSpec {
             "Closure",
             CLOSURE_OPTIONS,
             "blind_flange",
-            "The thrust is the same for each; a closed valve carries it only while the line beyond is empty or open to air.",
+            "The thrust is the same for each; a closed valve carries it only while the line beyond is empty or \
+                    open to air.",
         ),
         quantity(
             "p",
@@ -82,7 +83,8 @@ pub fn spec() -> CalculatorSpec {
             "psi",
             "12 bar",
             Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so not below 0.",
+            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
+                    not below 0.",
         ),
         quantity(
             "d",
@@ -111,7 +113,8 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 "222 mm",
                 Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Needed for push-on and mechanical joints (the outside-diameter basis); with it the inside-diameter thrust is shown as well.",
+                "Needed for push-on and mechanical joints (the outside-diameter basis); with it the \
+                        inside-diameter thrust is shown as well.",
             )
         },
     ];
@@ -154,8 +157,10 @@ pub fn spec() -> CalculatorSpec {
             },
         ],
         cautions: vec![
-            "A closed valve must be restrained on the side that can lose its pressure; a valve in a chamber needs its own anchor.",
-            "Caps and blind flanges are often removed later to extend the line: the restraint must stay until the line is depressurised.",
+            "A closed valve must be restrained on the side that can lose its pressure; a valve in a chamber \
+                    needs its own anchor.",
+            "Caps and blind flanges are often removed later to extend the line: the restraint must stay until \
+                    the line is depressurised.",
         ],
     }
 }
@@ -295,7 +300,8 @@ fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if closure == "closed_valve" {
         report.warn(
             Some("closure"),
-            "a closed valve carries this thrust only while the line beyond it is empty or open; with equal pressure on both sides it carries none",
+            "a closed valve carries this thrust only while the line beyond it is empty or open; with equal \
+                    pressure on both sides it carries none",
         );
     }
 
@@ -424,7 +430,9 @@ fn diagram(
         title: "Dead end: control volume and forces".to_string(),
         bounds,
         shapes,
-        caption: "Pipe and closure to scale; the force arrows share one scale. T acts on the supports, towards the closure; R = −T is what the restraint supplies.".to_string(),
+        caption: "Pipe and closure to scale; the force arrows share one scale. T acts on the supports, towards the \
+                closure; R = −T is what the restraint supplies."
+            .to_string(),
     }
 }
 

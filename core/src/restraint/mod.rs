@@ -205,7 +205,9 @@ pub const OD_JOINTS: &[&str] = &[Joint::PushOn.key(), Joint::Mechanical.key(), J
 
 /// Help text of every joint selector: why the bore is offered only for joints that
 /// seal on it.
-pub const JOINT_HELP: &str = "Push-on and mechanical joints seal on the outside of the spigot, restrained or not, so the pressure acts over the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints seal on the bore.";
+pub const JOINT_HELP: &str =
+    "Push-on and mechanical joints seal on the outside of the spigot, restrained or not, so the pressure acts over \
+        the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints seal on the bore.";
 
 /// Whether a joint key takes its thrust area on the outside diameter.
 pub fn joint_uses_od(joint: &str) -> bool {

@@ -130,29 +130,90 @@ pub fn spec() -> CalculatorSpec {
     fields.extend([
         FieldSpec {
             optional: true,
-            ..quantity("k", "Loss coefficient K", Q::Ratio, "-", "-", "", Limits::closed(0.0, 50.0), "Head loss K·V²/2g on the inlet velocity; empty means no loss. Name the method your K comes from (Crane, Idelchik, ...).")
+            ..quantity(
+                "k",
+                "Loss coefficient K",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(0.0, 50.0),
+                "Head loss K·V²/2g on the inlet velocity; empty means no loss. Name the method your K comes from \
+                    (Crane, Idelchik, ...).",
+            )
         },
         FieldSpec {
             optional: true,
-            ..choice("joint", "Joints at the bend (thrust area)", crate::restraint::Joint::OPTIONS, "flanged", crate::restraint::JOINT_HELP)
+            ..choice(
+                "joint",
+                "Joints at the bend (thrust area)",
+                crate::restraint::Joint::OPTIONS,
+                "flanged",
+                crate::restraint::JOINT_HELP,
+            )
         },
         FieldSpec {
             visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
-            ..quantity("od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
+            ..quantity(
+                "od",
+                "Inlet pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "330 mm",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical \
+                    joint).",
+            )
         },
         FieldSpec {
             visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
             optional: true,
-            ..quantity("od2", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
+            ..quantity(
+                "od2",
+                "Outlet pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Empty: the inlet's outside diameter (an equal-size bend).",
+            )
         },
-        choice("plane", "Plane of the bend", PLANE_OPTIONS, "horizontal", "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the plane."),
+        choice(
+            "plane",
+            "Plane of the bend",
+            PLANE_OPTIONS,
+            "horizontal",
+            "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the \
+                plane.",
+        ),
         FieldSpec {
             optional: true,
-            ..quantity("r_bend", "Centre-line bend radius", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, 100.0), "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet diameter.")
+            ..quantity(
+                "r_bend",
+                "Centre-line bend radius",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, 100.0),
+                "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet \
+                    diameter.",
+            )
         },
         FieldSpec {
             optional: true,
-            ..quantity("w_fitting", "Weight of the fitting and carried pipe", Q::Force, "kN", "lbf", "", Limits::closed(0.0, 1e8), "Optional dead weight the restraint also carries (vertical bends).")
+            ..quantity(
+                "w_fitting",
+                "Weight of the fitting and carried pipe",
+                Q::Force,
+                "kN",
+                "lbf",
+                "",
+                Limits::closed(0.0, 1e8),
+                "Optional dead weight the restraint also carries (vertical bends).",
+            )
         },
     ]);
     CalculatorSpec {
@@ -162,25 +223,104 @@ pub fn spec() -> CalculatorSpec {
         summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
         fields,
         outputs: vec![
-            OutputSpec { key: "thrust", label: "Thrust on the supports (resultant)", kind: Q::Force, headline: true },
-            OutputSpec { key: "thrust_in_plane", label: "Thrust in the plane of the bend", kind: Q::Force, headline: true },
-            OutputSpec { key: "thrust_angle", label: "Direction of the in-plane thrust, from the inlet flow direction", kind: Q::Angle, headline: false },
-            OutputSpec { key: "thrust_x", label: "Thrust along the inlet flow (x)", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_y", label: "Thrust across it, in the plane (y)", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_z", label: "Thrust normal to the plane (z, up in plan view)", kind: Q::Force, headline: false },
-            OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "v_in", label: "Mean velocity at the inlet", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out", label: "Mean velocity at the outlet", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "flow", label: "Volumetric flow", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "momentum_share", label: "Momentum flux ÷ pressure force", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "fluid_weight", label: "Weight of the fluid inside", kind: Q::Force, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
-            OutputSpec { key: "viscosity", label: "Fluid viscosity", kind: Q::DynamicViscosity, headline: false },
+            OutputSpec {
+                key: "thrust",
+                label: "Thrust on the supports (resultant)",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec {
+                key: "thrust_in_plane",
+                label: "Thrust in the plane of the bend",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec {
+                key: "thrust_angle",
+                label: "Direction of the in-plane thrust, from the inlet flow direction",
+                kind: Q::Angle,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_x",
+                label: "Thrust along the inlet flow (x)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_y",
+                label: "Thrust across it, in the plane (y)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_z",
+                label: "Thrust normal to the plane (z, up in plan view)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "p_out",
+                label: "Gauge pressure at the outlet",
+                kind: Q::Pressure,
+                headline: false,
+            },
+            OutputSpec {
+                key: "v_in",
+                label: "Mean velocity at the inlet",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "v_out",
+                label: "Mean velocity at the outlet",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "flow",
+                label: "Volumetric flow",
+                kind: Q::VolumeFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "mass_flow",
+                label: "Mass flow",
+                kind: Q::MassFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "momentum_share",
+                label: "Momentum flux ÷ pressure force",
+                kind: Q::Ratio,
+                headline: false,
+            },
+            OutputSpec {
+                key: "fluid_weight",
+                label: "Weight of the fluid inside",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "density",
+                label: "Fluid density",
+                kind: Q::Density,
+                headline: false,
+            },
+            OutputSpec {
+                key: "viscosity",
+                label: "Fluid viscosity",
+                kind: Q::DynamicViscosity,
+                headline: false,
+            },
         ],
         cautions: vec![
-            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical joints, restrained or not, seal on the spigot's outside: choose their joint (the outside diameter) for them.",
-            "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a gravity block must outweigh it. Where the line turns upward (a sag) it points down into the ground.",
+            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical \
+                    joints, restrained or not, seal on the spigot's outside: choose their joint (the outside \
+                    diameter) for them.",
+            "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a \
+                    gravity block must outweigh it. Where the line turns upward (a sag) it points down into the \
+                    ground.",
         ],
     }
 }

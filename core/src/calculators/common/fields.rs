@@ -124,7 +124,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "lb/(ft.s)",
                 "",
                 Limits::closed(1e-6, 1e3),
-                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 mPa·s to 10⁶ mPa·s.",
+                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 \
+                        mPa·s to 10⁶ mPa·s.",
             )
         },
     ]
@@ -311,7 +312,10 @@ pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
 ];
 
 /// Help text of every area-basis selector: why restrained joints take the OD.
-pub const AREA_BASIS_HELP: &str = "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the inside diameter.";
+pub const AREA_BASIS_HELP: &str =
+    "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside \
+        diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the \
+        inside diameter.";
 
 // --- Free jets from a nozzle (jet on a plate, jet on a vane, ...) -------------------
 
@@ -373,28 +377,76 @@ pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
             "Jet given as",
             JET_BASIS_OPTIONS,
             basis,
-            "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at the nozzle inlet through V = Cv·√(2gH).",
+            "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at \
+                    the nozzle inlet through V = Cv·√(2gH).",
         ),
         FieldSpec {
             visible_when: Some(("flow_given", &["v"])),
-            ..quantity("v", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED), "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.")
+            ..quantity(
+                "v",
+                "Jet velocity",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                v,
+                Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED),
+                "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["q"])),
-            ..quantity("q", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::closed(1e-6, 100.0), "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet area.")
+            ..quantity(
+                "q",
+                "Jet flow",
+                Q::VolumeFlow,
+                "L/s",
+                "gpm",
+                q,
+                Limits::closed(1e-6, 100.0),
+                "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet \
+                    area.",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["head"])),
-            ..quantity("head", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::closed(1e-3, 10_000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
+            ..quantity(
+                "head",
+                "Total head at the nozzle inlet",
+                Q::Length,
+                "m",
+                "ft",
+                head,
+                Limits::closed(1e-3, 10_000.0),
+                "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["p"])),
-            ..quantity("p", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::closed(10.0, MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
+            ..quantity(
+                "p",
+                "Gauge pressure at the nozzle inlet",
+                Q::Pressure,
+                "kPa",
+                "psi",
+                p,
+                Limits::closed(10.0, MAX_PRESSURE_PA),
+                "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["head", "p"])),
             optional: true,
-            ..quantity("cv", "Velocity coefficient Cv", Q::Ratio, "-", "-", cv, Limits::closed(0.6, 1.0), "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common practice). Empty means 1 (ideal).")
+            ..quantity(
+                "cv",
+                "Velocity coefficient Cv",
+                Q::Ratio,
+                "-",
+                "-",
+                cv,
+                Limits::closed(0.6, 1.0),
+                "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common \
+                    practice). Empty means 1 (ideal).",
+            )
         },
     ]
 }
@@ -436,7 +488,8 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         return Err(vec![FieldError::inconsistent(
             field,
             format!(
-                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} m/s",
+                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} \
+                        m/s",
                 crate::units::format_significant(velocity, 4)
             ),
         )]);

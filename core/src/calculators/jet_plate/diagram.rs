@@ -137,6 +137,10 @@ pub fn diagram(inputs: &Inputs, plate: &Plate, report: &Report<'_>) -> Diagram {
         title: "Jet on a flat plate: control volume, flows and force".to_string(),
         bounds,
         shapes,
-        caption: "Jet and plate to scale with the jet diameter; distances along the jet and the plate are schematic. The sheets along the plate are drawn with thicknesses in proportion to their flows, a 2-D picture of a round jet's 3-D spread. The force arrow is the force on the plate (normal to it); the support supplies the opposite.".to_string(),
+        caption: "Jet and plate to scale with the jet diameter; distances along the jet and the plate are schematic. \
+                The sheets along the plate are drawn with thicknesses in proportion to their flows, a 2-D picture of \
+                a round jet's 3-D spread. The force arrow is the force on the plate (normal to it); the support \
+                supplies the opposite."
+            .to_string(),
     }
 }

@@ -72,7 +72,8 @@ pub fn spec() -> CalculatorSpec {
         "deg",
         "60 deg",
         Limits::closed(MIN_ANGLE, PI / 2.0),
-        "Angle between the jet axis and the plate surface, 1 to 90 degrees; 90 degrees is a plate normal to the jet.",
+        "Angle between the jet axis and the plate surface, 1 to 90 degrees; 90 degrees is a plate normal to \
+                the jet.",
     )];
     fields.extend(common::jet_fields([
         "38 mm", "p", "30 m/s", "20 L/s", "45 m", "4.5 bar", "0.97",
@@ -85,26 +86,102 @@ pub fn spec() -> CalculatorSpec {
         summary: "Force of a free jet on a fixed normal or inclined plate, and how the flow splits along the plate.",
         fields,
         outputs: vec![
-            OutputSpec { key: "force_normal", label: "Force on the plate, normal to it", kind: Q::Force, headline: true },
-            OutputSpec { key: "force_along_jet", label: "Component along the jet (x)", kind: Q::Force, headline: false },
-            OutputSpec { key: "force_across_jet", label: "Component across the jet (y)", kind: Q::Force, headline: false },
-            OutputSpec { key: "q_forward", label: "Flow along the plate, forward branch", kind: Q::VolumeFlow, headline: true },
-            OutputSpec { key: "q_back", label: "Flow along the plate, back branch", kind: Q::VolumeFlow, headline: true },
-            OutputSpec { key: "share_forward", label: "Forward share Q₁/Q", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "share_back", label: "Back share Q₂/Q", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "jet_velocity", label: "Jet velocity", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "jet_flow", label: "Jet flow", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "mass_flow", label: "Jet mass flow", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "jet_momentum", label: "Jet momentum flux ρQV (force on a normal plate)", kind: Q::Force, headline: false },
-            OutputSpec { key: "stagnation_pressure", label: "Stagnation pressure at the impact point, ρV²/2", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "jet_power", label: "Jet kinetic-energy flux ρQV²/2", kind: Q::Power, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec {
+                key: "force_normal",
+                label: "Force on the plate, normal to it",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec {
+                key: "force_along_jet",
+                label: "Component along the jet (x)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "force_across_jet",
+                label: "Component across the jet (y)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "q_forward",
+                label: "Flow along the plate, forward branch",
+                kind: Q::VolumeFlow,
+                headline: true,
+            },
+            OutputSpec {
+                key: "q_back",
+                label: "Flow along the plate, back branch",
+                kind: Q::VolumeFlow,
+                headline: true,
+            },
+            OutputSpec {
+                key: "share_forward",
+                label: "Forward share Q₁/Q",
+                kind: Q::Ratio,
+                headline: false,
+            },
+            OutputSpec {
+                key: "share_back",
+                label: "Back share Q₂/Q",
+                kind: Q::Ratio,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_velocity",
+                label: "Jet velocity",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_flow",
+                label: "Jet flow",
+                kind: Q::VolumeFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "mass_flow",
+                label: "Jet mass flow",
+                kind: Q::MassFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_momentum",
+                label: "Jet momentum flux ρQV (force on a normal plate)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "stagnation_pressure",
+                label: "Stagnation pressure at the impact point, ρV²/2",
+                kind: Q::Pressure,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_power",
+                label: "Jet kinetic-energy flux ρQV²/2",
+                kind: Q::Power,
+                headline: false,
+            },
+            OutputSpec {
+                key: "density",
+                label: "Fluid density",
+                kind: Q::Density,
+                headline: false,
+            },
         ],
         cautions: vec![
-            "Idealised jet: no spreading, break-up, air entrainment, friction or windage, and the jet's weight neglected. A jet that has travelled far from its nozzle spreads and breaks up and gives less force, but design the plate and its fixings for the full value.",
-            "The plate must be large enough to turn the whole jet parallel to its surface. A small plate deflects less and takes less force; a plate with a lip or a dished face turns the jet back and takes more (up to twice ρQV; use the vane page).",
-            "A high-pressure water jet injures people and cuts skin: keep people out of its path and guard deflectors and test rigs.",
-            "Defer to the equipment manufacturer's ratings and to a licensed engineer for the plate, its supports and anchors.",
+            "Idealised jet: no spreading, break-up, air entrainment, friction or windage, and the jet's weight \
+                    neglected. A jet that has travelled far from its nozzle spreads and breaks up and gives less \
+                    force, but design the plate and its fixings for the full value.",
+            "The plate must be large enough to turn the whole jet parallel to its surface. A small plate \
+                    deflects less and takes less force; a plate with a lip or a dished face turns the jet back and \
+                    takes more (up to twice ρQV; use the vane page).",
+            "A high-pressure water jet injures people and cuts skin: keep people out of its path and guard \
+                    deflectors and test rigs.",
+            "Defer to the equipment manufacturer's ratings and to a licensed engineer for the plate, its \
+                    supports and anchors.",
         ],
     }
 }

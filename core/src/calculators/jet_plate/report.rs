@@ -57,7 +57,8 @@ pub fn write(inputs: &Inputs, plate: &Plate, report: &mut Report<'_>) {
     if theta < 10.0 * PI / 180.0 {
         report.warn(
             Some("plate_angle"),
-            "the jet nearly grazes the plate: almost all of it runs on forward and the normal force is small; a real jet spreads and may miss the plate",
+            "the jet nearly grazes the plate: almost all of it runs on forward and the normal force is small; \
+                    a real jet spreads and may miss the plate",
         );
     }
 

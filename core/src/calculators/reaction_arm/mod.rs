@@ -208,7 +208,8 @@ pub fn spec() -> CalculatorSpec {
             "The arm is fed at",
             FLOW_GIVEN_OPTIONS,
             "q",
-            "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ + ω²R²).",
+            "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ \
+                    + ω²R²).",
         ),
         FieldSpec {
             visible_when: Some(("flow_given", &["q"])),

@@ -18,7 +18,8 @@ use super::{MAX_NOZZLES, PLOT_POINTS, RESIDUE};
 use crate::calculators::common;
 
 const HUB_BORE_TOO_SMALL: &str =
-    "the hub bore is too small: its velocity head exceeds the jets' and no jet speed matches the supply pressure";
+    "the hub bore is too small: its velocity head exceeds the jets' and no jet speed matches the supply \
+            pressure";
 const RUNS_FREE: &str = "the arm runs free (no load): it takes no shaft power, so all the supply's energy leaves \
     in the jets and the nozzle loss";
 const SHAFT_DRIVES: &str = "the shaft drives the arm at this speed (it works as a pump): the ratio of shaft to \

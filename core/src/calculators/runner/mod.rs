@@ -164,14 +164,16 @@ pub fn spec() -> CalculatorSpec {
             "Machine",
             MACHINE_OPTIONS,
             "pump",
-            "Sets the sign convention: a turbine's Euler head is taken out of the water, a pump's is given to it.",
+            "Sets the sign convention: a turbine's Euler head is taken out of the water, a pump's is given to \
+                    it.",
         ),
         choice(
             "layout",
             "Flow through the blades",
             LAYOUT_OPTIONS,
             "radial",
-            "Radial: give the two radii and blade heights. Axial: give the mean radius and the two annulus areas.",
+            "Radial: give the two radii and blade heights. Axial: give the mean radius and the two annulus \
+                    areas.",
         ),
         FieldSpec {
             visible_when: radial,

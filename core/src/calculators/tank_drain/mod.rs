@@ -87,8 +87,10 @@ const UNSTEADY_NOTICE_RATIO: f64 = 0.1;
 /// The usual cautions of the page.
 const CAUTIONS: &[&str] = &[
     "Vent the tank: a tank that cannot draw air in as it drains is pulled into vacuum and can collapse.",
-    "The discharge coefficient governs the answer; measure it or take it from a published source for your outlet.",
-    "A dam-break-like release from a large outlet is violent: keep people clear of the outlet and the receiving area.",
+    "The discharge coefficient governs the answer; measure it or take it from a published source for your \
+            outlet.",
+    "A dam-break-like release from a large outlet is violent: keep people clear of the outlet and the \
+            receiving area.",
     "Defer to the tank's manufacturer, the local codes and a licensed engineer for the tank, its vent and where the \
         drained liquid goes.",
 ];
@@ -99,7 +101,8 @@ const D_TANK_HELP: &str = "Inside diameter of a vertical cylindrical tank.";
 const D_ORIFICE_HELP: &str =
     "Diameter of the outlet hole or short nozzle in the tank bottom; at most 99.9 % of the tank diameter.";
 const CD_HELP: &str =
-    "About 0.61 for a sharp-edged orifice, 0.8 for a short tube, 0.95 to 0.98 for a rounded nozzle (common practice).";
+    "About 0.61 for a sharp-edged orifice, 0.8 for a short tube, 0.95 to 0.98 for a rounded nozzle (common \
+            practice).";
 const CV_HELP: &str =
     "Jet velocity ÷ ideal velocity: about 0.98 for a sharp-edged orifice, 0.8 for a short tube, 0.95 \
     to 0.99 for a rounded nozzle (common practice). Not below C_d: the contraction coefficient C_d/C_v is at most 1.";

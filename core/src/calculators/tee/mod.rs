@@ -371,7 +371,8 @@ pub fn spec() -> CalculatorSpec {
             "in",
             "310 mm",
             Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-            "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when combining).",
+            "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when \
+                    combining).",
         ),
         quantity(
             "p",
@@ -381,7 +382,8 @@ pub fn spec() -> CalculatorSpec {
             "psi",
             "10 bar",
             Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure at the common pipe's face: the highest the line will see, test and surge included. Gauge, so not below 0.",
+            "The design pressure at the common pipe's face: the highest the line will see, test and surge \
+                    included. Gauge, so not below 0.",
         ),
     ];
     for mut field in common::flow_fields("850 m3/h") {
@@ -431,7 +433,9 @@ pub fn spec() -> CalculatorSpec {
             "Joints at the junction",
             JOINT_OPTIONS,
             "flanged",
-            "Push-on and mechanical joints, restrained or not, seal on the spigot's outside: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Flanged, welded and fused joints seal on the bore. Empty means a joint that seals on the bore.",
+            "Push-on and mechanical joints, restrained or not, seal on the spigot's outside: the pressure then \
+                    also acts on the wall annulus out to each pipe's outside diameter. Flanged, welded and fused \
+                    joints seal on the bore. Empty means a joint that seals on the bore.",
         )
     });
     fields.push(FieldSpec {
@@ -472,7 +476,8 @@ pub fn spec() -> CalculatorSpec {
                 "deg",
                 b.angle_demo,
                 Limits::closed(-PI, PI),
-                "Direction the fluid moves in this branch, counter-clockwise in plan from its direction in the common pipe: 0° straight on, 90° a square branch to the left, −90° to the right.",
+                "Direction the fluid moves in this branch, counter-clockwise in plan from its direction in the \
+                        common pipe: 0° straight on, 90° a square branch to the left, −90° to the right.",
             )
         });
         fields.push(FieldSpec {
@@ -500,7 +505,8 @@ pub fn spec() -> CalculatorSpec {
                 "%",
                 b.share_demo,
                 Limits::closed(0.0, 1.0),
-                "Share of the common flow, 0 to 100 %. Leave exactly one branch empty: its flow is solved from the mass balance.",
+                "Share of the common flow, 0 to 100 %. Leave exactly one branch empty: its flow is solved from \
+                        the mass balance.",
             )
         });
         fields.push(FieldSpec {
@@ -514,7 +520,10 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 b.k_demo,
                 Limits::closed(MIN_LOSS_COEFFICIENT, MAX_LOSS_COEFFICIENT),
-                "Head loss K·V²/2g between the common pipe and this branch, −1 to 50; empty means no loss. Published tee data has negative K for some flow splits (the stream gains energy from the others), down to −1 on the common pipe's velocity; the losses of all branches together must not create energy. Name the method (Idelchik, Miller, Crane).",
+                "Head loss K·V²/2g between the common pipe and this branch, −1 to 50; empty means no loss. \
+                        Published tee data has negative K for some flow splits (the stream gains energy from the \
+                        others), down to −1 on the common pipe's velocity; the losses of all branches together must \
+                        not create energy. Name the method (Idelchik, Miller, Crane).",
             )
         });
         fields.push(FieldSpec {
@@ -528,7 +537,9 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 b.od_demo,
                 Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-                "Needed only for push-on, mechanical or restrained joints (the thrust acts on the outside diameter), and then for every branch in use: the branch pipe's outside diameter at its joint. Left empty for flanged, welded or fused joints.",
+                "Needed only for push-on, mechanical or restrained joints (the thrust acts on the outside \
+                        diameter), and then for every branch in use: the branch pipe's outside diameter at its joint. \
+                        Left empty for flanged, welded or fused joints.",
             )
         });
     }
@@ -646,14 +657,20 @@ pub fn spec() -> CalculatorSpec {
         key: KEY,
         title: "Tee, wye or manifold thrust",
         group: crate::catalog::group::FITTINGS,
-        summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or combining, with one unknown branch flow solved by mass.",
+        summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or \
+                combining, with one unknown branch flow solved by mass.",
         fields,
         outputs,
         cautions: vec![
-            "For push-on and mechanical joints, restrained or not, choose them under joints (the outside-diameter basis): using the bores there under-states the thrust by the wall's share, often 15 % or more.",
-            "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
-            "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
-            "A negative loss coefficient (the stream gains energy from the others) holds only for the flow split and area ratio it was published for: recheck it whenever the split changes.",
+            "For push-on and mechanical joints, restrained or not, choose them under joints (the \
+                    outside-diameter basis): using the bores there under-states the thrust by the wall's share, often \
+                    15 % or more.",
+            "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's \
+                    flow set to zero, and with the run closed too.",
+            "Junction loss coefficients depend strongly on the flow split and the area ratios; published \
+                    tables (Idelchik, Miller, Crane) differ: name yours.",
+            "A negative loss coefficient (the stream gains energy from the others) holds only for the flow \
+                    split and area ratio it was published for: recheck it whenever the split changes.",
         ],
     }
 }
@@ -751,7 +768,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
         if direction.dot(Vec3::new(-1.0, 0.0, 0.0)) > (10f64).to_radians().cos() {
             errors.push(FieldError::inconsistent(
                 b.angle,
-                "the branch would lie along the common pipe: its direction must differ from 180° by more than 10°",
+                "the branch would lie along the common pipe: its direction must differ from 180° by more than \
+                        10°",
             ));
             continue;
         }
@@ -760,7 +778,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             if !values.is_set(b.od) {
                 errors.push(FieldError::inconsistent(
                     b.od,
-                    "an outside diameter is required for push-on, mechanical or restrained joints: the thrust acts on it",
+                    "an outside diameter is required for push-on, mechanical or restrained joints: the thrust \
+                            acts on it",
                 ));
                 continue;
             }
@@ -803,7 +822,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
     if empty.len() > 1 {
         return Err(FieldError::inconsistent(
             BRANCHES[empty[1]].share,
-            "only one branch's flow share can be left empty (it is solved from the mass balance): give this one",
+            "only one branch's flow share can be left empty (it is solved from the mass balance): give this \
+                    one",
         )
         .into());
     }
@@ -813,7 +833,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             return Err(FieldError::inconsistent(
                 field,
                 format!(
-                    "the branch flow shares add up to {}; they must add up to 100 % (or leave one empty to be solved)",
+                    "the branch flow shares add up to {}; they must add up to 100 % (or leave one empty to be \
+                            solved)",
                     percent(given_sum)
                 ),
             )
@@ -823,10 +844,12 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             return Err(FieldError::inconsistent(
                 field,
                 format!(
-                    "the given branch flow shares add up to {}, over 100 %: the remaining branch would have to flow backwards",
+                    "the given branch flow shares add up to {}, over 100 %: the remaining branch would have to \
+                            flow backwards",
                     percent(given_sum)
                 ),
-            ).into());
+            )
+            .into());
         }
         _ => {}
     }
@@ -867,7 +890,9 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
             return Err(FieldError::inconsistent(
                 key,
                 format!(
-                    "on the common pipe's velocity this loss coefficient is {}, below the lowest published junction value of {} (Crane TP-410, converging tee): allowed is {} to {} on the common velocity",
+                    "on the common pipe's velocity this loss coefficient is {}, below the lowest published \
+                            junction value of {} (Crane TP-410, converging tee): allowed is {} to {} on the common \
+                            velocity",
                     units::format_significant(on_common, 4),
                     MIN_LOSS_COEFFICIENT,
                     MIN_LOSS_COEFFICIENT,
@@ -886,7 +911,9 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
         if dissipation < -1e-12 * magnitude {
             return Err(FieldError::inconsistent(
                 key,
-                "with these loss coefficients and flows the junction would create energy: the gain of the streams with negative K exceeds the losses of the others (Σ flow × K × V²/2 over the branches must not be negative); check the coefficients and the split they belong to",
+                "with these loss coefficients and flows the junction would create energy: the gain of the \
+                        streams with negative K exceeds the losses of the others (Σ flow × K × V²/2 over the branches \
+                        must not be negative); check the coefficients and the split they belong to",
             ));
         }
     }

@@ -137,30 +137,297 @@ pub fn spec() -> CalculatorSpec {
     let fitting_only = |keys: &'static [&'static str]| Some(("fitting", keys));
     const FITTINGS: &[&str] = &["bend", "dead_end", "tee", "reducer"];
     let mut fields = vec![
-        choice("fitting", "Fitting to restrain", FITTING_OPTIONS, "bend", "The thrust is recomputed here at the design pressure; choose 'a given thrust' to size a block for a force from elsewhere."),
-        FieldSpec { visible_when: fitting_only(&["force"]), ..quantity("thrust", "Thrust to restrain", Q::Force, "kN", "lbf", "", Limits::closed(1.0, 1e9), "Resultant thrust on the restraint at the design pressure (from a fitting page).") },
-        FieldSpec { visible_when: fitting_only(&["force"]), optional: true, ..quantity("thrust_elev", "Angle of the given thrust above horizontal", Q::Angle, "deg", "deg", "", Limits::closed(-PI / 2.0, PI / 2.0), "0 for a horizontal thrust, 90° straight up (gravity block), −90° straight down. Empty: from the plane chosen below.") },
-        FieldSpec { visible_when: fitting_only(&["bend"]), ..quantity("angle", "Bend deflection angle", Q::Angle, "deg", "deg", "45 deg", Limits::closed(MIN_ANGLE, PI), "From 0.1° to 180°; 11¼, 22½, 45 and 90° are the usual fittings.") },
-        choice("plane", "Plane and block type", PLANE_OPTIONS, "horizontal", "A horizontal fitting bears sideways on the trench wall; a crest in a vertical bend pushes up and needs a gravity block; a sag pushes down."),
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..choice("legs", "Legs of a vertical bend", LEGS_OPTIONS, "symmetric", "A bend at a summit or low point with both legs sloped has the larger vertical thrust (2·sin(θ/2) against sin θ: 8 % more at 45°, 41 % more at 90°). Used for bends only; empty: both legs sloped.") },
-        choice("size", "Pipe size", pipe_sizes::SIZE_OPTIONS, "di52_12", "A preset gives both diameters; typed diameters below override it."),
-        FieldSpec { optional: true, ..quantity("d", "Inside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Bore of the pipe at the fitting's main end.") },
-        FieldSpec { optional: true, ..quantity("od", "Outside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), ..choice("size2", "Branch (tee) or small-end (reducer) size", pipe_sizes::SIZE_OPTIONS, "custom", "A preset, or type the diameters below.") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("d2", "Branch or small-end inside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("od2", "Branch or small-end outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", JOINT_HELP) },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included.") },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..quantity("p", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
-        FieldSpec { visible_when: Some(("test_rule", &["en805"])), optional: true, ..quantity("mdp", "Maximum design pressure MDP (EN 805), gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "MDP includes surge. Empty: the working pressure plus EN 805's smallest surge allowance, 2 bar (200 kPa).") },
-        FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Used by the surge and highest bases and the EN 805 calculated-surge test rule. Empty: no surge estimate.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "from_size", "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of the size preset (a PVC size gets PVC).") },
-        FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::closed(50e6, 1e12), "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to 1000 GPa.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::closed(0.1e-3, 1.0), "Empty: half the difference of outside and inside diameters.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("bulk_modulus", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::closed(10e6, 1e11), "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.") },
+        choice(
+            "fitting",
+            "Fitting to restrain",
+            FITTING_OPTIONS,
+            "bend",
+            "The thrust is recomputed here at the design pressure; choose 'a given thrust' to size a block \
+                for a force from elsewhere.",
+        ),
+        FieldSpec {
+            visible_when: fitting_only(&["force"]),
+            ..quantity(
+                "thrust",
+                "Thrust to restrain",
+                Q::Force,
+                "kN",
+                "lbf",
+                "",
+                Limits::closed(1.0, 1e9),
+                "Resultant thrust on the restraint at the design pressure (from a fitting page).",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["force"]),
+            optional: true,
+            ..quantity(
+                "thrust_elev",
+                "Angle of the given thrust above horizontal",
+                Q::Angle,
+                "deg",
+                "deg",
+                "",
+                Limits::closed(-PI / 2.0, PI / 2.0),
+                "0 for a horizontal thrust, 90° straight up (gravity block), −90° straight down. Empty: from \
+                the plane chosen below.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["bend"]),
+            ..quantity(
+                "angle",
+                "Bend deflection angle",
+                Q::Angle,
+                "deg",
+                "deg",
+                "45 deg",
+                Limits::closed(MIN_ANGLE, PI),
+                "From 0.1° to 180°; 11¼, 22½, 45 and 90° are the usual fittings.",
+            )
+        },
+        choice(
+            "plane",
+            "Plane and block type",
+            PLANE_OPTIONS,
+            "horizontal",
+            "A horizontal fitting bears sideways on the trench wall; a crest in a vertical bend pushes up \
+                and needs a gravity block; a sag pushes down.",
+        ),
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])),
+            optional: true,
+            ..choice(
+                "legs",
+                "Legs of a vertical bend",
+                LEGS_OPTIONS,
+                "symmetric",
+                "A bend at a summit or low point with both legs sloped has the larger vertical thrust \
+                (2·sin(θ/2) against sin θ: 8 % more at 45°, 41 % more at 90°). Used for bends only; empty: \
+                both legs sloped.",
+            )
+        },
+        choice(
+            "size",
+            "Pipe size",
+            pipe_sizes::SIZE_OPTIONS,
+            "di52_12",
+            "A preset gives both diameters; typed diameters below override it.",
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "d",
+                "Inside diameter (overrides the preset)",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Bore of the pipe at the fitting's main end.",
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "od",
+                "Outside diameter (overrides the preset)",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["tee", "reducer"]),
+            ..choice(
+                "size2",
+                "Branch (tee) or small-end (reducer) size",
+                pipe_sizes::SIZE_OPTIONS,
+                "custom",
+                "A preset, or type the diameters below.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["tee", "reducer"]),
+            optional: true,
+            ..quantity(
+                "d2",
+                "Branch or small-end inside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Overrides the preset.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["tee", "reducer"]),
+            optional: true,
+            ..quantity(
+                "od2",
+                "Branch or small-end outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Overrides the preset.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            ..choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", JOINT_HELP)
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            ..choice(
+                "p_basis",
+                "Design pressure basis",
+                BASIS_OPTIONS,
+                "highest",
+                "Design to the highest pressure the line will see, test and surge included.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            ..quantity(
+                "p",
+                "Working (operating) pressure, gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "7 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The highest steady operating pressure at the fitting.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "highest"])),
+            ..choice(
+                "test_rule",
+                "Field test pressure rule",
+                TEST_RULE_OPTIONS,
+                "c600",
+                "Named rules of published standards (check the edition your contract cites), or a typed test \
+                pressure.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("test_rule", &["en805"])),
+            optional: true,
+            ..quantity(
+                "mdp",
+                "Maximum design pressure MDP (EN 805), gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "MDP includes surge. Empty: the working pressure plus EN 805's smallest surge allowance, 2 bar \
+                (200 kPa).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("test_rule", &["custom"])),
+            optional: true,
+            ..quantity(
+                "p_test",
+                "Typed test pressure, gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "Used when the test rule is 'typed test pressure'.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..quantity(
+                "dv",
+                "Velocity change for surge (sudden stop)",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                "0.3 m/s",
+                Limits::closed(0.0, 50.0),
+                "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump \
+                trip). Used by the surge and highest bases and the EN 805 calculated-surge test rule. Empty: \
+                no surge estimate.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..choice(
+                "material",
+                "Pipe wall material (wave speed)",
+                MATERIAL_OPTIONS,
+                "from_size",
+                "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of the size \
+                preset (a PVC size gets PVC).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("material", &["custom"])),
+            optional: true,
+            ..quantity(
+                "e_pipe",
+                "Typed Young's modulus of the wall",
+                Q::Pressure,
+                "MPa",
+                "ksi",
+                "",
+                Limits::closed(50e6, 1e12),
+                "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to \
+                1000 GPa.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..quantity(
+                "wall",
+                "Wall thickness",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(0.1e-3, 1.0),
+                "Empty: half the difference of outside and inside diameters.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..choice(
+                "anchoring",
+                "Axial restraint of the pipe (wave speed)",
+                ANCHOR_OPTIONS,
+                "joints",
+                "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default \
+                when empty).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..quantity(
+                "bulk_modulus",
+                "Bulk modulus of the liquid",
+                Q::Pressure,
+                "MPa",
+                "ksi",
+                "",
+                Limits::closed(10e6, 1e11),
+                "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.",
+            )
+        },
     ];
     // The fluid sets the density of a fitting's balance and surge; a given thrust
     // needs none of it.
@@ -169,61 +436,314 @@ pub fn spec() -> CalculatorSpec {
         ..f
     }));
     fields.extend([
-        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::closed(1e3, 20e6), "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound rock).") },
-        quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
-        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
-        FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::closed(0.05, 20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
-        FieldSpec { visible_when: Some(("block_dims", &["aspect"])), optional: true, ..quantity("block_aspect", "Face width ÷ height", Q::Ratio, "-", "-", "1.5", Limits::closed(0.1, 10.0), "1 for a square face.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..quantity("gamma_c", "Unit weight of concrete", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..choice("submerged", "Block below groundwater", YES_NO, "no", "Below the water table the block weighs less by the water it displaces.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::closed(0.05, 20.0), "Empty: a cube.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("friction", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. With a typed soil and no value the sliding check cannot be made and the page says so.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
+        FieldSpec {
+            visible_when: Some(("plane", &["horizontal", "vertical_sag"])),
+            ..choice(
+                "soil",
+                "Soil (allowable bearing)",
+                SOIL_OPTIONS,
+                "nfpa24_sandy_silt",
+                "Published tables disagree by up to about 4× for the same soil name; the value should come \
+                from a geotechnical basis.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("soil", &["custom"])),
+            optional: true,
+            ..quantity(
+                "sigma",
+                "Typed allowable soil bearing",
+                Q::SoilBearing,
+                "kPa",
+                "psf",
+                "",
+                Limits::closed(1e3, 20e6),
+                "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound \
+                rock).",
+            )
+        },
+        quantity(
+            "sf",
+            "Safety factor",
+            Q::Ratio,
+            "-",
+            "-",
+            "1.5",
+            Limits::closed(1.0, 10.0),
+            "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with \
+                tables whose values are already 'safe'.",
+        ),
+        FieldSpec {
+            visible_when: Some(("plane", &["horizontal", "vertical_sag"])),
+            ..choice(
+                "block_dims",
+                "Block face proportions",
+                BLOCK_DIM_OPTIONS,
+                "height",
+                "Fix the face height (trench depth allows) or its width ÷ height.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("block_dims", &["height"])),
+            optional: true,
+            ..quantity(
+                "block_h",
+                "Bearing face height",
+                Q::Length,
+                "m",
+                "ft",
+                "0.6 m",
+                Limits::closed(0.05, 20.0),
+                "Height of the face against undisturbed soil; at least the pipe's outside diameter.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("block_dims", &["aspect"])),
+            optional: true,
+            ..quantity(
+                "block_aspect",
+                "Face width ÷ height",
+                Q::Ratio,
+                "-",
+                "-",
+                "1.5",
+                Limits::closed(0.1, 10.0),
+                "1 for a square face.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest"])),
+            ..quantity(
+                "gamma_c",
+                "Unit weight of concrete",
+                Q::SpecificWeight,
+                "kN/m3",
+                "lbf/ft3",
+                "23.6 kN/m3",
+                Limits::closed(10e3, 40e3),
+                "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest"])),
+            ..choice(
+                "submerged",
+                "Block below groundwater",
+                YES_NO,
+                "no",
+                "Below the water table the block weighs less by the water it displaces.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest"])),
+            optional: true,
+            ..quantity(
+                "gravity_h",
+                "Gravity block height",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(0.05, 20.0),
+                "Empty: a cube.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])),
+            optional: true,
+            ..quantity(
+                "friction",
+                "Friction coefficient, block on soil (sliding check)",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(0.0, 1.5),
+                "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. \
+                With a typed soil and no value the sliding check cannot be made and the page says so.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])),
+            optional: true,
+            ..quantity(
+                "sf_slide",
+                "Safety factor against sliding",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(1.0, 10.0),
+                "Empty: 1.5.",
+            )
+        },
     ]);
     // The soil also gives the friction of the sliding check, so it is shown for
     // every plane (set here, apart from its declaration, which the unit work shares).
     if let Some(soil) = fields.iter_mut().find(|f| f.key == "soil") {
         soil.visible_when = None;
         soil.label = "Soil (allowable bearing, friction)";
-        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
+        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come \
+                from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
     }
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
         title: "Thrust restraint: design pressure and thrust block",
         group: crate::catalog::group::FITTINGS,
-        summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), and the bearing or gravity block that carries it.",
+        summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), \
+                and the bearing or gravity block that carries it.",
         fields,
         outputs: vec![
-            OutputSpec { key: "thrust", label: "Thrust on the restraint (at the design pressure)", kind: Q::Force, headline: true },
-            OutputSpec { key: "bearing_area", label: "Required bearing area", kind: Q::Area, headline: true },
-            OutputSpec { key: "block_volume", label: "Gravity block: concrete volume", kind: Q::ConcreteVolume, headline: true },
-            OutputSpec { key: "p_design", label: "Design pressure used", kind: Q::Pressure, headline: true },
-            OutputSpec { key: "thrust_angle", label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + upward)", kind: Q::Angle, headline: false },
-            OutputSpec { key: "thrust_h", label: "Horizontal component of the thrust", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_v", label: "Vertical component of the thrust (+ up)", kind: Q::Force, headline: false },
-            OutputSpec { key: "area_d", label: "Diameter of the thrust area", kind: Q::Length, headline: false },
-            OutputSpec { key: "thrust_area", label: "Thrust area of the main end", kind: Q::Area, headline: false },
-            OutputSpec { key: "p_test", label: "Field test pressure", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "wave_speed", label: "Pressure wave speed", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "dp_surge", label: "Joukowsky surge rise ρ·a·ΔV", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "p_surge", label: "Working pressure plus surge", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "sigma", label: "Allowable soil bearing used", kind: Q::SoilBearing, headline: false },
-            OutputSpec { key: "face_h", label: "Bearing face height", kind: Q::Length, headline: false },
-            OutputSpec { key: "face_w", label: "Bearing face width", kind: Q::Length, headline: false },
-            OutputSpec { key: "block_mass", label: "Gravity block: concrete mass", kind: Q::Mass, headline: false },
-            OutputSpec { key: "block_weight", label: "Gravity block: effective weight needed", kind: Q::Force, headline: false },
-            OutputSpec { key: "block_side", label: "Gravity block: plan side (square plan)", kind: Q::Length, headline: false },
-            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: true },
-            OutputSpec { key: "friction", label: "Friction coefficient used for sliding", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "side_bearing_area", label: "Sag block: bearing area against the trench wall for the horizontal thrust", kind: Q::Area, headline: false },
-            OutputSpec { key: "mdp", label: "Maximum design pressure MDP (EN 805)", kind: Q::Pressure, headline: false },
+            OutputSpec {
+                key: "thrust",
+                label: "Thrust on the restraint (at the design pressure)",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec {
+                key: "bearing_area",
+                label: "Required bearing area",
+                kind: Q::Area,
+                headline: true,
+            },
+            OutputSpec {
+                key: "block_volume",
+                label: "Gravity block: concrete volume",
+                kind: Q::ConcreteVolume,
+                headline: true,
+            },
+            OutputSpec {
+                key: "p_design",
+                label: "Design pressure used",
+                kind: Q::Pressure,
+                headline: true,
+            },
+            OutputSpec {
+                key: "thrust_angle",
+                label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + \
+                    upward)",
+                kind: Q::Angle,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_h",
+                label: "Horizontal component of the thrust",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_v",
+                label: "Vertical component of the thrust (+ up)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "area_d",
+                label: "Diameter of the thrust area",
+                kind: Q::Length,
+                headline: false,
+            },
+            OutputSpec {
+                key: "thrust_area",
+                label: "Thrust area of the main end",
+                kind: Q::Area,
+                headline: false,
+            },
+            OutputSpec {
+                key: "p_test",
+                label: "Field test pressure",
+                kind: Q::Pressure,
+                headline: false,
+            },
+            OutputSpec {
+                key: "wave_speed",
+                label: "Pressure wave speed",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "dp_surge",
+                label: "Joukowsky surge rise ρ·a·ΔV",
+                kind: Q::Pressure,
+                headline: false,
+            },
+            OutputSpec {
+                key: "p_surge",
+                label: "Working pressure plus surge",
+                kind: Q::Pressure,
+                headline: false,
+            },
+            OutputSpec {
+                key: "sigma",
+                label: "Allowable soil bearing used",
+                kind: Q::SoilBearing,
+                headline: false,
+            },
+            OutputSpec {
+                key: "face_h",
+                label: "Bearing face height",
+                kind: Q::Length,
+                headline: false,
+            },
+            OutputSpec {
+                key: "face_w",
+                label: "Bearing face width",
+                kind: Q::Length,
+                headline: false,
+            },
+            OutputSpec {
+                key: "block_mass",
+                label: "Gravity block: concrete mass",
+                kind: Q::Mass,
+                headline: false,
+            },
+            OutputSpec {
+                key: "block_weight",
+                label: "Gravity block: effective weight needed",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "block_side",
+                label: "Gravity block: plan side (square plan)",
+                kind: Q::Length,
+                headline: false,
+            },
+            OutputSpec {
+                key: "sliding_sf",
+                label: "Factor of safety against sliding",
+                kind: Q::Ratio,
+                headline: true,
+            },
+            OutputSpec {
+                key: "friction",
+                label: "Friction coefficient used for sliding",
+                kind: Q::Ratio,
+                headline: false,
+            },
+            OutputSpec {
+                key: "side_bearing_area",
+                label: "Sag block: bearing area against the trench wall for the horizontal thrust",
+                kind: Q::Area,
+                headline: false,
+            },
+            OutputSpec {
+                key: "mdp",
+                label: "Maximum design pressure MDP (EN 805)",
+                kind: Q::Pressure,
+                headline: false,
+            },
         ],
         cautions: vec![
-            "Design to the highest pressure the line will see: the field test pressure and surge usually exceed the operating pressure.",
-            "Allowable soil bearing must have a geotechnical basis; published tables differ by up to about 4× for the same soil name. Pour the block against undisturbed ground, and keep later excavation from undermining it or removing the soil behind it.",
-            "This sizes the bearing area only: the concrete's reinforcement, the block's own stability and any restrained-joint alternative are for the responsible engineer and the local codes.",
+            "Design to the highest pressure the line will see: the field test pressure and surge \
+                    usually exceed the operating pressure.",
+            "Allowable soil bearing must have a geotechnical basis; published tables differ by up to \
+                    about 4× for the same soil name. Pour the block against undisturbed ground, and keep \
+                    later excavation from undermining it or removing the soil behind it.",
+            "This sizes the bearing area only: the concrete's reinforcement, the block's own stability \
+                    and any restrained-joint alternative are for the responsible engineer and the local \
+                    codes.",
         ],
     }
 }

@@ -174,6 +174,11 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         title: "Jet on a vane: control volume, velocities and force".to_string(),
         bounds,
         shapes,
-        caption: "Schematic: the jet and vane are drawn to scale with the jet diameter, the vane's radius is not. Velocity arrows share one scale (the jet speed V), except the exit triangle beside the vane, drawn at twice that scale: the relative velocity W₂ plus the blade speed u gives the absolute velocity V₂ of the water leaving. The force arrow is the force of the water on the vane; the mounting or the shaft supplies the opposite.".to_string(),
+        caption: "Schematic: the jet and vane are drawn to scale with the jet diameter, the vane's radius is not. \
+                Velocity arrows share one scale (the jet speed V), except the exit triangle beside the vane, drawn at \
+                twice that scale: the relative velocity W₂ plus the blade speed u gives the absolute velocity V₂ of \
+                the water leaving. The force arrow is the force of the water on the vane; the mounting or the shaft \
+                supplies the opposite."
+            .to_string(),
     }
 }

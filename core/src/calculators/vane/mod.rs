@@ -100,7 +100,8 @@ pub fn spec() -> CalculatorSpec {
             "Vane",
             VANE_OPTIONS,
             "wheel",
-            "A fixed vane; a single vane moving away from the jet (only the water that catches up with it is turned); or a wheel, where one vane follows another and the whole jet is turned.",
+            "A fixed vane; a single vane moving away from the jet (only the water that catches up with it is \
+                    turned); or a wheel, where one vane follows another and the whole jet is turned.",
         ),
         FieldSpec {
             // Required while shown (a single vane or a wheel); hidden for a fixed vane.
@@ -113,7 +114,8 @@ pub fn spec() -> CalculatorSpec {
                 "ft/s",
                 "16 m/s",
                 Limits::closed(0.0, common::MAX_JET_SPEED),
-                "Speed of the vane along the jet, away from the nozzle. For a wheel: the bucket speed at the jet's line, ω·r. A single vane must move slower than the jet.",
+                "Speed of the vane along the jet, away from the nozzle. For a wheel: the bucket speed at the \
+                        jet's line, ω·r. A single vane must move slower than the jet.",
             )
         },
         quantity(
@@ -124,7 +126,8 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "165 deg",
             Limits::closed(PI / 180.0, PI),
-            "How far the vane turns the flow relative to itself, 1 to 180 degrees (straight back). Impulse buckets turn about 160 to 170 degrees.",
+            "How far the vane turns the flow relative to itself, 1 to 180 degrees (straight back). Impulse \
+                    buckets turn about 160 to 170 degrees.",
         ),
         FieldSpec {
             optional: true,
@@ -136,7 +139,8 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "0.9",
                 Limits::closed(MIN_K, 1.0),
-                "Relative speed leaving the vane over relative speed entering it, 0.05 to 1; 1 for a smooth vane (empty means 1). Friction makes it less than 1.",
+                "Relative speed leaving the vane over relative speed entering it, 0.05 to 1; 1 for a smooth \
+                        vane (empty means 1). Friction makes it less than 1.",
             )
         },
     ];
@@ -148,37 +152,155 @@ pub fn spec() -> CalculatorSpec {
         key: KEY,
         title: "Jet on a curved vane: fixed, moving, wheel",
         group: crate::catalog::group::JETS_AND_ROTORS,
-        summary: "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with power and efficiency against blade speed.",
+        summary:
+            "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with \
+                power and efficiency against blade speed.",
         fields,
         outputs: vec![
-            OutputSpec { key: "force_x", label: "Force on the vane along the jet (x)", kind: Q::Force, headline: true },
-            OutputSpec { key: "power", label: "Power delivered to the vane(s), F_x·u", kind: Q::Power, headline: true },
-            OutputSpec { key: "efficiency", label: "Efficiency: power ÷ jet kinetic-energy flux", kind: Q::Ratio, headline: true },
-            OutputSpec { key: "force_y", label: "Force on the vane across the jet (y, positive towards the side the water is turned to)", kind: Q::Force, headline: false },
-            OutputSpec { key: "force_side", label: "Side force on the vane, away from the side the water is turned to", kind: Q::Force, headline: false },
-            OutputSpec { key: "force", label: "Resultant force on the vane", kind: Q::Force, headline: false },
-            OutputSpec { key: "mass_flow_turned", label: "Mass flow turned by the vane(s)", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "w_in", label: "Relative velocity entering the vane, W₁ = V − u", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "w_out", label: "Relative velocity leaving the vane, W₂ = k·W₁", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out", label: "Absolute velocity of the water leaving, |V₂|", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out_angle", label: "Direction of V₂, from the jet direction", kind: Q::Angle, headline: false },
-            OutputSpec { key: "head_loss", label: "Loss on the vane, (1 − k²)·W₁²/2g", kind: Q::Length, headline: false },
-            OutputSpec { key: "jet_velocity", label: "Jet velocity V", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "jet_flow", label: "Jet flow Q", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "jet_power", label: "Jet kinetic-energy flux ρQV²/2", kind: Q::Power, headline: false },
-            OutputSpec { key: "u_best_single", label: "Single vane: blade speed of peak power (searched)", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "power_best_single", label: "Single vane: peak power", kind: Q::Power, headline: false },
-            OutputSpec { key: "efficiency_best_single", label: "Single vane: peak efficiency", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "u_best_wheel", label: "Wheel: blade speed of peak power (searched)", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "power_best_wheel", label: "Wheel: peak power", kind: Q::Power, headline: false },
-            OutputSpec { key: "efficiency_best_wheel", label: "Wheel: peak efficiency", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec {
+                key: "force_x",
+                label: "Force on the vane along the jet (x)",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec {
+                key: "power",
+                label: "Power delivered to the vane(s), F_x·u",
+                kind: Q::Power,
+                headline: true,
+            },
+            OutputSpec {
+                key: "efficiency",
+                label: "Efficiency: power ÷ jet kinetic-energy flux",
+                kind: Q::Ratio,
+                headline: true,
+            },
+            OutputSpec {
+                key: "force_y",
+                label: "Force on the vane across the jet (y, positive towards the side the water is turned to)",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "force_side",
+                label: "Side force on the vane, away from the side the water is turned to",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "force",
+                label: "Resultant force on the vane",
+                kind: Q::Force,
+                headline: false,
+            },
+            OutputSpec {
+                key: "mass_flow_turned",
+                label: "Mass flow turned by the vane(s)",
+                kind: Q::MassFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "w_in",
+                label: "Relative velocity entering the vane, W₁ = V − u",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "w_out",
+                label: "Relative velocity leaving the vane, W₂ = k·W₁",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "v_out",
+                label: "Absolute velocity of the water leaving, |V₂|",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "v_out_angle",
+                label: "Direction of V₂, from the jet direction",
+                kind: Q::Angle,
+                headline: false,
+            },
+            OutputSpec {
+                key: "head_loss",
+                label: "Loss on the vane, (1 − k²)·W₁²/2g",
+                kind: Q::Length,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_velocity",
+                label: "Jet velocity V",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_flow",
+                label: "Jet flow Q",
+                kind: Q::VolumeFlow,
+                headline: false,
+            },
+            OutputSpec {
+                key: "jet_power",
+                label: "Jet kinetic-energy flux ρQV²/2",
+                kind: Q::Power,
+                headline: false,
+            },
+            OutputSpec {
+                key: "u_best_single",
+                label: "Single vane: blade speed of peak power (searched)",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "power_best_single",
+                label: "Single vane: peak power",
+                kind: Q::Power,
+                headline: false,
+            },
+            OutputSpec {
+                key: "efficiency_best_single",
+                label: "Single vane: peak efficiency",
+                kind: Q::Ratio,
+                headline: false,
+            },
+            OutputSpec {
+                key: "u_best_wheel",
+                label: "Wheel: blade speed of peak power (searched)",
+                kind: Q::Velocity,
+                headline: false,
+            },
+            OutputSpec {
+                key: "power_best_wheel",
+                label: "Wheel: peak power",
+                kind: Q::Power,
+                headline: false,
+            },
+            OutputSpec {
+                key: "efficiency_best_wheel",
+                label: "Wheel: peak efficiency",
+                kind: Q::Ratio,
+                headline: false,
+            },
+            OutputSpec {
+                key: "density",
+                label: "Fluid density",
+                kind: Q::Density,
+                headline: false,
+            },
         ],
         cautions: vec![
-            "Idealised jet: no spreading, windage, spray or splash, and the jet's weight neglected. Real vanes and buckets lose more than the factor k suggests (friction, windage, interference between buckets, water leaving at an angle): treat power and efficiency as upper bounds.",
-            "Anything that spins needs guards and overspeed protection. An unloaded wheel runs up towards the jet speed at the buckets (runaway); check the runner, bearings and coupling for runaway speed and keep people clear of the jet and the wheel.",
-            "A single vane on a carriage (a test rig) needs end stops that hold the full fixed-vane force: held still, the vane takes the most force.",
-            "Defer to the machine manufacturer's ratings and to a licensed engineer for the vane, wheel, housing and foundations.",
+            "Idealised jet: no spreading, windage, spray or splash, and the jet's weight neglected. Real vanes \
+                    and buckets lose more than the factor k suggests (friction, windage, interference between \
+                    buckets, water leaving at an angle): treat power and efficiency as upper bounds.",
+            "Anything that spins needs guards and overspeed protection. An unloaded wheel runs up towards the \
+                    jet speed at the buckets (runaway); check the runner, bearings and coupling for runaway speed and \
+                    keep people clear of the jet and the wheel.",
+            "A single vane on a carriage (a test rig) needs end stops that hold the full fixed-vane force: \
+                    held still, the vane takes the most force.",
+            "Defer to the machine manufacturer's ratings and to a licensed engineer for the vane, wheel, \
+                    housing and foundations.",
         ],
     }
 }

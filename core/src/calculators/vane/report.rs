@@ -21,14 +21,21 @@ pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
             let (u_text, v_text) = texts(u, v);
             vec![FieldError::inconsistent(
                 "u",
-                format!("the blade speed ({u_text}) must be less than the jet speed ({v_text}): a single vane moving at or above the jet speed runs away from the jet and no water reaches it"),
+                format!(
+                    "the blade speed ({u_text}) must be less than the jet speed ({v_text}): a single vane moving \
+                        at or above the jet speed runs away from the jet and no water reaches it"
+                ),
             )]
         }
         Refusal::WheelOutrunsJet { u, v } => {
             let (u_text, v_text) = texts(u, v);
             vec![FieldError::inconsistent(
                 "u",
-                format!("the blade speed ({u_text}) is above the jet speed ({v_text}): the buckets would outrun the jet, which then strikes their backs and brakes the wheel; the jet cannot drive a wheel faster than the jet speed (its ideal runaway speed)"),
+                format!(
+                    "the blade speed ({u_text}) is above the jet speed ({v_text}): the buckets would outrun the \
+                        jet, which then strikes their backs and brakes the wheel; the jet cannot drive a wheel faster \
+                        than the jet speed (its ideal runaway speed)"
+                ),
             )]
         }
     }
@@ -55,7 +62,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     match (mode, v - u <= 1e-9 * v) {
         (VaneKind::Fixed, _) => report.warn(
             None,
-            "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); choose a moving vane or a wheel",
+            "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); \
+                    choose a moving vane or a wheel",
         ),
         (VaneKind::Wheel, true) => report.warn(
             Some("u"),
@@ -97,7 +105,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if mode == VaneKind::Wheel && v - u <= 1e-9 * v {
         report.warn(
             Some("u"),
-            "the blade speed equals the jet speed: this is the ideal wheel's runaway speed; no water is turned, no force acts and no power is delivered",
+            "the blade speed equals the jet speed: this is the ideal wheel's runaway speed; no water is \
+                    turned, no force acts and no power is delivered",
         );
     }
     if mode != VaneKind::Fixed && u == 0.0 {
@@ -109,7 +118,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if theta < PI / 2.0 {
         report.warn(
             Some("angle"),
-            "a vane that turns the flow less than 90 degrees sends the water on forward; impulse buckets turn it about 160 to 170 degrees",
+            "a vane that turns the flow less than 90 degrees sends the water on forward; impulse buckets turn \
+                    it about 160 to 170 degrees",
         );
     }
 
@@ -169,7 +179,8 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     };
     report.check(
         "Power delivered to the vane(s), F_x·u",
-        "energy balance: jet's kinetic-energy flux − kinetic energy carried off − loss on the vane ṁ(1 − k²)W₁²/2 (− the lengthening jet, single vane)",
+        "energy balance: jet's kinetic-energy flux − kinetic energy carried off − loss on the vane ṁ(1 − \
+                k²)W₁²/2 (− the lengthening jet, single vane)",
         Q::Power,
         state.power,
         jet_power - carried - loss - lengthening,
@@ -320,7 +331,8 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
         VaneKind::Fixed => "fixed control volume around the vane; ṁ = ρAV",
         VaneKind::Single => "control volume moving with the vane at u (relative velocities); ṁ = ρA(V − u)",
         VaneKind::Wheel => {
-            "fixed control volume around the wheel (absolute velocities from the exit triangle); ṁ = ρAV, the whole jet"
+            "fixed control volume around the wheel (absolute velocities from the exit triangle); ṁ = ρAV, the \
+                    whole jet"
         }
     };
     common::basis_table(vec![
@@ -340,7 +352,8 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
         ),
         (
             "Force reported",
-            "force the water puts on the vane; the vane's mounting (or the wheel's shaft) supplies the opposite"
+            "force the water puts on the vane; the vane's mounting (or the wheel's shaft) supplies the \
+                    opposite"
                 .to_string(),
         ),
     ])
