@@ -180,7 +180,8 @@ keyed_choice! {
         Mechanical => ("mechanical", "Mechanical joints (area on the OD)"),
         Restrained => ("restrained", "Restrained push-on or mechanical joints (area on the OD of the sealing joint)"),
         Flanged => ("flanged", "Flanged (area on the bore)"),
-        Welded => ("welded", "Welded or fused (area on the bore)"),
+        Welded => ("welded", "Welded (area on the bore)"),
+        Fused => ("fused", "Fused (area on the bore)"),
     }
 }
 

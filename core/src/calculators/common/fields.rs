@@ -187,27 +187,17 @@ pub const FLOW_BASIS_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
-/// The flow fields: the glossary's `flow_given` and one of `q`, `v`, `mdot`.
-pub fn flow_given_fields(demo_q: &'static str) -> Vec<FieldSpec> {
-    flow_fields_keyed(FLOW_GIVEN, demo_q)
-}
-
-/// The flow fields under the retired key `flow_basis` (the tee's, until its keys
-/// move to the glossary: old links are read through [`crate::glossary::upgrade`]).
-pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
-    flow_fields_keyed("flow_basis", demo_q)
-}
-
 /// The glossary key of how the flow is given.
 pub const FLOW_GIVEN: &str = "flow_given";
 
-fn flow_fields_keyed(key: &'static str, demo_q: &'static str) -> Vec<FieldSpec> {
-    // `visible_when` needs a `'static` key: the two keys in use are spelled out.
-    let on =
-        |options: &'static [&'static str]| -> Option<(&'static str, &'static [&'static str])> { Some((key, options)) };
+/// The flow fields: the glossary's `flow_given` and one of `q`, `v`, `mdot`.
+pub fn flow_given_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    let on = |options: &'static [&'static str]| -> Option<(&'static str, &'static [&'static str])> {
+        Some((FLOW_GIVEN, options))
+    };
     vec![
         choice(
-            key,
+            FLOW_GIVEN,
             "Flow given as",
             FLOW_BASIS_OPTIONS,
             "q",
@@ -258,16 +248,7 @@ fn flow_fields_keyed(key: &'static str, demo_q: &'static str) -> Vec<FieldSpec> 
 /// Reads the flow fields of [`flow_given_fields`] into an engine flow spec for the
 /// inlet.
 pub fn flow_given_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
-    flow_from_keyed(values, FLOW_GIVEN)
-}
-
-/// Reads the flow fields of [`flow_fields`] (retired key `flow_basis`).
-pub fn flow_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
-    flow_from_keyed(values, "flow_basis")
-}
-
-fn flow_from_keyed(values: &Values, key: &str) -> Result<FlowSpec, Vec<FieldError>> {
-    let basis = values.choice(key).map_err(|e| vec![e])?;
+    let basis = values.choice(FLOW_GIVEN).map_err(|e| vec![e])?;
     let need = |key: &'static str| {
         if values.is_set(key) {
             Ok(values.quantity_or(key, 0.0))
@@ -285,37 +266,14 @@ fn flow_from_keyed(values: &Values, key: &str) -> Result<FlowSpec, Vec<FieldErro
     })
 }
 
-/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings;
-/// read from `flow_given`, or from the retired `flow_basis` of the tee.
+/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings.
 pub fn flow_field(values: &Values) -> &'static str {
-    let given = values.choice(FLOW_GIVEN).or_else(|_| values.choice("flow_basis"));
-    match given.unwrap_or("q") {
+    match values.choice(FLOW_GIVEN).unwrap_or("q") {
         "v" => "v",
         "mdot" => "mdot",
         _ => "q",
     }
 }
-
-/// The thrust-area basis of a fitting page: the bore only for joints that seal on
-/// it (welded, flanged, fused); the outside diameter for push-on and mechanical
-/// joints, restrained or not, whose gasket seals on the spigot's outside, so the
-/// pressure acts over the OD of the nearest sealing joint.
-pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "id",
-        label: "Inside diameter (welded, flanged or fused joints only)",
-    },
-    ChoiceOption {
-        key: "od",
-        label: "Outside diameter (push-on and mechanical joints, restrained or not)",
-    },
-];
-
-/// Help text of every area-basis selector: why restrained joints take the OD.
-pub const AREA_BASIS_HELP: &str =
-    "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside \
-        diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the \
-        inside diameter.";
 
 // --- Free jets from a nozzle (jet on a plate, jet on a vane, ...) -------------------
 

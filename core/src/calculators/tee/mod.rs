@@ -44,7 +44,9 @@
 //! On the outside-diameter basis (`joint` = push-on, mechanical or restrained: joints
 //! that seal on the spigot's outside) each face's pressure also acts on the wall
 //! annulus out to the outside diameter, −p·(A_OD − A)·n, added to the engine as a
-//! named force per face. Flanged, welded and fused joints seal on the bore.
+//! named force per face. Flanged, welded and fused joints seal on the bore. The
+//! joint is required (the bore is low for push-on joints, so it is never a silent
+//! default); the joint options are the restraint model's [`crate::restraint::Joint`].
 //!
 //! # Layout
 //! [`read`] turns the validated values into typed [`Inputs`] once (and refuses
@@ -59,10 +61,12 @@
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Length, Ratio};
+use uom::si::f64::{Length, MassRate, Ratio, Velocity, VolumeRate};
 
-use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, FromSi, Limits, OutputSpec, Report, Values};
+use crate::engine::FlowSpec;
 use crate::error::{FieldError, FieldErrors};
+use crate::restraint;
 use crate::units::{self, QuantityKind as Q};
 use crate::vector::Vec3;
 
@@ -101,38 +105,6 @@ pub(crate) const JUNCTION_OPTIONS: &[ChoiceOption] = &[
         label: "Combining: the branches feed the common pipe",
     },
 ];
-
-/// The joints at a junction: the first three seal on the outside diameter, the
-/// rest on the bore (the glossary's `joint` options).
-const JOINT_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "push_on",
-        label: "Push-on joints (area on the OD)",
-    },
-    ChoiceOption {
-        key: "mechanical",
-        label: "Mechanical joints (area on the OD)",
-    },
-    ChoiceOption {
-        key: "restrained",
-        label: "Restrained push-on or mechanical joints (area on the OD of the sealing joint)",
-    },
-    ChoiceOption {
-        key: "flanged",
-        label: "Flanged (area on the bore)",
-    },
-    ChoiceOption {
-        key: "welded",
-        label: "Welded (area on the bore)",
-    },
-    ChoiceOption {
-        key: "fused",
-        label: "Fused (area on the bore)",
-    },
-];
-
-/// The joints whose thrust area is the outside diameter.
-const OUTSIDE_DIAMETER_JOINTS: &[&str] = &["push_on", "mechanical", "restrained"];
 
 const COUNT_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption { key: "1", label: "1" },
@@ -386,15 +358,7 @@ pub fn spec() -> CalculatorSpec {
                     included. Gauge, so not below 0.",
         ),
     ];
-    for mut field in common::flow_fields("850 m3/h") {
-        // The glossary's key for how the flow is given (a no-op once the shared flow
-        // fields use it).
-        if field.key == "flow_basis" {
-            field.key = "flow_given";
-        }
-        if let Some(("flow_basis", shown)) = field.visible_when {
-            field.visible_when = Some(("flow_given", shown));
-        }
+    for mut field in common::flow_given_fields("850 m3/h") {
         match field.key {
             "q" => {
                 field.label = "Flow in the common pipe";
@@ -426,20 +390,17 @@ pub fn spec() -> CalculatorSpec {
         "common",
         "Most junction tables give each branch's K on the velocity of the common (combined) flow.",
     ));
+    // Required: an empty joint would put the thrust on the bore, which is low for
+    // push-on and mechanical joints; the user chooses (the demo is flanged).
+    fields.push(choice(
+        "joint",
+        "Joints at the junction",
+        restraint::Joint::OPTIONS,
+        "flanged",
+        restraint::JOINT_HELP,
+    ));
     fields.push(FieldSpec {
-        optional: true,
-        ..choice(
-            "joint",
-            "Joints at the junction",
-            JOINT_OPTIONS,
-            "flanged",
-            "Push-on and mechanical joints, restrained or not, seal on the spigot's outside: the pressure then \
-                    also acts on the wall annulus out to each pipe's outside diameter. Flanged, welded and fused \
-                    joints seal on the bore. Empty means a joint that seals on the bore.",
-        )
-    });
-    fields.push(FieldSpec {
-        visible_when: Some(("joint", OUTSIDE_DIAMETER_JOINTS)),
+        visible_when: Some(("joint", restraint::OD_JOINTS)),
         ..quantity(
             "od",
             "Common pipe outside diameter",
@@ -699,7 +660,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     };
     let fluid = common::fluid_from(values)?;
     let flow = read_flow(values)?;
-    let on_outside = OUTSIDE_DIAMETER_JOINTS.contains(&values.choice("joint").unwrap_or("flanged"));
+    let joint = values.choice("joint")?;
+    let on_outside = restraint::Joint::from_key(joint)
+        .ok_or_else(|| FieldError::inconsistent("joint", "choose one of the listed joints"))?
+        .uses_od();
     let common_outside = if on_outside {
         let od: Length = values.typed("od")?;
         if od <= d_common {
@@ -728,18 +692,13 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 
 /// Reads the common pipe's flow in the way it is given.
 fn read_flow(values: &Values) -> Result<CommonFlow, FieldErrors> {
-    let key = match values.choice("flow_given")? {
-        "v" => "v",
-        "mdot" => "mdot",
-        _ => "q",
-    };
-    if !values.is_set(key) {
-        return Err(FieldError::inconsistent(key, "a value is required for the chosen flow basis").into());
-    }
-    Ok(match key {
-        "v" => CommonFlow::Velocity(values.typed("v")?),
-        "mdot" => CommonFlow::Mass(values.typed("mdot")?),
-        _ => CommonFlow::Volume(values.typed("q")?),
+    Ok(match common::flow_given_from(values)? {
+        FlowSpec::Velocity(v) => CommonFlow::Velocity(Velocity::from_si(v)),
+        FlowSpec::MassFlow(m) => CommonFlow::Mass(MassRate::from_si(m)),
+        FlowSpec::VolumeFlow(q) => CommonFlow::Volume(VolumeRate::from_si(q)),
+        FlowSpec::Unknown => {
+            return Err(FieldError::inconsistent("flow_given", "choose how the flow is given").into());
+        }
     })
 }
 
@@ -1056,6 +1015,21 @@ mod tests {
         let on_outside = thrust(&by_hand);
         by_hand[3] = ("joint", "flanged");
         assert!(on_outside > thrust(&by_hand));
+    }
+
+    #[test]
+    fn the_joint_is_required_and_fused_joints_take_the_bore() {
+        // An empty joint once meant the bore, low for push-on joints: now refused,
+        // naming the field.
+        assert_eq!(error_field(&[("joint", "")]), "joint");
+        let thrust = |joint: &str| {
+            crate::calculators::testing::solved(super::KEY, &[("joint", joint)])
+                .output("thrust_in_plane")
+                .map(|o| o.si)
+        };
+        // Fused joints seal on the bore like flanged ones; push-on on the OD (more).
+        assert_eq!(thrust("fused"), thrust("flanged"));
+        assert!(thrust("push_on") > thrust("flanged"));
     }
 
     #[test]
