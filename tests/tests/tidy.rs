@@ -477,11 +477,12 @@ fn every_core_intra_doc_link_resolves() {
 mod registry {
     use std::collections::BTreeSet;
 
-    use fluxledger_core::calculators::{self, thrust_block, CALCULATORS};
+    use fluxledger_core::calculators::{self, CALCULATORS};
     use fluxledger_core::catalog::{
         self, demo_request, is_visible, largest_meaningful, smallest_meaningful, CalculatorSpec, ChoiceOption,
         FieldKind, FieldSpec, MAX_TEXT_CHARS,
     };
+    use fluxledger_core::restraint;
     use fluxledger_core::units::{self, QuantityKind};
     use fluxledger_core::{glossary, pipe_sizes};
     use fluxledger_core::{SolveError, UnitSystem};
@@ -627,10 +628,10 @@ mod registry {
                     }
                 }
             }
-        } else if options == thrust_block::SOIL_OPTIONS {
-            let expected = thrust_block::SOILS.iter().map(|s| s.key).chain(["custom"]).collect();
-            compare("thrust_block::SOILS", expected);
-            for soil in thrust_block::SOILS {
+        } else if options == restraint::soil::SOIL_OPTIONS {
+            let expected = restraint::soil::SOILS.iter().map(|s| s.key).chain(["custom"]).collect();
+            compare("restraint::soil::SOILS", expected);
+            for soil in restraint::soil::SOILS {
                 let label = label_of(soil.key);
                 // "Sand: 2000 psf (...)": the value between ': ' and ' (' is the table's.
                 let shown = label
@@ -645,14 +646,14 @@ mod registry {
                     )),
                 }
             }
-        } else if options == thrust_block::TEST_RULE_OPTIONS {
-            let expected = thrust_block::TEST_RULES
+        } else if options == restraint::pressure::TEST_RULE_OPTIONS {
+            let expected = restraint::pressure::TEST_RULES
                 .iter()
                 .map(|r| r.key)
                 .chain(["custom"])
                 .collect();
-            compare("thrust_block::TEST_RULES", expected);
-            for rule in thrust_block::TEST_RULES {
+            compare("restraint::pressure::TEST_RULES", expected);
+            for rule in restraint::pressure::TEST_RULES {
                 // A field test is never below the working pressure it tests.
                 for p in [0.0, 1e5, 1e6, 1e7] {
                     let test = (rule.apply)(p, 0.0);

@@ -54,7 +54,9 @@ use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 
 use super::common::{choice, quantity, MAX_PRESSURE_PA};
-use super::thrust_block::{BASIS_OPTIONS, JOINT_OPTIONS, SOIL_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::pressure::{BASIS_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::soil::SOIL_OPTIONS;
+use crate::restraint::Joint;
 use crate::restraint::JOINT_HELP;
 
 pub mod model;
@@ -175,7 +177,7 @@ pub fn spec() -> CalculatorSpec {
         choice(
             "joint",
             "Joints (rows without joint=)",
-            JOINT_OPTIONS,
+            Joint::OPTIONS,
             "push_on",
             JOINT_HELP,
         ),

@@ -110,28 +110,20 @@ pub use diagram::diagram;
 pub const KEY: &str = "thrust-block";
 
 // The restraint model shared with the line schedule lives in `crate::restraint`;
-// its names are re-exported here for the pages and tests that use them.
-pub use crate::restraint::block::{Block, BLOCK_DIM_OPTIONS, WATER_UNIT_WEIGHT, YES_NO};
-pub use crate::restraint::pressure::{
-    material, preset_material, test_rule, wave_speed, TestRule, ANCHOR_OPTIONS, BASIS_OPTIONS, EN805_SURGE_ALLOWANCE,
-    MATERIAL_OPTIONS, TEST_RULES, TEST_RULE_OPTIONS, WATER_BULK_MODULUS,
-};
-pub use crate::restraint::soil::{
-    soil, SoilPreset, SoilTable, FRICTION_SOURCE, MAX_TYPED_BEARING, MIN_TYPED_BEARING, SOILS, SOIL_OPTIONS,
-};
-pub use crate::restraint::{
-    diameters, joint_uses_od, static_balance, Diameters, FittingChoice, FittingKind, Joint, Legs, Plane, StaticFitting,
-    JOINT_HELP, MIN_ANGLE, OD_JOINTS,
-};
+// other pages and tests use it from there.
+use crate::restraint::block::{BLOCK_DIM_OPTIONS, YES_NO};
+use crate::restraint::pressure::{ANCHOR_OPTIONS, BASIS_OPTIONS, MATERIAL_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::soil::SOIL_OPTIONS;
+use crate::restraint::{FittingChoice, Joint, Legs, Plane, JOINT_HELP, MIN_ANGLE};
 
 /// The fitting options (derived from [`FittingChoice`]).
-pub const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
+const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
 /// The plane options (derived from [`Plane`]).
-pub const PLANE_OPTIONS: &[ChoiceOption] = Plane::OPTIONS;
+const PLANE_OPTIONS: &[ChoiceOption] = Plane::OPTIONS;
 /// The joint options (derived from [`Joint`]).
-pub const JOINT_OPTIONS: &[ChoiceOption] = Joint::OPTIONS;
+const JOINT_OPTIONS: &[ChoiceOption] = Joint::OPTIONS;
 /// The legs options (derived from [`Legs`]).
-pub const LEGS_OPTIONS: &[ChoiceOption] = Legs::OPTIONS;
+const LEGS_OPTIONS: &[ChoiceOption] = Legs::OPTIONS;
 
 pub fn spec() -> CalculatorSpec {
     let fitting_only = |keys: &'static [&'static str]| Some(("fitting", keys));
