@@ -3,7 +3,8 @@
 //!
 //! # Method
 //! 1. **Design pressure**, chosen openly (`p_basis`): the operating pressure; the
-//!    field test pressure from a named rule ([`TEST_RULES`]) or typed; the working
+//!    field test pressure from a named rule
+//!    ([`TEST_RULES`](crate::restraint::pressure::TEST_RULES)) or typed; the working
 //!    pressure plus a surge estimate; or the highest of these. EN 805's rule applies
 //!    to the maximum design pressure MDP, which includes surge: typed (`mdp`), or the
 //!    working pressure plus the standard's smallest allowance where surge is not
@@ -40,13 +41,14 @@
 //!    friction under the base, μ·T_down ≥ SF_slide·T_h (the block's own weight
 //!    neglected, conservative), or by a side face of SF·T_h/σ against the trench
 //!    wall, which is reported. Soil presets come
-//!    from three published tables that disagree (see [`SOILS`]); a typed value is
+//!    from three published tables that disagree (see [`SOILS`](crate::restraint::soil::SOILS)); a typed value is
 //!    always allowed. Face dimensions follow from a chosen height or width ÷ height.
 //! 4. **Gravity block** under upward thrust (a vertical bend at a crest): the block's
 //!    effective weight must be SF times the upward component, W = γ_eff·V, with
 //!    γ_eff = γ_c below groundwater reduced by the water's unit weight (buoyancy).
 //!    Sliding is checked by default, μ·(W − T_v) ≥ SF_slide·T_h, with μ from the
-//!    soil preset ([`FRICTION_SOURCE`]: NAVFAC DM-7.02 ultimate friction factors,
+//!    soil preset ([`FRICTION_SOURCE`](crate::restraint::soil::FRICTION_SOURCE):
+//!    NAVFAC DM-7.02 ultimate friction factors,
 //!    lower end, from memory) or typed; where neither gives μ and the thrust has a
 //!    horizontal part, an unchecked-sliding warning is raised.
 //! 5. **A given thrust** (`fitting=force`, e.g. carried from a fitting page) is used
