@@ -253,10 +253,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = solve(&inputs)?;
-    write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, |v, _| read(v), |i, _| solve(i), write)
 }
 
 /// The report, built from the solved model.
@@ -441,13 +438,7 @@ mod tests {
     use crate::catalog::Request;
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> String {
-        crate::calculators::testing::error_field(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn thrust_is_pressure_times_the_chosen_area() {

@@ -33,6 +33,26 @@ pub struct Calculator {
     pub compute: fn(&Values, &mut Report<'_>) -> Result<(), Vec<FieldError>>,
 }
 
+/// The body of every page's `compute`: read the values once into typed inputs
+/// (`read` may ask the report for the unit system), solve the pure model (`solve`
+/// may turn a refusal into warnings first), and write the report from the result.
+fn read_solve_write<I, S, E, F>(
+    values: &Values,
+    report: &mut Report<'_>,
+    read: impl FnOnce(&Values, &Report<'_>) -> Result<I, E>,
+    solve: impl FnOnce(&I, &mut Report<'_>) -> Result<S, F>,
+    write: impl FnOnce(&I, &S, &mut Report<'_>),
+) -> Result<(), Vec<FieldError>>
+where
+    E: Into<Vec<FieldError>>,
+    F: Into<Vec<FieldError>>,
+{
+    let inputs = read(values, report).map_err(Into::into)?;
+    let solved = solve(&inputs, report).map_err(Into::into)?;
+    write(&inputs, &solved, report);
+    Ok(())
+}
+
 /// Every calculator, in contents order.
 #[rustfmt::skip]
 pub const CALCULATORS: &[Calculator] = &[
@@ -103,10 +123,43 @@ pub(crate) mod testing {
     use crate::catalog::{self, Solution};
     use crate::SolveError;
 
+    /// The helpers of one page's tests, bound to its key: `request`, `outcome`,
+    /// `solved`, `first_error` and `error_field` as below, taking only the pairs.
+    macro_rules! page_helpers {
+        ($key:expr) => {
+            #[allow(dead_code)]
+            fn request(pairs: &[(&str, &str)]) -> $crate::catalog::Request {
+                $crate::calculators::testing::request($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn outcome(pairs: &[(&str, &str)]) -> $crate::Outcome {
+                $crate::calculators::testing::outcome($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn solved(pairs: &[(&str, &str)]) -> $crate::catalog::Solution {
+                $crate::calculators::testing::solved($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn first_error(pairs: &[(&str, &str)]) -> (String, String) {
+                $crate::calculators::testing::first_error($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn error_field(pairs: &[(&str, &str)]) -> String {
+                $crate::calculators::testing::error_field($key, pairs)
+            }
+        };
+    }
+    pub(crate) use page_helpers;
+
+    /// The demo request of calculator `key` with `pairs` replaced.
+    pub fn request(key: &str, pairs: &[(&str, &str)]) -> catalog::Request {
+        let spec = super::spec(key).unwrap_or_else(|| panic!("no calculator '{key}'"));
+        catalog::demo_request(&spec, pairs)
+    }
+
     /// Solves calculator `key` from its demo inputs with `pairs` replaced.
     pub fn outcome(key: &str, pairs: &[(&str, &str)]) -> super::Outcome {
-        let spec = super::spec(key).unwrap_or_else(|| panic!("no calculator '{key}'"));
-        super::solve(key, &catalog::demo_request(&spec, pairs))
+        super::solve(key, &request(key, pairs))
     }
 
     /// The solution, failing the test with the errors when there is none.

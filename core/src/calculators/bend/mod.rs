@@ -327,29 +327,25 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, _| model::read(v),
+        |i, _| model::solve(i),
+        report::write,
+    )
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
-    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        let mut request = Request::default();
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
-        crate::solve(super::KEY, &request).result.expect("solves")
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn still_equal_bend_matches_static_formula() {
         // Derived from the definition: T = 2pA sin(θ/2) with no flow.
-        let s = solve(&[
+        let s = solved(&[
             ("angle", "90 deg"),
             ("d", "300 mm"),
             ("p", "1 bar"),
@@ -428,7 +424,7 @@ mod tests {
     #[test]
     fn the_outside_diameter_basis_adds_the_annulus_at_both_ends() {
         // Derived from the definition: at rest the thrust is 2·p·A_OD·sin(θ/2).
-        let s = solve(&[
+        let s = solved(&[
             ("angle", "60 deg"),
             ("d", "300 mm"),
             ("joint", "push_on"),

@@ -204,29 +204,15 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let plate = model::solve(&inputs)?;
-    report::write(&inputs, &plate, report);
-    Ok(())
+    super::read_solve_write(values, report, |v, _| read(v), |i, _| model::solve(i), report::write)
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::{Request, Solution};
     use crate::error::FieldErrorKind;
     use approx::assert_relative_eq;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&super::spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> (String, String) {
-        crate::calculators::testing::first_error(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     const WATER_1000: &[(&str, &str)] = &[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")];
 
@@ -247,7 +233,7 @@ mod tests {
                 ("d_jet", "50 mm"),
             ];
             pairs.extend_from_slice(WATER_1000);
-            let s = solve(&pairs);
+            let s = solved(&pairs);
             let theta = deg.to_radians();
             let q = std::f64::consts::PI * 0.05 * 0.05 / 4.0 * 20.0;
             let out = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
@@ -279,7 +265,7 @@ mod tests {
         a.extend_from_slice(WATER_1000);
         let mut b = vec![("flow_given", "p"), ("p", "196.133 kPa"), ("cv", "0.95")];
         b.extend_from_slice(WATER_1000);
-        let (sa, sb) = (solve(&a), solve(&b));
+        let (sa, sb) = (solved(&a), solved(&b));
         let v = 0.95 * (2.0 * 9.80665 * 20.0f64).sqrt();
         assert_relative_eq!(
             sa.output("jet_velocity").map(|o| o.si).unwrap_or(0.0),
@@ -295,12 +281,12 @@ mod tests {
 
     #[test]
     fn bad_inputs_name_their_field() {
-        let (field, message) = error_field(&[("flow_given", "q"), ("q", "-5 L/s")]);
+        let (field, message) = first_error(&[("flow_given", "q"), ("q", "-5 L/s")]);
         assert_eq!(field, "q");
         assert!(message.contains("at least"), "{message}");
-        assert_eq!(error_field(&[("d_jet", "0 mm")]).0, "d_jet");
-        assert_eq!(error_field(&[("plate_angle", "120 deg")]).0, "plate_angle");
-        let (field, _) = error_field(&[("flow_given", "v"), ("v", "")]);
+        assert_eq!(first_error(&[("d_jet", "0 mm")]).0, "d_jet");
+        assert_eq!(first_error(&[("plate_angle", "120 deg")]).0, "plate_angle");
+        let (field, _) = first_error(&[("flow_given", "v"), ("v", "")]);
         assert_eq!(field, "v");
         match crate::solve(super::KEY, &request(&[("flow_given", "nozzle")])).result {
             Err(crate::SolveError::Fields(errors)) => {
@@ -312,7 +298,7 @@ mod tests {
 
     #[test]
     fn demo_solves_with_a_diagram_and_tables() {
-        let s = solve(&[]);
+        let s = solved(&[]);
         assert_eq!(s.diagrams.len(), 1);
         assert!(s.tables.iter().any(|t| t.key == "split"));
         assert!(s.tables.iter().any(|t| t.key == "ledger"));

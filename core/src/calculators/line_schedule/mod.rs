@@ -270,10 +270,13 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve every row, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, _| model::read(v),
+        |i, _| model::solve(i),
+        |i, rows, r| report::write(i, rows, r),
+    )
 }
 
 #[cfg(test)]

@@ -349,19 +349,20 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let nozzle = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
-    report::write(&inputs, &nozzle, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, _| read(v),
+        |i, r| model::solve(i).map_err(|e| report::refusal(e, r)),
+        report::write,
+    )
 }
 
 #[cfg(test)]
 mod tests {
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {

@@ -213,10 +213,13 @@ pub fn spec() -> CalculatorSpec {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values, report.system())?;
-    let solved = model::solve(&inputs)?;
-    report::write(&solved, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, r| model::read(v, r.system()),
+        |i, _| model::solve(i),
+        |_, s, r| report::write(s, r),
+    )
 }
 
 #[cfg(test)]

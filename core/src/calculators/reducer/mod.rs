@@ -368,10 +368,7 @@ pub fn crane_k_small(d_in: f64, d_out: f64, theta: f64) -> f64 {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, |v, _| read(v), |i, _| solve(i), report::write)
 }
 
 #[cfg(test)]
@@ -379,13 +376,7 @@ mod tests {
     use crate::catalog::Request;
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
-
-    fn solved(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn still_reducer_matches_static_formula() {

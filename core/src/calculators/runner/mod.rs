@@ -470,33 +470,29 @@ pub fn spec() -> CalculatorSpec {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&solved, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, _| model::read(v),
+        |i, _| model::solve(i),
+        |_, s, r| report::write(s, r),
+    )
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::catalog::Request;
     use crate::units::STANDARD_GRAVITY;
     use approx::assert_relative_eq;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn engine_torque_equals_euler_form_for_pump_and_turbine() {
         // Derived from the definition: T = ρQ(r₁V_θ1 − r₂V_θ2), H_E = (u₁V_θ1 − u₂V_θ2)/g.
         for machine in ["pump", "turbine"] {
             for alpha1 in ["90 deg", "60 deg", "120 deg"] {
-                let s = solve(&[
+                let s = solved(&[
                     ("machine", machine),
                     ("alpha1", alpha1),
                     ("fluid", "custom"),
@@ -559,7 +555,7 @@ mod tests {
     #[test]
     fn pressure_change_follows_rothalpy() {
         // Derived from the definition: p₂ − p₁ = ρ/2 [(W₁² − W₂²) + (u₂² − u₁²)].
-        let s = solve(&[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")]);
+        let s = solved(&[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")]);
         let get = |k: &str| s.output(k).unwrap().si;
         let expected = 500.0 * (get("w1").powi(2) - get("w2").powi(2) + get("u2").powi(2) - get("u1").powi(2));
         assert_relative_eq!(get("pressure_rise"), expected, max_relative = 1e-9);
@@ -571,18 +567,18 @@ mod tests {
 
     #[test]
     fn incidence_is_warned() {
-        let s = solve(&[("beta1", "60 deg")]);
+        let s = solved(&[("beta1", "60 deg")]);
         assert!(s.warnings.iter().any(|w| w.field == Some("beta1")));
         let matched = s.output("beta1_flow").unwrap().si;
         let deg = format!("{} rad", matched);
-        let s = solve(&[("beta1", deg.as_str())]);
+        let s = solved(&[("beta1", deg.as_str())]);
         assert!(s.warnings.iter().all(|w| w.field != Some("beta1")));
         assert!(s.output("incidence").unwrap().si.abs() < 1e-9);
     }
 
     #[test]
     fn demo_has_triangles_table_and_plot() {
-        let s = solve(&[]);
+        let s = solved(&[]);
         assert_eq!(s.diagrams.len(), 1);
         assert!(s.tables.iter().any(|t| t.key == "triangles"));
         assert_eq!(s.plots.len(), 1);
@@ -613,13 +609,13 @@ mod tests {
     #[test]
     fn checks_agree_and_efficiency_is_explained_when_not_applicable() {
         for machine in ["pump", "turbine"] {
-            let s = solve(&[("machine", machine)]);
+            let s = solved(&[("machine", machine)]);
             assert_eq!(s.checks.len(), 3, "{machine}");
             assert!(s.checks.iter().all(|c| c.agrees()), "{machine}: {:?}", s.checks);
         }
         // The demo pump's triangles run as a turbine give no positive Euler head:
         // the efficiency is not applicable and the page says why.
-        let s = solve(&[("machine", "turbine"), ("head", "40 m")]);
+        let s = solved(&[("machine", "turbine"), ("head", "40 m")]);
         assert!(s.output("efficiency").is_none());
         assert!(s
             .warnings

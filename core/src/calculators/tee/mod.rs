@@ -880,23 +880,14 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, |v, _| read(v), |i, _| model::solve(i), report::write)
 }
 
 #[cfg(test)]
 mod tests {
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> String {
-        crate::calculators::testing::error_field(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {

@@ -744,29 +744,21 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, _| model::read(v),
+        |i, _| model::solve(i),
+        report::write,
+    )
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use crate::units::UnitSystem;
     use approx::assert_relative_eq;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&super::spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> String {
-        crate::calculators::testing::error_field(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn field_keys_are_unique() {
@@ -792,7 +784,7 @@ mod tests {
     fn demo_matches_the_method_note_worked_example() {
         // site/notes/thrust-block.md works the demo by hand: surge governs at about
         // 10.69 bar, T ≈ 72.3 kN, bearing area ≈ 0.755 m² (rounded figures).
-        let s = solve(&[]);
+        let s = solved(&[]);
         let get = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
         assert_relative_eq!(get("p_design"), 10.69e5, max_relative = 2e-3);
         assert_relative_eq!(get("thrust"), 72.3e3, max_relative = 2e-3);
@@ -802,7 +794,7 @@ mod tests {
     #[test]
     fn bend_thrust_on_outside_diameter_matches_static_formula() {
         // Derived from the definition: T = 2 p A sin(θ/2), A on the OD for push-on joints.
-        let s = solve(&[
+        let s = solved(&[
             ("fitting", "bend"),
             ("angle", "90 deg"),
             ("size", "custom"),
@@ -826,7 +818,7 @@ mod tests {
 
     #[test]
     fn crest_needs_a_gravity_block_and_sag_bears_down() {
-        let crest = solve(&[
+        let crest = solved(&[
             ("plane", "vertical_crest"),
             ("angle", "45 deg"),
             ("p_basis", "operating"),
@@ -834,7 +826,7 @@ mod tests {
         let tv = crest.output("thrust_v").map(|o| o.si).unwrap_or(0.0);
         assert!(tv > 0.0);
         assert!(crest.output("block_volume").is_some());
-        let sag = solve(&[("plane", "vertical_sag"), ("angle", "45 deg"), ("p_basis", "operating")]);
+        let sag = solved(&[("plane", "vertical_sag"), ("angle", "45 deg"), ("p_basis", "operating")]);
         assert!(sag.output("thrust_v").map(|o| o.si).unwrap_or(0.0) < 0.0);
         assert!(sag.output("bearing_area").is_some());
     }
@@ -842,7 +834,7 @@ mod tests {
     #[test]
     fn a_given_inclined_thrust_bears_with_its_horizontal_part() {
         // Derived from the definition: T_h = T cos 30°, A_b = SF·T_h/σ.
-        let s = solve(&[
+        let s = solved(&[
             ("fitting", "force"),
             ("thrust", "10 kN"),
             ("thrust_elev", "30 deg"),
@@ -900,7 +892,7 @@ mod tests {
 
     #[test]
     fn an_unchecked_sliding_mode_is_said_not_silent() {
-        let s = solve(&[
+        let s = solved(&[
             ("plane", "vertical_crest"),
             ("legs", "one_level"),
             ("soil", "custom"),
@@ -916,7 +908,7 @@ mod tests {
             s.warnings
         );
         // A typed coefficient overrides the soil's.
-        let s = solve(&[
+        let s = solved(&[
             ("plane", "vertical_crest"),
             ("legs", "one_level"),
             ("soil", "nfpa24_sand"),
@@ -925,7 +917,7 @@ mod tests {
         ]);
         assert_relative_eq!(s.output("friction").unwrap().si, 0.5);
         // Both legs sloped: no horizontal thrust, nothing to slide, no warning.
-        let s = solve(&[
+        let s = solved(&[
             ("plane", "vertical_sag"),
             ("legs", "symmetric"),
             ("p_basis", "operating"),
@@ -940,7 +932,7 @@ mod tests {
 
     #[test]
     fn the_wave_speed_material_follows_the_size_preset() {
-        let get = |pairs: &[(&str, &str)]| solve(pairs).output("wave_speed").map(|o| o.si).unwrap_or(f64::NAN);
+        let get = |pairs: &[(&str, &str)]| solved(pairs).output("wave_speed").map(|o| o.si).unwrap_or(f64::NAN);
         let base = [("p_basis", "surge"), ("dv", "0.5 m/s"), ("size", "c900dr18_8")];
         let preset = get(&[base[0], base[1], base[2], ("material", "from_size")]);
         let pvc = get(&[base[0], base[1], base[2], ("material", "pvc")]);
@@ -961,7 +953,7 @@ mod tests {
 
     #[test]
     fn highest_basis_takes_the_largest_candidate() {
-        let s = solve(&[
+        let s = solved(&[
             ("p_basis", "highest"),
             ("test_rule", "nfpa24"),
             ("p", "100 psi"),

@@ -344,39 +344,29 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(
+        values,
+        report,
+        |v, _| read(v),
+        |i, r| model::solve(i).map_err(|e| report::refusal(e, r)),
+        report::write,
+    )
 }
 
 #[cfg(test)]
 mod tests {
     use super::model::*;
     use super::*;
-    use crate::catalog::{Request, Solution};
+    use crate::catalog::Solution;
     use crate::fluid::Fluid;
     use crate::units::STANDARD_GRAVITY;
     use approx::assert_relative_eq;
     use common::Jet;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&super::spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     fn out(s: &Solution, key: &str) -> f64 {
         s.output(key).map(|o| o.si).unwrap_or(f64::NAN)
-    }
-
-    fn error_of(pairs: &[(&str, &str)]) -> (String, String) {
-        match crate::solve(super::KEY, &request(pairs)).result {
-            Err(crate::SolveError::Fields(errors)) => (errors[0].field.clone(), errors[0].kind.to_string()),
-            other => panic!("expected a field error, got {other:?}"),
-        }
     }
 
     const BASE: &[(&str, &str)] = &[
@@ -477,7 +467,7 @@ mod tests {
     #[test]
     fn searched_optima_are_at_a_third_and_a_half_of_the_jet_speed() {
         // Derived from the definition: d/du[(V − u)²u] = 0 at u = V/3; d/du[(V − u)u] = 0 at V/2.
-        let s = solve(&with(&[
+        let s = solved(&with(&[
             ("vane", "single"),
             ("u", "10 m/s"),
             ("angle", "180 deg"),
@@ -506,7 +496,7 @@ mod tests {
     #[test]
     fn force_and_power_agree_with_the_independent_paths_in_every_mode() {
         for mode in ["fixed", "single", "wheel"] {
-            let s = solve(&with(&[
+            let s = solved(&with(&[
                 ("vane", mode),
                 ("u", "12 m/s"),
                 ("angle", "150 deg"),
@@ -527,7 +517,7 @@ mod tests {
             assert!(!energy.rows.iter().any(|r| r[0].contains("residual")));
         }
         // Turned straight back the side force is 0, not 1e-16 of the flux.
-        let back = solve(&with(&[("vane", "fixed"), ("angle", "180 deg"), ("w_ratio", "1")]));
+        let back = solved(&with(&[("vane", "fixed"), ("angle", "180 deg"), ("w_ratio", "1")]));
         assert_eq!(out(&back, "force_y"), 0.0);
         // A fixed vane does no work: its efficiency is not applicable, and says why.
         assert!(back.output("efficiency").is_none());
@@ -539,21 +529,21 @@ mod tests {
 
     #[test]
     fn blade_speed_errors_and_meanings() {
-        let (field, message) = error_of(&with(&[("vane", "single"), ("u", "30 m/s")]));
+        let (field, message) = first_error(&with(&[("vane", "single"), ("u", "30 m/s")]));
         assert_eq!(field, "u");
         assert!(message.contains("less than the jet speed"), "{message}");
-        let (field, message) = error_of(&with(&[("vane", "wheel"), ("u", "31 m/s")]));
+        let (field, message) = first_error(&with(&[("vane", "wheel"), ("u", "31 m/s")]));
         assert_eq!(field, "u");
         assert!(message.contains("outrun"), "{message}");
-        let (field, _) = error_of(&with(&[("vane", "wheel"), ("u", "")]));
+        let (field, _) = first_error(&with(&[("vane", "wheel"), ("u", "")]));
         assert_eq!(field, "u");
-        assert_eq!(error_of(&with(&[("u", "-3 m/s")])).0, "u");
+        assert_eq!(first_error(&with(&[("u", "-3 m/s")])).0, "u");
         // At the jet speed the ideal wheel runs away: zero force, stated.
-        let s = solve(&with(&[("vane", "wheel"), ("u", "30 m/s")]));
+        let s = solved(&with(&[("vane", "wheel"), ("u", "30 m/s")]));
         assert!(out(&s, "force_x").abs() < 1e-9);
         assert!(s.warnings.iter().any(|w| w.message.contains("runaway")));
         // A fixed vane ignores the hidden blade speed.
-        let s = solve(&with(&[
+        let s = solved(&with(&[
             ("vane", "fixed"),
             ("u", "50 m/s"),
             ("angle", "180 deg"),
@@ -565,24 +555,24 @@ mod tests {
 
     #[test]
     fn bad_jet_inputs_name_their_field() {
-        let (field, message) = error_of(&with(&[("flow_given", "q"), ("q", "-2 L/s")]));
+        let (field, message) = first_error(&with(&[("flow_given", "q"), ("q", "-2 L/s")]));
         assert_eq!(field, "q");
         assert!(message.contains("at least"), "{message}");
-        assert_eq!(error_of(&with(&[("d_jet", "0 mm")])).0, "d_jet");
+        assert_eq!(first_error(&with(&[("d_jet", "0 mm")])).0, "d_jet");
         // A flow that would make a jet faster than 500 m/s names the flow field.
-        let (field, message) = error_of(&with(&[("flow_given", "q"), ("q", "90 m3/s")]));
+        let (field, message) = first_error(&with(&[("flow_given", "q"), ("q", "90 m3/s")]));
         assert_eq!(field, "q");
         assert!(message.contains("500 m/s"), "{message}");
         // The smallest k and deflection accepted are physical, not 5e-324.
-        assert_eq!(error_of(&with(&[("w_ratio", "1e-300")])).0, "w_ratio");
-        assert_eq!(error_of(&with(&[("angle", "1e-300 deg")])).0, "angle");
-        assert_eq!(error_of(&with(&[("w_ratio", "1.2")])).0, "w_ratio");
-        assert_eq!(error_of(&with(&[("angle", "0 deg")])).0, "angle");
+        assert_eq!(first_error(&with(&[("w_ratio", "1e-300")])).0, "w_ratio");
+        assert_eq!(first_error(&with(&[("angle", "1e-300 deg")])).0, "angle");
+        assert_eq!(first_error(&with(&[("w_ratio", "1.2")])).0, "w_ratio");
+        assert_eq!(first_error(&with(&[("angle", "0 deg")])).0, "angle");
     }
 
     #[test]
     fn demo_solves_with_plots_and_a_diagram() {
-        let s = solve(&[]);
+        let s = solved(&[]);
         assert_eq!(s.plots.len(), 2);
         assert!(s
             .plots
