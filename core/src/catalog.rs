@@ -194,6 +194,27 @@ pub struct OutputSpec {
     pub headline: bool,
 }
 
+impl OutputSpec {
+    /// An output shown large at the top of the results.
+    pub const fn headline(key: &'static str, label: &'static str, kind: QuantityKind) -> Self {
+        OutputSpec {
+            key,
+            label,
+            kind,
+            headline: true,
+        }
+    }
+    /// An output listed below the headline ones.
+    pub const fn listed(key: &'static str, label: &'static str, kind: QuantityKind) -> Self {
+        OutputSpec {
+            key,
+            label,
+            kind,
+            headline: false,
+        }
+    }
+}
+
 /// The description of one calculator page.
 #[derive(Clone, Debug, PartialEq)]
 pub struct CalculatorSpec {

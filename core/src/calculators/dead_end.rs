@@ -125,36 +125,15 @@ pub fn spec() -> CalculatorSpec {
         summary: "Thrust p·A on a cap, blind flange, plug or closed valve, on the inside or outside diameter.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "thrust",
-                label: "Thrust on the supports, along the axis towards the closure",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "area",
-                label: "Thrust area used",
-                kind: Q::Area,
-                headline: false,
-            },
-            OutputSpec {
-                key: "diameter_used",
-                label: "Diameter the thrust area is based on",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_id",
-                label: "Thrust on the inside diameter, p·π·d²/4",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_od",
-                label: "Thrust on the outside diameter, p·π·D²/4",
-                kind: Q::Force,
-                headline: false,
-            },
+            OutputSpec::headline(
+                "thrust",
+                "Thrust on the supports, along the axis towards the closure",
+                Q::Force,
+            ),
+            OutputSpec::listed("area", "Thrust area used", Q::Area),
+            OutputSpec::listed("diameter_used", "Diameter the thrust area is based on", Q::Length),
+            OutputSpec::listed("thrust_id", "Thrust on the inside diameter, p·π·d²/4", Q::Force),
+            OutputSpec::listed("thrust_od", "Thrust on the outside diameter, p·π·D²/4", Q::Force),
         ],
         cautions: vec![
             "A closed valve must be restrained on the side that can lose its pressure; a valve in a chamber \
@@ -253,7 +232,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(values, report, |v, _| read(v), |i, _| solve(i), write)
+    super::read_solve_write(values, report, read, solve, write)
 }
 
 /// The report, built from the solved model.

@@ -33,22 +33,21 @@ pub struct Calculator {
     pub compute: fn(&Values, &mut Report<'_>) -> Result<(), Vec<FieldError>>,
 }
 
-/// The body of every page's `compute`: read the values once into typed inputs
-/// (`read` may ask the report for the unit system), solve the pure model (`solve`
-/// may turn a refusal into warnings first), and write the report from the result.
+/// The body of every page's `compute`: read the values once into typed inputs,
+/// solve the pure model, and write the report from the result.
 fn read_solve_write<I, S, E, F>(
     values: &Values,
     report: &mut Report<'_>,
-    read: impl FnOnce(&Values, &Report<'_>) -> Result<I, E>,
-    solve: impl FnOnce(&I, &mut Report<'_>) -> Result<S, F>,
+    read: impl FnOnce(&Values) -> Result<I, E>,
+    solve: impl FnOnce(&I) -> Result<S, F>,
     write: impl FnOnce(&I, &S, &mut Report<'_>),
 ) -> Result<(), Vec<FieldError>>
 where
     E: Into<Vec<FieldError>>,
     F: Into<Vec<FieldError>>,
 {
-    let inputs = read(values, report).map_err(Into::into)?;
-    let solved = solve(&inputs, report).map_err(Into::into)?;
+    let inputs = read(values).map_err(Into::into)?;
+    let solved = solve(&inputs).map_err(Into::into)?;
     write(&inputs, &solved, report);
     Ok(())
 }

@@ -223,96 +223,25 @@ pub fn spec() -> CalculatorSpec {
         summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "thrust",
-                label: "Thrust on the supports (resultant)",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "thrust_in_plane",
-                label: "Thrust in the plane of the bend",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "thrust_angle",
-                label: "Direction of the in-plane thrust, from the inlet flow direction",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_x",
-                label: "Thrust along the inlet flow (x)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_y",
-                label: "Thrust across it, in the plane (y)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_z",
-                label: "Thrust normal to the plane (z, up in plan view)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "p_out",
-                label: "Gauge pressure at the outlet",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_in",
-                label: "Mean velocity at the inlet",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_out",
-                label: "Mean velocity at the outlet",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "flow",
-                label: "Volumetric flow",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "momentum_share",
-                label: "Momentum flux ÷ pressure force",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "fluid_weight",
-                label: "Weight of the fluid inside",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
-            OutputSpec {
-                key: "viscosity",
-                label: "Fluid viscosity",
-                kind: Q::DynamicViscosity,
-                headline: false,
-            },
+            OutputSpec::headline("thrust", "Thrust on the supports (resultant)", Q::Force),
+            OutputSpec::headline("thrust_in_plane", "Thrust in the plane of the bend", Q::Force),
+            OutputSpec::listed(
+                "thrust_angle",
+                "Direction of the in-plane thrust, from the inlet flow direction",
+                Q::Angle,
+            ),
+            OutputSpec::listed("thrust_x", "Thrust along the inlet flow (x)", Q::Force),
+            OutputSpec::listed("thrust_y", "Thrust across it, in the plane (y)", Q::Force),
+            OutputSpec::listed("thrust_z", "Thrust normal to the plane (z, up in plan view)", Q::Force),
+            OutputSpec::listed("p_out", "Gauge pressure at the outlet", Q::Pressure),
+            OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
+            OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),
+            OutputSpec::listed("flow", "Volumetric flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("momentum_share", "Momentum flux ÷ pressure force", Q::Ratio),
+            OutputSpec::listed("fluid_weight", "Weight of the fluid inside", Q::Force),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
+            OutputSpec::listed("viscosity", "Fluid viscosity", Q::DynamicViscosity),
         ],
         cautions: vec![
             "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical \
@@ -327,13 +256,7 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| model::read(v),
-        |i, _| model::solve(i),
-        report::write,
-    )
+    super::read_solve_write(values, report, model::read, model::solve, report::write)
 }
 
 #[cfg(test)]

@@ -86,90 +86,28 @@ pub fn spec() -> CalculatorSpec {
         summary: "Force of a free jet on a fixed normal or inclined plate, and how the flow splits along the plate.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "force_normal",
-                label: "Force on the plate, normal to it",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "force_along_jet",
-                label: "Component along the jet (x)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "force_across_jet",
-                label: "Component across the jet (y)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "q_forward",
-                label: "Flow along the plate, forward branch",
-                kind: Q::VolumeFlow,
-                headline: true,
-            },
-            OutputSpec {
-                key: "q_back",
-                label: "Flow along the plate, back branch",
-                kind: Q::VolumeFlow,
-                headline: true,
-            },
-            OutputSpec {
-                key: "share_forward",
-                label: "Forward share Q₁/Q",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "share_back",
-                label: "Back share Q₂/Q",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_velocity",
-                label: "Jet velocity",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_flow",
-                label: "Jet flow",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Jet mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_momentum",
-                label: "Jet momentum flux ρQV (force on a normal plate)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "stagnation_pressure",
-                label: "Stagnation pressure at the impact point, ρV²/2",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_power",
-                label: "Jet kinetic-energy flux ρQV²/2",
-                kind: Q::Power,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("force_normal", "Force on the plate, normal to it", Q::Force),
+            OutputSpec::listed("force_along_jet", "Component along the jet (x)", Q::Force),
+            OutputSpec::listed("force_across_jet", "Component across the jet (y)", Q::Force),
+            OutputSpec::headline("q_forward", "Flow along the plate, forward branch", Q::VolumeFlow),
+            OutputSpec::headline("q_back", "Flow along the plate, back branch", Q::VolumeFlow),
+            OutputSpec::listed("share_forward", "Forward share Q₁/Q", Q::Ratio),
+            OutputSpec::listed("share_back", "Back share Q₂/Q", Q::Ratio),
+            OutputSpec::listed("jet_velocity", "Jet velocity", Q::Velocity),
+            OutputSpec::listed("jet_flow", "Jet flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Jet mass flow", Q::MassFlow),
+            OutputSpec::listed(
+                "jet_momentum",
+                "Jet momentum flux ρQV (force on a normal plate)",
+                Q::Force,
+            ),
+            OutputSpec::listed(
+                "stagnation_pressure",
+                "Stagnation pressure at the impact point, ρV²/2",
+                Q::Pressure,
+            ),
+            OutputSpec::listed("jet_power", "Jet kinetic-energy flux ρQV²/2", Q::Power),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
             "Idealised jet: no spreading, break-up, air entrainment, friction or windage, and the jet's weight \
@@ -204,7 +142,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(values, report, |v, _| read(v), |i, _| model::solve(i), report::write)
+    super::read_solve_write(values, report, read, model::solve, report::write)
 }
 
 #[cfg(test)]

@@ -221,42 +221,12 @@ pub fn spec() -> CalculatorSpec {
                 with totals and a CSV.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "max_thrust",
-                label: "Largest thrust",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "total_area",
-                label: "Total bearing area",
-                kind: Q::Area,
-                headline: true,
-            },
-            OutputSpec {
-                key: "total_volume",
-                label: "Total gravity-block concrete",
-                kind: Q::Volume,
-                headline: true,
-            },
-            OutputSpec {
-                key: "row_count",
-                label: "Fittings",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "total_thrust",
-                label: "Sum of thrust magnitudes (block loads)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "p_design",
-                label: "Design pressure of rows without their own",
-                kind: Q::Pressure,
-                headline: false,
-            },
+            OutputSpec::headline("max_thrust", "Largest thrust", Q::Force),
+            OutputSpec::headline("total_area", "Total bearing area", Q::Area),
+            OutputSpec::headline("total_volume", "Total gravity-block concrete", Q::Volume),
+            OutputSpec::listed("row_count", "Fittings", Q::Ratio),
+            OutputSpec::listed("total_thrust", "Sum of thrust magnitudes (block loads)", Q::Force),
+            OutputSpec::listed("p_design", "Design pressure of rows without their own", Q::Pressure),
         ],
         cautions: vec![
             "Every row uses one design pressure: check that the test and surge pressures at each fitting, at \
@@ -270,13 +240,9 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve every row, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| model::read(v),
-        |i, _| model::solve(i),
-        |i, rows, r| report::write(i, rows, r),
-    )
+    super::read_solve_write(values, report, model::read, model::solve, |i, s, r| {
+        report::write(i, s, r)
+    })
 }
 
 #[cfg(test)]

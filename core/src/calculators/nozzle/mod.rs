@@ -186,12 +186,11 @@ pub fn spec() -> CalculatorSpec {
                 balances with nozzle coefficients.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "end_force_bore",
-                label: "End force on the flange joint over the bore, p₁A₁ − ṁ(V_j − V₁) (+: the nozzle pulls off)",
-                kind: Q::Force,
-                headline: true,
-            },
+            OutputSpec::headline(
+                "end_force_bore",
+                "End force on the flange joint over the bore, p₁A₁ − ṁ(V_j − V₁) (+: the nozzle pulls off)",
+                Q::Force,
+            ),
             OutputSpec {
                 key: "end_force_gasket",
                 label:
@@ -200,84 +199,19 @@ pub fn spec() -> CalculatorSpec {
                 kind: Q::Force,
                 headline: true,
             },
-            OutputSpec {
-                key: "jet_reaction",
-                label: "Jet reaction on the line, ṁ·V_j, upstream",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "flow",
-                label: "Discharge (volumetric flow)",
-                kind: Q::VolumeFlow,
-                headline: true,
-            },
-            OutputSpec {
-                key: "p_in",
-                label: "Gauge pressure at the flange",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_jet",
-                label: "Jet velocity at the vena contracta",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_pipe",
-                label: "Mean velocity in the pipe",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "cv",
-                label: "Velocity coefficient C_v = C_d ÷ C_c",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "k_nozzle",
-                label: "Loss coefficient on the jet velocity, 1/C_v² − 1",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "head_loss",
-                label: "Head loss in the nozzle",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_diameter",
-                label: "Jet diameter at the vena contracta",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_power",
-                label: "Kinetic power of the jet, ṁV_j²/2",
-                kind: Q::Power,
-                headline: false,
-            },
-            OutputSpec {
-                key: "pressure_force",
-                label: "Pressure force on the flange face, p₁A₁",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("jet_reaction", "Jet reaction on the line, ṁ·V_j, upstream", Q::Force),
+            OutputSpec::headline("flow", "Discharge (volumetric flow)", Q::VolumeFlow),
+            OutputSpec::listed("p_in", "Gauge pressure at the flange", Q::Pressure),
+            OutputSpec::listed("v_jet", "Jet velocity at the vena contracta", Q::Velocity),
+            OutputSpec::listed("v_pipe", "Mean velocity in the pipe", Q::Velocity),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("cv", "Velocity coefficient C_v = C_d ÷ C_c", Q::Ratio),
+            OutputSpec::listed("k_nozzle", "Loss coefficient on the jet velocity, 1/C_v² − 1", Q::Ratio),
+            OutputSpec::listed("head_loss", "Head loss in the nozzle", Q::Length),
+            OutputSpec::listed("jet_diameter", "Jet diameter at the vena contracta", Q::Length),
+            OutputSpec::listed("jet_power", "Kinetic power of the jet, ṁV_j²/2", Q::Power),
+            OutputSpec::listed("pressure_force", "Pressure force on the flange face, p₁A₁", Q::Force),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
             "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction \
@@ -349,13 +283,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| read(v),
-        |i, r| model::solve(i).map_err(|e| report::refusal(e, r)),
-        report::write,
-    )
+    let inputs = read(values)?;
+    let nozzle = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
+    report::write(&inputs, &nozzle, report);
+    Ok(())
 }
 
 #[cfg(test)]

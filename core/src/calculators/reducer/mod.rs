@@ -252,90 +252,24 @@ pub fn spec() -> CalculatorSpec {
                 and the fitting's loss.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "thrust",
-                label: "Axial thrust on the supports (magnitude)",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "thrust_axial",
-                label: "Axial thrust, + along the flow, − against it",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_resultant",
-                label: "Resultant thrust, with the fluid's weight",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "p_out",
-                label: "Gauge pressure at the outlet",
-                kind: Q::Pressure,
-                headline: true,
-            },
-            OutputSpec {
-                key: "k_used",
-                label: "Loss coefficient used, on the reference velocity",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "head_loss",
-                label: "Head loss in the fitting",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_in",
-                label: "Mean velocity at the inlet",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_out",
-                label: "Mean velocity at the outlet",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "flow",
-                label: "Volumetric flow",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "length",
-                label: "Length of the cone",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "momentum_share",
-                label: "Momentum flux ÷ pressure force",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "fluid_weight",
-                label: "Weight of the fluid inside",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("thrust", "Axial thrust on the supports (magnitude)", Q::Force),
+            OutputSpec::listed("thrust_axial", "Axial thrust, + along the flow, − against it", Q::Force),
+            OutputSpec::listed(
+                "thrust_resultant",
+                "Resultant thrust, with the fluid's weight",
+                Q::Force,
+            ),
+            OutputSpec::headline("p_out", "Gauge pressure at the outlet", Q::Pressure),
+            OutputSpec::listed("k_used", "Loss coefficient used, on the reference velocity", Q::Ratio),
+            OutputSpec::listed("head_loss", "Head loss in the fitting", Q::Length),
+            OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
+            OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),
+            OutputSpec::listed("flow", "Volumetric flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("length", "Length of the cone", Q::Length),
+            OutputSpec::listed("momentum_share", "Momentum flux ÷ pressure force", Q::Ratio),
+            OutputSpec::listed("fluid_weight", "Weight of the fluid inside", Q::Force),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
             "For push-on and mechanical joints choose that joint (the outside-diameter basis): using the bores \
@@ -368,7 +302,7 @@ pub fn crane_k_small(d_in: f64, d_out: f64, theta: f64) -> f64 {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(values, report, |v, _| read(v), |i, _| solve(i), report::write)
+    super::read_solve_write(values, report, read, solve, report::write)
 }
 
 #[cfg(test)]

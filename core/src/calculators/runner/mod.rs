@@ -344,139 +344,45 @@ pub fn spec() -> CalculatorSpec {
         summary: SUMMARY,
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "euler_head",
-                label: "Euler head H_E",
-                kind: Q::Length,
-                headline: true,
-            },
-            OutputSpec {
-                key: "torque",
-                label: "Shaft torque (turbine: delivered; pump: needed)",
-                kind: Q::Torque,
-                headline: true,
-            },
-            OutputSpec {
-                key: "power",
-                label: "Shaft power, ideal",
-                kind: Q::Power,
-                headline: true,
-            },
-            OutputSpec {
-                key: "efficiency",
-                label: "Hydraulic efficiency (turbine H_E/H, pump H/H_E)",
-                kind: Q::Ratio,
-                headline: true,
-            },
-            OutputSpec {
-                key: "u1",
-                label: "Blade speed at the inlet u₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "u2",
-                label: "Blade speed at the outlet u₂",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vm1",
-                label: "Meridional velocity at the inlet V_m1",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vm2",
-                label: "Meridional velocity at the outlet V_m2",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vtheta1",
-                label: "Swirl at the inlet V_θ1",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vtheta2",
-                label: "Swirl at the outlet V_θ2",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v1",
-                label: "Absolute velocity at the inlet V₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v2",
-                label: "Absolute velocity at the outlet V₂",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "w1",
-                label: "Relative velocity at the inlet W₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "w2",
-                label: "Relative velocity at the outlet W₂",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "alpha2",
-                label: "Outlet flow angle α₂ (from the blade motion; 90 deg = no swirl)",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "beta1_flow",
-                label: "Inlet relative flow angle β₁,flow",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "incidence",
-                label: "Incidence β₁ − β₁,flow",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "pressure_rise",
-                label: "Static pressure change p₂ − p₁ (ideal; negative = drop)",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("euler_head", "Euler head H_E", Q::Length),
+            OutputSpec::headline("torque", "Shaft torque (turbine: delivered; pump: needed)", Q::Torque),
+            OutputSpec::headline("power", "Shaft power, ideal", Q::Power),
+            OutputSpec::headline(
+                "efficiency",
+                "Hydraulic efficiency (turbine H_E/H, pump H/H_E)",
+                Q::Ratio,
+            ),
+            OutputSpec::listed("u1", "Blade speed at the inlet u₁", Q::Velocity),
+            OutputSpec::listed("u2", "Blade speed at the outlet u₂", Q::Velocity),
+            OutputSpec::listed("vm1", "Meridional velocity at the inlet V_m1", Q::Velocity),
+            OutputSpec::listed("vm2", "Meridional velocity at the outlet V_m2", Q::Velocity),
+            OutputSpec::listed("vtheta1", "Swirl at the inlet V_θ1", Q::Velocity),
+            OutputSpec::listed("vtheta2", "Swirl at the outlet V_θ2", Q::Velocity),
+            OutputSpec::listed("v1", "Absolute velocity at the inlet V₁", Q::Velocity),
+            OutputSpec::listed("v2", "Absolute velocity at the outlet V₂", Q::Velocity),
+            OutputSpec::listed("w1", "Relative velocity at the inlet W₁", Q::Velocity),
+            OutputSpec::listed("w2", "Relative velocity at the outlet W₂", Q::Velocity),
+            OutputSpec::listed(
+                "alpha2",
+                "Outlet flow angle α₂ (from the blade motion; 90 deg = no swirl)",
+                Q::Angle,
+            ),
+            OutputSpec::listed("beta1_flow", "Inlet relative flow angle β₁,flow", Q::Angle),
+            OutputSpec::listed("incidence", "Incidence β₁ − β₁,flow", Q::Angle),
+            OutputSpec::listed(
+                "pressure_rise",
+                "Static pressure change p₂ − p₁ (ideal; negative = drop)",
+                Q::Pressure,
+            ),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: CAUTIONS.to_vec(),
     }
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| model::read(v),
-        |i, _| model::solve(i),
-        |_, s, r| report::write(s, r),
-    )
+    super::read_solve_write(values, report, model::read, model::solve, |_, s, r| report::write(s, r))
 }
 
 #[cfg(test)]

@@ -183,73 +183,38 @@ pub fn spec() -> CalculatorSpec {
         summary: SUMMARY,
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "time",
-                label: "Time to drain between the levels",
-                kind: Q::Time,
-                headline: true,
-            },
-            OutputSpec {
-                key: "q_peak",
-                label: "Largest outflow (just after opening, for a small outlet)",
-                kind: Q::VolumeFlow,
-                headline: true,
-            },
-            OutputSpec {
-                key: "v_jet_peak",
-                label: "Jet velocity at the largest outflow, C_v·V",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "level_rate_peak",
-                label: "Rate of fall of the level at the largest outflow",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "level_at_peak",
-                label: "Level at the largest outflow",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "volume",
-                label: "Volume drained",
-                kind: Q::Volume,
-                headline: false,
-            },
-            OutputSpec {
-                key: "q_end",
-                label: "Outflow at the final level",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "area_ratio",
-                label: "Effective outlet area ÷ tank area, r = C_d·a/A_t",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "time_free_fall",
-                label: "Free-fall time over the same drop (lower bound)",
-                kind: Q::Time,
-                headline: false,
-            },
+            OutputSpec::headline("time", "Time to drain between the levels", Q::Time),
+            OutputSpec::headline(
+                "q_peak",
+                "Largest outflow (just after opening, for a small outlet)",
+                Q::VolumeFlow,
+            ),
+            OutputSpec::listed("v_jet_peak", "Jet velocity at the largest outflow, C_v·V", Q::Velocity),
+            OutputSpec::listed(
+                "level_rate_peak",
+                "Rate of fall of the level at the largest outflow",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("level_at_peak", "Level at the largest outflow", Q::Length),
+            OutputSpec::listed("volume", "Volume drained", Q::Volume),
+            OutputSpec::listed("q_end", "Outflow at the final level", Q::VolumeFlow),
+            OutputSpec::listed(
+                "area_ratio",
+                "Effective outlet area ÷ tank area, r = C_d·a/A_t",
+                Q::Ratio,
+            ),
+            OutputSpec::listed(
+                "time_free_fall",
+                "Free-fall time over the same drop (lower bound)",
+                Q::Time,
+            ),
         ],
         cautions: CAUTIONS.to_vec(),
     }
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| model::read(v),
-        |i, _| model::solve(i),
-        |_, s, r| report::write(s, r),
-    )
+    super::read_solve_write(values, report, model::read, model::solve, |_, s, r| report::write(s, r))
 }
 
 #[cfg(test)]

@@ -507,72 +507,29 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("25 degC"));
 
     let mut outputs = vec![
-        OutputSpec {
-            key: "thrust_in_plane",
-            label: "Thrust in the plan (horizontal)",
-            kind: Q::Force,
-            headline: true,
-        },
-        OutputSpec {
-            key: "thrust_angle",
-            label: "Direction of the thrust in the plan, from the common pipe's flow direction",
-            kind: Q::Angle,
-            headline: true,
-        },
-        OutputSpec {
-            key: "thrust",
-            label: "Thrust on the supports (resultant, with the fluid's weight)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "thrust_x",
-            label: "Thrust along the common pipe's flow (x)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "thrust_y",
-            label: "Thrust across it, in the plan (y)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "thrust_z",
-            label: "Thrust out of the plan (z, + up)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "static_thrust",
-            label: "Static thrust with no flow, p·|Σ A·(−n)|",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "solved_share",
-            label: "Flow share solved from the mass balance (fraction)",
-            kind: Q::Ratio,
-            headline: false,
-        },
-        OutputSpec {
-            key: "flow",
-            label: "Flow in the common pipe",
-            kind: Q::VolumeFlow,
-            headline: false,
-        },
-        OutputSpec {
-            key: "mass_flow",
-            label: "Mass flow in the common pipe",
-            kind: Q::MassFlow,
-            headline: false,
-        },
-        OutputSpec {
-            key: "v_common",
-            label: "Mean velocity in the common pipe",
-            kind: Q::Velocity,
-            headline: false,
-        },
+        OutputSpec::headline("thrust_in_plane", "Thrust in the plan (horizontal)", Q::Force),
+        OutputSpec::headline(
+            "thrust_angle",
+            "Direction of the thrust in the plan, from the common pipe's flow direction",
+            Q::Angle,
+        ),
+        OutputSpec::listed(
+            "thrust",
+            "Thrust on the supports (resultant, with the fluid's weight)",
+            Q::Force,
+        ),
+        OutputSpec::listed("thrust_x", "Thrust along the common pipe's flow (x)", Q::Force),
+        OutputSpec::listed("thrust_y", "Thrust across it, in the plan (y)", Q::Force),
+        OutputSpec::listed("thrust_z", "Thrust out of the plan (z, + up)", Q::Force),
+        OutputSpec::listed("static_thrust", "Static thrust with no flow, p·|Σ A·(−n)|", Q::Force),
+        OutputSpec::listed(
+            "solved_share",
+            "Flow share solved from the mass balance (fraction)",
+            Q::Ratio,
+        ),
+        OutputSpec::listed("flow", "Flow in the common pipe", Q::VolumeFlow),
+        OutputSpec::listed("mass_flow", "Mass flow in the common pipe", Q::MassFlow),
+        OutputSpec::listed("v_common", "Mean velocity in the common pipe", Q::Velocity),
     ];
     for b in &BRANCHES {
         outputs.push(OutputSpec {
@@ -595,24 +552,9 @@ pub fn spec() -> CalculatorSpec {
         });
     }
     outputs.extend([
-        OutputSpec {
-            key: "momentum_share",
-            label: "Momentum flux ÷ pressure force",
-            kind: Q::Ratio,
-            headline: false,
-        },
-        OutputSpec {
-            key: "fluid_weight",
-            label: "Weight of the fluid inside",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "density",
-            label: "Fluid density",
-            kind: Q::Density,
-            headline: false,
-        },
+        OutputSpec::listed("momentum_share", "Momentum flux ÷ pressure force", Q::Ratio),
+        OutputSpec::listed("fluid_weight", "Weight of the fluid inside", Q::Force),
+        OutputSpec::listed("density", "Fluid density", Q::Density),
     ]);
     CalculatorSpec {
         key: KEY,
@@ -880,7 +822,7 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(values, report, |v, _| read(v), |i, _| model::solve(i), report::write)
+    super::read_solve_write(values, report, read, model::solve, report::write)
 }
 
 #[cfg(test)]

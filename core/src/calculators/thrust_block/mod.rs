@@ -589,145 +589,38 @@ pub fn spec() -> CalculatorSpec {
                 and the bearing or gravity block that carries it.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "thrust",
-                label: "Thrust on the restraint (at the design pressure)",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "bearing_area",
-                label: "Required bearing area",
-                kind: Q::Area,
-                headline: true,
-            },
-            OutputSpec {
-                key: "block_volume",
-                label: "Gravity block: concrete volume",
-                kind: Q::ConcreteVolume,
-                headline: true,
-            },
-            OutputSpec {
-                key: "p_design",
-                label: "Design pressure used",
-                kind: Q::Pressure,
-                headline: true,
-            },
-            OutputSpec {
-                key: "thrust_angle",
-                label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + \
+            OutputSpec::headline("thrust", "Thrust on the restraint (at the design pressure)", Q::Force),
+            OutputSpec::headline("bearing_area", "Required bearing area", Q::Area),
+            OutputSpec::headline("block_volume", "Gravity block: concrete volume", Q::ConcreteVolume),
+            OutputSpec::headline("p_design", "Design pressure used", Q::Pressure),
+            OutputSpec::listed(
+                "thrust_angle",
+                "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + \
                     upward)",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_h",
-                label: "Horizontal component of the thrust",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_v",
-                label: "Vertical component of the thrust (+ up)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "area_d",
-                label: "Diameter of the thrust area",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_area",
-                label: "Thrust area of the main end",
-                kind: Q::Area,
-                headline: false,
-            },
-            OutputSpec {
-                key: "p_test",
-                label: "Field test pressure",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "wave_speed",
-                label: "Pressure wave speed",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "dp_surge",
-                label: "Joukowsky surge rise ρ·a·ΔV",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "p_surge",
-                label: "Working pressure plus surge",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "sigma",
-                label: "Allowable soil bearing used",
-                kind: Q::SoilBearing,
-                headline: false,
-            },
-            OutputSpec {
-                key: "face_h",
-                label: "Bearing face height",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "face_w",
-                label: "Bearing face width",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "block_mass",
-                label: "Gravity block: concrete mass",
-                kind: Q::Mass,
-                headline: false,
-            },
-            OutputSpec {
-                key: "block_weight",
-                label: "Gravity block: effective weight needed",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "block_side",
-                label: "Gravity block: plan side (square plan)",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "sliding_sf",
-                label: "Factor of safety against sliding",
-                kind: Q::Ratio,
-                headline: true,
-            },
-            OutputSpec {
-                key: "friction",
-                label: "Friction coefficient used for sliding",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "side_bearing_area",
-                label: "Sag block: bearing area against the trench wall for the horizontal thrust",
-                kind: Q::Area,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mdp",
-                label: "Maximum design pressure MDP (EN 805)",
-                kind: Q::Pressure,
-                headline: false,
-            },
+                Q::Angle,
+            ),
+            OutputSpec::listed("thrust_h", "Horizontal component of the thrust", Q::Force),
+            OutputSpec::listed("thrust_v", "Vertical component of the thrust (+ up)", Q::Force),
+            OutputSpec::listed("area_d", "Diameter of the thrust area", Q::Length),
+            OutputSpec::listed("thrust_area", "Thrust area of the main end", Q::Area),
+            OutputSpec::listed("p_test", "Field test pressure", Q::Pressure),
+            OutputSpec::listed("wave_speed", "Pressure wave speed", Q::Velocity),
+            OutputSpec::listed("dp_surge", "Joukowsky surge rise ρ·a·ΔV", Q::Pressure),
+            OutputSpec::listed("p_surge", "Working pressure plus surge", Q::Pressure),
+            OutputSpec::listed("sigma", "Allowable soil bearing used", Q::SoilBearing),
+            OutputSpec::listed("face_h", "Bearing face height", Q::Length),
+            OutputSpec::listed("face_w", "Bearing face width", Q::Length),
+            OutputSpec::listed("block_mass", "Gravity block: concrete mass", Q::Mass),
+            OutputSpec::listed("block_weight", "Gravity block: effective weight needed", Q::Force),
+            OutputSpec::listed("block_side", "Gravity block: plan side (square plan)", Q::Length),
+            OutputSpec::headline("sliding_sf", "Factor of safety against sliding", Q::Ratio),
+            OutputSpec::listed("friction", "Friction coefficient used for sliding", Q::Ratio),
+            OutputSpec::listed(
+                "side_bearing_area",
+                "Sag block: bearing area against the trench wall for the horizontal thrust",
+                Q::Area,
+            ),
+            OutputSpec::listed("mdp", "Maximum design pressure MDP (EN 805)", Q::Pressure),
         ],
         cautions: vec![
             "Design to the highest pressure the line will see: the field test pressure and surge \
@@ -744,13 +637,7 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| model::read(v),
-        |i, _| model::solve(i),
-        report::write,
-    )
+    super::read_solve_write(values, report, model::read, model::solve, report::write)
 }
 
 #[cfg(test)]

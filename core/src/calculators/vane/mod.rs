@@ -157,138 +157,44 @@ pub fn spec() -> CalculatorSpec {
                 power and efficiency against blade speed.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "force_x",
-                label: "Force on the vane along the jet (x)",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "power",
-                label: "Power delivered to the vane(s), F_x·u",
-                kind: Q::Power,
-                headline: true,
-            },
-            OutputSpec {
-                key: "efficiency",
-                label: "Efficiency: power ÷ jet kinetic-energy flux",
-                kind: Q::Ratio,
-                headline: true,
-            },
-            OutputSpec {
-                key: "force_y",
-                label: "Force on the vane across the jet (y, positive towards the side the water is turned to)",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "force_side",
-                label: "Side force on the vane, away from the side the water is turned to",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "force",
-                label: "Resultant force on the vane",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow_turned",
-                label: "Mass flow turned by the vane(s)",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "w_in",
-                label: "Relative velocity entering the vane, W₁ = V − u",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "w_out",
-                label: "Relative velocity leaving the vane, W₂ = k·W₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_out",
-                label: "Absolute velocity of the water leaving, |V₂|",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v_out_angle",
-                label: "Direction of V₂, from the jet direction",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "head_loss",
-                label: "Loss on the vane, (1 − k²)·W₁²/2g",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_velocity",
-                label: "Jet velocity V",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_flow",
-                label: "Jet flow Q",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_power",
-                label: "Jet kinetic-energy flux ρQV²/2",
-                kind: Q::Power,
-                headline: false,
-            },
-            OutputSpec {
-                key: "u_best_single",
-                label: "Single vane: blade speed of peak power (searched)",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "power_best_single",
-                label: "Single vane: peak power",
-                kind: Q::Power,
-                headline: false,
-            },
-            OutputSpec {
-                key: "efficiency_best_single",
-                label: "Single vane: peak efficiency",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "u_best_wheel",
-                label: "Wheel: blade speed of peak power (searched)",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "power_best_wheel",
-                label: "Wheel: peak power",
-                kind: Q::Power,
-                headline: false,
-            },
-            OutputSpec {
-                key: "efficiency_best_wheel",
-                label: "Wheel: peak efficiency",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("force_x", "Force on the vane along the jet (x)", Q::Force),
+            OutputSpec::headline("power", "Power delivered to the vane(s), F_x·u", Q::Power),
+            OutputSpec::headline("efficiency", "Efficiency: power ÷ jet kinetic-energy flux", Q::Ratio),
+            OutputSpec::listed(
+                "force_y",
+                "Force on the vane across the jet (y, positive towards the side the water is turned to)",
+                Q::Force,
+            ),
+            OutputSpec::listed(
+                "force_side",
+                "Side force on the vane, away from the side the water is turned to",
+                Q::Force,
+            ),
+            OutputSpec::listed("force", "Resultant force on the vane", Q::Force),
+            OutputSpec::listed("mass_flow_turned", "Mass flow turned by the vane(s)", Q::MassFlow),
+            OutputSpec::listed("w_in", "Relative velocity entering the vane, W₁ = V − u", Q::Velocity),
+            OutputSpec::listed("w_out", "Relative velocity leaving the vane, W₂ = k·W₁", Q::Velocity),
+            OutputSpec::listed("v_out", "Absolute velocity of the water leaving, |V₂|", Q::Velocity),
+            OutputSpec::listed("v_out_angle", "Direction of V₂, from the jet direction", Q::Angle),
+            OutputSpec::listed("head_loss", "Loss on the vane, (1 − k²)·W₁²/2g", Q::Length),
+            OutputSpec::listed("jet_velocity", "Jet velocity V", Q::Velocity),
+            OutputSpec::listed("jet_flow", "Jet flow Q", Q::VolumeFlow),
+            OutputSpec::listed("jet_power", "Jet kinetic-energy flux ρQV²/2", Q::Power),
+            OutputSpec::listed(
+                "u_best_single",
+                "Single vane: blade speed of peak power (searched)",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("power_best_single", "Single vane: peak power", Q::Power),
+            OutputSpec::listed("efficiency_best_single", "Single vane: peak efficiency", Q::Ratio),
+            OutputSpec::listed(
+                "u_best_wheel",
+                "Wheel: blade speed of peak power (searched)",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("power_best_wheel", "Wheel: peak power", Q::Power),
+            OutputSpec::listed("efficiency_best_wheel", "Wheel: peak efficiency", Q::Ratio),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
             "Idealised jet: no spreading, windage, spray or splash, and the jet's weight neglected. Real vanes \
@@ -344,13 +250,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    super::read_solve_write(
-        values,
-        report,
-        |v, _| read(v),
-        |i, r| model::solve(i).map_err(|e| report::refusal(e, r)),
-        report::write,
-    )
+    let inputs = read(values)?;
+    let solved = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
+    report::write(&inputs, &solved, report);
+    Ok(())
 }
 
 #[cfg(test)]
