@@ -414,7 +414,6 @@ fn diagram(
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
     crate::calculators::testing::page_helpers!(super::KEY);
@@ -443,18 +442,8 @@ mod tests {
     #[test]
     fn carried_thrust_opens_the_thrust_block_page_with_the_same_force() {
         let s = outcome(&[]).result.expect("solves");
-        let carry = &s.carry_over[0];
-        let target = crate::calculators::spec(carry.calculator).expect("the target page is registered");
-        let mut request = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&target) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in &carry.inputs {
-            request.inputs.insert(k.to_string(), v.clone());
-        }
-        let block = crate::solve(carry.calculator, &request)
-            .result
-            .expect("the thrust-block page accepts the carried inputs");
+        assert_eq!(s.carry_over[0].calculator, "thrust-block");
+        let (block, _) = crate::calculators::testing::carried(&s);
         assert_relative_eq!(
             block.output("thrust").unwrap().si,
             s.output("thrust").unwrap().si,

@@ -169,6 +169,14 @@ pub(crate) mod testing {
         }
     }
 
+    /// The page a solution carries its result to, solved from that page's demo
+    /// inputs with the carried ones replaced; with the carried inputs for asserts.
+    pub fn carried(solution: &Solution) -> (Solution, Vec<(&'static str, String)>) {
+        let carry = &solution.carry_over[0];
+        let pairs: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+        (solved(carry.calculator, &pairs), carry.inputs.clone())
+    }
+
     /// The first field error's field key and message, failing the test on a solution.
     pub fn first_error(key: &str, pairs: &[(&str, &str)]) -> (String, String) {
         match outcome(key, pairs).result {

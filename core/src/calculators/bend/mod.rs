@@ -295,19 +295,13 @@ mod tests {
         let request = crate::catalog::demo_request(&super::spec(), &[("plane", "vertical_crest")]);
         let s = crate::solve(super::KEY, &request).result.expect("solves");
         let thrust = s.output("thrust").unwrap().si;
-        let carry = &s.carry_over[0];
-        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
-        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
-        let block = crate::solve(carry.calculator, &target)
-            .result
-            .expect("restraint page solves");
+        let (block, inputs) = crate::calculators::testing::carried(&s);
         let carried = block.output("thrust").expect("thrust reported").si;
         assert_relative_eq!(carried, thrust, max_relative = 1e-3);
         // A crest pushes up: the carried plane says so.
         assert!(
-            carry.inputs.iter().any(|(k, v)| *k == "plane" && v == "vertical_crest"),
-            "{:?}",
-            carry.inputs
+            inputs.iter().any(|(k, v)| *k == "plane" && v == "vertical_crest"),
+            "{inputs:?}"
         );
     }
 
@@ -330,14 +324,9 @@ mod tests {
             "the fluid weight is there"
         );
         let in_plane = s.output("thrust_in_plane").unwrap().si;
-        let carry = &s.carry_over[0];
-        let get = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+        let (block, inputs) = crate::calculators::testing::carried(&s);
+        let get = |key: &str| inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
         assert_eq!(get("plane").as_deref(), Some("horizontal"));
-        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
-        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
-        let block = crate::solve(carry.calculator, &target)
-            .result
-            .expect("restraint page solves");
         assert_relative_eq!(block.output("thrust").unwrap().si, in_plane, max_relative = 1e-4);
         assert_relative_eq!(block.output("thrust_v").unwrap().si, 0.0);
         // No design pressure of the restraint page's own is shown for a carried force.

@@ -307,7 +307,6 @@ pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<Field
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
     crate::calculators::testing::page_helpers!(super::KEY);
@@ -359,18 +358,9 @@ mod tests {
     fn vertical_thrust_is_carried_with_its_direction() {
         for (orientation, plane) in [("upward", "vertical_crest"), ("downward", "vertical_sag")] {
             let s = solved(&[("flow_dir", orientation)]);
-            let carry = &s.carry_over[0];
-            let field = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+            let (block, inputs) = crate::calculators::testing::carried(&s);
+            let field = |key: &str| inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
             assert_eq!(field("plane").as_deref(), Some(plane));
-            let target = crate::calculators::spec(carry.calculator).expect("registered");
-            let mut request = Request::default();
-            for (k, v) in crate::catalog::demo_inputs(&target) {
-                request.inputs.insert(k, v);
-            }
-            for (k, v) in &carry.inputs {
-                request.inputs.insert(k.to_string(), v.clone());
-            }
-            let block = crate::solve(carry.calculator, &request).result.expect("accepted");
             assert_relative_eq!(
                 block.output("thrust").unwrap().si,
                 s.output("thrust").unwrap().si,
