@@ -2,7 +2,9 @@
 //! fluid fields, the flow fields (`flow_given` and `q`, `v`, `mdot`), the jet
 //! fields, and the readers that turn them into engine inputs.
 
-use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, Limits, Values};
+use uom::si::f64::{Area, Length, Velocity, VolumeRate};
+
+use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, FromSi, Limits, Values};
 use crate::engine::FlowSpec;
 use crate::error::FieldError;
 use crate::fluid::{Fluid, FluidError, ZERO_CELSIUS};
@@ -305,13 +307,27 @@ pub const MIN_JET_SPEED: f64 = 0.1;
 
 pub const MAX_JET_SPEED: f64 = 500.0;
 
-/// A free jet leaving a nozzle, SI: diameter and area of the jet, mean speed, flow.
+/// A free jet leaving a nozzle: diameter and area of the jet, mean speed, flow
+/// (typed; the models take `.value`, SI base units, where they do arithmetic).
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Jet {
-    pub diameter: f64,
-    pub area: f64,
-    pub velocity: f64,
-    pub flow: f64,
+    pub diameter: Length,
+    pub area: Area,
+    pub velocity: Velocity,
+    pub flow: VolumeRate,
+}
+
+impl Jet {
+    /// The jet of diameter `diameter` (m) at mean speed `velocity` (m/s).
+    pub fn from_si(diameter: f64, velocity: f64) -> Self {
+        let area = super::drawing::circle_area(diameter);
+        Jet {
+            diameter: Length::from_si(diameter),
+            area: Area::from_si(area),
+            velocity: Velocity::from_si(velocity),
+            flow: VolumeRate::from_si(velocity * area),
+        }
+    }
 }
 
 /// The jet fields: `d_jet`, `flow_given` and one of `v`, `q`, `head`,
@@ -452,12 +468,7 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
             ),
         )]);
     }
-    Ok(Jet {
-        diameter,
-        area,
-        velocity,
-        flow: velocity * area,
-    })
+    Ok(Jet::from_si(diameter, velocity))
 }
 
 /// How the speed of a jet was given, typed: what a report says about it.

@@ -297,13 +297,7 @@ mod tests {
     }
 
     fn jet() -> Jet {
-        let area = PI * 0.05 * 0.05 / 4.0;
-        Jet {
-            diameter: 0.05,
-            area,
-            velocity: 30.0,
-            flow: 30.0 * area,
-        }
+        Jet::from_si(0.05, 30.0)
     }
 
     #[test]
@@ -321,7 +315,7 @@ mod tests {
             Ok(s) => s,
             Err(e) => panic!("{e}"),
         };
-        let m = 1000.0 * jet().area * (v - u);
+        let m = 1000.0 * jet().area.value * (v - u);
         assert_relative_eq!(
             s.force.x,
             m * (v - u) * (1.0 - 0.85 * 2.0f64.cos()),
@@ -359,7 +353,7 @@ mod tests {
             // Euler (F_x·u) and energy (jet flux − carried off − vane loss) agree for
             // the wheel.
             let j = jet();
-            let m = 1000.0 * j.flow;
+            let m = 1000.0 * j.flow.value;
             let from_energy = 0.5 * m * 30.0 * 30.0
                 - 0.5 * m * wheel.v_out.dot(wheel.v_out)
                 - 0.5 * m * (1.0 - k * k) * (30.0 - u) * (30.0 - u);
@@ -452,7 +446,7 @@ mod tests {
             ("angle", "180 deg"),
             ("w_ratio", "1"),
         ]));
-        let q = jet().flow;
+        let q = jet().flow.value;
         assert_relative_eq!(out(&s, "force_x"), 2.0 * 1000.0 * q * 30.0, max_relative = 1e-12);
     }
 
