@@ -46,8 +46,24 @@ where
     E: Into<Vec<FieldError>>,
     F: Into<Vec<FieldError>>,
 {
+    read_solve_write_refusing(values, report, read, solve, |refusal, _| refusal.into(), write)
+}
+
+/// [`read_solve_write`] for a model that refuses a case in its own terms: `refuse`
+/// turns the refusal into field errors worded in the report's units.
+fn read_solve_write_refusing<I, S, E, R>(
+    values: &Values,
+    report: &mut Report<'_>,
+    read: impl FnOnce(&Values) -> Result<I, E>,
+    solve: impl FnOnce(&I) -> Result<S, R>,
+    refuse: impl FnOnce(R, &Report<'_>) -> Vec<FieldError>,
+    write: impl FnOnce(&I, &S, &mut Report<'_>),
+) -> Result<(), Vec<FieldError>>
+where
+    E: Into<Vec<FieldError>>,
+{
     let inputs = read(values).map_err(Into::into)?;
-    let solved = solve(&inputs).map_err(Into::into)?;
+    let solved = solve(&inputs).map_err(|refusal| refuse(refusal, report))?;
     write(&inputs, &solved, report);
     Ok(())
 }

@@ -283,10 +283,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let nozzle = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
-    report::write(&inputs, &nozzle, report);
-    Ok(())
+    super::read_solve_write_refusing(values, report, read, model::solve, report::refusal, report::write)
 }
 
 #[cfg(test)]

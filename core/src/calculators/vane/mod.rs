@@ -250,10 +250,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write_refusing(values, report, read, model::solve, report::refusal, report::write)
 }
 
 #[cfg(test)]
