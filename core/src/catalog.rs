@@ -194,6 +194,27 @@ pub struct OutputSpec {
     pub headline: bool,
 }
 
+impl OutputSpec {
+    /// An output shown large at the top of the results.
+    pub const fn headline(key: &'static str, label: &'static str, kind: QuantityKind) -> Self {
+        OutputSpec {
+            key,
+            label,
+            kind,
+            headline: true,
+        }
+    }
+    /// An output listed below the headline ones.
+    pub const fn listed(key: &'static str, label: &'static str, kind: QuantityKind) -> Self {
+        OutputSpec {
+            key,
+            label,
+            kind,
+            headline: false,
+        }
+    }
+}
+
 /// The description of one calculator page.
 #[derive(Clone, Debug, PartialEq)]
 pub struct CalculatorSpec {
@@ -218,9 +239,12 @@ impl CalculatorSpec {
 
 /// Cautions shown on every calculator page.
 pub const COMMON_CAUTIONS: &[&str] = &[
-    "Design to the highest pressure the line will see, including the field test pressure and surge, not only the operating pressure.",
-    "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be undermined by later excavation.",
-    "Results are idealised control-volume balances. They support, and do not replace, the judgement of a licensed engineer and the local codes that govern the work.",
+    "Design to the highest pressure the line will see, including the field test pressure and surge, not only \
+            the operating pressure.",
+    "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be \
+            undermined by later excavation.",
+    "Results are idealised control-volume balances. They support, and do not replace, the judgement of a \
+            licensed engineer and the local codes that govern the work.",
 ];
 
 /// Raw inputs as typed by the user, keyed by field key.

@@ -398,7 +398,8 @@ impl std::fmt::Display for EngineError {
             ),
             EngineError::FlowReverses { port, .. } => write!(
                 f,
-                "the flow at '{port}' would have to reverse to balance mass; the given flows leave more than enters"
+                "the flow at '{port}' would have to reverse to balance mass; the given flows leave more than \
+                        enters"
             ),
             EngineError::StreamUnderdetermined { from, to } => {
                 write!(
@@ -444,7 +445,9 @@ impl std::fmt::Display for EngineWarning {
         match self {
             EngineWarning::BelowVapourPressure { port, absolute, vapour } => write!(
                 f,
-                "the absolute pressure at '{port}' ({:.1} kPa, gauge pressure plus a standard atmosphere of {} kPa) is below the vapour pressure ({:.1} kPa): the liquid would flash or cavitate and this balance does not hold; at altitude the atmosphere is lower and the margin smaller",
+                "the absolute pressure at '{port}' ({:.1} kPa, gauge pressure plus a standard atmosphere of {} \
+                        kPa) is below the vapour pressure ({:.1} kPa): the liquid would flash or cavitate and this \
+                        balance does not hold; at altitude the atmosphere is lower and the margin smaller",
                 absolute / 1e3,
                 STANDARD_ATMOSPHERE / 1e3,
                 vapour / 1e3
@@ -455,21 +458,29 @@ impl std::fmt::Display for EngineWarning {
                 ratio * 100.0
             ),
             EngineWarning::MassDoesNotClose { residual } => {
-                let (amount, way) = (format_significant(residual.abs(), 3), if *residual > 0.0 {
-                    "more leaves than enters"
-                } else {
-                    "more enters than leaves"
-                });
+                let (amount, way) = (
+                    format_significant(residual.abs(), 3),
+                    if *residual > 0.0 {
+                        "more leaves than enters"
+                    } else {
+                        "more enters than leaves"
+                    },
+                );
                 write!(f, "the given flows do not balance: {amount} kg/s {way}")
             }
-            EngineWarning::EnergyDoesNotClose { from, to, residual_head } => write!(
+            EngineWarning::EnergyDoesNotClose {
+                from,
+                to,
+                residual_head,
+            } => write!(
                 f,
                 "the energy balance from '{from}' to '{to}' is off by {} m of head with all terms given",
                 format_significant(*residual_head, 3)
             ),
             EngineWarning::NegativeHeadLoss { from, to, head } => write!(
                 f,
-                "the head loss from '{from}' to '{to}' comes out negative ({head:.3} m): check the pressures, energy cannot be created"
+                "the head loss from '{from}' to '{to}' comes out negative ({head:.3} m): check the pressures, \
+                        energy cannot be created"
             ),
         }
     }

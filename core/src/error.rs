@@ -82,7 +82,11 @@ impl fmt::Display for FieldErrorKind {
         match self {
             FieldErrorKind::Missing => write!(f, "a value is required"),
             FieldErrorKind::NotANumber { text } => {
-                write!(f, "'{}' is not a number; type a number, optionally with a unit, e.g. 150 psi", shorten(text))
+                write!(
+                    f,
+                    "'{}' is not a number; type a number, optionally with a unit, e.g. 150 psi",
+                    shorten(text)
+                )
             }
             FieldErrorKind::NotFinite => write!(f, "must be a finite number (NaN and infinity are not accepted)"),
             FieldErrorKind::UnknownUnit {
@@ -101,16 +105,31 @@ impl fmt::Display for FieldErrorKind {
                     )
                 }
             }
-            FieldErrorKind::RefusedUnit { unit, reason } => write!(f, "'{}' is not accepted here: {reason}", shorten(unit)),
-            FieldErrorKind::WrongKind { unit, unit_kind, expected } => {
-                write!(f, "'{}' is a unit of {unit_kind}, not of this field; use one of: {expected}", shorten(unit))
+            FieldErrorKind::RefusedUnit { unit, reason } => {
+                write!(f, "'{}' is not accepted here: {reason}", shorten(unit))
+            }
+            FieldErrorKind::WrongKind {
+                unit,
+                unit_kind,
+                expected,
+            } => {
+                write!(
+                    f,
+                    "'{}' is a unit of {unit_kind}, not of this field; use one of: {expected}",
+                    shorten(unit)
+                )
             }
             FieldErrorKind::AmbiguousComma { text } => write!(
                 f,
-                "'{}' is ambiguous: the comma may be a decimal comma or a thousands separator; write it without the comma or with a decimal point",
+                "'{}' is ambiguous: the comma may be a decimal comma or a thousands separator; write it \
+                        without the comma or with a decimal point",
                 shorten(text)
             ),
-            FieldErrorKind::OutOfRange { min, max, min_inclusive } => {
+            FieldErrorKind::OutOfRange {
+                min,
+                max,
+                min_inclusive,
+            } => {
                 let op = if *min_inclusive { "at least" } else { "greater than" };
                 write!(f, "must be {op} {min} and at most {max}")
             }
@@ -128,12 +147,14 @@ impl fmt::Display for FieldErrorKind {
                 if *zero_allowed {
                     write!(
                         f,
-                        "is below {smallest}, the smallest meaningful value: type {zero}, or at least {smallest}{upper}"
+                        "is below {smallest}, the smallest meaningful value: type {zero}, or at least \
+                                {smallest}{upper}"
                     )
                 } else {
                     write!(
                         f,
-                        "must be greater than {zero}: at least {smallest} (the smallest meaningful value){upper}"
+                        "must be greater than {zero}: at least {smallest} (the smallest meaningful \
+                                value){upper}"
                     )
                 }
             }

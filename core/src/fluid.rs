@@ -48,9 +48,13 @@ impl std::fmt::Display for FluidError {
                 "{:.2} degC is below freezing; liquid water properties are given from 0 degC to 99.9 degC",
                 kelvin - ZERO_CELSIUS
             ),
-            FluidError::AtOrAboveSaturation { kelvin, saturation_kelvin } => write!(
+            FluidError::AtOrAboveSaturation {
+                kelvin,
+                saturation_kelvin,
+            } => write!(
                 f,
-                "{:.2} degC is at or above the boiling point at atmospheric pressure ({:.2} degC); use a custom fluid for hot water under pressure",
+                "{:.2} degC is at or above the boiling point at atmospheric pressure ({:.2} degC); use a \
+                        custom fluid for hot water under pressure",
                 kelvin - ZERO_CELSIUS,
                 saturation_kelvin - ZERO_CELSIUS
             ),

@@ -41,18 +41,31 @@ pub const TERMS: &[Term] = &[
     // Pipe geometry.
     term("d", "inside diameter (bore) of the pipe at the main or inlet end"),
     term("od", "outside diameter of the pipe at the main or inlet end"),
-    term("d2", "inside diameter at the second end: the outlet, the small end or the branch"),
-    term("od2", "outside diameter at the second end: the outlet, the small end or the branch"),
-    term("size", "pipe size preset of the main end (a key of the pipe-size tables, or custom)"),
+    term(
+        "d2",
+        "inside diameter at the second end: the outlet, the small end or the branch",
+    ),
+    term(
+        "od2",
+        "outside diameter at the second end: the outlet, the small end or the branch",
+    ),
+    term(
+        "size",
+        "pipe size preset of the main end (a key of the pipe-size tables, or custom)",
+    ),
     term("size2", "pipe size preset of the second end"),
     term("wall", "pipe wall thickness"),
     term("r_bend", "centre-line radius of a bend"),
-    term("angle", "deflection angle of a bend or vane: the change of flow direction"),
+    term(
+        "angle",
+        "deflection angle of a bend or vane: the change of flow direction",
+    ),
     term("cone_angle", "included angle of a conical reducer or expander"),
     term("plate_angle", "angle between a jet and a flat plate"),
     choice(
         "joint",
-        "joint at the fitting, which sets the thrust area: the bore for welded, flanged or fused joints, the outside diameter for push-on and mechanical joints (restrained or not)",
+        "joint at the fitting, which sets the thrust area: the bore for welded, flanged or fused joints, the \
+                outside diameter for push-on and mechanical joints (restrained or not)",
         &["push_on", "mechanical", "restrained", "flanged", "welded", "fused"],
     ),
     choice(
@@ -60,7 +73,11 @@ pub const TERMS: &[Term] = &[
         "plane of a bend: horizontal, or vertical at a low point (sag) or a high point (crest)",
         &["horizontal", "vertical_sag", "vertical_crest"],
     ),
-    choice("legs", "legs of a vertical bend: both sloped, or one level", &["symmetric", "one_level"]),
+    choice(
+        "legs",
+        "legs of a vertical bend: both sloped, or one level",
+        &["symmetric", "one_level"],
+    ),
     choice(
         "flow_dir",
         "direction of flow along a straight fitting's axis",
@@ -75,8 +92,14 @@ pub const TERMS: &[Term] = &[
     term("q", "volume flow of the given stream"),
     term("v", "mean velocity of the given stream"),
     term("mdot", "mass flow of the given stream"),
-    term("p", "gauge pressure where the page says: the working pressure, or the pressure at the inlet"),
-    term("head", "head: total head at a nozzle inlet, or the net head of a machine"),
+    term(
+        "p",
+        "gauge pressure where the page says: the working pressure, or the pressure at the inlet",
+    ),
+    term(
+        "head",
+        "head: total head at a nozzle inlet, or the net head of a machine",
+    ),
     term("k", "loss coefficient K of a fitting"),
     choice(
         "k_ref",
@@ -87,13 +110,21 @@ pub const TERMS: &[Term] = &[
     term("cc", "contraction coefficient C_c"),
     term("cv", "velocity coefficient C_v"),
     // Fluid.
-    choice("fluid", "the liquid: water from its temperature, or typed properties", &["water", "custom"]),
+    choice(
+        "fluid",
+        "the liquid: water from its temperature, or typed properties",
+        &["water", "custom"],
+    ),
     term("t", "temperature of the water"),
     term("rho", "density of the liquid"),
     term("mu", "dynamic viscosity of the liquid"),
     term("bulk_modulus", "bulk modulus of the liquid"),
     // Design pressure and surge.
-    choice("p_basis", "design pressure basis", &["highest", "operating", "test", "surge"]),
+    choice(
+        "p_basis",
+        "design pressure basis",
+        &["highest", "operating", "test", "surge"],
+    ),
     choice(
         "test_rule",
         "field test pressure rule",
@@ -113,7 +144,11 @@ pub const TERMS: &[Term] = &[
         &["from_size", "steel", "ductile_iron", "pvc", "pe", "custom"],
     ),
     term("e_pipe", "Young's modulus of the pipe wall"),
-    choice("anchoring", "axial restraint of the pipe (wave speed)", &["joints", "anchored", "upstream"]),
+    choice(
+        "anchoring",
+        "axial restraint of the pipe (wave speed)",
+        &["joints", "anchored", "upstream"],
+    ),
     // Restraint.
     choice(
         "fitting",
@@ -125,7 +160,11 @@ pub const TERMS: &[Term] = &[
     term("soil", "soil preset (allowable bearing, friction)"),
     term("sigma", "allowable soil bearing"),
     term("sf", "safety factor"),
-    choice("block_dims", "how a bearing face is proportioned", &["height", "aspect"]),
+    choice(
+        "block_dims",
+        "how a bearing face is proportioned",
+        &["height", "aspect"],
+    ),
     term("block_h", "height of a bearing face"),
     term("block_aspect", "width ÷ height of a bearing face"),
     term("gamma_c", "unit weight of concrete"),
@@ -135,11 +174,19 @@ pub const TERMS: &[Term] = &[
     term("sf_slide", "safety factor against sliding"),
     term("rows", "the fittings of a line schedule, one per line"),
     term("w_fitting", "weight of a fitting and the pipe it carries"),
-    choice("closure", "kind of closure at a dead end", &["cap", "blind_flange", "closed_valve"]),
+    choice(
+        "closure",
+        "kind of closure at a dead end",
+        &["cap", "blind_flange", "closed_valve"],
+    ),
     choice("loss", "loss model of a reducer", &["crane", "borda", "k", "none"]),
     term("d_gasket", "gasket reaction diameter G"),
     // Tee branches.
-    choice("junction", "direction of flow at a junction", &["dividing", "combining"]),
+    choice(
+        "junction",
+        "direction of flow at a junction",
+        &["dividing", "combining"],
+    ),
     choice("branches", "number of branches", &["1", "2", "3", "4", "5", "6"]),
     term("b#_d", "inside diameter of branch #"),
     term("b#_od", "outside diameter of branch #"),
@@ -183,7 +230,11 @@ pub const TERMS: &[Term] = &[
     term("d_orifice", "diameter of an orifice"),
     term("h_start", "starting liquid level"),
     term("h_end", "final liquid level"),
-    choice("shape", "shape of a velocity profile", &["traverse", "power_law", "laminar"]),
+    choice(
+        "shape",
+        "shape of a velocity profile",
+        &["traverse", "power_law", "laminar"],
+    ),
     term("points", "velocity traverse points"),
     term("m_wall", "exponent m of the power-law wall zone"),
     term("u_max", "centre-line velocity"),

@@ -621,7 +621,10 @@ const ABSOLUTE_PRESSURE_SPELLINGS: &[&str] = &[
 ];
 
 /// Why an absolute pressure is refused; shown after the unit.
-const ABSOLUTE_PRESSURE_REASON: &str = "it is an absolute pressure, and every pressure field here is gauge (above the local atmosphere); subtract the local atmospheric pressure (101.325 kPa = 14.696 psi at sea level) and type the gauge value, e.g. in psig or barg";
+const ABSOLUTE_PRESSURE_REASON: &str =
+    "it is an absolute pressure, and every pressure field here is gauge (above the local atmosphere); subtract the \
+        local atmospheric pressure (101.325 kPa = 14.696 psi at sea level) and type the gauge value, e.g. in psig or \
+        barg";
 
 /// Resolves the unit text typed in a field of `kind` (already split from the number).
 ///
@@ -1606,21 +1609,115 @@ mod tests {
     fn conversion_factors_match_published_and_library_values() {
         // (typed, kind, expected SI value, relative tolerance, source)
         let cases: &[(&str, QuantityKind, f64, f64, &str)] = &[
-            ("1 psi", Q::Pressure, 6894.757, 1e-7, "NIST SP 811 (2008) App. B.8: pound-force per square inch = 6.894 757 E+03 Pa"),
-            ("1 psi", Q::Pressure, 6894.7572931683635, 1e-12, "pint==0.25.3: Quantity(1, 'psi').to('Pa')"),
-            ("1 psf", Q::Pressure, 47.88025898033586, 1e-12, "pint==0.25.3: Quantity(1, 'lbf/ft**2').to('Pa')"),
-            ("1 ksf", Q::SoilBearing, 47880.25898033586, 1e-12, "pint==0.25.3: Quantity(1, 'kip/ft**2').to('Pa')"),
-            ("1 tsf", Q::SoilBearing, 95760.51796067174, 1e-12, "pint==0.25.3: Quantity(1, 'ton_force/ft**2').to('Pa')"),
-            ("1 tsf", Q::Pressure, 8896.443 / 0.09290304, 1e-6, "NIST SP 811 App. B.8: ton-force (2000 lbf) = 8.896 443 E+03 N, over ft² = 9.290 304 E-02 m² (from memory)"),
-            ("1 kg/cm2", Q::Pressure, 98066.5, 1e-12, "NIST SP 811 App. B.8: kilogram-force per square centimeter = 9.806 65 E+04 Pa (exact); pint==0.25.3 'kgf/cm**2' the same"),
-            ("1 mH2O", Q::Pressure, 9806.65, 1e-12, "conventional metre of water, 1000 kg/m³ × 9.806 65 m/s²; pint==0.25.3 'meter_H2O' = 9806.65"),
-            ("1 ftH2O", Q::Pressure, 2989.067, 2e-7, "NIST SP 811 App. B.8: foot of water (39.2 °F) = 2.989 067 E+03 Pa"),
-            ("1 ftH2O", Q::Pressure, 2989.0669199999993, 1e-12, "pint==0.25.3: Quantity(1, 'foot_H2O').to('Pa')"),
-            ("1 inH2O", Q::Pressure, 249.08890999999997, 1e-12, "pint==0.25.3: Quantity(1, 'inch_H2O').to('Pa') (conventional)"),
-            ("1 inH2O", Q::Pressure, 249.082, 3e-5, "NIST SP 811 App. B.8: inch of water (39.2 °F) = 249.082 Pa; the conventional column is 2.7e-5 higher (1000 against 999.97 kg/m³)"),
-            ("1 inH2O", Q::Pressure, 248.84, 1.1e-3, "NIST SP 811 App. B.8: inch of water (60 °F) = 248.84 Pa; 1.0e-3 lower than the conventional column"),
-            ("1 yd3", Q::ConcreteVolume, 0.764554857984, 1e-12, "pint==0.25.3: Quantity(1, 'yard**3').to('m**3'); NIST SP 811: cubic yard = 7.645 549 E-01 m³"),
-            ("1 m3/hr", Q::VolumeFlow, 0.0002777777777777778, 1e-12, "pint==0.25.3: Quantity(1, 'm**3/hr').to('m**3/s')"),
+            (
+                "1 psi",
+                Q::Pressure,
+                6894.757,
+                1e-7,
+                "NIST SP 811 (2008) App. B.8: pound-force per square inch = 6.894 757 E+03 Pa",
+            ),
+            (
+                "1 psi",
+                Q::Pressure,
+                6894.7572931683635,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'psi').to('Pa')",
+            ),
+            (
+                "1 psf",
+                Q::Pressure,
+                47.88025898033586,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'lbf/ft**2').to('Pa')",
+            ),
+            (
+                "1 ksf",
+                Q::SoilBearing,
+                47880.25898033586,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'kip/ft**2').to('Pa')",
+            ),
+            (
+                "1 tsf",
+                Q::SoilBearing,
+                95760.51796067174,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'ton_force/ft**2').to('Pa')",
+            ),
+            (
+                "1 tsf",
+                Q::Pressure,
+                8896.443 / 0.09290304,
+                1e-6,
+                "NIST SP 811 App. B.8: ton-force (2000 lbf) = 8.896 443 E+03 N, over ft² = 9.290 304 E-02 m² (from \
+                    memory)",
+            ),
+            (
+                "1 kg/cm2",
+                Q::Pressure,
+                98066.5,
+                1e-12,
+                "NIST SP 811 App. B.8: kilogram-force per square centimeter = 9.806 65 E+04 Pa (exact); \
+                    pint==0.25.3 'kgf/cm**2' the same",
+            ),
+            (
+                "1 mH2O",
+                Q::Pressure,
+                9806.65,
+                1e-12,
+                "conventional metre of water, 1000 kg/m³ × 9.806 65 m/s²; pint==0.25.3 'meter_H2O' = 9806.65",
+            ),
+            (
+                "1 ftH2O",
+                Q::Pressure,
+                2989.067,
+                2e-7,
+                "NIST SP 811 App. B.8: foot of water (39.2 °F) = 2.989 067 E+03 Pa",
+            ),
+            (
+                "1 ftH2O",
+                Q::Pressure,
+                2989.0669199999993,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'foot_H2O').to('Pa')",
+            ),
+            (
+                "1 inH2O",
+                Q::Pressure,
+                249.08890999999997,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'inch_H2O').to('Pa') (conventional)",
+            ),
+            (
+                "1 inH2O",
+                Q::Pressure,
+                249.082,
+                3e-5,
+                "NIST SP 811 App. B.8: inch of water (39.2 °F) = 249.082 Pa; the conventional column is 2.7e-5 \
+                    higher (1000 against 999.97 kg/m³)",
+            ),
+            (
+                "1 inH2O",
+                Q::Pressure,
+                248.84,
+                1.1e-3,
+                "NIST SP 811 App. B.8: inch of water (60 °F) = 248.84 Pa; 1.0e-3 lower than the conventional \
+                    column",
+            ),
+            (
+                "1 yd3",
+                Q::ConcreteVolume,
+                0.764554857984,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'yard**3').to('m**3'); NIST SP 811: cubic yard = 7.645 549 E-01 m³",
+            ),
+            (
+                "1 m3/hr",
+                Q::VolumeFlow,
+                0.0002777777777777778,
+                1e-12,
+                "pint==0.25.3: Quantity(1, 'm**3/hr').to('m**3/s')",
+            ),
         ];
         for (text, kind, expected, tolerance, source) in cases {
             let got = parse_quantity(text, *kind, "").unwrap_or_else(|e| panic!("{text}: {e}"));

@@ -5,9 +5,9 @@
 //! Everything is drawn from a small seeded generator ([`Rng`], SplitMix64), so a
 //! failing request can be replayed from its seed and printed whole.
 
-use fluxledger_core::calculators::thrust_block;
 use fluxledger_core::catalog::{smallest_meaningful, CalculatorSpec, FieldKind, FieldSpec, Limits};
 use fluxledger_core::pipe_sizes;
+use fluxledger_core::restraint;
 use fluxledger_core::units::{self, QuantityKind};
 use fluxledger_core::{Request, UnitSystem};
 
@@ -129,7 +129,7 @@ pub fn valid_text(spec: &CalculatorSpec, field: &FieldSpec, rng: &mut Rng) -> St
 /// One to eight line-schedule rows of every kind, with presets and typed values.
 pub fn schedule_rows(rng: &mut Rng) -> String {
     let sizes = pipe_sizes::SIZES;
-    let soils: Vec<&str> = thrust_block::SOILS
+    let soils: Vec<&str> = restraint::soil::SOILS
         .iter()
         .filter(|s| s.bearing > 0.0)
         .map(|s| s.key)

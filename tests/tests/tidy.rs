@@ -418,30 +418,6 @@ fn max_width() -> usize {
         .unwrap_or(100)
 }
 
-/// Core files that still have lines rustfmt could not bring within the width (long
-/// help texts and labels inside expressions), being fixed by the helpers who own them
-/// (issue 13 §6). The lead shrinks this list after merging; a listed file is still
-/// measured and its count printed.
-const FILES_STILL_TOO_WIDE: &[&str] = &[
-    "calculators/bend",
-    "calculators/common",
-    "calculators/dead_end",
-    "calculators/jet_plate",
-    "calculators/line_schedule",
-    "calculators/nozzle",
-    "calculators/reducer",
-    "calculators/tee",
-    "calculators/thrust_block",
-    "calculators/vane",
-    "restraint",
-    "catalog.rs",
-    "engine.rs",
-    "error.rs",
-    "fluid.rs",
-    "glossary.rs",
-    "units.rs",
-];
-
 #[test]
 fn core_lines_are_within_the_configured_width() {
     let width = max_width();
@@ -462,19 +438,7 @@ fn core_lines_are_within_the_configured_width() {
             .filter(|(_, line)| line.chars().count() > width)
             .map(|(number, _)| number + 1)
             .collect();
-        // An entry names a file, or a page's module and its folder (`calculators/tee`
-        // covers `calculators/tee.rs` and `calculators/tee/*.rs`).
-        let still_allowed = FILES_STILL_TOO_WIDE.iter().any(|entry| {
-            relative == *entry
-                || relative.starts_with(&format!("{entry}."))
-                || relative.starts_with(&format!("{entry}/"))
-        });
-        if still_allowed {
-            println!(
-                "note: core/src/{relative}: {} lines wider than {width} (allowed for now)",
-                wide.len()
-            );
-        } else if !wide.is_empty() {
+        if !wide.is_empty() {
             problems.push(format!("core/src/{relative}: lines {wide:?}"));
         }
     }
@@ -513,11 +477,12 @@ fn every_core_intra_doc_link_resolves() {
 mod registry {
     use std::collections::BTreeSet;
 
-    use fluxledger_core::calculators::{self, thrust_block, CALCULATORS};
+    use fluxledger_core::calculators::{self, CALCULATORS};
     use fluxledger_core::catalog::{
         self, demo_request, is_visible, largest_meaningful, smallest_meaningful, CalculatorSpec, ChoiceOption,
         FieldKind, FieldSpec, MAX_TEXT_CHARS,
     };
+    use fluxledger_core::restraint;
     use fluxledger_core::units::{self, QuantityKind};
     use fluxledger_core::{glossary, pipe_sizes};
     use fluxledger_core::{SolveError, UnitSystem};
@@ -663,10 +628,10 @@ mod registry {
                     }
                 }
             }
-        } else if options == thrust_block::SOIL_OPTIONS {
-            let expected = thrust_block::SOILS.iter().map(|s| s.key).chain(["custom"]).collect();
-            compare("thrust_block::SOILS", expected);
-            for soil in thrust_block::SOILS {
+        } else if options == restraint::soil::SOIL_OPTIONS {
+            let expected = restraint::soil::SOILS.iter().map(|s| s.key).chain(["custom"]).collect();
+            compare("restraint::soil::SOILS", expected);
+            for soil in restraint::soil::SOILS {
                 let label = label_of(soil.key);
                 // "Sand: 2000 psf (...)": the value between ': ' and ' (' is the table's.
                 let shown = label
@@ -681,14 +646,14 @@ mod registry {
                     )),
                 }
             }
-        } else if options == thrust_block::TEST_RULE_OPTIONS {
-            let expected = thrust_block::TEST_RULES
+        } else if options == restraint::pressure::TEST_RULE_OPTIONS {
+            let expected = restraint::pressure::TEST_RULES
                 .iter()
                 .map(|r| r.key)
                 .chain(["custom"])
                 .collect();
-            compare("thrust_block::TEST_RULES", expected);
-            for rule in thrust_block::TEST_RULES {
+            compare("restraint::pressure::TEST_RULES", expected);
+            for rule in restraint::pressure::TEST_RULES {
                 // A field test is never below the working pressure it tests.
                 for p in [0.0, 1e5, 1e6, 1e7] {
                     let test = (rule.apply)(p, 0.0);

@@ -72,7 +72,8 @@ pub fn spec() -> CalculatorSpec {
             "Closure",
             CLOSURE_OPTIONS,
             "blind_flange",
-            "The thrust is the same for each; a closed valve carries it only while the line beyond is empty or open to air.",
+            "The thrust is the same for each; a closed valve carries it only while the line beyond is empty or \
+                    open to air.",
         ),
         quantity(
             "p",
@@ -82,7 +83,8 @@ pub fn spec() -> CalculatorSpec {
             "psi",
             "12 bar",
             Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so not below 0.",
+            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
+                    not below 0.",
         ),
         quantity(
             "d",
@@ -111,7 +113,8 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 "222 mm",
                 Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Needed for push-on and mechanical joints (the outside-diameter basis); with it the inside-diameter thrust is shown as well.",
+                "Needed for push-on and mechanical joints (the outside-diameter basis); with it the \
+                        inside-diameter thrust is shown as well.",
             )
         },
     ];
@@ -122,40 +125,21 @@ pub fn spec() -> CalculatorSpec {
         summary: "Thrust p·A on a cap, blind flange, plug or closed valve, on the inside or outside diameter.",
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "thrust",
-                label: "Thrust on the supports, along the axis towards the closure",
-                kind: Q::Force,
-                headline: true,
-            },
-            OutputSpec {
-                key: "area",
-                label: "Thrust area used",
-                kind: Q::Area,
-                headline: false,
-            },
-            OutputSpec {
-                key: "diameter_used",
-                label: "Diameter the thrust area is based on",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_id",
-                label: "Thrust on the inside diameter, p·π·d²/4",
-                kind: Q::Force,
-                headline: false,
-            },
-            OutputSpec {
-                key: "thrust_od",
-                label: "Thrust on the outside diameter, p·π·D²/4",
-                kind: Q::Force,
-                headline: false,
-            },
+            OutputSpec::headline(
+                "thrust",
+                "Thrust on the supports, along the axis towards the closure",
+                Q::Force,
+            ),
+            OutputSpec::listed("area", "Thrust area used", Q::Area),
+            OutputSpec::listed("diameter_used", "Diameter the thrust area is based on", Q::Length),
+            OutputSpec::listed("thrust_id", "Thrust on the inside diameter, p·π·d²/4", Q::Force),
+            OutputSpec::listed("thrust_od", "Thrust on the outside diameter, p·π·D²/4", Q::Force),
         ],
         cautions: vec![
-            "A closed valve must be restrained on the side that can lose its pressure; a valve in a chamber needs its own anchor.",
-            "Caps and blind flanges are often removed later to extend the line: the restraint must stay until the line is depressurised.",
+            "A closed valve must be restrained on the side that can lose its pressure; a valve in a chamber \
+                    needs its own anchor.",
+            "Caps and blind flanges are often removed later to extend the line: the restraint must stay until \
+                    the line is depressurised.",
         ],
     }
 }
@@ -248,10 +232,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = solve(&inputs)?;
-    write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, read, solve, write)
 }
 
 /// The report, built from the solved model.
@@ -295,7 +276,8 @@ fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if closure == "closed_valve" {
         report.warn(
             Some("closure"),
-            "a closed valve carries this thrust only while the line beyond it is empty or open; with equal pressure on both sides it carries none",
+            "a closed valve carries this thrust only while the line beyond it is empty or open; with equal \
+                    pressure on both sides it carries none",
         );
     }
 
@@ -424,22 +406,17 @@ fn diagram(
         title: "Dead end: control volume and forces".to_string(),
         bounds,
         shapes,
-        caption: "Pipe and closure to scale; the force arrows share one scale. T acts on the supports, towards the closure; R = −T is what the restraint supplies.".to_string(),
+        caption: "Pipe and closure to scale; the force arrows share one scale. T acts on the supports, towards the \
+                closure; R = −T is what the restraint supplies."
+            .to_string(),
     }
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> String {
-        crate::calculators::testing::error_field(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn thrust_is_pressure_times_the_chosen_area() {
@@ -465,18 +442,8 @@ mod tests {
     #[test]
     fn carried_thrust_opens_the_thrust_block_page_with_the_same_force() {
         let s = outcome(&[]).result.expect("solves");
-        let carry = &s.carry_over[0];
-        let target = crate::calculators::spec(carry.calculator).expect("the target page is registered");
-        let mut request = Request::default();
-        for (k, v) in crate::catalog::demo_inputs(&target) {
-            request.inputs.insert(k, v);
-        }
-        for (k, v) in &carry.inputs {
-            request.inputs.insert(k.to_string(), v.clone());
-        }
-        let block = crate::solve(carry.calculator, &request)
-            .result
-            .expect("the thrust-block page accepts the carried inputs");
+        assert_eq!(s.carry_over[0].calculator, "thrust-block");
+        let (block, _) = crate::calculators::testing::carried(&s);
         assert_relative_eq!(
             block.output("thrust").unwrap().si,
             s.output("thrust").unwrap().si,

@@ -34,6 +34,41 @@ pub struct Calculator {
     pub compute: fn(&Values, &mut Report<'_>) -> Result<(), Vec<FieldError>>,
 }
 
+/// The body of every page's `compute`: read the values once into typed inputs,
+/// solve the pure model, and write the report from the result.
+fn read_solve_write<I, S, E, F>(
+    values: &Values,
+    report: &mut Report<'_>,
+    read: impl FnOnce(&Values) -> Result<I, E>,
+    solve: impl FnOnce(&I) -> Result<S, F>,
+    write: impl FnOnce(&I, &S, &mut Report<'_>),
+) -> Result<(), Vec<FieldError>>
+where
+    E: Into<Vec<FieldError>>,
+    F: Into<Vec<FieldError>>,
+{
+    read_solve_write_refusing(values, report, read, solve, |refusal, _| refusal.into(), write)
+}
+
+/// [`read_solve_write`] for a model that refuses a case in its own terms: `refuse`
+/// turns the refusal into field errors worded in the report's units.
+fn read_solve_write_refusing<I, S, E, R>(
+    values: &Values,
+    report: &mut Report<'_>,
+    read: impl FnOnce(&Values) -> Result<I, E>,
+    solve: impl FnOnce(&I) -> Result<S, R>,
+    refuse: impl FnOnce(R, &Report<'_>) -> Vec<FieldError>,
+    write: impl FnOnce(&I, &S, &mut Report<'_>),
+) -> Result<(), Vec<FieldError>>
+where
+    E: Into<Vec<FieldError>>,
+{
+    let inputs = read(values).map_err(Into::into)?;
+    let solved = solve(&inputs).map_err(|refusal| refuse(refusal, report))?;
+    write(&inputs, &solved, report);
+    Ok(())
+}
+
 /// Every calculator, in contents order.
 #[rustfmt::skip]
 pub const CALCULATORS: &[Calculator] = &[
@@ -105,10 +140,43 @@ pub(crate) mod testing {
     use crate::catalog::{self, Solution};
     use crate::SolveError;
 
+    /// The helpers of one page's tests, bound to its key: `request`, `outcome`,
+    /// `solved`, `first_error` and `error_field` as below, taking only the pairs.
+    macro_rules! page_helpers {
+        ($key:expr) => {
+            #[allow(dead_code)]
+            fn request(pairs: &[(&str, &str)]) -> $crate::catalog::Request {
+                $crate::calculators::testing::request($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn outcome(pairs: &[(&str, &str)]) -> $crate::Outcome {
+                $crate::calculators::testing::outcome($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn solved(pairs: &[(&str, &str)]) -> $crate::catalog::Solution {
+                $crate::calculators::testing::solved($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn first_error(pairs: &[(&str, &str)]) -> (String, String) {
+                $crate::calculators::testing::first_error($key, pairs)
+            }
+            #[allow(dead_code)]
+            fn error_field(pairs: &[(&str, &str)]) -> String {
+                $crate::calculators::testing::error_field($key, pairs)
+            }
+        };
+    }
+    pub(crate) use page_helpers;
+
+    /// The demo request of calculator `key` with `pairs` replaced.
+    pub fn request(key: &str, pairs: &[(&str, &str)]) -> catalog::Request {
+        let spec = super::spec(key).unwrap_or_else(|| panic!("no calculator '{key}'"));
+        catalog::demo_request(&spec, pairs)
+    }
+
     /// Solves calculator `key` from its demo inputs with `pairs` replaced.
     pub fn outcome(key: &str, pairs: &[(&str, &str)]) -> super::Outcome {
-        let spec = super::spec(key).unwrap_or_else(|| panic!("no calculator '{key}'"));
-        super::solve(key, &catalog::demo_request(&spec, pairs))
+        super::solve(key, &request(key, pairs))
     }
 
     /// The solution, failing the test with the errors when there is none.
@@ -117,6 +185,14 @@ pub(crate) mod testing {
             Ok(solution) => solution,
             Err(e) => panic!("expected a solution, got {e}"),
         }
+    }
+
+    /// The page a solution carries its result to, solved from that page's demo
+    /// inputs with the carried ones replaced; with the carried inputs for asserts.
+    pub fn carried(solution: &Solution) -> (Solution, Vec<(&'static str, String)>) {
+        let carry = &solution.carry_over[0];
+        let pairs: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+        (solved(carry.calculator, &pairs), carry.inputs.clone())
     }
 
     /// The first field error's field key and message, failing the test on a solution.

@@ -180,7 +180,8 @@ keyed_choice! {
         Mechanical => ("mechanical", "Mechanical joints (area on the OD)"),
         Restrained => ("restrained", "Restrained push-on or mechanical joints (area on the OD of the sealing joint)"),
         Flanged => ("flanged", "Flanged (area on the bore)"),
-        Welded => ("welded", "Welded or fused (area on the bore)"),
+        Welded => ("welded", "Welded (area on the bore)"),
+        Fused => ("fused", "Fused (area on the bore)"),
     }
 }
 
@@ -205,7 +206,9 @@ pub const OD_JOINTS: &[&str] = &[Joint::PushOn.key(), Joint::Mechanical.key(), J
 
 /// Help text of every joint selector: why the bore is offered only for joints that
 /// seal on it.
-pub const JOINT_HELP: &str = "Push-on and mechanical joints seal on the outside of the spigot, restrained or not, so the pressure acts over the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints seal on the bore.";
+pub const JOINT_HELP: &str =
+    "Push-on and mechanical joints seal on the outside of the spigot, restrained or not, so the pressure acts over \
+        the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints seal on the bore.";
 
 /// Whether a joint key takes its thrust area on the outside diameter.
 pub fn joint_uses_od(joint: &str) -> bool {

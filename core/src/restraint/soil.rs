@@ -23,16 +23,29 @@ pub enum SoilTable {
 impl SoilTable {
     pub fn citation(self) -> &'static str {
         match self {
-            SoilTable::SafeBearing => "Safe bearing loads for horizontal thrusts (cover over 2 ft), the table reproduced in AWWA M23 *PVC Pipe — Design and Installation* and in pipe makers' installation guides (from memory; confirmed against a pipe maker's reproduction)",
-            SoilTable::Nfpa24 => "NFPA 24, *Installation of Private Fire Service Mains*, annex table of horizontal bearing strengths (A.10.8.2 in the 2002 edition; numbering varies by edition; from memory)",
-            SoilTable::Bs8004 => "BS 8004:1986 *Foundations*, Table 1, presumed allowable bearing values under static loading, lower end of each range (from memory)",
+            SoilTable::SafeBearing => {
+                "Safe bearing loads for horizontal thrusts (cover over 2 ft), the table reproduced in AWWA M23 \
+                    *PVC Pipe — Design and Installation* and in pipe makers' installation guides (from memory; \
+                    confirmed against a pipe maker's reproduction)"
+            }
+            SoilTable::Nfpa24 => {
+                "NFPA 24, *Installation of Private Fire Service Mains*, annex table of horizontal bearing \
+                    strengths (A.10.8.2 in the 2002 edition; numbering varies by edition; from memory)"
+            }
+            SoilTable::Bs8004 => {
+                "BS 8004:1986 *Foundations*, Table 1, presumed allowable bearing values under static loading, \
+                    lower end of each range (from memory)"
+            }
         }
     }
     pub fn convention(self) -> &'static str {
         match self {
             SoilTable::SafeBearing => "already 'safe' values: the source divides the thrust by them directly (SF = 1)",
             SoilTable::Nfpa24 => "bearing strengths used with a safety factor, 1.5 in the same annex",
-            SoilTable::Bs8004 => "allowable values for vertical foundation loads, already reduced for safety; a proxy for horizontal bearing",
+            SoilTable::Bs8004 => {
+                "allowable values for vertical foundation loads, already reduced for safety; a proxy for \
+                    horizontal bearing"
+            }
         }
     }
     pub fn short(self) -> &'static str {
@@ -56,7 +69,10 @@ pub struct SoilPreset {
 }
 
 /// Where the presets' friction coefficients come from.
-pub const FRICTION_SOURCE: &str = "NAVFAC DM-7.02 (1986), table of ultimate friction factors for dissimilar materials, mass concrete on the soil named (from memory), lower end of the range of the row that fits the soil name; none for soft clay, muck and peat, which that table does not cover";
+pub const FRICTION_SOURCE: &str =
+    "NAVFAC DM-7.02 (1986), table of ultimate friction factors for dissimilar materials, mass concrete on the soil \
+        named (from memory), lower end of the range of the row that fits the soil name; none for soft clay, muck and \
+        peat, which that table does not cover";
 
 const PSF: f64 = 4.448_221_615_260_5 / (0.3048 * 0.3048);
 
@@ -310,7 +326,8 @@ impl std::fmt::Display for SoilRefusal {
             SoilRefusal::Unknown => write!(f, "unknown soil preset"),
             SoilRefusal::NoBearing(s) => write!(
                 f,
-                "{}: the {} gives no bearing (0); a block cannot bear on it: use restrained joints, piles or tie rods to firm ground, or replace the soil, with a geotechnical engineer",
+                "{}: the {} gives no bearing (0); a block cannot bear on it: use restrained joints, piles or \
+                        tie rods to firm ground, or replace the soil, with a geotechnical engineer",
                 s.soil,
                 s.table.short()
             ),

@@ -98,6 +98,9 @@ pub fn diagram(g: &Geometry, balance: &engine::Balance, report: &Report<'_>) -> 
         title: format!("Bend, {plane}: control volume and forces"),
         bounds,
         shapes,
-        caption: "Pipe and bend to scale; force arrows scaled to the largest force, in-plane components only. T acts on the supports; R = −T is what the restraint supplies.".to_string(),
+        caption:
+            "Pipe and bend to scale; force arrows scaled to the largest force, in-plane components only. T acts on \
+                the supports; R = −T is what the restraint supplies."
+                .to_string(),
     }
 }

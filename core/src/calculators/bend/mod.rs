@@ -130,29 +130,90 @@ pub fn spec() -> CalculatorSpec {
     fields.extend([
         FieldSpec {
             optional: true,
-            ..quantity("k", "Loss coefficient K", Q::Ratio, "-", "-", "", Limits::closed(0.0, 50.0), "Head loss K·V²/2g on the inlet velocity; empty means no loss. Name the method your K comes from (Crane, Idelchik, ...).")
+            ..quantity(
+                "k",
+                "Loss coefficient K",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(0.0, 50.0),
+                "Head loss K·V²/2g on the inlet velocity; empty means no loss. Name the method your K comes from \
+                    (Crane, Idelchik, ...).",
+            )
         },
         FieldSpec {
             optional: true,
-            ..choice("joint", "Joints at the bend (thrust area)", crate::restraint::Joint::OPTIONS, "flanged", crate::restraint::JOINT_HELP)
+            ..choice(
+                "joint",
+                "Joints at the bend (thrust area)",
+                crate::restraint::Joint::OPTIONS,
+                "flanged",
+                crate::restraint::JOINT_HELP,
+            )
         },
         FieldSpec {
             visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
-            ..quantity("od", "Inlet pipe outside diameter", Q::Length, "mm", "in", "330 mm", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical joint).")
+            ..quantity(
+                "od",
+                "Inlet pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "330 mm",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Outside diameter of the pipe at the inlet joint (the sealing diameter of a push-on or mechanical \
+                    joint).",
+            )
         },
         FieldSpec {
             visible_when: Some(("joint", crate::restraint::OD_JOINTS)),
             optional: true,
-            ..quantity("od2", "Outlet pipe outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Empty: the inlet's outside diameter (an equal-size bend).")
+            ..quantity(
+                "od2",
+                "Outlet pipe outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Empty: the inlet's outside diameter (an equal-size bend).",
+            )
         },
-        choice("plane", "Plane of the bend", PLANE_OPTIONS, "horizontal", "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the plane."),
+        choice(
+            "plane",
+            "Plane of the bend",
+            PLANE_OPTIONS,
+            "horizontal",
+            "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the \
+                plane.",
+        ),
         FieldSpec {
             optional: true,
-            ..quantity("r_bend", "Centre-line bend radius", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, 100.0), "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet diameter.")
+            ..quantity(
+                "r_bend",
+                "Centre-line bend radius",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, 100.0),
+                "Sets the volume of fluid inside (its weight) and the drawing; empty means 1.5 × the inlet \
+                    diameter.",
+            )
         },
         FieldSpec {
             optional: true,
-            ..quantity("w_fitting", "Weight of the fitting and carried pipe", Q::Force, "kN", "lbf", "", Limits::closed(0.0, 1e8), "Optional dead weight the restraint also carries (vertical bends).")
+            ..quantity(
+                "w_fitting",
+                "Weight of the fitting and carried pipe",
+                Q::Force,
+                "kN",
+                "lbf",
+                "",
+                Limits::closed(0.0, 1e8),
+                "Optional dead weight the restraint also carries (vertical bends).",
+            )
         },
     ]);
     CalculatorSpec {
@@ -162,54 +223,52 @@ pub fn spec() -> CalculatorSpec {
         summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
         fields,
         outputs: vec![
-            OutputSpec { key: "thrust", label: "Thrust on the supports (resultant)", kind: Q::Force, headline: true },
-            OutputSpec { key: "thrust_in_plane", label: "Thrust in the plane of the bend", kind: Q::Force, headline: true },
-            OutputSpec { key: "thrust_angle", label: "Direction of the in-plane thrust, from the inlet flow direction", kind: Q::Angle, headline: false },
-            OutputSpec { key: "thrust_x", label: "Thrust along the inlet flow (x)", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_y", label: "Thrust across it, in the plane (y)", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_z", label: "Thrust normal to the plane (z, up in plan view)", kind: Q::Force, headline: false },
-            OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "v_in", label: "Mean velocity at the inlet", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out", label: "Mean velocity at the outlet", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "flow", label: "Volumetric flow", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "momentum_share", label: "Momentum flux ÷ pressure force", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "fluid_weight", label: "Weight of the fluid inside", kind: Q::Force, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
-            OutputSpec { key: "viscosity", label: "Fluid viscosity", kind: Q::DynamicViscosity, headline: false },
+            OutputSpec::headline("thrust", "Thrust on the supports (resultant)", Q::Force),
+            OutputSpec::headline("thrust_in_plane", "Thrust in the plane of the bend", Q::Force),
+            OutputSpec::listed(
+                "thrust_angle",
+                "Direction of the in-plane thrust, from the inlet flow direction",
+                Q::Angle,
+            ),
+            OutputSpec::listed("thrust_x", "Thrust along the inlet flow (x)", Q::Force),
+            OutputSpec::listed("thrust_y", "Thrust across it, in the plane (y)", Q::Force),
+            OutputSpec::listed("thrust_z", "Thrust normal to the plane (z, up in plan view)", Q::Force),
+            OutputSpec::listed("p_out", "Gauge pressure at the outlet", Q::Pressure),
+            OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
+            OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),
+            OutputSpec::listed("flow", "Volumetric flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("momentum_share", "Momentum flux ÷ pressure force", Q::Ratio),
+            OutputSpec::listed("fluid_weight", "Weight of the fluid inside", Q::Force),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
+            OutputSpec::listed("viscosity", "Fluid viscosity", Q::DynamicViscosity),
         ],
         cautions: vec![
-            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical joints, restrained or not, seal on the spigot's outside: choose their joint (the outside diameter) for them.",
-            "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a gravity block must outweigh it. Where the line turns upward (a sag) it points down into the ground.",
+            "The inside-diameter basis is for welded, flanged or fused joints only. Push-on and mechanical \
+                    joints, restrained or not, seal on the spigot's outside: choose their joint (the outside \
+                    diameter) for them.",
+            "In a vertical bend where the line turns downward (a crest) the thrust points up and out: a \
+                    gravity block must outweigh it. Where the line turns upward (a sag) it points down into the \
+                    ground.",
         ],
     }
 }
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, model::read, model::solve, report::write)
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
-    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        let mut request = Request::default();
-        for (k, v) in pairs {
-            request.inputs.insert(k.to_string(), v.to_string());
-        }
-        crate::solve(super::KEY, &request).result.expect("solves")
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn still_equal_bend_matches_static_formula() {
         // Derived from the definition: T = 2pA sin(θ/2) with no flow.
-        let s = solve(&[
+        let s = solved(&[
             ("angle", "90 deg"),
             ("d", "300 mm"),
             ("p", "1 bar"),
@@ -236,19 +295,13 @@ mod tests {
         let request = crate::catalog::demo_request(&super::spec(), &[("plane", "vertical_crest")]);
         let s = crate::solve(super::KEY, &request).result.expect("solves");
         let thrust = s.output("thrust").unwrap().si;
-        let carry = &s.carry_over[0];
-        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
-        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
-        let block = crate::solve(carry.calculator, &target)
-            .result
-            .expect("restraint page solves");
+        let (block, inputs) = crate::calculators::testing::carried(&s);
         let carried = block.output("thrust").expect("thrust reported").si;
         assert_relative_eq!(carried, thrust, max_relative = 1e-3);
         // A crest pushes up: the carried plane says so.
         assert!(
-            carry.inputs.iter().any(|(k, v)| *k == "plane" && v == "vertical_crest"),
-            "{:?}",
-            carry.inputs
+            inputs.iter().any(|(k, v)| *k == "plane" && v == "vertical_crest"),
+            "{inputs:?}"
         );
     }
 
@@ -271,14 +324,9 @@ mod tests {
             "the fluid weight is there"
         );
         let in_plane = s.output("thrust_in_plane").unwrap().si;
-        let carry = &s.carry_over[0];
-        let get = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+        let (block, inputs) = crate::calculators::testing::carried(&s);
+        let get = |key: &str| inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
         assert_eq!(get("plane").as_deref(), Some("horizontal"));
-        let carried: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
-        let target = crate::catalog::demo_request(&crate::calculators::spec(carry.calculator).unwrap(), &carried);
-        let block = crate::solve(carry.calculator, &target)
-            .result
-            .expect("restraint page solves");
         assert_relative_eq!(block.output("thrust").unwrap().si, in_plane, max_relative = 1e-4);
         assert_relative_eq!(block.output("thrust_v").unwrap().si, 0.0);
         // No design pressure of the restraint page's own is shown for a carried force.
@@ -288,7 +336,7 @@ mod tests {
     #[test]
     fn the_outside_diameter_basis_adds_the_annulus_at_both_ends() {
         // Derived from the definition: at rest the thrust is 2·p·A_OD·sin(θ/2).
-        let s = solve(&[
+        let s = solved(&[
             ("angle", "60 deg"),
             ("d", "300 mm"),
             ("joint", "push_on"),

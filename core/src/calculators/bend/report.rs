@@ -153,7 +153,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     let system = report.system();
     let equal = (d_in - d_out).abs() <= 1e-9 * d_in;
     let direction = if equal && p_in > 0.0 {
-        "along the bisector of the bend, away from its centre (equal sizes; flow and weight tilt it slightly, see the angle)"
+        "along the bisector of the bend, away from its centre (equal sizes; flow and weight tilt it slightly, \
+                see the angle)"
     } else {
         "as given by the angle: a reducing bend's thrust leaves the bisector"
     };
@@ -175,7 +176,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "Pressure area",
             match outside {
                 Some((od_in, od_out)) => format!(
-                    "outside diameters {} and {} (push-on or mechanical joints, restrained or not): the pressure on the wall annulus is its own ledger term; momentum on the bores",
+                    "outside diameters {} and {} (push-on or mechanical joints, restrained or not): the \
+                            pressure on the wall annulus is its own ledger term; momentum on the bores",
                     report.fmt(od_in, Q::Length),
                     report.fmt(od_out, Q::Length)
                 ),

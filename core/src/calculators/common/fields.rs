@@ -2,7 +2,9 @@
 //! fluid fields, the flow fields (`flow_given` and `q`, `v`, `mdot`), the jet
 //! fields, and the readers that turn them into engine inputs.
 
-use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, Limits, Values};
+use uom::si::f64::{Area, Length, Velocity, VolumeRate};
+
+use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, FromSi, Limits, Values};
 use crate::engine::FlowSpec;
 use crate::error::FieldError;
 use crate::fluid::{Fluid, FluidError, ZERO_CELSIUS};
@@ -124,7 +126,8 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "lb/(ft.s)",
                 "",
                 Limits::closed(1e-6, 1e3),
-                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 mPa·s to 10⁶ mPa·s.",
+                "Used for warnings and friction only; it does not change the momentum balance. From 0.001 \
+                        mPa·s to 10⁶ mPa·s.",
             )
         },
     ]
@@ -186,27 +189,17 @@ pub const FLOW_BASIS_OPTIONS: &[ChoiceOption] = &[
     },
 ];
 
-/// The flow fields: the glossary's `flow_given` and one of `q`, `v`, `mdot`.
-pub fn flow_given_fields(demo_q: &'static str) -> Vec<FieldSpec> {
-    flow_fields_keyed(FLOW_GIVEN, demo_q)
-}
-
-/// The flow fields under the retired key `flow_basis` (the tee's, until its keys
-/// move to the glossary: old links are read through [`crate::glossary::upgrade`]).
-pub fn flow_fields(demo_q: &'static str) -> Vec<FieldSpec> {
-    flow_fields_keyed("flow_basis", demo_q)
-}
-
 /// The glossary key of how the flow is given.
 pub const FLOW_GIVEN: &str = "flow_given";
 
-fn flow_fields_keyed(key: &'static str, demo_q: &'static str) -> Vec<FieldSpec> {
-    // `visible_when` needs a `'static` key: the two keys in use are spelled out.
-    let on =
-        |options: &'static [&'static str]| -> Option<(&'static str, &'static [&'static str])> { Some((key, options)) };
+/// The flow fields: the glossary's `flow_given` and one of `q`, `v`, `mdot`.
+pub fn flow_given_fields(demo_q: &'static str) -> Vec<FieldSpec> {
+    let on = |options: &'static [&'static str]| -> Option<(&'static str, &'static [&'static str])> {
+        Some((FLOW_GIVEN, options))
+    };
     vec![
         choice(
-            key,
+            FLOW_GIVEN,
             "Flow given as",
             FLOW_BASIS_OPTIONS,
             "q",
@@ -257,16 +250,7 @@ fn flow_fields_keyed(key: &'static str, demo_q: &'static str) -> Vec<FieldSpec> 
 /// Reads the flow fields of [`flow_given_fields`] into an engine flow spec for the
 /// inlet.
 pub fn flow_given_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
-    flow_from_keyed(values, FLOW_GIVEN)
-}
-
-/// Reads the flow fields of [`flow_fields`] (retired key `flow_basis`).
-pub fn flow_from(values: &Values) -> Result<FlowSpec, Vec<FieldError>> {
-    flow_from_keyed(values, "flow_basis")
-}
-
-fn flow_from_keyed(values: &Values, key: &str) -> Result<FlowSpec, Vec<FieldError>> {
-    let basis = values.choice(key).map_err(|e| vec![e])?;
+    let basis = values.choice(FLOW_GIVEN).map_err(|e| vec![e])?;
     let need = |key: &'static str| {
         if values.is_set(key) {
             Ok(values.quantity_or(key, 0.0))
@@ -284,34 +268,14 @@ fn flow_from_keyed(values: &Values, key: &str) -> Result<FlowSpec, Vec<FieldErro
     })
 }
 
-/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings;
-/// read from `flow_given`, or from the retired `flow_basis` of the tee.
+/// The key of the flow field the user filled (`q`, `v` or `mdot`), for warnings.
 pub fn flow_field(values: &Values) -> &'static str {
-    let given = values.choice(FLOW_GIVEN).or_else(|_| values.choice("flow_basis"));
-    match given.unwrap_or("q") {
+    match values.choice(FLOW_GIVEN).unwrap_or("q") {
         "v" => "v",
         "mdot" => "mdot",
         _ => "q",
     }
 }
-
-/// The thrust-area basis of a fitting page: the bore only for joints that seal on
-/// it (welded, flanged, fused); the outside diameter for push-on and mechanical
-/// joints, restrained or not, whose gasket seals on the spigot's outside, so the
-/// pressure acts over the OD of the nearest sealing joint.
-pub const AREA_BASIS_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "id",
-        label: "Inside diameter (welded, flanged or fused joints only)",
-    },
-    ChoiceOption {
-        key: "od",
-        label: "Outside diameter (push-on and mechanical joints, restrained or not)",
-    },
-];
-
-/// Help text of every area-basis selector: why restrained joints take the OD.
-pub const AREA_BASIS_HELP: &str = "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the thrust acts on the outside diameter of the nearest sealing joint. Only welded, flanged or fused joints, which seal on the bore, take the inside diameter.";
 
 // --- Free jets from a nozzle (jet on a plate, jet on a vane, ...) -------------------
 
@@ -343,13 +307,27 @@ pub const MIN_JET_SPEED: f64 = 0.1;
 
 pub const MAX_JET_SPEED: f64 = 500.0;
 
-/// A free jet leaving a nozzle, SI: diameter and area of the jet, mean speed, flow.
+/// A free jet leaving a nozzle: diameter and area of the jet, mean speed, flow
+/// (typed; the models take `.value`, SI base units, where they do arithmetic).
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Jet {
-    pub diameter: f64,
-    pub area: f64,
-    pub velocity: f64,
-    pub flow: f64,
+    pub diameter: Length,
+    pub area: Area,
+    pub velocity: Velocity,
+    pub flow: VolumeRate,
+}
+
+impl Jet {
+    /// The jet of diameter `diameter` (m) at mean speed `velocity` (m/s).
+    pub fn from_si(diameter: f64, velocity: f64) -> Self {
+        let area = super::drawing::circle_area(diameter);
+        Jet {
+            diameter: Length::from_si(diameter),
+            area: Area::from_si(area),
+            velocity: Velocity::from_si(velocity),
+            flow: VolumeRate::from_si(velocity * area),
+        }
+    }
 }
 
 /// The jet fields: `d_jet`, `flow_given` and one of `v`, `q`, `head`,
@@ -373,28 +351,76 @@ pub fn jet_fields(demo: [&'static str; 7]) -> Vec<FieldSpec> {
             "Jet given as",
             JET_BASIS_OPTIONS,
             basis,
-            "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at the nozzle inlet through V = Cv·√(2gH).",
+            "How the jet's speed is known: measured directly, from the flow, or from the head or pressure at \
+                    the nozzle inlet through V = Cv·√(2gH).",
         ),
         FieldSpec {
             visible_when: Some(("flow_given", &["v"])),
-            ..quantity("v", "Jet velocity", Q::Velocity, "m/s", "ft/s", v, Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED), "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.")
+            ..quantity(
+                "v",
+                "Jet velocity",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                v,
+                Limits::closed(MIN_JET_SPEED, MAX_JET_SPEED),
+                "Mean speed of the jet at the nozzle outlet, 0.1 to 500 m/s.",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["q"])),
-            ..quantity("q", "Jet flow", Q::VolumeFlow, "L/s", "gpm", q, Limits::closed(1e-6, 100.0), "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet area.")
+            ..quantity(
+                "q",
+                "Jet flow",
+                Q::VolumeFlow,
+                "L/s",
+                "gpm",
+                q,
+                Limits::closed(1e-6, 100.0),
+                "Volumetric flow through the nozzle, 0.001 L/s to 100 m³/s; the jet speed is the flow over the jet \
+                    area.",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["head"])),
-            ..quantity("head", "Total head at the nozzle inlet", Q::Length, "m", "ft", head, Limits::closed(1e-3, 10_000.0), "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).")
+            ..quantity(
+                "head",
+                "Total head at the nozzle inlet",
+                Q::Length,
+                "m",
+                "ft",
+                head,
+                Limits::closed(1e-3, 10_000.0),
+                "Pressure head plus approach velocity head at the nozzle inlet, above the jet: V = Cv·√(2gH).",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["p"])),
-            ..quantity("p", "Gauge pressure at the nozzle inlet", Q::Pressure, "kPa", "psi", p, Limits::closed(10.0, MAX_PRESSURE_PA), "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).")
+            ..quantity(
+                "p",
+                "Gauge pressure at the nozzle inlet",
+                Q::Pressure,
+                "kPa",
+                "psi",
+                p,
+                Limits::closed(10.0, MAX_PRESSURE_PA),
+                "Nozzle pressure (approach velocity head neglected): V = Cv·√(2p/ρ).",
+            )
         },
         FieldSpec {
             visible_when: Some(("flow_given", &["head", "p"])),
             optional: true,
-            ..quantity("cv", "Velocity coefficient Cv", Q::Ratio, "-", "-", cv, Limits::closed(0.6, 1.0), "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common practice). Empty means 1 (ideal).")
+            ..quantity(
+                "cv",
+                "Velocity coefficient Cv",
+                Q::Ratio,
+                "-",
+                "-",
+                cv,
+                Limits::closed(0.6, 1.0),
+                "Actual over ideal jet speed; about 0.97 to 0.99 for a well-made smooth-bore nozzle (common \
+                    practice). Empty means 1 (ideal).",
+            )
         },
     ]
 }
@@ -436,17 +462,13 @@ pub fn jet_from(values: &Values, density: f64) -> Result<Jet, Vec<FieldError>> {
         return Err(vec![FieldError::inconsistent(
             field,
             format!(
-                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} m/s",
+                "the jet speed comes out {} m/s; free jets are handled from {MIN_JET_SPEED} to {MAX_JET_SPEED} \
+                        m/s",
                 crate::units::format_significant(velocity, 4)
             ),
         )]);
     }
-    Ok(Jet {
-        diameter,
-        area,
-        velocity,
-        flow: velocity * area,
-    })
+    Ok(Jet::from_si(diameter, velocity))
 }
 
 /// How the speed of a jet was given, typed: what a report says about it.

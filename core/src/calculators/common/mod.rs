@@ -49,7 +49,13 @@ pub fn forward_warnings(balance: &Balance, report: &mut Report<'_>) {
 pub fn pipe_velocity_warning(report: &mut Report<'_>, field: &'static str, place: &str, speed: f64) {
     if speed > 5.0 {
         let text = report.fmt(speed, Q::Velocity);
-        report.warn(Some(field), format!("the velocity at the {place} is {text}, above the usual 3 to 5 m/s for water piping: check erosion, noise and surge (common practice)"));
+        report.warn(
+            Some(field),
+            format!(
+                "the velocity at the {place} is {text}, above the usual 3 to 5 m/s for water piping: check erosion, \
+                noise and surge (common practice)"
+            ),
+        );
     }
 }
 

@@ -51,7 +51,9 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
     let unit = table_unit(max, Q::Force, system);
     let mut table = Table {
         key: "ledger",
-        title: "Momentum ledger: the terms of one balance, R = Σ p·A·n + Σ ±ṁβV − W − ΣF + dP/dt (R is their sum, so this table cannot disagree with itself; the checks table compares results with independent paths)".to_string(),
+        title: "Momentum ledger: the terms of one balance, R = Σ p·A·n + Σ ±ṁβV − W − ΣF + dP/dt (R is their sum, so \
+                this table cannot disagree with itself; the checks table compares results with independent paths)"
+            .to_string(),
         columns: vec![
             "Term".to_string(),
             format!("x ({unit})"),

@@ -11,7 +11,7 @@ use super::model::{Inputs, Plate};
 /// The jet, the sheets and the plate, the control volume, flows and forces.
 pub fn diagram(inputs: &Inputs, plate: &Plate, report: &Report<'_>) -> Diagram {
     let (g, jet, balance, q_forward) = (&plate.geometry, &inputs.jet, &plate.balance, plate.q_forward);
-    let d = jet.diameter;
+    let d = jet.diameter.value;
     let (t, n) = (g.tangent, g.jet_side);
     let p = |v: Vec3| v.xy();
     let mut shapes = Vec::new();
@@ -28,7 +28,7 @@ pub fn diagram(inputs: &Inputs, plate: &Plate, report: &Report<'_>) -> Diagram {
         style: ShapeStyle::Fluid,
     });
     // Sheets along the plate, thickness in proportion to their share (2-D picture).
-    let share_forward = q_forward / jet.flow;
+    let share_forward = q_forward / jet.flow.value;
     let sheets = [(t, d * share_forward), (-t, d * (1.0 - share_forward))];
     for (dir, thickness) in sheets {
         let end = dir * g.sheet_length;
@@ -70,14 +70,14 @@ pub fn diagram(inputs: &Inputs, plate: &Plate, report: &Report<'_>) -> Diagram {
         style: ShapeStyle::ControlVolume,
     });
     // Velocities.
-    let v_text = report.fmt(jet.velocity, Q::Velocity);
+    let v_text = report.fmt(jet.velocity.value, Q::Velocity);
     shapes.push(Shape::Arrow {
         from: [x0 + 0.5 * d, 1.4 * d],
         to: [x0 + 2.5 * d, 1.4 * d],
         label: format!("V = {v_text}"),
         style: ShapeStyle::Velocity,
     });
-    let q_back = jet.flow - q_forward;
+    let q_back = jet.flow.value - q_forward;
     for (dir, flow, name, thickness) in [
         (t, q_forward, "Q₁", d * share_forward),
         (-t, q_back, "Q₂", d * (1.0 - share_forward)),
@@ -89,7 +89,7 @@ pub fn diagram(inputs: &Inputs, plate: &Plate, report: &Report<'_>) -> Diagram {
             label: format!(
                 "{name} = {} ({} %)",
                 report.fmt(flow, Q::VolumeFlow),
-                units::format_significant(100.0 * flow / jet.flow, 3)
+                units::format_significant(100.0 * flow / jet.flow.value, 3)
             ),
             style: ShapeStyle::Flow,
         });
@@ -137,6 +137,10 @@ pub fn diagram(inputs: &Inputs, plate: &Plate, report: &Report<'_>) -> Diagram {
         title: "Jet on a flat plate: control volume, flows and force".to_string(),
         bounds,
         shapes,
-        caption: "Jet and plate to scale with the jet diameter; distances along the jet and the plate are schematic. The sheets along the plate are drawn with thicknesses in proportion to their flows, a 2-D picture of a round jet's 3-D spread. The force arrow is the force on the plate (normal to it); the support supplies the opposite.".to_string(),
+        caption: "Jet and plate to scale with the jet diameter; distances along the jet and the plate are schematic. \
+                The sheets along the plate are drawn with thicknesses in proportion to their flows, a 2-D picture of \
+                a round jet's 3-D spread. The force arrow is the force on the plate (normal to it); the support \
+                supplies the opposite."
+            .to_string(),
     }
 }

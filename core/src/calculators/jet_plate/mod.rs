@@ -72,7 +72,8 @@ pub fn spec() -> CalculatorSpec {
         "deg",
         "60 deg",
         Limits::closed(MIN_ANGLE, PI / 2.0),
-        "Angle between the jet axis and the plate surface, 1 to 90 degrees; 90 degrees is a plate normal to the jet.",
+        "Angle between the jet axis and the plate surface, 1 to 90 degrees; 90 degrees is a plate normal to \
+                the jet.",
     )];
     fields.extend(common::jet_fields([
         "38 mm", "p", "30 m/s", "20 L/s", "45 m", "4.5 bar", "0.97",
@@ -85,26 +86,40 @@ pub fn spec() -> CalculatorSpec {
         summary: "Force of a free jet on a fixed normal or inclined plate, and how the flow splits along the plate.",
         fields,
         outputs: vec![
-            OutputSpec { key: "force_normal", label: "Force on the plate, normal to it", kind: Q::Force, headline: true },
-            OutputSpec { key: "force_along_jet", label: "Component along the jet (x)", kind: Q::Force, headline: false },
-            OutputSpec { key: "force_across_jet", label: "Component across the jet (y)", kind: Q::Force, headline: false },
-            OutputSpec { key: "q_forward", label: "Flow along the plate, forward branch", kind: Q::VolumeFlow, headline: true },
-            OutputSpec { key: "q_back", label: "Flow along the plate, back branch", kind: Q::VolumeFlow, headline: true },
-            OutputSpec { key: "share_forward", label: "Forward share Q₁/Q", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "share_back", label: "Back share Q₂/Q", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "jet_velocity", label: "Jet velocity", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "jet_flow", label: "Jet flow", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "mass_flow", label: "Jet mass flow", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "jet_momentum", label: "Jet momentum flux ρQV (force on a normal plate)", kind: Q::Force, headline: false },
-            OutputSpec { key: "stagnation_pressure", label: "Stagnation pressure at the impact point, ρV²/2", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "jet_power", label: "Jet kinetic-energy flux ρQV²/2", kind: Q::Power, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec::headline("force_normal", "Force on the plate, normal to it", Q::Force),
+            OutputSpec::listed("force_along_jet", "Component along the jet (x)", Q::Force),
+            OutputSpec::listed("force_across_jet", "Component across the jet (y)", Q::Force),
+            OutputSpec::headline("q_forward", "Flow along the plate, forward branch", Q::VolumeFlow),
+            OutputSpec::headline("q_back", "Flow along the plate, back branch", Q::VolumeFlow),
+            OutputSpec::listed("share_forward", "Forward share Q₁/Q", Q::Ratio),
+            OutputSpec::listed("share_back", "Back share Q₂/Q", Q::Ratio),
+            OutputSpec::listed("jet_velocity", "Jet velocity", Q::Velocity),
+            OutputSpec::listed("jet_flow", "Jet flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Jet mass flow", Q::MassFlow),
+            OutputSpec::listed(
+                "jet_momentum",
+                "Jet momentum flux ρQV (force on a normal plate)",
+                Q::Force,
+            ),
+            OutputSpec::listed(
+                "stagnation_pressure",
+                "Stagnation pressure at the impact point, ρV²/2",
+                Q::Pressure,
+            ),
+            OutputSpec::listed("jet_power", "Jet kinetic-energy flux ρQV²/2", Q::Power),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
-            "Idealised jet: no spreading, break-up, air entrainment, friction or windage, and the jet's weight neglected. A jet that has travelled far from its nozzle spreads and breaks up and gives less force, but design the plate and its fixings for the full value.",
-            "The plate must be large enough to turn the whole jet parallel to its surface. A small plate deflects less and takes less force; a plate with a lip or a dished face turns the jet back and takes more (up to twice ρQV; use the vane page).",
-            "A high-pressure water jet injures people and cuts skin: keep people out of its path and guard deflectors and test rigs.",
-            "Defer to the equipment manufacturer's ratings and to a licensed engineer for the plate, its supports and anchors.",
+            "Idealised jet: no spreading, break-up, air entrainment, friction or windage, and the jet's weight \
+                    neglected. A jet that has travelled far from its nozzle spreads and breaks up and gives less \
+                    force, but design the plate and its fixings for the full value.",
+            "The plate must be large enough to turn the whole jet parallel to its surface. A small plate \
+                    deflects less and takes less force; a plate with a lip or a dished face turns the jet back and \
+                    takes more (up to twice ρQV; use the vane page).",
+            "A high-pressure water jet injures people and cuts skin: keep people out of its path and guard \
+                    deflectors and test rigs.",
+            "Defer to the equipment manufacturer's ratings and to a licensed engineer for the plate, its \
+                    supports and anchors.",
         ],
     }
 }
@@ -127,29 +142,15 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let plate = model::solve(&inputs)?;
-    report::write(&inputs, &plate, report);
-    Ok(())
+    super::read_solve_write(values, report, read, model::solve, report::write)
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::{Request, Solution};
     use crate::error::FieldErrorKind;
     use approx::assert_relative_eq;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&super::spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> (String, String) {
-        crate::calculators::testing::first_error(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     const WATER_1000: &[(&str, &str)] = &[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")];
 
@@ -170,7 +171,7 @@ mod tests {
                 ("d_jet", "50 mm"),
             ];
             pairs.extend_from_slice(WATER_1000);
-            let s = solve(&pairs);
+            let s = solved(&pairs);
             let theta = deg.to_radians();
             let q = std::f64::consts::PI * 0.05 * 0.05 / 4.0 * 20.0;
             let out = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
@@ -202,7 +203,7 @@ mod tests {
         a.extend_from_slice(WATER_1000);
         let mut b = vec![("flow_given", "p"), ("p", "196.133 kPa"), ("cv", "0.95")];
         b.extend_from_slice(WATER_1000);
-        let (sa, sb) = (solve(&a), solve(&b));
+        let (sa, sb) = (solved(&a), solved(&b));
         let v = 0.95 * (2.0 * 9.80665 * 20.0f64).sqrt();
         assert_relative_eq!(
             sa.output("jet_velocity").map(|o| o.si).unwrap_or(0.0),
@@ -218,12 +219,12 @@ mod tests {
 
     #[test]
     fn bad_inputs_name_their_field() {
-        let (field, message) = error_field(&[("flow_given", "q"), ("q", "-5 L/s")]);
+        let (field, message) = first_error(&[("flow_given", "q"), ("q", "-5 L/s")]);
         assert_eq!(field, "q");
         assert!(message.contains("at least"), "{message}");
-        assert_eq!(error_field(&[("d_jet", "0 mm")]).0, "d_jet");
-        assert_eq!(error_field(&[("plate_angle", "120 deg")]).0, "plate_angle");
-        let (field, _) = error_field(&[("flow_given", "v"), ("v", "")]);
+        assert_eq!(first_error(&[("d_jet", "0 mm")]).0, "d_jet");
+        assert_eq!(first_error(&[("plate_angle", "120 deg")]).0, "plate_angle");
+        let (field, _) = first_error(&[("flow_given", "v"), ("v", "")]);
         assert_eq!(field, "v");
         match crate::solve(super::KEY, &request(&[("flow_given", "nozzle")])).result {
             Err(crate::SolveError::Fields(errors)) => {
@@ -235,7 +236,7 @@ mod tests {
 
     #[test]
     fn demo_solves_with_a_diagram_and_tables() {
-        let s = solve(&[]);
+        let s = solved(&[]);
         assert_eq!(s.diagrams.len(), 1);
         assert!(s.tables.iter().any(|t| t.key == "split"));
         assert!(s.tables.iter().any(|t| t.key == "ledger"));

@@ -18,7 +18,7 @@ pub struct Inputs {
     pub plate_angle: Angle,
     /// How the jet's speed was given.
     pub jet_given: JetGiven,
-    /// The free jet it gives (SI), range-checked by [`common::jet_from`].
+    /// The free jet it gives (typed), range-checked by [`common::jet_from`].
     pub jet: Jet,
     pub fluid: Fluid,
 }
@@ -43,14 +43,14 @@ pub struct Plate {
 /// # Errors
 /// An engine refusal, named on the plate angle.
 pub fn solve(inputs: &Inputs) -> Result<Plate, FieldErrors> {
-    let g = Geometry::new(inputs.plate_angle.value, inputs.jet.diameter);
+    let g = Geometry::new(inputs.plate_angle.value, inputs.jet.diameter.value);
     let (q_forward, balance) =
         frictionless_split(&inputs.fluid, &inputs.jet, &g).map_err(|e| common::engine_error(e, "plate_angle"))?;
     let force = balance.thrust();
     let q_back = balance
         .ports
         .get(2)
-        .map_or(inputs.jet.flow - q_forward, |p| p.volume_flow);
+        .map_or(inputs.jet.flow.value - q_forward, |p| p.volume_flow);
     Ok(Plate {
         force_normal: force.dot(-g.jet_side),
         force,
@@ -90,12 +90,12 @@ impl Geometry {
 /// Balances the control volume for a given forward flow `q_forward` (m³/s); the back
 /// flow follows from the mass balance.
 fn plate_balance(fluid: &Fluid, jet: &Jet, g: &Geometry, q_forward: f64) -> Result<Balance, EngineError> {
-    let v = jet.velocity;
+    let v = jet.velocity.value;
     let tangent = Direction::new(g.tangent).unwrap_or(Direction::Y);
     let back = Direction::new(-g.tangent).unwrap_or(Direction::Y);
     let mut cv = ControlVolume::new(fluid.clone());
     cv.port(
-        Port::inlet("jet", si::area(jet.area), Direction::X)
+        Port::inlet("jet", si::area(jet.area.value), Direction::X)
             .velocity(si::velocity(v))
             .pressure(si::pressure(0.0))
             .at(Vec3::new(-g.jet_length, 0.0, 0.0)),
@@ -106,7 +106,7 @@ fn plate_balance(fluid: &Fluid, jet: &Jet, g: &Geometry, q_forward: f64) -> Resu
             .pressure(si::pressure(0.0))
             .at(g.tangent * g.sheet_length),
     );
-    let mut back_port = Port::outlet("back", si::area((jet.flow - q_forward) / v), back)
+    let mut back_port = Port::outlet("back", si::area((jet.flow.value - q_forward) / v), back)
         .pressure(si::pressure(0.0))
         .at(-g.tangent * g.sheet_length);
     back_port.flow = FlowSpec::Unknown;
@@ -118,13 +118,13 @@ fn plate_balance(fluid: &Fluid, jet: &Jet, g: &Geometry, q_forward: f64) -> Resu
 /// engine's momentum balance (linear in the split), and the balance there.
 fn frictionless_split(fluid: &Fluid, jet: &Jet, g: &Geometry) -> Result<(f64, Balance), EngineError> {
     let along = |q: f64| -> Result<f64, EngineError> { Ok(plate_balance(fluid, jet, g, q)?.thrust().dot(g.tangent)) };
-    let (qa, qb) = (0.25 * jet.flow, 0.75 * jet.flow);
+    let (qa, qb) = (0.25 * jet.flow.value, 0.75 * jet.flow.value);
     let (fa, fb) = (along(qa)?, along(qb)?);
     let slope = (fb - fa) / (qb - qa);
     let q = if slope != 0.0 && slope.is_finite() {
         qa - fa / slope
     } else {
-        0.5 * jet.flow
+        0.5 * jet.flow.value
     };
     let balance = plate_balance(fluid, jet, g, q)?;
     Ok((q, balance))

@@ -14,7 +14,7 @@ use super::model::{Inputs, Plate};
 pub fn write(inputs: &Inputs, plate: &Plate, report: &mut Report<'_>) {
     let (jet, theta) = (&inputs.jet, inputs.plate_angle.value);
     let rho = inputs.fluid.density;
-    let (v, q) = (jet.velocity, jet.flow);
+    let (v, q) = (jet.velocity.value, jet.flow.value);
     let (q_forward, q_back, thrust) = (plate.q_forward, plate.q_back, plate.force);
     // Components that are rounding residue of the jet's momentum flux (the force
     // across the jet on a normal plate, cos 90° = 6e-17) are the 0 they stand for.
@@ -57,7 +57,8 @@ pub fn write(inputs: &Inputs, plate: &Plate, report: &mut Report<'_>) {
     if theta < 10.0 * PI / 180.0 {
         report.warn(
             Some("plate_angle"),
-            "the jet nearly grazes the plate: almost all of it runs on forward and the normal force is small; a real jet spreads and may miss the plate",
+            "the jet nearly grazes the plate: almost all of it runs on forward and the normal force is small; \
+                    a real jet spreads and may miss the plate",
         );
     }
 
@@ -77,7 +78,7 @@ pub fn write(inputs: &Inputs, plate: &Plate, report: &mut Report<'_>) {
 }
 
 fn split_table(jet: &Jet, theta: f64, q_forward: f64, q_back: f64, system: units::UnitSystem) -> Table {
-    let unit = units::display_unit(jet.flow, Q::VolumeFlow, system).id;
+    let unit = units::display_unit(jet.flow.value, Q::VolumeFlow, system).id;
     let flow = |x: f64| match units::convert_to(x, Q::VolumeFlow, unit) {
         Some(v) => units::format_significant(v, 5),
         None => "—".to_string(),
@@ -95,17 +96,22 @@ fn split_table(jet: &Jet, theta: f64, q_forward: f64, q_back: f64, system: units
             "share, closed form".to_string(),
         ],
         rows: vec![
-            vec!["jet".to_string(), flow(jet.flow), "1".to_string(), "1".to_string()],
+            vec![
+                "jet".to_string(),
+                flow(jet.flow.value),
+                "1".to_string(),
+                "1".to_string(),
+            ],
             vec![
                 "forward, Q₁".to_string(),
                 flow(q_forward),
-                share(q_forward / jet.flow),
+                share(q_forward / jet.flow.value),
                 format!("(1 + cos θ)/2 = {}", share(closed_forward)),
             ],
             vec![
                 "back, Q₂".to_string(),
                 flow(q_back),
-                share(q_back / jet.flow),
+                share(q_back / jet.flow.value),
                 format!("(1 − cos θ)/2 = {}", share(closed_back)),
             ],
         ],
@@ -115,7 +121,7 @@ fn split_table(jet: &Jet, theta: f64, q_forward: f64, q_back: f64, system: units
 
 fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
     let (jet, theta) = (&inputs.jet, inputs.plate_angle.value);
-    let speed = report.fmt(jet.velocity, Q::Velocity);
+    let speed = report.fmt(jet.velocity.value, Q::Velocity);
     let how = match inputs.jet_given {
         JetGiven::Flow(_) => format!("V = Q/A = {speed}"),
         JetGiven::Head(_, cv) => format!(
@@ -130,7 +136,7 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
     };
     common::basis_table(vec![
         ("Jet speed", how),
-        ("Jet area", format!("πd²/4 = {}", report.fmt(jet.area, Q::Area))),
+        ("Jet area", format!("πd²/4 = {}", report.fmt(jet.area.value, Q::Area))),
         (
             "Angle θ",
             format!(

@@ -54,7 +54,9 @@ use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 
 use super::common::{choice, quantity, MAX_PRESSURE_PA};
-use super::thrust_block::{BASIS_OPTIONS, JOINT_OPTIONS, SOIL_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::pressure::{BASIS_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::soil::SOIL_OPTIONS;
+use crate::restraint::Joint;
 use crate::restraint::JOINT_HELP;
 
 pub mod model;
@@ -91,40 +93,146 @@ pub fn spec() -> CalculatorSpec {
             demo: DEMO_ROWS,
             limits: None,
             optional: false,
-            help: "One fitting per line: KIND then tokens, e.g. 'bend 45deg di52_12 nfpa24_sand tag=B1'. Kinds: bend, tee, dead_end, reducer, force. See the method note for every token.",
+            help: "One fitting per line: KIND then tokens, e.g. 'bend 45deg di52_12 nfpa24_sand tag=B1'. Kinds: \
+                    bend, tee, dead_end, reducer, force. See the method note for every token.",
             visible_when: None,
             key: "rows",
             label: "Fittings along the line",
         },
-        choice("p_basis", "Design pressure basis (rows without p=)", BASIS_OPTIONS, "highest", "Applied to the working pressure of each row that does not give its own design pressure."),
-        quantity("p", "Working pressure, gauge (rows without pw=)", Q::Pressure, "bar", "psi", "150 psi", Limits::closed(0.0, MAX_PRESSURE_PA), "The working pressure along the line; a row may give its own with pw=."),
-        FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "nfpa24", "Named rules of published standards, or a typed test pressure.") },
-        FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
-        FieldSpec { optional: true, ..quantity("dp_surge", "Surge allowance above working", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.") },
-        choice("soil", "Soil (rows without soil=)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison."),
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::closed(MIN_BEARING, MAX_BEARING), "Used when the soil is 'typed value'; from 1 kPa to 20 MPa.") },
-        choice("joint", "Joints (rows without joint=)", JOINT_OPTIONS, "push_on", JOINT_HELP),
-        quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Bearing area = SF·T/σ; gravity block weight = SF·T_up."),
-        quantity("block_h", "Bearing face height (rows without h=)", Q::Length, "m", "ft", "0.6 m", Limits::closed(0.05, 20.0), "Face width = area ÷ height."),
-        quantity("gamma_c", "Unit weight of concrete (gravity blocks)", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy."),
+        choice(
+            "p_basis",
+            "Design pressure basis (rows without p=)",
+            BASIS_OPTIONS,
+            "highest",
+            "Applied to the working pressure of each row that does not give its own design pressure.",
+        ),
+        quantity(
+            "p",
+            "Working pressure, gauge (rows without pw=)",
+            Q::Pressure,
+            "bar",
+            "psi",
+            "150 psi",
+            Limits::closed(0.0, MAX_PRESSURE_PA),
+            "The working pressure along the line; a row may give its own with pw=.",
+        ),
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "highest"])),
+            ..choice(
+                "test_rule",
+                "Field test pressure rule",
+                TEST_RULE_OPTIONS,
+                "nfpa24",
+                "Named rules of published standards, or a typed test pressure.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("test_rule", &["custom"])),
+            optional: true,
+            ..quantity(
+                "p_test",
+                "Typed test pressure, gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "Used when the test rule is 'typed test pressure'.",
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "dp_surge",
+                "Surge allowance above working",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.",
+            )
+        },
+        choice(
+            "soil",
+            "Soil (rows without soil=)",
+            SOIL_OPTIONS,
+            "nfpa24_sandy_silt",
+            "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison.",
+        ),
+        FieldSpec {
+            visible_when: Some(("soil", &["custom"])),
+            optional: true,
+            ..quantity(
+                "sigma",
+                "Typed allowable soil bearing",
+                Q::SoilBearing,
+                "kPa",
+                "psf",
+                "",
+                Limits::closed(MIN_BEARING, MAX_BEARING),
+                "Used when the soil is 'typed value'; from 1 kPa to 20 MPa.",
+            )
+        },
+        choice(
+            "joint",
+            "Joints (rows without joint=)",
+            Joint::OPTIONS,
+            "push_on",
+            JOINT_HELP,
+        ),
+        quantity(
+            "sf",
+            "Safety factor",
+            Q::Ratio,
+            "-",
+            "-",
+            "1.5",
+            Limits::closed(1.0, 10.0),
+            "Bearing area = SF·T/σ; gravity block weight = SF·T_up.",
+        ),
+        quantity(
+            "block_h",
+            "Bearing face height (rows without h=)",
+            Q::Length,
+            "m",
+            "ft",
+            "0.6 m",
+            Limits::closed(0.05, 20.0),
+            "Face width = area ÷ height.",
+        ),
+        quantity(
+            "gamma_c",
+            "Unit weight of concrete (gravity blocks)",
+            Q::SpecificWeight,
+            "kN/m3",
+            "lbf/ft3",
+            "23.6 kN/m3",
+            Limits::closed(10e3, 40e3),
+            "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy.",
+        ),
     ];
     CalculatorSpec {
         key: KEY,
         title: "Line schedule: thrust blocks along a line",
         group: crate::catalog::group::FITTINGS,
-        summary: "Paste the fittings of a line, one per row, and get each thrust, its direction and the block it needs, with totals and a CSV.",
+        summary:
+            "Paste the fittings of a line, one per row, and get each thrust, its direction and the block it needs, \
+                with totals and a CSV.",
         fields,
         outputs: vec![
-            OutputSpec { key: "max_thrust", label: "Largest thrust", kind: Q::Force, headline: true },
-            OutputSpec { key: "total_area", label: "Total bearing area", kind: Q::Area, headline: true },
-            OutputSpec { key: "total_volume", label: "Total gravity-block concrete", kind: Q::Volume, headline: true },
-            OutputSpec { key: "row_count", label: "Fittings", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "total_thrust", label: "Sum of thrust magnitudes (block loads)", kind: Q::Force, headline: false },
-            OutputSpec { key: "p_design", label: "Design pressure of rows without their own", kind: Q::Pressure, headline: false },
+            OutputSpec::headline("max_thrust", "Largest thrust", Q::Force),
+            OutputSpec::headline("total_area", "Total bearing area", Q::Area),
+            OutputSpec::headline("total_volume", "Total gravity-block concrete", Q::Volume),
+            OutputSpec::listed("row_count", "Fittings", Q::Ratio),
+            OutputSpec::listed("total_thrust", "Sum of thrust magnitudes (block loads)", Q::Force),
+            OutputSpec::listed("p_design", "Design pressure of rows without their own", Q::Pressure),
         ],
         cautions: vec![
-            "Every row uses one design pressure: check that the test and surge pressures at each fitting, at its elevation, are covered.",
-            "Soil values need a geotechnical basis at each block; one soil for the whole line is a simplification.",
+            "Every row uses one design pressure: check that the test and surge pressures at each fitting, at \
+                    its elevation, are covered.",
+            "Soil values need a geotechnical basis at each block; one soil for the whole line is a \
+                    simplification.",
             "Blocks near each other, near other services or in fill need individual design.",
         ],
     }
@@ -132,10 +240,9 @@ pub fn spec() -> CalculatorSpec {
 
 /// The registered entry point: read the values once, solve every row, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, model::read, model::solve, |i, s, r| {
+        report::write(i, s, r)
+    })
 }
 
 #[cfg(test)]

@@ -294,7 +294,8 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
                             return Err((
                                 true,
                                 format!(
-                                    "row {line}: type the allowable soil bearing on the page, or give soil= on the row"
+                                    "row {line}: type the allowable soil bearing on the page, or give soil= on \
+                                            the row"
                                 ),
                             ))
                         }

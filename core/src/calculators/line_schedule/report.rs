@@ -51,7 +51,13 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
     if !sliding.is_empty() {
         let shown = sliding.iter().take(12).cloned().collect::<Vec<_>>().join(", ");
         let more = if sliding.len() > 12 { ", …" } else { "" };
-        report.warn(None, format!("sliding is NOT checked here for the vertical blocks with a horizontal thrust (rows {shown}{more}): open each on the thrust-restraint page, which checks it"));
+        report.warn(
+            None,
+            format!(
+                "sliding is NOT checked here for the vertical blocks with a horizontal thrust (rows {shown}{more}): \
+                open each on the thrust-restraint page, which checks it"
+            ),
+        );
     }
     report.check(
         "Sum of the rows' thrusts",

@@ -198,7 +198,8 @@ pub(super) fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             "tag" => "tag",
             other => {
                 return Err(format!(
-                    "row {line}: unknown key '{}'; use angle, size, d, od, size2, d2, od2, p, pw, soil, sigma, joint, h, turn, legs, thrust or tag",
+                    "row {line}: unknown key '{}'; use angle, size, d, od, size2, d2, od2, p, pw, soil, sigma, \
+                            joint, h, turn, legs, thrust or tag",
                     short(other)
                 ))
             }
@@ -276,7 +277,8 @@ pub(super) fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             "soil" => {
                 if soil::soil(value).is_none() {
                     return Err(format!(
-                        "row {line}: '{}' is not a soil preset (e.g. nfpa24_sand, safe_soft_clay, bs8004_stiff_clay)",
+                        "row {line}: '{}' is not a soil preset (e.g. nfpa24_sand, safe_soft_clay, \
+                                bs8004_stiff_clay)",
                         short(value)
                     ));
                 }
@@ -366,7 +368,8 @@ pub(super) fn bare_key(row: &Row, token: &str, line: usize) -> Result<&'static s
     }
     if units::parse_quantity(token, Q::Length, "").is_ok() {
         return Err(format!(
-            "row {line}: a bare length '{}' is ambiguous; write d= (inside), od= (outside), h= or a size preset",
+            "row {line}: a bare length '{}' is ambiguous; write d= (inside), od= (outside), h= or a size \
+                    preset",
             short(token)
         ));
     }

@@ -144,6 +144,9 @@ pub fn diagram(inputs: &Inputs, nozzle: &Nozzle, report: &Report<'_>) -> Diagram
         title: "Nozzle on a flange: control volume and forces".to_string(),
         bounds,
         shapes,
-        caption: "Pipe, flanges, nozzle and jet to scale (nozzle length drawn as 1.5 pipe diameters); force arrows share one scale. T is the nozzle's pull on the joint over the bore; R = −T is what the joint supplies.".to_string(),
+        caption: "Pipe, flanges, nozzle and jet to scale (nozzle length drawn as 1.5 pipe diameters); force arrows \
+                share one scale. T is the nozzle's pull on the joint over the bore; R = −T is what the joint \
+                supplies."
+            .to_string(),
     }
 }

@@ -119,7 +119,8 @@ pub fn spec() -> CalculatorSpec {
                 "psi",
                 "7 bar",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
-                "Pressure in the pipe just upstream of the nozzle (the nozzle pressure). Gauge, so not below 0.",
+                "Pressure in the pipe just upstream of the nozzle (the nozzle pressure). Gauge, so not below \
+                        0.",
             )
         },
         FieldSpec {
@@ -143,7 +144,8 @@ pub fn spec() -> CalculatorSpec {
             "-",
             "0.97",
             Limits::closed(0.3, 1.0),
-            "Q = C_d·A_n·√(2·total head): about 0.96 to 0.99 for a smooth-bore nozzle, 0.61 for a sharp-edged orifice (common practice).",
+            "Q = C_d·A_n·√(2·total head): about 0.96 to 0.99 for a smooth-bore nozzle, 0.61 for a sharp-edged \
+                    orifice (common practice).",
         ),
         FieldSpec {
             optional: true,
@@ -155,7 +157,8 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "",
                 Limits::closed(0.5, 1.0),
-                "Jet area ÷ nozzle area, from 0.5 (a re-entrant Borda mouthpiece) to 1; empty means 1 (a smooth nozzle fills its tip). About 0.62 for a sharp-edged orifice.",
+                "Jet area ÷ nozzle area, from 0.5 (a re-entrant Borda mouthpiece) to 1; empty means 1 (a \
+                        smooth nozzle fills its tip). About 0.62 for a sharp-edged orifice.",
             )
         },
         FieldSpec {
@@ -168,7 +171,9 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 "",
                 Limits::closed(1e-3, MAX_SIZE_M),
-                "Diameter at which the gasket reaction acts (ASME BPVC VIII-1 Appendix 2: the mean diameter of a narrow gasket contact, or the contact's outside diameter less 2b; from memory). Not smaller than the bore. Empty: the end force at the gasket is not shown.",
+                "Diameter at which the gasket reaction acts (ASME BPVC VIII-1 Appendix 2: the mean diameter of \
+                        a narrow gasket contact, or the contact's outside diameter less 2b; from memory). Not smaller \
+                        than the bore. Empty: the end force at the gasket is not shown.",
             )
         },
     ];
@@ -177,30 +182,49 @@ pub fn spec() -> CalculatorSpec {
         key: KEY,
         title: "Nozzle on a flange: end force and jet reaction",
         group: crate::catalog::group::FITTINGS,
-        summary: "End force on the flange joint, jet reaction and discharge of a nozzle, from the energy and momentum balances with nozzle coefficients.",
+        summary: "End force on the flange joint, jet reaction and discharge of a nozzle, from the energy and momentum \
+                balances with nozzle coefficients.",
         fields,
         outputs: vec![
-            OutputSpec { key: "end_force_bore", label: "End force on the flange joint over the bore, p₁A₁ − ṁ(V_j − V₁) (+: the nozzle pulls off)", kind: Q::Force, headline: true },
-            OutputSpec { key: "end_force_gasket", label: "Hydrostatic end force at the gasket reaction diameter, (π/4)·G²·p₁ (the bolts carry this plus the gasket load)", kind: Q::Force, headline: true },
-            OutputSpec { key: "jet_reaction", label: "Jet reaction on the line, ṁ·V_j, upstream", kind: Q::Force, headline: true },
-            OutputSpec { key: "flow", label: "Discharge (volumetric flow)", kind: Q::VolumeFlow, headline: true },
-            OutputSpec { key: "p_in", label: "Gauge pressure at the flange", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "v_jet", label: "Jet velocity at the vena contracta", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_pipe", label: "Mean velocity in the pipe", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "cv", label: "Velocity coefficient C_v = C_d ÷ C_c", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "k_nozzle", label: "Loss coefficient on the jet velocity, 1/C_v² − 1", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "head_loss", label: "Head loss in the nozzle", kind: Q::Length, headline: false },
-            OutputSpec { key: "jet_diameter", label: "Jet diameter at the vena contracta", kind: Q::Length, headline: false },
-            OutputSpec { key: "jet_power", label: "Kinetic power of the jet, ṁV_j²/2", kind: Q::Power, headline: false },
-            OutputSpec { key: "pressure_force", label: "Pressure force on the flange face, p₁A₁", kind: Q::Force, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec::headline(
+                "end_force_bore",
+                "End force on the flange joint over the bore, p₁A₁ − ṁ(V_j − V₁) (+: the nozzle pulls off)",
+                Q::Force,
+            ),
+            OutputSpec {
+                key: "end_force_gasket",
+                label:
+                    "Hydrostatic end force at the gasket reaction diameter, (π/4)·G²·p₁ (the bolts carry this plus the \
+                    gasket load)",
+                kind: Q::Force,
+                headline: true,
+            },
+            OutputSpec::headline("jet_reaction", "Jet reaction on the line, ṁ·V_j, upstream", Q::Force),
+            OutputSpec::headline("flow", "Discharge (volumetric flow)", Q::VolumeFlow),
+            OutputSpec::listed("p_in", "Gauge pressure at the flange", Q::Pressure),
+            OutputSpec::listed("v_jet", "Jet velocity at the vena contracta", Q::Velocity),
+            OutputSpec::listed("v_pipe", "Mean velocity in the pipe", Q::Velocity),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("cv", "Velocity coefficient C_v = C_d ÷ C_c", Q::Ratio),
+            OutputSpec::listed("k_nozzle", "Loss coefficient on the jet velocity, 1/C_v² − 1", Q::Ratio),
+            OutputSpec::listed("head_loss", "Head loss in the nozzle", Q::Length),
+            OutputSpec::listed("jet_diameter", "Jet diameter at the vena contracta", Q::Length),
+            OutputSpec::listed("jet_power", "Kinetic power of the jet, ṁV_j²/2", Q::Power),
+            OutputSpec::listed("pressure_force", "Pressure force on the flange face, p₁A₁", Q::Force),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
-            "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction diameter G plus the gasket load: ASME BPVC Section VIII Division 1, Appendix 2 sizes them for the hydrostatic end force H = 0.785·G²·P plus the operating gasket load H_p = 2b·3.14·G·m·P, and for the seating load W_m2 = 3.14·b·G·y (from memory). Size bolts and flanges to the flange standard you work to, not to this page.",
-            "A nozzle that is opened suddenly, or a jet that is shut off quickly, causes surge: the bolts and the line's restraint see more than the steady values shown.",
-            "Defer to the local codes and a licensed engineer for the flange, its bolts and the line's restraint.",
-            "The jet reaction acts on whatever holds the line (a monitor's base, a hose crew, a riser's anchor); a free hose whips. Never stand in line with a jet.",
+            "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction \
+                    diameter G plus the gasket load: ASME BPVC Section VIII Division 1, Appendix 2 sizes them for the \
+                    hydrostatic end force H = 0.785·G²·P plus the operating gasket load H_p = 2b·3.14·G·m·P, and for \
+                    the seating load W_m2 = 3.14·b·G·y (from memory). Size bolts and flanges to the flange standard \
+                    you work to, not to this page.",
+            "A nozzle that is opened suddenly, or a jet that is shut off quickly, causes surge: the bolts and \
+                    the line's restraint see more than the steady values shown.",
+            "Defer to the local codes and a licensed engineer for the flange, its bolts and the line's \
+                    restraint.",
+            "The jet reaction acts on whatever holds the line (a monitor's base, a hose crew, a riser's \
+                    anchor); a free hose whips. Never stand in line with a jet.",
         ],
     }
 }
@@ -259,19 +283,14 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let nozzle = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
-    report::write(&inputs, &nozzle, report);
-    Ok(())
+    super::read_solve_write_refusing(values, report, read, model::solve, report::refusal, report::write)
 }
 
 #[cfg(test)]
 mod tests {
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {

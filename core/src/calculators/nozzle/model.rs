@@ -113,7 +113,8 @@ pub fn solve(inputs: &Inputs) -> Result<Nozzle, Refusal> {
                 return Err(Refusal::Fields(
                     crate::error::FieldError::inconsistent(
                         "cd",
-                        "with this jet area the pipe velocity would exceed what the pressure can drive: check C_d, C_c and the diameters",
+                        "with this jet area the pipe velocity would exceed what the pressure can drive: check \
+                                C_d, C_c and the diameters",
                     )
                     .into(),
                 ));

@@ -17,7 +17,8 @@ pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
         Refusal::FlowNeedsTooMuchPressure { needed } => vec![FieldError::inconsistent(
             "q",
             format!(
-                "this flow needs {} at the flange, above the {} this page covers: check the flow and the nozzle diameter",
+                "this flow needs {} at the flange, above the {} this page covers: check the flow and the \
+                        nozzle diameter",
                 report.fmt(needed, Q::Pressure),
                 report.fmt(MAX_PRESSURE_PA, Q::Pressure)
             ),
@@ -76,7 +77,8 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
     if let Given::Pressure(p) = inputs.given {
         report.check(
             "Gauge pressure at the flange",
-            "the pressure given (the flow was found from it in closed form; the balance recomputes the pressure from that flow)",
+            "the pressure given (the flow was found from it in closed form; the balance recomputes the \
+                    pressure from that flow)",
             Q::Pressure,
             inlet.pressure,
             p.value,
@@ -89,7 +91,8 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
     if nozzle.end_force < 0.0 {
         report.warn(
             Some("d_nozzle"),
-            "the momentum of the jet exceeds the pressure force on the bore: the nozzle is pushed onto the pipe while it flows; shut or blocked, the pressure alone pulls it off",
+            "the momentum of the jet exceeds the pressure force on the bore: the nozzle is pushed onto the \
+                    pipe while it flows; shut or blocked, the pressure alone pulls it off",
         );
     }
     if flow == 0.0 {
@@ -147,7 +150,8 @@ fn basis_table(inputs: &Inputs, nozzle: &Nozzle, report: &Report<'_>) -> crate::
             "End force at the gasket",
             match inputs.d_gasket {
                 Some(g) => format!(
-                    "H = (π/4)·G²·p₁ with G = {}, no credit for the flow; the bolts carry H plus the gasket load (ASME BPVC VIII-1 Appendix 2)",
+                    "H = (π/4)·G²·p₁ with G = {}, no credit for the flow; the bolts carry H plus the gasket \
+                            load (ASME BPVC VIII-1 Appendix 2)",
                     report.fmt(g.value, Q::Length)
                 ),
                 None => "not shown: give the gasket reaction diameter G".to_string(),

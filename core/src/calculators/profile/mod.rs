@@ -177,36 +177,11 @@ pub fn spec() -> CalculatorSpec {
             },
         ],
         outputs: vec![
-            OutputSpec {
-                key: "flow",
-                label: "Volumetric flow",
-                kind: Q::VolumeFlow,
-                headline: true,
-            },
-            OutputSpec {
-                key: "v_mean",
-                label: "Mean velocity",
-                kind: Q::Velocity,
-                headline: true,
-            },
-            OutputSpec {
-                key: "beta",
-                label: "Momentum-flux factor β",
-                kind: Q::Ratio,
-                headline: true,
-            },
-            OutputSpec {
-                key: "alpha",
-                label: "Kinetic-energy factor α",
-                kind: Q::Ratio,
-                headline: true,
-            },
-            OutputSpec {
-                key: "mean_over_peak",
-                label: "Mean ÷ peak velocity",
-                kind: Q::Ratio,
-                headline: false,
-            },
+            OutputSpec::headline("flow", "Volumetric flow", Q::VolumeFlow),
+            OutputSpec::headline("v_mean", "Mean velocity", Q::Velocity),
+            OutputSpec::headline("beta", "Momentum-flux factor β", Q::Ratio),
+            OutputSpec::headline("alpha", "Kinetic-energy factor α", Q::Ratio),
+            OutputSpec::listed("mean_over_peak", "Mean ÷ peak velocity", Q::Ratio),
         ],
         cautions: CAUTIONS.to_vec(),
     }
@@ -214,8 +189,7 @@ pub fn spec() -> CalculatorSpec {
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
     let inputs = model::read(values, report.system())?;
-    let solved = model::solve(&inputs)?;
-    report::write(&solved, report);
+    report::write(&model::solve(&inputs)?, report);
     Ok(())
 }
 

@@ -208,7 +208,8 @@ pub fn spec() -> CalculatorSpec {
             "The arm is fed at",
             FLOW_GIVEN_OPTIONS,
             "q",
-            "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ + ω²R²).",
+            "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ \
+                    + ω²R²).",
         ),
         FieldSpec {
             visible_when: Some(("flow_given", &["q"])),
@@ -304,106 +305,36 @@ pub fn spec() -> CalculatorSpec {
         summary: SUMMARY,
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "speed",
-                label: "Speed at the load",
-                kind: Q::AngularSpeed,
-                headline: true,
-            },
-            OutputSpec {
-                key: "torque",
-                label: "Torque delivered to the shaft at that speed",
-                kind: Q::Torque,
-                headline: true,
-            },
-            OutputSpec {
-                key: "power",
-                label: "Shaft power at that speed",
-                kind: Q::Power,
-                headline: true,
-            },
-            OutputSpec {
-                key: "runaway_speed",
-                label: "Runaway speed (no load)",
-                kind: Q::AngularSpeed,
-                headline: true,
-            },
-            OutputSpec {
-                key: "stall_torque",
-                label: "Stall torque (arm held still)",
-                kind: Q::Torque,
-                headline: false,
-            },
-            OutputSpec {
-                key: "max_power",
-                label: "Largest shaft power (over speed)",
-                kind: Q::Power,
-                headline: false,
-            },
-            OutputSpec {
-                key: "speed_at_max_power",
-                label: "Speed of largest power",
-                kind: Q::AngularSpeed,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_velocity",
-                label: "Jet speed relative to the nozzle W",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "tip_speed",
-                label: "Nozzle speed ωR",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "jet_swirl",
-                label: "Absolute tangential jet velocity W·cos α − ωR",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "flow",
-                label: "Total flow",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "supply_pressure",
-                label: "Supply gauge pressure at the hub",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "efficiency",
-                label: "Efficiency: shaft power ÷ (flow × total hub pressure)",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("speed", "Speed at the load", Q::AngularSpeed),
+            OutputSpec::headline("torque", "Torque delivered to the shaft at that speed", Q::Torque),
+            OutputSpec::headline("power", "Shaft power at that speed", Q::Power),
+            OutputSpec::headline("runaway_speed", "Runaway speed (no load)", Q::AngularSpeed),
+            OutputSpec::listed("stall_torque", "Stall torque (arm held still)", Q::Torque),
+            OutputSpec::listed("max_power", "Largest shaft power (over speed)", Q::Power),
+            OutputSpec::listed("speed_at_max_power", "Speed of largest power", Q::AngularSpeed),
+            OutputSpec::listed("jet_velocity", "Jet speed relative to the nozzle W", Q::Velocity),
+            OutputSpec::listed("tip_speed", "Nozzle speed ωR", Q::Velocity),
+            OutputSpec::listed(
+                "jet_swirl",
+                "Absolute tangential jet velocity W·cos α − ωR",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("flow", "Total flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("supply_pressure", "Supply gauge pressure at the hub", Q::Pressure),
+            OutputSpec::listed(
+                "efficiency",
+                "Efficiency: shaft power ÷ (flow × total hub pressure)",
+                Q::Ratio,
+            ),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: CAUTIONS.to_vec(),
     }
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&solved, report);
-    Ok(())
+    super::read_solve_write(values, report, model::read, model::solve, |_, s, r| report::write(s, r))
 }
 
 #[cfg(test)]

@@ -18,7 +18,8 @@ use super::{MAX_NOZZLES, PLOT_POINTS, RESIDUE};
 use crate::calculators::common;
 
 const HUB_BORE_TOO_SMALL: &str =
-    "the hub bore is too small: its velocity head exceeds the jets' and no jet speed matches the supply pressure";
+    "the hub bore is too small: its velocity head exceeds the jets' and no jet speed matches the supply \
+            pressure";
 const RUNS_FREE: &str = "the arm runs free (no load): it takes no shaft power, so all the supply's energy leaves \
     in the jets and the nozzle loss";
 const SHAFT_DRIVES: &str = "the shaft drives the arm at this speed (it works as a pump): the ratio of shaft to \
@@ -269,22 +270,6 @@ pub fn zero_if_residue(value: f64, scale: f64) -> f64 {
     }
 }
 
-/// Finds ω in [lo, hi] where `f` changes sign from positive to not positive.
-fn bisect(mut lo: f64, mut hi: f64, f: impl Fn(f64) -> Result<f64, EngineError>) -> Result<f64, EngineError> {
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if mid <= lo || mid >= hi {
-            break;
-        }
-        if f(mid)? > 0.0 {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    Ok(0.5 * (lo + hi))
-}
-
 /// Finds the first speed above `start` where `f` is not positive, doubling the
 /// bracket up to `limit`; `None` when `f` stays positive.
 fn bracket(start: f64, limit: f64, f: &impl Fn(f64) -> Result<f64, EngineError>) -> Result<Option<f64>, EngineError> {
@@ -486,7 +471,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         Some(0.0)
     } else {
         match bracket(scale, speed_limit, &fluid_torque).map_err(fail)? {
-            Some(hi) => Some(bisect(0.0, hi, fluid_torque).map_err(fail)?),
+            Some(hi) => Some(crate::numeric::bisect_sign_change(0.0, hi, fluid_torque).map_err(fail)?),
             None => None,
         }
     };
@@ -498,7 +483,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         Load::None => runaway.map_or(Operating::NoFiniteRunaway, Operating::At),
         _ if net(0.0).map_err(fail)? <= 0.0 => Operating::DoesNotStart,
         _ => match bracket(scale, speed_limit, &net).map_err(fail)? {
-            Some(hi) => Operating::At(bisect(0.0, hi, net).map_err(fail)?),
+            Some(hi) => Operating::At(crate::numeric::bisect_sign_change(0.0, hi, net).map_err(fail)?),
             None => Operating::LoadNeverBalances,
         },
     };

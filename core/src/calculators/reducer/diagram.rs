@@ -103,6 +103,8 @@ pub fn diagram(
         title: format!("Reducer, {view}: control volume and forces"),
         bounds,
         shapes,
-        caption: "Pipes and cone to scale; force arrows share one scale, in-plane components only. T acts on the supports; R = −T is what the restraint supplies.".to_string(),
+        caption: "Pipes and cone to scale; force arrows share one scale, in-plane components only. T acts on the \
+                supports; R = −T is what the restraint supplies."
+            .to_string(),
     }
 }

@@ -149,7 +149,8 @@ pub fn spec() -> CalculatorSpec {
             "psi",
             "10 bar",
             Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so not below 0.",
+            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
+                    not below 0.",
         ),
     ];
     fields.extend(common::flow_given_fields("850 m3/h"));
@@ -163,14 +164,16 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "30 deg",
             Limits::closed(crate::restraint::MIN_ANGLE, PI),
-            "Full angle of the cone, from 0.1 up to 180 degrees (a sudden step). Sets the length of the fitting and the Crane loss.",
+            "Full angle of the cone, from 0.1 up to 180 degrees (a sudden step). Sets the length of the \
+                    fitting and the Crane loss.",
         ),
         choice(
             "loss",
             "Loss model",
             LOSS_OPTIONS,
             "crane",
-            "Where the fitting's head loss comes from; it lowers the outlet pressure and so raises the thrust of a reducer.",
+            "Where the fitting's head loss comes from; it lowers the outlet pressure and so raises the thrust \
+                    of a reducer.",
         ),
         FieldSpec {
             visible_when: Some(("loss", &["k"])),
@@ -209,7 +212,9 @@ pub fn spec() -> CalculatorSpec {
                 "Joints at the fitting (thrust area)",
                 crate::restraint::Joint::OPTIONS,
                 "flanged",
-                "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the pressure then also acts on the wall annulus out to the outside diameter of the sealing joint. Only welded, flanged or fused joints take the bore. Empty means flanged (the bore).",
+                "Push-on and mechanical joints seal on the spigot's outside, restrained or not: the pressure \
+                        then also acts on the wall annulus out to the outside diameter of the sealing joint. Only \
+                        welded, flanged or fused joints take the bore. Empty means flanged (the bore).",
             )
         },
         FieldSpec {
@@ -243,27 +248,34 @@ pub fn spec() -> CalculatorSpec {
         key: KEY,
         title: "Reducer or expander thrust",
         group: crate::catalog::group::FITTINGS,
-        summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance and the fitting's loss.",
+        summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance \
+                and the fitting's loss.",
         fields,
         outputs: vec![
-            OutputSpec { key: "thrust", label: "Axial thrust on the supports (magnitude)", kind: Q::Force, headline: true },
-            OutputSpec { key: "thrust_axial", label: "Axial thrust, + along the flow, − against it", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_resultant", label: "Resultant thrust, with the fluid's weight", kind: Q::Force, headline: false },
-            OutputSpec { key: "p_out", label: "Gauge pressure at the outlet", kind: Q::Pressure, headline: true },
-            OutputSpec { key: "k_used", label: "Loss coefficient used, on the reference velocity", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "head_loss", label: "Head loss in the fitting", kind: Q::Length, headline: false },
-            OutputSpec { key: "v_in", label: "Mean velocity at the inlet", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out", label: "Mean velocity at the outlet", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "flow", label: "Volumetric flow", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "mass_flow", label: "Mass flow", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "length", label: "Length of the cone", kind: Q::Length, headline: false },
-            OutputSpec { key: "momentum_share", label: "Momentum flux ÷ pressure force", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "fluid_weight", label: "Weight of the fluid inside", kind: Q::Force, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec::headline("thrust", "Axial thrust on the supports (magnitude)", Q::Force),
+            OutputSpec::listed("thrust_axial", "Axial thrust, + along the flow, − against it", Q::Force),
+            OutputSpec::listed(
+                "thrust_resultant",
+                "Resultant thrust, with the fluid's weight",
+                Q::Force,
+            ),
+            OutputSpec::headline("p_out", "Gauge pressure at the outlet", Q::Pressure),
+            OutputSpec::listed("k_used", "Loss coefficient used, on the reference velocity", Q::Ratio),
+            OutputSpec::listed("head_loss", "Head loss in the fitting", Q::Length),
+            OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
+            OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),
+            OutputSpec::listed("flow", "Volumetric flow", Q::VolumeFlow),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("length", "Length of the cone", Q::Length),
+            OutputSpec::listed("momentum_share", "Momentum flux ÷ pressure force", Q::Ratio),
+            OutputSpec::listed("fluid_weight", "Weight of the fluid inside", Q::Force),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
-            "For push-on and mechanical joints choose that joint (the outside-diameter basis): using the bores there under-states the thrust by the wall's share, often 15 % or more.",
-            "Loss coefficients of reducers differ between published methods (Crane, Idelchik, Rennels, Miller) by tens of per cent; the thrust is rarely sensitive to them, the outlet pressure more so.",
+            "For push-on and mechanical joints choose that joint (the outside-diameter basis): using the bores \
+                    there under-states the thrust by the wall's share, often 15 % or more.",
+            "Loss coefficients of reducers differ between published methods (Crane, Idelchik, Rennels, Miller) \
+                    by tens of per cent; the thrust is rarely sensitive to them, the outlet pressure more so.",
         ],
     }
 }
@@ -290,24 +302,14 @@ pub fn crane_k_small(d_in: f64, d_out: f64, theta: f64) -> f64 {
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, read, solve, report::write)
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
-
-    fn solved(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn still_reducer_matches_static_formula() {
@@ -356,18 +358,9 @@ mod tests {
     fn vertical_thrust_is_carried_with_its_direction() {
         for (orientation, plane) in [("upward", "vertical_crest"), ("downward", "vertical_sag")] {
             let s = solved(&[("flow_dir", orientation)]);
-            let carry = &s.carry_over[0];
-            let field = |key: &str| carry.inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
+            let (block, inputs) = crate::calculators::testing::carried(&s);
+            let field = |key: &str| inputs.iter().find(|(k, _)| *k == key).map(|(_, v)| v.clone());
             assert_eq!(field("plane").as_deref(), Some(plane));
-            let target = crate::calculators::spec(carry.calculator).expect("registered");
-            let mut request = Request::default();
-            for (k, v) in crate::catalog::demo_inputs(&target) {
-                request.inputs.insert(k, v);
-            }
-            for (k, v) in &carry.inputs {
-                request.inputs.insert(k.to_string(), v.clone());
-            }
-            let block = crate::solve(carry.calculator, &request).result.expect("accepted");
             assert_relative_eq!(
                 block.output("thrust").unwrap().si,
                 s.output("thrust").unwrap().si,

@@ -77,7 +77,8 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     if loss == "borda" && d2 <= d {
         return Err(FieldError::inconsistent(
             "loss",
-            "Borda–Carnot is the loss of a sudden expansion; this fitting does not expand (outlet not larger than inlet): choose the Crane formula or a given K",
+            "Borda–Carnot is the loss of a sudden expansion; this fitting does not expand (outlet not larger \
+                    than inlet): choose the Crane formula or a given K",
         )
         .into());
     }

@@ -136,7 +136,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if loss_model == "crane" && expands && theta > PI / 4.0 && theta < PI {
         report.warn(
             Some("cone_angle"),
-            "an expansion steeper than 45 degrees loses about as much as a sudden one: Crane's formula then gives the Borda–Carnot value",
+            "an expansion steeper than 45 degrees loses about as much as a sudden one: Crane's formula then \
+                    gives the Borda–Carnot value",
         );
     }
 
@@ -173,7 +174,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "Thrust area basis",
             match outside {
                 Some((od_in, od_out)) => format!(
-                    "outside diameters {} and {} (push-on or mechanical joints): the pressure on the wall annulus is its own ledger term; momentum on the bores",
+                    "outside diameters {} and {} (push-on or mechanical joints): the pressure on the wall \
+                            annulus is its own ledger term; momentum on the bores",
                     report.fmt(od_in, Q::Length),
                     report.fmt(od_out, Q::Length)
                 ),

@@ -164,14 +164,16 @@ pub fn spec() -> CalculatorSpec {
             "Machine",
             MACHINE_OPTIONS,
             "pump",
-            "Sets the sign convention: a turbine's Euler head is taken out of the water, a pump's is given to it.",
+            "Sets the sign convention: a turbine's Euler head is taken out of the water, a pump's is given to \
+                    it.",
         ),
         choice(
             "layout",
             "Flow through the blades",
             LAYOUT_OPTIONS,
             "radial",
-            "Radial: give the two radii and blade heights. Axial: give the mean radius and the two annulus areas.",
+            "Radial: give the two radii and blade heights. Axial: give the mean radius and the two annulus \
+                    areas.",
         ),
         FieldSpec {
             visible_when: radial,
@@ -342,159 +344,61 @@ pub fn spec() -> CalculatorSpec {
         summary: SUMMARY,
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "euler_head",
-                label: "Euler head H_E",
-                kind: Q::Length,
-                headline: true,
-            },
-            OutputSpec {
-                key: "torque",
-                label: "Shaft torque (turbine: delivered; pump: needed)",
-                kind: Q::Torque,
-                headline: true,
-            },
-            OutputSpec {
-                key: "power",
-                label: "Shaft power, ideal",
-                kind: Q::Power,
-                headline: true,
-            },
-            OutputSpec {
-                key: "efficiency",
-                label: "Hydraulic efficiency (turbine H_E/H, pump H/H_E)",
-                kind: Q::Ratio,
-                headline: true,
-            },
-            OutputSpec {
-                key: "u1",
-                label: "Blade speed at the inlet u₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "u2",
-                label: "Blade speed at the outlet u₂",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vm1",
-                label: "Meridional velocity at the inlet V_m1",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vm2",
-                label: "Meridional velocity at the outlet V_m2",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vtheta1",
-                label: "Swirl at the inlet V_θ1",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "vtheta2",
-                label: "Swirl at the outlet V_θ2",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v1",
-                label: "Absolute velocity at the inlet V₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "v2",
-                label: "Absolute velocity at the outlet V₂",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "w1",
-                label: "Relative velocity at the inlet W₁",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "w2",
-                label: "Relative velocity at the outlet W₂",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "alpha2",
-                label: "Outlet flow angle α₂ (from the blade motion; 90 deg = no swirl)",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "beta1_flow",
-                label: "Inlet relative flow angle β₁,flow",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "incidence",
-                label: "Incidence β₁ − β₁,flow",
-                kind: Q::Angle,
-                headline: false,
-            },
-            OutputSpec {
-                key: "pressure_rise",
-                label: "Static pressure change p₂ − p₁ (ideal; negative = drop)",
-                kind: Q::Pressure,
-                headline: false,
-            },
-            OutputSpec {
-                key: "mass_flow",
-                label: "Mass flow",
-                kind: Q::MassFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "density",
-                label: "Fluid density",
-                kind: Q::Density,
-                headline: false,
-            },
+            OutputSpec::headline("euler_head", "Euler head H_E", Q::Length),
+            OutputSpec::headline("torque", "Shaft torque (turbine: delivered; pump: needed)", Q::Torque),
+            OutputSpec::headline("power", "Shaft power, ideal", Q::Power),
+            OutputSpec::headline(
+                "efficiency",
+                "Hydraulic efficiency (turbine H_E/H, pump H/H_E)",
+                Q::Ratio,
+            ),
+            OutputSpec::listed("u1", "Blade speed at the inlet u₁", Q::Velocity),
+            OutputSpec::listed("u2", "Blade speed at the outlet u₂", Q::Velocity),
+            OutputSpec::listed("vm1", "Meridional velocity at the inlet V_m1", Q::Velocity),
+            OutputSpec::listed("vm2", "Meridional velocity at the outlet V_m2", Q::Velocity),
+            OutputSpec::listed("vtheta1", "Swirl at the inlet V_θ1", Q::Velocity),
+            OutputSpec::listed("vtheta2", "Swirl at the outlet V_θ2", Q::Velocity),
+            OutputSpec::listed("v1", "Absolute velocity at the inlet V₁", Q::Velocity),
+            OutputSpec::listed("v2", "Absolute velocity at the outlet V₂", Q::Velocity),
+            OutputSpec::listed("w1", "Relative velocity at the inlet W₁", Q::Velocity),
+            OutputSpec::listed("w2", "Relative velocity at the outlet W₂", Q::Velocity),
+            OutputSpec::listed(
+                "alpha2",
+                "Outlet flow angle α₂ (from the blade motion; 90 deg = no swirl)",
+                Q::Angle,
+            ),
+            OutputSpec::listed("beta1_flow", "Inlet relative flow angle β₁,flow", Q::Angle),
+            OutputSpec::listed("incidence", "Incidence β₁ − β₁,flow", Q::Angle),
+            OutputSpec::listed(
+                "pressure_rise",
+                "Static pressure change p₂ − p₁ (ideal; negative = drop)",
+                Q::Pressure,
+            ),
+            OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: CAUTIONS.to_vec(),
     }
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&solved, report);
-    Ok(())
+    super::read_solve_write(values, report, model::read, model::solve, |_, s, r| report::write(s, r))
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::catalog::Request;
     use crate::units::STANDARD_GRAVITY;
     use approx::assert_relative_eq;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn engine_torque_equals_euler_form_for_pump_and_turbine() {
         // Derived from the definition: T = ρQ(r₁V_θ1 − r₂V_θ2), H_E = (u₁V_θ1 − u₂V_θ2)/g.
         for machine in ["pump", "turbine"] {
             for alpha1 in ["90 deg", "60 deg", "120 deg"] {
-                let s = solve(&[
+                let s = solved(&[
                     ("machine", machine),
                     ("alpha1", alpha1),
                     ("fluid", "custom"),
@@ -557,7 +461,7 @@ mod tests {
     #[test]
     fn pressure_change_follows_rothalpy() {
         // Derived from the definition: p₂ − p₁ = ρ/2 [(W₁² − W₂²) + (u₂² − u₁²)].
-        let s = solve(&[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")]);
+        let s = solved(&[("fluid", "custom"), ("rho", "1000 kg/m3"), ("mu", "1 mPa.s")]);
         let get = |k: &str| s.output(k).unwrap().si;
         let expected = 500.0 * (get("w1").powi(2) - get("w2").powi(2) + get("u2").powi(2) - get("u1").powi(2));
         assert_relative_eq!(get("pressure_rise"), expected, max_relative = 1e-9);
@@ -569,18 +473,18 @@ mod tests {
 
     #[test]
     fn incidence_is_warned() {
-        let s = solve(&[("beta1", "60 deg")]);
+        let s = solved(&[("beta1", "60 deg")]);
         assert!(s.warnings.iter().any(|w| w.field == Some("beta1")));
         let matched = s.output("beta1_flow").unwrap().si;
         let deg = format!("{} rad", matched);
-        let s = solve(&[("beta1", deg.as_str())]);
+        let s = solved(&[("beta1", deg.as_str())]);
         assert!(s.warnings.iter().all(|w| w.field != Some("beta1")));
         assert!(s.output("incidence").unwrap().si.abs() < 1e-9);
     }
 
     #[test]
     fn demo_has_triangles_table_and_plot() {
-        let s = solve(&[]);
+        let s = solved(&[]);
         assert_eq!(s.diagrams.len(), 1);
         assert!(s.tables.iter().any(|t| t.key == "triangles"));
         assert_eq!(s.plots.len(), 1);
@@ -611,13 +515,13 @@ mod tests {
     #[test]
     fn checks_agree_and_efficiency_is_explained_when_not_applicable() {
         for machine in ["pump", "turbine"] {
-            let s = solve(&[("machine", machine)]);
+            let s = solved(&[("machine", machine)]);
             assert_eq!(s.checks.len(), 3, "{machine}");
             assert!(s.checks.iter().all(|c| c.agrees()), "{machine}: {:?}", s.checks);
         }
         // The demo pump's triangles run as a turbine give no positive Euler head:
         // the efficiency is not applicable and the page says why.
-        let s = solve(&[("machine", "turbine"), ("head", "40 m")]);
+        let s = solved(&[("machine", "turbine"), ("head", "40 m")]);
         assert!(s.output("efficiency").is_none());
         assert!(s
             .warnings

@@ -170,7 +170,8 @@ fn independent_checks(
     let head_from_pressure = -sign * (pressure_rise / (rho * g) + kinetic_rise);
     report.check(
         "Euler head",
-        "static pressure change from the rotating-frame energy balance plus the change of absolute velocity head",
+        "static pressure change from the rotating-frame energy balance plus the change of absolute velocity \
+                head",
         Q::Length,
         euler_head,
         head_from_pressure,
@@ -282,9 +283,9 @@ fn ledger(balance: &Balance, water_torque: f64, euler_head: f64, system: UnitSys
     let lu = units::display_unit(euler_head.abs(), Q::Length, system).id;
     Table {
         key: "torque_ledger",
-        title:
-            "Angular-momentum ledger about the axis (rotating CV; pressures over surfaces of revolution have no moment)"
-                .to_string(),
+        title: "Angular-momentum ledger about the axis (rotating CV; pressures over surfaces of revolution have \
+                    no moment)"
+            .to_string(),
         columns: vec!["Term".to_string(), "value".to_string(), "unit".to_string()],
         rows: rows
             .into_iter()

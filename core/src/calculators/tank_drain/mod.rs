@@ -87,8 +87,10 @@ const UNSTEADY_NOTICE_RATIO: f64 = 0.1;
 /// The usual cautions of the page.
 const CAUTIONS: &[&str] = &[
     "Vent the tank: a tank that cannot draw air in as it drains is pulled into vacuum and can collapse.",
-    "The discharge coefficient governs the answer; measure it or take it from a published source for your outlet.",
-    "A dam-break-like release from a large outlet is violent: keep people clear of the outlet and the receiving area.",
+    "The discharge coefficient governs the answer; measure it or take it from a published source for your \
+            outlet.",
+    "A dam-break-like release from a large outlet is violent: keep people clear of the outlet and the \
+            receiving area.",
     "Defer to the tank's manufacturer, the local codes and a licensed engineer for the tank, its vent and where the \
         drained liquid goes.",
 ];
@@ -99,7 +101,8 @@ const D_TANK_HELP: &str = "Inside diameter of a vertical cylindrical tank.";
 const D_ORIFICE_HELP: &str =
     "Diameter of the outlet hole or short nozzle in the tank bottom; at most 99.9 % of the tank diameter.";
 const CD_HELP: &str =
-    "About 0.61 for a sharp-edged orifice, 0.8 for a short tube, 0.95 to 0.98 for a rounded nozzle (common practice).";
+    "About 0.61 for a sharp-edged orifice, 0.8 for a short tube, 0.95 to 0.98 for a rounded nozzle (common \
+            practice).";
 const CV_HELP: &str =
     "Jet velocity ÷ ideal velocity: about 0.98 for a sharp-edged orifice, 0.8 for a short tube, 0.95 \
     to 0.99 for a rounded nozzle (common practice). Not below C_d: the contraction coefficient C_d/C_v is at most 1.";
@@ -180,70 +183,38 @@ pub fn spec() -> CalculatorSpec {
         summary: SUMMARY,
         fields,
         outputs: vec![
-            OutputSpec {
-                key: "time",
-                label: "Time to drain between the levels",
-                kind: Q::Time,
-                headline: true,
-            },
-            OutputSpec {
-                key: "q_peak",
-                label: "Largest outflow (just after opening, for a small outlet)",
-                kind: Q::VolumeFlow,
-                headline: true,
-            },
-            OutputSpec {
-                key: "v_jet_peak",
-                label: "Jet velocity at the largest outflow, C_v·V",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "level_rate_peak",
-                label: "Rate of fall of the level at the largest outflow",
-                kind: Q::Velocity,
-                headline: false,
-            },
-            OutputSpec {
-                key: "level_at_peak",
-                label: "Level at the largest outflow",
-                kind: Q::Length,
-                headline: false,
-            },
-            OutputSpec {
-                key: "volume",
-                label: "Volume drained",
-                kind: Q::Volume,
-                headline: false,
-            },
-            OutputSpec {
-                key: "q_end",
-                label: "Outflow at the final level",
-                kind: Q::VolumeFlow,
-                headline: false,
-            },
-            OutputSpec {
-                key: "area_ratio",
-                label: "Effective outlet area ÷ tank area, r = C_d·a/A_t",
-                kind: Q::Ratio,
-                headline: false,
-            },
-            OutputSpec {
-                key: "time_free_fall",
-                label: "Free-fall time over the same drop (lower bound)",
-                kind: Q::Time,
-                headline: false,
-            },
+            OutputSpec::headline("time", "Time to drain between the levels", Q::Time),
+            OutputSpec::headline(
+                "q_peak",
+                "Largest outflow (just after opening, for a small outlet)",
+                Q::VolumeFlow,
+            ),
+            OutputSpec::listed("v_jet_peak", "Jet velocity at the largest outflow, C_v·V", Q::Velocity),
+            OutputSpec::listed(
+                "level_rate_peak",
+                "Rate of fall of the level at the largest outflow",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("level_at_peak", "Level at the largest outflow", Q::Length),
+            OutputSpec::listed("volume", "Volume drained", Q::Volume),
+            OutputSpec::listed("q_end", "Outflow at the final level", Q::VolumeFlow),
+            OutputSpec::listed(
+                "area_ratio",
+                "Effective outlet area ÷ tank area, r = C_d·a/A_t",
+                Q::Ratio,
+            ),
+            OutputSpec::listed(
+                "time_free_fall",
+                "Free-fall time over the same drop (lower bound)",
+                Q::Time,
+            ),
         ],
         cautions: CAUTIONS.to_vec(),
     }
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&solved, report);
-    Ok(())
+    super::read_solve_write(values, report, model::read, model::solve, |_, s, r| report::write(s, r))
 }
 
 #[cfg(test)]

@@ -107,9 +107,15 @@ pub fn diagram(inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Diagram
     common::thrust_and_restraint_arrows(&mut shapes, [0.0, 0.0], [0.0, 0.0], flat(thrust), scale, &fmt(thrust));
     let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.3 * d_common);
     Diagram {
-        title: format!("{} junction, plan view: control volume and forces", if dividing { "Dividing" } else { "Combining" }),
+        title: format!(
+            "{} junction, plan view: control volume and forces",
+            if dividing { "Dividing" } else { "Combining" }
+        ),
         bounds,
         shapes,
-        caption: "Pipes to scale in plan (branches with an elevation angle are drawn foreshortened); force arrows share one scale, plan components only. T acts on the supports; R = −T is what the restraint supplies.".to_string(),
+        caption:
+            "Pipes to scale in plan (branches with an elevation angle are drawn foreshortened); force arrows share \
+                one scale, plan components only. T acts on the supports; R = −T is what the restraint supplies."
+                .to_string(),
     }
 }

@@ -44,7 +44,9 @@
 //! On the outside-diameter basis (`joint` = push-on, mechanical or restrained: joints
 //! that seal on the spigot's outside) each face's pressure also acts on the wall
 //! annulus out to the outside diameter, −p·(A_OD − A)·n, added to the engine as a
-//! named force per face. Flanged, welded and fused joints seal on the bore.
+//! named force per face. Flanged, welded and fused joints seal on the bore. The
+//! joint is required (the bore is low for push-on joints, so it is never a silent
+//! default); the joint options are the restraint model's [`crate::restraint::Joint`].
 //!
 //! # Layout
 //! [`read`] turns the validated values into typed [`Inputs`] once (and refuses
@@ -59,10 +61,12 @@
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Length, Ratio};
+use uom::si::f64::{Length, MassRate, Ratio, Velocity, VolumeRate};
 
-use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, FromSi, Limits, OutputSpec, Report, Values};
+use crate::engine::FlowSpec;
 use crate::error::{FieldError, FieldErrors};
+use crate::restraint;
 use crate::units::{self, QuantityKind as Q};
 use crate::vector::Vec3;
 
@@ -101,38 +105,6 @@ pub(crate) const JUNCTION_OPTIONS: &[ChoiceOption] = &[
         label: "Combining: the branches feed the common pipe",
     },
 ];
-
-/// The joints at a junction: the first three seal on the outside diameter, the
-/// rest on the bore (the glossary's `joint` options).
-const JOINT_OPTIONS: &[ChoiceOption] = &[
-    ChoiceOption {
-        key: "push_on",
-        label: "Push-on joints (area on the OD)",
-    },
-    ChoiceOption {
-        key: "mechanical",
-        label: "Mechanical joints (area on the OD)",
-    },
-    ChoiceOption {
-        key: "restrained",
-        label: "Restrained push-on or mechanical joints (area on the OD of the sealing joint)",
-    },
-    ChoiceOption {
-        key: "flanged",
-        label: "Flanged (area on the bore)",
-    },
-    ChoiceOption {
-        key: "welded",
-        label: "Welded (area on the bore)",
-    },
-    ChoiceOption {
-        key: "fused",
-        label: "Fused (area on the bore)",
-    },
-];
-
-/// The joints whose thrust area is the outside diameter.
-const OUTSIDE_DIAMETER_JOINTS: &[&str] = &["push_on", "mechanical", "restrained"];
 
 const COUNT_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption { key: "1", label: "1" },
@@ -371,7 +343,8 @@ pub fn spec() -> CalculatorSpec {
             "in",
             "310 mm",
             Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-            "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when combining).",
+            "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when \
+                    combining).",
         ),
         quantity(
             "p",
@@ -381,18 +354,11 @@ pub fn spec() -> CalculatorSpec {
             "psi",
             "10 bar",
             Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure at the common pipe's face: the highest the line will see, test and surge included. Gauge, so not below 0.",
+            "The design pressure at the common pipe's face: the highest the line will see, test and surge \
+                    included. Gauge, so not below 0.",
         ),
     ];
-    for mut field in common::flow_fields("850 m3/h") {
-        // The glossary's key for how the flow is given (a no-op once the shared flow
-        // fields use it).
-        if field.key == "flow_basis" {
-            field.key = "flow_given";
-        }
-        if let Some(("flow_basis", shown)) = field.visible_when {
-            field.visible_when = Some(("flow_given", shown));
-        }
+    for mut field in common::flow_given_fields("850 m3/h") {
         match field.key {
             "q" => {
                 field.label = "Flow in the common pipe";
@@ -424,18 +390,17 @@ pub fn spec() -> CalculatorSpec {
         "common",
         "Most junction tables give each branch's K on the velocity of the common (combined) flow.",
     ));
+    // Required: an empty joint would put the thrust on the bore, which is low for
+    // push-on and mechanical joints; the user chooses (the demo is flanged).
+    fields.push(choice(
+        "joint",
+        "Joints at the junction",
+        restraint::Joint::OPTIONS,
+        "flanged",
+        restraint::JOINT_HELP,
+    ));
     fields.push(FieldSpec {
-        optional: true,
-        ..choice(
-            "joint",
-            "Joints at the junction",
-            JOINT_OPTIONS,
-            "flanged",
-            "Push-on and mechanical joints, restrained or not, seal on the spigot's outside: the pressure then also acts on the wall annulus out to each pipe's outside diameter. Flanged, welded and fused joints seal on the bore. Empty means a joint that seals on the bore.",
-        )
-    });
-    fields.push(FieldSpec {
-        visible_when: Some(("joint", OUTSIDE_DIAMETER_JOINTS)),
+        visible_when: Some(("joint", restraint::OD_JOINTS)),
         ..quantity(
             "od",
             "Common pipe outside diameter",
@@ -472,7 +437,8 @@ pub fn spec() -> CalculatorSpec {
                 "deg",
                 b.angle_demo,
                 Limits::closed(-PI, PI),
-                "Direction the fluid moves in this branch, counter-clockwise in plan from its direction in the common pipe: 0° straight on, 90° a square branch to the left, −90° to the right.",
+                "Direction the fluid moves in this branch, counter-clockwise in plan from its direction in the \
+                        common pipe: 0° straight on, 90° a square branch to the left, −90° to the right.",
             )
         });
         fields.push(FieldSpec {
@@ -500,7 +466,8 @@ pub fn spec() -> CalculatorSpec {
                 "%",
                 b.share_demo,
                 Limits::closed(0.0, 1.0),
-                "Share of the common flow, 0 to 100 %. Leave exactly one branch empty: its flow is solved from the mass balance.",
+                "Share of the common flow, 0 to 100 %. Leave exactly one branch empty: its flow is solved from \
+                        the mass balance.",
             )
         });
         fields.push(FieldSpec {
@@ -514,7 +481,10 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 b.k_demo,
                 Limits::closed(MIN_LOSS_COEFFICIENT, MAX_LOSS_COEFFICIENT),
-                "Head loss K·V²/2g between the common pipe and this branch, −1 to 50; empty means no loss. Published tee data has negative K for some flow splits (the stream gains energy from the others), down to −1 on the common pipe's velocity; the losses of all branches together must not create energy. Name the method (Idelchik, Miller, Crane).",
+                "Head loss K·V²/2g between the common pipe and this branch, −1 to 50; empty means no loss. \
+                        Published tee data has negative K for some flow splits (the stream gains energy from the \
+                        others), down to −1 on the common pipe's velocity; the losses of all branches together must \
+                        not create energy. Name the method (Idelchik, Miller, Crane).",
             )
         });
         fields.push(FieldSpec {
@@ -528,79 +498,38 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 b.od_demo,
                 Limits::closed(MIN_BORE_M, MAX_SIZE_M),
-                "Needed only for push-on, mechanical or restrained joints (the thrust acts on the outside diameter), and then for every branch in use: the branch pipe's outside diameter at its joint. Left empty for flanged, welded or fused joints.",
+                "Needed only for push-on, mechanical or restrained joints (the thrust acts on the outside \
+                        diameter), and then for every branch in use: the branch pipe's outside diameter at its joint. \
+                        Left empty for flanged, welded or fused joints.",
             )
         });
     }
     fields.extend(common::fluid_fields("25 degC"));
 
     let mut outputs = vec![
-        OutputSpec {
-            key: "thrust_in_plane",
-            label: "Thrust in the plan (horizontal)",
-            kind: Q::Force,
-            headline: true,
-        },
-        OutputSpec {
-            key: "thrust_angle",
-            label: "Direction of the thrust in the plan, from the common pipe's flow direction",
-            kind: Q::Angle,
-            headline: true,
-        },
-        OutputSpec {
-            key: "thrust",
-            label: "Thrust on the supports (resultant, with the fluid's weight)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "thrust_x",
-            label: "Thrust along the common pipe's flow (x)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "thrust_y",
-            label: "Thrust across it, in the plan (y)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "thrust_z",
-            label: "Thrust out of the plan (z, + up)",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "static_thrust",
-            label: "Static thrust with no flow, p·|Σ A·(−n)|",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "solved_share",
-            label: "Flow share solved from the mass balance (fraction)",
-            kind: Q::Ratio,
-            headline: false,
-        },
-        OutputSpec {
-            key: "flow",
-            label: "Flow in the common pipe",
-            kind: Q::VolumeFlow,
-            headline: false,
-        },
-        OutputSpec {
-            key: "mass_flow",
-            label: "Mass flow in the common pipe",
-            kind: Q::MassFlow,
-            headline: false,
-        },
-        OutputSpec {
-            key: "v_common",
-            label: "Mean velocity in the common pipe",
-            kind: Q::Velocity,
-            headline: false,
-        },
+        OutputSpec::headline("thrust_in_plane", "Thrust in the plan (horizontal)", Q::Force),
+        OutputSpec::headline(
+            "thrust_angle",
+            "Direction of the thrust in the plan, from the common pipe's flow direction",
+            Q::Angle,
+        ),
+        OutputSpec::listed(
+            "thrust",
+            "Thrust on the supports (resultant, with the fluid's weight)",
+            Q::Force,
+        ),
+        OutputSpec::listed("thrust_x", "Thrust along the common pipe's flow (x)", Q::Force),
+        OutputSpec::listed("thrust_y", "Thrust across it, in the plan (y)", Q::Force),
+        OutputSpec::listed("thrust_z", "Thrust out of the plan (z, + up)", Q::Force),
+        OutputSpec::listed("static_thrust", "Static thrust with no flow, p·|Σ A·(−n)|", Q::Force),
+        OutputSpec::listed(
+            "solved_share",
+            "Flow share solved from the mass balance (fraction)",
+            Q::Ratio,
+        ),
+        OutputSpec::listed("flow", "Flow in the common pipe", Q::VolumeFlow),
+        OutputSpec::listed("mass_flow", "Mass flow in the common pipe", Q::MassFlow),
+        OutputSpec::listed("v_common", "Mean velocity in the common pipe", Q::Velocity),
     ];
     for b in &BRANCHES {
         outputs.push(OutputSpec {
@@ -623,37 +552,28 @@ pub fn spec() -> CalculatorSpec {
         });
     }
     outputs.extend([
-        OutputSpec {
-            key: "momentum_share",
-            label: "Momentum flux ÷ pressure force",
-            kind: Q::Ratio,
-            headline: false,
-        },
-        OutputSpec {
-            key: "fluid_weight",
-            label: "Weight of the fluid inside",
-            kind: Q::Force,
-            headline: false,
-        },
-        OutputSpec {
-            key: "density",
-            label: "Fluid density",
-            kind: Q::Density,
-            headline: false,
-        },
+        OutputSpec::listed("momentum_share", "Momentum flux ÷ pressure force", Q::Ratio),
+        OutputSpec::listed("fluid_weight", "Weight of the fluid inside", Q::Force),
+        OutputSpec::listed("density", "Fluid density", Q::Density),
     ]);
     CalculatorSpec {
         key: KEY,
         title: "Tee, wye or manifold thrust",
         group: crate::catalog::group::FITTINGS,
-        summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or combining, with one unknown branch flow solved by mass.",
+        summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or \
+                combining, with one unknown branch flow solved by mass.",
         fields,
         outputs,
         cautions: vec![
-            "For push-on and mechanical joints, restrained or not, choose them under joints (the outside-diameter basis): using the bores there under-states the thrust by the wall's share, often 15 % or more.",
-            "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's flow set to zero, and with the run closed too.",
-            "Junction loss coefficients depend strongly on the flow split and the area ratios; published tables (Idelchik, Miller, Crane) differ: name yours.",
-            "A negative loss coefficient (the stream gains energy from the others) holds only for the flow split and area ratio it was published for: recheck it whenever the split changes.",
+            "For push-on and mechanical joints, restrained or not, choose them under joints (the \
+                    outside-diameter basis): using the bores there under-states the thrust by the wall's share, often \
+                    15 % or more.",
+            "When a branch valve is shut the branch becomes a dead end: check the thrust with that branch's \
+                    flow set to zero, and with the run closed too.",
+            "Junction loss coefficients depend strongly on the flow split and the area ratios; published \
+                    tables (Idelchik, Miller, Crane) differ: name yours.",
+            "A negative loss coefficient (the stream gains energy from the others) holds only for the flow \
+                    split and area ratio it was published for: recheck it whenever the split changes.",
         ],
     }
 }
@@ -682,7 +602,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     };
     let fluid = common::fluid_from(values)?;
     let flow = read_flow(values)?;
-    let on_outside = OUTSIDE_DIAMETER_JOINTS.contains(&values.choice("joint").unwrap_or("flanged"));
+    let joint = values.choice("joint")?;
+    let on_outside = restraint::Joint::from_key(joint)
+        .ok_or_else(|| FieldError::inconsistent("joint", "choose one of the listed joints"))?
+        .uses_od();
     let common_outside = if on_outside {
         let od: Length = values.typed("od")?;
         if od <= d_common {
@@ -711,18 +634,13 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 
 /// Reads the common pipe's flow in the way it is given.
 fn read_flow(values: &Values) -> Result<CommonFlow, FieldErrors> {
-    let key = match values.choice("flow_given")? {
-        "v" => "v",
-        "mdot" => "mdot",
-        _ => "q",
-    };
-    if !values.is_set(key) {
-        return Err(FieldError::inconsistent(key, "a value is required for the chosen flow basis").into());
-    }
-    Ok(match key {
-        "v" => CommonFlow::Velocity(values.typed("v")?),
-        "mdot" => CommonFlow::Mass(values.typed("mdot")?),
-        _ => CommonFlow::Volume(values.typed("q")?),
+    Ok(match common::flow_given_from(values)? {
+        FlowSpec::Velocity(v) => CommonFlow::Velocity(Velocity::from_si(v)),
+        FlowSpec::MassFlow(m) => CommonFlow::Mass(MassRate::from_si(m)),
+        FlowSpec::VolumeFlow(q) => CommonFlow::Volume(VolumeRate::from_si(q)),
+        FlowSpec::Unknown => {
+            return Err(FieldError::inconsistent("flow_given", "choose how the flow is given").into());
+        }
     })
 }
 
@@ -751,7 +669,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
         if direction.dot(Vec3::new(-1.0, 0.0, 0.0)) > (10f64).to_radians().cos() {
             errors.push(FieldError::inconsistent(
                 b.angle,
-                "the branch would lie along the common pipe: its direction must differ from 180° by more than 10°",
+                "the branch would lie along the common pipe: its direction must differ from 180° by more than \
+                        10°",
             ));
             continue;
         }
@@ -760,7 +679,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             if !values.is_set(b.od) {
                 errors.push(FieldError::inconsistent(
                     b.od,
-                    "an outside diameter is required for push-on, mechanical or restrained joints: the thrust acts on it",
+                    "an outside diameter is required for push-on, mechanical or restrained joints: the thrust \
+                            acts on it",
                 ));
                 continue;
             }
@@ -803,7 +723,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
     if empty.len() > 1 {
         return Err(FieldError::inconsistent(
             BRANCHES[empty[1]].share,
-            "only one branch's flow share can be left empty (it is solved from the mass balance): give this one",
+            "only one branch's flow share can be left empty (it is solved from the mass balance): give this \
+                    one",
         )
         .into());
     }
@@ -813,7 +734,8 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             return Err(FieldError::inconsistent(
                 field,
                 format!(
-                    "the branch flow shares add up to {}; they must add up to 100 % (or leave one empty to be solved)",
+                    "the branch flow shares add up to {}; they must add up to 100 % (or leave one empty to be \
+                            solved)",
                     percent(given_sum)
                 ),
             )
@@ -823,10 +745,12 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             return Err(FieldError::inconsistent(
                 field,
                 format!(
-                    "the given branch flow shares add up to {}, over 100 %: the remaining branch would have to flow backwards",
+                    "the given branch flow shares add up to {}, over 100 %: the remaining branch would have to \
+                            flow backwards",
                     percent(given_sum)
                 ),
-            ).into());
+            )
+            .into());
         }
         _ => {}
     }
@@ -867,7 +791,9 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
             return Err(FieldError::inconsistent(
                 key,
                 format!(
-                    "on the common pipe's velocity this loss coefficient is {}, below the lowest published junction value of {} (Crane TP-410, converging tee): allowed is {} to {} on the common velocity",
+                    "on the common pipe's velocity this loss coefficient is {}, below the lowest published \
+                            junction value of {} (Crane TP-410, converging tee): allowed is {} to {} on the common \
+                            velocity",
                     units::format_significant(on_common, 4),
                     MIN_LOSS_COEFFICIENT,
                     MIN_LOSS_COEFFICIENT,
@@ -886,7 +812,9 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
         if dissipation < -1e-12 * magnitude {
             return Err(FieldError::inconsistent(
                 key,
-                "with these loss coefficients and flows the junction would create energy: the gain of the streams with negative K exceeds the losses of the others (Σ flow × K × V²/2 over the branches must not be negative); check the coefficients and the split they belong to",
+                "with these loss coefficients and flows the junction would create energy: the gain of the \
+                        streams with negative K exceeds the losses of the others (Σ flow × K × V²/2 over the branches \
+                        must not be negative); check the coefficients and the split they belong to",
             ));
         }
     }
@@ -894,23 +822,14 @@ fn check_loss_coefficients(inputs: &Inputs) -> Result<(), FieldError> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, read, model::solve, report::write)
 }
 
 #[cfg(test)]
 mod tests {
     use approx::assert_relative_eq;
 
-    fn outcome(pairs: &[(&str, &str)]) -> crate::Outcome {
-        crate::calculators::testing::outcome(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> String {
-        crate::calculators::testing::error_field(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
@@ -1029,6 +948,21 @@ mod tests {
         let on_outside = thrust(&by_hand);
         by_hand[3] = ("joint", "flanged");
         assert!(on_outside > thrust(&by_hand));
+    }
+
+    #[test]
+    fn the_joint_is_required_and_fused_joints_take_the_bore() {
+        // An empty joint once meant the bore, low for push-on joints: now refused,
+        // naming the field.
+        assert_eq!(error_field(&[("joint", "")]), "joint");
+        let thrust = |joint: &str| {
+            crate::calculators::testing::solved(super::KEY, &[("joint", joint)])
+                .output("thrust_in_plane")
+                .map(|o| o.si)
+        };
+        // Fused joints seal on the bore like flanged ones; push-on on the OD (more).
+        assert_eq!(thrust("fused"), thrust("flanged"));
+        assert!(thrust("push_on") > thrust("flanged"));
     }
 
     #[test]

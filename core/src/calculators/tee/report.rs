@@ -61,7 +61,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             report.warn(
                 Some(keys.k),
                 format!(
-                    "the gauge pressure in branch {} comes out below atmospheric: check the loss and the flow split",
+                    "the gauge pressure in branch {} comes out below atmospheric: check the loss and the flow \
+                            split",
                     b.index + 1
                 ),
             );
@@ -111,7 +112,9 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         (
             "Thrust area basis",
             if on_outside {
-                "outside diameters (push-on, mechanical or restrained joints): the pressure on each joint's wall annulus is its own ledger term; momentum on the bores".to_string()
+                "outside diameters (push-on, mechanical or restrained joints): the pressure on each joint's \
+                        wall annulus is its own ledger term; momentum on the bores"
+                    .to_string()
             } else {
                 "inside diameters (pressure and momentum terms)".to_string()
             },
@@ -142,7 +145,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 ///   the outside-diameter basis, along its outward normal, with the branch pressures
 ///   from Bernoulli written out per branch (p_i = p₀ + ρ(V₀² − V_i²)/2 + ρg(z₀ − z_i)
 ///   ∓ K_i·ρV_ref²/2, − dividing, + combining), velocities from the given flows
-///   (the one left empty: the common flow less the others), and the weight ρg·volume: T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
+///   (the one left empty: the common flow less the others), and the weight ρg·volume:
+///   T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
 fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let (dividing, k_on_common) = (inputs.dividing(), inputs.k_on_common());
     let (p, rho, d_common) = (inputs.p.value, inputs.fluid.density, inputs.d_common.value);

@@ -108,7 +108,11 @@ pub fn diagram(
                 "Block under a sag bend, elevation"
             }
             .to_string();
-            caption = "Pipe (outside diameter) and the bearing face width to scale; the block's depth behind the face is schematic (a sag block is drawn square to the resultant). T is the thrust on the block; the soil pushes back on the face.".to_string();
+            caption =
+                "Pipe (outside diameter) and the bearing face width to scale; the block's depth behind the face is \
+                    schematic (a sag block is drawn square to the resultant). T is the thrust on the block; the soil \
+                    pushes back on the face."
+                    .to_string();
         }
         Block::Gravity { volume, side, height } => {
             // Elevation: the block under the crest fitting, hanging from it.
@@ -142,7 +146,9 @@ pub fn diagram(
                 });
             }
             title = "Gravity block under a crest bend, elevation".to_string();
-            caption = "Pipe and block to scale (square plan, side shown); the block is tied to the fitting, and its effective weight holds the upward thrust.".to_string();
+            caption = "Pipe and block to scale (square plan, side shown); the block is tied to the fitting, and its \
+                    effective weight holds the upward thrust."
+                .to_string();
         }
     }
     shapes.push(Shape::Arrow {

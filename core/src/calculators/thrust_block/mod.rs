@@ -3,7 +3,8 @@
 //!
 //! # Method
 //! 1. **Design pressure**, chosen openly (`p_basis`): the operating pressure; the
-//!    field test pressure from a named rule ([`TEST_RULES`]) or typed; the working
+//!    field test pressure from a named rule
+//!    ([`TEST_RULES`](crate::restraint::pressure::TEST_RULES)) or typed; the working
 //!    pressure plus a surge estimate; or the highest of these. EN 805's rule applies
 //!    to the maximum design pressure MDP, which includes surge: typed (`mdp`), or the
 //!    working pressure plus the standard's smallest allowance where surge is not
@@ -40,13 +41,14 @@
 //!    friction under the base, μ·T_down ≥ SF_slide·T_h (the block's own weight
 //!    neglected, conservative), or by a side face of SF·T_h/σ against the trench
 //!    wall, which is reported. Soil presets come
-//!    from three published tables that disagree (see [`SOILS`]); a typed value is
+//!    from three published tables that disagree (see [`SOILS`](crate::restraint::soil::SOILS)); a typed value is
 //!    always allowed. Face dimensions follow from a chosen height or width ÷ height.
 //! 4. **Gravity block** under upward thrust (a vertical bend at a crest): the block's
 //!    effective weight must be SF times the upward component, W = γ_eff·V, with
 //!    γ_eff = γ_c below groundwater reduced by the water's unit weight (buoyancy).
 //!    Sliding is checked by default, μ·(W − T_v) ≥ SF_slide·T_h, with μ from the
-//!    soil preset ([`FRICTION_SOURCE`]: NAVFAC DM-7.02 ultimate friction factors,
+//!    soil preset ([`FRICTION_SOURCE`](crate::restraint::soil::FRICTION_SOURCE):
+//!    NAVFAC DM-7.02 ultimate friction factors,
 //!    lower end, from memory) or typed; where neither gives μ and the thrust has a
 //!    horizontal part, an unchecked-sliding warning is raised.
 //! 5. **A given thrust** (`fitting=force`, e.g. carried from a fitting page) is used
@@ -110,57 +112,316 @@ pub use diagram::diagram;
 pub const KEY: &str = "thrust-block";
 
 // The restraint model shared with the line schedule lives in `crate::restraint`;
-// its names are re-exported here for the pages and tests that use them.
-pub use crate::restraint::block::{Block, BLOCK_DIM_OPTIONS, WATER_UNIT_WEIGHT, YES_NO};
-pub use crate::restraint::pressure::{
-    material, preset_material, test_rule, wave_speed, TestRule, ANCHOR_OPTIONS, BASIS_OPTIONS, EN805_SURGE_ALLOWANCE,
-    MATERIAL_OPTIONS, TEST_RULES, TEST_RULE_OPTIONS, WATER_BULK_MODULUS,
-};
-pub use crate::restraint::soil::{
-    soil, SoilPreset, SoilTable, FRICTION_SOURCE, MAX_TYPED_BEARING, MIN_TYPED_BEARING, SOILS, SOIL_OPTIONS,
-};
-pub use crate::restraint::{
-    diameters, joint_uses_od, static_balance, Diameters, FittingChoice, FittingKind, Joint, Legs, Plane, StaticFitting,
-    JOINT_HELP, MIN_ANGLE, OD_JOINTS,
-};
+// other pages and tests use it from there.
+use crate::restraint::block::{BLOCK_DIM_OPTIONS, YES_NO};
+use crate::restraint::pressure::{ANCHOR_OPTIONS, BASIS_OPTIONS, MATERIAL_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::soil::SOIL_OPTIONS;
+use crate::restraint::{FittingChoice, Joint, Legs, Plane, JOINT_HELP, MIN_ANGLE};
 
 /// The fitting options (derived from [`FittingChoice`]).
-pub const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
+const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
 /// The plane options (derived from [`Plane`]).
-pub const PLANE_OPTIONS: &[ChoiceOption] = Plane::OPTIONS;
+const PLANE_OPTIONS: &[ChoiceOption] = Plane::OPTIONS;
 /// The joint options (derived from [`Joint`]).
-pub const JOINT_OPTIONS: &[ChoiceOption] = Joint::OPTIONS;
+const JOINT_OPTIONS: &[ChoiceOption] = Joint::OPTIONS;
 /// The legs options (derived from [`Legs`]).
-pub const LEGS_OPTIONS: &[ChoiceOption] = Legs::OPTIONS;
+const LEGS_OPTIONS: &[ChoiceOption] = Legs::OPTIONS;
 
 pub fn spec() -> CalculatorSpec {
     let fitting_only = |keys: &'static [&'static str]| Some(("fitting", keys));
     const FITTINGS: &[&str] = &["bend", "dead_end", "tee", "reducer"];
     let mut fields = vec![
-        choice("fitting", "Fitting to restrain", FITTING_OPTIONS, "bend", "The thrust is recomputed here at the design pressure; choose 'a given thrust' to size a block for a force from elsewhere."),
-        FieldSpec { visible_when: fitting_only(&["force"]), ..quantity("thrust", "Thrust to restrain", Q::Force, "kN", "lbf", "", Limits::closed(1.0, 1e9), "Resultant thrust on the restraint at the design pressure (from a fitting page).") },
-        FieldSpec { visible_when: fitting_only(&["force"]), optional: true, ..quantity("thrust_elev", "Angle of the given thrust above horizontal", Q::Angle, "deg", "deg", "", Limits::closed(-PI / 2.0, PI / 2.0), "0 for a horizontal thrust, 90° straight up (gravity block), −90° straight down. Empty: from the plane chosen below.") },
-        FieldSpec { visible_when: fitting_only(&["bend"]), ..quantity("angle", "Bend deflection angle", Q::Angle, "deg", "deg", "45 deg", Limits::closed(MIN_ANGLE, PI), "From 0.1° to 180°; 11¼, 22½, 45 and 90° are the usual fittings.") },
-        choice("plane", "Plane and block type", PLANE_OPTIONS, "horizontal", "A horizontal fitting bears sideways on the trench wall; a crest in a vertical bend pushes up and needs a gravity block; a sag pushes down."),
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..choice("legs", "Legs of a vertical bend", LEGS_OPTIONS, "symmetric", "A bend at a summit or low point with both legs sloped has the larger vertical thrust (2·sin(θ/2) against sin θ: 8 % more at 45°, 41 % more at 90°). Used for bends only; empty: both legs sloped.") },
-        choice("size", "Pipe size", pipe_sizes::SIZE_OPTIONS, "di52_12", "A preset gives both diameters; typed diameters below override it."),
-        FieldSpec { optional: true, ..quantity("d", "Inside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Bore of the pipe at the fitting's main end.") },
-        FieldSpec { optional: true, ..quantity("od", "Outside diameter (overrides the preset)", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), ..choice("size2", "Branch (tee) or small-end (reducer) size", pipe_sizes::SIZE_OPTIONS, "custom", "A preset, or type the diameters below.") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("d2", "Branch or small-end inside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
-        FieldSpec { visible_when: fitting_only(&["tee", "reducer"]), optional: true, ..quantity("od2", "Branch or small-end outside diameter", Q::Length, "mm", "in", "", Limits::closed(MIN_SIZE_M, MAX_SIZE_M), "Overrides the preset.") },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", JOINT_HELP) },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..choice("p_basis", "Design pressure basis", BASIS_OPTIONS, "highest", "Design to the highest pressure the line will see, test and surge included.") },
-        FieldSpec { visible_when: fitting_only(FITTINGS), ..quantity("p", "Working (operating) pressure, gauge", Q::Pressure, "bar", "psi", "7 bar", Limits::closed(0.0, MAX_PRESSURE_PA), "The highest steady operating pressure at the fitting.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "highest"])), ..choice("test_rule", "Field test pressure rule", TEST_RULE_OPTIONS, "c600", "Named rules of published standards (check the edition your contract cites), or a typed test pressure.") },
-        FieldSpec { visible_when: Some(("test_rule", &["en805"])), optional: true, ..quantity("mdp", "Maximum design pressure MDP (EN 805), gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "MDP includes surge. Empty: the working pressure plus EN 805's smallest surge allowance, 2 bar (200 kPa).") },
-        FieldSpec { visible_when: Some(("test_rule", &["custom"])), optional: true, ..quantity("p_test", "Typed test pressure, gauge", Q::Pressure, "bar", "psi", "", Limits::closed(0.0, MAX_PRESSURE_PA), "Used when the test rule is 'typed test pressure'.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("dv", "Velocity change for surge (sudden stop)", Q::Velocity, "m/s", "ft/s", "0.3 m/s", Limits::closed(0.0, 50.0), "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump trip). Used by the surge and highest bases and the EN 805 calculated-surge test rule. Empty: no surge estimate.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("material", "Pipe wall material (wave speed)", MATERIAL_OPTIONS, "from_size", "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of the size preset (a PVC size gets PVC).") },
-        FieldSpec { visible_when: Some(("material", &["custom"])), optional: true, ..quantity("e_pipe", "Typed Young's modulus of the wall", Q::Pressure, "MPa", "ksi", "", Limits::closed(50e6, 1e12), "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to 1000 GPa.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("wall", "Wall thickness", Q::Length, "mm", "in", "", Limits::closed(0.1e-3, 1.0), "Empty: half the difference of outside and inside diameters.") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..choice("anchoring", "Axial restraint of the pipe (wave speed)", ANCHOR_OPTIONS, "joints", "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).") },
-        FieldSpec { visible_when: Some(("p_basis", &["test", "surge", "highest"])), optional: true, ..quantity("bulk_modulus", "Bulk modulus of the liquid", Q::Pressure, "MPa", "ksi", "", Limits::closed(10e6, 1e11), "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.") },
+        choice(
+            "fitting",
+            "Fitting to restrain",
+            FITTING_OPTIONS,
+            "bend",
+            "The thrust is recomputed here at the design pressure; choose 'a given thrust' to size a block \
+                for a force from elsewhere.",
+        ),
+        FieldSpec {
+            visible_when: fitting_only(&["force"]),
+            ..quantity(
+                "thrust",
+                "Thrust to restrain",
+                Q::Force,
+                "kN",
+                "lbf",
+                "",
+                Limits::closed(1.0, 1e9),
+                "Resultant thrust on the restraint at the design pressure (from a fitting page).",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["force"]),
+            optional: true,
+            ..quantity(
+                "thrust_elev",
+                "Angle of the given thrust above horizontal",
+                Q::Angle,
+                "deg",
+                "deg",
+                "",
+                Limits::closed(-PI / 2.0, PI / 2.0),
+                "0 for a horizontal thrust, 90° straight up (gravity block), −90° straight down. Empty: from \
+                the plane chosen below.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["bend"]),
+            ..quantity(
+                "angle",
+                "Bend deflection angle",
+                Q::Angle,
+                "deg",
+                "deg",
+                "45 deg",
+                Limits::closed(MIN_ANGLE, PI),
+                "From 0.1° to 180°; 11¼, 22½, 45 and 90° are the usual fittings.",
+            )
+        },
+        choice(
+            "plane",
+            "Plane and block type",
+            PLANE_OPTIONS,
+            "horizontal",
+            "A horizontal fitting bears sideways on the trench wall; a crest in a vertical bend pushes up \
+                and needs a gravity block; a sag pushes down.",
+        ),
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])),
+            optional: true,
+            ..choice(
+                "legs",
+                "Legs of a vertical bend",
+                LEGS_OPTIONS,
+                "symmetric",
+                "A bend at a summit or low point with both legs sloped has the larger vertical thrust \
+                (2·sin(θ/2) against sin θ: 8 % more at 45°, 41 % more at 90°). Used for bends only; empty: \
+                both legs sloped.",
+            )
+        },
+        choice(
+            "size",
+            "Pipe size",
+            pipe_sizes::SIZE_OPTIONS,
+            "di52_12",
+            "A preset gives both diameters; typed diameters below override it.",
+        ),
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "d",
+                "Inside diameter (overrides the preset)",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Bore of the pipe at the fitting's main end.",
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "od",
+                "Outside diameter (overrides the preset)",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["tee", "reducer"]),
+            ..choice(
+                "size2",
+                "Branch (tee) or small-end (reducer) size",
+                pipe_sizes::SIZE_OPTIONS,
+                "custom",
+                "A preset, or type the diameters below.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["tee", "reducer"]),
+            optional: true,
+            ..quantity(
+                "d2",
+                "Branch or small-end inside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Overrides the preset.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(&["tee", "reducer"]),
+            optional: true,
+            ..quantity(
+                "od2",
+                "Branch or small-end outside diameter",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+                "Overrides the preset.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            ..choice("joint", "Joints at the fitting", JOINT_OPTIONS, "push_on", JOINT_HELP)
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            ..choice(
+                "p_basis",
+                "Design pressure basis",
+                BASIS_OPTIONS,
+                "highest",
+                "Design to the highest pressure the line will see, test and surge included.",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            ..quantity(
+                "p",
+                "Working (operating) pressure, gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "7 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The highest steady operating pressure at the fitting.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "highest"])),
+            ..choice(
+                "test_rule",
+                "Field test pressure rule",
+                TEST_RULE_OPTIONS,
+                "c600",
+                "Named rules of published standards (check the edition your contract cites), or a typed test \
+                pressure.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("test_rule", &["en805"])),
+            optional: true,
+            ..quantity(
+                "mdp",
+                "Maximum design pressure MDP (EN 805), gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "MDP includes surge. Empty: the working pressure plus EN 805's smallest surge allowance, 2 bar \
+                (200 kPa).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("test_rule", &["custom"])),
+            optional: true,
+            ..quantity(
+                "p_test",
+                "Typed test pressure, gauge",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "Used when the test rule is 'typed test pressure'.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..quantity(
+                "dv",
+                "Velocity change for surge (sudden stop)",
+                Q::Velocity,
+                "m/s",
+                "ft/s",
+                "0.3 m/s",
+                Limits::closed(0.0, 50.0),
+                "The flow velocity stopped or reversed quickly (a valve closing faster than 2L/a, a pump \
+                trip). Used by the surge and highest bases and the EN 805 calculated-surge test rule. Empty: \
+                no surge estimate.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..choice(
+                "material",
+                "Pipe wall material (wave speed)",
+                MATERIAL_OPTIONS,
+                "from_size",
+                "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of the size \
+                preset (a PVC size gets PVC).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("material", &["custom"])),
+            optional: true,
+            ..quantity(
+                "e_pipe",
+                "Typed Young's modulus of the wall",
+                Q::Pressure,
+                "MPa",
+                "ksi",
+                "",
+                Limits::closed(50e6, 1e12),
+                "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to \
+                1000 GPa.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..quantity(
+                "wall",
+                "Wall thickness",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(0.1e-3, 1.0),
+                "Empty: half the difference of outside and inside diameters.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..choice(
+                "anchoring",
+                "Axial restraint of the pipe (wave speed)",
+                ANCHOR_OPTIONS,
+                "joints",
+                "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default \
+                when empty).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
+            optional: true,
+            ..quantity(
+                "bulk_modulus",
+                "Bulk modulus of the liquid",
+                Q::Pressure,
+                "MPa",
+                "ksi",
+                "",
+                Limits::closed(10e6, 1e11),
+                "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.",
+            )
+        },
     ];
     // The fluid sets the density of a fitting's balance and surge; a given thrust
     // needs none of it.
@@ -169,90 +430,222 @@ pub fn spec() -> CalculatorSpec {
         ..f
     }));
     fields.extend([
-        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("soil", "Soil (allowable bearing)", SOIL_OPTIONS, "nfpa24_sandy_silt", "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis.") },
-        FieldSpec { visible_when: Some(("soil", &["custom"])), optional: true, ..quantity("sigma", "Typed allowable soil bearing", Q::SoilBearing, "kPa", "psf", "", Limits::closed(1e3, 20e6), "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound rock).") },
-        quantity("sf", "Safety factor", Q::Ratio, "-", "-", "1.5", Limits::closed(1.0, 10.0), "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with tables whose values are already 'safe'."),
-        FieldSpec { visible_when: Some(("plane", &["horizontal", "vertical_sag"])), ..choice("block_dims", "Block face proportions", BLOCK_DIM_OPTIONS, "height", "Fix the face height (trench depth allows) or its width ÷ height.") },
-        FieldSpec { visible_when: Some(("block_dims", &["height"])), optional: true, ..quantity("block_h", "Bearing face height", Q::Length, "m", "ft", "0.6 m", Limits::closed(0.05, 20.0), "Height of the face against undisturbed soil; at least the pipe's outside diameter.") },
-        FieldSpec { visible_when: Some(("block_dims", &["aspect"])), optional: true, ..quantity("block_aspect", "Face width ÷ height", Q::Ratio, "-", "-", "1.5", Limits::closed(0.1, 10.0), "1 for a square face.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..quantity("gamma_c", "Unit weight of concrete", Q::SpecificWeight, "kN/m3", "lbf/ft3", "23.6 kN/m3", Limits::closed(10e3, 40e3), "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), ..choice("submerged", "Block below groundwater", YES_NO, "no", "Below the water table the block weighs less by the water it displaces.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest"])), optional: true, ..quantity("gravity_h", "Gravity block height", Q::Length, "m", "ft", "", Limits::closed(0.05, 20.0), "Empty: a cube.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("friction", "Friction coefficient, block on soil (sliding check)", Q::Ratio, "-", "-", "", Limits::closed(0.0, 1.5), "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. With a typed soil and no value the sliding check cannot be made and the page says so.") },
-        FieldSpec { visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])), optional: true, ..quantity("sf_slide", "Safety factor against sliding", Q::Ratio, "-", "-", "", Limits::closed(1.0, 10.0), "Empty: 1.5.") },
+        FieldSpec {
+            visible_when: Some(("plane", &["horizontal", "vertical_sag"])),
+            ..choice(
+                "soil",
+                "Soil (allowable bearing)",
+                SOIL_OPTIONS,
+                "nfpa24_sandy_silt",
+                "Published tables disagree by up to about 4× for the same soil name; the value should come \
+                from a geotechnical basis.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("soil", &["custom"])),
+            optional: true,
+            ..quantity(
+                "sigma",
+                "Typed allowable soil bearing",
+                Q::SoilBearing,
+                "kPa",
+                "psf",
+                "",
+                Limits::closed(1e3, 20e6),
+                "Allowable bearing of the undisturbed soil against the block face, from 1 kPa to 20 MPa (sound \
+                rock).",
+            )
+        },
+        quantity(
+            "sf",
+            "Safety factor",
+            Q::Ratio,
+            "-",
+            "-",
+            "1.5",
+            Limits::closed(1.0, 10.0),
+            "Applied to the thrust: bearing area = SF·T/σ, gravity block weight = SF·T_up. Use 1 with \
+                tables whose values are already 'safe'.",
+        ),
+        FieldSpec {
+            visible_when: Some(("plane", &["horizontal", "vertical_sag"])),
+            ..choice(
+                "block_dims",
+                "Block face proportions",
+                BLOCK_DIM_OPTIONS,
+                "height",
+                "Fix the face height (trench depth allows) or its width ÷ height.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("block_dims", &["height"])),
+            optional: true,
+            ..quantity(
+                "block_h",
+                "Bearing face height",
+                Q::Length,
+                "m",
+                "ft",
+                "0.6 m",
+                Limits::closed(0.05, 20.0),
+                "Height of the face against undisturbed soil; at least the pipe's outside diameter.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("block_dims", &["aspect"])),
+            optional: true,
+            ..quantity(
+                "block_aspect",
+                "Face width ÷ height",
+                Q::Ratio,
+                "-",
+                "-",
+                "1.5",
+                Limits::closed(0.1, 10.0),
+                "1 for a square face.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest"])),
+            ..quantity(
+                "gamma_c",
+                "Unit weight of concrete",
+                Q::SpecificWeight,
+                "kN/m3",
+                "lbf/ft3",
+                "23.6 kN/m3",
+                Limits::closed(10e3, 40e3),
+                "About 23.6 kN/m³ (150 lbf/ft³) for normal-weight concrete (common practice).",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest"])),
+            ..choice(
+                "submerged",
+                "Block below groundwater",
+                YES_NO,
+                "no",
+                "Below the water table the block weighs less by the water it displaces.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest"])),
+            optional: true,
+            ..quantity(
+                "gravity_h",
+                "Gravity block height",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(0.05, 20.0),
+                "Empty: a cube.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])),
+            optional: true,
+            ..quantity(
+                "friction",
+                "Friction coefficient, block on soil (sliding check)",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(0.0, 1.5),
+                "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. \
+                With a typed soil and no value the sliding check cannot be made and the page says so.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("plane", &["vertical_crest", "vertical_sag"])),
+            optional: true,
+            ..quantity(
+                "sf_slide",
+                "Safety factor against sliding",
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(1.0, 10.0),
+                "Empty: 1.5.",
+            )
+        },
     ]);
     // The soil also gives the friction of the sliding check, so it is shown for
     // every plane (set here, apart from its declaration, which the unit work shares).
     if let Some(soil) = fields.iter_mut().find(|f| f.key == "soil") {
         soil.visible_when = None;
         soil.label = "Soil (allowable bearing, friction)";
-        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
+        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come \
+                from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
     }
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
         title: "Thrust restraint: design pressure and thrust block",
         group: crate::catalog::group::FITTINGS,
-        summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), and the bearing or gravity block that carries it.",
+        summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), \
+                and the bearing or gravity block that carries it.",
         fields,
         outputs: vec![
-            OutputSpec { key: "thrust", label: "Thrust on the restraint (at the design pressure)", kind: Q::Force, headline: true },
-            OutputSpec { key: "bearing_area", label: "Required bearing area", kind: Q::Area, headline: true },
-            OutputSpec { key: "block_volume", label: "Gravity block: concrete volume", kind: Q::ConcreteVolume, headline: true },
-            OutputSpec { key: "p_design", label: "Design pressure used", kind: Q::Pressure, headline: true },
-            OutputSpec { key: "thrust_angle", label: "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + upward)", kind: Q::Angle, headline: false },
-            OutputSpec { key: "thrust_h", label: "Horizontal component of the thrust", kind: Q::Force, headline: false },
-            OutputSpec { key: "thrust_v", label: "Vertical component of the thrust (+ up)", kind: Q::Force, headline: false },
-            OutputSpec { key: "area_d", label: "Diameter of the thrust area", kind: Q::Length, headline: false },
-            OutputSpec { key: "thrust_area", label: "Thrust area of the main end", kind: Q::Area, headline: false },
-            OutputSpec { key: "p_test", label: "Field test pressure", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "wave_speed", label: "Pressure wave speed", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "dp_surge", label: "Joukowsky surge rise ρ·a·ΔV", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "p_surge", label: "Working pressure plus surge", kind: Q::Pressure, headline: false },
-            OutputSpec { key: "sigma", label: "Allowable soil bearing used", kind: Q::SoilBearing, headline: false },
-            OutputSpec { key: "face_h", label: "Bearing face height", kind: Q::Length, headline: false },
-            OutputSpec { key: "face_w", label: "Bearing face width", kind: Q::Length, headline: false },
-            OutputSpec { key: "block_mass", label: "Gravity block: concrete mass", kind: Q::Mass, headline: false },
-            OutputSpec { key: "block_weight", label: "Gravity block: effective weight needed", kind: Q::Force, headline: false },
-            OutputSpec { key: "block_side", label: "Gravity block: plan side (square plan)", kind: Q::Length, headline: false },
-            OutputSpec { key: "sliding_sf", label: "Factor of safety against sliding", kind: Q::Ratio, headline: true },
-            OutputSpec { key: "friction", label: "Friction coefficient used for sliding", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "side_bearing_area", label: "Sag block: bearing area against the trench wall for the horizontal thrust", kind: Q::Area, headline: false },
-            OutputSpec { key: "mdp", label: "Maximum design pressure MDP (EN 805)", kind: Q::Pressure, headline: false },
+            OutputSpec::headline("thrust", "Thrust on the restraint (at the design pressure)", Q::Force),
+            OutputSpec::headline("bearing_area", "Required bearing area", Q::Area),
+            OutputSpec::headline("block_volume", "Gravity block: concrete volume", Q::ConcreteVolume),
+            OutputSpec::headline("p_design", "Design pressure used", Q::Pressure),
+            OutputSpec::listed(
+                "thrust_angle",
+                "Direction of the thrust from the inlet flow direction (plan: + to the left; elevation: + \
+                    upward)",
+                Q::Angle,
+            ),
+            OutputSpec::listed("thrust_h", "Horizontal component of the thrust", Q::Force),
+            OutputSpec::listed("thrust_v", "Vertical component of the thrust (+ up)", Q::Force),
+            OutputSpec::listed("area_d", "Diameter of the thrust area", Q::Length),
+            OutputSpec::listed("thrust_area", "Thrust area of the main end", Q::Area),
+            OutputSpec::listed("p_test", "Field test pressure", Q::Pressure),
+            OutputSpec::listed("wave_speed", "Pressure wave speed", Q::Velocity),
+            OutputSpec::listed("dp_surge", "Joukowsky surge rise ρ·a·ΔV", Q::Pressure),
+            OutputSpec::listed("p_surge", "Working pressure plus surge", Q::Pressure),
+            OutputSpec::listed("sigma", "Allowable soil bearing used", Q::SoilBearing),
+            OutputSpec::listed("face_h", "Bearing face height", Q::Length),
+            OutputSpec::listed("face_w", "Bearing face width", Q::Length),
+            OutputSpec::listed("block_mass", "Gravity block: concrete mass", Q::Mass),
+            OutputSpec::listed("block_weight", "Gravity block: effective weight needed", Q::Force),
+            OutputSpec::listed("block_side", "Gravity block: plan side (square plan)", Q::Length),
+            OutputSpec::headline("sliding_sf", "Factor of safety against sliding", Q::Ratio),
+            OutputSpec::listed("friction", "Friction coefficient used for sliding", Q::Ratio),
+            OutputSpec::listed(
+                "side_bearing_area",
+                "Sag block: bearing area against the trench wall for the horizontal thrust",
+                Q::Area,
+            ),
+            OutputSpec::listed("mdp", "Maximum design pressure MDP (EN 805)", Q::Pressure),
         ],
         cautions: vec![
-            "Design to the highest pressure the line will see: the field test pressure and surge usually exceed the operating pressure.",
-            "Allowable soil bearing must have a geotechnical basis; published tables differ by up to about 4× for the same soil name. Pour the block against undisturbed ground, and keep later excavation from undermining it or removing the soil behind it.",
-            "This sizes the bearing area only: the concrete's reinforcement, the block's own stability and any restrained-joint alternative are for the responsible engineer and the local codes.",
+            "Design to the highest pressure the line will see: the field test pressure and surge \
+                    usually exceed the operating pressure.",
+            "Allowable soil bearing must have a geotechnical basis; published tables differ by up to \
+                    about 4× for the same soil name. Pour the block against undisturbed ground, and keep \
+                    later excavation from undermining it or removing the soil behind it.",
+            "This sizes the bearing area only: the concrete's reinforcement, the block's own stability \
+                    and any restrained-joint alternative are for the responsible engineer and the local \
+                    codes.",
         ],
     }
 }
 
 /// The registered entry point: read the values once, solve the pure model, report.
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = model::read(values)?;
-    let solved = model::solve(&inputs)?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write(values, report, model::read, model::solve, report::write)
 }
 
 #[cfg(test)]
 mod tests {
-    use crate::catalog::Request;
     use crate::units::UnitSystem;
     use approx::assert_relative_eq;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&super::spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> crate::catalog::Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
-
-    fn error_field(pairs: &[(&str, &str)]) -> String {
-        crate::calculators::testing::error_field(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
     fn field_keys_are_unique() {
@@ -278,7 +671,7 @@ mod tests {
     fn demo_matches_the_method_note_worked_example() {
         // site/notes/thrust-block.md works the demo by hand: surge governs at about
         // 10.69 bar, T ≈ 72.3 kN, bearing area ≈ 0.755 m² (rounded figures).
-        let s = solve(&[]);
+        let s = solved(&[]);
         let get = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
         assert_relative_eq!(get("p_design"), 10.69e5, max_relative = 2e-3);
         assert_relative_eq!(get("thrust"), 72.3e3, max_relative = 2e-3);
@@ -288,7 +681,7 @@ mod tests {
     #[test]
     fn bend_thrust_on_outside_diameter_matches_static_formula() {
         // Derived from the definition: T = 2 p A sin(θ/2), A on the OD for push-on joints.
-        let s = solve(&[
+        let s = solved(&[
             ("fitting", "bend"),
             ("angle", "90 deg"),
             ("size", "custom"),
@@ -312,7 +705,7 @@ mod tests {
 
     #[test]
     fn crest_needs_a_gravity_block_and_sag_bears_down() {
-        let crest = solve(&[
+        let crest = solved(&[
             ("plane", "vertical_crest"),
             ("angle", "45 deg"),
             ("p_basis", "operating"),
@@ -320,7 +713,7 @@ mod tests {
         let tv = crest.output("thrust_v").map(|o| o.si).unwrap_or(0.0);
         assert!(tv > 0.0);
         assert!(crest.output("block_volume").is_some());
-        let sag = solve(&[("plane", "vertical_sag"), ("angle", "45 deg"), ("p_basis", "operating")]);
+        let sag = solved(&[("plane", "vertical_sag"), ("angle", "45 deg"), ("p_basis", "operating")]);
         assert!(sag.output("thrust_v").map(|o| o.si).unwrap_or(0.0) < 0.0);
         assert!(sag.output("bearing_area").is_some());
     }
@@ -328,7 +721,7 @@ mod tests {
     #[test]
     fn a_given_inclined_thrust_bears_with_its_horizontal_part() {
         // Derived from the definition: T_h = T cos 30°, A_b = SF·T_h/σ.
-        let s = solve(&[
+        let s = solved(&[
             ("fitting", "force"),
             ("thrust", "10 kN"),
             ("thrust_elev", "30 deg"),
@@ -386,7 +779,7 @@ mod tests {
 
     #[test]
     fn an_unchecked_sliding_mode_is_said_not_silent() {
-        let s = solve(&[
+        let s = solved(&[
             ("plane", "vertical_crest"),
             ("legs", "one_level"),
             ("soil", "custom"),
@@ -402,7 +795,7 @@ mod tests {
             s.warnings
         );
         // A typed coefficient overrides the soil's.
-        let s = solve(&[
+        let s = solved(&[
             ("plane", "vertical_crest"),
             ("legs", "one_level"),
             ("soil", "nfpa24_sand"),
@@ -411,7 +804,7 @@ mod tests {
         ]);
         assert_relative_eq!(s.output("friction").unwrap().si, 0.5);
         // Both legs sloped: no horizontal thrust, nothing to slide, no warning.
-        let s = solve(&[
+        let s = solved(&[
             ("plane", "vertical_sag"),
             ("legs", "symmetric"),
             ("p_basis", "operating"),
@@ -426,7 +819,7 @@ mod tests {
 
     #[test]
     fn the_wave_speed_material_follows_the_size_preset() {
-        let get = |pairs: &[(&str, &str)]| solve(pairs).output("wave_speed").map(|o| o.si).unwrap_or(f64::NAN);
+        let get = |pairs: &[(&str, &str)]| solved(pairs).output("wave_speed").map(|o| o.si).unwrap_or(f64::NAN);
         let base = [("p_basis", "surge"), ("dv", "0.5 m/s"), ("size", "c900dr18_8")];
         let preset = get(&[base[0], base[1], base[2], ("material", "from_size")]);
         let pvc = get(&[base[0], base[1], base[2], ("material", "pvc")]);
@@ -447,7 +840,7 @@ mod tests {
 
     #[test]
     fn highest_basis_takes_the_largest_candidate() {
-        let s = solve(&[
+        let s = solved(&[
             ("p_basis", "highest"),
             ("test_rule", "nfpa24"),
             ("p", "100 psi"),

@@ -42,7 +42,12 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         report.warn(Some("p"), "with zero pressure there is no thrust to restrain");
     }
     if given_force && plane == Plane::Sag {
-        report.warn(None, "the block is sized as a sag block: its bearing face lies below the pipe and takes the thrust downward. A horizontal bend's thrust is horizontal (the fluid's weight is carried by the bedding); choose the horizontal plane unless the fitting really turns upward in a vertical plane");
+        report.warn(
+            None,
+            "the block is sized as a sag block: its bearing face lies below the pipe and takes the thrust \
+                downward. A horizontal bend's thrust is horizontal (the fluid's weight is carried by the bedding); \
+                choose the horizontal plane unless the fitting really turns upward in a vertical plane",
+        );
     }
     block_report(inputs, solved, report);
     if let Some(f) = &solved.fitting {
@@ -87,11 +92,16 @@ fn pressure_outputs(report: &mut Report<'_>, pr: &Pressures) {
     if pr.basis == PressureBasis::Operating {
         report.warn(
             Some("p_basis"),
-            "designing on the operating pressure alone: the field test and any surge will load the block harder",
+            "designing on the operating pressure alone: the field test and any surge will load the block \
+                    harder",
         );
     }
     if pr.basis == PressureBasis::Highest && pr.surge.is_none() {
-        report.warn(Some("dv"), "no surge estimate: the highest pressure here omits surge; give the velocity change or check transients separately");
+        report.warn(
+            Some("dv"),
+            "no surge estimate: the highest pressure here omits surge; give the velocity change or check \
+                transients separately",
+        );
     }
 }
 
@@ -117,11 +127,21 @@ fn block_report(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             if let (Plane::Horizontal, Some(od)) = (plane, inputs.main_od) {
                 if *h < od {
                     let text = report.fmt(od, Q::Length);
-                    report.warn(Some("block_h"), format!("the bearing face is lower than the pipe's outside diameter ({text}): make it at least as tall as the pipe, centred on the thrust line"));
+                    report.warn(
+                        Some("block_h"),
+                        format!(
+                            "the bearing face is lower than the pipe's outside diameter ({text}): make it at least as \
+                            tall as the pipe, centred on the thrust line"
+                        ),
+                    );
                 }
             }
             if plane == Plane::Horizontal && t_v.abs() > 1e-9 * thrust.max(1.0) {
-                report.warn(Some("plane"), "the given thrust has a vertical component; only the horizontal part is carried by the bearing face");
+                report.warn(
+                    Some("plane"),
+                    "the given thrust has a vertical component; only the horizontal part is carried by the bearing \
+                        face",
+                );
             }
             if let Some((side_area, sliding)) = side {
                 report.output("side_bearing_area", *side_area);
@@ -137,7 +157,11 @@ fn block_report(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             gravity, side, sliding, ..
         } => {
             if t_v <= 0.0 {
-                report.warn(Some("plane"), "the thrust has no upward component: a gravity block is not what holds it; choose a horizontal or sag block");
+                report.warn(
+                    Some("plane"),
+                    "the thrust has no upward component: a gravity block is not what holds it; choose a horizontal \
+                        or sag block",
+                );
             }
             report.output("block_weight", gravity.weight);
             report.output("block_volume", gravity.volume);
@@ -152,7 +176,11 @@ fn block_report(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 );
             }
             if inputs.block.submerged {
-                report.warn(Some("submerged"), "below groundwater the block's effective weight uses γ_c − γ_w; check the highest groundwater level, not today's");
+                report.warn(
+                    Some("submerged"),
+                    "below groundwater the block's effective weight uses γ_c − γ_w; check the highest groundwater \
+                        level, not today's",
+                );
             }
         }
     }
@@ -205,7 +233,14 @@ fn sliding_check(report: &mut Report<'_>, sliding: &Sliding, formula: &str, reme
                 );
             }
         }
-        _ => report.warn(None, format!("sliding is NOT checked: the thrust has a horizontal part of {} and the chosen soil gives no friction coefficient; type one (concrete on soil) to check it, or {remedy}", report.fmt(sliding.t_h, Q::Force))),
+        _ => report.warn(
+            None,
+            format!(
+                "sliding is NOT checked: the thrust has a horizontal part of {} and the chosen soil gives no friction \
+                coefficient; type one (concrete on soil) to check it, or {remedy}",
+                report.fmt(sliding.t_h, Q::Force)
+            ),
+        ),
     }
 }
 

@@ -12,7 +12,7 @@ use super::model::{exit_point, Vane, VaneKind, VaneState};
 
 /// The jet, the vane and its exit triangle, the control volume and the force.
 pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report: &Report<'_>) -> Diagram {
-    let d = jet.diameter;
+    let d = jet.diameter.value;
     let radius = 2.5 * d;
     let center = [0.0, radius];
     let (a0, a1) = (-PI / 2.0, -PI / 2.0 + vane.theta);
@@ -68,7 +68,7 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         style: ShapeStyle::ControlVolume,
     });
     // Velocities: the jet, the blade, and the exit triangle V₂ = W₂ + u.
-    let v = jet.velocity;
+    let v = jet.velocity.value;
     let scale = if v > 0.0 { 4.0 * d / v } else { 0.0 };
     let fmt_v = |x: f64| report.fmt(x, Q::Velocity);
     shapes.push(Shape::Arrow {
@@ -174,6 +174,11 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         title: "Jet on a vane: control volume, velocities and force".to_string(),
         bounds,
         shapes,
-        caption: "Schematic: the jet and vane are drawn to scale with the jet diameter, the vane's radius is not. Velocity arrows share one scale (the jet speed V), except the exit triangle beside the vane, drawn at twice that scale: the relative velocity W₂ plus the blade speed u gives the absolute velocity V₂ of the water leaving. The force arrow is the force of the water on the vane; the mounting or the shaft supplies the opposite.".to_string(),
+        caption: "Schematic: the jet and vane are drawn to scale with the jet diameter, the vane's radius is not. \
+                Velocity arrows share one scale (the jet speed V), except the exit triangle beside the vane, drawn at \
+                twice that scale: the relative velocity W₂ plus the blade speed u gives the absolute velocity V₂ of \
+                the water leaving. The force arrow is the force of the water on the vane; the mounting or the shaft \
+                supplies the opposite."
+            .to_string(),
     }
 }

@@ -100,7 +100,8 @@ pub fn spec() -> CalculatorSpec {
             "Vane",
             VANE_OPTIONS,
             "wheel",
-            "A fixed vane; a single vane moving away from the jet (only the water that catches up with it is turned); or a wheel, where one vane follows another and the whole jet is turned.",
+            "A fixed vane; a single vane moving away from the jet (only the water that catches up with it is \
+                    turned); or a wheel, where one vane follows another and the whole jet is turned.",
         ),
         FieldSpec {
             // Required while shown (a single vane or a wheel); hidden for a fixed vane.
@@ -113,7 +114,8 @@ pub fn spec() -> CalculatorSpec {
                 "ft/s",
                 "16 m/s",
                 Limits::closed(0.0, common::MAX_JET_SPEED),
-                "Speed of the vane along the jet, away from the nozzle. For a wheel: the bucket speed at the jet's line, ω·r. A single vane must move slower than the jet.",
+                "Speed of the vane along the jet, away from the nozzle. For a wheel: the bucket speed at the \
+                        jet's line, ω·r. A single vane must move slower than the jet.",
             )
         },
         quantity(
@@ -124,7 +126,8 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "165 deg",
             Limits::closed(PI / 180.0, PI),
-            "How far the vane turns the flow relative to itself, 1 to 180 degrees (straight back). Impulse buckets turn about 160 to 170 degrees.",
+            "How far the vane turns the flow relative to itself, 1 to 180 degrees (straight back). Impulse \
+                    buckets turn about 160 to 170 degrees.",
         ),
         FieldSpec {
             optional: true,
@@ -136,7 +139,8 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "0.9",
                 Limits::closed(MIN_K, 1.0),
-                "Relative speed leaving the vane over relative speed entering it, 0.05 to 1; 1 for a smooth vane (empty means 1). Friction makes it less than 1.",
+                "Relative speed leaving the vane over relative speed entering it, 0.05 to 1; 1 for a smooth \
+                        vane (empty means 1). Friction makes it less than 1.",
             )
         },
     ];
@@ -148,37 +152,61 @@ pub fn spec() -> CalculatorSpec {
         key: KEY,
         title: "Jet on a curved vane: fixed, moving, wheel",
         group: crate::catalog::group::JETS_AND_ROTORS,
-        summary: "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with power and efficiency against blade speed.",
+        summary:
+            "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with \
+                power and efficiency against blade speed.",
         fields,
         outputs: vec![
-            OutputSpec { key: "force_x", label: "Force on the vane along the jet (x)", kind: Q::Force, headline: true },
-            OutputSpec { key: "power", label: "Power delivered to the vane(s), F_x·u", kind: Q::Power, headline: true },
-            OutputSpec { key: "efficiency", label: "Efficiency: power ÷ jet kinetic-energy flux", kind: Q::Ratio, headline: true },
-            OutputSpec { key: "force_y", label: "Force on the vane across the jet (y, positive towards the side the water is turned to)", kind: Q::Force, headline: false },
-            OutputSpec { key: "force_side", label: "Side force on the vane, away from the side the water is turned to", kind: Q::Force, headline: false },
-            OutputSpec { key: "force", label: "Resultant force on the vane", kind: Q::Force, headline: false },
-            OutputSpec { key: "mass_flow_turned", label: "Mass flow turned by the vane(s)", kind: Q::MassFlow, headline: false },
-            OutputSpec { key: "w_in", label: "Relative velocity entering the vane, W₁ = V − u", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "w_out", label: "Relative velocity leaving the vane, W₂ = k·W₁", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out", label: "Absolute velocity of the water leaving, |V₂|", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "v_out_angle", label: "Direction of V₂, from the jet direction", kind: Q::Angle, headline: false },
-            OutputSpec { key: "head_loss", label: "Loss on the vane, (1 − k²)·W₁²/2g", kind: Q::Length, headline: false },
-            OutputSpec { key: "jet_velocity", label: "Jet velocity V", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "jet_flow", label: "Jet flow Q", kind: Q::VolumeFlow, headline: false },
-            OutputSpec { key: "jet_power", label: "Jet kinetic-energy flux ρQV²/2", kind: Q::Power, headline: false },
-            OutputSpec { key: "u_best_single", label: "Single vane: blade speed of peak power (searched)", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "power_best_single", label: "Single vane: peak power", kind: Q::Power, headline: false },
-            OutputSpec { key: "efficiency_best_single", label: "Single vane: peak efficiency", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "u_best_wheel", label: "Wheel: blade speed of peak power (searched)", kind: Q::Velocity, headline: false },
-            OutputSpec { key: "power_best_wheel", label: "Wheel: peak power", kind: Q::Power, headline: false },
-            OutputSpec { key: "efficiency_best_wheel", label: "Wheel: peak efficiency", kind: Q::Ratio, headline: false },
-            OutputSpec { key: "density", label: "Fluid density", kind: Q::Density, headline: false },
+            OutputSpec::headline("force_x", "Force on the vane along the jet (x)", Q::Force),
+            OutputSpec::headline("power", "Power delivered to the vane(s), F_x·u", Q::Power),
+            OutputSpec::headline("efficiency", "Efficiency: power ÷ jet kinetic-energy flux", Q::Ratio),
+            OutputSpec::listed(
+                "force_y",
+                "Force on the vane across the jet (y, positive towards the side the water is turned to)",
+                Q::Force,
+            ),
+            OutputSpec::listed(
+                "force_side",
+                "Side force on the vane, away from the side the water is turned to",
+                Q::Force,
+            ),
+            OutputSpec::listed("force", "Resultant force on the vane", Q::Force),
+            OutputSpec::listed("mass_flow_turned", "Mass flow turned by the vane(s)", Q::MassFlow),
+            OutputSpec::listed("w_in", "Relative velocity entering the vane, W₁ = V − u", Q::Velocity),
+            OutputSpec::listed("w_out", "Relative velocity leaving the vane, W₂ = k·W₁", Q::Velocity),
+            OutputSpec::listed("v_out", "Absolute velocity of the water leaving, |V₂|", Q::Velocity),
+            OutputSpec::listed("v_out_angle", "Direction of V₂, from the jet direction", Q::Angle),
+            OutputSpec::listed("head_loss", "Loss on the vane, (1 − k²)·W₁²/2g", Q::Length),
+            OutputSpec::listed("jet_velocity", "Jet velocity V", Q::Velocity),
+            OutputSpec::listed("jet_flow", "Jet flow Q", Q::VolumeFlow),
+            OutputSpec::listed("jet_power", "Jet kinetic-energy flux ρQV²/2", Q::Power),
+            OutputSpec::listed(
+                "u_best_single",
+                "Single vane: blade speed of peak power (searched)",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("power_best_single", "Single vane: peak power", Q::Power),
+            OutputSpec::listed("efficiency_best_single", "Single vane: peak efficiency", Q::Ratio),
+            OutputSpec::listed(
+                "u_best_wheel",
+                "Wheel: blade speed of peak power (searched)",
+                Q::Velocity,
+            ),
+            OutputSpec::listed("power_best_wheel", "Wheel: peak power", Q::Power),
+            OutputSpec::listed("efficiency_best_wheel", "Wheel: peak efficiency", Q::Ratio),
+            OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
-            "Idealised jet: no spreading, windage, spray or splash, and the jet's weight neglected. Real vanes and buckets lose more than the factor k suggests (friction, windage, interference between buckets, water leaving at an angle): treat power and efficiency as upper bounds.",
-            "Anything that spins needs guards and overspeed protection. An unloaded wheel runs up towards the jet speed at the buckets (runaway); check the runner, bearings and coupling for runaway speed and keep people clear of the jet and the wheel.",
-            "A single vane on a carriage (a test rig) needs end stops that hold the full fixed-vane force: held still, the vane takes the most force.",
-            "Defer to the machine manufacturer's ratings and to a licensed engineer for the vane, wheel, housing and foundations.",
+            "Idealised jet: no spreading, windage, spray or splash, and the jet's weight neglected. Real vanes \
+                    and buckets lose more than the factor k suggests (friction, windage, interference between \
+                    buckets, water leaving at an angle): treat power and efficiency as upper bounds.",
+            "Anything that spins needs guards and overspeed protection. An unloaded wheel runs up towards the \
+                    jet speed at the buckets (runaway); check the runner, bearings and coupling for runaway speed and \
+                    keep people clear of the jet and the wheel.",
+            "A single vane on a carriage (a test rig) needs end stops that hold the full fixed-vane force: \
+                    held still, the vane takes the most force.",
+            "Defer to the machine manufacturer's ratings and to a licensed engineer for the vane, wheel, \
+                    housing and foundations.",
         ],
     }
 }
@@ -222,39 +250,23 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
-    let inputs = read(values)?;
-    let solved = model::solve(&inputs).map_err(|e| report::refusal(e, report))?;
-    report::write(&inputs, &solved, report);
-    Ok(())
+    super::read_solve_write_refusing(values, report, read, model::solve, report::refusal, report::write)
 }
 
 #[cfg(test)]
 mod tests {
     use super::model::*;
     use super::*;
-    use crate::catalog::{Request, Solution};
+    use crate::catalog::Solution;
     use crate::fluid::Fluid;
     use crate::units::STANDARD_GRAVITY;
     use approx::assert_relative_eq;
     use common::Jet;
 
-    fn request(pairs: &[(&str, &str)]) -> Request {
-        crate::catalog::demo_request(&super::spec(), pairs)
-    }
-
-    fn solve(pairs: &[(&str, &str)]) -> Solution {
-        crate::calculators::testing::solved(super::KEY, pairs)
-    }
+    crate::calculators::testing::page_helpers!(super::KEY);
 
     fn out(s: &Solution, key: &str) -> f64 {
         s.output(key).map(|o| o.si).unwrap_or(f64::NAN)
-    }
-
-    fn error_of(pairs: &[(&str, &str)]) -> (String, String) {
-        match crate::solve(super::KEY, &request(pairs)).result {
-            Err(crate::SolveError::Fields(errors)) => (errors[0].field.clone(), errors[0].kind.to_string()),
-            other => panic!("expected a field error, got {other:?}"),
-        }
     }
 
     const BASE: &[(&str, &str)] = &[
@@ -282,13 +294,7 @@ mod tests {
     }
 
     fn jet() -> Jet {
-        let area = PI * 0.05 * 0.05 / 4.0;
-        Jet {
-            diameter: 0.05,
-            area,
-            velocity: 30.0,
-            flow: 30.0 * area,
-        }
+        Jet::from_si(0.05, 30.0)
     }
 
     #[test]
@@ -306,7 +312,7 @@ mod tests {
             Ok(s) => s,
             Err(e) => panic!("{e}"),
         };
-        let m = 1000.0 * jet().area * (v - u);
+        let m = 1000.0 * jet().area.value * (v - u);
         assert_relative_eq!(
             s.force.x,
             m * (v - u) * (1.0 - 0.85 * 2.0f64.cos()),
@@ -344,7 +350,7 @@ mod tests {
             // Euler (F_x·u) and energy (jet flux − carried off − vane loss) agree for
             // the wheel.
             let j = jet();
-            let m = 1000.0 * j.flow;
+            let m = 1000.0 * j.flow.value;
             let from_energy = 0.5 * m * 30.0 * 30.0
                 - 0.5 * m * wheel.v_out.dot(wheel.v_out)
                 - 0.5 * m * (1.0 - k * k) * (30.0 - u) * (30.0 - u);
@@ -355,7 +361,7 @@ mod tests {
     #[test]
     fn searched_optima_are_at_a_third_and_a_half_of_the_jet_speed() {
         // Derived from the definition: d/du[(V − u)²u] = 0 at u = V/3; d/du[(V − u)u] = 0 at V/2.
-        let s = solve(&with(&[
+        let s = solved(&with(&[
             ("vane", "single"),
             ("u", "10 m/s"),
             ("angle", "180 deg"),
@@ -384,7 +390,7 @@ mod tests {
     #[test]
     fn force_and_power_agree_with_the_independent_paths_in_every_mode() {
         for mode in ["fixed", "single", "wheel"] {
-            let s = solve(&with(&[
+            let s = solved(&with(&[
                 ("vane", mode),
                 ("u", "12 m/s"),
                 ("angle", "150 deg"),
@@ -405,7 +411,7 @@ mod tests {
             assert!(!energy.rows.iter().any(|r| r[0].contains("residual")));
         }
         // Turned straight back the side force is 0, not 1e-16 of the flux.
-        let back = solve(&with(&[("vane", "fixed"), ("angle", "180 deg"), ("w_ratio", "1")]));
+        let back = solved(&with(&[("vane", "fixed"), ("angle", "180 deg"), ("w_ratio", "1")]));
         assert_eq!(out(&back, "force_y"), 0.0);
         // A fixed vane does no work: its efficiency is not applicable, and says why.
         assert!(back.output("efficiency").is_none());
@@ -417,50 +423,50 @@ mod tests {
 
     #[test]
     fn blade_speed_errors_and_meanings() {
-        let (field, message) = error_of(&with(&[("vane", "single"), ("u", "30 m/s")]));
+        let (field, message) = first_error(&with(&[("vane", "single"), ("u", "30 m/s")]));
         assert_eq!(field, "u");
         assert!(message.contains("less than the jet speed"), "{message}");
-        let (field, message) = error_of(&with(&[("vane", "wheel"), ("u", "31 m/s")]));
+        let (field, message) = first_error(&with(&[("vane", "wheel"), ("u", "31 m/s")]));
         assert_eq!(field, "u");
         assert!(message.contains("outrun"), "{message}");
-        let (field, _) = error_of(&with(&[("vane", "wheel"), ("u", "")]));
+        let (field, _) = first_error(&with(&[("vane", "wheel"), ("u", "")]));
         assert_eq!(field, "u");
-        assert_eq!(error_of(&with(&[("u", "-3 m/s")])).0, "u");
+        assert_eq!(first_error(&with(&[("u", "-3 m/s")])).0, "u");
         // At the jet speed the ideal wheel runs away: zero force, stated.
-        let s = solve(&with(&[("vane", "wheel"), ("u", "30 m/s")]));
+        let s = solved(&with(&[("vane", "wheel"), ("u", "30 m/s")]));
         assert!(out(&s, "force_x").abs() < 1e-9);
         assert!(s.warnings.iter().any(|w| w.message.contains("runaway")));
         // A fixed vane ignores the hidden blade speed.
-        let s = solve(&with(&[
+        let s = solved(&with(&[
             ("vane", "fixed"),
             ("u", "50 m/s"),
             ("angle", "180 deg"),
             ("w_ratio", "1"),
         ]));
-        let q = jet().flow;
+        let q = jet().flow.value;
         assert_relative_eq!(out(&s, "force_x"), 2.0 * 1000.0 * q * 30.0, max_relative = 1e-12);
     }
 
     #[test]
     fn bad_jet_inputs_name_their_field() {
-        let (field, message) = error_of(&with(&[("flow_given", "q"), ("q", "-2 L/s")]));
+        let (field, message) = first_error(&with(&[("flow_given", "q"), ("q", "-2 L/s")]));
         assert_eq!(field, "q");
         assert!(message.contains("at least"), "{message}");
-        assert_eq!(error_of(&with(&[("d_jet", "0 mm")])).0, "d_jet");
+        assert_eq!(first_error(&with(&[("d_jet", "0 mm")])).0, "d_jet");
         // A flow that would make a jet faster than 500 m/s names the flow field.
-        let (field, message) = error_of(&with(&[("flow_given", "q"), ("q", "90 m3/s")]));
+        let (field, message) = first_error(&with(&[("flow_given", "q"), ("q", "90 m3/s")]));
         assert_eq!(field, "q");
         assert!(message.contains("500 m/s"), "{message}");
         // The smallest k and deflection accepted are physical, not 5e-324.
-        assert_eq!(error_of(&with(&[("w_ratio", "1e-300")])).0, "w_ratio");
-        assert_eq!(error_of(&with(&[("angle", "1e-300 deg")])).0, "angle");
-        assert_eq!(error_of(&with(&[("w_ratio", "1.2")])).0, "w_ratio");
-        assert_eq!(error_of(&with(&[("angle", "0 deg")])).0, "angle");
+        assert_eq!(first_error(&with(&[("w_ratio", "1e-300")])).0, "w_ratio");
+        assert_eq!(first_error(&with(&[("angle", "1e-300 deg")])).0, "angle");
+        assert_eq!(first_error(&with(&[("w_ratio", "1.2")])).0, "w_ratio");
+        assert_eq!(first_error(&with(&[("angle", "0 deg")])).0, "angle");
     }
 
     #[test]
     fn demo_solves_with_plots_and_a_diagram() {
-        let s = solve(&[]);
+        let s = solved(&[]);
         assert_eq!(s.plots.len(), 2);
         assert!(s
             .plots

@@ -29,7 +29,7 @@ pub struct Inputs {
     pub u: Velocity,
     /// How the jet's speed was given.
     pub jet_given: JetGiven,
-    /// The free jet it gives (SI), range-checked by [`common::jet_from`].
+    /// The free jet it gives (typed), range-checked by [`common::jet_from`].
     pub jet: Jet,
     pub fluid: Fluid,
 }
@@ -87,7 +87,7 @@ impl From<FieldErrors> for Refusal {
 /// diameter.
 pub fn solve(inputs: &Inputs) -> Result<Solved, Refusal> {
     let (fluid, jet, vane) = (&inputs.fluid, &inputs.jet, inputs.vane());
-    let (u, v) = (inputs.u.value, jet.velocity);
+    let (u, v) = (inputs.u.value, jet.velocity.value);
     match inputs.kind {
         VaneKind::Single if u >= v => return Err(Refusal::VaneOutrunsJet { u, v }),
         VaneKind::Wheel if u > v => return Err(Refusal::WheelOutrunsJet { u, v }),
@@ -100,7 +100,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, Refusal> {
     let curve = |mode: VaneKind| -> Result<Vec<CurvePoint>, FieldErrors> {
         (0..PLOT_POINTS)
             .map(|i| {
-                let u = jet.velocity * i as f64 / (PLOT_POINTS - 1) as f64;
+                let u = jet.velocity.value * i as f64 / (PLOT_POINTS - 1) as f64;
                 let s = vane_balance(fluid, jet, &vane, mode, u).map_err(named)?;
                 Ok(CurvePoint {
                     u,
@@ -170,10 +170,10 @@ pub fn exit_point(vane: &Vane, radius: f64) -> Vec3 {
 /// # Errors
 /// An engine refusal.
 pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f64) -> Result<VaneState, EngineError> {
-    let v = jet.velocity;
+    let v = jet.velocity.value;
     let u = if mode == VaneKind::Fixed { 0.0 } else { u };
     let w1 = (v - u).max(0.0);
-    let radius = 2.5 * jet.diameter;
+    let radius = 2.5 * jet.diameter.value;
     let exit = exit_point(vane, radius);
     let exit_dir = vane.exit_direction();
     let w_out_vec = exit_dir * (vane.k * w1);
@@ -188,7 +188,7 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f6
                 },
             });
             let i = cv.port(
-                Port::inlet("jet at the vane", si::area(jet.area), Direction::X)
+                Port::inlet("jet at the vane", si::area(jet.area.value), Direction::X)
                     .velocity(si::velocity(w1))
                     .pressure(si::pressure(0.0)),
             );
@@ -197,7 +197,7 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f6
             let o = cv.port(
                 Port::outlet(
                     "water leaving the vane",
-                    si::area(jet.area / vane.k),
+                    si::area(jet.area.value / vane.k),
                     Direction::new(exit_dir).unwrap_or(Direction::X),
                 )
                 .pressure(si::pressure(0.0))
@@ -234,12 +234,12 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f6
                 .unwrap_or(Direction::X);
             let head_loss = (1.0 - vane.k * vane.k) * w1 * w1 / (2.0 * STANDARD_GRAVITY);
             let i = cv.port(
-                Port::inlet("jet", si::area(jet.area), Direction::X)
+                Port::inlet("jet", si::area(jet.area.value), Direction::X)
                     .velocity(si::velocity(v))
                     .pressure(si::pressure(0.0)),
             );
             let o = cv.port(
-                Port::outlet("water leaving the wheel", si::area(jet.flow / speed2), dir2)
+                Port::outlet("water leaving the wheel", si::area(jet.flow.value / speed2), dir2)
                     .pressure(si::pressure(0.0))
                     .at(exit),
             );
@@ -267,7 +267,7 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f6
         }
     };
     let power = state.force.x * u;
-    let jet_power = 0.5 * fluid.density * jet.flow * v * v;
+    let jet_power = 0.5 * fluid.density * jet.flow.value * v * v;
     Ok(VaneState {
         power,
         efficiency: if jet_power > 0.0 { power / jet_power } else { 0.0 },
@@ -279,6 +279,6 @@ pub fn vane_balance(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind, u: f6
 /// (power is zero at standstill and at the jet speed); returns the state there.
 pub fn best_speed(fluid: &Fluid, jet: &Jet, vane: &Vane, mode: VaneKind) -> Result<VaneState, EngineError> {
     let power = |u: f64| vane_balance(fluid, jet, vane, mode, u).map(|s| s.power);
-    let u = common::peak_of(0.0, jet.velocity, power)?;
+    let u = common::peak_of(0.0, jet.velocity.value, power)?;
     vane_balance(fluid, jet, vane, mode, u)
 }

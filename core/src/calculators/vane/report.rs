@@ -21,14 +21,21 @@ pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
             let (u_text, v_text) = texts(u, v);
             vec![FieldError::inconsistent(
                 "u",
-                format!("the blade speed ({u_text}) must be less than the jet speed ({v_text}): a single vane moving at or above the jet speed runs away from the jet and no water reaches it"),
+                format!(
+                    "the blade speed ({u_text}) must be less than the jet speed ({v_text}): a single vane moving \
+                        at or above the jet speed runs away from the jet and no water reaches it"
+                ),
             )]
         }
         Refusal::WheelOutrunsJet { u, v } => {
             let (u_text, v_text) = texts(u, v);
             vec![FieldError::inconsistent(
                 "u",
-                format!("the blade speed ({u_text}) is above the jet speed ({v_text}): the buckets would outrun the jet, which then strikes their backs and brakes the wheel; the jet cannot drive a wheel faster than the jet speed (its ideal runaway speed)"),
+                format!(
+                    "the blade speed ({u_text}) is above the jet speed ({v_text}): the buckets would outrun the \
+                        jet, which then strikes their backs and brakes the wheel; the jet cannot drive a wheel faster \
+                        than the jet speed (its ideal runaway speed)"
+                ),
             )]
         }
     }
@@ -38,9 +45,9 @@ pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
 pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     let (fluid, jet, vane, mode) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.kind);
     let (state, best_single, best_wheel) = (&solved.state, &solved.best_single, &solved.best_wheel);
-    let (u, v, theta) = (state.u, jet.velocity, vane.theta);
+    let (u, v, theta) = (state.u, jet.velocity.value, vane.theta);
     let rho = fluid.density;
-    let jet_power = 0.5 * rho * jet.flow * v * v;
+    let jet_power = 0.5 * rho * jet.flow.value * v * v;
     let w1 = state.w_in.norm();
     // A component that is rounding residue of the momentum flux turned (the side
     // force of a vane turning the flow straight back, sin 180° = 1.2e-16) is 0.
@@ -55,7 +62,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     match (mode, v - u <= 1e-9 * v) {
         (VaneKind::Fixed, _) => report.warn(
             None,
-            "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); choose a moving vane or a wheel",
+            "Efficiency: not applicable, a fixed vane does no work (there is no blade speed to take power at); \
+                    choose a moving vane or a wheel",
         ),
         (VaneKind::Wheel, true) => report.warn(
             Some("u"),
@@ -81,7 +89,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     }
     report.output("head_loss", state.head_loss);
     report.output("jet_velocity", v);
-    report.output("jet_flow", jet.flow);
+    report.output("jet_flow", jet.flow.value);
     report.output("jet_power", jet_power);
     report.output("u_best_single", best_single.u);
     report.output("power_best_single", best_single.power);
@@ -97,7 +105,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if mode == VaneKind::Wheel && v - u <= 1e-9 * v {
         report.warn(
             Some("u"),
-            "the blade speed equals the jet speed: this is the ideal wheel's runaway speed; no water is turned, no force acts and no power is delivered",
+            "the blade speed equals the jet speed: this is the ideal wheel's runaway speed; no water is \
+                    turned, no force acts and no power is delivered",
         );
     }
     if mode != VaneKind::Fixed && u == 0.0 {
@@ -109,7 +118,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if theta < PI / 2.0 {
         report.warn(
             Some("angle"),
-            "a vane that turns the flow less than 90 degrees sends the water on forward; impulse buckets turn it about 160 to 170 degrees",
+            "a vane that turns the flow less than 90 degrees sends the water on forward; impulse buckets turn \
+                    it about 160 to 170 degrees",
         );
     }
 
@@ -143,7 +153,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let (jet, vane, mode, rho) = (&inputs.jet, inputs.vane(), inputs.kind, inputs.fluid.density);
     let (state, best_single, best_wheel) = (&solved.state, &solved.best_single, &solved.best_wheel);
-    let (v, u, a) = (jet.velocity, state.u, jet.area);
+    let (v, u, a) = (jet.velocity.value, state.u, jet.area.value);
     let w1 = v - u;
     let turning = 1.0 - vane.k * vane.theta.cos();
     let mass = match mode {
@@ -159,7 +169,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
         1e-9,
         mass * w1 * 2.0,
     );
-    let jet_power = 0.5 * rho * jet.flow * v * v;
+    let jet_power = 0.5 * rho * jet.flow.value * v * v;
     let carried = 0.5 * mass * state.v_out.dot(state.v_out);
     let loss = 0.5 * mass * (1.0 - vane.k * vane.k) * w1 * w1;
     let lengthening = if mode == VaneKind::Single {
@@ -169,7 +179,8 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     };
     report.check(
         "Power delivered to the vane(s), F_x·u",
-        "energy balance: jet's kinetic-energy flux − kinetic energy carried off − loss on the vane ṁ(1 − k²)W₁²/2 (− the lengthening jet, single vane)",
+        "energy balance: jet's kinetic-energy flux − kinetic energy carried off − loss on the vane ṁ(1 − \
+                k²)W₁²/2 (− the lengthening jet, single vane)",
         Q::Power,
         state.power,
         jet_power - carried - loss - lengthening,
@@ -231,8 +242,8 @@ fn velocity_table(state: &VaneState, system: UnitSystem) -> Table {
 }
 
 fn energy_table(state: &VaneState, mode: VaneKind, jet: &Jet, rho: f64, system: UnitSystem) -> Table {
-    let v = jet.velocity;
-    let jet_power = 0.5 * rho * jet.flow * v * v;
+    let v = jet.velocity.value;
+    let jet_power = 0.5 * rho * jet.flow.value * v * v;
     let unit = units::display_unit(jet_power.max(1e-12), Q::Power, system).id;
     let f = |x: f64| fmt_in(x, Q::Power, unit);
     let carried = 0.5 * state.mass_turned * state.v_out.dot(state.v_out);
@@ -245,7 +256,7 @@ fn energy_table(state: &VaneState, mode: VaneKind, jet: &Jet, rho: f64, system: 
     ];
     if mode == VaneKind::Single {
         // The jet between nozzle and vane grows by u every second: ρA·u of jet at V.
-        let lengthening = 0.5 * rho * jet.area * state.u * v * v;
+        let lengthening = 0.5 * rho * jet.area.value * state.u * v * v;
         rows.push(vec![
             "kinetic energy of the lengthening jet, ρAu·V²/2".to_string(),
             f(lengthening),
@@ -261,9 +272,9 @@ fn energy_table(state: &VaneState, mode: VaneKind, jet: &Jet, rho: f64, system: 
 }
 
 fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &VaneState, system: UnitSystem) -> Table {
-    let v = jet.velocity;
+    let v = jet.velocity.value;
     let c = 1.0 - vane.k * vane.theta.cos();
-    let rav3 = rho * jet.area * v * v * v;
+    let rav3 = rho * jet.area.value * v * v * v;
     let speed_unit = units::display_unit(1.0, Q::Velocity, system).id;
     let power_unit = units::display_unit((0.25 * rav3 * c).max(1e-12), Q::Power, system).id;
     let s = |x: f64| fmt_in(x, Q::Velocity, speed_unit);
@@ -308,7 +319,7 @@ fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &V
 
 fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
     let (mode, jet, vane) = (inputs.kind, &inputs.jet, inputs.vane());
-    let speed = report.fmt(jet.velocity, Q::Velocity);
+    let speed = report.fmt(jet.velocity.value, Q::Velocity);
     let cv = |cv: uom::si::f64::Ratio| units::format_significant(cv.value, 4);
     let how = match inputs.jet_given {
         JetGiven::Flow(_) => format!("V = Q/A = {speed}"),
@@ -320,7 +331,8 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
         VaneKind::Fixed => "fixed control volume around the vane; ṁ = ρAV",
         VaneKind::Single => "control volume moving with the vane at u (relative velocities); ṁ = ρA(V − u)",
         VaneKind::Wheel => {
-            "fixed control volume around the wheel (absolute velocities from the exit triangle); ṁ = ρAV, the whole jet"
+            "fixed control volume around the wheel (absolute velocities from the exit triangle); ṁ = ρAV, the \
+                    whole jet"
         }
     };
     common::basis_table(vec![
@@ -340,7 +352,8 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
         ),
         (
             "Force reported",
-            "force the water puts on the vane; the vane's mounting (or the wheel's shaft) supplies the opposite"
+            "force the water puts on the vane; the vane's mounting (or the wheel's shaft) supplies the \
+                    opposite"
                 .to_string(),
         ),
     ])
@@ -349,9 +362,9 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
 /// Power and efficiency against blade speed, from the balances of the solved curves.
 fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
     let (fluid, jet, vane, mode, state) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.kind, &solved.state);
-    let v = jet.velocity;
+    let v = jet.velocity.value;
     let c = 1.0 - vane.k * vane.theta.cos();
-    let rav3 = fluid.density * jet.area * v * v * v;
+    let rav3 = fluid.density * jet.area.value * v * v * v;
     let speed_unit = units::display_unit(1.0, Q::Velocity, system);
     let power_unit = units::display_unit((0.25 * rav3 * c).max(1e-12), Q::Power, system);
     let sx = |u: f64| units::convert_to(u, Q::Velocity, speed_unit.id).unwrap_or(u);
