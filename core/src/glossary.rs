@@ -134,7 +134,10 @@ pub const TERMS: &[Term] = &[
     term("p_test", "typed field test pressure"),
     term("dv", "velocity change of a sudden stop (surge)"),
     term("dp_surge", "surge allowance above the working pressure"),
-    term("wave_speed", "typed pressure-wave speed in the liquid-filled pipe (empty: computed)"),
+    term(
+        "wave_speed",
+        "typed pressure-wave speed in the liquid-filled pipe (empty: computed)",
+    ),
     term("length", "pipe length from a closing valve to the reflecting boundary"),
     term("closure_time", "effective closure time of a valve"),
     term("run_length", "length of a straight run between two elbows"),

@@ -131,7 +131,7 @@ pub fn spec() -> CalculatorSpec {
         choice(
             "joint",
             "Joints at the closing valve or dead end",
-            crate::calculators::thrust_block::JOINT_OPTIONS,
+            Joint::OPTIONS,
             Joint::Flanged.key(),
             JOINT_HELP,
         ),
