@@ -145,6 +145,17 @@ fn every_case_agrees_in_the_browser_links_open_their_page_and_it_works_offline()
     )
     .unwrap_or_else(|e| panic!("the service worker did not activate after a visit to verify.html: {e}"));
     follow_link(&mut browser, &page, case);
+    // Offline after one visit means: this page is controlled by the worker and the
+    // worker holds the verification page (a worker updated by the visit to the
+    // calculator page may still be installing: wait for it to take over).
+    page.wait_for(
+        &mut browser,
+        "navigator.serviceWorker.ready.then(r => !!navigator.serviceWorker.controller && !r.installing && !r.waiting \
+         && caches.keys().then(keys => Promise.all(keys.map(k => caches.open(k).then(c => c.match('verify.html', { ignoreSearch: true })))))\
+         .then(found => found.some(Boolean)))",
+        Duration::from_secs(60),
+    )
+    .unwrap_or_else(|e| panic!("the service worker does not hold verify.html after a visit: {e}"));
 
     server.stop();
     let probe = page
