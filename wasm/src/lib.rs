@@ -35,6 +35,7 @@
 //! `None` becomes `null` and maps become plain objects.
 
 pub mod csv;
+pub mod qr;
 pub mod verify;
 pub mod view;
 
@@ -140,4 +141,29 @@ pub fn table_csv(columns: JsValue, rows: JsValue) -> Result<String, JsError> {
     let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
         .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
     Ok(csv::table(&columns, &rows))
+}
+
+/// The CSV text of a table after a header block (`header`: an array of arrays of
+/// strings, one line each), every cell neutralised ([`csv::traced`]).
+///
+/// # Errors
+/// Throws only when the arguments are not arrays of strings.
+#[wasm_bindgen]
+pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Result<String, JsError> {
+    let header: Vec<Vec<String>> = serde_wasm_bindgen::from_value(header)
+        .map_err(|e| adapter_error("`header` must be an array of arrays of strings", e))?;
+    let columns: Vec<String> = serde_wasm_bindgen::from_value(columns)
+        .map_err(|e| adapter_error("`columns` must be an array of strings", e))?;
+    let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
+        .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
+    Ok(csv::traced(&header, &columns, &rows))
+}
+
+/// The QR symbol of `text` ([`qr::QrView`]): `{ok, size, path, message}`.
+///
+/// # Errors
+/// Throws only when the result cannot be converted.
+#[wasm_bindgen]
+pub fn qr_code(text: &str) -> Result<JsValue, JsError> {
+    to_js(&qr::qr_view(text))
 }
