@@ -167,3 +167,21 @@ pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Res
 pub fn qr_code(text: &str) -> Result<JsValue, JsError> {
     to_js(&qr::qr_view(text))
 }
+
+#[derive(Serialize)]
+struct SheetFieldsView {
+    fields: Vec<(&'static str, &'static str)>,
+    max_pins: usize,
+}
+
+/// The page-level keys of the calculation sheet and the pin limit, from the glossary.
+///
+/// # Errors
+/// Throws only when the result cannot be converted.
+#[wasm_bindgen]
+pub fn sheet_fields() -> Result<JsValue, JsError> {
+    to_js(&SheetFieldsView {
+        fields: fluxledger_core::glossary::SHEET_KEYS.to_vec(),
+        max_pins: fluxledger_core::glossary::MAX_PINS,
+    })
+}
