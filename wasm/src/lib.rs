@@ -34,6 +34,7 @@
 //! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()`, so
 //! `None` becomes `null` and maps become plain objects.
 
+pub mod compare;
 pub mod csv;
 pub mod qr;
 pub mod verify;
@@ -184,4 +185,14 @@ pub fn sheet_fields() -> Result<JsValue, JsError> {
         fields: fluxledger_core::glossary::SHEET_KEYS.to_vec(),
         max_pins: fluxledger_core::glossary::MAX_PINS,
     })
+}
+
+/// A headline result of the current case against a pinned case
+/// ([`compare::difference_view`]): `{difference, ratio}`.
+///
+/// # Errors
+/// Throws only when the result cannot be converted.
+#[wasm_bindgen]
+pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<JsValue, JsError> {
+    to_js(&compare::difference_view(pinned_si, current_si, unit))
 }
