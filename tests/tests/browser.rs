@@ -25,6 +25,8 @@ mod layout;
 mod links;
 #[path = "browser/pages.rs"]
 mod pages;
+#[path = "browser/sheet.rs"]
+mod sheet;
 #[path = "browser/verify.rs"]
 mod verify;
 

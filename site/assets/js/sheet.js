@@ -8,8 +8,8 @@
 //
 // In print it adds a header block with those fields and the handbook version and
 // build, the inputs as a table (value and unit as typed, choices by their label),
-// and the link at the end printed readably (no `%2F` escapes) beside the same link
-// as a QR code, drawn as an SVG path the core made (`qr_code`). Which parts of the
+// and the link printed readably in the header (no `%2F` escapes) beside the same
+// link as a QR code, drawn as an SVG path the core made (`qr_code`). Which parts of the
 // page print, and how, is the print section of style.css.
 //
 // It parses no numbers: values are shown as the user typed them.
@@ -136,13 +136,10 @@ export function buildSheet() {
 
   const header = el("div", { class: "sheet-header", "aria-hidden": "true" });
   const inputs = el("div", { class: "sheet-inputs", "aria-hidden": "true" });
-  const link = el("div", { class: "sheet-link", "aria-hidden": "true" });
   const main = section.closest("main") || section;
   main.prepend(header);
   state.ui.form?.after(inputs);
-  if (state.ui.printFooter) state.ui.printFooter.before(link);
-  else main.append(link);
-  Object.assign(state.ui, { sheetHeader: header, sheetInputs: inputs, sheetLink: link });
+  Object.assign(state.ui, { sheetHeader: header, sheetInputs: inputs });
 }
 
 /** The page's link as printed: the query with `/` and friends unescaped. */
@@ -202,10 +199,6 @@ export function updateSheet() {
   for (let i = 0; i < pairs.length; i += 2) {
     rows.push(el("tr", {}, ...pairs.slice(i, i + 2).flatMap(([label, text]) => headerCell(label, text))));
   }
-  ui.sheetHeader.replaceChildren(
-    el("p", { class: "sheet-kind" }, el("strong", { text: "Calculation sheet · " }), state.spec.title || ""),
-    el("table", { class: "sheet-fields-table" }, el("tbody", {}, ...rows)),
-  );
 
   // Two inputs to a row; optional fields left empty are named in one line.
   const shownFields = state.spec.fields.filter((field) => isVisible(field));
@@ -246,13 +239,23 @@ export function updateSheet() {
           svg("path", { d: code.path, fill: "#000" }),
         )
       : el("p", { class: "sheet-qr-missing", text: code?.message || "" });
-  ui.sheetLink.replaceChildren(
-    qr,
+  const system = (state.page.unit_systems || []).find((u) => u.key === state.system);
+  // The header: title, the sheet fields beside the QR code, then the link in words.
+  ui.sheetHeader.replaceChildren(
+    el("p", { class: "sheet-kind" }, el("strong", { text: "Calculation sheet · " }), state.spec.title || ""),
     el(
-      "p",
+      "div",
+      { class: "sheet-head-row" },
+      el("table", { class: "sheet-fields-table" }, el("tbody", {}, ...rows)),
+      qr,
+    ),
+    el(
+      "div",
       { class: "sheet-url" },
-      el("strong", { text: "Link to this calculation: " }),
-      el("span", { class: "sheet-url-text", text: link }),
+      el("p", {}, el("strong", { text: "Link to this calculation: " }), el("span", { class: "sheet-url-text", text: link })),
+      el("p", {
+        text: `Printed ${new Date().toISOString().slice(0, 10)} · unit system ${system ? system.label : state.system}`,
+      }),
     ),
   );
 }
