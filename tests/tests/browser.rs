@@ -245,7 +245,7 @@ mod url_state {
         .unwrap();
         page.wait_for(
             &mut browser,
-            "location.search.includes('v=2.5m%2Fs')",
+            "location.search.includes('v=2.5m/s')",
             Duration::from_secs(5),
         )
         .unwrap();
