@@ -242,7 +242,32 @@ pub const TERMS: &[Term] = &[
     term("m_wall", "exponent m of the power-law wall zone"),
     term("u_max", "centre-line velocity"),
     term("n_power", "exponent n of a power-law velocity profile"),
+    // Page-level keys of the calculation sheet and the case comparison: kept in the
+    // link, never calculator inputs (see SHEET_KEYS).
+    term("project", "calculation sheet: project name"),
+    term("tag", "calculation sheet: location or equipment tag the calculation is for"),
+    term("calc_no", "calculation sheet: calculation number"),
+    term("rev", "calculation sheet: revision of the calculation"),
+    term("prepared_by", "calculation sheet: who prepared the calculation"),
+    term("checked_by", "calculation sheet: who checked the calculation"),
+    term("date", "calculation sheet: date of the calculation, as typed"),
+    term("pin#", "a pinned case shown beside the current one: that case's query, URL-encoded (pin1 to pin4)"),
 ];
+
+/// The page-level keys of the calculation sheet with their labels, in the order the
+/// sheet shows them: text kept in the link as typed, read by no calculator.
+pub const SHEET_KEYS: &[(&str, &str)] = &[
+    ("project", "Project"),
+    ("tag", "Location / tag"),
+    ("calc_no", "Calculation no."),
+    ("rev", "Revision"),
+    ("prepared_by", "Prepared by"),
+    ("checked_by", "Checked by"),
+    ("date", "Date"),
+];
+
+/// How many cases can be pinned beside the current one (`pin1` … `pin4`).
+pub const MAX_PINS: usize = 4;
 
 /// The glossary term of a query key (`b3_d` finds `b#_d`).
 pub fn term_of(key: &str) -> Option<&'static Term> {
@@ -505,6 +530,25 @@ mod tests {
 
     fn pairs(list: &[(&str, &str)]) -> Vec<(String, String)> {
         list.iter().map(|(k, v)| (k.to_string(), v.to_string())).collect()
+    }
+
+    #[test]
+    fn sheet_and_pin_keys_are_terms_used_by_no_calculator() {
+        let pins = (1..=MAX_PINS).map(|i| format!("pin{i}"));
+        for key in SHEET_KEYS.iter().map(|(k, _)| k.to_string()).chain(pins) {
+            assert!(term_of(&key).is_some(), "{key} is not a term");
+            for spec in crate::calculators::catalog() {
+                assert!(
+                    spec.fields.iter().all(|f| f.key != key),
+                    "{} uses the page-level key {key}",
+                    spec.key
+                );
+            }
+        }
+        assert!(
+            term_of("pin5").is_some_and(|t| t.key == "pin#"),
+            "pin# matches one digit"
+        );
     }
 
     #[test]

@@ -29,6 +29,8 @@ mod links;
 mod pages;
 #[path = "browser/prerender.rs"]
 mod prerender;
+#[path = "browser/sheet.rs"]
+mod sheet;
 #[path = "browser/verify.rs"]
 mod verify;
 
@@ -247,7 +249,7 @@ mod url_state {
         .unwrap();
         page.wait_for(
             &mut browser,
-            "location.search.includes('v=2.5m%2Fs')",
+            "location.search.includes('v=2.5m/s')",
             Duration::from_secs(5),
         )
         .unwrap();

@@ -135,6 +135,24 @@ pub fn table(columns: &[String], rows: &[Vec<String>]) -> String {
     out
 }
 
+/// The CSV text of a table read alone: a header block first (one `[label, value…]`
+/// row per line: handbook version, page, link, each input with its unit, the sheet
+/// fields), a blank line, then the table as [`table`] writes it. Every header cell
+/// goes through the same [`field`] rule as the table's cells.
+pub fn traced(header: &[Vec<String>], columns: &[String], rows: &[Vec<String>]) -> String {
+    let mut out = String::new();
+    for row in header {
+        let fields: Vec<String> = row.iter().map(|cell| field(cell)).collect();
+        out.push_str(&fields.join(","));
+        out.push_str("\r\n");
+    }
+    if !header.is_empty() {
+        out.push_str("\r\n");
+    }
+    out.push_str(&table(columns, rows));
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -210,5 +228,30 @@ mod tests {
             &[vec!["=HYPERLINK(\"x\")".to_string(), "-12.5".to_string()]],
         );
         assert_eq!(text, "tag,thrust (kN)\r\n\"'=HYPERLINK(\"\"x\"\")\",-12.5\r\n");
+    }
+
+    #[test]
+    fn a_traced_table_starts_with_its_header_block() {
+        let header = vec![
+            vec!["Fluxledger".to_string(), "0.1.0".to_string()],
+            vec![
+                "Link".to_string(),
+                "https://x.example/bend.html?p=10bar&tag==cmd".to_string(),
+            ],
+            vec![
+                "Input".to_string(),
+                "Pressure".to_string(),
+                "10".to_string(),
+                "bar".to_string(),
+            ],
+        ];
+        let text = traced(&header, &["a".to_string()], &[vec!["-1".to_string()]]);
+        assert_eq!(
+            text,
+            "Fluxledger,0.1.0\r\nLink,https://x.example/bend.html?p=10bar&tag==cmd\r\nInput,Pressure,10,bar\r\n\r\na\r\n-1\r\n"
+        );
+        let risky = traced(&[vec!["Project".to_string(), "=cmd".to_string()]], &[], &[]);
+        assert!(risky.starts_with("Project,'=cmd\r\n\r\n"), "{risky:?}");
+        assert_eq!(traced(&[], &["a".to_string()], &[]), "a\r\n");
     }
 }

@@ -34,7 +34,9 @@
 //! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()`, so
 //! `None` becomes `null` and maps become plain objects.
 
+pub mod compare;
 pub mod csv;
+pub mod qr;
 pub mod verify;
 pub mod view;
 
@@ -140,4 +142,57 @@ pub fn table_csv(columns: JsValue, rows: JsValue) -> Result<String, JsError> {
     let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
         .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
     Ok(csv::table(&columns, &rows))
+}
+
+/// The CSV text of a table after a header block (`header`: an array of arrays of
+/// strings, one line each), every cell neutralised ([`csv::traced`]).
+///
+/// # Errors
+/// Throws only when the arguments are not arrays of strings.
+#[wasm_bindgen]
+pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Result<String, JsError> {
+    let header: Vec<Vec<String>> = serde_wasm_bindgen::from_value(header)
+        .map_err(|e| adapter_error("`header` must be an array of arrays of strings", e))?;
+    let columns: Vec<String> = serde_wasm_bindgen::from_value(columns)
+        .map_err(|e| adapter_error("`columns` must be an array of strings", e))?;
+    let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
+        .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
+    Ok(csv::traced(&header, &columns, &rows))
+}
+
+/// The QR symbol of `text` ([`qr::QrView`]): `{ok, size, path, message}`.
+///
+/// # Errors
+/// Throws only when the result cannot be converted.
+#[wasm_bindgen]
+pub fn qr_code(text: &str) -> Result<JsValue, JsError> {
+    to_js(&qr::qr_view(text))
+}
+
+#[derive(Serialize)]
+struct SheetFieldsView {
+    fields: Vec<(&'static str, &'static str)>,
+    max_pins: usize,
+}
+
+/// The page-level keys of the calculation sheet and the pin limit, from the glossary.
+///
+/// # Errors
+/// Throws only when the result cannot be converted.
+#[wasm_bindgen]
+pub fn sheet_fields() -> Result<JsValue, JsError> {
+    to_js(&SheetFieldsView {
+        fields: fluxledger_core::glossary::SHEET_KEYS.to_vec(),
+        max_pins: fluxledger_core::glossary::MAX_PINS,
+    })
+}
+
+/// A headline result of the current case against a pinned case
+/// ([`compare::difference_view`]): `{difference, ratio}`.
+///
+/// # Errors
+/// Throws only when the result cannot be converted.
+#[wasm_bindgen]
+pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<JsValue, JsError> {
+    to_js(&compare::difference_view(pinned_si, current_si, unit))
 }

@@ -14,7 +14,9 @@
 // trap), state (the page's state and the core's field rules), url (reading links
 // through the glossary, writing them back), form (frame, fields, unit switch, the
 // delegated listeners), csv, render-results / render-table / render-diagram /
-// render-plot. The site tool rewrites the imports to content-hashed file names.
+// render-plot, sheet (the calculation sheet: page-level fields, printed header,
+// inputs table, link and QR code), compare (cases side by side). The site tool rewrites the imports to
+// content-hashed file names.
 //
 // Layout of the calculator section (filled into `<section id="calculator">`):
 //   toolbar (unit system, copy link, print) · #notices · headline results ·
@@ -28,6 +30,8 @@ import { glue, loadGlue, dropGlue } from "./wasm.js";
 import { readUrl, writeUrl } from "./url.js";
 import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
 import { measureFigureWidth, render } from "./render-results.js";
+import { buildSheet, updateSheet } from "./sheet.js";
+import { buildCompare, updateCompare } from "./compare.js";
 
 function request() {
   const inputs = {};
@@ -110,6 +114,9 @@ function writeUrlNow() {
   urlTask = 0;
   writeUrl();
   updatePrintFooter();
+  // The sheet header prints the link and its QR code: written with the URL, after
+  // the frame that shows the result.
+  updateSheet();
 }
 
 // A reload or a closed tab right after a keystroke still leaves its URL behind.
@@ -145,6 +152,7 @@ function recompute({ writeToUrl }) {
   applyVisibility();
   render(result);
   if (writeToUrl) writeUrlSoon();
+  updateCompare();
 }
 
 /**
@@ -227,10 +235,13 @@ async function start() {
   state.recompute = recompute;
   state.recomputeNextFrame = recomputeNextFrame;
   state.settlePending = settlePending;
+  state.writeUrl = writeUrl;
   const spec = state.spec;
   const fromUrl = readUrl(spec);
   settleInitialValues(spec, fromUrl);
   buildPage();
+  buildSheet();
+  buildCompare();
   window.addEventListener("resize", () => {
     state.viewportHeight = window.innerHeight || 800;
     const before = state.figureWidth;
@@ -241,6 +252,7 @@ async function start() {
   // Show each quantity as the core read it: the number, with its unit selected.
   for (const field of spec.fields) normaliseField(field);
   updatePrintFooter();
+  updateSheet();
   registerServiceWorker();
 }
 

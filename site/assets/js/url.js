@@ -6,6 +6,7 @@ import { NOTICE_NAMES_MAX, quote, quoteList } from "./dom.js";
 import { notice } from "./notices.js";
 import { state, isQuantity, isVisible, systemLabel } from "./state.js";
 import { glue } from "./wasm.js";
+import { isPageLevelKey, readableQuery, takePageLevel, writePageLevel } from "./sheet.js";
 
 /** The query key of the page's unit system (`units=` in older links). */
 export const SYSTEM_KEY = "system";
@@ -35,6 +36,11 @@ export function readUrl(spec) {
   const unknown = [];
   const unknownSeen = new Set();
   for (const [key, value] of upgraded.pairs || []) {
+    // Sheet fields and pinned cases are the page's, not the calculator's.
+    if (isPageLevelKey(key)) {
+      takePageLevel(key, value);
+      continue;
+    }
     if (!keys.has(key)) {
       if (!unknownSeen.has(key)) {
         unknownSeen.add(key);
@@ -87,8 +93,15 @@ export function readUrl(spec) {
   return fromUrl;
 }
 
-/** Writes the current inputs to the address bar (no new history entry). */
+/** Writes the current inputs, sheet fields and pins to the address bar (no new history entry). */
 export function writeUrl() {
+  const params = caseParams();
+  writePageLevel(params);
+  history.replaceState(history.state, "", "?" + readableQuery(params));
+}
+
+/** The current case alone: its visible inputs and the unit system. */
+export function caseParams() {
   const params = new URLSearchParams();
   for (const field of state.spec.fields) {
     if (!isVisible(field)) continue;
@@ -103,5 +116,5 @@ export function writeUrl() {
     }
   }
   params.set(SYSTEM_KEY, state.system);
-  history.replaceState(history.state, "", "?" + params.toString());
+  return params;
 }

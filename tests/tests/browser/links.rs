@@ -389,8 +389,13 @@ fn check_csv_of_every_table(
     assert_eq!(keys, expected_keys, "{key}: the page shows the core's tables");
     assert!(!keys.is_empty(), "{key}: no table to download");
     let mut texts = Vec::new();
+    // Files are named `<page>-<table>-<date>.csv`, the date as the page's clock gives it.
+    let date = eval(page, browser, "new Date().toISOString().slice(0, 10)");
+    let date = date.as_str().unwrap_or_default().to_string();
+    let link = eval(page, browser, "location.href");
+    let link = link.as_str().unwrap_or_default().to_string();
     for (index, table) in solution.tables.iter().enumerate() {
-        let name = format!("{key}-{}.csv", table.key);
+        let name = format!("{key}-{}-{date}.csv", table.key);
         let click =
             format!("document.querySelectorAll('.panel-table')[{index}].querySelector('button.csv-download').click()");
         let bytes = download(page, browser, &click, &name);
@@ -401,7 +406,46 @@ fn check_csv_of_every_table(
             .unwrap_or_else(|| panic!("{name} has no byte order mark"))
             .to_string();
         let name = name.as_str();
-        let records = parse_csv(&text).unwrap_or_else(|e| panic!("{name} is not RFC 4180 CSV ({e}):\n{text}"));
+        let all = parse_csv(&text).unwrap_or_else(|e| panic!("{name} is not RFC 4180 CSV ({e}):\n{text}"));
+        // A header block that traces the file, then an empty line, then the table.
+        let blank = all
+            .iter()
+            .position(|r| r.len() == 1 && r[0].is_empty())
+            .unwrap_or_else(|| panic!("{name}: no header block before the table:\n{text}"));
+        let (header, records) = (&all[..blank], &all[blank + 1..]);
+        for cell in header.iter().flatten() {
+            assert!(
+                !would_run_as_formula(cell),
+                "{name}: the header cell {cell:?} would run as a formula"
+            );
+        }
+        let row = |label: &str| header.iter().find(|r| r.first().is_some_and(|c| c == label));
+        assert!(
+            row("Fluxledger").is_some_and(|r| r.get(1).is_some_and(|v| v.starts_with(env!("CARGO_PKG_VERSION")))),
+            "{name}: no version in the header block: {header:?}"
+        );
+        // The link in the file opens the same page with the same pairs (it may be
+        // written more readably: `/` and `,` unescaped).
+        let shown_link = row("Link").and_then(|r| r.get(1)).cloned().unwrap_or_default();
+        let same = eval(
+            page,
+            browser,
+            &format!(
+                "(() => {{ const a = new URL({}), b = new URL({}); return a.origin + a.pathname === b.origin + b.pathname && JSON.stringify([...a.searchParams]) === JSON.stringify([...b.searchParams]); }})()",
+                serde_json::to_string(&without_neutralising(&shown_link)).unwrap_or_default(),
+                serde_json::to_string(&link).unwrap_or_default()
+            ),
+        );
+        assert_eq!(
+            same,
+            Value::Bool(true),
+            "{name}: the link in the header block is {shown_link:?}, the page's {link:?}"
+        );
+        let inputs = header
+            .iter()
+            .filter(|r| r.first().is_some_and(|c| c == "Input"))
+            .count();
+        assert!(inputs > 0, "{name}: no input in the header block: {header:?}");
         let mut expected = vec![table.columns.clone()];
         expected.extend(table.rows.iter().cloned());
         assert_eq!(records.len(), expected.len(), "{name}: row count");
