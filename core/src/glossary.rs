@@ -245,13 +245,19 @@ pub const TERMS: &[Term] = &[
     // Page-level keys of the calculation sheet and the case comparison: kept in the
     // link, never calculator inputs (see SHEET_KEYS).
     term("project", "calculation sheet: project name"),
-    term("tag", "calculation sheet: location or equipment tag the calculation is for"),
+    term(
+        "tag",
+        "calculation sheet: location or equipment tag the calculation is for",
+    ),
     term("calc_no", "calculation sheet: calculation number"),
     term("rev", "calculation sheet: revision of the calculation"),
     term("prepared_by", "calculation sheet: who prepared the calculation"),
     term("checked_by", "calculation sheet: who checked the calculation"),
     term("date", "calculation sheet: date of the calculation, as typed"),
-    term("pin#", "a pinned case shown beside the current one: that case's query, URL-encoded (pin1 to pin4)"),
+    term(
+        "pin#",
+        "a pinned case shown beside the current one: that case's query, URL-encoded (pin1 to pin4)",
+    ),
 ];
 
 /// The page-level keys of the calculation sheet with their labels, in the order the
