@@ -21,11 +21,13 @@ use QuantityKind as Q;
 pub mod drawing;
 pub mod fields;
 pub mod tables;
+pub mod wall;
 
 pub use crate::numeric::peak_of;
 pub use drawing::*;
 pub use fields::*;
 pub use tables::*;
+pub use wall::{read_elastic, Elastic};
 
 /// Maps an engine error onto the field most responsible for it.
 pub fn engine_error(err: EngineError, field: &'static str) -> Vec<FieldError> {

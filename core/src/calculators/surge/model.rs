@@ -7,22 +7,10 @@ use uom::si::f64::{Length, Pressure, Time, Velocity};
 use crate::catalog::Values;
 use crate::error::{FieldError, FieldErrors};
 use crate::fluid::Fluid;
-use crate::pipe_sizes;
-use crate::restraint::pressure::{self, Anchoring, Material, WATER_BULK_MODULUS};
+use crate::restraint::pressure;
 use crate::restraint::{diameters, Diameters, Joint};
 
-use super::super::common;
-
-/// The pipe wall and liquid that set a computed wave speed.
-#[derive(Clone, Debug, PartialEq)]
-pub struct Elastic {
-    pub e_modulus: Pressure,
-    pub poisson: f64,
-    pub material_source: String,
-    pub wall: Length,
-    pub anchoring: Anchoring,
-    pub bulk_modulus: Pressure,
-}
+use super::super::common::{self, read_elastic, Elastic};
 
 /// How the wave speed is found.
 #[derive(Clone, Debug, PartialEq)]
@@ -103,52 +91,6 @@ fn read_velocity_change(values: &Values, pipe: Diameters) -> Result<Velocity, Fi
             "give the flow velocity stopped (or the flow stopped)",
         )),
     }
-}
-
-/// The wall and liquid of a computed wave speed, through the restraint model's
-/// materials ([`pressure::material`], [`Material::of_family`]).
-fn read_elastic(values: &Values, pipe: Diameters, size_key: &str) -> Result<Elastic, FieldErrors> {
-    let material = match Material::from_key(values.choice("material").unwrap_or("")) {
-        Some(Material::FromSize) => match pipe_sizes::find(size_key) {
-            Some(size) => Material::of_family(size.family),
-            None => return Err(FieldError::inconsistent(
-                "material",
-                "the pipe size is typed, so its material is not known: choose the wall material or type the wave speed",
-            )
-            .into()),
-        },
-        Some(m) => m,
-        None => {
-            return Err(FieldError::inconsistent("material", "choose the pipe wall material for the wave speed").into())
-        }
-    };
-    let (e_modulus, poisson, material_source) = match material {
-        Material::Custom => {
-            let e = si(values, "e_pipe").ok_or_else(|| {
-                FieldError::inconsistent("e_pipe", "type Young's modulus of the wall, or choose a material")
-            })?;
-            (e, 0.3, "typed modulus, ν = 0.3".to_string())
-        }
-        m => {
-            let (e, nu, s) =
-                pressure::material(m.key()).ok_or_else(|| FieldError::inconsistent("material", "unknown material"))?;
-            (e, nu, s.to_string())
-        }
-    };
-    let wall = si(values, "wall").unwrap_or((pipe.od - pipe.id) / 2.0);
-    if wall >= pipe.od / 2.0 {
-        return Err(FieldError::inconsistent("wall", "the wall must be thinner than half the outside diameter").into());
-    }
-    Ok(Elastic {
-        e_modulus: Pressure::new::<uom::si::pressure::pascal>(e_modulus),
-        poisson,
-        material_source,
-        wall: Length::new::<uom::si::length::meter>(wall),
-        anchoring: Anchoring::from_key(values.choice("anchoring").unwrap_or("joints")).unwrap_or(Anchoring::Joints),
-        bulk_modulus: values
-            .typed_opt("bulk_modulus")
-            .unwrap_or(Pressure::new::<uom::si::pressure::pascal>(WATER_BULK_MODULUS)),
-    })
 }
 
 /// Whether the closure is rapid (t_c ≤ 2L/a) or slow.

@@ -14,7 +14,7 @@ use crate::error::{FieldError, FieldErrors};
 use crate::fluid::Fluid;
 use crate::pipe_sizes;
 use crate::restraint::block::{self, Block, BlockDims, FaceGiven, GravityBlock};
-use crate::restraint::pressure::{self, Anchoring, Material, PressureBasis, TestRule, WATER_BULK_MODULUS};
+use crate::restraint::pressure::{self, Anchoring, PressureBasis, TestRule};
 use crate::restraint::soil::{self, SoilPreset, FRICTION_SOURCE, MAX_TYPED_BEARING, MIN_TYPED_BEARING};
 use crate::restraint::{
     self, diameters, Diameters, FittingChoice, FittingKind, Joint, Legs, Plane, SizeMismatch, StaticFitting,
@@ -237,51 +237,17 @@ fn read_pressure(values: &Values, main: Diameters, size_key: &str) -> Result<Pre
 }
 
 fn read_surge(values: &Values, main: Diameters, size_key: &str) -> Result<SurgeInputs, FieldErrors> {
-    let material = match Material::from_key(values.choice("material").unwrap_or("")) {
-        Some(Material::FromSize) => match pipe_sizes::find(size_key) {
-            Some(size) => Material::of_family(size.family),
-            None => {
-                return Err(FieldError::inconsistent(
-                    "material",
-                    "the pipe size is typed, so its material is not known: choose the wall material",
-                )
-                .into())
-            }
-        },
-        Some(m) => m,
-        None => {
-            return Err(FieldError::inconsistent("material", "choose the pipe wall material for the wave speed").into())
-        }
-    };
-    let (e_modulus, poisson, material_source) = match material {
-        Material::Custom => {
-            let e = opt(values, "e_pipe").ok_or_else(|| {
-                FieldError::inconsistent("e_pipe", "type Young's modulus of the wall, or choose a material")
-            })?;
-            (e, 0.3, "typed modulus, ν = 0.3".to_string())
-        }
-        m => {
-            let (e, nu, s) =
-                pressure::material(m.key()).ok_or_else(|| FieldError::inconsistent("material", "unknown material"))?;
-            (e, nu, s.to_string())
-        }
-    };
-    let wall = opt(values, "wall").unwrap_or((main.od - main.id) / 2.0);
-    if wall >= main.od / 2.0 {
-        return Err(FieldError::inconsistent("wall", "the wall must be thinner than half the outside diameter").into());
-    }
+    let elastic = common::read_elastic(values, main, size_key)?;
     Ok(SurgeInputs {
         dv: values
             .typed_opt("dv")
             .unwrap_or(Velocity::new::<uom::si::velocity::meter_per_second>(0.0)),
-        e_modulus: Pressure::new::<uom::si::pressure::pascal>(e_modulus),
-        poisson,
-        material_source,
-        wall: Length::new::<uom::si::length::meter>(wall),
-        anchoring: Anchoring::from_key(values.choice("anchoring").unwrap_or("joints")).unwrap_or(Anchoring::Joints),
-        bulk_modulus: values
-            .typed_opt("bulk_modulus")
-            .unwrap_or(Pressure::new::<uom::si::pressure::pascal>(WATER_BULK_MODULUS)),
+        e_modulus: elastic.e_modulus,
+        poisson: elastic.poisson,
+        material_source: elastic.material_source,
+        wall: elastic.wall,
+        anchoring: elastic.anchoring,
+        bulk_modulus: elastic.bulk_modulus,
     })
 }
 
