@@ -189,19 +189,8 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     let outside = inputs.outside.map(|(od, od2)| (od.value, od2.value));
     if let Some((od_in, od_out)) = outside {
         // Push-on or mechanical joints: the solved pressures also act on the wall
-        // annulus out to the outside diameter at each end (a second pass adds them as
-        // named forces; they change no pressure or flow).
-        for (port, od, bore, name) in [(i, od_in, a_in, "inlet"), (o, od_out, a_out, "outlet")] {
-            let pressure = balance.ports[port].pressure;
-            let normal = cv.ports[port].outward_normal();
-            let force = common::joint_annulus_force(pressure, bore, common::circle_area(od), normal);
-            let at = cv.ports[port].position;
-            cv.extra_force(
-                &format!("{name} joint, pressure on the wall annulus to the OD"),
-                force,
-                at,
-            );
-        }
+        // annulus out to the outside diameter at each end.
+        common::add_joint_annulus_forces(&mut cv, &balance, [(i, od_in), (o, od_out)]);
         balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
     }
     let (basis_a_in, basis_a_out) = match outside {

@@ -107,6 +107,33 @@ pub fn joint_annulus_force(pressure: f64, bore_area: f64, outside_area: f64, out
     outward_normal * (-pressure * (outside_area - bore_area))
 }
 
+/// Adds the joint-annulus force of every `(port, outside diameter)` to the control
+/// volume, from the pressures of a solved `balance` ([`joint_annulus_force`]): push-on
+/// and mechanical joints seal on the outside diameter, so the port's pressure also
+/// acts on the wall annulus. Each is a named extra force (its own ledger term); they
+/// change no pressure or flow, so the caller balances once more to include them.
+pub fn add_joint_annulus_forces(
+    cv: &mut crate::engine::ControlVolume,
+    balance: &Balance,
+    outside: impl IntoIterator<Item = (usize, f64)>,
+) {
+    for (port, od) in outside {
+        let state = &balance.ports[port];
+        let force = joint_annulus_force(
+            state.pressure,
+            state.area,
+            circle_area(od),
+            cv.ports[port].outward_normal(),
+        );
+        let (name, at) = (cv.ports[port].name.to_string(), cv.ports[port].position);
+        cv.extra_force(
+            &format!("{name} joint, pressure on the wall annulus to the OD"),
+            force,
+            at,
+        );
+    }
+}
+
 /// Every quantity field of the restraint pages at the ends of its range, alone and
 /// all together, in both unit systems and in each plane, fitting and area basis:
 /// an accepted request must give finite outputs, agreeing checks, and tables and

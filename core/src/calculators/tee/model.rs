@@ -264,21 +264,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         // Push-on or mechanical joints: the solved pressures also act on the wall
         // annulus out to each outside diameter (a second pass adds them as named
         // forces; they change no pressure or flow).
-        for (port, &od) in basis_diameters.iter().enumerate() {
-            let state = &balance.ports[port];
-            let force = common::joint_annulus_force(
-                state.pressure,
-                state.area,
-                common::circle_area(od),
-                cv.ports[port].outward_normal(),
-            );
-            let (name, at) = (cv.ports[port].name.clone(), cv.ports[port].position);
-            cv.extra_force(
-                &format!("{name} joint, pressure on the wall annulus to the OD"),
-                force,
-                at,
-            );
-        }
+        common::add_joint_annulus_forces(&mut cv, &balance, basis_diameters.iter().copied().enumerate());
         balance = engine::balance(&cv).map_err(named)?;
     }
 
