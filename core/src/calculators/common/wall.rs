@@ -6,10 +6,13 @@
 
 use uom::si::f64::{Length, Pressure};
 
-use crate::catalog::Values;
+use crate::catalog::{FieldSpec, Limits, Values};
+use crate::units::QuantityKind as Q;
+
+use super::fields::{choice, quantity};
 use crate::error::{FieldError, FieldErrors};
 use crate::pipe_sizes;
-use crate::restraint::pressure::{self, Anchoring, Material, WATER_BULK_MODULUS};
+use crate::restraint::pressure::{self, Anchoring, Material, ANCHOR_OPTIONS, MATERIAL_OPTIONS, WATER_BULK_MODULUS};
 use crate::restraint::Diameters;
 
 fn si(values: &Values, key: &str) -> Option<f64> {
@@ -74,4 +77,86 @@ pub fn read_elastic(values: &Values, pipe: Diameters, size_key: &str) -> Result<
             .typed_opt("bulk_modulus")
             .unwrap_or(Pressure::new::<uom::si::pressure::pascal>(WATER_BULK_MODULUS)),
     })
+}
+
+/// When a field is shown: `(controlling field, options)`, as in [`FieldSpec`].
+pub type ShownWhen = Option<(&'static str, &'static [&'static str])>;
+
+/// The fields [`read_elastic`] reads, in page order: wall material (shown when
+/// `material_shown` holds), typed modulus (when the material is 'custom'), wall
+/// thickness, axial restraint and the liquid's bulk modulus (when `rest_shown`
+/// holds). `material_help` says how the page uses the material.
+pub fn wave_speed_fields(
+    material_shown: ShownWhen,
+    rest_shown: ShownWhen,
+    material_help: &'static str,
+) -> Vec<FieldSpec> {
+    vec![
+        FieldSpec {
+            visible_when: material_shown,
+            optional: true,
+            ..choice(
+                "material",
+                "Pipe wall material (wave speed)",
+                MATERIAL_OPTIONS,
+                "from_size",
+                material_help,
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("material", &["custom"])),
+            optional: true,
+            ..quantity(
+                "e_pipe",
+                "Typed Young's modulus of the wall",
+                Q::Pressure,
+                "MPa",
+                "ksi",
+                "",
+                Limits::closed(50e6, 1e12),
+                "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to \
+                1000 GPa.",
+            )
+        },
+        FieldSpec {
+            visible_when: rest_shown,
+            optional: true,
+            ..quantity(
+                "wall",
+                "Wall thickness",
+                Q::Length,
+                "mm",
+                "in",
+                "",
+                Limits::closed(0.1e-3, 1.0),
+                "Empty: half the difference of outside and inside diameters.",
+            )
+        },
+        FieldSpec {
+            visible_when: rest_shown,
+            optional: true,
+            ..choice(
+                "anchoring",
+                "Axial restraint of the pipe (wave speed)",
+                ANCHOR_OPTIONS,
+                "joints",
+                "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default \
+                when empty).",
+            )
+        },
+        FieldSpec {
+            visible_when: rest_shown,
+            optional: true,
+            ..quantity(
+                "bulk_modulus",
+                "Bulk modulus of the liquid",
+                Q::Pressure,
+                "MPa",
+                "ksi",
+                "",
+                Limits::closed(10e6, 1e11),
+                "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.",
+            )
+        },
+    ]
 }

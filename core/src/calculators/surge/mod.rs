@@ -49,7 +49,6 @@
 use crate::catalog::{CalculatorSpec, FieldSpec, Limits, OutputSpec, Report, Values};
 use crate::error::FieldError;
 use crate::pipe_sizes;
-use crate::restraint::pressure::{ANCHOR_OPTIONS, MATERIAL_OPTIONS};
 use crate::restraint::{Joint, JOINT_HELP};
 use crate::units::QuantityKind as Q;
 
@@ -83,10 +82,6 @@ const SIZE_HELP: &str = "A preset gives both diameters and the wall material; ty
 const OD_HELP: &str = "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).";
 const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of \
     the size preset. Not used when the wave speed is typed.";
-const E_PIPE_HELP: &str = "Used when the material is 'typed modulus'; from 50 MPa to 1000 GPa.";
-const WALL_HELP: &str = "Empty: half the difference of outside and inside diameters.";
-const ANCHORING_HELP: &str =
-    "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default when empty).";
 const P_HELP: &str = "The steady pressure at the valve before it closes.";
 const TITLE: &str = "Surge from valve closure and the load on a run between elbows";
 const SUMMARY: &str = "Joukowsky or slow-closure surge from the closure time and 2L/a, the design pressure and \
@@ -148,70 +143,8 @@ pub fn spec() -> CalculatorSpec {
                 WAVE_HELP,
             )
         },
-        FieldSpec {
-            optional: true,
-            ..choice(
-                "material",
-                "Pipe wall material (wave speed)",
-                MATERIAL_OPTIONS,
-                "from_size",
-                MATERIAL_HELP,
-            )
-        },
-        FieldSpec {
-            visible_when: Some(("material", &["custom"])),
-            optional: true,
-            ..quantity(
-                "e_pipe",
-                "Typed Young's modulus of the wall",
-                Q::Pressure,
-                "MPa",
-                "ksi",
-                "",
-                Limits::closed(50e6, 1e12),
-                E_PIPE_HELP,
-            )
-        },
-        FieldSpec {
-            visible_when: computed,
-            optional: true,
-            ..quantity(
-                "wall",
-                "Wall thickness",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(0.1e-3, 1.0),
-                WALL_HELP,
-            )
-        },
-        FieldSpec {
-            visible_when: computed,
-            optional: true,
-            ..choice(
-                "anchoring",
-                "Axial restraint of the pipe (wave speed)",
-                ANCHOR_OPTIONS,
-                "joints",
-                ANCHORING_HELP,
-            )
-        },
-        FieldSpec {
-            visible_when: computed,
-            optional: true,
-            ..quantity(
-                "bulk_modulus",
-                "Bulk modulus of the liquid",
-                Q::Pressure,
-                "MPa",
-                "ksi",
-                "",
-                Limits::closed(10e6, 1e11),
-                "Empty: 2200 MPa, water near 20 °C.",
-            )
-        },
     ];
+    fields.extend(common::wave_speed_fields(None, computed, MATERIAL_HELP));
     fields.extend(common::fluid_fields("15 degC"));
     fields.extend([
         FieldSpec {

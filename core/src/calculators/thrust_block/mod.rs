@@ -114,7 +114,9 @@ pub const KEY: &str = "thrust-block";
 // The restraint model shared with the line schedule lives in `crate::restraint`;
 // other pages and tests use it from there.
 use crate::restraint::block::{BLOCK_DIM_OPTIONS, YES_NO};
-use crate::restraint::pressure::{ANCHOR_OPTIONS, BASIS_OPTIONS, MATERIAL_OPTIONS, TEST_RULE_OPTIONS};
+use crate::restraint::pressure::{BASIS_OPTIONS, TEST_RULE_OPTIONS};
+
+use super::common::wall::ShownWhen;
 use crate::restraint::soil::SOIL_OPTIONS;
 use crate::restraint::{FittingChoice, Joint, Legs, Plane, JOINT_HELP, MIN_ANGLE};
 
@@ -355,74 +357,11 @@ pub fn spec() -> CalculatorSpec {
                 no surge estimate.",
             )
         },
-        FieldSpec {
-            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
-            optional: true,
-            ..choice(
-                "material",
-                "Pipe wall material (wave speed)",
-                MATERIAL_OPTIONS,
-                "from_size",
-                "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of the size \
-                preset (a PVC size gets PVC).",
-            )
-        },
-        FieldSpec {
-            visible_when: Some(("material", &["custom"])),
-            optional: true,
-            ..quantity(
-                "e_pipe",
-                "Typed Young's modulus of the wall",
-                Q::Pressure,
-                "MPa",
-                "ksi",
-                "",
-                Limits::closed(50e6, 1e12),
-                "Used when the material is 'typed modulus'; from 50 MPa (soft plastics under long load) to \
-                1000 GPa.",
-            )
-        },
-        FieldSpec {
-            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
-            optional: true,
-            ..quantity(
-                "wall",
-                "Wall thickness",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(0.1e-3, 1.0),
-                "Empty: half the difference of outside and inside diameters.",
-            )
-        },
-        FieldSpec {
-            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
-            optional: true,
-            ..choice(
-                "anchoring",
-                "Axial restraint of the pipe (wave speed)",
-                ANCHOR_OPTIONS,
-                "joints",
-                "Wylie & Streeter's factor c₁; jointed buried pipe is usually taken as c₁ = 1 (the default \
-                when empty).",
-            )
-        },
-        FieldSpec {
-            visible_when: Some(("p_basis", &["test", "surge", "highest"])),
-            optional: true,
-            ..quantity(
-                "bulk_modulus",
-                "Bulk modulus of the liquid",
-                Q::Pressure,
-                "MPa",
-                "ksi",
-                "",
-                Limits::closed(10e6, 1e11),
-                "Empty: 2200 MPa, water near 20 °C. From 10 MPa (gassy liquids) to 100 GPa.",
-            )
-        },
     ];
+    let surge_shown: ShownWhen = Some(("p_basis", &["test", "surge", "highest"]));
+    const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material \
+        of the size preset (a PVC size gets PVC).";
+    fields.extend(common::wave_speed_fields(surge_shown, surge_shown, MATERIAL_HELP));
     // The fluid sets the density of a fitting's balance and surge; a given thrust
     // needs none of it.
     fields.extend(common::fluid_fields("15 degC").into_iter().map(|f| FieldSpec {
