@@ -12,9 +12,11 @@
 //! to precache.
 //!
 //! Each calculator page carries its demo result, computed natively by the core at
-//! build time ([`crate::prerender`]), and asks for the page script, the glue and the
-//! wasm from its head (`modulepreload`, `preload`), so a first visit shows a result
-//! with the HTML and the module downloads while the page is read.
+//! build time ([`crate::prerender`]), and the stylesheet's screen rules inline
+//! ([`split_print_rules`]; the print rules are the hashed stylesheet file), so a
+//! first visit shows a result with the HTML alone. Its one inline script
+//! (`query.js`, see [`head_script`]) loads the page script, the glue and the wasm
+//! after the first paint, or at once for a link with a query.
 //!
 //! Every text file and the wasm module are also written precompressed beside
 //! themselves: `name.br` (Brotli, quality 11) and `name.gz` (gzip, level 9). The
@@ -52,9 +54,13 @@ pub const CACHE_VERSION_PLACEHOLDER: &str = "__CACHE_VERSION__";
 pub const PRECACHE_PLACEHOLDER: &str = "__PRECACHE__";
 /// Marker file written into every built site, so that a rebuild may clear the folder.
 pub const MARKER_FILE: &str = ".fluxledger-site";
-/// The classic script in `site/assets` that marks a page opened with a query
-/// before its body is parsed (see [`crate::prerender`]).
+/// The script in `site/assets` inlined in the head of every calculator page: it
+/// marks a page opened with a query before its body is parsed (see
+/// [`crate::prerender`]) and loads the page script ([`head_script`]).
 pub const QUERY_SCRIPT: &str = "query.js";
+/// Placeholders of `query.js`: the page script, the modules and glue to preload (a
+/// JSON array) and the wasm module.
+pub const HEAD_SCRIPT_PLACEHOLDERS: [&str; 3] = ["__PAGE_SCRIPT__", "__MODULES__", "__WASM__"];
 /// File name endings written precompressed (`.br`, `.gz`) beside the file.
 pub const COMPRESSED_EXTENSIONS: [&str; 7] = ["html", "js", "css", "wasm", "svg", "webmanifest", "json"];
 /// Sizes of the app icons (PNG), besides the SVG icon.
@@ -135,12 +141,13 @@ impl FileReport {
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct ColdLoad {
     pub page: String,
-    /// The files counted: page, stylesheet, query script, page script, glue, wasm.
+    /// The files counted: page, page script and its modules, glue, wasm.
     pub files: Vec<String>,
     pub bytes: usize,
     pub gzip_bytes: usize,
     pub brotli_bytes: usize,
-    /// What shows the first (prerendered) result: page, stylesheet, query script.
+    /// What shows the first (prerendered) result: the page (its screen styles and
+    /// head script are inline).
     pub first_result_files: Vec<String>,
     pub first_result_gzip_bytes: usize,
     pub first_result_brotli_bytes: usize,
@@ -321,7 +328,7 @@ struct Sources {
     /// The page script's modules in `site/assets/js` (file name, text).
     modules: BTreeMap<String, String>,
     /// `query.js`, when the assets have one.
-    query_js: Option<Vec<u8>>,
+    query_js: Option<String>,
     style_css: Vec<u8>,
     sw_js: String,
     /// Other files in `site/assets` copied as they are (file name, bytes).
@@ -390,7 +397,7 @@ fn read_sources(site: &Path, root: &Path, specs: &[CalculatorSpec]) -> Result<So
     }
     let query_path = assets.join(QUERY_SCRIPT);
     let query_js = if query_path.is_file() {
-        Some(fs::read(&query_path).map_err(|e| SiteError::io(&query_path, e))?)
+        Some(read_text(&query_path)?)
     } else {
         None
     };
@@ -489,6 +496,104 @@ pub fn link_modules(
     Ok((entry, out))
 }
 
+/// Splits a stylesheet into its screen rules and its print rules: every top-level
+/// `@media print { … }` block goes to the second part, whole; the rest, with its
+/// comments removed, to the first. Comments and strings are skipped when matching
+/// braces.
+pub fn split_print_rules(css: &str) -> (String, String) {
+    let bytes = css.as_bytes();
+    let (mut screen, mut print) = (String::new(), String::new());
+    let mut depth = 0usize;
+    let mut i = 0;
+    // Start of the print block being copied, and its depth.
+    let mut print_start: Option<usize> = None;
+    let mut copied = 0; // bytes of `css` already handed to one of the parts
+    while i < bytes.len() {
+        if bytes[i] == b'/' && bytes.get(i + 1) == Some(&b'*') {
+            let end = css[i + 2..].find("*/").map_or(bytes.len(), |e| i + 2 + e + 2);
+            if print_start.is_none() {
+                screen.push_str(&css[copied..i]);
+                copied = end;
+            }
+            i = end;
+            continue;
+        }
+        match bytes[i] {
+            quote @ (b'"' | b'\'') => {
+                i += 1;
+                while i < bytes.len() && bytes[i] != quote {
+                    i += if bytes[i] == b'\\' { 2 } else { 1 };
+                }
+                i += 1;
+                continue;
+            }
+            b'{' => depth += 1,
+            b'}' => {
+                depth = depth.saturating_sub(1);
+                if depth == 0 {
+                    if let Some(start) = print_start.take() {
+                        print.push_str(&css[start..=i]);
+                        print.push('\n');
+                        copied = i + 1;
+                    }
+                }
+            }
+            b'@' if depth == 0 && print_start.is_none() && css[i..].starts_with("@media print") => {
+                screen.push_str(&css[copied..i]);
+                print_start = Some(i);
+            }
+            _ => {}
+        }
+        i += 1;
+    }
+    match print_start {
+        Some(start) => print.push_str(&css[start..]),
+        None => screen.push_str(&css[copied.min(css.len())..]),
+    }
+    let screen: String = screen
+        .lines()
+        .map(str::trim_end)
+        .filter(|line| !line.trim().is_empty())
+        .collect::<Vec<_>>()
+        .join("\n");
+    (screen, print)
+}
+
+/// The inline head script of calculator pages: `query.js` without its comment
+/// lines and blank lines, its placeholders filled with the page script, the
+/// modules and glue to preload and the wasm module (JSON literals).
+///
+/// # Errors
+/// A placeholder missing from the source.
+pub fn head_script(source: &str, script: &str, preloaded: &[String], wasm: &str) -> Result<String, String> {
+    let code: String = source
+        .lines()
+        .filter(|line| !line.trim_start().starts_with("//") && !line.trim().is_empty())
+        .collect::<Vec<_>>()
+        .join("\n");
+    let list = format!(
+        "[{}]",
+        preloaded.iter().map(|n| json_string(n)).collect::<Vec<_>>().join(", ")
+    );
+    let [page_script, modules, wasm_module] = HEAD_SCRIPT_PLACEHOLDERS;
+    let mut filled = code;
+    for (token, literal) in [
+        (page_script, json_string(script)),
+        (modules, list),
+        (wasm_module, json_string(wasm)),
+    ] {
+        let quoted = format!("\"{token}\"");
+        if !filled.contains(&quoted) {
+            return Err(format!("the placeholder {quoted} is missing"));
+        }
+        filled = filled.replace(&quoted, &literal);
+    }
+    if filled.to_ascii_lowercase().contains("</script") {
+        return Err("the script contains `</script`".to_string());
+    }
+    Ok(filled)
+}
+
 /// Replaces every occurrence of `token`, which must occur at least once.
 fn fill(text: &str, token: &str, value: &str, path: &Path) -> Result<String, SiteError> {
     if !text.contains(token) {
@@ -548,16 +653,26 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         files.insert(name, text.into_bytes());
     }
     let script = hashed_name("app", "js", app_js.as_bytes());
-    let stylesheet = hashed_name("style", "css", &sources.style_css);
+    let style_path = assets.join("style.css");
+    let style_text = String::from_utf8(sources.style_css)
+        .map_err(|_| SiteError::content(&style_path, "the stylesheet is not UTF-8".to_string()))?;
+    let (screen_rules, print_rules) = split_print_rules(&style_text);
+    if screen_rules.to_ascii_lowercase().contains("</style") {
+        return Err(SiteError::content(
+            &style_path,
+            "the stylesheet contains `</style`".to_string(),
+        ));
+    }
+    let stylesheet = hashed_name("style", "css", print_rules.as_bytes());
     files.insert(wasm_name.clone(), wasm.wasm);
     files.insert(glue_name.clone(), glue_js.into_bytes());
     files.insert(script.clone(), app_js.into_bytes());
-    files.insert(stylesheet.clone(), sources.style_css);
-    let query_script = match sources.query_js {
-        Some(bytes) => {
-            let name = hashed_name("query", "js", &bytes);
-            files.insert(name.clone(), bytes);
-            name
+    files.insert(stylesheet.clone(), print_rules.into_bytes());
+    let inline_script = match &sources.query_js {
+        Some(text) => {
+            let preloaded: Vec<String> = module_names.iter().chain([&glue_name]).cloned().collect();
+            head_script(text, &script, &preloaded, &wasm_name)
+                .map_err(|message| SiteError::content(assets.join(QUERY_SCRIPT), message))?
         }
         None => String::new(),
     };
@@ -579,7 +694,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         modules: module_names.clone(),
         glue: glue_name.clone(),
         wasm: wasm_name.clone(),
-        query_script: query_script.clone(),
+        inline_style: screen_rules,
+        head_script: inline_script,
         theme_colour: icons::theme_colour(),
         version: env!("CARGO_PKG_VERSION").to_string(),
     };
@@ -642,11 +758,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         .or(calculator_pages.first());
     let cold_load = cold_page.map(|page| {
         // Every module of the page script is loaded on every page; the first result
-        // needs only the page, the stylesheet and the query script.
-        let first: Vec<String> = [page.clone(), stylesheet.clone(), query_script.clone()]
-            .into_iter()
-            .filter(|n| !n.is_empty())
-            .collect();
+        // needs only the page (screen styles and head script inline).
+        let first: Vec<String> = vec![page.clone()];
         let names: Vec<String> = first
             .iter()
             .cloned()
@@ -799,6 +912,43 @@ fn write_output(out: &Path, files: &BTreeMap<String, Vec<u8>>) -> Result<(), Sit
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn print_blocks_leave_the_screen_rules_whole_and_comments_go() {
+        let css = "/* a { } */\nbody { color: red; }\n@media print {\n  .x { content: \"}\"; }\n  @page { margin: 1cm; }\n}\n\
+@media (min-width: 900px) { main { width: 1px; } }\n@media print { .y { display: none; } }\n";
+        let (screen, print) = split_print_rules(css);
+        assert_eq!(
+            screen,
+            "body { color: red; }\n@media (min-width: 900px) { main { width: 1px; } }"
+        );
+        assert_eq!(
+            print,
+            "@media print {\n  .x { content: \"}\"; }\n  @page { margin: 1cm; }\n}\n@media print { .y { display: none; } }\n"
+        );
+        // Nothing lost: every rule is in one part or the other.
+        let (screen, print) = split_print_rules("a{b:c}");
+        assert_eq!((screen.as_str(), print.as_str()), ("a{b:c}", ""));
+    }
+
+    #[test]
+    fn head_script_fills_every_placeholder_and_drops_comment_lines() {
+        let source = "// note\n(function (s, m, w) {\n  // inner\n  go(s, m, w);\n})(\"__PAGE_SCRIPT__\", \"__MODULES__\", \"__WASM__\");\n";
+        let filled = head_script(source, "app.1.js", &["a.2.js".into(), "g\"3.js".into()], "m.4.wasm").unwrap();
+        assert_eq!(
+            filled,
+            "(function (s, m, w) {\n  go(s, m, w);\n})(\"app.1.js\", [\"a.2.js\", \"g\\\"3.js\"], \"m.4.wasm\");"
+        );
+        let missing = head_script("go(\"__PAGE_SCRIPT__\", \"__WASM__\")", "a", &[], "w");
+        assert!(missing.unwrap_err().contains("__MODULES__"));
+        let closing = head_script(
+            "x(\"__PAGE_SCRIPT__\", \"__MODULES__\", \"__WASM__\")",
+            "</script>",
+            &[],
+            "w",
+        );
+        assert!(closing.is_err());
+    }
 
     #[test]
     fn short_hash_is_the_sha256_prefix() {

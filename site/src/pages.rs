@@ -3,25 +3,55 @@
 //! Every page is static HTML that reads well without script: the calculator pages
 //! carry the method note, the cautions and, in `<section id="calculator">`, the
 //! demo's form and result rendered at build time ([`crate::prerender`]); the page
-//! script takes that section over for edits and for links with a query. Their
-//! head requests the page script and the wasm glue (`modulepreload`) and the wasm
-//! module (`preload`, `as="fetch"`, CORS mode like `instantiateStreaming`) while
-//! the HTML is parsed, and loads `query.js`, which marks a page opened with a query. All text from the core (titles,
+//! script takes that section over for edits and for links with a query.
+//!
+//! A first visit needs nothing but the HTML for its first result: the screen rules
+//! of the stylesheet are inlined in a `<style>` element (the print rules are a
+//! separate `media="print"` stylesheet, which does not hold up rendering), and the
+//! one inline script (`site/assets/query.js`) marks a page opened with a query and
+//! loads the page script: at once, with its modules, the glue and the wasm
+//! preloaded, when the link carries a query; after the first paint when it does
+//! not. The content security policy allows exactly those two inline elements by
+//! their SHA-256 hashes ([`csp`]). All text from the core (titles,
 //! summaries, groups, cautions) is HTML-escaped here; the only unescaped markup is
 //! the method note, which [`crate::notes`] renders from our own Markdown.
 //!
 //! Every URL is relative, so the site also works under a sub-path of a static host,
 //! and the content security policy (a meta tag) allows nothing but the site's own
-//! files, plus `'wasm-unsafe-eval'`, without which Chromium refuses to compile the
-//! module. A `referrer` meta tag keeps a calculation's link (its whole query) from
+//! files, the two inline elements by hash, and `'wasm-unsafe-eval'` (without which
+//! Chromium refuses to compile the module). A `referrer` meta tag keeps a calculation's link (its whole query) from
 //! being sent on; the headers a meta tag cannot carry (`frame-ancestors`) come from
 //! the server (see [`crate::server`] and the README).
 
+use base64::Engine as _;
 use fluxledger_core::catalog::{CalculatorSpec, COMMON_CAUTIONS};
+use sha2::{Digest, Sha256};
 
-/// The content security policy of every page.
-pub const CSP: &str = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self'; \
-img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'";
+/// The content security policy of a page: the site's own files, `'wasm-unsafe-eval'`
+/// (without which Chromium refuses to compile the module), and the page's inline
+/// style and script allowed by hash only (never `'unsafe-inline'`).
+pub fn csp(inline_style: &str, inline_script: &str) -> String {
+    let hash = |text: &str| {
+        format!(
+            " 'sha256-{}'",
+            base64::engine::general_purpose::STANDARD.encode(Sha256::digest(text.as_bytes()))
+        )
+    };
+    let script = if inline_script.is_empty() {
+        String::new()
+    } else {
+        hash(inline_script)
+    };
+    let style = if inline_style.is_empty() {
+        String::new()
+    } else {
+        hash(inline_style)
+    };
+    format!(
+        "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'{script}; style-src 'self'{style}; \
+img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'"
+    )
+}
 
 /// Escapes text for HTML element content and double- or single-quoted attributes.
 pub fn escape(text: &str) -> String {
@@ -42,8 +72,11 @@ pub fn escape(text: &str) -> String {
 /// File names and values every page refers to.
 #[derive(Clone, Debug, Default)]
 pub struct PageAssets {
-    /// Hashed stylesheet file name (`style.1a2b3c4d.css`).
+    /// Hashed stylesheet file name (`style.1a2b3c4d.css`): the print rules when
+    /// `inline_style` holds the screen rules (linked `media="print"`), else all.
     pub stylesheet: String,
+    /// The stylesheet's screen rules, inlined in every page's head; empty for none.
+    pub inline_style: String,
     /// Hashed page script file name (`app.1a2b3c4d.js`).
     pub script: String,
     /// Hashed modules of the page script (`js/*.js` as `main.1a2b3c4d.js`…), each
@@ -55,9 +88,10 @@ pub struct PageAssets {
     pub glue: String,
     /// Hashed wasm module, preloaded by calculator pages; empty for none.
     pub wasm: String,
-    /// Hashed classic script that marks a page opened with a query (`query.js`),
-    /// loaded before the body; empty for none.
-    pub query_script: String,
+    /// The inline head script of calculator pages (`query.js` with its
+    /// placeholders filled): marks a page opened with a query and loads the page
+    /// script. Empty: the page script and preloads are plain tags.
+    pub head_script: String,
     /// Theme colour (`#1f4e5f`).
     pub theme_colour: String,
     /// The handbook's version, shown in the footer.
@@ -69,10 +103,10 @@ pub fn page_file(key: &str) -> String {
     format!("{key}.html")
 }
 
-/// The links that let a calculator page request its code early: the page script
-/// and every one of its modules, and the glue, as module preloads, the wasm as a
-/// fetch preload (CORS mode, as `instantiateStreaming` fetches it), so all of them
-/// download while the HTML is parsed instead of one import after another.
+/// The links that let a calculator page request its code early when it has no
+/// inline head script: the page script and every one of its modules, and the glue,
+/// as module preloads, the wasm as a fetch preload (CORS mode, as
+/// `instantiateStreaming` fetches it).
 fn preloads(assets: &PageAssets) -> String {
     let mut html = format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(&assets.script));
     for module in &assets.modules {
@@ -90,14 +124,34 @@ fn preloads(assets: &PageAssets) -> String {
             escape(&assets.wasm)
         ));
     }
-    if !assets.query_script.is_empty() {
-        html.push_str(&format!("<script src=\"{}\"></script>\n", escape(&assets.query_script)));
-    }
     html
 }
 
 pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculator: bool) -> String {
-    let extra = if calculator { preloads(assets) } else { String::new() };
+    let inline_script = if calculator { assets.head_script.as_str() } else { "" };
+    let styles = if assets.inline_style.is_empty() {
+        format!("<link rel=\"stylesheet\" href=\"{}\">\n", escape(&assets.stylesheet))
+    } else {
+        // Our own stylesheet, not escaped (`<` would be wrong in CSS); the build
+        // refuses one that could close the element.
+        format!(
+            "<style>{}</style>\n<link rel=\"stylesheet\" href=\"{}\" media=\"print\">\n",
+            assets.inline_style,
+            escape(&assets.stylesheet)
+        )
+    };
+    let scripts = if !inline_script.is_empty() {
+        format!("<script>{inline_script}</script>\n")
+    } else if calculator {
+        format!(
+            "{}<script type=\"module\" src=\"{}\"></script>\n",
+            preloads(assets),
+            escape(&assets.script)
+        )
+    } else {
+        format!("<script type=\"module\" src=\"{}\"></script>\n", escape(&assets.script))
+    };
+    let csp = csp(&assets.inline_style, inline_script);
     format!(
         concat!(
             "<!doctype html>\n<html lang=\"en\">\n<head>\n",
@@ -108,20 +162,19 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculat
             "<meta name=\"theme-color\" content=\"{theme}\">\n",
             "<meta name=\"description\" content=\"{description}\">\n",
             "<title>{title}</title>\n",
+            "{styles}",
+            "{scripts}",
             "<link rel=\"manifest\" href=\"manifest.webmanifest\">\n",
             "<link rel=\"icon\" href=\"icon.svg\" type=\"image/svg+xml\">\n",
             "<link rel=\"apple-touch-icon\" href=\"icon-192.png\">\n",
-            "<link rel=\"stylesheet\" href=\"{css}\">\n",
-            "{extra}<script type=\"module\" src=\"{js}\"></script>\n",
             "</head>\n"
         ),
-        extra = extra,
-        csp = escape(CSP),
+        styles = styles,
+        scripts = scripts,
+        csp = escape(&csp),
         theme = escape(&assets.theme_colour),
         description = escape(description),
         title = escape(title),
-        css = escape(&assets.stylesheet),
-        js = escape(&assets.script),
     )
 }
 
@@ -280,7 +333,8 @@ mod tests {
             modules: vec!["main.1a1a1a1a.js".into(), "dom.2b2b2b2b.js".into()],
             glue: "fluxledger_wasm.44ee55ff.js".into(),
             wasm: "fluxledger_wasm.66aa77bb.wasm".into(),
-            query_script: "query.88cc99dd.js".into(),
+            inline_style: String::new(),
+            head_script: String::new(),
             theme_colour: "#1f4e5f".into(),
             version: "0.1.0".into(),
         }
@@ -327,11 +381,44 @@ mod tests {
             "<link rel=\"modulepreload\" href=\"dom.2b2b2b2b.js\">",
             "<link rel=\"modulepreload\" href=\"fluxledger_wasm.44ee55ff.js\">",
             "<link rel=\"preload\" href=\"fluxledger_wasm.66aa77bb.wasm\" as=\"fetch\" type=\"application/wasm\" crossorigin>",
-            "<script src=\"query.88cc99dd.js\"></script>",
         ] {
             assert!(page.contains(needle), "missing {needle}:\n{page}");
         }
         assert!(!page.contains(" style="), "no inline styles under the CSP");
+    }
+
+    #[test]
+    fn inline_style_and_script_are_allowed_by_their_hashes_only() {
+        let assets = PageAssets {
+            inline_style: "body { color: red; }".into(),
+            head_script: "go(\"app.22cc33dd.js\");".into(),
+            ..assets()
+        };
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", None, &assets);
+        assert!(page.contains("<style>body { color: red; }</style>"));
+        assert!(page.contains("<link rel=\"stylesheet\" href=\"style.00aa11bb.css\" media=\"print\">"));
+        assert!(page.contains("<script>go(\"app.22cc33dd.js\");</script>"));
+        assert!(!page.contains("modulepreload"), "the head script requests the modules");
+        assert!(!page.contains("unsafe-inline"));
+        // SHA-256 of the texts, computed independently (Python hashlib, base64):
+        // "body { color: red; }" and "go(\"app.22cc33dd.js\");".
+        let policy = csp("body { color: red; }", "go(\"app.22cc33dd.js\");");
+        assert!(page.contains(&escape(&policy)));
+        assert!(
+            policy.contains("style-src 'self' 'sha256-XeYlw2NVzOfB1UCIJqCyGr+0n7bA4fFslFpvKu84IAw='"),
+            "{policy}"
+        );
+        assert!(
+            policy.contains("'wasm-unsafe-eval' 'sha256-DGDfJuHBHrBcjN/CrHl11O76Im1PxekNTwcwkJr+Pp4='"),
+            "{policy}"
+        );
+        // The contents page has no inline script: its policy allows none.
+        let contents = contents_page(&[], &assets);
+        assert!(contents.contains("<script type=\"module\" src=\"app.22cc33dd.js\"></script>"));
+        assert!(
+            !contents.contains("'sha256-DGDfJuHBHrBcjN/CrHl11O76Im1PxekNTwcwkJr+Pp4='")
+                && !contents.contains("&#39;sha256-DGDfJuHBHrBcjN/CrHl11O76Im1PxekNTwcwkJr+Pp4=")
+        );
     }
 
     #[test]

@@ -248,8 +248,15 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
             .any(|h| h.starts_with("fluxledger_wasm.") && h.ends_with(".js")),
         "{preloaded:?}"
     );
-    // Every module of the page script is preloaded from the head too: the chain of
-    // imports (entry → main → render-* → dom…) then costs no round trip per level.
+    // Every module of the page script is preloaded by the head script too (all but
+    // the entry, which the head script requests itself): the chain of imports
+    // (entry → main → render-* → dom…) then costs no round trip per level.
+    let entry = eval(
+        &page,
+        &mut browser,
+        "document.head.querySelector('script[type=module]').getAttribute('src')",
+    );
+    let entry = entry.as_str().unwrap_or_default().to_string();
     let modules = eval(
         &page,
         &mut browser,
@@ -264,11 +271,36 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
         .filter_map(Value::as_str)
         .collect();
     assert!(modules.len() > 3, "the page script's modules were loaded: {modules:?}");
-    let not_preloaded: Vec<&&str> = modules.iter().filter(|m| !preloaded.contains(m)).collect();
+    let not_preloaded: Vec<&&str> = modules
+        .iter()
+        .filter(|m| !preloaded.contains(m) && **m != entry)
+        .collect();
     assert!(
         not_preloaded.is_empty(),
         "modules loaded without a preload in the head: {not_preloaded:?}"
     );
+    // The first result needs the HTML alone: no request holds up rendering (the
+    // screen styles and the head script are inline, the print stylesheet is
+    // `media="print"`), and without a query the page script and the wasm are
+    // requested only after the first paint, so nothing competes with the page.
+    let timing = eval(
+        &page,
+        &mut browser,
+        r#"(() => {
+            const fcp = performance.getEntriesByName("first-contentful-paint")[0]?.startTime ?? -1;
+            const resources = performance.getEntriesByType("resource");
+            return {
+                fcp,
+                blocking: resources.filter((e) => e.renderBlockingStatus === "blocking")
+                    .map((e) => e.name.split("/").pop()),
+                early: resources.filter((e) => /\.(wasm|js)$/.test(e.name) && e.startTime < fcp)
+                    .map((e) => e.name.split("/").pop()),
+            };
+        })()"#,
+    );
+    assert!(timing["fcp"].as_f64().is_some_and(|t| t > 0.0), "{timing}");
+    assert_eq!(timing["blocking"], json!([]), "render-blocking requests: {timing}");
+    assert_eq!(timing["early"], json!([]), "requested before the first paint: {timing}");
     // The preload matches the glue's own fetch (same URL, CORS mode): the module is
     // downloaded once, not twice.
     let fetched = eval(
