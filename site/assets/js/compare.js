@@ -134,6 +134,11 @@ export function updateCompare() {
   const max = sheetDescription().maxPins;
   const pins = (state.pins || []).filter(Boolean);
   const full = pins.length >= max;
+  // Without a pinned case the panel is a button and a line of help: drawn once,
+  // not on every keystroke.
+  const drawn = `${pins.length}/${max}`;
+  if (pins.length === 0 && panel.dataset.drawn === drawn) return;
+  panel.dataset.drawn = drawn;
   const parts = [
     el("h2", { class: "panel-title", text: "Cases side by side" }),
     el(

@@ -99,14 +99,19 @@ function recomputeNextFrame({ writeToUrl }) {
 /** The task that writes the URL after the frame that showed its result. */
 let urlTask = 0;
 
+/** Pause in typing after which the URL is written. */
+const URL_PAUSE_MS = 300;
+
 /**
- * Writes the URL (and the printed sheet's link) in a task of its own: the browser
- * takes milliseconds to replace the URL, and the result it describes is painted
- * first. Several results in a row are written once, the last.
+ * Writes the URL (and the printed sheet's link and QR code) once typing pauses: the
+ * browser takes milliseconds to replace the URL and the QR code is drawn by the
+ * core, so a burst of keystrokes pays for one write, the last, after its results
+ * have been painted. Copying the link, printing, saving a CSV, changing a unit and
+ * leaving the page write it at once (`settlePending`, `pagehide`).
  */
 function writeUrlSoon() {
-  if (urlTask) return;
-  urlTask = setTimeout(writeUrlNow, 0);
+  if (urlTask) clearTimeout(urlTask);
+  urlTask = setTimeout(writeUrlNow, URL_PAUSE_MS);
 }
 
 function writeUrlNow() {
@@ -121,6 +126,10 @@ function writeUrlNow() {
 
 // A reload or a closed tab right after a keystroke still leaves its URL behind.
 window.addEventListener("pagehide", () => {
+  if (urlTask) writeUrlNow();
+});
+// A sheet printed from the browser's menu carries the latest link too.
+window.addEventListener("beforeprint", () => {
   if (urlTask) writeUrlNow();
 });
 
@@ -239,6 +248,8 @@ async function start() {
   const spec = state.spec;
   const fromUrl = readUrl(spec);
   settleInitialValues(spec, fromUrl);
+  const prerendered = document.querySelector("#calculator .details");
+  if (prerendered && prerendered.clientWidth > 0) measureFigureWidth(prerendered);
   buildPage();
   buildSheet();
   buildCompare();

@@ -266,9 +266,12 @@ function finishRender(status) {
   }
 }
 
-/** Width available to figures, in CSS pixels (measured once per layout change). */
-export function measureFigureWidth() {
-  const details = state.ui.details;
+/**
+ * Width available to figures, in CSS pixels (measured once per layout change), in
+ * `details` (by default the page's own; at start the prerendered one, read while
+ * the first paint's layout is still clean instead of forcing a layout mid-build).
+ */
+export function measureFigureWidth(details = state.ui.details) {
   // Panels have 0.75 rem of padding and a 1 px border on each side.
   const width = details ? Math.round(details.clientWidth) - 26 : 0;
   state.figureWidth = width > 0 ? Math.min(width, 720) : 300;
