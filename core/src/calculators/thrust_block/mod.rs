@@ -120,6 +120,17 @@ use super::common::wall::ShownWhen;
 use crate::restraint::soil::SOIL_OPTIONS;
 use crate::restraint::{FittingChoice, Joint, Legs, Plane, JOINT_HELP, MIN_ANGLE};
 
+/// Range of a typed elevation, m (a datum of the user's choosing: site levels,
+/// sea level; from 1 km below to 10 km above it).
+pub const MIN_ELEVATION_M: f64 = -1000.0;
+pub const MAX_ELEVATION_M: f64 = 10_000.0;
+
+const Z_TEST_HELP: &str = "Where the pressures above apply (the gauge of the field test), on any datum, from \
+    −1000 m to 10 000 m. With the fitting's elevation, the fitting is sized at the pressure there plus \
+    ρ·g·(test point − fitting): more below the test point, less above. Empty: no correction.";
+const Z_FITTING_HELP: &str = "Elevation of the fitting's centre line on the same datum as the test point, from \
+    −1000 m to 10 000 m.";
+
 /// The fitting options (derived from [`FittingChoice`]).
 const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
 /// The plane options (derived from [`Plane`]).
@@ -298,7 +309,36 @@ pub fn spec() -> CalculatorSpec {
                 "psi",
                 "7 bar",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
-                "The highest steady operating pressure at the fitting.",
+                "The highest steady operating pressure at the test point (at the fitting when no elevations \
+                are given).",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            optional: true,
+            ..quantity(
+                "z_test",
+                "Elevation of the test point",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
+                Z_TEST_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            optional: true,
+            ..quantity(
+                "z_fitting",
+                "Elevation of the fitting",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
+                Z_FITTING_HELP,
             )
         },
         FieldSpec {
@@ -543,6 +583,16 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("area_d", "Diameter of the thrust area", Q::Length),
             OutputSpec::listed("thrust_area", "Thrust area of the main end", Q::Area),
             OutputSpec::listed("p_test", "Field test pressure", Q::Pressure),
+            OutputSpec::listed(
+                "p_test_point",
+                "Design pressure at the test point (before the elevation correction)",
+                Q::Pressure,
+            ),
+            OutputSpec::listed(
+                "dp_elevation",
+                "Static head from the test point to the fitting ρ·g·(z_test − z_fitting)",
+                Q::Pressure,
+            ),
             OutputSpec::listed("wave_speed", "Pressure wave speed", Q::Velocity),
             OutputSpec::listed("dp_surge", "Joukowsky surge rise ρ·a·ΔV", Q::Pressure),
             OutputSpec::listed("p_surge", "Working pressure plus surge", Q::Pressure),
