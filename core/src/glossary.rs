@@ -145,6 +145,11 @@ pub const TERMS: &[Term] = &[
         "z_test",
         "elevation of the point where the test and working pressures are given",
     ),
+    choice(
+        "surge_from",
+        "where a line schedule's surge allowance comes from",
+        &["typed", "computed"],
+    ),
     term("z_fitting", "elevation of a fitting, on the same datum as z_test"),
     choice(
         "material",

@@ -53,7 +53,10 @@ use crate::catalog::{CalculatorSpec, FieldSpec, Limits, OutputSpec, Report, Valu
 use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 
-use super::common::{choice, quantity, MAX_PRESSURE_PA};
+use super::common::wall::ShownWhen;
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA};
+use super::thrust_block::{MAX_ELEVATION_M, MIN_ELEVATION_M};
+use crate::catalog::ChoiceOption;
 use crate::restraint::pressure::{BASIS_OPTIONS, TEST_RULE_OPTIONS};
 use crate::restraint::soil::SOIL_OPTIONS;
 use crate::restraint::Joint;
@@ -84,8 +87,85 @@ reducer di52_12 di52_8 tag=R1\n\
 bend 22.5deg di52_8 turn=down tag=V1\n\
 dead_end di52_8 tag=H1 h=0.9m";
 
+const SURGE_FROM_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "typed",
+        label: "One typed allowance for every row",
+    },
+    ChoiceOption {
+        key: "computed",
+        label: "Computed for each row's pipe (wave speed from its bore, wall and material)",
+    },
+];
+const SURGE_FROM_HELP: &str = "Typed: one allowance above the working pressure for the whole line. Computed: each \
+    row's Joukowsky rise ρ·a·ΔV with the wave speed of its own pipe, or the slow-closure estimate when a closure \
+    time slower than 2L/a is given, as on the surge page.";
+const Z_TEST_HELP: &str = "Where the page's pressures apply (the gauge of the field test), on any datum, from \
+    −1000 m to 10 000 m. A row with z= is sized at the pressure here plus ρ·g·(z_test − z): more below the test \
+    point, less above.";
+const DV_HELP: &str = "The flow velocity stopped by a fast closure, for rows without dv=.";
+const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of each row's wall; by default the \
+    material of the row's size preset. The wall is half the difference of the row's diameters.";
+
+/// The fields of a surge computed per row: the velocity stopped, the wall
+/// material, the axial restraint, the bulk modulus, and the closure.
+fn computed_surge_fields() -> Vec<FieldSpec> {
+    let computed: ShownWhen = Some(("surge_from", &["computed"]));
+    let mut fields = vec![FieldSpec {
+        visible_when: computed,
+        optional: true,
+        ..quantity(
+            "dv",
+            "Velocity stopped (rows without dv=)",
+            Q::Velocity,
+            "m/s",
+            "ft/s",
+            "",
+            Limits::closed(0.0, 50.0),
+            DV_HELP,
+        )
+    }];
+    fields.extend(
+        common::wave_speed_fields(computed, computed, MATERIAL_HELP)
+            .into_iter()
+            .filter(|f| f.key != "wall"),
+    );
+    fields.extend([
+        FieldSpec {
+            visible_when: computed,
+            optional: true,
+            ..quantity(
+                "length",
+                "Pipe length to the reflecting boundary L",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(1.0, 1e4),
+                "With the closure time: a closure slower than 2L/a takes the slow-closure estimate. Empty: \
+                    the instantaneous Joukowsky rise.",
+            )
+        },
+        FieldSpec {
+            visible_when: computed,
+            optional: true,
+            ..quantity(
+                "closure_time",
+                "Valve closure time t_c",
+                Q::Time,
+                "s",
+                "s",
+                "",
+                Limits::closed(1e-3, 1e5),
+                "Effective closure time; given with the length.",
+            )
+        },
+    ]);
+    fields
+}
+
 pub fn spec() -> CalculatorSpec {
-    let fields = vec![
+    let mut fields = vec![
         FieldSpec {
             kind: crate::catalog::FieldKind::Text,
             si_unit: "",
@@ -142,6 +222,17 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             optional: true,
+            ..choice(
+                "surge_from",
+                "Surge allowance",
+                SURGE_FROM_OPTIONS,
+                "typed",
+                SURGE_FROM_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("surge_from", &["typed"])),
+            optional: true,
             ..quantity(
                 "dp_surge",
                 "Surge allowance above working",
@@ -151,6 +242,22 @@ pub fn spec() -> CalculatorSpec {
                 "",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
                 "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.",
+            )
+        },
+    ];
+    fields.extend(computed_surge_fields());
+    fields.extend([
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "z_test",
+                "Elevation of the test point (rows with z=)",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
+                Z_TEST_HELP,
             )
         },
         choice(
@@ -211,7 +318,7 @@ pub fn spec() -> CalculatorSpec {
             Limits::closed(10e3, 40e3),
             "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy.",
         ),
-    ];
+    ]);
     CalculatorSpec {
         key: KEY,
         title: "Line schedule: thrust blocks along a line",
@@ -226,11 +333,15 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::headline("total_volume", "Total gravity-block concrete", Q::Volume),
             OutputSpec::listed("row_count", "Fittings", Q::Ratio),
             OutputSpec::listed("total_thrust", "Sum of thrust magnitudes (block loads)", Q::Force),
-            OutputSpec::listed("p_design", "Design pressure of rows without their own", Q::Pressure),
+            OutputSpec::listed(
+                "p_design",
+                "Design pressure of rows without their own (at the test point; typed or no surge)",
+                Q::Pressure,
+            ),
         ],
         cautions: vec![
-            "Every row uses one design pressure: check that the test and surge pressures at each fitting, at \
-                    its elevation, are covered.",
+            "Rows without z= are sized at the pressure of the test point: give each fitting's elevation, or \
+                    check that the test and surge pressures at each fitting are covered.",
             "Soil values need a geotechnical basis at each block; one soil for the whole line is a \
                     simplification.",
             "Blocks near each other, near other services or in fill need individual design.",
