@@ -176,10 +176,12 @@ keyed_choice! {
 impl Material {
     /// The wall material of a pipe size preset's family.
     pub fn of_family(family: pipe_sizes::Family) -> Material {
+        use pipe_sizes::Family as F;
         match family {
-            pipe_sizes::Family::SteelSch40 | pipe_sizes::Family::SteelSch80 => Material::Steel,
-            pipe_sizes::Family::DuctileIronClass52 => Material::DuctileIron,
-            pipe_sizes::Family::PvcC900Dr18 => Material::Pvc,
+            F::SteelSch40 | F::SteelSch80 | F::SteelEn10220 => Material::Steel,
+            F::DuctileIronClass52 | F::DuctileIronEn545K9 => Material::DuctileIron,
+            F::PvcC900Dr18 | F::PvcIso1452Sdr21 | F::PvcIso1452Sdr17 => Material::Pvc,
+            F::PeIso4427Sdr11 | F::PeIso4427Sdr17 => Material::Pe,
         }
     }
 }
