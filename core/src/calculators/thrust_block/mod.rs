@@ -322,7 +322,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Length,
                 "m",
                 "ft",
-                "",
+                "0 m",
                 Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
                 Z_TEST_HELP,
             )
@@ -336,7 +336,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Length,
                 "m",
                 "ft",
-                "",
+                "0 m",
                 Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
                 Z_FITTING_HELP,
             )
