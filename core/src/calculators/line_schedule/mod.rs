@@ -18,6 +18,22 @@
 //! pA_branch, p(A₁ − A₂), or the typed force) with [`Report::check`]. EN 805 rows
 //! use MDP = working + 200 kPa (see [`crate::restraint::pressure::TEST_RULES`]).
 //!
+//! **Surge per row** (`surge_from=computed`): instead of one typed allowance, each
+//! row's own pipe gives it, by the surge page's method ([`crate::calculators::surge`]):
+//! the wave speed a = √((K/ρ)/(1 + c₁·K·D/(E·e))) from the row's bore D, its wall
+//! e = (OD − ID)/2 and its material (the size preset's family, or the page's
+//! `material`), then the Joukowsky rise ρ·a·ΔV (ΔV the page's `dv` or the row's
+//! `dv=`), or with `length` and `closure_time` given and t_c > 2L/a the smaller
+//! slow-closure estimate 2ρLΔV/t_c (Wylie & Streeter; Chaudhry; forms from memory).
+//!
+//! **Elevation**: the page's pressures are those at the test point, at `z_test`; a
+//! row with `z=` is sized at the basis pressure plus ρ·g·(z_test − z)
+//! ([`crate::restraint::pressure::elevation_head`]; water at 15 °C, standard
+//! gravity), checked against the engine's still-line energy balance
+//! ([`crate::restraint::pressure::hydrostatic_by_energy_balance`]). A row's own `p=`
+//! is the pressure at that fitting and takes no `z=`; rows without `z=` are sized at
+//! the test point's pressure and listed in a warning when `z_test` is given.
+//!
 //! # Row format (ours; one fitting per line, `#` starts a comment)
 //! ```text
 //! KIND [TOKEN ...]
@@ -35,7 +51,9 @@
 //!   `turn=` (`left`, `right` in plan; `down` a crest: thrust up, gravity block;
 //!   `up` a sag: thrust down), `legs=` (a vertical bend's legs: `symmetric`, both
 //!   sloped by θ/2, uplift 2pA·sin(θ/2), the default; `one_level`, uplift pA·sin θ),
-//!   `thrust=` (force rows, 1 N to 1 GN), `tag=` (a label, no spaces).
+//!   `thrust=` (force rows, 1 N to 1 GN), `tag=` (a label, no spaces), `z=` (the
+//!   fitting's elevation, −1000 m to 10 000 m), `dv=` (the velocity stopped in this
+//!   row's pipe, computed surge).
 //! - Quantities carry their unit (`12in`, `0.9m`, `10bar`); a bare number is refused.
 //!
 //! Example: `bend 45deg di52_12 nfpa24_sand tag=B1` or
@@ -428,6 +446,42 @@ mod tests {
             let there = t.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
             assert_relative_eq!(here, there, max_relative = 1e-6);
         }
+    }
+
+    #[test]
+    fn a_row_below_the_test_point_matches_the_thrust_restraint_page_given_both_elevations() {
+        let pairs = [("p_basis", "operating"), ("p", "10 bar"), ("z_test", "100 m")];
+        let s = crate::solve(KEY, &request("dead_end d=200mm od=219.1mm joint=welded z=70m", &pairs))
+            .result
+            .unwrap_or_else(|e| panic!("{e}"));
+        let mut page = Request::default();
+        for (k, v) in demo_inputs(&crate::calculators::thrust_block::spec()) {
+            page.inputs.insert(k, v);
+        }
+        for (k, v) in [
+            ("fitting", "dead_end"),
+            ("size", "custom"),
+            ("d", "200 mm"),
+            ("od", "219.1 mm"),
+            ("joint", "welded"),
+            ("p_basis", "operating"),
+            ("p", "10 bar"),
+            ("z_test", "100 m"),
+            ("z_fitting", "70 m"),
+            ("fluid", "water"),
+            ("t", "15 degC"),
+        ] {
+            page.inputs.insert(k.to_string(), v.to_string());
+        }
+        let t = crate::solve(crate::calculators::thrust_block::KEY, &page)
+            .result
+            .unwrap_or_else(|e| panic!("{e}"));
+        let here = s.output("max_thrust").map(|o| o.si).unwrap_or(0.0);
+        let there = t.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
+        assert_relative_eq!(here, there, max_relative = 1e-9);
+        // 30 m of water below the test point: more than at the test point.
+        assert!(here > 1e6 * PI * 0.04 / 4.0 * 1.28, "{here}");
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
     }
 
     #[test]

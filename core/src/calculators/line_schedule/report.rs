@@ -127,7 +127,7 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
                 .unwrap_or_default(),
             basis_text(&s.from, inputs.basis),
             s.row.z.map(|z| cell(z, Q::Length, z_unit)).unwrap_or_default(),
-            surge_text(s, inputs, |v| cell(v, Q::Pressure, p_unit)),
+            surge_text(s, inputs, |v| cell(v, Q::Pressure, p_unit), report),
             cell(s.p, Q::Pressure, p_unit),
             cell(s.thrust.norm(), Q::Force, f_unit),
             direction_text(&s.row, s.plane, s.thrust),
@@ -198,7 +198,7 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
 
 /// The surge cell of a row: the computed allowance with its wave speed and method,
 /// the page's typed allowance, or nothing.
-fn surge_text(s: &SolvedRow, inputs: &Inputs, pressure: impl Fn(f64) -> String) -> String {
+fn surge_text(s: &SolvedRow, inputs: &Inputs, pressure: impl Fn(f64) -> String, report: &Report<'_>) -> String {
     if matches!(s.from, DesignFrom::RowPressure) || matches!(s.row.kind, RowKind::Force) {
         return String::new();
     }
@@ -208,10 +208,10 @@ fn surge_text(s: &SolvedRow, inputs: &Inputs, pressure: impl Fn(f64) -> String) 
     }
     match (s.surge, inputs.surge) {
         (Some(r), _) => format!(
-            "{} ({}, a = {:.0} m/s)",
+            "{} ({}, a = {})",
             pressure(r.dp),
             if r.slow { "slow closure" } else { "Joukowsky" },
-            r.wave_speed
+            report.fmt(r.wave_speed, Q::Velocity)
         ),
         (None, Some(typed)) => format!("{} (typed)", pressure(typed.value)),
         (None, None) => String::new(),

@@ -20,6 +20,13 @@
 //!    Young's modulus and c₁ the axial-restraint factor (1 for pipe with expansion
 //!    joints throughout, which jointed pipe approximates; 1 − ν² anchored against
 //!    axial movement; 1 − ν/2 anchored at the upstream end only).
+//!    **Elevation**: the pressures typed are those at the test point (`z_test`);
+//!    the fitting (`z_fitting`, same datum) is sized at the basis pressure plus the
+//!    static head ρ·g·(z_test − z_fitting), g = 9.80665 m/s² (hydrostatics, derived
+//!    from the definition; [`crate::restraint::pressure::elevation_head`]), checked
+//!    against the engine's energy balance of the still line between the two
+//!    elevations. Both default to 0 m (no correction); one without the other, or a
+//!    fitting so high that its pressure falls below zero gauge, is refused.
 //! 2. **Thrust**, from the engine: a control volume around the fitting, zero flow,
 //!    the design pressure at the inlet and the other faces solved by the energy
 //!    balance (no flow, same point: the same pressure). The momentum balance then
@@ -70,7 +77,8 @@
 //! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p` (the working pressure, gauge),
 //!   `test_rule` (`en805` | `en805_surge` | `c600` | `c605` | `nfpa24` | `custom`),
 //!   `mdp` (EN 805), `p_test`, `dv`, `material` (`from_size`: the size preset's
-//!   material, the default), `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; fluid fields
+//!   material, the default), `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; `z_test`
+//!   and `z_fitting` (elevations of the test point and of the fitting); fluid fields
 //!   `fluid`, `t`, `rho`, `mu`.
 //! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
 //!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,

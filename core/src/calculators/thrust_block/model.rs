@@ -254,6 +254,8 @@ fn read_elevations(values: &Values) -> Result<Option<Elevations>, FieldError> {
         values.typed_opt::<Length>("z_test"),
         values.typed_opt::<Length>("z_fitting"),
     ) {
+        // At one elevation there is nothing to correct, and nothing to show.
+        (Some(z_test), Some(z_fitting)) if z_test == z_fitting => Ok(None),
         (Some(z_test), Some(z_fitting)) => Ok(Some(Elevations { z_test, z_fitting })),
         (None, None) => Ok(None),
         (Some(_), None) => Err(FieldError::inconsistent(
