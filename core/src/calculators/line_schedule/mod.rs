@@ -485,6 +485,24 @@ mod tests {
     }
 
     #[test]
+    fn a_computed_surge_is_asked_for_only_where_the_basis_uses_it() {
+        let rows = "dead_end sch40_12 joint=welded";
+        let on = |basis: &str| {
+            let pairs = [("p_basis", basis), ("p", "5 bar"), ("surge_from", "computed")];
+            crate::solve(KEY, &request(rows, &pairs)).result
+        };
+        // Operating: no surge used, so no velocity needed.
+        assert!(on("operating").is_ok());
+        // Surge: the velocity stopped is needed, and the error says where to give it.
+        match on("surge") {
+            Err(crate::SolveError::Fields(e)) => {
+                assert!(e[0].kind.to_string().contains("give the velocity stopped"), "{e:?}")
+            }
+            other => panic!("expected an error, got {other:?}"),
+        }
+    }
+
+    #[test]
     fn unchecked_sliding_of_a_vertical_block_is_said() {
         let said = |rows: &str| {
             let s = crate::solve(KEY, &request(rows, &[]))

@@ -207,6 +207,12 @@ fn read_surge_settings(values: &Values) -> Result<SurgeSettings, FieldErrors> {
     })
 }
 
+/// Whether the page's basis or test rule uses a surge allowance at all (a computed
+/// surge that nothing uses is not computed, so it asks for nothing).
+pub fn surge_used(inputs: &Inputs) -> bool {
+    inputs.basis.wants_surge() || matches!(&inputs.test, Some(TestBasis::Rule(r)) if r.needs_surge)
+}
+
 /// A row's computed surge.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct RowSurge {
@@ -388,7 +394,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
         RowKind::Force => None,
     };
     let surge = match (&inputs.computed_surge, main) {
-        (Some(settings), Some(main)) if row.p.is_none() => {
+        (Some(settings), Some(main)) if row.p.is_none() && surge_used(inputs) => {
             Some(row_surge(row, main, settings, fluid).map_err(|m| (false, m))?)
         }
         _ => None,

@@ -13,7 +13,7 @@ use crate::restraint::{FittingKind, Legs, Plane};
 use crate::units::{self, QuantityKind as Q};
 use crate::vector::Vec3;
 
-use super::model::{design_of, DesignFrom, Inputs, SoilUsed, SolvedRow, TestBasis};
+use super::model::{design_of, surge_used, DesignFrom, Inputs, SoilUsed, SolvedRow};
 use super::rows::{Row, RowKind};
 
 /// Writes the report of a solved schedule.
@@ -202,8 +202,7 @@ fn surge_text(s: &SolvedRow, inputs: &Inputs, pressure: impl Fn(f64) -> String, 
     if matches!(s.from, DesignFrom::RowPressure) || matches!(s.row.kind, RowKind::Force) {
         return String::new();
     }
-    let rule_adds_surge = matches!(&inputs.test, Some(TestBasis::Rule(r)) if r.needs_surge);
-    if !inputs.basis.wants_surge() && !rule_adds_surge {
+    if !surge_used(inputs) {
         return String::new();
     }
     match (s.surge, inputs.surge) {
