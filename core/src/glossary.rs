@@ -141,6 +141,16 @@ pub const TERMS: &[Term] = &[
     term("length", "pipe length from a closing valve to the reflecting boundary"),
     term("closure_time", "effective closure time of a valve"),
     term("run_length", "length of a straight run between two elbows"),
+    term(
+        "z_test",
+        "elevation of the point where the test and working pressures are given",
+    ),
+    choice(
+        "surge_from",
+        "where a line schedule's surge allowance comes from",
+        &["typed", "computed"],
+    ),
+    term("z_fitting", "elevation of a fitting, on the same datum as z_test"),
     choice(
         "material",
         "pipe wall material (wave speed)",

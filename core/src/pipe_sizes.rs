@@ -17,8 +17,19 @@
 //! - PVC pressure pipe, AWWA C900 DR18 (cast-iron outside diameters), 4 to 12 in:
 //!   `fluids==1.0.26`, `fluids.piping.nearest_pipe(NPS=n, schedule='DR18C900')`.
 //!
-//! Metric PE and PVC series are not included: their wall thicknesses follow a
-//! rounding rule (ISO 4065) that we could not reproduce from a library here.
+//! - Ductile iron to EN 545 (DN 80 to DN 1200): the socket-and-spigot pipe's outside
+//!   diameter DE and the class K9 nominal wall e = 9 × (0.5 + 0.001·DN) mm, at least
+//!   6 mm (EN 545:2006; from memory). Later editions (EN 545:2010) grade pipe by
+//!   pressure class (C25, C30, C40, …) with other walls: type the wall or the bore
+//!   for those. ID = DE − 2e, before the cement-mortar lining.
+//! - PE to ISO 4427-2 (SDR 11 and SDR 17, 63 to 1000 mm) and PVC-U to ISO 1452-2
+//!   (SDR 21 and SDR 17, 90 to 630 mm): the nominal outside diameter and the minimum
+//!   wall e_min of the ISO 4065 series, typed from memory of the ISO 4427-2 table and
+//!   checked against pipe makers' reproductions of it; ID = OD − 2·e_min (the mean
+//!   wall is a little thicker, so the bore is a little smaller).
+//! - Steel to EN 10220 (series 1 outside diameters, 60.3 to 610 mm) with one common
+//!   wall of the standard's wall series per size (from memory; the pairing of wall
+//!   and size is common practice, no source): type the wall or bore for another.
 
 use crate::catalog::ChoiceOption;
 
@@ -29,6 +40,12 @@ pub enum Family {
     SteelSch80,
     DuctileIronClass52,
     PvcC900Dr18,
+    DuctileIronEn545K9,
+    PeIso4427Sdr11,
+    PeIso4427Sdr17,
+    PvcIso1452Sdr21,
+    PvcIso1452Sdr17,
+    SteelEn10220,
 }
 
 impl Family {
@@ -38,6 +55,14 @@ impl Family {
             Family::SteelSch40 | Family::SteelSch80 => "ASME B36.10M via fluids==1.0.26 nearest_pipe",
             Family::DuctileIronClass52 => "AWWA C150/C151 special thickness class table (from memory, checked)",
             Family::PvcC900Dr18 => "AWWA C900 via fluids==1.0.26 nearest_pipe",
+            Family::DuctileIronEn545K9 => "EN 545 outside diameters, class K9 wall (from memory)",
+            Family::PeIso4427Sdr11 | Family::PeIso4427Sdr17 => {
+                "ISO 4427-2 table of wall thicknesses (from memory, checked)"
+            }
+            Family::PvcIso1452Sdr21 | Family::PvcIso1452Sdr17 => {
+                "ISO 1452-2 table of wall thicknesses (from memory, checked)"
+            }
+            Family::SteelEn10220 => "EN 10220 outside diameters and wall series (from memory)",
         }
     }
 }
@@ -386,6 +411,902 @@ pub const SIZES: &[PipeSize] = &[
         od: 0.33530000000000004,
         id: 0.29806,
     },
+    // EN 545: DE 98 mm, K9 wall 9 x (0.5 + 0.001 x 80) = 6.0 mm
+    PipeSize {
+        key: "en545k9_80",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 80",
+        od: 0.098,
+        id: 0.08600000000000001,
+    },
+    // EN 545: DE 118 mm, K9 wall 9 x (0.5 + 0.001 x 100) = 6.0 mm
+    PipeSize {
+        key: "en545k9_100",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 100",
+        od: 0.11800000000000001,
+        id: 0.106,
+    },
+    // EN 545: DE 144 mm, K9 wall 9 x (0.5 + 0.001 x 125) = 6.0 mm
+    PipeSize {
+        key: "en545k9_125",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 125",
+        od: 0.14400000000000002,
+        id: 0.132,
+    },
+    // EN 545: DE 170 mm, K9 wall 9 x (0.5 + 0.001 x 150) = 6.0 mm
+    PipeSize {
+        key: "en545k9_150",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 150",
+        od: 0.17,
+        id: 0.158,
+    },
+    // EN 545: DE 222 mm, K9 wall 9 x (0.5 + 0.001 x 200) = 6.3 mm
+    PipeSize {
+        key: "en545k9_200",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 200",
+        od: 0.222,
+        id: 0.2094,
+    },
+    // EN 545: DE 274 mm, K9 wall 9 x (0.5 + 0.001 x 250) = 6.75 mm
+    PipeSize {
+        key: "en545k9_250",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 250",
+        od: 0.274,
+        id: 0.2605,
+    },
+    // EN 545: DE 326 mm, K9 wall 9 x (0.5 + 0.001 x 300) = 7.2 mm
+    PipeSize {
+        key: "en545k9_300",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 300",
+        od: 0.326,
+        id: 0.31160000000000004,
+    },
+    // EN 545: DE 378 mm, K9 wall 9 x (0.5 + 0.001 x 350) = 7.65 mm
+    PipeSize {
+        key: "en545k9_350",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 350",
+        od: 0.378,
+        id: 0.3627,
+    },
+    // EN 545: DE 429 mm, K9 wall 9 x (0.5 + 0.001 x 400) = 8.1 mm
+    PipeSize {
+        key: "en545k9_400",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 400",
+        od: 0.429,
+        id: 0.4128,
+    },
+    // EN 545: DE 480 mm, K9 wall 9 x (0.5 + 0.001 x 450) = 8.55 mm
+    PipeSize {
+        key: "en545k9_450",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 450",
+        od: 0.48,
+        id: 0.4629,
+    },
+    // EN 545: DE 532 mm, K9 wall 9 x (0.5 + 0.001 x 500) = 9.0 mm
+    PipeSize {
+        key: "en545k9_500",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 500",
+        od: 0.532,
+        id: 0.514,
+    },
+    // EN 545: DE 635 mm, K9 wall 9 x (0.5 + 0.001 x 600) = 9.9 mm
+    PipeSize {
+        key: "en545k9_600",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 600",
+        od: 0.635,
+        id: 0.6152000000000001,
+    },
+    // EN 545: DE 738 mm, K9 wall 9 x (0.5 + 0.001 x 700) = 10.8 mm
+    PipeSize {
+        key: "en545k9_700",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 700",
+        od: 0.738,
+        id: 0.7164,
+    },
+    // EN 545: DE 842 mm, K9 wall 9 x (0.5 + 0.001 x 800) = 11.7 mm
+    PipeSize {
+        key: "en545k9_800",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 800",
+        od: 0.842,
+        id: 0.8186,
+    },
+    // EN 545: DE 945 mm, K9 wall 9 x (0.5 + 0.001 x 900) = 12.6 mm
+    PipeSize {
+        key: "en545k9_900",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 900",
+        od: 0.9450000000000001,
+        id: 0.9198,
+    },
+    // EN 545: DE 1048 mm, K9 wall 9 x (0.5 + 0.001 x 1000) = 13.5 mm
+    PipeSize {
+        key: "en545k9_1000",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 1000",
+        od: 1.048,
+        id: 1.0210000000000001,
+    },
+    // EN 545: DE 1152 mm, K9 wall 9 x (0.5 + 0.001 x 1100) = 14.4 mm
+    PipeSize {
+        key: "en545k9_1100",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 1100",
+        od: 1.1520000000000001,
+        id: 1.1232,
+    },
+    // EN 545: DE 1255 mm, K9 wall 9 x (0.5 + 0.001 x 1200) = 15.3 mm
+    PipeSize {
+        key: "en545k9_1200",
+        family: Family::DuctileIronEn545K9,
+        nominal: "DN 1200",
+        od: 1.2550000000000001,
+        id: 1.2244000000000002,
+    },
+    // ISO 4427-2: 63 x 5.8 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_63",
+        family: Family::PeIso4427Sdr11,
+        nominal: "63 mm",
+        od: 0.063,
+        id: 0.0514,
+    },
+    // ISO 4427-2: 75 x 6.8 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_75",
+        family: Family::PeIso4427Sdr11,
+        nominal: "75 mm",
+        od: 0.075,
+        id: 0.0614,
+    },
+    // ISO 4427-2: 90 x 8.2 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_90",
+        family: Family::PeIso4427Sdr11,
+        nominal: "90 mm",
+        od: 0.09,
+        id: 0.0736,
+    },
+    // ISO 4427-2: 110 x 10.0 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_110",
+        family: Family::PeIso4427Sdr11,
+        nominal: "110 mm",
+        od: 0.11,
+        id: 0.09,
+    },
+    // ISO 4427-2: 125 x 11.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_125",
+        family: Family::PeIso4427Sdr11,
+        nominal: "125 mm",
+        od: 0.125,
+        id: 0.1022,
+    },
+    // ISO 4427-2: 140 x 12.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_140",
+        family: Family::PeIso4427Sdr11,
+        nominal: "140 mm",
+        od: 0.14,
+        id: 0.1146,
+    },
+    // ISO 4427-2: 160 x 14.6 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_160",
+        family: Family::PeIso4427Sdr11,
+        nominal: "160 mm",
+        od: 0.16,
+        id: 0.13080000000000003,
+    },
+    // ISO 4427-2: 180 x 16.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_180",
+        family: Family::PeIso4427Sdr11,
+        nominal: "180 mm",
+        od: 0.18,
+        id: 0.1472,
+    },
+    // ISO 4427-2: 200 x 18.2 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_200",
+        family: Family::PeIso4427Sdr11,
+        nominal: "200 mm",
+        od: 0.2,
+        id: 0.1636,
+    },
+    // ISO 4427-2: 225 x 20.5 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_225",
+        family: Family::PeIso4427Sdr11,
+        nominal: "225 mm",
+        od: 0.225,
+        id: 0.184,
+    },
+    // ISO 4427-2: 250 x 22.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_250",
+        family: Family::PeIso4427Sdr11,
+        nominal: "250 mm",
+        od: 0.25,
+        id: 0.2046,
+    },
+    // ISO 4427-2: 280 x 25.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_280",
+        family: Family::PeIso4427Sdr11,
+        nominal: "280 mm",
+        od: 0.28,
+        id: 0.2292,
+    },
+    // ISO 4427-2: 315 x 28.6 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_315",
+        family: Family::PeIso4427Sdr11,
+        nominal: "315 mm",
+        od: 0.315,
+        id: 0.25780000000000003,
+    },
+    // ISO 4427-2: 355 x 32.2 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_355",
+        family: Family::PeIso4427Sdr11,
+        nominal: "355 mm",
+        od: 0.355,
+        id: 0.2906,
+    },
+    // ISO 4427-2: 400 x 36.3 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_400",
+        family: Family::PeIso4427Sdr11,
+        nominal: "400 mm",
+        od: 0.4,
+        id: 0.32739999999999997,
+    },
+    // ISO 4427-2: 450 x 40.9 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_450",
+        family: Family::PeIso4427Sdr11,
+        nominal: "450 mm",
+        od: 0.45,
+        id: 0.36819999999999997,
+    },
+    // ISO 4427-2: 500 x 45.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_500",
+        family: Family::PeIso4427Sdr11,
+        nominal: "500 mm",
+        od: 0.5,
+        id: 0.4092,
+    },
+    // ISO 4427-2: 560 x 50.8 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_560",
+        family: Family::PeIso4427Sdr11,
+        nominal: "560 mm",
+        od: 0.56,
+        id: 0.4584,
+    },
+    // ISO 4427-2: 630 x 57.2 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_630",
+        family: Family::PeIso4427Sdr11,
+        nominal: "630 mm",
+        od: 0.63,
+        id: 0.5156000000000001,
+    },
+    // ISO 4427-2: 710 x 64.5 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_710",
+        family: Family::PeIso4427Sdr11,
+        nominal: "710 mm",
+        od: 0.71,
+        id: 0.581,
+    },
+    // ISO 4427-2: 800 x 72.6 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_800",
+        family: Family::PeIso4427Sdr11,
+        nominal: "800 mm",
+        od: 0.8,
+        id: 0.6547999999999999,
+    },
+    // ISO 4427-2: 900 x 81.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_900",
+        family: Family::PeIso4427Sdr11,
+        nominal: "900 mm",
+        od: 0.9,
+        id: 0.7366,
+    },
+    // ISO 4427-2: 1000 x 90.2 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr11_1000",
+        family: Family::PeIso4427Sdr11,
+        nominal: "1000 mm",
+        od: 1.0,
+        id: 0.8196,
+    },
+    // ISO 4427-2: 63 x 3.8 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_63",
+        family: Family::PeIso4427Sdr17,
+        nominal: "63 mm",
+        od: 0.063,
+        id: 0.0554,
+    },
+    // ISO 4427-2: 75 x 4.5 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_75",
+        family: Family::PeIso4427Sdr17,
+        nominal: "75 mm",
+        od: 0.075,
+        id: 0.066,
+    },
+    // ISO 4427-2: 90 x 5.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_90",
+        family: Family::PeIso4427Sdr17,
+        nominal: "90 mm",
+        od: 0.09,
+        id: 0.0792,
+    },
+    // ISO 4427-2: 110 x 6.6 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_110",
+        family: Family::PeIso4427Sdr17,
+        nominal: "110 mm",
+        od: 0.11,
+        id: 0.0968,
+    },
+    // ISO 4427-2: 125 x 7.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_125",
+        family: Family::PeIso4427Sdr17,
+        nominal: "125 mm",
+        od: 0.125,
+        id: 0.1102,
+    },
+    // ISO 4427-2: 140 x 8.3 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_140",
+        family: Family::PeIso4427Sdr17,
+        nominal: "140 mm",
+        od: 0.14,
+        id: 0.12340000000000001,
+    },
+    // ISO 4427-2: 160 x 9.5 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_160",
+        family: Family::PeIso4427Sdr17,
+        nominal: "160 mm",
+        od: 0.16,
+        id: 0.14100000000000001,
+    },
+    // ISO 4427-2: 180 x 10.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_180",
+        family: Family::PeIso4427Sdr17,
+        nominal: "180 mm",
+        od: 0.18,
+        id: 0.1586,
+    },
+    // ISO 4427-2: 200 x 11.9 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_200",
+        family: Family::PeIso4427Sdr17,
+        nominal: "200 mm",
+        od: 0.2,
+        id: 0.1762,
+    },
+    // ISO 4427-2: 225 x 13.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_225",
+        family: Family::PeIso4427Sdr17,
+        nominal: "225 mm",
+        od: 0.225,
+        id: 0.1982,
+    },
+    // ISO 4427-2: 250 x 14.8 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_250",
+        family: Family::PeIso4427Sdr17,
+        nominal: "250 mm",
+        od: 0.25,
+        id: 0.2204,
+    },
+    // ISO 4427-2: 280 x 16.6 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_280",
+        family: Family::PeIso4427Sdr17,
+        nominal: "280 mm",
+        od: 0.28,
+        id: 0.24680000000000002,
+    },
+    // ISO 4427-2: 315 x 18.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_315",
+        family: Family::PeIso4427Sdr17,
+        nominal: "315 mm",
+        od: 0.315,
+        id: 0.2776,
+    },
+    // ISO 4427-2: 355 x 21.1 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_355",
+        family: Family::PeIso4427Sdr17,
+        nominal: "355 mm",
+        od: 0.355,
+        id: 0.3128,
+    },
+    // ISO 4427-2: 400 x 23.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_400",
+        family: Family::PeIso4427Sdr17,
+        nominal: "400 mm",
+        od: 0.4,
+        id: 0.3526,
+    },
+    // ISO 4427-2: 450 x 26.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_450",
+        family: Family::PeIso4427Sdr17,
+        nominal: "450 mm",
+        od: 0.45,
+        id: 0.3966,
+    },
+    // ISO 4427-2: 500 x 29.7 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_500",
+        family: Family::PeIso4427Sdr17,
+        nominal: "500 mm",
+        od: 0.5,
+        id: 0.44060000000000005,
+    },
+    // ISO 4427-2: 560 x 33.2 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_560",
+        family: Family::PeIso4427Sdr17,
+        nominal: "560 mm",
+        od: 0.56,
+        id: 0.49360000000000004,
+    },
+    // ISO 4427-2: 630 x 37.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_630",
+        family: Family::PeIso4427Sdr17,
+        nominal: "630 mm",
+        od: 0.63,
+        id: 0.5552,
+    },
+    // ISO 4427-2: 710 x 42.1 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_710",
+        family: Family::PeIso4427Sdr17,
+        nominal: "710 mm",
+        od: 0.71,
+        id: 0.6258,
+    },
+    // ISO 4427-2: 800 x 47.4 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_800",
+        family: Family::PeIso4427Sdr17,
+        nominal: "800 mm",
+        od: 0.8,
+        id: 0.7052,
+    },
+    // ISO 4427-2: 900 x 53.3 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_900",
+        family: Family::PeIso4427Sdr17,
+        nominal: "900 mm",
+        od: 0.9,
+        id: 0.7934,
+    },
+    // ISO 4427-2: 1000 x 59.3 mm (e_min)
+    PipeSize {
+        key: "iso4427sdr17_1000",
+        family: Family::PeIso4427Sdr17,
+        nominal: "1000 mm",
+        od: 1.0,
+        id: 0.8814,
+    },
+    // ISO 1452-2: 90 x 4.3 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_90",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "90 mm",
+        od: 0.09,
+        id: 0.08140000000000001,
+    },
+    // ISO 1452-2: 110 x 5.3 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_110",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "110 mm",
+        od: 0.11,
+        id: 0.0994,
+    },
+    // ISO 1452-2: 125 x 6.0 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_125",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "125 mm",
+        od: 0.125,
+        id: 0.113,
+    },
+    // ISO 1452-2: 140 x 6.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_140",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "140 mm",
+        od: 0.14,
+        id: 0.1266,
+    },
+    // ISO 1452-2: 160 x 7.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_160",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "160 mm",
+        od: 0.16,
+        id: 0.1446,
+    },
+    // ISO 1452-2: 180 x 8.6 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_180",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "180 mm",
+        od: 0.18,
+        id: 0.16280000000000003,
+    },
+    // ISO 1452-2: 200 x 9.6 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_200",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "200 mm",
+        od: 0.2,
+        id: 0.18080000000000002,
+    },
+    // ISO 1452-2: 225 x 10.8 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_225",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "225 mm",
+        od: 0.225,
+        id: 0.2034,
+    },
+    // ISO 1452-2: 250 x 11.9 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_250",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "250 mm",
+        od: 0.25,
+        id: 0.22619999999999998,
+    },
+    // ISO 1452-2: 280 x 13.4 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_280",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "280 mm",
+        od: 0.28,
+        id: 0.2532,
+    },
+    // ISO 1452-2: 315 x 15.0 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_315",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "315 mm",
+        od: 0.315,
+        id: 0.28500000000000003,
+    },
+    // ISO 1452-2: 355 x 16.9 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_355",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "355 mm",
+        od: 0.355,
+        id: 0.3212,
+    },
+    // ISO 1452-2: 400 x 19.1 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_400",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "400 mm",
+        od: 0.4,
+        id: 0.3618,
+    },
+    // ISO 1452-2: 450 x 21.5 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_450",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "450 mm",
+        od: 0.45,
+        id: 0.40700000000000003,
+    },
+    // ISO 1452-2: 500 x 23.9 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_500",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "500 mm",
+        od: 0.5,
+        id: 0.4522,
+    },
+    // ISO 1452-2: 560 x 26.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_560",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "560 mm",
+        od: 0.56,
+        id: 0.5066,
+    },
+    // ISO 1452-2: 630 x 30.0 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr21_630",
+        family: Family::PvcIso1452Sdr21,
+        nominal: "630 mm",
+        od: 0.63,
+        id: 0.5700000000000001,
+    },
+    // ISO 1452-2: 90 x 5.4 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_90",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "90 mm",
+        od: 0.09,
+        id: 0.0792,
+    },
+    // ISO 1452-2: 110 x 6.6 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_110",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "110 mm",
+        od: 0.11,
+        id: 0.0968,
+    },
+    // ISO 1452-2: 125 x 7.4 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_125",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "125 mm",
+        od: 0.125,
+        id: 0.1102,
+    },
+    // ISO 1452-2: 140 x 8.3 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_140",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "140 mm",
+        od: 0.14,
+        id: 0.12340000000000001,
+    },
+    // ISO 1452-2: 160 x 9.5 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_160",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "160 mm",
+        od: 0.16,
+        id: 0.14100000000000001,
+    },
+    // ISO 1452-2: 180 x 10.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_180",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "180 mm",
+        od: 0.18,
+        id: 0.1586,
+    },
+    // ISO 1452-2: 200 x 11.9 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_200",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "200 mm",
+        od: 0.2,
+        id: 0.1762,
+    },
+    // ISO 1452-2: 225 x 13.4 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_225",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "225 mm",
+        od: 0.225,
+        id: 0.1982,
+    },
+    // ISO 1452-2: 250 x 14.8 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_250",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "250 mm",
+        od: 0.25,
+        id: 0.2204,
+    },
+    // ISO 1452-2: 280 x 16.6 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_280",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "280 mm",
+        od: 0.28,
+        id: 0.24680000000000002,
+    },
+    // ISO 1452-2: 315 x 18.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_315",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "315 mm",
+        od: 0.315,
+        id: 0.2776,
+    },
+    // ISO 1452-2: 355 x 21.1 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_355",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "355 mm",
+        od: 0.355,
+        id: 0.3128,
+    },
+    // ISO 1452-2: 400 x 23.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_400",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "400 mm",
+        od: 0.4,
+        id: 0.3526,
+    },
+    // ISO 1452-2: 450 x 26.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_450",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "450 mm",
+        od: 0.45,
+        id: 0.3966,
+    },
+    // ISO 1452-2: 500 x 29.7 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_500",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "500 mm",
+        od: 0.5,
+        id: 0.44060000000000005,
+    },
+    // ISO 1452-2: 560 x 33.2 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_560",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "560 mm",
+        od: 0.56,
+        id: 0.49360000000000004,
+    },
+    // ISO 1452-2: 630 x 37.4 mm (e_min)
+    PipeSize {
+        key: "iso1452sdr17_630",
+        family: Family::PvcIso1452Sdr17,
+        nominal: "630 mm",
+        od: 0.63,
+        id: 0.5552,
+    },
+    // EN 10220: OD 60.3 mm, wall 2.9 mm
+    PipeSize {
+        key: "en10220_60.3",
+        family: Family::SteelEn10220,
+        nominal: "60.3 mm",
+        od: 0.0603,
+        id: 0.0545,
+    },
+    // EN 10220: OD 76.1 mm, wall 2.9 mm
+    PipeSize {
+        key: "en10220_76.1",
+        family: Family::SteelEn10220,
+        nominal: "76.1 mm",
+        od: 0.0761,
+        id: 0.0703,
+    },
+    // EN 10220: OD 88.9 mm, wall 3.2 mm
+    PipeSize {
+        key: "en10220_88.9",
+        family: Family::SteelEn10220,
+        nominal: "88.9 mm",
+        od: 0.0889,
+        id: 0.0825,
+    },
+    // EN 10220: OD 114.3 mm, wall 3.6 mm
+    PipeSize {
+        key: "en10220_114.3",
+        family: Family::SteelEn10220,
+        nominal: "114.3 mm",
+        od: 0.1143,
+        id: 0.1071,
+    },
+    // EN 10220: OD 139.7 mm, wall 4.0 mm
+    PipeSize {
+        key: "en10220_139.7",
+        family: Family::SteelEn10220,
+        nominal: "139.7 mm",
+        od: 0.1397,
+        id: 0.13169999999999998,
+    },
+    // EN 10220: OD 168.3 mm, wall 4.5 mm
+    PipeSize {
+        key: "en10220_168.3",
+        family: Family::SteelEn10220,
+        nominal: "168.3 mm",
+        od: 0.1683,
+        id: 0.15930000000000002,
+    },
+    // EN 10220: OD 219.1 mm, wall 6.3 mm
+    PipeSize {
+        key: "en10220_219.1",
+        family: Family::SteelEn10220,
+        nominal: "219.1 mm",
+        od: 0.2191,
+        id: 0.20650000000000002,
+    },
+    // EN 10220: OD 273.0 mm, wall 6.3 mm
+    PipeSize {
+        key: "en10220_273",
+        family: Family::SteelEn10220,
+        nominal: "273 mm",
+        od: 0.273,
+        id: 0.26039999999999996,
+    },
+    // EN 10220: OD 323.9 mm, wall 7.1 mm
+    PipeSize {
+        key: "en10220_323.9",
+        family: Family::SteelEn10220,
+        nominal: "323.9 mm",
+        od: 0.32389999999999997,
+        id: 0.3097,
+    },
+    // EN 10220: OD 355.6 mm, wall 8.0 mm
+    PipeSize {
+        key: "en10220_355.6",
+        family: Family::SteelEn10220,
+        nominal: "355.6 mm",
+        od: 0.3556,
+        id: 0.3396,
+    },
+    // EN 10220: OD 406.4 mm, wall 8.8 mm
+    PipeSize {
+        key: "en10220_406.4",
+        family: Family::SteelEn10220,
+        nominal: "406.4 mm",
+        od: 0.4064,
+        id: 0.3888,
+    },
+    // EN 10220: OD 457.0 mm, wall 10.0 mm
+    PipeSize {
+        key: "en10220_457",
+        family: Family::SteelEn10220,
+        nominal: "457 mm",
+        od: 0.457,
+        id: 0.437,
+    },
+    // EN 10220: OD 508.0 mm, wall 11.0 mm
+    PipeSize {
+        key: "en10220_508",
+        family: Family::SteelEn10220,
+        nominal: "508 mm",
+        od: 0.508,
+        id: 0.486,
+    },
+    // EN 10220: OD 610.0 mm, wall 12.5 mm
+    PipeSize {
+        key: "en10220_610",
+        family: Family::SteelEn10220,
+        nominal: "610 mm",
+        od: 0.61,
+        id: 0.585,
+    },
 ];
 
 /// Key of the option that means "use the typed diameters".
@@ -561,6 +1482,454 @@ pub const SIZE_OPTIONS: &[ChoiceOption] = &[
         key: "c900dr18_12",
         label: "PVC AWWA C900 DR18, 12 in: OD 335.3 mm (13.201 in), ID 298.1 mm (11.735 in)",
     },
+    ChoiceOption {
+        key: "en545k9_80",
+        label: "Ductile iron EN 545 K9, DN 80: OD 98.0 mm (3.858 in), ID 86.0 mm (3.386 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_100",
+        label: "Ductile iron EN 545 K9, DN 100: OD 118.0 mm (4.646 in), ID 106.0 mm (4.173 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_125",
+        label: "Ductile iron EN 545 K9, DN 125: OD 144.0 mm (5.669 in), ID 132.0 mm (5.197 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_150",
+        label: "Ductile iron EN 545 K9, DN 150: OD 170.0 mm (6.693 in), ID 158.0 mm (6.220 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_200",
+        label: "Ductile iron EN 545 K9, DN 200: OD 222.0 mm (8.740 in), ID 209.4 mm (8.244 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_250",
+        label: "Ductile iron EN 545 K9, DN 250: OD 274.0 mm (10.787 in), ID 260.5 mm (10.256 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_300",
+        label: "Ductile iron EN 545 K9, DN 300: OD 326.0 mm (12.835 in), ID 311.6 mm (12.268 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_350",
+        label: "Ductile iron EN 545 K9, DN 350: OD 378.0 mm (14.882 in), ID 362.7 mm (14.280 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_400",
+        label: "Ductile iron EN 545 K9, DN 400: OD 429.0 mm (16.890 in), ID 412.8 mm (16.252 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_450",
+        label: "Ductile iron EN 545 K9, DN 450: OD 480.0 mm (18.898 in), ID 462.9 mm (18.224 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_500",
+        label: "Ductile iron EN 545 K9, DN 500: OD 532.0 mm (20.945 in), ID 514.0 mm (20.236 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_600",
+        label: "Ductile iron EN 545 K9, DN 600: OD 635.0 mm (25.000 in), ID 615.2 mm (24.220 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_700",
+        label: "Ductile iron EN 545 K9, DN 700: OD 738.0 mm (29.055 in), ID 716.4 mm (28.205 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_800",
+        label: "Ductile iron EN 545 K9, DN 800: OD 842.0 mm (33.150 in), ID 818.6 mm (32.228 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_900",
+        label: "Ductile iron EN 545 K9, DN 900: OD 945.0 mm (37.205 in), ID 919.8 mm (36.213 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_1000",
+        label: "Ductile iron EN 545 K9, DN 1000: OD 1048.0 mm (41.260 in), ID 1021.0 mm (40.197 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_1100",
+        label: "Ductile iron EN 545 K9, DN 1100: OD 1152.0 mm (45.354 in), ID 1123.2 mm (44.220 in)",
+    },
+    ChoiceOption {
+        key: "en545k9_1200",
+        label: "Ductile iron EN 545 K9, DN 1200: OD 1255.0 mm (49.409 in), ID 1224.4 mm (48.205 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_63",
+        label: "PE ISO 4427 SDR 11, 63 mm: OD 63.0 mm (2.480 in), ID 51.4 mm (2.024 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_75",
+        label: "PE ISO 4427 SDR 11, 75 mm: OD 75.0 mm (2.953 in), ID 61.4 mm (2.417 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_90",
+        label: "PE ISO 4427 SDR 11, 90 mm: OD 90.0 mm (3.543 in), ID 73.6 mm (2.898 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_110",
+        label: "PE ISO 4427 SDR 11, 110 mm: OD 110.0 mm (4.331 in), ID 90.0 mm (3.543 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_125",
+        label: "PE ISO 4427 SDR 11, 125 mm: OD 125.0 mm (4.921 in), ID 102.2 mm (4.024 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_140",
+        label: "PE ISO 4427 SDR 11, 140 mm: OD 140.0 mm (5.512 in), ID 114.6 mm (4.512 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_160",
+        label: "PE ISO 4427 SDR 11, 160 mm: OD 160.0 mm (6.299 in), ID 130.8 mm (5.150 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_180",
+        label: "PE ISO 4427 SDR 11, 180 mm: OD 180.0 mm (7.087 in), ID 147.2 mm (5.795 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_200",
+        label: "PE ISO 4427 SDR 11, 200 mm: OD 200.0 mm (7.874 in), ID 163.6 mm (6.441 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_225",
+        label: "PE ISO 4427 SDR 11, 225 mm: OD 225.0 mm (8.858 in), ID 184.0 mm (7.244 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_250",
+        label: "PE ISO 4427 SDR 11, 250 mm: OD 250.0 mm (9.843 in), ID 204.6 mm (8.055 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_280",
+        label: "PE ISO 4427 SDR 11, 280 mm: OD 280.0 mm (11.024 in), ID 229.2 mm (9.024 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_315",
+        label: "PE ISO 4427 SDR 11, 315 mm: OD 315.0 mm (12.402 in), ID 257.8 mm (10.150 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_355",
+        label: "PE ISO 4427 SDR 11, 355 mm: OD 355.0 mm (13.976 in), ID 290.6 mm (11.441 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_400",
+        label: "PE ISO 4427 SDR 11, 400 mm: OD 400.0 mm (15.748 in), ID 327.4 mm (12.890 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_450",
+        label: "PE ISO 4427 SDR 11, 450 mm: OD 450.0 mm (17.717 in), ID 368.2 mm (14.496 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_500",
+        label: "PE ISO 4427 SDR 11, 500 mm: OD 500.0 mm (19.685 in), ID 409.2 mm (16.110 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_560",
+        label: "PE ISO 4427 SDR 11, 560 mm: OD 560.0 mm (22.047 in), ID 458.4 mm (18.047 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_630",
+        label: "PE ISO 4427 SDR 11, 630 mm: OD 630.0 mm (24.803 in), ID 515.6 mm (20.299 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_710",
+        label: "PE ISO 4427 SDR 11, 710 mm: OD 710.0 mm (27.953 in), ID 581.0 mm (22.874 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_800",
+        label: "PE ISO 4427 SDR 11, 800 mm: OD 800.0 mm (31.496 in), ID 654.8 mm (25.780 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_900",
+        label: "PE ISO 4427 SDR 11, 900 mm: OD 900.0 mm (35.433 in), ID 736.6 mm (29.000 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr11_1000",
+        label: "PE ISO 4427 SDR 11, 1000 mm: OD 1000.0 mm (39.370 in), ID 819.6 mm (32.268 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_63",
+        label: "PE ISO 4427 SDR 17, 63 mm: OD 63.0 mm (2.480 in), ID 55.4 mm (2.181 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_75",
+        label: "PE ISO 4427 SDR 17, 75 mm: OD 75.0 mm (2.953 in), ID 66.0 mm (2.598 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_90",
+        label: "PE ISO 4427 SDR 17, 90 mm: OD 90.0 mm (3.543 in), ID 79.2 mm (3.118 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_110",
+        label: "PE ISO 4427 SDR 17, 110 mm: OD 110.0 mm (4.331 in), ID 96.8 mm (3.811 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_125",
+        label: "PE ISO 4427 SDR 17, 125 mm: OD 125.0 mm (4.921 in), ID 110.2 mm (4.339 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_140",
+        label: "PE ISO 4427 SDR 17, 140 mm: OD 140.0 mm (5.512 in), ID 123.4 mm (4.858 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_160",
+        label: "PE ISO 4427 SDR 17, 160 mm: OD 160.0 mm (6.299 in), ID 141.0 mm (5.551 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_180",
+        label: "PE ISO 4427 SDR 17, 180 mm: OD 180.0 mm (7.087 in), ID 158.6 mm (6.244 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_200",
+        label: "PE ISO 4427 SDR 17, 200 mm: OD 200.0 mm (7.874 in), ID 176.2 mm (6.937 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_225",
+        label: "PE ISO 4427 SDR 17, 225 mm: OD 225.0 mm (8.858 in), ID 198.2 mm (7.803 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_250",
+        label: "PE ISO 4427 SDR 17, 250 mm: OD 250.0 mm (9.843 in), ID 220.4 mm (8.677 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_280",
+        label: "PE ISO 4427 SDR 17, 280 mm: OD 280.0 mm (11.024 in), ID 246.8 mm (9.717 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_315",
+        label: "PE ISO 4427 SDR 17, 315 mm: OD 315.0 mm (12.402 in), ID 277.6 mm (10.929 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_355",
+        label: "PE ISO 4427 SDR 17, 355 mm: OD 355.0 mm (13.976 in), ID 312.8 mm (12.315 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_400",
+        label: "PE ISO 4427 SDR 17, 400 mm: OD 400.0 mm (15.748 in), ID 352.6 mm (13.882 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_450",
+        label: "PE ISO 4427 SDR 17, 450 mm: OD 450.0 mm (17.717 in), ID 396.6 mm (15.614 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_500",
+        label: "PE ISO 4427 SDR 17, 500 mm: OD 500.0 mm (19.685 in), ID 440.6 mm (17.346 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_560",
+        label: "PE ISO 4427 SDR 17, 560 mm: OD 560.0 mm (22.047 in), ID 493.6 mm (19.433 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_630",
+        label: "PE ISO 4427 SDR 17, 630 mm: OD 630.0 mm (24.803 in), ID 555.2 mm (21.858 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_710",
+        label: "PE ISO 4427 SDR 17, 710 mm: OD 710.0 mm (27.953 in), ID 625.8 mm (24.638 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_800",
+        label: "PE ISO 4427 SDR 17, 800 mm: OD 800.0 mm (31.496 in), ID 705.2 mm (27.764 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_900",
+        label: "PE ISO 4427 SDR 17, 900 mm: OD 900.0 mm (35.433 in), ID 793.4 mm (31.236 in)",
+    },
+    ChoiceOption {
+        key: "iso4427sdr17_1000",
+        label: "PE ISO 4427 SDR 17, 1000 mm: OD 1000.0 mm (39.370 in), ID 881.4 mm (34.701 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_90",
+        label: "PVC-U ISO 1452 SDR 21, 90 mm: OD 90.0 mm (3.543 in), ID 81.4 mm (3.205 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_110",
+        label: "PVC-U ISO 1452 SDR 21, 110 mm: OD 110.0 mm (4.331 in), ID 99.4 mm (3.913 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_125",
+        label: "PVC-U ISO 1452 SDR 21, 125 mm: OD 125.0 mm (4.921 in), ID 113.0 mm (4.449 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_140",
+        label: "PVC-U ISO 1452 SDR 21, 140 mm: OD 140.0 mm (5.512 in), ID 126.6 mm (4.984 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_160",
+        label: "PVC-U ISO 1452 SDR 21, 160 mm: OD 160.0 mm (6.299 in), ID 144.6 mm (5.693 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_180",
+        label: "PVC-U ISO 1452 SDR 21, 180 mm: OD 180.0 mm (7.087 in), ID 162.8 mm (6.409 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_200",
+        label: "PVC-U ISO 1452 SDR 21, 200 mm: OD 200.0 mm (7.874 in), ID 180.8 mm (7.118 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_225",
+        label: "PVC-U ISO 1452 SDR 21, 225 mm: OD 225.0 mm (8.858 in), ID 203.4 mm (8.008 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_250",
+        label: "PVC-U ISO 1452 SDR 21, 250 mm: OD 250.0 mm (9.843 in), ID 226.2 mm (8.906 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_280",
+        label: "PVC-U ISO 1452 SDR 21, 280 mm: OD 280.0 mm (11.024 in), ID 253.2 mm (9.969 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_315",
+        label: "PVC-U ISO 1452 SDR 21, 315 mm: OD 315.0 mm (12.402 in), ID 285.0 mm (11.220 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_355",
+        label: "PVC-U ISO 1452 SDR 21, 355 mm: OD 355.0 mm (13.976 in), ID 321.2 mm (12.646 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_400",
+        label: "PVC-U ISO 1452 SDR 21, 400 mm: OD 400.0 mm (15.748 in), ID 361.8 mm (14.244 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_450",
+        label: "PVC-U ISO 1452 SDR 21, 450 mm: OD 450.0 mm (17.717 in), ID 407.0 mm (16.024 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_500",
+        label: "PVC-U ISO 1452 SDR 21, 500 mm: OD 500.0 mm (19.685 in), ID 452.2 mm (17.803 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_560",
+        label: "PVC-U ISO 1452 SDR 21, 560 mm: OD 560.0 mm (22.047 in), ID 506.6 mm (19.945 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr21_630",
+        label: "PVC-U ISO 1452 SDR 21, 630 mm: OD 630.0 mm (24.803 in), ID 570.0 mm (22.441 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_90",
+        label: "PVC-U ISO 1452 SDR 17, 90 mm: OD 90.0 mm (3.543 in), ID 79.2 mm (3.118 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_110",
+        label: "PVC-U ISO 1452 SDR 17, 110 mm: OD 110.0 mm (4.331 in), ID 96.8 mm (3.811 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_125",
+        label: "PVC-U ISO 1452 SDR 17, 125 mm: OD 125.0 mm (4.921 in), ID 110.2 mm (4.339 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_140",
+        label: "PVC-U ISO 1452 SDR 17, 140 mm: OD 140.0 mm (5.512 in), ID 123.4 mm (4.858 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_160",
+        label: "PVC-U ISO 1452 SDR 17, 160 mm: OD 160.0 mm (6.299 in), ID 141.0 mm (5.551 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_180",
+        label: "PVC-U ISO 1452 SDR 17, 180 mm: OD 180.0 mm (7.087 in), ID 158.6 mm (6.244 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_200",
+        label: "PVC-U ISO 1452 SDR 17, 200 mm: OD 200.0 mm (7.874 in), ID 176.2 mm (6.937 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_225",
+        label: "PVC-U ISO 1452 SDR 17, 225 mm: OD 225.0 mm (8.858 in), ID 198.2 mm (7.803 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_250",
+        label: "PVC-U ISO 1452 SDR 17, 250 mm: OD 250.0 mm (9.843 in), ID 220.4 mm (8.677 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_280",
+        label: "PVC-U ISO 1452 SDR 17, 280 mm: OD 280.0 mm (11.024 in), ID 246.8 mm (9.717 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_315",
+        label: "PVC-U ISO 1452 SDR 17, 315 mm: OD 315.0 mm (12.402 in), ID 277.6 mm (10.929 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_355",
+        label: "PVC-U ISO 1452 SDR 17, 355 mm: OD 355.0 mm (13.976 in), ID 312.8 mm (12.315 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_400",
+        label: "PVC-U ISO 1452 SDR 17, 400 mm: OD 400.0 mm (15.748 in), ID 352.6 mm (13.882 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_450",
+        label: "PVC-U ISO 1452 SDR 17, 450 mm: OD 450.0 mm (17.717 in), ID 396.6 mm (15.614 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_500",
+        label: "PVC-U ISO 1452 SDR 17, 500 mm: OD 500.0 mm (19.685 in), ID 440.6 mm (17.346 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_560",
+        label: "PVC-U ISO 1452 SDR 17, 560 mm: OD 560.0 mm (22.047 in), ID 493.6 mm (19.433 in)",
+    },
+    ChoiceOption {
+        key: "iso1452sdr17_630",
+        label: "PVC-U ISO 1452 SDR 17, 630 mm: OD 630.0 mm (24.803 in), ID 555.2 mm (21.858 in)",
+    },
+    ChoiceOption {
+        key: "en10220_60.3",
+        label: "Steel EN 10220, 60.3 x 2.9 mm: OD 60.3 mm (2.374 in), ID 54.5 mm (2.146 in)",
+    },
+    ChoiceOption {
+        key: "en10220_76.1",
+        label: "Steel EN 10220, 76.1 x 2.9 mm: OD 76.1 mm (2.996 in), ID 70.3 mm (2.768 in)",
+    },
+    ChoiceOption {
+        key: "en10220_88.9",
+        label: "Steel EN 10220, 88.9 x 3.2 mm: OD 88.9 mm (3.500 in), ID 82.5 mm (3.248 in)",
+    },
+    ChoiceOption {
+        key: "en10220_114.3",
+        label: "Steel EN 10220, 114.3 x 3.6 mm: OD 114.3 mm (4.500 in), ID 107.1 mm (4.217 in)",
+    },
+    ChoiceOption {
+        key: "en10220_139.7",
+        label: "Steel EN 10220, 139.7 x 4 mm: OD 139.7 mm (5.500 in), ID 131.7 mm (5.185 in)",
+    },
+    ChoiceOption {
+        key: "en10220_168.3",
+        label: "Steel EN 10220, 168.3 x 4.5 mm: OD 168.3 mm (6.626 in), ID 159.3 mm (6.272 in)",
+    },
+    ChoiceOption {
+        key: "en10220_219.1",
+        label: "Steel EN 10220, 219.1 x 6.3 mm: OD 219.1 mm (8.626 in), ID 206.5 mm (8.130 in)",
+    },
+    ChoiceOption {
+        key: "en10220_273",
+        label: "Steel EN 10220, 273 x 6.3 mm: OD 273.0 mm (10.748 in), ID 260.4 mm (10.252 in)",
+    },
+    ChoiceOption {
+        key: "en10220_323.9",
+        label: "Steel EN 10220, 323.9 x 7.1 mm: OD 323.9 mm (12.752 in), ID 309.7 mm (12.193 in)",
+    },
+    ChoiceOption {
+        key: "en10220_355.6",
+        label: "Steel EN 10220, 355.6 x 8 mm: OD 355.6 mm (14.000 in), ID 339.6 mm (13.370 in)",
+    },
+    ChoiceOption {
+        key: "en10220_406.4",
+        label: "Steel EN 10220, 406.4 x 8.8 mm: OD 406.4 mm (16.000 in), ID 388.8 mm (15.307 in)",
+    },
+    ChoiceOption {
+        key: "en10220_457",
+        label: "Steel EN 10220, 457 x 10 mm: OD 457.0 mm (17.992 in), ID 437.0 mm (17.205 in)",
+    },
+    ChoiceOption {
+        key: "en10220_508",
+        label: "Steel EN 10220, 508 x 11 mm: OD 508.0 mm (20.000 in), ID 486.0 mm (19.134 in)",
+    },
+    ChoiceOption {
+        key: "en10220_610",
+        label: "Steel EN 10220, 610 x 12.5 mm: OD 610.0 mm (24.016 in), ID 585.0 mm (23.031 in)",
+    },
 ];
 
 /// The preset with this key, if any (`None` for [`CUSTOM`] and unknown keys).
@@ -577,7 +1946,7 @@ mod tests {
         assert_eq!(SIZE_OPTIONS.len(), SIZES.len() + 1);
         for s in SIZES {
             assert!(SIZE_OPTIONS.iter().any(|o| o.key == s.key), "{}", s.key);
-            assert!(s.id > 0.0 && s.id < s.od && s.od < 1.0, "{}", s.key);
+            assert!(s.id > 0.0 && s.id < s.od && s.od < 1.3, "{}", s.key);
         }
     }
 
@@ -587,5 +1956,15 @@ mod tests {
         let s = find("di52_12").map(|s| (s.od, s.id));
         assert_eq!(s, Some((13.20 * 0.0254, (13.20 - 0.74) * 0.0254)));
         assert!(find(CUSTOM).is_none());
+    }
+
+    #[test]
+    fn metric_presets_match_their_tables() {
+        // EN 545 DN 300: DE 326 mm, K9 wall 9 × (0.5 + 0.3) = 7.2 mm (from memory).
+        let s = find("en545k9_300").map(|s| (s.od, s.id));
+        assert_eq!(s, Some((0.326, (326.0 - 14.4) * 0.001)));
+        // ISO 4427-2, 110 mm SDR 11: e_min 10.0 mm (from memory, checked).
+        let s = find("iso4427sdr11_110").map(|s| (s.od, s.id));
+        assert_eq!(s, Some((0.11, 0.09)));
     }
 }

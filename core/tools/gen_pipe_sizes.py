@@ -50,6 +50,57 @@ for n in C900_NPS:
     rows.append((f"c900dr18_{n}", "PvcC900Dr18", f"{n} in", do, di,
                  f"PVC AWWA C900 DR18, {n} in", f"nearest_pipe(NPS={n}, schedule='DR18C900')"))
 
+MM = 0.001
+# EN 545 (ductile-iron pipes for water), socket-and-spigot pipe: outside diameter DE
+# by DN (from memory; the same DE series as ISO 2531) and the class K9 nominal wall
+# e = K (0.5 + 0.001 DN) with K = 9 and at least 6 mm (EN 545:2006, from memory).
+EN545_DE = [
+    (80, 98), (100, 118), (125, 144), (150, 170), (200, 222), (250, 274), (300, 326),
+    (350, 378), (400, 429), (450, 480), (500, 532), (600, 635), (700, 738), (800, 842),
+    (900, 945), (1000, 1048), (1100, 1152), (1200, 1255),
+]
+for dn, de in EN545_DE:
+    e = max(6.0, round(9 * (0.5 + 0.001 * dn), 2))
+    rows.append((f"en545k9_{dn}", "DuctileIronEn545K9", f"DN {dn}", de * MM, (de - 2 * e) * MM,
+                 f"Ductile iron EN 545 K9, DN {dn}", f"EN 545: DE {de} mm, K9 wall 9 x (0.5 + 0.001 x {dn}) = {e} mm"))
+
+# ISO 4065 wall thicknesses e_min (mm) by outside diameter, as tabulated in ISO 4427-2
+# (PE) and ISO 1452-2 (PVC-U) for the same SDR (from memory, checked against pipe
+# makers' reproductions of the ISO 4427-2 table). ID = OD - 2 e_min.
+WALLS = {
+    11: {63: 5.8, 75: 6.8, 90: 8.2, 110: 10.0, 125: 11.4, 140: 12.7, 160: 14.6, 180: 16.4, 200: 18.2,
+         225: 20.5, 250: 22.7, 280: 25.4, 315: 28.6, 355: 32.2, 400: 36.3, 450: 40.9, 500: 45.4,
+         560: 50.8, 630: 57.2, 710: 64.5, 800: 72.6, 900: 81.7, 1000: 90.2},
+    17: {63: 3.8, 75: 4.5, 90: 5.4, 110: 6.6, 125: 7.4, 140: 8.3, 160: 9.5, 180: 10.7, 200: 11.9,
+         225: 13.4, 250: 14.8, 280: 16.6, 315: 18.7, 355: 21.1, 400: 23.7, 450: 26.7, 500: 29.7,
+         560: 33.2, 630: 37.4, 710: 42.1, 800: 47.4, 900: 53.3, 1000: 59.3},
+    21: {90: 4.3, 110: 5.3, 125: 6.0, 140: 6.7, 160: 7.7, 180: 8.6, 200: 9.6, 225: 10.8, 250: 11.9,
+         280: 13.4, 315: 15.0, 355: 16.9, 400: 19.1, 450: 21.5, 500: 23.9, 560: 26.7, 630: 30.0},
+}
+for sdr, family in ((11, "PeIso4427Sdr11"), (17, "PeIso4427Sdr17")):
+    for od, e in WALLS[sdr].items():
+        rows.append((f"iso4427sdr{sdr}_{od}", family, f"{od} mm", od * MM, (od - 2 * e) * MM,
+                     f"PE ISO 4427 SDR {sdr}, {od} mm", f"ISO 4427-2: {od} x {e} mm (e_min)"))
+for sdr, family in ((21, "PvcIso1452Sdr21"), (17, "PvcIso1452Sdr17")):
+    for od, e in WALLS[sdr].items():
+        if od < 90 or od > 630:
+            continue
+        rows.append((f"iso1452sdr{sdr}_{od}", family, f"{od} mm", od * MM, (od - 2 * e) * MM,
+                     f"PVC-U ISO 1452 SDR {sdr}, {od} mm", f"ISO 1452-2: {od} x {e} mm (e_min)"))
+
+# EN 10220 (seamless and welded steel tubes: dimensions), series 1 outside diameters
+# with one common wall of the standard's wall series per size (the pairing is common
+# practice for water and process lines, no source; the OD and wall values are the
+# standard's, from memory).
+EN10220 = [
+    (60.3, 2.9), (76.1, 2.9), (88.9, 3.2), (114.3, 3.6), (139.7, 4.0), (168.3, 4.5), (219.1, 6.3),
+    (273.0, 6.3), (323.9, 7.1), (355.6, 8.0), (406.4, 8.8), (457.0, 10.0), (508.0, 11.0), (610.0, 12.5),
+]
+for od, e in EN10220:
+    key_od = f"{od:g}"
+    rows.append((f"en10220_{key_od}", "SteelEn10220", f"{key_od} mm", od * MM, (od - 2 * e) * MM,
+                 f"Steel EN 10220, {key_od} x {e:g} mm", f"EN 10220: OD {od} mm, wall {e} mm"))
+
 print('''//! Pipe size presets: nominal sizes with outside and inside diameters for common
 //! pressure-pipe families, so a page can offer "12 in ductile iron" instead of two
 //! typed diameters. Typed diameters always override a preset.
@@ -69,8 +120,19 @@ print('''//! Pipe size presets: nominal sizes with outside and inside diameters 
 //! - PVC pressure pipe, AWWA C900 DR18 (cast-iron outside diameters), 4 to 12 in:
 //!   `fluids==1.0.26`, `fluids.piping.nearest_pipe(NPS=n, schedule='DR18C900')`.
 //!
-//! Metric PE and PVC series are not included: their wall thicknesses follow a
-//! rounding rule (ISO 4065) that we could not reproduce from a library here.
+//! - Ductile iron to EN 545 (DN 80 to DN 1200): the socket-and-spigot pipe's outside
+//!   diameter DE and the class K9 nominal wall e = 9 × (0.5 + 0.001·DN) mm, at least
+//!   6 mm (EN 545:2006; from memory). Later editions (EN 545:2010) grade pipe by
+//!   pressure class (C25, C30, C40, …) with other walls: type the wall or the bore
+//!   for those. ID = DE − 2e, before the cement-mortar lining.
+//! - PE to ISO 4427-2 (SDR 11 and SDR 17, 63 to 1000 mm) and PVC-U to ISO 1452-2
+//!   (SDR 21 and SDR 17, 90 to 630 mm): the nominal outside diameter and the minimum
+//!   wall e_min of the ISO 4065 series, typed from memory of the ISO 4427-2 table and
+//!   checked against pipe makers' reproductions of it; ID = OD − 2·e_min (the mean
+//!   wall is a little thicker, so the bore is a little smaller).
+//! - Steel to EN 10220 (series 1 outside diameters, 60.3 to 610 mm) with one common
+//!   wall of the standard's wall series per size (from memory; the pairing of wall
+//!   and size is common practice, no source): type the wall or bore for another.
 
 use crate::catalog::ChoiceOption;
 
@@ -81,6 +143,12 @@ pub enum Family {
     SteelSch80,
     DuctileIronClass52,
     PvcC900Dr18,
+    DuctileIronEn545K9,
+    PeIso4427Sdr11,
+    PeIso4427Sdr17,
+    PvcIso1452Sdr21,
+    PvcIso1452Sdr17,
+    SteelEn10220,
 }
 
 impl Family {
@@ -90,6 +158,14 @@ impl Family {
             Family::SteelSch40 | Family::SteelSch80 => "ASME B36.10M via fluids==1.0.26 nearest_pipe",
             Family::DuctileIronClass52 => "AWWA C150/C151 special thickness class table (from memory, checked)",
             Family::PvcC900Dr18 => "AWWA C900 via fluids==1.0.26 nearest_pipe",
+            Family::DuctileIronEn545K9 => "EN 545 outside diameters, class K9 wall (from memory)",
+            Family::PeIso4427Sdr11 | Family::PeIso4427Sdr17 => {
+                "ISO 4427-2 table of wall thicknesses (from memory, checked)"
+            }
+            Family::PvcIso1452Sdr21 | Family::PvcIso1452Sdr17 => {
+                "ISO 1452-2 table of wall thicknesses (from memory, checked)"
+            }
+            Family::SteelEn10220 => "EN 10220 outside diameters and wall series (from memory)",
         }
     }
 }
@@ -140,7 +216,7 @@ mod tests {
         assert_eq!(SIZE_OPTIONS.len(), SIZES.len() + 1);
         for s in SIZES {
             assert!(SIZE_OPTIONS.iter().any(|o| o.key == s.key), "{}", s.key);
-            assert!(s.id > 0.0 && s.id < s.od && s.od < 1.0, "{}", s.key);
+            assert!(s.id > 0.0 && s.id < s.od && s.od < 1.3, "{}", s.key);
         }
     }
 
@@ -150,5 +226,15 @@ mod tests {
         let s = find("di52_12").map(|s| (s.od, s.id));
         assert_eq!(s, Some((13.20 * 0.0254, (13.20 - 0.74) * 0.0254)));
         assert!(find(CUSTOM).is_none());
+    }
+
+    #[test]
+    fn metric_presets_match_their_tables() {
+        // EN 545 DN 300: DE 326 mm, K9 wall 9 × (0.5 + 0.3) = 7.2 mm (from memory).
+        let s = find("en545k9_300").map(|s| (s.od, s.id));
+        assert_eq!(s, Some((0.326, (326.0 - 14.4) * 0.001)));
+        // ISO 4427-2, 110 mm SDR 11: e_min 10.0 mm (from memory, checked).
+        let s = find("iso4427sdr11_110").map(|s| (s.od, s.id));
+        assert_eq!(s, Some((0.11, 0.09)));
     }
 }''')

@@ -18,6 +18,18 @@
 //! K the liquid's bulk modulus, D the inside diameter, e the wall, E the wall's
 //! Young's modulus and c₁ the axial-restraint factor ([`Anchoring`]).
 //!
+//! # Pressure by elevation
+//! Test pressure is set at a test point; with the line full and still, a fitting at
+//! another elevation sees that pressure plus the static head between them
+//! ([`elevation_head`]): p_fitting = p_test point + ρ·g·(z_test − z_fitting), so a
+//! fitting below the test point sees more (hydrostatics, derived from the
+//! definition; g = 9.80665 m/s², standard gravity, CGPM 1901). AWWA C600 and C605
+//! state their test pressures at a point of the section (the lowest or the highest;
+//! from memory), which is why the elevation of the test point matters.
+//! [`hydrostatic_by_energy_balance`] finds the same pressure through the engine's
+//! energy balance of still water between two ports at those elevations, the
+//! independent path the pages check against.
+//!
 //! # Assumptions
 //! Gauge pressures; an instantaneous velocity change (a valve closing faster than
 //! 2L/a); the rules as their standards are usually read (check the edition a
@@ -25,7 +37,11 @@
 
 use super::keyed_choice;
 use crate::catalog::ChoiceOption;
+use crate::engine::{self, si, ControlVolume, Port, Stream};
+use crate::fluid::Fluid;
 use crate::pipe_sizes;
+use crate::units::STANDARD_GRAVITY;
+use crate::vector::{Direction, Vec3};
 
 keyed_choice! {
     /// Which pressure a restraint is designed for.
@@ -103,6 +119,44 @@ pub fn wave_speed(bulk_modulus: f64, density: f64, d_inside: f64, wall: f64, e_m
     (bulk_modulus / density / (1.0 + c1 * bulk_modulus * d_inside / (e_modulus * wall))).sqrt()
 }
 
+/// The static head from a test point at `z_test` to a fitting at `z_fitting` (m),
+/// as a pressure, Pa: ρ·g·(z_test − z_fitting), positive when the fitting is lower.
+pub fn elevation_head(density: f64, z_test: f64, z_fitting: f64) -> f64 {
+    density * STANDARD_GRAVITY * (z_test - z_fitting)
+}
+
+/// The pressure at a fitting at `z_fitting` when the still line holds `p_test_point`
+/// (gauge, Pa) at `z_test`, by the engine's energy balance between two ports of a
+/// pipe at those elevations with no flow (an independent path to
+/// [`elevation_head`]).
+///
+/// # Errors
+/// An engine refusal (a non-finite input).
+pub fn hydrostatic_by_energy_balance(
+    p_test_point: f64,
+    z_test: f64,
+    z_fitting: f64,
+    fluid: &Fluid,
+) -> Result<f64, engine::EngineError> {
+    let mut cv = ControlVolume::new(fluid.clone());
+    cv.gravity(Vec3::new(0.0, 0.0, -STANDARD_GRAVITY));
+    let area = si::area(0.01);
+    let inlet = cv.port(
+        Port::inlet("test point", area, Direction::Z)
+            .velocity(si::velocity(0.0))
+            .pressure(si::pressure(p_test_point))
+            .at(Vec3::new(0.0, 0.0, z_test)),
+    );
+    let outlet = cv.port(
+        Port::outlet("fitting", area, Direction::Z)
+            .velocity(si::velocity(0.0))
+            .at(Vec3::new(0.0, 0.0, z_fitting)),
+    );
+    cv.stream(Stream::new(inlet, outlet));
+    let balance = engine::balance(&cv)?;
+    Ok(balance.ports[outlet].pressure)
+}
+
 /// Bulk modulus of water used when none is typed, Pa: 2.2 GPa, the usual round
 /// value near 20 °C (White, *Fluid Mechanics*, gives 2.19 GPa at 20 °C; from memory).
 pub const WATER_BULK_MODULUS: f64 = 2.2e9;
@@ -122,10 +176,12 @@ keyed_choice! {
 impl Material {
     /// The wall material of a pipe size preset's family.
     pub fn of_family(family: pipe_sizes::Family) -> Material {
+        use pipe_sizes::Family as F;
         match family {
-            pipe_sizes::Family::SteelSch40 | pipe_sizes::Family::SteelSch80 => Material::Steel,
-            pipe_sizes::Family::DuctileIronClass52 => Material::DuctileIron,
-            pipe_sizes::Family::PvcC900Dr18 => Material::Pvc,
+            F::SteelSch40 | F::SteelSch80 | F::SteelEn10220 => Material::Steel,
+            F::DuctileIronClass52 | F::DuctileIronEn545K9 => Material::DuctileIron,
+            F::PvcC900Dr18 | F::PvcIso1452Sdr21 | F::PvcIso1452Sdr17 => Material::Pvc,
+            F::PeIso4427Sdr11 | F::PeIso4427Sdr17 => Material::Pe,
         }
     }
 }
@@ -313,6 +369,13 @@ mod tests {
     use super::*;
     use approx::assert_relative_eq;
 
+    fn si_density(v: f64) -> uom::si::f64::MassDensity {
+        uom::si::f64::MassDensity::new::<uom::si::mass_density::kilogram_per_cubic_meter>(v)
+    }
+    fn si_viscosity(v: f64) -> uom::si::f64::DynamicViscosity {
+        uom::si::f64::DynamicViscosity::new::<uom::si::dynamic_viscosity::pascal_second>(v)
+    }
+
     #[test]
     fn en805_without_calculated_surge_tests_6_bar_working_at_12_bar() {
         // EN 805:2000 cl. 11.3.3 as usually read (from memory): MDP = 6 + 2 bar,
@@ -338,5 +401,17 @@ mod tests {
         // Derived from the definition: E → ∞ leaves a = √(K/ρ) = √(2.2e9/1000) m/s.
         let a = wave_speed(2.2e9, 1000.0, 0.3, 0.01, 1e30, 1.0);
         assert_relative_eq!(a, (2.2e6f64).sqrt(), max_relative = 1e-12);
+    }
+
+    #[test]
+    fn the_energy_balance_of_still_water_gives_the_static_head() {
+        // Derived from the definition: 10 m of water at 1000 kg/m³ below the test
+        // point adds ρ·g·Δz = 1000 × 9.80665 × 10 = 98 066.5 Pa.
+        let fluid = Fluid::custom("water", si_density(1000.0), si_viscosity(1e-3)).unwrap();
+        assert_relative_eq!(elevation_head(1000.0, 110.0, 100.0), 98_066.5, max_relative = 1e-12);
+        let p = hydrostatic_by_energy_balance(10e5, 110.0, 100.0, &fluid).unwrap();
+        assert_relative_eq!(p, 10e5 + 98_066.5, max_relative = 1e-9);
+        let p = hydrostatic_by_energy_balance(10e5, 100.0, 110.0, &fluid).unwrap();
+        assert_relative_eq!(p, 10e5 - 98_066.5, max_relative = 1e-9);
     }
 }

@@ -97,6 +97,22 @@ fn type_into(page: &Page, browser: &mut Browser, field: &str, text: &str) -> Res
 /// expected outputs (no refusals) and no `[units]` table (a link carries each value
 /// with its unit typed in), one per unit system: the one with the most expected
 /// outputs, the first by file name on a tie.
+/// Cases opened by URL besides the one chosen per unit system: the modes a page
+/// gained (elevations, a surge computed per row, metric size presets, the run load),
+/// each in SI and in US units.
+const MODE_CASES: &[&str] = &[
+    "thrust-block-elevation-dead-end-30m-below-test-point-si",
+    "thrust-block-elevation-c600-high-point-us",
+    "thrust-block-preset-en545-dn300-dead-end-si",
+    "thrust-block-preset-en10220-323-welded-us",
+    "line-schedule-elevation-rows-below-and-above-si",
+    "line-schedule-elevation-c600-high-point-us",
+    "line-schedule-computed-surge-steel-sch40-12in-si",
+    "line-schedule-computed-surge-slow-closure-pvc-us",
+    "surge-run-load-sharp-front-500mm-si",
+    "surge-run-load-rigid-column-slow-closure-us",
+];
+
 fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {
     let mut by_system: BTreeMap<&str, &Case> = BTreeMap::new();
     for case in cases {
@@ -112,7 +128,17 @@ fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {
             *slot = case;
         }
     }
-    by_system.into_values().collect()
+    let mut chosen: Vec<&Case> = by_system.into_values().collect();
+    for case in cases {
+        let listed = MODE_CASES.contains(&case.name().trim_end_matches(".toml"));
+        if listed
+            && case.target == Target::Calculator(key.to_string())
+            && !chosen.iter().any(|c| c.name() == case.name())
+        {
+            chosen.push(case);
+        }
+    }
+    chosen
 }
 
 /// The link that opens a case: each typed input as a query parameter, exactly as
@@ -156,6 +182,14 @@ fn every_page_opened_by_url_with_a_sourced_case_shows_the_expected_outputs() {
     let (cases, errors) = load_cases(&reference_dir());
     assert!(errors.is_empty(), "reference files that do not load: {errors:#?}");
     assert!(!CALCULATORS.is_empty(), "no calculator is registered");
+    let missing: Vec<&&str> = MODE_CASES
+        .iter()
+        .filter(|name| !cases.iter().any(|c| c.name().trim_end_matches(".toml") == **name))
+        .collect();
+    assert!(
+        missing.is_empty(),
+        "MODE_CASES names cases that do not exist: {missing:?}"
+    );
 
     let (mut browser, page) = launch(1280);
     let mut failures = Vec::new();

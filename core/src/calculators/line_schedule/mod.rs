@@ -18,6 +18,22 @@
 //! pA_branch, p(A₁ − A₂), or the typed force) with [`Report::check`]. EN 805 rows
 //! use MDP = working + 200 kPa (see [`crate::restraint::pressure::TEST_RULES`]).
 //!
+//! **Surge per row** (`surge_from=computed`): instead of one typed allowance, each
+//! row's own pipe gives it, by the surge page's method ([`crate::calculators::surge`]):
+//! the wave speed a = √((K/ρ)/(1 + c₁·K·D/(E·e))) from the row's bore D, its wall
+//! e = (OD − ID)/2 and its material (the size preset's family, or the page's
+//! `material`), then the Joukowsky rise ρ·a·ΔV (ΔV the page's `dv` or the row's
+//! `dv=`), or with `length` and `closure_time` given and t_c > 2L/a the smaller
+//! slow-closure estimate 2ρLΔV/t_c (Wylie & Streeter; Chaudhry; forms from memory).
+//!
+//! **Elevation**: the page's pressures are those at the test point, at `z_test`; a
+//! row with `z=` is sized at the basis pressure plus ρ·g·(z_test − z)
+//! ([`crate::restraint::pressure::elevation_head`]; water at 15 °C, standard
+//! gravity), checked against the engine's still-line energy balance
+//! ([`crate::restraint::pressure::hydrostatic_by_energy_balance`]). A row's own `p=`
+//! is the pressure at that fitting and takes no `z=`; rows without `z=` are sized at
+//! the test point's pressure and listed in a warning when `z_test` is given.
+//!
 //! # Row format (ours; one fitting per line, `#` starts a comment)
 //! ```text
 //! KIND [TOKEN ...]
@@ -35,7 +51,9 @@
 //!   `turn=` (`left`, `right` in plan; `down` a crest: thrust up, gravity block;
 //!   `up` a sag: thrust down), `legs=` (a vertical bend's legs: `symmetric`, both
 //!   sloped by θ/2, uplift 2pA·sin(θ/2), the default; `one_level`, uplift pA·sin θ),
-//!   `thrust=` (force rows, 1 N to 1 GN), `tag=` (a label, no spaces).
+//!   `thrust=` (force rows, 1 N to 1 GN), `tag=` (a label, no spaces), `z=` (the
+//!   fitting's elevation, −1000 m to 10 000 m), `dv=` (the velocity stopped in this
+//!   row's pipe, computed surge).
 //! - Quantities carry their unit (`12in`, `0.9m`, `10bar`); a bare number is refused.
 //!
 //! Example: `bend 45deg di52_12 nfpa24_sand tag=B1` or
@@ -53,7 +71,10 @@ use crate::catalog::{CalculatorSpec, FieldSpec, Limits, OutputSpec, Report, Valu
 use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 
-use super::common::{choice, quantity, MAX_PRESSURE_PA};
+use super::common::wall::ShownWhen;
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA};
+use super::thrust_block::{MAX_ELEVATION_M, MIN_ELEVATION_M};
+use crate::catalog::ChoiceOption;
 use crate::restraint::pressure::{BASIS_OPTIONS, TEST_RULE_OPTIONS};
 use crate::restraint::soil::SOIL_OPTIONS;
 use crate::restraint::Joint;
@@ -84,8 +105,85 @@ reducer di52_12 di52_8 tag=R1\n\
 bend 22.5deg di52_8 turn=down tag=V1\n\
 dead_end di52_8 tag=H1 h=0.9m";
 
+const SURGE_FROM_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "typed",
+        label: "One typed allowance for every row",
+    },
+    ChoiceOption {
+        key: "computed",
+        label: "Computed for each row's pipe (wave speed from its bore, wall and material)",
+    },
+];
+const SURGE_FROM_HELP: &str = "Typed: one allowance above the working pressure for the whole line. Computed: each \
+    row's Joukowsky rise ρ·a·ΔV with the wave speed of its own pipe, or the slow-closure estimate when a closure \
+    time slower than 2L/a is given, as on the surge page.";
+const Z_TEST_HELP: &str = "Where the page's pressures apply (the gauge of the field test), on any datum, from \
+    −1000 m to 10 000 m. A row with z= is sized at the pressure here plus ρ·g·(z_test − z): more below the test \
+    point, less above.";
+const DV_HELP: &str = "The flow velocity stopped by a fast closure, for rows without dv=.";
+const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of each row's wall; by default the \
+    material of the row's size preset. The wall is half the difference of the row's diameters.";
+
+/// The fields of a surge computed per row: the velocity stopped, the wall
+/// material, the axial restraint, the bulk modulus, and the closure.
+fn computed_surge_fields() -> Vec<FieldSpec> {
+    let computed: ShownWhen = Some(("surge_from", &["computed"]));
+    let mut fields = vec![FieldSpec {
+        visible_when: computed,
+        optional: true,
+        ..quantity(
+            "dv",
+            "Velocity stopped (rows without dv=)",
+            Q::Velocity,
+            "m/s",
+            "ft/s",
+            "",
+            Limits::closed(0.0, 50.0),
+            DV_HELP,
+        )
+    }];
+    fields.extend(
+        common::wave_speed_fields(computed, computed, MATERIAL_HELP)
+            .into_iter()
+            .filter(|f| f.key != "wall"),
+    );
+    fields.extend([
+        FieldSpec {
+            visible_when: computed,
+            optional: true,
+            ..quantity(
+                "length",
+                "Pipe length to the reflecting boundary L",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(1.0, 1e4),
+                "With the closure time: a closure slower than 2L/a takes the slow-closure estimate. Empty: \
+                    the instantaneous Joukowsky rise.",
+            )
+        },
+        FieldSpec {
+            visible_when: computed,
+            optional: true,
+            ..quantity(
+                "closure_time",
+                "Valve closure time t_c",
+                Q::Time,
+                "s",
+                "s",
+                "",
+                Limits::closed(1e-3, 1e5),
+                "Effective closure time; given with the length.",
+            )
+        },
+    ]);
+    fields
+}
+
 pub fn spec() -> CalculatorSpec {
-    let fields = vec![
+    let mut fields = vec![
         FieldSpec {
             kind: crate::catalog::FieldKind::Text,
             si_unit: "",
@@ -142,6 +240,17 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             optional: true,
+            ..choice(
+                "surge_from",
+                "Surge allowance",
+                SURGE_FROM_OPTIONS,
+                "typed",
+                SURGE_FROM_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("surge_from", &["typed"])),
+            optional: true,
             ..quantity(
                 "dp_surge",
                 "Surge allowance above working",
@@ -151,6 +260,22 @@ pub fn spec() -> CalculatorSpec {
                 "",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
                 "From a transient analysis or the thrust-restraint page's Joukowsky estimate. Empty: no surge.",
+            )
+        },
+    ];
+    fields.extend(computed_surge_fields());
+    fields.extend([
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "z_test",
+                "Elevation of the test point (rows with z=)",
+                Q::Length,
+                "m",
+                "ft",
+                "",
+                Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
+                Z_TEST_HELP,
             )
         },
         choice(
@@ -211,7 +336,7 @@ pub fn spec() -> CalculatorSpec {
             Limits::closed(10e3, 40e3),
             "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy.",
         ),
-    ];
+    ]);
     CalculatorSpec {
         key: KEY,
         title: "Line schedule: thrust blocks along a line",
@@ -226,11 +351,15 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::headline("total_volume", "Total gravity-block concrete", Q::Volume),
             OutputSpec::listed("row_count", "Fittings", Q::Ratio),
             OutputSpec::listed("total_thrust", "Sum of thrust magnitudes (block loads)", Q::Force),
-            OutputSpec::listed("p_design", "Design pressure of rows without their own", Q::Pressure),
+            OutputSpec::listed(
+                "p_design",
+                "Design pressure of rows without their own (at the test point; typed or no surge)",
+                Q::Pressure,
+            ),
         ],
         cautions: vec![
-            "Every row uses one design pressure: check that the test and surge pressures at each fitting, at \
-                    its elevation, are covered.",
+            "Rows without z= are sized at the pressure of the test point: give each fitting's elevation, or \
+                    check that the test and surge pressures at each fitting are covered.",
             "Soil values need a geotechnical basis at each block; one soil for the whole line is a \
                     simplification.",
             "Blocks near each other, near other services or in fill need individual design.",
@@ -316,6 +445,60 @@ mod tests {
             let here = s.output("max_thrust").map(|o| o.si).unwrap_or(0.0);
             let there = t.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
             assert_relative_eq!(here, there, max_relative = 1e-6);
+        }
+    }
+
+    #[test]
+    fn a_row_below_the_test_point_matches_the_thrust_restraint_page_given_both_elevations() {
+        let pairs = [("p_basis", "operating"), ("p", "10 bar"), ("z_test", "100 m")];
+        let s = crate::solve(KEY, &request("dead_end d=200mm od=219.1mm joint=welded z=70m", &pairs))
+            .result
+            .unwrap_or_else(|e| panic!("{e}"));
+        let mut page = Request::default();
+        for (k, v) in demo_inputs(&crate::calculators::thrust_block::spec()) {
+            page.inputs.insert(k, v);
+        }
+        for (k, v) in [
+            ("fitting", "dead_end"),
+            ("size", "custom"),
+            ("d", "200 mm"),
+            ("od", "219.1 mm"),
+            ("joint", "welded"),
+            ("p_basis", "operating"),
+            ("p", "10 bar"),
+            ("z_test", "100 m"),
+            ("z_fitting", "70 m"),
+            ("fluid", "water"),
+            ("t", "15 degC"),
+        ] {
+            page.inputs.insert(k.to_string(), v.to_string());
+        }
+        let t = crate::solve(crate::calculators::thrust_block::KEY, &page)
+            .result
+            .unwrap_or_else(|e| panic!("{e}"));
+        let here = s.output("max_thrust").map(|o| o.si).unwrap_or(0.0);
+        let there = t.output("thrust").map(|o| o.si).unwrap_or(f64::NAN);
+        assert_relative_eq!(here, there, max_relative = 1e-9);
+        // 30 m of water below the test point: more than at the test point.
+        assert!(here > 1e6 * PI * 0.04 / 4.0 * 1.28, "{here}");
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+    }
+
+    #[test]
+    fn a_computed_surge_is_asked_for_only_where_the_basis_uses_it() {
+        let rows = "dead_end sch40_12 joint=welded";
+        let on = |basis: &str| {
+            let pairs = [("p_basis", basis), ("p", "5 bar"), ("surge_from", "computed")];
+            crate::solve(KEY, &request(rows, &pairs)).result
+        };
+        // Operating: no surge used, so no velocity needed.
+        assert!(on("operating").is_ok());
+        // Surge: the velocity stopped is needed, and the error says where to give it.
+        match on("surge") {
+            Err(crate::SolveError::Fields(e)) => {
+                assert!(e[0].kind.to_string().contains("give the velocity stopped"), "{e:?}")
+            }
+            other => panic!("expected an error, got {other:?}"),
         }
     }
 

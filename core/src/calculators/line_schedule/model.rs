@@ -2,18 +2,19 @@
 //! static thrust and block, by the same functions as the thrust-restraint page
 //! ([`crate::restraint`]), so a row and that page agree on the same fitting.
 
-use uom::si::f64::{Length, Pressure, Ratio};
+use uom::si::f64::{Length, Pressure, Ratio, Time, Velocity};
 
 use crate::catalog::Values;
 use crate::error::{FieldError, FieldErrors};
 use crate::fluid::Fluid;
 use crate::pipe_sizes;
 use crate::restraint::block::{self, Block, FaceGiven};
-use crate::restraint::pressure::{self, Governing, PressureBasis, TestRule};
+use crate::restraint::pressure::{self, Anchoring, Governing, Material, PressureBasis, TestRule};
 use crate::restraint::soil::{self, SoilPreset, SoilRefusal};
 use crate::restraint::{self, diameters, FittingKind, Joint, Plane, StaticFitting};
 use crate::vector::Vec3;
 
+use super::super::surge;
 use super::rows::{parse, Row, RowKind, Turn};
 
 /// The page's settings, validated, and the parsed rows.
@@ -24,8 +25,12 @@ pub struct Inputs {
     /// Working pressure of rows without their own.
     pub work: Pressure,
     pub test: Option<TestBasis>,
-    /// Surge allowance above working (the page's `dp_surge`).
+    /// Surge allowance above working (the page's `dp_surge`), when typed.
     pub surge: Option<Pressure>,
+    /// The surge computed for each row's own pipe, when chosen (`surge_from=computed`).
+    pub computed_surge: Option<SurgeSettings>,
+    /// Elevation of the test point where the page's pressures apply (`z_test`).
+    pub z_test: Option<Length>,
     pub sf: Ratio,
     pub default_h: Length,
     /// Unit weight of concrete, N/m³.
@@ -33,6 +38,23 @@ pub struct Inputs {
     pub default_joint: Joint,
     pub default_soil: String,
     pub default_sigma: Option<Pressure>,
+}
+
+/// What a row's computed surge needs besides the row's pipe: the surge page's
+/// method (see [`crate::calculators::surge`]) applied to each row's bore and wall.
+#[derive(Clone, Debug)]
+pub struct SurgeSettings {
+    /// Velocity stopped, m/s, for rows without `dv=`.
+    pub dv: Option<Velocity>,
+    /// The wall material; `FromSize` takes each row's size preset family.
+    pub material: Material,
+    /// A typed Young's modulus (`material=custom`), Pa.
+    pub e_typed: Option<Pressure>,
+    pub anchoring: Anchoring,
+    pub bulk_modulus: Pressure,
+    /// Length to the reflecting boundary and the closure time: when both are
+    /// given, a closure slower than 2L/a takes the slow-closure estimate.
+    pub closure: Option<(Length, Time)>,
 }
 
 /// The field test pressure of the page: typed, or a named rule.
@@ -87,18 +109,44 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         } else {
             None
         };
-    let surge = values.typed_opt::<Pressure>("dp_surge");
+    let computed_surge = match values.choice("surge_from").unwrap_or("typed") {
+        "computed" => Some(read_surge_settings(values)?),
+        _ => None,
+    };
+    let surge = match computed_surge {
+        Some(_) => None,
+        None => values.typed_opt::<Pressure>("dp_surge"),
+    };
+    let has_surge = surge.is_some() || computed_surge.is_some();
     if let Some(TestBasis::Rule(r)) = &test {
-        if r.needs_surge && surge.is_none() {
+        if r.needs_surge && !has_surge {
             return Err(FieldError::inconsistent(
                 "dp_surge",
-                "this test rule adds the calculated surge: give the surge allowance",
+                "this test rule adds the calculated surge: give the surge allowance, or compute it per row",
             )
             .into());
         }
     }
-    if basis == PressureBasis::Surge && surge.is_none() {
-        return Err(FieldError::inconsistent("dp_surge", "the surge basis needs the surge allowance").into());
+    if basis == PressureBasis::Surge && !has_surge {
+        return Err(FieldError::inconsistent(
+            "dp_surge",
+            "the surge basis needs the surge allowance, typed or computed per row",
+        )
+        .into());
+    }
+    let z_test = values.typed_opt::<Length>("z_test");
+    if z_test.is_none() {
+        if let Some(row) = rows.iter().find(|r| r.z.is_some()) {
+            return Err(FieldError::inconsistent(
+                "z_test",
+                format!(
+                    "row {} gives its elevation z=: type the test point's elevation on the same datum (from \
+                        −1000 m to 10 000 m)",
+                    row.line
+                ),
+            )
+            .into());
+        }
     }
     Ok(Inputs {
         rows,
@@ -106,12 +154,131 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         work,
         test,
         surge,
+        computed_surge,
+        z_test,
         sf,
         default_h,
         gamma_c,
         default_joint,
         default_soil,
         default_sigma,
+    })
+}
+
+fn read_surge_settings(values: &Values) -> Result<SurgeSettings, FieldErrors> {
+    let material = Material::from_key(values.choice("material").unwrap_or("from_size"))
+        .ok_or_else(|| FieldError::inconsistent("material", "choose the pipe wall material for the wave speed"))?;
+    let e_typed = values.typed_opt::<Pressure>("e_pipe");
+    if material == Material::Custom && e_typed.is_none() {
+        return Err(
+            FieldError::inconsistent("e_pipe", "type Young's modulus of the wall, or choose a material").into(),
+        );
+    }
+    let closure = match (
+        values.typed_opt::<Length>("length"),
+        values.typed_opt::<Time>("closure_time"),
+    ) {
+        (Some(l), Some(t)) => Some((l, t)),
+        (None, None) => None,
+        (Some(_), None) => {
+            return Err(FieldError::inconsistent(
+                "closure_time",
+                "give the closure time with the length (or clear both for the instantaneous Joukowsky rise)",
+            )
+            .into())
+        }
+        (None, Some(_)) => {
+            return Err(FieldError::inconsistent(
+                "length",
+                "give the length to the reflecting boundary with the closure time (or clear both)",
+            )
+            .into())
+        }
+    };
+    Ok(SurgeSettings {
+        dv: values.typed_opt("dv"),
+        material,
+        e_typed,
+        anchoring: Anchoring::from_key(values.choice("anchoring").unwrap_or("joints")).unwrap_or(Anchoring::Joints),
+        bulk_modulus: values
+            .typed_opt("bulk_modulus")
+            .unwrap_or(Pressure::new::<uom::si::pressure::pascal>(pressure::WATER_BULK_MODULUS)),
+        closure,
+    })
+}
+
+/// Whether the page's basis or test rule uses a surge allowance at all (a computed
+/// surge that nothing uses is not computed, so it asks for nothing).
+pub fn surge_used(inputs: &Inputs) -> bool {
+    inputs.basis.wants_surge() || matches!(&inputs.test, Some(TestBasis::Rule(r)) if r.needs_surge)
+}
+
+/// A row's computed surge.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct RowSurge {
+    pub wave_speed: f64,
+    /// The surge allowance used, Pa.
+    pub dp: f64,
+    /// Whether the closure is slower than 2L/a (the slow-closure estimate used).
+    pub slow: bool,
+}
+
+/// The surge of a row's pipe: the wave speed from its bore, wall and material, the
+/// Joukowsky rise ρ·a·ΔV, or with a closure time slower than 2L/a the smaller
+/// slow-closure estimate 2ρLΔV/t_c (the surge page's method).
+fn row_surge(
+    row: &Row,
+    main: restraint::Diameters,
+    settings: &SurgeSettings,
+    fluid: &Fluid,
+) -> Result<RowSurge, String> {
+    let line = row.line;
+    let dv = row.dv.or(settings.dv.map(|v| v.value)).ok_or_else(|| {
+        format!("row {line}: the surge is computed per row: give the velocity stopped on the page or dv= on the row")
+    })?;
+    let material = match settings.material {
+        Material::FromSize => match row.size.as_deref().and_then(pipe_sizes::find) {
+            Some(size) => Material::of_family(size.family),
+            None => {
+                return Err(format!(
+                    "row {line}: typed diameters have no known wall material: choose the material on the page"
+                ))
+            }
+        },
+        m => m,
+    };
+    let (e_modulus, poisson) = match (material, settings.e_typed) {
+        (Material::Custom, Some(e)) => (e.value, 0.3),
+        (m, _) => match pressure::material(m.key()) {
+            Some((e, nu, _)) => (e, nu),
+            None => {
+                return Err(format!(
+                    "row {line}: type Young's modulus of the wall, or choose a material"
+                ))
+            }
+        },
+    };
+    let wall = (main.od - main.id) / 2.0;
+    let a = pressure::wave_speed(
+        settings.bulk_modulus.value,
+        fluid.density,
+        main.id,
+        wall,
+        e_modulus,
+        settings.anchoring.c1(poisson),
+    );
+    let joukowsky = pressure::joukowsky(fluid.density, a, dv);
+    let (dp, slow) = match settings.closure {
+        Some((length, time)) if time.value > 2.0 * length.value / a => (
+            surge::model::slow_closure(fluid.density, length.value, dv, time.value).min(joukowsky),
+            true,
+        ),
+        _ => (joukowsky, false),
+    };
+    Ok(RowSurge {
+        wave_speed: a,
+        dp,
+        slow,
     })
 }
 
@@ -129,9 +296,9 @@ pub enum DesignFrom {
     },
 }
 
-/// The design pressure for a working pressure `pw`, Pa, on the page's basis.
-pub fn design_of(inputs: &Inputs, pw: f64) -> (f64, Governing, Option<&'static str>) {
-    let surge = inputs.surge.map(|s| s.value);
+/// The design pressure for a working pressure `pw`, Pa, on the page's basis, with
+/// the surge allowance `surge` (typed on the page or computed for the row).
+pub fn design_of(inputs: &Inputs, pw: f64, surge: Option<f64>) -> (f64, Governing, Option<&'static str>) {
     let (test, rule) = match &inputs.test {
         None => (None, None),
         Some(TestBasis::Typed(p)) => (Some(p.value), None),
@@ -178,6 +345,13 @@ pub struct SolvedRow {
     pub od2: Option<f64>,
     /// The row's thrust by its closed form, computed without the engine.
     pub closed_form: f64,
+    /// The computed surge of the row's pipe, when chosen.
+    pub surge: Option<RowSurge>,
+    /// The static head from the test point to the row, ρ·g·(z_test − z), Pa (0 without z=).
+    pub head: f64,
+    /// The row's pressure by the engine's energy balance of the still line from the
+    /// test point (the independent check of `p`), when the row gives z=.
+    pub p_by_energy_balance: Option<f64>,
 }
 
 /// Solves every row (at most 20 errors are collected).
@@ -207,10 +381,47 @@ pub fn solve(inputs: &Inputs) -> Result<Vec<SolvedRow>, FieldErrors> {
 fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bool, String)> {
     let line = row.line;
     let err = |m: String| (false, format!("row {line}: {m}"));
+    let main = match row.kind {
+        RowKind::Fitting(_) => Some(
+            diameters(
+                row.size.as_deref().unwrap_or(pipe_sizes::CUSTOM),
+                row.d,
+                row.od,
+                ("size", "d", "od"),
+            )
+            .map_err(|e| err(e.kind.to_string()))?,
+        ),
+        RowKind::Force => None,
+    };
+    let surge = match (&inputs.computed_surge, main) {
+        (Some(settings), Some(main)) if row.p.is_none() && surge_used(inputs) => {
+            Some(row_surge(row, main, settings, fluid).map_err(|m| (false, m))?)
+        }
+        _ => None,
+    };
+    let mut head = 0.0;
+    let mut p_by_energy_balance = None;
     let (p, from) = match (row.p, row.pw) {
         (Some(p), _) => (p, DesignFrom::RowPressure),
         (pw, _) => {
-            let (p, governing, rule) = design_of(inputs, pw.unwrap_or(inputs.work.value));
+            let surge_dp = surge.map(|s| s.dp).or(inputs.surge.map(|s| s.value));
+            let (p_test_point, governing, rule) = design_of(inputs, pw.unwrap_or(inputs.work.value), surge_dp);
+            let mut p = p_test_point;
+            if let (Some(z_test), Some(z)) = (inputs.z_test, row.z) {
+                head = pressure::elevation_head(fluid.density, z_test.value, z);
+                p += head;
+                if p < 0.0 {
+                    return Err(err(
+                        "the fitting lies so far above the test point that the pressure there is below zero gauge: \
+                            check z= and the test point's elevation"
+                            .to_string(),
+                    ));
+                }
+                p_by_energy_balance = Some(
+                    pressure::hydrostatic_by_energy_balance(p_test_point, z_test.value, z, fluid)
+                        .map_err(|e| err(e.to_string()))?,
+                );
+            }
             (
                 p,
                 DesignFrom::Basis {
@@ -239,13 +450,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
             plane.given_thrust(t, plane.default_elevation())
         }
         RowKind::Fitting(kind) => {
-            let main = diameters(
-                row.size.as_deref().unwrap_or(pipe_sizes::CUSTOM),
-                row.d,
-                row.od,
-                ("size", "d", "od"),
-            )
-            .map_err(|e| err(e.kind.to_string()))?;
+            let main = main.ok_or_else(|| err("a fitting row needs its size".to_string()))?;
             od_main = main.od;
             area_d = joint.thrust_diameter(main);
             let second = match kind {
@@ -346,6 +551,9 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
         od: od_main,
         od2: od_second,
         closed_form,
+        surge,
+        head,
+        p_by_energy_balance,
     })
 }
 

@@ -13,12 +13,16 @@ use crate::restraint::{FittingKind, Legs, Plane};
 use crate::units::{self, QuantityKind as Q};
 use crate::vector::Vec3;
 
-use super::model::{design_of, DesignFrom, Inputs, SoilUsed, SolvedRow};
+use super::model::{design_of, surge_used, DesignFrom, Inputs, SoilUsed, SolvedRow};
 use super::rows::{Row, RowKind};
 
 /// Writes the report of a solved schedule.
 pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
-    report.output("p_design", design_of(inputs, inputs.work.value).0);
+    if inputs.computed_surge.is_none() {
+        let typed_surge = inputs.surge.map(|s| s.value);
+        report.output("p_design", design_of(inputs, inputs.work.value, typed_surge).0);
+    }
+    elevation_and_surge_notes(inputs, solved, report);
     // --- Outputs and the table ------------------------------------------------------
     let system = report.system();
     let max = solved.iter().map(|s| s.thrust.norm()).fold(0.0, f64::max);
@@ -71,9 +75,9 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
 
     let f_unit = units::display_unit(max.max(1.0), Q::Force, system).id;
     let p_unit = units::display_unit(solved.iter().map(|s| s.p).fold(1.0, f64::max), Q::Pressure, system).id;
-    let d_unit = match system {
-        units::UnitSystem::Si => "mm",
-        units::UnitSystem::UsCustomary => "in",
+    let (d_unit, z_unit) = match system {
+        units::UnitSystem::Si => ("mm", "m"),
+        units::UnitSystem::UsCustomary => ("in", "ft"),
     };
     let cell = |v: f64, kind: Q, unit: &str| {
         units::convert_to(v, kind, unit)
@@ -90,7 +94,9 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             format!("thrust diameter ({d_unit}), basis"),
             "Angle (deg)".into(),
             "Pressure basis".into(),
-            format!("design pressure ({p_unit})"),
+            format!("elevation ({z_unit})"),
+            format!("surge allowance ({p_unit})"),
+            format!("pressure used ({p_unit})"),
             format!("thrust ({f_unit})"),
             "Direction".into(),
             "Block".into(),
@@ -120,6 +126,8 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
                 .map(|a| units::format_significant(a.to_degrees(), 4))
                 .unwrap_or_default(),
             basis_text(&s.from, inputs.basis),
+            s.row.z.map(|z| cell(z, Q::Length, z_unit)).unwrap_or_default(),
+            surge_text(s, inputs, |v| cell(v, Q::Pressure, p_unit), report),
             cell(s.p, Q::Pressure, p_unit),
             cell(s.thrust.norm(), Q::Force, f_unit),
             direction_text(&s.row, s.plane, s.thrust),
@@ -131,6 +139,8 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
         "Total".into(),
         String::new(),
         format!("{} fittings", solved.len()),
+        String::new(),
+        String::new(),
         String::new(),
         String::new(),
         String::new(),
@@ -183,6 +193,63 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             label: format!("Open row {} (largest thrust) on the thrust-restraint page", g.row.line),
             inputs: carry_inputs(g, inputs),
         });
+    }
+}
+
+/// The surge cell of a row: the computed allowance with its wave speed and method,
+/// the page's typed allowance, or nothing.
+fn surge_text(s: &SolvedRow, inputs: &Inputs, pressure: impl Fn(f64) -> String, report: &Report<'_>) -> String {
+    if matches!(s.from, DesignFrom::RowPressure) || matches!(s.row.kind, RowKind::Force) {
+        return String::new();
+    }
+    if !surge_used(inputs) {
+        return String::new();
+    }
+    match (s.surge, inputs.surge) {
+        (Some(r), _) => format!(
+            "{} ({}, a = {})",
+            pressure(r.dp),
+            if r.slow { "slow closure" } else { "Joukowsky" },
+            report.fmt(r.wave_speed, Q::Velocity)
+        ),
+        (None, Some(typed)) => format!("{} (typed)", pressure(typed.value)),
+        (None, None) => String::new(),
+    }
+}
+
+/// The elevation check, and the notices on rows the elevation or the surge leaves out.
+fn elevation_and_surge_notes(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
+    let corrected: Vec<&SolvedRow> = solved.iter().filter(|s| s.p_by_energy_balance.is_some()).collect();
+    if !corrected.is_empty() {
+        let by_head: f64 = corrected.iter().map(|s| s.p).sum();
+        let by_engine: f64 = corrected.iter().filter_map(|s| s.p_by_energy_balance).sum();
+        report.check(
+            "Sum of the pressures used at rows with an elevation",
+            "each row's pressure by the energy balance of the still line from the test point (engine), summed",
+            Q::Pressure,
+            by_head,
+            by_engine,
+            1e-9,
+            corrected.iter().map(|s| s.p.abs() + s.head.abs()).sum(),
+        );
+    }
+    if inputs.z_test.is_some() {
+        let missing: Vec<String> = solved
+            .iter()
+            .filter(|s| s.row.z.is_none() && s.row.p.is_none() && !matches!(s.row.kind, RowKind::Force))
+            .map(|s| s.row.line.to_string())
+            .collect();
+        if !missing.is_empty() {
+            let shown = missing.iter().take(12).cloned().collect::<Vec<_>>().join(", ");
+            let more = if missing.len() > 12 { ", …" } else { "" };
+            report.warn(
+                Some("rows"),
+                format!(
+                    "rows {shown}{more} give no elevation z=: they are sized at the test point's pressure, which \
+                    is low for a fitting below it"
+                ),
+            );
+        }
     }
 }
 

@@ -11,6 +11,7 @@ use crate::restraint::{FittingChoice, FittingKind, Joint, Legs, MIN_ANGLE};
 use crate::units::{self, QuantityKind as Q};
 
 use super::super::common::{MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
+use super::super::thrust_block::{MAX_ELEVATION_M, MIN_ELEVATION_M};
 use super::{MAX_BEARING, MAX_ROWS, MAX_ROW_THRUST, MIN_BEARING};
 
 /// One parsed row.
@@ -36,6 +37,10 @@ pub struct Row {
     /// A vertical bend with both legs sloped by θ/2 (the default), or one leg level.
     pub symmetric: bool,
     pub thrust: Option<f64>,
+    /// Elevation of the fitting, m (`z=`), on the datum of the page's test point.
+    pub z: Option<f64>,
+    /// Velocity stopped at this row's pipe for a computed surge, m/s (`dv=`).
+    pub dv: Option<f64>,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -74,6 +79,8 @@ impl Row {
             turn: Turn::Left,
             symmetric: true,
             thrust: None,
+            z: None,
+            dv: None,
         }
     }
 }
@@ -123,6 +130,7 @@ pub(super) fn example_unit(kind: Q) -> &'static str {
         Q::SoilBearing => "psf",
         Q::Length => "in",
         Q::Force => "kN",
+        Q::Velocity => "ft/s",
         _ => "",
     }
 }
@@ -196,10 +204,12 @@ pub(super) fn parse_row(line: usize, content: &str) -> Result<Row, String> {
             "legs" => "legs",
             "thrust" => "thrust",
             "tag" => "tag",
+            "z" => "z",
+            "dv" => "dv",
             other => {
                 return Err(format!(
                     "row {line}: unknown key '{}'; use angle, size, d, od, size2, d2, od2, p, pw, soil, sigma, \
-                            joint, h, turn, legs, thrust or tag",
+                            joint, h, turn, legs, thrust, z, dv or tag",
                     short(other)
                 ))
             }
@@ -305,6 +315,24 @@ pub(super) fn parse_row(line: usize, content: &str) -> Result<Row, String> {
                     None => return Err(format!("row {line}: legs must be symmetric or one_level")),
                 }
             }
+            "z" => {
+                let v = typed(value, Q::Length, line, "z")?;
+                if !(MIN_ELEVATION_M..=MAX_ELEVATION_M).contains(&v) {
+                    return Err(format!(
+                        "row {line}: z (the fitting's elevation) must be at least −1000 m and at most 10 000 m"
+                    ));
+                }
+                row.z = Some(v);
+            }
+            "dv" => {
+                let v = typed(value, Q::Velocity, line, "dv")?;
+                if !(0.0..=50.0).contains(&v) {
+                    return Err(format!(
+                        "row {line}: dv (the velocity stopped) must be at least 0 and at most 50 m/s"
+                    ));
+                }
+                row.dv = Some(v);
+            }
             "thrust" => {
                 let v = typed(value, Q::Force, line, "thrust")?;
                 if !(1.0..=MAX_ROW_THRUST).contains(&v) {
@@ -321,6 +349,12 @@ pub(super) fn parse_row(line: usize, content: &str) -> Result<Row, String> {
         }
     }
     // What each kind needs.
+    if row.p.is_some() && row.z.is_some() {
+        return Err(format!(
+            "row {line}: p= is the design pressure at the fitting itself, so z= cannot correct it; give p= or z=, \
+                    not both"
+        ));
+    }
     match row.kind {
         RowKind::Force => {
             if row.thrust.is_none() {

@@ -20,6 +20,13 @@
 //!    Young's modulus and c₁ the axial-restraint factor (1 for pipe with expansion
 //!    joints throughout, which jointed pipe approximates; 1 − ν² anchored against
 //!    axial movement; 1 − ν/2 anchored at the upstream end only).
+//!    **Elevation**: the pressures typed are those at the test point (`z_test`);
+//!    the fitting (`z_fitting`, same datum) is sized at the basis pressure plus the
+//!    static head ρ·g·(z_test − z_fitting), g = 9.80665 m/s² (hydrostatics, derived
+//!    from the definition; [`crate::restraint::pressure::elevation_head`]), checked
+//!    against the engine's energy balance of the still line between the two
+//!    elevations. Both default to 0 m (no correction); one without the other, or a
+//!    fitting so high that its pressure falls below zero gauge, is refused.
 //! 2. **Thrust**, from the engine: a control volume around the fitting, zero flow,
 //!    the design pressure at the inlet and the other faces solved by the energy
 //!    balance (no flow, same point: the same pressure). The momentum balance then
@@ -70,7 +77,8 @@
 //! - `p_basis`: `highest` | `operating` | `test` | `surge`; `p` (the working pressure, gauge),
 //!   `test_rule` (`en805` | `en805_surge` | `c600` | `c605` | `nfpa24` | `custom`),
 //!   `mdp` (EN 805), `p_test`, `dv`, `material` (`from_size`: the size preset's
-//!   material, the default), `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; fluid fields
+//!   material, the default), `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; `z_test`
+//!   and `z_fitting` (elevations of the test point and of the fitting); fluid fields
 //!   `fluid`, `t`, `rho`, `mu`.
 //! - Block: `soil` (preset key or `custom`), `sigma`, `sf`, `block_dims`
 //!   (`height` | `aspect`), `block_h`, `block_aspect`; gravity block `gamma_c`,
@@ -119,6 +127,17 @@ use crate::restraint::pressure::{BASIS_OPTIONS, TEST_RULE_OPTIONS};
 use super::common::wall::ShownWhen;
 use crate::restraint::soil::SOIL_OPTIONS;
 use crate::restraint::{FittingChoice, Joint, Legs, Plane, JOINT_HELP, MIN_ANGLE};
+
+/// Range of a typed elevation, m (a datum of the user's choosing: site levels,
+/// sea level; from 1 km below to 10 km above it).
+pub const MIN_ELEVATION_M: f64 = -1000.0;
+pub const MAX_ELEVATION_M: f64 = 10_000.0;
+
+const Z_TEST_HELP: &str = "Where the pressures above apply (the gauge of the field test), on any datum, from \
+    −1000 m to 10 000 m. With the fitting's elevation, the fitting is sized at the pressure there plus \
+    ρ·g·(test point − fitting): more below the test point, less above. Empty: no correction.";
+const Z_FITTING_HELP: &str = "Elevation of the fitting's centre line on the same datum as the test point, from \
+    −1000 m to 10 000 m.";
 
 /// The fitting options (derived from [`FittingChoice`]).
 const FITTING_OPTIONS: &[ChoiceOption] = FittingChoice::OPTIONS;
@@ -298,7 +317,36 @@ pub fn spec() -> CalculatorSpec {
                 "psi",
                 "7 bar",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
-                "The highest steady operating pressure at the fitting.",
+                "The highest steady operating pressure at the test point (at the fitting when no elevations \
+                are given).",
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            optional: true,
+            ..quantity(
+                "z_test",
+                "Elevation of the test point",
+                Q::Length,
+                "m",
+                "ft",
+                "0 m",
+                Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
+                Z_TEST_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: fitting_only(FITTINGS),
+            optional: true,
+            ..quantity(
+                "z_fitting",
+                "Elevation of the fitting",
+                Q::Length,
+                "m",
+                "ft",
+                "0 m",
+                Limits::closed(MIN_ELEVATION_M, MAX_ELEVATION_M),
+                Z_FITTING_HELP,
             )
         },
         FieldSpec {
@@ -543,6 +591,16 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("area_d", "Diameter of the thrust area", Q::Length),
             OutputSpec::listed("thrust_area", "Thrust area of the main end", Q::Area),
             OutputSpec::listed("p_test", "Field test pressure", Q::Pressure),
+            OutputSpec::listed(
+                "p_test_point",
+                "Design pressure at the test point (before the elevation correction)",
+                Q::Pressure,
+            ),
+            OutputSpec::listed(
+                "dp_elevation",
+                "Static head from the test point to the fitting ρ·g·(z_test − z_fitting)",
+                Q::Pressure,
+            ),
             OutputSpec::listed("wave_speed", "Pressure wave speed", Q::Velocity),
             OutputSpec::listed("dp_surge", "Joukowsky surge rise ρ·a·ΔV", Q::Pressure),
             OutputSpec::listed("p_surge", "Working pressure plus surge", Q::Pressure),

@@ -69,6 +69,17 @@ pub struct PressureInputs {
     pub work: Pressure,
     pub test: Option<TestGiven>,
     pub surge: Option<SurgeInputs>,
+    /// The test point's and the fitting's elevations, when both are given: the
+    /// pressures above are at the test point, the fitting sees them plus the static
+    /// head between the two.
+    pub elevations: Option<Elevations>,
+}
+
+/// The elevations of the test point and of the fitting.
+#[derive(Clone, Copy, Debug)]
+pub struct Elevations {
+    pub z_test: Length,
+    pub z_fitting: Length,
 }
 
 /// The field test pressure: typed, or by a named rule (EN 805 with a typed MDP).
@@ -233,7 +244,31 @@ fn read_pressure(values: &Values, main: Diameters, size_key: &str) -> Result<Pre
         work,
         test,
         surge,
+        elevations: read_elevations(values)?,
     })
+}
+
+/// The two elevations, both or neither.
+fn read_elevations(values: &Values) -> Result<Option<Elevations>, FieldError> {
+    match (
+        values.typed_opt::<Length>("z_test"),
+        values.typed_opt::<Length>("z_fitting"),
+    ) {
+        // At one elevation there is nothing to correct, and nothing to show.
+        (Some(z_test), Some(z_fitting)) if z_test == z_fitting => Ok(None),
+        (Some(z_test), Some(z_fitting)) => Ok(Some(Elevations { z_test, z_fitting })),
+        (None, None) => Ok(None),
+        (Some(_), None) => Err(FieldError::inconsistent(
+            "z_fitting",
+            "give the fitting's elevation too (or clear the test point's): the pressure is corrected by the \
+                difference of the two",
+        )),
+        (None, Some(_)) => Err(FieldError::inconsistent(
+            "z_test",
+            "give the test point's elevation too (or clear the fitting's): the pressure is corrected by the \
+                difference of the two",
+        )),
+    }
 }
 
 fn read_surge(values: &Values, main: Diameters, size_key: &str) -> Result<SurgeInputs, FieldErrors> {
@@ -334,8 +369,27 @@ pub struct Pressures {
     /// The test pressure and the rule's citation (or "typed test pressure").
     pub test: Option<(f64, String)>,
     pub surge: Option<Surge>,
+    /// The design pressure at the fitting: the basis's pressure at the test point
+    /// plus the static head to the fitting.
     pub design: f64,
+    /// The basis's pressure at the test point (equal to `design` with no elevations).
+    pub at_test_point: f64,
+    /// The static head from the test point to the fitting, ρ·g·(z_test − z_fitting), Pa,
+    /// with the two elevations, m.
+    pub elevation: Option<ElevationHead>,
     pub basis: PressureBasis,
+}
+
+/// The static head between the test point and the fitting.
+#[derive(Clone, Copy, Debug)]
+pub struct ElevationHead {
+    pub z_test: f64,
+    pub z_fitting: f64,
+    /// ρ·g·(z_test − z_fitting), Pa.
+    pub head: f64,
+    /// The pressure at the fitting by the engine's energy balance of the still
+    /// line between the two elevations (the independent check of `design`), Pa.
+    pub by_energy_balance: f64,
 }
 
 /// Where an MDP comes from.
@@ -392,18 +446,26 @@ pub fn design_pressure(pi: &PressureInputs, main: Diameters, fluid: &Fluid) -> P
             )
         }
     });
-    let (design, _) = pressure::design_pressure(
+    let (at_test_point, _) = pressure::design_pressure(
         pi.basis,
         work,
         test.as_ref().map(|t| t.0),
         surge.as_ref().map(|s| work + s.dp),
     );
+    let elevation = pi.elevations.map(|e| ElevationHead {
+        z_test: e.z_test.value,
+        z_fitting: e.z_fitting.value,
+        head: pressure::elevation_head(fluid.density, e.z_test.value, e.z_fitting.value),
+        by_energy_balance: f64::NAN,
+    });
     Pressures {
         work,
         mdp,
         test,
         surge,
-        design,
+        design: at_test_point + elevation.map_or(0.0, |e| e.head),
+        at_test_point,
+        elevation,
         basis: pi.basis,
     }
 }
@@ -502,7 +564,21 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
             (plane.given_thrust(thrust.value, elevation), None)
         }
         Subject::Fitting(f) => {
-            let pressures = design_pressure(&f.pressure, f.main, &f.fluid);
+            let mut pressures = design_pressure(&f.pressure, f.main, &f.fluid);
+            if let Some(e) = pressures.elevation.as_mut() {
+                e.by_energy_balance =
+                    pressure::hydrostatic_by_energy_balance(pressures.at_test_point, e.z_test, e.z_fitting, &f.fluid)
+                        .map_err(|e| FieldErrors::from(common::engine_error(e, "z_fitting")))?;
+            }
+            if pressures.design < 0.0 {
+                return Err(FieldError::inconsistent(
+                    "z_fitting",
+                    "the fitting lies so far above the test point that the pressure there is below zero gauge: \
+                        check the two elevations (the fitting's must be lower than the test point's plus the \
+                        pressure head)",
+                )
+                .into());
+            }
             let (a1, a2) = restraint::thrust_areas(f.kind, f.joint, f.main, f.second).map_err(|e| match e {
                 SizeMismatch::BranchLargerThanRun | SizeMismatch::SmallEndNotSmaller => {
                     FieldError::inconsistent("size2", e.message())

@@ -89,6 +89,19 @@ fn pressure_outputs(report: &mut Report<'_>, pr: &Pressures) {
     if let Some((pt, _)) = &pr.test {
         report.output("p_test", *pt);
     }
+    if let Some(e) = &pr.elevation {
+        report.output("p_test_point", pr.at_test_point);
+        report.output("dp_elevation", e.head);
+        report.check(
+            "Design pressure at the fitting",
+            "energy balance of the still line from the test point to the fitting (engine)",
+            Q::Pressure,
+            pr.design,
+            e.by_energy_balance,
+            1e-9,
+            pr.at_test_point.abs().max(e.head.abs()),
+        );
+    }
     if pr.basis == PressureBasis::Operating {
         report.warn(
             Some("p_basis"),
@@ -286,8 +299,33 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
             format!("Δp = ρ·a·ΔV with a = {a}, ΔV = {dv}; {}", s.source),
         ]);
     }
+    if let Some(e) = &pr.elevation {
+        table.rows.push(vec![
+            format!("At the test point ({})", pr.basis.key()),
+            cell(pr.at_test_point),
+            "the basis applied to the pressures above, which are those at the test point".into(),
+        ]);
+        let z = |v: f64| report.fmt(v, Q::Length);
+        table.rows.push(vec![
+            "Static head to the fitting".into(),
+            cell(e.head),
+            format!(
+                "ρ·g·(z_test − z_fitting) with z_test = {}, z_fitting = {}: {}",
+                z(e.z_test),
+                z(e.z_fitting),
+                if e.head >= 0.0 {
+                    "the fitting is lower and sees more"
+                } else {
+                    "the fitting is higher and sees less"
+                }
+            ),
+        ]);
+    }
     table.rows.push(vec![
-        format!("Used ({})", pr.basis.key()),
+        match pr.elevation {
+            Some(_) => format!("Used at the fitting ({} + static head)", pr.basis.key()),
+            None => format!("Used ({})", pr.basis.key()),
+        },
         cell(pr.design),
         "the design pressure of the thrust below".into(),
     ]);
