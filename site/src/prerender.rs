@@ -13,7 +13,8 @@
 //! markup below mirrors the page script's render functions in `site/assets/js/`
 //! (`form.js`, `render-results.js`, `render-table.js`, `render-diagram.js`,
 //! `render-plot.js`: same elements, classes and order), so that when the script re-renders the same
-//! result nothing moves (no layout shift). Figures are drawn for a phone: the width
+//! result nothing moves (no layout shift); the page's cautions box stands between
+//! the form and the details, where `form.js` puts it. Figures are drawn for a phone: the width
 //! and viewport height the script measures at 360 × 740 CSS px.
 //!
 //! Demo marking: every part the script replaces carries `data-demo` and `inert`
@@ -181,6 +182,7 @@ pub fn calculator_section(spec: &CalculatorSpec) -> Option<String> {
         request: &request,
         result: &solved,
         system: system.key(),
+        cautions: crate::pages::cautions_html(spec),
     };
     Some(page.render())
 }
@@ -192,6 +194,9 @@ struct Page<'a> {
     request: &'a Request,
     result: &'a Value,
     system: &'a str,
+    /// The cautions box (`pages::cautions_html`), placed beside the result as the
+    /// script places it.
+    cautions: String,
 }
 
 /// What `data-demo` parts carry: the marker and `inert` (no typing into a part the
@@ -208,6 +213,7 @@ impl Page<'_> {
         html.push_str(&self.headline());
         html.push_str(&self.form());
         html.push_str("</div>");
+        html.push_str(&self.cautions);
         html.push_str(&format!("<div class=\"details\">{}</div>", self.details()));
         html.push_str("</div>\n");
         html

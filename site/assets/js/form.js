@@ -334,7 +334,11 @@ export function buildPage() {
   // The headline stays in view while the inputs scroll past (on phones), and no
   // further: it sticks within this wrapper only.
   const main = el("div", { class: "calc-main" }, headline, form);
-  const grid = el("div", { class: "calc-grid" }, main, details);
+  // The page's cautions (written into the page by the site tool) stand beside the
+  // result: under the headline on a wide screen, before the result's details on a
+  // phone, after the key results on the printed sheet.
+  const cautions = document.getElementById("cautions");
+  const grid = el("div", { class: "calc-grid" }, main, cautions, details);
   section.replaceChildren(toolbar, notices, grid);
   // The printed sheet ends with the link and version, after the method and cautions.
   (section.closest("main") || section).append(printFooter);
