@@ -615,6 +615,12 @@ fn render_table(table: &Value, index: usize) -> String {
 /// Screen size of diagram labels, in CSS pixels.
 const LABEL_PX: f64 = 13.0;
 
+/// How far a label that overlaps another looks for a free place, in 5 px steps:
+/// along its arrow, to either side, and up or down for plain text.
+const ALONG_STEPS: usize = 16;
+const SIDE_STEPS: usize = 8;
+const PLAIN_STEPS: usize = 24;
+
 fn char_count(text: &str) -> usize {
     // JavaScript's Array.from counts code points, as chars() does.
     text.chars().count()
@@ -882,13 +888,16 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
             };
             let start = [x, y];
             let mut tries: Vec<[f64; 2]> = vec![[0.0, 0.0]];
-            let along = if label.plain { 4 } else { 12 };
+            let along = if label.plain { PLAIN_STEPS } else { ALONG_STEPS };
             for k in 1..=along {
                 let k = k as f64;
                 tries.push([mx * k, my * k]);
-                if k <= 4.0 {
+                if k <= SIDE_STEPS as f64 {
                     tries.push([-my * k, mx * k]);
                     tries.push([my * k, -mx * k]);
+                }
+                if label.plain {
+                    tries.push([-mx * k, -my * k]);
                 }
             }
             let mut free = false;

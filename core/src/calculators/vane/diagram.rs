@@ -97,8 +97,11 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         );
         let tip_w = origin + state.w_out * big;
         let tip_v = tip_w + Vec3::new(state.u * big, 0.0, 0.0);
+        // Its name above it, clear of its sides and of their names.
+        let top = origin.y.max(tip_w.y).max(tip_v.y);
+        let middle = (origin.x.min(tip_w.x).min(tip_v.x) + origin.x.max(tip_w.x).max(tip_v.x)) / 2.0;
         shapes.push(Shape::Text {
-            at: (origin - Vec3::new(0.0, 1.0 * d, 0.0)).xy(),
+            at: [middle, top + 1.6 * d],
             text: "exit triangle (2 × scale)".to_string(),
             style: ShapeStyle::Label,
         });
@@ -164,8 +167,11 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         VaneKind::Single => "single vane, moving",
         VaneKind::Wheel => "one bucket of the wheel",
     };
+    // Under the nozzle and the jet's speed, where nothing else is drawn: a name
+    // beside the nozzle widened the drawing by half its length, and on a phone
+    // shrank everything else.
     shapes.push(Shape::Text {
-        at: [-lead - 1.2 * d, 3.0 * d],
+        at: [-0.5 * lead - 0.6 * d, -3.5 * d],
         text: format!("{name}, θ = {}", report.fmt(vane.theta, Q::Angle)),
         style: ShapeStyle::Label,
     });
