@@ -237,15 +237,65 @@ impl CalculatorSpec {
     }
 }
 
-/// Cautions shown on every calculator page.
-pub const COMMON_CAUTIONS: &[&str] = &[
-    "Design to the highest pressure the line will see, including the field test pressure and surge, not only \
+/// Which calculator pages a shared caution concerns.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum CautionScope {
+    /// Every calculator page.
+    Every,
+    /// The pages of one job group ([`group`]).
+    Group(&'static str),
+    /// The pages that have a field with this key (for example `soil`: the pages
+    /// that size a block against the ground).
+    WithField(&'static str),
+}
+
+/// A caution shared by several pages, with the pages it concerns: a page shows
+/// only the shared cautions about what it computes (test pressure and soil bearing
+/// on the thrust-restraint pages, not on the jet, turbine and tank pages).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Caution {
+    pub text: &'static str,
+    pub scope: CautionScope,
+}
+
+impl Caution {
+    /// Whether the page described by `spec` shows this caution.
+    pub fn concerns(&self, spec: &CalculatorSpec) -> bool {
+        match self.scope {
+            CautionScope::Every => true,
+            CautionScope::Group(group) => spec.group == group,
+            CautionScope::WithField(key) => spec.field(key).is_some(),
+        }
+    }
+}
+
+/// Cautions shared by several calculator pages; each says which pages it concerns.
+pub const COMMON_CAUTIONS: &[Caution] = &[
+    Caution {
+        scope: CautionScope::Group(group::FITTINGS),
+        text:
+            "Design to the highest pressure the line will see, including the field test pressure and surge, not only \
             the operating pressure.",
-    "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be \
+    },
+    Caution {
+        scope: CautionScope::WithField("soil"),
+        text: "Soil bearing and friction values need a geotechnical basis and undisturbed ground; blocks must not be \
             undermined by later excavation.",
-    "Results are idealised control-volume balances. They support, and do not replace, the judgement of a \
+    },
+    Caution {
+        scope: CautionScope::Every,
+        text: "Results are idealised control-volume balances. They support, and do not replace, the judgement of a \
             licensed engineer and the local codes that govern the work.",
+    },
 ];
+
+/// The shared cautions the page described by `spec` shows, in order.
+pub fn common_cautions(spec: &CalculatorSpec) -> impl Iterator<Item = &'static str> + '_ {
+    COMMON_CAUTIONS
+        .iter()
+        .filter(|caution| caution.concerns(spec))
+        .map(|caution| caution.text)
+}
 
 /// Raw inputs as typed by the user, keyed by field key.
 pub type Inputs = BTreeMap<String, String>;
@@ -1041,6 +1091,30 @@ pub fn demo_inputs(spec: &CalculatorSpec) -> Inputs {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn shared_cautions_appear_only_on_the_pages_they_concern() {
+        let shown = |key: &str| -> Vec<&'static str> {
+            let spec = crate::calculators::spec(key).unwrap_or_else(|| panic!("no page {key}"));
+            common_cautions(&spec).collect()
+        };
+        let text = |scope| {
+            COMMON_CAUTIONS
+                .iter()
+                .find(|c| c.scope == scope)
+                .map(|c| c.text)
+                .unwrap_or_else(|| panic!("no caution for {scope:?}"))
+        };
+        let pressure = text(CautionScope::Group(group::FITTINGS));
+        let soil = text(CautionScope::WithField("soil"));
+        let every = text(CautionScope::Every);
+        assert_eq!(shown("thrust-block"), [pressure, soil, every]);
+        assert_eq!(shown("line-schedule"), [pressure, soil, every]);
+        assert_eq!(shown("bend"), [pressure, every]);
+        for key in ["vane", "jet-plate", "reaction-arm", "runner", "tank-drain", "profile"] {
+            assert_eq!(shown(key), [every], "{key}");
+        }
+    }
 
     fn spec() -> CalculatorSpec {
         let field = |key, kind, si_unit, limits| FieldSpec {

@@ -24,7 +24,7 @@
 //! the server (see [`crate::server`] and the README).
 
 use base64::Engine as _;
-use fluxledger_core::catalog::{CalculatorSpec, COMMON_CAUTIONS};
+use fluxledger_core::catalog::{common_cautions, CalculatorSpec, COMMON_CAUTIONS};
 use sha2::{Digest, Sha256};
 
 /// The content security policy of a page: the site's own files, `'wasm-unsafe-eval'`
@@ -203,13 +203,13 @@ pub(crate) fn footer(assets: &PageAssets, page: &str) -> String {
     )
 }
 
-/// The cautions box: the common cautions, then the page's own.
+/// The cautions box: the shared cautions this page concerns, then the page's own.
 pub fn cautions_html(spec: &CalculatorSpec) -> String {
     let mut html = String::from(concat!(
         "<aside id=\"cautions\" class=\"cautions\" aria-labelledby=\"cautions-title\">\n",
         "<h2 id=\"cautions-title\">Cautions</h2>\n<ul>\n"
     ));
-    for caution in COMMON_CAUTIONS.iter().chain(spec.cautions.iter()) {
+    for caution in common_cautions(spec).chain(spec.cautions.iter().copied()) {
         html.push_str(&format!("<li>{}</li>\n", escape(caution)));
     }
     html.push_str("</ul>\n</aside>\n");
@@ -251,7 +251,11 @@ pub fn calculator_page(
         html.push_str(section);
     }
     html.push_str("</section>\n");
-    html.push_str(&cautions_html(spec));
+    // A prerendered section holds the cautions beside its result, where the script
+    // puts them; without one the script moves them there from here.
+    if prerendered.is_none() {
+        html.push_str(&cautions_html(spec));
+    }
     // A note that opens with its own heading (`# Method` becomes `<h2>`) keeps it;
     // otherwise the page gives the note a "Method" heading.
     if note_html.trim_start().starts_with("<h2") {
@@ -314,7 +318,7 @@ pub fn contents_page(specs: &[CalculatorSpec], assets: &PageAssets) -> String {
         "<h2 id=\"cautions-title\">Before you use a result</h2>\n<ul>\n"
     ));
     for caution in COMMON_CAUTIONS {
-        html.push_str(&format!("<li>{}</li>\n", escape(caution)));
+        html.push_str(&format!("<li>{}</li>\n", escape(caution.text)));
     }
     html.push_str("</ul>\n</aside>\n</main>\n");
     html.push_str(&footer(assets, "index.html"));
@@ -436,8 +440,10 @@ mod tests {
 
     #[test]
     fn cautions_list_common_then_page_cautions_escaped() {
-        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", None, &assets());
-        let first_common = page.find(&escape(COMMON_CAUTIONS[0])).expect("common caution shown");
+        let bend = spec("bend", "Pipe fittings", "Bend");
+        let page = calculator_page(&bend, "", None, &assets());
+        let common = common_cautions(&bend).next().expect("a shared caution on every page");
+        let first_common = page.find(&escape(common)).expect("common caution shown");
         let own = page
             .find("Check the &lt;block&gt; &amp; soil.")
             .expect("page caution shown, escaped");

@@ -13,7 +13,8 @@
 //! markup below mirrors the page script's render functions in `site/assets/js/`
 //! (`form.js`, `render-results.js`, `render-table.js`, `render-diagram.js`,
 //! `render-plot.js`: same elements, classes and order), so that when the script re-renders the same
-//! result nothing moves (no layout shift). Figures are drawn for a phone: the width
+//! result nothing moves (no layout shift); the page's cautions box stands between
+//! the form and the details, where `form.js` puts it. Figures are drawn for a phone: the width
 //! and viewport height the script measures at 360 × 740 CSS px.
 //!
 //! Demo marking: every part the script replaces carries `data-demo` and `inert`
@@ -181,6 +182,7 @@ pub fn calculator_section(spec: &CalculatorSpec) -> Option<String> {
         request: &request,
         result: &solved,
         system: system.key(),
+        cautions: crate::pages::cautions_html(spec),
     };
     Some(page.render())
 }
@@ -192,6 +194,9 @@ struct Page<'a> {
     request: &'a Request,
     result: &'a Value,
     system: &'a str,
+    /// The cautions box (`pages::cautions_html`), placed beside the result as the
+    /// script places it.
+    cautions: String,
 }
 
 /// What `data-demo` parts carry: the marker and `inert` (no typing into a part the
@@ -208,6 +213,7 @@ impl Page<'_> {
         html.push_str(&self.headline());
         html.push_str(&self.form());
         html.push_str("</div>");
+        html.push_str(&self.cautions);
         html.push_str(&format!("<div class=\"details\">{}</div>", self.details()));
         html.push_str("</div>\n");
         html
@@ -609,6 +615,12 @@ fn render_table(table: &Value, index: usize) -> String {
 /// Screen size of diagram labels, in CSS pixels.
 const LABEL_PX: f64 = 13.0;
 
+/// How far a label that overlaps another looks for a free place, in 5 px steps:
+/// along its arrow, to either side, and up or down for plain text.
+const ALONG_STEPS: usize = 16;
+const SIDE_STEPS: usize = 8;
+const PLAIN_STEPS: usize = 24;
+
 fn char_count(text: &str) -> usize {
     // JavaScript's Array.from counts code points, as chars() does.
     text.chars().count()
@@ -876,13 +888,16 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
             };
             let start = [x, y];
             let mut tries: Vec<[f64; 2]> = vec![[0.0, 0.0]];
-            let along = if label.plain { 4 } else { 12 };
+            let along = if label.plain { PLAIN_STEPS } else { ALONG_STEPS };
             for k in 1..=along {
                 let k = k as f64;
                 tries.push([mx * k, my * k]);
-                if k <= 4.0 {
+                if k <= SIDE_STEPS as f64 {
                     tries.push([-my * k, mx * k]);
                     tries.push([my * k, -mx * k]);
+                }
+                if label.plain {
+                    tries.push([-mx * k, -my * k]);
                 }
             }
             let mut free = false;

@@ -64,6 +64,7 @@ pub struct CatalogView {
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct PageView {
     pub version: &'static str,
+    /// The shared cautions this page concerns.
     pub common_cautions: Vec<&'static str>,
     pub unit_systems: Vec<UnitSystemView>,
     pub calculator: CalculatorView,
@@ -150,7 +151,7 @@ pub fn catalog_view() -> CatalogView {
 pub fn catalog_view_of(specs: &[CalculatorSpec]) -> CatalogView {
     CatalogView {
         version: env!("CARGO_PKG_VERSION"),
-        common_cautions: COMMON_CAUTIONS.to_vec(),
+        common_cautions: COMMON_CAUTIONS.iter().map(|caution| caution.text).collect(),
         unit_systems: [UnitSystem::Si, UnitSystem::UsCustomary]
             .into_iter()
             .map(|s| UnitSystemView {
@@ -168,7 +169,7 @@ pub fn page_view(key: &str) -> Option<PageView> {
     let catalog = catalog_view_of(&[]);
     Some(PageView {
         version: catalog.version,
-        common_cautions: catalog.common_cautions,
+        common_cautions: core_catalog::common_cautions(&spec).collect(),
         unit_systems: catalog.unit_systems,
         calculator: calculator_view(&spec),
     })

@@ -3,7 +3,7 @@
 // (fields by `name`, unit selectors by `data-unit-for`, buttons by `data-action`).
 
 import { el } from "./dom.js";
-import { noticesBox } from "./notices.js";
+import { clearPassingNotices, noticesBox } from "./notices.js";
 import { state, defaultUnit, isQuantity, isVisible, systemLabel } from "./state.js";
 import { glue } from "./wasm.js";
 import { downloadCsv } from "./csv.js";
@@ -270,6 +270,7 @@ function onInput(event) {
   if (target.type === "radio") return;
   const field = fieldOf(target);
   if (!field) return;
+  clearPassingNotices();
   state.values[field.key] = target.value;
   state.recomputeNextFrame({ writeToUrl: true });
 }
@@ -283,6 +284,7 @@ function onChange(event) {
     return;
   }
   if (target instanceof HTMLSelectElement && target.dataset.unitFor) {
+    clearPassingNotices();
     state.units[target.dataset.unitFor] = target.value;
     state.recompute({ writeToUrl: true });
     return;
@@ -290,6 +292,7 @@ function onChange(event) {
   const field = fieldOf(target);
   if (!field) return;
   if (target instanceof HTMLSelectElement) {
+    clearPassingNotices();
     state.values[field.key] = target.value;
     state.recompute({ writeToUrl: true });
   } else if (target instanceof HTMLInputElement) {
@@ -334,7 +337,11 @@ export function buildPage() {
   // The headline stays in view while the inputs scroll past (on phones), and no
   // further: it sticks within this wrapper only.
   const main = el("div", { class: "calc-main" }, headline, form);
-  const grid = el("div", { class: "calc-grid" }, main, details);
+  // The page's cautions (written into the page by the site tool) stand beside the
+  // result: under the headline on a wide screen, before the result's details on a
+  // phone, after the key results on the printed sheet.
+  const cautions = document.getElementById("cautions");
+  const grid = el("div", { class: "calc-grid" }, main, cautions, details);
   section.replaceChildren(toolbar, notices, grid);
   // The printed sheet ends with the link and version, after the method and cautions.
   (section.closest("main") || section).append(printFooter);

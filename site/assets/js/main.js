@@ -15,8 +15,9 @@
 // through the glossary, writing them back), form (frame, fields, unit switch, the
 // delegated listeners), csv, render-results / render-table / render-diagram /
 // render-plot, sheet (the calculation sheet: page-level fields, printed header,
-// inputs table, link and QR code), compare (cases side by side). The site tool rewrites the imports to
-// content-hashed file names.
+// inputs table, link and QR code), compare (cases side by side), layout (the result
+// box folding on a phone, the cue of a table that scrolls sideways). The site tool
+// rewrites the imports to content-hashed file names.
 //
 // Layout of the calculator section (filled into `<section id="calculator">`):
 //   toolbar (unit system, copy link, print) · #notices · headline results ·
@@ -32,6 +33,7 @@ import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePr
 import { measureFigureWidth, render } from "./render-results.js";
 import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
+import { watchHeadline } from "./layout.js";
 
 function request() {
   const inputs = {};
@@ -253,6 +255,7 @@ async function start() {
   buildPage();
   buildSheet();
   buildCompare();
+  watchHeadline();
   window.addEventListener("resize", () => {
     state.viewportHeight = window.innerHeight || 800;
     const before = state.figureWidth;

@@ -53,3 +53,17 @@ export function notice(kind, parts, action) {
   else box.append(item);
   return item;
 }
+
+/**
+ * Removes what only reported the last action (the values a unit switch converted,
+ * a copied link, old link keys read in today's words): called on the next edit.
+ * Warnings, errors and notices that offer an action stay until dismissed.
+ */
+export function clearPassingNotices() {
+  for (const status of document.querySelectorAll("#calculator .system-status, #calculator .copy-status")) {
+    if (status.textContent) status.textContent = "";
+  }
+  for (const item of noticesBox().querySelectorAll(":scope > p.notice-info")) {
+    if (!item.querySelector(".notice-action")) item.remove();
+  }
+}

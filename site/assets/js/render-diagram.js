@@ -45,6 +45,14 @@ function wrapWords(text, max) {
 const LABEL_PX = 13;
 
 /**
+ * How far a label that overlaps another looks for a free place, in 5 px steps:
+ * along its arrow, to either side, and up or down for plain text.
+ */
+const ALONG_STEPS = 16;
+const SIDE_STEPS = 8;
+const PLAIN_STEPS = 24;
+
+/**
  * Where a label sits relative to its point: text anchor, baseline, and its box in
  * screen pixels (x right, y down), estimated from its length.
  */
@@ -171,15 +179,17 @@ export function renderDiagram(diagram, index, width) {
       // Screen box (px, y down) of the label at model point (x, y), 2 px clear.
       const screen = () => [x * scale + bx0 - 2, -y * scale + by0 - 2, x * scale + bx1 + 2, -y * scale + by1 + 2];
       const [mx, my] = label.plain || (label.ux === 0 && label.uy === 0) ? [0, -1] : [label.ux, label.uy];
-      // Try further out along the arrow (up to 60 px), or a little to either side
-      // (up to 20 px), 5 px a step; a label that finds no free place stays where
-      // it belongs rather than wander away from what it names.
+      // Try further out along the arrow (up to 80 px; plain text: down, or up, up
+      // to 120 px), or to either side (up to 40 px), 5 px a step, nearest first; a
+      // label that finds no free place stays where it belongs rather than wander
+      // away from what it names.
       const start = [x, y];
       const tries = [[0, 0]];
-      const along = label.plain ? 4 : 12;
+      const along = label.plain ? PLAIN_STEPS : ALONG_STEPS;
       for (let k = 1; k <= along; k += 1) {
         tries.push([mx * k, my * k]);
-        if (k <= 4) tries.push([-my * k, mx * k], [my * k, -mx * k]);
+        if (k <= SIDE_STEPS) tries.push([-my * k, mx * k], [my * k, -mx * k]);
+        if (label.plain) tries.push([-mx * k, -my * k]);
       }
       let free = false;
       for (const [tx, ty] of tries) {

@@ -8,6 +8,7 @@
 // of columns rebuilds the table.
 
 import { el } from "./dom.js";
+import { watchTable } from "./layout.js";
 
 /** A table panel; the CSV button names the table by its index in the result. */
 export function renderTable(table, index) {
@@ -32,13 +33,16 @@ export function renderTable(table, index) {
     "aria-label": `Download ${table.title || "the table"} as CSV`,
     dataset: { action: "csv", tableIndex: String(index) },
   });
-  return el(
+  const panel = el(
     "section",
     { class: "panel panel-table", dataset: { shape: columnsShape(table) } },
     table.title ? el("h3", { class: "table-title", "aria-hidden": "true", text: table.title }) : null,
     el("div", { class: "table-scroll", tabindex: "0" }, element),
     el("div", { class: "table-actions" }, download),
   );
+  // A table wider than its box shows that it scrolls (layout.js).
+  watchTable(panel);
+  return panel;
 }
 
 function renderRow(row, columns, emphasised) {

@@ -181,6 +181,8 @@ export function typedValue(field) {
   if (text === "") return { value: "not given", unit: "" };
   if (isQuantity(field)) {
     const unitId = state.units[field.key] || "";
+    // A plain number (the core's unit `-`) is shown bare, as the core shows it.
+    if (unitId === "-") return { value: text, unit: "" };
     const unit = (field.units || []).find((u) => u.id === unitId);
     return { value: text, unit: unit ? unit.label : unitId };
   }
@@ -200,28 +202,38 @@ export function updateSheet() {
     rows.push(el("tr", {}, ...pairs.slice(i, i + 2).flatMap(([label, text]) => headerCell(label, text))));
   }
 
-  // Two inputs to a row; optional fields left empty are named in one line.
+  // Two inputs to a row, a text field (a list of lines) on a row of its own;
+  // optional fields left empty are named in one line.
   const shownFields = state.spec.fields.filter((field) => isVisible(field));
   const given = shownFields.filter((field) => (state.values[field.key] ?? "").trim() !== "");
   const notGiven = shownFields.filter((field) => (state.values[field.key] ?? "").trim() === "");
   const inputRows = [];
-  for (let i = 0; i < given.length; i += 2) {
-    const cells = given.slice(i, i + 2).flatMap((field) => {
-      const { value: shown, unit } = typedValue(field);
-      return [
-        el("th", { scope: "row", text: field.label }),
-        el("td", { class: "sheet-value", text: unit ? `${shown} ${unit}` : shown }),
-      ];
-    });
-    inputRows.push(el("tr", {}, ...cells));
+  let pending = [];
+  const flush = () => {
+    if (pending.length > 0) inputRows.push(el("tr", {}, ...pending));
+    pending = [];
+  };
+  for (const field of given) {
+    const { value: shown, unit } = typedValue(field);
+    const label = el("th", { scope: "row", text: field.label });
+    if (field.kind === "text") {
+      flush();
+      inputRows.push(el("tr", {}, label, el("td", { class: "sheet-value sheet-text", colspan: 3, text: shown })));
+      continue;
+    }
+    pending.push(label, el("td", { class: "sheet-value", text: unit ? `${shown} ${unit}` : shown }));
+    if (pending.length === 4) flush();
   }
-  ui.sheetInputs.replaceChildren(
+  flush();
+  const parts = [
     el("h2", { class: "panel-title", text: "Inputs" }),
     el("table", { class: "sheet-inputs-table" }, el("tbody", {}, ...inputRows)),
-    notGiven.length > 0
-      ? el("p", { class: "sheet-not-given", text: `Not given: ${notGiven.map((f) => f.label).join("; ")}.` })
-      : null,
-  );
+  ];
+  // (replaceChildren would write a missing part as the text "null")
+  if (notGiven.length > 0) {
+    parts.push(el("p", { class: "sheet-not-given", text: `Not given: ${notGiven.map((f) => f.label).join("; ")}.` }));
+  }
+  ui.sheetInputs.replaceChildren(...parts);
 
   const link = readableLink();
   const code = glue.qr_code(link);

@@ -1,14 +1,93 @@
-//! Every page at 360 px (a small phone): the page never scrolls sideways. Wide
-//! content (display equations, tables) must scroll inside its own box.
+//! Every page at 360 px (a small phone): the page never scrolls sideways (wide
+//! content, display equations and tables, scrolls inside its own box), no two
+//! diagram labels overlap and none runs outside its drawing, and the result box
+//! that sticks to the top takes at most a quarter of the screen. The result box
+//! folds while the reader scrolls down and opens on scrolling back or a tap; a
+//! table wider than its box shows that it scrolls; what the unit switch reported
+//! is gone at the next edit.
 
 use std::time::Duration;
 
-use serde_json::json;
+use serde_json::{json, Value};
 
-use crate::cdp::Launch;
+use crate::cdp::{Browser, Launch, Page};
 use crate::harness::{fixture, launched, one_at_a_time, page_errors};
 
 const PHONE_WIDTH: u32 = 360;
+const PHONE_HEIGHT: u32 = 740;
+
+/// Diagram labels (SVG text) that overlap another label or run outside their
+/// drawing, measured as drawn (bounding boxes, half a pixel of slack).
+const LABEL_PROBLEMS: &str = r#"JSON.stringify([...document.querySelectorAll('svg.diagram')].flatMap((svg, d) => {
+  const box = svg.getBoundingClientRect();
+  const labels = [...svg.querySelectorAll('text')]
+    .filter((t) => t.getClientRects().length > 0 && t.textContent.trim() !== '')
+    .map((t) => ({ text: t.textContent.trim().slice(0, 40), r: t.getBoundingClientRect() }));
+  const out = [];
+  for (const { text, r } of labels) {
+    if (r.left < box.left - 0.5 || r.right > box.right + 0.5 || r.top < box.top - 0.5 || r.bottom > box.bottom + 0.5)
+      out.push(`diagram ${d}: "${text}" runs outside the drawing`);
+  }
+  for (let i = 0; i < labels.length; i++) for (let j = i + 1; j < labels.length; j++) {
+    const a = labels[i].r, b = labels[j].r;
+    const w = Math.min(a.right, b.right) - Math.max(a.left, b.left);
+    const h = Math.min(a.bottom, b.bottom) - Math.max(a.top, b.top);
+    if (w > 0.5 && h > 0.5) out.push(`diagram ${d}: "${labels[i].text}" overlaps "${labels[j].text}" (${w.toFixed(1)} × ${h.toFixed(1)} px)`);
+  }
+  return out;
+}))"#;
+
+/// The result box's height and the viewport's.
+const HEADLINE_HEIGHT: &str =
+    "JSON.stringify([document.querySelector('.headline').getBoundingClientRect().height, innerHeight])";
+
+fn eval(page: &Page, browser: &mut Browser, expression: &str) -> Value {
+    page.eval(browser, expression).unwrap_or_else(|e| panic!("{e}"))
+}
+
+fn phone() -> (Browser, Page) {
+    let (mut browser, page) = launched(Launch {
+        width: PHONE_WIDTH,
+        height: PHONE_HEIGHT,
+    });
+    page.call(
+        &mut browser,
+        "Emulation.setDeviceMetricsOverride",
+        json!({ "width": PHONE_WIDTH, "height": PHONE_HEIGHT, "deviceScaleFactor": 1, "mobile": true }),
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    (browser, page)
+}
+
+fn open(page: &Page, browser: &mut Browser, url: &str) {
+    page.goto(browser, url).unwrap_or_else(|e| panic!("{url}: {e}"));
+    let state = page.wait_rendered(browser).unwrap_or_else(|e| panic!("{url}: {e}"));
+    assert_eq!(state, "ready", "{url}: the page did not compute");
+}
+
+/// Scrolls the window to `y` in steps of 40 px, a frame apart, as a finger would.
+fn scroll_to(page: &Page, browser: &mut Browser, y: i64) {
+    let from = eval(page, browser, "Math.round(scrollY)").as_i64().unwrap_or(0);
+    let steps = ((y - from).abs() / 40).max(1);
+    for i in 1..=steps {
+        let at = from + (y - from) * i / steps;
+        eval(page, browser, &format!("window.scrollTo(0, {at})"));
+        browser
+            .pump(Duration::from_millis(30))
+            .unwrap_or_else(|e| panic!("{e}"));
+    }
+    browser
+        .pump(Duration::from_millis(150))
+        .unwrap_or_else(|e| panic!("{e}"));
+}
+
+fn folded(page: &Page, browser: &mut Browser) -> bool {
+    eval(
+        page,
+        browser,
+        "document.querySelector('.headline').hasAttribute('data-folded')",
+    ) == json!(true)
+}
 
 #[test]
 fn no_page_scrolls_sideways_at_360_px() {
@@ -51,6 +130,23 @@ fn no_page_scrolls_sideways_at_360_px() {
                 ),
             )
             .unwrap_or_else(|e| panic!("{name}: {e}"));
+        if name != "index.html" && name != "verify.html" {
+            let labels = page
+                .eval(&mut browser, LABEL_PROBLEMS)
+                .unwrap_or_else(|e| panic!("{name}: {e}"));
+            let labels: Vec<String> = serde_json::from_str(labels.as_str().unwrap_or("[]")).unwrap_or_default();
+            problems.extend(labels.into_iter().map(|l| format!("{name}: {l}")));
+            let heights = page
+                .eval(&mut browser, HEADLINE_HEIGHT)
+                .unwrap_or_else(|e| panic!("{name}: {e}"));
+            let heights: [f64; 2] = serde_json::from_str(heights.as_str().unwrap_or("[0,0]")).unwrap_or([0.0; 2]);
+            if heights[0] > heights[1] / 4.0 + 0.5 {
+                problems.push(format!(
+                    "{name}: the result box is {} px high on a {} px screen (at most a quarter)",
+                    heights[0], heights[1]
+                ));
+            }
+        }
         let measured: serde_json::Value =
             serde_json::from_str(measured.as_str().unwrap_or("{}")).unwrap_or_else(|e| panic!("{name}: {e}"));
         let (scroll, inner) = (
@@ -71,7 +167,137 @@ fn no_page_scrolls_sideways_at_360_px() {
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
     assert!(
         problems.is_empty(),
-        "pages that scroll sideways at {PHONE_WIDTH} px:\n{}",
+        "pages that scroll sideways, or whose labels overlap, at {PHONE_WIDTH} px:\n{}",
         problems.join("\n")
     );
+}
+
+#[test]
+fn the_result_box_folds_while_scrolling_down_and_opens_again() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = phone();
+    open(&page, &mut browser, &format!("{}/bend.html", site.base));
+    assert!(!folded(&page, &mut browser), "folded before any scrolling");
+
+    // Down through the inputs: the box sticks at the top, folded to its first line.
+    scroll_to(&page, &mut browser, 700);
+    let top = eval(
+        &page,
+        &mut browser,
+        "document.querySelector('.headline').getBoundingClientRect().top",
+    );
+    assert!(
+        top.as_f64().is_some_and(|t| t.abs() < 1.0),
+        "not stuck at the top: {top}"
+    );
+    assert!(folded(&page, &mut browser), "not folded while scrolling down");
+    // What lies under the folded part is what scrolled under it, not the box: a
+    // point 20 px below the fold hits the inputs.
+    let under = eval(
+        &page,
+        &mut browser,
+        "(() => { const h = document.querySelector('.headline');          const fold = parseFloat(h.style.getPropertyValue('--folded-height'));          const r = h.getBoundingClientRect();          if (!(fold > 0 && fold + 20 < r.height)) return 'fold ' + fold + ' of ' + r.height;          return h.contains(document.elementFromPoint(r.left + r.width / 2, r.top + fold + 20)) ? 'box' : 'under'; })()",
+    );
+    assert_eq!(under, json!("under"), "below the fold");
+    // The first line stays: the first headline value is drawn above the fold.
+    let first_visible = eval(
+        &page,
+        &mut browser,
+        "(() => { const h = document.querySelector('.headline'); const dd = h.querySelector('dd');          const r = dd.getBoundingClientRect(); const hit = document.elementFromPoint(r.left + 2, (r.top + r.bottom) / 2);          return hit === dd || dd.contains(hit); })()",
+    );
+    assert_eq!(first_visible, json!(true), "the first value is hidden when folded");
+
+    // Back up a little: it opens.
+    scroll_to(&page, &mut browser, 600);
+    assert!(!folded(&page, &mut browser), "still folded after scrolling back up");
+    // Down again, then a tap opens it.
+    scroll_to(&page, &mut browser, 900);
+    assert!(folded(&page, &mut browser), "not folded on scrolling down again");
+    eval(&page, &mut browser, "document.querySelector('.headline').click()");
+    browser
+        .pump(Duration::from_millis(100))
+        .unwrap_or_else(|e| panic!("{e}"));
+    assert!(!folded(&page, &mut browser), "a tap did not open it");
+
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+#[test]
+fn a_table_wider_than_its_box_shows_that_it_scrolls() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = phone();
+    open(&page, &mut browser, &format!("{}/bend.html", site.base));
+    browser
+        .pump(Duration::from_millis(200))
+        .unwrap_or_else(|e| panic!("{e}"));
+    // Each table: [key, wider than its box, marked, hint shown, faded edge].
+    let tables = "JSON.stringify([...document.querySelectorAll('.panel-table')].map(p => {         const box = p.querySelector('.table-scroll');         return [p.querySelector('table').dataset.table, box.scrollWidth > box.clientWidth + 1,           p.hasAttribute('data-overflows'),           getComputedStyle(p.querySelector('.table-actions'), '::before').content.includes('Scroll'),           getComputedStyle(box).maskImage !== 'none']; }))";
+    let rows: Vec<(String, bool, bool, bool, bool)> =
+        serde_json::from_str(eval(&page, &mut browser, tables).as_str().unwrap_or("[]")).unwrap_or_default();
+    assert!(rows.iter().any(|r| r.1), "no table is wider than a phone: {rows:?}");
+    assert!(rows.iter().any(|r| !r.1), "every table is wider than a phone: {rows:?}");
+    for (key, wide, marked, hint, faded) in &rows {
+        assert_eq!((marked, hint, faded), (wide, wide, wide), "table {key}: wide {wide}");
+    }
+    // Scrolled to its end, a wide table's edge no longer fades.
+    let wide = rows.iter().find(|r| r.1).map(|r| r.0.clone()).unwrap_or_default();
+    eval(
+        &page,
+        &mut browser,
+        &format!("(() => {{ const b = document.querySelector('table[data-table=\"{wide}\"]').closest('.table-scroll'); b.scrollLeft = b.scrollWidth; }})()"),
+    );
+    page.wait_for(
+        &mut browser,
+        &format!("getComputedStyle(document.querySelector('table[data-table=\"{wide}\"]').closest('.table-scroll')).maskImage === 'none'"),
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("the edge still fades at the end of table {wide}: {e}"));
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+#[test]
+fn what_the_unit_switch_reported_is_gone_at_the_next_edit() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch::default());
+    open(&page, &mut browser, &format!("{}/bend.html", site.base));
+    eval(
+        &page,
+        &mut browser,
+        "document.querySelector('input[name=unit-system][value=us]').click()",
+    );
+    page.wait_for(
+        &mut browser,
+        "document.querySelector('.system-status').textContent.includes('converted')",
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("the switch reported nothing: {e}"));
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const i = document.getElementById('field-p'); i.focus(); i.select(); })()",
+    );
+    page.call(&mut browser, "Input.insertText", json!({ "text": "150" }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    page.wait_for(
+        &mut browser,
+        "new URLSearchParams(location.search).get('p') === '150psi'",
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("the edit did not reach the link: {e}"));
+    assert_eq!(
+        eval(
+            &page,
+            &mut browser,
+            "document.querySelector('.system-status').textContent"
+        ),
+        json!(""),
+        "the report of the switch outlived the next edit"
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }

@@ -71,18 +71,33 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
     let v = jet.velocity.value;
     let scale = if v > 0.0 { 4.0 * d / v } else { 0.0 };
     let fmt_v = |x: f64| report.fmt(x, Q::Velocity);
+    // The speeds of the jet and of the blade are named under their arrows, not at
+    // their ends: a name at an end widens the drawing by its length, and on a
+    // phone that shrank the drawing to a sketch between its names.
+    let jet_arrow = [[-lead + 0.2 * d, -1.5 * d], [-lead + 0.2 * d + v * scale, -1.5 * d]];
     shapes.push(Shape::Arrow {
-        from: [-lead + 0.2 * d, -1.5 * d],
-        to: [-lead + 0.2 * d + v * scale, -1.5 * d],
-        label: format!("V = {}", fmt_v(v)),
+        from: jet_arrow[0],
+        to: jet_arrow[1],
+        label: String::new(),
+        style: ShapeStyle::Velocity,
+    });
+    shapes.push(Shape::Text {
+        at: [(jet_arrow[0][0] + jet_arrow[1][0]) / 2.0, -3.0 * d],
+        text: format!("V = {}", fmt_v(v)),
         style: ShapeStyle::Velocity,
     });
     if mode != VaneKind::Fixed && state.u > 0.0 {
-        let base = [radius + d, -1.4 * d];
+        let base = [radius + d, -1.5 * d];
+        let tip = [base[0] + state.u * scale, base[1]];
         shapes.push(Shape::Arrow {
             from: base,
-            to: [base[0] + state.u * scale, base[1]],
-            label: format!("vane moves at u = {}", fmt_v(state.u)),
+            to: tip,
+            label: String::new(),
+            style: ShapeStyle::Velocity,
+        });
+        shapes.push(Shape::Text {
+            at: [(base[0] + tip[0]) / 2.0, -3.0 * d],
+            text: format!("vane moves at u = {}", fmt_v(state.u)),
             style: ShapeStyle::Velocity,
         });
         // The exit velocity triangle, drawn beside the vane at twice the scale:
@@ -97,9 +112,13 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         );
         let tip_w = origin + state.w_out * big;
         let tip_v = tip_w + Vec3::new(state.u * big, 0.0, 0.0);
+        // Its name above it, clear of its sides and of their names (which sit half
+        // a jet diameter off the sides).
+        let top = origin.y.max(tip_w.y).max(tip_v.y);
+        let middle = (origin.x.min(tip_w.x).min(tip_v.x) + origin.x.max(tip_w.x).max(tip_v.x)) / 2.0;
         shapes.push(Shape::Text {
-            at: (origin - Vec3::new(0.0, 1.0 * d, 0.0)).xy(),
-            text: "exit triangle (2 × scale)".to_string(),
+            at: [middle, top + 2.6 * d],
+            text: "exit triangle (×2 scale)".to_string(),
             style: ShapeStyle::Label,
         });
         // Sides unlabelled; each name sits beside the middle of its side, outside the
@@ -164,8 +183,11 @@ pub fn diagram(jet: &Jet, vane: &Vane, mode: VaneKind, state: &VaneState, report
         VaneKind::Single => "single vane, moving",
         VaneKind::Wheel => "one bucket of the wheel",
     };
+    // Under the nozzle and the jet's speed, where nothing else is drawn: a name
+    // beside the nozzle widened the drawing by half its length, and on a phone
+    // shrank everything else.
     shapes.push(Shape::Text {
-        at: [-lead - 1.2 * d, 3.0 * d],
+        at: [-0.5 * lead - 0.6 * d, -4.6 * d],
         text: format!("{name}, θ = {}", report.fmt(vane.theta, Q::Angle)),
         style: ShapeStyle::Label,
     });
