@@ -32,12 +32,17 @@ pub enum Family {
 }
 
 impl Family {
-    /// The published dimension table the family's values come from.
+    /// The published dimension standard the family's values come from, as users
+    /// read it. (How the values were obtained is in the module doc: the steel and
+    /// PVC tables through `fluids==1.0.26`, the ductile-iron table typed from memory
+    /// and checked against a pipe maker's reproduction.)
     pub fn source(self) -> &'static str {
         match self {
-            Family::SteelSch40 | Family::SteelSch80 => "ASME B36.10M via fluids==1.0.26 nearest_pipe",
-            Family::DuctileIronClass52 => "AWWA C150/C151 special thickness class table (from memory, checked)",
-            Family::PvcC900Dr18 => "AWWA C900 via fluids==1.0.26 nearest_pipe",
+            Family::SteelSch40 | Family::SteelSch80 => {
+                "ASME B36.10M, welded and seamless wrought steel pipe (checked against an independent library)"
+            }
+            Family::DuctileIronClass52 => "ANSI/AWWA C150/A21.50 and C151/A21.51, special thickness class 52",
+            Family::PvcC900Dr18 => "ANSI/AWWA C900, DR18 (checked against an independent library)",
         }
     }
 }
