@@ -972,6 +972,7 @@ mod registry {
 mod user_words {
     use fluxledger_core::calculators::{self, CALCULATORS};
     use fluxledger_core::catalog::{self, CalculatorSpec, FieldKind, Request, Shape, Solution};
+    use fluxledger_core::units;
     use fluxledger_core::{solve, SolveError, UnitSystem};
     use fluxledger_tests::{load_cases, reference_dir, workspace_root, Target};
 
@@ -1175,6 +1176,48 @@ mod user_words {
             "a method note uses developer wording (name the published source instead):\n  {}",
             found.join("\n  ")
         );
+    }
+
+    /// A unit written as its ASCII code where people read a label (`degC` for °C,
+    /// `m3/h` for m³/h, `kN/m3` for kN/m³): the codes are for links and selectors.
+    fn unit_code_in(text: &str) -> Option<&'static str> {
+        // What a user types is quoted ('bend 45deg di52_12'): typed syntax uses codes.
+        let unquoted: String = text.split('\'').step_by(2).collect::<Vec<_>>().join(" ");
+        unquoted
+            .split(|c: char| c.is_whitespace() || "(),;:".contains(c))
+            .map(|token| token.trim_end_matches(['.', '\'', '"']))
+            .filter(|token| !token.is_empty())
+            .find_map(|token| {
+                // A number written against its unit ("20degC") is read the same way.
+                let token = token.trim_start_matches(|c: char| c.is_ascii_digit() || "+-.".contains(c));
+                units::UNITS
+                    .iter()
+                    .find(|u| u.id == token && u.label() != u.id)
+                    .map(|u| u.id)
+            })
+    }
+
+    /// Help, labels, options, cautions and summaries name units by their labels.
+    #[test]
+    fn descriptions_show_unit_labels_not_codes() {
+        let mut found = Vec::new();
+        for spec in calculators::catalog() {
+            for (place, text) in spec_texts(&spec) {
+                if let Some(code) = unit_code_in(&text) {
+                    found.push(format!("{}: {place}: '{code}' in \"{text}\"", spec.key));
+                }
+            }
+        }
+        assert!(
+            found.is_empty(),
+            "user-facing descriptions write unit codes; write the label (°C, m³/h, kN/m³…):\n  {}",
+            found.join("\n  ")
+        );
+        assert_eq!(unit_code_in("0 to 99.9 degC (32 to 211.8 degF)."), Some("degC"));
+        assert_eq!(unit_code_in("from 1 to 20 m3/h"), Some("m3/h"));
+        assert_eq!(unit_code_in("at 20degC"), Some("degC"));
+        assert_eq!(unit_code_in("e.g. 'bend 45deg di52_12'. Kinds: bend"), None);
+        assert_eq!(unit_code_in("0 to 99.9 °C (32 to 211.8 °F); 45° or 300 mm."), None);
     }
 
     /// The first section of a note, up to its second `## ` heading: what the

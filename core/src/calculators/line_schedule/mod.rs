@@ -215,7 +215,7 @@ pub fn spec() -> CalculatorSpec {
     ];
     CalculatorSpec {
         key: KEY,
-        title: "Line schedule: thrust blocks along a line",
+        title: "Thrust blocks for every fitting along a line",
         group: crate::catalog::group::FITTINGS,
         summary:
             "Paste the fittings of a line, one per row, and get each thrust, its direction and the block it needs, \

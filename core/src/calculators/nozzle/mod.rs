@@ -181,7 +181,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Nozzle on a flange: end force and jet reaction",
+        title: "End force and jet reaction at a flanged nozzle",
         group: crate::catalog::group::FITTINGS,
         summary: "End force on the flange joint, jet reaction and discharge of a nozzle, from the energy and momentum \
                 balances with nozzle coefficients.",

@@ -101,7 +101,7 @@ const N_POWER_HELP: &str = "About 6 to 10 for turbulent pipe flow; 7 is the usua
 pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
-        title: "Velocity profile to flow and correction factors",
+        title: "Flow and momentum factors from a velocity traverse",
         group: crate::catalog::group::FLOW_AND_TANKS,
         summary: SUMMARY,
         fields: vec![

@@ -246,7 +246,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Reducer or expander thrust",
+        title: "Thrust at a reducer or expander",
         group: crate::catalog::group::FITTINGS,
         summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance \
                 and the fitting's loss.",

@@ -525,7 +525,7 @@ pub fn spec() -> CalculatorSpec {
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
-        title: "Thrust restraint: design pressure and thrust block",
+        title: "Thrust block size for a buried fitting",
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), \
                 and the bearing or gravity block that carries it.",
