@@ -242,7 +242,7 @@ pub const SOILS: &[SoilPreset] = &[
 pub const SOIL_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "custom",
-        label: "Typed value (from the geotechnical report): always used when given",
+        label: "Typed value from the geotechnical report (use one whenever you have it)",
     },
     ChoiceOption {
         key: "organic",

@@ -78,7 +78,8 @@ const SLOW_CAUTION: &str = "A slow-closure estimate is not a transient analysis:
 const RUN_CAUTION: &str = "The run load acts along the run and reverses as reflections return: restrain the run \
     axially at both elbows, or anchor it, for the force shown in both directions.";
 
-const SIZE_HELP: &str = "A preset gives both diameters and the wall material; typed diameters below override it.";
+const SIZE_HELP: &str = "A preset gives both diameters and the wall material, from the dimension standards (steel: \
+    ASME B36.10M; ductile iron: AWWA C150/C151 class 52; PVC: AWWA C900 DR18); typed diameters below override it.";
 const OD_HELP: &str = "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).";
 const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of \
     the size preset. Not used when the wave speed is typed.";

@@ -208,7 +208,8 @@ pub fn spec() -> CalculatorSpec {
             "Pipe size",
             pipe_sizes::SIZE_OPTIONS,
             "di52_12",
-            "A preset gives both diameters; typed diameters below override it.",
+            "A preset gives both diameters, from the dimension standards (steel: ASME B36.10M; ductile iron: \
+                AWWA C150/C151 class 52; PVC: AWWA C900 DR18); typed diameters below override it.",
         ),
         FieldSpec {
             optional: true,
