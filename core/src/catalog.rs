@@ -941,17 +941,20 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                         });
                         let smallest = smallest_meaningful(*kind);
                         if si != 0.0 && si.abs() < smallest && *kind != QuantityKind::Temperature {
+                            // Bounds read with the unit's label (°C, m³/h), not its code.
+                            let shown = |si: f64| units::with_label(&units::format_quantity_in(si, *kind, unit));
                             let (max, zero_allowed) = match field.limits {
-                                Some(limits) => {
-                                    (units::format_quantity_in(limits.max, *kind, unit), limits.contains(0.0))
-                                }
+                                Some(limits) => (shown(limits.max), limits.contains(0.0)),
                                 None => (String::new(), true),
                             };
+                            let smallest = units::with_label(&without_trailing_zeros(&units::format_quantity_in(
+                                smallest, *kind, unit,
+                            )));
                             errors.push(FieldError::new(
                                 field.key,
                                 FieldErrorKind::BelowSmallest {
-                                    smallest: without_trailing_zeros(&units::format_quantity_in(smallest, *kind, unit)),
-                                    zero: units::format_quantity_in(0.0, *kind, unit),
+                                    smallest,
+                                    zero: shown(0.0),
                                     max,
                                     zero_allowed,
                                 },
@@ -963,8 +966,8 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                                 errors.push(FieldError::new(
                                     field.key,
                                     FieldErrorKind::OutOfRange {
-                                        min: units::format_quantity_in(limits.min, *kind, unit),
-                                        max: units::format_quantity_in(limits.max, *kind, unit),
+                                        min: units::with_label(&units::format_quantity_in(limits.min, *kind, unit)),
+                                        max: units::with_label(&units::format_quantity_in(limits.max, *kind, unit)),
                                         min_inclusive: limits.min_inclusive,
                                     },
                                 ));
@@ -1184,7 +1187,7 @@ mod tests {
         assert_eq!(found.len(), 1, "{found:?}");
         assert_eq!(found[0].field, "angle");
         let message = found[0].kind.to_string();
-        assert!(message.contains("type 0 deg"), "{message}");
+        assert!(message.contains("type 0°"), "{message}");
         assert!(errors("300 mm", "-1e-300 deg").len() == 1);
     }
 

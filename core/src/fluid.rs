@@ -45,7 +45,7 @@ impl std::fmt::Display for FluidError {
         match self {
             FluidError::BelowFreezing { kelvin } => write!(
                 f,
-                "{:.2} degC is below freezing; liquid water properties are given from 0 degC to 99.9 degC",
+                "{:.2} °C is below freezing; liquid water properties are given from 0 °C to 99.9 °C",
                 kelvin - ZERO_CELSIUS
             ),
             FluidError::AtOrAboveSaturation {
@@ -53,7 +53,7 @@ impl std::fmt::Display for FluidError {
                 saturation_kelvin,
             } => write!(
                 f,
-                "{:.2} degC is at or above the boiling point at atmospheric pressure ({:.2} degC); use a \
+                "{:.2} °C is at or above the boiling point at atmospheric pressure ({:.2} °C); use a \
                         custom fluid for hot water under pressure",
                 kelvin - ZERO_CELSIUS,
                 saturation_kelvin - ZERO_CELSIUS
@@ -99,7 +99,7 @@ impl Fluid {
         }
         let density = water_density(t);
         Ok(Fluid {
-            name: format!("water at {:.1} degC", t - ZERO_CELSIUS),
+            name: format!("water at {:.1} °C", t - ZERO_CELSIUS),
             density,
             viscosity: water_viscosity(t, density),
             vapour_pressure: Some(water_saturation_pressure(t)),

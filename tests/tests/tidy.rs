@@ -21,7 +21,12 @@
 //! - the invariants DEVELOPERS.md states as absences: no `serde` in the core, no
 //!   HTML-writing DOM calls in any page script, every wasm export named in
 //!   DEVELOPERS.md, every intra-doc link of the core resolving, no core line wider
-//!   than rustfmt's `max_width`.
+//!   than rustfmt's `max_width`;
+//! - the words on the pages: no user-facing text (titles, labels, help, options,
+//!   cautions, the tables, diagrams, plots, warnings and checks of the demo and of
+//!   every sourced case, the method notes) uses developer wording ("from memory",
+//!   test folders, library calls), and every method note's first section holds the
+//!   governing equation the calculation sheet prints.
 
 use std::path::{Path, PathBuf};
 
@@ -956,6 +961,318 @@ mod registry {
                 found.iter().any(|p| p.contains(expected)),
                 "a fault expected to give '{expected}' gave {found:?}"
             );
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------
+// The words on the pages: what users read says what a source is, never how the
+// developers remember it or where the tests keep it.
+
+mod user_words {
+    use fluxledger_core::calculators::{self, CALCULATORS};
+    use fluxledger_core::catalog::{self, CalculatorSpec, FieldKind, Request, Shape, Solution};
+    use fluxledger_core::units;
+    use fluxledger_core::{solve, SolveError, UnitSystem};
+    use fluxledger_tests::{load_cases, reference_dir, workspace_root, Target};
+
+    /// Developer wording that belongs in the test data and code comments, not on a
+    /// page, a sheet or a method note (matched in lower case).
+    const DEVELOPER_WORDING: &[&str] = &[
+        "from memory",
+        "tests/",
+        "src/",
+        "test suite",
+        "reference case",
+        "pending/",
+        "fluids==",
+        "fluids.",
+        "nearest_pipe",
+        "scipy",
+        "iapws==",
+        "python",
+        "pip install",
+        "==",
+        "cargo ",
+    ];
+
+    /// The developer wording in one text, if any.
+    fn wording_in(text: &str) -> Option<&'static str> {
+        let lower = text.to_lowercase();
+        DEVELOPER_WORDING.iter().copied().find(|w| lower.contains(w))
+    }
+
+    /// Every user-facing text of a description: `(where, text)`.
+    fn spec_texts(spec: &CalculatorSpec) -> Vec<(String, String)> {
+        let mut out = vec![
+            ("title".to_string(), spec.title.to_string()),
+            ("summary".to_string(), spec.summary.to_string()),
+        ];
+        for f in &spec.fields {
+            out.push((format!("label of {}", f.key), f.label.to_string()));
+            out.push((format!("help of {}", f.key), f.help.to_string()));
+            if let FieldKind::Choice(options) = &f.kind {
+                for o in options.iter() {
+                    out.push((format!("option {}={}", f.key, o.key), o.label.to_string()));
+                }
+            }
+        }
+        for o in &spec.outputs {
+            out.push((format!("output {}", o.key), o.label.to_string()));
+        }
+        for (i, c) in spec.cautions.iter().enumerate() {
+            out.push((format!("caution {i}"), c.to_string()));
+        }
+        out
+    }
+
+    /// Every user-facing text of a solution: tables, diagrams, plots, warnings,
+    /// checks and carry-over links.
+    fn solution_texts(solution: &Solution) -> Vec<(String, String)> {
+        let mut out = Vec::new();
+        for t in &solution.tables {
+            out.push((format!("table {} title", t.key), t.title.clone()));
+            for c in &t.columns {
+                out.push((format!("table {} column", t.key), c.clone()));
+            }
+            for row in &t.rows {
+                for cell in row {
+                    out.push((format!("table {} cell", t.key), cell.clone()));
+                }
+            }
+        }
+        for d in &solution.diagrams {
+            out.push(("diagram title".into(), d.title.clone()));
+            out.push(("diagram caption".into(), d.caption.clone()));
+            for s in &d.shapes {
+                if let Shape::Arrow { label: text, .. } | Shape::Text { text, .. } = s {
+                    out.push(("diagram label".into(), text.clone()));
+                }
+            }
+        }
+        for p in &solution.plots {
+            out.push((format!("plot {}", p.key), p.title.clone()));
+            out.push((format!("plot {} axis", p.key), p.x_label.clone()));
+            out.push((format!("plot {} axis", p.key), p.y_label.clone()));
+            for s in &p.series {
+                out.push((format!("plot {} series", p.key), s.name.clone()));
+            }
+            for m in &p.markers {
+                out.push((format!("plot {} marker", p.key), m.label.clone()));
+            }
+        }
+        for w in &solution.warnings {
+            out.push(("warning".into(), w.message.clone()));
+        }
+        for c in &solution.checks {
+            out.push(("check".into(), format!("{}: {}", c.label, c.basis)));
+        }
+        for c in &solution.carry_over {
+            out.push(("carry-over link".into(), c.label.clone()));
+        }
+        out
+    }
+
+    /// The texts of one solved request: the solution's, or the field errors'.
+    fn solved_texts(key: &str, request: &Request) -> Vec<(String, String)> {
+        match solve(key, request).result {
+            Ok(solution) => solution_texts(&solution),
+            Err(SolveError::Fields(errors)) => errors
+                .iter()
+                .map(|e| (format!("error on {}", e.field), e.kind.to_string()))
+                .collect(),
+            Err(other) => vec![("error".into(), other.to_string())],
+        }
+    }
+
+    /// Every text users can read: each description, its demo solved in both unit
+    /// systems, and every sourced case's inputs solved as the case does (they open
+    /// modes the demo does not), plus the common cautions.
+    fn every_user_text() -> Vec<(String, String)> {
+        let mut out: Vec<(String, String)> = catalog::COMMON_CAUTIONS
+            .iter()
+            .map(|c| ("common caution".to_string(), c.text.to_string()))
+            .collect();
+        for spec in calculators::catalog() {
+            let page = spec.key;
+            out.extend(spec_texts(&spec).into_iter().map(|(w, t)| (format!("{page}: {w}"), t)));
+            for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                let request = Request {
+                    system,
+                    ..catalog::demo_request(&spec, &[])
+                };
+                let texts = solved_texts(page, &request);
+                out.extend(texts.into_iter().map(|(w, t)| (format!("{page} demo: {w}"), t)));
+            }
+        }
+        let (cases, _) = load_cases(&reference_dir());
+        for case in cases {
+            let Target::Calculator(key) = &case.target else {
+                continue;
+            };
+            if !CALCULATORS.iter().any(|c| c.key == key) {
+                continue;
+            }
+            let request = Request {
+                inputs: case.inputs.clone(),
+                field_units: case.units.clone(),
+                system: case.system,
+            };
+            let name = case.name();
+            out.extend(
+                solved_texts(key, &request)
+                    .into_iter()
+                    .map(|(w, t)| (format!("{key} ({name}): {w}"), t)),
+            );
+        }
+        out
+    }
+
+    /// The method notes, paragraph by paragraph: `(where, text)`.
+    fn note_texts() -> Vec<(String, String)> {
+        let dir = workspace_root().join("site").join("notes");
+        let mut paths: Vec<_> = std::fs::read_dir(&dir)
+            .map(|entries| entries.filter_map(|e| e.ok().map(|e| e.path())).collect())
+            .unwrap_or_default();
+        paths.sort();
+        assert!(!paths.is_empty(), "no method notes in {}", dir.display());
+        let mut out = Vec::new();
+        for path in paths {
+            let text = std::fs::read_to_string(&path).unwrap_or_default();
+            let name = path
+                .file_name()
+                .map(|n| n.to_string_lossy().into_owned())
+                .unwrap_or_default();
+            for (i, line) in text.lines().enumerate() {
+                out.push((format!("{name}:{}", i + 1), line.to_string()));
+            }
+        }
+        out
+    }
+
+    fn problems(texts: &[(String, String)]) -> Vec<String> {
+        texts
+            .iter()
+            .filter_map(|(place, text)| wording_in(text).map(|w| format!("{place}: '{w}' in \"{text}\"")))
+            .collect()
+    }
+
+    #[test]
+    fn no_page_text_uses_developer_wording() {
+        let found = problems(&every_user_text());
+        assert!(
+            found.is_empty(),
+            "user-facing text names how the developers know a value (keep that in tests/data and \
+             code comments; name the published source instead):\n  {}",
+            found.join("\n  ")
+        );
+    }
+
+    #[test]
+    fn no_method_note_uses_developer_wording() {
+        let found = problems(&note_texts());
+        assert!(
+            found.is_empty(),
+            "a method note uses developer wording (name the published source instead):\n  {}",
+            found.join("\n  ")
+        );
+    }
+
+    /// A unit written as its ASCII code where people read a label (`degC` for °C,
+    /// `m3/h` for m³/h, `kN/m3` for kN/m³): the codes are for links and selectors.
+    fn unit_code_in(text: &str) -> Option<&'static str> {
+        // What a user types is quoted ('bend 45deg di52_12'): typed syntax uses codes.
+        let unquoted: String = text.split('\'').step_by(2).collect::<Vec<_>>().join(" ");
+        unquoted
+            .split(|c: char| c.is_whitespace() || "(),;:".contains(c))
+            .map(|token| token.trim_end_matches(['.', '\'', '"']))
+            .filter(|token| !token.is_empty())
+            .find_map(|token| {
+                // A number written against its unit ("20degC") is read the same way.
+                let token = token.trim_start_matches(|c: char| c.is_ascii_digit() || "+-.".contains(c));
+                units::UNITS
+                    .iter()
+                    .find(|u| u.id == token && u.label() != u.id)
+                    .map(|u| u.id)
+            })
+    }
+
+    /// Help, labels, options, cautions and summaries name units by their labels.
+    #[test]
+    fn descriptions_show_unit_labels_not_codes() {
+        let mut found = Vec::new();
+        for spec in calculators::catalog() {
+            for (place, text) in spec_texts(&spec) {
+                if let Some(code) = unit_code_in(&text) {
+                    found.push(format!("{}: {place}: '{code}' in \"{text}\"", spec.key));
+                }
+            }
+        }
+        assert!(
+            found.is_empty(),
+            "user-facing descriptions write unit codes; write the label (°C, m³/h, kN/m³…):\n  {}",
+            found.join("\n  ")
+        );
+        assert_eq!(unit_code_in("0 to 99.9 degC (32 to 211.8 degF)."), Some("degC"));
+        assert_eq!(unit_code_in("from 1 to 20 m3/h"), Some("m3/h"));
+        assert_eq!(unit_code_in("at 20degC"), Some("degC"));
+        assert_eq!(unit_code_in("e.g. 'bend 45deg di52_12'. Kinds: bend"), None);
+        assert_eq!(unit_code_in("0 to 99.9 °C (32 to 211.8 °F); 45° or 300 mm."), None);
+    }
+
+    /// The first section of a note, up to its second `## ` heading: what the
+    /// calculation sheet prints as the method in a few lines.
+    fn first_section(note: &str) -> &str {
+        let body = note.strip_prefix("## ").unwrap_or(note);
+        match body.find("\n## ") {
+            Some(end) => &body[..end],
+            None => body,
+        }
+    }
+
+    /// The sheet prints a note's first section up to its first displayed equation,
+    /// so that section must hold the governing equation.
+    #[test]
+    fn every_method_note_opens_with_its_governing_equation() {
+        let dir = workspace_root().join("site").join("notes");
+        let mut missing = Vec::new();
+        for spec in calculators::catalog() {
+            let path = dir.join(format!("{}.md", spec.key));
+            let note = std::fs::read_to_string(&path).unwrap_or_default();
+            if !first_section(&note).contains("$$") {
+                missing.push(spec.key);
+            }
+        }
+        assert!(
+            missing.is_empty(),
+            "the first section of these method notes has no displayed equation ($$…$$), so the \
+             calculation sheet prints the method without it: {missing:?}"
+        );
+        // It can fail: a note whose equation comes only in its second section.
+        assert!(!first_section("## What\n\ntext\n\n## 1. Method\n\n$$x = y$$\n").contains("$$"));
+        assert!(first_section("## Method\n\n$$x = y$$\n\n## Sources\n").contains("$$"));
+    }
+
+    /// The check must be able to fail: each kind of developer wording is caught
+    /// wherever it sits, and plain source names pass.
+    #[test]
+    fn the_wording_check_catches_each_kind() {
+        for bad in [
+            "AWWA C150 table (from memory)",
+            "see tests/data/reference/",
+            "ASME B36.10M via fluids==1.0.26 nearest_pipe",
+            "scipy.integrate.quad",
+            "quadrature with SciPy 1.17.1",
+        ] {
+            let texts = vec![("cell".to_string(), bad.to_string())];
+            assert_eq!(problems(&texts).len(), 1, "{bad} was not caught");
+        }
+        for good in [
+            "ASME B36.10M, checked against an independent library",
+            "AWWA C150/C151, special thickness class 52",
+            "NFPA 24 annex table of horizontal bearing strengths",
+        ] {
+            assert_eq!(wording_in(good), None, "{good} was caught");
         }
     }
 }

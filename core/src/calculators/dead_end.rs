@@ -120,7 +120,7 @@ pub fn spec() -> CalculatorSpec {
     ];
     CalculatorSpec {
         key: KEY,
-        title: "Dead end, cap or closed valve thrust",
+        title: "Thrust at a dead end, cap or closed valve",
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust p·A on a cap, blind flange, plug or closed valve, on the inside or outside diameter.",
         fields,

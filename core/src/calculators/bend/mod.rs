@@ -218,21 +218,21 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Pipe bend anchor force",
+        title: "Anchor force at a pipe bend",
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
         fields,
         outputs: vec![
             OutputSpec::headline("thrust", "Thrust on the supports (resultant)", Q::Force),
             OutputSpec::headline("thrust_in_plane", "Thrust in the plane of the bend", Q::Force),
+            OutputSpec::listed("thrust_x", "Thrust along the inlet flow (x)", Q::Force),
+            OutputSpec::listed("thrust_y", "Thrust across it, in the plane (y)", Q::Force),
+            OutputSpec::listed("thrust_z", "Thrust normal to the plane (z, up in plan view)", Q::Force),
             OutputSpec::listed(
                 "thrust_angle",
                 "Direction of the in-plane thrust, from the inlet flow direction",
                 Q::Angle,
             ),
-            OutputSpec::listed("thrust_x", "Thrust along the inlet flow (x)", Q::Force),
-            OutputSpec::listed("thrust_y", "Thrust across it, in the plane (y)", Q::Force),
-            OutputSpec::listed("thrust_z", "Thrust normal to the plane (z, up in plan view)", Q::Force),
             OutputSpec::listed("p_out", "Gauge pressure at the outlet", Q::Pressure),
             OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
             OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),

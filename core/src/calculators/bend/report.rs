@@ -38,12 +38,16 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     let in_plane = (thrust.x * thrust.x + thrust.y * thrust.y).sqrt();
     report.output("thrust", thrust.norm());
     report.output("thrust_in_plane", in_plane);
+    // The components right under the headline; z only where there is one (a
+    // component at rounding level of the thrust is none).
+    report.output("thrust_x", thrust.x);
+    report.output("thrust_y", thrust.y);
+    if thrust.z.abs() > 1e-9 * thrust.norm() {
+        report.output("thrust_z", thrust.z);
+    }
     if in_plane > 0.0 {
         report.output("thrust_angle", thrust.plane_angle());
     }
-    report.output("thrust_x", thrust.x);
-    report.output("thrust_y", thrust.y);
-    report.output("thrust_z", thrust.z);
     report.output("p_out", outlet_state.pressure);
     report.output("v_in", inlet_state.speed);
     report.output("v_out", outlet_state.speed);

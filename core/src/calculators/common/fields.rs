@@ -100,7 +100,7 @@ pub fn fluid_fields(demo_temperature: &'static str) -> Vec<FieldSpec> {
                 "degF",
                 demo_temperature,
                 Limits::closed(ZERO_CELSIUS, ZERO_CELSIUS + 99.9),
-                "Liquid water at atmospheric pressure, 0 to 99.9 degC (32 to 211.8 degF).",
+                "Liquid water at atmospheric pressure, 0 to 99.9 °C (32 to 211.8 °F).",
             )
         },
         FieldSpec {

@@ -81,7 +81,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Free jet on a fixed flat plate",
+        title: "Force of a water jet on a flat plate",
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary: "Force of a free jet on a fixed normal or inclined plate, and how the flow splits along the plate.",
         fields,

@@ -42,8 +42,8 @@
 //!   `dead_end` (also `cap`, `plug`, `valve`, `dead-end`), `reducer`, `force`.
 //! - A bare angle (`45deg`) is a bend's deflection; a bare pressure (`150psi`) is
 //!   the row's design pressure; a bare size preset key (`di52_12`) is the main size,
-//!   a second one the tee branch or reducer small end; a bare soil preset key
-//!   (`nfpa24_sand`) is the soil.
+//!   a second one the tee branch or reducer small end; a bare soil class key
+//!   (`dense_granular`) is the soil.
 //! - `key=value` tokens: `angle=`, `size=`, `d=` (inside), `od=` (outside),
 //!   `size2=`, `d2=`, `od2=`, `p=` (design pressure), `pw=` (working pressure at
 //!   this fitting, the page basis applies), `soil=`, `sigma=` (typed bearing),
@@ -56,7 +56,7 @@
 //!   row's pipe, computed surge).
 //! - Quantities carry their unit (`12in`, `0.9m`, `10bar`); a bare number is refused.
 //!
-//! Example: `bend 45deg di52_12 nfpa24_sand tag=B1` or
+//! Example: `bend 45deg di52_12 dense_granular tag=B1` or
 //! `tee size=sch40_12 size2=sch40_6 joint=welded p=16bar`.
 //!
 //! # Code
@@ -98,9 +98,9 @@ pub const MIN_BEARING: f64 = 1e3;
 pub const MAX_BEARING: f64 = 20e6;
 
 const DEMO_ROWS: &str = "# Harrow Creek Works fire-water ring main (invented demo)\n\
-bend 90deg di52_12 nfpa24_sandy_silt tag=B1\n\
-bend 45deg di52_12 nfpa24_sandy_silt tag=B2 turn=right\n\
-tee di52_12 di52_8 nfpa24_sand tag=T1\n\
+bend 90deg di52_12 dense_granular tag=B1\n\
+bend 45deg di52_12 dense_granular tag=B2 turn=right\n\
+tee di52_12 di52_8 dense_granular tag=T1\n\
 reducer di52_12 di52_8 tag=R1\n\
 bend 22.5deg di52_8 turn=down tag=V1\n\
 dead_end di52_8 tag=H1 h=0.9m";
@@ -191,7 +191,7 @@ pub fn spec() -> CalculatorSpec {
             demo: DEMO_ROWS,
             limits: None,
             optional: false,
-            help: "One fitting per line: KIND then tokens, e.g. 'bend 45deg di52_12 nfpa24_sand tag=B1'. Kinds: \
+            help: "One fitting per line: KIND then tokens, e.g. 'bend 45deg di52_12 dense_granular tag=B1'. Kinds: \
                     bend, tee, dead_end, reducer, force. See the method note for every token.",
             visible_when: None,
             key: "rows",
@@ -282,8 +282,9 @@ pub fn spec() -> CalculatorSpec {
             "soil",
             "Soil (rows without soil=)",
             SOIL_OPTIONS,
-            "nfpa24_sandy_silt",
-            "Published tables disagree by up to about 4×; see the thrust-restraint page's comparison.",
+            "dense_granular",
+            "Each class takes the lowest value of the published tables' rows for it; they disagree by up to \
+                about 4× (see the thrust-restraint page's comparison). A typed value always wins.",
         ),
         FieldSpec {
             visible_when: Some(("soil", &["custom"])),
@@ -339,7 +340,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Line schedule: thrust blocks along a line",
+        title: "Thrust blocks for every fitting along a line",
         group: crate::catalog::group::FITTINGS,
         summary:
             "Paste the fittings of a line, one per row, and get each thrust, its direction and the block it needs, \
@@ -412,7 +413,7 @@ mod tests {
 
     #[test]
     fn the_method_note_examples_parse() {
-        let examples = "bend 45deg di52_12 nfpa24_sand tag=B1\n\
+        let examples = "bend 45deg di52_12 dense_granular tag=B1\n\
             tee size=sch40_12 size2=sch40_6 joint=welded p=16bar\n\
             reducer c900dr18_12 c900dr18_8\n\
             bend 22.5deg di52_8 turn=down\n\
@@ -428,6 +429,7 @@ mod tests {
     fn the_governing_row_opens_on_the_thrust_restraint_page_with_the_same_thrust() {
         for rows in [
             "bend 90deg di52_12 p=150psi soil=safe_sand h=2ft\ndead_end di52_8",
+            "bend 90deg di52_12 p=150psi soil=loose_granular h=2ft\ndead_end di52_8",
             "tee size=sch40_12 size2=sch40_6 joint=welded p=16bar sigma=150kPa",
             "bend 22.5deg di52_8 turn=down p=10bar",
         ] {
@@ -587,7 +589,7 @@ mod tests {
     #[test]
     fn five_hundred_rows_match_single_fitting_solves() {
         let kinds = [
-            "bend 45deg di52_12 nfpa24_sand tag=B",
+            "bend 45deg di52_12 loose_granular tag=B",
             "bend 90deg sch40_8 joint=welded p=16bar turn=right tag=E",
             "tee di52_12 di52_8 tag=T",
             "reducer c900dr18_12 c900dr18_8 tag=R",

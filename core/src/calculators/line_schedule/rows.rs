@@ -285,14 +285,15 @@ pub(super) fn parse_row(line: usize, content: &str) -> Result<Row, String> {
                 row.sigma = Some(v);
             }
             "soil" => {
-                if soil::soil(value).is_none() {
+                // A retired preset key of an older schedule reads as its class.
+                let Some(class) = soil::soil(value) else {
                     return Err(format!(
-                        "row {line}: '{}' is not a soil preset (e.g. nfpa24_sand, safe_soft_clay, \
-                                bs8004_stiff_clay)",
+                        "row {line}: '{}' is not a soil class (soft_cohesive, firm_cohesive, stiff_cohesive, \
+                                loose_granular, dense_granular, rock, organic)",
                         short(value)
                     ));
-                }
-                row.soil = Some(value.to_string());
+                };
+                row.soil = Some(class.key.to_string());
             }
             "joint" => {
                 let keys: Vec<&str> = Joint::ALL.iter().map(|j| j.key()).collect();

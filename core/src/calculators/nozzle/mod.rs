@@ -171,8 +171,9 @@ pub fn spec() -> CalculatorSpec {
                 "in",
                 "",
                 Limits::closed(1e-3, MAX_SIZE_M),
+                // ASME BPVC VIII-1 Appendix 2's definition of G, quoted from memory.
                 "Diameter at which the gasket reaction acts (ASME BPVC VIII-1 Appendix 2: the mean diameter of \
-                        a narrow gasket contact, or the contact's outside diameter less 2b; from memory). Not smaller \
+                        a narrow gasket contact, or the contact's outside diameter less 2b). Not smaller \
                         than the bore. Empty: the end force at the gasket is not shown.",
             )
         },
@@ -180,7 +181,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Nozzle on a flange: end force and jet reaction",
+        title: "End force and jet reaction at a flanged nozzle",
         group: crate::catalog::group::FITTINGS,
         summary: "End force on the flange joint, jet reaction and discharge of a nozzle, from the energy and momentum \
                 balances with nozzle coefficients.",
@@ -214,10 +215,11 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
+            // The Appendix 2 loads are quoted from memory of ASME BPVC VIII-1.
             "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction \
                     diameter G plus the gasket load: ASME BPVC Section VIII Division 1, Appendix 2 sizes them for the \
                     hydrostatic end force H = 0.785·G²·P plus the operating gasket load H_p = 2b·3.14·G·m·P, and for \
-                    the seating load W_m2 = 3.14·b·G·y (from memory). Size bolts and flanges to the flange standard \
+                    the seating load W_m2 = 3.14·b·G·y. Size bolts and flanges to the flange standard \
                     you work to, not to this page.",
             "A nozzle that is opened suddenly, or a jet that is shut off quickly, causes surge: the bolts and \
                     the line's restraint see more than the steady values shown.",

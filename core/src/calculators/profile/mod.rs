@@ -91,16 +91,17 @@ const POINTS_HELP: &str = "One point per entry, separated by ';' or new lines: r
     averaged. The profile is closed to the wall with the power-law wall zone below (a 0 typed at r/R = 1 is the \
     no-slip condition and is treated the same way).";
 const D_HELP: &str = "Inside diameter at the traverse section.";
+// The ISO 3966 / ISO 7194 range of m is quoted from memory.
 const M_WALL_HELP: &str = "The traverse is closed from its outermost point to the wall with a power law, as the \
-    velocity-area methods of ISO 3966 and ISO 7194 do: m about 4 for rough walls to 10 for smooth ones (from memory). \
-    Empty means 7.";
+    velocity-area methods of ISO 3966 and ISO 7194 do: m about 4 for rough walls to 10 for smooth ones. Empty \
+    means 7.";
 const U_MAX_HELP: &str = "Peak velocity on the axis, from 1 mm/s to 100 m/s.";
 const N_POWER_HELP: &str = "About 6 to 10 for turbulent pipe flow; 7 is the usual default (common practice).";
 
 pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
-        title: "Velocity profile to flow and correction factors",
+        title: "Flow and momentum factors from a velocity traverse",
         group: crate::catalog::group::FLOW_AND_TANKS,
         summary: SUMMARY,
         fields: vec![

@@ -184,7 +184,7 @@ pub fn spec() -> CalculatorSpec {
             "deg",
             "10 deg",
             Limits::closed(0.0, PI / 2.0),
-            "0 = jet along the tangent, against the rotation; 90 deg = radial jet, no torque.",
+            "0 = jet along the tangent, against the rotation; 90° = radial jet, no torque.",
         ),
         FieldSpec {
             optional: true,
@@ -300,7 +300,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Rotating reaction arm (sprinkler, reaction turbine)",
+        title: "Spinning sprinkler speed and torque",
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary: SUMMARY,
         fields,

@@ -72,8 +72,8 @@ pub const KEY: &str = "reducer";
 
 pub(crate) const LOSS_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
-        key: "crane",
-        label: "Crane TP-410 formula for the cone angle",
+        key: "cone_formula",
+        label: "Gradual contraction or expansion, cone-angle formula",
     },
     ChoiceOption {
         key: "borda",
@@ -165,13 +165,13 @@ pub fn spec() -> CalculatorSpec {
             "30 deg",
             Limits::closed(crate::restraint::MIN_ANGLE, PI),
             "Full angle of the cone, from 0.1 up to 180 degrees (a sudden step). Sets the length of the \
-                    fitting and the Crane loss.",
+                    fitting and the cone-angle loss.",
         ),
         choice(
             "loss",
             "Loss model",
             LOSS_OPTIONS,
-            "crane",
+            "cone_formula",
             "Where the fitting's head loss comes from; it lowers the outlet pressure and so raises the thrust \
                     of a reducer.",
         ),
@@ -246,7 +246,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Reducer or expander thrust",
+        title: "Thrust at a reducer or expander",
         group: crate::catalog::group::FITTINGS,
         summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance \
                 and the fitting's loss.",
@@ -274,7 +274,7 @@ pub fn spec() -> CalculatorSpec {
         cautions: vec![
             "For push-on and mechanical joints choose that joint (the outside-diameter basis): using the bores \
                     there under-states the thrust by the wall's share, often 15 % or more.",
-            "Loss coefficients of reducers differ between published methods (Crane, Idelchik, Rennels, Miller) \
+            "Loss coefficients of reducers differ between published methods (Idelchik, Rennels, Miller and others) \
                     by tens of per cent; the thrust is rarely sensitive to them, the outlet pressure more so.",
         ],
     }

@@ -78,7 +78,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         return Err(FieldError::inconsistent(
             "loss",
             "Borda–Carnot is the loss of a sudden expansion; this fitting does not expand (outlet not larger \
-                    than inlet): choose the Crane formula or a given K",
+                    than inlet): choose the cone-angle formula or a given K",
         )
         .into());
     }
@@ -169,7 +169,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
             crane_k_small(d_in, d_out, theta),
             small_port,
             format!(
-                "Crane TP-410 conical {} formula, K on the smaller pipe's velocity",
+                "cone-angle {} formula (Crane TP-410), K on the smaller pipe's velocity",
                 if expands { "expansion" } else { "contraction" }
             ),
         ),

@@ -133,11 +133,11 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "the outlet gauge pressure comes out below atmospheric: check the inputs",
         );
     }
-    if loss_model == "crane" && expands && theta > PI / 4.0 && theta < PI {
+    if loss_model == "cone_formula" && expands && theta > PI / 4.0 && theta < PI {
         report.warn(
             Some("cone_angle"),
-            "an expansion steeper than 45 degrees loses about as much as a sudden one: Crane's formula then \
-                    gives the Borda–Carnot value",
+            "an expansion steeper than 45 degrees loses about as much as a sudden one: the cone-angle formula \
+                    then gives the Borda–Carnot value",
         );
     }
 

@@ -145,12 +145,12 @@ const B2_HELP: &str = "Width of the passage at r₂ (flow area 2π·r₂·b₂).
 const R_MEAN_HELP: &str = "Radius at which the triangles are drawn, usually the mean of hub and tip radii.";
 const A1_HELP: &str = "Flow area between hub and tip where the water enters the blades.";
 const A2_HELP: &str = "Flow area where the water leaves the blades.";
-const BETA1_HELP: &str = "From the direction opposite to the blade motion (90 deg = radial or axial blade). Empty: \
+const BETA1_HELP: &str = "From the direction opposite to the blade motion (90° = radial or axial blade). Empty: \
     taken to match the inlet flow (no incidence).";
 const BETA2_HELP: &str =
     "From the direction opposite to the blade motion; sets the outlet swirl V_θ2 = u₂ − V_m2/tan β₂.";
 const ALPHA1_HELP: &str = "Angle of the absolute inlet velocity from the direction of blade motion, V_θ1 = V_m1/tan \
-    α₁. Empty: 90 deg, no pre-swirl.";
+    α₁. Empty: 90°, no pre-swirl.";
 const SPEED_HELP: &str = "Shaft speed, 1 to 100 000 rpm.";
 const Q_HELP: &str = "Flow through the blades, 0.001 L/s to 1000 m³/s.";
 const HEAD_HELP: &str = "Turbine: net head available; pump: head delivered. Gives the hydraulic efficiency.";
@@ -339,7 +339,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("25 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Runner from velocity triangles (turbine or pump)",
+        title: "Turbine or pump runner: head, torque and power from blade angles",
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary: SUMMARY,
         fields,
@@ -364,7 +364,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("w2", "Relative velocity at the outlet W₂", Q::Velocity),
             OutputSpec::listed(
                 "alpha2",
-                "Outlet flow angle α₂ (from the blade motion; 90 deg = no swirl)",
+                "Outlet flow angle α₂ (from the blade motion; 90° = no swirl)",
                 Q::Angle,
             ),
             OutputSpec::listed("beta1_flow", "Inlet relative flow angle β₁,flow", Q::Angle),

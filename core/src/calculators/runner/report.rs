@@ -56,7 +56,7 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
                 report.warn(
                     Some("head"),
                     format!(
-                        "the hydraulic efficiency comes out above 100 %: the {name} cannot {what} the net head with \
+                        "the hydraulic efficiency comes out above 1: the {name} cannot {what} the net head with \
                          these triangles; check the blade angles, speed and flow"
                     ),
                 );

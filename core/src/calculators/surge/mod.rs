@@ -78,12 +78,13 @@ const SLOW_CAUTION: &str = "A slow-closure estimate is not a transient analysis:
 const RUN_CAUTION: &str = "The run load acts along the run and reverses as reflections return: restrain the run \
     axially at both elbows, or anchor it, for the force shown in both directions.";
 
-const SIZE_HELP: &str = "A preset gives both diameters and the wall material; typed diameters below override it.";
+const SIZE_HELP: &str = "A preset gives both diameters and the wall material, from the dimension standards (steel: \
+    ASME B36.10M; ductile iron: AWWA C150/C151 class 52; PVC: AWWA C900 DR18); typed diameters below override it.";
 const OD_HELP: &str = "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).";
 const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of \
     the size preset. Not used when the wave speed is typed.";
 const P_HELP: &str = "The steady pressure at the valve before it closes.";
-const TITLE: &str = "Surge from valve closure and the load on a run between elbows";
+const TITLE: &str = "Surge at a closing valve and the load between elbows";
 const SUMMARY: &str = "Joukowsky or slow-closure surge from the closure time and 2L/a, the design pressure and \
     thrust at the closing valve, and the water-hammer force, duration and impulse on a run between elbows.";
 const THRUST_LABEL: &str = "Total thrust at the valve or dead end (p + Δp)·A";

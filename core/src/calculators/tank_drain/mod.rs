@@ -178,7 +178,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Tank draining through an orifice",
+        title: "Tank emptying time",
         group: crate::catalog::group::FLOW_AND_TANKS,
         summary: SUMMARY,
         fields,

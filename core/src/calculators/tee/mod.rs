@@ -558,7 +558,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Tee, wye or manifold thrust",
+        title: "Thrust at a tee, wye or manifold",
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or \
                 combining, with one unknown branch flow solved by mass.",

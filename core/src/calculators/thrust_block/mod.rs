@@ -227,7 +227,8 @@ pub fn spec() -> CalculatorSpec {
             "Pipe size",
             pipe_sizes::SIZE_OPTIONS,
             "di52_12",
-            "A preset gives both diameters; typed diameters below override it.",
+            "A preset gives both diameters, from the dimension standards (steel: ASME B36.10M; ductile iron: \
+                AWWA C150/C151 class 52; PVC: AWWA C900 DR18); typed diameters below override it.",
         ),
         FieldSpec {
             optional: true,
@@ -423,9 +424,10 @@ pub fn spec() -> CalculatorSpec {
                 "soil",
                 "Soil (allowable bearing)",
                 SOIL_OPTIONS,
-                "nfpa24_sandy_silt",
-                "Published tables disagree by up to about 4× for the same soil name; the value should come \
-                from a geotechnical basis.",
+                "dense_granular",
+                "Each class takes the lowest value of the published tables' rows for it (the comparison below \
+                shows them side by side: they disagree by up to about 4×). The value should come from a \
+                geotechnical basis: a typed value always wins.",
             )
         },
         FieldSpec {
@@ -540,7 +542,7 @@ pub fn spec() -> CalculatorSpec {
                 "-",
                 "",
                 Limits::closed(0.0, 1.5),
-                "Empty: from the soil preset (NAVFAC DM-7.02 table, lower end); a typed value overrides it. \
+                "Empty: from the soil class (NAVFAC DM-7.02 table, lower end); a typed value overrides it. \
                 With a typed soil and no value the sliding check cannot be made and the page says so.",
             )
         },
@@ -564,13 +566,15 @@ pub fn spec() -> CalculatorSpec {
     if let Some(soil) = fields.iter_mut().find(|f| f.key == "soil") {
         soil.visible_when = None;
         soil.label = "Soil (allowable bearing, friction)";
-        soil.help = "Published tables disagree by up to about 4× for the same soil name; the value should come \
-                from a geotechnical basis. A preset also gives the friction coefficient of the sliding check.";
+        soil.help = "Each class takes the lowest value of the published tables' rows for it (the comparison \
+                below shows them side by side: they disagree by up to about 4×). The value should come from a \
+                geotechnical basis: a typed value always wins. A class also gives the friction coefficient of the \
+                sliding check.";
     }
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
-        title: "Thrust restraint: design pressure and thrust block",
+        title: "Thrust block size for a buried fitting",
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), \
                 and the bearing or gravity block that carries it.",
@@ -795,7 +799,7 @@ mod tests {
         let s = solved(&[
             ("plane", "vertical_crest"),
             ("legs", "one_level"),
-            ("soil", "nfpa24_sand"),
+            ("soil", "loose_granular"),
             ("friction", "0.5"),
             ("p_basis", "operating"),
         ]);

@@ -293,7 +293,7 @@ fn read_block(values: &Values, plane: Plane) -> Result<BlockInputs, FieldErrors>
         Some(mu) => Some((mu, "typed".to_string())),
         None => preset.and_then(|s| {
             s.friction
-                .map(|mu| (mu, format!("{} preset ({FRICTION_SOURCE})", s.soil)))
+                .map(|mu| (mu, format!("{} class ({FRICTION_SOURCE})", s.soil)))
         }),
     };
     let bearing = match plane {
@@ -342,7 +342,7 @@ fn read_bearing(values: &Values, key: &str) -> Result<(Pressure, Option<&'static
         let sigma = opt(values, "sigma").ok_or_else(|| {
             FieldError::inconsistent(
                 "sigma",
-                "type the allowable soil bearing (greater than 0), or choose a soil preset",
+                "type the allowable soil bearing (greater than 0), or choose a soil class",
             )
         })?;
         if !(MIN_TYPED_BEARING..=MAX_TYPED_BEARING).contains(&sigma) {

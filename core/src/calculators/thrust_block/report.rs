@@ -5,7 +5,7 @@
 use crate::catalog::{Report, Table};
 use crate::engine::EngineWarning;
 use crate::restraint::pressure::PressureBasis;
-use crate::restraint::soil::{SoilTable, SOILS};
+use crate::restraint::soil::{self, Bearing, SoilTable, SOILS};
 use crate::restraint::{self, Plane, StaticFitting};
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 use crate::vector::Vec3;
@@ -278,8 +278,9 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
     if let Some((m, from)) = &pr.mdp {
         let how = match from {
             MdpFrom::Typed => "typed".to_string(),
+            // EN 805's smallest allowance, quoted from memory of the standard.
             MdpFrom::Allowance(a) => format!(
-                "working + {} surge allowance (surge not calculated; EN 805's smallest allowance, from memory)",
+                "working + {} surge allowance (surge not calculated; EN 805's smallest allowance)",
                 report.fmt(*a, Q::Pressure)
             ),
         };
@@ -333,7 +334,9 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
     report.solution.tables.push(table);
 }
 
-/// The soil tables side by side: the bearing area each preset would need for this load.
+/// The soil classes and the published tables side by side: every table row beside
+/// the class it falls in, the bearing area it would need for this load, and which
+/// row gives the class its value.
 fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
     let system = report.system();
     let p_unit = match system {
@@ -346,36 +349,58 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
             .map(|x| units::format_significant(x, 3))
             .unwrap_or_default()
     };
+    let used = soil::soil(used).map(|s| s.key);
     let mut table = Table {
         key: "soils",
         title: format!(
-            "Soil tables compared: bearing area for this load at SF {}",
+            "Soil classes and the published tables: bearing area for this load at SF {}",
             units::format_significant(sf, 3)
         ),
         columns: vec![
+            "Soil class".into(),
             "Table".into(),
-            "Soil".into(),
+            "Published row".into(),
             format!("allowable bearing ({p_unit})"),
             format!("bearing area ({a_unit})"),
+            "Class value".into(),
         ],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
     };
-    for s in SOILS {
-        let area = if s.bearing > 0.0 {
-            fmt(sf * load / s.bearing, Q::Area, a_unit)
-        } else {
-            "no bearing".into()
-        };
-        if s.key == used {
-            table.emphasised_rows.push(table.rows.len());
+    for class in SOILS {
+        for row in class.rows {
+            let (bearing, area) = match row.bearing {
+                Bearing::Value(v) => (fmt(v, Q::Pressure, p_unit), fmt(sf * load / v, Q::Area, a_unit)),
+                // The row's name says why there is no number.
+                Bearing::Below(_) => (String::new(), String::new()),
+                Bearing::None => ("0".into(), String::new()),
+            };
+            let gives_value = row.table == class.table
+                && match row.bearing {
+                    Bearing::Value(v) => v == class.bearing,
+                    _ => class.bearing == 0.0,
+                };
+            if gives_value && used == Some(class.key) {
+                table.emphasised_rows.push(table.rows.len());
+            }
+            let name = match row.bearing {
+                Bearing::Below(v) => format!("{} (under {})", row.name, report.fmt(v, Q::SoilBearing)),
+                Bearing::None => format!("{} (no bearing)", row.name),
+                Bearing::Value(_) => row.name.to_string(),
+            };
+            table.rows.push(vec![
+                format!("{} ({})", class.soil, class.examples),
+                row.table.short().into(),
+                name,
+                bearing,
+                area,
+                if gives_value {
+                    "yes (lowest)".into()
+                } else {
+                    String::new()
+                },
+            ]);
         }
-        table.rows.push(vec![
-            s.table.short().into(),
-            s.soil.into(),
-            fmt(s.bearing, Q::Pressure, p_unit),
-            area,
-        ]);
     }
     report.solution.tables.push(table);
     let mut sources = Table {
@@ -385,12 +410,17 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
     };
-    for t in [SoilTable::SafeBearing, SoilTable::Nfpa24, SoilTable::Bs8004] {
+    for t in SoilTable::ALL {
         sources.rows.push(vec![
             t.short().into(),
             t.citation().replace('*', ""),
             t.convention().into(),
         ]);
     }
+    sources.rows.push(vec![
+        "Soil classes".into(),
+        "This handbook's grouping of the tables' rows; each class takes the lowest value of its rows".into(),
+        "as the table it comes from; a typed value from a geotechnical basis always wins".into(),
+    ]);
     report.solution.tables.push(sources);
 }

@@ -150,16 +150,30 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Jet on a curved vane: fixed, moving, wheel",
+        title: "Impulse-wheel bucket load and best running speed",
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary:
             "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with \
                 power and efficiency against blade speed.",
         fields,
         outputs: vec![
-            OutputSpec::headline("force_x", "Force on the vane along the jet (x)", Q::Force),
-            OutputSpec::headline("power", "Power delivered to the vane(s), F_x·u", Q::Power),
-            OutputSpec::headline("efficiency", "Efficiency: power ÷ jet kinetic-energy flux", Q::Ratio),
+            OutputSpec::headline(
+                "u_best",
+                "Best blade speed: peak power of this vane or wheel (searched)",
+                Q::Velocity,
+            ),
+            OutputSpec::headline("power_best", "Peak power, at the best blade speed", Q::Power),
+            OutputSpec::headline(
+                "force_x",
+                "Force on the vane along the jet (x), at this blade speed",
+                Q::Force,
+            ),
+            OutputSpec::listed("power", "Power at this blade speed, F_x·u", Q::Power),
+            OutputSpec::listed(
+                "efficiency",
+                "Efficiency at this blade speed: power ÷ jet kinetic-energy flux",
+                Q::Ratio,
+            ),
             OutputSpec::listed(
                 "force_y",
                 "Force on the vane across the jet (y, positive towards the side the water is turned to)",

@@ -57,6 +57,19 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     } else {
         state.force.y
     };
+    // The job's answer first: the best running speed and the peak power of the
+    // chosen kind (a fixed vane has neither: it does no work).
+    match mode {
+        VaneKind::Single => {
+            report.output("u_best", best_single.u);
+            report.output("power_best", best_single.power);
+        }
+        VaneKind::Wheel => {
+            report.output("u_best", best_wheel.u);
+            report.output("power_best", best_wheel.power);
+        }
+        VaneKind::Fixed => {}
+    }
     report.output("force_x", state.force.x);
     report.output("power", state.power);
     match (mode, v - u <= 1e-9 * v) {
@@ -279,7 +292,8 @@ fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &V
     let power_unit = units::display_unit((0.25 * rav3 * c).max(1e-12), Q::Power, system).id;
     let s = |x: f64| fmt_in(x, Q::Velocity, speed_unit);
     let p = |x: f64| fmt_in(x, Q::Power, power_unit);
-    let e = |x: f64| units::format_significant(100.0 * x, 5);
+    // Efficiency as a ratio, as the page's outputs show it (one format per page).
+    let e = |x: f64| units::format_significant(x, 4);
     Table {
         key: "optimum",
         title: "Best blade speed: searched over the balance, and the closed forms".to_string(),
@@ -306,7 +320,7 @@ fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &V
                 format!("ρAV³(1 − k cos θ)/4 = {}", p(0.25 * rav3 * c)),
             ],
             vec![
-                "peak efficiency (%)".to_string(),
+                "peak efficiency (ratio)".to_string(),
                 e(single.efficiency),
                 format!("(8/27)(1 − k cos θ) = {}", e(8.0 / 27.0 * c)),
                 e(wheel.efficiency),
@@ -393,11 +407,11 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
     ];
     let mut efficiency_markers = vec![
         Marker {
-            at: [sx(v / 3.0), 100.0 * 8.0 / 27.0 * c],
+            at: [sx(v / 3.0), 8.0 / 27.0 * c],
             label: "single vane optimum, u = V/3".to_string(),
         },
         Marker {
-            at: [sx(v / 2.0), 100.0 * 0.5 * c],
+            at: [sx(v / 2.0), 0.5 * c],
             label: "wheel optimum, u = V/2".to_string(),
         },
     ];
@@ -407,7 +421,7 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
             label: "this case".to_string(),
         });
         efficiency_markers.push(Marker {
-            at: [sx(state.u), 100.0 * state.efficiency],
+            at: [sx(state.u), state.efficiency],
             label: "this case".to_string(),
         });
     }
@@ -425,8 +439,8 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
             key: "efficiency",
             title: "Efficiency against blade speed (balances at each speed)".to_string(),
             x_label,
-            y_label: "efficiency (%)".to_string(),
-            series: series(&|p| [sx(p.u), 100.0 * p.efficiency]),
+            y_label: "efficiency (ratio)".to_string(),
+            series: series(&|p| [sx(p.u), p.efficiency]),
             markers: efficiency_markers,
         },
     ]
