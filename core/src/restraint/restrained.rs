@@ -70,10 +70,10 @@ keyed_choice! {
     /// conditions of AWWA C150/A21.50), which sets the trench factor K_n.
     pub enum Laying {
         Type1 => ("type1", "Type 1: flat-bottom trench, loose backfill (Kn = 0.20)"),
-        Type2 => ("type2", "Type 2: flat-bottom trench, backfill lightly consolidated to the centre line (Kn = 0.40)"),
-        Type3 => ("type3", "Type 3: bedded in loose soil, backfill lightly consolidated to the top of the pipe (Kn = 0.60)"),
-        Type4 => ("type4", "Type 4: bedded in sand, gravel or crushed stone, backfill compacted to the top of the pipe (Kn = 0.85)"),
-        Type5 => ("type5", "Type 5: bedded to the centre line in compacted granular material, compacted to the top (Kn = 1.00)"),
+        Type2 => ("type2", "Type 2: flat-bottom trench, backfill lightly compacted to the centre line (Kn = 0.40)"),
+        Type3 => ("type3", "Type 3: bedded in loose soil, backfill lightly compacted to the pipe top (Kn = 0.60)"),
+        Type4 => ("type4", "Type 4: bedded in sand, gravel or stone, compacted to the pipe top (Kn = 0.85)"),
+        Type5 => ("type5", "Type 5: compacted granular bedding to the centre line and fill to the top (Kn = 1.00)"),
     }
 }
 
