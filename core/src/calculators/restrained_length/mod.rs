@@ -461,6 +461,18 @@ mod tests {
     }
 
     #[test]
+    fn demo_matches_the_method_note_worked_example() {
+        // site/notes/restrained-length.md works the demo by hand: T ≈ 72.27 kN,
+        // L ≈ 3.91 m (ductile iron) and 4.26 m (PVC, the longer, headlined).
+        let s = solved(&[]);
+        let get = |k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
+        assert_relative_eq!(get("thrust"), 72.27e3, max_relative = 2e-3);
+        assert_relative_eq!(get("length_di"), 3.906, max_relative = 2e-3);
+        assert_relative_eq!(get("length_pvc"), 4.263, max_relative = 2e-3);
+        assert_relative_eq!(get("length"), get("length_pvc"), max_relative = 1e-12);
+    }
+
+    #[test]
     fn every_fitting_and_plane_solves() {
         for pairs in [
             &[("fitting", "dead_end")][..],
