@@ -344,6 +344,98 @@ pub fn tee_branch_length(sf: f64, branch_thrust: f64, run_r_s: f64, run_length: 
     ((sf * branch_thrust - run_r_s * run_length) / branch_f_f).max(0.0)
 }
 
+/// What sets a fitting's restrained length, per side: the resistance per metre
+/// that holds it, the length, and for a tee the run that alone would hold it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct FittingLength {
+    /// F_f + ½R_s or the uplift weight (bend), F_f (dead end, reducer), the
+    /// branch's F_f (tee), N/m.
+    pub resistance: f64,
+    /// Length on each side (a tee's branch), m; infinite when nothing resists.
+    pub length: f64,
+    /// A tee's run on each side that alone would carry the branch thrust, m.
+    pub run_alone: Option<f64>,
+}
+
+/// The restrained length of a fitting (table of the module doc): `area` and
+/// `area2` on the joint's basis, `main` the per-metre terms of the main pipe (a
+/// tee's run), `branch` those of a tee's branch, `run_credit` a tee's restrained
+/// run (credited on one side).
+#[allow(clippy::too_many_arguments)]
+pub fn fitting_length(
+    kind: super::FittingKind,
+    hold: BendHold,
+    sf: f64,
+    p: f64,
+    (area, area2): (f64, f64),
+    angle: f64,
+    main: &UnitResistance,
+    branch: Option<&UnitResistance>,
+    run_credit: f64,
+) -> FittingLength {
+    use super::FittingKind;
+    match kind {
+        FittingKind::Bend => {
+            let resistance = bend_resistance(main, hold);
+            FittingLength {
+                resistance,
+                length: bend_length(sf, p, area, angle, resistance),
+                run_alone: None,
+            }
+        }
+        FittingKind::DeadEnd => FittingLength {
+            resistance: main.f_f,
+            length: friction_length(sf, p * area, main.f_f),
+            run_alone: None,
+        },
+        FittingKind::Reducer => FittingLength {
+            resistance: main.f_f,
+            length: friction_length(sf, p * (area - area2), main.f_f),
+            run_alone: None,
+        },
+        FittingKind::Tee => {
+            let b = branch.unwrap_or(main);
+            FittingLength {
+                resistance: b.f_f,
+                length: tee_branch_length(sf, p * area2, main.r_s, run_credit, b.f_f),
+                run_alone: Some(sf * p * area2 / main.r_s),
+            }
+        }
+    }
+}
+
+/// The longer restrained length of the two methods for a fitting in a soil class
+/// with no typed overrides, no encasement and no run credit (the line schedule's
+/// column), m; `None` when the soil gives no resistance.
+#[allow(clippy::too_many_arguments)]
+pub fn class_length(
+    kind: super::FittingKind,
+    hold: BendHold,
+    sf: f64,
+    p: f64,
+    areas: (f64, f64),
+    angle: f64,
+    pipes: (PipeLoads, Option<PipeLoads>),
+    trench: Trench,
+    class: &SoilClass,
+) -> Option<f64> {
+    let longest = [class.ductile_iron, class.pvc]
+        .into_iter()
+        .map(|(f_phi, f_c)| {
+            let wall = Wall {
+                f_phi,
+                f_c,
+                encased: false,
+            };
+            let main = unit_resistance(pipes.0, trench, wall);
+            let branch = pipes.1.map(|b| unit_resistance(b, trench, wall));
+            fitting_length(kind, hold, sf, p, areas, angle, &main, branch.as_ref(), 0.0)
+        })
+        .map(|f| if f.resistance > 0.0 { f.length } else { f64::INFINITY })
+        .fold(0.0, f64::max);
+    longest.is_finite().then_some(longest)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

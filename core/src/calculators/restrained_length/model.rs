@@ -276,41 +276,33 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         let main = restrained::unit_resistance(main_pipe, trench, wall);
         let branch = branch_pipe.map(|b| restrained::unit_resistance(b, trench, wall));
         let half = inputs.angle.value / 2.0;
-        let (resistance, length, run_alone, mobilised) = match inputs.kind {
-            FittingKind::Bend => {
-                let hold = if crest {
-                    BendHold::Weight
-                } else {
-                    BendHold::FrictionAndBearing
-                };
-                let r = restrained::bend_resistance(&main, hold);
-                let l = restrained::bend_length(sf, p, a1, inputs.angle.value, r);
-                let formula = if crest {
-                    "2·L·(W_p + W_w + W_e)·cos(Δ/2)"
-                } else {
-                    "2·L·(F_f + ½R_s)·cos(Δ/2)"
-                };
-                (r, l, None, (2.0 * l * r * half.cos(), formula))
-            }
-            FittingKind::DeadEnd => {
-                let l = restrained::friction_length(sf, p * a1, main.f_f);
-                (main.f_f, l, None, (main.f_f * l, "F_f·L"))
-            }
-            FittingKind::Reducer => {
-                let l = restrained::friction_length(sf, p * (a1 - a2), main.f_f);
-                (main.f_f, l, None, (main.f_f * l, "F_f·L (large side)"))
-            }
-            FittingKind::Tee => {
-                let b = branch.unwrap_or(main);
-                let l = restrained::tee_branch_length(sf, p * a2, main.r_s, run_credit, b.f_f);
-                let alone = sf * p * a2 / main.r_s;
-                let mobilised = if l > 0.0 {
-                    (b.f_f * l + main.r_s * run_credit, "F_f,branch·L_b + R_s,run·L_run")
-                } else {
-                    (main.r_s * alone, "R_s,run·L_run alone")
-                };
-                (b.f_f, l, Some(alone), mobilised)
-            }
+        let hold = if crest {
+            BendHold::Weight
+        } else {
+            BendHold::FrictionAndBearing
+        };
+        let f = restrained::fitting_length(
+            inputs.kind,
+            hold,
+            sf,
+            p,
+            (a1, a2),
+            inputs.angle.value,
+            &main,
+            branch.as_ref(),
+            run_credit,
+        );
+        let (resistance, length, run_alone) = (f.resistance, f.length, f.run_alone);
+        let mobilised = match inputs.kind {
+            FittingKind::Bend if crest => (2.0 * length * resistance * half.cos(), "2·L·(W_p + W_w + W_e)·cos(Δ/2)"),
+            FittingKind::Bend => (2.0 * length * resistance * half.cos(), "2·L·(F_f + ½R_s)·cos(Δ/2)"),
+            FittingKind::DeadEnd => (resistance * length, "F_f·L"),
+            FittingKind::Reducer => (resistance * length, "F_f·L (large side)"),
+            FittingKind::Tee if length > 0.0 => (
+                resistance * length + main.r_s * run_credit,
+                "F_f,branch·L_b + R_s,run·L_run",
+            ),
+            FittingKind::Tee => (main.r_s * run_alone.unwrap_or(0.0), "R_s,run·L_run alone"),
         };
         if !(resistance > 0.0) || !length.is_finite() {
             return Err(FieldError::inconsistent(
