@@ -85,7 +85,7 @@ bend 22.5deg di52_8 turn=down tag=V1\n\
 dead_end di52_8 tag=H1 h=0.9m";
 
 pub fn spec() -> CalculatorSpec {
-    let fields = vec![
+    let mut fields = vec![
         FieldSpec {
             kind: crate::catalog::FieldKind::Text,
             si_unit: "",
@@ -212,6 +212,7 @@ pub fn spec() -> CalculatorSpec {
             "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy.",
         ),
     ];
+    fields.extend(super::restrained_length::schedule::fields());
     CalculatorSpec {
         key: KEY,
         title: "Line schedule: thrust blocks along a line",

@@ -33,6 +33,8 @@ pub struct Inputs {
     pub default_joint: Joint,
     pub default_soil: String,
     pub default_sigma: Option<Pressure>,
+    /// The restrained-length column's cover, soil class and laying condition.
+    pub restrained: Option<super::super::restrained_length::schedule::Column>,
 }
 
 /// The field test pressure of the page: typed, or a named rule.
@@ -112,6 +114,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         default_joint,
         default_soil,
         default_sigma,
+        restrained: super::super::restrained_length::schedule::read(values)?,
     })
 }
 

@@ -52,6 +52,7 @@ use super::common::{self, choice, quantity, wall::ShownWhen, MAX_SIZE_M, MIN_SIZ
 pub mod diagram;
 pub mod model;
 pub mod report;
+pub mod schedule;
 
 pub const KEY: &str = "restrained-length";
 
@@ -92,7 +93,7 @@ const PLANE_OPTIONS: &[ChoiceOption] = &[
 ];
 
 /// Soil class options: typed, or a class of the table.
-const SOIL_CLASS_OPTIONS: &[ChoiceOption] = &[
+pub(crate) const SOIL_CLASS_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "custom",
         label: "Typed values (from the geotechnical report)",
