@@ -401,7 +401,7 @@ pub fn spec() -> CalculatorSpec {
                 bearing carry the thrust, by the ductile-iron and PVC pipe industries' methods side by side.",
         fields,
         outputs: vec![
-            OutputSpec::headline("length", "Restrained length on each side of the fitting", Q::Length),
+            OutputSpec::headline("length", "Restrained length on each leg of the fitting", Q::Length),
             OutputSpec::headline("length_branch", "Tee: restrained length on the branch", Q::Length),
             OutputSpec::headline("length_run", "Tee: restrained run on each side (credited)", Q::Length),
             OutputSpec::headline("thrust", "Thrust at the design pressure", Q::Force),

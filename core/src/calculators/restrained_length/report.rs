@@ -117,6 +117,13 @@ fn warnings(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 cover",
         );
     }
+    if inputs.wall_density.is_none() {
+        report.warn(
+            Some("material"),
+            "the pipe's own weight is left out (its wall material is not known from a typed size or modulus): \
+                conservative, since it would add friction",
+        );
+    }
     if inputs.encasement == Encasement::Polyethylene {
         report.warn(
             Some("encasement"),
