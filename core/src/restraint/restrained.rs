@@ -122,11 +122,9 @@ const DEG: f64 = PI / 180.0;
 
 /// Where the soil classes come from (shown on the page).
 pub const SOIL_CLASS_SOURCE: &str =
-    "Unit weight, friction angle, cohesion and the ductile-iron ratios: the table of soil parameters of the \
-        ductile-iron pipe industry's Thrust Restraint Design for Ductile Iron Pipe (DIPRA, 6th ed. 2006 and 7th ed. \
-        2016), conservative values for saturated soils. PVC ratios: this handbook's reading of the PVC industry's \
-        smoother wall (about 0.8 of the ductile-iron friction ratio, two thirds of its adhesion ratio). Confirm \
-        every value against the edition you use and the geotechnical report; typed values override them.";
+    "γ, φ, c and the ductile-iron wall ratios from the soil table of DIPRA's Thrust Restraint Design for Ductile \
+        Iron Pipe (conservative, saturated); PVC wall ratios this handbook's reading of the smoother plastic wall. \
+        Confirm against the geotechnical report.";
 
 // The ductile-iron columns are DIPRA's table as recalled (from memory); the PVC
 // columns are this handbook's reading (from memory of the PVC literature's lower

@@ -171,8 +171,18 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let tee = inputs.kind == FittingKind::Tee;
     let mut rows: Vec<(String, Box<dyn Fn(&MethodResult) -> String>)> = Vec::new();
     let pipe = solved.main_pipe;
-    rows.push(("Weight of pipe W_p".into(), Box::new(move |_| pl(pipe.pipe_weight))));
-    rows.push(("Weight of water W_w".into(), Box::new(move |_| pl(pipe.water_weight))));
+    let soil = format!(
+        "{}, {}, {}; K_n {}",
+        report.fmt(solved.trench.gamma, Q::SpecificWeight),
+        report.fmt(solved.trench.phi, Q::Angle),
+        report.fmt(solved.trench.cohesion, Q::Pressure),
+        units::format_significant(solved.trench.kn, 3)
+    );
+    rows.push(("Soil γ, φ, c; trench factor".into(), Box::new(move |_| soil.clone())));
+    rows.push((
+        "Pipe and water W_p + W_w".into(),
+        Box::new(move |_| pl(pipe.pipe_weight + pipe.water_weight)),
+    ));
     rows.push((
         "Earth load W_e = γ·H·D".into(),
         Box::new(move |m: &MethodResult| pl(m.main.earth)),
@@ -203,12 +213,9 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         "Unit friction F_f (× 0.7 in encasement)".into(),
         Box::new(move |m: &MethodResult| pl(m.main.f_f)),
     ));
+    let kp = units::format_significant(solved.ductile_iron.main.kp, 4);
     rows.push((
-        "Passive coefficient K_p = tan²(45° + φ/2)".into(),
-        Box::new(|m: &MethodResult| units::format_significant(m.main.kp, 4)),
-    ));
-    rows.push((
-        "Passive resistance R_s = K_n·D·(γ·H_c·K_p + 2c√K_p)".into(),
+        format!("Passive resistance R_s = K_n·D·(γ·H_c·K_p + 2c√K_p), K_p = {kp}"),
         Box::new(move |m: &MethodResult| pl(m.main.r_s)),
     ));
     if tee {
@@ -259,12 +266,7 @@ fn comparison(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let mut table = Table {
         key: "methods",
         title: format!("The two methods compared ({what}, {unit})"),
-        columns: vec![
-            "Method".into(),
-            format!("{what} ({unit})"),
-            "Pipe wall".into(),
-            "Source".into(),
-        ],
+        columns: vec!["Method".into(), format!("{what} ({unit})"), "Source".into()],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
     };
@@ -272,74 +274,18 @@ fn comparison(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         if m.method == solved.headline {
             table.emphasised_rows.push(table.rows.len());
         }
-        let (wall, source) = match m.method {
-            Method::Pvc => (
-                "PVC: smoother wall, lower friction and adhesion ratios; not encased",
-                "AWWA M23 PVC Pipe — Design and Installation (2nd ed. 2002), thrust restraint; Uni-Bell PVC Pipe \
-                    Association",
-            ),
-            _ => (
-                "ductile iron, bare or standard coating, or in polyethylene encasement",
-                "Thrust Restraint Design for Ductile Iron Pipe (DIPRA, 7th ed. 2016; same equations as the 6th ed. \
-                    2006)",
-            ),
+        let source = match m.method {
+            Method::Pvc => "AWWA M23, PVC Pipe — Design and Installation (2nd ed. 2002); Uni-Bell",
+            _ => "DIPRA, Thrust Restraint Design for Ductile Iron Pipe (7th ed. 2016)",
         };
-        table.rows.push(vec![
-            method_name(m.method).into(),
-            cell(m.length),
-            wall.into(),
-            source.into(),
-        ]);
+        table
+            .rows
+            .push(vec![method_name(m.method).into(), cell(m.length), source.into()]);
     }
-    report.solution.tables.push(table);
-    let class = inputs
-        .soil
-        .class
-        .map_or("typed values".to_string(), |c| c.label.to_string());
-    let mut soil = Table {
-        key: "soil",
-        title: "Soil and trench used".to_string(),
-        columns: vec!["Value".into(), "Used".into(), "From".into()],
-        rows: Vec::new(),
-        emphasised_rows: Vec::new(),
+    let soil = match inputs.soil.class {
+        Some(c) => format!("{}: {SOIL_CLASS_SOURCE}", c.label),
+        None => "typed values".to_string(),
     };
-    let typed_or_class = |key_set: bool| if key_set { "typed" } else { "soil class" };
-    soil.rows.push(vec![
-        "Unit weight γ".into(),
-        report.fmt(solved.trench.gamma, Q::SpecificWeight),
-        class.clone(),
-    ]);
-    soil.rows.push(vec![
-        "Friction angle φ".into(),
-        report.fmt(solved.trench.phi, Q::Angle),
-        class.clone(),
-    ]);
-    soil.rows.push(vec![
-        "Cohesion c".into(),
-        report.fmt(solved.trench.cohesion, Q::Pressure),
-        class,
-    ]);
-    soil.rows.push(vec![
-        "Trench factor K_n".into(),
-        units::format_significant(solved.trench.kn, 3),
-        inputs.laying.label().into(),
-    ]);
-    soil.rows.push(vec![
-        "Wall friction ratio f_φ".into(),
-        format!(
-            "{} / {}",
-            units::format_significant(solved.ductile_iron.wall.f_phi, 3),
-            units::format_significant(solved.pvc.wall.f_phi, 3)
-        ),
-        format!(
-            "{} (ductile iron / PVC)",
-            typed_or_class(inputs.soil.typed_f_phi.is_some())
-        ),
-    ]);
-    soil.rows.push(vec![
-        "Sources of the class values".into(),
-        String::new(),
-        SOIL_CLASS_SOURCE.into(),
-    ]);
-    report.solution.tables.push(soil);
+    table.rows.push(vec!["Soil values".into(), String::new(), soil]);
+    report.solution.tables.push(table);
 }
