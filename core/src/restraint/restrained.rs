@@ -59,7 +59,7 @@ pub const ENCASEMENT_FACTOR: f64 = 0.7;
 keyed_choice! {
     /// Which published method's pipe-wall ratios set the restrained length.
     pub enum Method {
-        Longer => ("longer", "The longer of the two methods"),
+        Longer => ("longer", "The longer of the two"),
         DuctileIron => ("ductile_iron", "Ductile-iron pipe industry (DIPRA)"),
         Pvc => ("pvc", "PVC pipe industry (AWWA M23, Uni-Bell)"),
     }
@@ -69,11 +69,11 @@ keyed_choice! {
     /// The laying condition of the pipe in its trench (the five standard laying
     /// conditions of AWWA C150/A21.50), which sets the trench factor K_n.
     pub enum Laying {
-        Type1 => ("type1", "Type 1: flat-bottom trench, loose backfill (Kn = 0.20)"),
-        Type2 => ("type2", "Type 2: flat-bottom trench, backfill lightly compacted to the centre line (Kn = 0.40)"),
-        Type3 => ("type3", "Type 3: bedded in loose soil, backfill lightly compacted to the pipe top (Kn = 0.60)"),
-        Type4 => ("type4", "Type 4: bedded in sand, gravel or stone, compacted to the pipe top (Kn = 0.85)"),
-        Type5 => ("type5", "Type 5: compacted granular bedding to the centre line and fill to the top (Kn = 1.00)"),
+        Type1 => ("type1", "Type 1: flat trench, loose backfill (Kn 0.20)"),
+        Type2 => ("type2", "Type 2: flat trench, fill lightly compacted to the centre (Kn 0.40)"),
+        Type3 => ("type3", "Type 3: loose-soil bed, fill lightly compacted to the top (Kn 0.60)"),
+        Type4 => ("type4", "Type 4: granular bed, fill compacted to the top (Kn 0.85)"),
+        Type5 => ("type5", "Type 5: compacted granular bed and fill (Kn 1.00)"),
     }
 }
 
@@ -93,8 +93,8 @@ impl Laying {
 keyed_choice! {
     /// Whether the pipe is wrapped in polyethylene encasement.
     pub enum Encasement {
-        None => ("none", "None (bare or standard coated pipe)"),
-        Polyethylene => ("polyethylene", "Polyethylene encasement (friction × 0.7, no adhesion)"),
+        None => ("none", "None"),
+        Polyethylene => ("polyethylene", "Polyethylene (friction × 0.7, no adhesion)"),
     }
 }
 
@@ -121,10 +121,8 @@ const PSF: f64 = 4.448_221_615_260_5 / (0.3048 * 0.3048);
 const DEG: f64 = PI / 180.0;
 
 /// Where the soil classes come from (shown on the page).
-pub const SOIL_CLASS_SOURCE: &str =
-    "γ, φ, c and the ductile-iron wall ratios from the soil table of DIPRA's Thrust Restraint Design for Ductile \
-        Iron Pipe (conservative, saturated); PVC wall ratios this handbook's reading of the smoother plastic wall. \
-        Confirm against the geotechnical report.";
+pub const SOIL_CLASS_SOURCE: &str = "DIPRA's soil table (γ, φ, c, ductile-iron ratios); PVC ratios this handbook's \
+    reading; confirm against the geotechnical report";
 
 // The ductile-iron columns are DIPRA's table as recalled (from memory); the PVC
 // columns are this handbook's reading (from memory of the PVC literature's lower
@@ -133,7 +131,7 @@ pub const SOIL_CLASS_SOURCE: &str =
 pub const SOIL_CLASSES: &[SoilClass] = &[
     SoilClass {
         key: "clay_fine",
-        label: "Clay of low to medium plasticity, under 25 % sand and gravel",
+        label: "Clay, under 25 % sand and gravel",
         gamma: 90.0 * PCF,
         phi: 0.0,
         cohesion: 500.0 * PSF,
@@ -142,7 +140,7 @@ pub const SOIL_CLASSES: &[SoilClass] = &[
     },
     SoilClass {
         key: "clay_coarse",
-        label: "Clay of low to medium plasticity, 25 to 50 % sand and gravel",
+        label: "Clay, 25 to 50 % sand and gravel",
         gamma: 90.0 * PCF,
         phi: 20.0 * DEG,
         cohesion: 200.0 * PSF,
@@ -151,7 +149,7 @@ pub const SOIL_CLASSES: &[SoilClass] = &[
     },
     SoilClass {
         key: "silt_fine",
-        label: "Silt of low to medium plasticity, under 25 % sand and gravel",
+        label: "Silt, under 25 % sand and gravel",
         gamma: 90.0 * PCF,
         phi: 29.0 * DEG,
         cohesion: 0.0,
@@ -160,7 +158,7 @@ pub const SOIL_CLASSES: &[SoilClass] = &[
     },
     SoilClass {
         key: "silt_coarse",
-        label: "Silt of low to medium plasticity, 25 to 50 % sand and gravel",
+        label: "Silt, 25 to 50 % sand and gravel",
         gamma: 90.0 * PCF,
         phi: 29.0 * DEG,
         cohesion: 0.0,
@@ -169,7 +167,7 @@ pub const SOIL_CLASSES: &[SoilClass] = &[
     },
     SoilClass {
         key: "cohesive_granular",
-        label: "Cohesive granular soil, over 50 % sand and gravel",
+        label: "Cohesive granular soil",
         gamma: 90.0 * PCF,
         phi: 20.0 * DEG,
         cohesion: 300.0 * PSF,
@@ -178,7 +176,7 @@ pub const SOIL_CLASSES: &[SoilClass] = &[
     },
     SoilClass {
         key: "silty_sand",
-        label: "Sand or gravel with silt, over 50 % sand and gravel",
+        label: "Silty sand or gravel",
         gamma: 100.0 * PCF,
         phi: 30.0 * DEG,
         cohesion: 0.0,
@@ -187,7 +185,7 @@ pub const SOIL_CLASSES: &[SoilClass] = &[
     },
     SoilClass {
         key: "clean_sand",
-        label: "Clean sand, over 95 % sand",
+        label: "Clean sand",
         gamma: 100.0 * PCF,
         phi: 36.0 * DEG,
         cohesion: 0.0,

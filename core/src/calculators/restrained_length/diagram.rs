@@ -121,9 +121,6 @@ pub fn diagram(inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Diagram
         title: format!("Restrained zones, {view}"),
         bounds,
         shapes,
-        caption: "Restrained lengths and pipe diameters to the same scale (the band around each restrained leg is \
-                drawn wider than the pipe so it can be seen); T is the thrust the soil must take through the \
-                restrained pipe."
-            .to_string(),
+        caption: "Pipes and restrained lengths to scale (the restrained band drawn wider than the pipe).".to_string(),
     }
 }

@@ -60,7 +60,7 @@ pub const KEY: &str = "restrained-length";
 const FITTING_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "bend",
-        label: "Bend (elbow), up to 90°",
+        label: "Bend (elbow)",
     },
     ChoiceOption {
         key: "tee",
@@ -80,15 +80,15 @@ const FITTING_OPTIONS: &[ChoiceOption] = &[
 const PLANE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "horizontal",
-        label: "Horizontal (plan): friction and side bearing",
+        label: "Horizontal (plan)",
     },
     ChoiceOption {
         key: "vertical_crest",
-        label: "Vertical, turning downward (crest): thrust up, held by the weight of soil, pipe and water",
+        label: "Vertical crest: thrust up, held by weight",
     },
     ChoiceOption {
         key: "vertical_sag",
-        label: "Vertical, turning upward (sag): thrust down, friction and bearing",
+        label: "Vertical sag: thrust down",
     },
 ];
 
@@ -100,37 +100,38 @@ pub(crate) const SOIL_CLASS_OPTIONS: &[ChoiceOption] = &[
     },
     ChoiceOption {
         key: "clay_fine",
-        label: "Clay of low to medium plasticity, under 25 % sand and gravel",
+        label: "Clay, under 25 % sand and gravel",
     },
     ChoiceOption {
         key: "clay_coarse",
-        label: "Clay of low to medium plasticity, 25 to 50 % sand and gravel",
+        label: "Clay, 25 to 50 % sand and gravel",
     },
     ChoiceOption {
         key: "silt_fine",
-        label: "Silt of low to medium plasticity, under 25 % sand and gravel",
+        label: "Silt, under 25 % sand and gravel",
     },
     ChoiceOption {
         key: "silt_coarse",
-        label: "Silt of low to medium plasticity, 25 to 50 % sand and gravel",
+        label: "Silt, 25 to 50 % sand and gravel",
     },
     ChoiceOption {
         key: "cohesive_granular",
-        label: "Cohesive granular soil, over 50 % sand and gravel",
+        label: "Cohesive granular soil",
     },
     ChoiceOption {
         key: "silty_sand",
-        label: "Sand or gravel with silt, over 50 % sand and gravel",
+        label: "Silty sand or gravel",
     },
     ChoiceOption {
         key: "clean_sand",
-        label: "Clean sand, over 95 % sand",
+        label: "Clean sand",
     },
 ];
 
 const FITTINGS_WITH_SECOND: &[&str] = &["tee", "reducer"];
 const SOIL_HELP: &str = "A class gives unit weight, friction angle, cohesion and the pipe-wall ratios of both methods \
-    (conservative values for saturated soil); any value typed below overrides its class value.";
+    (conservative values for saturated soil; clays and silts of low to medium plasticity, by their share of sand \
+    and gravel); any value typed below overrides its class value.";
 const MATERIAL_HELP: &str = "Sets the weight of the pipe (part of the normal load that makes friction) and, with \
     surge, the wave speed; by default the material of the size preset.";
 
@@ -421,13 +422,12 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("p_surge", "Working pressure plus surge", Q::Pressure),
         ],
         cautions: vec![
-            "The length holds only if the soil in the trench is as assumed along all of it: the class, \
-                    cover, compaction and groundwater. Later digging beside or over restrained pipe removes \
-                    the resistance it relies on.",
-            "Every joint within the length must be restrained, fittings included, and rated for the design \
-                    pressure; follow the pipe and restraint makers' instructions and limits.",
-            "The two methods are simplified published procedures, compared here, not a soil-structure \
-                    analysis; the local codes, the pipe manufacturer and a licensed engineer decide the design.",
+            "The length holds only while the soil along all of it is as assumed (class, cover, compaction, \
+                    groundwater); later digging beside or over the pipe takes that away.",
+            "Restrain every joint within the length, fittings included, for the design pressure, as the pipe \
+                    and restraint makers instruct.",
+            "Simplified published methods, not a soil-structure analysis: the local codes, the pipe maker and \
+                    a licensed engineer decide the design.",
         ],
     }
 }

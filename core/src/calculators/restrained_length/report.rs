@@ -1,6 +1,7 @@
 //! The restrained-joint page's report: the lengths, the check of the mobilised
 //! resistance against the engine's thrust, the ledger of the per-metre terms of
-//! both methods, the methods compared, the pressure table and the diagram.
+//! both methods, the methods compared and the diagram (the design pressure's
+//! candidates are listed outputs; the thrust-restraint page tabulates them).
 
 use crate::catalog::{Report, Table};
 use crate::restraint::pressure::PressureBasis;
@@ -8,7 +9,6 @@ use crate::restraint::restrained::{Encasement, Method, UnitResistance, SOIL_CLAS
 use crate::restraint::{FittingKind, Plane};
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
-use super::super::thrust_block::report::pressure_table;
 use super::model::{Inputs, MethodResult, Solved};
 
 /// Longest restrained length that is still a practical alternative to a block, m
@@ -51,7 +51,6 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     warnings(inputs, solved, report);
     ledger(report, inputs, solved);
     comparison(report, inputs, solved);
-    pressure_table(report, pr);
     let diagram = super::diagram::diagram(inputs, solved, report);
     report.solution.diagrams.push(diagram);
 }
@@ -63,8 +62,8 @@ fn checks(report: &mut Report<'_>, solved: &Solved, sf: f64) {
     for m in [&solved.ductile_iron, &solved.pvc] {
         let (mobilised, formula) = m.mobilised;
         report.check(
-            format!("Resistance at the {} length", method_name(m.method)),
-            format!("S_f × the engine's thrust, against {formula}"),
+            format!("Resistance, {}", method_name(m.method)),
+            format!("S_f × engine thrust vs {formula}"),
             Q::Force,
             mobilised,
             sf * solved.thrust,
@@ -97,7 +96,6 @@ fn warnings(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 transients separately",
         );
     }
-    let g = solved.governing();
     let longest = solved.ductile_iron.length.max(solved.pvc.length);
     if longest > PRACTICAL_LENGTH {
         report.warn(
@@ -136,21 +134,6 @@ fn warnings(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "no restrained run is credited: the branch alone carries the thrust by friction (conservative)",
         );
     }
-    if inputs.soil.class.is_some() && inputs.soil.typed_f_phi.is_none() {
-        let f = (solved.ductile_iron.wall.f_phi, solved.pvc.wall.f_phi);
-        if (f.0 - f.1).abs() > 1e-12 && g.length > 0.0 {
-            // The methods differ only through the class's wall ratios: say so once.
-            report.warn(
-                Some("soil_class"),
-                format!(
-                    "the soil class's wall friction ratios (f_φ {} ductile iron, {} PVC) are table values; a \
-                        geotechnical report and the pipe maker's data should confirm them",
-                    units::format_significant(f.0, 2),
-                    units::format_significant(f.1, 2)
-                ),
-            );
-        }
-    }
 }
 
 /// Force per metre in the report's system: kN/m or lbf/ft.
@@ -178,7 +161,7 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         report.fmt(solved.trench.cohesion, Q::Pressure),
         units::format_significant(solved.trench.kn, 3)
     );
-    rows.push(("Soil γ, φ, c; trench factor".into(), Box::new(move |_| soil.clone())));
+    rows.push(("Soil γ, φ, c; K_n".into(), Box::new(move |_| soil.clone())));
     rows.push((
         "Pipe and water W_p + W_w".into(),
         Box::new(move |_| pl(pipe.pipe_weight + pipe.water_weight)),
@@ -210,12 +193,12 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         Box::new(move |m: &MethodResult| pl(m.main.adhesion)),
     ));
     rows.push((
-        "Unit friction F_f (× 0.7 in encasement)".into(),
+        "Unit friction F_f".into(),
         Box::new(move |m: &MethodResult| pl(m.main.f_f)),
     ));
     let kp = units::format_significant(solved.ductile_iron.main.kp, 4);
     rows.push((
-        format!("Passive resistance R_s = K_n·D·(γ·H_c·K_p + 2c√K_p), K_p = {kp}"),
+        format!("Passive R_s = K_n·D·(γ·H_c·K_p + 2c√K_p), K_p {kp}"),
         Box::new(move |m: &MethodResult| pl(m.main.r_s)),
     ));
     if tee {

@@ -244,7 +244,7 @@ fn sliding_check(report: &mut Report<'_>, sliding: &Sliding, formula: &str, reme
     }
 }
 
-pub(crate) fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
+fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
     let unit = units::display_unit(pr.design.max(pr.work).max(1.0), Q::Pressure, report.system()).id;
     let cell = |v: f64| {
         units::convert_to(v, Q::Pressure, unit)
