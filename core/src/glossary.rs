@@ -199,6 +199,48 @@ pub const TERMS: &[Term] = &[
     term("friction", "friction coefficient of a block on soil"),
     term("sf_slide", "safety factor against sliding"),
     term("rows", "the fittings of a line schedule, one per line"),
+    // Restrained-joint length.
+    term(
+        "cover",
+        "depth of cover from the ground surface to the top of a buried pipe",
+    ),
+    choice(
+        "soil_class",
+        "soil class of a restrained-joint trench (unit weight, friction angle, cohesion, pipe-wall ratios)",
+        &[
+            "custom",
+            "clay_fine",
+            "clay_coarse",
+            "silt_fine",
+            "silt_coarse",
+            "cohesive_granular",
+            "silty_sand",
+            "clean_sand",
+        ],
+    ),
+    term("gamma_s", "unit weight of the soil around a buried pipe"),
+    term("phi", "internal friction angle of the soil"),
+    term("cohesion", "cohesion of the soil"),
+    term(
+        "f_phi",
+        "ratio of the pipe-wall friction angle to the soil's friction angle",
+    ),
+    term("f_c", "ratio of the pipe-wall adhesion to the soil's cohesion"),
+    choice(
+        "laying",
+        "laying condition of a buried pipe (AWWA C150 types 1 to 5)",
+        &["type1", "type2", "type3", "type4", "type5"],
+    ),
+    choice("encasement", "encasement of a buried pipe", &["none", "polyethylene"]),
+    choice(
+        "rl_method",
+        "method of a restrained-joint length",
+        &["longer", "ductile_iron", "pvc"],
+    ),
+    term(
+        "run_restrained",
+        "restrained length of a tee's run on each side, credited against the branch thrust",
+    ),
     term("w_fitting", "weight of a fitting and the pipe it carries"),
     choice(
         "closure",

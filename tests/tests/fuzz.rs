@@ -240,6 +240,7 @@ fuzz_tests! {
     tank_drain_is_robust => "tank-drain",
     profile_is_robust => "profile",
     surge_is_robust => "surge",
+    restrained_length_is_robust => "restrained-length",
 }
 
 #[test]

@@ -17,6 +17,7 @@ pub mod nozzle;
 pub mod profile;
 pub mod reaction_arm;
 pub mod reducer;
+pub mod restrained_length;
 pub mod runner;
 pub mod surge;
 pub mod tank_drain;
@@ -78,6 +79,7 @@ pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: tee::KEY, spec: tee::spec, compute: tee::compute },
     Calculator { key: nozzle::KEY, spec: nozzle::spec, compute: nozzle::compute },
     Calculator { key: thrust_block::KEY, spec: thrust_block::spec, compute: thrust_block::compute },
+    Calculator { key: restrained_length::KEY, spec: restrained_length::spec, compute: restrained_length::compute },
     Calculator { key: surge::KEY, spec: surge::spec, compute: surge::compute },
     Calculator { key: line_schedule::KEY, spec: line_schedule::spec, compute: line_schedule::compute },
     Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },

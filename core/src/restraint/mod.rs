@@ -42,6 +42,7 @@ use crate::vector::{Direction, Vec3};
 
 pub mod block;
 pub mod pressure;
+pub mod restrained;
 pub mod soil;
 
 /// An enum whose variants are the option keys of one glossary choice: `key()`,

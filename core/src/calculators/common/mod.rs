@@ -186,6 +186,16 @@ mod extremes {
                 &[("p_basis", "test"), ("test_rule", "en805")],
             ],
         ),
+        (
+            super::super::restrained_length::KEY,
+            &[
+                &[],
+                &[("plane", "vertical_crest")],
+                &[("fitting", "tee"), ("run_restrained", "5 m")],
+                &[("fitting", "reducer")],
+                &[("fitting", "dead_end"), ("encasement", "polyethylene")],
+            ],
+        ),
         (super::super::line_schedule::KEY, &[&[]]),
     ];
 

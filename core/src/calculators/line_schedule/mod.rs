@@ -338,6 +338,7 @@ pub fn spec() -> CalculatorSpec {
             "Blocks are taken above groundwater here; use the thrust-restraint page for buoyancy.",
         ),
     ]);
+    fields.extend(super::restrained_length::schedule::fields());
     CalculatorSpec {
         key: KEY,
         title: "Thrust blocks for every fitting along a line",

@@ -38,6 +38,8 @@ pub struct Inputs {
     pub default_joint: Joint,
     pub default_soil: String,
     pub default_sigma: Option<Pressure>,
+    /// The restrained-length column's cover, soil class and laying condition.
+    pub restrained: Option<super::super::restrained_length::schedule::Column>,
 }
 
 /// What a row's computed surge needs besides the row's pipe: the surge page's
@@ -162,6 +164,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         default_joint,
         default_soil,
         default_sigma,
+        restrained: super::super::restrained_length::schedule::read(values)?,
     })
 }
 

@@ -101,6 +101,7 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             "Direction".into(),
             "Block".into(),
             "Soil".into(),
+            "Restrained length per side".into(),
         ],
         rows: Vec::with_capacity(solved.len() + 1),
         emphasised_rows: Vec::new(),
@@ -133,6 +134,15 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             direction_text(&s.row, s.plane, s.thrust),
             block_text,
             soil_text,
+            super::super::restrained_length::schedule::cell(
+                &s.row,
+                s.p,
+                s.plane,
+                s.joint,
+                inputs.sf.value,
+                &inputs.restrained,
+                report,
+            ),
         ]);
     }
     table.rows.push(vec![
@@ -152,6 +162,7 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             report.fmt(total_area, Q::Area),
             report.fmt(total_volume, Q::Volume)
         ),
+        String::new(),
         String::new(),
     ]);
     table.emphasised_rows.push(table.rows.len() - 1);

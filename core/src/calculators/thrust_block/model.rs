@@ -195,7 +195,7 @@ fn read_fitting(values: &Values, kind: FittingKind) -> Result<FittingInputs, Fie
     })
 }
 
-fn read_pressure(values: &Values, main: Diameters, size_key: &str) -> Result<PressureInputs, FieldErrors> {
+pub fn read_pressure(values: &Values, main: Diameters, size_key: &str) -> Result<PressureInputs, FieldErrors> {
     let basis = keyed(values, "p_basis", PressureBasis::from_key)?;
     let work = values.typed::<Pressure>("p")?;
     let test =
