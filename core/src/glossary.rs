@@ -203,6 +203,11 @@ pub const TERMS: &[Term] = &[
     choice("vane", "kind of vane", &["fixed", "single", "wheel"]),
     term("u", "blade speed"),
     term("w_ratio", "relative-velocity factor k = W₂/W₁ of a vane"),
+    term(
+        "d_pitch",
+        "pitch diameter of an impulse wheel: the circle the jet's centre line touches",
+    ),
+    term("jets", "number of identical jets on an impulse wheel"),
     term("nozzles", "number of nozzles"),
     term("radius", "radius of a nozzle from the axis"),
     term("alpha", "nozzle angle to the tangent"),
