@@ -233,6 +233,20 @@ pub const TERMS: &[Term] = &[
     term("beta1", "blade angle at the inlet"),
     term("beta2", "blade angle at the outlet"),
     term("alpha1", "guide-vane (inlet flow) angle"),
+    choice(
+        "slip",
+        "slip correlation of a pump impeller with finite blades",
+        &["none", "wiesner", "stodola"],
+    ),
+    term("blades", "number of blades of an impeller"),
+    term("p_suction", "gauge pressure read at a pump's suction"),
+    term("p_atm", "absolute pressure of the local atmosphere"),
+    term(
+        "z_suction",
+        "height of a pump's suction pressure reading above the impeller eye",
+    ),
+    term("d_suction", "bore where a pump's suction pressure is read"),
+    term("p_vapour", "absolute vapour pressure of the liquid"),
     // Tanks and profiles.
     term("d_tank", "inside diameter of a tank"),
     term("d_orifice", "diameter of an orifice"),
