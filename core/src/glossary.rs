@@ -184,6 +184,24 @@ pub const TERMS: &[Term] = &[
     ),
     choice("loss", "loss model of a reducer", &["crane", "borda", "k", "none"]),
     term("d_gasket", "gasket reaction diameter G"),
+    term("bolts", "number of bolts in a flange"),
+    choice(
+        "bolt_size",
+        "thread size of a flange bolt (sets its tensile stress area), or custom",
+        &[
+            "unc_0500", "unc_0625", "unc_0750", "unc_0875", "unc_1000", "un8_1125", "un8_1250", "un8_1375", "un8_1500",
+            "m12", "m16", "m20", "m24", "m27", "m30", "m36", "custom",
+        ],
+    ),
+    term("bolt_area", "typed tensile stress area of one bolt"),
+    choice(
+        "bolt_grade",
+        "material grade of a flange bolt (sets its allowable stress), or custom",
+        &[
+            "a193_b7", "a193_b7m", "a320_l7", "iso_5_6", "iso_8_8", "iso_10_9", "custom",
+        ],
+    ),
+    term("bolt_stress", "typed allowable tensile stress of a bolt"),
     // Tee branches.
     choice(
         "junction",
