@@ -238,6 +238,16 @@ pub const TERMS: &[Term] = &[
     term("t_load", "load torque"),
     term("speed_load", "speed at which a load torque applies"),
     term("speed_held", "speed a shaft is held at"),
+    term(
+        "t_bearing",
+        "constant friction torque of a shaft's bearings and seals, besides its load",
+    ),
+    term(
+        "t_viscous",
+        "viscous friction torque of a shaft's bearings, growing in proportion to speed, at the speed \
+                speed_viscous",
+    ),
+    term("speed_viscous", "speed at which a viscous friction torque applies"),
     term("speed", "rotational speed"),
     choice("machine", "kind of machine", &["turbine", "pump"]),
     choice("layout", "flow through the blades", &["radial", "axial"]),
