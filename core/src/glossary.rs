@@ -134,9 +134,14 @@ pub const TERMS: &[Term] = &[
     term("p_test", "typed field test pressure"),
     term("dv", "velocity change of a sudden stop (surge)"),
     term("dp_surge", "surge allowance above the working pressure"),
+    choice(
+        "wave_given",
+        "whether the pressure-wave speed is computed from the pipe wall and liquid or typed",
+        &["computed", "typed"],
+    ),
     term(
         "wave_speed",
-        "typed pressure-wave speed in the liquid-filled pipe (empty: computed)",
+        "typed pressure-wave speed in the liquid-filled pipe (used when wave_given is typed)",
     ),
     term("length", "pipe length from a closing valve to the reflecting boundary"),
     term("closure_time", "effective closure time of a valve"),
@@ -506,6 +511,24 @@ pub const VALUE_ALIASES: &[ValueAlias] = &[
     },
 ];
 
+/// A choice an old link implies: before the choice existed, giving `given` (not
+/// empty) meant `key = value`. Read when the link gives `given` but not `key`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ImpliedChoice {
+    pub page: &'static str,
+    pub given: &'static str,
+    pub key: &'static str,
+    pub value: &'static str,
+}
+
+/// Every implied choice, per page.
+pub const IMPLIED_CHOICES: &[ImpliedChoice] = &[ImpliedChoice {
+    page: "surge",
+    given: "wave_speed",
+    key: "wave_given",
+    value: "typed",
+}];
+
 /// What reading an old link translated: `"basis=od → joint=push_on"`.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct Translation {
@@ -573,6 +596,20 @@ pub fn upgrade(page: &str, pairs: &[(String, String)]) -> Upgraded {
             new_value: new_value.clone(),
         });
         out.pairs.push((a.new.to_string(), new_value));
+    }
+    for implied in IMPLIED_CHOICES.iter().filter(|i| i.page == page) {
+        let given = pairs.iter().find(|(k, v)| k == implied.given && !v.trim().is_empty());
+        if let Some((key, value)) = given {
+            if !pairs.iter().any(|(k, _)| k == implied.key) {
+                out.translations.push(Translation {
+                    old_key: key.clone(),
+                    old_value: value.clone(),
+                    new_key: implied.key,
+                    new_value: implied.value.to_string(),
+                });
+                out.pairs.push((implied.key.to_string(), implied.value.to_string()));
+            }
+        }
     }
     out
 }
