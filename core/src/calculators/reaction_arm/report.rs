@@ -68,7 +68,13 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
         if solved.friction.is_some() {
             let friction = solved.friction.torque(shown.omega);
             report.output("friction_torque", friction);
-            report.output("power_to_load", (shown.torque - friction) * shown.omega);
+            // With no load the friction takes all the torque: nothing reaches a load
+            // (the bisection leaves a rounding residue of the torques, not shown).
+            let to_load = match load {
+                Load::None => 0.0,
+                _ => (shown.torque - friction) * shown.omega,
+            };
+            report.output("power_to_load", to_load);
         }
         if matches!(load, Load::Held(_)) && shown.torque < 0.0 {
             report.warn(Some("speed_held"), HELD_ABOVE_RUNAWAY);
