@@ -272,6 +272,11 @@ pub const TERMS: &[Term] = &[
         &["none", "wiesner", "stodola"],
     ),
     term("blades", "number of blades of an impeller"),
+    choice(
+        "suction",
+        "whether a pump's suction pressure is read on a gauge (for the NPSH available)",
+        &["none", "gauge"],
+    ),
     term("p_suction", "gauge pressure read at a pump's suction"),
     term("p_atm", "absolute pressure of the local atmosphere"),
     term(

@@ -140,9 +140,8 @@ const CAUTIONS: &[&str] = &[
         output.",
     "Anything that spins needs a guard and overspeed protection; a turbine that loses its load runs away. Defer to the \
         machine's manufacturer and to a licensed engineer for ratings, speeds and foundations.",
-    "Slip correlations are estimates for usual radial impellers, not a pump test. The NPSH available must exceed the \
-        pump maker's NPSH required at the duty flow by the margin your code or the Hydraulic Institute's guideline \
-        asks for: a pump short of it cavitates, loses head and erodes its impeller.",
+    "Slip correlations are estimates, not a pump test. The NPSH available must exceed the pump maker's NPSH \
+        required by the margin your code asks for.",
 ];
 
 const SUMMARY: &str = "Euler head, torque, power and hydraulic efficiency of a radial or axial runner from its blade \
@@ -419,8 +418,8 @@ const SLIP_HELP: &str = "A pump impeller with a finite number of blades turns th
     angle: Wiesner's correlation (1967) or Stodola's gives the slip factor and the head with slip. Radial impellers \
     only. Empty: none.";
 const BLADES_HELP: &str = "Whole number of blades of the impeller, 2 to 40.";
-const P_SUCTION_HELP: &str = "Gauge pressure read at the pump suction (negative below atmospheric). Gives the NPSH \
-    available. Empty: no NPSH.";
+const SUCTION_HELP: &str = "Read on a gauge: give the suction gauge pressure for the NPSH available at the eye.";
+const P_SUCTION_HELP: &str = "Gauge pressure read at the pump suction (negative below atmospheric).";
 const P_ATM_HELP: &str = "Absolute pressure of the local atmosphere, 30 to 110 kPa. Empty: the standard atmosphere, \
     101.325 kPa (lower at altitude).";
 const Z_SUCTION_HELP: &str = "Height of the suction pressure reading above the impeller eye (negative below it). \
@@ -434,8 +433,9 @@ const P_VAPOUR_HELP: &str = "Absolute vapour pressure of the liquid at the pumpi
 /// available ([`pump`]).
 fn pump_fields() -> Vec<FieldSpec> {
     let pump = Some(("machine", &["pump"][..]));
+    let gauge = Some(("suction", &["gauge"][..]));
     let suction = |key, label, kind, si_unit, us_unit, limits, help| FieldSpec {
-        visible_when: pump,
+        visible_when: gauge,
         optional: true,
         ..quantity(key, label, kind, si_unit, us_unit, "", limits, help)
     };
@@ -443,7 +443,7 @@ fn pump_fields() -> Vec<FieldSpec> {
         FieldSpec {
             visible_when: pump,
             optional: true,
-            ..choice("slip", "Slip (finite blades)", pump::SLIP_OPTIONS, "wiesner", SLIP_HELP)
+            ..choice("slip", "Slip (finite blades)", pump::SLIP_OPTIONS, "", SLIP_HELP)
         },
         FieldSpec {
             visible_when: Some(("slip", &["wiesner", "stodola"])),
@@ -461,13 +461,23 @@ fn pump_fields() -> Vec<FieldSpec> {
         FieldSpec {
             visible_when: pump,
             optional: true,
+            ..choice(
+                "suction",
+                "Suction pressure",
+                pump::SUCTION_OPTIONS,
+                "none",
+                SUCTION_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: gauge,
             ..quantity(
                 "p_suction",
                 "Suction gauge pressure",
                 Q::Pressure,
                 "kPa",
                 "psi",
-                "20 kPa",
+                "",
                 Limits::closed(-crate::units::STANDARD_ATMOSPHERE, common::MAX_PRESSURE_PA),
                 P_SUCTION_HELP,
             )
@@ -651,8 +661,8 @@ mod tests {
     fn checks_agree_and_efficiency_is_explained_when_not_applicable() {
         for machine in ["pump", "turbine"] {
             let s = solved(&[("machine", machine)]);
-            // A pump adds the head with slip, the US specific speed and the vapour head.
-            let extra = if machine == "pump" { 3 } else { 0 };
+            // A pump adds the US specific speed (its demo has no slip or suction).
+            let extra = if machine == "pump" { 1 } else { 0 };
             assert_eq!(s.checks.len(), 3 + extra, "{machine}");
             assert!(s.checks.iter().all(|c| c.agrees()), "{machine}: {:?}", s.checks);
         }
@@ -690,8 +700,14 @@ mod tests {
             let ratio = antoine_water(t) / crate::fluid::water_saturation_pressure(t);
             assert!((ratio - 1.0).abs() < 2e-3, "{celsius} degC: {ratio}");
         }
-        // The demo pump shows all three, with every check agreeing.
-        let s = solved(&[("machine", "pump")]);
+        // A pump with slip and a suction reading shows all three, every check agreeing.
+        let s = solved(&[
+            ("machine", "pump"),
+            ("slip", "wiesner"),
+            ("blades", "7"),
+            ("suction", "gauge"),
+            ("p_suction", "20 kPa"),
+        ]);
         for key in ["slip_factor", "head_slip", "specific_speed_us", "npsh_available"] {
             assert!(s.output(key).is_some(), "{key}");
         }
@@ -701,17 +717,33 @@ mod tests {
         let t = solved(&[("machine", "turbine")]);
         assert!(t.output("slip_factor").is_none() && t.output("npsh_available").is_none());
         // A pump whose suction boils, a fractional blade count, a vacuum below zero.
-        let boiling = solved(&[("machine", "pump"), ("p_suction", "-95 kPa"), ("t", "90 degC")]);
+        let boiling = solved(&[
+            ("machine", "pump"),
+            ("suction", "gauge"),
+            ("p_suction", "-95 kPa"),
+            ("t", "90 degC"),
+        ]);
+        assert!(solved(&[("machine", "pump")]).output("npsh_available").is_none());
         assert!(boiling.output("npsh_available").is_some_and(|o| o.si < 0.0));
         assert!(boiling.warnings.iter().any(|w| w.message.contains("boils at the eye")));
-        assert_eq!(error_field(&[("machine", "pump"), ("blades", "6.5")]), "blades");
         assert_eq!(
-            error_field(&[("machine", "pump"), ("p_suction", "-100 kPa"), ("p_atm", "90 kPa")]),
+            error_field(&[("machine", "pump"), ("slip", "stodola"), ("blades", "6.5")]),
+            "blades"
+        );
+        assert_eq!(
+            error_field(&[
+                ("machine", "pump"),
+                ("suction", "gauge"),
+                ("p_suction", "-100 kPa"),
+                ("p_atm", "90 kPa"),
+            ]),
             "p_suction"
         );
         // Another liquid without a vapour pressure: no NPSH, and the page says why.
         let custom = solved(&[
             ("machine", "pump"),
+            ("suction", "gauge"),
+            ("p_suction", "20 kPa"),
             ("fluid", "custom"),
             ("rho", "1000 kg/m3"),
             ("mu", "1 mPa.s"),
@@ -721,6 +753,8 @@ mod tests {
         // An axial pump gets no slip, and is told so.
         let axial = solved(&[
             ("machine", "pump"),
+            ("slip", "wiesner"),
+            ("blades", "7"),
             ("layout", "axial"),
             ("r_mean", "150 mm"),
             ("a1", "0.05 m2"),

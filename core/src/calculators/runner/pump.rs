@@ -33,7 +33,7 @@
 //!   with that factor.
 //!
 //! # NPSH available
-//! From the gauge pressure read at the suction (at the eye, or in a suction branch
+//! When the suction pressure is read on a gauge (`suction` = gauge): from the gauge pressure read at the suction (at the eye, or in a suction branch
 //! of given bore) at a height z above the impeller eye:
 //!
 //! NPSHa = (p_gauge + p_atm − p_v)/(ρg) + V²/2g + z,
@@ -57,6 +57,17 @@ use crate::fluid::ZERO_CELSIUS;
 use crate::units::{self, QuantityKind as Q, STANDARD_ATMOSPHERE, STANDARD_GRAVITY};
 
 use super::model::{Machine, Runner, Triangle};
+
+pub const SUCTION_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "none",
+        label: "Not given (no NPSH)",
+    },
+    ChoiceOption {
+        key: "gauge",
+        label: "Read on a gauge (NPSH available)",
+    },
+];
 
 pub const SLIP_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -148,7 +159,13 @@ pub fn read(values: &Values, machine: Machine) -> Result<PumpInputs, FieldErrors
             Some((model, blades as usize))
         }
     };
-    let suction = match values.typed_opt::<Pressure>("p_suction") {
+    let reading = match values.choice("suction").unwrap_or("none") {
+        "gauge" => Some(values.typed::<Pressure>("p_suction").map_err(|_| {
+            FieldError::inconsistent("p_suction", "type the suction gauge pressure, or choose no NPSH")
+        })?),
+        _ => None,
+    };
+    let suction = match reading {
         None => None,
         Some(gauge) => {
             let atmosphere = values
@@ -436,7 +453,8 @@ pub fn write(solved: &PumpSolved, runner: &Runner, temperature: Option<f64>, rep
             );
         }
     }
-    if solved.slip.is_some() || solved.specific_speed.is_some() || solved.npsh.is_some() {
+    // Specific speed alone is in the outputs; the table adds the slip and NPSH terms.
+    if solved.slip.is_some() || solved.npsh.is_some() {
         report.solution.tables.push(table(solved, temperature, report));
     }
 }
