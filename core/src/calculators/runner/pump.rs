@@ -33,7 +33,8 @@
 //!   with that factor.
 //!
 //! # NPSH available
-//! When the suction pressure is read on a gauge (`suction` = gauge): from the gauge pressure read at the suction (at the eye, or in a suction branch
+//! When the suction pressure is read on a gauge (`suction` = gauge): from the gauge
+//! pressure read at the suction (at the eye, or in a suction branch
 //! of given bore) at a height z above the impeller eye:
 //!
 //! NPSHa = (p_gauge + p_atm − p_v)/(ρg) + V²/2g + z,
