@@ -443,7 +443,7 @@ fn pump_fields() -> Vec<FieldSpec> {
         FieldSpec {
             visible_when: pump,
             optional: true,
-            ..choice("slip", "Slip (finite blades)", pump::SLIP_OPTIONS, "", SLIP_HELP)
+            ..choice("slip", "Slip (finite blades)", pump::SLIP_OPTIONS, "none", SLIP_HELP)
         },
         FieldSpec {
             visible_when: Some(("slip", &["wiesner", "stodola"])),
