@@ -134,9 +134,14 @@ pub const TERMS: &[Term] = &[
     term("p_test", "typed field test pressure"),
     term("dv", "velocity change of a sudden stop (surge)"),
     term("dp_surge", "surge allowance above the working pressure"),
+    choice(
+        "wave_given",
+        "whether the pressure-wave speed is computed from the pipe wall and liquid or typed",
+        &["computed", "typed"],
+    ),
     term(
         "wave_speed",
-        "typed pressure-wave speed in the liquid-filled pipe (empty: computed)",
+        "typed pressure-wave speed in the liquid-filled pipe (used when wave_given is typed)",
     ),
     term("length", "pipe length from a closing valve to the reflecting boundary"),
     term("closure_time", "effective closure time of a valve"),
@@ -253,6 +258,24 @@ pub const TERMS: &[Term] = &[
         &["cone_formula", "borda", "k", "none"],
     ),
     term("d_gasket", "gasket reaction diameter G"),
+    term("bolts", "number of bolts in a flange"),
+    choice(
+        "bolt_size",
+        "thread size of a flange bolt (sets its tensile stress area), or custom",
+        &[
+            "unc_0500", "unc_0625", "unc_0750", "unc_0875", "unc_1000", "un8_1125", "un8_1250", "un8_1375", "un8_1500",
+            "m12", "m16", "m20", "m24", "m27", "m30", "m36", "custom",
+        ],
+    ),
+    term("bolt_area", "typed tensile stress area of one bolt"),
+    choice(
+        "bolt_grade",
+        "material grade of a flange bolt (sets its allowable stress), or custom",
+        &[
+            "a193_b7", "a193_b7m", "a320_l7", "iso_5_6", "iso_8_8", "iso_10_9", "custom",
+        ],
+    ),
+    term("bolt_stress", "typed allowable tensile stress of a bolt"),
     // Tee branches.
     choice(
         "junction",
@@ -272,6 +295,11 @@ pub const TERMS: &[Term] = &[
     choice("vane", "kind of vane", &["fixed", "single", "wheel"]),
     term("u", "blade speed"),
     term("w_ratio", "relative-velocity factor k = W₂/W₁ of a vane"),
+    term(
+        "d_pitch",
+        "pitch diameter of an impulse wheel: the circle the jet's centre line touches",
+    ),
+    term("jets", "number of identical jets on an impulse wheel"),
     term("nozzles", "number of nozzles"),
     term("radius", "radius of a nozzle from the axis"),
     term("alpha", "nozzle angle to the tangent"),
@@ -284,6 +312,16 @@ pub const TERMS: &[Term] = &[
     term("t_load", "load torque"),
     term("speed_load", "speed at which a load torque applies"),
     term("speed_held", "speed a shaft is held at"),
+    term(
+        "t_bearing",
+        "constant friction torque of a shaft's bearings and seals, besides its load",
+    ),
+    term(
+        "t_viscous",
+        "viscous friction torque of a shaft's bearings, growing in proportion to speed, at the speed \
+                speed_viscous",
+    ),
+    term("speed_viscous", "speed at which a viscous friction torque applies"),
     term("speed", "rotational speed"),
     choice("machine", "kind of machine", &["turbine", "pump"]),
     choice("layout", "flow through the blades", &["radial", "axial"]),
@@ -297,6 +335,25 @@ pub const TERMS: &[Term] = &[
     term("beta1", "blade angle at the inlet"),
     term("beta2", "blade angle at the outlet"),
     term("alpha1", "guide-vane (inlet flow) angle"),
+    choice(
+        "slip",
+        "slip correlation of a pump impeller with finite blades",
+        &["none", "wiesner", "stodola"],
+    ),
+    term("blades", "number of blades of an impeller"),
+    choice(
+        "suction",
+        "whether a pump's suction pressure is read on a gauge (for the NPSH available)",
+        &["none", "gauge"],
+    ),
+    term("p_suction", "gauge pressure read at a pump's suction"),
+    term("p_atm", "absolute pressure of the local atmosphere"),
+    term(
+        "z_suction",
+        "height of a pump's suction pressure reading above the impeller eye",
+    ),
+    term("d_suction", "bore where a pump's suction pressure is read"),
+    term("p_vapour", "absolute vapour pressure of the liquid"),
     // Tanks and profiles.
     term("d_tank", "inside diameter of a tank"),
     term("d_orifice", "diameter of an orifice"),
@@ -592,6 +649,24 @@ pub const VALUE_ALIASES: &[ValueAlias] = &[
     soil_alias("line-schedule", "bs8004_dense_gravel", "dense_granular"),
 ];
 
+/// A choice an old link implies: before the choice existed, giving `given` (not
+/// empty) meant `key = value`. Read when the link gives `given` but not `key`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ImpliedChoice {
+    pub page: &'static str,
+    pub given: &'static str,
+    pub key: &'static str,
+    pub value: &'static str,
+}
+
+/// Every implied choice, per page.
+pub const IMPLIED_CHOICES: &[ImpliedChoice] = &[ImpliedChoice {
+    page: "surge",
+    given: "wave_speed",
+    key: "wave_given",
+    value: "typed",
+}];
+
 /// What reading an old link translated: `"basis=od → joint=push_on"`.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct Translation {
@@ -659,6 +734,20 @@ pub fn upgrade(page: &str, pairs: &[(String, String)]) -> Upgraded {
             new_value: new_value.clone(),
         });
         out.pairs.push((a.new.to_string(), new_value));
+    }
+    for implied in IMPLIED_CHOICES.iter().filter(|i| i.page == page) {
+        let given = pairs.iter().find(|(k, v)| k == implied.given && !v.trim().is_empty());
+        if let Some((key, value)) = given {
+            if !pairs.iter().any(|(k, _)| k == implied.key) {
+                out.translations.push(Translation {
+                    old_key: key.clone(),
+                    old_value: value.clone(),
+                    new_key: implied.key,
+                    new_value: implied.value.to_string(),
+                });
+                out.pairs.push((implied.key.to_string(), implied.value.to_string()));
+            }
+        }
     }
     out
 }

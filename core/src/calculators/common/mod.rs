@@ -27,7 +27,7 @@ pub use crate::numeric::peak_of;
 pub use drawing::*;
 pub use fields::*;
 pub use tables::*;
-pub use wall::{read_elastic, wave_speed_fields, Elastic};
+pub use wall::{read_elastic, read_wave, wave_given_fields, wave_speed_fields, Elastic, WaveGiven};
 
 /// Maps an engine error onto the field most responsible for it.
 pub fn engine_error(err: EngineError, field: &'static str) -> Vec<FieldError> {

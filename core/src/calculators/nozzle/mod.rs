@@ -30,6 +30,11 @@
 //! the jet) is ṁ·V_j, pointing upstream; for an ideal nozzle fed from a large pipe it
 //! is 2·p₁·A_n, the fire-service rule "1.57·d²·p" (lbf, in, psi).
 //!
+//! With the number of flange bolts, a size and a grade, [`bolts`] shares the end
+//! force (at G, else on the bore, no credit for the flow) among the bolts and
+//! compares each bolt's share with its allowable load S·A_s (ASME B1.1 and ISO 898-1
+//! stress areas; ASME BPVC II-D and EN 13445-3 allowables).
+//!
 //! Checks shown to users: the end force on the bore against the closed form
 //! p₁A₁ − ρQ(V_j − V₁) with p₁ = ρ(V_j²/C_v² − V₁²)/2 worked in plain arithmetic
 //! (independent of the engine's balance); the jet reaction ṁV_j against the energy
@@ -61,6 +66,7 @@ use crate::units::QuantityKind as Q;
 
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M};
 
+pub mod bolts;
 mod diagram;
 pub mod model;
 mod report;
@@ -178,6 +184,7 @@ pub fn spec() -> CalculatorSpec {
             )
         },
     ];
+    fields.extend(bolts::fields());
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
@@ -213,7 +220,10 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("jet_power", "Kinetic power of the jet, ṁV_j²/2", Q::Power),
             OutputSpec::listed("pressure_force", "Pressure force on the flange face, p₁A₁", Q::Force),
             OutputSpec::listed("density", "Fluid density", Q::Density),
-        ],
+        ]
+        .into_iter()
+        .chain(bolts::outputs())
+        .collect(),
         cautions: vec![
             // The Appendix 2 loads are quoted from memory of ASME BPVC VIII-1.
             "The end force is not the bolt load. Flange bolts carry the pressure out to the gasket reaction \
@@ -273,7 +283,9 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         )
         .into());
     }
+    let bolts = bolts::read(values)?;
     Ok(Inputs {
+        bolts,
         d_pipe,
         d_nozzle,
         given,

@@ -36,6 +36,8 @@ pub struct Inputs {
     /// Gasket reaction diameter G, not smaller than the bore, when given.
     pub d_gasket: Option<Length>,
     pub fluid: Fluid,
+    /// The flange's bolts, when their number and size are given.
+    pub bolts: Option<super::bolts::Bolting>,
 }
 
 /// Why a valid set of inputs has no steady operating point on this page.

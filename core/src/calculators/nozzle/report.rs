@@ -107,6 +107,10 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
     report.solution.tables.push(basis);
     report.solution.tables.push(common::ledger_table(balance, system));
     report.solution.tables.push(common::ports_table(balance, system));
+    if let Some(bolting) = &inputs.bolts {
+        let gasket = inputs.d_gasket.map(|g| g.value);
+        super::bolts::write(bolting, inlet.pressure, nozzle.a_pipe, gasket, report);
+    }
     let diagram = super::diagram::diagram(inputs, nozzle, report);
     report.solution.diagrams.push(diagram);
     let carry = common::thrust_carry_over(

@@ -40,7 +40,13 @@
 //! squared, or a speed held by the driven machine), found by bisection over engine
 //! balances. The runaway speed is where the water's torque falls to zero; with a
 //! fixed flow it is ω = W·cos α / R (derived from the definition), and the power
-//! peaks at half of it. With a fixed pressure and an ideal tangential nozzle
+//! peaks at half of it. Bearing and seal friction, a constant torque T_b plus an
+//! optional viscous part c·ω, resists besides the load; the free-running speed is
+//! where the water's torque equals the friction alone. At fixed flow the water's
+//! torque is linear in ω, so against T₀ + c·ω the speed at the load is
+//! (ρQR·W·cos α − T₀)/(ρQR² + c), which the checks table compares with the
+//! bisection. The page opens fed at a fixed supply pressure, as a sprinkler on a
+//! main is. With a fixed pressure and an ideal tangential nozzle
 //! (C_v·cos α = 1) the torque never falls to zero and there is no finite runaway
 //! speed: only friction and windage hold such an arm.
 //!
@@ -95,12 +101,12 @@ const RESIDUE: f64 = 1e-12;
 
 const FLOW_GIVEN_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
-        key: "q",
-        label: "Fixed flow (positive-displacement or throttled supply)",
-    },
-    ChoiceOption {
         key: "p",
         label: "Fixed supply pressure at the hub",
+    },
+    ChoiceOption {
+        key: "q",
+        label: "Fixed flow (positive-displacement or throttled supply)",
     },
 ];
 
@@ -129,8 +135,8 @@ const LOAD_OPTIONS: &[ChoiceOption] = &[
 
 /// The usual cautions of the page.
 const CAUTIONS: &[&str] = &[
-    "Idealised arm: uniform jets, no jet spreading, no bearing friction or windage except the load you give. \
-        Real arms and runners lose more and run slower than these figures.",
+    "Idealised arm: uniform jets, no jet spreading or windage, bearing friction only as you give it. Real arms \
+        and runners lose more and run slower than these figures.",
     "Anything that spins needs a guard and overspeed protection: a free-running arm fed at fixed pressure can \
         reach a very high speed. Keep people out of the plane of rotation and the jets.",
     "For a machine bought in, the manufacturer's ratings govern; defer to the manufacturer and to a licensed \
@@ -141,6 +147,10 @@ const CV_HELP: &str = "Actual ÷ ideal jet speed, 0.5 to 1; empty means 1 (no lo
     and for the pressure a fixed flow needs.";
 const D_HUB_HELP: &str = "Bore of the passage where the supply pressure is read. Empty: the velocity head in the \
     hub is neglected (the pressure is the total head).";
+const T_BEARING_HELP: &str = "Torque of the bearings and seals that the arm must overcome at any speed (a \
+    sprinkler's swivel, a turbine's bearings), besides the load. Empty: 0, frictionless.";
+const T_VISCOUS_HELP: &str = "Friction that grows in proportion to speed (a lubricated bearing, a viscous brake), \
+    given as its torque at the speed below. Empty: none.";
 const SUMMARY: &str =
     "Torque, power and speed of a jet-driven arm from the angular-momentum balance in the rotating frame.";
 
@@ -207,9 +217,10 @@ pub fn spec() -> CalculatorSpec {
             "flow_given",
             "The arm is fed at",
             FLOW_GIVEN_OPTIONS,
-            "q",
-            "Fixed flow: the jet speed W = Q/(N·A) is set. Fixed pressure: W grows with speed, W = C_v·√(2p/ρ \
-                    + ω²R²).",
+            "p",
+            "Fixed pressure (as a garden or process sprinkler is fed from a main): W grows with speed, W = \
+                    C_v·√(2p/ρ + ω²R²). Fixed flow (a positive-displacement or throttled supply): the jet speed \
+                    W = Q/(N·A) is set.",
         ),
         FieldSpec {
             visible_when: Some(("flow_given", &["q"])),
@@ -296,6 +307,46 @@ pub fn spec() -> CalculatorSpec {
                 "The speed the driven machine holds, 0 to 100 000 rpm; 0 gives the stall torque.",
             )
         },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "t_bearing",
+                "Bearing friction torque (constant)",
+                Q::Torque,
+                "N.m",
+                "lbf.ft",
+                "",
+                Limits::closed(0.0, 1e7),
+                T_BEARING_HELP,
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "t_viscous",
+                "Viscous friction torque at the speed below",
+                Q::Torque,
+                "N.m",
+                "lbf.ft",
+                "",
+                Limits::closed(0.0, 1e7),
+                T_VISCOUS_HELP,
+            )
+        },
+        FieldSpec {
+            optional: true,
+            ..quantity(
+                "speed_viscous",
+                "Speed of that viscous friction torque",
+                Q::AngularSpeed,
+                "rpm",
+                "rpm",
+                "",
+                Limits::closed(MIN_SPEED_RAD_S, MAX_SPEED_RAD_S),
+                "The viscous friction torque grows in proportion to speed through this point; 0.1 to 100 000 \
+                    rpm.",
+            )
+        },
     ];
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
@@ -328,6 +379,21 @@ pub fn spec() -> CalculatorSpec {
                 Q::Ratio,
             ),
             OutputSpec::listed("density", "Fluid density", Q::Density),
+            OutputSpec::listed(
+                "friction_torque",
+                "Bearing friction torque at the speed at the load",
+                Q::Torque,
+            ),
+            OutputSpec::listed(
+                "power_to_load",
+                "Power to the load, (torque − bearing friction)·ω",
+                Q::Power,
+            ),
+            OutputSpec::listed(
+                "free_speed",
+                "Free-running speed against bearing friction alone",
+                Q::AngularSpeed,
+            ),
         ],
         cautions: CAUTIONS.to_vec(),
     }
@@ -379,7 +445,13 @@ mod tests {
         for alpha in ["0 deg", "0.0001 deg"] {
             let s = crate::calculators::testing::solved(
                 KEY,
-                &[("load", "none"), ("alpha", alpha), ("cv", "1"), ("nozzles", "3")],
+                &[
+                    ("flow_given", "q"),
+                    ("load", "none"),
+                    ("alpha", alpha),
+                    ("cv", "1"),
+                    ("nozzles", "3"),
+                ],
             );
             let out = |k: &str| s.output(k).map(|o| o.si);
             assert_eq!(out("torque"), Some(0.0), "{alpha}");
@@ -402,12 +474,15 @@ mod tests {
     fn a_hub_bore_narrower_than_the_nozzles_together_is_refused() {
         // Four 25 mm nozzles need a hub bore of at least 50 mm (√4 × 25 mm): a
         // narrower one would be faster than the jets, outside this model.
-        let (field, message) = crate::calculators::testing::first_error(KEY, &[("d_hub", "40 mm")]);
+        let (field, message) =
+            crate::calculators::testing::first_error(KEY, &[("flow_given", "q"), ("d_hub", "40 mm")]);
         assert_eq!(field, "d_hub");
         assert!(message.contains("50.00 mm"), "{message}");
         // 100 m³/s through four 0.5 mm nozzles would leave at 1.3e8 m/s: refused.
-        let (field, message) =
-            crate::calculators::testing::first_error(KEY, &[("q", "100 m3/s"), ("d_nozzle", "0.5 mm")]);
+        let (field, message) = crate::calculators::testing::first_error(
+            KEY,
+            &[("flow_given", "q"), ("q", "100 m3/s"), ("d_nozzle", "0.5 mm")],
+        );
         assert_eq!(field, "q");
         assert!(message.contains("500 m/s"), "{message}");
         let s = crate::calculators::testing::solved(KEY, &[("d_hub", "50 mm")]);
@@ -464,6 +539,7 @@ mod tests {
             hub_bore: None,
             drive: Drive::Flow(VolumeRate::new::<liter_per_second>(0.9)),
             load: model::Load::None,
+            friction: model::Friction::default(),
         };
         let solved = model::solve(&inputs).expect("solves");
         let w = 0.9e-3 / (3.0 * PI * 0.006 * 0.006 / 4.0);
@@ -559,9 +635,12 @@ mod tests {
 
     #[test]
     fn held_speed_above_runaway_and_unheld_ideal_arm_are_warned() {
-        let s = crate::solve(KEY, &request(&[("load", "speed"), ("speed_held", "60 rpm")]))
-            .result
-            .expect("solves");
+        let s = crate::solve(
+            KEY,
+            &request(&[("flow_given", "q"), ("load", "speed"), ("speed_held", "60 rpm")]),
+        )
+        .result
+        .expect("solves");
         assert!(s.output("torque").unwrap().si < 0.0);
         assert!(s.warnings.iter().any(|w| w.field == Some("speed_held")));
         let s = crate::solve(
@@ -599,5 +678,44 @@ mod tests {
         assert_eq!(error_field(&[("flow_given", "q"), ("q", "")]), "q");
         assert_eq!(error_field(&[("load", "linear")]), "speed_load");
         assert_eq!(error_field(&[("flow_given", "p"), ("d_hub", "1 mm")]), "d_hub");
+    }
+
+    #[test]
+    fn bearing_friction_slows_the_arm_and_the_fixed_pressure_drive_is_the_default() {
+        let solved = |pairs: &[(&str, &str)]| crate::calculators::testing::solved(KEY, pairs);
+        // The page opens fed at fixed pressure, as a sprinkler on a main is.
+        let spec = spec();
+        let drive = spec.fields.iter().find(|f| f.key == "flow_given").map(|f| f.demo);
+        assert_eq!(drive, Some("p"));
+        // Friction alone holds a free-running arm below its runaway speed.
+        let free = solved(&[("load", "none"), ("t_bearing", "5 N.m")]);
+        let get = |s: &crate::catalog::Solution, k: &str| s.output(k).map(|o| o.si).unwrap_or(f64::NAN);
+        assert!(get(&free, "speed") < get(&free, "runaway_speed"));
+        assert_relative_eq!(get(&free, "speed"), get(&free, "free_speed"), max_relative = 1e-12);
+        assert_relative_eq!(get(&free, "torque"), 5.0, max_relative = 1e-6);
+        // At fixed flow the speed is checked against its closed form.
+        let fixed = solved(&[
+            ("flow_given", "q"),
+            ("load", "linear"),
+            ("t_load", "10 N.m"),
+            ("speed_load", "100 rpm"),
+            ("t_bearing", "2 N.m"),
+            ("t_viscous", "1 N.m"),
+            ("speed_viscous", "50 rpm"),
+        ]);
+        assert!(fixed.checks.iter().any(|c| c.label.starts_with("Speed at the load")));
+        assert!(fixed.checks.iter().all(|c| c.agrees()), "{:?}", fixed.checks);
+        let to_load = get(&fixed, "power_to_load");
+        let expected = (get(&fixed, "torque") - get(&fixed, "friction_torque")) * get(&fixed, "speed");
+        assert_relative_eq!(to_load, expected, max_relative = 1e-12);
+        // Friction above the stall torque: the arm does not start, and says so.
+        let stuck = solved(&[("load", "none"), ("t_bearing", "1000 N.m")]);
+        assert_eq!(get(&stuck, "speed"), 0.0);
+        assert!(stuck.warnings.iter().any(|w| w.message.contains("does not start")));
+        // A viscous torque needs its speed.
+        assert_eq!(
+            error_field(&[("t_viscous", "1 N.m"), ("speed_viscous", "")]),
+            "speed_viscous"
+        );
     }
 }

@@ -65,6 +65,33 @@ impl Load {
     }
 }
 
+/// Friction of the arm's bearings and seals: a constant torque, and optionally a
+/// viscous part proportional to speed, given as its torque at a speed.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct Friction {
+    pub constant: Option<Torque>,
+    pub viscous: Option<(Torque, AngularVelocity)>,
+}
+
+impl Friction {
+    /// Whether any friction was given.
+    pub fn is_some(self) -> bool {
+        self.constant.is_some() || self.viscous.is_some()
+    }
+    /// The constant part, N·m.
+    pub fn constant_torque(self) -> f64 {
+        self.constant.map_or(0.0, |t| t.value)
+    }
+    /// The viscous coefficient, N·m per rad/s.
+    pub fn viscous_coefficient(self) -> f64 {
+        self.viscous.map_or(0.0, |(t, w)| t.value / w.value)
+    }
+    /// Friction torque at ω ≥ 0 (rad/s), N·m.
+    pub fn torque(self, omega: f64) -> f64 {
+        self.constant_torque() + self.viscous_coefficient() * omega
+    }
+}
+
 /// The arm as typed, read once from the values ([`read`]).
 #[derive(Clone, Debug)]
 pub struct Inputs {
@@ -80,6 +107,8 @@ pub struct Inputs {
     pub hub_bore: Option<Length>,
     pub drive: Drive,
     pub load: Load,
+    /// Bearing and seal friction, besides the load.
+    pub friction: Friction,
 }
 
 /// The arm in SI numbers, as the model computes with it.
@@ -344,6 +373,23 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         )),
         _ => Load::None,
     };
+    let friction = Friction {
+        constant: values.typed_opt("t_bearing"),
+        viscous: match (
+            values.typed_opt::<Torque>("t_viscous"),
+            values.typed_opt("speed_viscous"),
+        ) {
+            (None, _) => None,
+            (Some(t), Some(w)) => Some((t, w)),
+            (Some(t), None) => {
+                errors.push(FieldError::inconsistent(
+                    "speed_viscous",
+                    "the speed at which the viscous friction torque applies is required",
+                ));
+                Some((t, AngularVelocity::from_si(1.0)))
+            }
+        },
+    };
     if nozzle_diameter > 2.0 * radius {
         errors.push(FieldError::inconsistent(
             "d_nozzle",
@@ -372,6 +418,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         hub_bore,
         drive,
         load,
+        friction,
     })
 }
 
@@ -412,6 +459,9 @@ pub struct RunawayClosedForm {
 pub struct Solved {
     pub arm: Arm,
     pub load: Load,
+    pub friction: Friction,
+    /// Where the water's torque equals the friction alone, rad/s (friction given).
+    pub free_speed: Option<f64>,
     /// The arm held still.
     pub stall: State,
     /// Where the water's torque falls to zero, rad/s; `None` when it never does.
@@ -476,16 +526,28 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         }
     };
 
-    // Operating point.
-    let net = |w: f64| Ok(arm.torque(w)? - load.torque(w));
+    // Operating point: the water's torque against the load and the friction.
+    let friction = inputs.friction;
+    let balance_against = |resisting: &dyn Fn(f64) -> f64| -> Result<Operating, EngineError> {
+        let net = |w: f64| Ok(arm.torque(w)? - resisting(w));
+        if net(0.0)? <= 0.0 {
+            return Ok(Operating::DoesNotStart);
+        }
+        Ok(match bracket(scale, speed_limit, &net)? {
+            Some(hi) => Operating::At(crate::numeric::bisect_sign_change(0.0, hi, net)?),
+            None => Operating::LoadNeverBalances,
+        })
+    };
     let operating = match load {
         Load::Held(w) => Operating::At(w.value),
-        Load::None => runaway.map_or(Operating::NoFiniteRunaway, Operating::At),
-        _ if net(0.0).map_err(fail)? <= 0.0 => Operating::DoesNotStart,
-        _ => match bracket(scale, speed_limit, &net).map_err(fail)? {
-            Some(hi) => Operating::At(crate::numeric::bisect_sign_change(0.0, hi, net).map_err(fail)?),
-            None => Operating::LoadNeverBalances,
-        },
+        Load::None if !friction.is_some() => runaway.map_or(Operating::NoFiniteRunaway, Operating::At),
+        _ => balance_against(&|w| load.torque(w) + friction.torque(w)).map_err(fail)?,
+    };
+    // Free running against the friction alone.
+    let free_speed = if friction.is_some() {
+        balance_against(&|w| friction.torque(w)).map_err(fail)?.speed()
+    } else {
+        None
     };
 
     let closed_form = match arm.drive {
@@ -541,6 +603,8 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     Ok(Solved {
         arm,
         load,
+        friction,
+        free_speed,
         stall,
         runaway,
         runaway_closed_form,

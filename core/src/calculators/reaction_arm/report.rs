@@ -7,10 +7,11 @@ use std::f64::consts::PI;
 use crate::catalog::{Marker, Plot, Report, Series, Table};
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
-use super::model::{efficiency_of, Arm, Load, Operating, Solved, State};
+use super::model::{efficiency_of, Arm, Drive, Load, Operating, Solved, State};
 use crate::calculators::common;
 
-const DOES_NOT_START: &str = "the load torque at standstill is at least the stall torque: the arm does not start";
+const DOES_NOT_START: &str =
+    "the load and bearing-friction torque at standstill is at least the stall torque: the arm does not start";
 const LOAD_NEVER_BALANCES: &str = "the water's torque stays above the load torque up to a nozzle speed of 2 km/s: \
     there is no speed at the load in this model (a frictionless arm fed at fixed pressure runs away); give a \
     larger friction or load torque";
@@ -64,6 +65,17 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
         report.output("speed", shown.omega);
         report.output("torque", shown.torque);
         report.output("power", shown.power);
+        if solved.friction.is_some() {
+            let friction = solved.friction.torque(shown.omega);
+            report.output("friction_torque", friction);
+            // With no load the friction takes all the torque: nothing reaches a load
+            // (the bisection leaves a rounding residue of the torques, not shown).
+            let to_load = match load {
+                Load::None => 0.0,
+                _ => (shown.torque - friction) * shown.omega,
+            };
+            report.output("power_to_load", to_load);
+        }
         if matches!(load, Load::Held(_)) && shown.torque < 0.0 {
             report.warn(Some("speed_held"), HELD_ABOVE_RUNAWAY);
         }
@@ -79,6 +91,10 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
         Err(reason) => report.warn(None, format!("Efficiency: not applicable, {reason}")),
     }
     independent_checks(report, arm, shown);
+    operating_check(report, solved);
+    if let Some(w) = solved.free_speed {
+        report.output("free_speed", w);
+    }
     report.output("density", arm.fluid.density);
     if shown.supply_pressure < 0.0 {
         report.warn(Some("q"), HUB_BELOW_ATMOSPHERIC);
@@ -94,6 +110,43 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
     let drawing = super::diagram::draw(arm, shown, report);
     report.solution.diagrams.push(drawing);
     plots(solved, report);
+}
+
+/// At a fixed flow the water's torque is linear in speed, ρQR(W·cos α − ωR), so
+/// against a resisting torque T₀ + c·ω (constant and viscous friction, a constant or
+/// linear load) the speed has the closed form ω = (ρQR·W·cos α − T₀)/(ρQR² + c):
+/// compared with the speed the bisection found over the engine's balances.
+fn operating_check(report: &mut Report<'_>, solved: &Solved) {
+    let (arm, friction) = (&solved.arm, solved.friction);
+    let Drive::Flow(q) = arm.drive else { return };
+    let Operating::At(found) = solved.operating else { return };
+    let (load_constant, load_viscous) = match solved.load {
+        Load::None => (0.0, 0.0),
+        Load::Constant(t) => (t.value, 0.0),
+        Load::Power {
+            torque,
+            speed,
+            exponent: 1,
+        } => (0.0, torque.value / speed.value),
+        Load::Power { .. } | Load::Held(_) => return,
+    };
+    if !(friction.is_some() || load_constant > 0.0 || load_viscous > 0.0) {
+        return;
+    }
+    let (rho, r, q) = (arm.fluid.density, arm.radius, q.value);
+    let w = q / (arm.nozzles as f64 * arm.nozzle_area);
+    let t0 = friction.constant_torque() + load_constant;
+    let c = friction.viscous_coefficient() + load_viscous;
+    let closed = (rho * q * r * w * arm.cos_alpha() - t0) / (rho * q * r * r + c);
+    report.check(
+        "Speed at the load (searched over the balances)",
+        "closed form at fixed flow ω = (ρQR·W·cos α − T₀)/(ρQR² + c), T₀ + c·ω the load and friction",
+        Q::AngularSpeed,
+        found,
+        closed,
+        1e-9,
+        0.0,
+    );
 }
 
 /// Checks of the state shown against paths that do not go through the engine's
@@ -220,12 +273,21 @@ fn plots(solved: &Solved, report: &mut Report<'_>) {
             .map(|s| [x(s.omega), conv(s.torque, Q::Torque, torque_unit)])
             .collect(),
     }];
-    if matches!(load, Load::Constant(_) | Load::Power { .. }) {
+    let friction = solved.friction;
+    if matches!(load, Load::Constant(_) | Load::Power { .. }) || friction.is_some() {
+        let resisting = |w: f64| match load {
+            Load::Held(_) => friction.torque(w),
+            _ => load.torque(w) + friction.torque(w),
+        };
         torque_series.push(Series {
-            name: "load torque".to_string(),
+            name: if friction.is_some() {
+                "load and bearing friction torque".to_string()
+            } else {
+                "load torque".to_string()
+            },
             points: states
                 .iter()
-                .map(|s| [x(s.omega), conv(load.torque(s.omega), Q::Torque, torque_unit)])
+                .map(|s| [x(s.omega), conv(resisting(s.omega), Q::Torque, torque_unit)])
                 .collect(),
         });
     }

@@ -51,6 +51,11 @@
 //! the efficiency is reported as not applicable, with the reason, when the Euler head
 //! is not positive.
 //!
+//! # Pumps
+//! A pump also gets the head with slip for a finite number of blades (Wiesner's or
+//! Stodola's correlation), its specific speed (dimensionless, metric n_q and US
+//! customary N_s) and the NPSH available at the eye: see [`pump`].
+//!
 //! # Assumptions
 //! Ideal (Euler) flow: the water follows the blades exactly (infinitely many blades,
 //! no slip), uniform velocities over each station, no leakage, disc friction or
@@ -77,6 +82,7 @@ use super::common::{self, choice, quantity, MAX_SIZE_M};
 
 mod diagram;
 pub mod model;
+pub mod pump;
 mod report;
 
 pub const KEY: &str = "runner";
@@ -134,6 +140,8 @@ const CAUTIONS: &[&str] = &[
         output.",
     "Anything that spins needs a guard and overspeed protection; a turbine that loses its load runs away. Defer to the \
         machine's manufacturer and to a licensed engineer for ratings, speeds and foundations.",
+    "Slip correlations are estimates, not a pump test. The NPSH available must exceed the pump maker's NPSH \
+        required by the margin your code asks for.",
 ];
 
 const SUMMARY: &str = "Euler head, torque, power and hydraulic efficiency of a radial or axial runner from its blade \
@@ -336,6 +344,7 @@ pub fn spec() -> CalculatorSpec {
             )
         },
     ];
+    fields.extend(pump_fields());
     fields.extend(common::fluid_fields("25 degC"));
     CalculatorSpec {
         key: KEY,
@@ -376,9 +385,140 @@ pub fn spec() -> CalculatorSpec {
             ),
             OutputSpec::listed("mass_flow", "Mass flow", Q::MassFlow),
             OutputSpec::listed("density", "Fluid density", Q::Density),
+            OutputSpec::listed("slip_factor", "Pump: slip factor σ = 1 − V_s/u₂", Q::Ratio),
+            OutputSpec::listed("vtheta2_slip", "Pump: outlet swirl with slip V_θ2′", Q::Velocity),
+            OutputSpec::listed("head_slip", "Pump: head with slip H′ (finite blades)", Q::Length),
+            OutputSpec::listed(
+                "specific_speed",
+                "Pump: specific speed Ω_s = ω√Q/(gH)^¾ (dimensionless, rad)",
+                Q::Ratio,
+            ),
+            OutputSpec::listed(
+                "specific_speed_metric",
+                "Pump: specific speed n_q = n√Q/H^¾ (rpm, m³/s, m)",
+                Q::Ratio,
+            ),
+            OutputSpec::listed(
+                "specific_speed_us",
+                "Pump: specific speed N_s = n√Q/H^¾ (rpm, US gpm, ft)",
+                Q::Ratio,
+            ),
+            OutputSpec::listed("npsh_available", "Pump: NPSH available at the eye", Q::Length),
+            OutputSpec::listed(
+                "vapour_pressure",
+                "Vapour pressure of the liquid (absolute)",
+                Q::Pressure,
+            ),
         ],
         cautions: CAUTIONS.to_vec(),
     }
+}
+
+const SLIP_HELP: &str = "A pump impeller with a finite number of blades turns the water less than its blade \
+    angle: Wiesner's correlation (1967) or Stodola's gives the slip factor and the head with slip. Radial impellers \
+    only. Empty: none.";
+const BLADES_HELP: &str = "Whole number of blades of the impeller, 2 to 40.";
+const SUCTION_HELP: &str = "Read on a gauge: give the suction gauge pressure for the NPSH available at the eye.";
+const P_SUCTION_HELP: &str = "Gauge pressure read at the pump suction (negative below atmospheric).";
+const P_ATM_HELP: &str = "Absolute pressure of the local atmosphere, 30 to 110 kPa. Empty: the standard atmosphere, \
+    101.325 kPa (lower at altitude).";
+const Z_SUCTION_HELP: &str = "Height of the suction pressure reading above the impeller eye (negative below it). \
+    Empty: 0, read at the eye.";
+const D_SUCTION_HELP: &str = "Bore where the suction pressure is read, for its velocity head. Empty: read at the \
+    blade inlet, with the absolute velocity V₁.";
+const P_VAPOUR_HELP: &str = "Absolute vapour pressure of the liquid at the pumping temperature. Empty: water's, from \
+    its temperature (IAPWS-IF97); another liquid needs it typed.";
+
+/// The pump-only fields: slip correlation and blades, and the suction for the NPSH
+/// available ([`pump`]).
+fn pump_fields() -> Vec<FieldSpec> {
+    let pump = Some(("machine", &["pump"][..]));
+    let gauge = Some(("suction", &["gauge"][..]));
+    let suction = |key, label, kind, si_unit, us_unit, limits, help| FieldSpec {
+        visible_when: gauge,
+        optional: true,
+        ..quantity(key, label, kind, si_unit, us_unit, "", limits, help)
+    };
+    vec![
+        FieldSpec {
+            visible_when: pump,
+            optional: true,
+            ..choice("slip", "Slip (finite blades)", pump::SLIP_OPTIONS, "none", SLIP_HELP)
+        },
+        FieldSpec {
+            visible_when: Some(("slip", &["wiesner", "stodola"])),
+            ..quantity(
+                "blades",
+                "Number of blades Z",
+                Q::Ratio,
+                "-",
+                "-",
+                "7",
+                Limits::closed(2.0, pump::MAX_BLADES),
+                BLADES_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: pump,
+            optional: true,
+            ..choice(
+                "suction",
+                "Suction pressure",
+                pump::SUCTION_OPTIONS,
+                "none",
+                SUCTION_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: gauge,
+            ..quantity(
+                "p_suction",
+                "Suction gauge pressure",
+                Q::Pressure,
+                "kPa",
+                "psi",
+                "",
+                Limits::closed(-crate::units::STANDARD_ATMOSPHERE, common::MAX_PRESSURE_PA),
+                P_SUCTION_HELP,
+            )
+        },
+        suction(
+            "p_atm",
+            "Local atmospheric pressure (absolute)",
+            Q::Pressure,
+            "kPa",
+            "psi",
+            Limits::closed(30e3, 110e3),
+            P_ATM_HELP,
+        ),
+        suction(
+            "z_suction",
+            "Height of the suction reading above the eye",
+            Q::Length,
+            "m",
+            "ft",
+            Limits::closed(-100.0, 100.0),
+            Z_SUCTION_HELP,
+        ),
+        suction(
+            "d_suction",
+            "Suction bore at the reading",
+            Q::Length,
+            "mm",
+            "in",
+            SIZE_RANGE,
+            D_SUCTION_HELP,
+        ),
+        suction(
+            "p_vapour",
+            "Vapour pressure of the liquid (absolute)",
+            Q::Pressure,
+            "kPa",
+            "psi",
+            Limits::closed(0.0, 25e6),
+            P_VAPOUR_HELP,
+        ),
+    ]
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
@@ -448,6 +588,11 @@ mod tests {
             beta1: None,
             beta2: Angle::new::<degree>(30.0),
             head: None,
+            pump: pump::PumpInputs {
+                slip: None,
+                suction: None,
+            },
+            water_temperature: None,
         };
         let solved = model::solve(&inputs).expect("solves");
         let u2 = 1200.0 * 2.0 * PI / 60.0 * 0.15;
@@ -516,7 +661,9 @@ mod tests {
     fn checks_agree_and_efficiency_is_explained_when_not_applicable() {
         for machine in ["pump", "turbine"] {
             let s = solved(&[("machine", machine)]);
-            assert_eq!(s.checks.len(), 3, "{machine}");
+            // A pump adds the US specific speed (its demo has no slip or suction).
+            let extra = if machine == "pump" { 1 } else { 0 };
+            assert_eq!(s.checks.len(), 3 + extra, "{machine}");
             assert!(s.checks.iter().all(|c| c.agrees()), "{machine}: {:?}", s.checks);
         }
         // The demo pump's triangles run as a turbine give no positive Euler head:
@@ -527,5 +674,93 @@ mod tests {
             .warnings
             .iter()
             .any(|w| w.message.starts_with("Efficiency: not applicable")));
+    }
+
+    #[test]
+    fn slip_specific_speed_and_npsh_of_a_pump() {
+        use super::pump::{antoine_water, slip_factor, SlipModel};
+        // Wiesner inside his limit, and with his correction beyond it (r₁/r₂ = 0.9).
+        let beta2 = 25f64.to_radians();
+        let (inside, limit) = slip_factor(SlipModel::Wiesner, 7, beta2, 0.4);
+        assert_relative_eq!(inside, 1.0 - beta2.sin().sqrt() / 7f64.powf(0.7), max_relative = 1e-14);
+        assert_eq!(limit.map(|l| l.1), Some(false));
+        let (beyond, limit) = slip_factor(SlipModel::Wiesner, 7, beta2, 0.9);
+        let eps = (-8.16 * beta2.sin() / 7.0).exp();
+        let correction = 1.0 - ((0.9 - eps) / (1.0 - eps)).powi(3);
+        assert_relative_eq!(beyond, inside * correction, max_relative = 1e-14);
+        assert_eq!(limit.map(|l| l.1), Some(true));
+        assert_relative_eq!(
+            slip_factor(SlipModel::Stodola, 6, PI / 6.0, 0.4).0,
+            1.0 - PI / 12.0,
+            max_relative = 1e-14
+        );
+        // The Antoine path is within 0.2 % of IAPWS-IF97 over the liquid range.
+        for celsius in [0.01, 10.0, 30.0, 50.0, 70.0, 90.0, 99.9] {
+            let t = celsius + 273.15;
+            let ratio = antoine_water(t) / crate::fluid::water_saturation_pressure(t);
+            assert!((ratio - 1.0).abs() < 2e-3, "{celsius} degC: {ratio}");
+        }
+        // A pump with slip and a suction reading shows all three, every check agreeing.
+        let s = solved(&[
+            ("machine", "pump"),
+            ("slip", "wiesner"),
+            ("blades", "7"),
+            ("suction", "gauge"),
+            ("p_suction", "20 kPa"),
+        ]);
+        for key in ["slip_factor", "head_slip", "specific_speed_us", "npsh_available"] {
+            assert!(s.output(key).is_some(), "{key}");
+        }
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+        assert!(s.tables.iter().any(|t| t.key == "pump"));
+        // A turbine shows none of them.
+        let t = solved(&[("machine", "turbine")]);
+        assert!(t.output("slip_factor").is_none() && t.output("npsh_available").is_none());
+        // A pump whose suction boils, a fractional blade count, a vacuum below zero.
+        let boiling = solved(&[
+            ("machine", "pump"),
+            ("suction", "gauge"),
+            ("p_suction", "-95 kPa"),
+            ("t", "90 degC"),
+        ]);
+        assert!(solved(&[("machine", "pump")]).output("npsh_available").is_none());
+        assert!(boiling.output("npsh_available").is_some_and(|o| o.si < 0.0));
+        assert!(boiling.warnings.iter().any(|w| w.message.contains("boils at the eye")));
+        assert_eq!(
+            error_field(&[("machine", "pump"), ("slip", "stodola"), ("blades", "6.5")]),
+            "blades"
+        );
+        assert_eq!(
+            error_field(&[
+                ("machine", "pump"),
+                ("suction", "gauge"),
+                ("p_suction", "-100 kPa"),
+                ("p_atm", "90 kPa"),
+            ]),
+            "p_suction"
+        );
+        // Another liquid without a vapour pressure: no NPSH, and the page says why.
+        let custom = solved(&[
+            ("machine", "pump"),
+            ("suction", "gauge"),
+            ("p_suction", "20 kPa"),
+            ("fluid", "custom"),
+            ("rho", "1000 kg/m3"),
+            ("mu", "1 mPa.s"),
+        ]);
+        assert!(custom.output("npsh_available").is_none());
+        assert!(custom.warnings.iter().any(|w| w.field.as_deref() == Some("p_vapour")));
+        // An axial pump gets no slip, and is told so.
+        let axial = solved(&[
+            ("machine", "pump"),
+            ("slip", "wiesner"),
+            ("blades", "7"),
+            ("layout", "axial"),
+            ("r_mean", "150 mm"),
+            ("a1", "0.05 m2"),
+            ("a2", "0.05 m2"),
+        ]);
+        assert!(axial.output("slip_factor").is_none());
+        assert!(axial.warnings.iter().any(|w| w.message.contains("radial impellers")));
     }
 }

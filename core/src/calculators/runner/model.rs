@@ -5,7 +5,7 @@
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Angle, AngularVelocity, Area, Length, VolumeRate};
+use uom::si::f64::{Angle, AngularVelocity, Area, Length, ThermodynamicTemperature, VolumeRate};
 
 use crate::catalog::{FromSi, Values};
 use crate::engine::{self, si, Balance, ControlVolume, EngineError, Port, Stream};
@@ -14,6 +14,7 @@ use crate::fluid::Fluid;
 use crate::units::{self, QuantityKind as Q, STANDARD_GRAVITY};
 use crate::vector::{Direction, Vec3};
 
+use super::pump::{self, PumpInputs, PumpSolved};
 use super::{MAX_BLADE_SPEED, RESIDUE};
 use crate::calculators::common;
 
@@ -49,6 +50,10 @@ pub struct Inputs {
     pub beta2: Angle,
     /// Net head, for the hydraulic efficiency.
     pub head: Option<Length>,
+    /// A pump's slip correlation and suction (none for a turbine).
+    pub pump: PumpInputs,
+    /// The water's temperature, when the fluid is water from its temperature.
+    pub water_temperature: Option<ThermodynamicTemperature>,
 }
 
 /// Turbine or pump.
@@ -264,7 +269,18 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
             ),
         ));
     }
+    let pump = pump::read(values, machine).unwrap_or_else(|e| {
+        for error in Vec::from(e) {
+            errors.push(error);
+        }
+        PumpInputs {
+            slip: None,
+            suction: None,
+        }
+    });
     errors.or_ok(Inputs {
+        pump,
+        water_temperature: pump::water_temperature(values).map(ThermodynamicTemperature::from_si),
         machine,
         stations,
         fluid,
@@ -296,6 +312,10 @@ pub struct Solved {
     pub pressure_rise: f64,
     /// (flow, Euler head) from a little above zero to 1.6 × the flow.
     pub curve: Vec<[f64; 2]>,
+    /// A pump's slip, specific speed and NPSH available.
+    pub pump: PumpSolved,
+    /// The water's temperature, K, when the fluid is water from its temperature.
+    pub water_temperature: Option<f64>,
 }
 
 /// Solves the runner's triangles and balances.
@@ -332,7 +352,18 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         })
         .collect::<Result<Vec<[f64; 2]>, EngineError>>()
         .map_err(fail)?;
+    let pump = pump::solve(
+        &inputs.pump,
+        &runner,
+        &t1,
+        &t2,
+        euler_head,
+        inputs.head.map(|h| h.value),
+    )
+    .map_err(fail)?;
     Ok(Solved {
+        pump,
+        water_temperature: inputs.water_temperature.map(|t| t.value),
         head: inputs.head.map(|h| h.value),
         runner,
         inlet: t1,

@@ -112,6 +112,7 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
         .solution
         .tables
         .push(ledger(balance, *water_torque, euler_head, system));
+    super::pump::write(&solved.pump, runner, solved.water_temperature, report);
     let drawing = super::diagram::draw(t1, t2, report);
     report.solution.diagrams.push(drawing);
     let plot = head_plot(solved, report);

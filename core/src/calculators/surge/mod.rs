@@ -3,7 +3,7 @@
 //! between two elbows.
 //!
 //! # Method
-//! 1. **Wave speed** a, typed (`wave_speed`) or computed as the thrust-restraint
+//! 1. **Wave speed** a, typed (`wave_given` = typed, `wave_speed`) or computed as the thrust-restraint
 //!    page does ([`crate::restraint::pressure::wave_speed`]; Wylie & Streeter,
 //!    *Fluid Transients in Systems*, 1993, eq. 2.21; Chaudhry, *Applied Hydraulic
 //!    Transients*, 3rd ed., eq. 2.19 — forms from memory):
@@ -33,7 +33,7 @@
 //!    liquid in the run, ρ·A·L_run·ΔV (impulse–momentum, an independent path).
 //!
 //! # Field keys
-//! `size`, `d`, `od`, `joint`, `wave_speed` (empty: computed), `material`,
+//! `size`, `d`, `od`, `joint`, `wave_given` (computed or typed), `wave_speed`, `material`,
 //! `e_pipe`, `wall`, `anchoring`, `bulk_modulus`; `fluid`, `t`, `rho`, `mu`; `dv`
 //! (the velocity stopped) or `q` (the flow stopped, ΔV = Q/A on the bore), `length`
 //! (to the reflecting boundary), `closure_time`, `p` (working pressure, gauge),
@@ -60,8 +60,6 @@ pub mod report;
 
 pub const KEY: &str = "surge";
 
-const WAVE_HELP: &str = "A measured or published wave speed. Empty: computed from the pipe wall, its material and \
-    axial restraint, and the liquid's bulk modulus, as the thrust-restraint page does.";
 const LENGTH_HELP: &str = "Pipe length from the closing valve to the reflecting boundary (a reservoir, a tank or a \
     large main at constant head). Sets the round trip 2L/a.";
 const CLOSURE_HELP: &str = "Effective closure time of the valve. Faster than 2L/a: the full Joukowsky rise. Slower: \
@@ -131,20 +129,8 @@ pub fn spec() -> CalculatorSpec {
             Joint::Flanged.key(),
             JOINT_HELP,
         ),
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "wave_speed",
-                "Wave speed (typed)",
-                Q::Velocity,
-                "m/s",
-                "ft/s",
-                "",
-                Limits::closed(10.0, 2000.0),
-                WAVE_HELP,
-            )
-        },
     ];
+    fields.extend(common::wave_given_fields(None));
     fields.extend(common::wave_speed_fields(None, computed, MATERIAL_HELP));
     fields.extend(common::fluid_fields("15 degC"));
     fields.extend([
@@ -353,6 +339,7 @@ mod tests {
             ("fluid", "custom"),
             ("rho", "1000 kg/m3"),
             ("mu", "1 mPa.s"),
+            ("wave_given", "typed"),
             ("wave_speed", "1000 m/s"),
             ("dv", "2 m/s"),
             ("length", "1000 m"),
@@ -371,6 +358,7 @@ mod tests {
             ("fluid", "custom"),
             ("rho", "1000 kg/m3"),
             ("mu", "1 mPa.s"),
+            ("wave_given", "typed"),
             ("wave_speed", "1000 m/s"),
             ("dv", "2 m/s"),
             ("length", "1000 m"),
@@ -394,6 +382,7 @@ mod tests {
             ("d", "200 mm"),
             ("od", "220 mm"),
             ("joint", "flanged"),
+            ("wave_given", "typed"),
             ("wave_speed", "1000 m/s"),
             ("dv", "1 m/s"),
             ("run_length", "100 m"),
@@ -431,6 +420,7 @@ mod tests {
             ("size", "custom"),
             ("d", "200 mm"),
             ("od", "220 mm"),
+            ("wave_given", "typed"),
             ("wave_speed", "1000 m/s"),
             ("dv", ""),
             ("q", "360 m3/h"),

@@ -10,16 +10,9 @@ use crate::fluid::Fluid;
 use crate::restraint::pressure;
 use crate::restraint::{diameters, Diameters, Joint};
 
-use super::super::common::{self, read_elastic, Elastic};
+use super::super::common;
 
-/// How the wave speed is found.
-#[derive(Clone, Debug, PartialEq)]
-pub enum WaveGiven {
-    /// Typed by the user (a measured or published value).
-    Typed(Velocity),
-    /// From the pipe's elasticity and the liquid's bulk modulus.
-    Computed(Elastic),
-}
+pub use crate::calculators::common::WaveGiven;
 
 /// The page's inputs, read once.
 #[derive(Clone, Debug, PartialEq)]
@@ -55,10 +48,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     let pipe = diameters(&size_key, typed_id, typed_od, ("size", "d", "od"))?;
     let joint = Joint::from_key(values.choice("joint")?)
         .ok_or_else(|| FieldError::inconsistent("joint", "choose the joints at the closing valve"))?;
-    let wave = match values.typed_opt::<Velocity>("wave_speed") {
-        Some(a) => WaveGiven::Typed(a),
-        None => WaveGiven::Computed(read_elastic(values, pipe, &size_key)?),
-    };
+    let wave = common::read_wave(values, pipe, &size_key)?;
     let fluid = common::fluid_from(values)?;
     Ok(Inputs {
         size_key,
@@ -171,25 +161,7 @@ pub fn slow_closure(density: f64, length: f64, dv: f64, closure_time: f64) -> f6
 /// The pure model.
 pub fn solve(inputs: &Inputs) -> Solved {
     let rho = inputs.fluid.density;
-    let (wave_speed, wave_source) = match &inputs.wave {
-        WaveGiven::Typed(a) => (a.value, "typed".to_string()),
-        WaveGiven::Computed(e) => (
-            pressure::wave_speed(
-                e.bulk_modulus.value,
-                rho,
-                inputs.pipe.id,
-                e.wall.value,
-                e.e_modulus.value,
-                e.anchoring.c1(e.poisson),
-            ),
-            format!(
-                "computed: a = √((K/ρ)/(1 + c₁·K·D/(E·e))), {}; c₁ = {:.3} ({})",
-                e.material_source,
-                e.anchoring.c1(e.poisson),
-                e.anchoring.label()
-            ),
-        ),
-    };
+    let (wave_speed, wave_source) = inputs.wave.speed(rho, inputs.pipe.id);
     let (dv, length, tc) = (inputs.dv.value, inputs.length.value, inputs.closure_time.value);
     let round_trip = 2.0 * length / wave_speed;
     let jouk = joukowsky(rho, wave_speed, dv);

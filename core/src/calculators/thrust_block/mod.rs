@@ -410,6 +410,7 @@ pub fn spec() -> CalculatorSpec {
     let surge_shown: ShownWhen = Some(("p_basis", &["test", "surge", "highest"]));
     const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material \
         of the size preset (a PVC size gets PVC).";
+    fields.extend(common::wave_given_fields(surge_shown));
     fields.extend(common::wave_speed_fields(surge_shown, surge_shown, MATERIAL_HELP));
     // The fluid sets the density of a fitting's balance and surge; a given thrust
     // needs none of it.

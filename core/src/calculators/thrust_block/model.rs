@@ -14,7 +14,7 @@ use crate::error::{FieldError, FieldErrors};
 use crate::fluid::Fluid;
 use crate::pipe_sizes;
 use crate::restraint::block::{self, Block, BlockDims, FaceGiven, GravityBlock};
-use crate::restraint::pressure::{self, Anchoring, PressureBasis, TestRule};
+use crate::restraint::pressure::{self, PressureBasis, TestRule};
 use crate::restraint::soil::{self, SoilPreset, FRICTION_SOURCE, MAX_TYPED_BEARING, MIN_TYPED_BEARING};
 use crate::restraint::{
     self, diameters, Diameters, FittingChoice, FittingKind, Joint, Legs, Plane, SizeMismatch, StaticFitting,
@@ -96,14 +96,8 @@ pub enum TestGiven {
 #[derive(Clone, Debug)]
 pub struct SurgeInputs {
     pub dv: Velocity,
-    /// Young's modulus of the wall.
-    pub e_modulus: Pressure,
-    pub poisson: f64,
-    /// Where E and ν come from.
-    pub material_source: String,
-    pub wall: Length,
-    pub anchoring: Anchoring,
-    pub bulk_modulus: Pressure,
+    /// The wave speed: typed, or computed from the wall and the liquid.
+    pub wave: common::WaveGiven,
 }
 
 /// The block's inputs.
@@ -272,17 +266,11 @@ fn read_elevations(values: &Values) -> Result<Option<Elevations>, FieldError> {
 }
 
 fn read_surge(values: &Values, main: Diameters, size_key: &str) -> Result<SurgeInputs, FieldErrors> {
-    let elastic = common::read_elastic(values, main, size_key)?;
     Ok(SurgeInputs {
         dv: values
             .typed_opt("dv")
             .unwrap_or(Velocity::new::<uom::si::velocity::meter_per_second>(0.0)),
-        e_modulus: elastic.e_modulus,
-        poisson: elastic.poisson,
-        material_source: elastic.material_source,
-        wall: elastic.wall,
-        anchoring: elastic.anchoring,
-        bulk_modulus: elastic.bulk_modulus,
+        wave: common::read_wave(values, main, size_key)?,
     })
 }
 
@@ -413,20 +401,15 @@ pub struct Surge {
 pub fn design_pressure(pi: &PressureInputs, main: Diameters, fluid: &Fluid) -> Pressures {
     let work = pi.work.value;
     let surge = pi.surge.as_ref().map(|s| {
-        let c1 = s.anchoring.c1(s.poisson);
-        let a = pressure::wave_speed(
-            s.bulk_modulus.value,
-            fluid.density,
-            main.id,
-            s.wall.value,
-            s.e_modulus.value,
-            c1,
-        );
+        let (a, source) = match &s.wave {
+            common::WaveGiven::Typed(a) => (a.value, "wave speed typed".to_string()),
+            common::WaveGiven::Computed(e) => (s.wave.speed(fluid.density, main.id).0, e.material_source.clone()),
+        };
         Surge {
             wave_speed: a,
             dp: pressure::joukowsky(fluid.density, a, s.dv.value),
             dv: s.dv.value,
-            source: s.material_source.clone(),
+            source,
         }
     });
     let mut mdp = None;

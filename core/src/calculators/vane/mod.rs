@@ -31,6 +31,11 @@
 //! balances at each blade speed, and the optimum speeds are found by searching those
 //! balances, not from the formulas. An energy table lists where the jet's power goes.
 //!
+//! For a wheel with a pitch diameter D (the circle the jet's centre line touches) the
+//! rotational speed is ω = 2u/D (n = 60u/(πD) rpm), the best speed ω = V/D, and z
+//! identical jets give z times one jet's flow and power (the jets are taken not to
+//! interfere). The searched best speed in rpm is checked against ω = V/D.
+//!
 //! The checks table ([`Report::check`]) compares the force along the jet with
 //! ṁ·W₁·(1 − k·cos θ) written by hand, the power F_x·u with the energy balance (jet
 //! flux − kinetic energy carried off − vane loss ṁ(1 − k²)W₁²/2 − the lengthening
@@ -59,7 +64,7 @@
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Ratio, Velocity};
+use uom::si::f64::{Length, Ratio, Velocity};
 
 use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
 use crate::error::{FieldError, FieldErrors};
@@ -71,7 +76,7 @@ mod diagram;
 pub mod model;
 mod report;
 
-use model::{Inputs, VaneKind};
+use model::{Inputs, VaneKind, Wheel};
 
 pub const KEY: &str = "vane";
 
@@ -92,6 +97,15 @@ const VANE_OPTIONS: &[ChoiceOption] = &[
 /// The smallest relative-velocity factor accepted: a vane that keeps less than 5 % of
 /// the relative speed is a brake, not a vane.
 const MIN_K: f64 = 0.05;
+/// The smallest pitch diameter accepted: 10 mm.
+const MIN_PITCH_M: f64 = 0.01;
+/// The most jets an impulse wheel of this page may have (six is the usual most on a
+/// vertical-shaft wheel).
+const MAX_JETS: f64 = 6.0;
+/// Jets larger than this fraction of the pitch diameter are warned about.
+const LARGEST_JET_RATIO: f64 = 1.0 / 6.0;
+const PITCH_HELP: &str = "Diameter of the circle the jet's centre line touches (the bucket circle). Gives the \
+    wheel's rotational speed from the blade speed, n = 60u/(πD). Empty: no speed in rpm.";
 
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
@@ -116,6 +130,35 @@ pub fn spec() -> CalculatorSpec {
                 Limits::closed(0.0, common::MAX_JET_SPEED),
                 "Speed of the vane along the jet, away from the nozzle. For a wheel: the bucket speed at the \
                         jet's line, ω·r. A single vane must move slower than the jet.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("vane", &["wheel"])),
+            optional: true,
+            ..quantity(
+                "d_pitch",
+                "Pitch diameter of the wheel",
+                Q::Length,
+                "mm",
+                "in",
+                "600 mm",
+                Limits::closed(MIN_PITCH_M, common::MAX_SIZE_M),
+                PITCH_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: Some(("vane", &["wheel"])),
+            optional: true,
+            ..quantity(
+                "jets",
+                "Number of jets on the wheel",
+                Q::Ratio,
+                "-",
+                "-",
+                "1",
+                Limits::closed(1.0, MAX_JETS),
+                "Whole number of identical jets round the wheel, 1 to 6 (empty means 1). Each jet is the jet \
+                        described below.",
             )
         },
         quantity(
@@ -208,6 +251,11 @@ pub fn spec() -> CalculatorSpec {
             ),
             OutputSpec::listed("power_best_wheel", "Wheel: peak power", Q::Power),
             OutputSpec::listed("efficiency_best_wheel", "Wheel: peak efficiency", Q::Ratio),
+            OutputSpec::listed("speed", "Wheel speed at the blade speed, n = 60u/(πD)", Q::AngularSpeed),
+            OutputSpec::listed("speed_best", "Wheel speed of peak power (searched)", Q::AngularSpeed),
+            OutputSpec::listed("power_per_jet", "Power per jet at the blade speed", Q::Power),
+            OutputSpec::listed("power_all_jets", "Power of the wheel, all jets", Q::Power),
+            OutputSpec::listed("flow_all_jets", "Flow of all jets", Q::VolumeFlow),
             OutputSpec::listed("density", "Fluid density", Q::Density),
         ],
         cautions: vec![
@@ -252,6 +300,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
             )
         })?,
     };
+    let wheel = match mode {
+        VaneKind::Wheel => read_wheel(values, jet.diameter)?,
+        VaneKind::Fixed | VaneKind::Single => None,
+    };
     Ok(Inputs {
         kind: mode,
         angle,
@@ -260,7 +312,37 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         jet_given,
         jet,
         fluid,
+        wheel,
     })
+}
+
+/// The wheel's pitch diameter and number of jets, when the pitch diameter is given.
+///
+/// # Errors
+/// A fractional number of jets, or a pitch diameter not larger than the jet.
+fn read_wheel(values: &Values, jet_diameter: Length) -> Result<Option<Wheel>, FieldErrors> {
+    let jets = values.quantity_or("jets", 1.0);
+    if jets.fract() != 0.0 {
+        return Err(FieldError::inconsistent(
+            "jets",
+            format!("the number of jets must be a whole number from 1 to {MAX_JETS}"),
+        )
+        .into());
+    }
+    let Some(pitch_diameter) = values.typed_opt::<Length>("d_pitch") else {
+        return Ok(None);
+    };
+    if pitch_diameter <= jet_diameter {
+        return Err(FieldError::inconsistent(
+            "d_pitch",
+            "the pitch diameter must be larger than the jet diameter (the jet strikes buckets on the pitch circle)",
+        )
+        .into());
+    }
+    Ok(Some(Wheel {
+        pitch_diameter,
+        jets: jets as usize,
+    }))
 }
 
 pub fn compute(values: &Values, report: &mut Report<'_>) -> Result<(), Vec<FieldError>> {
@@ -459,6 +541,44 @@ mod tests {
         ]));
         let q = jet().flow.value;
         assert_relative_eq!(out(&s, "force_x"), 2.0 * 1000.0 * q * 30.0, max_relative = 1e-12);
+    }
+
+    #[test]
+    fn a_wheel_s_pitch_diameter_gives_its_speed_and_jets_multiply_power_and_flow() {
+        let wheel = with(&[
+            ("vane", "wheel"),
+            ("u", "12 m/s"),
+            ("angle", "165 deg"),
+            ("d_pitch", "800 mm"),
+            ("jets", "3"),
+        ]);
+        let s = solved(&wheel);
+        // n = 60u/(πD): 12 m/s on a 0.8 m circle is 30 rad/s; best at V/D = 37.5 rad/s.
+        assert_relative_eq!(out(&s, "speed"), 30.0, max_relative = 1e-12);
+        assert_relative_eq!(out(&s, "speed_best"), 37.5, max_relative = 1e-6);
+        assert_relative_eq!(out(&s, "power_all_jets"), 3.0 * out(&s, "power"), max_relative = 1e-12);
+        assert_relative_eq!(out(&s, "flow_all_jets"), 3.0 * jet().flow.value, max_relative = 1e-12);
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+        // A fractional number of jets, or a pitch circle inside the jet, is refused.
+        let mut bad = wheel.clone();
+        bad.push(("jets", "2.5"));
+        assert_eq!(first_error(&bad).0, "jets");
+        let mut bad = wheel.clone();
+        bad.push(("d_pitch", "40 mm"));
+        assert_eq!(first_error(&bad).0, "d_pitch");
+        // A jet over a sixth of the pitch diameter is warned about.
+        let mut tight = wheel.clone();
+        tight.push(("d_pitch", "250 mm"));
+        assert!(solved(&tight).warnings.iter().any(|w| w.message.contains("a sixth")));
+        // Without a pitch diameter there is no speed in rpm; a single vane has none.
+        let mut none = wheel.clone();
+        none.push(("d_pitch", ""));
+        assert!(solved(&none).output("speed").is_none());
+        assert!(
+            solved(&with(&[("vane", "single"), ("u", "12 m/s"), ("d_pitch", "800 mm")]))
+                .output("speed")
+                .is_none()
+        );
     }
 
     #[test]

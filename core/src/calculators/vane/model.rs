@@ -3,7 +3,7 @@
 //! a fixed vane or a wheel), the searched optimum speeds, and the balances at each
 //! plotted blade speed. Nothing here reads a field or formats a number.
 
-use uom::si::f64::{Angle, Ratio, Velocity};
+use uom::si::f64::{Angle, Length, Ratio, Velocity};
 
 use crate::engine::{self, si, Balance, ControlVolume, EngineError, Frame, Loss, Port, Stream, StreamUnknown};
 use crate::error::FieldErrors;
@@ -32,6 +32,25 @@ pub struct Inputs {
     /// The free jet it gives (typed), range-checked by [`common::jet_from`].
     pub jet: Jet,
     pub fluid: Fluid,
+    /// For a wheel whose pitch diameter is given: the wheel's size and jets.
+    pub wheel: Option<Wheel>,
+}
+
+/// An impulse wheel's pitch circle and jets (each jet is the page's jet).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Wheel {
+    /// Diameter of the circle the jet's centre line touches.
+    pub pitch_diameter: Length,
+    /// Number of identical jets.
+    pub jets: usize,
+}
+
+impl Wheel {
+    /// Rotational speed (rad/s) at which the buckets on the pitch circle move at
+    /// `u` (m/s): ω = 2u/D.
+    pub fn omega(&self, u: f64) -> f64 {
+        2.0 * u / self.pitch_diameter.value
+    }
 }
 
 impl Inputs {

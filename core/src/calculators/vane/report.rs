@@ -11,6 +11,7 @@ use crate::vector::Vec3;
 
 use super::super::common::{self, Jet, JetGiven};
 use super::model::{CurvePoint, Inputs, Refusal, Solved, Vane, VaneKind, VaneState};
+use super::LARGEST_JET_RATIO;
 
 /// The field errors of a refusal, with speeds in the report's units.
 pub fn refusal(refusal: Refusal, report: &Report<'_>) -> Vec<FieldError> {
@@ -111,6 +112,22 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("power_best_wheel", best_wheel.power);
     report.output("efficiency_best_wheel", best_wheel.efficiency);
     report.output("density", rho);
+    if let Some(wheel) = inputs.wheel {
+        let jets = wheel.jets as f64;
+        report.output("speed", wheel.omega(u));
+        report.output("speed_best", wheel.omega(best_wheel.u));
+        report.output("power_per_jet", state.power);
+        report.output("power_all_jets", jets * state.power);
+        report.output("flow_all_jets", jets * jet.flow.value);
+        if jet.diameter.value > LARGEST_JET_RATIO * wheel.pitch_diameter.value {
+            report.warn(
+                Some("d_pitch"),
+                "the jet is larger than a sixth of the pitch diameter: buckets that size interfere with each \
+                        other and the wheel loses more than this balance shows (usual practice keeps the pitch \
+                        diameter at least 6 to 10 jet diameters)",
+            );
+        }
+    }
 
     independent_checks(report, inputs, solved);
 
@@ -219,6 +236,18 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
         1e-8,
         0.0,
     );
+    if let Some(wheel) = inputs.wheel {
+        // Power ∝ (V − u)·u peaks at u = V/2, so ω = 2u/D = V/D whatever k and θ.
+        report.check(
+            "Wheel: speed of peak power (searched)",
+            "closed form ω = V/D (buckets at half the jet speed)",
+            Q::AngularSpeed,
+            wheel.omega(best_wheel.u),
+            v / wheel.pitch_diameter.value,
+            1e-6,
+            0.0,
+        );
+    }
 }
 
 fn fmt_in(value: f64, kind: Q, unit: &str) -> String {
@@ -349,7 +378,7 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
                     whole jet"
         }
     };
-    common::basis_table(vec![
+    let mut rows = vec![
         ("Jet speed", how),
         ("Control volume", frame.to_string()),
         (
@@ -370,7 +399,19 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
                     opposite"
                 .to_string(),
         ),
-    ])
+    ];
+    if let Some(wheel) = inputs.wheel {
+        rows.push((
+            "Wheel",
+            format!(
+                "pitch diameter D = {}, {} jet(s), each the jet above; speed n = 60u/(πD); power and flow of \
+                        the wheel = jets × one jet's",
+                report.fmt(wheel.pitch_diameter.value, Q::Length),
+                wheel.jets
+            ),
+        ));
+    }
+    common::basis_table(rows)
 }
 
 /// Power and efficiency against blade speed, from the balances of the solved curves.
