@@ -1,5 +1,5 @@
-//! The anchor's two orthographic views, to scale: a plan (x east, y north) and an
-//! elevation looking north (x east, z up), each with the runs, what lies at their far
+//! The anchor's two orthographic views in one drawing, to scale: a plan (x east, y
+//! north) and beside it an elevation looking north (x east, z up), each with the runs, what lies at their far
 //! ends, the anchor and the force on it projected into the view.
 
 use crate::catalog::{Diagram, Report, Shape, ShapeStyle};
@@ -19,24 +19,83 @@ struct View {
 
 const PLAN: View = View {
     title: "Plan (x east, y north)",
-    caption: "Plan, to scale: pipes at their outside diameter (sloped runs foreshortened); the arrow is the \
-        horizontal part of the force on the anchor, not to the length scale.",
+    caption: "Plan (left), to scale: pipes at their outside diameter, sloped runs foreshortened; its arrow is \
+        the horizontal force on the anchor, not to the length scale.",
     project: |v| [v.x, v.y],
 };
 
 const ELEVATION: View = View {
     title: "Elevation looking north (x east, z up)",
-    caption: "Elevation looking north, to scale: runs heading north or south are foreshortened; the arrow is the \
-        east and vertical part of the force on the anchor, not to the length scale.",
+    caption: "Elevation looking north (right), same scale: its arrow is the east and vertical force.",
     project: |v| [v.x, v.z],
 };
 
-/// Both views of the solved anchor.
+const CAPTION: &str = "To scale: plan (left) and elevation looking north (right), pipes at their outside \
+    diameter; each arrow is the force on the anchor in its view, not to the length scale.";
+
+/// Both views of the solved anchor, side by side in one drawing: the plan on the
+/// left, the elevation to its right on the same scale.
 pub fn views(inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Vec<Diagram> {
-    [PLAN, ELEVATION]
-        .iter()
-        .map(|view| draw(*view, inputs, solved, report))
-        .collect()
+    let plan = draw(PLAN, inputs, solved, report);
+    let elevation = draw(ELEVATION, inputs, solved, report);
+    let gap = 0.1 * (plan.bounds[2] - plan.bounds[0]).max(elevation.bounds[2] - elevation.bounds[0]);
+    let dx = plan.bounds[2] - elevation.bounds[0] + gap;
+    let mut shapes = plan.shapes;
+    let top = plan.bounds[3].max(elevation.bounds[3]);
+    shapes.push(Shape::Text {
+        at: [plan.bounds[0], top],
+        text: PLAN.title.to_string(),
+        style: ShapeStyle::Label,
+    });
+    shapes.push(Shape::Text {
+        at: [elevation.bounds[0] + dx, top],
+        text: ELEVATION.title.to_string(),
+        style: ShapeStyle::Label,
+    });
+    shapes.extend(elevation.shapes.into_iter().map(|shape| shifted(shape, dx)));
+    let bounds = [
+        plan.bounds[0],
+        plan.bounds[1].min(elevation.bounds[1]),
+        elevation.bounds[2] + dx,
+        top + 0.05 * (top - plan.bounds[1].min(elevation.bounds[1])),
+    ];
+    vec![Diagram {
+        title: "Plan and elevation of the anchor".to_string(),
+        bounds,
+        shapes,
+        caption: CAPTION.to_string(),
+    }]
+}
+
+/// A shape moved `dx` to the right.
+fn shifted(shape: Shape, dx: f64) -> Shape {
+    let move_point = |p: [f64; 2]| [p[0] + dx, p[1]];
+    match shape {
+        Shape::Polygon { points, style } => Shape::Polygon {
+            points: points.into_iter().map(move_point).collect(),
+            style,
+        },
+        Shape::Polyline { points, style } => Shape::Polyline {
+            points: points.into_iter().map(move_point).collect(),
+            style,
+        },
+        Shape::Circle { center, radius, style } => Shape::Circle {
+            center: move_point(center),
+            radius,
+            style,
+        },
+        Shape::Arrow { from, to, label, style } => Shape::Arrow {
+            from: move_point(from),
+            to: move_point(to),
+            label,
+            style,
+        },
+        Shape::Text { at, text, style } => Shape::Text {
+            at: move_point(at),
+            text,
+            style,
+        },
+    }
 }
 
 fn draw(view: View, inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Diagram {

@@ -43,13 +43,14 @@
 //! it); a closed end carries none (its flow field is hidden).
 //!
 //! # Checks
-//! Shown in the checks table ([`Report::check`]): each force component against the
+//! Shown in the checks table ([`Report::check`]): the force vector against the
 //! closed-form sum of the per-run terms above written from the inputs (net along each
-//! run: 0 for an elbow, a closed end or a support before friction, −(p·A_eff + ṁV)·û
-//! for a bellows), not from the engine's ports; the moment against the closed form
-//! Σ c_i·L_i·W_i·(−u_y, u_x, 0); the moment against a second balance taken about the
-//! end of run 1 and carried back to the anchor (M_O = M_O′ + (O′ − O)×R); and the
-//! solved flow against the typed ones.
+//! run: 0 for an elbow or a closed end, friction at a support, −(p·A_eff + ṁV)·û ∓ F_s
+//! for a bellows, and each weight's share), not from the engine's ports; the moment
+//! vector against the closed form Σ c_i·L_i·W_i·(−u_y, u_x, 0) (both compared whole,
+//! |difference| against 0, so that a wrong sign in any component shows); the moment
+//! against a second balance taken about the far end of run 1 and carried back to the
+//! anchor (M_O = M_O′ + (O′ − O)×R); and run 1's flow against the typed ones.
 //!
 //! # Assumptions
 //! A load estimate, not a stress analysis: steady, incompressible flow at one
@@ -103,30 +104,30 @@ const RUN_COUNT_OPTIONS: &[ChoiceOption] = &[
 pub(crate) const END_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "elbow",
-        label: "Elbow, the leg beyond restrained in its own direction",
+        label: "Elbow (leg beyond restrained)",
     },
     ChoiceOption {
         key: "bellows",
-        label: "Bellows or expansion joint without tie rods",
+        label: "Untied bellows or expansion joint",
     },
     ChoiceOption {
         key: "closed",
-        label: "Closed end (cap or blind flange)",
+        label: "Cap or blind flange",
     },
     ChoiceOption {
         key: "support",
-        label: "Sliding support; the pipe continues beyond it",
+        label: "Sliding support, pipe continues",
     },
 ];
 
 const MOVES_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "away",
-        label: "Away from the anchor (the run heats up and grows)",
+        label: "Away from the anchor (heating)",
     },
     ChoiceOption {
         key: "toward",
-        label: "Toward the anchor (the run cools and shrinks)",
+        label: "Toward the anchor (cooling)",
     },
 ];
 
@@ -157,7 +158,6 @@ pub struct RunKeys {
     pub(crate) moves: &'static str,
     pub(crate) mu: &'static str,
     pub(crate) w_pipe: &'static str,
-    pub(crate) v_out: &'static str,
     pub(crate) q_out: &'static str,
     pub(crate) labels: RunLabels,
     pub(crate) demo: RunDemo,
@@ -179,7 +179,6 @@ pub struct RunLabels {
     pub(crate) moves: &'static str,
     pub(crate) mu: &'static str,
     pub(crate) w_pipe: &'static str,
-    pub(crate) v_out: &'static str,
     pub(crate) q_out: &'static str,
 }
 
@@ -214,25 +213,23 @@ macro_rules! run_keys {
             moves: concat!("r", $n, "_moves"),
             mu: concat!("r", $n, "_friction"),
             w_pipe: concat!("r", $n, "_w_pipe"),
-            v_out: concat!("v_r", $n),
             q_out: concat!("q_r", $n),
             labels: RunLabels {
-                azimuth: concat!("Run ", $n, " bearing from the anchor"),
-                slope: concat!("Run ", $n, " slope above horizontal"),
+                azimuth: concat!("Run ", $n, " bearing"),
+                slope: concat!("Run ", $n, " slope"),
                 size: concat!("Run ", $n, " pipe size"),
                 d: concat!("Run ", $n, " inside diameter"),
                 od: concat!("Run ", $n, " outside diameter"),
-                p: concat!("Run ", $n, " gauge pressure (empty: the pressure above)"),
-                q: concat!("Run ", $n, " flow, positive away from the anchor (empty: none)"),
-                length: concat!("Run ", $n, " length from the anchor"),
-                end: concat!("Run ", $n, ": what lies at its far end"),
+                p: concat!("Run ", $n, " gauge pressure"),
+                q: concat!("Run ", $n, " flow (+ away from the anchor)"),
+                length: concat!("Run ", $n, " length"),
+                end: concat!("Run ", $n, " far end"),
                 a_eff: concat!("Run ", $n, " bellows effective area"),
                 f_spring: concat!("Run ", $n, " bellows spring force"),
-                moves: concat!("Run ", $n, ": which way its far end moves"),
+                moves: concat!("Run ", $n, " far end moves"),
                 mu: concat!("Run ", $n, " support friction coefficient"),
                 w_pipe: concat!("Run ", $n, " weight of the empty pipe"),
-                v_out: concat!("Mean velocity in run ", $n),
-                q_out: concat!("Flow in run ", $n, ", away from the anchor"),
+                q_out: concat!("Flow in run ", $n, " (found from the others)"),
             },
             demo: $demo,
         }
@@ -300,7 +297,8 @@ const SLOPE_HELP: &str = "Angle of the run above the horizontal going away from 
     straight down. Empty means level.";
 const SIZE_HELP: &str = "A preset gives both diameters and the wall (for the pipe's weight); choose typed diameters \
     for another pipe.";
-const P_RUN_HELP: &str = "Give it where a run's pressure differs from the one above (across a valve or a pump).";
+const P_RUN_HELP: &str = "Empty: the pressure above. Give it where a run's pressure differs (across a valve or a \
+    pump).";
 const Q_HELP: &str = "Volume flow, positive when it flows away from the anchor, negative when toward it; empty \
     means none. Run 1 takes what the others leave, so that the flows balance.";
 const LENGTH_HELP: &str = "From the anchor point to the elbow, bellows, closed end or support at the run's far end.";
@@ -323,7 +321,7 @@ pub fn spec() -> CalculatorSpec {
             "runs",
             "Pipe runs meeting at the anchor",
             RUN_COUNT_OPTIONS,
-            "4",
+            "2",
             "Up to four runs, each with its own direction, size, flow and far end.",
         ),
         quantity(
@@ -355,14 +353,10 @@ pub fn spec() -> CalculatorSpec {
         fields,
         outputs: outputs(),
         cautions: vec![
-            "This is a load estimate at one anchor, not a piping stress analysis: size anchors and supports of \
-                plant piping by an analysis to ASME B31.1 or B31.3 (or the code that governs the plant), checked by \
-                a licensed engineer.",
-            "A bellows or expansion joint without tie rods passes its full pressure thrust p·A_eff to the anchors \
-                on either side; a continuous welded pipe carries its own. Check which joints are tied before \
-                trusting a small anchor load.",
-            "Friction at guides and a joint's spring force reverse when the line heats up or cools down: size the \
-                anchor for both movements, and for the test pressure with the line cold.",
+            "A load estimate at one anchor, not a piping stress analysis: size plant pipe anchors by an \
+                analysis to ASME B31.1 or B31.3, checked by a licensed engineer.",
+            "Untied bellows pass their full pressure thrust; friction and springs reverse as the line heats or \
+                cools: size for both, and for the test pressure.",
         ],
     }
 }
@@ -552,11 +546,7 @@ fn outputs() -> Vec<OutputSpec> {
         ),
         OutputSpec::listed("weight", "Weight of pipe and contents on the anchor", Q::Force),
     ];
-    for run in &RUNS {
-        outputs.push(OutputSpec::listed(run.q_out, run.labels.q_out, Q::VolumeFlow));
-        outputs.push(OutputSpec::listed(run.v_out, run.labels.v_out, Q::Velocity));
-    }
-    outputs.push(OutputSpec::listed("density", "Fluid density", Q::Density));
+    outputs.push(OutputSpec::listed(RUNS[0].q_out, RUNS[0].labels.q_out, Q::VolumeFlow));
     outputs
 }
 

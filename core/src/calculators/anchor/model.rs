@@ -335,21 +335,17 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         let normal_part = weight_vec - u * weight_vec.dot(u);
         let mut support_load = 0.0;
         match run.end {
-            End::Elbow => add(
-                "elbow: thrust along the run, (p·A + ṁV)·û".to_string(),
-                u * (p * area + momentum),
-                end_point,
-            ),
-            End::Closed => add("closed end: p·A·û on the cap".to_string(), u * (p * area), end_point),
+            End::Elbow => add("elbow, +(pA + ṁV)û".to_string(), u * (p * area + momentum), end_point),
+            End::Closed => add("cap, +pAû".to_string(), u * (p * area), end_point),
             End::Bellows { effective_area, spring } => {
                 add(
-                    "bellows: pressure on its annulus, −p·(A_eff − A)·û".to_string(),
+                    "bellows annulus, −p(A_eff − A)û".to_string(),
                     u * (-p * (effective_area.value - area)),
                     end_point,
                 );
                 if spring.value > 0.0 {
                     add(
-                        "bellows: spring force against the movement".to_string(),
+                        "bellows spring".to_string(),
                         u * (-run.moves.sign() * spring.value),
                         end_point,
                     );
@@ -357,14 +353,14 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
             }
             End::Support { friction } => {
                 add(
-                    "pipe beyond the support: (p·A + ṁV)·û carried in its wall".to_string(),
+                    "wall beyond the support, +(pA + ṁV)û".to_string(),
                     u * (p * area + momentum),
                     end_point,
                 );
                 support_load = normal_part.norm();
                 if friction.value > 0.0 && support_load > 0.0 {
                     add(
-                        "support: friction μ·N against the movement".to_string(),
+                        "support friction, μN".to_string(),
                         u * (-run.moves.sign() * friction.value * support_load),
                         end_point,
                     );
@@ -372,17 +368,13 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
                 // Propped cantilever: the support carries 3/8 of the weight normal
                 // to the run.
                 add(
-                    "support: its reaction, 3/8 of the weight normal to the run".to_string(),
+                    "support reaction, −3/8 W⊥".to_string(),
                     normal_part * (-3.0 / 8.0),
                     end_point,
                 );
             }
         }
-        add(
-            "weight of pipe and contents, at mid-length".to_string(),
-            weight_vec,
-            u * (0.5 * length),
-        );
+        add("weight at mid-length".to_string(), weight_vec, u * (0.5 * length));
         runs.push(SolvedRun {
             direction: u,
             area,
