@@ -113,8 +113,8 @@ fn write_checks(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         // Anchor's share of the weight: all of it less k of its part normal to the run,
         // W(−ẑ) − k·W·(−ẑ + u_z·û).
         let share = Vec3::new(
-            k * weight * uz * ux,
-            k * weight * uz * uy,
+            -k * weight * uz * ux,
+            -k * weight * uz * uy,
             -weight + k * weight * (1.0 - uz * uz),
         );
         closed_force += u * along + share;
@@ -131,11 +131,19 @@ fn write_checks(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         1e-9,
         scale,
     );
-    let moment_scale: f64 = inputs
-        .runs
+    // Relative to every term's |r|·|F|: forces along a run pass through the anchor, but
+    // their r×F is zero only to rounding.
+    let moment_scale: f64 = solved
+        .terms
         .iter()
-        .zip(&solved.runs)
-        .map(|(r, s)| s.weight * r.length.value)
+        .map(|t| t.at.norm() * t.force.norm())
+        .chain(
+            solved
+                .balance
+                .ports
+                .iter()
+                .map(|p| p.position.norm() * (p.pressure_force.norm() + p.momentum_outflow.norm())),
+        )
         .sum();
     report.check(
         "Moment on the anchor: |M − M_closed|",
