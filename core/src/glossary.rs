@@ -289,6 +289,58 @@ pub const TERMS: &[Term] = &[
     term("b#_elev", "elevation angle of branch #"),
     term("b#_share", "share of the common flow in branch #"),
     term("b#_k", "loss coefficient K of branch #"),
+    // Pipe runs meeting at an above-ground anchor.
+    choice(
+        "runs",
+        "number of pipe runs meeting at an anchor",
+        &["1", "2", "3", "4"],
+    ),
+    term(
+        "r#_azimuth",
+        "compass bearing of run # leaving the anchor, clockwise from north",
+    ),
+    term(
+        "r#_slope",
+        "slope of run # above the horizontal, going away from the anchor",
+    ),
+    term(
+        "r#_size",
+        "pipe size preset of run # (a key of the pipe-size tables, or custom)",
+    ),
+    term("r#_d", "inside diameter of run #"),
+    term("r#_od", "outside diameter of run #"),
+    term(
+        "r#_p",
+        "gauge pressure in run #, where it differs from the page's pressure",
+    ),
+    term("r#_q", "volume flow in run #, positive away from the anchor"),
+    term(
+        "r#_length",
+        "length of run # from the anchor to what lies at its far end",
+    ),
+    choice(
+        "r#_end",
+        "what lies at the far end of run #",
+        &["elbow", "bellows", "closed", "support"],
+    ),
+    term(
+        "r#_a_eff",
+        "effective area of the bellows or expansion joint at the far end of run #",
+    ),
+    term(
+        "r#_f_spring",
+        "axial spring force of the bellows at the far end of run #",
+    ),
+    choice(
+        "r#_moves",
+        "which way the far end of run # moves along it",
+        &["away", "toward"],
+    ),
+    term(
+        "r#_friction",
+        "friction coefficient of the sliding support at the far end of run #",
+    ),
+    term("r#_w_pipe", "weight of the empty pipe of run # over its length"),
     // Jets, vanes and rotors.
     term("d_jet", "diameter of a free jet (nozzle outlet)"),
     term("d_nozzle", "outlet diameter of a nozzle"),

@@ -230,6 +230,7 @@ fuzz_tests! {
     reducer_is_robust => "reducer",
     dead_end_is_robust => "dead-end",
     tee_is_robust => "tee",
+    pipe_anchor_is_robust => "pipe-anchor",
     nozzle_is_robust => "nozzle",
     thrust_block_is_robust => "thrust-block",
     line_schedule_is_robust => "line-schedule",

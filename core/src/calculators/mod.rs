@@ -8,6 +8,7 @@
 use crate::catalog::{self, CalculatorSpec, FieldEcho, Report, Request, Solution, Values};
 use crate::error::{FieldError, SolveError};
 
+pub mod anchor;
 pub mod bend;
 pub mod common;
 pub mod dead_end;
@@ -77,6 +78,7 @@ pub const CALCULATORS: &[Calculator] = &[
     Calculator { key: reducer::KEY, spec: reducer::spec, compute: reducer::compute },
     Calculator { key: dead_end::KEY, spec: dead_end::spec, compute: dead_end::compute },
     Calculator { key: tee::KEY, spec: tee::spec, compute: tee::compute },
+    Calculator { key: anchor::KEY, spec: anchor::spec, compute: anchor::compute },
     Calculator { key: nozzle::KEY, spec: nozzle::spec, compute: nozzle::compute },
     Calculator { key: thrust_block::KEY, spec: thrust_block::spec, compute: thrust_block::compute },
     Calculator { key: restrained_length::KEY, spec: restrained_length::spec, compute: restrained_length::compute },
