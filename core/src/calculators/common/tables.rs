@@ -30,7 +30,14 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
     for p in &balance.ports {
         let role = if p.role == Role::Inlet { "in" } else { "out" };
         rows.push((format!("{} ({role}): pressure, p·A·n", p.name), -p.pressure_force));
-        rows.push((format!("{} ({role}): momentum flux, ±ṁβV", p.name), p.momentum_outflow));
+        rows.push((
+            format!(
+                "{} ({role}): momentum flux, ±ṁβV, β = {}",
+                p.name,
+                units::format_significant(p.beta, 4)
+            ),
+            p.momentum_outflow,
+        ));
     }
     if balance.fluid_weight.norm() > 0.0 {
         rows.push(("fluid inside: weight, −W".to_string(), -balance.fluid_weight));
