@@ -114,19 +114,26 @@ pub fn spec() -> CalculatorSpec {
                 "Leave empty for an equal-size bend; give it for a reducing bend.",
             )
         },
-        quantity(
-            "p",
-            "Gauge pressure at the inlet",
-            Q::Pressure,
-            "kPa",
-            "psi",
-            "10 bar",
-            Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge.",
-        ),
+        FieldSpec {
+            visible_when: common::P_AT_INLET,
+            ..quantity(
+                "p",
+                "Gauge pressure at the inlet",
+                Q::Pressure,
+                "kPa",
+                "psi",
+                "10 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The design pressure: the highest the line will see, including test pressure and surge.",
+            )
+        },
     ];
+    fields.extend(common::pressure_known_fields());
     fields.extend(common::flow_given_fields("850 m3/h"));
+    fields.extend(common::profile_fields(&common::INLET_PROFILE));
+    fields.extend(common::profile_fields(&common::OUTLET_PROFILE));
     fields.extend(common::fluid_fields("25 degC"));
+    fields.push(common::gravity_field());
     fields.extend([
         FieldSpec {
             optional: true,
@@ -188,6 +195,7 @@ pub fn spec() -> CalculatorSpec {
             "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the \
                 plane.",
         ),
+        common::weights_field(),
         FieldSpec {
             optional: true,
             ..quantity(
@@ -233,6 +241,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("thrust_x", "Thrust along the inlet flow (x)", Q::Force),
             OutputSpec::listed("thrust_y", "Thrust across it, in the plane (y)", Q::Force),
             OutputSpec::listed("thrust_z", "Thrust normal to the plane (z, up in plan view)", Q::Force),
+            OutputSpec::listed("p_in", "Gauge pressure at the inlet", Q::Pressure),
             OutputSpec::listed("p_out", "Gauge pressure at the outlet", Q::Pressure),
             OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
             OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),

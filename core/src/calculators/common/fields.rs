@@ -740,8 +740,9 @@ pub const P_KNOWN_OPTIONS: &[ChoiceOption] = &[
 pub const P_KNOWN: &str = "p_known";
 
 /// Where `p` (the inlet pressure) is shown: the pressure known at the inlet, or the
-/// choice left empty (old links).
-pub const P_AT_INLET: Option<(&str, &[&str])> = Some((P_KNOWN, &["", "inlet"]));
+/// choice left empty (old links: an empty optional choice reads as its demo,
+/// `inlet`; see [`crate::catalog::shown_when`]).
+pub const P_AT_INLET: Option<(&str, &[&str])> = Some((P_KNOWN, &["inlet"]));
 
 /// The choice of the port whose pressure is known (empty: the inlet, as old links
 /// read) and the outlet pressure `p2` shown when it is the outlet's.
