@@ -190,7 +190,16 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         Plane::Crest => "vertical, the line turning downward (a crest): fluid weight in the plane",
         Plane::Horizontal => "horizontal: fluid weight normal to the plane (carried by the bedding)",
     };
-    report.solution.tables.push(common::basis_table(vec![
+    let mut basis = common::balance_basis_rows(
+        &inputs.known,
+        &[
+            ("Velocity profile, inlet", &inputs.profile_in),
+            ("Velocity profile, outlet", &inputs.profile_out),
+        ],
+        inputs.weights,
+        g,
+    );
+    basis.extend(vec![
         (
             "Pressure area",
             match outside {
@@ -203,30 +212,12 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 None => "inside diameter (welded, flanged or fused joints only)".to_string(),
             },
         ),
-        ("Pressure", inputs.known.describe().to_string()),
-        ("Velocity profile, inlet", inputs.profile_in.describe()),
-        ("Velocity profile, outlet", inputs.profile_out.describe()),
-        (
-            "Weights",
-            if inputs.weights {
-                "fluid inside and fitting: included".to_string()
-            } else {
-                "fluid inside and fitting: neglected (pressure and momentum only)".to_string()
-            },
-        ),
-        (
-            "Gravity",
-            if (g - crate::units::STANDARD_GRAVITY).abs() > 1e-12 {
-                format!("{} (typed local value)", report.fmt(g, Q::Acceleration))
-            } else {
-                "standard, 9.80665 m/s²".to_string()
-            },
-        ),
         ("Direction of the thrust", direction.to_string()),
         ("Plane", plane_text.to_string()),
         ("Loss", loss),
         ("Fluid", fluid.name.clone()),
-    ]));
+    ]);
+    report.solution.tables.push(common::basis_table(basis));
     report.solution.tables.push(common::ledger_table(balance, system));
     report.solution.tables.push(common::ports_table(balance, system));
     let diagram = super::diagram::diagram(&geometry, balance, report);

@@ -903,3 +903,38 @@ pub fn gravity_field() -> FieldSpec {
 pub fn gravity_from(values: &Values) -> f64 {
     values.quantity_or("g_local", crate::units::STANDARD_GRAVITY)
 }
+
+/// The rows of a fitting's basis table that say how its balances were set up: the
+/// known pressure, the velocity profile (β, α and their source) at each port,
+/// whether the weights entered, and the gravity used (m/s²).
+pub fn balance_basis_rows(
+    known: &KnownPressure,
+    profiles: &[(&'static str, &PortProfile)],
+    weights: bool,
+    gravity: f64,
+) -> Vec<(&'static str, String)> {
+    let mut rows = vec![("Pressure", known.describe().to_string())];
+    for (label, profile) in profiles {
+        rows.push((label, profile.describe()));
+    }
+    rows.push((
+        "Weights",
+        if weights {
+            "fluid inside and fitting: included".to_string()
+        } else {
+            "fluid inside and fitting: neglected (pressure and momentum only)".to_string()
+        },
+    ));
+    rows.push((
+        "Gravity",
+        if (gravity - crate::units::STANDARD_GRAVITY).abs() > 1e-12 {
+            format!(
+                "{} m/s² (typed local value)",
+                crate::units::format_significant(gravity, 6)
+            )
+        } else {
+            "standard, 9.80665 m/s²".to_string()
+        },
+    ));
+    rows
+}

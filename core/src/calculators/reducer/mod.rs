@@ -141,20 +141,27 @@ pub fn spec() -> CalculatorSpec {
             Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
             "Smaller than the inlet for a reducer, larger for an expander.",
         ),
-        quantity(
-            "p",
-            "Gauge pressure at the inlet",
-            Q::Pressure,
-            "bar",
-            "psi",
-            "10 bar",
-            Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
+        FieldSpec {
+            visible_when: common::P_AT_INLET,
+            ..quantity(
+                "p",
+                "Gauge pressure at the inlet",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "10 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
                     not below 0.",
-        ),
+            )
+        },
     ];
+    fields.extend(common::pressure_known_fields());
     fields.extend(common::flow_given_fields("850 m3/h"));
+    fields.extend(common::profile_fields(&common::INLET_PROFILE));
+    fields.extend(common::profile_fields(&common::OUTLET_PROFILE));
     fields.extend(common::fluid_fields("25 degC"));
+    fields.push(common::gravity_field());
     fields.extend([
         quantity(
             "cone_angle",
@@ -205,6 +212,7 @@ pub fn spec() -> CalculatorSpec {
             "horizontal",
             "In a vertical fitting the fluid's weight acts along the axis and the outlet is higher or lower.",
         ),
+        common::weights_field(),
         FieldSpec {
             optional: true,
             ..choice(
@@ -260,6 +268,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Force,
             ),
             OutputSpec::headline("p_out", "Gauge pressure at the outlet", Q::Pressure),
+            OutputSpec::listed("p_in", "Gauge pressure at the inlet", Q::Pressure),
             OutputSpec::listed("k_used", "Loss coefficient used, on the reference velocity", Q::Ratio),
             OutputSpec::listed("head_loss", "Head loss in the fitting", Q::Length),
             OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
