@@ -103,7 +103,18 @@ pub const TERMS: &[Term] = &[
     choice(
         "p_known",
         "the port of a fitting whose gauge pressure is known (the others follow from the energy balance)",
-        &["inlet", "outlet", "atmosphere", "branch"],
+        &[
+            "inlet",
+            "outlet",
+            "atmosphere",
+            "common",
+            "b1",
+            "b2",
+            "b3",
+            "b4",
+            "b5",
+            "b6",
+        ],
     ),
     term("p2", "gauge pressure at a fitting's outlet, where it is the known one"),
     choice(
@@ -120,6 +131,27 @@ pub const TERMS: &[Term] = &[
         "profile_out",
         "velocity profile at a fitting's outlet, which sets its factors β and α",
         &["uniform", "laminar", "power_law", "typed", "carried"],
+    ),
+    choice(
+        "profile_common",
+        "velocity profile in a junction's common pipe, which sets its factors β and α",
+        &["uniform", "laminar", "power_law", "typed", "carried"],
+    ),
+    term(
+        "n_power_common",
+        "exponent n of the power-law velocity profile in a junction's common pipe",
+    ),
+    term(
+        "beta_common",
+        "momentum-flux correction factor β in a junction's common pipe",
+    ),
+    term(
+        "alpha_common",
+        "kinetic-energy correction factor α in a junction's common pipe",
+    ),
+    term(
+        "p_branch",
+        "gauge pressure at the branch of a junction whose pressure is the known one",
     ),
     term(
         "n_power_in",

@@ -364,6 +364,93 @@ mod tests {
     }
 
     #[test]
+    fn the_outlet_pressure_known_gives_back_the_inlet_pressure() {
+        // A second solve from the other end of the same energy line: the outlet
+        // pressure found from the inlet's, given back as known, must return it.
+        let base = [
+            ("d", "300 mm"),
+            ("d2", "200 mm"),
+            ("plane", "vertical_crest"),
+            ("k", "0.3"),
+            ("profile_in", "power_law"),
+            ("n_power_in", "7"),
+            ("profile_out", "laminar"),
+        ];
+        let forward = solved(&[&base[..], &[("p", "6 bar")]].concat());
+        let p_out = forward.output("p_out").unwrap().si;
+        let p_out_text = format!("{p_out} Pa");
+        let back = solved(&[&base[..], &[("p_known", "outlet"), ("p2", p_out_text.as_str())]].concat());
+        assert_relative_eq!(back.output("p_in").unwrap().si, 6e5, max_relative = 1e-9);
+        assert_relative_eq!(
+            back.output("thrust").unwrap().si,
+            forward.output("thrust").unwrap().si,
+            max_relative = 1e-9
+        );
+        assert!(back.checks.iter().all(|c| c.agrees()), "{:?}", back.checks);
+    }
+
+    #[test]
+    fn an_old_link_without_the_new_keys_reads_as_before() {
+        // Issue 12: old links typed the inlet pressure; no p_known, no profile, no
+        // weights choice: the inlet is known, the profile uniform, the weights in.
+        let mut request = super::super::testing::request(super::KEY, &[("p", "7 bar"), ("plane", "vertical_sag")]);
+        for key in ["p_known", "profile_in", "profile_out", "weights", "p2"] {
+            request.inputs.remove(key);
+        }
+        let s = crate::solve(super::KEY, &request).result.expect("an old link solves");
+        assert_relative_eq!(s.output("p_in").unwrap().si, 7e5, max_relative = 1e-12);
+        assert!(s.output("fluid_weight").unwrap().si > 0.0);
+        let basis = s.tables.iter().find(|t| t.key == "basis").expect("basis table");
+        assert!(
+            basis.rows.iter().any(|r| r[1].contains("known at the inlet")),
+            "{basis:?}"
+        );
+        assert!(basis.rows.iter().any(|r| r[1].contains("(uniform)")), "{basis:?}");
+    }
+
+    #[test]
+    fn neglected_weights_take_exactly_the_weights_out() {
+        let with = solved(&[("plane", "vertical_sag"), ("w_fitting", "2 kN")]);
+        let without = solved(&[
+            ("plane", "vertical_sag"),
+            ("w_fitting", "2 kN"),
+            ("weights", "neglected"),
+        ]);
+        let weight = with.output("fluid_weight").unwrap().si + 2e3;
+        // The weights act down (−y): the thrust's y component loses exactly them.
+        assert_relative_eq!(
+            with.output("thrust_y").unwrap().si - without.output("thrust_y").unwrap().si,
+            -weight,
+            max_relative = 1e-9
+        );
+        assert_relative_eq!(
+            with.output("p_out").unwrap().si,
+            without.output("p_out").unwrap().si,
+            max_relative = 1e-12
+        );
+    }
+
+    #[test]
+    fn the_ledger_names_the_beta_it_used() {
+        let s = solved(&[("profile_in", "typed"), ("beta_in", "1.05"), ("alpha_in", "1.1")]);
+        let ledger = s.tables.iter().find(|t| t.key == "ledger").expect("ledger");
+        assert!(
+            ledger
+                .rows
+                .iter()
+                .any(|r| r[0].starts_with("inlet") && r[0].ends_with("β = 1.050")),
+            "{ledger:?}"
+        );
+        assert!(
+            ledger
+                .rows
+                .iter()
+                .any(|r| r[0].starts_with("outlet") && r[0].ends_with("β = 1.000")),
+            "{ledger:?}"
+        );
+    }
+
+    #[test]
     fn errors_name_the_field() {
         let request = crate::catalog::demo_request(&super::spec(), &[("d", "5 psi")]);
         let outcome = crate::solve(super::KEY, &request);

@@ -565,6 +565,19 @@ pub const OUTLET_PROFILE: ProfileKeys = ProfileKeys {
     alpha_label: "Kinetic-energy factor α at the outlet",
 };
 
+/// The velocity-profile fields of a junction's common pipe.
+pub const COMMON_PROFILE: ProfileKeys = ProfileKeys {
+    place: "common pipe",
+    profile: "profile_common",
+    profile_label: "Velocity profile in the common pipe",
+    n: "n_power_common",
+    n_label: "Power-law exponent n in the common pipe",
+    beta: "beta_common",
+    beta_label: "Momentum-flux factor β in the common pipe",
+    alpha: "alpha_common",
+    alpha_label: "Kinetic-energy factor α in the common pipe",
+};
+
 const PROFILE_HELP: &str = "How the velocity varies over the port: β multiplies the momentum flux ṁV, α the \
     kinetic-energy flux ṁV²/2. Uniform (1) is the usual assumption; a fully developed pipe flow has β about 1.02 \
     (turbulent) to 4/3 (laminar).";
@@ -937,4 +950,32 @@ pub fn balance_basis_rows(
         },
     ));
     rows
+}
+
+/// The fitting pages a velocity profile's β and α can be carried to, with the text
+/// of each link.
+pub const PROFILE_TARGETS: &[(&str, &str, &ProfileKeys)] = &[
+    ("bend", "Use this β and α at a bend's inlet", &INLET_PROFILE),
+    ("reducer", "Use this β and α at a reducer's inlet", &INLET_PROFILE),
+    ("tee", "Use this β and α in a tee's common pipe", &COMMON_PROFILE),
+    ("nozzle", "Use this β and α at a nozzle's flange", &INLET_PROFILE),
+];
+
+/// Links that carry a measured or computed profile's β and α to the inlet of each
+/// fitting page ([`PROFILE_TARGETS`]): the profile is `carried`, so the fitting's
+/// basis says "β from the velocity-profile page".
+pub fn profile_carry_overs(beta: f64, alpha: f64) -> Vec<crate::catalog::CarryOver> {
+    let typed = |x: f64| crate::units::format_significant(x, 6);
+    PROFILE_TARGETS
+        .iter()
+        .map(|(calculator, label, keys)| crate::catalog::CarryOver {
+            calculator,
+            label: label.to_string(),
+            inputs: vec![
+                (keys.profile, "carried".to_string()),
+                (keys.beta, typed(beta)),
+                (keys.alpha, typed(alpha)),
+            ],
+        })
+        .collect()
 }

@@ -178,6 +178,7 @@ pub fn spec() -> CalculatorSpec {
         },
     ];
     fields.extend(common::fluid_fields("15 degC"));
+    fields.extend(common::profile_fields(&common::INLET_PROFILE));
     CalculatorSpec {
         key: KEY,
         title: "Nozzle on a flange: end force and jet reaction",
@@ -279,6 +280,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         cc,
         d_gasket,
         fluid,
+        profile_in: common::profile_from(values, &common::INLET_PROFILE)?,
     })
 }
 

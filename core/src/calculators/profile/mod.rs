@@ -250,6 +250,35 @@ pub(crate) mod tests {
     }
 
     #[test]
+    fn the_profile_carries_its_beta_to_each_fitting_page() {
+        // Issue 12 §1: one link per fitting page; the fitting reads the carried β
+        // and α and says where they came from.
+        let s = crate::calculators::testing::solved(super::KEY, &[("shape", "power_law"), ("n_power", "7")]);
+        let beta = s.output("beta").expect("β").si;
+        assert_eq!(s.carry_over.len(), crate::calculators::common::PROFILE_TARGETS.len());
+        for carry in &s.carry_over {
+            let pairs: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+            let fitting = crate::calculators::testing::solved(carry.calculator, &pairs);
+            let basis = fitting.tables.iter().find(|t| t.key == "basis").expect("basis table");
+            assert!(
+                basis
+                    .rows
+                    .iter()
+                    .any(|r| r[1].contains("β from the velocity-profile page")),
+                "{}: {basis:?}",
+                carry.calculator
+            );
+            let ledger = fitting.tables.iter().find(|t| t.key == "ledger").expect("ledger");
+            let shown = format!("β = {}", crate::units::format_significant(beta, 4));
+            assert!(
+                ledger.rows.iter().any(|r| r[0].contains(&shown)),
+                "{}: {ledger:?}",
+                carry.calculator
+            );
+        }
+    }
+
+    #[test]
     fn extreme_accepted_inputs_show_finite_numbers() {
         let sets: &[&[(&str, &str)]] = &[
             &[("d", "1 mm"), ("points", "0 100; 0.999999 100")],
