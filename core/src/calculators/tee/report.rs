@@ -35,6 +35,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("flow", common_state.volume_flow);
     report.output("mass_flow", common_state.mass_flow);
     report.output("v_common", common_state.speed);
+    report.output("p_common", common_state.pressure);
     for (b, &i) in branches.iter().zip(port_of) {
         let keys = &BRANCHES[b.index];
         let state = &balance.ports[i];
