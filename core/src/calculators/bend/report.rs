@@ -146,6 +146,13 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             format!("the {solved_place} gauge pressure comes out below atmospheric: check the inputs"),
         );
     }
+    if !inputs.weights && plane != Plane::Horizontal {
+        report.warn(
+            Some("weights"),
+            "the weights of the fluid and the fitting are left out: a vertical bend's restraint carries them \
+                too; include them for design",
+        );
+    }
     if p_in == 0.0 && inlet_state.speed == 0.0 {
         report.warn(
             Some(inputs.known.field()),

@@ -602,7 +602,7 @@ pub fn profile_fields(keys: &ProfileKeys) -> Vec<FieldSpec> {
         },
         FieldSpec {
             visible_when: on(&["power_law"]),
-            ..quantity(keys.n, keys.n_label, Q::Ratio, "-", "-", "7", N_LIMITS, N_HELP)
+            ..quantity(keys.n, keys.n_label, Q::Ratio, "-", "-", "", N_LIMITS, N_HELP)
         },
         FieldSpec {
             visible_when: on(&["typed", "carried"]),
@@ -612,7 +612,7 @@ pub fn profile_fields(keys: &ProfileKeys) -> Vec<FieldSpec> {
                 Q::Ratio,
                 "-",
                 "-",
-                "1.02",
+                "",
                 Limits::closed(1.0, 2.0),
                 BETA_HELP,
             )
@@ -626,7 +626,7 @@ pub fn profile_fields(keys: &ProfileKeys) -> Vec<FieldSpec> {
                 Q::Ratio,
                 "-",
                 "-",
-                "1.06",
+                "",
                 Limits::closed(1.0, 4.0),
                 ALPHA_HELP,
             )
@@ -688,8 +688,8 @@ impl PortProfile {
         };
         format!(
             "β = {}, α = {} ({source})",
-            crate::units::format_significant(self.beta.value, 4),
-            crate::units::format_significant(self.alpha.value, 4)
+            super::tables::trimmed(crate::units::format_significant(self.beta.value, 4)),
+            super::tables::trimmed(crate::units::format_significant(self.alpha.value, 4))
         )
     }
 }
@@ -780,7 +780,7 @@ pub fn pressure_known_fields() -> Vec<FieldSpec> {
                 Q::Pressure,
                 "kPa",
                 "psi",
-                "5 bar",
+                "",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
                 "Gauge, so not below 0; the inlet pressure follows from the energy balance.",
             )

@@ -20,6 +20,15 @@ fn cell(value: f64, kind: QuantityKind, unit: &str) -> String {
     }
 }
 
+/// `"1.000"` → `"1"`, `"1.050"` → `"1.05"`: a factor shown as short as it reads.
+pub fn trimmed(text: String) -> String {
+    if text.contains('.') && !text.contains('e') {
+        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        text
+    }
+}
+
 /// The momentum ledger: every term of the support-force equation per port, the
 /// weight and storage terms, the total force the supports supply and the thrust on
 /// the supports. It shows the terms of one balance, so it has no residual row (the
@@ -34,7 +43,7 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
             format!(
                 "{} ({role}): momentum flux, ±ṁβV, β = {}",
                 p.name,
-                units::format_significant(p.beta, 4)
+                trimmed(units::format_significant(p.beta, 4))
             ),
             p.momentum_outflow,
         ));

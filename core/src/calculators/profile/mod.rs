@@ -25,6 +25,12 @@
 //! ([`crate::quadrature`]) of the same profile function, an independent numerical
 //! path through the same profile (for the laws: against their closed forms).
 //!
+//! # Carried to the fitting pages
+//! The report links to the bend, reducer and nozzle pages (their inlet) and to the
+//! tee page (its common pipe) with the profile `carried` and β and α typed
+//! ([`crate::calculators::common::profile_carry_overs`]); the fitting's basis table
+//! then says "β from the velocity-profile page".
+//!
 //! # Assumptions
 //! Axisymmetric profile; the points describe u(r) linearly between them; the wall zone
 //! follows a power law from the outermost point; point positions and counts follow
@@ -269,7 +275,10 @@ pub(crate) mod tests {
                 carry.calculator
             );
             let ledger = fitting.tables.iter().find(|t| t.key == "ledger").expect("ledger");
-            let shown = format!("β = {}", crate::units::format_significant(beta, 4));
+            let shown = format!(
+                "β = {}",
+                crate::calculators::common::trimmed(crate::units::format_significant(beta, 4))
+            );
             assert!(
                 ledger.rows.iter().any(|r| r[0].contains(&shown)),
                 "{}: {ledger:?}",

@@ -7,10 +7,12 @@
 //!
 //! R = p₁A₁n₁ + p₂A₂n₂ + ṁ(β₂V₂ − β₁V₁) − W, and the thrust T = −R,
 //!
-//! whose axial part is T_x = p₁A₁ − p₂A₂ + ṁ(V₁ − V₂). The outlet pressure comes
-//! from the energy balance with the fitting's loss,
+//! whose axial part is T_x = p₁A₁ − p₂A₂ + ṁ(β₁V₁ − β₂V₂). The pressure known at one
+//! face (`p_known`: the inlet, the default and what old links mean; the outlet; or
+//! the outlet open to atmosphere) gives the other by the energy balance with the
+//! fitting's loss,
 //!
-//! p₂ = p₁ + ρ(V₁² − V₂²)/2 − ρg(z₂ − z₁) − K·ρV_ref²/2,
+//! p₂ = p₁ + ρ(α₁V₁² − α₂V₂²)/2 − ρg(z₂ − z₁) − K·ρV_ref²/2,
 //!
 //! with K on the velocity of the smaller pipe (or a named one) and taken from:
 //! - Crane TP-410, *Flow of Fluids Through Valves, Fittings, and Pipe*, formulas for
@@ -29,12 +31,17 @@
 //! thrust-restraint guides (DIPRA, *Thrust Restraint Design for Ductile Iron Pipe*;
 //! AWWA Manual M41).
 //!
+//! β and α of each face are uniform unless chosen otherwise (fully developed
+//! laminar, a power law, typed, or carried from the velocity-profile page; see
+//! [`common::profile_from`]); the fluid's weight enters unless `weights=neglected`;
+//! gravity is standard unless `g_local` is typed.
+//!
 //! # Checks
-//! Recorded with [`Report::check`], each without the engine: the outlet pressure by
-//! the energy line above; the axial thrust by the closed form
-//! p₁A₁ − p₂A₂ + ṁ(V₁ − V₂) + W·(ĝ·x̂) on the area basis; at rest in a horizontal
-//! fitting, the static formula p(A₁ − A₂); with Borda–Carnot on the bores,
-//! −p₁(A₂ − A₁).
+//! Recorded with [`Report::check`], each without the engine: the pressure that was
+//! not known by the energy line above; the axial thrust by the closed form
+//! p₁A₁ − p₂A₂ + ṁ(β₁V₁ − β₂V₂) + W·(ĝ·x̂) on the area basis; at rest in a
+//! horizontal fitting, the static formula p(A₁ − A₂); with Borda–Carnot on the bores
+//! and uniform faces, −p₁(A₂ − A₁).
 //!
 //! # Area basis
 //! The joint (`joint`, empty: flanged) sets the area. For push-on and mechanical

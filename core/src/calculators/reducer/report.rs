@@ -155,6 +155,12 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             format!("the {solved_place} gauge pressure comes out below atmospheric: check the inputs"),
         );
     }
+    if !inputs.weights && orientation != "horizontal" {
+        report.warn(
+            Some("weights"),
+            "the fluid's weight is left out: a vertical fitting's restraint carries it too; include it for design",
+        );
+    }
     if loss_model == "crane" && expands && theta > PI / 4.0 && theta < PI {
         report.warn(
             Some("cone_angle"),

@@ -16,11 +16,15 @@
 //!   1e-6), the branch with the largest share takes Q₀ less the others, so that mass
 //!   closes exactly.
 //! - **Energy**, along each stream between the common pipe and branch i:
-//!   p₀/ρ + V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
+//!   p₀/ρ + α₀V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
 //!   branch to the common pipe), with V_ref the common pipe's velocity (as most
 //!   junction-loss tables give it, e.g. Idelchik, *Handbook of Hydraulic
 //!   Resistance*, or Miller, *Internal Flow Systems*) or the branch's own. The
-//!   pressure is given in the common pipe; each branch pressure is solved. K may be
+//!   pressure is known in the common pipe (`p_known=common`, the default) and each
+//!   branch pressure is solved, or at one branch (`p_known=b1`…`b6`, `p_branch`):
+//!   that branch's stream is balanced first for the common pipe's pressure, then the
+//!   others from it. α₀ and β₀ are the common pipe's kinetic-energy and
+//!   momentum-flux factors (uniform unless chosen; the branches are uniform). K may be
 //!   negative (published tee data has it where a stream is drawn along by another:
 //!   Crane TP-410, 2009, Example 7-36, K = −0.040 for a converging branch), down to
 //!   [`MIN_LOSS_COEFFICIENT`] on the common velocity, as long as the junction as a whole
@@ -36,8 +40,9 @@
 //! # Checks
 //! Shown in the checks table ([`Report::check`]): the engine's branch flows against
 //! the common flow as given, and each thrust component against the impulse-function
-//! sum −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
-//! written out from Bernoulli per branch, not taken from the engine. A thrust
+//! sum −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
+//! written out from Bernoulli per branch, not taken from the engine; with a branch's
+//! pressure known, the common pipe's pressure against Bernoulli from that branch. A thrust
 //! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
 //! square branch's pressure force) is rounding residue and shown as 0.
 //!
@@ -411,7 +416,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Pressure,
                 "bar",
                 "psi",
-                "8 bar",
+                "",
                 Limits::closed(0.0, MAX_PRESSURE_PA),
                 "Gauge, so not below 0; the common pipe's pressure follows from that branch's energy balance, \
                     and the other branches' from the common pipe's.",

@@ -93,17 +93,17 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         0.0
     };
     let known_text = match inputs.known {
-        KnownAt::Common(_) => "gauge, known in the common pipe; each branch's from its energy balance".to_string(),
-        KnownAt::Branch(n, _) => format!(
-            "gauge, known at branch {}; the common pipe's from that branch's energy balance, the other branches' \
-                from the common pipe's",
-            n + 1
-        ),
+        KnownAt::Common(_) => "known in the common pipe".to_string(),
+        KnownAt::Branch(n, _) => format!("known at branch {}, the common pipe's from its stream", n + 1),
     };
     report.solution.tables.push(common::basis_table(vec![
-        ("Pressure", known_text),
-        ("Velocity profile, common pipe", inputs.profile_common.describe()),
-        ("Velocity profile, branches", "uniform (β = α = 1)".to_string()),
+        (
+            "Pressure; profile",
+            format!(
+                "{known_text}; common pipe {}, branches uniform",
+                inputs.profile_common.describe()
+            ),
+        ),
         (
             "Flow",
             match inputs.junction {
