@@ -459,7 +459,7 @@ mod tests {
             ledger
                 .rows
                 .iter()
-                .any(|r| r[0].starts_with("outlet") && r[0].ends_with("β = 1")),
+                .any(|r| r[0].starts_with("outlet") && r[0].ends_with("±ṁβV")),
             "{ledger:?}"
         );
     }

@@ -39,12 +39,14 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
     for p in &balance.ports {
         let role = if p.role == Role::Inlet { "in" } else { "out" };
         rows.push((format!("{} ({role}): pressure, p·A·n", p.name), -p.pressure_force));
+        // β is named where it is not 1 (a uniform port reads as before).
+        let beta = if p.beta == 1.0 {
+            String::new()
+        } else {
+            format!(", β = {}", trimmed(units::format_significant(p.beta, 4)))
+        };
         rows.push((
-            format!(
-                "{} ({role}): momentum flux, ±ṁβV, β = {}",
-                p.name,
-                trimmed(units::format_significant(p.beta, 4))
-            ),
+            format!("{} ({role}): momentum flux, ±ṁβV{beta}", p.name),
             p.momentum_outflow,
         ));
     }

@@ -596,7 +596,6 @@ pub fn spec() -> CalculatorSpec {
         OutputSpec::listed("flow", "Flow in the common pipe", Q::VolumeFlow),
         OutputSpec::listed("mass_flow", "Mass flow in the common pipe", Q::MassFlow),
         OutputSpec::listed("v_common", "Mean velocity in the common pipe", Q::Velocity),
-        OutputSpec::listed("p_common", "Gauge pressure in the common pipe", Q::Pressure),
     ];
     for b in &BRANCHES {
         outputs.push(OutputSpec {

@@ -35,7 +35,6 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("flow", common_state.volume_flow);
     report.output("mass_flow", common_state.mass_flow);
     report.output("v_common", common_state.speed);
-    report.output("p_common", common_state.pressure);
     for (b, &i) in branches.iter().zip(port_of) {
         let keys = &BRANCHES[b.index];
         let state = &balance.ports[i];
@@ -96,14 +95,19 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         KnownAt::Common(_) => "known in the common pipe".to_string(),
         KnownAt::Branch(n, _) => format!("known at branch {}, the common pipe's from its stream", n + 1),
     };
-    report.solution.tables.push(common::basis_table(vec![
-        (
+    let mut basis = Vec::new();
+    // Said only where it differs from the defaults (pressure known in the common
+    // pipe, uniform profile), to keep the printed sheet on two pages.
+    if !matches!(inputs.known, KnownAt::Common(_)) || !inputs.profile_common.is_uniform() {
+        basis.push((
             "Pressure; profile",
             format!(
                 "{known_text}; common pipe {}, branches uniform",
                 inputs.profile_common.describe()
             ),
-        ),
+        ));
+    }
+    basis.extend(vec![
         (
             "Flow",
             match inputs.junction {
@@ -135,7 +139,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "Carried to the thrust-block page",
             "pressure and momentum thrust; the fluid's weight is left to the bedding".to_string(),
         ),
-    ]));
+    ]);
+    report.solution.tables.push(common::basis_table(basis));
     report.solution.tables.push(branch_table(inputs, solved, report));
     report.solution.tables.push(common::ledger_table(balance, system));
     report.solution.tables.push(common::ports_table(balance, system));
