@@ -1049,16 +1049,26 @@ pub fn is_shown(spec: &CalculatorSpec, field: &FieldSpec, request: &Request) -> 
 /// The conditions under which a field is shown: its own `visible_when`, then that of
 /// the field controlling it, and so on (followed at most as deep as the spec is
 /// long). The field is shown while every condition holds; the page receives this
-/// chain and applies it as [`is_shown`] does.
-pub fn shown_when(spec: &CalculatorSpec, field: &FieldSpec) -> Vec<(&'static str, &'static [&'static str])> {
+/// chain and applies it as [`is_shown`] does. An optional choice left empty reads
+/// as its demo value (what its page takes an empty choice to mean: an old link
+/// without `p_known` has the pressure known at the inlet), so a field shown for
+/// that value is also shown while the choice is empty.
+pub fn shown_when(spec: &CalculatorSpec, field: &FieldSpec) -> Vec<(&'static str, Vec<&'static str>)> {
     let mut chain = Vec::new();
     let mut current = field;
     for _ in 0..=spec.fields.len() {
         let Some((controller, allowed)) = current.visible_when else {
             break;
         };
-        chain.push((controller, allowed));
-        match spec.field(controller) {
+        let mut values = allowed.to_vec();
+        let next = spec.field(controller);
+        if let Some(c) = next {
+            if c.optional && matches!(c.kind, FieldKind::Choice(_)) && allowed.contains(&c.demo) {
+                values.push("");
+            }
+        }
+        chain.push((controller, values));
+        match next {
             Some(next) => current = next,
             None => break,
         }

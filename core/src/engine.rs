@@ -507,6 +507,9 @@ pub struct PortState {
     pub pressure_force: Vec3,
     /// Net momentum outflow through this port, ±ṁ(βV + w), N (negative-signed for inlets).
     pub momentum_outflow: Vec3,
+    /// The port's momentum-flux and kinetic-energy factors β and α, as used.
+    pub beta: f64,
+    pub alpha: f64,
 }
 
 /// Solved energy balance of one stream.
@@ -740,6 +743,8 @@ pub fn balance(cv: &ControlVolume) -> Result<Balance, EngineError> {
             position: p.position,
             pressure_force: Vec3::ZERO,
             momentum_outflow: Vec3::ZERO,
+            beta: p.beta,
+            alpha: p.alpha,
         })
         .collect();
     let signed = |p: &PortState, m: f64| if p.role == Role::Outlet { m } else { -m };

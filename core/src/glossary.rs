@@ -100,6 +100,71 @@ pub const TERMS: &[Term] = &[
         "head",
         "head: total head at a nozzle inlet, or the net head of a machine",
     ),
+    choice(
+        "p_known",
+        "the port of a fitting whose gauge pressure is known (the others follow from the energy balance)",
+        &[
+            "inlet",
+            "outlet",
+            "atmosphere",
+            "common",
+            "b1",
+            "b2",
+            "b3",
+            "b4",
+            "b5",
+            "b6",
+        ],
+    ),
+    term("p2", "gauge pressure at a fitting's outlet, where it is the known one"),
+    choice(
+        "weights",
+        "whether the weights of the fluid inside and of the fitting enter the momentum balance",
+        &["included", "neglected"],
+    ),
+    choice(
+        "profile_in",
+        "velocity profile at a fitting's inlet, which sets its factors β and α",
+        &["uniform", "laminar", "power_law", "typed", "carried"],
+    ),
+    choice(
+        "profile_out",
+        "velocity profile at a fitting's outlet, which sets its factors β and α",
+        &["uniform", "laminar", "power_law", "typed", "carried"],
+    ),
+    choice(
+        "profile_common",
+        "velocity profile in a junction's common pipe, which sets its factors β and α",
+        &["uniform", "laminar", "power_law", "typed", "carried"],
+    ),
+    term(
+        "n_power_common",
+        "exponent n of the power-law velocity profile in a junction's common pipe",
+    ),
+    term(
+        "beta_common",
+        "momentum-flux correction factor β in a junction's common pipe",
+    ),
+    term(
+        "alpha_common",
+        "kinetic-energy correction factor α in a junction's common pipe",
+    ),
+    term(
+        "p_branch",
+        "gauge pressure at the branch of a junction whose pressure is the known one",
+    ),
+    term(
+        "n_power_in",
+        "exponent n of the power-law velocity profile at a fitting's inlet",
+    ),
+    term(
+        "n_power_out",
+        "exponent n of the power-law velocity profile at a fitting's outlet",
+    ),
+    term("beta_in", "momentum-flux correction factor β at a fitting's inlet"),
+    term("beta_out", "momentum-flux correction factor β at a fitting's outlet"),
+    term("alpha_in", "kinetic-energy correction factor α at a fitting's inlet"),
+    term("alpha_out", "kinetic-energy correction factor α at a fitting's outlet"),
     term("k", "loss coefficient K of a fitting"),
     choice(
         "k_ref",
@@ -118,6 +183,7 @@ pub const TERMS: &[Term] = &[
     term("t", "temperature of the water"),
     term("rho", "density of the liquid"),
     term("mu", "dynamic viscosity of the liquid"),
+    term("g_local", "local acceleration of gravity (empty: standard gravity)"),
     term("bulk_modulus", "bulk modulus of the liquid"),
     // Design pressure and surge.
     choice(

@@ -707,8 +707,11 @@ fn every_output_is_finite_or_a_typed_error() {
         Ok(())
     });
     // A quarter of the drawn numbers lie outside [0, 1) scaled demo values, many
-    // outside the limits: fewer requests solve, but still a real share.
-    share.require("finite or typed error", 0.15, &calculator_keys());
+    // outside the limits: fewer requests solve, but still a real share. (The
+    // nozzle's optional values that must agree with others, a gasket diameter not
+    // below the bore and C_d not above C_c, drawn over their whole ranges, keep its
+    // share near 14 % since the flange bolts and port profiles were added.)
+    share.require("finite or typed error", 0.12, &calculator_keys());
 }
 
 /// Text a user (or a pasted URL) might put in a field.

@@ -10,8 +10,21 @@
 //!
 //! with n the outward normals, p gauge pressures, W the contained fluid's weight and
 //! W_f any given weight of the fitting. The thrust on the supports is T = −R. The
-//! outlet pressure comes from the energy balance with the bend's loss coefficient K
-//! on the inlet velocity: p₂ = p₁ + ρ(V₁² − V₂²)/2 − ρg(z₂ − z₁) − K·ρV₁²/2.
+//! pressure known at one face (`p_known`: the inlet, the default and what old links
+//! mean; the outlet, `p2`; or the outlet open to atmosphere, 0 gauge) gives the other
+//! by the energy balance with the bend's loss coefficient K on the inlet velocity:
+//! p₁ + α₁ρV₁²/2 = p₂ + α₂ρV₂²/2 + ρg(z₂ − z₁) + K·ρV₁²/2.
+//!
+//! # Velocity profile, weights, gravity
+//! β and α of each face come from [`common::profile_from`] (uniform by default;
+//! fully developed laminar 4/3 and 2; a power law from
+//! [`crate::velocity_profile::power_law`]; typed; or carried from the
+//! velocity-profile page), and the ledger shows the β each momentum line used. The
+//! weights of the fluid and of the fitting enter unless `weights=neglected` (to
+//! reproduce a case that leaves them out; gravity still sets the elevation term).
+//! Gravity is standard unless `g_local` is typed. Çengel & Cimbala's reducing elbow
+//! (β = 1.03, outlet to atmosphere, weights neglected, g = 9.81 m/s²) gives
+//! p₁ = 202.2 kPa and R = (−2053, 144) N, as the book does.
 //!
 //! For an equal-size bend at rest the thrust reduces to the static formula
 //! T = 2pA·sin(θ/2), directed along the bisector, away from the bend's centre
@@ -20,9 +33,9 @@
 //!
 //! # Checks
 //! Recorded with [`Report::check`], each by a path that does not use the engine:
-//! the outlet pressure by the Bernoulli line above; the x and y thrust by the
-//! closed form T = (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + (W + W_f)·ĝ with that
-//! pressure (areas on the chosen basis, momentum on the bores); and for an
+//! the pressure that was not known by the energy line above; the x and y thrust by
+//! the closed form T = (p₁A₁ + β₁ṁV₁)·e₁ − (p₂A₂ + β₂ṁV₂)·e₂ + (W + W_f)·ĝ with
+//! those pressures (areas on the chosen basis, momentum on the bores); and for an
 //! equal-size horizontal bend at rest, the static formula 2pA·sin(θ/2).
 //!
 //! # Area basis
@@ -45,7 +58,8 @@
 //! reports from the solved model and [`diagram::diagram`] draws it.
 //!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; pressure area on
+//! Incompressible, steady flow; uniform pressure over each face (the velocity may
+//! vary over it: β and α); pressure area on
 //! the chosen basis; the fluid inside follows the centre-line arc
 //! (volume A·R·θ for equal sizes, mean area for reducing bends).
 
@@ -114,19 +128,26 @@ pub fn spec() -> CalculatorSpec {
                 "Leave empty for an equal-size bend; give it for a reducing bend.",
             )
         },
-        quantity(
-            "p",
-            "Gauge pressure at the inlet",
-            Q::Pressure,
-            "kPa",
-            "psi",
-            "10 bar",
-            Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge.",
-        ),
+        FieldSpec {
+            visible_when: common::P_AT_INLET,
+            ..quantity(
+                "p",
+                "Gauge pressure at the inlet",
+                Q::Pressure,
+                "kPa",
+                "psi",
+                "10 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The design pressure: the highest the line will see, including test pressure and surge.",
+            )
+        },
     ];
+    fields.extend(common::pressure_known_fields());
     fields.extend(common::flow_given_fields("850 m3/h"));
+    fields.extend(common::profile_fields(&common::INLET_PROFILE));
+    fields.extend(common::profile_fields(&common::OUTLET_PROFILE));
     fields.extend(common::fluid_fields("25 degC"));
+    fields.push(common::gravity_field());
     fields.extend([
         FieldSpec {
             optional: true,
@@ -188,6 +209,7 @@ pub fn spec() -> CalculatorSpec {
             "In a horizontal bend the fluid's weight acts out of the plane; in a vertical bend it acts in the \
                 plane.",
         ),
+        common::weights_field(),
         FieldSpec {
             optional: true,
             ..quantity(
@@ -233,6 +255,7 @@ pub fn spec() -> CalculatorSpec {
                 "Direction of the in-plane thrust, from the inlet flow direction",
                 Q::Angle,
             ),
+            OutputSpec::listed("p_in", "Gauge pressure at the inlet", Q::Pressure),
             OutputSpec::listed("p_out", "Gauge pressure at the outlet", Q::Pressure),
             OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),
             OutputSpec::listed("v_out", "Mean velocity at the outlet", Q::Velocity),
@@ -352,6 +375,93 @@ mod tests {
         let expected = 2.0 * 1e6 * area * (std::f64::consts::PI / 6.0).sin();
         assert_relative_eq!(s.output("thrust_in_plane").unwrap().si, expected, max_relative = 1e-12);
         assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+    }
+
+    #[test]
+    fn the_outlet_pressure_known_gives_back_the_inlet_pressure() {
+        // A second solve from the other end of the same energy line: the outlet
+        // pressure found from the inlet's, given back as known, must return it.
+        let base = [
+            ("d", "300 mm"),
+            ("d2", "200 mm"),
+            ("plane", "vertical_crest"),
+            ("k", "0.3"),
+            ("profile_in", "power_law"),
+            ("n_power_in", "7"),
+            ("profile_out", "laminar"),
+        ];
+        let forward = solved(&[&base[..], &[("p", "6 bar")]].concat());
+        let p_out = forward.output("p_out").unwrap().si;
+        let p_out_text = format!("{p_out} Pa");
+        let back = solved(&[&base[..], &[("p_known", "outlet"), ("p2", p_out_text.as_str())]].concat());
+        assert_relative_eq!(back.output("p_in").unwrap().si, 6e5, max_relative = 1e-9);
+        assert_relative_eq!(
+            back.output("thrust").unwrap().si,
+            forward.output("thrust").unwrap().si,
+            max_relative = 1e-9
+        );
+        assert!(back.checks.iter().all(|c| c.agrees()), "{:?}", back.checks);
+    }
+
+    #[test]
+    fn an_old_link_without_the_new_keys_reads_as_before() {
+        // Issue 12: old links typed the inlet pressure; no p_known, no profile, no
+        // weights choice: the inlet is known, the profile uniform, the weights in.
+        let mut request = super::super::testing::request(super::KEY, &[("p", "7 bar"), ("plane", "vertical_sag")]);
+        for key in ["p_known", "profile_in", "profile_out", "weights", "p2"] {
+            request.inputs.remove(key);
+        }
+        let s = crate::solve(super::KEY, &request).result.expect("an old link solves");
+        assert_relative_eq!(s.output("p_in").unwrap().si, 7e5, max_relative = 1e-12);
+        assert!(s.output("fluid_weight").unwrap().si > 0.0);
+        let basis = s.tables.iter().find(|t| t.key == "basis").expect("basis table");
+        assert!(
+            basis.rows.iter().any(|r| r[1].contains("known at the inlet")),
+            "{basis:?}"
+        );
+        assert!(basis.rows.iter().any(|r| r[1].contains("(uniform)")), "{basis:?}");
+    }
+
+    #[test]
+    fn neglected_weights_take_exactly_the_weights_out() {
+        let with = solved(&[("plane", "vertical_sag"), ("w_fitting", "2 kN")]);
+        let without = solved(&[
+            ("plane", "vertical_sag"),
+            ("w_fitting", "2 kN"),
+            ("weights", "neglected"),
+        ]);
+        let weight = with.output("fluid_weight").unwrap().si + 2e3;
+        // The weights act down (−y): the thrust's y component loses exactly them.
+        assert_relative_eq!(
+            with.output("thrust_y").unwrap().si - without.output("thrust_y").unwrap().si,
+            -weight,
+            max_relative = 1e-9
+        );
+        assert_relative_eq!(
+            with.output("p_out").unwrap().si,
+            without.output("p_out").unwrap().si,
+            max_relative = 1e-12
+        );
+    }
+
+    #[test]
+    fn the_ledger_names_the_beta_it_used() {
+        let s = solved(&[("profile_in", "typed"), ("beta_in", "1.05"), ("alpha_in", "1.1")]);
+        let ledger = s.tables.iter().find(|t| t.key == "ledger").expect("ledger");
+        assert!(
+            ledger
+                .rows
+                .iter()
+                .any(|r| r[0].starts_with("inlet") && r[0].ends_with("β = 1.05")),
+            "{ledger:?}"
+        );
+        assert!(
+            ledger
+                .rows
+                .iter()
+                .any(|r| r[0].starts_with("outlet") && r[0].ends_with("±ṁβV")),
+            "{ledger:?}"
+        );
     }
 
     #[test]

@@ -2,17 +2,16 @@
 //! the bend and its momentum and energy balances ([`crate::engine`]), with the
 //! joint annulus forces of push-on and mechanical joints (see the page's doc).
 
-use uom::si::f64::{Angle, Force, Length, Pressure, Ratio};
+use uom::si::f64::{Acceleration, Angle, Force, Length, Ratio};
 
 use crate::catalog::Values;
 use crate::engine::{self, si, Balance, ControlVolume, FlowSpec, Loss, Port, Stream};
 use crate::error::{FieldError, FieldErrors};
 use crate::fluid::Fluid;
 use crate::restraint::{self, Plane};
-use crate::units::STANDARD_GRAVITY;
 use crate::vector::{Direction, Vec3};
 
-use super::super::common;
+use super::super::common::{self, KnownPressure, PortProfile};
 
 /// Everything the page was given, validated.
 #[derive(Clone, Debug)]
@@ -21,8 +20,8 @@ pub struct Inputs {
     /// Inlet and outlet bores.
     pub d: Length,
     pub d2: Length,
-    /// Gauge pressure at the inlet.
-    pub p: Pressure,
+    /// The port whose gauge pressure is known, and that pressure.
+    pub known: KnownPressure,
     /// Loss coefficient on the inlet velocity (0: none).
     pub k: Ratio,
     pub plane: Plane,
@@ -35,6 +34,13 @@ pub struct Inputs {
     pub flow_field: &'static str,
     /// Outside diameters of the inlet and outlet joints when the joint seals on them.
     pub outside: Option<(Length, Length)>,
+    /// β and α at the inlet and the outlet.
+    pub profile_in: PortProfile,
+    pub profile_out: PortProfile,
+    /// Whether the weights of the fluid and of the fitting enter the balance.
+    pub weights: bool,
+    /// Gravity used (standard unless a local value is typed).
+    pub gravity: Acceleration,
 }
 
 /// Reads the page's values once.
@@ -45,7 +51,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     let angle: Angle = values.typed("angle")?;
     let d: Length = values.typed("d")?;
     let d2: Length = values.typed_opt("d2").unwrap_or(d);
-    let p = values.typed("p")?;
+    let known = common::known_pressure_from(values)?;
     let k = values
         .typed_opt("k")
         .unwrap_or(Ratio::new::<uom::si::ratio::ratio>(0.0));
@@ -87,7 +93,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         angle,
         d,
         d2,
-        p,
+        known,
         k,
         plane,
         radius,
@@ -96,6 +102,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         flow,
         flow_field: common::flow_field(values),
         outside,
+        profile_in: common::profile_from(values, &common::INLET_PROFILE)?,
+        profile_out: common::profile_from(values, &common::OUTLET_PROFILE)?,
+        weights: common::weights_from(values),
+        gravity: Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(common::gravity_from(values)),
     })
 }
 
@@ -150,15 +160,16 @@ pub struct Solved {
 /// The pure model of the page.
 ///
 /// # Errors
-/// An engine refusal, on `p`.
+/// An engine refusal, on the known pressure's field.
 pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     let (d_in, d_out) = (inputs.d.value, inputs.d2.value);
-    let (p_in, k, radius, theta) = (inputs.p.value, inputs.k.value, inputs.radius.value, inputs.angle.value);
-    let w_fitting = inputs.w_fitting.value;
+    let (k, radius, theta) = (inputs.k.value, inputs.radius.value, inputs.angle.value);
+    let w_fitting = if inputs.weights { inputs.w_fitting.value } else { 0.0 };
+    let g = inputs.gravity.value;
     let (sense, gravity) = match inputs.plane {
-        Plane::Sag => (1.0, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
-        Plane::Crest => (-1.0, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
-        Plane::Horizontal => (1.0, Vec3::new(0.0, 0.0, -STANDARD_GRAVITY)),
+        Plane::Sag => (1.0, Vec3::new(0.0, -g, 0.0)),
+        Plane::Crest => (-1.0, Vec3::new(0.0, -g, 0.0)),
+        Plane::Horizontal => (1.0, Vec3::new(0.0, 0.0, -g)),
     };
     let geometry = Geometry {
         theta,
@@ -172,26 +183,32 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
 
     let mut cv = ControlVolume::new(inputs.fluid.clone());
     cv.gravity(gravity);
-    let mut inlet = Port::inlet("inlet", si::area(a_in), Direction::X)
-        .pressure(si::pressure(p_in))
-        .at(Vec3::ZERO);
+    let mut inlet = inputs
+        .profile_in
+        .apply(Port::inlet("inlet", si::area(a_in), Direction::X).at(Vec3::ZERO));
     inlet.flow = inputs.flow;
+    let outlet = inputs
+        .profile_out
+        .apply(Port::outlet("outlet", si::area(a_out), geometry.outlet_direction()).at(geometry.outlet_position()));
+    let [inlet, outlet] = inputs.known.apply(inlet, outlet);
     let i = cv.port(inlet);
-    let o =
-        cv.port(Port::outlet("outlet", si::area(a_out), geometry.outlet_direction()).at(geometry.outlet_position()));
+    let o = cv.port(outlet);
     cv.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port: i }));
-    cv.contains(si::volume(volume), geometry.centroid());
+    // Neglected weights: gravity still sets the elevation head, the fluid weighs nothing.
+    let weighed_volume = if inputs.weights { volume } else { 0.0 };
+    cv.contains(si::volume(weighed_volume), geometry.centroid());
     if w_fitting > 0.0 {
-        let weight_dir = gravity * (1.0 / STANDARD_GRAVITY);
+        let weight_dir = gravity * (1.0 / g);
         cv.extra_force("fitting weight", weight_dir * w_fitting, geometry.centroid());
     }
-    let mut balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
+    let field = inputs.known.field();
+    let mut balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, field)))?;
     let outside = inputs.outside.map(|(od, od2)| (od.value, od2.value));
     if let Some((od_in, od_out)) = outside {
         // Push-on or mechanical joints: the solved pressures also act on the wall
         // annulus out to the outside diameter at each end.
         common::add_joint_annulus_forces(&mut cv, &balance, [(i, od_in), (o, od_out)]);
-        balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
+        balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, field)))?;
     }
     let (basis_a_in, basis_a_out) = match outside {
         Some((od_in, od_out)) => (common::circle_area(od_in), common::circle_area(od_out)),

@@ -5,7 +5,7 @@
 
 use crate::catalog::Report;
 use crate::restraint::Plane;
-use crate::units::{QuantityKind as Q, STANDARD_GRAVITY};
+use crate::units::QuantityKind as Q;
 use crate::vector::Direction;
 
 use super::super::common;
@@ -26,8 +26,11 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     let (geometry, gravity) = (*geometry, *gravity);
     let (a_in, a_out, basis_a_in, basis_a_out, volume) = (*a_in, *a_out, *basis_a_in, *basis_a_out, *volume);
     let (d_in, d_out) = (inputs.d.value, inputs.d2.value);
-    let (p_in, k, theta) = (inputs.p.value, inputs.k.value, inputs.angle.value);
-    let w_fitting = inputs.w_fitting.value;
+    let (k, theta) = (inputs.k.value, inputs.angle.value);
+    let w_fitting = if inputs.weights { inputs.w_fitting.value } else { 0.0 };
+    let g = inputs.gravity.value;
+    let (beta1, beta2) = (inputs.profile_in.beta.value, inputs.profile_out.beta.value);
+    let (alpha1, alpha2) = (inputs.profile_in.alpha.value, inputs.profile_out.alpha.value);
     let plane = inputs.plane;
     let fluid = &inputs.fluid;
     let outside = inputs.outside.map(|(od, od2)| (od.value, od2.value));
@@ -48,6 +51,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if in_plane > 0.0 {
         report.output("thrust_angle", thrust.plane_angle());
     }
+    report.output("p_in", inlet_state.pressure);
     report.output("p_out", outlet_state.pressure);
     report.output("v_in", inlet_state.speed);
     report.output("v_out", outlet_state.speed);
@@ -62,38 +66,52 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("density", fluid.density);
     report.output("viscosity", fluid.viscosity);
 
-    // Check: the closed-form momentum balance of a bend, with the outlet pressure
-    // from Bernoulli with the loss (not the engine's), the weights along gravity.
+    // Check: the closed-form momentum balance of a bend, with the unknown pressure
+    // from the energy line with α and the loss (not the engine's), the weights along
+    // gravity.
     let mass_flow = inlet_state.mass_flow;
-    let (v1, v2) = (mass_flow / (fluid.density * a_in), mass_flow / (fluid.density * a_out));
-    let dz = gravity.dot(geometry.outlet_position()) / -STANDARD_GRAVITY;
-    let p_out = p_in + 0.5 * fluid.density * (v1 * v1 - v2 * v2)
-        - fluid.density * STANDARD_GRAVITY * dz
-        - k * 0.5 * fluid.density * v1 * v1;
+    let rho = fluid.density;
+    let (v1, v2) = (mass_flow / (rho * a_in), mass_flow / (rho * a_out));
+    let dz = gravity.dot(geometry.outlet_position()) / -g;
+    // p₁ − p₂ = ρ(α₂V₂² − α₁V₁²)/2 + ρg(z₂ − z₁) + K·ρV₁²/2.
+    let drop = 0.5 * rho * (alpha2 * v2 * v2 - alpha1 * v1 * v1) + rho * g * dz + k * 0.5 * rho * v1 * v1;
+    let known = inputs.known.pascals();
+    let (p_in, p_out) = if inputs.known.at_inlet() {
+        (known, known - drop)
+    } else {
+        (known + drop, known)
+    };
+    let (solved_label, solved_by_engine, solved_closed) = if inputs.known.at_inlet() {
+        ("Gauge pressure at the outlet", outlet_state.pressure, p_out)
+    } else {
+        ("Gauge pressure at the inlet", inlet_state.pressure, p_in)
+    };
     report.check(
-        "Gauge pressure at the outlet",
-        "Bernoulli with the loss K·ρV₁²/2",
+        solved_label,
+        "energy line with α and the loss, p₁ + α₁ρV₁²/2 = p₂ + α₂ρV₂²/2 + ρg(z₂ − z₁) + K·ρV₁²/2",
         Q::Pressure,
-        outlet_state.pressure,
-        p_out,
+        solved_by_engine,
+        solved_closed,
         1e-9,
         // Relative to the largest term of the energy line (they can cancel).
-        p_in.abs() + fluid.density * (v1 * v1 + v2 * v2 + k * v1 * v1 + STANDARD_GRAVITY * dz.abs()),
+        known.abs() + rho * (alpha1 * v1 * v1 + alpha2 * v2 * v2 + k * v1 * v1 + g * dz.abs()),
     );
     let e1 = Direction::X.vec();
     let e2 = geometry.outlet_direction().vec();
-    let down = gravity * (1.0 / STANDARD_GRAVITY);
-    let closed = e1 * (p_in * basis_a_in + mass_flow * v1) - e2 * (p_out * basis_a_out + mass_flow * v2)
-        + down * (fluid.density * STANDARD_GRAVITY * volume + w_fitting);
+    let down = gravity * (1.0 / g);
+    let fluid_weight = if inputs.weights { rho * g * volume } else { 0.0 };
+    let closed = e1 * (p_in * basis_a_in + beta1 * mass_flow * v1)
+        - e2 * (p_out * basis_a_out + beta2 * mass_flow * v2)
+        + down * (fluid_weight + w_fitting);
     // Relative to the sum of the terms' magnitudes: the terms can cancel.
     let scale = p_in.abs() * basis_a_in
         + p_out.abs() * basis_a_out
-        + mass_flow * (v1 + v2)
-        + fluid.density * STANDARD_GRAVITY * volume
+        + mass_flow * (beta1 * v1 + beta2 * v2)
+        + fluid_weight
         + w_fitting;
     report.check(
         "Thrust, along the inlet (x)",
-        "closed form (p₁A₁ + ṁV₁)·e₁ − (p₂A₂ + ṁV₂)·e₂ + W",
+        "closed form (p₁A₁ + β₁ṁV₁)·e₁ − (p₂A₂ + β₂ṁV₂)·e₂ + W",
         Q::Force,
         thrust.x,
         closed.x,
@@ -125,15 +143,23 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     let flow_field = inputs.flow_field;
     common::pipe_velocity_warning(report, flow_field, "inlet", inlet_state.speed);
     common::pipe_velocity_warning(report, "d2", "outlet", outlet_state.speed);
-    if outlet_state.pressure < 0.0 {
+    let solved_place = if inputs.known.at_inlet() { "outlet" } else { "inlet" };
+    if solved_by_engine < 0.0 {
         report.warn(
-            Some("p"),
-            "the outlet gauge pressure comes out below atmospheric: check the inputs",
+            Some(inputs.known.field()),
+            format!("the {solved_place} gauge pressure comes out below atmospheric: check the inputs"),
+        );
+    }
+    if !inputs.weights && plane != Plane::Horizontal {
+        report.warn(
+            Some("weights"),
+            "the weights of the fluid and the fitting are left out: a vertical bend's restraint carries them \
+                too; include them for design",
         );
     }
     if p_in == 0.0 && inlet_state.speed == 0.0 {
         report.warn(
-            Some("p"),
+            Some(inputs.known.field()),
             "with no pressure and no flow the only load is the weight of the fluid",
         );
     }
@@ -175,7 +201,16 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         Plane::Crest => "vertical, the line turning downward (a crest): fluid weight in the plane",
         Plane::Horizontal => "horizontal: fluid weight normal to the plane (carried by the bedding)",
     };
-    report.solution.tables.push(common::basis_table(vec![
+    let mut basis = common::balance_basis_rows(
+        &inputs.known,
+        &[
+            ("Velocity profile, inlet", &inputs.profile_in),
+            ("Velocity profile, outlet", &inputs.profile_out),
+        ],
+        inputs.weights,
+        g,
+    );
+    basis.extend(vec![
         (
             "Pressure area",
             match outside {
@@ -188,15 +223,12 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 None => "inside diameter (welded, flanged or fused joints only)".to_string(),
             },
         ),
-        (
-            "Pressure",
-            "gauge, at the inlet; outlet from the energy balance".to_string(),
-        ),
         ("Direction of the thrust", direction.to_string()),
         ("Plane", plane_text.to_string()),
         ("Loss", loss),
         ("Fluid", fluid.name.clone()),
-    ]));
+    ]);
+    report.solution.tables.push(common::basis_table(basis));
     report.solution.tables.push(common::ledger_table(balance, system));
     report.solution.tables.push(common::ports_table(balance, system));
     let diagram = super::diagram::diagram(&geometry, balance, report);

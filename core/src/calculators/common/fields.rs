@@ -1,8 +1,12 @@
 //! Fields shared by the calculators: the quantity and choice constructors, the
 //! fluid fields, the flow fields (`flow_given` and `q`, `v`, `mdot`), the jet
-//! fields, and the readers that turn them into engine inputs.
+//! fields, the fitting pages' velocity profile at a port (β and α: uniform,
+//! laminar, power law from [`crate::velocity_profile`], typed, or carried from the
+//! velocity-profile page), the port whose pressure is known, whether the weights
+//! enter the balance, local gravity, and the readers that turn them into engine
+//! inputs.
 
-use uom::si::f64::{Area, Length, Velocity, VolumeRate};
+use uom::si::f64::{Area, Length, Pressure, Ratio, Velocity, VolumeRate};
 
 use crate::catalog::{ChoiceOption, FieldKind, FieldSpec, FromSi, Limits, Values};
 use crate::engine::FlowSpec;
@@ -493,4 +497,485 @@ pub fn jet_given(values: &Values) -> Result<JetGiven, crate::error::FieldErrors>
         "p" => JetGiven::Pressure(values.typed("p")?, cv),
         _ => JetGiven::Velocity(values.typed("v")?),
     })
+}
+
+// --- Velocity profile at a port, the known pressure, weights and gravity ------------
+
+pub const PROFILE_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "uniform",
+        label: "Uniform (β = α = 1)",
+    },
+    ChoiceOption {
+        key: "laminar",
+        label: "Fully developed laminar (β = 4/3, α = 2)",
+    },
+    ChoiceOption {
+        key: "power_law",
+        label: "Turbulent, power law with exponent n",
+    },
+    ChoiceOption {
+        key: "typed",
+        label: "Typed β and α",
+    },
+    ChoiceOption {
+        key: "carried",
+        label: "From the velocity-profile page",
+    },
+];
+
+/// The keys and labels of the velocity-profile fields of one port.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ProfileKeys {
+    /// Where the port is, as the basis table names it ("inlet").
+    pub place: &'static str,
+    pub profile: &'static str,
+    pub profile_label: &'static str,
+    pub n: &'static str,
+    pub n_label: &'static str,
+    pub beta: &'static str,
+    pub beta_label: &'static str,
+    pub alpha: &'static str,
+    pub alpha_label: &'static str,
+}
+
+/// The velocity-profile fields of a fitting's inlet.
+pub const INLET_PROFILE: ProfileKeys = ProfileKeys {
+    place: "inlet",
+    profile: "profile_in",
+    profile_label: "Velocity profile at the inlet",
+    n: "n_power_in",
+    n_label: "Power-law exponent n at the inlet",
+    beta: "beta_in",
+    beta_label: "Momentum-flux factor β at the inlet",
+    alpha: "alpha_in",
+    alpha_label: "Kinetic-energy factor α at the inlet",
+};
+
+/// The velocity-profile fields of a fitting's outlet.
+pub const OUTLET_PROFILE: ProfileKeys = ProfileKeys {
+    place: "outlet",
+    profile: "profile_out",
+    profile_label: "Velocity profile at the outlet",
+    n: "n_power_out",
+    n_label: "Power-law exponent n at the outlet",
+    beta: "beta_out",
+    beta_label: "Momentum-flux factor β at the outlet",
+    alpha: "alpha_out",
+    alpha_label: "Kinetic-energy factor α at the outlet",
+};
+
+/// The velocity-profile fields of a junction's common pipe.
+pub const COMMON_PROFILE: ProfileKeys = ProfileKeys {
+    place: "common pipe",
+    profile: "profile_common",
+    profile_label: "Velocity profile in the common pipe",
+    n: "n_power_common",
+    n_label: "Power-law exponent n in the common pipe",
+    beta: "beta_common",
+    beta_label: "Momentum-flux factor β in the common pipe",
+    alpha: "alpha_common",
+    alpha_label: "Kinetic-energy factor α in the common pipe",
+};
+
+const PROFILE_HELP: &str = "How the velocity varies over the port: β multiplies the momentum flux ṁV, α the \
+    kinetic-energy flux ṁV²/2. Uniform (1) is the usual assumption; a fully developed pipe flow has β about 1.02 \
+    (turbulent) to 4/3 (laminar).";
+const N_HELP: &str = "u = U(1 − r/R)^(1/n): about 6 to 10 in turbulent pipe flow, higher at higher Reynolds \
+    numbers; from 4 to 12.";
+const BETA_HELP: &str = "β = (1/A)∫(u/V)² dA, from 1 (uniform) to 2.";
+const ALPHA_HELP: &str = "α = (1/A)∫(u/V)³ dA, from 1 (uniform) to 4. Empty: 1 (the energy line as Bernoulli \
+    writes it).";
+
+/// Exponents of the power-law profile accepted at a fitting's port.
+const N_LIMITS: Limits = Limits::closed(4.0, 12.0);
+
+/// The velocity-profile fields of one port: the profile choice (empty: uniform),
+/// the power-law exponent, and the typed or carried β and α.
+pub fn profile_fields(keys: &ProfileKeys) -> Vec<FieldSpec> {
+    let profile = keys.profile;
+    let on = |options: &'static [&'static str]| Some((profile, options));
+    vec![
+        FieldSpec {
+            optional: true,
+            ..choice(profile, keys.profile_label, PROFILE_OPTIONS, "uniform", PROFILE_HELP)
+        },
+        FieldSpec {
+            visible_when: on(&["power_law"]),
+            ..quantity(keys.n, keys.n_label, Q::Ratio, "-", "-", "", N_LIMITS, N_HELP)
+        },
+        FieldSpec {
+            visible_when: on(&["typed", "carried"]),
+            ..quantity(
+                keys.beta,
+                keys.beta_label,
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(1.0, 2.0),
+                BETA_HELP,
+            )
+        },
+        FieldSpec {
+            visible_when: on(&["typed", "carried"]),
+            optional: true,
+            ..quantity(
+                keys.alpha,
+                keys.alpha_label,
+                Q::Ratio,
+                "-",
+                "-",
+                "",
+                Limits::closed(1.0, 4.0),
+                ALPHA_HELP,
+            )
+        },
+    ]
+}
+
+/// Where a port's β and α came from.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum ProfileSource {
+    Uniform,
+    Laminar,
+    /// The power law with this exponent n.
+    PowerLaw(f64),
+    Typed,
+    /// Carried from the velocity-profile page.
+    Carried,
+}
+
+/// A port's momentum-flux and kinetic-energy factors, and where they came from.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct PortProfile {
+    pub beta: Ratio,
+    pub alpha: Ratio,
+    pub source: ProfileSource,
+}
+
+impl PortProfile {
+    /// β = α = 1.
+    pub fn uniform() -> PortProfile {
+        PortProfile {
+            beta: Ratio::from_si(1.0),
+            alpha: Ratio::from_si(1.0),
+            source: ProfileSource::Uniform,
+        }
+    }
+
+    /// Sets the port's β and α.
+    pub fn apply(&self, mut port: crate::engine::Port) -> crate::engine::Port {
+        port.beta = self.beta.value;
+        port.alpha = self.alpha.value;
+        port
+    }
+
+    pub fn is_uniform(&self) -> bool {
+        self.beta.value == 1.0 && self.alpha.value == 1.0
+    }
+
+    /// "β = 1.02, α = 1.06 (turbulent, power law n = 7)", for the basis table.
+    pub fn describe(&self) -> String {
+        let source = match self.source {
+            ProfileSource::Uniform => "uniform".to_string(),
+            ProfileSource::Laminar => "fully developed laminar".to_string(),
+            ProfileSource::PowerLaw(n) => {
+                format!("turbulent, power law n = {}", crate::units::format_significant(n, 3))
+            }
+            ProfileSource::Typed => "typed".to_string(),
+            ProfileSource::Carried => "β from the velocity-profile page".to_string(),
+        };
+        format!(
+            "β = {}, α = {} ({source})",
+            super::tables::trimmed(crate::units::format_significant(self.beta.value, 4)),
+            super::tables::trimmed(crate::units::format_significant(self.alpha.value, 4))
+        )
+    }
+}
+
+/// Reads the velocity-profile fields of one port ([`profile_fields`]); an empty
+/// choice is a uniform profile.
+///
+/// # Errors
+/// The power-law exponent or β when the choice needs them and they are empty.
+pub fn profile_from(values: &Values, keys: &ProfileKeys) -> Result<PortProfile, crate::error::FieldErrors> {
+    let ratio = |x: f64| Ratio::from_si(x);
+    let from = |factors: crate::velocity_profile::ProfileFactors, source| PortProfile {
+        beta: ratio(factors.momentum_flux),
+        alpha: ratio(factors.kinetic_energy),
+        source,
+    };
+    let choice = if values.is_set(keys.profile) {
+        values.choice(keys.profile)?
+    } else {
+        "uniform"
+    };
+    Ok(match choice {
+        "laminar" => from(crate::velocity_profile::laminar(), ProfileSource::Laminar),
+        "power_law" => {
+            let n: Ratio = values.typed(keys.n)?;
+            let factors = crate::velocity_profile::power_law(n.value).ok_or_else(|| {
+                FieldError::inconsistent(keys.n, "the power-law exponent must be a number from 4 to 12")
+            })?;
+            from(factors, ProfileSource::PowerLaw(n.value))
+        }
+        "typed" | "carried" => PortProfile {
+            beta: values.typed(keys.beta)?,
+            alpha: values.typed_opt(keys.alpha).unwrap_or(ratio(1.0)),
+            source: if choice == "carried" {
+                ProfileSource::Carried
+            } else {
+                ProfileSource::Typed
+            },
+        },
+        _ => PortProfile::uniform(),
+    })
+}
+
+/// The ports whose pressure a fitting page may take as the known one.
+pub const P_KNOWN_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "inlet",
+        label: "At the inlet",
+    },
+    ChoiceOption {
+        key: "outlet",
+        label: "At the outlet",
+    },
+    ChoiceOption {
+        key: "atmosphere",
+        label: "Outlet discharges to atmosphere (0 gauge)",
+    },
+];
+
+/// The glossary key of where the pressure is known.
+pub const P_KNOWN: &str = "p_known";
+
+/// Where `p` (the inlet pressure) is shown: the pressure known at the inlet, or the
+/// choice left empty (old links: an empty optional choice reads as its demo,
+/// `inlet`; see [`crate::catalog::shown_when`]).
+pub const P_AT_INLET: Option<(&str, &[&str])> = Some((P_KNOWN, &["inlet"]));
+
+/// The choice of the port whose pressure is known (empty: the inlet, as old links
+/// read) and the outlet pressure `p2` shown when it is the outlet's.
+pub fn pressure_known_fields() -> Vec<FieldSpec> {
+    vec![
+        FieldSpec {
+            optional: true,
+            ..choice(
+                P_KNOWN,
+                "Pressure known at",
+                P_KNOWN_OPTIONS,
+                "inlet",
+                "The port whose gauge pressure you know; the other follows from the energy balance with the \
+                    loss. An open-ended elbow or a nozzle discharges to atmosphere.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some((P_KNOWN, &["outlet"])),
+            ..quantity(
+                "p2",
+                "Gauge pressure at the outlet",
+                Q::Pressure,
+                "kPa",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "Gauge, so not below 0; the inlet pressure follows from the energy balance.",
+            )
+        },
+    ]
+}
+
+/// The port whose pressure is known, and that pressure.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum KnownPressure {
+    Inlet(Pressure),
+    Outlet(Pressure),
+    /// The outlet discharges to atmosphere: 0 gauge there.
+    Atmosphere,
+}
+
+impl KnownPressure {
+    /// Whether the inlet's pressure is the known one.
+    pub fn at_inlet(&self) -> bool {
+        matches!(self, KnownPressure::Inlet(_))
+    }
+
+    /// The known pressure, Pa.
+    pub fn pascals(&self) -> f64 {
+        match self {
+            KnownPressure::Inlet(p) | KnownPressure::Outlet(p) => p.value,
+            KnownPressure::Atmosphere => 0.0,
+        }
+    }
+
+    /// The field a refusal of the balance is laid on.
+    pub fn field(&self) -> &'static str {
+        match self {
+            KnownPressure::Inlet(_) => "p",
+            KnownPressure::Outlet(_) => "p2",
+            KnownPressure::Atmosphere => P_KNOWN,
+        }
+    }
+
+    /// Sets the known pressure on the inlet or the outlet port.
+    pub fn apply(&self, inlet: crate::engine::Port, outlet: crate::engine::Port) -> [crate::engine::Port; 2] {
+        let at = |p: f64| Pressure::from_si(p);
+        match self {
+            KnownPressure::Inlet(p) => [inlet.pressure(*p), outlet],
+            KnownPressure::Outlet(p) => [inlet, outlet.pressure(*p)],
+            KnownPressure::Atmosphere => [inlet, outlet.pressure(at(0.0))],
+        }
+    }
+
+    /// For the basis table.
+    pub fn describe(&self) -> &'static str {
+        match self {
+            KnownPressure::Inlet(_) => "gauge, known at the inlet; the outlet's from the energy balance",
+            KnownPressure::Outlet(_) => "gauge, known at the outlet; the inlet's from the energy balance",
+            KnownPressure::Atmosphere => {
+                "gauge; the outlet discharges to atmosphere (0), the inlet's from the energy balance"
+            }
+        }
+    }
+}
+
+/// Reads [`pressure_known_fields`] and the page's inlet pressure `p`.
+///
+/// # Errors
+/// The pressure of the chosen port when it is empty or out of range.
+pub fn known_pressure_from(values: &Values) -> Result<KnownPressure, crate::error::FieldErrors> {
+    let choice = if values.is_set(P_KNOWN) {
+        values.choice(P_KNOWN)?
+    } else {
+        "inlet"
+    };
+    Ok(match choice {
+        "outlet" => KnownPressure::Outlet(values.typed("p2")?),
+        "atmosphere" => KnownPressure::Atmosphere,
+        _ => KnownPressure::Inlet(values.typed("p")?),
+    })
+}
+
+pub const WEIGHTS_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "included",
+        label: "Included: the fluid's weight and the fitting's",
+    },
+    ChoiceOption {
+        key: "neglected",
+        label: "Neglected (pressure and momentum only)",
+    },
+];
+
+/// Whether the weights of the fluid and of the fitting enter the balance (empty:
+/// included).
+pub fn weights_field() -> FieldSpec {
+    FieldSpec {
+        optional: true,
+        ..choice(
+            "weights",
+            "Weights in the balance",
+            WEIGHTS_OPTIONS,
+            "included",
+            "The weight of the fluid inside and of the fitting: in a vertical fitting they load the restraint \
+                along with the pressure; leave them out only to reproduce a case that neglects them.",
+        )
+    }
+}
+
+/// Reads [`weights_field`]: `true` when the weights enter the balance.
+pub fn weights_from(values: &Values) -> bool {
+    values.choice("weights").unwrap_or("included") != "neglected"
+}
+
+/// Local gravity accepted: the sea-level range on Earth is about 9.780 to 9.832 m/s².
+const GRAVITY_LIMITS: Limits = Limits::closed(9.7, 9.9);
+
+/// The local gravity field of the fluid section (empty: standard gravity).
+pub fn gravity_field() -> FieldSpec {
+    FieldSpec {
+        optional: true,
+        ..quantity(
+            "g_local",
+            "Local gravity",
+            Q::Acceleration,
+            "m/s2",
+            "ft/s2",
+            "",
+            GRAVITY_LIMITS,
+            "Empty: standard gravity 9.80665 m/s². Type a local value (9.7 to 9.9 m/s²) only to match a \
+                calculation that used one.",
+        )
+    }
+}
+
+/// Reads [`gravity_field`], m/s².
+pub fn gravity_from(values: &Values) -> f64 {
+    values.quantity_or("g_local", crate::units::STANDARD_GRAVITY)
+}
+
+/// The rows of a fitting's basis table that say how its balances were set up: the
+/// known pressure, the velocity profile (β, α and their source) at each port,
+/// whether the weights entered, and the gravity used (m/s²).
+pub fn balance_basis_rows(
+    known: &KnownPressure,
+    profiles: &[(&'static str, &PortProfile)],
+    weights: bool,
+    gravity: f64,
+) -> Vec<(&'static str, String)> {
+    let mut rows = vec![("Pressure", known.describe().to_string())];
+    for (label, profile) in profiles {
+        rows.push((label, profile.describe()));
+    }
+    rows.push((
+        "Weights",
+        if weights {
+            "fluid inside and fitting: included".to_string()
+        } else {
+            "fluid inside and fitting: neglected (pressure and momentum only)".to_string()
+        },
+    ));
+    rows.push((
+        "Gravity",
+        if (gravity - crate::units::STANDARD_GRAVITY).abs() > 1e-12 {
+            format!(
+                "{} m/s² (typed local value)",
+                crate::units::format_significant(gravity, 6)
+            )
+        } else {
+            "standard, 9.80665 m/s²".to_string()
+        },
+    ));
+    rows
+}
+
+/// The fitting pages a velocity profile's β and α can be carried to, with the text
+/// of each link.
+pub const PROFILE_TARGETS: &[(&str, &str, &ProfileKeys)] = &[
+    ("bend", "Use this β and α at a bend's inlet", &INLET_PROFILE),
+    ("reducer", "Use this β and α at a reducer's inlet", &INLET_PROFILE),
+    ("tee", "Use this β and α in a tee's common pipe", &COMMON_PROFILE),
+    ("nozzle", "Use this β and α at a nozzle's flange", &INLET_PROFILE),
+];
+
+/// Links that carry a measured or computed profile's β and α to the inlet of each
+/// fitting page ([`PROFILE_TARGETS`]): the profile is `carried`, so the fitting's
+/// basis says "β from the velocity-profile page".
+pub fn profile_carry_overs(beta: f64, alpha: f64) -> Vec<crate::catalog::CarryOver> {
+    let typed = |x: f64| crate::units::format_significant(x, 6);
+    PROFILE_TARGETS
+        .iter()
+        .map(|(calculator, label, keys)| crate::catalog::CarryOver {
+            calculator,
+            label: label.to_string(),
+            inputs: vec![
+                (keys.profile, "carried".to_string()),
+                (keys.beta, typed(beta)),
+                (keys.alpha, typed(alpha)),
+            ],
+        })
+        .collect()
 }

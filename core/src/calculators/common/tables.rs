@@ -20,6 +20,15 @@ fn cell(value: f64, kind: QuantityKind, unit: &str) -> String {
     }
 }
 
+/// `"1.000"` → `"1"`, `"1.050"` → `"1.05"`: a factor shown as short as it reads.
+pub fn trimmed(text: String) -> String {
+    if text.contains('.') && !text.contains('e') {
+        text.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        text
+    }
+}
+
 /// The momentum ledger: every term of the support-force equation per port, the
 /// weight and storage terms, the total force the supports supply and the thrust on
 /// the supports. It shows the terms of one balance, so it has no residual row (the
@@ -30,7 +39,16 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
     for p in &balance.ports {
         let role = if p.role == Role::Inlet { "in" } else { "out" };
         rows.push((format!("{} ({role}): pressure, p·A·n", p.name), -p.pressure_force));
-        rows.push((format!("{} ({role}): momentum flux, ±ṁβV", p.name), p.momentum_outflow));
+        // β is named where it is not 1 (a uniform port reads as before).
+        let beta = if p.beta == 1.0 {
+            String::new()
+        } else {
+            format!(", β = {}", trimmed(units::format_significant(p.beta, 4)))
+        };
+        rows.push((
+            format!("{} ({role}): momentum flux, ±ṁβV{beta}", p.name),
+            p.momentum_outflow,
+        ));
     }
     if balance.fluid_weight.norm() > 0.0 {
         rows.push(("fluid inside: weight, −W".to_string(), -balance.fluid_weight));

@@ -5,21 +5,25 @@
 //! A control volume is drawn around the fluid in the nozzle, cut at the flange face
 //! (1, the pipe's bore) and at the vena contracta of the jet (j), where the jet's
 //! pressure is atmospheric (zero gauge). The nozzle is described by its velocity
-//! coefficient C_v = V_j / √(2(p₁/ρ + V₁²/2)) and contraction coefficient
+//! coefficient C_v = V_j / √(2(p₁/ρ + α₁V₁²/2)) and contraction coefficient
 //! C_c = A_j / A_n; the discharge coefficient is C_d = C_c·C_v, so that
-//! Q = C_d·A_n·√(2(p₁/ρ + V₁²/2)). The energy balance between the faces is then
+//! Q = C_d·A_n·√(2(p₁/ρ + α₁V₁²/2)). The energy balance between the faces is then
 //!
-//! p₁/ρ + V₁²/2 = V_j²/2 + K·V_j²/2, with K = 1/C_v² − 1,
+//! p₁/ρ + α₁V₁²/2 = V_j²/2 + K·V_j²/2, with K = 1/C_v² − 1,
 //!
 //! which the engine solves for p₁ from a given flow. Given p₁ instead, the flow
 //! follows from the same balance in closed form (with V₁ = V_j·A_j/A₁):
 //!
-//! V_j = √( (2p₁/ρ) / (1/C_v² − (A_j/A₁)²) ).
+//! V_j = √( (2p₁/ρ) / (1/C_v² − α₁(A_j/A₁)²) ).
+//!
+//! α₁ and β₁ are the kinetic-energy and momentum-flux factors of the approach flow
+//! at the flange (uniform unless chosen: laminar, a power law, typed, or carried from
+//! the velocity-profile page; [`common::profile_from`]); the jet is uniform.
 //!
 //! The linear-momentum balance ([`crate::engine`]) gives the force the pipe exerts
-//! on the nozzle across the flange joint, R = −p₁A₁ + ṁ(V_j − V₁) along the flow, so
+//! on the nozzle across the flange joint, R = −p₁A₁ + ṁ(V_j − β₁V₁) along the flow, so
 //! the nozzle pulls on the joint with the **end force on the bore**
-//! T = p₁A₁ − ṁ(V_j − V₁), downstream. That is not the bolt load: the pressure also
+//! T = p₁A₁ − ṁ(V_j − β₁V₁), downstream. That is not the bolt load: the pressure also
 //! acts between the flange faces out to the gasket reaction diameter G, and the bolts
 //! carry the gasket load besides. When G is given the page reports the hydrostatic
 //! end force of flange design, H = (π/4)·G²·p₁ = 0.785·G²·P (ASME BPVC Section VIII
@@ -36,9 +40,9 @@
 //! stress areas; ASME BPVC II-D and EN 13445-3 allowables).
 //!
 //! Checks shown to users: the end force on the bore against the closed form
-//! p₁A₁ − ρQ(V_j − V₁) with p₁ = ρ(V_j²/C_v² − V₁²)/2 worked in plain arithmetic
+//! p₁A₁ − ρQ(V_j − β₁V₁) with p₁ = ρ(V_j²/C_v² − α₁V₁²)/2 worked in plain arithmetic
 //! (independent of the engine's balance); the jet reaction ṁV_j against the energy
-//! form 2·C_v²·A_j·(p₁ + ρV₁²/2) with the engine's p₁; and, with the pressure given,
+//! form 2·C_v²·A_j·(p₁ + α₁ρV₁²/2) with the engine's p₁; and, with the pressure given,
 //! the engine's p₁ against it.
 //!
 //! Sources: the integral momentum and energy balances and nozzle coefficients as in
@@ -186,6 +190,7 @@ pub fn spec() -> CalculatorSpec {
     ];
     fields.extend(bolts::fields());
     fields.extend(common::fluid_fields("15 degC"));
+    fields.extend(common::profile_fields(&common::INLET_PROFILE));
     CalculatorSpec {
         key: KEY,
         title: "End force and jet reaction at a flanged nozzle",
@@ -293,6 +298,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         cc,
         d_gasket,
         fluid,
+        profile_in: common::profile_from(values, &common::INLET_PROFILE)?,
     })
 }
 

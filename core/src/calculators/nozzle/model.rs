@@ -38,6 +38,8 @@ pub struct Inputs {
     pub fluid: Fluid,
     /// The flange's bolts, when their number and size are given.
     pub bolts: Option<super::bolts::Bolting>,
+    /// β and α at the flange face (the jet is taken as uniform).
+    pub profile_in: common::PortProfile,
 }
 
 /// Why a valid set of inputs has no steady operating point on this page.
@@ -96,13 +98,14 @@ pub fn solve(inputs: &Inputs) -> Result<Nozzle, Refusal> {
     let a_pipe = common::circle_area(d_pipe);
     let a_jet = cc * common::circle_area(d_nozzle);
     let rho = inputs.fluid.density;
+    let alpha_in = inputs.profile_in.alpha.value;
 
     let flow = match inputs.given {
         Given::Flow(q) => {
             let q = q.value;
             // Energy balance solved for the pressure (closed form, see the module doc).
             let (v_jet, v_pipe) = (q / a_jet, q / a_pipe);
-            let needed = 0.5 * rho * (v_jet * v_jet / (cv * cv) - v_pipe * v_pipe);
+            let needed = 0.5 * rho * (v_jet * v_jet / (cv * cv) - alpha_in * v_pipe * v_pipe);
             if needed > MAX_PRESSURE_PA {
                 return Err(Refusal::FlowNeedsTooMuchPressure { needed });
             }
@@ -110,7 +113,7 @@ pub fn solve(inputs: &Inputs) -> Result<Nozzle, Refusal> {
         }
         Given::Pressure(p) => {
             // Energy balance solved for the jet velocity (closed form, see the module doc).
-            let denominator = 1.0 / (cv * cv) - (a_jet / a_pipe).powi(2);
+            let denominator = 1.0 / (cv * cv) - alpha_in * (a_jet / a_pipe).powi(2);
             if denominator <= 0.0 {
                 return Err(Refusal::Fields(
                     crate::error::FieldError::inconsistent(
@@ -130,9 +133,11 @@ pub fn solve(inputs: &Inputs) -> Result<Nozzle, Refusal> {
     let vena = if cc < 1.0 { length + 0.5 * d_nozzle } else { length };
     let mut cv_fluid = ControlVolume::new(inputs.fluid.clone());
     let i = cv_fluid.port(
-        Port::inlet("flange face", si::area(a_pipe), Direction::X)
-            .volume_flow(si::volume_flow(flow))
-            .at(Vec3::ZERO),
+        inputs.profile_in.apply(
+            Port::inlet("flange face", si::area(a_pipe), Direction::X)
+                .volume_flow(si::volume_flow(flow))
+                .at(Vec3::ZERO),
+        ),
     );
     let o = cv_fluid.port(
         Port::outlet("jet", si::area(a_jet), Direction::X)

@@ -54,23 +54,24 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
 
     // Checks by independent paths (see the module doc).
     let (flow, cv) = (nozzle.flow, nozzle.cv);
+    let (beta1, alpha1) = (inputs.profile_in.beta.value, inputs.profile_in.alpha.value);
     let (v_jet_closed, v_pipe_closed) = (flow / nozzle.a_jet, flow / nozzle.a_pipe);
-    let p_closed = 0.5 * rho * (v_jet_closed * v_jet_closed / (cv * cv) - v_pipe_closed * v_pipe_closed);
+    let p_closed = 0.5 * rho * (v_jet_closed * v_jet_closed / (cv * cv) - alpha1 * v_pipe_closed * v_pipe_closed);
     report.check(
         "End force on the bore",
-        "the closed form p₁A₁ − ρQ(V_j − V₁) with p₁ = ρ(V_j²/C_v² − V₁²)/2, in plain arithmetic",
+        "the closed form p₁A₁ − ρQ(V_j − β₁V₁) with p₁ = ρ(V_j²/C_v² − α₁V₁²)/2, in plain arithmetic",
         Q::Force,
         nozzle.end_force,
-        p_closed * nozzle.a_pipe - rho * flow * (v_jet_closed - v_pipe_closed),
+        p_closed * nozzle.a_pipe - rho * flow * (v_jet_closed - beta1 * v_pipe_closed),
         1e-9,
         p_closed * nozzle.a_pipe,
     );
     report.check(
         "Jet reaction ṁV_j",
-        "the energy form 2·C_v²·A_j·(p₁ + ρV₁²/2) with the balance's p₁",
+        "the energy form 2·C_v²·A_j·(p₁ + α₁ρV₁²/2) with the balance's p₁",
         Q::Force,
         nozzle.jet_reaction,
-        2.0 * cv * cv * nozzle.a_jet * (inlet.pressure + 0.5 * rho * inlet.speed * inlet.speed),
+        2.0 * cv * cv * nozzle.a_jet * (inlet.pressure + 0.5 * alpha1 * rho * inlet.speed * inlet.speed),
         1e-9,
         0.0,
     );
@@ -148,8 +149,10 @@ fn basis_table(inputs: &Inputs, nozzle: &Nozzle, report: &Report<'_>) -> crate::
         ),
         (
             "End force on the bore",
-            "T = p₁A₁ − ṁ(V_j − V₁), + when the nozzle pulls off; not the bolt load".to_string(),
+            "T = p₁A₁ − ṁ(V_j − β₁V₁), + when the nozzle pulls off; not the bolt load".to_string(),
         ),
+        ("Velocity profile at the flange", inputs.profile_in.describe()),
+        ("Velocity profile of the jet", "uniform (β = α = 1)".to_string()),
         (
             "End force at the gasket",
             match inputs.d_gasket {

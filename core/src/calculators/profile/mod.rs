@@ -25,6 +25,12 @@
 //! ([`crate::quadrature`]) of the same profile function, an independent numerical
 //! path through the same profile (for the laws: against their closed forms).
 //!
+//! # Carried to the fitting pages
+//! The report links to the bend, reducer and nozzle pages (their inlet) and to the
+//! tee page (its common pipe) with the profile `carried` and β and α typed
+//! ([`crate::calculators::common::profile_carry_overs`]); the fitting's basis table
+//! then says "β from the velocity-profile page".
+//!
 //! # Assumptions
 //! Axisymmetric profile; the points describe u(r) linearly between them; the wall zone
 //! follows a power law from the outermost point; point positions and counts follow
@@ -248,6 +254,38 @@ pub(crate) mod tests {
             }
         }
         Ok(())
+    }
+
+    #[test]
+    fn the_profile_carries_its_beta_to_each_fitting_page() {
+        // Issue 12 §1: one link per fitting page; the fitting reads the carried β
+        // and α and says where they came from.
+        let s = crate::calculators::testing::solved(super::KEY, &[("shape", "power_law"), ("n_power", "7")]);
+        let beta = s.output("beta").expect("β").si;
+        assert_eq!(s.carry_over.len(), crate::calculators::common::PROFILE_TARGETS.len());
+        for carry in &s.carry_over {
+            let pairs: Vec<(&str, &str)> = carry.inputs.iter().map(|(k, v)| (*k, v.as_str())).collect();
+            let fitting = crate::calculators::testing::solved(carry.calculator, &pairs);
+            let basis = fitting.tables.iter().find(|t| t.key == "basis").expect("basis table");
+            assert!(
+                basis
+                    .rows
+                    .iter()
+                    .any(|r| r[1].contains("β from the velocity-profile page")),
+                "{}: {basis:?}",
+                carry.calculator
+            );
+            let ledger = fitting.tables.iter().find(|t| t.key == "ledger").expect("ledger");
+            let shown = format!(
+                "β = {}",
+                crate::calculators::common::trimmed(crate::units::format_significant(beta, 4))
+            );
+            assert!(
+                ledger.rows.iter().any(|r| r[0].contains(&shown)),
+                "{}: {ledger:?}",
+                carry.calculator
+            );
+        }
     }
 
     #[test]

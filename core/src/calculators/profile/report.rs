@@ -63,6 +63,11 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
     if beta > 1.1 {
         report.warn(Some("shape"), FAR_FROM_FLAT);
     }
+    // One link per fitting page: the profile's β and α at that fitting's inlet.
+    report
+        .solution
+        .carry_over
+        .extend(common::profile_carry_overs(beta, alpha));
     if !basis.is_empty() {
         report.solution.tables.push(common::basis_table(basis));
     }

@@ -7,10 +7,12 @@
 //!
 //! R = p₁A₁n₁ + p₂A₂n₂ + ṁ(β₂V₂ − β₁V₁) − W, and the thrust T = −R,
 //!
-//! whose axial part is T_x = p₁A₁ − p₂A₂ + ṁ(V₁ − V₂). The outlet pressure comes
-//! from the energy balance with the fitting's loss,
+//! whose axial part is T_x = p₁A₁ − p₂A₂ + ṁ(β₁V₁ − β₂V₂). The pressure known at one
+//! face (`p_known`: the inlet, the default and what old links mean; the outlet; or
+//! the outlet open to atmosphere) gives the other by the energy balance with the
+//! fitting's loss,
 //!
-//! p₂ = p₁ + ρ(V₁² − V₂²)/2 − ρg(z₂ − z₁) − K·ρV_ref²/2,
+//! p₂ = p₁ + ρ(α₁V₁² − α₂V₂²)/2 − ρg(z₂ − z₁) − K·ρV_ref²/2,
 //!
 //! with K on the velocity of the smaller pipe (or a named one) and taken from:
 //! - Crane TP-410, *Flow of Fluids Through Valves, Fittings, and Pipe*, formulas for
@@ -29,12 +31,17 @@
 //! thrust-restraint guides (DIPRA, *Thrust Restraint Design for Ductile Iron Pipe*;
 //! AWWA Manual M41).
 //!
+//! β and α of each face are uniform unless chosen otherwise (fully developed
+//! laminar, a power law, typed, or carried from the velocity-profile page; see
+//! [`common::profile_from`]); the fluid's weight enters unless `weights=neglected`;
+//! gravity is standard unless `g_local` is typed.
+//!
 //! # Checks
-//! Recorded with [`Report::check`], each without the engine: the outlet pressure by
-//! the energy line above; the axial thrust by the closed form
-//! p₁A₁ − p₂A₂ + ṁ(V₁ − V₂) + W·(ĝ·x̂) on the area basis; at rest in a horizontal
-//! fitting, the static formula p(A₁ − A₂); with Borda–Carnot on the bores,
-//! −p₁(A₂ − A₁).
+//! Recorded with [`Report::check`], each without the engine: the pressure that was
+//! not known by the energy line above; the axial thrust by the closed form
+//! p₁A₁ − p₂A₂ + ṁ(β₁V₁ − β₂V₂) + W·(ĝ·x̂) on the area basis; at rest in a
+//! horizontal fitting, the static formula p(A₁ − A₂); with Borda–Carnot on the bores
+//! and uniform faces, −p₁(A₂ − A₁).
 //!
 //! # Area basis
 //! The joint (`joint`, empty: flanged) sets the area. For push-on and mechanical
@@ -141,20 +148,27 @@ pub fn spec() -> CalculatorSpec {
             Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
             "Smaller than the inlet for a reducer, larger for an expander.",
         ),
-        quantity(
-            "p",
-            "Gauge pressure at the inlet",
-            Q::Pressure,
-            "bar",
-            "psi",
-            "10 bar",
-            Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
+        FieldSpec {
+            visible_when: common::P_AT_INLET,
+            ..quantity(
+                "p",
+                "Gauge pressure at the inlet",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "10 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The design pressure: the highest the line will see, including test pressure and surge. Gauge, so \
                     not below 0.",
-        ),
+            )
+        },
     ];
+    fields.extend(common::pressure_known_fields());
     fields.extend(common::flow_given_fields("850 m3/h"));
+    fields.extend(common::profile_fields(&common::INLET_PROFILE));
+    fields.extend(common::profile_fields(&common::OUTLET_PROFILE));
     fields.extend(common::fluid_fields("25 degC"));
+    fields.push(common::gravity_field());
     fields.extend([
         quantity(
             "cone_angle",
@@ -205,6 +219,7 @@ pub fn spec() -> CalculatorSpec {
             "horizontal",
             "In a vertical fitting the fluid's weight acts along the axis and the outlet is higher or lower.",
         ),
+        common::weights_field(),
         FieldSpec {
             optional: true,
             ..choice(
@@ -260,6 +275,7 @@ pub fn spec() -> CalculatorSpec {
                 Q::Force,
             ),
             OutputSpec::headline("p_out", "Gauge pressure at the outlet", Q::Pressure),
+            OutputSpec::listed("p_in", "Gauge pressure at the inlet", Q::Pressure),
             OutputSpec::listed("k_used", "Loss coefficient used, on the reference velocity", Q::Ratio),
             OutputSpec::listed("head_loss", "Head loss in the fitting", Q::Length),
             OutputSpec::listed("v_in", "Mean velocity at the inlet", Q::Velocity),

@@ -4,15 +4,14 @@
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Angle, Length, Pressure, Ratio};
+use uom::si::f64::{Acceleration, Angle, Length, Ratio};
 
 use crate::catalog::{ChoiceOption, Values};
 use crate::engine::{self, si, ControlVolume, Loss, Port, Stream};
 use crate::error::{FieldError, FieldErrors};
-use crate::units::STANDARD_GRAVITY;
 use crate::vector::{Direction, Vec3};
 
-use super::super::common;
+use super::super::common::{self, KnownPressure, PortProfile};
 use super::{crane_k_small, K_REF_OPTIONS, LOSS_OPTIONS, ORIENTATION_OPTIONS};
 
 /// The page's inputs, validated. Diameters and pressures are uom quantities.
@@ -20,7 +19,8 @@ use super::{crane_k_small, K_REF_OPTIONS, LOSS_OPTIONS, ORIENTATION_OPTIONS};
 pub struct Inputs {
     pub d: Length,
     pub d2: Length,
-    pub p: Pressure,
+    /// The port whose gauge pressure is known, and that pressure.
+    pub known: KnownPressure,
     pub cone_angle: Angle,
     /// The loss model key (`crane`, `borda`, `k`, `none`).
     pub loss: &'static str,
@@ -34,6 +34,13 @@ pub struct Inputs {
     pub flow: crate::engine::FlowSpec,
     /// The flow field the user filled, for warnings.
     pub flow_field: &'static str,
+    /// β and α at the inlet and the outlet.
+    pub profile_in: PortProfile,
+    pub profile_out: PortProfile,
+    /// Whether the fluid's weight enters the balance.
+    pub weights: bool,
+    /// Gravity used (standard unless a local value is typed).
+    pub gravity: Acceleration,
 }
 
 fn option_key(options: &'static [ChoiceOption], field: &'static str, key: &str) -> Result<&'static str, FieldError> {
@@ -51,7 +58,7 @@ fn option_key(options: &'static [ChoiceOption], field: &'static str, key: &str) 
 pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     let d: Length = values.typed("d")?;
     let d2: Length = values.typed("d2")?;
-    let p = values.typed("p")?;
+    let known = common::known_pressure_from(values)?;
     let cone_angle = values.typed("cone_angle")?;
     let loss = option_key(LOSS_OPTIONS, "loss", values.choice("loss")?)?;
     let flow_dir = option_key(ORIENTATION_OPTIONS, "flow_dir", values.choice("flow_dir")?)?;
@@ -92,7 +99,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     Ok(Inputs {
         d,
         d2,
-        p,
+        known,
         cone_angle,
         loss,
         k_given,
@@ -101,6 +108,10 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         fluid,
         flow,
         flow_field: common::flow_field(values),
+        profile_in: common::profile_from(values, &common::INLET_PROFILE)?,
+        profile_out: common::profile_from(values, &common::OUTLET_PROFILE)?,
+        weights: common::weights_from(values),
+        gravity: Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(common::gravity_from(values)),
     })
 }
 
@@ -132,9 +143,10 @@ pub struct Solved {
 /// The pure model: the control volume of the fluid in the cone and its balances.
 ///
 /// # Errors
-/// An engine refusal, on `p`.
+/// An engine refusal, on the known pressure's field.
 pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
-    let (d_in, d_out, p_in) = (inputs.d.value, inputs.d2.value, inputs.p.value);
+    let (d_in, d_out) = (inputs.d.value, inputs.d2.value);
+    let g = inputs.gravity.value;
     let mut theta = inputs.cone_angle.value;
     let loss_model = inputs.loss;
     let orientation = inputs.flow_dir;
@@ -176,9 +188,9 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     };
 
     let (axis, gravity) = match orientation {
-        "upward" => (Direction::Y, Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
-        "downward" => (Direction::in_plane(-PI / 2.0), Vec3::new(0.0, -STANDARD_GRAVITY, 0.0)),
-        _ => (Direction::X, Vec3::new(0.0, 0.0, -STANDARD_GRAVITY)),
+        "upward" => (Direction::Y, Vec3::new(0.0, -g, 0.0)),
+        "downward" => (Direction::in_plane(-PI / 2.0), Vec3::new(0.0, -g, 0.0)),
+        _ => (Direction::X, Vec3::new(0.0, 0.0, -g)),
     };
     let length = if theta >= PI {
         0.0
@@ -190,20 +202,27 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
 
     let mut cv = ControlVolume::new(fluid.clone());
     cv.gravity(gravity);
-    let mut inlet = Port::inlet("inlet", si::area(a_in), axis)
-        .pressure(si::pressure(p_in))
-        .at(Vec3::ZERO);
+    let mut inlet = inputs
+        .profile_in
+        .apply(Port::inlet("inlet", si::area(a_in), axis).at(Vec3::ZERO));
     inlet.flow = flow;
+    let outlet = inputs
+        .profile_out
+        .apply(Port::outlet("outlet", si::area(a_out), axis).at(a * length));
+    let [inlet, outlet] = inputs.known.apply(inlet, outlet);
     let i = cv.port(inlet);
-    let o = cv.port(Port::outlet("outlet", si::area(a_out), axis).at(a * length));
+    let o = cv.port(outlet);
     cv.stream(Stream::new(i, o).loss(Loss::Coefficient { k, reference_port }));
-    cv.contains(si::volume(volume), a * (0.5 * length));
-    let mut balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
+    // Neglected weights: gravity still sets the elevation head, the fluid weighs nothing.
+    let weighed_volume = if inputs.weights { volume } else { 0.0 };
+    cv.contains(si::volume(weighed_volume), a * (0.5 * length));
+    let field = inputs.known.field();
+    let mut balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, field)))?;
     if let Some((od_in, od_out)) = outside {
         // Push-on or mechanical joints: the solved pressures also act on the wall
         // annulus out to the outside diameter at each end.
         common::add_joint_annulus_forces(&mut cv, &balance, [(i, od_in), (o, od_out)]);
-        balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, "p")))?;
+        balance = engine::balance(&cv).map_err(|e| FieldErrors::from(common::engine_error(e, field)))?;
     }
     let (basis_a_in, basis_a_out) = match outside {
         Some((od_in, od_out)) => (common::circle_area(od_in), common::circle_area(od_out)),

@@ -5,7 +5,7 @@
 use std::f64::consts::PI;
 
 use crate::catalog::Report;
-use crate::units::{QuantityKind as Q, STANDARD_GRAVITY};
+use crate::units::QuantityKind as Q;
 use crate::vector::Vec3;
 
 use super::super::common;
@@ -14,7 +14,10 @@ use super::ORIENTATION_OPTIONS;
 
 /// The report, built from the solved model.
 pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
-    let (d_in, d_out, p_in) = (inputs.d.value, inputs.d2.value, inputs.p.value);
+    let (d_in, d_out) = (inputs.d.value, inputs.d2.value);
+    let g = inputs.gravity.value;
+    let (beta1, beta2) = (inputs.profile_in.beta.value, inputs.profile_out.beta.value);
+    let (alpha1, alpha2) = (inputs.profile_in.alpha.value, inputs.profile_out.alpha.value);
     let (loss_model, orientation) = (inputs.loss, inputs.flow_dir);
     let outside = inputs.outside.map(|(od, od2)| (od.value, od2.value));
     let fluid = &inputs.fluid;
@@ -45,6 +48,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("thrust", axial.abs());
     report.output("thrust_axial", axial);
     report.output("thrust_resultant", thrust.norm());
+    report.output("p_in", inlet_state.pressure);
     report.output("p_out", outlet_state.pressure);
     report.output("k_used", k);
     if let Some(s) = balance.streams.first() {
@@ -68,32 +72,49 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     // the static formula of the thrust-restraint guides.
     let mass_flow = inlet_state.mass_flow;
     let rho = fluid.density;
+    // Borda–Carnot's closed form assumes uniform velocity at both faces.
+    let uniform = inputs.profile_in.is_uniform() && inputs.profile_out.is_uniform();
     let (v1, v2) = (mass_flow / (rho * a_in), mass_flow / (rho * a_out));
     let v_ref = if reference_port == 0 { v1 } else { v2 };
-    let up = -gravity.dot(a) / STANDARD_GRAVITY;
-    let p_out =
-        p_in + 0.5 * rho * (v1 * v1 - v2 * v2) - rho * STANDARD_GRAVITY * up * length - k * 0.5 * rho * v_ref * v_ref;
+    let up = -gravity.dot(a) / g;
+    // p₁ − p₂ = ρ(α₂V₂² − α₁V₁²)/2 + ρg(z₂ − z₁) + K·ρV_ref²/2.
+    let drop =
+        0.5 * rho * (alpha2 * v2 * v2 - alpha1 * v1 * v1) + rho * g * up * length + k * 0.5 * rho * v_ref * v_ref;
+    let known = inputs.known.pascals();
+    let (p_in, p_out) = if inputs.known.at_inlet() {
+        (known, known - drop)
+    } else {
+        (known + drop, known)
+    };
+    let (solved_label, solved_by_engine, solved_closed) = if inputs.known.at_inlet() {
+        ("Gauge pressure at the outlet", outlet_state.pressure, p_out)
+    } else {
+        ("Gauge pressure at the inlet", inlet_state.pressure, p_in)
+    };
     report.check(
-        "Gauge pressure at the outlet",
-        "Bernoulli with the loss K·ρV_ref²/2",
+        solved_label,
+        "energy line with α and the loss, p₁ + α₁ρV₁²/2 = p₂ + α₂ρV₂²/2 + ρg(z₂ − z₁) + K·ρV_ref²/2",
         Q::Pressure,
-        outlet_state.pressure,
-        p_out,
+        solved_by_engine,
+        solved_closed,
         1e-9,
         // Relative to the largest term of the energy line (they can cancel).
-        p_in.abs() + rho * (v1 * v1 + v2 * v2 + k * v_ref * v_ref) + rho * STANDARD_GRAVITY * length,
+        known.abs() + rho * (alpha1 * v1 * v1 + alpha2 * v2 * v2 + k * v_ref * v_ref) + rho * g * length,
     );
-    let weight_along = -up * rho * STANDARD_GRAVITY * volume;
-    let closed_axial = p_in * basis_a_in - p_out * basis_a_out + mass_flow * (v1 - v2) + weight_along;
+    let weight_along = if inputs.weights { -up * rho * g * volume } else { 0.0 };
+    let closed_axial = p_in * basis_a_in - p_out * basis_a_out + mass_flow * (beta1 * v1 - beta2 * v2) + weight_along;
     report.check(
         "Axial thrust",
-        "closed form p₁A₁ − p₂A₂ + ṁ(V₁ − V₂) + W along the axis, on the area basis",
+        "closed form p₁A₁ − p₂A₂ + ṁ(β₁V₁ − β₂V₂) + W along the axis, on the area basis",
         Q::Force,
         axial,
         closed_axial,
         1e-9,
         // Relative to the sum of the terms' magnitudes: the terms can cancel.
-        p_in.abs() * basis_a_in + p_out.abs() * basis_a_out + mass_flow * (v1 + v2) + weight_along.abs(),
+        p_in.abs() * basis_a_in
+            + p_out.abs() * basis_a_out
+            + mass_flow * (beta1 * v1 + beta2 * v2)
+            + weight_along.abs(),
     );
     if mass_flow == 0.0 && orientation == "horizontal" {
         report.check(
@@ -106,7 +127,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             0.0,
         );
     }
-    if loss_model == "borda" && outside.is_none() && orientation == "horizontal" {
+    if loss_model == "borda" && outside.is_none() && orientation == "horizontal" && uniform {
         report.check(
             "Axial thrust",
             "Borda–Carnot: the inlet pressure on the step, −p₁(A₂ − A₁)",
@@ -127,10 +148,17 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "the two diameters are equal: this is straight pipe and only friction and weight load it",
         );
     }
-    if outlet_state.pressure < 0.0 {
+    let solved_place = if inputs.known.at_inlet() { "outlet" } else { "inlet" };
+    if solved_by_engine < 0.0 {
         report.warn(
-            Some("p"),
-            "the outlet gauge pressure comes out below atmospheric: check the inputs",
+            Some(inputs.known.field()),
+            format!("the {solved_place} gauge pressure comes out below atmospheric: check the inputs"),
+        );
+    }
+    if !inputs.weights && orientation != "horizontal" {
+        report.warn(
+            Some("weights"),
+            "the fluid's weight is left out: a vertical fitting's restraint carries it too; include it for design",
         );
     }
     if loss_model == "cone_formula" && expands && theta > PI / 4.0 && theta < PI {
@@ -156,7 +184,16 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     } else {
         "equal sizes"
     };
-    report.solution.tables.push(common::basis_table(vec![
+    let mut basis = common::balance_basis_rows(
+        &inputs.known,
+        &[
+            ("Velocity profile, inlet", &inputs.profile_in),
+            ("Velocity profile, outlet", &inputs.profile_out),
+        ],
+        inputs.weights,
+        g,
+    );
+    basis.extend(vec![
         ("Fitting", kind.to_string()),
         ("Loss model", loss_text.clone()),
         (
@@ -191,7 +228,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 .unwrap_or(orientation)
                 .to_string(),
         ),
-    ]));
+    ]);
+    report.solution.tables.push(common::basis_table(basis));
     let system = report.system();
     report.solution.tables.push(common::ledger_table(balance, system));
     report.solution.tables.push(common::ports_table(balance, system));

@@ -16,11 +16,15 @@
 //!   1e-6), the branch with the largest share takes Q₀ less the others, so that mass
 //!   closes exactly.
 //! - **Energy**, along each stream between the common pipe and branch i:
-//!   p₀/ρ + V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
+//!   p₀/ρ + α₀V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
 //!   branch to the common pipe), with V_ref the common pipe's velocity (as most
 //!   junction-loss tables give it, e.g. Idelchik, *Handbook of Hydraulic
 //!   Resistance*, or Miller, *Internal Flow Systems*) or the branch's own. The
-//!   pressure is given in the common pipe; each branch pressure is solved. K may be
+//!   pressure is known in the common pipe (`p_known=common`, the default) and each
+//!   branch pressure is solved, or at one branch (`p_known=b1`…`b6`, `p_branch`):
+//!   that branch's stream is balanced first for the common pipe's pressure, then the
+//!   others from it. α₀ and β₀ are the common pipe's kinetic-energy and
+//!   momentum-flux factors (uniform unless chosen; the branches are uniform). K may be
 //!   negative (published tee data has it where a stream is drawn along by another:
 //!   Crane TP-410, 2009, Example 7-36, K = −0.040 for a converging branch), down to
 //!   [`MIN_LOSS_COEFFICIENT`] on the common velocity, as long as the junction as a whole
@@ -36,8 +40,9 @@
 //! # Checks
 //! Shown in the checks table ([`Report::check`]): the engine's branch flows against
 //! the common flow as given, and each thrust component against the impulse-function
-//! sum −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
-//! written out from Bernoulli per branch, not taken from the engine. A thrust
+//! sum −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
+//! written out from Bernoulli per branch, not taken from the engine; with a branch's
+//! pressure known, the common pipe's pressure against Bernoulli from that branch. A thrust
 //! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
 //! square branch's pressure force) is rounding residue and shown as 0.
 //!
@@ -76,7 +81,39 @@ mod diagram;
 pub mod model;
 mod report;
 
-use model::{Branch, CommonFlow, Inputs, Junction, LossReference};
+use model::{Branch, CommonFlow, Inputs, Junction, KnownAt, LossReference};
+
+/// The ports whose pressure may be the known one: the common pipe or one branch.
+const P_KNOWN_OPTIONS: &[ChoiceOption] = &[
+    ChoiceOption {
+        key: "common",
+        label: "In the common pipe",
+    },
+    ChoiceOption {
+        key: "b1",
+        label: "At branch 1",
+    },
+    ChoiceOption {
+        key: "b2",
+        label: "At branch 2",
+    },
+    ChoiceOption {
+        key: "b3",
+        label: "At branch 3",
+    },
+    ChoiceOption {
+        key: "b4",
+        label: "At branch 4",
+    },
+    ChoiceOption {
+        key: "b5",
+        label: "At branch 5",
+    },
+    ChoiceOption {
+        key: "b6",
+        label: "At branch 6",
+    },
+];
 
 pub const KEY: &str = "tee";
 
@@ -346,17 +383,45 @@ pub fn spec() -> CalculatorSpec {
             "Bore of the pipe that carries the whole flow (the inlet when dividing, the outlet when \
                     combining).",
         ),
-        quantity(
-            "p",
-            "Gauge pressure in the common pipe",
-            Q::Pressure,
-            "bar",
-            "psi",
-            "10 bar",
-            Limits::closed(0.0, MAX_PRESSURE_PA),
-            "The design pressure at the common pipe's face: the highest the line will see, test and surge \
+        FieldSpec {
+            optional: true,
+            ..choice(
+                common::P_KNOWN,
+                "Pressure known at",
+                P_KNOWN_OPTIONS,
+                "common",
+                "The port whose gauge pressure you know; the others follow from the energy balance of each \
+                    stream with its loss.",
+            )
+        },
+        FieldSpec {
+            visible_when: Some((common::P_KNOWN, &["common"])),
+            ..quantity(
+                "p",
+                "Gauge pressure in the common pipe",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "10 bar",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "The design pressure at the common pipe's face: the highest the line will see, test and surge \
                     included. Gauge, so not below 0.",
-        ),
+            )
+        },
+        FieldSpec {
+            visible_when: Some((common::P_KNOWN, &["b1", "b2", "b3", "b4", "b5", "b6"])),
+            ..quantity(
+                "p_branch",
+                "Gauge pressure at that branch",
+                Q::Pressure,
+                "bar",
+                "psi",
+                "",
+                Limits::closed(0.0, MAX_PRESSURE_PA),
+                "Gauge, so not below 0; the common pipe's pressure follows from that branch's energy balance, \
+                    and the other branches' from the common pipe's.",
+            )
+        },
     ];
     for mut field in common::flow_given_fields("850 m3/h") {
         match field.key {
@@ -376,6 +441,7 @@ pub fn spec() -> CalculatorSpec {
         }
         fields.push(field);
     }
+    fields.extend(common::profile_fields(&common::COMMON_PROFILE));
     fields.push(choice(
         "branches",
         "Number of branches",
@@ -590,12 +656,25 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         _ => Junction::Dividing,
     };
     let d_common: Length = values.typed("d")?;
-    let p = values.typed("p")?;
     let count: usize = values
         .choice("branches")?
         .parse()
         .map_err(|_| FieldError::inconsistent("branches", "choose 1 to 6 branches"))?;
     let count = count.clamp(1, MAX_BRANCHES);
+    let known = match values.choice(common::P_KNOWN).unwrap_or("common") {
+        "common" => KnownAt::Common(values.typed("p")?),
+        branch => {
+            let n: usize = branch.trim_start_matches('b').parse().unwrap_or(0);
+            if !(1..=count).contains(&n) {
+                return Err(FieldError::inconsistent(
+                    common::P_KNOWN,
+                    format!("branch {n} is not on this page: choose the common pipe or a branch from 1 to {count}"),
+                )
+                .into());
+            }
+            KnownAt::Branch(n - 1, values.typed("p_branch")?)
+        }
+    };
     let loss_reference = match values.choice("k_ref")? {
         "branch" => LossReference::OwnBranch,
         _ => LossReference::CommonPipe,
@@ -622,7 +701,8 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         junction,
         d_common,
         common_outside,
-        p,
+        known,
+        profile_common: common::profile_from(values, &common::COMMON_PROFILE)?,
         flow,
         loss_reference,
         branches,
@@ -832,6 +912,35 @@ mod tests {
     crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
+    fn a_branch_pressure_known_gives_back_the_common_pressure() {
+        // Issue 12 §2: the pressure known at branch 2 (found from the common pipe's
+        // in a first solve) must give back the common pipe's pressure and thrust.
+        let base = [("junction", "dividing"), ("b2_k", "0.8"), ("profile_common", "laminar")];
+        let forward = solved(&[&base[..], &[("p", "9 bar")]].concat());
+        let p_b2 = forward.output("p_b2").unwrap().si;
+        let typed = format!("{p_b2} Pa");
+        let back = solved(&[&base[..], &[("p_known", "b2"), ("p_branch", typed.as_str())]].concat());
+        // Branch 1's pressure follows from the common pipe's: equal only if that is.
+        let run = back.output("p_b1").unwrap().si;
+        assert_relative_eq!(run, forward.output("p_b1").unwrap().si, max_relative = 1e-9);
+        assert_relative_eq!(
+            back.output("thrust").unwrap().si,
+            forward.output("thrust").unwrap().si,
+            max_relative = 1e-9
+        );
+        assert!(back.checks.iter().all(|c| c.agrees()), "{:?}", back.checks);
+        assert!(back
+            .checks
+            .iter()
+            .any(|c| c.label == "Gauge pressure in the common pipe"));
+        // A branch that is not on the page is refused by name.
+        assert_eq!(
+            error_field(&[("branches", "2"), ("p_known", "b4"), ("p_branch", "3 bar")]),
+            "p_known"
+        );
+    }
+
+    #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
         crate::calculators::testing::assert_glossary_keys(super::KEY);
     }
@@ -885,7 +994,8 @@ mod tests {
             junction: Junction::Dividing,
             d_common: mm(300.0),
             common_outside: Some(mm(326.0)),
-            p: Pressure::new::<bar>(10.0),
+            known: super::KnownAt::Common(Pressure::new::<bar>(10.0)),
+            profile_common: crate::calculators::common::PortProfile::uniform(),
             flow: CommonFlow::Volume(VolumeRate::new::<cubic_meter_per_second>(0.0)),
             loss_reference: LossReference::CommonPipe,
             branches: vec![

@@ -68,6 +68,25 @@ impl CommonFlow {
     }
 }
 
+/// The port whose gauge pressure is known.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum KnownAt {
+    /// The common pipe.
+    Common(Pressure),
+    /// The branch at this position among the page's branches (0 for branch 1).
+    Branch(usize, Pressure),
+}
+
+impl KnownAt {
+    /// The field a refusal of the balance is laid on.
+    pub fn field(&self) -> &'static str {
+        match self {
+            KnownAt::Common(_) => "p",
+            KnownAt::Branch(..) => "p_branch",
+        }
+    }
+}
+
 /// One branch as read from its fields.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Branch {
@@ -93,8 +112,10 @@ pub struct Inputs {
     /// Outside diameter of the common pipe, on the outside-diameter basis (joints
     /// that seal on the spigot's outside).
     pub common_outside: Option<Length>,
-    /// Gauge pressure in the common pipe.
-    pub p: Pressure,
+    /// Where the gauge pressure is known: the common pipe, or a branch.
+    pub known: KnownAt,
+    /// β and α in the common pipe (the branches are taken as uniform).
+    pub profile_common: common::PortProfile,
     pub flow: CommonFlow,
     pub loss_reference: LossReference,
     /// One to six branches; at most one share is empty and the shares add up to
@@ -189,7 +210,6 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     let dividing = inputs.dividing();
     let k_on_common = inputs.k_on_common();
     let d_common = inputs.d_common.value;
-    let p = inputs.p.value;
     let branches = &inputs.branches;
     let a_common = common::circle_area(d_common);
     let total_flow = inputs.total_flow();
@@ -202,18 +222,25 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     } else {
         Vec3::new(stub, 0.0, 0.0)
     };
-    let mut common_port = if dividing {
-        Port::inlet("common pipe", si::area(a_common), Direction::X)
-    } else {
-        Port::outlet("common pipe", si::area(a_common), Direction::X)
+    let mut common_port = inputs.profile_common.apply(
+        if dividing {
+            Port::inlet("common pipe", si::area(a_common), Direction::X)
+        } else {
+            Port::outlet("common pipe", si::area(a_common), Direction::X)
+        }
+        .at(common_position),
+    );
+    if let KnownAt::Common(p) = inputs.known {
+        common_port = common_port.pressure(p);
     }
-    .pressure(si::pressure(p))
-    .at(common_position);
     common_port.flow = inputs.flow.spec();
     let c = cv.port(common_port);
     let mut volume = a_common * stub;
     let mut moment = common_position * (0.5 * a_common * stub);
     let mut port_of = Vec::with_capacity(branches.len());
+    // The stream of a branch whose pressure is known goes first: it gives the common
+    // pipe's pressure, from which the other streams solve theirs.
+    let mut streams = Vec::with_capacity(branches.len());
     for (b, given) in branches.iter().zip(&branch_flows) {
         let area = common::circle_area(b.diameter.value);
         let direction = Direction::new(b.direction).unwrap_or(Direction::X);
@@ -232,16 +259,30 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         if let Some(q) = given {
             port = port.volume_flow(si::volume_flow(*q));
         }
+        let known_here = matches!(inputs.known, KnownAt::Branch(n, _) if n == b.index);
+        if let KnownAt::Branch(n, p) = inputs.known {
+            if n == b.index {
+                port = port.pressure(p);
+            }
+        }
         let i = cv.port(port);
         port_of.push(i);
         let reference_port = if k_on_common { c } else { i };
         let stream = if dividing { Stream::new(c, i) } else { Stream::new(i, c) };
-        cv.stream(stream.loss(Loss::Coefficient {
+        let stream = stream.loss(Loss::Coefficient {
             k: b.k.value,
             reference_port,
-        }));
+        });
+        if known_here {
+            streams.insert(0, stream);
+        } else {
+            streams.push(stream);
+        }
         volume += area * stub;
         moment += position * (0.5 * area * stub);
+    }
+    for stream in streams {
+        cv.stream(stream);
     }
     let centroid = if volume > 0.0 {
         moment * (1.0 / volume)
@@ -254,7 +295,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         .find(|b| b.share.is_none())
         .and_then(|b| BRANCHES.get(b.index))
         .map(|keys| keys.share)
-        .unwrap_or("p");
+        .unwrap_or(inputs.known.field());
     let named = |e| FieldErrors::from(common::engine_error(e, engine_field));
     let mut balance = engine::balance(&cv).map_err(named)?;
     // Outside diameter of each port on the area basis (the bore on the inside basis).
@@ -283,7 +324,8 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         zero_if_residue(raw.y, term_scale),
         zero_if_residue(raw.z, term_scale),
     );
-    // Static: every face at p, no flow.
+    // Static: every face at the common pipe's pressure, no flow.
+    let p = balance.ports[c].pressure;
     let static_thrust: Vec3 = cv
         .ports
         .iter()

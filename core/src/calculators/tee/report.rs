@@ -7,7 +7,7 @@ use crate::units::{self, QuantityKind as Q};
 use crate::vector::Vec3;
 
 use super::super::common;
-use super::model::{Inputs, Junction, Solved};
+use super::model::{Inputs, Junction, KnownAt, Solved};
 use super::{BRANCHES, JUNCTION_OPTIONS};
 
 /// Writes the whole report of a solved junction.
@@ -91,7 +91,23 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     } else {
         0.0
     };
-    report.solution.tables.push(common::basis_table(vec![
+    let known_text = match inputs.known {
+        KnownAt::Common(_) => "known in the common pipe".to_string(),
+        KnownAt::Branch(n, _) => format!("known at branch {}, the common pipe's from its stream", n + 1),
+    };
+    let mut basis = Vec::new();
+    // Said only where it differs from the defaults (pressure known in the common
+    // pipe, uniform profile), to keep the printed sheet on two pages.
+    if !matches!(inputs.known, KnownAt::Common(_)) || !inputs.profile_common.is_uniform() {
+        basis.push((
+            "Pressure; profile",
+            format!(
+                "{known_text}; common pipe {}, branches uniform",
+                inputs.profile_common.describe()
+            ),
+        ));
+    }
+    basis.extend(vec![
         (
             "Flow",
             match inputs.junction {
@@ -123,7 +139,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             "Carried to the thrust-block page",
             "pressure and momentum thrust; the fluid's weight is left to the bedding".to_string(),
         ),
-    ]));
+    ]);
+    report.solution.tables.push(common::basis_table(basis));
     report.solution.tables.push(branch_table(inputs, solved, report));
     report.solution.tables.push(common::ledger_table(balance, system));
     report.solution.tables.push(common::ports_table(balance, system));
@@ -149,7 +166,8 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 ///   T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
 fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let (dividing, k_on_common) = (inputs.dividing(), inputs.k_on_common());
-    let (p, rho, d_common) = (inputs.p.value, inputs.fluid.density, inputs.d_common.value);
+    let (rho, d_common) = (inputs.fluid.density, inputs.d_common.value);
+    let (beta0, alpha0) = (inputs.profile_common.beta.value, inputs.profile_common.alpha.value);
     let (total_flow, stub, volume) = (solved.total_flow, solved.stub, solved.volume);
     let (branches, branch_flows) = (&inputs.branches, &solved.branch_flows);
     let (balance, port_of) = (&solved.balance, &solved.port_of);
@@ -174,21 +192,58 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     let face = |pressure: f64, speed: f64, area: f64, outside_area: f64, normal: Vec3| {
         normal * (-((pressure + rho * speed * speed) * area + pressure * (outside_area - area)))
     };
+    // The common face with β₀: `beta_v2` is β₀V₀².
+    let normal_face = |pressure: f64, beta_v2: f64, area: f64, outside_area: f64, normal: Vec3| {
+        normal * (-((pressure + rho * beta_v2) * area + pressure * (outside_area - area)))
+    };
     let a_common_outside = inputs
         .common_outside
         .map_or(a_common, |od| common::circle_area(od.value));
-    let mut thrust = face(p, v_common, a_common, a_common_outside, common_normal);
-    let mut scale = (p.abs() + rho * v_common * v_common) * a_common_outside;
-    for (b, q) in branches.iter().zip(branch_flows) {
-        let q = q.unwrap_or((total_flow - given).max(0.0));
-        let area = common::circle_area(b.diameter.value);
-        let speed = q / area;
+    // Each branch's pressure less the common pipe's, from Bernoulli with α₀ in the
+    // common pipe and the branch's loss: p_i − p₀ = ρ(α₀V₀² − V_i²)/2 − ρg·z_i ∓ loss.
+    let branch_speed = |b: &super::model::Branch, q: &Option<f64>| {
+        q.unwrap_or((total_flow - given).max(0.0)) / common::circle_area(b.diameter.value)
+    };
+    let rise_over_common = |b: &super::model::Branch, speed: f64| {
         let v_ref = if k_on_common { v_common } else { speed };
         let loss = b.k.value * rho * v_ref * v_ref / 2.0;
         // The common face sits at z = 0; a branch's face one stub along its axis.
         let z = stub * b.direction.z * if dividing { 1.0 } else { -1.0 };
-        let pressure =
-            p + rho * (v_common * v_common - speed * speed) / 2.0 - rho * g * z + if dividing { -loss } else { loss };
+        rho * (alpha0 * v_common * v_common - speed * speed) / 2.0 - rho * g * z + if dividing { -loss } else { loss }
+    };
+    let p = match inputs.known {
+        KnownAt::Common(p) => p.value,
+        KnownAt::Branch(n, p_known) => branches
+            .iter()
+            .zip(branch_flows)
+            .find(|(b, _)| b.index == n)
+            .map_or(p_known.value, |(b, q)| {
+                p_known.value - rise_over_common(b, branch_speed(b, q))
+            }),
+    };
+    if let KnownAt::Branch(..) = inputs.known {
+        report.check(
+            "Gauge pressure in the common pipe",
+            "Bernoulli from the known branch, with its loss",
+            Q::Pressure,
+            balance.ports[solved.common_port].pressure,
+            p,
+            1e-9,
+            p.abs() + rho * alpha0 * v_common * v_common,
+        );
+    }
+    let mut thrust = normal_face(
+        p,
+        beta0 * v_common * v_common,
+        a_common,
+        a_common_outside,
+        common_normal,
+    );
+    let mut scale = (p.abs() + beta0 * rho * v_common * v_common) * a_common_outside;
+    for (b, q) in branches.iter().zip(branch_flows) {
+        let area = common::circle_area(b.diameter.value);
+        let speed = branch_speed(b, q);
+        let pressure = p + rise_over_common(b, speed);
         let normal = b.direction * if dividing { 1.0 } else { -1.0 };
         let outside_area = b.outside.map_or(area, |od| common::circle_area(od.value));
         thrust += face(pressure, speed, area, outside_area, normal);
@@ -197,7 +252,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     thrust += Vec3::new(0.0, 0.0, -rho * g * volume);
     scale += rho * g * volume;
     let engine_thrust = balance.thrust();
-    let basis = "Σ (p + ρV²)·A on each face with Bernoulli branch pressures, plus the weight";
+    let basis = "Σ (p + βρV²)·A on each face with Bernoulli branch pressures, plus the weight";
     for (label, value, reference) in [
         ("Thrust along the common pipe (x)", engine_thrust.x, thrust.x),
         ("Thrust across it, in the plan (y)", engine_thrust.y, thrust.y),
@@ -242,7 +297,12 @@ fn branch_table(inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Table 
         } else {
             b.share.map_or(0.0, |s| s.value)
         };
-        let head_loss = balance.streams.get(n).map(|s| s.head_loss).unwrap_or(0.0);
+        let head_loss = balance
+            .streams
+            .iter()
+            .find(|s| s.from == i || s.to == i)
+            .map(|s| s.head_loss)
+            .unwrap_or(0.0);
         let angle = b.direction.y.atan2(b.direction.x);
         let elevation = b.direction.z.clamp(-1.0, 1.0).asin();
         table.rows.push(vec![
