@@ -314,7 +314,10 @@ pub fn fields() -> Vec<FieldSpec> {
                 "The thread's tensile stress area A_s from its standard, 1 mm² to 0.1 m².",
             )
         },
+        // Optional: read only with a number of bolts and a size (an empty size
+        // shows the grade, as it reads as the size's demo on the page).
         FieldSpec {
+            optional: true,
             visible_when: with_bolts,
             ..choice("bolt_grade", "Bolt grade", BOLT_GRADE_OPTIONS, "iso_8_8", GRADE_HELP)
         },
