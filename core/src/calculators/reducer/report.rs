@@ -110,11 +110,14 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         axial,
         closed_axial,
         1e-9,
-        // Relative to the sum of the terms' magnitudes: the terms can cancel.
+        // Relative to the sum of the terms' magnitudes: the terms can cancel, and
+        // the pressure found by the energy balance carries the rounding of the
+        // kinetic-energy and loss terms it was found from.
         p_in.abs() * basis_a_in
             + p_out.abs() * basis_a_out
             + mass_flow * (beta1 * v1 + beta2 * v2)
-            + weight_along.abs(),
+            + weight_along.abs()
+            + rho * (alpha1 * v1 * v1 + alpha2 * v2 * v2 + k * v_ref * v_ref) * basis_a_in.max(basis_a_out),
     );
     if mass_flow == 0.0 && orientation == "horizontal" {
         report.check(
