@@ -586,10 +586,20 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         None => None,
     };
 
-    let shown = match operating.speed() {
+    let mut shown = match operating.speed() {
         Some(w) => arm.state(w).map_err(fail)?,
         None => stall.clone(),
     };
+    // Where the speed balances the water's torque against the load and friction,
+    // the torque delivered is the resisting torque there, by the definition of that
+    // speed. It is read from the load's model (well conditioned) rather than from
+    // the balance, whose torque near runaway is a small difference of large terms
+    // (the checks still compare it with the jet reaction).
+    let balanced = !matches!(load, Load::Held(_)) && (!matches!(load, Load::None) || friction.is_some());
+    if let (Operating::At(w), true) = (operating, balanced) {
+        shown.torque = load.torque(w) + friction.torque(w);
+        shown.power = shown.torque * w;
+    }
 
     let top = match runaway {
         Some(w) if w > 0.0 => 1.1 * w.max(operating.speed().unwrap_or(0.0)),
