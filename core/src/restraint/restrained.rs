@@ -199,20 +199,6 @@ pub fn soil_class(key: &str) -> Option<&'static SoilClass> {
     SOIL_CLASSES.iter().find(|s| s.key == key)
 }
 
-/// Density of a pipe wall material for the weight of the pipe, kg/m³: ductile iron
-/// 7150 (0.258 lb/in³), steel 7850, PVC 1400, PE 950 (common practice, no source;
-/// the weight of the pipe is a small part of W, and leaving it out is conservative).
-pub fn wall_density(material: super::pressure::Material) -> Option<f64> {
-    use super::pressure::Material;
-    match material {
-        Material::DuctileIron => Some(7150.0),
-        Material::Steel => Some(7850.0),
-        Material::Pvc => Some(1400.0),
-        Material::Pe => Some(950.0),
-        Material::FromSize | Material::Custom => None,
-    }
-}
-
 /// The trench and soil around the pipe, SI.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Trench {

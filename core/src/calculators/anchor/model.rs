@@ -11,22 +11,12 @@ use crate::error::{FieldError, FieldErrors};
 use crate::fluid::Fluid;
 use crate::pipe_sizes::{self, Family};
 use crate::restraint;
+use crate::restraint::pressure::Material;
 use crate::units::STANDARD_GRAVITY;
 use crate::vector::{Direction, Vec3};
 
 use super::super::common;
 use super::{RunKeys, MAX_RUNS, RUNS};
-
-/// Density of carbon steel pipe, kg/m³: the value behind the plain-end weight formula
-/// of ASME B36.10M, w = 10.69·(D − t)·t lb/ft with D and t in inches (from memory).
-pub const STEEL_DENSITY: f64 = 7850.0;
-/// Density of ductile iron, kg/m³ (0.255 lb/in³, the value of the AWWA C150/C151 weight
-/// tables, from memory).
-pub const DUCTILE_IRON_DENSITY: f64 = 7060.0;
-/// Density of PVC pressure pipe, kg/m³ (specific gravity about 1.40, common practice).
-pub const PVC_DENSITY: f64 = 1400.0;
-/// Density of PE 100 pipe material, kg/m³ (common practice, no source: 950 to 960).
-const PE_DENSITY: f64 = 950.0;
 
 /// What lies at the far end of a run.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -120,14 +110,21 @@ pub struct Inputs {
     pub fluid: Fluid,
 }
 
+/// The wall density and material name of a preset's family (steel for a typed
+/// size), from the restraint model's one table of wall materials.
 fn material_of(family: Option<Family>) -> (f64, &'static str) {
-    match family {
-        Some(Family::DuctileIronClass52 | Family::DuctileIronEn545K9) => (DUCTILE_IRON_DENSITY, "ductile iron"),
-        Some(Family::PvcC900Dr18 | Family::PvcIso1452Sdr21 | Family::PvcIso1452Sdr17) => (PVC_DENSITY, "PVC"),
-        Some(Family::PeIso4427Sdr11 | Family::PeIso4427Sdr17) => (PE_DENSITY, "polyethylene"),
-        Some(Family::SteelSch40 | Family::SteelSch80 | Family::SteelEn10220) | None => (STEEL_DENSITY, "steel"),
-    }
+    let material = family.map_or(Material::Steel, Material::of_family);
+    let name = match material {
+        Material::DuctileIron => "ductile iron",
+        Material::Pvc => "PVC",
+        Material::Pe => "polyethylene",
+        _ => "steel",
+    };
+    (material.wall_density().unwrap_or(STEEL_DENSITY), name)
 }
+
+/// Density of carbon steel, kg/m³, for a run whose size is typed.
+const STEEL_DENSITY: f64 = 7850.0;
 
 fn read_run(values: &Values, keys: &'static RunKeys, pressure: Pressure) -> Result<Run, FieldErrors> {
     let azimuth: Angle = values.typed(keys.azimuth)?;

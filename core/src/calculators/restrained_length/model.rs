@@ -104,7 +104,7 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         second,
         fluid,
         pressure,
-        wall_density: material.and_then(restrained::wall_density),
+        wall_density: material.and_then(Material::wall_density),
         soil: read_soil(values)?,
         laying: keyed(values, "laying", Laying::from_key)?,
         encasement: keyed(values, "encasement", Encasement::from_key)?,

@@ -131,7 +131,7 @@ pub fn cell(
     let loads = |d: crate::restraint::Diameters, size: Option<&str>| {
         let density = size
             .and_then(pipe_sizes::find)
-            .and_then(|s| restrained::wall_density(Material::of_family(s.family)))
+            .and_then(|s| Material::of_family(s.family).wall_density())
             .unwrap_or(0.0);
         let ring = std::f64::consts::PI / 4.0 * (d.od * d.od - d.id * d.id);
         PipeLoads {
