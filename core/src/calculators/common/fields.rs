@@ -69,6 +69,24 @@ pub const MAX_SIZE_M: f64 = 10.0;
 /// Smallest pipe diameter or bend radius the fitting pages accept, m (1 mm).
 pub const MIN_SIZE_M: f64 = 1e-3;
 
+/// An optional diameter that overrides the pipe size preset (`d`, `od`, `d2`,
+/// `od2` of the restraint and surge pages), in mm or in, 1 mm to 10 m.
+pub fn diameter_override(key: &'static str, label: &'static str, help: &'static str) -> FieldSpec {
+    FieldSpec {
+        optional: true,
+        ..quantity(
+            key,
+            label,
+            Q::Length,
+            "mm",
+            "in",
+            "",
+            Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
+            help,
+        )
+    }
+}
+
 /// Upper bound for gauge pressures: 100 MPa (≈ 14 500 psi).
 pub const MAX_PRESSURE_PA: f64 = 100e6;
 

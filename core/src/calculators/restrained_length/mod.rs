@@ -47,7 +47,7 @@ use crate::pipe_sizes;
 use crate::restraint::restrained::{Encasement, Laying, Method};
 use crate::units::QuantityKind as Q;
 
-use super::common::{self, choice, quantity, wall::ShownWhen, MAX_SIZE_M, MIN_SIZE_M};
+use super::common::{self, choice, quantity, wall::ShownWhen};
 
 pub mod diagram;
 pub mod model;
@@ -190,32 +190,16 @@ pub fn spec() -> CalculatorSpec {
             "di52_12",
             "A preset gives both diameters; typed diameters below override it.",
         ),
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "d",
-                "Inside diameter (overrides the preset)",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Bore of the pipe at the fitting's main end (the weight of the water in it).",
-            )
-        },
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "od",
-                "Outside diameter (overrides the preset)",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Outside diameter: the thrust area, the earth load and the bearing width.",
-            )
-        },
+        common::diameter_override(
+            "d",
+            "Inside diameter (overrides the preset)",
+            "Bore of the pipe at the fitting's main end (the weight of the water in it).",
+        ),
+        common::diameter_override(
+            "od",
+            "Outside diameter (overrides the preset)",
+            "Outside diameter: the thrust area, the earth load and the bearing width.",
+        ),
         FieldSpec {
             visible_when: Some(("fitting", FITTINGS_WITH_SECOND)),
             ..choice(
@@ -228,31 +212,11 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             visible_when: Some(("fitting", FITTINGS_WITH_SECOND)),
-            optional: true,
-            ..quantity(
-                "d2",
-                "Branch or small-end inside diameter",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Overrides the preset.",
-            )
+            ..common::diameter_override("d2", "Branch or small-end inside diameter", "Overrides the preset.")
         },
         FieldSpec {
             visible_when: Some(("fitting", FITTINGS_WITH_SECOND)),
-            optional: true,
-            ..quantity(
-                "od2",
-                "Branch or small-end outside diameter",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Overrides the preset.",
-            )
+            ..common::diameter_override("od2", "Branch or small-end outside diameter", "Overrides the preset.")
         },
         FieldSpec {
             visible_when: Some(("fitting", &["tee"])),

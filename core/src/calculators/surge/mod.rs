@@ -52,7 +52,7 @@ use crate::pipe_sizes;
 use crate::restraint::{Joint, JOINT_HELP};
 use crate::units::QuantityKind as Q;
 
-use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA};
 
 pub mod diagram;
 pub mod model;
@@ -96,32 +96,8 @@ pub fn spec() -> CalculatorSpec {
     ));
     let mut fields = vec![
         choice("size", "Pipe size", pipe_sizes::SIZE_OPTIONS, "di52_12", SIZE_HELP),
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "d",
-                "Inside diameter (overrides the preset)",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Bore of the pipe.",
-            )
-        },
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "od",
-                "Outside diameter (overrides the preset)",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                OD_HELP,
-            )
-        },
+        common::diameter_override("d", "Inside diameter (overrides the preset)", "Bore of the pipe."),
+        common::diameter_override("od", "Outside diameter (overrides the preset)", OD_HELP),
         choice(
             "joint",
             "Joints at the closing valve or dead end",

@@ -109,7 +109,7 @@ use crate::error::FieldError;
 use crate::pipe_sizes;
 use crate::units::QuantityKind as Q;
 
-use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
+use super::common::{self, choice, quantity, MAX_PRESSURE_PA};
 
 pub mod diagram;
 pub mod model;
@@ -230,32 +230,16 @@ pub fn spec() -> CalculatorSpec {
             "A preset gives both diameters, from the dimension standards (steel: ASME B36.10M; ductile iron: \
                 AWWA C150/C151 class 52; PVC: AWWA C900 DR18); typed diameters below override it.",
         ),
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "d",
-                "Inside diameter (overrides the preset)",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Bore of the pipe at the fitting's main end.",
-            )
-        },
-        FieldSpec {
-            optional: true,
-            ..quantity(
-                "od",
-                "Outside diameter (overrides the preset)",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).",
-            )
-        },
+        common::diameter_override(
+            "d",
+            "Inside diameter (overrides the preset)",
+            "Bore of the pipe at the fitting's main end.",
+        ),
+        common::diameter_override(
+            "od",
+            "Outside diameter (overrides the preset)",
+            "Outside diameter of the pipe (the thrust area for push-on and mechanical joints).",
+        ),
         FieldSpec {
             visible_when: fitting_only(&["tee", "reducer"]),
             ..choice(
@@ -268,31 +252,11 @@ pub fn spec() -> CalculatorSpec {
         },
         FieldSpec {
             visible_when: fitting_only(&["tee", "reducer"]),
-            optional: true,
-            ..quantity(
-                "d2",
-                "Branch or small-end inside diameter",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Overrides the preset.",
-            )
+            ..common::diameter_override("d2", "Branch or small-end inside diameter", "Overrides the preset.")
         },
         FieldSpec {
             visible_when: fitting_only(&["tee", "reducer"]),
-            optional: true,
-            ..quantity(
-                "od2",
-                "Branch or small-end outside diameter",
-                Q::Length,
-                "mm",
-                "in",
-                "",
-                Limits::closed(MIN_SIZE_M, MAX_SIZE_M),
-                "Overrides the preset.",
-            )
+            ..common::diameter_override("od2", "Branch or small-end outside diameter", "Overrides the preset.")
         },
         FieldSpec {
             visible_when: fitting_only(FITTINGS),
