@@ -33,14 +33,16 @@
 //! because the soil's reaction is taken to fall linearly from the fitting to zero
 //! at L; under uplift only weight holds the pipe (no friction, no bearing).
 //!
-//! # Two published methods
-//! The ductile-iron pipe industry's method (DIPRA) and the PVC pipe industry's
-//! (AWWA M23 *PVC Pipe — Design and Installation*, 2nd ed. 2002, thrust-restraint
-//! section; Uni-Bell) share the balance above; they differ at the pipe wall. As
-//! implemented here ([`Method`]): the ductile-iron method takes f_φ and f_c from
-//! the ductile-iron column of [`SOIL_CLASSES`] and allows polyethylene encasement;
-//! the PVC method takes the smoother plastic wall's ratios (lower f_φ and f_c) and
-//! no encasement. Typed ratios override both.
+//! # Two pipe walls
+//! The ductile-iron pipe industry's method (DIPRA) is the balance above. The PVC
+//! pipe industry publishes its own restraint equations and wall ratios (AWWA M23
+//! *PVC Pipe — Design and Installation*, thrust-restraint section; Uni-Bell); that
+//! table has NOT been checked here. What this handbook computes for PVC
+//! ([`Method::Pvc`]) is the same balance with reduced wall ratios of its own
+//! choosing: 0.8 × the ductile-iron f_φ and ⅔ × its f_c, with no encasement, so
+//! that a PVC main is never given a shorter length than ductile iron in the same
+//! soil. The page says so and asks for the published or the restraint maker's
+//! ratios to be typed where they are at hand. Typed ratios override both.
 //!
 //! # Assumptions
 //! Static thrust on the outside diameter; soil in the trench as assumed along the
@@ -61,7 +63,7 @@ keyed_choice! {
     pub enum Method {
         Longer => ("longer", "The longer of the two"),
         DuctileIron => ("ductile_iron", "Ductile-iron pipe industry (DIPRA)"),
-        Pvc => ("pvc", "PVC pipe industry (AWWA M23, Uni-Bell)"),
+        Pvc => ("pvc", "PVC wall: ductile-iron equations with reduced wall ratios"),
     }
 }
 
@@ -122,7 +124,7 @@ const DEG: f64 = PI / 180.0;
 
 /// Where the soil classes come from (shown on the page).
 pub const SOIL_CLASS_SOURCE: &str = "DIPRA's soil table (γ, φ, c, ductile-iron ratios); PVC ratios this handbook's \
-    reading; confirm against the geotechnical report";
+    own reduction (0.8 × fφ, ⅔ × fc), not the AWWA M23 table; confirm against the geotechnical report";
 
 // The ductile-iron columns are DIPRA's table as recalled (from memory); the PVC
 // columns are this handbook's reading (from memory of the PVC literature's lower
@@ -422,6 +424,28 @@ pub fn class_length(
 mod tests {
     use super::*;
     use approx::assert_relative_eq;
+
+    #[test]
+    fn the_pvc_wall_ratios_are_the_stated_reduction_of_the_ductile_iron_ones() {
+        // The page and its note promise 0.8 × fφ and ⅔ × fc (to the table's two
+        // decimals), so that a PVC main is never given a shorter length than
+        // ductile iron in the same soil: a row that breaks the promise fails here.
+        for class in SOIL_CLASSES {
+            let (di_phi, di_c) = class.ductile_iron;
+            let (pvc_phi, pvc_c) = class.pvc;
+            assert!(
+                (pvc_phi - 0.8 * di_phi).abs() <= 0.005,
+                "{}: fφ {pvc_phi} vs 0.8 × {di_phi}",
+                class.key
+            );
+            assert!(
+                (pvc_c - 2.0 / 3.0 * di_c).abs() <= 0.005,
+                "{}: fc {pvc_c} vs ⅔ × {di_c}",
+                class.key
+            );
+            assert!(pvc_phi <= di_phi && pvc_c <= di_c, "{}", class.key);
+        }
+    }
 
     #[test]
     fn option_keys_are_glossary_options() {

@@ -13,8 +13,9 @@
 //!    push-on and mechanical joints seal on the spigot's outside).
 //! 3. **Length**, per metre of pipe, by the restraint model
 //!    [`crate::restraint::restrained`] (the ductile-iron pipe industry's *Thrust
-//!    Restraint Design for Ductile Iron Pipe*, DIPRA, 7th ed. 2016, and the PVC
-//!    pipe industry's equations in AWWA M23, 2nd ed. 2002; equations from memory):
+//!    Restraint Design for Ductile Iron Pipe*, DIPRA, 7th ed. 2016, equations from
+//!    memory; for PVC the same equations with this handbook's reduced wall ratios,
+//!    not checked against AWWA M23's table):
 //!    W_e = γ·H·D, W = W_p + W_w + 2·W_e, F_f = π·D·f_c·c + W·tan(f_φ·φ) (0.7·W·tan δ
 //!    in polyethylene encasement), R_s = K_n·D·(γ·H_c·K_p + 2c√K_p),
 //!    K_p = tan²(45° + φ/2); then L = S_f·P·A·tan(Δ/2)/(F_f + ½R_s) at a bend
@@ -363,7 +364,8 @@ pub fn spec() -> CalculatorSpec {
         title: "Restrained-joint length at bends, tees, reducers and dead ends",
         group: crate::catalog::group::FITTINGS,
         summary: "How far each side of a buried fitting the joints must be restrained so that soil friction and \
-                bearing carry the thrust, by the ductile-iron and PVC pipe industries' methods side by side.",
+                bearing carry the thrust: the ductile-iron pipe industry's method, and the same equations with \
+                reduced wall ratios for PVC, side by side.",
         fields,
         outputs: vec![
             OutputSpec::headline("length", "Restrained length on each leg of the fitting", Q::Length),
@@ -372,7 +374,7 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::headline("thrust", "Thrust at the design pressure", Q::Force),
             OutputSpec::headline("p_design", "Design pressure used", Q::Pressure),
             OutputSpec::listed("length_di", "Length by the ductile-iron method", Q::Length),
-            OutputSpec::listed("length_pvc", "Length by the PVC method", Q::Length),
+            OutputSpec::listed("length_pvc", "Length with the PVC wall ratios", Q::Length),
             OutputSpec::listed(
                 "length_run_alone",
                 "Tee: run on each side that alone would carry the branch thrust",
@@ -390,6 +392,9 @@ pub fn spec() -> CalculatorSpec {
                     groundwater); later digging beside or over the pipe takes that away.",
             "Restrain every joint within the length, fittings included, for the design pressure, as the pipe \
                     and restraint makers instruct.",
+            "The PVC wall ratios are this handbook's reduction of the ductile-iron ones (0.8 × fφ, ⅔ × fc), \
+                    not the PVC pipe industry's published table (AWWA M23): where that table or the restraint \
+                    maker's is at hand, type its ratios.",
             "Simplified published methods, not a soil-structure analysis: the local codes, the pipe maker and \
                     a licensed engineer decide the design.",
         ],

@@ -9,6 +9,10 @@ use crate::restraint::restrained::{Encasement, Method, UnitResistance, SOIL_CLAS
 use crate::restraint::{FittingKind, Plane};
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
+/// Where the PVC column comes from: said plainly, as it is not a published table.
+const PVC_RATIOS_SOURCE: &str =
+    "DIPRA's equations with this handbook's reduced wall ratios (0.8 × fφ, ⅔ × fc); AWWA M23's table not checked";
+
 use super::model::{Inputs, MethodResult, Solved};
 
 /// Longest restrained length that is still a practical alternative to a block, m
@@ -75,7 +79,7 @@ fn checks(report: &mut Report<'_>, solved: &Solved, sf: f64) {
 
 fn method_name(m: Method) -> &'static str {
     match m {
-        Method::Pvc => "PVC method",
+        Method::Pvc => "PVC wall ratios",
         _ => "ductile-iron method",
     }
 }
@@ -220,7 +224,7 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let mut table = Table {
         key: "per_length",
         title: "Resistance per length of pipe, by method".to_string(),
-        columns: vec!["Term".into(), "Ductile-iron method".into(), "PVC method".into()],
+        columns: vec!["Term".into(), "Ductile-iron method".into(), "PVC wall ratios".into()],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
     };
@@ -258,7 +262,7 @@ fn comparison(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
             table.emphasised_rows.push(table.rows.len());
         }
         let source = match m.method {
-            Method::Pvc => "AWWA M23, PVC Pipe — Design and Installation (2nd ed. 2002); Uni-Bell",
+            Method::Pvc => PVC_RATIOS_SOURCE,
             _ => "DIPRA, Thrust Restraint Design for Ductile Iron Pipe (7th ed. 2016)",
         };
         table
