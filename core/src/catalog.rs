@@ -799,15 +799,30 @@ impl<'a> Report<'a> {
         }
         self.solution.checks.push(check);
     }
-    /// Formats a value of `kind` in the report's unit system.
+    /// Formats a value of `kind` in the report's unit system, for people to read
+    /// (`12 m²`, `45°`): messages and tables, never text parsed again.
     pub fn fmt(&self, si: f64, kind: QuantityKind) -> String {
-        units::format_quantity(si, kind, self.system)
+        units::with_label(&units::format_quantity(si, kind, self.system))
     }
     /// The solution, with the `checks` table appended when any check was made.
     pub fn finish(mut self) -> Solution {
         if !self.solution.checks.is_empty() {
             let table = checks_table(&self.solution.checks, self.system);
             self.solution.tables.push(table);
+        }
+        // Headings are built from unit codes (they also pick the unit the cells
+        // are converted to); people read the labels.
+        for table in &mut self.solution.tables {
+            for heading in &mut table.columns {
+                *heading = units::labels_for_codes(heading);
+            }
+            for cell in table.rows.iter_mut().flatten() {
+                *cell = units::labels_for_codes(cell);
+            }
+        }
+        for plot in &mut self.solution.plots {
+            plot.x_label = units::labels_for_codes(&plot.x_label);
+            plot.y_label = units::labels_for_codes(&plot.y_label);
         }
         self.solution
     }
@@ -839,8 +854,8 @@ fn checks_table(checks: &[Check], system: UnitSystem) -> Table {
         table.rows.push(vec![
             c.label.clone(),
             c.basis.clone(),
-            units::format_quantity(c.value, c.kind, system),
-            units::format_quantity(c.reference, c.kind, system),
+            units::with_label(&units::format_quantity(c.value, c.kind, system)),
+            units::with_label(&units::format_quantity(c.reference, c.kind, system)),
             format!("{} %", units::format_significant(relative * 100.0, 2)),
             if c.agrees() {
                 format!("yes (within {} %)", units::format_significant(c.tolerance * 100.0, 2))

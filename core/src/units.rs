@@ -1112,6 +1112,27 @@ pub fn with_label(text: &str) -> String {
     }
 }
 
+/// A table heading or axis title as people read it: each unit code in parentheses
+/// written as its label (`"area (m2)"` → `"area (m²)"`, `"angle (deg)"` →
+/// `"angle (°)"`), and a text that is nothing but a unit code likewise (`"N.m"` →
+/// `"N·m"`). Other text is returned as it is. Never for text that is parsed again.
+pub fn labels_for_codes(text: &str) -> String {
+    if let Some(def) = UNITS.iter().find(|u| u.id == text) {
+        return def.label().to_string();
+    }
+    if !text.contains('(') {
+        return text.to_string();
+    }
+    let mut out = text.to_string();
+    for def in UNITS.iter().filter(|u| u.label() != u.id) {
+        let code = format!("({})", def.id);
+        if out.contains(&code) {
+            out = out.replace(&code, &format!("({})", def.label()));
+        }
+    }
+    out
+}
+
 /// The number of `si` expressed in `unit_id`, if that unit exists and measures
 /// `kind` (any unit of its dimension: a soil bearing in bar is still a number).
 pub fn convert_to(si: f64, kind: QuantityKind, unit_id: &str) -> Option<f64> {
@@ -1279,6 +1300,17 @@ mod label_tests {
         assert_eq!(flow.as_deref(), Some("3.2 m³/h"));
         let ratio = find_unit("-").map(|u| u.show("0.9"));
         assert_eq!(ratio.as_deref(), Some("0.9"));
+    }
+
+    #[test]
+    fn headings_show_labels_for_codes() {
+        assert_eq!(labels_for_codes("area (m2)"), "area (m²)");
+        assert_eq!(labels_for_codes("flow (m3/h)"), "flow (m³/h)");
+        assert_eq!(labels_for_codes("angle β (deg)"), "angle β (°)");
+        assert_eq!(labels_for_codes("N.m"), "N·m");
+        assert_eq!(labels_for_codes("force (kN)"), "force (kN)");
+        assert_eq!(labels_for_codes("bend 45deg (typed)"), "bend 45deg (typed)");
+        assert_eq!(labels_for_codes("stress (kgf/cm2)"), "stress (kgf/cm²)");
     }
 
     #[test]

@@ -1220,6 +1220,22 @@ mod user_words {
         assert_eq!(unit_code_in("0 to 99.9 °C (32 to 211.8 °F); 45° or 300 mm."), None);
     }
 
+    /// Warnings, tables, diagrams and plots of every demo and sourced case name units
+    /// by their labels too (a warning once read "… 0.12 m2 …").
+    #[test]
+    fn solutions_show_unit_labels_not_codes() {
+        let found: Vec<String> = every_user_text()
+            .into_iter()
+            .filter(|(place, _)| place.contains(" demo: ") || place.contains("): "))
+            .filter_map(|(place, text)| unit_code_in(&text).map(|code| format!("{place}: '{code}' in \"{text}\"")))
+            .collect();
+        assert!(
+            found.is_empty(),
+            "solved pages write unit codes; format for people with units::with_label or Report::fmt:\n  {}",
+            found.join("\n  ")
+        );
+    }
+
     /// The first section of a note, up to its second `## ` heading: what the
     /// calculation sheet prints as the method in a few lines.
     fn first_section(note: &str) -> &str {
