@@ -589,11 +589,9 @@ pub fn spec() -> CalculatorSpec {
             OutputSpec::listed("mdp", "Maximum design pressure MDP (EN 805)", Q::Pressure),
         ],
         cautions: vec![
-            "Design to the highest pressure the line will see: the field test pressure and surge \
-                    usually exceed the operating pressure.",
-            "Allowable soil bearing must have a geotechnical basis; published tables differ by up to \
-                    about 4× for the same soil name. Pour the block against undisturbed ground, and keep \
-                    later excavation from undermining it or removing the soil behind it.",
+            "Published bearing tables differ by up to about 4× for the same soil name: take the \
+                    allowable bearing from the geotechnical report, and keep later digging from removing the \
+                    soil behind the block.",
             "This sizes the bearing area only: the concrete's reinforcement, the block's own stability \
                     and any restrained-joint alternative are for the responsible engineer and the local \
                     codes.",
