@@ -66,7 +66,7 @@
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Length, MassRate, Ratio, Velocity, VolumeRate};
+use uom::si::f64::{Acceleration, Force, Length, MassRate, Ratio, Velocity, VolumeRate};
 
 use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, FromSi, Limits, OutputSpec, Report, Values};
 use crate::engine::FlowSpec;
@@ -478,7 +478,7 @@ pub fn spec() -> CalculatorSpec {
             "Outside diameter of the common pipe at its joint.",
         )
     });
-    for b in &BRANCHES {
+    for (index, b) in BRANCHES.iter().enumerate() {
         let shown = Some(("branches", b.visible));
         fields.push(FieldSpec {
             visible_when: shown,
@@ -569,8 +569,40 @@ pub fn spec() -> CalculatorSpec {
                         Left empty for flanged, welded or fused joints.",
             )
         });
+        // The branch's velocity profile: its choice is shown with the branch, the
+        // exponent and the factors with the choice that needs them.
+        for (n, field) in common::profile_fields(&common::BRANCH_PROFILES[index])
+            .into_iter()
+            .enumerate()
+        {
+            fields.push(if n == 0 {
+                FieldSpec {
+                    visible_when: shown,
+                    ..field
+                }
+            } else {
+                field
+            });
+        }
     }
     fields.extend(common::fluid_fields("25 degC"));
+    fields.push(common::gravity_field());
+    fields.push(common::weights_field());
+    fields.push(FieldSpec {
+        visible_when: Some(("weights", &["included"])),
+        optional: true,
+        ..quantity(
+            "w_fitting",
+            "Weight of the fitting and carried pipe",
+            Q::Force,
+            "kN",
+            "lbf",
+            "",
+            Limits::closed(0.0, 1e8),
+            "Optional dead weight of the tee and the pipe it carries: it acts down, out of the plan, with the \
+                fluid's weight (the thrust's z component).",
+        )
+    });
 
     let mut outputs = vec![
         OutputSpec::headline("thrust_in_plane", "Thrust in the plan (horizontal)", Q::Force),
@@ -707,6 +739,11 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         loss_reference,
         branches,
         fluid,
+        weights: common::weights_from(values),
+        w_fitting: values
+            .typed_opt("w_fitting")
+            .unwrap_or(Force::new::<uom::si::force::newton>(0.0)),
+        gravity: Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(common::gravity_from(values)),
     };
     check_loss_coefficients(&inputs)?;
     Ok(inputs)
@@ -755,6 +792,13 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             continue;
         }
         let share: Option<Ratio> = values.typed_opt(b.share);
+        let profile = match common::profile_from(values, &common::BRANCH_PROFILES[index]) {
+            Ok(p) => p,
+            Err(e) => {
+                errors.extend(e.0);
+                continue;
+            }
+        };
         let outside = if on_outside {
             if !values.is_set(b.od) {
                 errors.push(FieldError::inconsistent(
@@ -785,6 +829,7 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             k: values
                 .typed_opt(b.k)
                 .unwrap_or(Ratio::new::<uom::si::ratio::ratio>(0.0)),
+            profile,
         });
     }
     if !errors.is_empty() {
@@ -941,6 +986,134 @@ mod tests {
     }
 
     #[test]
+    fn a_link_without_the_new_keys_gives_today_s_result_exactly() {
+        // Issue 12: links written before the branch profiles, the weights choice and
+        // local gravity: uniform branches, weights included, standard gravity.
+        let base = [("branches", "3"), ("b3_elev", "30 deg"), ("b2_k", "0.7")];
+        let old = solved(&base);
+        let mut with_defaults = base.to_vec();
+        with_defaults.extend([
+            ("b1_profile", "uniform"),
+            ("b2_profile", "uniform"),
+            ("b3_profile", "uniform"),
+            ("weights", "included"),
+            ("g_local", ""),
+            ("w_fitting", ""),
+        ]);
+        let new = solved(&with_defaults);
+        for key in ["thrust", "thrust_x", "thrust_y", "thrust_z", "p_b1", "p_b2", "p_b3"] {
+            assert_eq!(old.output(key).map(|o| o.si), new.output(key).map(|o| o.si), "{key}");
+        }
+        let mut cleared = base.to_vec();
+        cleared.extend([
+            ("b1_profile", ""),
+            ("b2_profile", ""),
+            ("b3_profile", ""),
+            ("weights", ""),
+        ]);
+        assert_eq!(
+            solved(&cleared).output("thrust").map(|o| o.si),
+            old.output("thrust").map(|o| o.si)
+        );
+    }
+
+    #[test]
+    fn a_branch_profile_enters_its_momentum_flux_and_its_energy_line() {
+        // Dividing, the pressure known in the common pipe: a laminar branch 2
+        // (β = 4/3, α = 2) lowers its pressure by ρ(α − 1)V₂²/2 and changes its
+        // momentum flux by (β − 1)ṁ₂V₂ along its axis (y), its pressure force by
+        // −Δp·A₂ along it: T_y changes by −[(4/3 − 1)ρV₂² − ρV₂²/2]·A₂ (derived from
+        // the definition, by hand).
+        let uniform = solved(&[]);
+        let laminar = solved(&[("b2_profile", "laminar")]);
+        let (rho, v2) = (
+            uniform.output("density").unwrap().si,
+            uniform.output("v_b2").unwrap().si,
+        );
+        let a2 = std::f64::consts::PI * 0.154 * 0.154 / 4.0;
+        let dp = -rho * v2 * v2 / 2.0;
+        assert_relative_eq!(
+            laminar.output("p_b2").unwrap().si - uniform.output("p_b2").unwrap().si,
+            dp,
+            max_relative = 1e-9
+        );
+        let d_thrust_y = -((4.0 / 3.0 - 1.0) * rho * v2 * v2 + dp) * a2;
+        assert_relative_eq!(
+            laminar.output("thrust_y").unwrap().si - uniform.output("thrust_y").unwrap().si,
+            d_thrust_y,
+            max_relative = 1e-6
+        );
+        // Branch 1 is untouched: its pressure follows from the common pipe's alone.
+        assert_eq!(laminar.output("p_b1").unwrap().si, uniform.output("p_b1").unwrap().si);
+        assert!(laminar.checks.iter().all(|c| c.agrees()), "{:?}", laminar.checks);
+        // The ledger names the β branch 2 used, and the basis where it came from.
+        let ledger = laminar.tables.iter().find(|t| t.key == "ledger").expect("ledger");
+        assert!(
+            ledger
+                .rows
+                .iter()
+                .any(|r| r[0].starts_with("branch 2") && r[0].contains("β = 1.333")),
+            "{ledger:?}"
+        );
+        let basis = laminar.tables.iter().find(|t| t.key == "basis").expect("basis");
+        assert!(
+            basis
+                .rows
+                .iter()
+                .any(|r| r[1].contains("branch 2 β = 1.333, α = 2 (fully developed laminar)")),
+            "{basis:?}"
+        );
+        // A power law needs its exponent, typed factors need β: refused by name.
+        assert_eq!(error_field(&[("b1_profile", "power_law")]), "b1_n_power");
+        assert_eq!(error_field(&[("b2_profile", "typed")]), "b2_beta");
+    }
+
+    #[test]
+    fn neglected_weights_take_exactly_the_weights_out_of_the_vertical_component() {
+        let with = solved(&[("w_fitting", "2 kN")]);
+        let without = solved(&[("w_fitting", "2 kN"), ("weights", "neglected")]);
+        let weights = with.output("fluid_weight").unwrap().si + 2000.0;
+        assert_relative_eq!(
+            without.output("thrust_z").unwrap().si - with.output("thrust_z").unwrap().si,
+            weights,
+            max_relative = 1e-12
+        );
+        // In the plan nothing changes.
+        assert_eq!(
+            with.output("thrust_in_plane").unwrap().si,
+            without.output("thrust_in_plane").unwrap().si
+        );
+        assert_eq!(without.output("thrust_z").unwrap().si, 0.0);
+        assert!(without.checks.iter().all(|c| c.agrees()), "{:?}", without.checks);
+        assert!(with.checks.iter().all(|c| c.agrees()), "{:?}", with.checks);
+        let basis = without.tables.iter().find(|t| t.key == "basis").expect("basis");
+        assert!(basis.rows.iter().any(|r| r[1].contains("neglected")), "{basis:?}");
+    }
+
+    #[test]
+    fn local_gravity_scales_the_weight_and_the_elevation_head() {
+        // Branch 2 rising at 30°, its face one 310 mm stub from the junction: the
+        // weight scales with g, and so does the branch pressure's elevation term ρg·z.
+        let base = [("b2_elev", "30 deg")];
+        let standard = solved(&base);
+        let local = solved(&[&base[..], &[("g_local", "9.78 m/s2")]].concat());
+        assert_relative_eq!(
+            local.output("fluid_weight").unwrap().si / standard.output("fluid_weight").unwrap().si,
+            9.78 / crate::units::STANDARD_GRAVITY,
+            max_relative = 1e-12
+        );
+        let rho = standard.output("density").unwrap().si;
+        let z = 0.31 * 0.5; // one common-pipe diameter along the branch, sin 30°
+        assert_relative_eq!(
+            local.output("p_b2").unwrap().si - standard.output("p_b2").unwrap().si,
+            rho * (crate::units::STANDARD_GRAVITY - 9.78) * z,
+            max_relative = 1e-9
+        );
+        assert!(local.checks.iter().all(|c| c.agrees()), "{:?}", local.checks);
+        assert_eq!(error_field(&[("g_local", "12 m/s2")]), "g_local");
+    }
+
+    #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
         crate::calculators::testing::assert_glossary_keys(super::KEY);
     }
@@ -989,6 +1162,7 @@ mod tests {
             direction,
             share: share.map(Ratio::new::<ratio>),
             k: Ratio::new::<ratio>(0.0),
+            profile: crate::calculators::common::PortProfile::uniform(),
         };
         let inputs = Inputs {
             junction: Junction::Dividing,
@@ -1003,6 +1177,11 @@ mod tests {
                 branch(1, 200.0, 222.0, Vec3::new(0.0, 1.0, 0.0), None),
             ],
             fluid: crate::fluid::water_celsius(15.0).expect("water at 15 °C"),
+            weights: true,
+            w_fitting: uom::si::f64::Force::new::<uom::si::force::newton>(0.0),
+            gravity: uom::si::f64::Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(
+                crate::units::STANDARD_GRAVITY,
+            ),
         };
         let solved = model::solve(&inputs).expect("solves");
         let expected = 1e6 * std::f64::consts::PI * 0.222 * 0.222 / 4.0;
