@@ -16,20 +16,38 @@
 //!   1e-6), the branch with the largest share takes Q₀ less the others, so that mass
 //!   closes exactly.
 //! - **Energy**, along each stream between the common pipe and branch i:
-//!   p₀/ρ + α₀V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
-//!   branch to the common pipe), with V_ref the common pipe's velocity (as most
+//!   p₀/ρ + α₀V₀²/2 = p_i/ρ + α_iV_i²/2 + g·z_i + K_i·V_ref²/2 (dividing; combining
+//!   runs from the branch to the common pipe; z_i the rise of the branch's face above
+//!   the common pipe's), with V_ref the common pipe's velocity (as most
 //!   junction-loss tables give it, e.g. Idelchik, *Handbook of Hydraulic
 //!   Resistance*, or Miller, *Internal Flow Systems*) or the branch's own. The
 //!   pressure is known in the common pipe (`p_known=common`, the default) and each
 //!   branch pressure is solved, or at one branch (`p_known=b1`…`b6`, `p_branch`):
 //!   that branch's stream is balanced first for the common pipe's pressure, then the
-//!   others from it. α₀ and β₀ are the common pipe's kinetic-energy and
-//!   momentum-flux factors (uniform unless chosen; the branches are uniform). K may be
+//!   others from it. K may be
 //!   negative (published tee data has it where a stream is drawn along by another:
 //!   Crane TP-410, 2009, Example 7-36, K = −0.040 for a converging branch), down to
 //!   [`MIN_LOSS_COEFFICIENT`] on the common velocity, as long as the junction as a whole
 //!   dissipates energy: Σ ρQ_i·K_i·V_ref,i²/2 ≥ 0.
-//! - **Momentum**: R = Σ p_i·A_i·n_i + Σ_out ṁβV − Σ_in ṁβV − W, thrust T = −R.
+//! - **Momentum**: R = Σ p_i·A_i·n_i + Σ_out ṁβV − Σ_in ṁβV − W − W_f, thrust T = −R.
+//!
+//! # Velocity profile, weights, gravity
+//! Each port has its own momentum-flux factor β and kinetic-energy factor α: the
+//! common pipe (`profile_common`) and each branch (`b1_profile` … `b6_profile`), from
+//! [`common::profile_from`]: uniform (1, the default and what links without the key
+//! mean), fully developed laminar (4/3 and 2), a turbulent power law
+//! ([`crate::velocity_profile::power_law`]), typed, or carried from the
+//! velocity-profile page. β multiplies the port's ṁV in the momentum balance, α its
+//! V²/2 in the energy line; the ledger names each port's β where it is not 1 and the
+//! basis table where a non-uniform one came from. The junction is drawn in plan with
+//! gravity down out of it (−z), so the weights of the fluid inside (W) and of the
+//! fitting and the pipe it carries (W_f, optional) enter only the thrust's z
+//! component; with `weights=neglected` they are left out (to reproduce a case that
+//! neglects them) and z loses exactly W + W_f, while gravity still sets the
+//! elevation term of a branch that leaves the plan. Gravity is standard unless
+//! `g_local` is typed. A one-branch junction rising at 30° reproduces the reducing
+//! elbow of Çengel & Cimbala (β = 1.03, discharging to atmosphere, weights
+//! neglected): the vertical force ṁβV₂·sin 30° = 144.2 N, as the book gives.
 //!
 //! With no flow every face has the same pressure and the thrust reduces to
 //! T = p·|Σ A_i·(−n_i)|, for a tee T = p·A_branch along the branch axis, away from
@@ -40,9 +58,10 @@
 //! # Checks
 //! Shown in the checks table ([`Report::check`]): the engine's branch flows against
 //! the common flow as given, and each thrust component against the impulse-function
-//! sum −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
-//! written out from Bernoulli per branch, not taken from the engine; with a branch's
-//! pressure known, the common pipe's pressure against Bernoulli from that branch. A thrust
+//! sum −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W + W_f with the branch
+//! pressures written out from the energy line per branch (with each α), not taken from
+//! the engine; with a branch's pressure known, the common pipe's pressure against the
+//! energy line from that branch. A thrust
 //! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
 //! square branch's pressure force) is rounding residue and shown as 0.
 //!
@@ -60,9 +79,10 @@
 //! the carry-over from the solved [`model::Solved`], and `diagram` draws it.
 //!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; momentum on the
-//! bores; drawn in plan with gravity out of the plan (−z); the fluid
-//! inside is a stub of each pipe one common-pipe diameter long.
+//! Incompressible, steady flow; uniform pressure over each face (the velocity may
+//! vary over it: β and α); momentum on the bores; drawn in plan with gravity out of
+//! the plan (−z); the fluid inside is a stub of each pipe one common-pipe diameter
+//! long.
 
 use std::f64::consts::PI;
 
