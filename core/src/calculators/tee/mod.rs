@@ -633,7 +633,7 @@ pub fn spec() -> CalculatorSpec {
         ),
         OutputSpec::listed(
             "thrust",
-            "Thrust on the supports (resultant, with the fluid's weight)",
+            "Thrust on the supports (resultant, with the weights unless neglected)",
             Q::Force,
         ),
         OutputSpec::listed("thrust_x", "Thrust along the common pipe's flow (x)", Q::Force),

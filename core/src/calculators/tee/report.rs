@@ -127,12 +127,13 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     } else {
         "standard gravity".to_string()
     };
+    // One row with what the thrust-block page takes, to keep the sheet on two pages.
     basis.push((
         "Weights; gravity",
         format!(
-            "{}, down out of the plan; {gravity_text}",
+            "{}; the thrust-block page takes the pressure and momentum thrust; {gravity_text}",
             if inputs.weights {
-                "fluid inside and fitting included"
+                "fluid inside and fitting included, down out of the plan, left to the bedding"
             } else {
                 "fluid inside and fitting neglected (pressure and momentum only)"
             }
@@ -165,10 +166,6 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             } else {
                 "inside diameters (pressure and momentum terms)".to_string()
             },
-        ),
-        (
-            "Carried to the thrust-block page",
-            "pressure and momentum thrust; the weights are left to the bedding".to_string(),
         ),
     ]);
     report.solution.tables.push(common::basis_table(basis));
