@@ -127,15 +127,16 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     } else {
         "standard gravity".to_string()
     };
-    // One row with what the thrust-block page takes, to keep the sheet on two pages.
+    // One short row (the thrust-block link carries the thrust without the weights),
+    // to keep the sheet on two pages.
     basis.push((
         "Weights; gravity",
         format!(
-            "{}; the thrust-block page takes the pressure and momentum thrust; {gravity_text}",
+            "{}; {gravity_text}",
             if inputs.weights {
-                "fluid inside and fitting included, down out of the plan, left to the bedding"
+                "fluid and fitting included, out of the plan, left to the bedding"
             } else {
-                "fluid inside and fitting neglected (pressure and momentum only)"
+                "fluid and fitting neglected (pressure and momentum only)"
             }
         ),
     ));
@@ -288,9 +289,9 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     scale += weights;
     let engine_thrust = balance.thrust();
     let basis = if inputs.weights {
-        "Σ (p + βρV²)·A on each face with the energy line's branch pressures, plus the weights"
+        "Σ (p + βρV²)·A on each face with Bernoulli branch pressures, plus the weights"
     } else {
-        "Σ (p + βρV²)·A on each face with the energy line's branch pressures (weights neglected)"
+        "Σ (p + βρV²)·A on each face with Bernoulli branch pressures, no weights"
     };
     for (label, value, reference) in [
         ("Thrust along the common pipe (x)", engine_thrust.x, thrust.x),
