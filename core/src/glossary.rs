@@ -355,6 +355,20 @@ pub const TERMS: &[Term] = &[
     term("b#_elev", "elevation angle of branch #"),
     term("b#_share", "share of the common flow in branch #"),
     term("b#_k", "loss coefficient K of branch #"),
+    choice(
+        "b#_profile",
+        "velocity profile in branch # of a junction, which sets its factors β and α",
+        &["uniform", "laminar", "power_law", "typed", "carried"],
+    ),
+    term(
+        "b#_n_power",
+        "exponent n of the power-law velocity profile in branch # of a junction",
+    ),
+    term("b#_beta", "momentum-flux correction factor β in branch # of a junction"),
+    term(
+        "b#_alpha",
+        "kinetic-energy correction factor α in branch # of a junction",
+    ),
     // Pipe runs meeting at an above-ground anchor.
     choice(
         "runs",

@@ -98,8 +98,8 @@ fn type_into(page: &Page, browser: &mut Browser, field: &str, text: &str) -> Res
 /// with its unit typed in), one per unit system: the one with the most expected
 /// outputs, the first by file name on a tie.
 /// Cases opened by URL besides the one chosen per unit system: the modes a page
-/// gained (elevations, a surge computed per row, metric size presets, the run load),
-/// each in SI and in US units.
+/// gained (elevations, a surge computed per row, metric size presets, the run load,
+/// a tee's branch profiles, weights and local gravity), each in SI and in US units.
 const MODE_CASES: &[&str] = &[
     "thrust-block-elevation-dead-end-30m-below-test-point-si",
     "thrust-block-elevation-c600-high-point-us",
@@ -111,6 +111,8 @@ const MODE_CASES: &[&str] = &[
     "line-schedule-computed-surge-slow-closure-pvc-us",
     "surge-run-load-sharp-front-500mm-si",
     "surge-run-load-rigid-column-slow-closure-us",
+    "tee-one-branch-reducing-elbow-beta-atmosphere-si",
+    "tee-branch-profiles-weights-local-gravity-us",
 ];
 
 fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {

@@ -596,6 +596,76 @@ pub const COMMON_PROFILE: ProfileKeys = ProfileKeys {
     alpha_label: "Kinetic-energy factor α in the common pipe",
 };
 
+/// The velocity-profile fields of each branch of a junction (`b#_profile`, …).
+pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
+    ProfileKeys {
+        place: "branch 1",
+        profile: "b1_profile",
+        profile_label: "Velocity profile in branch 1",
+        n: "b1_n_power",
+        n_label: "Power-law exponent n in branch 1",
+        beta: "b1_beta",
+        beta_label: "Momentum-flux factor β in branch 1",
+        alpha: "b1_alpha",
+        alpha_label: "Kinetic-energy factor α in branch 1",
+    },
+    ProfileKeys {
+        place: "branch 2",
+        profile: "b2_profile",
+        profile_label: "Velocity profile in branch 2",
+        n: "b2_n_power",
+        n_label: "Power-law exponent n in branch 2",
+        beta: "b2_beta",
+        beta_label: "Momentum-flux factor β in branch 2",
+        alpha: "b2_alpha",
+        alpha_label: "Kinetic-energy factor α in branch 2",
+    },
+    ProfileKeys {
+        place: "branch 3",
+        profile: "b3_profile",
+        profile_label: "Velocity profile in branch 3",
+        n: "b3_n_power",
+        n_label: "Power-law exponent n in branch 3",
+        beta: "b3_beta",
+        beta_label: "Momentum-flux factor β in branch 3",
+        alpha: "b3_alpha",
+        alpha_label: "Kinetic-energy factor α in branch 3",
+    },
+    ProfileKeys {
+        place: "branch 4",
+        profile: "b4_profile",
+        profile_label: "Velocity profile in branch 4",
+        n: "b4_n_power",
+        n_label: "Power-law exponent n in branch 4",
+        beta: "b4_beta",
+        beta_label: "Momentum-flux factor β in branch 4",
+        alpha: "b4_alpha",
+        alpha_label: "Kinetic-energy factor α in branch 4",
+    },
+    ProfileKeys {
+        place: "branch 5",
+        profile: "b5_profile",
+        profile_label: "Velocity profile in branch 5",
+        n: "b5_n_power",
+        n_label: "Power-law exponent n in branch 5",
+        beta: "b5_beta",
+        beta_label: "Momentum-flux factor β in branch 5",
+        alpha: "b5_alpha",
+        alpha_label: "Kinetic-energy factor α in branch 5",
+    },
+    ProfileKeys {
+        place: "branch 6",
+        profile: "b6_profile",
+        profile_label: "Velocity profile in branch 6",
+        n: "b6_n_power",
+        n_label: "Power-law exponent n in branch 6",
+        beta: "b6_beta",
+        beta_label: "Momentum-flux factor β in branch 6",
+        alpha: "b6_alpha",
+        alpha_label: "Kinetic-energy factor α in branch 6",
+    },
+];
+
 const PROFILE_HELP: &str = "How the velocity varies over the port: β multiplies the momentum flux ṁV, α the \
     kinetic-energy flux ṁV²/2. Uniform (1) is the usual assumption; a fully developed pipe flow has β about 1.02 \
     (turbulent) to 4/3 (laminar).";
@@ -976,6 +1046,8 @@ pub const PROFILE_TARGETS: &[(&str, &str, &ProfileKeys)] = &[
     ("bend", "Use this β and α at a bend's inlet", &INLET_PROFILE),
     ("reducer", "Use this β and α at a reducer's inlet", &INLET_PROFILE),
     ("tee", "Use this β and α in a tee's common pipe", &COMMON_PROFILE),
+    ("tee", "Use this β and α in a tee's branch 1", &BRANCH_PROFILES[0]),
+    ("tee", "Use this β and α in a tee's branch 2", &BRANCH_PROFILES[1]),
     ("nozzle", "Use this β and α at a nozzle's flange", &INLET_PROFILE),
 ];
 

@@ -27,7 +27,8 @@
 //!
 //! # Carried to the fitting pages
 //! The report links to the bend, reducer and nozzle pages (their inlet) and to the
-//! tee page (its common pipe) with the profile `carried` and β and α typed
+//! tee page (its common pipe, its branch 1 or its branch 2) with the profile
+//! `carried` and β and α typed
 //! ([`crate::calculators::common::profile_carry_overs`]); the fitting's basis table
 //! then says "β from the velocity-profile page".
 //!

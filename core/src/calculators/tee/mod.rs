@@ -16,20 +16,38 @@
 //!   1e-6), the branch with the largest share takes Q₀ less the others, so that mass
 //!   closes exactly.
 //! - **Energy**, along each stream between the common pipe and branch i:
-//!   p₀/ρ + α₀V₀²/2 = p_i/ρ + V_i²/2 + K_i·V_ref²/2 (dividing; combining runs from the
-//!   branch to the common pipe), with V_ref the common pipe's velocity (as most
+//!   p₀/ρ + α₀V₀²/2 = p_i/ρ + α_iV_i²/2 + g·z_i + K_i·V_ref²/2 (dividing; combining
+//!   runs from the branch to the common pipe; z_i the rise of the branch's face above
+//!   the common pipe's), with V_ref the common pipe's velocity (as most
 //!   junction-loss tables give it, e.g. Idelchik, *Handbook of Hydraulic
 //!   Resistance*, or Miller, *Internal Flow Systems*) or the branch's own. The
 //!   pressure is known in the common pipe (`p_known=common`, the default) and each
 //!   branch pressure is solved, or at one branch (`p_known=b1`…`b6`, `p_branch`):
 //!   that branch's stream is balanced first for the common pipe's pressure, then the
-//!   others from it. α₀ and β₀ are the common pipe's kinetic-energy and
-//!   momentum-flux factors (uniform unless chosen; the branches are uniform). K may be
+//!   others from it. K may be
 //!   negative (published tee data has it where a stream is drawn along by another:
 //!   Crane TP-410, 2009, Example 7-36, K = −0.040 for a converging branch), down to
 //!   [`MIN_LOSS_COEFFICIENT`] on the common velocity, as long as the junction as a whole
 //!   dissipates energy: Σ ρQ_i·K_i·V_ref,i²/2 ≥ 0.
-//! - **Momentum**: R = Σ p_i·A_i·n_i + Σ_out ṁβV − Σ_in ṁβV − W, thrust T = −R.
+//! - **Momentum**: R = Σ p_i·A_i·n_i + Σ_out ṁβV − Σ_in ṁβV − W − W_f, thrust T = −R.
+//!
+//! # Velocity profile, weights, gravity
+//! Each port has its own momentum-flux factor β and kinetic-energy factor α: the
+//! common pipe (`profile_common`) and each branch (`b1_profile` … `b6_profile`), from
+//! [`common::profile_from`]: uniform (1, the default and what links without the key
+//! mean), fully developed laminar (4/3 and 2), a turbulent power law
+//! ([`crate::velocity_profile::power_law`]), typed, or carried from the
+//! velocity-profile page. β multiplies the port's ṁV in the momentum balance, α its
+//! V²/2 in the energy line; the ledger names each port's β where it is not 1 and the
+//! basis table where a non-uniform one came from. The junction is drawn in plan with
+//! gravity down out of it (−z), so the weights of the fluid inside (W) and of the
+//! fitting and the pipe it carries (W_f, optional) enter only the thrust's z
+//! component; with `weights=neglected` they are left out (to reproduce a case that
+//! neglects them) and z loses exactly W + W_f, while gravity still sets the
+//! elevation term of a branch that leaves the plan. Gravity is standard unless
+//! `g_local` is typed. A one-branch junction rising at 30° reproduces the reducing
+//! elbow of Çengel & Cimbala (β = 1.03, discharging to atmosphere, weights
+//! neglected): the vertical force ṁβV₂·sin 30° = 144.2 N, as the book gives.
 //!
 //! With no flow every face has the same pressure and the thrust reduces to
 //! T = p·|Σ A_i·(−n_i)|, for a tee T = p·A_branch along the branch axis, away from
@@ -40,9 +58,10 @@
 //! # Checks
 //! Shown in the checks table ([`Report::check`]): the engine's branch flows against
 //! the common flow as given, and each thrust component against the impulse-function
-//! sum −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W with the branch pressures
-//! written out from Bernoulli per branch, not taken from the engine; with a branch's
-//! pressure known, the common pipe's pressure against Bernoulli from that branch. A thrust
+//! sum −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W + W_f with the branch
+//! pressures written out from the energy line per branch (with each α), not taken from
+//! the engine; with a branch's pressure known, the common pipe's pressure against the
+//! energy line from that branch. A thrust
 //! component within 1e-12 of the terms it is summed from (cos 90° = 6e-17 of a
 //! square branch's pressure force) is rounding residue and shown as 0.
 //!
@@ -60,13 +79,14 @@
 //! the carry-over from the solved [`model::Solved`], and `diagram` draws it.
 //!
 //! # Assumptions
-//! Incompressible, steady flow; uniform pressure over each face; momentum on the
-//! bores; drawn in plan with gravity out of the plan (−z); the fluid
-//! inside is a stub of each pipe one common-pipe diameter long.
+//! Incompressible, steady flow; uniform pressure over each face (the velocity may
+//! vary over it: β and α); momentum on the bores; drawn in plan with gravity out of
+//! the plan (−z); the fluid inside is a stub of each pipe one common-pipe diameter
+//! long.
 
 use std::f64::consts::PI;
 
-use uom::si::f64::{Length, MassRate, Ratio, Velocity, VolumeRate};
+use uom::si::f64::{Acceleration, Force, Length, MassRate, Ratio, Velocity, VolumeRate};
 
 use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, FromSi, Limits, OutputSpec, Report, Values};
 use crate::engine::FlowSpec;
@@ -478,7 +498,7 @@ pub fn spec() -> CalculatorSpec {
             "Outside diameter of the common pipe at its joint.",
         )
     });
-    for b in &BRANCHES {
+    for (index, b) in BRANCHES.iter().enumerate() {
         let shown = Some(("branches", b.visible));
         fields.push(FieldSpec {
             visible_when: shown,
@@ -569,8 +589,40 @@ pub fn spec() -> CalculatorSpec {
                         Left empty for flanged, welded or fused joints.",
             )
         });
+        // The branch's velocity profile: its choice is shown with the branch, the
+        // exponent and the factors with the choice that needs them.
+        for (n, field) in common::profile_fields(&common::BRANCH_PROFILES[index])
+            .into_iter()
+            .enumerate()
+        {
+            fields.push(if n == 0 {
+                FieldSpec {
+                    visible_when: shown,
+                    ..field
+                }
+            } else {
+                field
+            });
+        }
     }
     fields.extend(common::fluid_fields("25 degC"));
+    fields.push(common::gravity_field());
+    fields.push(common::weights_field());
+    fields.push(FieldSpec {
+        visible_when: Some(("weights", &["included"])),
+        optional: true,
+        ..quantity(
+            "w_fitting",
+            "Weight of the fitting and carried pipe",
+            Q::Force,
+            "kN",
+            "lbf",
+            "",
+            Limits::closed(0.0, 1e8),
+            "Optional dead weight of the tee and the pipe it carries: it acts down, out of the plan, with the \
+                fluid's weight (the thrust's z component).",
+        )
+    });
 
     let mut outputs = vec![
         OutputSpec::headline("thrust_in_plane", "Thrust in the plan (horizontal)", Q::Force),
@@ -581,7 +633,7 @@ pub fn spec() -> CalculatorSpec {
         ),
         OutputSpec::listed(
             "thrust",
-            "Thrust on the supports (resultant, with the fluid's weight)",
+            "Thrust on the supports (resultant, with the weights unless neglected)",
             Q::Force,
         ),
         OutputSpec::listed("thrust_x", "Thrust along the common pipe's flow (x)", Q::Force),
@@ -707,6 +759,11 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
         loss_reference,
         branches,
         fluid,
+        weights: common::weights_from(values),
+        w_fitting: values
+            .typed_opt("w_fitting")
+            .unwrap_or(Force::new::<uom::si::force::newton>(0.0)),
+        gravity: Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(common::gravity_from(values)),
     };
     check_loss_coefficients(&inputs)?;
     Ok(inputs)
@@ -755,6 +812,13 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             continue;
         }
         let share: Option<Ratio> = values.typed_opt(b.share);
+        let profile = match common::profile_from(values, &common::BRANCH_PROFILES[index]) {
+            Ok(p) => p,
+            Err(e) => {
+                errors.extend(e.0);
+                continue;
+            }
+        };
         let outside = if on_outside {
             if !values.is_set(b.od) {
                 errors.push(FieldError::inconsistent(
@@ -785,6 +849,7 @@ fn read_branches(values: &Values, count: usize, on_outside: bool) -> Result<Vec<
             k: values
                 .typed_opt(b.k)
                 .unwrap_or(Ratio::new::<uom::si::ratio::ratio>(0.0)),
+            profile,
         });
     }
     if !errors.is_empty() {
@@ -941,6 +1006,134 @@ mod tests {
     }
 
     #[test]
+    fn a_link_without_the_new_keys_gives_today_s_result_exactly() {
+        // Issue 12: links written before the branch profiles, the weights choice and
+        // local gravity: uniform branches, weights included, standard gravity.
+        let base = [("branches", "3"), ("b3_elev", "30 deg"), ("b2_k", "0.7")];
+        let old = solved(&base);
+        let mut with_defaults = base.to_vec();
+        with_defaults.extend([
+            ("b1_profile", "uniform"),
+            ("b2_profile", "uniform"),
+            ("b3_profile", "uniform"),
+            ("weights", "included"),
+            ("g_local", ""),
+            ("w_fitting", ""),
+        ]);
+        let new = solved(&with_defaults);
+        for key in ["thrust", "thrust_x", "thrust_y", "thrust_z", "p_b1", "p_b2", "p_b3"] {
+            assert_eq!(old.output(key).map(|o| o.si), new.output(key).map(|o| o.si), "{key}");
+        }
+        let mut cleared = base.to_vec();
+        cleared.extend([
+            ("b1_profile", ""),
+            ("b2_profile", ""),
+            ("b3_profile", ""),
+            ("weights", ""),
+        ]);
+        assert_eq!(
+            solved(&cleared).output("thrust").map(|o| o.si),
+            old.output("thrust").map(|o| o.si)
+        );
+    }
+
+    #[test]
+    fn a_branch_profile_enters_its_momentum_flux_and_its_energy_line() {
+        // Dividing, the pressure known in the common pipe: a laminar branch 2
+        // (β = 4/3, α = 2) lowers its pressure by ρ(α − 1)V₂²/2 and changes its
+        // momentum flux by (β − 1)ṁ₂V₂ along its axis (y), its pressure force by
+        // −Δp·A₂ along it: T_y changes by −[(4/3 − 1)ρV₂² − ρV₂²/2]·A₂ (derived from
+        // the definition, by hand).
+        let uniform = solved(&[]);
+        let laminar = solved(&[("b2_profile", "laminar")]);
+        let (rho, v2) = (
+            uniform.output("density").unwrap().si,
+            uniform.output("v_b2").unwrap().si,
+        );
+        let a2 = std::f64::consts::PI * 0.154 * 0.154 / 4.0;
+        let dp = -rho * v2 * v2 / 2.0;
+        assert_relative_eq!(
+            laminar.output("p_b2").unwrap().si - uniform.output("p_b2").unwrap().si,
+            dp,
+            max_relative = 1e-9
+        );
+        let d_thrust_y = -((4.0 / 3.0 - 1.0) * rho * v2 * v2 + dp) * a2;
+        assert_relative_eq!(
+            laminar.output("thrust_y").unwrap().si - uniform.output("thrust_y").unwrap().si,
+            d_thrust_y,
+            max_relative = 1e-6
+        );
+        // Branch 1 is untouched: its pressure follows from the common pipe's alone.
+        assert_eq!(laminar.output("p_b1").unwrap().si, uniform.output("p_b1").unwrap().si);
+        assert!(laminar.checks.iter().all(|c| c.agrees()), "{:?}", laminar.checks);
+        // The ledger names the β branch 2 used, and the basis where it came from.
+        let ledger = laminar.tables.iter().find(|t| t.key == "ledger").expect("ledger");
+        assert!(
+            ledger
+                .rows
+                .iter()
+                .any(|r| r[0].starts_with("branch 2") && r[0].contains("β = 1.333")),
+            "{ledger:?}"
+        );
+        let basis = laminar.tables.iter().find(|t| t.key == "basis").expect("basis");
+        assert!(
+            basis
+                .rows
+                .iter()
+                .any(|r| r[1].contains("branch 2 β = 1.333, α = 2 (fully developed laminar)")),
+            "{basis:?}"
+        );
+        // A power law needs its exponent, typed factors need β: refused by name.
+        assert_eq!(error_field(&[("b1_profile", "power_law")]), "b1_n_power");
+        assert_eq!(error_field(&[("b2_profile", "typed")]), "b2_beta");
+    }
+
+    #[test]
+    fn neglected_weights_take_exactly_the_weights_out_of_the_vertical_component() {
+        let with = solved(&[("w_fitting", "2 kN")]);
+        let without = solved(&[("w_fitting", "2 kN"), ("weights", "neglected")]);
+        let weights = with.output("fluid_weight").unwrap().si + 2000.0;
+        assert_relative_eq!(
+            without.output("thrust_z").unwrap().si - with.output("thrust_z").unwrap().si,
+            weights,
+            max_relative = 1e-12
+        );
+        // In the plan nothing changes.
+        assert_eq!(
+            with.output("thrust_in_plane").unwrap().si,
+            without.output("thrust_in_plane").unwrap().si
+        );
+        assert_eq!(without.output("thrust_z").unwrap().si, 0.0);
+        assert!(without.checks.iter().all(|c| c.agrees()), "{:?}", without.checks);
+        assert!(with.checks.iter().all(|c| c.agrees()), "{:?}", with.checks);
+        let basis = without.tables.iter().find(|t| t.key == "basis").expect("basis");
+        assert!(basis.rows.iter().any(|r| r[1].contains("neglected")), "{basis:?}");
+    }
+
+    #[test]
+    fn local_gravity_scales_the_weight_and_the_elevation_head() {
+        // Branch 2 rising at 30°, its face one 310 mm stub from the junction: the
+        // weight scales with g, and so does the branch pressure's elevation term ρg·z.
+        let base = [("b2_elev", "30 deg")];
+        let standard = solved(&base);
+        let local = solved(&[&base[..], &[("g_local", "9.78 m/s2")]].concat());
+        assert_relative_eq!(
+            local.output("fluid_weight").unwrap().si / standard.output("fluid_weight").unwrap().si,
+            9.78 / crate::units::STANDARD_GRAVITY,
+            max_relative = 1e-12
+        );
+        let rho = standard.output("density").unwrap().si;
+        let z = 0.31 * 0.5; // one common-pipe diameter along the branch, sin 30°
+        assert_relative_eq!(
+            local.output("p_b2").unwrap().si - standard.output("p_b2").unwrap().si,
+            rho * (crate::units::STANDARD_GRAVITY - 9.78) * z,
+            max_relative = 1e-9
+        );
+        assert!(local.checks.iter().all(|c| c.agrees()), "{:?}", local.checks);
+        assert_eq!(error_field(&[("g_local", "12 m/s2")]), "g_local");
+    }
+
+    #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {
         crate::calculators::testing::assert_glossary_keys(super::KEY);
     }
@@ -989,6 +1182,7 @@ mod tests {
             direction,
             share: share.map(Ratio::new::<ratio>),
             k: Ratio::new::<ratio>(0.0),
+            profile: crate::calculators::common::PortProfile::uniform(),
         };
         let inputs = Inputs {
             junction: Junction::Dividing,
@@ -1003,6 +1197,11 @@ mod tests {
                 branch(1, 200.0, 222.0, Vec3::new(0.0, 1.0, 0.0), None),
             ],
             fluid: crate::fluid::water_celsius(15.0).expect("water at 15 °C"),
+            weights: true,
+            w_fitting: uom::si::f64::Force::new::<uom::si::force::newton>(0.0),
+            gravity: uom::si::f64::Acceleration::new::<uom::si::acceleration::meter_per_second_squared>(
+                crate::units::STANDARD_GRAVITY,
+            ),
         };
         let solved = model::solve(&inputs).expect("solves");
         let expected = 1e6 * std::f64::consts::PI * 0.222 * 0.222 / 4.0;

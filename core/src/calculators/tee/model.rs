@@ -1,10 +1,11 @@
 //! The junction's physics as a pure function of its typed inputs: the flows given
 //! to the branches (mass closed exactly), the engine's mass, energy and momentum
-//! balances over the junction's fluid, the pressure on each joint's wall annulus on
-//! the outside-diameter basis, and the static thrust. Nothing here reads a field or
+//! balances over the junction's fluid (β and α per port, the weights when they are
+//! included, gravity as given), the pressure on each joint's wall annulus on the
+//! outside-diameter basis, and the static thrust. Nothing here reads a field or
 //! formats a number.
 
-use uom::si::f64::{Length, MassRate, Pressure, Ratio, Velocity, VolumeRate};
+use uom::si::f64::{Acceleration, Force, Length, MassRate, Pressure, Ratio, Velocity, VolumeRate};
 
 use crate::engine::{self, si, Balance, ControlVolume, FlowSpec, Loss, Port, Stream};
 use crate::error::FieldErrors;
@@ -101,6 +102,8 @@ pub struct Branch {
     pub share: Option<Ratio>,
     /// Loss coefficient K between the common pipe and this branch.
     pub k: Ratio,
+    /// β and α at the branch's face, and where they came from.
+    pub profile: common::PortProfile,
 }
 
 /// The validated inputs of the page.
@@ -114,7 +117,7 @@ pub struct Inputs {
     pub common_outside: Option<Length>,
     /// Where the gauge pressure is known: the common pipe, or a branch.
     pub known: KnownAt,
-    /// β and α in the common pipe (the branches are taken as uniform).
+    /// β and α in the common pipe (each branch carries its own).
     pub profile_common: common::PortProfile,
     pub flow: CommonFlow,
     pub loss_reference: LossReference,
@@ -122,6 +125,12 @@ pub struct Inputs {
     /// 100 % (or to at most 100 % with one empty).
     pub branches: Vec<Branch>,
     pub fluid: Fluid,
+    /// Whether the weights of the fluid inside and of the fitting enter the balance.
+    pub weights: bool,
+    /// Weight of the fitting and the pipe it carries (0 when not given).
+    pub w_fitting: Force,
+    /// Acceleration of gravity, along −z (out of the plan).
+    pub gravity: Acceleration,
 }
 
 impl Inputs {
@@ -135,6 +144,14 @@ impl Inputs {
     }
     pub fn k_on_common(&self) -> bool {
         self.loss_reference == LossReference::CommonPipe
+    }
+    /// The fitting's weight that enters the balance, N (0 when weights are neglected).
+    pub fn fitting_weight(&self) -> f64 {
+        if self.weights {
+            self.w_fitting.value
+        } else {
+            0.0
+        }
     }
     /// The common pipe's volumetric flow, m³/s.
     pub fn total_flow(&self) -> f64 {
@@ -153,8 +170,10 @@ pub struct Solved {
     pub branch_flows: Vec<Option<f64>>,
     /// Length of each pipe stub inside the control volume, m.
     pub stub: f64,
-    /// Volume of fluid inside, m³.
+    /// Volume of fluid inside, m³ (weighed only when the weights are included).
     pub volume: f64,
+    /// Centroid of the fluid inside, m (where the weights act).
+    pub centroid: Vec3,
     /// The engine's balance (with the joints' annulus forces on the OD basis).
     pub balance: Balance,
     /// Index of the common pipe's port and of each branch's port in the balance.
@@ -217,6 +236,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     // Each port sits one common-pipe diameter from the junction, on its pipe's axis.
     let stub = d_common;
     let mut cv = ControlVolume::new(inputs.fluid.clone());
+    cv.gravity(Vec3::new(0.0, 0.0, -inputs.gravity.value));
     let common_position = if dividing {
         Vec3::new(-stub, 0.0, 0.0)
     } else {
@@ -250,12 +270,14 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
             b.direction * (-stub)
         };
         let name = format!("branch {}", b.index + 1);
-        let mut port = if dividing {
-            Port::outlet(&name, si::area(area), direction)
-        } else {
-            Port::inlet(&name, si::area(area), direction)
-        }
-        .at(position);
+        let mut port = b.profile.apply(
+            if dividing {
+                Port::outlet(&name, si::area(area), direction)
+            } else {
+                Port::inlet(&name, si::area(area), direction)
+            }
+            .at(position),
+        );
         if let Some(q) = given {
             port = port.volume_flow(si::volume_flow(*q));
         }
@@ -289,7 +311,12 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
     } else {
         Vec3::ZERO
     };
-    cv.contains(si::volume(volume), centroid);
+    // Neglected weights: gravity still sets the elevation head, the fluid weighs nothing.
+    cv.contains(si::volume(if inputs.weights { volume } else { 0.0 }), centroid);
+    let w_fitting = inputs.fitting_weight();
+    if w_fitting > 0.0 {
+        cv.extra_force("fitting weight", Vec3::new(0.0, 0.0, -w_fitting), centroid);
+    }
     let engine_field = branches
         .iter()
         .find(|b| b.share.is_none())
@@ -337,6 +364,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         branch_flows,
         stub,
         volume,
+        centroid,
         balance,
         common_port: c,
         port_of,

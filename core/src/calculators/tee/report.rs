@@ -83,8 +83,18 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         }
     }
 
+    if !inputs.weights && branches.iter().any(|b| b.direction.z.abs() > 1e-12) {
+        report.warn(
+            Some("weights"),
+            "the weights of the fluid and the fitting are left out: with a branch out of the plan the \
+                    restraint carries them along with the pressure",
+        );
+    }
+
     let system = report.system();
-    let carried = thrust - balance.fluid_weight;
+    // The weights (fluid and fitting) rest on the bedding, not on the block.
+    let fitting_weight = Vec3::new(0.0, 0.0, -inputs.fitting_weight());
+    let carried = thrust - balance.fluid_weight - fitting_weight;
     let carried_norm = carried.norm();
     let elevation = if carried_norm > 0.0 {
         (carried.z / carried_norm).clamp(-1.0, 1.0).asin()
@@ -97,16 +107,39 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     };
     let mut basis = Vec::new();
     // Said only where it differs from the defaults (pressure known in the common
-    // pipe, uniform profile), to keep the printed sheet on two pages.
-    if !matches!(inputs.known, KnownAt::Common(_)) || !inputs.profile_common.is_uniform() {
-        basis.push((
-            "Pressure; profile",
-            format!(
-                "{known_text}; common pipe {}, branches uniform",
-                inputs.profile_common.describe()
-            ),
-        ));
+    // pipe, uniform profiles), to keep the printed sheet on two pages.
+    let shaped: Vec<String> = std::iter::once(("common pipe".to_string(), &inputs.profile_common))
+        .chain(branches.iter().map(|b| (format!("branch {}", b.index + 1), &b.profile)))
+        .filter(|(_, profile)| !profile.is_uniform())
+        .map(|(place, profile)| format!("{place} {}", profile.describe()))
+        .collect();
+    if !matches!(inputs.known, KnownAt::Common(_)) || !shaped.is_empty() {
+        let profiles = match shaped.len() {
+            0 => "every port uniform".to_string(),
+            n if n == branches.len() + 1 => shaped.join("; "),
+            _ => format!("{}; the others uniform", shaped.join("; ")),
+        };
+        basis.push(("Pressure; profiles", format!("{known_text}; {profiles}")));
     }
+    let g = inputs.gravity.value;
+    let gravity_text = if (g - units::STANDARD_GRAVITY).abs() > 1e-12 {
+        format!("{} m/s² (typed local value)", units::format_significant(g, 6))
+    } else {
+        "standard gravity".to_string()
+    };
+    // One short row (the thrust-block link carries the thrust without the weights),
+    // to keep the sheet on two pages.
+    basis.push((
+        "Weights; gravity",
+        format!(
+            "{}; {gravity_text}",
+            if inputs.weights {
+                "fluid and fitting included, out of the plan, left to the bedding"
+            } else {
+                "fluid and fitting neglected (pressure and momentum only)"
+            }
+        ),
+    ));
     basis.extend(vec![
         (
             "Flow",
@@ -135,10 +168,6 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 "inside diameters (pressure and momentum terms)".to_string()
             },
         ),
-        (
-            "Carried to the thrust-block page",
-            "pressure and momentum thrust; the fluid's weight is left to the bedding".to_string(),
-        ),
     ]);
     report.solution.tables.push(common::basis_table(basis));
     report.solution.tables.push(branch_table(inputs, solved, report));
@@ -158,12 +187,13 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 /// Checks the balance against results computed without the engine:
 ///
 /// - mass: the engine's branch flows add up to the common-pipe flow the user gave;
-/// - thrust: each face's impulse function (p + ρV²)·A, plus p on the wall annulus on
+/// - thrust: each face's impulse function (p + βρV²)·A, plus p on the wall annulus on
 ///   the outside-diameter basis, along its outward normal, with the branch pressures
-///   from Bernoulli written out per branch (p_i = p₀ + ρ(V₀² − V_i²)/2 + ρg(z₀ − z_i)
-///   ∓ K_i·ρV_ref²/2, − dividing, + combining), velocities from the given flows
-///   (the one left empty: the common flow less the others), and the weight ρg·volume:
-///   T = −Σ[(p_i + ρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
+///   from the energy line written out per branch (p_i = p₀ + ρ(α₀V₀² − α_iV_i²)/2 +
+///   ρg(z₀ − z_i) ∓ K_i·ρV_ref²/2, − dividing, + combining), velocities from the given
+///   flows (the one left empty: the common flow less the others), and, when included,
+///   the weights ρg·volume + W_f:
+///   T = −Σ[(p_i + β_iρV_i²)A_i + p_i(A_OD,i − A_i)]·n_i + W.
 fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
     let (dividing, k_on_common) = (inputs.dividing(), inputs.k_on_common());
     let (rho, d_common) = (inputs.fluid.density, inputs.d_common.value);
@@ -171,7 +201,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     let (total_flow, stub, volume) = (solved.total_flow, solved.stub, solved.volume);
     let (branches, branch_flows) = (&inputs.branches, &solved.branch_flows);
     let (balance, port_of) = (&solved.balance, &solved.port_of);
-    let g = crate::units::STANDARD_GRAVITY;
+    let g = inputs.gravity.value;
     let engine_sum: f64 = port_of.iter().map(|&i| balance.ports[i].volume_flow).sum();
     report.check(
         "Sum of the branch flows",
@@ -189,18 +219,16 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     // Outward normal of the common pipe's face: upstream (−x) when it feeds the
     // junction, downstream (+x) when it is fed.
     let common_normal = Vec3::new(if dividing { -1.0 } else { 1.0 }, 0.0, 0.0);
-    let face = |pressure: f64, speed: f64, area: f64, outside_area: f64, normal: Vec3| {
-        normal * (-((pressure + rho * speed * speed) * area + pressure * (outside_area - area)))
-    };
-    // The common face with β₀: `beta_v2` is β₀V₀².
-    let normal_face = |pressure: f64, beta_v2: f64, area: f64, outside_area: f64, normal: Vec3| {
+    // A face's impulse function with its β: `beta_v2` is βV².
+    let face = |pressure: f64, beta_v2: f64, area: f64, outside_area: f64, normal: Vec3| {
         normal * (-((pressure + rho * beta_v2) * area + pressure * (outside_area - area)))
     };
     let a_common_outside = inputs
         .common_outside
         .map_or(a_common, |od| common::circle_area(od.value));
-    // Each branch's pressure less the common pipe's, from Bernoulli with α₀ in the
-    // common pipe and the branch's loss: p_i − p₀ = ρ(α₀V₀² − V_i²)/2 − ρg·z_i ∓ loss.
+    // Each branch's pressure less the common pipe's, from the energy line with α₀ in
+    // the common pipe, α_i in the branch and the branch's loss:
+    // p_i − p₀ = ρ(α₀V₀² − α_iV_i²)/2 − ρg·z_i ∓ loss.
     let branch_speed = |b: &super::model::Branch, q: &Option<f64>| {
         q.unwrap_or((total_flow - given).max(0.0)) / common::circle_area(b.diameter.value)
     };
@@ -209,7 +237,9 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
         let loss = b.k.value * rho * v_ref * v_ref / 2.0;
         // The common face sits at z = 0; a branch's face one stub along its axis.
         let z = stub * b.direction.z * if dividing { 1.0 } else { -1.0 };
-        rho * (alpha0 * v_common * v_common - speed * speed) / 2.0 - rho * g * z + if dividing { -loss } else { loss }
+        let alpha = b.profile.alpha.value;
+        rho * (alpha0 * v_common * v_common - alpha * speed * speed) / 2.0 - rho * g * z
+            + if dividing { -loss } else { loss }
     };
     let p = match inputs.known {
         KnownAt::Common(p) => p.value,
@@ -224,7 +254,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     if let KnownAt::Branch(..) = inputs.known {
         report.check(
             "Gauge pressure in the common pipe",
-            "Bernoulli from the known branch, with its loss",
+            "energy line from the known branch, with α and its loss",
             Q::Pressure,
             balance.ports[solved.common_port].pressure,
             p,
@@ -232,7 +262,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
             p.abs() + rho * alpha0 * v_common * v_common,
         );
     }
-    let mut thrust = normal_face(
+    let mut thrust = face(
         p,
         beta0 * v_common * v_common,
         a_common,
@@ -246,13 +276,23 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
         let pressure = p + rise_over_common(b, speed);
         let normal = b.direction * if dividing { 1.0 } else { -1.0 };
         let outside_area = b.outside.map_or(area, |od| common::circle_area(od.value));
-        thrust += face(pressure, speed, area, outside_area, normal);
-        scale += (pressure.abs() + rho * speed * speed) * outside_area;
+        let beta = b.profile.beta.value;
+        thrust += face(pressure, beta * speed * speed, area, outside_area, normal);
+        scale += (pressure.abs() + beta * rho * speed * speed) * outside_area;
     }
-    thrust += Vec3::new(0.0, 0.0, -rho * g * volume);
-    scale += rho * g * volume;
+    let weights = if inputs.weights {
+        rho * g * volume + inputs.w_fitting.value
+    } else {
+        0.0
+    };
+    thrust += Vec3::new(0.0, 0.0, -weights);
+    scale += weights;
     let engine_thrust = balance.thrust();
-    let basis = "Σ (p + βρV²)·A on each face with Bernoulli branch pressures, plus the weight";
+    let basis = if inputs.weights {
+        "Σ (p + βρV²)·A on each face with Bernoulli branch pressures, plus the weights"
+    } else {
+        "Σ (p + βρV²)·A on each face with Bernoulli branch pressures, no weights"
+    };
     for (label, value, reference) in [
         ("Thrust along the common pipe (x)", engine_thrust.x, thrust.x),
         ("Thrust across it, in the plan (y)", engine_thrust.y, thrust.y),
