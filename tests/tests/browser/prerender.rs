@@ -312,3 +312,30 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
+
+/// Issue 9: the first response of every calculator page (its HTML, which shows the
+/// demo result by itself) stays within the budget gzipped, so a page that grows
+/// fails here with its size. The build prints every file's size.
+#[test]
+fn every_calculator_page_is_within_the_first_response_budget() {
+    use fluxledger_site::build::{gzip_size, FIRST_RESPONSE_GZIP_BUDGET};
+    let site = fixture();
+    let mut sizes = Vec::new();
+    for calculator in calculators::CALCULATORS {
+        let file = fluxledger_site::pages::page_file(calculator.key);
+        let html = std::fs::read(site.dir.join(&file)).unwrap_or_else(|e| panic!("{file}: {e}"));
+        sizes.push((file, gzip_size(&html)));
+    }
+    let over: Vec<String> = sizes
+        .iter()
+        .filter(|(_, gzip)| *gzip > FIRST_RESPONSE_GZIP_BUDGET)
+        .map(|(file, gzip)| format!("{file}: {gzip} bytes gzip"))
+        .collect();
+    assert!(
+        over.is_empty(),
+        "over the {FIRST_RESPONSE_GZIP_BUDGET} bytes gzip budget:\n{}\nall: {sizes:?}",
+        over.join("\n")
+    );
+    // The measure can fail: a page's HTML is far from empty.
+    assert!(sizes.iter().all(|(_, gzip)| *gzip > 2_000), "{sizes:?}");
+}
