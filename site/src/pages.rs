@@ -344,7 +344,7 @@ pub fn calculator_page(
     html.push_str(first);
     if !rest.is_empty() {
         html.push_str(&format!(
-            "<p class=\"note-more\"><a href=\"{}\">The whole method: derivation, checks and sources</a></p>\n",
+            "<p class=\"note-more\"><a href=\"{}\">Read the whole method note</a></p>\n",
             escape(&method_file(spec.key))
         ));
     }
