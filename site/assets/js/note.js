@@ -21,10 +21,15 @@ export function loadNoteRest() {
         const whole = new DOMParser().parseFromString(html, "text/html").querySelector("article.method-note");
         const article = more.parentElement;
         if (!whole || !article || !more.isConnected) return;
-        const shared = Array.from(article.children).indexOf(more);
-        const rest = Array.from(whole.children).slice(shared);
-        if (rest.length === 0) return;
-        for (const node of rest) article.insertBefore(document.adoptNode(node), more);
+        // The first element the page does not have, then every node after it
+        // (the text between elements too, as the note page has it).
+        let node = whole.children[Array.from(article.children).indexOf(more)];
+        if (!node) return;
+        while (node) {
+          const next = node.nextSibling;
+          article.insertBefore(document.adoptNode(node), more);
+          node = next;
+        }
         more.remove();
       })
       .catch(() => {
