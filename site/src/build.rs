@@ -697,6 +697,10 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         ));
     }
     let stylesheet = hashed_name("style", "css", print_rules.as_bytes());
+    // The screen rules as a file too, for the method-note pages: they are not a
+    // first response, and linking saves the precache a copy of the rules per note.
+    let screen_stylesheet = hashed_name("screen", "css", screen_rules.as_bytes());
+    files.insert(screen_stylesheet.clone(), screen_rules.clone().into_bytes());
     files.insert(wasm_name.clone(), wasm.wasm);
     files.insert(glue_name.clone(), glue_js.into_bytes());
     files.insert(script.clone(), app_js.into_bytes());
@@ -723,6 +727,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
 
     let page_assets = PageAssets {
         stylesheet: stylesheet.clone(),
+        screen_stylesheet,
         script: script.clone(),
         modules: module_names.clone(),
         glue: glue_name.clone(),

@@ -77,6 +77,9 @@ pub struct PageAssets {
     pub stylesheet: String,
     /// The stylesheet's screen rules, inlined in every page's head; empty for none.
     pub inline_style: String,
+    /// The same screen rules as a hashed file (`screen.1a2b3c4d.css`), linked
+    /// instead of inlined by the method-note pages; empty for none.
+    pub screen_stylesheet: String,
     /// Hashed page script file name (`app.1a2b3c4d.js`).
     pub script: String,
     /// Hashed modules of the page script (`js/*.js` as `main.1a2b3c4d.js`…), each
@@ -129,7 +132,13 @@ fn preloads(assets: &PageAssets) -> String {
 
 pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculator: bool) -> String {
     let inline_script = if calculator { assets.head_script.as_str() } else { "" };
-    let styles = if assets.inline_style.is_empty() {
+    let styles = if assets.inline_style.is_empty() && !assets.screen_stylesheet.is_empty() {
+        format!(
+            "<link rel=\"stylesheet\" href=\"{}\">\n<link rel=\"stylesheet\" href=\"{}\" media=\"print\">\n",
+            escape(&assets.screen_stylesheet),
+            escape(&assets.stylesheet)
+        )
+    } else if assets.inline_style.is_empty() {
         format!("<link rel=\"stylesheet\" href=\"{}\">\n", escape(&assets.stylesheet))
     } else {
         // Our own stylesheet, not escaped (`<` would be wrong in CSS); the build
@@ -266,6 +275,18 @@ pub fn method_page(spec: &CalculatorSpec, note_html: &str, assets: &PageAssets) 
         return None;
     }
     let file = method_file(spec.key);
+    // The screen rules linked, not inlined, when they are a file: this page is no
+    // first response, and the precache then holds the rules once.
+    let linked;
+    let assets = if assets.screen_stylesheet.is_empty() {
+        assets
+    } else {
+        linked = PageAssets {
+            inline_style: String::new(),
+            ..assets.clone()
+        };
+        &linked
+    };
     let mut html = head(
         &format!("Method: {} — Fluxledger", spec.title),
         spec.summary,
@@ -420,6 +441,7 @@ mod tests {
             glue: "fluxledger_wasm.44ee55ff.js".into(),
             wasm: "fluxledger_wasm.66aa77bb.wasm".into(),
             inline_style: String::new(),
+            screen_stylesheet: String::new(),
             head_script: String::new(),
             theme_colour: "#1f4e5f".into(),
             version: "0.1.0".into(),
@@ -540,6 +562,18 @@ mod tests {
         assert!(whole.contains("href=\"bend.html\""), "links back to the calculator");
         assert!(whole.contains("id=\"cautions\""), "shows the cautions");
         assert!(method_page(&bend, "<h2>Only</h2>\n<p>a</p>\n", &assets()).is_none());
+        // With the screen rules as a file, the note page links them (and the print
+        // rules for print) rather than inlining them; the calculator page inlines.
+        let split = PageAssets {
+            inline_style: "main { margin: 0; }".into(),
+            screen_stylesheet: "screen.99aa99aa.css".into(),
+            ..assets()
+        };
+        let linked = method_page(&bend, note, &split).expect("a note page");
+        assert!(!linked.contains("<style>"), "{linked}");
+        assert!(linked.contains("<link rel=\"stylesheet\" href=\"screen.99aa99aa.css\">"));
+        assert!(linked.contains("<link rel=\"stylesheet\" href=\"style.00aa11bb.css\" media=\"print\">"));
+        assert!(calculator_page(&bend, note, None, &split).contains("<style>main { margin: 0; }</style>"));
         let single = calculator_page(&bend, "<h2>Only</h2>\n<p>a</p>\n", None, &assets());
         assert!(!single.contains("note-more"));
     }
