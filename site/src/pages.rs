@@ -77,6 +77,9 @@ pub struct PageAssets {
     pub stylesheet: String,
     /// The stylesheet's screen rules, inlined in every page's head; empty for none.
     pub inline_style: String,
+    /// The same screen rules as a hashed file (`screen.1a2b3c4d.css`), linked
+    /// instead of inlined by the method-note pages; empty for none.
+    pub screen_stylesheet: String,
     /// Hashed page script file name (`app.1a2b3c4d.js`).
     pub script: String,
     /// Hashed modules of the page script (`js/*.js` as `main.1a2b3c4d.js`…), each
@@ -129,7 +132,13 @@ fn preloads(assets: &PageAssets) -> String {
 
 pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculator: bool) -> String {
     let inline_script = if calculator { assets.head_script.as_str() } else { "" };
-    let styles = if assets.inline_style.is_empty() {
+    let styles = if assets.inline_style.is_empty() && !assets.screen_stylesheet.is_empty() {
+        format!(
+            "<link rel=\"stylesheet\" href=\"{}\">\n<link rel=\"stylesheet\" href=\"{}\" media=\"print\">\n",
+            escape(&assets.screen_stylesheet),
+            escape(&assets.stylesheet)
+        )
+    } else if assets.inline_style.is_empty() {
         format!("<link rel=\"stylesheet\" href=\"{}\">\n", escape(&assets.stylesheet))
     } else {
         // Our own stylesheet, not escaped (`<` would be wrong in CSS); the build
@@ -216,7 +225,102 @@ pub fn cautions_html(spec: &CalculatorSpec) -> String {
     html
 }
 
-/// One calculator page. `note_html` is the rendered method note.
+/// The file of a calculator's whole method note, a page of its own
+/// ([`method_page`]).
+pub fn method_file(key: &str) -> String {
+    format!("{key}-method.html")
+}
+
+/// A rendered method note split into its first section (everything before its
+/// second `<h2>`, or before its first one when it does not open with one) and the
+/// rest (empty when the note has one section).
+///
+/// Why: the calculator page carries the first section, whose displayed equation is
+/// the governing balance the printed sheet shows; the later sections (derivation,
+/// worked example, sources) are most of a note's bytes and lie far below the first
+/// result, so they come from [`method_file`] after it (issue 9: a page's first
+/// response within 20 kB gzip).
+pub fn split_note(note_html: &str) -> (&str, &str) {
+    let body = note_html.trim_start();
+    let lead = note_html.len() - body.len();
+    // Past the opening heading when the note starts with one.
+    let from = if body.starts_with("<h2") { 1 } else { 0 };
+    match body[from..].find("\n<h2") {
+        // The newline stays with the first part.
+        Some(at) => note_html.split_at(lead + from + at + 1),
+        None => (note_html, ""),
+    }
+}
+
+/// The opening of a calculator's method-note article, the same on the calculator
+/// page and the method page (the page script counts the children both share).
+fn note_article_open(note_html: &str) -> &'static str {
+    // A note that opens with its own heading (`# Method` becomes `<h2>`) keeps it;
+    // otherwise the page gives the note a "Method" heading.
+    if note_html.trim_start().starts_with("<h2") {
+        "<article class=\"method-note\" aria-label=\"Method note\">\n"
+    } else {
+        "<article class=\"method-note\" aria-labelledby=\"method-title\">\n<h2 id=\"method-title\">Method</h2>\n"
+    }
+}
+
+/// The page of a calculator's whole method note ([`method_file`]), or `None` when
+/// the note has a single section (the calculator page then carries all of it).
+///
+/// It reads on its own (a link from the calculator page, without script) and it is
+/// where the calculator page's script takes the note's later sections from
+/// (`site/assets/js/note.js`); the service worker precaches it like every file.
+pub fn method_page(spec: &CalculatorSpec, note_html: &str, assets: &PageAssets) -> Option<String> {
+    if split_note(note_html).1.is_empty() {
+        return None;
+    }
+    let file = method_file(spec.key);
+    // The screen rules linked, not inlined, when they are a file: this page is no
+    // first response, and the precache then holds the rules once.
+    let linked;
+    let assets = if assets.screen_stylesheet.is_empty() {
+        assets
+    } else {
+        linked = PageAssets {
+            inline_style: String::new(),
+            ..assets.clone()
+        };
+        &linked
+    };
+    let mut html = head(
+        &format!("Method: {} — Fluxledger", spec.title),
+        spec.summary,
+        assets,
+        false,
+    );
+    html.push_str(&format!(
+        "<body data-page=\"method\" data-group=\"{group}\">\n",
+        group = escape(spec.group)
+    ));
+    html.push_str(header());
+    html.push_str("<main>\n");
+    html.push_str(&format!(
+        concat!(
+            "<p class=\"page-group\">{group}</p>\n<h1>{title}: the method</h1>\n",
+            "<p class=\"summary\"><a href=\"{page}\">Open the {title} calculator</a></p>\n"
+        ),
+        group = escape(spec.group),
+        title = escape(spec.title),
+        page = escape(&page_file(spec.key))
+    ));
+    html.push_str(note_article_open(note_html));
+    html.push_str(note_html);
+    html.push_str("</article>\n");
+    html.push_str(&cautions_html(spec));
+    html.push_str("</main>\n");
+    html.push_str(&footer(assets, &file));
+    html.push_str("</body>\n</html>\n");
+    Some(html)
+}
+
+/// One calculator page. `note_html` is the rendered method note: the page carries
+/// its first section and a link to the whole note ([`split_note`],
+/// [`method_page`]), which the page script replaces with the later sections.
 ///
 /// `prerendered` is the calculator section's demo (from [`crate::prerender`]), put
 /// in place so the first response already shows a result; `None` leaves the
@@ -256,16 +360,15 @@ pub fn calculator_page(
     if prerendered.is_none() {
         html.push_str(&cautions_html(spec));
     }
-    // A note that opens with its own heading (`# Method` becomes `<h2>`) keeps it;
-    // otherwise the page gives the note a "Method" heading.
-    if note_html.trim_start().starts_with("<h2") {
-        html.push_str("<article class=\"method-note\" aria-label=\"Method note\">\n");
-    } else {
-        html.push_str(
-            "<article class=\"method-note\" aria-labelledby=\"method-title\">\n<h2 id=\"method-title\">Method</h2>\n",
-        );
+    html.push_str(note_article_open(note_html));
+    let (first, rest) = split_note(note_html);
+    html.push_str(first);
+    if !rest.is_empty() {
+        html.push_str(&format!(
+            "<p class=\"note-more\"><a href=\"{}\">Read the whole method note</a></p>\n",
+            escape(&method_file(spec.key))
+        ));
     }
-    html.push_str(note_html);
     html.push_str("</article>\n</main>\n");
     html.push_str(&footer(assets, &file));
     html.push_str("</body>\n</html>\n");
@@ -338,6 +441,7 @@ mod tests {
             glue: "fluxledger_wasm.44ee55ff.js".into(),
             wasm: "fluxledger_wasm.66aa77bb.wasm".into(),
             inline_style: String::new(),
+            screen_stylesheet: String::new(),
             head_script: String::new(),
             theme_colour: "#1f4e5f".into(),
             version: "0.1.0".into(),
@@ -436,6 +540,42 @@ mod tests {
         assert_eq!(own.matches(">Method</h2>").count(), 1, "{own}");
         let bare = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "<p>x</p>\n", None, &assets());
         assert!(bare.contains("<h2 id=\"method-title\">Method</h2>"), "{bare}");
+    }
+
+    #[test]
+    fn a_note_is_split_after_its_first_section_and_the_rest_has_its_own_page() {
+        let note = "<h2>What</h2>\n<p>$$</p>\n<h2>1. More</h2>\n<p>b</p>\n<h2>Sources</h2>\n";
+        assert_eq!(split_note(note), ("<h2>What</h2>\n<p>$$</p>\n", "<h2>1. More</h2>\n<p>b</p>\n<h2>Sources</h2>\n"));
+        assert_eq!(split_note("<p>a</p>\n<h2>B</h2>\n"), ("<p>a</p>\n", "<h2>B</h2>\n"));
+        assert_eq!(split_note("<h2>Only</h2>\n<p>a</p>\n"), ("<h2>Only</h2>\n<p>a</p>\n", ""));
+        assert_eq!(split_note(""), ("", ""));
+        let bend = spec("bend", "Pipe fittings", "Bend");
+        let page = calculator_page(&bend, note, None, &assets());
+        assert!(page.contains("<p>$$</p>") && !page.contains("<p>b</p>"), "{page}");
+        assert!(page.contains("<p class=\"note-more\"><a href=\"bend-method.html\">"), "{page}");
+        let whole = method_page(&bend, note, &assets()).expect("a note of three sections");
+        // The method page's article opens as the calculator page's does, then the
+        // whole note: the script skips the children both share.
+        let article = |html: &str| html.split("<article").nth(1).map(str::to_string).unwrap_or_default();
+        assert!(article(&whole).starts_with(&article(&page)[..article(&page).find("<p class=\"note-more\"").unwrap_or(0)]));
+        assert!(whole.contains("<p>b</p>") && whole.contains("<h2>Sources</h2>"));
+        assert!(whole.contains("href=\"bend.html\""), "links back to the calculator");
+        assert!(whole.contains("id=\"cautions\""), "shows the cautions");
+        assert!(method_page(&bend, "<h2>Only</h2>\n<p>a</p>\n", &assets()).is_none());
+        // With the screen rules as a file, the note page links them (and the print
+        // rules for print) rather than inlining them; the calculator page inlines.
+        let split = PageAssets {
+            inline_style: "main { margin: 0; }".into(),
+            screen_stylesheet: "screen.99aa99aa.css".into(),
+            ..assets()
+        };
+        let linked = method_page(&bend, note, &split).expect("a note page");
+        assert!(!linked.contains("<style>"), "{linked}");
+        assert!(linked.contains("<link rel=\"stylesheet\" href=\"screen.99aa99aa.css\">"));
+        assert!(linked.contains("<link rel=\"stylesheet\" href=\"style.00aa11bb.css\" media=\"print\">"));
+        assert!(calculator_page(&bend, note, None, &split).contains("<style>main { margin: 0; }</style>"));
+        let single = calculator_page(&bend, "<h2>Only</h2>\n<p>a</p>\n", None, &assets());
+        assert!(!single.contains("note-more"));
     }
 
     #[test]

@@ -108,6 +108,31 @@ pub fn js_number(n: f64) -> String {
     }
 }
 
+/// Resolution of the prerendered figures' coordinates, in screen pixels: far below
+/// what a screen shows, and the page script redraws them at full precision.
+pub const DRAWN_STEP_PX: f64 = 0.01;
+
+/// `n` with as many decimals as a resolution of `step` needs (at least the
+/// resolution, at most 15 decimals), trailing zeros dropped: the figures' numbers
+/// are about a third of their bytes when written to 17 digits (issue 9). A step
+/// that is not a positive finite number leaves `n` as JavaScript writes it.
+pub fn rounded(n: f64, step: f64) -> String {
+    if !n.is_finite() || !step.is_finite() || step <= 0.0 {
+        return js_number(n);
+    }
+    let decimals = (-step.log10()).ceil().clamp(0.0, 15.0) as usize;
+    let fixed = format!("{n:.decimals$}");
+    let trimmed = if fixed.contains('.') {
+        fixed.trim_end_matches('0').trim_end_matches('.')
+    } else {
+        fixed.as_str()
+    };
+    match trimmed {
+        "-0" | "" => "0".to_string(),
+        t => t.to_string(),
+    }
+}
+
 /// Rust's `1.5e6` / `1.5e-7` as JavaScript writes them: `1.5e+6` / `1.5e-7`.
 fn exponent_js(rust: String) -> String {
     match rust.split_once('e') {
@@ -323,18 +348,7 @@ impl Page<'_> {
             };
             match text(field, "kind") {
                 "choice" => {
-                    let options: String = list(field, "options")
-                        .iter()
-                        .map(|o| {
-                            let value = text(o, "key");
-                            let selected = if value == typed { " selected" } else { "" };
-                            format!(
-                                "<option value=\"{}\"{selected}>{}</option>",
-                                escape(value),
-                                escape(text(o, "label"))
-                            )
-                        })
-                        .collect();
+                    let options = shown_option(list(field, "options"), "key", typed);
                     entry.push_str(&tag(
                         "select",
                         &control_attrs(&[("class", a("choice")), ("aria-describedby", described_by.clone())]),
@@ -381,18 +395,7 @@ impl Page<'_> {
                         ]))
                     ));
                     if is_quantity {
-                        let options: String = list(field, "units")
-                            .iter()
-                            .map(|u| {
-                                let id = text(u, "id");
-                                let selected = if id == unit { " selected" } else { "" };
-                                format!(
-                                    "<option value=\"{}\"{selected}>{}</option>",
-                                    escape(id),
-                                    escape(text(u, "label"))
-                                )
-                            })
-                            .collect();
+                        let options = shown_option(list(field, "units"), "id", unit);
                         entry.push_str(&tag(
                             "select",
                             &[
@@ -517,6 +520,30 @@ impl Page<'_> {
         format!(
             "<nav class=\"panel panel-next\" aria-label=\"Next step\"><h2 class=\"panel-title\">Next step</h2><ul class=\"carry-over\">{items}</ul></nav>"
         )
+    }
+}
+
+/// The one option a demo selector shows: the selected one (the option whose `key`
+/// is `selected`), or the first, which a browser selects when none is marked.
+///
+/// Why only one: the demo form is `inert` until the script replaces it with its
+/// own, complete selectors, so the other options could never be opened; a choice
+/// selector fills the field's width and a unit selector has a fixed width, so
+/// their size does not depend on the options. A list of pipe-size presets is about
+/// 5 kB gzip of a page (issue 9).
+fn shown_option(options: &[Value], key: &str, selected: &str) -> String {
+    let chosen = options
+        .iter()
+        .find(|o| text(o, key) == selected)
+        .map(|o| (o, " selected"))
+        .or_else(|| options.first().map(|o| (o, "")));
+    match chosen {
+        Some((option, mark)) => format!(
+            "<option value=\"{}\"{mark}>{}</option>",
+            escape(text(option, key)),
+            escape(text(option, "label"))
+        ),
+        None => String::new(),
     }
 }
 
@@ -943,16 +970,19 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
     let vb_h = view[3] - view[1];
     let prefix = format!("d{index}");
     let marker_for = |style: &str| format!("{prefix}-head-{style}");
-    let n = js_number;
+    // The view box and size as the script writes them; every coordinate inside to
+    // a hundredth of a screen pixel.
+    let step = px(DRAWN_STEP_PX);
+    let n = |v: f64| rounded(v, step);
 
     let mut svg = format!(
         "<svg class=\"diagram\" viewBox=\"{} {} {} {}\" width=\"{}\" height=\"{}\" role=\"img\" aria-label=\"{}\" font-size=\"{}\"><defs>",
-        n(view[0]),
-        n(-view[3]),
-        n(vb_w),
-        n(vb_h),
-        n(js_round(vb_w * scale)),
-        n(js_round(vb_h * scale)),
+        js_number(view[0]),
+        js_number(-view[3]),
+        js_number(vb_w),
+        js_number(vb_h),
+        js_number(js_round(vb_w * scale)),
+        js_number(js_round(vb_h * scale)),
         escape(match text(diagram, "title") {
             "" => "Diagram",
             t => t,
@@ -1185,7 +1215,8 @@ pub fn render_plot(plot: &Value, width: f64) -> String {
     );
     let sx = |x: f64| left + ((x - tx.lo) / (tx.hi - tx.lo)) * (w - left - right);
     let sy = |y: f64| h - bottom - ((y - ty.lo) / (ty.hi - ty.lo)) * (h - top - bottom);
-    let n = js_number;
+    // Coordinates to a hundredth of a pixel (the view box is in pixels).
+    let n = |v: f64| rounded(v, DRAWN_STEP_PX);
 
     let mut grid = String::from("<g class=\"plot-grid\">");
     let mut tick_labels = String::new();
@@ -1221,8 +1252,8 @@ pub fn render_plot(plot: &Value, width: f64) -> String {
     let mut svg = format!(
         "<svg class=\"plot-svg\" viewBox=\"0 0 {w} {h}\" width=\"{w}\" height=\"{h}\" role=\"img\" aria-label=\"{}\">",
         escape(if title.is_empty() { "Plot" } else { title }),
-        w = n(w),
-        h = n(h)
+        w = js_number(w),
+        h = js_number(h)
     );
     svg.push_str(&grid);
     svg.push_str(&tick_labels);
@@ -1316,6 +1347,24 @@ mod tests {
         assert_eq!(tick_text(2_500_000.0, 500_000.0), "2.5e+6");
         assert_eq!(tick_text(0.25, 0.05), "0.25");
         assert_eq!(tick_text(40.0, 20.0), "40");
+    }
+
+    #[test]
+    fn figure_numbers_keep_the_resolution_asked_for_and_no_more() {
+        assert_eq!(rounded(110.39999999999999, 0.01), "110.4");
+        assert_eq!(rounded(58.0, 0.01), "58");
+        assert_eq!(rounded(-0.0001, 0.01), "0");
+        assert_eq!(rounded(0.027500000000000004, 1.6e-5), "0.0275");
+        assert_eq!(rounded(0.06614409482612661, 1.6e-5), "0.06614");
+        assert_eq!(rounded(-1234.5678, 1.0), "-1235");
+        assert_eq!(rounded(4.592425496802574e-18, 1e-5), "0");
+        // Within half a step of the value.
+        for (value, step) in [(0.123456789, 1e-4), (987.654321, 0.01), (-3.3333333, 2e-3)] {
+            let back: f64 = rounded(value, step).parse().expect("a number");
+            assert!((back - value).abs() <= step / 2.0, "{value} at {step}: {back}");
+        }
+        assert_eq!(rounded(0.5, 0.0), "0.5");
+        assert_eq!(rounded(f64::NAN, 0.01), "NaN");
     }
 
     #[test]

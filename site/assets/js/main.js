@@ -16,7 +16,8 @@
 // delegated listeners), csv, render-results / render-table / render-diagram /
 // render-plot, sheet (the calculation sheet: page-level fields, printed header,
 // inputs table, link and QR code), compare (cases side by side), layout (the result
-// box folding on a phone, the cue of a table that scrolls sideways). The site tool
+// box folding on a phone, the cue of a table that scrolls sideways), note (the
+// method note's later sections, fetched after the first result). The site tool
 // rewrites the imports to content-hashed file names.
 //
 // Layout of the calculator section (filled into `<section id="calculator">`):
@@ -34,6 +35,7 @@ import { measureFigureWidth, render } from "./render-results.js";
 import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
 import { watchHeadline } from "./layout.js";
+import { loadNoteRest } from "./note.js";
 
 function request() {
   const inputs = {};
@@ -219,6 +221,7 @@ function registerNow() {
 
 async function start() {
   const key = document.body.dataset.calculator;
+  loadNoteRest();
   if (!key) {
     registerServiceWorker();
     return;

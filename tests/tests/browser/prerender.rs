@@ -312,3 +312,89 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
+
+/// Issue 9: the first response of every calculator page (its HTML, which shows the
+/// demo result by itself) stays within the budget gzipped, so a page that grows
+/// fails here with its size. The build prints every file's size.
+#[test]
+fn every_calculator_page_is_within_the_first_response_budget() {
+    use fluxledger_site::build::{gzip_size, FIRST_RESPONSE_GZIP_BUDGET};
+    let site = fixture();
+    let mut sizes = Vec::new();
+    for calculator in calculators::CALCULATORS {
+        let file = fluxledger_site::pages::page_file(calculator.key);
+        let html = std::fs::read(site.dir.join(&file)).unwrap_or_else(|e| panic!("{file}: {e}"));
+        sizes.push((file, gzip_size(&html)));
+    }
+    let over: Vec<String> = sizes
+        .iter()
+        .filter(|(_, gzip)| *gzip > FIRST_RESPONSE_GZIP_BUDGET)
+        .map(|(file, gzip)| format!("{file}: {gzip} bytes gzip"))
+        .collect();
+    assert!(
+        over.is_empty(),
+        "over the {FIRST_RESPONSE_GZIP_BUDGET} bytes gzip budget:\n{}\nall: {sizes:?}",
+        over.join("\n")
+    );
+    // The measure can fail: a page's HTML is far from empty.
+    assert!(sizes.iter().all(|(_, gzip)| *gzip > 2_000), "{sizes:?}");
+}
+
+/// The first response carries the method note's first section and a link to the
+/// whole note; after the first result the page script puts the later sections in
+/// place of the link, so the page ends up with the whole note, the same text as
+/// its own page, each section once.
+#[test]
+fn every_page_completes_its_method_note_from_the_note_page() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch {
+        width: 360,
+        height: 740,
+    });
+    let mut problems = Vec::new();
+    for calculator in calculators::CALCULATORS {
+        let url = format!("{}/{}.html", site.base, calculator.key);
+        page.goto(&mut browser, &url).unwrap_or_else(|e| panic!("{e}"));
+        page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
+        let served_link = eval(
+            &page,
+            &mut browser,
+            r#"fetch(location.href, { cache: "no-store" }).then((r) => r.text()).then((html) =>
+                new DOMParser().parseFromString(html, "text/html").querySelector(".method-note > .note-more a")?.getAttribute("href") ?? null)"#,
+        );
+        let Some(note_page) = served_link.as_str().map(str::to_string) else {
+            continue;
+        };
+        if page
+            .wait_for(
+                &mut browser,
+                "!document.querySelector('.method-note > .note-more')",
+                std::time::Duration::from_secs(15),
+            )
+            .is_err()
+        {
+            problems.push(format!("{}: the link to {note_page} is still there", calculator.key));
+            continue;
+        }
+        let compared = eval(
+            &page,
+            &mut browser,
+            &format!(
+                r#"fetch({note_page:?}).then((r) => r.text()).then((html) => {{
+                    const words = (e) => (e ? e.textContent : "").replace(/\s+/g, " ").trim();
+                    const whole = new DOMParser().parseFromString(html, "text/html").querySelector("article.method-note");
+                    const live = document.querySelector("article.method-note");
+                    return {{ same: words(whole) === words(live) && words(live).length > 0,
+                              headings: [whole.querySelectorAll(":scope > h2").length, live.querySelectorAll(":scope > h2").length] }};
+                }})"#
+            ),
+        );
+        if compared["same"] != json!(true) || compared["headings"][0] != compared["headings"][1] {
+            problems.push(format!("{}: the note differs from {note_page}: {compared}", calculator.key));
+        }
+    }
+    assert!(problems.is_empty(), "\n{}", problems.join("\n"));
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
