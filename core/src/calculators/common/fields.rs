@@ -601,7 +601,7 @@ pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
     ProfileKeys {
         place: "branch 1",
         profile: "b1_profile",
-        profile_label: "Velocity profile in branch 1",
+        profile_label: "Branch 1 velocity profile",
         n: "b1_n_power",
         n_label: "Power-law exponent n in branch 1",
         beta: "b1_beta",
@@ -612,7 +612,7 @@ pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
     ProfileKeys {
         place: "branch 2",
         profile: "b2_profile",
-        profile_label: "Velocity profile in branch 2",
+        profile_label: "Branch 2 velocity profile",
         n: "b2_n_power",
         n_label: "Power-law exponent n in branch 2",
         beta: "b2_beta",
@@ -623,7 +623,7 @@ pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
     ProfileKeys {
         place: "branch 3",
         profile: "b3_profile",
-        profile_label: "Velocity profile in branch 3",
+        profile_label: "Branch 3 velocity profile",
         n: "b3_n_power",
         n_label: "Power-law exponent n in branch 3",
         beta: "b3_beta",
@@ -634,7 +634,7 @@ pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
     ProfileKeys {
         place: "branch 4",
         profile: "b4_profile",
-        profile_label: "Velocity profile in branch 4",
+        profile_label: "Branch 4 velocity profile",
         n: "b4_n_power",
         n_label: "Power-law exponent n in branch 4",
         beta: "b4_beta",
@@ -645,7 +645,7 @@ pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
     ProfileKeys {
         place: "branch 5",
         profile: "b5_profile",
-        profile_label: "Velocity profile in branch 5",
+        profile_label: "Branch 5 velocity profile",
         n: "b5_n_power",
         n_label: "Power-law exponent n in branch 5",
         beta: "b5_beta",
@@ -656,7 +656,7 @@ pub const BRANCH_PROFILES: [ProfileKeys; 6] = [
     ProfileKeys {
         place: "branch 6",
         profile: "b6_profile",
-        profile_label: "Velocity profile in branch 6",
+        profile_label: "Branch 6 velocity profile",
         n: "b6_n_power",
         n_label: "Power-law exponent n in branch 6",
         beta: "b6_beta",
@@ -950,7 +950,7 @@ pub fn known_pressure_from(values: &Values) -> Result<KnownPressure, crate::erro
 pub const WEIGHTS_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
         key: "included",
-        label: "Included: the fluid's weight and the fitting's",
+        label: "Included (fluid and fitting)",
     },
     ChoiceOption {
         key: "neglected",

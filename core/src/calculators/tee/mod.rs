@@ -613,7 +613,7 @@ pub fn spec() -> CalculatorSpec {
         optional: true,
         ..quantity(
             "w_fitting",
-            "Weight of the fitting and carried pipe",
+            "Fitting weight",
             Q::Force,
             "kN",
             "lbf",
@@ -633,7 +633,7 @@ pub fn spec() -> CalculatorSpec {
         ),
         OutputSpec::listed(
             "thrust",
-            "Thrust on the supports (resultant, with the weights unless neglected)",
+            "Thrust on the supports (resultant, with the weights)",
             Q::Force,
         ),
         OutputSpec::listed("thrust_x", "Thrust along the common pipe's flow (x)", Q::Force),

@@ -8,7 +8,7 @@ use crate::vector::Vec3;
 
 use super::super::common;
 use super::model::{Inputs, Junction, KnownAt, Solved};
-use super::{BRANCHES, JUNCTION_OPTIONS};
+use super::BRANCHES;
 
 /// Writes the whole report of a solved junction.
 pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
@@ -142,21 +142,19 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     ));
     basis.extend(vec![
         (
-            "Flow",
-            match inputs.junction {
-                Junction::Dividing => JUNCTION_OPTIONS[0].label,
-                Junction::Combining => JUNCTION_OPTIONS[1].label,
-            }
-            .to_string(),
-        ),
-        (
-            "Loss coefficients on",
-            if k_on_common {
-                "the common pipe's velocity"
-            } else {
-                "each branch's own velocity"
-            }
-            .to_string(),
+            "Flow; loss coefficients",
+            format!(
+                "{}; K on {}",
+                match inputs.junction {
+                    Junction::Dividing => "dividing (the common pipe feeds the branches)",
+                    Junction::Combining => "combining (the branches feed the common pipe)",
+                },
+                if k_on_common {
+                    "the common pipe's velocity"
+                } else {
+                    "each branch's own velocity"
+                }
+            ),
         ),
         (
             "Thrust area basis",
