@@ -20,7 +20,9 @@
 //!   the page's unit system is switched) and rounded by the core to one figure more
 //!   than was typed, at least four (`7 bar` → `101.5` psi): `{ok: true, number,
 //!   unit}` or `{ok: false, message}`; it never throws for what a user typed.
-//! - [`solve`]`(key, inputs, field_units, system)` — `inputs` and `field_units` (the
+//! - [`solve`]`(key, inputs, field_units, system)` — the JSON text of the result
+//!   (the page reads it with `JSON.parse`: one string crosses from wasm instead of
+//!   every value one by one, see [`json`]); `inputs` and `field_units` (the
 //!   unit each selector shows) are plain objects of strings keyed by field key,
 //!   `system` is `"si"` or `"us"`. Outputs travel as `{number, unit, text, shown}`,
 //!   table cells as `{text, number, unit, shown}` with per-column `{title, unit,
@@ -31,11 +33,13 @@
 //! - [`table_csv`]`(headers, rows)` — the CSV text of a result table, every cell a
 //!   spreadsheet would run as a formula neutralised (see [`csv`]).
 //!
-//! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()`, so
-//! `None` becomes `null` and maps become plain objects.
+//! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()` (the
+//! result of `solve` through [`json`], the same shape), so `None` becomes `null` and
+//! maps become plain objects.
 
 pub mod compare;
 pub mod csv;
+pub mod json;
 pub mod qr;
 pub mod verify;
 pub mod view;
@@ -97,13 +101,14 @@ pub fn upgrade_link(page: &str, pairs: JsValue) -> Result<JsValue, JsError> {
     to_js(&view::upgrade_view(page, &pairs))
 }
 
-/// Solves calculator `key` for what the user typed.
+/// Solves calculator `key` for what the user typed: the JSON text of the result
+/// ([`view::SolveView`], written by [`json::to_string`]).
 ///
 /// # Errors
 /// Throws only for a wrong call: `inputs` or `field_units` not an object of strings,
 /// or a `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
 #[wasm_bindgen]
-pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> Result<JsValue, JsError> {
+pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> Result<String, JsError> {
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     let request = Request {
@@ -113,7 +118,8 @@ pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> 
     };
     let outcome = fluxledger_core::solve(key, &request);
     let spec = calculators::spec(key);
-    to_js(&view::solve_view(&outcome, spec.as_ref()))
+    json::to_string(&view::solve_view(&outcome, spec.as_ref()))
+        .map_err(|e| adapter_error("could not convert the result", e))
 }
 
 /// Converts the text typed in quantity field `field` of calculator `key` (a bare

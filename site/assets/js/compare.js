@@ -40,7 +40,8 @@ function solveCase(kase) {
     if (isQuantity(field)) fieldUnits[field.key] = defaultUnit(field, kase.system);
   }
   try {
-    return glue.solve(state.spec.key, inputs, fieldUnits, kase.system);
+    // The core answers with JSON text (one string crosses from wasm, see solve in the wasm crate).
+    return JSON.parse(glue.solve(state.spec.key, inputs, fieldUnits, kase.system));
   } catch (error) {
     return null;
   }

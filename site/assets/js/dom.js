@@ -41,6 +41,22 @@ function setAttrs(node, attrs) {
   }
 }
 
+/**
+ * Writes `text` into an element that shows one piece of text, only when it differs.
+ * A lone text node has its data rewritten: the browser then lays out the changed
+ * text alone, where `textContent` would remove the node and insert a new one (and
+ * restyle everything that depends on the element's children).
+ */
+export function setText(node, text) {
+  const value = text ?? "";
+  const only = node.firstChild;
+  if (only && only === node.lastChild && only.nodeType === Node.TEXT_NODE) {
+    if (only.data !== value) only.data = value;
+  } else if (node.textContent !== value) {
+    node.textContent = value;
+  }
+}
+
 /** Shortens text for quoting (by code points, so no surrogate is split). */
 export function quote(text) {
   const chars = Array.from(String(text));

@@ -51,7 +51,9 @@ function request() {
 function solveNow() {
   const { inputs, fieldUnits } = request();
   try {
-    return glue.solve(state.spec.key, inputs, fieldUnits, state.system);
+    // The core answers with JSON text: one string crosses from wasm instead of
+    // every value of the result one by one (`solve` in the wasm crate).
+    return JSON.parse(glue.solve(state.spec.key, inputs, fieldUnits, state.system));
   } catch (error) {
     const trapped = error instanceof WebAssembly.RuntimeError;
     notice("error", [

@@ -60,10 +60,16 @@ export function notice(kind, parts, action) {
  * Warnings, errors and notices that offer an action stay until dismissed.
  */
 export function clearPassingNotices() {
-  for (const status of document.querySelectorAll("#calculator .system-status, #calculator .copy-status")) {
-    if (status.textContent) status.textContent = "";
+  // Called on every keystroke: live class lists, no selector matching over the page.
+  const calculator = document.getElementById("calculator");
+  if (calculator) {
+    for (const name of ["system-status", "copy-status"]) {
+      for (const status of calculator.getElementsByClassName(name)) if (status.firstChild) status.textContent = "";
+    }
   }
-  for (const item of noticesBox().querySelectorAll(":scope > p.notice-info")) {
-    if (!item.querySelector(".notice-action")) item.remove();
+  const box = document.getElementById("notices");
+  if (!box) return;
+  for (const item of Array.from(box.getElementsByClassName("notice-info"))) {
+    if (item.parentNode === box && item.localName === "p" && !item.querySelector(".notice-action")) item.remove();
   }
 }

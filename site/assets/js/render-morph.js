@@ -34,6 +34,26 @@ function sameKind(a, b) {
 }
 
 function syncAttributes(old, fresh) {
+  const have = old.attributes;
+  const want = fresh.attributes;
+  // The usual case: the same attributes in the same order (both drawn by the same
+  // code), compared pairwise without copying the lists.
+  if (have.length === want.length) {
+    let sameNames = true;
+    for (let i = 0; i < want.length; i += 1) {
+      if (have[i].name !== want[i].name) {
+        sameNames = false;
+        break;
+      }
+    }
+    if (sameNames) {
+      for (let i = 0; i < want.length; i += 1) {
+        const { name, value } = want[i];
+        if (have[i].value !== value) old.setAttribute(name, value);
+      }
+      return;
+    }
+  }
   for (const { name } of Array.from(old.attributes)) {
     if (!fresh.hasAttribute(name)) old.removeAttribute(name);
   }

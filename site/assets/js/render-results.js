@@ -10,7 +10,7 @@
 // it carries `data-stale` (the other results, a few values, are never deferred). A
 // change in the list of parts rebuilds them all.
 
-import { clip, el } from "./dom.js";
+import { clip, el, setText } from "./dom.js";
 import { state } from "./state.js";
 import { SYSTEM_KEY } from "./url.js";
 import { renderTable, updateTable } from "./render-table.js";
@@ -78,8 +78,11 @@ export function render(result) {
   if (!updateHeadline(outputs.filter((o) => o.headline), warnings)) buildHeadline(outputs.filter((o) => o.headline), warnings);
 
   const next = [];
-  const links = (result.carry_over || []).length > 0 ? result.carry_over : null;
-  if (links) next.push({ id: "carry", build: () => renderCarryOver(links) });
+  const links = carryOverLinks(result.carry_over || []);
+  if (links.length > 0) {
+    // Cheap to write, and a link followed must carry the current inputs: never deferred.
+    next.push({ id: "carry", build: () => renderCarryOver(links), update: (node) => updateCarryOver(node, links), eager: true });
+  }
   const others = outputs.filter((o) => !o.headline);
   if (others.length > 0) {
     next.push({
@@ -133,8 +136,8 @@ function updateOutputList(list, outputs) {
   outputs.forEach((output, i) => {
     const dd = values[i];
     const label = dd.previousElementSibling;
-    if (label && label.textContent !== (output.label ?? "")) label.textContent = output.label ?? "";
-    if (dd.textContent !== (output.shown ?? "")) dd.textContent = output.shown ?? "";
+    if (label) setText(label, output.label);
+    setText(dd, output.shown);
     if (dd.title !== (output.text ?? "")) dd.title = output.text ?? "";
   });
   return true;
@@ -162,9 +165,11 @@ function updateHeadline(outputs, warnings) {
   const headline = state.ui.headline;
   if (!updateOutputList(headline.querySelector("dl.headline-values"), outputs)) return false;
   const shown = headline.querySelector("ul.headline-warnings");
-  const before = shown ? Array.from(shown.children, (li) => li.textContent) : [];
-  const same = before.length === warnings.length && warnings.every((w, i) => w.message === before[i]);
-  if (!same) {
+  const count = shown ? shown.children.length : 0;
+  if (count > 0 && count === warnings.length) {
+    // The same number of warnings (their figures follow the inputs): text rewritten in place.
+    warnings.forEach((warning, i) => setText(shown.children[i], warning.message));
+  } else if (count !== warnings.length) {
     const list = warningList(warnings);
     if (shown) shown.remove();
     if (list) headline.append(list);
@@ -195,7 +200,8 @@ function updateParts(next) {
       replaceNode(part, part.build());
     } else if (offScreen.has(part.node) && !part.eager) {
       part.pending = true;
-      part.node.dataset.stale = "";
+      // Written once: a keystroke restyles nothing it does not change.
+      if (!part.node.hasAttribute("data-stale")) part.node.setAttribute("data-stale", "");
     } else {
       applyUpdate(part);
     }
@@ -220,18 +226,32 @@ function applyUpdate(part) {
     if (observer) observer.unobserve(before);
     watch(part.node);
   }
-  delete part.node.dataset.stale;
+  if (part.node.hasAttribute("data-stale")) part.node.removeAttribute("data-stale");
 }
 
-/** Brings every part up to date (before printing, in idle time). */
+/** Brings every part up to date at once (before printing). */
 export function flushParts() {
-  idleFlush = 0;
   for (const part of parts) if (part.pending) applyUpdate(part);
+}
+
+/**
+ * Brings parts off screen up to date in idle time, a part at a time while the
+ * browser has time left (a diagram takes a few milliseconds): the rest wait for
+ * the next idle period, so a keystroke typed meanwhile is not kept waiting.
+ */
+function flushIdle(deadline) {
+  idleFlush = 0;
+  for (const part of parts) {
+    if (!part.pending) continue;
+    applyUpdate(part);
+    if (deadline && !deadline.didTimeout && deadline.timeRemaining() <= 0) break;
+  }
+  if (parts.some((p) => p.pending)) scheduleIdleFlush();
 }
 
 function scheduleIdleFlush() {
   if (idleFlush) return;
-  idleFlush = "requestIdleCallback" in window ? requestIdleCallback(flushParts, { timeout: 1000 }) : setTimeout(flushParts, 200);
+  idleFlush = "requestIdleCallback" in window ? requestIdleCallback(flushIdle, { timeout: 1000 }) : setTimeout(flushIdle, 200);
 }
 
 function forgetParts() {
@@ -278,13 +298,9 @@ export function measureFigureWidth(details = state.ui.details) {
   return state.figureWidth;
 }
 
-/**
- * Renders the result's `carry_over` links. The page name is a key the core wrote
- * (never text from the address bar); the inputs are the core's text, encoded by
- * URLSearchParams; the page's unit system goes along.
- */
-function renderCarryOver(items) {
-  const list = el("ul", { class: "carry-over" });
+/** The link target, label and page title of each carry-over item that is shown. */
+function carryOverLinks(items) {
+  const links = [];
   for (const item of items) {
     if (!item || !item.calculator || !item.title) continue;
     const params = new URLSearchParams();
@@ -292,14 +308,46 @@ function renderCarryOver(items) {
       if (typeof value === "string") params.set(key, value);
     }
     params.set(SYSTEM_KEY, state.system);
+    links.push({ calculator: item.calculator, href: `${item.calculator}.html?${params.toString()}`, label: item.label || item.title, title: item.title });
+  }
+  return links;
+}
+
+/**
+ * Brings carry-over links made by `renderCarryOver` up to `links` when they lead to
+ * the same pages (the inputs they carry follow every keystroke): the `href` and
+ * the texts written where they changed. False when the pages differ (rebuilt).
+ */
+function updateCarryOver(node, links) {
+  const anchors = node ? node.querySelectorAll("a.carry-link") : [];
+  if (anchors.length === 0 || anchors.length !== links.length) return false;
+  if (links.some((link, i) => anchors[i].dataset.carryTo !== link.calculator)) return false;
+  links.forEach((link, i) => {
+    const anchor = anchors[i];
+    if (anchor.getAttribute("href") !== link.href) anchor.setAttribute("href", link.href);
+    const [label, target] = anchor.children;
+    if (label) setText(label, link.label);
+    if (target) setText(target, link.title);
+  });
+  return true;
+}
+
+/**
+ * Renders carry-over links (`carryOverLinks` of the result's `carry_over`, at least
+ * one). The page name is a key the core wrote (never text from the address bar);
+ * the inputs are the core's text, encoded by URLSearchParams; the page's unit
+ * system goes along.
+ */
+function renderCarryOver(links) {
+  const list = el("ul", { class: "carry-over" });
+  for (const item of links) {
     const link = el(
       "a",
-      { class: "carry-link", href: `${item.calculator}.html?${params.toString()}`, dataset: { carryTo: item.calculator } },
-      el("span", { class: "carry-label", text: item.label || item.title }),
+      { class: "carry-link", href: item.href, dataset: { carryTo: item.calculator } },
+      el("span", { class: "carry-label", text: item.label }),
       el("span", { class: "carry-target", text: item.title }),
     );
     list.append(el("li", {}, link));
   }
-  if (list.childElementCount === 0) return null;
   return el("nav", { class: "panel panel-next", "aria-label": "Next step" }, el("h2", { class: "panel-title", text: "Next step" }), list);
 }

@@ -7,7 +7,7 @@
 // changes (a line schedule of 500 rows repaints only its changed rows); a change
 // of columns rebuilds the table.
 
-import { el } from "./dom.js";
+import { el, setText } from "./dom.js";
 import { watchTable } from "./layout.js";
 
 /** A table panel; the CSV button names the table by its index in the result. */
@@ -87,11 +87,8 @@ export function updateTable(panel, table) {
       continue;
     }
     if (tr.classList.contains("emphasised") !== emphasised.has(r)) tr.classList.toggle("emphasised", emphasised.has(r));
-    for (let c = 0; c < row.length; c += 1) {
-      const cell = tr.cells[c];
-      const text = row[c]?.shown ?? "";
-      if (cell.textContent !== text) cell.textContent = text;
-    }
+    const cells = tr.cells;
+    for (let c = 0; c < row.length; c += 1) setText(cells[c], row[c]?.shown);
   }
   while (body.rows.length > rows.length) body.lastElementChild.remove();
   if (rows.length > common) {
