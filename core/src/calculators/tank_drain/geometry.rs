@@ -135,6 +135,15 @@ impl Shape {
         }
     }
 
+    /// Levels where the area has a kink (the top of a cone, the rows of a table).
+    pub fn kinks(&self) -> Vec<f64> {
+        match self {
+            Shape::ConeBottom { cone_height, .. } => vec![*cone_height],
+            Shape::Table(rows) => rows.iter().map(|r| r.0).collect(),
+            _ => Vec::new(),
+        }
+    }
+
     /// Plain name of the shape.
     pub fn name(&self) -> &'static str {
         match self {

@@ -46,9 +46,10 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
     if s.peak.jet_area > 0.0 {
         report.output("v_jet_peak", s.peak.jet_velocity);
     }
-    if s.inflow_at_peak == 0.0 {
+    let area_at_peak = s.shape.area(s.level_at_peak);
+    if s.inflow_at_peak == 0.0 && area_at_peak > 0.0 {
         // Without inflow the rate is the outflow over the area: well conditioned.
-        report.output("level_rate_peak", s.peak.flow / s.shape.area(s.level_at_peak));
+        report.output("level_rate_peak", s.peak.flow / area_at_peak);
     }
     report.output("level_at_peak", s.level_at_peak);
     report.output("volume", (s.shape.volume(s.start) - s.shape.volume(s.end_of_run)).abs());

@@ -425,14 +425,24 @@ pub fn steady_level(vessel: &Vessel, inflow: f64) -> Option<f64> {
 pub fn quadrature_time(vessel: &Vessel, from: f64, to: f64) -> f64 {
     let inflow = vessel.inflow.last();
     let (low, high) = if from < to { (from, to) } else { (to, from) };
-    crate::quadrature::tanh_sinh(low, high, 1.0 / 64.0, |from_low, from_high| {
-        let h = if from_low < from_high { low + from_low } else { high - from_high };
-        let net = (inflow - vessel.outlet_at(h).flow).abs();
-        let value = vessel.shape.area(h) / net;
-        if value.is_finite() {
-            value
-        } else {
-            0.0
-        }
-    })
+    // The area has kinks (the top of a cone, the rows of a table): integrate piecewise.
+    let mut edges = vec![low];
+    edges.extend(vessel.shape.kinks().into_iter().filter(|&k| k > low && k < high));
+    edges.push(high);
+    edges
+        .windows(2)
+        .map(|w| {
+            let (a, b) = (w[0], w[1]);
+            crate::quadrature::tanh_sinh(a, b, 1.0 / 64.0, |from_a, from_b| {
+                let h = if from_a < from_b { a + from_a } else { b - from_b };
+                let net = (inflow - vessel.outlet_at(h).flow).abs();
+                let value = vessel.shape.area(h) / net;
+                if value.is_finite() {
+                    value
+                } else {
+                    0.0
+                }
+            })
+        })
+        .sum()
 }
