@@ -485,7 +485,10 @@ pub const TERMS: &[Term] = &[
     term("l_vessel", "inside length of a horizontal cylindrical vessel"),
     term("h_cone", "height of a vessel's cone bottom"),
     term("h_vessel", "height of a vessel's top above its outlet"),
-    term("area_table", "a vessel's free-surface area against level, one row per level"),
+    term(
+        "area_table",
+        "a vessel's free-surface area against level, one row per level",
+    ),
     choice(
         "outlet",
         "how a vessel lets liquid out: an orifice, a pipe to a lower point, or a pump",
@@ -494,7 +497,10 @@ pub const TERMS: &[Term] = &[
     term("d_outlet", "bore of a vessel's outlet pipe"),
     term("l_pipe", "length of a vessel's outlet pipe"),
     term("roughness", "equivalent sand roughness of a pipe wall"),
-    term("k_outlet", "sum of the minor loss coefficients of a vessel's outlet pipe"),
+    term(
+        "k_outlet",
+        "sum of the minor loss coefficients of a vessel's outlet pipe",
+    ),
     term("z_outlet", "drop from a vessel's outlet to its outlet pipe's discharge"),
     term("q_out", "flow a pump takes from a vessel"),
     choice(

@@ -26,10 +26,20 @@ pub const MAX_TABLE_ROWS: usize = 500;
 /// The vessel's shape in SI numbers.
 #[derive(Clone, Debug, PartialEq)]
 pub enum Shape {
-    VerticalCylinder { diameter: f64 },
-    HorizontalCylinder { diameter: f64, length: f64 },
-    ConeBottom { diameter: f64, cone_height: f64 },
-    Sphere { diameter: f64 },
+    VerticalCylinder {
+        diameter: f64,
+    },
+    HorizontalCylinder {
+        diameter: f64,
+        length: f64,
+    },
+    ConeBottom {
+        diameter: f64,
+        cone_height: f64,
+    },
+    Sphere {
+        diameter: f64,
+    },
     /// (level, area) rows, levels rising from 0.
     Table(Vec<(f64, f64)>),
 }
@@ -218,7 +228,10 @@ pub fn parse_pairs(
     {
         let row = index + 1;
         if row > MAX_TABLE_ROWS {
-            return Err(FieldError::inconsistent(field, format!("at most {MAX_TABLE_ROWS} rows")));
+            return Err(FieldError::inconsistent(
+                field,
+                format!("at most {MAX_TABLE_ROWS} rows"),
+            ));
         }
         // Group tokens into quantities: a token that starts like a number opens one,
         // any other token is the unit of the quantity before it.
@@ -239,7 +252,12 @@ pub fn parse_pairs(
         if groups.len() != 2 {
             return Err(FieldError::inconsistent(
                 field,
-                format!("row {row}: give a {} and a {}, e.g. '{}'", what[0], what[1], example(kinds)),
+                format!(
+                    "row {row}: give a {} and a {}, e.g. '{}'",
+                    what[0],
+                    what[1],
+                    example(kinds)
+                ),
             ));
         }
         let mut pair = [0.0; 2];
@@ -257,7 +275,10 @@ pub fn parse_pairs(
         rows.push((pair[0], pair[1]));
     }
     if rows.is_empty() {
-        return Err(FieldError::inconsistent(field, format!("give at least one row, e.g. '{}'", example(kinds))));
+        return Err(FieldError::inconsistent(
+            field,
+            format!("give at least one row, e.g. '{}'", example(kinds)),
+        ));
     }
     Ok(rows)
 }
@@ -277,24 +298,39 @@ fn example(kinds: [Q; 2]) -> &'static str {
 pub fn level_area_table(field: &'static str, text: &str, system: UnitSystem) -> Result<Shape, FieldError> {
     let rows = parse_pairs(field, text, [Q::Length, Q::Area], ["level", "area"], system)?;
     if rows.len() < 2 {
-        return Err(FieldError::inconsistent(field, "give at least two rows: the outlet level 0 and a level above"));
+        return Err(FieldError::inconsistent(
+            field,
+            "give at least two rows: the outlet level 0 and a level above",
+        ));
     }
     if rows[0].0 != 0.0 {
-        return Err(FieldError::inconsistent(field, "row 1: the first level must be 0 (the outlet)"));
+        return Err(FieldError::inconsistent(
+            field,
+            "row 1: the first level must be 0 (the outlet)",
+        ));
     }
     for (i, pair) in rows.windows(2).enumerate() {
         if pair[1].0 <= pair[0].0 {
-            return Err(FieldError::inconsistent(field, format!("row {}: levels must rise from row to row", i + 2)));
+            return Err(FieldError::inconsistent(
+                field,
+                format!("row {}: levels must rise from row to row", i + 2),
+            ));
         }
     }
     for (i, &(h, a)) in rows.iter().enumerate() {
         if h > super::MAX_LEVEL {
-            return Err(FieldError::inconsistent(field, format!("row {}: the level must be at most 1000 m", i + 1)));
+            return Err(FieldError::inconsistent(
+                field,
+                format!("row {}: the level must be at most 1000 m", i + 1),
+            ));
         }
         if !(super::MIN_AREA..=super::MAX_AREA).contains(&a) && !(i == 0 && a == 0.0) {
             return Err(FieldError::inconsistent(
                 field,
-                format!("row {}: the area must be from 1 cm² to 100 000 m² (0 allowed at the outlet)", i + 1),
+                format!(
+                    "row {}: the area must be from 1 cm² to 100 000 m² (0 allowed at the outlet)",
+                    i + 1
+                ),
             ));
         }
     }
@@ -352,7 +388,11 @@ mod tests {
     #[test]
     fn full_sphere_and_horizontal_cylinder_hold_their_textbook_volumes() {
         // Derived from the definition: πD³/6 and πD²L/4.
-        assert_relative_eq!(Shape::Sphere { diameter: 3.0 }.volume(3.0), PI * 27.0 / 6.0, max_relative = 1e-14);
+        assert_relative_eq!(
+            Shape::Sphere { diameter: 3.0 }.volume(3.0),
+            PI * 27.0 / 6.0,
+            max_relative = 1e-14
+        );
         let drum = Shape::HorizontalCylinder {
             diameter: 2.0,
             length: 5.0,
@@ -363,11 +403,19 @@ mod tests {
 
     #[test]
     fn table_errors_name_the_row() {
-        let err = |text: &str| level_area_table("area_table", text, UnitSystem::Si).unwrap_err().to_string();
+        let err = |text: &str| {
+            level_area_table("area_table", text, UnitSystem::Si)
+                .unwrap_err()
+                .to_string()
+        };
         assert!(err("0 1; 2").contains("row 2"), "{}", err("0 1; 2"));
         assert!(err("0 m 1 m2; 1 m 2 m2; 0.5 m 2 m2").contains("row 3"));
         assert!(err("0.5 m 1 m2; 1 m 2 m2").contains("row 1"));
-        assert!(err("0 m 1 m2; 1 m 2 x").contains("row 2, area"), "{}", err("0 m 1 m2; 1 m 2 x"));
+        assert!(
+            err("0 m 1 m2; 1 m 2 x").contains("row 2, area"),
+            "{}",
+            err("0 m 1 m2; 1 m 2 x")
+        );
         assert!(err("0 m 1 m2; 1 m 0 m2").contains("row 2"));
         let ok = level_area_table("area_table", "0 m 1 m2\n3.28084 ft 10.7639 ft2", UnitSystem::Si).unwrap();
         let Shape::Table(rows) = ok else { panic!() };

@@ -101,14 +101,16 @@
 //! inflow enters from above. In the closed-form case: vertical-sided (prismatic)
 //! tank open to the atmosphere; orifice at the bottom discharging to atmosphere,
 //! opened at once with the liquid at rest; the liquid in the tank moves as a plug
-//! (the inertia of the short flow path through the orifice is neglected); constant C_d (≈ 0.61 for a sharp-edged orifice, common practice, no
-//! source; about 0.8 for a short tube and 0.95–0.98 for a rounded nozzle) and C_v
+//! (the inertia of the short flow path through the orifice is neglected); constant
+//! C_d (≈ 0.61 for a sharp-edged orifice, common practice, no source; about 0.8 for
+//! a short tube and 0.95–0.98 for a rounded nozzle) and C_v
 //! (≈ 0.98 for a sharp-edged orifice, common practice, no source).
 //!
 //! # Code
 //! [`model::read`] reads the values once into typed [`model::Inputs`] (`uom`
-//! quantities); [`model::solve`] is the pure physics, returning [`model::Solved`];
-//! `report` writes the outputs, checks, tables, plot and section from it.
+//! quantities); [`model::solve`] is the pure physics, returning [`model::Solved`]
+//! (the closed form in [`model::Tank`], the run in time in [`run`], the shapes in
+//! [`geometry`]); `report` writes the outputs, checks, tables, plot and section.
 
 use crate::catalog::{CalculatorSpec, ChoiceOption, FieldKind, FieldSpec, Limits, OutputSpec, Report, Values};
 use crate::error::FieldError;
@@ -337,7 +339,13 @@ pub fn spec() -> CalculatorSpec {
             "vessel_shape",
             &["table"],
         ),
-        optional(choice("outlet", "Outlet", OUTLETS, "orifice", "How the liquid leaves the vessel.")),
+        optional(choice(
+            "outlet",
+            "Outlet",
+            OUTLETS,
+            "orifice",
+            "How the liquid leaves the vessel.",
+        )),
         shown(
             quantity(
                 "d_orifice",
@@ -402,7 +410,7 @@ pub fn spec() -> CalculatorSpec {
                 "m",
                 "ft",
                 "25 m",
-                Limits::closed(0.0, 1e5),
+                Limits::closed(0.0, 1e4),
                 "Length of the outlet pipe, for its friction.",
             ),
             "outlet",
@@ -464,7 +472,13 @@ pub fn spec() -> CalculatorSpec {
             "outlet",
             &["pump"],
         ),
-        optional(choice("inflow", "Inflow", INFLOWS, "none", "Liquid entering the vessel from above.")),
+        optional(choice(
+            "inflow",
+            "Inflow",
+            INFLOWS,
+            "none",
+            "Liquid entering the vessel from above.",
+        )),
         shown(
             quantity(
                 "q_in",
@@ -553,8 +567,16 @@ pub fn spec() -> CalculatorSpec {
         fields,
         outputs: vec![
             OutputSpec::headline("time", "Time to reach the final level", Q::Time),
-            OutputSpec::headline("steady_level", "Steady level, where the inflow equals the outflow", Q::Length),
-            OutputSpec::headline("jet_reaction", "Reaction of the jet on the vessel at the largest outflow", Q::Force),
+            OutputSpec::headline(
+                "steady_level",
+                "Steady level, where the inflow equals the outflow",
+                Q::Length,
+            ),
+            OutputSpec::headline(
+                "jet_reaction",
+                "Reaction of the jet on the vessel at the largest outflow",
+                Q::Force,
+            ),
             OutputSpec::listed("end_of_run", "Level at the end of the run", Q::Length),
             OutputSpec::listed("q_peak", "Largest outflow", Q::VolumeFlow),
             OutputSpec::listed("v_jet_peak", "Jet velocity at the largest outflow", Q::Velocity),

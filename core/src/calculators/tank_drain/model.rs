@@ -133,7 +133,9 @@ pub fn read(values: &Values, system: UnitSystem) -> Result<Inputs, FieldErrors> 
         gas_pressure: values.typed_opt("p_gas").unwrap_or_default(),
         start_level: values.typed("h_start")?,
         end_level: values.typed_opt("h_end").unwrap_or_default(),
-        longest: values.typed_opt("t_max").unwrap_or(Time::new::<second>(DEFAULT_LONGEST)),
+        longest: values
+            .typed_opt("t_max")
+            .unwrap_or(Time::new::<second>(DEFAULT_LONGEST)),
         fluid: common::fluid_from(values)?,
     };
     match &inputs.outlet {
@@ -177,14 +179,16 @@ pub fn read(values: &Values, system: UnitSystem) -> Result<Inputs, FieldErrors> 
     if let Some(top) = inputs.shape.top(inputs.height.map(|h| h.value)) {
         if let Shape::ConeBottom { cone_height, .. } = inputs.shape {
             if top < cone_height {
-                return Err(FieldError::inconsistent("h_vessel", "the vessel must be at least as tall as its cone")
-                    .into());
+                return Err(
+                    FieldError::inconsistent("h_vessel", "the vessel must be at least as tall as its cone").into(),
+                );
             }
         }
         for (key, level) in [("h_start", inputs.start_level), ("h_end", inputs.end_level)] {
             if level.value > top {
-                return Err(FieldError::inconsistent(key, "the level must be within the vessel: at most its top")
-                    .into());
+                return Err(
+                    FieldError::inconsistent(key, "the level must be within the vessel: at most its top").into(),
+                );
             }
         }
     }
@@ -212,7 +216,10 @@ fn inflow_table(text: &str, system: UnitSystem) -> Result<Inflow, FieldError> {
     let rows = geometry::parse_pairs(field, text, [Q::Time, Q::VolumeFlow], ["time", "inflow"], system)?;
     for (i, pair) in rows.windows(2).enumerate() {
         if pair[1].0 <= pair[0].0 {
-            return Err(FieldError::inconsistent(field, format!("row {}: times must rise from row to row", i + 2)));
+            return Err(FieldError::inconsistent(
+                field,
+                format!("row {}: times must rise from row to row", i + 2),
+            ));
         }
     }
     for (i, &(t, q)) in rows.iter().enumerate() {
@@ -613,10 +620,14 @@ fn ledger(s: &Solved, fluid: &Fluid) -> Result<Balance, FieldErrors> {
         // A pump's suction: its flow leaves through the outlet; the nozzle is not typed,
         // so its momentum is not counted (a nominal area of the vessel's section).
         cv.port(
-            Port::outlet("pump suction", si::area(s.shape.area(s.level_at_peak).max(1e-6)), Direction::Z.reversed())
-                .volume_flow(si::volume_flow(peak.flow))
-                .pressure(si::pressure(0.0))
-                .at(Vec3::ZERO),
+            Port::outlet(
+                "pump suction",
+                si::area(s.shape.area(s.level_at_peak).max(1e-6)),
+                Direction::Z.reversed(),
+            )
+            .volume_flow(si::volume_flow(peak.flow))
+            .pressure(si::pressure(0.0))
+            .at(Vec3::ZERO),
         );
     }
     if let (Some(bore), true) = (s.inlet_bore, s.inflow_at_peak > 0.0) {

@@ -65,8 +65,14 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
         Method::General(g) => general(s, g, report),
     }
     if let Some(balance) = &s.balance {
-        report.solution.tables.push(common::ports_table(balance, report.system()));
-        report.solution.tables.push(common::ledger_table(balance, report.system()));
+        report
+            .solution
+            .tables
+            .push(common::ports_table(balance, report.system()));
+        report
+            .solution
+            .tables
+            .push(common::ledger_table(balance, report.system()));
     }
     level_plot(s, report);
     let section = section(s, report);
@@ -78,7 +84,10 @@ fn classic(s: &Solved, c: &Classic, report: &mut Report<'_>) {
     let time = s.time.unwrap_or_default();
     let quasi_steady = c.time_quasi_steady;
     if time < c.time_free_fall * (1.0 - 1e-9) {
-        report.defect(format!("drain time {time} s is shorter than free fall {} s", c.time_free_fall));
+        report.defect(format!(
+            "drain time {time} s is shorter than free fall {} s",
+            c.time_free_fall
+        ));
     }
     report.output("area_ratio", r);
     report.output("time_free_fall", c.time_free_fall);
@@ -316,7 +325,11 @@ fn outlet_basis(s: &Solved, outlet: &Outlet) -> String {
             "orifice, C_d = {}, C_v = {}, Q = C_d·a·√(2gH{})",
             units::format_significant(*cd, 4),
             units::format_significant(*cv, 4),
-            if matches!(s.shape, Vessel::VerticalCylinder { .. }) { "/(1 − r²)" } else { "" }
+            if matches!(s.shape, Vessel::VerticalCylinder { .. }) {
+                "/(1 − r²)"
+            } else {
+                ""
+            }
         ),
         Outlet::Pipe { .. } => format!(
             "pipe to atmosphere, g·H = ½V²·(1 + ΣK + f·L/D); at the largest outflow Re = {}, f = {}",
@@ -384,9 +397,7 @@ fn section(s: &Solved, report: &Report<'_>) -> Diagram {
             let r = diameter / 2.0;
             (r * r - (h - r) * (h - r)).max(0.0).sqrt()
         }
-        Vessel::Table(_) | Vessel::VerticalCylinder { .. } => {
-            (s.shape.area(h) / std::f64::consts::PI).sqrt()
-        }
+        Vessel::Table(_) | Vessel::VerticalCylinder { .. } => (s.shape.area(h) / std::f64::consts::PI).sqrt(),
     };
     let levels: Vec<f64> = (0..=48).map(|i| height * i as f64 / 48.0).collect();
     let mut outline: Vec<[f64; 2]> = levels.iter().rev().map(|&h| [-half_width(h), h]).collect();
@@ -431,7 +442,10 @@ fn section(s: &Solved, report: &Report<'_>) -> Diagram {
         label,
         style: ShapeStyle::Velocity,
     });
-    let bounds = common::bounds_of(shapes.iter().flat_map(common::shape_points), 0.15 * (2.0 * width).max(height));
+    let bounds = common::bounds_of(
+        shapes.iter().flat_map(common::shape_points),
+        0.15 * (2.0 * width).max(height),
+    );
     Diagram {
         title: "Vessel section".to_string(),
         bounds,

@@ -299,13 +299,20 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
     };
     let v_start = vessel.shape.volume(start);
     let v_target = vessel.shape.volume(target);
-    let v_top = if top.is_finite() { vessel.shape.volume(top) } else { f64::INFINITY };
+    let v_top = if top.is_finite() {
+        vessel.shape.volume(top)
+    } else {
+        f64::INFINITY
+    };
     let scale = v_start.max(v_target).max(if v_top.is_finite() { v_top } else { 0.0 });
     let tolerance = STEP_TOLERANCE * scale;
     let mut points = vec![point(0.0, v_start)];
     let (mut t, mut v) = (0.0, v_start);
     let rate0 = vessel.rate(0.0, v_start, search_top).abs();
-    let flow_scale = rate0.max(vessel.outlet_at(start).flow).max(vessel.inflow.at(0.0)).max(1e-300);
+    let flow_scale = rate0
+        .max(vessel.outlet_at(start).flow)
+        .max(vessel.inflow.at(0.0))
+        .max(1e-300);
     let mut dt = (1e-3 * scale / flow_scale).clamp(1e-9, longest);
     let mut steps = 0;
     let stop = loop {
@@ -330,7 +337,11 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
         let halves = rk4(vessel, t + 0.5 * dt_try, half, 0.5 * dt_try, search_top);
         let error = (halves - whole).abs() / 15.0;
         if !(error <= tolerance) && dt_try > 1e-12 * (1.0 + t) {
-            let factor = if error.is_finite() { 0.9 * (tolerance / error).powf(0.2) } else { 0.1 };
+            let factor = if error.is_finite() {
+                0.9 * (tolerance / error).powf(0.2)
+            } else {
+                0.1
+            };
             dt = dt_try * factor.clamp(0.1, 0.9);
             continue;
         }
@@ -355,7 +366,11 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
         t += dt_try;
         v = v_new;
         points.push(point(t, v));
-        let factor = if error > 0.0 { 0.9 * (tolerance / error).powf(0.2) } else { 4.0 };
+        let factor = if error > 0.0 {
+            0.9 * (tolerance / error).powf(0.2)
+        } else {
+            4.0
+        };
         dt = dt_try * factor.clamp(0.2, 4.0);
     };
     Run { points, stop }
