@@ -111,6 +111,12 @@ const MODE_CASES: &[&str] = &[
     "line-schedule-computed-surge-slow-closure-pvc-us",
     "surge-run-load-sharp-front-500mm-si",
     "surge-run-load-rigid-column-slow-closure-us",
+    "tank-drain-pressurised-vessel-jet-reaction-si",
+    "tank-drain-pipe-outlet-steady-level-si",
+    "tank-drain-level-area-table-orifice-si",
+    "tank-drain-sphere-full-to-empty-us",
+    "tank-drain-pipe-outlet-drain-us",
+    "tank-drain-pump-horizontal-cylinder-us",
 ];
 
 fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {

@@ -745,6 +745,159 @@ mod tests {
         }
     }
 
+    crate::calculators::testing::page_helpers!(KEY);
+
+    /// A link of the old draining-tank page: only its own keys, the new choices blank.
+    fn old_link(extra: &[(&'static str, &'static str)]) -> crate::catalog::Request {
+        let mut pairs = vec![
+            ("d_tank", "2 m"),
+            ("d_orifice", "50 mm"),
+            ("cd", "0.61"),
+            ("cv", "0.98"),
+            ("h_start", "3 m"),
+            ("h_end", "1 m"),
+            ("fluid", "water"),
+            ("t", "15 degC"),
+        ];
+        pairs.extend_from_slice(extra);
+        let mut request = crate::catalog::Request::default();
+        for (k, v) in pairs {
+            request.inputs.insert(k.to_string(), v.to_string());
+        }
+        request
+    }
+
+    #[test]
+    fn old_links_read_as_a_vented_vertical_cylinder_with_an_orifice() {
+        let old = crate::solve(KEY, &old_link(&[])).result.expect("an old link solves");
+        let blank = [("vessel_shape", ""), ("outlet", ""), ("inflow", ""), ("p_gas", "")];
+        let blanked = crate::solve(KEY, &old_link(&blank))
+            .result
+            .expect("blank choices solve");
+        let explicit = [("vessel_shape", "vertical"), ("outlet", "orifice"), ("inflow", "none")];
+        let explicit = crate::solve(KEY, &old_link(&explicit))
+            .result
+            .expect("explicit choices solve");
+        for s in [&blanked, &explicit] {
+            assert_eq!(s.output("time").unwrap().si, old.output("time").unwrap().si);
+        }
+        // And it is the closed-form unsteady case, checked against Torricelli.
+        assert!(old.checks.iter().any(|c| c.label.starts_with("Time to drain")));
+    }
+
+    #[test]
+    fn a_tiny_inflow_joins_the_closed_form_case() {
+        // The general run with an inflow of 1e-9 of the outflow must give the
+        // quasi-steady time the closed-form case approaches for a small outlet.
+        let closed = solved(&[
+            ("d_tank", "2 m"),
+            ("d_orifice", "20 mm"),
+            ("h_start", "3 m"),
+            ("h_end", "1 m"),
+        ]);
+        let run = solved(&[
+            ("d_tank", "2 m"),
+            ("d_orifice", "20 mm"),
+            ("h_start", "3 m"),
+            ("h_end", "1 m"),
+            ("inflow", "constant"),
+            ("q_in", "1e-12 m3/s"),
+        ]);
+        let (a, b) = (closed.output("time").unwrap().si, run.output("time").unwrap().si);
+        assert_relative_eq!(a, b, max_relative = 1e-6);
+    }
+
+    #[test]
+    fn every_stop_is_named() {
+        // Settles: the steady level lies between the start and the final level.
+        let settles = solved(&[
+            ("inflow", "constant"),
+            ("q_in", "20 m3/h"),
+            ("h_start", "3 m"),
+            ("h_end", "0 m"),
+        ]);
+        assert!(settles.output("time").is_none());
+        let steady = settles.output("steady_level").unwrap().si;
+        assert_relative_eq!(settles.output("end_of_run").unwrap().si, steady, max_relative = 1e-4);
+        assert!(settles.warnings.iter().any(|w| w.message.contains("never reached")));
+        assert!(settles.checks.iter().all(|c| c.agrees()));
+        // Overflows: filling past the top.
+        let overflows = solved(&[
+            ("inflow", "constant"),
+            ("q_in", "200 m3/h"),
+            ("h_vessel", "5 m"),
+            ("h_start", "1 m"),
+            ("h_end", "5 m"),
+            ("d_orifice", "10 mm"),
+        ]);
+        assert!(overflows.output("time").is_some(), "the final level is the top");
+        // Empties: a pump outruns the inflow.
+        let empties = solved(&[
+            ("outlet", "pump"),
+            ("q_out", "60 m3/h"),
+            ("inflow", "constant"),
+            ("q_in", "10 m3/h"),
+            ("h_start", "2 m"),
+            ("h_end", "3 m"),
+        ]);
+        assert!(
+            empties.warnings.iter().any(|w| w.message.contains("empties")),
+            "{:?}",
+            empties.warnings
+        );
+        // The longest time.
+        let slow = solved(&[("d_orifice", "1 mm"), ("t_max", "1 h")]);
+        assert!(slow.warnings.iter().any(|w| w.message.contains("longest time")));
+        // From rest nothing flows at the start; at the end the storage term is the
+        // outflow's mass flow, negative (water at 15 °C, 999.1 kg/m³).
+        assert_eq!(slow.output("storage_start").unwrap().si, 0.0);
+        assert_relative_eq!(
+            slow.output("storage_end").unwrap().si,
+            -slow.output("q_end").unwrap().si * 999.1,
+            max_relative = 1e-4
+        );
+    }
+
+    #[test]
+    fn a_pump_at_the_inflow_keeps_the_level() {
+        let held = solved(&[
+            ("outlet", "pump"),
+            ("q_out", "30 m3/h"),
+            ("inflow", "constant"),
+            ("q_in", "30 m3/h"),
+        ]);
+        assert_relative_eq!(held.output("end_of_run").unwrap().si, 4.5, max_relative = 1e-12);
+        assert!(held.warnings.iter().any(|w| w.message.contains("any level stays")));
+    }
+
+    #[test]
+    fn table_errors_name_the_field_and_the_row() {
+        let (field, message) = first_error(&[("vessel_shape", "table"), ("area_table", "0 m 1 m2; 2 m; 3 m 1 m2")]);
+        assert_eq!(field, "area_table");
+        assert!(message.contains("row 2"), "{message}");
+        let (field, message) = first_error(&[("inflow", "table"), ("inflow_table", "0 min 1 m3/h; 0 min 2 m3/h")]);
+        assert_eq!(field, "inflow_table");
+        assert!(message.contains("row 2"), "{message}");
+    }
+
+    #[test]
+    fn an_inflow_table_fills_by_its_volume() {
+        // Derived from the definition: with a pump at a fixed flow the volume gained is
+        // the table's integral (trapezoids, exact for linear rows) less the pumped volume.
+        let s = solved(&[
+            ("outlet", "pump"),
+            ("q_out", "10 m3/h"),
+            ("inflow", "table"),
+            ("inflow_table", "0 min 10 m3/h; 60 min 70 m3/h"),
+            ("h_start", "1 m"),
+            ("h_end", "4 m"),
+        ]);
+        let area = std::f64::consts::PI * 3.2 * 3.2 / 4.0;
+        // Gained after t ≤ 1 h: ∫(Q_in − Q_out) dt = 60 m³/h² · t²/2.
+        let t = s.output("time").unwrap().si / 3600.0;
+        assert_relative_eq!(30.0 * t * t, 3.0 * area, max_relative = 1e-9);
+    }
+
     #[test]
     fn extreme_accepted_inputs_show_finite_numbers() {
         let mut count = 0;

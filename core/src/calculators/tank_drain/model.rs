@@ -322,6 +322,9 @@ pub struct Classic {
     pub time_free_fall: f64,
     /// The quasi-steady Torricelli time (the independent check for small outlets).
     pub time_quasi_steady: f64,
+    /// Time from the start to the end of the run: to the final level, or the longest
+    /// time simulated when the level would take longer.
+    pub elapsed: f64,
     /// Level, ideal outlet velocity V and outflow at the largest outflow.
     pub level_at_peak: f64,
     pub velocity_at_peak: f64,
@@ -425,7 +428,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         && matches!(vessel.inflow, Inflow::None)
         && vessel.gas_pressure == 0.0;
     let mut solved = if let (true, Outlet::Orifice { area, cd, cv }) = (classic, vessel.outlet.clone()) {
-        solve_classic(&vessel, (area, cd, cv), h1, h2)
+        solve_classic(&vessel, (area, cd, cv), h1, h2, inputs.longest.value)
     } else {
         solve_general(vessel, h1, h2, inputs.longest.value)
     };
@@ -436,7 +439,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
 
 /// The vented vertical cylinder through an orifice, without inflow: the unsteady
 /// balance from rest, in closed form.
-fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, h2: f64) -> Solved {
+fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, wanted: f64, longest: f64) -> Solved {
     let area = vessel.shape.area(0.0);
     let effective_orifice = cd * orifice;
     let tank = Tank {
@@ -446,7 +449,17 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, h
         start: h1,
     };
     let r = tank.ratio;
-    let time = tank.time(h1, h2, 1.0 / 64.0);
+    let time_to_wanted = tank.time(h1, wanted, 1.0 / 64.0);
+    // Beyond the longest time the run stops where the level is then (bisection on the
+    // closed-form time, which falls as the level rises).
+    let reached = time_to_wanted <= longest;
+    let h2 = if reached {
+        wanted
+    } else {
+        crate::numeric::bisect_sign_change(wanted, h1, |h| Ok::<f64, ()>(tank.time(h1, h, 1.0 / 64.0) - longest))
+            .unwrap_or(wanted)
+    };
+    let time = if reached { time_to_wanted } else { longest };
     let time_free_fall = (2.0 * (h1 - h2) / STANDARD_GRAVITY).sqrt();
     let h_peak = tank.level_of_peak(h2);
     let v_peak = tank.velocity_squared(h_peak, h1 - h_peak).max(0.0).sqrt();
@@ -493,8 +506,8 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, h
         top: vessel.top,
         density: vessel.density,
         start: h1,
-        end: h2,
-        time: Some(time),
+        end: wanted,
+        time: reached.then_some(time),
         end_of_run: h2,
         peak: jet(v_peak),
         level_at_peak: h_peak,
@@ -510,6 +523,7 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, h
         inlet_bore: None,
         method: Method::Classic(Box::new(Classic {
             time_quasi_steady: quasi_steady_time(&tank, h1, h2),
+            elapsed: time,
             tank,
             cd,
             cv,
@@ -535,12 +549,7 @@ fn solve_general(vessel: Vessel, h1: f64, h2: f64, longest: f64) -> Solved {
         (Inflow::None | Inflow::Constant(_), Some(_)) => Some(run::quadrature_time(&vessel, h1, h2)),
         _ => None,
     };
-    let peak = run
-        .points
-        .iter()
-        .copied()
-        .max_by(|a, b| a.outlet.flow.total_cmp(&b.outlet.flow))
-        .unwrap_or(last);
+    let peak = run::peak(&vessel, &run);
     let first = run.points[0];
     let curve: Vec<[f64; 2]> = thin(&run.points).iter().map(|p| [p.time, p.level]).collect();
     let half = 0.5 * (h1 + h2);

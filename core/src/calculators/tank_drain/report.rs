@@ -80,8 +80,18 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
 }
 
 fn classic(s: &Solved, c: &Classic, report: &mut Report<'_>) {
-    let (h1, h2, r) = (s.start, s.end, c.tank.ratio);
-    let time = s.time.unwrap_or_default();
+    let (h1, h2, r) = (s.start, s.end_of_run, c.tank.ratio);
+    let time = c.elapsed;
+    if s.time.is_none() {
+        report.warn(
+            Some("t_max"),
+            format!(
+                "the final level is not reached within the longest time simulated ({}); the level is then {}",
+                report.fmt(time, Q::Time),
+                report.fmt(h2, Q::Length)
+            ),
+        );
+    }
     let quasi_steady = c.time_quasi_steady;
     if time < c.time_free_fall * (1.0 - 1e-9) {
         report.defect(format!(
@@ -95,7 +105,11 @@ fn classic(s: &Solved, c: &Classic, report: &mut Report<'_>) {
         let r2 = r * r;
         let tolerance = 1.5 * r2 / (1.0 - r2) * h1.sqrt() / (h1.sqrt() - h2.sqrt()) + 1e-9;
         report.check(
-            "Time to drain (unsteady balance from rest)",
+            if s.time.is_some() {
+                "Time to drain (unsteady balance from rest)"
+            } else {
+                "Level drained to in the longest time, as a time (unsteady balance from rest)"
+            },
             TIME_BASIS,
             Q::Time,
             time,

@@ -193,7 +193,7 @@ impl Vessel {
     }
 
     /// Net rate of change of the liquid volume at time `t` and volume `v`.
-    fn rate(&self, t: f64, v: f64, top: f64) -> f64 {
+    pub fn rate(&self, t: f64, v: f64, top: f64) -> f64 {
         let h = self.shape.level_of(v, top);
         self.inflow.at(t) - self.outlet_at(h).flow
     }
@@ -272,7 +272,7 @@ impl Run {
     }
 }
 
-fn rk4(vessel: &Vessel, t: f64, v: f64, dt: f64, top: f64) -> f64 {
+pub fn rk4(vessel: &Vessel, t: f64, v: f64, dt: f64, top: f64) -> f64 {
     let k1 = vessel.rate(t, v, top);
     let k2 = vessel.rate(t + 0.5 * dt, v + 0.5 * dt * k1, top);
     let k3 = vessel.rate(t + 0.5 * dt, v + 0.5 * dt * k2, top);
@@ -374,6 +374,63 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
         dt = dt_try * factor.clamp(0.2, 4.0);
     };
     Run { points, stop }
+}
+
+/// The point of the run with the largest outflow. The outflow rises with the level,
+/// so an interior peak is where the net flow changes sign from filling to draining;
+/// it is placed there by bisection within its step (an accepted point alone would
+/// put it wherever the step control happened to land).
+pub fn peak(vessel: &Vessel, run: &Run) -> Point {
+    let points = &run.points;
+    let last = *run.last();
+    let Some((index, _)) = points
+        .iter()
+        .enumerate()
+        .max_by(|a, b| a.1.outlet.flow.total_cmp(&b.1.outlet.flow))
+    else {
+        return last;
+    };
+    let top = vessel.top.unwrap_or(f64::INFINITY);
+    let search_top = if top.is_finite() {
+        top
+    } else {
+        2.0 * points.iter().fold(0.0f64, |a, p| a.max(p.level)) + 1.0
+    };
+    let net = |p: &Point| p.inflow - p.outlet.flow;
+    for (a, b) in [(index.wrapping_sub(1), index), (index, index + 1)] {
+        let (Some(pa), Some(pb)) = (points.get(a), points.get(b)) else {
+            continue;
+        };
+        if !(net(pa) > 0.0 && net(pb) <= 0.0) {
+            continue;
+        }
+        let dt = pb.time - pa.time;
+        let (mut lo, mut hi) = (0.0, 1.0);
+        for _ in 0..100 {
+            let mid = 0.5 * (lo + hi);
+            if mid <= lo || mid >= hi {
+                break;
+            }
+            let v = rk4(vessel, pa.time, pa.volume, mid * dt, search_top);
+            if vessel.rate(pa.time + mid * dt, v, search_top) > 0.0 {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        let share = 0.5 * (lo + hi);
+        let volume = rk4(vessel, pa.time, pa.volume, share * dt, search_top);
+        let time = pa.time + share * dt;
+        let level = vessel.shape.level_of(volume, search_top);
+        return Point {
+            time,
+            level,
+            volume,
+            inflow: vessel.inflow.at(time),
+            outlet: vessel.outlet_at(level),
+        };
+    }
+    points[index]
 }
 
 /// The share of a step of `dt` from (t, v) at which one RK4 step lands on `goal`,
