@@ -373,6 +373,9 @@ pub struct Solved {
     /// The outlet and inflow at the end of the run.
     pub at_end: OutletState,
     pub inflow_at_end: f64,
+    /// Inflow and outflow at the start of the run.
+    pub inflow_at_start: f64,
+    pub flow_at_start: f64,
     /// Net volume rate dV/dt at the start and at the end of the run.
     pub rate_at_start: f64,
     pub rate_at_end: f64,
@@ -515,6 +518,8 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, w
         at_end,
         inflow_at_end: 0.0,
         // From rest: nothing flows when the outlet opens.
+        inflow_at_start: 0.0,
+        flow_at_start: 0.0,
         rate_at_start: 0.0,
         rate_at_end: -at_end.flow,
         balance: None,
@@ -574,6 +579,8 @@ fn solve_general(vessel: Vessel, h1: f64, h2: f64, longest: f64) -> Solved {
         inflow_at_peak: peak.inflow,
         at_end: last.outlet,
         inflow_at_end: last.inflow,
+        inflow_at_start: first.inflow,
+        flow_at_start: first.outlet.flow,
         rate_at_start: first.inflow - first.outlet.flow,
         rate_at_end: last.inflow - last.outlet.flow,
         balance: None,

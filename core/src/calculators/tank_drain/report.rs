@@ -2,7 +2,7 @@
 //! tables, the level against time and the vessel's section, built from the model's
 //! typed result ([`super::model::Solved`]).
 
-use crate::catalog::{Diagram, Marker, Plot, Report, Series, Shape, ShapeStyle};
+use crate::catalog::{Diagram, Marker, Plot, Report, Series, Shape, ShapeStyle, Table};
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
 use super::geometry::Shape as Vessel;
@@ -64,6 +64,7 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
         Method::Classic(c) => classic(s, c, report),
         Method::General(g) => general(s, g, report),
     }
+    mass_ledger(s, report);
     if let Some(balance) = &s.balance {
         report
             .solution
@@ -77,6 +78,42 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
     level_plot(s, report);
     let section = section(s, report);
     report.solution.diagrams.push(section);
+}
+
+/// The mass balance as a ledger at the start, at the largest outflow and at the end
+/// of the run: inflow, outflow and the storage term ρ·dV/dt they leave.
+fn mass_ledger(s: &Solved, report: &mut Report<'_>) {
+    let rho = s.density;
+    let moments = [
+        ("start", s.inflow_at_start, s.flow_at_start),
+        ("largest outflow", s.inflow_at_peak, s.peak.flow),
+        ("end of the run", s.inflow_at_end, s.at_end.flow),
+    ];
+    let largest = moments.iter().fold(0.0f64, |a, m| a.max(rho * m.1).max(rho * m.2));
+    let unit = units::display_unit(largest.max(1e-12), Q::MassFlow, report.system()).id;
+    let cell =
+        |v: f64| units::convert_to(v, Q::MassFlow, unit).map_or("—".to_string(), |x| units::format_significant(x, 4));
+    let mut rows = Vec::new();
+    for (name, inflow, outflow) in moments {
+        rows.push(vec![
+            name.to_string(),
+            cell(rho * inflow),
+            cell(rho * outflow),
+            cell(rho * (inflow - outflow)),
+        ]);
+    }
+    report.solution.tables.push(Table {
+        key: "mass_ledger",
+        title: "Mass ledger: inflow − outflow = storage term ρ·dV/dt (positive when filling)".to_string(),
+        columns: vec![
+            "When".to_string(),
+            format!("inflow ρ·Q_in ({unit})"),
+            format!("outflow ρ·Q_out ({unit})"),
+            format!("storage ρ·dV/dt ({unit})"),
+        ],
+        rows,
+        emphasised_rows: Vec::new(),
+    });
 }
 
 fn classic(s: &Solved, c: &Classic, report: &mut Report<'_>) {
@@ -246,7 +283,8 @@ fn general(s: &Solved, g: &General, report: &mut Report<'_>) {
             }
             Outlet::Pump { .. } => "a pump takes a fixed flow whatever the level, so the level keeps moving",
             _ if vessel.outlet_at(0.0).flow >= final_inflow => {
-                "the gas pressure alone drives out more than the inflow, so the vessel empties"
+                "even with the vessel empty, the gas pressure or the outlet pipe's drop drives out more than the \
+                 inflow"
             }
             _ => "the vessel would overflow before the outflow rises to the inflow",
         };
