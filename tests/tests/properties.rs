@@ -693,7 +693,7 @@ fn si_and_us_typing_give_the_same_result() {
 /// gives it.
 #[test]
 fn vessel_si_and_us_typing_give_the_same_result() {
-    si_and_us_typing_agree_over(&["tank-drain"], 1500);
+    si_and_us_typing_agree_over(&["tank-drain"], 160);
 }
 
 /// Plausible and implausible numbers in every field: finite results or typed errors.
