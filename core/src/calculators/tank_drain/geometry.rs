@@ -4,7 +4,8 @@
 //! Closed forms (derived from the definition V(h) = ∫₀ʰ A(z) dz):
 //! - vertical cylinder of diameter D: A = πD²/4, V = A·h;
 //! - horizontal cylinder of diameter D = 2R and length L: A = 2L·√(h(D − h)),
-//!   V = L·(R²·acos((R − h)/R) − (R − h)·√(h(D − h))) (the circular segment);
+//!   V = L·R²·(x − sin x)/2 with x = 4·asin(√(h/D)) (the circular segment; by its
+//!   series for a small angle, where x − sin x would cancel);
 //! - cone-bottomed cylinder (apex at the outlet, cone height H_c, diameter D): in the
 //!   cone A = A_D·(h/H_c)², V = A_D·h³/(3H_c²); above it V = A_D·(H_c/3 + h − H_c);
 //! - sphere of diameter D = 2R: A = π·h·(D − h), V = π·h²·(3R − h)/3 (the
@@ -77,10 +78,7 @@ impl Shape {
             Shape::VerticalCylinder { diameter } => PI * diameter * diameter / 4.0 * h,
             Shape::HorizontalCylinder { diameter, length } => {
                 let radius = diameter / 2.0;
-                let h = h.min(*diameter);
-                let below_axis = radius - h;
-                let half_chord = (h * (diameter - h)).max(0.0).sqrt();
-                length * (radius * radius * (below_axis / radius).clamp(-1.0, 1.0).acos() - below_axis * half_chord)
+                length * segment_area(radius, h.min(*diameter))
             }
             Shape::ConeBottom { diameter, cone_height } => {
                 let full = PI * diameter * diameter / 4.0;
@@ -164,6 +162,20 @@ impl Shape {
             Shape::Table(_) => "typed level–area table",
         }
     }
+}
+
+/// Area of the circular segment of height `h` in a circle of radius `r`,
+/// r²/2·(x − sin x) with the central angle x = 4·asin(√(h/2r)); by its series for a
+/// small angle, where x − sin x would cancel.
+fn segment_area(r: f64, h: f64) -> f64 {
+    let x = 4.0 * (h / (2.0 * r)).clamp(0.0, 1.0).sqrt().asin();
+    let x_minus_sin = if x < 0.1 {
+        let x2 = x * x;
+        x * x2 / 6.0 * (1.0 - x2 / 20.0 * (1.0 - x2 / 42.0 * (1.0 - x2 / 72.0)))
+    } else {
+        x - x.sin()
+    };
+    0.5 * r * r * x_minus_sin
 }
 
 fn table_area(rows: &[(f64, f64)], h: f64) -> f64 {
@@ -372,6 +384,20 @@ mod tests {
                 assert_relative_eq!(slope, shape.area(h), max_relative = 1e-6);
             }
         }
+    }
+
+    #[test]
+    fn a_thin_segment_keeps_its_precision() {
+        // Derived from the definition: for h ≪ R the segment's area tends to
+        // (4/3)·√(2R)·h^(3/2); at h/R = 1e-8 the next term is of relative order 1e-9.
+        let (r, h): (f64, f64) = (2.0, 2e-8);
+        let thin = (4.0 / 3.0) * (2.0 * r).sqrt() * h * h.sqrt();
+        assert_relative_eq!(segment_area(r, h), thin, max_relative = 1e-8);
+        // And the two branches meet: just below and above the series' limit.
+        let h_at = |x: f64| 2.0 * r * (x / 4.0).sin().powi(2);
+        let area = |x: f64| 0.5 * r * r * (x - x.sin());
+        assert_relative_eq!(segment_area(r, h_at(0.0999)), area(0.0999), max_relative = 1e-9);
+        assert_relative_eq!(segment_area(r, h_at(0.2)), area(0.2), max_relative = 1e-12);
     }
 
     #[test]

@@ -192,6 +192,17 @@ pub fn read(values: &Values, system: UnitSystem) -> Result<Inputs, FieldErrors> 
             }
         }
     }
+    if let OutletInput::Pipe { drop, .. } = inputs.outlet {
+        if inputs.end_level.value == 0.0 && drop.value == 0.0 && inputs.gas_pressure.value == 0.0 {
+            return Err(FieldError::inconsistent(
+                "h_end",
+                "with the pipe's end level with the outlet and no gas pressure, the last of the liquid drains ever \
+                 more slowly (the flow turns laminar and falls with the level) and never quite empties: give a \
+                 final level above 0, or the drop to the pipe's end",
+            )
+            .into());
+        }
+    }
     if inputs.end_level == inputs.start_level {
         return Err(FieldError::inconsistent("h_end", "the final level must differ from the starting level").into());
     }

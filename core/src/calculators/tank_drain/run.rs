@@ -65,6 +65,13 @@ impl Inflow {
             },
         }
     }
+    /// The first row time of a table after `t`.
+    pub fn next_row_after(&self, t: f64) -> Option<f64> {
+        match self {
+            Inflow::Table(rows) => rows.iter().map(|r| r.0).find(|&time| time > t),
+            _ => None,
+        }
+    }
     /// The time after which the inflow no longer changes.
     pub fn settles_after(&self) -> f64 {
         match self {
@@ -192,6 +199,34 @@ impl Vessel {
         0.5 * (lo + hi)
     }
 
+    /// Levels where the outflow or the area has a kink: the shape's, and for an outlet
+    /// pipe the two ends of the flat stretch where the friction factor jumps from the
+    /// laminar to the Colebrook value at Re = 2300 (the outflow holds at that Reynolds
+    /// number while the head rises across the jump).
+    pub fn kinks(&self) -> Vec<f64> {
+        let mut kinks = self.shape.kinks();
+        if let Outlet::Pipe {
+            bore,
+            length,
+            roughness,
+            k_minor,
+            ..
+        } = self.outlet
+        {
+            let v = LAMINAR_LIMIT * self.viscosity / (self.density * bore);
+            let laminar = 0.5 * v * v * (1.0 + k_minor + 64.0 / LAMINAR_LIMIT * length / bore);
+            let turbulent = 0.5 * v * v * (1.0 + k_minor + friction(LAMINAR_LIMIT, roughness / bore) * length / bore);
+            let datum = self.head(0.0);
+            for energy in [laminar, turbulent] {
+                let level = energy / STANDARD_GRAVITY - datum;
+                if level.is_finite() && level > 0.0 {
+                    kinks.push(level);
+                }
+            }
+        }
+        kinks
+    }
+
     /// Net rate of change of the liquid volume at time `t` and volume `v`.
     pub fn rate(&self, t: f64, v: f64, top: f64) -> f64 {
         let h = self.shape.level_of(v, top);
@@ -304,8 +339,15 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
     } else {
         f64::INFINITY
     };
-    let scale = v_start.max(v_target).max(if v_top.is_finite() { v_top } else { 0.0 });
-    let tolerance = STEP_TOLERANCE * scale;
+    // The step error is held against the volume the run is to move, so that the
+    // time spent in a narrow part of the vessel is followed as closely as the rest.
+    // Near an empty vessel the outflow vanishes and a volume error costs time in
+    // proportion: the error is also held against the volume still to go.
+    let scale = (v_start - v_target).abs().max(1e-300);
+    let tolerance_at = |v: f64| STEP_TOLERANCE * (v - v_target).abs().max(1e-6 * scale);
+    // Volumes where the outflow or the area has a kink: steps land on them.
+    let mut kinks: Vec<f64> = vessel.kinks().into_iter().map(|h| vessel.shape.volume(h)).collect();
+    kinks.sort_by(f64::total_cmp);
     let mut points = vec![point(0.0, v_start)];
     let (mut t, mut v) = (0.0, v_start);
     let rate0 = vessel.rate(0.0, v_start, search_top).abs();
@@ -313,7 +355,9 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
         .max(vessel.outlet_at(start).flow)
         .max(vessel.inflow.at(0.0))
         .max(1e-300);
-    let mut dt = (1e-3 * scale / flow_scale).clamp(1e-9, longest);
+    // The run's own time scale: tiny vessels drain in microseconds, large ones in days.
+    let time_scale = (scale / flow_scale).min(longest);
+    let mut dt = 1e-3 * time_scale;
     let mut steps = 0;
     let stop = loop {
         // Settled: a constant inflow balanced by the outflow.
@@ -331,12 +375,15 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
         if steps > MAX_STEPS {
             break Stop::Steps;
         }
-        let dt_try = dt.min(longest - t);
+        // Steps end at the rows of an inflow table (kinks of the inflow in time).
+        let next_row = vessel.inflow.next_row_after(t).unwrap_or(f64::INFINITY);
+        let dt_try = dt.min(longest - t).min(next_row - t);
         let whole = rk4(vessel, t, v, dt_try, search_top);
         let half = rk4(vessel, t, v, 0.5 * dt_try, search_top);
         let halves = rk4(vessel, t + 0.5 * dt_try, half, 0.5 * dt_try, search_top);
         let error = (halves - whole).abs() / 15.0;
-        if !(error <= tolerance) && dt_try > 1e-12 * (1.0 + t) {
+        let tolerance = tolerance_at(v);
+        if !(error <= tolerance) && dt_try > 1e-13 * (time_scale + t) {
             let factor = if error.is_finite() {
                 0.9 * (tolerance / error).powf(0.2)
             } else {
@@ -362,6 +409,14 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
             points.push(point(t, level));
             // Reaching the final level at empty or full is reaching it.
             break if level == v_target { Stop::Reached } else { stop };
+        }
+        let between = |k: f64| (v < k && k < v_new) || (v_new < k && k < v);
+        if let Some(&kink) = kinks.iter().find(|&&k| between(k)) {
+            // Land on the kink and go on from there with the same step length.
+            t += step_to(vessel, t, v, dt_try, kink, search_top) * dt_try;
+            v = kink;
+            points.push(point(t, v));
+            continue;
         }
         t += dt_try;
         v = v_new;
@@ -499,7 +554,8 @@ pub fn quadrature_time(vessel: &Vessel, from: f64, to: f64) -> f64 {
     let (low, high) = if from < to { (from, to) } else { (to, from) };
     // The area has kinks (the top of a cone, the rows of a table): integrate piecewise.
     let mut edges = vec![low];
-    edges.extend(vessel.shape.kinks().into_iter().filter(|&k| k > low && k < high));
+    edges.extend(vessel.kinks().into_iter().filter(|&k| k > low && k < high));
+    edges.sort_by(f64::total_cmp);
     edges.push(high);
     edges
         .windows(2)
