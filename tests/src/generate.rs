@@ -122,6 +122,8 @@ pub fn valid_text(spec: &CalculatorSpec, field: &FieldSpec, rng: &mut Rng) -> St
     match (spec.key, field.key) {
         ("line-schedule", "rows") => schedule_rows(rng),
         ("profile", "points") => traverse_points(rng),
+        ("tank-drain", "area_table") => level_area_rows(rng),
+        ("tank-drain", "inflow_table") => inflow_rows(rng),
         _ => field.demo.to_string(),
     }
 }
@@ -192,6 +194,47 @@ pub fn schedule_rows(rng: &mut Rng) -> String {
         rows.push(tokens.join(" "));
     }
     rows.join("\n")
+}
+
+/// A vessel's level–area table: the outlet at 0, 2 to 10 rows of rising levels,
+/// areas from a square centimetre to a few hundred square metres, in SI or US units.
+pub fn level_area_rows(rng: &mut Rng) -> String {
+    let count = 2 + rng.below(9);
+    let mut level = 0.0;
+    let mut rows = Vec::new();
+    for i in 0..count {
+        if i > 0 {
+            level += rng.range(0.01, 5.0);
+        }
+        let area = if i == 0 && rng.chance(0.2) {
+            0.0
+        } else {
+            10f64.powf(rng.range(-3.5, 2.5))
+        };
+        if rng.chance(0.5) {
+            rows.push(format!("{level:.4} m {area:.6} m2"));
+        } else {
+            rows.push(format!("{:.5} ft {:.6} ft2", level / 0.3048, area / (0.3048 * 0.3048)));
+        }
+    }
+    rows.join(if rng.chance(0.5) { "; " } else { "\n" })
+}
+
+/// A vessel's inflow table: 1 to 8 rows of rising times and flows, in SI or US units.
+pub fn inflow_rows(rng: &mut Rng) -> String {
+    let count = 1 + rng.below(8);
+    let mut time = rng.range(0.0, 30.0);
+    let mut rows = Vec::new();
+    for _ in 0..count {
+        let flow = if rng.chance(0.1) { 0.0 } else { 10f64.powf(rng.range(-1.0, 3.0)) };
+        if rng.chance(0.5) {
+            rows.push(format!("{time:.3} min {flow:.5} m3/h"));
+        } else {
+            rows.push(format!("{:.5} h {:.5} gpm", time / 60.0, flow * 1000.0 / 3.785411784 / 60.0));
+        }
+        time += rng.range(0.5, 120.0);
+    }
+    rows.join(if rng.chance(0.5) { "; " } else { "\n" })
 }
 
 /// A traverse of 2 to 12 points from the centre outwards, velocities falling

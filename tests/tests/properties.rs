@@ -653,9 +653,13 @@ where
 /// (values inside the limits, with the demo's proportions or drawn over the range,
 /// every option, generated text).
 fn si_and_us_typing_agree(keys: &[&'static str]) {
+    si_and_us_typing_agree_over(keys, 96);
+}
+
+fn si_and_us_typing_agree_over(keys: &[&'static str], cases: u32) {
     let share = SolvedShare::default();
     let chosen: Vec<CalculatorSpec> = specs().into_iter().filter(|s| keys.contains(&s.key)).collect();
-    run_property(96, any::<u64>(), |seed| {
+    run_property(cases, any::<u64>(), |seed| {
         let mut rng = Rng::new(seed);
         for spec in &chosen {
             let (si_req, us_req) = generate::twin_requests(spec, Reach::Valid, &mut rng);
@@ -682,6 +686,14 @@ fn si_and_us_typing_agree(keys: &[&'static str]) {
 #[test]
 fn si_and_us_typing_give_the_same_result() {
     si_and_us_typing_agree(&calculator_keys());
+}
+
+/// The vessel page integrates in time with step control, whose accepted steps could
+/// differ between twin requests: more draws of that page alone than the test above
+/// gives it.
+#[test]
+fn vessel_si_and_us_typing_give_the_same_result() {
+    si_and_us_typing_agree_over(&["tank-drain"], 160);
 }
 
 /// Plausible and implausible numbers in every field: finite results or typed errors.

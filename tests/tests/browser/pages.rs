@@ -113,6 +113,12 @@ const MODE_CASES: &[&str] = &[
     "surge-run-load-rigid-column-slow-closure-us",
     "tee-one-branch-reducing-elbow-beta-atmosphere-si",
     "tee-branch-profiles-weights-local-gravity-us",
+    "tank-drain-pressurised-vessel-jet-reaction-si",
+    "tank-drain-pipe-outlet-steady-level-si",
+    "tank-drain-level-area-table-orifice-si",
+    "tank-drain-sphere-full-to-empty-us",
+    "tank-drain-pipe-outlet-drain-us",
+    "tank-drain-pump-horizontal-cylinder-us",
 ];
 
 fn cases_for_page<'a>(key: &str, cases: &'a [Case]) -> Vec<&'a Case> {
