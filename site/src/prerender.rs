@@ -325,6 +325,12 @@ impl Page<'_> {
         let echoes = list(self.result, "echoes");
         let warnings = list(self.result, "warnings");
         for field in list(self.spec, "fields") {
+            // A field the demo hides is left out: the served form is inert and the
+            // page script writes the whole form, hidden fields included, when it
+            // takes over (the bytes of the first response, issue 9).
+            if !self.is_visible(field) {
+                continue;
+            }
             let key = text(field, "key");
             let label = text(field, "label");
             let id = format!("field-{key}");
@@ -441,10 +447,9 @@ impl Page<'_> {
                     escape(&id)
                 )),
             }
-            let hidden = if self.is_visible(field) { "" } else { " hidden" };
             let empty = if typed.trim().is_empty() { " data-empty" } else { "" };
             html.push_str(&format!(
-                "<div class=\"field\" data-field=\"{}\"{hidden}{empty}>{inner}</div>",
+                "<div class=\"field\" data-field=\"{}\"{empty}>{inner}</div>",
                 escape(key)
             ));
         }
@@ -1382,13 +1387,18 @@ mod tests {
     }
 
     #[test]
-    fn every_calculator_prerenders_its_demo_with_every_field_and_output() {
+    fn every_calculator_prerenders_its_demo_with_every_shown_field_and_output() {
         for spec in calculators::catalog() {
             let html = calculator_section(&spec).unwrap_or_else(|| panic!("{}: demo did not solve", spec.key));
+            let request = demo_request(&spec, UnitSystem::Si);
             for field in &spec.fields {
-                assert!(
+                // The fields the demo shows are served; those it hides are left to
+                // the page script.
+                let shown = fluxledger_core::catalog::is_shown(&spec, field, &request);
+                assert_eq!(
                     html.contains(&format!("id=\"field-{}\"", field.key)),
-                    "{}: {}",
+                    shown,
+                    "{}: {} (shown: {shown})",
                     spec.key,
                     field.key
                 );
