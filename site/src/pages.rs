@@ -545,19 +545,33 @@ mod tests {
     #[test]
     fn a_note_is_split_after_its_first_section_and_the_rest_has_its_own_page() {
         let note = "<h2>What</h2>\n<p>$$</p>\n<h2>1. More</h2>\n<p>b</p>\n<h2>Sources</h2>\n";
-        assert_eq!(split_note(note), ("<h2>What</h2>\n<p>$$</p>\n", "<h2>1. More</h2>\n<p>b</p>\n<h2>Sources</h2>\n"));
+        assert_eq!(
+            split_note(note),
+            (
+                "<h2>What</h2>\n<p>$$</p>\n",
+                "<h2>1. More</h2>\n<p>b</p>\n<h2>Sources</h2>\n"
+            )
+        );
         assert_eq!(split_note("<p>a</p>\n<h2>B</h2>\n"), ("<p>a</p>\n", "<h2>B</h2>\n"));
-        assert_eq!(split_note("<h2>Only</h2>\n<p>a</p>\n"), ("<h2>Only</h2>\n<p>a</p>\n", ""));
+        assert_eq!(
+            split_note("<h2>Only</h2>\n<p>a</p>\n"),
+            ("<h2>Only</h2>\n<p>a</p>\n", "")
+        );
         assert_eq!(split_note(""), ("", ""));
         let bend = spec("bend", "Pipe fittings", "Bend");
         let page = calculator_page(&bend, note, None, &assets());
         assert!(page.contains("<p>$$</p>") && !page.contains("<p>b</p>"), "{page}");
-        assert!(page.contains("<p class=\"note-more\"><a href=\"bend-method.html\">"), "{page}");
+        assert!(
+            page.contains("<p class=\"note-more\"><a href=\"bend-method.html\">"),
+            "{page}"
+        );
         let whole = method_page(&bend, note, &assets()).expect("a note of three sections");
         // The method page's article opens as the calculator page's does, then the
         // whole note: the script skips the children both share.
         let article = |html: &str| html.split("<article").nth(1).map(str::to_string).unwrap_or_default();
-        assert!(article(&whole).starts_with(&article(&page)[..article(&page).find("<p class=\"note-more\"").unwrap_or(0)]));
+        assert!(
+            article(&whole).starts_with(&article(&page)[..article(&page).find("<p class=\"note-more\"").unwrap_or(0)])
+        );
         assert!(whole.contains("<p>b</p>") && whole.contains("<h2>Sources</h2>"));
         assert!(whole.contains("href=\"bend.html\""), "links back to the calculator");
         assert!(whole.contains("id=\"cautions\""), "shows the cautions");

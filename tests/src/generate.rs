@@ -226,11 +226,19 @@ pub fn inflow_rows(rng: &mut Rng) -> String {
     let mut time = rng.range(0.0, 30.0);
     let mut rows = Vec::new();
     for _ in 0..count {
-        let flow = if rng.chance(0.1) { 0.0 } else { 10f64.powf(rng.range(-1.0, 3.0)) };
+        let flow = if rng.chance(0.1) {
+            0.0
+        } else {
+            10f64.powf(rng.range(-1.0, 3.0))
+        };
         if rng.chance(0.5) {
             rows.push(format!("{time:.3} min {flow:.5} m3/h"));
         } else {
-            rows.push(format!("{:.5} h {:.5} gpm", time / 60.0, flow * 1000.0 / 3.785411784 / 60.0));
+            rows.push(format!(
+                "{:.5} h {:.5} gpm",
+                time / 60.0,
+                flow * 1000.0 / 3.785411784 / 60.0
+            ));
         }
         time += rng.range(0.5, 120.0);
     }

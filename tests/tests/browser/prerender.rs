@@ -393,7 +393,10 @@ fn every_page_completes_its_method_note_from_the_note_page() {
             ),
         );
         if compared["same"] != json!(true) || compared["headings"][0] != compared["headings"][1] {
-            problems.push(format!("{}: the note differs from {note_page}: {compared}", calculator.key));
+            problems.push(format!(
+                "{}: the note differs from {note_page}: {compared}",
+                calculator.key
+            ));
         }
     }
     assert!(problems.is_empty(), "\n{}", problems.join("\n"));

@@ -1069,3 +1069,19 @@ pub fn profile_carry_overs(beta: f64, alpha: f64) -> Vec<crate::catalog::CarryOv
         })
         .collect()
 }
+
+/// A text field (a list of lines: rows, points, a table), required, shown always.
+pub fn text_field(key: &'static str, label: &'static str, demo: &'static str, help: &'static str) -> FieldSpec {
+    FieldSpec {
+        key,
+        label,
+        kind: FieldKind::Text,
+        si_unit: "",
+        us_unit: "",
+        demo,
+        limits: None,
+        optional: false,
+        help,
+        visible_when: None,
+    }
+}

@@ -184,19 +184,13 @@ fn computed_surge_fields() -> Vec<FieldSpec> {
 
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
-        FieldSpec {
-            kind: crate::catalog::FieldKind::Text,
-            si_unit: "",
-            us_unit: "",
-            demo: DEMO_ROWS,
-            limits: None,
-            optional: false,
-            help: "One fitting per line: KIND then tokens, e.g. 'bend 45deg di52_12 dense_granular tag=B1'. Kinds: \
+        common::text_field(
+            "rows",
+            "Fittings along the line",
+            DEMO_ROWS,
+            "One fitting per line: KIND then tokens, e.g. 'bend 45deg di52_12 dense_granular tag=B1'. Kinds: \
                     bend, tee, dead_end, reducer, force. See the method note for every token.",
-            visible_when: None,
-            key: "rows",
-            label: "Fittings along the line",
-        },
+        ),
         choice(
             "p_basis",
             "Design pressure basis (rows without p=)",

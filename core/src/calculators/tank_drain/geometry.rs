@@ -179,12 +179,18 @@ fn segment_area(r: f64, h: f64) -> f64 {
 }
 
 fn table_area(rows: &[(f64, f64)], h: f64) -> f64 {
-    match rows.iter().position(|r| r.0 >= h) {
+    interpolate(rows, h)
+}
+
+/// Linear interpolation in a table of rising x: the first value below the table,
+/// the last above it (the level–area and time–inflow tables alike).
+pub(super) fn interpolate(rows: &[(f64, f64)], x: f64) -> f64 {
+    match rows.iter().position(|r| r.0 >= x) {
         Some(0) => rows[0].1,
         Some(i) => {
-            let (h0, a0) = rows[i - 1];
-            let (h1, a1) = rows[i];
-            a0 + (a1 - a0) * (h - h0) / (h1 - h0)
+            let (x0, y0) = rows[i - 1];
+            let (x1, y1) = rows[i];
+            y0 + (y1 - y0) * (x - x0) / (x1 - x0)
         }
         None => rows.last().map_or(0.0, |r| r.1),
     }

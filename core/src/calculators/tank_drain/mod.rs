@@ -112,7 +112,7 @@
 //! (the closed form in [`model::Tank`], the run in time in [`run`], the shapes in
 //! [`geometry`]); `report` writes the outputs, checks, tables, plot and section.
 
-use crate::catalog::{CalculatorSpec, ChoiceOption, FieldKind, FieldSpec, Limits, OutputSpec, Report, Values};
+use crate::catalog::{CalculatorSpec, ChoiceOption, FieldSpec, Limits, OutputSpec, Report, Values};
 use crate::error::FieldError;
 use crate::units::QuantityKind as Q;
 
@@ -255,21 +255,6 @@ fn optional(field: FieldSpec) -> FieldSpec {
     }
 }
 
-fn text_field(key: &'static str, label: &'static str, demo: &'static str, help: &'static str) -> FieldSpec {
-    FieldSpec {
-        key,
-        label,
-        kind: FieldKind::Text,
-        si_unit: "",
-        us_unit: "",
-        demo,
-        limits: None,
-        optional: false,
-        help,
-        visible_when: None,
-    }
-}
-
 pub fn spec() -> CalculatorSpec {
     let mut fields = vec![
         optional(choice("vessel_shape", "Vessel shape", SHAPES, "vertical", SHAPE_HELP)),
@@ -330,7 +315,7 @@ pub fn spec() -> CalculatorSpec {
             &["vertical", "cone_bottom"],
         ),
         shown(
-            text_field(
+            common::text_field(
                 "area_table",
                 "Level and area",
                 "0 m 0.8 m2; 1 m 2.4 m2; 4 m 2.4 m2",
@@ -494,7 +479,7 @@ pub fn spec() -> CalculatorSpec {
             &["constant"],
         ),
         shown(
-            text_field(
+            common::text_field(
                 "inflow_table",
                 "Time and inflow",
                 "0 min 20 m3/h; 30 min 60 m3/h; 90 min 10 m3/h",

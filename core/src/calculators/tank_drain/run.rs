@@ -54,15 +54,7 @@ impl Inflow {
         match self {
             Inflow::None => 0.0,
             Inflow::Constant(q) => *q,
-            Inflow::Table(rows) => match rows.iter().position(|r| r.0 >= t) {
-                Some(0) => rows[0].1,
-                Some(i) => {
-                    let (t0, q0) = rows[i - 1];
-                    let (t1, q1) = rows[i];
-                    q0 + (q1 - q0) * (t - t0) / (t1 - t0)
-                }
-                None => rows.last().map_or(0.0, |r| r.1),
-            },
+            Inflow::Table(rows) => super::geometry::interpolate(rows, t),
         }
     }
     /// The first row time of a table after `t`.
