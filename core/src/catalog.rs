@@ -184,6 +184,15 @@ pub struct FieldSpec {
     pub visible_when: Option<(&'static str, &'static [&'static str])>,
 }
 
+impl FieldSpec {
+    /// Whether a user can leave the field empty: an optional quantity or text field.
+    /// An optional choice is never empty on a page (its list has no blank entry; the
+    /// default fills it for a link that lacks it), so it is not called optional there.
+    pub fn may_be_left_empty(&self) -> bool {
+        self.optional && !matches!(self.kind, FieldKind::Choice(_))
+    }
+}
+
 /// One output a calculator reports.
 #[derive(Clone, Debug, PartialEq)]
 pub struct OutputSpec {

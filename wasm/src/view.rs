@@ -100,6 +100,8 @@ pub struct FieldView {
     /// The unit the field starts in per unit system (`""` for choice and text).
     pub default_units: DefaultUnitsView,
     pub demo: &'static str,
+    /// Whether the user may leave it empty ([`core_catalog::FieldSpec::may_be_left_empty`]):
+    /// the page marks it "(optional)".
     pub optional: bool,
     pub help: &'static str,
     pub options: Vec<OptionView>,
@@ -223,7 +225,7 @@ pub fn field_view(spec: &CalculatorSpec, field: &FieldSpec) -> FieldView {
             us: core_catalog::default_unit(field, UnitSystem::UsCustomary),
         },
         demo: field.demo,
-        optional: field.optional,
+        optional: field.may_be_left_empty(),
         help: field.help,
         options,
         shown_when: core_catalog::shown_when(spec, field)
@@ -913,6 +915,31 @@ mod tests {
         assert_eq!(note["optional"], json!(true));
         assert_eq!(note["shown_when"], json!([{"field": "layout", "values": ["vertical"]}]));
         assert_eq!(layout["default_units"], json!({"si": "", "us": ""}));
+    }
+
+    /// The vessel keeps its shape optional so that an old draining-tank link (which has
+    /// no shape) still reads; on the page the shape list has no blank entry, so it must
+    /// not read "(optional)". Its height, which may be left empty, must.
+    #[test]
+    fn an_optional_choice_is_not_shown_as_optional_but_an_optional_quantity_is() {
+        let spec = fluxledger_core::calculators::spec("tank-drain").expect("the vessel page");
+        let view = to_json(&calculator_view(&spec));
+        let field = |key: &str| {
+            view["fields"]
+                .as_array()
+                .and_then(|fields| fields.iter().find(|f| f["key"] == json!(key)))
+                .cloned()
+                .unwrap_or_else(|| panic!("no field {key}"))
+        };
+        assert!(
+            spec.field("vessel_shape").is_some_and(|f| f.optional),
+            "the shape is optional in the core"
+        );
+        assert_eq!(field("vessel_shape")["optional"], json!(false));
+        assert_eq!(field("h_vessel")["optional"], json!(true));
+        for f in view["fields"].as_array().into_iter().flatten() {
+            assert!(!(f["kind"] == json!("choice") && f["optional"] == json!(true)), "{f}");
+        }
     }
 
     #[test]
