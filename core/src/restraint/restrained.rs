@@ -35,14 +35,18 @@
 //!
 //! # Two pipe walls
 //! The ductile-iron pipe industry's method (DIPRA) is the balance above. The PVC
-//! pipe industry publishes its own restraint equations and wall ratios (AWWA M23
-//! *PVC Pipe — Design and Installation*, thrust-restraint section; Uni-Bell); that
-//! table has NOT been checked here. What this handbook computes for PVC
-//! ([`Method::Pvc`]) is the same balance with reduced wall ratios of its own
-//! choosing: 0.8 × the ductile-iron f_φ and ⅔ × its f_c, with no encasement, so
-//! that a PVC main is never given a shorter length than ductile iron in the same
-//! soil. The page says so and asks for the published or the restraint maker's
-//! ratios to be typed where they are at hand. Typed ratios override both.
+//! pipe industry publishes its own restrained-joint method (AWWA M23 *PVC Pipe —
+//! Design and Installation*, 2nd ed. 2002, ch. 4 "Thrust Restraint—General", whose
+//! figures show the friction and passive forces on a bend and the trench
+//! conditions for restrained joints on PVC mains; 3rd ed. 2020 not consulted;
+//! Uni-Bell); its equations and soil values have NOT been checked here: the
+//! public text reachable while this was written stopped at M23's contents.
+//! What this handbook computes for PVC ([`Method::Pvc`]) is the same balance
+//! with reduced wall ratios of its own choosing: 0.8 × the ductile-iron f_φ and
+//! ⅔ × its f_c, with no encasement, so that a PVC main is never given a shorter
+//! length than ductile iron in the same soil. The page says so and asks for the
+//! published or the restraint maker's ratios to be typed where they are at hand.
+//! Typed ratios override both.
 //!
 //! # Assumptions
 //! Static thrust on the outside diameter; soil in the trench as assumed along the

@@ -15,7 +15,7 @@
 //!    [`crate::restraint::restrained`] (the ductile-iron pipe industry's *Thrust
 //!    Restraint Design for Ductile Iron Pipe*, DIPRA, 7th ed. 2016, equations from
 //!    memory; for PVC the same equations with this handbook's reduced wall ratios,
-//!    not checked against AWWA M23's table):
+//!    not checked against the PVC industry's method in AWWA M23, 2nd ed. 2002, ch. 4):
 //!    W_e = γ·H·D, W = W_p + W_w + 2·W_e, F_f = π·D·f_c·c + W·tan(f_φ·φ) (0.7·W·tan δ
 //!    in polyethylene encasement), R_s = K_n·D·(γ·H_c·K_p + 2c√K_p),
 //!    K_p = tan²(45° + φ/2); then L = S_f·P·A·tan(Δ/2)/(F_f + ½R_s) at a bend
