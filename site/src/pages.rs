@@ -24,13 +24,15 @@
 //! the server (see [`crate::server`] and the README).
 
 use base64::Engine as _;
+
+use crate::first_screen;
 use fluxledger_core::catalog::{common_cautions, CalculatorSpec, COMMON_CAUTIONS};
 use sha2::{Digest, Sha256};
 
 /// The content security policy of a page: the site's own files, `'wasm-unsafe-eval'`
 /// (without which Chromium refuses to compile the module), and the page's inline
 /// style and script allowed by hash only (never `'unsafe-inline'`).
-pub fn csp(inline_style: &str, inline_script: &str) -> String {
+pub fn csp(inline_styles: &[&str], inline_script: &str) -> String {
     let hash = |text: &str| {
         format!(
             " 'sha256-{}'",
@@ -42,11 +44,11 @@ pub fn csp(inline_style: &str, inline_script: &str) -> String {
     } else {
         hash(inline_script)
     };
-    let style = if inline_style.is_empty() {
-        String::new()
-    } else {
-        hash(inline_style)
-    };
+    let style: String = inline_styles
+        .iter()
+        .filter(|text| !text.is_empty())
+        .map(|text| hash(text))
+        .collect();
     format!(
         "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'{script}; style-src 'self'{style}; \
 img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'"
@@ -101,6 +103,10 @@ pub struct PageAssets {
     pub version: String,
 }
 
+/// Where a prerendered calculator section's details (the result's tables,
+/// diagram and plots, below the first screen) begin.
+pub const DETAILS_START: &str = "<div class=\"details\">";
+
 /// The file name of a calculator's page.
 pub fn page_file(key: &str) -> String {
     format!("{key}.html")
@@ -131,6 +137,12 @@ fn preloads(assets: &PageAssets) -> String {
 }
 
 pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculator: bool) -> String {
+    head_with(title, description, assets, calculator, "")
+}
+
+/// [`head`] of a page whose body holds a second `<style>` element,
+/// `body_style` (allowed by its hash too; empty for none).
+fn head_with(title: &str, description: &str, assets: &PageAssets, calculator: bool, body_style: &str) -> String {
     let inline_script = if calculator { assets.head_script.as_str() } else { "" };
     let styles = if assets.inline_style.is_empty() && !assets.screen_stylesheet.is_empty() {
         format!(
@@ -160,7 +172,7 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculat
     } else {
         format!("<script type=\"module\" src=\"{}\"></script>\n", escape(&assets.script))
     };
-    let csp = csp(&assets.inline_style, inline_script);
+    let csp = csp(&[&assets.inline_style, body_style], inline_script);
     format!(
         concat!(
             "<!doctype html>\n<html lang=\"en\">\n<head>\n",
@@ -332,12 +344,11 @@ pub fn calculator_page(
     assets: &PageAssets,
 ) -> String {
     let file = page_file(spec.key);
-    let mut html = head(&format!("{} — Fluxledger", spec.title), spec.summary, assets, true);
-    html.push_str(&format!(
+    let mut html = format!(
         "<body data-calculator=\"{key}\" data-group=\"{group}\">\n",
         key = escape(spec.key),
         group = escape(spec.group)
-    ));
+    );
     html.push_str(header());
     html.push_str("<main>\n");
     html.push_str(&format!(
@@ -351,8 +362,26 @@ pub fn calculator_page(
         "<noscript><p class=\"no-result\">The live calculator needs JavaScript and WebAssembly. ",
         "The method and the cautions below apply without it.</p></noscript>\n"
     ));
+    // The stylesheet split at the first screen (crate::first_screen): the rules the
+    // markup before the result's details may use in the head, the rest where the
+    // details begin.
+    let mut split_style = None;
     if let Some(section) = prerendered {
-        html.push_str(section);
+        match section.find(DETAILS_START) {
+            Some(at) if !assets.inline_style.is_empty() => {
+                let shown = format!("{html}{}", &section[..at]);
+                let names =
+                    first_screen::Names::of_markup(&shown, &first_screen::classes_added_by(&assets.head_script));
+                let (early, later) = first_screen::split(&assets.inline_style, &names);
+                html.push_str(&section[..at]);
+                if !later.is_empty() {
+                    html.push_str(&format!("<style>{later}</style>"));
+                }
+                html.push_str(&section[at..]);
+                split_style = Some((early, later));
+            }
+            _ => html.push_str(section),
+        }
     }
     html.push_str("</section>\n");
     // A prerendered section holds the cautions beside its result, where the script
@@ -372,7 +401,18 @@ pub fn calculator_page(
     html.push_str("</article>\n</main>\n");
     html.push_str(&footer(assets, &file));
     html.push_str("</body>\n</html>\n");
-    html
+    let title = format!("{} — Fluxledger", spec.title);
+    let head = match split_style {
+        Some((early, later)) => {
+            let split = PageAssets {
+                inline_style: early,
+                ..assets.clone()
+            };
+            head_with(&title, spec.summary, &split, true, &later)
+        }
+        None => head(&title, spec.summary, assets, true),
+    };
+    head + &html
 }
 
 /// The contents page: calculators grouped by job group, groups in the order of
@@ -510,7 +550,7 @@ mod tests {
         assert!(!page.contains("unsafe-inline"));
         // SHA-256 of the texts, computed independently (Python hashlib, base64):
         // "body { color: red; }" and "go(\"app.22cc33dd.js\");".
-        let policy = csp("body { color: red; }", "go(\"app.22cc33dd.js\");");
+        let policy = csp(&["body { color: red; }"], "go(\"app.22cc33dd.js\");");
         assert!(page.contains(&escape(&policy)));
         assert!(
             policy.contains("style-src 'self' 'sha256-XeYlw2NVzOfB1UCIJqCyGr+0n7bA4fFslFpvKu84IAw='"),
