@@ -7,12 +7,16 @@
 //!
 //! A first visit needs nothing but the HTML for its first result: the screen rules
 //! of the stylesheet are inlined in a `<style>` element (the print rules are a
-//! separate `media="print"` stylesheet, which does not hold up rendering), and the
+//! separate `media="print"` stylesheet, which does not hold up rendering); on a
+//! calculator page the head carries only the rules its first screen may use and a
+//! second `<style>` where the demo's details begin carries the rest, the cascade
+//! unchanged ([`crate::first_screen`]). The
 //! one inline script (`site/assets/query.js`) marks a page opened with a query and
 //! loads the page script: at once, with its modules, the glue and the wasm
 //! preloaded, when the link carries a query; after the first paint when it does
-//! not. The content security policy allows exactly those two inline elements by
-//! their SHA-256 hashes ([`csp`]). All text from the core (titles,
+//! not; it comes before the rules, so that a link's requests do not wait for them.
+//! The content security policy allows exactly those inline elements by their
+//! SHA-256 hashes ([`csp`]). All text from the core (titles,
 //! summaries, groups, cautions) is HTML-escaped here; the only unescaped markup is
 //! the method note, which [`crate::notes`] renders from our own Markdown.
 //!
@@ -183,8 +187,11 @@ fn head_with(title: &str, description: &str, assets: &PageAssets, calculator: bo
             "<meta name=\"theme-color\" content=\"{theme}\">\n",
             "<meta name=\"description\" content=\"{description}\">\n",
             "<title>{title}</title>\n",
-            "{styles}",
+            // The script first: on a link with a query it requests the page
+            // script, its modules and the wasm, which should not wait for the
+            // browser to parse the inline rules.
             "{scripts}",
+            "{styles}",
             "<link rel=\"manifest\" href=\"manifest.webmanifest\">\n",
             "<link rel=\"icon\" href=\"icon.svg\" type=\"image/svg+xml\">\n",
             "<link rel=\"apple-touch-icon\" href=\"icon-192.png\">\n",
