@@ -146,6 +146,10 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculat
 
 /// [`head`] of a page whose body holds a second `<style>` element,
 /// `body_style` (allowed by its hash too; empty for none).
+///
+/// The print rules are linked after every screen rule, so that they win over a
+/// screen rule of the same specificity: when the body holds screen rules, the
+/// print stylesheet's `<link>` follows them there ([`print_after`]), not the head.
 fn head_with(title: &str, description: &str, assets: &PageAssets, calculator: bool, body_style: &str) -> String {
     let inline_script = if calculator { assets.head_script.as_str() } else { "" };
     let styles = if assets.inline_style.is_empty() && !assets.screen_stylesheet.is_empty() {
@@ -156,6 +160,9 @@ fn head_with(title: &str, description: &str, assets: &PageAssets, calculator: bo
         )
     } else if assets.inline_style.is_empty() {
         format!("<link rel=\"stylesheet\" href=\"{}\">\n", escape(&assets.stylesheet))
+    } else if !body_style.is_empty() {
+        // The print rules follow the body's rules (see `print_after`).
+        format!("<style>{}</style>\n", assets.inline_style)
     } else {
         // Our own stylesheet, not escaped (`<` would be wrong in CSS); the build
         // refuses one that could close the element.
@@ -382,7 +389,7 @@ pub fn calculator_page(
                 let (early, later) = first_screen::split(&assets.inline_style, &names);
                 html.push_str(&section[..at]);
                 if !later.is_empty() {
-                    html.push_str(&format!("<style>{later}</style>"));
+                    html.push_str(&print_after(&later, assets));
                 }
                 html.push_str(&section[at..]);
                 split_style = Some((early, later));
@@ -420,6 +427,16 @@ pub fn calculator_page(
         None => head(&title, spec.summary, assets, true),
     };
     head + &html
+}
+
+/// The second `<style>` of a calculator page (the screen rules its first screen
+/// does not use) and, after it, the print stylesheet. The page script moves both
+/// to the head, in this order, before it rebuilds the calculator section.
+fn print_after(later_rules: &str, assets: &PageAssets) -> String {
+    format!(
+        "<style>{later_rules}</style><link rel=\"stylesheet\" href=\"{}\" media=\"print\">",
+        escape(&assets.stylesheet)
+    )
 }
 
 /// The contents page: calculators grouped by job group, groups in the order of
@@ -540,6 +557,32 @@ mod tests {
             assert!(page.contains(needle), "missing {needle}:\n{page}");
         }
         assert!(!page.contains(" style="), "no inline styles under the CSP");
+    }
+
+    #[test]
+    fn a_split_page_keeps_screen_rules_then_print_rules_and_allows_both_styles() {
+        let assets = PageAssets {
+            inline_style: ".summary { margin: 0; }\n.ledger { width: 1px; }".into(),
+            head_script: "go(\"app.22cc33dd.js\");".into(),
+            ..assets()
+        };
+        let section = format!("<div class=\"headline\"></div>{DETAILS_START}<table class=\"ledger\"></table></div>");
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", Some(&section), &assets);
+        let head = &page[..page.find("</head>").expect("a head")];
+        assert!(head.contains("<style>.summary { margin: 0; }</style>"), "{head}");
+        assert!(
+            !head.contains("media=\"print\""),
+            "the print rules follow every screen rule: {head}"
+        );
+        let later = "<style>.ledger { width: 1px; }</style><link rel=\"stylesheet\" href=\"style.00aa11bb.css\" media=\"print\">";
+        let at = page.find(later).unwrap_or_else(|| panic!("{page}"));
+        assert_eq!(page[at + later.len()..].find(DETAILS_START), Some(0), "{page}");
+        let policy = csp(
+            &[".summary { margin: 0; }", ".ledger { width: 1px; }"],
+            "go(\"app.22cc33dd.js\");",
+        );
+        assert!(page.contains(&escape(&policy)), "{page}");
+        assert_eq!(policy.matches("'sha256-").count(), 3, "{policy}");
     }
 
     #[test]

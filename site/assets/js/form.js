@@ -343,8 +343,9 @@ export function buildPage() {
   const cautions = document.getElementById("cautions");
   const grid = el("div", { class: "calc-grid" }, main, cautions, details);
   // The site tool puts the rules the first screen does not use in a <style> where
-  // the demo's details begin: they move to the head before the section is rebuilt.
-  document.head.append(...section.querySelectorAll("style"));
+  // the demo's details begin, the print stylesheet after them: both move to the
+  // head, in that order, before the section is rebuilt.
+  document.head.append(...section.querySelectorAll("style, link[rel=stylesheet]"));
   section.replaceChildren(toolbar, notices, grid);
   // The printed sheet ends with the link and version, after the method and cautions.
   (section.closest("main") || section).append(printFooter);
