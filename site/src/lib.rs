@@ -34,6 +34,7 @@
 
 pub mod build;
 pub mod error;
+pub mod first_screen;
 pub mod icons;
 pub mod notes;
 pub mod pages;

@@ -7,12 +7,16 @@
 //!
 //! A first visit needs nothing but the HTML for its first result: the screen rules
 //! of the stylesheet are inlined in a `<style>` element (the print rules are a
-//! separate `media="print"` stylesheet, which does not hold up rendering), and the
+//! separate `media="print"` stylesheet, which does not hold up rendering); on a
+//! calculator page the head carries only the rules its first screen may use and a
+//! second `<style>` where the demo's details begin carries the rest, the cascade
+//! unchanged ([`crate::first_screen`]). The
 //! one inline script (`site/assets/query.js`) marks a page opened with a query and
 //! loads the page script: at once, with its modules, the glue and the wasm
 //! preloaded, when the link carries a query; after the first paint when it does
-//! not. The content security policy allows exactly those two inline elements by
-//! their SHA-256 hashes ([`csp`]). All text from the core (titles,
+//! not; it comes before the rules, so that a link's requests do not wait for them.
+//! The content security policy allows exactly those inline elements by their
+//! SHA-256 hashes ([`csp`]). All text from the core (titles,
 //! summaries, groups, cautions) is HTML-escaped here; the only unescaped markup is
 //! the method note, which [`crate::notes`] renders from our own Markdown.
 //!
@@ -24,13 +28,15 @@
 //! the server (see [`crate::server`] and the README).
 
 use base64::Engine as _;
+
+use crate::first_screen;
 use fluxledger_core::catalog::{common_cautions, CalculatorSpec, COMMON_CAUTIONS};
 use sha2::{Digest, Sha256};
 
 /// The content security policy of a page: the site's own files, `'wasm-unsafe-eval'`
 /// (without which Chromium refuses to compile the module), and the page's inline
 /// style and script allowed by hash only (never `'unsafe-inline'`).
-pub fn csp(inline_style: &str, inline_script: &str) -> String {
+pub fn csp(inline_styles: &[&str], inline_script: &str) -> String {
     let hash = |text: &str| {
         format!(
             " 'sha256-{}'",
@@ -42,11 +48,11 @@ pub fn csp(inline_style: &str, inline_script: &str) -> String {
     } else {
         hash(inline_script)
     };
-    let style = if inline_style.is_empty() {
-        String::new()
-    } else {
-        hash(inline_style)
-    };
+    let style: String = inline_styles
+        .iter()
+        .filter(|text| !text.is_empty())
+        .map(|text| hash(text))
+        .collect();
     format!(
         "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'{script}; style-src 'self'{style}; \
 img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'"
@@ -101,6 +107,10 @@ pub struct PageAssets {
     pub version: String,
 }
 
+/// Where a prerendered calculator section's details (the result's tables,
+/// diagram and plots, below the first screen) begin.
+pub const DETAILS_START: &str = "<div class=\"details\">";
+
 /// The file name of a calculator's page.
 pub fn page_file(key: &str) -> String {
     format!("{key}.html")
@@ -131,6 +141,16 @@ fn preloads(assets: &PageAssets) -> String {
 }
 
 pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculator: bool) -> String {
+    head_with(title, description, assets, calculator, "")
+}
+
+/// [`head`] of a page whose body holds a second `<style>` element,
+/// `body_style` (allowed by its hash too; empty for none).
+///
+/// The print rules are linked after every screen rule, so that they win over a
+/// screen rule of the same specificity: when the body holds screen rules, the
+/// print stylesheet's `<link>` follows them there ([`print_after`]), not the head.
+fn head_with(title: &str, description: &str, assets: &PageAssets, calculator: bool, body_style: &str) -> String {
     let inline_script = if calculator { assets.head_script.as_str() } else { "" };
     let styles = if assets.inline_style.is_empty() && !assets.screen_stylesheet.is_empty() {
         format!(
@@ -140,6 +160,9 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculat
         )
     } else if assets.inline_style.is_empty() {
         format!("<link rel=\"stylesheet\" href=\"{}\">\n", escape(&assets.stylesheet))
+    } else if !body_style.is_empty() {
+        // The print rules follow the body's rules (see `print_after`).
+        format!("<style>{}</style>\n", assets.inline_style)
     } else {
         // Our own stylesheet, not escaped (`<` would be wrong in CSS); the build
         // refuses one that could close the element.
@@ -160,7 +183,7 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculat
     } else {
         format!("<script type=\"module\" src=\"{}\"></script>\n", escape(&assets.script))
     };
-    let csp = csp(&assets.inline_style, inline_script);
+    let csp = csp(&[&assets.inline_style, body_style], inline_script);
     format!(
         concat!(
             "<!doctype html>\n<html lang=\"en\">\n<head>\n",
@@ -171,8 +194,11 @@ pub(crate) fn head(title: &str, description: &str, assets: &PageAssets, calculat
             "<meta name=\"theme-color\" content=\"{theme}\">\n",
             "<meta name=\"description\" content=\"{description}\">\n",
             "<title>{title}</title>\n",
-            "{styles}",
+            // The script first: on a link with a query it requests the page
+            // script, its modules and the wasm, which should not wait for the
+            // browser to parse the inline rules.
             "{scripts}",
+            "{styles}",
             "<link rel=\"manifest\" href=\"manifest.webmanifest\">\n",
             "<link rel=\"icon\" href=\"icon.svg\" type=\"image/svg+xml\">\n",
             "<link rel=\"apple-touch-icon\" href=\"icon-192.png\">\n",
@@ -332,12 +358,11 @@ pub fn calculator_page(
     assets: &PageAssets,
 ) -> String {
     let file = page_file(spec.key);
-    let mut html = head(&format!("{} — Fluxledger", spec.title), spec.summary, assets, true);
-    html.push_str(&format!(
+    let mut html = format!(
         "<body data-calculator=\"{key}\" data-group=\"{group}\">\n",
         key = escape(spec.key),
         group = escape(spec.group)
-    ));
+    );
     html.push_str(header());
     html.push_str("<main>\n");
     html.push_str(&format!(
@@ -351,8 +376,26 @@ pub fn calculator_page(
         "<noscript><p class=\"no-result\">The live calculator needs JavaScript and WebAssembly. ",
         "The method and the cautions below apply without it.</p></noscript>\n"
     ));
+    // The stylesheet split at the first screen (crate::first_screen): the rules the
+    // markup before the result's details may use in the head, the rest where the
+    // details begin.
+    let mut split_style = None;
     if let Some(section) = prerendered {
-        html.push_str(section);
+        match section.find(DETAILS_START) {
+            Some(at) if !assets.inline_style.is_empty() => {
+                let shown = format!("{html}{}", &section[..at]);
+                let names =
+                    first_screen::Names::of_markup(&shown, &first_screen::classes_added_by(&assets.head_script));
+                let (early, later) = first_screen::split(&assets.inline_style, &names);
+                html.push_str(&section[..at]);
+                if !later.is_empty() {
+                    html.push_str(&print_after(&later, assets));
+                }
+                html.push_str(&section[at..]);
+                split_style = Some((early, later));
+            }
+            _ => html.push_str(section),
+        }
     }
     html.push_str("</section>\n");
     // A prerendered section holds the cautions beside its result, where the script
@@ -372,7 +415,28 @@ pub fn calculator_page(
     html.push_str("</article>\n</main>\n");
     html.push_str(&footer(assets, &file));
     html.push_str("</body>\n</html>\n");
-    html
+    let title = format!("{} — Fluxledger", spec.title);
+    let head = match split_style {
+        Some((early, later)) => {
+            let split = PageAssets {
+                inline_style: early,
+                ..assets.clone()
+            };
+            head_with(&title, spec.summary, &split, true, &later)
+        }
+        None => head(&title, spec.summary, assets, true),
+    };
+    head + &html
+}
+
+/// The second `<style>` of a calculator page (the screen rules its first screen
+/// does not use) and, after it, the print stylesheet. The page script moves both
+/// to the head, in this order, before it rebuilds the calculator section.
+fn print_after(later_rules: &str, assets: &PageAssets) -> String {
+    format!(
+        "<style>{later_rules}</style><link rel=\"stylesheet\" href=\"{}\" media=\"print\">",
+        escape(&assets.stylesheet)
+    )
 }
 
 /// The contents page: calculators grouped by job group, groups in the order of
@@ -496,6 +560,32 @@ mod tests {
     }
 
     #[test]
+    fn a_split_page_keeps_screen_rules_then_print_rules_and_allows_both_styles() {
+        let assets = PageAssets {
+            inline_style: ".summary { margin: 0; }\n.ledger { width: 1px; }".into(),
+            head_script: "go(\"app.22cc33dd.js\");".into(),
+            ..assets()
+        };
+        let section = format!("<div class=\"headline\"></div>{DETAILS_START}<table class=\"ledger\"></table></div>");
+        let page = calculator_page(&spec("bend", "Pipe fittings", "Bend"), "", Some(&section), &assets);
+        let head = &page[..page.find("</head>").expect("a head")];
+        assert!(head.contains("<style>.summary { margin: 0; }</style>"), "{head}");
+        assert!(
+            !head.contains("media=\"print\""),
+            "the print rules follow every screen rule: {head}"
+        );
+        let later = "<style>.ledger { width: 1px; }</style><link rel=\"stylesheet\" href=\"style.00aa11bb.css\" media=\"print\">";
+        let at = page.find(later).unwrap_or_else(|| panic!("{page}"));
+        assert_eq!(page[at + later.len()..].find(DETAILS_START), Some(0), "{page}");
+        let policy = csp(
+            &[".summary { margin: 0; }", ".ledger { width: 1px; }"],
+            "go(\"app.22cc33dd.js\");",
+        );
+        assert!(page.contains(&escape(&policy)), "{page}");
+        assert_eq!(policy.matches("'sha256-").count(), 3, "{policy}");
+    }
+
+    #[test]
     fn inline_style_and_script_are_allowed_by_their_hashes_only() {
         let assets = PageAssets {
             inline_style: "body { color: red; }".into(),
@@ -510,7 +600,7 @@ mod tests {
         assert!(!page.contains("unsafe-inline"));
         // SHA-256 of the texts, computed independently (Python hashlib, base64):
         // "body { color: red; }" and "go(\"app.22cc33dd.js\");".
-        let policy = csp("body { color: red; }", "go(\"app.22cc33dd.js\");");
+        let policy = csp(&["body { color: red; }"], "go(\"app.22cc33dd.js\");");
         assert!(page.contains(&escape(&policy)));
         assert!(
             policy.contains("style-src 'self' 'sha256-XeYlw2NVzOfB1UCIJqCyGr+0n7bA4fFslFpvKu84IAw='"),

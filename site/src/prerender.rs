@@ -239,7 +239,9 @@ impl Page<'_> {
         html.push_str(&self.form());
         html.push_str("</div>");
         html.push_str(&self.cautions);
-        html.push_str(&format!("<div class=\"details\">{}</div>", self.details()));
+        html.push_str(crate::pages::DETAILS_START);
+        html.push_str(&self.details());
+        html.push_str("</div>");
         html.push_str("</div>\n");
         html
     }

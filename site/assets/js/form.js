@@ -342,6 +342,10 @@ export function buildPage() {
   // phone, after the key results on the printed sheet.
   const cautions = document.getElementById("cautions");
   const grid = el("div", { class: "calc-grid" }, main, cautions, details);
+  // The site tool puts the rules the first screen does not use in a <style> where
+  // the demo's details begin, the print stylesheet after them: both move to the
+  // head, in that order, before the section is rebuilt.
+  document.head.append(...section.querySelectorAll("style, link[rel=stylesheet]"));
   section.replaceChildren(toolbar, notices, grid);
   // The printed sheet ends with the link and version, after the method and cautions.
   (section.closest("main") || section).append(printFooter);
