@@ -584,6 +584,12 @@ pub fn units_of(kind: QuantityKind) -> impl Iterator<Item = &'static UnitDef> {
 /// `^`, `·` and spaces), whatever its kind. Nothing is matched case-insensitively:
 /// `mN` is not `MN`, `MM` is not `mm`.
 pub fn find_unit(text: &str) -> Option<&'static UnitDef> {
+    // An id is its own normal form and no other unit spells it (both checked by
+    // `unit_ids_and_aliases_are_unique_and_ids_ascii`): the usual call, with an id the
+    // core wrote itself, needs neither the folding nor the aliases.
+    if let Some(def) = unit_by_id(text) {
+        return Some(def);
+    }
     let norm = normalise_unit(text);
     UNITS
         .iter()
@@ -1104,7 +1110,7 @@ pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String 
 /// and help, never for text that is parsed again.
 pub fn with_label(text: &str) -> String {
     match text.split_once(' ') {
-        Some((number, id)) => match UNITS.iter().find(|u| u.id == id) {
+        Some((number, id)) => match unit_by_id(id) {
             Some(def) => def.show(number),
             None => text.to_string(),
         },
@@ -1117,20 +1123,45 @@ pub fn with_label(text: &str) -> String {
 /// `"angle (°)"`), and a text that is nothing but a unit code likewise (`"N.m"` →
 /// `"N·m"`). Other text is returned as it is. Never for text that is parsed again.
 pub fn labels_for_codes(text: &str) -> String {
-    if let Some(def) = UNITS.iter().find(|u| u.id == text) {
+    if let Some(def) = unit_by_id(text) {
         return def.label().to_string();
     }
-    if !text.contains('(') {
-        return text.to_string();
-    }
-    let mut out = text.to_string();
-    for def in UNITS.iter().filter(|u| u.label() != u.id) {
-        let code = format!("({})", def.id);
-        if out.contains(&code) {
-            out = out.replace(&code, &format!("({})", def.label()));
+    // Every "(" is tried as the start of a code: a table has dozens of headings and
+    // cells, each read on every keystroke, so this is one pass over the text against
+    // the few units whose label differs from their id, not one search per unit.
+    let mut out = String::new();
+    let mut copied = 0;
+    let mut from = 0;
+    while let Some(found) = text[from..].find('(') {
+        let open = from + found;
+        let rest = &text[open + 1..];
+        let code = relabelled_units()
+            .iter()
+            .find(|def| rest.strip_prefix(def.id).is_some_and(|after| after.starts_with(')')));
+        from = open + 1;
+        if let Some(def) = code {
+            out.push_str(&text[copied..=open]);
+            out.push_str(def.label());
+            copied = open + 1 + def.id.len();
+            from = copied;
         }
     }
+    if copied == 0 {
+        return text.to_string();
+    }
+    out.push_str(&text[copied..]);
     out
+}
+
+/// The unit whose id is exactly `id` (no folding, no aliases).
+fn unit_by_id(id: &str) -> Option<&'static UnitDef> {
+    UNITS.iter().find(|u| u.id == id)
+}
+
+/// The units whose label differs from their id (`m2` → `m²`), in [`UNITS`] order.
+fn relabelled_units() -> &'static [&'static UnitDef] {
+    static RELABELLED: std::sync::OnceLock<Vec<&'static UnitDef>> = std::sync::OnceLock::new();
+    RELABELLED.get_or_init(|| UNITS.iter().filter(|u| u.label() != u.id).collect())
 }
 
 /// The number of `si` expressed in `unit_id`, if that unit exists and measures
@@ -1311,6 +1342,49 @@ mod label_tests {
         assert_eq!(labels_for_codes("force (kN)"), "force (kN)");
         assert_eq!(labels_for_codes("bend 45deg (typed)"), "bend 45deg (typed)");
         assert_eq!(labels_for_codes("stress (kgf/cm2)"), "stress (kgf/cm²)");
+        assert_eq!(labels_for_codes("viscosity (lb/(ft.s))"), "viscosity (lb/(ft·s))");
+        assert_eq!(labels_for_codes("((m2)) (m3"), "((m²)) (m3");
+    }
+
+    /// Every code written as its label, unit after unit: the definition that
+    /// [`labels_for_codes`] computes in one pass over the text.
+    fn labels_for_codes_unit_by_unit(text: &str) -> String {
+        if let Some(def) = UNITS.iter().find(|u| u.id == text) {
+            return def.label().to_string();
+        }
+        let mut out = text.to_string();
+        for def in UNITS.iter().filter(|u| u.label() != u.id) {
+            out = out.replace(&format!("({})", def.id), &format!("({})", def.label()));
+        }
+        out
+    }
+
+    #[test]
+    fn labels_for_codes_in_one_pass_agree_with_unit_by_unit() {
+        let mut spellings: Vec<&str> = vec!["", "x", "(", ")", "()", "deg(", "typed", "1.5"];
+        for def in UNITS {
+            spellings.push(def.id);
+            spellings.push(def.label());
+            spellings.extend(def.aliases.iter().copied());
+        }
+        // Second codes: those that are written as another label, and no code at all.
+        let mut others: Vec<&str> = vec!["", "x", "("];
+        others.extend(relabelled_units().iter().map(|u| u.id));
+        let mut texts = Vec::new();
+        for a in &spellings {
+            texts.push(a.to_string());
+            texts.push(format!("({a}"));
+            texts.push(format!("{a})"));
+            texts.push(format!("(({a}))"));
+            for b in &others {
+                texts.push(format!("heading ({a}) and ({b})"));
+                texts.push(format!("({a})({b})"));
+                texts.push(format!("({a}({b}))"));
+            }
+        }
+        for text in &texts {
+            assert_eq!(labels_for_codes(text), labels_for_codes_unit_by_unit(text), "{text:?}");
+        }
     }
 
     #[test]
