@@ -370,7 +370,7 @@ pub fn split_shown(text: &str) -> Option<(String, Option<&'static UnitDef>)> {
     }
     match unit {
         None => Some((number.to_string(), None)),
-        Some(id) => UNITS.iter().find(|u| u.id == id).map(|u| (number.to_string(), Some(u))),
+        Some(id) => unit_by_id(id).map(|u| (number.to_string(), Some(u))),
     }
 }
 
@@ -1096,6 +1096,14 @@ pub fn format_quantity(si: f64, kind: QuantityKind, system: UnitSystem) -> Strin
     format_in(si, def)
 }
 
+/// [`format_quantity`] as people read it, the unit's label in place of its id
+/// (`"12.4 kN"`, `"45°"`, `"2 m³/h"`): what [`with_label`] makes of it, written at
+/// once.
+pub fn format_quantity_labelled(si: f64, kind: QuantityKind, system: UnitSystem) -> String {
+    let def = display_unit(si, kind, system);
+    def.show(&format_significant((si - def.offset) / def.factor, 4))
+}
+
 /// Formats an SI value in a given unit id (falls back to the SI display unit).
 pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String {
     match find_unit(unit_id) {
@@ -1123,22 +1131,33 @@ pub fn with_label(text: &str) -> String {
 /// `"angle (°)"`), and a text that is nothing but a unit code likewise (`"N.m"` →
 /// `"N·m"`). Other text is returned as it is. Never for text that is parsed again.
 pub fn labels_for_codes(text: &str) -> String {
+    relabel_codes(text).unwrap_or_else(|| text.to_string())
+}
+
+/// What [`labels_for_codes`] writes for `text`, or `None` when that is `text`
+/// itself: a result's tables have hundreds of cells, most of them numbers and words
+/// with no code, so the caller keeps those as they are instead of copying each.
+pub fn relabel_codes(text: &str) -> Option<String> {
     if let Some(def) = unit_by_id(text) {
-        return def.label().to_string();
+        let label = def.label();
+        return (label != text).then(|| label.to_string());
     }
-    // Every "(" is tried as the start of a code: a table has dozens of headings and
-    // cells, each read on every keystroke, so this is one pass over the text against
-    // the few units whose label differs from their id, not one search per unit.
+    // Every "(" is tried as the start of a code: one pass over the text, each code
+    // looked up by the text up to the next ")" (or the one after, for an id that
+    // holds a parenthesis itself, `lb/(ft.s)`).
     let mut out = String::new();
     let mut copied = 0;
     let mut from = 0;
     while let Some(found) = text[from..].find('(') {
         let open = from + found;
-        let rest = &text[open + 1..];
-        let code = relabelled_units()
-            .iter()
-            .find(|def| rest.strip_prefix(def.id).is_some_and(|after| after.starts_with(')')));
         from = open + 1;
+        let rest = &text[open + 1..];
+        let mut closes = rest.match_indices(')').map(|(at, _)| at);
+        let code = closes
+            .by_ref()
+            .take(2)
+            .filter_map(|close| unit_by_id(&rest[..close]))
+            .find(|def| def.label() != def.id);
         if let Some(def) = code {
             out.push_str(&text[copied..=open]);
             out.push_str(def.label());
@@ -1147,21 +1166,30 @@ pub fn labels_for_codes(text: &str) -> String {
         }
     }
     if copied == 0 {
-        return text.to_string();
+        return None;
     }
     out.push_str(&text[copied..]);
-    out
+    Some(out)
 }
 
 /// The unit whose id is exactly `id` (no folding, no aliases).
-fn unit_by_id(id: &str) -> Option<&'static UnitDef> {
-    UNITS.iter().find(|u| u.id == id)
-}
-
-/// The units whose label differs from their id (`m2` → `m²`), in [`UNITS`] order.
-fn relabelled_units() -> &'static [&'static UnitDef] {
-    static RELABELLED: std::sync::OnceLock<Vec<&'static UnitDef>> = std::sync::OnceLock::new();
-    RELABELLED.get_or_init(|| UNITS.iter().filter(|u| u.label() != u.id).collect())
+///
+/// Every value a result shows is looked up by its unit's id (to format it, to
+/// label it), dozens of times a solve: a binary search over the ids in order
+/// instead of a scan of all of [`UNITS`].
+pub fn unit_by_id(id: &str) -> Option<&'static UnitDef> {
+    /// The units sorted by id, and the longest id (longer text is no id at all).
+    static BY_ID: std::sync::OnceLock<(Vec<&'static UnitDef>, usize)> = std::sync::OnceLock::new();
+    let (sorted, longest) = BY_ID.get_or_init(|| {
+        let mut sorted: Vec<&'static UnitDef> = UNITS.iter().collect();
+        sorted.sort_by_key(|u| u.id);
+        let longest = UNITS.iter().map(|u| u.id.len()).max().unwrap_or(0);
+        (sorted, longest)
+    });
+    if id.is_empty() || id.len() > *longest {
+        return None;
+    }
+    sorted.binary_search_by(|u| u.id.cmp(id)).ok().map(|i| sorted[i])
 }
 
 /// The number of `si` expressed in `unit_id`, if that unit exists and measures
@@ -1360,6 +1388,33 @@ mod label_tests {
     }
 
     #[test]
+    fn labelled_quantities_are_the_formatted_ones_with_labels() {
+        for kind in QuantityKind::ALL {
+            for si in [
+                0.0,
+                -2.5e-7,
+                1.5e-4,
+                0.75,
+                1.0,
+                12.0,
+                -273.15,
+                3.4e4,
+                9.9e6,
+                4.2e13,
+                f64::NAN,
+            ] {
+                for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                    assert_eq!(
+                        format_quantity_labelled(si, kind, system),
+                        with_label(&format_quantity(si, kind, system)),
+                        "{kind:?} {si} {system:?}"
+                    );
+                }
+            }
+        }
+    }
+
+    #[test]
     fn labels_for_codes_in_one_pass_agree_with_unit_by_unit() {
         let mut spellings: Vec<&str> = vec!["", "x", "(", ")", "()", "deg(", "typed", "1.5"];
         for def in UNITS {
@@ -1369,7 +1424,7 @@ mod label_tests {
         }
         // Second codes: those that are written as another label, and no code at all.
         let mut others: Vec<&str> = vec!["", "x", "("];
-        others.extend(relabelled_units().iter().map(|u| u.id));
+        others.extend(UNITS.iter().filter(|u| u.label() != u.id).map(|u| u.id));
         let mut texts = Vec::new();
         for a in &spellings {
             texts.push(a.to_string());
