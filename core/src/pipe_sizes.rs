@@ -1962,6 +1962,18 @@ mod tests {
     }
 
     #[test]
+    fn every_preset_is_found_by_its_key_and_nothing_else_is() {
+        for s in SIZES {
+            let first = SIZES.iter().find(|o| o.key == s.key);
+            let named = |f: &PipeSize| (f.key, f.nominal, f.od.to_bits(), f.id.to_bits());
+            assert_eq!(find(s.key).map(named), first.map(named), "{}", s.key);
+        }
+        for key in ["", "di52", "di52_12 ", "DI52_12", "zzz", CUSTOM] {
+            assert!(find(key).is_none(), "{key:?}");
+        }
+    }
+
+    #[test]
     fn ductile_iron_12_in_matches_the_table() {
         // AWWA C150/C151 special thickness class table: 12 in, OD 13.20 in, class 52 wall 0.37 in.
         let s = find("di52_12").map(|s| (s.od, s.id));
