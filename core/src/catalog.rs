@@ -499,7 +499,7 @@ impl Table {
             .enumerate()
             .map(|(index, header)| {
                 let (title, unit) = match header.strip_suffix(')').and_then(|h| h.rsplit_once(" (")) {
-                    Some((title, id)) => match units::UNITS.iter().find(|u| u.id == id) {
+                    Some((title, id)) => match units::unit_by_id(id) {
                         Some(unit) => (title.to_string(), Some(unit)),
                         None => (header.clone(), None),
                     },
@@ -811,7 +811,7 @@ impl<'a> Report<'a> {
     /// Formats a value of `kind` in the report's unit system, for people to read
     /// (`12 m²`, `45°`): messages and tables, never text parsed again.
     pub fn fmt(&self, si: f64, kind: QuantityKind) -> String {
-        units::with_label(&units::format_quantity(si, kind, self.system))
+        units::format_quantity_labelled(si, kind, self.system)
     }
     /// The solution, with the `checks` table appended when any check was made.
     pub fn finish(mut self) -> Solution {
@@ -821,12 +821,14 @@ impl<'a> Report<'a> {
         }
         // Headings are built from unit codes (they also pick the unit the cells
         // are converted to); people read the labels.
-        for table in &mut self.solution.tables {
-            for heading in &mut table.columns {
-                *heading = units::labels_for_codes(heading);
-            }
-            for cell in table.rows.iter_mut().flatten() {
-                *cell = units::labels_for_codes(cell);
+        // Most cells hold no code: only those that do are written again.
+        let tables = &mut self.solution.tables;
+        for text in tables
+            .iter_mut()
+            .flat_map(|t| t.columns.iter_mut().chain(t.rows.iter_mut().flatten()))
+        {
+            if let Some(labelled) = units::relabel_codes(text) {
+                *text = labelled;
             }
         }
         for plot in &mut self.solution.plots {
@@ -863,8 +865,8 @@ fn checks_table(checks: &[Check], system: UnitSystem) -> Table {
         table.rows.push(vec![
             c.label.clone(),
             c.basis.clone(),
-            units::with_label(&units::format_quantity(c.value, c.kind, system)),
-            units::with_label(&units::format_quantity(c.reference, c.kind, system)),
+            units::format_quantity_labelled(c.value, c.kind, system),
+            units::format_quantity_labelled(c.reference, c.kind, system),
             format!("{} %", units::format_significant(relative * 100.0, 2)),
             if c.agrees() {
                 format!("yes (within {} %)", units::format_significant(c.tolerance * 100.0, 2))

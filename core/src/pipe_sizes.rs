@@ -1935,7 +1935,17 @@ pub const SIZE_OPTIONS: &[ChoiceOption] = &[
 
 /// The preset with this key, if any (`None` for [`CUSTOM`] and unknown keys).
 pub fn find(key: &str) -> Option<&'static PipeSize> {
-    SIZES.iter().find(|s| s.key == key)
+    // A line schedule looks a size up for every token of every row: a binary search
+    // over the keys in order (stably sorted, so the first preset of a key is found,
+    // as a scan would) rather than a scan of every preset.
+    static BY_KEY: std::sync::OnceLock<Vec<&'static PipeSize>> = std::sync::OnceLock::new();
+    let sorted = BY_KEY.get_or_init(|| {
+        let mut sorted: Vec<&'static PipeSize> = SIZES.iter().collect();
+        sorted.sort_by_key(|s| s.key);
+        sorted
+    });
+    let first = sorted.partition_point(|s| s.key < key);
+    sorted.get(first).copied().filter(|s| s.key == key)
 }
 
 #[cfg(test)]
@@ -1948,6 +1958,18 @@ mod tests {
         for s in SIZES {
             assert!(SIZE_OPTIONS.iter().any(|o| o.key == s.key), "{}", s.key);
             assert!(s.id > 0.0 && s.id < s.od && s.od < 1.3, "{}", s.key);
+        }
+    }
+
+    #[test]
+    fn every_preset_is_found_by_its_key_and_nothing_else_is() {
+        for s in SIZES {
+            let first = SIZES.iter().find(|o| o.key == s.key);
+            let named = |f: &PipeSize| (f.key, f.nominal, f.od.to_bits(), f.id.to_bits());
+            assert_eq!(find(s.key).map(named), first.map(named), "{}", s.key);
+        }
+        for key in ["", "di52", "di52_12 ", "DI52_12", "zzz", CUSTOM] {
+            assert!(find(key).is_none(), "{key:?}");
         }
     }
 

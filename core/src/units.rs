@@ -370,7 +370,7 @@ pub fn split_shown(text: &str) -> Option<(String, Option<&'static UnitDef>)> {
     }
     match unit {
         None => Some((number.to_string(), None)),
-        Some(id) => UNITS.iter().find(|u| u.id == id).map(|u| (number.to_string(), Some(u))),
+        Some(id) => unit_by_id(id).map(|u| (number.to_string(), Some(u))),
     }
 }
 
@@ -584,6 +584,12 @@ pub fn units_of(kind: QuantityKind) -> impl Iterator<Item = &'static UnitDef> {
 /// `^`, `·` and spaces), whatever its kind. Nothing is matched case-insensitively:
 /// `mN` is not `MN`, `MM` is not `mm`.
 pub fn find_unit(text: &str) -> Option<&'static UnitDef> {
+    // An id is its own normal form and no other unit spells it (both checked by
+    // `unit_ids_and_aliases_are_unique_and_ids_ascii`): the usual call, with an id the
+    // core wrote itself, needs neither the folding nor the aliases.
+    if let Some(def) = unit_by_id(text) {
+        return Some(def);
+    }
     let norm = normalise_unit(text);
     UNITS
         .iter()
@@ -1090,6 +1096,14 @@ pub fn format_quantity(si: f64, kind: QuantityKind, system: UnitSystem) -> Strin
     format_in(si, def)
 }
 
+/// [`format_quantity`] as people read it, the unit's label in place of its id
+/// (`"12.4 kN"`, `"45°"`, `"2 m³/h"`): what [`with_label`] makes of it, written at
+/// once.
+pub fn format_quantity_labelled(si: f64, kind: QuantityKind, system: UnitSystem) -> String {
+    let def = display_unit(si, kind, system);
+    def.show(&format_significant((si - def.offset) / def.factor, 4))
+}
+
 /// Formats an SI value in a given unit id (falls back to the SI display unit).
 pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String {
     match find_unit(unit_id) {
@@ -1104,7 +1118,7 @@ pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String 
 /// and help, never for text that is parsed again.
 pub fn with_label(text: &str) -> String {
     match text.split_once(' ') {
-        Some((number, id)) => match UNITS.iter().find(|u| u.id == id) {
+        Some((number, id)) => match unit_by_id(id) {
             Some(def) => def.show(number),
             None => text.to_string(),
         },
@@ -1117,20 +1131,65 @@ pub fn with_label(text: &str) -> String {
 /// `"angle (°)"`), and a text that is nothing but a unit code likewise (`"N.m"` →
 /// `"N·m"`). Other text is returned as it is. Never for text that is parsed again.
 pub fn labels_for_codes(text: &str) -> String {
-    if let Some(def) = UNITS.iter().find(|u| u.id == text) {
-        return def.label().to_string();
+    relabel_codes(text).unwrap_or_else(|| text.to_string())
+}
+
+/// What [`labels_for_codes`] writes for `text`, or `None` when that is `text`
+/// itself: a result's tables have hundreds of cells, most of them numbers and words
+/// with no code, so the caller keeps those as they are instead of copying each.
+pub fn relabel_codes(text: &str) -> Option<String> {
+    if let Some(def) = unit_by_id(text) {
+        let label = def.label();
+        return (label != text).then(|| label.to_string());
     }
-    if !text.contains('(') {
-        return text.to_string();
-    }
-    let mut out = text.to_string();
-    for def in UNITS.iter().filter(|u| u.label() != u.id) {
-        let code = format!("({})", def.id);
-        if out.contains(&code) {
-            out = out.replace(&code, &format!("({})", def.label()));
+    // Every "(" is tried as the start of a code: one pass over the text, each code
+    // looked up by the text up to the next ")" (or the one after, for an id that
+    // holds a parenthesis itself, `lb/(ft.s)`).
+    let mut out = String::new();
+    let mut copied = 0;
+    let mut from = 0;
+    while let Some(found) = text[from..].find('(') {
+        let open = from + found;
+        from = open + 1;
+        let rest = &text[open + 1..];
+        let mut closes = rest.match_indices(')').map(|(at, _)| at);
+        let code = closes
+            .by_ref()
+            .take(2)
+            .filter_map(|close| unit_by_id(&rest[..close]))
+            .find(|def| def.label() != def.id);
+        if let Some(def) = code {
+            out.push_str(&text[copied..=open]);
+            out.push_str(def.label());
+            copied = open + 1 + def.id.len();
+            from = copied;
         }
     }
-    out
+    if copied == 0 {
+        return None;
+    }
+    out.push_str(&text[copied..]);
+    Some(out)
+}
+
+/// The unit whose id is exactly `id` (no folding, no aliases).
+///
+/// Every value a result shows is looked up by its unit's id (to format it, to
+/// label it), dozens of times a solve: a binary search over the ids in order
+/// instead of a scan of all of [`UNITS`].
+pub fn unit_by_id(id: &str) -> Option<&'static UnitDef> {
+    /// The units sorted by id, and the longest id (longer text is no id at all).
+    static BY_ID: std::sync::OnceLock<(Vec<&'static UnitDef>, usize)> = std::sync::OnceLock::new();
+    let (sorted, longest) = BY_ID.get_or_init(|| {
+        let mut sorted: Vec<&'static UnitDef> = UNITS.iter().collect();
+        sorted.sort_by_key(|u| u.id);
+        let longest = UNITS.iter().map(|u| u.id.len()).max().unwrap_or(0);
+        (sorted, longest)
+    });
+    if id.is_empty() || id.len() > *longest {
+        return None;
+    }
+    sorted.binary_search_by(|u| u.id.cmp(id)).ok().map(|i| sorted[i])
 }
 
 /// The number of `si` expressed in `unit_id`, if that unit exists and measures
@@ -1311,6 +1370,76 @@ mod label_tests {
         assert_eq!(labels_for_codes("force (kN)"), "force (kN)");
         assert_eq!(labels_for_codes("bend 45deg (typed)"), "bend 45deg (typed)");
         assert_eq!(labels_for_codes("stress (kgf/cm2)"), "stress (kgf/cm²)");
+        assert_eq!(labels_for_codes("viscosity (lb/(ft.s))"), "viscosity (lb/(ft·s))");
+        assert_eq!(labels_for_codes("((m2)) (m3"), "((m²)) (m3");
+    }
+
+    /// Every code written as its label, unit after unit: the definition that
+    /// [`labels_for_codes`] computes in one pass over the text.
+    fn labels_for_codes_unit_by_unit(text: &str) -> String {
+        if let Some(def) = UNITS.iter().find(|u| u.id == text) {
+            return def.label().to_string();
+        }
+        let mut out = text.to_string();
+        for def in UNITS.iter().filter(|u| u.label() != u.id) {
+            out = out.replace(&format!("({})", def.id), &format!("({})", def.label()));
+        }
+        out
+    }
+
+    #[test]
+    fn labelled_quantities_are_the_formatted_ones_with_labels() {
+        for kind in QuantityKind::ALL {
+            for si in [
+                0.0,
+                -2.5e-7,
+                1.5e-4,
+                0.75,
+                1.0,
+                12.0,
+                -273.15,
+                3.4e4,
+                9.9e6,
+                4.2e13,
+                f64::NAN,
+            ] {
+                for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                    assert_eq!(
+                        format_quantity_labelled(si, kind, system),
+                        with_label(&format_quantity(si, kind, system)),
+                        "{kind:?} {si} {system:?}"
+                    );
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn labels_for_codes_in_one_pass_agree_with_unit_by_unit() {
+        let mut spellings: Vec<&str> = vec!["", "x", "(", ")", "()", "deg(", "typed", "1.5"];
+        for def in UNITS {
+            spellings.push(def.id);
+            spellings.push(def.label());
+            spellings.extend(def.aliases.iter().copied());
+        }
+        // Second codes: those that are written as another label, and no code at all.
+        let mut others: Vec<&str> = vec!["", "x", "("];
+        others.extend(UNITS.iter().filter(|u| u.label() != u.id).map(|u| u.id));
+        let mut texts = Vec::new();
+        for a in &spellings {
+            texts.push(a.to_string());
+            texts.push(format!("({a}"));
+            texts.push(format!("{a})"));
+            texts.push(format!("(({a}))"));
+            for b in &others {
+                texts.push(format!("heading ({a}) and ({b})"));
+                texts.push(format!("({a})({b})"));
+                texts.push(format!("({a}({b}))"));
+            }
+        }
+        for text in &texts {
+            assert_eq!(labels_for_codes(text), labels_for_codes_unit_by_unit(text), "{text:?}");
+        }
     }
 
     #[test]

@@ -56,25 +56,33 @@ struct Writer {
     out: String,
 }
 
+/// Whether a byte of UTF-8 text is written escaped in a JSON string: the quote, the
+/// backslash and the control characters (a byte of a multi-byte character is never
+/// below 0x80).
+fn needs_escape(byte: u8) -> bool {
+    byte < 0x20 || byte == b'"' || byte == b'\\'
+}
+
 impl Writer {
     fn string(&mut self, text: &str) {
+        self.out.reserve(text.len() + 2);
         self.out.push('"');
+        // Most text needs no escape at all: one scan to find the first byte that
+        // does, then the runs between escapes copied whole.
+        let bytes = text.as_bytes();
         let mut start = 0;
-        for (index, byte) in text.bytes().enumerate() {
-            let escape = match byte {
-                b'"' => "\\\"",
-                b'\\' => "\\\\",
-                b'\n' => "\\n",
-                b'\r' => "\\r",
-                b'\t' => "\\t",
-                0x00..=0x1f => "",
-                _ => continue,
-            };
+        while let Some(offset) = bytes[start..].iter().position(|&b| needs_escape(b)) {
+            let index = start + offset;
             self.out.push_str(&text[start..index]);
-            if escape.is_empty() {
-                let _ = write!(self.out, "\\u{byte:04x}");
-            } else {
-                self.out.push_str(escape);
+            match bytes[index] {
+                b'"' => self.out.push_str("\\\""),
+                b'\\' => self.out.push_str("\\\\"),
+                b'\n' => self.out.push_str("\\n"),
+                b'\r' => self.out.push_str("\\r"),
+                b'\t' => self.out.push_str("\\t"),
+                byte => {
+                    let _ = write!(self.out, "\\u{byte:04x}");
+                }
             }
             start = index + 1;
         }

@@ -31,7 +31,7 @@ import { state, defaultUnit, isQuantity } from "./state.js";
 import { glue, loadGlue, dropGlue } from "./wasm.js";
 import { readUrl, writeUrl } from "./url.js";
 import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
-import { measureFigureWidth, render } from "./render-results.js";
+import { holdCatchUp, measureFigureWidth, render } from "./render-results.js";
 import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
 import { watchHeadline } from "./layout.js";
@@ -95,6 +95,10 @@ let frameWritesUrl = false;
  */
 function recomputeNextFrame({ writeToUrl }) {
   frameWritesUrl = frameWritesUrl || writeToUrl;
+  // Parts off screen wait for this keystroke's result, and the URL for a pause in
+  // typing after it: catching up or writing the link now would only delay its frame.
+  holdCatchUp();
+  if (urlTask) writeUrlSoon();
   if (frame) return;
   frame = requestAnimationFrame(() => {
     frame = 0;

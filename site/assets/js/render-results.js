@@ -5,10 +5,14 @@
 // text in place while the same outputs are shown (the headline first, so it is
 // never behind), each table's changed cells (render-table), each diagram's and
 // plot's SVG attributes where the drawing keeps its structure (render-morph). A
-// part that is off screen (IntersectionObserver) is brought up to date when it
-// comes into view, in idle time, or before printing, whichever is first; until then
-// it carries `data-stale` (the other results, a few values, are never deferred). A
 // change in the list of parts rebuilds them all.
+//
+// The frame after a keystroke shows the headline and the parts on screen, and
+// nothing else. A part off screen (IntersectionObserver) carries `data-stale` and
+// is brought up to date when it comes into view, before printing, or once typing
+// pauses: then in idle time, a part at a time, and a newer keystroke stops that
+// catching up (its own result supersedes it). The other results (a few values)
+// and the links to a next calculator are never deferred.
 
 import { clip, el, setText } from "./dom.js";
 import { state } from "./state.js";
@@ -27,7 +31,14 @@ let parts = [];
 /** Parts off screen, by node (a node the observer has not reported yet counts as on screen). */
 const offScreen = new WeakSet();
 let observer = null;
-let idleFlush = 0;
+/** The idle callback, or the timer waiting for a pause in typing, that catches parts up. */
+let catchUp = { idle: 0, timer: 0 };
+
+/**
+ * Quiet time after the last result before the parts off screen are caught up: a
+ * burst of keystrokes pays for the headline of each and for the rest once.
+ */
+const CATCH_UP_PAUSE_MS = 150;
 
 export function render(result) {
   state.lastResult = result;
@@ -206,7 +217,7 @@ function updateParts(next) {
       applyUpdate(part);
     }
   });
-  if (parts.some((p) => p.pending)) scheduleIdleFlush();
+  if (parts.some((p) => p.pending)) scheduleCatchUp();
 }
 
 function replaceNode(part, fresh) {
@@ -240,18 +251,37 @@ export function flushParts() {
  * the next idle period, so a keystroke typed meanwhile is not kept waiting.
  */
 function flushIdle(deadline) {
-  idleFlush = 0;
+  catchUp.idle = 0;
   for (const part of parts) {
     if (!part.pending) continue;
     applyUpdate(part);
     if (deadline && !deadline.didTimeout && deadline.timeRemaining() <= 0) break;
   }
-  if (parts.some((p) => p.pending)) scheduleIdleFlush();
+  if (parts.some((p) => p.pending)) catchUp.idle = requestIdle(flushIdle);
 }
 
-function scheduleIdleFlush() {
-  if (idleFlush) return;
-  idleFlush = "requestIdleCallback" in window ? requestIdleCallback(flushIdle, { timeout: 1000 }) : setTimeout(flushIdle, 200);
+/** Catches the parts off screen up once typing pauses (`CATCH_UP_PAUSE_MS`). */
+function scheduleCatchUp() {
+  holdCatchUp();
+  catchUp.timer = setTimeout(() => {
+    catchUp.timer = 0;
+    catchUp.idle = requestIdle(flushIdle);
+  }, CATCH_UP_PAUSE_MS);
+}
+
+/**
+ * Stops catching up: called on a keystroke, whose result will reschedule it. Parts
+ * stay marked `data-stale` meanwhile.
+ */
+export function holdCatchUp() {
+  if (catchUp.timer) clearTimeout(catchUp.timer);
+  if (catchUp.idle) ("cancelIdleCallback" in window ? cancelIdleCallback : clearTimeout)(catchUp.idle);
+  catchUp = { idle: 0, timer: 0 };
+}
+
+/** An idle callback (a short timer where the browser has none). */
+function requestIdle(callback) {
+  return "requestIdleCallback" in window ? requestIdleCallback(callback, { timeout: 1000 }) : setTimeout(callback, 50);
 }
 
 function forgetParts() {
@@ -279,7 +309,8 @@ function watch(node) {
 }
 
 function finishRender(status) {
-  document.body.dataset.state = status;
+  // Written when it changes: a keystroke restyles nothing it does not change.
+  if (document.body.dataset.state !== status) document.body.dataset.state = status;
   if (!state.firstResultMarked) {
     state.firstResultMarked = true;
     performance.mark("fluxledger:first-result");

@@ -52,7 +52,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.output("run_duration", solved.run.duration);
     checks(inputs, solved, report);
     let system = report.system();
-    let fmt = |si: f64, kind: Q| units::with_label(&units::format_quantity(si, kind, system));
+    let fmt = |si: f64, kind: Q| units::format_quantity_labelled(si, kind, system);
     let closure = match solved.closure {
         Closure::Rapid => format!(
             "rapid: t_c = {} ≤ 2L/a = {}",
@@ -128,7 +128,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 
 fn run_table(inputs: &Inputs, solved: &Solved, report: &Report<'_>, impulse: (String, &str)) -> Table {
     let system = report.system();
-    let fmt = |si: f64, kind: Q| units::with_label(&units::format_quantity(si, kind, system));
+    let fmt = |si: f64, kind: Q| units::format_quantity_labelled(si, kind, system);
     let run = &solved.run;
     let shape = if run.front_length > inputs.run_length.value {
         format!(
