@@ -821,19 +821,17 @@ impl<'a> Report<'a> {
         }
         // Headings are built from unit codes (they also pick the unit the cells
         // are converted to); people read the labels.
-        // Most cells hold no code: only those that do are written again.
-        let tables = &mut self.solution.tables;
-        for text in tables
+        // Plot axes likewise. Most cells hold no code: only those that do are
+        // written again.
+        let Solution { tables, plots, .. } = &mut self.solution;
+        let cells = tables
             .iter_mut()
-            .flat_map(|t| t.columns.iter_mut().chain(t.rows.iter_mut().flatten()))
-        {
+            .flat_map(|t| t.columns.iter_mut().chain(t.rows.iter_mut().flatten()));
+        let axes = plots.iter_mut().flat_map(|p| [&mut p.x_label, &mut p.y_label]);
+        for text in cells.chain(axes) {
             if let Some(labelled) = units::relabel_codes(text) {
                 *text = labelled;
             }
-        }
-        for plot in &mut self.solution.plots {
-            plot.x_label = units::labels_for_codes(&plot.x_label);
-            plot.y_label = units::labels_for_codes(&plot.y_label);
         }
         self.solution
     }

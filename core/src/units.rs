@@ -1129,14 +1129,10 @@ pub fn with_label(text: &str) -> String {
 /// A table heading or axis title as people read it: each unit code in parentheses
 /// written as its label (`"area (m2)"` → `"area (m²)"`, `"angle (deg)"` →
 /// `"angle (°)"`), and a text that is nothing but a unit code likewise (`"N.m"` →
-/// `"N·m"`). Other text is returned as it is. Never for text that is parsed again.
-pub fn labels_for_codes(text: &str) -> String {
-    relabel_codes(text).unwrap_or_else(|| text.to_string())
-}
-
-/// What [`labels_for_codes`] writes for `text`, or `None` when that is `text`
-/// itself: a result's tables have hundreds of cells, most of them numbers and words
-/// with no code, so the caller keeps those as they are instead of copying each.
+/// `"N·m"`); `None` when that is `text` itself (other text, or codes that are their
+/// own labels): a result's tables have hundreds of cells, most of them numbers and
+/// words with no code, so the caller keeps those as they are instead of copying
+/// each. Never for text that is parsed again.
 pub fn relabel_codes(text: &str) -> Option<String> {
     if let Some(def) = unit_by_id(text) {
         let label = def.label();
@@ -1310,6 +1306,11 @@ pub fn format_significant(value: f64, sig: i32) -> String {
 #[cfg(test)]
 mod label_tests {
     use super::*;
+
+    /// The text as people read it ([`relabel_codes`], or the text itself).
+    fn labels_for_codes(text: &str) -> String {
+        relabel_codes(text).unwrap_or_else(|| text.to_string())
+    }
 
     #[test]
     fn every_label_reads_back_as_its_unit_and_has_no_ascii_exponent_or_dot() {

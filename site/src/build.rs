@@ -530,66 +530,56 @@ pub fn link_modules(
 }
 
 /// Splits a stylesheet into its screen rules and its print rules: every top-level
-/// `@media print { … }` block goes to the second part, whole; the rest, with its
-/// comments removed, to the first. Comments and strings are skipped when matching
-/// braces.
+/// `@media print { … }` block goes to the second part, whole; the rest to the first.
+/// Comments go from both; the stylesheet is cut into its top-level rules by
+/// [`first_screen::units`](crate::first_screen::units), which skips strings when
+/// matching braces.
 pub fn split_print_rules(css: &str) -> (String, String) {
-    let bytes = css.as_bytes();
-    let (mut screen, mut print) = (String::new(), String::new());
-    let mut depth = 0usize;
-    let mut i = 0;
-    // Start of the print block being copied, and its depth.
-    let mut print_start: Option<usize> = None;
-    let mut copied = 0; // bytes of `css` already handed to one of the parts
-    while i < bytes.len() {
-        if bytes[i] == b'/' && bytes.get(i + 1) == Some(&b'*') {
-            let end = css[i + 2..].find("*/").map_or(bytes.len(), |e| i + 2 + e + 2);
-            if print_start.is_none() {
-                screen.push_str(&css[copied..i]);
-                copied = end;
-            }
-            i = end;
-            continue;
+    let css = without_comments(css);
+    let (mut screen, mut print) = (Vec::new(), String::new());
+    for unit in crate::first_screen::units(&css) {
+        if unit.starts_with("@media print") {
+            print.push_str(unit);
+            print.push('\n');
+        } else {
+            screen.push(unit);
         }
-        match bytes[i] {
-            quote @ (b'"' | b'\'') => {
-                i += 1;
-                while i < bytes.len() && bytes[i] != quote {
-                    i += if bytes[i] == b'\\' { 2 } else { 1 };
-                }
-                i += 1;
-                continue;
-            }
-            b'{' => depth += 1,
-            b'}' => {
-                depth = depth.saturating_sub(1);
-                if depth == 0 {
-                    if let Some(start) = print_start.take() {
-                        print.push_str(&css[start..=i]);
-                        print.push('\n');
-                        copied = i + 1;
-                    }
-                }
-            }
-            b'@' if depth == 0 && print_start.is_none() && css[i..].starts_with("@media print") => {
-                screen.push_str(&css[copied..i]);
-                print_start = Some(i);
-            }
-            _ => {}
-        }
-        i += 1;
-    }
-    match print_start {
-        Some(start) => print.push_str(&css[start..]),
-        None => screen.push_str(&css[copied.min(css.len())..]),
     }
     let screen: String = screen
+        .join("\n")
         .lines()
         .map(str::trim_end)
         .filter(|line| !line.trim().is_empty())
         .collect::<Vec<_>>()
         .join("\n");
     (screen, print)
+}
+
+/// A stylesheet with its comments removed (a `/*` inside a string is not one).
+fn without_comments(css: &str) -> String {
+    let bytes = css.as_bytes();
+    let mut out = String::with_capacity(css.len());
+    let (mut copied, mut i) = (0, 0);
+    while i < bytes.len() {
+        match bytes[i] {
+            b'/' if bytes.get(i + 1) == Some(&b'*') => {
+                out.push_str(&css[copied..i]);
+                i = css[i + 2..].find("*/").map_or(bytes.len(), |e| i + 2 + e + 2);
+                copied = i;
+                continue;
+            }
+            quote @ (b'"' | b'\'') => {
+                i += 1;
+                while i < bytes.len() && bytes[i] != quote {
+                    i += if bytes[i] == b'\\' { 2 } else { 1 };
+                }
+            }
+            _ => {}
+        }
+        i += 1;
+    }
+    out.push_str(&css[copied.min(css.len())..]);
+    out
 }
 
 /// The inline head script of calculator pages: `query.js` without its comment

@@ -132,7 +132,7 @@ impl Names {
 
 /// The top-level units of a stylesheet (rules and at-rule blocks, each with its
 /// braces), in order. Strings and comments are skipped when matching braces.
-fn units(css: &str) -> Vec<&str> {
+pub(crate) fn units(css: &str) -> Vec<&str> {
     let bytes = css.as_bytes();
     let mut out = Vec::new();
     let (mut depth, mut start, mut i) = (0usize, 0usize, 0usize);
