@@ -63,6 +63,33 @@ pub const fn choice(
     }
 }
 
+/// The typed field test pressure (`p_test`) of the restraint pages, shown when the
+/// test rule is "typed test pressure" (`test_rule=custom`), 0 to 100 MPa gauge.
+pub fn typed_test_pressure_field() -> FieldSpec {
+    FieldSpec {
+        visible_when: Some(("test_rule", &["custom"])),
+        optional: true,
+        ..quantity(
+            "p_test",
+            "Typed test pressure, gauge",
+            Q::Pressure,
+            "bar",
+            "psi",
+            "",
+            Limits::closed(0.0, MAX_PRESSURE_PA),
+            "Used when the test rule is 'typed test pressure'.",
+        )
+    }
+}
+
+/// The test pressure `test_rule=custom` asks for; an empty field is an error naming
+/// `p_test`, since the rule has nothing else to go on.
+pub fn typed_test_pressure(values: &Values) -> Result<Pressure, FieldError> {
+    values
+        .typed_opt("p_test")
+        .ok_or_else(|| FieldError::inconsistent("p_test", "type the test pressure, or choose a named rule"))
+}
+
 /// Upper bound used for sizes: 10 m is larger than any pipe this handbook covers.
 pub const MAX_SIZE_M: f64 = 10.0;
 

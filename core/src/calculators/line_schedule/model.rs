@@ -14,7 +14,7 @@ use crate::restraint::soil::{self, SoilPreset, SoilRefusal};
 use crate::restraint::{self, diameters, FittingKind, Joint, Plane, StaticFitting};
 use crate::vector::Vec3;
 
-use super::super::surge;
+use super::super::{common, surge};
 use super::rows::{parse, Row, RowKind, Turn};
 
 /// The page's settings, validated, and the parsed rows.
@@ -98,19 +98,16 @@ pub fn read(values: &Values) -> Result<Inputs, FieldErrors> {
     } else {
         None
     };
-    let test =
-        if basis.wants_test() {
-            Some(match values.choice("test_rule")? {
-                "custom" => TestBasis::Typed(values.typed_opt("p_test").ok_or_else(|| {
-                    FieldError::inconsistent("p_test", "type the test pressure, or choose a named rule")
-                })?),
-                key => TestBasis::Rule(
-                    pressure::test_rule(key).ok_or_else(|| FieldError::inconsistent("test_rule", "unknown rule"))?,
-                ),
-            })
-        } else {
-            None
-        };
+    let test = if basis.wants_test() {
+        Some(match values.choice("test_rule")? {
+            "custom" => TestBasis::Typed(common::typed_test_pressure(values)?),
+            key => TestBasis::Rule(
+                pressure::test_rule(key).ok_or_else(|| FieldError::inconsistent("test_rule", "unknown rule"))?,
+            ),
+        })
+    } else {
+        None
+    };
     let computed_surge = match values.choice("surge_from").unwrap_or("typed") {
         "computed" => Some(read_surge_settings(values)?),
         _ => None,

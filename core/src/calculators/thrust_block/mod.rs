@@ -340,20 +340,7 @@ pub fn spec() -> CalculatorSpec {
                 (200 kPa).",
             )
         },
-        FieldSpec {
-            visible_when: Some(("test_rule", &["custom"])),
-            optional: true,
-            ..quantity(
-                "p_test",
-                "Typed test pressure, gauge",
-                Q::Pressure,
-                "bar",
-                "psi",
-                "",
-                Limits::closed(0.0, MAX_PRESSURE_PA),
-                "Used when the test rule is 'typed test pressure'.",
-            )
-        },
+        common::typed_test_pressure_field(),
         FieldSpec {
             visible_when: Some(("p_basis", &["test", "surge", "highest"])),
             optional: true,

@@ -192,33 +192,30 @@ fn read_fitting(values: &Values, kind: FittingKind) -> Result<FittingInputs, Fie
 pub fn read_pressure(values: &Values, main: Diameters, size_key: &str) -> Result<PressureInputs, FieldErrors> {
     let basis = keyed(values, "p_basis", PressureBasis::from_key)?;
     let work = values.typed::<Pressure>("p")?;
-    let test =
-        if basis.wants_test() {
-            Some(match values.choice("test_rule")? {
-                "custom" => TestGiven::Typed(values.typed_opt("p_test").ok_or_else(|| {
-                    FieldError::inconsistent("p_test", "type the test pressure, or choose a named rule")
-                })?),
-                key => {
-                    let rule = pressure::test_rule(key)
-                        .ok_or_else(|| FieldError::inconsistent("test_rule", "unknown rule"))?;
-                    let typed_mdp = if key == "en805" {
-                        values.typed_opt::<Pressure>("mdp")
-                    } else {
-                        None
-                    };
-                    if typed_mdp.is_some_and(|m| m < work) {
-                        return Err(FieldError::inconsistent(
-                            "mdp",
-                            "MDP includes surge: it cannot be below the working pressure",
-                        )
-                        .into());
-                    }
-                    TestGiven::Rule { rule, typed_mdp }
+    let test = if basis.wants_test() {
+        Some(match values.choice("test_rule")? {
+            "custom" => TestGiven::Typed(common::typed_test_pressure(values)?),
+            key => {
+                let rule =
+                    pressure::test_rule(key).ok_or_else(|| FieldError::inconsistent("test_rule", "unknown rule"))?;
+                let typed_mdp = if key == "en805" {
+                    values.typed_opt::<Pressure>("mdp")
+                } else {
+                    None
+                };
+                if typed_mdp.is_some_and(|m| m < work) {
+                    return Err(FieldError::inconsistent(
+                        "mdp",
+                        "MDP includes surge: it cannot be below the working pressure",
+                    )
+                    .into());
                 }
-            })
-        } else {
-            None
-        };
+                TestGiven::Rule { rule, typed_mdp }
+            }
+        })
+    } else {
+        None
+    };
     let rule_needs_surge = matches!(&test, Some(TestGiven::Rule { rule, .. }) if rule.needs_surge);
     let surge = if (basis.wants_surge() || rule_needs_surge) && values.is_set("dv") {
         Some(read_surge(values, main, size_key)?)
