@@ -1,8 +1,7 @@
 //! Building the static site into a folder.
 //!
-//! The output is flat: pages, the hashed page script (and its modules, see
-//! [`link_modules`]), stylesheet, wasm glue and
-//! wasm module, the service worker, the manifest and the icons, all side by side so
+//! The output is flat: pages, the hashed page script (its modules joined into one
+//! file, see [`crate::bundle`]), stylesheet, wasm glue and wasm module, the service worker, the manifest and the icons, all side by side so
 //! that every URL is relative and the service worker's scope (its own folder)
 //! covers everything. File names of the script, stylesheet, glue and module carry
 //! the first 8 hex digits of the SHA-256 of their content: a page can never load a
@@ -464,71 +463,6 @@ fn read_modules(dir: &Path) -> Result<BTreeMap<String, String>, SiteError> {
     Ok(modules)
 }
 
-/// Gives every page-script module a content-hashed name (`dom.1a2b3c4d.js`) and
-/// rewrites the import specifiers that name another module (`"./dom.js"` in a
-/// module, `"./js/main.js"` in the entry) to those names, so that the output stays
-/// flat, the browser loads the modules without a bundler, and the CSP needs no
-/// hashes. A module's hash covers its rewritten imports, so modules are hashed
-/// dependencies first. Returns the rewritten entry and the hashed modules.
-///
-/// # Errors
-/// A static import (`from "./x.js"`, `import "./x.js"`) of a module that does not
-/// exist, or an import cycle (its hashes could not be settled).
-pub fn link_modules(
-    entry: &str,
-    modules: &BTreeMap<String, String>,
-) -> Result<(String, BTreeMap<String, String>), String> {
-    for (name, text) in std::iter::once(("app.js", entry)).chain(modules.iter().map(|(n, t)| (n.as_str(), t.as_str())))
-    {
-        for opener in ["from \"./", "import \"./"] {
-            for (at, _) in text.match_indices(opener) {
-                let rest = &text[at + opener.len()..];
-                let target = rest.split('"').next().unwrap_or("");
-                let target = if name == "app.js" {
-                    target.strip_prefix(&format!("{MODULES_DIR}/")).unwrap_or(target)
-                } else {
-                    target
-                };
-                if !modules.contains_key(target) {
-                    return Err(format!("{name} imports ./{target}, which is not a module"));
-                }
-            }
-        }
-    }
-    let imports = |text: &str, other: &str| text.contains(&format!("\"./{other}\""));
-    let mut hashed: BTreeMap<String, String> = BTreeMap::new();
-    let mut out = BTreeMap::new();
-    while hashed.len() < modules.len() {
-        let ready = modules.iter().find(|(name, text)| {
-            !hashed.contains_key(*name)
-                && modules
-                    .keys()
-                    .all(|other| other == *name || hashed.contains_key(other) || !imports(text, other))
-        });
-        let Some((name, text)) = ready else {
-            let left: Vec<&str> = modules
-                .keys()
-                .filter(|n| !hashed.contains_key(*n))
-                .map(String::as_str)
-                .collect();
-            return Err(format!("the modules {} import each other in a cycle", left.join(", ")));
-        };
-        let mut linked = text.clone();
-        for (dep, dep_hashed) in &hashed {
-            linked = linked.replace(&format!("\"./{dep}\""), &format!("\"./{dep_hashed}\""));
-        }
-        let stem = name.strip_suffix(".js").unwrap_or(name);
-        let file = hashed_name(stem, "js", linked.as_bytes());
-        hashed.insert(name.clone(), file.clone());
-        out.insert(file, linked);
-    }
-    let mut entry = entry.to_string();
-    for (name, file) in &hashed {
-        entry = entry.replace(&format!("\"./{MODULES_DIR}/{name}\""), &format!("\"./{file}\""));
-    }
-    Ok((entry, out))
-}
-
 /// Splits a stylesheet into its screen rules and its print rules: every top-level
 /// `@media print { … }` block goes to the second part, whole; the rest to the first.
 /// Comments go from both; the stylesheet is cut into its top-level rules by
@@ -669,12 +603,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         }
         None => app_js = fill(&app_js, GLUE_PLACEHOLDER, &glue_name, &assets.join("app.js"))?,
     }
-    let (app_js, linked) =
-        link_modules(&app_js, &modules).map_err(|message| SiteError::content(assets.join(MODULES_DIR), message))?;
-    let module_names: Vec<String> = linked.keys().cloned().collect();
-    for (name, text) in linked {
-        files.insert(name, text.into_bytes());
-    }
+    let app_js = crate::bundle::join(&app_js, MODULES_DIR, &modules)
+        .map_err(|message| SiteError::content(assets.join(MODULES_DIR), message))?;
     let script = hashed_name("app", "js", app_js.as_bytes());
     let style_path = assets.join("style.css");
     let style_text = String::from_utf8(sources.style_css)
@@ -696,11 +626,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     files.insert(script.clone(), app_js.into_bytes());
     files.insert(stylesheet.clone(), print_rules.into_bytes());
     let inline_script = match &sources.query_js {
-        Some(text) => {
-            let preloaded: Vec<String> = module_names.iter().chain([&glue_name]).cloned().collect();
-            head_script(text, &script, &preloaded, &wasm_name)
-                .map_err(|message| SiteError::content(assets.join(QUERY_SCRIPT), message))?
-        }
+        Some(text) => head_script(text, &script, std::slice::from_ref(&glue_name), &wasm_name)
+            .map_err(|message| SiteError::content(assets.join(QUERY_SCRIPT), message))?,
         None => String::new(),
     };
 
@@ -719,7 +646,6 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         stylesheet: stylesheet.clone(),
         screen_stylesheet,
         script: script.clone(),
-        modules: module_names.clone(),
         glue: glue_name.clone(),
         wasm: wasm_name.clone(),
         inline_style: screen_rules,
@@ -795,7 +721,6 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
             .iter()
             .cloned()
             .chain([script.clone(), glue_name.clone(), wasm_name.clone()])
-            .chain(module_names.iter().cloned())
             .collect();
         let counted: Vec<&FileReport> = reports.iter().filter(|r| names.contains(&r.name)).collect();
         let first_counted: Vec<&FileReport> = reports.iter().filter(|r| first.contains(&r.name)).collect();
@@ -986,50 +911,6 @@ mod tests {
         // SHA-256("abc") = ba7816bf 8f01cfea ... (FIPS 180-2, appendix B.1 example).
         assert_eq!(short_hash(b"abc"), "ba7816bf");
         assert_eq!(hashed_name("app", "js", b"abc"), "app.ba7816bf.js");
-    }
-
-    #[test]
-    fn modules_get_hashed_names_and_imports_follow_them() {
-        let modules: BTreeMap<String, String> = [
-            ("dom.js", "export const x = 1;\n"),
-            ("main.js", "import { x } from \"./dom.js\";\nimport \"./state.js\";\n"),
-            ("state.js", "import { x } from \"./dom.js\";\nexport const s = x;\n"),
-        ]
-        .into_iter()
-        .map(|(n, t)| (n.to_string(), t.to_string()))
-        .collect();
-        let (entry, out) = link_modules("import \"./js/main.js\";\n", &modules).expect("links");
-        let dom = hashed_name("dom", "js", modules["dom.js"].as_bytes());
-        let state = "import { x } from \"./DOM\";\nexport const s = x;\n".replace("DOM", &dom);
-        let state_name = hashed_name("state", "js", state.as_bytes());
-        let main = format!("import {{ x }} from \"./{dom}\";\nimport \"./{state_name}\";\n");
-        let main_name = hashed_name("main", "js", main.as_bytes());
-        assert_eq!(entry, format!("import \"./{main_name}\";\n"));
-        assert_eq!(out.get(&dom).map(String::as_str), Some("export const x = 1;\n"));
-        assert_eq!(out.get(&state_name), Some(&state));
-        assert_eq!(out.get(&main_name), Some(&main));
-        assert_eq!(out.len(), 3);
-        // A change in a dependency changes the names of every module importing it.
-        let mut changed = modules.clone();
-        changed.insert("dom.js".into(), "export const x = 2;\n".into());
-        let (entry2, _) = link_modules("import \"./js/main.js\";\n", &changed).expect("links");
-        assert_ne!(entry, entry2);
-    }
-
-    #[test]
-    fn missing_imports_and_cycles_are_refused() {
-        let one = |a: &str, b: &str| -> BTreeMap<String, String> {
-            [("a.js".to_string(), a.to_string()), ("b.js".to_string(), b.to_string())].into()
-        };
-        let missing = link_modules("import \"./js/a.js\";", &one("import \"./c.js\";", ""));
-        assert!(missing.is_err_and(|e| e.contains("c.js")));
-        let entry_missing = link_modules("import \"./js/z.js\";", &one("", ""));
-        assert!(entry_missing.is_err());
-        let cycle = link_modules(
-            "import \"./js/a.js\";",
-            &one("import { b } from \"./b.js\";", "import { a } from \"./a.js\";"),
-        );
-        assert!(cycle.is_err_and(|e| e.contains("cycle")));
     }
 
     #[test]

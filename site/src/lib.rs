@@ -33,6 +33,7 @@
 //! [`server`] (loopback HTTP), [`verify`] (the live verification page), [`error`].
 
 pub mod build;
+pub mod bundle;
 pub mod error;
 pub mod first_screen;
 pub mod icons;

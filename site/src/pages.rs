@@ -12,8 +12,8 @@
 //! second `<style>` where the demo's details begin carries the rest, the cascade
 //! unchanged ([`crate::first_screen`]). The
 //! one inline script (`site/assets/query.js`) marks a page opened with a query and
-//! loads the page script: at once, with its modules, the glue and the wasm
-//! preloaded, when the link carries a query; after the first paint when it does
+//! loads the page script (one file, [`crate::bundle`]): at once, with the glue and
+//! the wasm preloaded, when the link carries a query; after the first paint when it does
 //! not; it comes before the rules, so that a link's requests do not wait for them.
 //! The content security policy allows exactly those inline elements by their
 //! SHA-256 hashes ([`csp`]). All text from the core (titles,
@@ -88,10 +88,6 @@ pub struct PageAssets {
     pub screen_stylesheet: String,
     /// Hashed page script file name (`app.1a2b3c4d.js`).
     pub script: String,
-    /// Hashed modules of the page script (`js/*.js` as `main.1a2b3c4d.js`…), each
-    /// preloaded by calculator pages so that the chain of imports does not wait
-    /// for one module after another.
-    pub modules: Vec<String>,
     /// Hashed wasm glue (`fluxledger_wasm.1a2b3c4d.js`), preloaded by calculator
     /// pages; empty for none.
     pub glue: String,
@@ -117,14 +113,10 @@ pub fn page_file(key: &str) -> String {
 }
 
 /// The links that let a calculator page request its code early when it has no
-/// inline head script: the page script and every one of its modules, and the glue,
-/// as module preloads, the wasm as a fetch preload (CORS mode, as
+/// inline head script: the page script and the glue as module preloads, the wasm as a fetch preload (CORS mode, as
 /// `instantiateStreaming` fetches it).
 fn preloads(assets: &PageAssets) -> String {
     let mut html = format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(&assets.script));
-    for module in &assets.modules {
-        html.push_str(&format!("<link rel=\"modulepreload\" href=\"{}\">\n", escape(module)));
-    }
     if !assets.glue.is_empty() {
         html.push_str(&format!(
             "<link rel=\"modulepreload\" href=\"{}\">\n",
@@ -195,7 +187,7 @@ fn head_with(title: &str, description: &str, assets: &PageAssets, calculator: bo
             "<meta name=\"description\" content=\"{description}\">\n",
             "<title>{title}</title>\n",
             // The script first: on a link with a query it requests the page
-            // script, its modules and the wasm, which should not wait for the
+            // script, the glue and the wasm, which should not wait for the
             // browser to parse the inline rules.
             "{scripts}",
             "{styles}",
@@ -501,7 +493,6 @@ mod tests {
         PageAssets {
             stylesheet: "style.00aa11bb.css".into(),
             script: "app.22cc33dd.js".into(),
-            modules: vec!["main.1a1a1a1a.js".into(), "dom.2b2b2b2b.js".into()],
             glue: "fluxledger_wasm.44ee55ff.js".into(),
             wasm: "fluxledger_wasm.66aa77bb.wasm".into(),
             inline_style: String::new(),
@@ -549,8 +540,7 @@ mod tests {
             "<a class=\"site-name\" href=\"index.html\">",
             "<p>note</p>",
             "Fluxledger 0.1.0",
-            "<link rel=\"modulepreload\" href=\"main.1a1a1a1a.js\">",
-            "<link rel=\"modulepreload\" href=\"dom.2b2b2b2b.js\">",
+            "<link rel=\"modulepreload\" href=\"app.22cc33dd.js\">",
             "<link rel=\"modulepreload\" href=\"fluxledger_wasm.44ee55ff.js\">",
             "<link rel=\"preload\" href=\"fluxledger_wasm.66aa77bb.wasm\" as=\"fetch\" type=\"application/wasm\" crossorigin>",
         ] {

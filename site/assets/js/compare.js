@@ -63,7 +63,7 @@ function unpin(index) {
   updateCompare();
 }
 
-function onClick(event) {
+function onComparePanelClick(event) {
   const button = event.target.closest("button");
   if (!button) return;
   event.stopPropagation();
@@ -78,7 +78,7 @@ export function buildCompare() {
   const section = state.ui.section;
   if (!section) return;
   const panel = el("div", { class: "panel compare-panel" });
-  panel.addEventListener("click", onClick);
+  panel.addEventListener("click", onComparePanelClick);
   section.append(panel);
   state.ui.compare = panel;
   updateCompare();

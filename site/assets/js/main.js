@@ -18,7 +18,8 @@
 // inputs table, link and QR code), compare (cases side by side), layout (the result
 // box folding on a phone, the cue of a table that scrolls sideways), note (the
 // method note's later sections, fetched after the first result). The site tool
-// rewrites the imports to content-hashed file names.
+// joins the modules into one file (site/src/bundle.rs): top-level names must not
+// repeat across modules, and imports and exports keep to the forms it accepts.
 //
 // Layout of the calculator section (filled into `<section id="calculator">`):
 //   toolbar (unit system, copy link, print) · #notices · headline results ·

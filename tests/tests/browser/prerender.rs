@@ -250,9 +250,9 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
             .any(|h| h.starts_with("fluxledger_wasm.") && h.ends_with(".js")),
         "{preloaded:?}"
     );
-    // Every module of the page script is preloaded by the head script too (all but
-    // the entry, which the head script requests itself): the chain of imports
-    // (entry → main → render-* → dom…) then costs no round trip per level.
+    // The page script is one file (its modules joined at build time), requested by
+    // the head script itself, and the glue is preloaded: no chain of imports costs
+    // a round trip per level, and no request queues behind a module's.
     let entry = eval(
         &page,
         &mut browser,
@@ -272,7 +272,8 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
         .flatten()
         .filter_map(Value::as_str)
         .collect();
-    assert!(modules.len() > 3, "the page script's modules were loaded: {modules:?}");
+    assert_eq!(modules.len(), 2, "the page script and the glue, nothing else: {modules:?}");
+    assert!(modules.contains(&entry.as_str()), "{modules:?} holds the page script {entry}");
     let not_preloaded: Vec<&&str> = modules
         .iter()
         .filter(|m| !preloaded.contains(m) && **m != entry)

@@ -1,0 +1,298 @@
+//! The page script as one file: the ES modules under `site/assets/js/` joined in
+//! the order the browser evaluates them, so a page asks for one script instead of
+//! one per module.
+//!
+//! Why: on a phone's first visit each module was its own request. Over HTTP/1.1 six
+//! of them share the six connections to a host, each waiting a round trip, and the
+//! wasm module queued behind them; the inline head script also spent about 10 ms of
+//! a 4× throttled processor per `modulepreload` link it added (a DevTools trace of
+//! `bend.html` opened with a link, issue 9). One file is one request and one
+//! compile.
+//!
+//! The modules are written in a small subset of the module syntax, and this joiner
+//! refuses anything outside it rather than guess:
+//! - imports are whole lines, `import { a, b } from "./x.js";` or
+//!   `import "./x.js";` (no renaming with `as`, no default or namespace imports);
+//!   dynamic `import()` is left as it is;
+//! - exports are declarations at the start of a line: `export function`,
+//!   `export async function`, `export const`, `export let`, `export class`;
+//! - top-level declarations start at column 0 (nested ones are indented).
+//!
+//! A module is evaluated once, after the modules it imports, in the order of its
+//! import lines: the depth-first post-order of the import graph from the entry,
+//! which is the evaluation order of ES modules without cycles (a cycle is refused).
+//! The joined file is one module scope, so an imported name is the exporting
+//! module's own binding (a `let` reassigned later is seen by every importer, as a
+//! live binding is). Because of that one scope, two modules may not declare the same
+//! top-level name, and every imported name must be exported by the module named:
+//! both are checked here, since the browser would otherwise let a later function
+//! declaration replace an earlier one silently.
+
+use std::collections::{BTreeMap, BTreeSet};
+
+/// One module read in the subset above.
+#[derive(Debug, Default)]
+struct Module {
+    /// `(names, target)` per import line, in order; `names` is empty for
+    /// `import "./x.js";`.
+    imports: Vec<(Vec<String>, String)>,
+    /// Top-level names the module declares, exported or not.
+    declared: Vec<String>,
+    exported: BTreeSet<String>,
+    /// The text without its import lines and with `export ` taken off.
+    body: String,
+}
+
+/// The declaration keywords a top-level line may start with, and what follows them.
+const DECLARATIONS: [&str; 6] = ["async function ", "function ", "const ", "let ", "var ", "class "];
+
+/// The name declared by a line that starts with one of [`DECLARATIONS`].
+fn declared_name(line: &str) -> Option<&str> {
+    let rest = DECLARATIONS.iter().find_map(|k| line.strip_prefix(k))?;
+    let rest = rest.strip_prefix('*').unwrap_or(rest).trim_start();
+    let end = rest
+        .find(|c: char| !(c.is_alphanumeric() || c == '_' || c == '$'))
+        .unwrap_or(rest.len());
+    (end > 0).then(|| &rest[..end])
+}
+
+/// Reads `./x.js` of an import specifier, with the entry's folder prefix
+/// (`./js/x.js`) taken off for the entry.
+fn target_of(spec: &str, folder_prefix: &str) -> Option<String> {
+    let inner = spec.strip_prefix('"')?.strip_suffix('"')?;
+    let inner = inner.strip_prefix("./")?;
+    let inner = inner.strip_prefix(folder_prefix).unwrap_or(inner);
+    (!inner.contains('/') && inner.ends_with(".js")).then(|| inner.to_string())
+}
+
+fn parse(name: &str, text: &str, folder_prefix: &str) -> Result<Module, String> {
+    let mut module = Module::default();
+    for (number, line) in text.lines().enumerate() {
+        let at = || format!("{name}, line {}", number + 1);
+        if line.starts_with("import ") || line.starts_with("import{") {
+            let statement = line
+                .trim_end()
+                .strip_suffix(';')
+                .ok_or_else(|| format!("{}: an import must be one whole line ending in `;`", at()))?;
+            let (names, spec) = match statement.strip_prefix("import {") {
+                Some(rest) => {
+                    let (list, from) = rest
+                        .split_once('}')
+                        .ok_or_else(|| format!("{}: an unclosed import list", at()))?;
+                    let spec = from
+                        .trim()
+                        .strip_prefix("from ")
+                        .ok_or_else(|| format!("{}: expected `from \"./x.js\"`", at()))?;
+                    let names: Vec<String> = list
+                        .split(',')
+                        .map(str::trim)
+                        .filter(|n| !n.is_empty())
+                        .map(str::to_string)
+                        .collect();
+                    if let Some(bad) = names
+                        .iter()
+                        .find(|n| declared_name(&format!("let {n}")) != Some(n.as_str()))
+                    {
+                        return Err(format!("{}: `{bad}`: only plain names can be imported (no `as`)", at()));
+                    }
+                    (names, spec.trim())
+                }
+                None => (Vec::new(), statement["import".len()..].trim()),
+            };
+            let target = target_of(spec, folder_prefix).ok_or_else(|| {
+                format!(
+                    "{}: only modules beside this one can be imported (`\"./x.js\"`), not {spec}",
+                    at()
+                )
+            })?;
+            module.imports.push((names, target));
+            continue;
+        }
+        let line = match line.strip_prefix("export ") {
+            Some(rest) => {
+                let declared = declared_name(rest).ok_or_else(|| {
+                    format!(
+                        "{}: only declarations can be exported (`export function`, `export const`, ...)",
+                        at()
+                    )
+                })?;
+                module.exported.insert(declared.to_string());
+                rest
+            }
+            None => line,
+        };
+        if let Some(declared) = declared_name(line) {
+            module.declared.push(declared.to_string());
+        }
+        module.body.push_str(line);
+        module.body.push('\n');
+    }
+    Ok(module)
+}
+
+/// Joins the entry script (whose imports name `./{folder}/x.js`) and the modules of
+/// `folder` (each `x.js` → its text, importing `./y.js`) into one module text.
+/// Modules the entry does not reach are left out.
+///
+/// # Errors
+/// A line outside the subset in the module docs, an import of a module that does
+/// not exist, a name imported that its module does not export, a top-level name
+/// declared by two modules, or an import cycle; each message names the module.
+pub fn join(entry: &str, folder: &str, modules: &BTreeMap<String, String>) -> Result<String, String> {
+    const ENTRY: &str = "(entry)";
+    let mut parsed: BTreeMap<&str, Module> = BTreeMap::new();
+    parsed.insert(ENTRY, parse("the entry script", entry, &format!("{folder}/"))?);
+    for (name, text) in modules {
+        parsed.insert(name.as_str(), parse(name, text, "")?);
+    }
+    for (name, module) in &parsed {
+        for (names, target) in &module.imports {
+            let Some(exporter) = parsed.get(target.as_str()) else {
+                return Err(format!("{name} imports ./{target}, which is not a module"));
+            };
+            if let Some(missing) = names.iter().find(|n| !exporter.exported.contains(*n)) {
+                return Err(format!(
+                    "{name} imports `{missing}` from {target}, which does not export it"
+                ));
+            }
+        }
+    }
+
+    // Depth-first post-order from the entry: the modules' evaluation order.
+    let mut order: Vec<&str> = Vec::new();
+    let mut stack: Vec<(&str, usize)> = vec![(ENTRY, 0)];
+    let mut on_path: BTreeSet<&str> = BTreeSet::from([ENTRY]);
+    let mut done: BTreeSet<&str> = BTreeSet::new();
+    while let Some((name, next)) = stack.pop() {
+        let imports = &parsed[name].imports;
+        match imports.get(next) {
+            Some((_, target)) => {
+                stack.push((name, next + 1));
+                let target = target.as_str();
+                if on_path.contains(target) {
+                    return Err(format!("{name} and {target} import each other (a cycle)"));
+                }
+                if !done.contains(target) {
+                    on_path.insert(target);
+                    stack.push((target, 0));
+                }
+            }
+            None => {
+                on_path.remove(name);
+                done.insert(name);
+                order.push(name);
+            }
+        }
+    }
+
+    let mut declared_by: BTreeMap<&str, &str> = BTreeMap::new();
+    for name in &order {
+        for declared in &parsed[name].declared {
+            if let Some(first) = declared_by.insert(declared, name) {
+                return Err(format!(
+                    "{first} and {name} both declare `{declared}` at the top level: rename one \
+                     (the page script is joined into one scope)"
+                ));
+            }
+        }
+    }
+
+    let mut out = String::new();
+    for name in order {
+        let label = if name == ENTRY { "app.js" } else { name };
+        out.push_str(&format!("// ---- {label}\n"));
+        out.push_str(&parsed[name].body);
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn modules(list: &[(&str, &str)]) -> BTreeMap<String, String> {
+        list.iter().map(|(n, t)| (n.to_string(), t.to_string())).collect()
+    }
+
+    #[test]
+    fn modules_come_after_what_they_import_in_import_order_and_once() {
+        let entry = "// entry\nimport \"./js/main.js\";\n";
+        let list = modules(&[
+            (
+                "main.js",
+                "import { a } from \"./a.js\";\nimport { b } from \"./b.js\";\nmain(a, b);\n",
+            ),
+            ("a.js", "import { d } from \"./d.js\";\nexport const a = d + 1;\n"),
+            (
+                "b.js",
+                "import { d } from \"./d.js\";\nexport function b() {\n  return d;\n}\n",
+            ),
+            ("d.js", "export let d = 1;\n"),
+            ("unused.js", "export const u = 0;\n"),
+        ]);
+        let joined = join(entry, "js", &list).unwrap();
+        assert_eq!(
+            joined,
+            "// ---- d.js\nlet d = 1;\n// ---- a.js\nconst a = d + 1;\n// ---- b.js\nfunction b() {\n  return d;\n}\n\
+             // ---- main.js\nmain(a, b);\n// ---- app.js\n// entry\n"
+        );
+    }
+
+    #[test]
+    fn dynamic_imports_and_indented_names_are_left_alone() {
+        let list = modules(&[
+            ("main.js", "import { f } from \"./f.js\";\nf();\n"),
+            (
+                "f.js",
+                "export async function f() {\n  const m = await import(\"./glue.1.js\");\n  function inner() {}\n}\n",
+            ),
+            ("g.js", "function inner() {}\n"),
+        ]);
+        let joined = join("import \"./js/main.js\";\n", "js", &list).unwrap();
+        assert!(joined.contains("await import(\"./glue.1.js\")"));
+    }
+
+    #[test]
+    fn what_one_scope_cannot_hold_is_refused_by_name() {
+        let cases: [(&[(&str, &str)], &str); 7] = [
+            (
+                &[
+                    ("main.js", "import { a } from \"./a.js\";\nfunction click() {}\n"),
+                    ("a.js", "export const a = 1;\nfunction click() {}\n"),
+                ],
+                "`click`",
+            ),
+            (
+                &[
+                    ("main.js", "import { b } from \"./a.js\";\n"),
+                    ("a.js", "export const a = 1;\n"),
+                ],
+                "`b` from a.js",
+            ),
+            (
+                &[
+                    ("main.js", "import { a as b } from \"./a.js\";\n"),
+                    ("a.js", "export const a = 1;\n"),
+                ],
+                "no `as`",
+            ),
+            (&[("main.js", "import \"./missing.js\";\n")], "./missing.js"),
+            (
+                &[("main.js", "import \"./a.js\";\n"), ("a.js", "import \"./main.js\";\n")],
+                "cycle",
+            ),
+            (&[("main.js", "export default function () {}\n")], "only declarations"),
+            (
+                &[
+                    ("main.js", "import {\n  a,\n} from \"./a.js\";\n"),
+                    ("a.js", "export const a = 1;\n"),
+                ],
+                "one whole line",
+            ),
+        ];
+        for (list, expected) in cases {
+            let error = join("import \"./js/main.js\";\n", "js", &modules(list)).unwrap_err();
+            assert!(error.contains(expected), "{error} (expected it to mention {expected})");
+        }
+    }
+}
