@@ -697,7 +697,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     files.insert(stylesheet.clone(), print_rules.into_bytes());
     let inline_script = match &sources.query_js {
         Some(text) => {
-            let preloaded: Vec<String> = module_names.iter().chain([&glue_name]).cloned().collect();
+            // The glue first: after the wasm module, the file the link's result waits for.
+            let preloaded: Vec<String> = [&glue_name].into_iter().chain(module_names.iter()).cloned().collect();
             head_script(text, &script, &preloaded, &wasm_name)
                 .map_err(|message| SiteError::content(assets.join(QUERY_SCRIPT), message))?
         }
