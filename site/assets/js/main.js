@@ -235,8 +235,8 @@ function registerNow() {
 
 async function start() {
   const key = document.body.dataset.calculator;
-  loadNoteRest();
   if (!key) {
+    loadNoteRest();
     registerServiceWorker();
     return;
   }
@@ -248,6 +248,7 @@ async function start() {
       `(${quote(error && error.message ? error.message : String(error))})`,
     ]);
     document.body.dataset.state = "error";
+    loadNoteRest();
     registerServiceWorker();
     return;
   }
@@ -256,6 +257,7 @@ async function start() {
   } catch (error) {
     notice("error", [`This page asks for a calculator ${quote(key)} that this version does not have.`]);
     document.body.dataset.state = "error";
+    loadNoteRest();
     registerServiceWorker();
     return;
   }
@@ -286,6 +288,10 @@ async function start() {
   for (const field of spec.fields) normaliseField(field);
   updatePrintFooter();
   updateSheet();
+  // The note's later sections lie far below the result: fetched (in idle time)
+  // only now, so that they never share the connection with the module the first
+  // result waits for.
+  loadNoteRest();
   registerServiceWorker();
 }
 
