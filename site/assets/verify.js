@@ -119,7 +119,7 @@ async function run() {
     const entry = entries[index];
     if (!entry) continue;
     try {
-      if (show(entry, glue.verify_case(cases[index]))) agree += 1;
+      if (show(entry, JSON.parse(glue.verify_case(cases[index])))) agree += 1;
       else disagree.push(entry);
     } catch (error) {
       // A trap leaves the module unusable: load a fresh instance for the rest.

@@ -2,9 +2,13 @@
 //! `fluxledger-core`.
 //!
 //! A key design decision: this crate holds no physics, no defaults and no unit
-//! tables. Every export is `from_value` → core call → `to_value`; the wire shapes are
+//! tables. Every export is `from_value` → core call → JSON text; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
-//! natively. The page script calls these functions:
+//! natively. Every export that answers with a value answers with its JSON text,
+//! written by [`json`] and read by the page with `JSON.parse` (one string crosses
+//! from wasm instead of every value one by one, and the module carries one
+//! serialiser: `serde-wasm-bindgen` only reads the arguments). The page script
+//! calls these functions:
 //!
 //! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
 //!   outputs, cautions) as a plain object; used by the contents page only.
@@ -33,9 +37,10 @@
 //! - [`table_csv`]`(headers, rows)` — the CSV text of a result table, every cell a
 //!   spreadsheet would run as a formula neutralised (see [`csv`]).
 //!
-//! Values go out through `serde_wasm_bindgen::Serializer::json_compatible()` (the
-//! result of `solve` through [`json`], the same shape), so `None` becomes `null` and
-//! maps become plain objects.
+//! Values go out as JSON text through [`json`] (the same shapes `serde_json` would
+//! write: `None` is `null`, maps are plain objects). Measured on the shipped module
+//! (bend page, release, Brotli): dropping `serde-wasm-bindgen`'s serialiser for
+//! this writer took the figures in DEVELOPERS.md ("Module size").
 
 pub mod compare;
 pub mod csv;
@@ -58,10 +63,12 @@ pub fn adapter_error(context: &str, error: impl Display) -> JsError {
     JsError::new(&format!("fluxledger: {context}: {error}"))
 }
 
-fn to_js<T: Serialize>(value: &T) -> Result<JsValue, JsError> {
-    value
-        .serialize(&serde_wasm_bindgen::Serializer::json_compatible())
-        .map_err(|e| adapter_error("could not convert the result", e))
+/// The JSON text of an export's result (the page reads it with `JSON.parse`).
+///
+/// Why text: one string crosses from wasm instead of every value one by one, and
+/// the module carries no second serialiser next to [`json`] (see its docs).
+fn to_json<T: Serialize + ?Sized>(value: &T) -> Result<String, JsError> {
+    json::to_string(value).map_err(|e| adapter_error("could not convert the result", e))
 }
 
 /// Reads a plain object of strings; `undefined` and `null` read as empty.
@@ -75,8 +82,8 @@ fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, Js
 
 /// The description of every calculator ([`view::CatalogView`]).
 #[wasm_bindgen]
-pub fn catalog() -> Result<JsValue, JsError> {
-    to_js(&view::catalog_view())
+pub fn catalog() -> Result<String, JsError> {
+    to_json(&view::catalog_view())
 }
 
 /// The description of calculator `key` ([`view::PageView`]).
@@ -84,9 +91,9 @@ pub fn catalog() -> Result<JsValue, JsError> {
 /// # Errors
 /// Throws for a key that is not a registered calculator.
 #[wasm_bindgen]
-pub fn calculator(key: &str) -> Result<JsValue, JsError> {
+pub fn calculator(key: &str) -> Result<String, JsError> {
     let page = view::page_view(key).ok_or_else(|| adapter_error("unknown calculator", format!("'{key}'")))?;
-    to_js(&page)
+    to_json(&page)
 }
 
 /// A link's pairs (`[[key, value], ...]`) for page `page`, read in today's
@@ -95,10 +102,10 @@ pub fn calculator(key: &str) -> Result<JsValue, JsError> {
 /// # Errors
 /// Throws only when `pairs` is not an array of two-string arrays.
 #[wasm_bindgen]
-pub fn upgrade_link(page: &str, pairs: JsValue) -> Result<JsValue, JsError> {
+pub fn upgrade_link(page: &str, pairs: JsValue) -> Result<String, JsError> {
     let pairs: Vec<(String, String)> = serde_wasm_bindgen::from_value(pairs)
         .map_err(|e| adapter_error("`pairs` must be an array of [key, value] strings", e))?;
-    to_js(&view::upgrade_view(page, &pairs))
+    to_json(&view::upgrade_view(page, &pairs))
 }
 
 /// Solves calculator `key` for what the user typed: the JSON text of the result
@@ -118,8 +125,7 @@ pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> 
     };
     let outcome = fluxledger_core::solve(key, &request);
     let spec = calculators::spec(key);
-    json::to_string(&view::solve_view(&outcome, spec.as_ref()))
-        .map_err(|e| adapter_error("could not convert the result", e))
+    to_json(&view::solve_view(&outcome, spec.as_ref()))
 }
 
 /// Converts the text typed in quantity field `field` of calculator `key` (a bare
@@ -129,10 +135,10 @@ pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> 
 /// Throws only for a `system` other than `"si"` or `"us"`; text that cannot be
 /// converted comes back as `{ok: false, message}`.
 #[wasm_bindgen]
-pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str) -> Result<JsValue, JsError> {
+pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str) -> Result<String, JsError> {
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
-    to_js(&view::convert_view(key, field, text, from_unit, system))
+    to_json(&view::convert_view(key, field, text, from_unit, system))
 }
 
 /// The CSV text of a table (`columns`: the headers, an array of strings, `rows`: an array of
@@ -171,8 +177,8 @@ pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Res
 /// # Errors
 /// Throws only when the result cannot be converted.
 #[wasm_bindgen]
-pub fn qr_code(text: &str) -> Result<JsValue, JsError> {
-    to_js(&qr::qr_view(text))
+pub fn qr_code(text: &str) -> Result<String, JsError> {
+    to_json(&qr::qr_view(text))
 }
 
 #[derive(Serialize)]
@@ -186,8 +192,8 @@ struct SheetFieldsView {
 /// # Errors
 /// Throws only when the result cannot be converted.
 #[wasm_bindgen]
-pub fn sheet_fields() -> Result<JsValue, JsError> {
-    to_js(&SheetFieldsView {
+pub fn sheet_fields() -> Result<String, JsError> {
+    to_json(&SheetFieldsView {
         fields: fluxledger_core::glossary::SHEET_KEYS.to_vec(),
         max_pins: fluxledger_core::glossary::MAX_PINS,
     })
@@ -199,6 +205,6 @@ pub fn sheet_fields() -> Result<JsValue, JsError> {
 /// # Errors
 /// Throws only when the result cannot be converted.
 #[wasm_bindgen]
-pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<JsValue, JsError> {
-    to_js(&compare::difference_view(pinned_si, current_si, unit))
+pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<String, JsError> {
+    to_json(&compare::difference_view(pinned_si, current_si, unit))
 }

@@ -21,7 +21,7 @@ use wasm_bindgen::prelude::*;
 use fluxledger_core::verification::{self, CaseData, ExpectError, Expected, Target, Tolerance, Verdict};
 use fluxledger_core::UnitSystem;
 
-use crate::{adapter_error, to_js};
+use crate::{adapter_error, to_json};
 
 /// One expected output as embedded in the page.
 #[derive(Deserialize)]
@@ -177,13 +177,13 @@ pub fn verdict_view(verdict: &Verdict) -> VerdictView {
 /// Throws only when `case` does not have the embedded shape (a build fault, never
 /// user input).
 #[wasm_bindgen]
-pub fn verify_case(case: JsValue) -> Result<JsValue, JsError> {
+pub fn verify_case(case: JsValue) -> Result<String, JsError> {
     let wire: CaseWire = serde_wasm_bindgen::from_value(case)
         .map_err(|e| adapter_error("the case does not have the embedded shape", e))?;
     let case = wire
         .into_case()
         .map_err(|e| adapter_error("the case does not have the embedded shape", e))?;
-    to_js(&verdict_view(&verification::verify(&case)))
+    to_json(&verdict_view(&verification::verify(&case)))
 }
 
 #[cfg(test)]

@@ -21,7 +21,7 @@ import { saveCsv } from "./csv.js";
 /** The inputs of a case query, read through the glossary: {values: Map, system}. */
 function readCase(query) {
   const raw = [...new URLSearchParams(query)];
-  const upgraded = raw.length > 0 ? glue.upgrade_link(state.spec.key, raw) : { pairs: [] };
+  const upgraded = raw.length > 0 ? JSON.parse(glue.upgrade_link(state.spec.key, raw)) : { pairs: [] };
   const values = new Map();
   let system = state.system;
   for (const [key, value] of upgraded.pairs || []) {
@@ -117,7 +117,7 @@ function comparison() {
       const found = result && result.ok ? (result.outputs || []).find((o) => o.key === output.key) : null;
       cells.push(found ? found.shown : result && !result.ok ? "not solved (invalid input)" : "—");
       if (found && found.si != null && output.si != null) {
-        const diff = glue.case_difference(found.si, output.si, output.unit);
+        const diff = JSON.parse(glue.case_difference(found.si, output.si, output.unit));
         notes.push(`current − this: ${diff.difference}; current ÷ this: ${diff.ratio}`);
       } else notes.push("");
     });

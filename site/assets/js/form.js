@@ -85,7 +85,7 @@ function changeSystem(system) {
     if (unit === target) continue;
     let answer = null;
     try {
-      answer = glue.convert(state.spec.key, key, text, state.units[key] || unit, system);
+      answer = JSON.parse(glue.convert(state.spec.key, key, text, state.units[key] || unit, system));
     } catch (error) {
       answer = null;
     }

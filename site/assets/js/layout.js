@@ -27,7 +27,13 @@ export function watchHeadline() {
   const headline = state.ui.headline;
   if (!headline) return;
   const narrow = window.matchMedia(NARROW);
-  let lastY = window.scrollY;
+  // Read in the next frame, not now: the page is being built, and reading the
+  // scroll position here would force a layout of the whole page mid-build (the
+  // frame lays it out anyway).
+  let lastY = 0;
+  requestAnimationFrame(() => {
+    lastY = window.scrollY;
+  });
   /** Scrolled since the last change of direction: positive down, negative up. */
   let run = 0;
   let frame = 0;
@@ -86,10 +92,15 @@ export function watchTable(panel) {
     // Called after layout, before paint: the widths are read without forcing a
     // layout of their own, and the marks are drawn in the same frame.
     resizes = new ResizeObserver((entries) => {
+      // Every width read before any mark is written: a mark written between two
+      // reads would make the next read lay the page out again.
+      const boxes = new Set();
       for (const entry of entries) {
         const scroller = entry.target.closest(".table-scroll");
-        if (scroller) markOverflow(scroller);
+        if (scroller) boxes.add(scroller);
       }
+      const measured = [...boxes].map(measureOverflow);
+      for (const marks of measured) applyOverflow(marks);
     });
     document.addEventListener(
       "scroll",
@@ -106,10 +117,22 @@ export function watchTable(panel) {
 }
 
 function markOverflow(box) {
+  applyOverflow(measureOverflow(box));
+}
+
+/** Whether a table's box scrolls sideways and is scrolled to its end (reads only). */
+function measureOverflow(box) {
   const panel = box.closest(".panel-table");
-  if (!panel) return;
+  if (!panel) return null;
   const overflows = box.scrollWidth > box.clientWidth + 1;
   const atEnd = box.scrollLeft + box.clientWidth >= box.scrollWidth - 1;
+  return { panel, overflows, atEnd };
+}
+
+/** Writes the marks `measureOverflow` found (writes only). */
+function applyOverflow(marks) {
+  if (!marks) return;
+  const { panel, overflows, atEnd } = marks;
   if (panel.hasAttribute("data-overflows") !== overflows) panel.toggleAttribute("data-overflows", overflows);
   if (panel.hasAttribute("data-at-end") !== atEnd) panel.toggleAttribute("data-at-end", atEnd);
 }

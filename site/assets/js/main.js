@@ -153,8 +153,12 @@ function settlePending() {
   if (urlTask) writeUrlNow();
 }
 
-/** Recomputes, renders, and optionally writes the URL. */
-function recompute({ writeToUrl }) {
+/**
+ * Recomputes, renders, and optionally writes the URL. `solved`: the result of a
+ * solve of the current inputs already made (the page's first), used instead of
+ * solving them again.
+ */
+function recompute({ writeToUrl, solved = null }) {
   // A recompute now also answers the keystrokes waiting for the next frame.
   if (frame) cancelAnimationFrame(frame);
   frame = 0;
@@ -162,7 +166,7 @@ function recompute({ writeToUrl }) {
   frameWritesUrl = false;
   // Without a module (being reloaded after a trap) the recompute after the reload
   // still owes the URL its write.
-  const result = glue ? solveNow() : null;
+  const result = solved || (glue ? solveNow() : null);
   if (!result) {
     frameWritesUrl = writeToUrl;
     return;
@@ -181,15 +185,18 @@ function recompute({ writeToUrl }) {
  * values. A link value the core refuses is named in a notice, and the page shows
  * no result until it is corrected: a result computed from a demo value in its
  * place would look like the link's calculation and is not.
+ *
+ * Returns the result of that check (the solve of exactly these values), which the
+ * first render shows instead of solving them a second time; null without a link.
  */
 function settleInitialValues(spec, fromUrl) {
   for (const field of spec.fields) {
     state.values[field.key] = fromUrl.has(field.key) ? fromUrl.get(field.key) : field.demo || "";
     if (isQuantity(field)) state.units[field.key] = defaultUnit(field, state.system);
   }
-  if (fromUrl.size === 0) return;
+  if (fromUrl.size === 0) return null;
   const result = solveNow();
-  if (!result || result.ok) return;
+  if (!result || result.ok) return result;
   const fields = new Map(spec.fields.map((f) => [f.key, f]));
   const refused = new Set();
   for (const error of result.errors || []) {
@@ -201,6 +208,7 @@ function settleInitialValues(spec, fromUrl) {
       "No result is shown until it is corrected.",
     ]);
   }
+  return result;
 }
 
 /**
@@ -228,8 +236,8 @@ function registerNow() {
 
 async function start() {
   const key = document.body.dataset.calculator;
-  loadNoteRest();
   if (!key) {
+    loadNoteRest();
     registerServiceWorker();
     return;
   }
@@ -241,14 +249,16 @@ async function start() {
       `(${quote(error && error.message ? error.message : String(error))})`,
     ]);
     document.body.dataset.state = "error";
+    loadNoteRest();
     registerServiceWorker();
     return;
   }
   try {
-    state.page = glue.calculator(key);
+    state.page = JSON.parse(glue.calculator(key));
   } catch (error) {
     notice("error", [`This page asks for a calculator ${quote(key)} that this version does not have.`]);
     document.body.dataset.state = "error";
+    loadNoteRest();
     registerServiceWorker();
     return;
   }
@@ -259,7 +269,9 @@ async function start() {
   state.writeUrl = writeUrl;
   const spec = state.spec;
   const fromUrl = readUrl(spec);
-  settleInitialValues(spec, fromUrl);
+  // With a link the values are solved once here (to name a refused value); the
+  // first render shows that result: the same inputs, the same result.
+  const solved = settleInitialValues(spec, fromUrl);
   const prerendered = document.querySelector("#calculator .details");
   if (prerendered && prerendered.clientWidth > 0) measureFigureWidth(prerendered);
   buildPage();
@@ -272,11 +284,15 @@ async function start() {
     const width = measureFigureWidth();
     if (width !== before && state.lastResult) render(state.lastResult);
   });
-  recompute({ writeToUrl: false });
+  recompute({ writeToUrl: false, solved });
   // Show each quantity as the core read it: the number, with its unit selected.
   for (const field of spec.fields) normaliseField(field);
   updatePrintFooter();
   updateSheet();
+  // The note's later sections lie far below the result: fetched (in idle time)
+  // only now, so that they never share the connection with the module the first
+  // result waits for.
+  loadNoteRest();
   registerServiceWorker();
 }
 

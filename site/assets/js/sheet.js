@@ -23,7 +23,7 @@ let described = null;
 
 export function sheetDescription() {
   if (!described) {
-    const view = glue.sheet_fields();
+    const view = JSON.parse(glue.sheet_fields());
     described = { fields: view.fields || [], maxPins: view.max_pins || 0 };
   }
   return described;
@@ -236,7 +236,7 @@ export function updateSheet() {
   ui.sheetInputs.replaceChildren(...parts);
 
   const link = readableLink();
-  const code = glue.qr_code(link);
+  const code = JSON.parse(glue.qr_code(link));
   const qr =
     code && code.ok
       ? svg(

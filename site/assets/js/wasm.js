@@ -8,9 +8,21 @@ export async function loadGlue() {
   // A new query string gives a fresh module instance (a trapped instance cannot be
   // reset); the service worker answers it from the cache as well.
   const suffix = generation === 0 ? "" : `?instance=${generation}`;
+  // The first instance comes from the module the head script compiled while it
+  // downloaded (`fluxledgerModule`, a promise); without it, or when that compile
+  // failed, the glue fetches and compiles the module itself.
+  const compiling = generation === 0 ? window.fluxledgerModule : undefined;
   generation += 1;
   const module = await import("./__GLUE__" + suffix);
-  await module.default();
+  let compiled = null;
+  if (compiling) {
+    try {
+      compiled = await compiling;
+    } catch (error) {
+      compiled = null;
+    }
+  }
+  await module.default(compiled instanceof WebAssembly.Module ? { module_or_path: compiled } : undefined);
   glue = module;
 }
 
