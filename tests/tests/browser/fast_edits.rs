@@ -1,7 +1,8 @@
 //! Fast edits: keystrokes are coalesced per animation frame and the page updates
 //! its parts in place; after a burst of edits the page shows exactly what the core
 //! computes for the final URL (headline values, every table cell, a diagram's
-//! restraint arrow), and the table and the diagram were updated, not rebuilt.
+//! restraint arrow), and the table and the diagram were updated, not rebuilt: the
+//! patched diagram's markup is exactly that of a fresh drawing of the last result.
 
 use std::time::Duration;
 
@@ -31,6 +32,18 @@ const BURST: &str = r#"(async () => {
     if (n % 3 === 2) await frame();
   }
   return 'typed';
+})()"#;
+
+/// The live diagram figure's markup against a fresh drawing of the page's last
+/// result by the page's own modules (`create(planDiagram(...))`): "same" or both.
+const FRESH_DRAWING: &str = r#"(async () => {
+  const loaded = performance.getEntriesByType('resource').map((e) => e.name);
+  const module = (stem) => import(loaded.find((n) => new RegExp('/' + stem + '\\.[0-9a-f]+\\.js$').test(n)));
+  const [patch, diagram, page] = await Promise.all([module('render-patch'), module('render-diagram'), module('state')]);
+  const result = page.state.lastResult;
+  const fresh = patch.create(diagram.planDiagram(result.diagrams[0], 0, page.state.figureWidth)).outerHTML;
+  const live = document.querySelector('svg.diagram').closest('figure').outerHTML;
+  return live === fresh ? 'same' : JSON.stringify([live, fresh]);
 })()"#;
 
 /// The leading number of a shown text ("1.234 kN" -> "1.234", "45°" -> "45"),
@@ -175,6 +188,11 @@ fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
         .unwrap(),
         Value::from(vec![true, true]),
         "the diagram or the table was rebuilt for an edit that keeps its structure"
+    );
+    assert_eq!(
+        page.eval(&mut browser, FRESH_DRAWING).unwrap(),
+        Value::from("same"),
+        "the patched diagram is not what a fresh drawing of the last result makes (live, fresh)"
     );
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
