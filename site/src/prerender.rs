@@ -644,7 +644,7 @@ fn render_table(table: &Value, index: usize) -> String {
 }
 
 // ---------------------------------------------------------------------------------
-// Diagrams (the page script's renderDiagram, step for step).
+// Diagrams (the page script's planDiagram, step for step).
 
 /// Screen size of diagram labels, in CSS pixels.
 const LABEL_PX: f64 = 13.0;
@@ -1127,7 +1127,7 @@ fn render_legend(styles: &[String]) -> String {
 }
 
 // ---------------------------------------------------------------------------------
-// Plots (the page script's renderPlot).
+// Plots (the page script's planPlot).
 
 struct Ticks {
     lo: f64,

@@ -1,8 +1,10 @@
 // Diagrams: model coordinates in metres, y up; SVG y down, so y is negated. Each
 // shape's style is a class (`s-restraint`); its colours are custom properties in
-// the stylesheet.
+// the stylesheet. A diagram is drawn as a plan (render-patch): made into elements
+// once, then brought up to each new drawing attribute by attribute.
 
-import { el, finite, svg } from "./dom.js";
+import { finite } from "./dom.js";
+import { htmlPlan, svgPlan } from "./render-patch.js";
 import { state } from "./state.js";
 
 /** Plain names of the shape styles, for diagram legends. */
@@ -71,7 +73,8 @@ function labelLayout(label) {
   return { anchor, baseline, box: [x0, y0, x0 + w, y0 + h] };
 }
 
-export function renderDiagram(diagram, index, width) {
+/** The plan of a diagram's figure (`create` / `patch` in render-patch make it). */
+export function planDiagram(diagram, index, width) {
   let [minX, minY, maxX, maxY] = diagram.bounds || [0, 0, 1, 1];
   if (!finite(minX, minY, maxX, maxY) || maxX <= minX || maxY <= minY) [minX, minY, maxX, maxY] = [0, 0, 1, 1];
   const centre = [(minX + maxX) / 2, (minY + maxY) / 2];
@@ -226,7 +229,7 @@ export function renderDiagram(diagram, index, width) {
   const prefix = `d${index}`;
   const markerFor = (style) => `${prefix}-head-${style}`;
 
-  const root = svg("svg", {
+  const root = svgPlan("svg", {
     class: "diagram",
     viewBox: `${view[0]} ${-view[3]} ${vbW} ${vbH}`,
     width: Math.round(vbW * scale),
@@ -235,12 +238,12 @@ export function renderDiagram(diagram, index, width) {
     "aria-label": diagram.title || "Diagram",
     "font-size": px(LABEL_PX),
   });
-  const defs = svg("defs");
+  const defs = svgPlan("defs");
   root.append(defs);
   for (const style of arrowStyles) {
     const size = px(style === "restraint" || style === "thrust" ? 12 : 10);
     defs.append(
-      svg(
+      svgPlan(
         "marker",
         {
           id: markerFor(style),
@@ -253,7 +256,7 @@ export function renderDiagram(diagram, index, width) {
           markerUnits: "userSpaceOnUse",
           orient: "auto-start-reverse",
         },
-        svg("path", { d: "M0,0 L10,5 L0,10 z" }),
+        svgPlan("path", { d: "M0,0 L10,5 L0,10 z" }),
       ),
     );
   }
@@ -261,10 +264,10 @@ export function renderDiagram(diagram, index, width) {
   for (const item of geometry) {
     const cls = `shape s-${item.style}`;
     if (item.tag === "circle") {
-      root.append(svg("circle", { class: cls, cx: item.c[0], cy: -item.c[1], r: item.r, "vector-effect": "non-scaling-stroke" }));
+      root.append(svgPlan("circle", { class: cls, cx: item.c[0], cy: -item.c[1], r: item.r, "vector-effect": "non-scaling-stroke" }));
     } else if (item.tag === "arrow") {
       root.append(
-        svg("line", {
+        svgPlan("line", {
           class: `${cls} arrow`,
           x1: item.a[0],
           y1: -item.a[1],
@@ -276,7 +279,7 @@ export function renderDiagram(diagram, index, width) {
       );
     } else {
       root.append(
-        svg(item.tag, {
+        svgPlan(item.tag, {
           class: cls,
           points: item.points.map((p) => `${p[0]},${-p[1]}`).join(" "),
           "vector-effect": "non-scaling-stroke",
@@ -287,7 +290,7 @@ export function renderDiagram(diagram, index, width) {
   // Labels last, so they sit on top of the lines.
   const lineStep = px(LABEL_PX * 1.2);
   for (const label of labels) {
-    const text = svg("text", {
+    const text = svgPlan("text", {
       class: `label s-${label.style}`,
       x: label.x,
       y: -label.y,
@@ -300,17 +303,17 @@ export function renderDiagram(diagram, index, width) {
     const n = label.lines.length;
     const first = label.baseline === "auto" ? -(n - 1) * lineStep : label.baseline === "hanging" ? 0 : (-(n - 1) * lineStep) / 2;
     label.lines.forEach((line, i) => {
-      text.append(svg("tspan", { x: label.x, dy: i === 0 ? first : lineStep, text: line }));
+      text.append(svgPlan("tspan", { x: label.x, dy: i === 0 ? first : lineStep, text: line }));
     });
     root.append(text);
   }
 
-  const figure = el("figure", { class: "panel figure" });
-  if (diagram.title) figure.append(el("h2", { class: "panel-title", text: diagram.title }));
-  figure.append(el("div", { class: "figure-canvas" }, root));
+  const figure = htmlPlan("figure", { class: "panel figure" });
+  if (diagram.title) figure.append(htmlPlan("h2", { class: "panel-title", text: diagram.title }));
+  figure.append(htmlPlan("div", { class: "figure-canvas" }, root));
   const legend = renderLegend(styles);
   if (legend) figure.append(legend);
-  if (diagram.caption) figure.append(el("figcaption", { text: diagram.caption }));
+  if (diagram.caption) figure.append(htmlPlan("figcaption", { text: diagram.caption }));
   return figure;
 }
 
@@ -318,19 +321,19 @@ function renderLegend(styles) {
   const order = ["restraint", "thrust", "pressure", "momentum", "weight", "velocity", "flow", "control_volume", "wall", "fluid"];
   const shown = order.filter((style) => styles.has(style));
   if (shown.length === 0) return null;
-  const list = el("ul", { class: "legend" });
+  const list = htmlPlan("ul", { class: "legend" });
   for (const style of shown) {
     const isArrow = ["restraint", "thrust", "pressure", "momentum", "weight", "velocity", "flow"].includes(style);
-    const swatch = svg("svg", { class: "swatch", viewBox: "0 0 36 12", width: 36, height: 12, "aria-hidden": "true" });
+    const swatch = svgPlan("svg", { class: "swatch", viewBox: "0 0 36 12", width: 36, height: 12, "aria-hidden": "true" });
     if (isArrow) {
       swatch.append(
-        svg("line", { class: `shape s-${style} arrow`, x1: 1, y1: 6, x2: 28, y2: 6 }),
-        svg("path", { class: `head s-${style}`, d: "M26,1 L35,6 L26,11 z" }),
+        svgPlan("line", { class: `shape s-${style} arrow`, x1: 1, y1: 6, x2: 28, y2: 6 }),
+        svgPlan("path", { class: `head s-${style}`, d: "M26,1 L35,6 L26,11 z" }),
       );
     } else {
-      swatch.append(svg("rect", { class: `shape s-${style}`, x: 2, y: 1, width: 32, height: 10 }));
+      swatch.append(svgPlan("rect", { class: `shape s-${style}`, x: 2, y: 1, width: 32, height: 10 }));
     }
-    list.append(el("li", {}, swatch, el("span", { text: STYLE_NAMES[style] || style })));
+    list.append(htmlPlan("li", {}, swatch, htmlPlan("span", { text: STYLE_NAMES[style] || style })));
   }
   return list;
 }

@@ -1,6 +1,9 @@
 // Plots: series as polylines on round ticks, markers numbered and listed below.
+// A plot is drawn as a plan (render-patch): made into elements once, then brought
+// up to each new drawing attribute by attribute.
 
-import { el, finite, svg } from "./dom.js";
+import { finite } from "./dom.js";
+import { htmlPlan, svgPlan } from "./render-patch.js";
 
 /** Round tick values spanning [lo, hi]: steps of 1, 2 or 5 times a power of ten. */
 function ticks(lo, hi, count) {
@@ -22,14 +25,15 @@ function tickText(value, step) {
   return value.toFixed(decimals);
 }
 
-export function renderPlot(plot, width) {
+/** The plan of a plot's figure (`create` / `patch` in render-patch make it). */
+export function planPlot(plot, width) {
   const points = [];
   for (const series of plot.series || []) for (const p of series.points || []) if (finite(p[0], p[1])) points.push(p);
   for (const marker of plot.markers || []) if (finite(marker.at?.[0], marker.at?.[1])) points.push(marker.at);
-  const figure = el("figure", { class: "panel figure plot", dataset: { plot: plot.key || "" } });
-  if (plot.title) figure.append(el("h2", { class: "panel-title", text: plot.title }));
+  const figure = htmlPlan("figure", { class: "panel figure plot", dataset: { plot: plot.key || "" } });
+  if (plot.title) figure.append(htmlPlan("h2", { class: "panel-title", text: plot.title }));
   if (points.length === 0) {
-    figure.append(el("p", { text: "Nothing to plot for these inputs." }));
+    figure.append(htmlPlan("p", { text: "Nothing to plot for these inputs." }));
     return figure;
   }
   const W = Math.max(280, width);
@@ -42,22 +46,22 @@ export function renderPlot(plot, width) {
   const sx = (x) => pad.left + ((x - tx.lo) / (tx.hi - tx.lo)) * (W - pad.left - pad.right);
   const sy = (y) => H - pad.bottom - ((y - ty.lo) / (ty.hi - ty.lo)) * (H - pad.top - pad.bottom);
 
-  const root = svg("svg", { class: "plot-svg", viewBox: `0 0 ${W} ${H}`, width: W, height: H, role: "img", "aria-label": plot.title || "Plot" });
-  const grid = svg("g", { class: "plot-grid" });
+  const root = svgPlan("svg", { class: "plot-svg", viewBox: `0 0 ${W} ${H}`, width: W, height: H, role: "img", "aria-label": plot.title || "Plot" });
+  const grid = svgPlan("g", { class: "plot-grid" });
   for (const v of tx.values) {
-    grid.append(svg("line", { x1: sx(v), y1: pad.top, x2: sx(v), y2: H - pad.bottom }));
-    root.append(svg("text", { class: "tick", x: sx(v), y: H - pad.bottom + 16, "text-anchor": "middle", text: tickText(v, tx.step) }));
+    grid.append(svgPlan("line", { x1: sx(v), y1: pad.top, x2: sx(v), y2: H - pad.bottom }));
+    root.append(svgPlan("text", { class: "tick", x: sx(v), y: H - pad.bottom + 16, "text-anchor": "middle", text: tickText(v, tx.step) }));
   }
   for (const v of ty.values) {
-    grid.append(svg("line", { x1: pad.left, y1: sy(v), x2: W - pad.right, y2: sy(v) }));
-    root.append(svg("text", { class: "tick", x: pad.left - 6, y: sy(v), "text-anchor": "end", "dominant-baseline": "central", text: tickText(v, ty.step) }));
+    grid.append(svgPlan("line", { x1: pad.left, y1: sy(v), x2: W - pad.right, y2: sy(v) }));
+    root.append(svgPlan("text", { class: "tick", x: pad.left - 6, y: sy(v), "text-anchor": "end", "dominant-baseline": "central", text: tickText(v, ty.step) }));
   }
   root.prepend(grid);
   root.append(
-    svg("line", { class: "axis", x1: pad.left, y1: H - pad.bottom, x2: W - pad.right, y2: H - pad.bottom }),
-    svg("line", { class: "axis", x1: pad.left, y1: pad.top, x2: pad.left, y2: H - pad.bottom }),
-    svg("text", { class: "axis-label", x: (pad.left + W - pad.right) / 2, y: H - 6, "text-anchor": "middle", text: plot.x_label || "" }),
-    svg("text", {
+    svgPlan("line", { class: "axis", x1: pad.left, y1: H - pad.bottom, x2: W - pad.right, y2: H - pad.bottom }),
+    svgPlan("line", { class: "axis", x1: pad.left, y1: pad.top, x2: pad.left, y2: H - pad.bottom }),
+    svgPlan("text", { class: "axis-label", x: (pad.left + W - pad.right) / 2, y: H - 6, "text-anchor": "middle", text: plot.x_label || "" }),
+    svgPlan("text", {
       class: "axis-label",
       x: 0,
       y: 0,
@@ -66,18 +70,18 @@ export function renderPlot(plot, width) {
       text: plot.y_label || "",
     }),
   );
-  const legend = el("ul", { class: "legend" });
+  const legend = htmlPlan("ul", { class: "legend" });
   (plot.series || []).forEach((series, index) => {
     const pts = (series.points || []).filter((p) => finite(p[0], p[1]));
     if (pts.length === 0) return;
-    root.append(svg("polyline", { class: `series series-${index % 4}`, points: pts.map((p) => `${sx(p[0])},${sy(p[1])}`).join(" ") }));
-    const swatch = svg("svg", { class: "swatch", viewBox: "0 0 36 12", width: 36, height: 12, "aria-hidden": "true" });
-    swatch.append(svg("line", { class: `series series-${index % 4}`, x1: 1, y1: 6, x2: 35, y2: 6 }));
-    legend.append(el("li", {}, swatch, el("span", { text: series.name || `Series ${index + 1}` })));
+    root.append(svgPlan("polyline", { class: `series series-${index % 4}`, points: pts.map((p) => `${sx(p[0])},${sy(p[1])}`).join(" ") }));
+    const swatch = svgPlan("svg", { class: "swatch", viewBox: "0 0 36 12", width: 36, height: 12, "aria-hidden": "true" });
+    swatch.append(svgPlan("line", { class: `series series-${index % 4}`, x1: 1, y1: 6, x2: 35, y2: 6 }));
+    legend.append(htmlPlan("li", {}, swatch, htmlPlan("span", { text: series.name || `Series ${index + 1}` })));
   });
   // Markers are numbered on the plot and named in a list below it: long labels
   // of nearby points would collide on a phone.
-  const markerList = el("ol", { class: "plot-markers" });
+  const markerList = htmlPlan("ol", { class: "plot-markers" });
   let number = 0;
   for (const marker of plot.markers || []) {
     if (!finite(marker.at?.[0], marker.at?.[1])) continue;
@@ -87,8 +91,8 @@ export function renderPlot(plot, width) {
     const right = x < W * 0.75;
     const below = number % 2 === 0;
     root.append(
-      svg("circle", { class: "marker", cx: x, cy: y, r: 5 }),
-      svg("text", {
+      svgPlan("circle", { class: "marker", cx: x, cy: y, r: 5 }),
+      svgPlan("text", {
         class: "marker-label",
         x: right ? x + 8 : x - 8,
         y: below ? y + 15 : y - 8,
@@ -96,9 +100,9 @@ export function renderPlot(plot, width) {
         text: String(number),
       }),
     );
-    markerList.append(el("li", { text: marker.label || `Point ${number}` }));
+    markerList.append(htmlPlan("li", { text: marker.label || `Point ${number}` }));
   }
-  figure.append(el("div", { class: "figure-canvas" }, root));
+  figure.append(htmlPlan("div", { class: "figure-canvas" }, root));
   if (legend.childElementCount > 0) figure.append(legend);
   if (markerList.childElementCount > 0) figure.append(markerList);
   return figure;

@@ -4,8 +4,10 @@
 // An edit updates what is there instead of rebuilding it: the headline values'
 // text in place while the same outputs are shown (the headline first, so it is
 // never behind), each table's changed cells (render-table), each diagram's and
-// plot's SVG attributes where the drawing keeps its structure (render-morph). A
-// change in the list of parts rebuilds them all.
+// plot's attributes and texts that differ from the last drawing (a figure is drawn
+// as a plan and patched, render-patch). A change in the list of parts rebuilds
+// them all. The elements an update writes to are found once, when they are made,
+// not looked up again on every keystroke.
 //
 // The frame after a keystroke shows the headline and the parts on screen, and
 // nothing else. A part off screen (IntersectionObserver) carries `data-stale` and
@@ -18,14 +20,15 @@ import { clip, el, setText } from "./dom.js";
 import { state } from "./state.js";
 import { SYSTEM_KEY } from "./url.js";
 import { renderTable, updateTable } from "./render-table.js";
-import { renderDiagram } from "./render-diagram.js";
-import { renderPlot } from "./render-plot.js";
-import { morph } from "./render-morph.js";
+import { planDiagram } from "./render-diagram.js";
+import { planPlot } from "./render-plot.js";
+import { create, patch } from "./render-patch.js";
 
 /**
- * The parts shown under the headline, in order: {id, node, build, update, eager, pending}.
- * `id` names a part's kind and key (a change of ids rebuilds them all); `pending`
- * says an update still waits for the part to come into view.
+ * The parts shown under the headline, in order: {id, node, build, update, eager,
+ * pending, plan}. `id` names a part's kind and key (a change of ids rebuilds them
+ * all); `pending` says an update still waits for the part to come into view; a
+ * drawn part's `plan` is the drawing its elements show (render-patch).
  */
 let parts = [];
 /** Parts off screen, by node (a node the observer has not reported yet counts as on screen). */
@@ -68,6 +71,7 @@ export function render(result) {
       el("p", { class: "no-result", text: "No result yet: correct the marked inputs." }),
       ...general.map((text) => el("p", { class: "general-error", text })),
     );
+    headlineParts = null;
     forgetParts();
     ui.details.replaceChildren();
     finishRender("error");
@@ -98,8 +102,13 @@ export function render(result) {
   if (others.length > 0) {
     next.push({
       id: `others:${others.map((o) => o.key).join(",")}`,
-      build: () => el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), outputList(others, "output-list")),
-      update: (node) => updateOutputList(node.querySelector("dl"), others),
+      build: () => {
+        const list = outputList(others, "output-list");
+        const panel = el("section", { class: "panel" }, el("h2", { class: "panel-title", text: "Other results" }), list);
+        panelLists.set(panel, list);
+        return panel;
+      },
+      update: (node) => updateOutputList(panelLists.get(node), others),
       // A few values, cheap to write: never left behind the headline, even off screen.
       eager: true,
     });
@@ -109,19 +118,34 @@ export function render(result) {
   }
   const width = state.figureWidth || measureFigureWidth();
   for (const [index, diagram] of (result.diagrams || []).entries()) {
-    next.push({ id: `diagram:${index}`, build: () => renderDiagram(diagram, index, width), update: morphInto });
+    next.push(drawnPart(`diagram:${index}`, () => planDiagram(diagram, index, width)));
   }
   for (const [index, plot] of (result.plots || []).entries()) {
-    next.push({ id: `plot:${plot.key || index}`, build: () => renderPlot(plot, width), update: morphInto });
+    next.push(drawnPart(`plot:${plot.key || index}`, () => planPlot(plot, width)));
   }
   updateParts(next);
   finishRender("ready");
 }
 
-/** Redraws `part` and brings its node up to the new drawing. */
-function morphInto(node, part) {
-  part.node = morph(node, part.build());
-  return true;
+/**
+ * A diagram or plot: drawn as a plan when it is built or updated (never while it
+ * waits off screen); an update writes what differs from the plan its elements show.
+ */
+function drawnPart(id, draw) {
+  return {
+    id,
+    build() {
+      this.plan = draw();
+      return create(this.plan);
+    },
+    update(node, part) {
+      if (!part.plan) return false;
+      const plan = draw();
+      part.node = patch(node, part.plan, plan);
+      part.plan = plan;
+      return true;
+    },
+  };
 }
 
 function outputList(outputs, cls) {
@@ -139,10 +163,20 @@ function outputList(outputs, cls) {
   return list;
 }
 
+/** The list of values in the panel of other results, by panel. */
+const panelLists = new WeakMap();
+
+/** The value cells of lists made by `outputList` (a list is never edited otherwise). */
+const listValues = new WeakMap();
+
 /** Rewrites the values of a list made by `outputList` when it shows the same outputs. */
 function updateOutputList(list, outputs) {
   if (!list) return false;
-  const values = list.querySelectorAll("dd[data-output]");
+  let values = listValues.get(list);
+  if (!values) {
+    values = list.querySelectorAll("dd[data-output]");
+    listValues.set(list, values);
+  }
   if (values.length !== outputs.length || outputs.some((o, i) => values[i].dataset.output !== o.key)) return false;
   outputs.forEach((output, i) => {
     const dd = values[i];
@@ -161,21 +195,23 @@ function warningList(warnings) {
   return list;
 }
 
+/** The headline's list of values and of warnings (or null), as `buildHeadline` made them. */
+let headlineParts = null;
+
 function buildHeadline(outputs, warnings) {
   const headline = state.ui.headline;
   const list = warningList(warnings);
+  const values = outputList(outputs, "headline-values");
   headline.classList.toggle("has-warnings", list !== null);
   // (replaceChildren would write a missing warning list as the text "null")
-  headline.replaceChildren(
-    ...[el("h2", { class: "panel-title", text: "Result" }), outputList(outputs, "headline-values"), list].filter(Boolean),
-  );
+  headline.replaceChildren(...[el("h2", { class: "panel-title", text: "Result" }), values, list].filter(Boolean));
+  headlineParts = { values, warnings: list };
 }
 
 /** Updates the headline in place; false when its outputs changed (then it is rebuilt). */
 function updateHeadline(outputs, warnings) {
-  const headline = state.ui.headline;
-  if (!updateOutputList(headline.querySelector("dl.headline-values"), outputs)) return false;
-  const shown = headline.querySelector("ul.headline-warnings");
+  if (!headlineParts || !updateOutputList(headlineParts.values, outputs)) return false;
+  const shown = headlineParts.warnings;
   const count = shown ? shown.children.length : 0;
   if (count > 0 && count === warnings.length) {
     // The same number of warnings (their figures follow the inputs): text rewritten in place.
@@ -183,8 +219,9 @@ function updateHeadline(outputs, warnings) {
   } else if (count !== warnings.length) {
     const list = warningList(warnings);
     if (shown) shown.remove();
-    if (list) headline.append(list);
-    headline.classList.toggle("has-warnings", list !== null);
+    if (list) state.ui.headline.append(list);
+    state.ui.headline.classList.toggle("has-warnings", list !== null);
+    headlineParts.warnings = list;
   }
   return true;
 }
@@ -206,6 +243,7 @@ function updateParts(next) {
   next.forEach((part, i) => {
     const current = parts[i];
     part.node = current.node;
+    part.plan = current.plan;
     parts[i] = part;
     if (!part.update) {
       replaceNode(part, part.build());
@@ -344,13 +382,21 @@ function carryOverLinks(items) {
   return links;
 }
 
+/** The links of panels made by `renderCarryOver` (a panel is never edited otherwise). */
+const carryAnchors = new WeakMap();
+
 /**
  * Brings carry-over links made by `renderCarryOver` up to `links` when they lead to
  * the same pages (the inputs they carry follow every keystroke): the `href` and
  * the texts written where they changed. False when the pages differ (rebuilt).
  */
 function updateCarryOver(node, links) {
-  const anchors = node ? node.querySelectorAll("a.carry-link") : [];
+  let anchors = node ? carryAnchors.get(node) : undefined;
+  if (node && !anchors) {
+    anchors = node.querySelectorAll("a.carry-link");
+    carryAnchors.set(node, anchors);
+  }
+  anchors = anchors || [];
   if (anchors.length === 0 || anchors.length !== links.length) return false;
   if (links.some((link, i) => anchors[i].dataset.carryTo !== link.calculator)) return false;
   links.forEach((link, i) => {

@@ -1,7 +1,8 @@
 //! Fast edits: keystrokes are coalesced per animation frame and the page updates
 //! its parts in place; after a burst of edits the page shows exactly what the core
 //! computes for the final URL (headline values, every table cell, a diagram's
-//! restraint arrow), and the table and the diagram were updated, not rebuilt.
+//! restraint arrow), and the table and the diagram were updated, not rebuilt: the
+//! patched diagram's markup is exactly that of a page opened with the final link.
 
 use std::time::Duration;
 
@@ -32,6 +33,9 @@ const BURST: &str = r#"(async () => {
   }
   return 'typed';
 })()"#;
+
+/// The markup of the diagram's figure.
+const DIAGRAM_FIGURE: &str = "document.querySelector('svg.diagram').closest('figure').outerHTML";
 
 /// The leading number of a shown text ("1.234 kN" -> "1.234", "45°" -> "45"),
 /// empty for words.
@@ -175,6 +179,21 @@ fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
         .unwrap(),
         Value::from(vec![true, true]),
         "the diagram or the table was rebuilt for an edit that keeps its structure"
+    );
+    // Patched attribute by attribute, the drawing is exactly the one a page opened
+    // with the final link draws from scratch.
+    let patched = page.eval(&mut browser, DIAGRAM_FIGURE).unwrap();
+    let link = page.eval(&mut browser, "location.href").unwrap();
+    page.goto(&mut browser, link.as_str().unwrap_or_default()).unwrap();
+    assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
+    let drawn = page.eval(&mut browser, DIAGRAM_FIGURE).unwrap();
+    assert!(
+        patched.as_str().is_some_and(|s| s.contains("<svg")),
+        "no diagram figure: {patched}"
+    );
+    assert_eq!(
+        patched, drawn,
+        "the patched diagram differs from the one a page opened with the same link draws"
     );
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
