@@ -14,7 +14,7 @@
 //    in the HTML, and nothing should compete with it for the connection or the
 //    processor. A fallback timer covers a page that is never painted (a tab in the
 //    background).
-(function (doc, script, modules, wasm) {
+(function (doc, script, preloads, wasm) {
   var root = doc.documentElement;
   var query = location.search.length > 1;
   var started = false;
@@ -48,7 +48,7 @@
         window.fluxledgerModule.catch(function () {});
       }
     }
-    for (var i = 0; i < modules.length; i += 1) add("modulepreload", modules[i]);
+    for (var i = 0; i < preloads.length; i += 1) add("modulepreload", preloads[i]);
     var element = doc.createElement("script");
     element.type = "module";
     element.src = script;
@@ -78,4 +78,4 @@
     }
     setTimeout(start, 3000);
   }
-})(document, "__PAGE_SCRIPT__", "__MODULES__", "__WASM__");
+})(document, "__PAGE_SCRIPT__", "__PRELOADS__", "__WASM__");

@@ -59,7 +59,7 @@ pub const MARKER_FILE: &str = ".fluxledger-site";
 pub const QUERY_SCRIPT: &str = "query.js";
 /// Placeholders of `query.js`: the page script, the modules and glue to preload (a
 /// JSON array) and the wasm module.
-pub const HEAD_SCRIPT_PLACEHOLDERS: [&str; 3] = ["__PAGE_SCRIPT__", "__MODULES__", "__WASM__"];
+pub const HEAD_SCRIPT_PLACEHOLDERS: [&str; 3] = ["__PAGE_SCRIPT__", "__PRELOADS__", "__WASM__"];
 /// File name endings written precompressed (`.br`, `.gz`) beside the file.
 pub const COMPRESSED_EXTENSIONS: [&str; 7] = ["html", "js", "css", "wasm", "svg", "webmanifest", "json"];
 /// Most bytes a calculator page's HTML (its first response, which shows the demo
@@ -518,7 +518,7 @@ fn without_comments(css: &str) -> String {
 
 /// The inline head script of calculator pages: `query.js` without its comment
 /// lines and blank lines, its placeholders filled with the page script, the
-/// modules and glue to preload and the wasm module (JSON literals).
+/// scripts to preload with it (the wasm glue) and the wasm module (JSON literals).
 ///
 /// # Errors
 /// A placeholder missing from the source.
@@ -532,11 +532,11 @@ pub fn head_script(source: &str, script: &str, preloaded: &[String], wasm: &str)
         "[{}]",
         preloaded.iter().map(|n| json_string(n)).collect::<Vec<_>>().join(", ")
     );
-    let [page_script, modules, wasm_module] = HEAD_SCRIPT_PLACEHOLDERS;
+    let [page_script, preloads, wasm_module] = HEAD_SCRIPT_PLACEHOLDERS;
     let mut filled = code;
     for (token, literal) in [
         (page_script, json_string(script)),
-        (modules, list),
+        (preloads, list),
         (wasm_module, json_string(wasm)),
     ] {
         let quoted = format!("\"{token}\"");
@@ -889,16 +889,16 @@ mod tests {
 
     #[test]
     fn head_script_fills_every_placeholder_and_drops_comment_lines() {
-        let source = "// note\n(function (s, m, w) {\n  // inner\n  go(s, m, w);\n})(\"__PAGE_SCRIPT__\", \"__MODULES__\", \"__WASM__\");\n";
+        let source = "// note\n(function (s, m, w) {\n  // inner\n  go(s, m, w);\n})(\"__PAGE_SCRIPT__\", \"__PRELOADS__\", \"__WASM__\");\n";
         let filled = head_script(source, "app.1.js", &["a.2.js".into(), "g\"3.js".into()], "m.4.wasm").unwrap();
         assert_eq!(
             filled,
             "(function (s, m, w) {\n  go(s, m, w);\n})(\"app.1.js\", [\"a.2.js\", \"g\\\"3.js\"], \"m.4.wasm\");"
         );
         let missing = head_script("go(\"__PAGE_SCRIPT__\", \"__WASM__\")", "a", &[], "w");
-        assert!(missing.unwrap_err().contains("__MODULES__"));
+        assert!(missing.unwrap_err().contains("__PRELOADS__"));
         let closing = head_script(
-            "x(\"__PAGE_SCRIPT__\", \"__MODULES__\", \"__WASM__\")",
+            "x(\"__PAGE_SCRIPT__\", \"__PRELOADS__\", \"__WASM__\")",
             "</script>",
             &[],
             "w",

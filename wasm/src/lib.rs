@@ -4,14 +4,15 @@
 //! A key design decision: this crate holds no physics, no defaults and no unit
 //! tables. Every export is `from_value` → core call → JSON text; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
-//! natively. Every export that answers with a value answers with its JSON text,
+//! natively. Every export that answers with a value (every one in the list below)
+//! answers with its JSON text,
 //! written by [`json`] and read by the page with `JSON.parse` (one string crosses
 //! from wasm instead of every value one by one, and the module carries one
 //! serialiser: `serde-wasm-bindgen` only reads the arguments). The page script
 //! calls these functions:
 //!
 //! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
-//!   outputs, cautions) as a plain object; used by the contents page only.
+//!   outputs, cautions); used by the contents page only.
 //! - [`calculator`]`(key)` — the description of one calculator (its fields with
 //!   their units `{id, label}`, default unit per system and the chain of conditions
 //!   under which each is shown; outputs; cautions), with the version and the unit
@@ -38,9 +39,9 @@
 //!   spreadsheet would run as a formula neutralised (see [`csv`]).
 //!
 //! Values go out as JSON text through [`json`] (the same shapes `serde_json` would
-//! write: `None` is `null`, maps are plain objects). Measured on the shipped module
-//! (bend page, release, Brotli): dropping `serde-wasm-bindgen`'s serialiser for
-//! this writer took the figures in DEVELOPERS.md ("Module size").
+//! write: `None` is `null`, maps are plain objects). What dropping
+//! `serde-wasm-bindgen`'s serialiser saved is measured in DEVELOPERS.md ("Module
+//! size").
 
 pub mod compare;
 pub mod csv;

@@ -272,8 +272,15 @@ fn the_page_and_its_module_travel_compressed_and_are_requested_from_the_head() {
         .flatten()
         .filter_map(Value::as_str)
         .collect();
-    assert_eq!(modules.len(), 2, "the page script and the glue, nothing else: {modules:?}");
-    assert!(modules.contains(&entry.as_str()), "{modules:?} holds the page script {entry}");
+    assert_eq!(
+        modules.len(),
+        2,
+        "the page script and the glue, nothing else: {modules:?}"
+    );
+    assert!(
+        modules.contains(&entry.as_str()),
+        "{modules:?} holds the page script {entry}"
+    );
     let not_preloaded: Vec<&&str> = modules
         .iter()
         .filter(|m| !preloaded.contains(m) && **m != entry)
