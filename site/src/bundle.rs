@@ -44,12 +44,20 @@ struct Module {
 }
 
 /// The declaration keywords a top-level line may start with, and what follows them.
-const DECLARATIONS: [&str; 6] = ["async function ", "function ", "const ", "let ", "var ", "class "];
+const DECLARATIONS: [&str; 8] = [
+    "async function* ",
+    "async function ",
+    "function* ",
+    "function ",
+    "const ",
+    "let ",
+    "var ",
+    "class ",
+];
 
 /// The name declared by a line that starts with one of [`DECLARATIONS`].
 fn declared_name(line: &str) -> Option<&str> {
-    let rest = DECLARATIONS.iter().find_map(|k| line.strip_prefix(k))?;
-    let rest = rest.strip_prefix('*').unwrap_or(rest).trim_start();
+    let rest = DECLARATIONS.iter().find_map(|k| line.strip_prefix(k))?.trim_start();
     let end = rest
         .find(|c: char| !(c.is_alphanumeric() || c == '_' || c == '$'))
         .unwrap_or(rest.len());
@@ -254,13 +262,20 @@ mod tests {
 
     #[test]
     fn what_one_scope_cannot_hold_is_refused_by_name() {
-        let cases: [(&[(&str, &str)], &str); 7] = [
+        let cases: [(&[(&str, &str)], &str); 8] = [
             (
                 &[
                     ("main.js", "import { a } from \"./a.js\";\nfunction click() {}\n"),
                     ("a.js", "export const a = 1;\nfunction click() {}\n"),
                 ],
                 "`click`",
+            ),
+            (
+                &[
+                    ("main.js", "import \"./a.js\";\nfunction* rows() {}\n"),
+                    ("a.js", "let rows = [];\n"),
+                ],
+                "`rows`",
             ),
             (
                 &[

@@ -31,14 +31,32 @@ export function svg(tag, attrs, ...children) {
   return node;
 }
 
-function setAttrs(node, attrs) {
-  if (!attrs) return;
-  for (const [name, value] of Object.entries(attrs)) {
+/**
+ * The attributes `el`, `svg` and the plans of render-patch take, as an element gets
+ * them: `null`, `undefined` and `false` are left out, `true` is an empty value,
+ * `dataset` keys become `data-*` names (`tableIndex` → `data-table-index`, as the
+ * DOM maps them), everything else is text; `text` is the element's text.
+ * Returns `{names, text}`: attribute name → text, and the text or `undefined`.
+ */
+export function attributesOf(attrs) {
+  const names = {};
+  let text;
+  for (const [name, value] of Object.entries(attrs || {})) {
     if (value === null || value === undefined || value === false) continue;
-    if (name === "text") node.textContent = value;
-    else if (name === "dataset") Object.assign(node.dataset, value);
-    else node.setAttribute(name, value === true ? "" : String(value));
+    if (name === "text") text = String(value);
+    else if (name === "dataset") {
+      for (const [key, data] of Object.entries(value)) {
+        names["data-" + key.replace(/[A-Z]/g, (c) => "-" + c.toLowerCase())] = String(data);
+      }
+    } else names[name] = value === true ? "" : String(value);
   }
+  return { names, text };
+}
+
+function setAttrs(node, attrs) {
+  const { names, text } = attributesOf(attrs);
+  for (const name in names) node.setAttribute(name, names[name]);
+  if (text !== undefined) node.textContent = text;
 }
 
 /**

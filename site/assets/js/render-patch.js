@@ -8,27 +8,19 @@
 // made afresh; the rest keeps its elements. Afterwards the elements are exactly
 // what `create` would make of the new plan.
 
-import { SVG_NS } from "./dom.js";
+import { SVG_NS, attributesOf, setText } from "./dom.js";
 
 /** An element described as data: built by `htmlPlan` / `svgPlan`, made by `create`. */
 class Plan {
   constructor(namespace, tag, attrs, children) {
     this.namespace = namespace;
     this.tag = tag;
+    const { names, text } = attributesOf(attrs);
     /** Attribute name -> text, in the order they are set. */
-    this.attrs = {};
+    this.attrs = names;
     /** The element's text (a plan has text or children, not both). */
-    this.text = undefined;
+    this.text = text;
     this.children = [];
-    if (attrs) {
-      for (const [name, value] of Object.entries(attrs)) {
-        if (value === null || value === undefined || value === false) continue;
-        if (name === "text") this.text = String(value);
-        else if (name === "dataset") {
-          for (const [key, data] of Object.entries(value)) this.attrs[dataAttribute(key)] = String(data);
-        } else this.attrs[name] = value === true ? "" : String(value);
-      }
-    }
     this.append(...children);
   }
 
@@ -48,11 +40,6 @@ class Plan {
   get childElementCount() {
     return this.children.length;
   }
-}
-
-/** `dataset` key to attribute name, as the DOM maps them (`tableIndex` -> `data-table-index`). */
-function dataAttribute(key) {
-  return "data-" + key.replace(/[A-Z]/g, (c) => "-" + c.toLowerCase());
 }
 
 /** Plan of an HTML element (attributes as `el` in dom.js takes them). */
@@ -95,12 +82,7 @@ export function patch(node, before, after) {
     node.append(...after.children.map(create));
     return node;
   }
-  if (before.text !== after.text) {
-    const only = node.firstChild;
-    // A lone text node keeps its node: its data is rewritten.
-    if (only && only === node.lastChild && only.nodeType === Node.TEXT_NODE && after.text) only.data = after.text;
-    else node.textContent = after.text ?? "";
-  }
+  if (before.text !== after.text) setText(node, after.text);
   const kids = after.children;
   if (kids.length !== before.children.length) {
     node.replaceChildren(...kids.map(create));
