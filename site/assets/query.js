@@ -7,7 +7,8 @@
 //    makes the stylesheet hide the demo parts and show "computing…" until the page
 //    script has rendered the link's own result.
 // 2. It loads the page script (one file, its modules joined by the site tool).
-//    With a query, at once, with the wasm module and its glue requested together
+//    With a query, at once, with the page's own wasm module (filled in per page
+//    by the site tool) and the glue requested together
 //    (preloads, in that order), because the link's result waits for them. Without
 //    one, after the first contentful paint
 //    (paint timing; two frames where that is missing): the demo result is already

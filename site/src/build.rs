@@ -1,7 +1,10 @@
 //! Building the static site into a folder.
 //!
 //! The output is flat: pages, the hashed page script (its modules joined into one
-//! file, see [`crate::bundle`]), stylesheet, wasm glue and wasm module, the service worker, the manifest and the icons, all side by side so
+//! file, see [`crate::bundle`]), stylesheet, wasm glue and wasm modules (each
+//! calculator page its own, `fluxledger_<key>.<hash>.wasm`, with one glue shared by
+//! all of them; the verification page a module of every calculator with its own
+//! glue), the service worker, the manifest and the icons, all side by side so
 //! that every URL is relative and the service worker's scope (its own folder)
 //! covers everything. File names of the script, stylesheet, glue and module carry
 //! the first 8 hex digits of the SHA-256 of their content: a page can never load a
@@ -163,8 +166,10 @@ pub struct BuildReport {
     pub out: PathBuf,
     /// Every file, sorted by name.
     pub files: Vec<FileReport>,
-    /// Hashed names of the main assets.
-    pub wasm: String,
+    /// Hashed names of the main assets: each calculator page's module by page key,
+    /// the verification page's, and the glue of the calculator pages.
+    pub modules: BTreeMap<String, String>,
+    pub verify_module: String,
     pub glue: String,
     pub script: String,
     pub stylesheet: String,
@@ -580,15 +585,69 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     let assets = assets_dir(&site);
 
     wasm_build::ensure_wasm_target(opts.log)?;
-    let wasm_path = wasm_build::cargo_build_wasm(root, &opts.target_dir(), opts.log)?;
-    let wasm = wasm_build::bindgen(&wasm_path, opts.wasm_opt, opts.log)?;
+    let names: Vec<&str> = specs
+        .iter()
+        .map(|spec| spec.key)
+        .chain([wasm_build::VERIFY_MODULE])
+        .collect();
+    let module_paths = wasm_build::cargo_build_wasm(root, &opts.target_dir(), &names, opts.log)?;
+    let built = bindgen_all(&module_paths, opts.wasm_opt, opts.log)?;
 
     let mut files: BTreeMap<String, Vec<u8>> = BTreeMap::new();
 
-    let wasm_name = hashed_name("fluxledger_wasm", "wasm", &wasm.wasm);
-    let glue_source = Path::new("wasm-bindgen glue");
-    let glue_js = fill(&wasm.glue_js, wasm_build::GLUE_WASM_NAME, &wasm_name, glue_source)?;
+    // Every calculator page's module has the same exports, so the same glue; it is
+    // checked, then written once. Its default module (used only when the page
+    // script passes none) is the first page's.
+    let mut page_modules: BTreeMap<String, String> = BTreeMap::new();
+    let mut page_glue: Option<(String, String)> = None;
+    let mut verify = None;
+    let mut optimised = true;
+    for (name, output) in built {
+        optimised &= output.optimised;
+        let wasm_name = hashed_name(&format!("fluxledger_{name}"), "wasm", &output.wasm);
+        files.insert(wasm_name.clone(), output.wasm);
+        if name == wasm_build::VERIFY_MODULE {
+            let glue = fill(
+                &output.glue_js,
+                &output.glue_wasm_name,
+                &wasm_name,
+                Path::new("wasm-bindgen glue"),
+            )?;
+            verify = Some((wasm_name, glue));
+            continue;
+        }
+        let unnamed = output.glue_js.replace(&output.glue_wasm_name, "");
+        match &page_glue {
+            None => {
+                let glue = fill(
+                    &output.glue_js,
+                    &output.glue_wasm_name,
+                    &wasm_name,
+                    Path::new("wasm-bindgen glue"),
+                )?;
+                page_glue = Some((unnamed, glue));
+            }
+            Some((first, _)) if *first != unnamed => {
+                return Err(SiteErrorKind::Bindgen {
+                    detail: format!(
+                        "the module of page '{name}' has other exports than the first page's \
+                         (every calculator page shares one glue; see wasm/modules/)"
+                    ),
+                }
+                .into());
+            }
+            Some(_) => {}
+        }
+        page_modules.insert(name, wasm_name);
+    }
+    let (Some((_, glue_js)), Some((verify_wasm, verify_glue_js))) = (page_glue, verify) else {
+        return Err(SiteErrorKind::Bindgen {
+            detail: "the build has no calculator page module or no verification module".into(),
+        }
+        .into());
+    };
     let glue_name = hashed_name("fluxledger_wasm", "js", glue_js.as_bytes());
+    let verify_glue_name = hashed_name("fluxledger_verify", "js", verify_glue_js.as_bytes());
     let mut modules = sources.modules.clone();
     let glue_module = modules
         .iter()
@@ -621,14 +680,15 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     // first response, and linking saves the precache a copy of the rules per note.
     let screen_stylesheet = hashed_name("screen", "css", screen_rules.as_bytes());
     files.insert(screen_stylesheet.clone(), screen_rules.clone().into_bytes());
-    files.insert(wasm_name.clone(), wasm.wasm);
     files.insert(glue_name.clone(), glue_js.into_bytes());
+    files.insert(verify_glue_name.clone(), verify_glue_js.into_bytes());
     files.insert(script.clone(), app_js.into_bytes());
     files.insert(stylesheet.clone(), print_rules.into_bytes());
-    let inline_script = match &sources.query_js {
-        Some(text) => head_script(text, &script, std::slice::from_ref(&glue_name), &wasm_name)
-            .map_err(|message| SiteError::content(assets.join(QUERY_SCRIPT), message))?,
-        None => String::new(),
+    // Each calculator page's inline head script names its own module.
+    let head_script_of = |wasm: &str| match &sources.query_js {
+        Some(text) => head_script(text, &script, std::slice::from_ref(&glue_name), wasm)
+            .map_err(|message| SiteError::content(assets.join(QUERY_SCRIPT), message)),
+        None => Ok(String::new()),
     };
 
     files.insert("icon.svg".into(), icons::svg().into_bytes());
@@ -647,9 +707,9 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         screen_stylesheet,
         script: script.clone(),
         glue: glue_name.clone(),
-        wasm: wasm_name.clone(),
+        wasm: String::new(),
         inline_style: screen_rules,
-        head_script: inline_script,
+        head_script: String::new(),
         theme_colour: icons::theme_colour(),
         version: env!("CARGO_PKG_VERSION").to_string(),
     };
@@ -661,9 +721,15 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     for spec in &specs {
         let note = sources.notes.get(spec.key).map(String::as_str).unwrap_or("");
         let file = pages::page_file(spec.key);
+        let wasm = page_modules.get(spec.key).cloned().unwrap_or_default();
+        let own_assets = PageAssets {
+            head_script: head_script_of(&wasm)?,
+            wasm,
+            ..page_assets.clone()
+        };
         files.insert(
             file.clone(),
-            pages::calculator_page(spec, note, prerender::calculator_section(spec).as_deref(), &page_assets)
+            pages::calculator_page(spec, note, prerender::calculator_section(spec).as_deref(), &own_assets)
                 .into_bytes(),
         );
         calculator_pages.push(file);
@@ -671,7 +737,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
             files.insert(pages::method_file(spec.key), page.into_bytes());
         }
     }
-    crate::verify::add_page(&site, root, &glue_name, &page_assets, &mut files)?;
+    crate::verify::add_page(&site, root, &verify_glue_name, &page_assets, &mut files)?;
 
     // Cache version: a hash over every file's name and content.
     let mut all = Sha256::new();
@@ -717,10 +783,12 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         // Every module of the page script is loaded on every page; the first result
         // needs only the page (screen styles and head script inline).
         let first: Vec<String> = vec![page.clone()];
+        let key = page.strip_suffix(".html").unwrap_or(page);
         let names: Vec<String> = first
             .iter()
             .cloned()
-            .chain([script.clone(), glue_name.clone(), wasm_name.clone()])
+            .chain([script.clone(), glue_name.clone()])
+            .chain(page_modules.get(key).cloned())
             .collect();
         let counted: Vec<&FileReport> = reports.iter().filter(|r| names.contains(&r.name)).collect();
         let first_counted: Vec<&FileReport> = reports.iter().filter(|r| first.contains(&r.name)).collect();
@@ -746,17 +814,60 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     Ok(BuildReport {
         out: out.to_path_buf(),
         files: reports,
-        wasm: wasm_name,
+        modules: page_modules,
+        verify_module: verify_wasm,
         glue: glue_name,
         script,
         stylesheet,
         cache_version,
         calculator_pages,
-        wasm_optimised: wasm.optimised,
+        wasm_optimised: optimised,
         cold_load,
         precache_bytes,
         precache_extra_bytes,
     })
+}
+
+/// Runs wasm-bindgen on every compiled module, on as many threads as the machine
+/// has; the outputs in the order of `modules`.
+fn bindgen_all(
+    modules: &wasm_build::Modules,
+    use_wasm_opt: bool,
+    log: bool,
+) -> Result<Vec<(String, wasm_build::WasmOutput)>, SiteError> {
+    let threads = std::thread::available_parallelism()
+        .map(|n| n.get())
+        .unwrap_or(1)
+        .max(1);
+    let chunk = modules.len().div_ceil(threads).max(1);
+    let parts: Vec<Result<Vec<(String, wasm_build::WasmOutput)>, SiteError>> = std::thread::scope(|scope| {
+        let handles: Vec<_> = modules
+            .chunks(chunk)
+            .map(|part| {
+                scope.spawn(move || {
+                    part.iter()
+                        .map(|(name, path)| Ok((name.clone(), wasm_build::bindgen(path, use_wasm_opt, log)?)))
+                        .collect()
+                })
+            })
+            .collect();
+        handles
+            .into_iter()
+            .map(|handle| {
+                handle.join().unwrap_or_else(|_| {
+                    Err(SiteErrorKind::Bindgen {
+                        detail: "a wasm-bindgen thread panicked".into(),
+                    }
+                    .into())
+                })
+            })
+            .collect()
+    });
+    let mut all = Vec::with_capacity(modules.len());
+    for part in parts {
+        all.extend(part?);
+    }
+    Ok(all)
 }
 
 /// The `.br` and `.gz` bytes of every file of a compressed type, by file name,

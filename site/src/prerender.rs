@@ -199,7 +199,7 @@ pub fn calculator_section(spec: &CalculatorSpec) -> Option<String> {
     if !flag(&solved, "ok") {
         return None;
     }
-    let page_view = serde_json::to_value(view::page_view(spec.key)?).ok()?;
+    let page_view = serde_json::to_value(view::page_view(calculators::CALCULATORS, spec.key)?).ok()?;
     let calculator = page_view.get("calculator")?;
     let page = Page {
         page: &page_view,

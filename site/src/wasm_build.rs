@@ -3,7 +3,9 @@
 //! Steps: make sure the `wasm32-unknown-unknown` target is installed (a
 //! `rust-toolchain.toml` does not install it for an existing toolchain, so the tool
 //! adds it), run `cargo build --release --target wasm32-unknown-unknown -p
-//! fluxledger-wasm`, then run wasm-bindgen *in process* through
+//! fluxledger-wasm --examples`, which builds every module the site serves (one per
+//! calculator page, `module-<key>`, and the verification page's `module-verify`;
+//! see the wasm crate's docs), then run wasm-bindgen on each *in process* through
 //! `wasm-bindgen-cli-support`, pinned in the workspace to the same exact version as
 //! the `wasm-bindgen` crate so that `Cargo.lock` guarantees they match. `wasm-opt`
 //! runs only when asked (`--wasm-opt`) and found on `PATH`; it is never required
@@ -21,21 +23,29 @@ use crate::error::{SiteError, SiteErrorKind};
 
 /// The Rust target the adapter is compiled for.
 pub const WASM_TARGET: &str = "wasm32-unknown-unknown";
-/// The adapter crate's package name and its library's file stem.
+/// The adapter crate's package name.
 const WASM_PACKAGE: &str = "fluxledger-wasm";
-const WASM_LIB_STEM: &str = "fluxledger_wasm";
+/// The file stem every module is given before wasm-bindgen reads it.
+const SHARED_STEM: &str = "fluxledger_wasm";
+/// The module target of the verification page (every calculator).
+pub const VERIFY_MODULE: &str = "verify";
 
 /// The bindgen output, in memory.
 pub struct WasmOutput {
-    /// The `--target web` ES module glue (refers to the wasm by [`GLUE_WASM_NAME`]).
+    /// The `--target web` ES module glue (refers to the wasm by
+    /// [`WasmOutput::glue_wasm_name`]).
     pub glue_js: String,
     pub wasm: Vec<u8>,
     /// Whether `wasm-opt` ran on the module.
     pub optimised: bool,
+    /// The file name the glue uses for its module when called without one
+    /// (`<module file stem>_bg.wasm`).
+    pub glue_wasm_name: String,
 }
 
-/// The file name the generated glue uses for the wasm module.
-pub const GLUE_WASM_NAME: &str = "fluxledger_wasm_bg.wasm";
+/// The compiled modules: `(name, path)` with the name a calculator key or
+/// [`VERIFY_MODULE`].
+pub type Modules = Vec<(String, PathBuf)>;
 
 /// The cargo program to run: the one running us when we run under cargo.
 pub fn cargo_program() -> std::ffi::OsString {
@@ -80,25 +90,26 @@ pub fn ensure_wasm_target(log: bool) -> Result<(), SiteError> {
     Ok(())
 }
 
-/// Compiles the adapter in release for the wasm target and returns the `.wasm` path.
+/// Compiles the modules `names` (calculator keys and [`VERIFY_MODULE`]) in release
+/// for the wasm target, all in one cargo run, and returns their `.wasm` paths.
 ///
 /// With `log` the nested cargo prints its progress to stderr; without, its output
 /// is captured and shown only in the error.
-pub fn cargo_build_wasm(root: &Path, target_dir: &Path, log: bool) -> Result<PathBuf, SiteError> {
+pub fn cargo_build_wasm(root: &Path, target_dir: &Path, names: &[&str], log: bool) -> Result<Modules, SiteError> {
     let mut command = Command::new(cargo_program());
     command
         .current_dir(root)
         .arg("build")
         .arg("--release")
-        .args(["--target", WASM_TARGET, "-p", WASM_PACKAGE])
+        .args(["--target", WASM_TARGET, "-p", WASM_PACKAGE, "--examples"])
         .arg("--manifest-path")
         .arg(root.join("Cargo.toml"))
         .arg("--target-dir")
         .arg(target_dir)
         .stdin(Stdio::null());
-    let display = format!("cargo build --release --target {WASM_TARGET} -p {WASM_PACKAGE}");
+    let display = format!("cargo build --release --target {WASM_TARGET} -p {WASM_PACKAGE} --examples");
     if log {
-        eprintln!("building the wasm module ({display})");
+        eprintln!("building the wasm modules ({display})");
         let status = command
             .status()
             .map_err(|e| SiteError::command(&display, e.to_string()))?;
@@ -119,17 +130,37 @@ pub fn cargo_build_wasm(root: &Path, target_dir: &Path, log: bool) -> Result<Pat
             ));
         }
     }
-    let wasm = target_dir
-        .join(WASM_TARGET)
-        .join("release")
-        .join(format!("{WASM_LIB_STEM}.wasm"));
-    if !wasm.is_file() {
-        return Err(SiteError::command(
-            &display,
-            format!("finished but {} is not there", wasm.display()),
-        ));
-    }
-    Ok(wasm)
+    let folder = target_dir.join(WASM_TARGET).join("release").join("examples");
+    names
+        .iter()
+        .map(|name| {
+            let wasm = folder.join(format!("{}.wasm", module_stem(name)));
+            if wasm.is_file() {
+                // wasm-bindgen names the glue's import object after the file's stem,
+                // inside the module too: one stem for all (in a folder of each's own)
+                // lets every calculator page share one glue.
+                let dir = folder.join("site").join(name);
+                let shared = dir.join(format!("{SHARED_STEM}.wasm"));
+                std::fs::create_dir_all(&dir).map_err(|e| SiteError::io(&dir, e))?;
+                std::fs::copy(&wasm, &shared).map_err(|e| SiteError::io(&shared, e))?;
+                Ok((name.to_string(), shared))
+            } else {
+                Err(SiteError::command(
+                    &display,
+                    format!(
+                        "finished but {} is not there (is `module-{name}` an example target of {WASM_PACKAGE}?)",
+                        wasm.display()
+                    ),
+                ))
+            }
+        })
+        .collect()
+}
+
+/// The file stem cargo gives module `name`'s `.wasm` (the example target
+/// `module-<name>`, as a crate name: `module_tank_drain`).
+pub fn module_stem(name: &str) -> String {
+    format!("module_{}", name.replace('-', "_"))
 }
 
 /// Runs wasm-bindgen (`--target web`, no TypeScript) on the compiled module, then
@@ -158,6 +189,8 @@ pub fn bindgen(wasm_path: &Path, use_wasm_opt: bool, log: bool) -> Result<WasmOu
     }
     let glue_js = output.js().to_string();
     let wasm = output.wasm_mut().emit_wasm();
+    let stem = wasm_path.file_stem().and_then(|s| s.to_str()).unwrap_or_default();
+    let glue_wasm_name = format!("{stem}_bg.wasm");
     if use_wasm_opt {
         if let Some(program) = find_on_path("wasm-opt") {
             match wasm_opt(&program, &wasm, wasm_path) {
@@ -166,6 +199,7 @@ pub fn bindgen(wasm_path: &Path, use_wasm_opt: bool, log: bool) -> Result<WasmOu
                         glue_js,
                         wasm: optimised,
                         optimised: true,
+                        glue_wasm_name,
                     })
                 }
                 Err(e) => {
@@ -180,6 +214,7 @@ pub fn bindgen(wasm_path: &Path, use_wasm_opt: bool, log: bool) -> Result<WasmOu
         glue_js,
         wasm,
         optimised: false,
+        glue_wasm_name,
     })
 }
 
@@ -200,8 +235,9 @@ pub fn find_on_path(name: &str) -> Option<PathBuf> {
 
 fn wasm_opt(program: &Path, wasm: &[u8], near: &Path) -> Result<Vec<u8>, SiteError> {
     let dir = near.parent().unwrap_or(Path::new("."));
-    let input = dir.join(format!("{WASM_LIB_STEM}.site-bg.{}.wasm", std::process::id()));
-    let output = dir.join(format!("{WASM_LIB_STEM}.site-opt.{}.wasm", std::process::id()));
+    let stem = near.file_stem().and_then(|s| s.to_str()).unwrap_or("module");
+    let input = dir.join(format!("{stem}.site-bg.{}.wasm", std::process::id()));
+    let output = dir.join(format!("{stem}.site-opt.{}.wasm", std::process::id()));
     std::fs::write(&input, wasm).map_err(|e| SiteError::io(&input, e))?;
     let result = Command::new(program)
         .arg("-Os")

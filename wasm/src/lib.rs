@@ -11,8 +11,8 @@
 //! serialiser: `serde-wasm-bindgen` only reads the arguments). The page script
 //! calls these functions:
 //!
-//! - [`catalog`]`()` — the description of every calculator (fields, unit lists,
-//!   outputs, cautions); used by the contents page only.
+//! - [`catalog`]`()` — the description of every calculator the module serves
+//!   (fields, unit lists, outputs, cautions).
 //! - [`calculator`]`(key)` — the description of one calculator (its fields with
 //!   their units `{id, label}`, default unit per system and the chain of conditions
 //!   under which each is shown; outputs; cautions), with the version and the unit
@@ -38,6 +38,20 @@
 //! - [`table_csv`]`(headers, rows)` — the CSV text of a result table, every cell a
 //!   spreadsheet would run as a formula neutralised (see [`csv`]).
 //!
+//! # One module per page
+//! Every calculator page loads a module of its own that links only its calculator:
+//! on a phone's first visit with a link, the module is the longest download (issue
+//! 9: the module of every page was about 290 kB Brotli, the bend page's own is about
+//! 114 kB). The exports are therefore not written in this library but by each
+//! module's crate, through [`calculator_exports`] over the calculators it serves
+//! (a page's: [`page_module`], its one entry found at compile time by
+//! [`page`]; the verification page's: every calculator, with [`verify_exports`]).
+//! The functions here take those calculators as `served`. The modules are the
+//! example targets `module-<page key>` and `module-verify` (`wasm/modules/`),
+//! because Cargo builds examples as cdylibs, all in one
+//! `cargo build --examples`; this library itself is an rlib only. Every calculator
+//! page's module has the same exports, so one glue serves them all.
+//!
 //! Values go out as JSON text through [`json`] (the same shapes `serde_json` would
 //! write: `None` is `null`, maps are plain objects). What dropping
 //! `serde-wasm-bindgen`'s serialiser saved is measured in DEVELOPERS.md ("Module
@@ -56,7 +70,11 @@ use std::fmt::Display;
 use serde::Serialize;
 use wasm_bindgen::prelude::*;
 
+pub use wasm_bindgen;
+
 use fluxledger_core::calculators;
+/// What a module serves, and how a page's module finds its calculator.
+pub use fluxledger_core::calculators::{page, Calculator, CALCULATORS};
 use fluxledger_core::{Request, UnitSystem};
 
 /// Turns any adapter error into the exception thrown in JavaScript.
@@ -81,19 +99,17 @@ fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, Js
         .map_err(|e| adapter_error(&format!("`{name}` must be an object of strings keyed by field"), e))
 }
 
-/// The description of every calculator ([`view::CatalogView`]).
-#[wasm_bindgen]
-pub fn catalog() -> Result<String, JsError> {
-    to_json(&view::catalog_view())
+/// The description of every calculator `served` ([`view::CatalogView`]).
+pub fn catalog(served: &[Calculator]) -> Result<String, JsError> {
+    to_json(&view::catalog_view(served))
 }
 
 /// The description of calculator `key` ([`view::PageView`]).
 ///
 /// # Errors
 /// Throws for a key that is not a registered calculator.
-#[wasm_bindgen]
-pub fn calculator(key: &str) -> Result<String, JsError> {
-    let page = view::page_view(key).ok_or_else(|| adapter_error("unknown calculator", format!("'{key}'")))?;
+pub fn calculator(served: &[Calculator], key: &str) -> Result<String, JsError> {
+    let page = view::page_view(served, key).ok_or_else(|| adapter_error("unknown calculator", format!("'{key}'")))?;
     to_json(&page)
 }
 
@@ -102,21 +118,25 @@ pub fn calculator(key: &str) -> Result<String, JsError> {
 ///
 /// # Errors
 /// Throws only when `pairs` is not an array of two-string arrays.
-#[wasm_bindgen]
-pub fn upgrade_link(page: &str, pairs: JsValue) -> Result<String, JsError> {
+pub fn upgrade_link(served: &[Calculator], page: &str, pairs: JsValue) -> Result<String, JsError> {
     let pairs: Vec<(String, String)> = serde_wasm_bindgen::from_value(pairs)
         .map_err(|e| adapter_error("`pairs` must be an array of [key, value] strings", e))?;
-    to_json(&view::upgrade_view(page, &pairs))
+    to_json(&view::upgrade_view(served, page, &pairs))
 }
 
-/// Solves calculator `key` for what the user typed: the JSON text of the result
+/// Solves calculator `key` (one of those `served`) for what the user typed: the JSON text of the result
 /// ([`view::SolveView`], written by [`json::to_string`]).
 ///
 /// # Errors
 /// Throws only for a wrong call: `inputs` or `field_units` not an object of strings,
 /// or a `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
-#[wasm_bindgen]
-pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> Result<String, JsError> {
+pub fn solve(
+    served: &[Calculator],
+    key: &str,
+    inputs: JsValue,
+    field_units: JsValue,
+    system: &str,
+) -> Result<String, JsError> {
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     let request = Request {
@@ -124,8 +144,8 @@ pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> 
         field_units: string_map(field_units, "field_units")?,
         system,
     };
-    let outcome = fluxledger_core::solve(key, &request);
-    let spec = calculators::spec(key);
+    let outcome = calculators::solve_in(served, key, &request);
+    let spec = calculators::spec_in(served, key);
     to_json(&view::solve_view(&outcome, spec.as_ref()))
 }
 
@@ -135,11 +155,17 @@ pub fn solve(key: &str, inputs: JsValue, field_units: JsValue, system: &str) -> 
 /// # Errors
 /// Throws only for a `system` other than `"si"` or `"us"`; text that cannot be
 /// converted comes back as `{ok: false, message}`.
-#[wasm_bindgen]
-pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str) -> Result<String, JsError> {
+pub fn convert(
+    served: &[Calculator],
+    key: &str,
+    field: &str,
+    text: &str,
+    from_unit: &str,
+    system: &str,
+) -> Result<String, JsError> {
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
-    to_json(&view::convert_view(key, field, text, from_unit, system))
+    to_json(&view::convert_view(served, key, field, text, from_unit, system))
 }
 
 /// The CSV text of a table (`columns`: the headers, an array of strings, `rows`: an array of
@@ -148,7 +174,6 @@ pub fn convert(key: &str, field: &str, text: &str, from_unit: &str, system: &str
 ///
 /// # Errors
 /// Throws only when `columns` or `rows` are not arrays of strings.
-#[wasm_bindgen]
 pub fn table_csv(columns: JsValue, rows: JsValue) -> Result<String, JsError> {
     let columns: Vec<String> = serde_wasm_bindgen::from_value(columns)
         .map_err(|e| adapter_error("`columns` must be an array of strings", e))?;
@@ -162,7 +187,6 @@ pub fn table_csv(columns: JsValue, rows: JsValue) -> Result<String, JsError> {
 ///
 /// # Errors
 /// Throws only when the arguments are not arrays of strings.
-#[wasm_bindgen]
 pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Result<String, JsError> {
     let header: Vec<Vec<String>> = serde_wasm_bindgen::from_value(header)
         .map_err(|e| adapter_error("`header` must be an array of arrays of strings", e))?;
@@ -177,7 +201,6 @@ pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Res
 ///
 /// # Errors
 /// Throws only when the result cannot be converted.
-#[wasm_bindgen]
 pub fn qr_code(text: &str) -> Result<String, JsError> {
     to_json(&qr::qr_view(text))
 }
@@ -192,7 +215,6 @@ struct SheetFieldsView {
 ///
 /// # Errors
 /// Throws only when the result cannot be converted.
-#[wasm_bindgen]
 pub fn sheet_fields() -> Result<String, JsError> {
     to_json(&SheetFieldsView {
         fields: fluxledger_core::glossary::SHEET_KEYS.to_vec(),
@@ -205,7 +227,142 @@ pub fn sheet_fields() -> Result<String, JsError> {
 ///
 /// # Errors
 /// Throws only when the result cannot be converted.
-#[wasm_bindgen]
 pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<String, JsError> {
     to_json(&compare::difference_view(pinned_si, current_si, unit))
+}
+
+/// The exports of a calculator page's module, over the calculators it serves
+/// (`$served`, a `&'static [Calculator]`): `catalog`, `calculator`, `upgrade_link`,
+/// `solve`, `convert`, `table_csv`, `table_csv_traced`, `qr_code`, `sheet_fields`
+/// and `case_difference`, each the function of this crate of the same name.
+///
+/// The exports are written by the module's own crate (`wasm/modules/`), not here:
+/// a module then links only the calculators it names. Every module has the same
+/// exports, so wasm-bindgen writes the same glue for all of them (the site build
+/// checks that). The invoking crate needs `wasm-bindgen` among its dependencies.
+#[macro_export]
+macro_rules! calculator_exports {
+    ($served:expr) => {
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn catalog() -> Result<String, wasm_bindgen::JsError> {
+            $crate::catalog($served)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn calculator(key: &str) -> Result<String, wasm_bindgen::JsError> {
+            $crate::calculator($served, key)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn upgrade_link(page: &str, pairs: wasm_bindgen::JsValue) -> Result<String, wasm_bindgen::JsError> {
+            $crate::upgrade_link($served, page, pairs)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn solve(
+            key: &str,
+            inputs: wasm_bindgen::JsValue,
+            field_units: wasm_bindgen::JsValue,
+            system: &str,
+        ) -> Result<String, wasm_bindgen::JsError> {
+            $crate::solve($served, key, inputs, field_units, system)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn convert(
+            key: &str,
+            field: &str,
+            text: &str,
+            from_unit: &str,
+            system: &str,
+        ) -> Result<String, wasm_bindgen::JsError> {
+            $crate::convert($served, key, field, text, from_unit, system)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn table_csv(
+            columns: wasm_bindgen::JsValue,
+            rows: wasm_bindgen::JsValue,
+        ) -> Result<String, wasm_bindgen::JsError> {
+            $crate::table_csv(columns, rows)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn table_csv_traced(
+            header: wasm_bindgen::JsValue,
+            columns: wasm_bindgen::JsValue,
+            rows: wasm_bindgen::JsValue,
+        ) -> Result<String, wasm_bindgen::JsError> {
+            $crate::table_csv_traced(header, columns, rows)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn qr_code(text: &str) -> Result<String, wasm_bindgen::JsError> {
+            $crate::qr_code(text)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn sheet_fields() -> Result<String, wasm_bindgen::JsError> {
+            $crate::sheet_fields()
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<String, wasm_bindgen::JsError> {
+            $crate::case_difference(pinned_si, current_si, unit)
+        }
+    };
+}
+
+/// The module of one calculator page: [`calculator_exports`] over that page's
+/// calculator alone, found by its key at compile time ([`calculators::page`]).
+#[macro_export]
+macro_rules! page_module {
+    ($key:literal) => {
+        static SERVED: [$crate::Calculator; 1] = [$crate::page($key)];
+        $crate::calculator_exports!(&SERVED);
+    };
+}
+
+/// The export `verify_case` ([`verify::verify_case`]) of the verification page's
+/// module, which serves every calculator.
+#[macro_export]
+macro_rules! verify_exports {
+    () => {
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn verify_case(case: wasm_bindgen::JsValue) -> Result<String, wasm_bindgen::JsError> {
+            $crate::verify::verify_case(case)
+        }
+    };
+}
+
+#[cfg(test)]
+mod tests {
+    use super::CALCULATORS;
+
+    /// Every calculator page has its module target, and every module target serves
+    /// a registered page (or is the verification page's): the site build asks cargo
+    /// for `module-<key>` of each page.
+    #[test]
+    fn every_page_has_its_own_module_target() {
+        let manifest = include_str!("../Cargo.toml");
+        let targets: Vec<&str> = manifest
+            .lines()
+            .filter_map(|line| line.strip_prefix("name = \"module-")?.strip_suffix('"'))
+            .collect();
+        let mut expected: Vec<&str> = CALCULATORS.iter().map(|c| c.key).collect();
+        expected.push("verify");
+        let (mut found, mut wanted) = (targets.clone(), expected.clone());
+        found.sort_unstable();
+        wanted.sort_unstable();
+        assert_eq!(found, wanted, "module targets in wasm/Cargo.toml");
+        for key in CALCULATORS.iter().map(|c| c.key) {
+            let path = format!("{}/modules/{key}.rs", env!("CARGO_MANIFEST_DIR"));
+            let source = std::fs::read_to_string(&path).unwrap_or_else(|e| panic!("{path}: {e}"));
+            assert!(
+                source.contains(&format!("fluxledger_wasm::page_module!(\"{key}\");")),
+                "{path} does not build the module of page '{key}'"
+            );
+            assert!(manifest.contains(&format!("path = \"modules/{key}.rs\"")), "{key}");
+        }
+    }
 }

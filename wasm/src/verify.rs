@@ -171,12 +171,12 @@ pub fn verdict_view(verdict: &Verdict) -> VerdictView {
     }
 }
 
-/// Runs one embedded reference case and returns its verdict.
+/// Runs one embedded reference case and returns its verdict (the export
+/// `verify_case` of the verification page's module, see [`crate::verify_exports`]).
 ///
 /// # Errors
 /// Throws only when `case` does not have the embedded shape (a build fault, never
 /// user input).
-#[wasm_bindgen]
 pub fn verify_case(case: JsValue) -> Result<String, JsError> {
     let wire: CaseWire = serde_wasm_bindgen::from_value(case)
         .map_err(|e| adapter_error("the case does not have the embedded shape", e))?;

@@ -22,7 +22,7 @@
 
 use serde::Serialize;
 
-use fluxledger_core::calculators::{self, Outcome};
+use fluxledger_core::calculators::{self, Calculator, Outcome};
 use fluxledger_core::catalog::{
     self as core_catalog, CalculatorSpec, Diagram, FieldEcho, FieldKind, FieldSpec, OutputSpec, OutputValue, Plot,
     Shape, Solution, Table, Warning, COMMON_CAUTIONS,
@@ -143,9 +143,9 @@ pub struct OutputSpecView {
     pub headline: bool,
 }
 
-/// The catalog of every registered calculator.
-pub fn catalog_view() -> CatalogView {
-    catalog_view_of(&calculators::catalog())
+/// The catalog of the calculators `served`.
+pub fn catalog_view(served: &[Calculator]) -> CatalogView {
+    catalog_view_of(&calculators::catalog_in(served))
 }
 
 /// The catalog view of the given specs (separate from [`catalog_view`] so that it can
@@ -165,9 +165,9 @@ pub fn catalog_view_of(specs: &[CalculatorSpec]) -> CatalogView {
     }
 }
 
-/// The description of one page (`None` for a key that is not registered).
-pub fn page_view(key: &str) -> Option<PageView> {
-    let spec = calculators::spec(key)?;
+/// The description of one page (`None` for a key that is not among those `served`).
+pub fn page_view(served: &[Calculator], key: &str) -> Option<PageView> {
+    let spec = calculators::spec_in(served, key)?;
     let catalog = catalog_view_of(&[]);
     Some(PageView {
         version: catalog.version,
@@ -471,7 +471,7 @@ fn solved_view(echoes: Vec<EchoView>, solution: &Solution) -> SolvedView {
             .iter()
             .map(|c| CarryOverView {
                 calculator: c.calculator,
-                title: calculators::spec(c.calculator).map(|s| s.title).unwrap_or(""),
+                title: calculators::title(c.calculator).unwrap_or(""),
                 label: c.label.clone(),
                 inputs: c.inputs.iter().map(|(k, v)| (*k, v.clone())).collect(),
             })
@@ -511,8 +511,15 @@ fn refused(message: String) -> ConvertView {
 /// least four); the page script keeps the typed text and restores it when the system
 /// is switched back. The default unit of a system is the core's
 /// [`core_catalog::default_unit`], the one the page receives in `default_units`.
-pub fn convert_view(key: &str, field: &str, text: &str, from_unit: &str, system: UnitSystem) -> ConvertView {
-    let Some(spec) = calculators::spec(key) else {
+pub fn convert_view(
+    served: &[Calculator],
+    key: &str,
+    field: &str,
+    text: &str,
+    from_unit: &str,
+    system: UnitSystem,
+) -> ConvertView {
+    let Some(spec) = calculators::spec_in(served, key) else {
         return refused(SolveError::UnknownCalculator { key: key.to_string() }.to_string());
     };
     let Some(field_spec) = spec.fields.iter().find(|f| f.key == field) else {
@@ -635,8 +642,8 @@ pub fn split_label(label: &str) -> (String, String) {
 /// pass unchanged, so a key still in use is never mistranslated. The
 /// unit system's key `units=` is read as `system=` (unless the link gives both) and
 /// reported the same way.
-pub fn upgrade_view(page: &str, pairs: &[(String, String)]) -> UpgradeView {
-    let spec = calculators::spec(page);
+pub fn upgrade_view(served: &[Calculator], page: &str, pairs: &[(String, String)]) -> UpgradeView {
+    let spec = calculators::spec_in(served, page);
     // A key the page has is never renamed; its value only when the glossary renames
     // that value and the page no longer offers it.
     let understood = |key: &str, value: &str| {
@@ -863,7 +870,7 @@ mod tests {
 
     #[test]
     fn registered_catalog_matches_the_core_list() {
-        let view = catalog_view();
+        let view = catalog_view(calculators::CALCULATORS);
         let keys: Vec<&str> = view.calculators.iter().map(|c| c.key).collect();
         let expected: Vec<&str> = calculators::CALCULATORS.iter().map(|c| c.key).collect();
         assert_eq!(keys, expected);
@@ -1219,7 +1226,7 @@ mod tests {
             ),
         ];
         for (key, field, text, from, system, number, unit) in cases {
-            let view = to_json(&convert_view(key, field, text, from, *system));
+            let view = to_json(&convert_view(calculators::CALCULATORS, key, field, text, from, *system));
             assert_eq!(
                 view,
                 json!({"ok": true, "number": number, "unit": unit}),
@@ -1245,7 +1252,7 @@ mod tests {
                         UnitSystem::Si => field.us_unit,
                         UnitSystem::UsCustomary => field.si_unit,
                     };
-                    let view = convert_view(spec.key, field.key, field.demo, own, system);
+                    let view = convert_view(calculators::CALCULATORS, spec.key, field.key, field.demo, own, system);
                     let ConvertView::Converted { number, .. } = &view else {
                         panic!(
                             "{}/{}: demo {} not converted: {view:?}",
@@ -1288,11 +1295,25 @@ mod tests {
             ("bend", "p", "ten"),
             ("bend", "p", "5 m"),
         ] {
-            let view = to_json(&convert_view(key, field, text, "bar", UnitSystem::UsCustomary));
+            let view = to_json(&convert_view(
+                calculators::CALCULATORS,
+                key,
+                field,
+                text,
+                "bar",
+                UnitSystem::UsCustomary,
+            ));
             assert_eq!(view["ok"], json!(false), "{key}/{field}/{text}: {view}");
             assert!(view["message"].as_str().is_some_and(|m| !m.is_empty()), "{view}");
         }
-        let view = to_json(&convert_view("bend", "p", "ten", "bar", UnitSystem::UsCustomary));
+        let view = to_json(&convert_view(
+            calculators::CALCULATORS,
+            "bend",
+            "p",
+            "ten",
+            "bar",
+            UnitSystem::UsCustomary,
+        ));
         assert!(view["message"].as_str().is_some_and(|m| m.contains("ten")), "{view}");
     }
 
@@ -1376,12 +1397,12 @@ mod tests {
                 _ => None,
             });
             let value = option.or(alias.values.first().map(|(old, _)| *old)).unwrap_or("1");
-            let up = upgrade_view(alias.page, &link(&[(alias.old, value)]));
+            let up = upgrade_view(calculators::CALCULATORS, alias.page, &link(&[(alias.old, value)]));
             if spec.field(alias.old).is_some() {
                 assert_eq!(up.pairs, link(&[(alias.old, value)]), "{}: {}", alias.page, alias.old);
                 assert!(up.translations.is_empty());
                 // A field left blank in a link is still this page's field.
-                let blank = upgrade_view(alias.page, &link(&[(alias.old, "")]));
+                let blank = upgrade_view(calculators::CALCULATORS, alias.page, &link(&[(alias.old, "")]));
                 assert_eq!(blank.pairs, link(&[(alias.old, "")]), "{}: {}", alias.page, alias.old);
             } else {
                 let core = glossary::upgrade(alias.page, &link(&[(alias.old, value)]));
@@ -1389,21 +1410,29 @@ mod tests {
                 assert_eq!(up.translations.len(), 1);
             }
         }
-        let up = upgrade_view("bend", &link(&[("units", "us"), ("angle", "45deg")]));
+        let up = upgrade_view(
+            calculators::CALCULATORS,
+            "bend",
+            &link(&[("units", "us"), ("angle", "45deg")]),
+        );
         assert_eq!(up.pairs, link(&[("system", "us"), ("angle", "45deg")]));
         assert_eq!(up.translations, ["units=us → system=us"]);
-        let both = upgrade_view("bend", &link(&[("units", "us"), ("system", "si")]));
+        let both = upgrade_view(
+            calculators::CALCULATORS,
+            "bend",
+            &link(&[("units", "us"), ("system", "si")]),
+        );
         assert_eq!(both.pairs, link(&[("system", "si")]));
         assert!(both.translations.is_empty());
-        let unknown = upgrade_view("bend", &link(&[("zzz", "1")]));
+        let unknown = upgrade_view(calculators::CALCULATORS, "bend", &link(&[("zzz", "1")]));
         assert_eq!(unknown.pairs, link(&[("zzz", "1")]));
         assert!(unknown.translations.is_empty());
     }
 
     #[test]
     fn page_view_describes_one_calculator_and_refuses_unknown_keys() {
-        let page = page_view("bend").map(|p| p.calculator.key);
+        let page = page_view(calculators::CALCULATORS, "bend").map(|p| p.calculator.key);
         assert_eq!(page, Some("bend"));
-        assert!(page_view("no-such-page").is_none());
+        assert!(page_view(calculators::CALCULATORS, "no-such-page").is_none());
     }
 }

@@ -49,6 +49,8 @@ use uom::si::f64::{Length, Pressure};
 use super::common::{self, choice, quantity, MAX_PRESSURE_PA, MAX_SIZE_M, MIN_SIZE_M};
 
 pub const KEY: &str = "dead-end";
+/// The page title.
+pub const TITLE: &str = "Thrust at a dead end, cap or closed valve";
 
 const CLOSURE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -120,7 +122,7 @@ pub fn spec() -> CalculatorSpec {
     ];
     CalculatorSpec {
         key: KEY,
-        title: "Thrust at a dead end, cap or closed valve",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust p·A on a cap, blind flange, plug or closed valve, on the inside or outside diameter.",
         fields,

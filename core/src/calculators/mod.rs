@@ -4,6 +4,12 @@
 //!
 //! A calculator is registered once in [`CALCULATORS`]; the catalog, the pages, the
 //! wasm adapter and the reference tests all read that one list.
+//!
+//! A build may serve fewer: the functions ending in `_in` take the calculators
+//! to serve (a slice of that list, or one page's entry from [`page`]), so that a
+//! page's own wasm module links that page's code and no other. Titles stay
+//! available for every page ([`title`]: text only, no code), for the links from one
+//! result to the next page.
 
 use crate::catalog::{self, CalculatorSpec, FieldEcho, Report, Request, Solution, Values};
 use crate::error::{FieldError, SolveError};
@@ -27,8 +33,11 @@ pub mod thrust_block;
 pub mod vane;
 
 /// One registered calculator.
+#[derive(Clone, Copy)]
 pub struct Calculator {
     pub key: &'static str,
+    /// The page title (the spec's title, also kept here for [`title`]).
+    pub title: &'static str,
     /// Builds the description (fields, outputs, cautions).
     pub spec: fn() -> CalculatorSpec,
     /// Computes from validated values, writing outputs, tables, diagrams, plots and
@@ -71,35 +80,104 @@ where
     Ok(())
 }
 
+/// The entry of the calculator module `$page` (its `KEY`, `TITLE`, `spec` and
+/// `compute`).
+macro_rules! registered {
+    ($page:ident) => {
+        Calculator {
+            key: $page::KEY,
+            title: $page::TITLE,
+            spec: $page::spec,
+            compute: $page::compute,
+        }
+    };
+}
+
 /// Every calculator, in contents order.
-#[rustfmt::skip]
 pub const CALCULATORS: &[Calculator] = &[
-    Calculator { key: bend::KEY, spec: bend::spec, compute: bend::compute },
-    Calculator { key: reducer::KEY, spec: reducer::spec, compute: reducer::compute },
-    Calculator { key: dead_end::KEY, spec: dead_end::spec, compute: dead_end::compute },
-    Calculator { key: tee::KEY, spec: tee::spec, compute: tee::compute },
-    Calculator { key: anchor::KEY, spec: anchor::spec, compute: anchor::compute },
-    Calculator { key: nozzle::KEY, spec: nozzle::spec, compute: nozzle::compute },
-    Calculator { key: thrust_block::KEY, spec: thrust_block::spec, compute: thrust_block::compute },
-    Calculator { key: restrained_length::KEY, spec: restrained_length::spec, compute: restrained_length::compute },
-    Calculator { key: surge::KEY, spec: surge::spec, compute: surge::compute },
-    Calculator { key: line_schedule::KEY, spec: line_schedule::spec, compute: line_schedule::compute },
-    Calculator { key: jet_plate::KEY, spec: jet_plate::spec, compute: jet_plate::compute },
-    Calculator { key: vane::KEY, spec: vane::spec, compute: vane::compute },
-    Calculator { key: reaction_arm::KEY, spec: reaction_arm::spec, compute: reaction_arm::compute },
-    Calculator { key: runner::KEY, spec: runner::spec, compute: runner::compute },
-    Calculator { key: tank_drain::KEY, spec: tank_drain::spec, compute: tank_drain::compute },
-    Calculator { key: profile::KEY, spec: profile::spec, compute: profile::compute },
+    registered!(bend),
+    registered!(reducer),
+    registered!(dead_end),
+    registered!(tee),
+    registered!(anchor),
+    registered!(nozzle),
+    registered!(thrust_block),
+    registered!(restrained_length),
+    registered!(surge),
+    registered!(line_schedule),
+    registered!(jet_plate),
+    registered!(vane),
+    registered!(reaction_arm),
+    registered!(runner),
+    registered!(tank_drain),
+    registered!(profile),
 ];
+
+/// Every calculator's key and title, in contents order: text only, so a build
+/// serving one page can still name the others (evaluated at compile time, it holds
+/// no reference to their code).
+pub const TITLES: [(&str, &str); CALCULATORS.len()] = {
+    let mut titles = [("", ""); CALCULATORS.len()];
+    let mut index = 0;
+    while index < CALCULATORS.len() {
+        titles[index] = (CALCULATORS[index].key, CALCULATORS[index].title);
+        index += 1;
+    }
+    titles
+};
+
+/// The title of calculator `key`, registered or not in the build's own list.
+pub fn title(key: &str) -> Option<&'static str> {
+    TITLES.iter().find(|(k, _)| *k == key).map(|(_, title)| *title)
+}
+
+/// The registered calculator `key`, looked up at compile time: a page's own module
+/// writes `static PAGE: [Calculator; 1] = [page("bend")];` and links that page's
+/// code only. A key that is not registered stops the build.
+pub const fn page(key: &str) -> Calculator {
+    let mut index = 0;
+    while index < CALCULATORS.len() {
+        if same_text(CALCULATORS[index].key, key) {
+            return CALCULATORS[index];
+        }
+        index += 1;
+    }
+    panic!("no calculator is registered under this key")
+}
+
+const fn same_text(a: &str, b: &str) -> bool {
+    let (a, b) = (a.as_bytes(), b.as_bytes());
+    if a.len() != b.len() {
+        return false;
+    }
+    let mut index = 0;
+    while index < a.len() {
+        if a[index] != b[index] {
+            return false;
+        }
+        index += 1;
+    }
+    true
+}
 
 /// The descriptions of all calculators.
 pub fn catalog() -> Vec<CalculatorSpec> {
-    CALCULATORS.iter().map(|c| (c.spec)()).collect()
+    catalog_in(CALCULATORS)
+}
+
+/// The descriptions of the calculators `served`.
+pub fn catalog_in(served: &[Calculator]) -> Vec<CalculatorSpec> {
+    served.iter().map(|c| (c.spec)()).collect()
 }
 
 /// The description of one calculator.
 pub fn spec(key: &str) -> Option<CalculatorSpec> {
-    CALCULATORS.iter().find(|c| c.key == key).map(|c| (c.spec)())
+    spec_in(CALCULATORS, key)
+}
+
+/// The description of calculator `key` among those `served`.
+pub fn spec_in(served: &[Calculator], key: &str) -> Option<CalculatorSpec> {
+    served.iter().find(|c| c.key == key).map(|c| (c.spec)())
 }
 
 /// What solving returns: how each field was read (even when some are invalid), and
@@ -116,7 +194,13 @@ pub struct Outcome {
 /// [`SolveError::UnknownCalculator`] for an unknown key; [`SolveError::Fields`] with
 /// every invalid field, each naming the field, what is wrong and the valid range.
 pub fn solve(key: &str, request: &Request) -> Outcome {
-    let Some(calculator) = CALCULATORS.iter().find(|c| c.key == key) else {
+    solve_in(CALCULATORS, key, request)
+}
+
+/// [`solve`] among the calculators `served`: a key not among them is
+/// [`SolveError::UnknownCalculator`].
+pub fn solve_in(served: &[Calculator], key: &str, request: &Request) -> Outcome {
+    let Some(calculator) = served.iter().find(|c| c.key == key) else {
         return Outcome {
             echoes: Vec::new(),
             result: Err(SolveError::UnknownCalculator { key: key.to_string() }),
@@ -254,5 +338,40 @@ pub(crate) mod testing {
                 );
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn every_page_is_found_by_its_key_with_its_spec_title() {
+        for calculator in CALCULATORS {
+            let found = page(calculator.key);
+            assert_eq!(found.key, calculator.key);
+            assert_eq!((found.spec)().key, calculator.key);
+            assert_eq!((found.spec)().title, calculator.title, "{}", calculator.key);
+            assert_eq!(title(calculator.key), Some(calculator.title));
+        }
+        assert_eq!(title("no-such-page"), None);
+        assert_eq!(TITLES.len(), CALCULATORS.len());
+    }
+
+    #[test]
+    fn a_page_served_alone_solves_its_own_key_and_refuses_the_others() {
+        static BEND_ONLY: [Calculator; 1] = [page("bend")];
+        let request = catalog::demo_request(&bend::spec(), &[]);
+        let alone = solve_in(&BEND_ONLY, "bend", &request);
+        assert_eq!(alone, solve("bend", &request));
+        assert!(alone.result.is_ok());
+        let tee = catalog::demo_request(&tee::spec(), &[]);
+        assert!(matches!(
+            solve_in(&BEND_ONLY, tee::KEY, &tee).result,
+            Err(SolveError::UnknownCalculator { ref key }) if key == tee::KEY
+        ));
+        assert!(solve(tee::KEY, &tee).result.is_ok());
+        assert!(spec_in(&BEND_ONLY, tee::KEY).is_none());
+        assert_eq!(catalog_in(&BEND_ONLY).len(), 1);
     }
 }

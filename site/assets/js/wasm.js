@@ -22,7 +22,11 @@ export async function loadGlue() {
       compiled = null;
     }
   }
-  await module.default(compiled instanceof WebAssembly.Module ? { module_or_path: compiled } : undefined);
+  // Every page has a module of its own (one glue serves them all): without a
+  // compiled one, the glue fetches the module the page preloads.
+  const preload = document.querySelector('link[rel="preload"][href$=".wasm"]');
+  const own = compiled instanceof WebAssembly.Module ? compiled : preload ? preload.href : undefined;
+  await module.default(own === undefined ? undefined : { module_or_path: own });
   glue = module;
 }
 

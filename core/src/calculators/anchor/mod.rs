@@ -74,6 +74,8 @@ pub mod model;
 pub mod report;
 
 pub const KEY: &str = "pipe-anchor";
+/// The page title.
+pub const TITLE: &str = "Anchor loads where plant pipe runs meet";
 
 /// The most runs that may meet at one anchor.
 pub const MAX_RUNS: usize = 4;
@@ -346,7 +348,7 @@ pub fn spec() -> CalculatorSpec {
     }
     CalculatorSpec {
         key: KEY,
-        title: "Anchor loads where plant pipe runs meet",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "Force and moment on an above-ground anchor from up to four pipe runs: pressure and flow, \
             expansion joints, closed ends, guide friction and weight.",

@@ -77,6 +77,8 @@ pub mod model;
 pub mod report;
 
 pub const KEY: &str = "bend";
+/// The page title.
+pub const TITLE: &str = "Anchor force at a pipe bend";
 
 const PLANE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -240,7 +242,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Anchor force at a pipe bend",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust on a horizontal or vertical bend, equal or reducing, from pressure, flow and fluid weight.",
         fields,

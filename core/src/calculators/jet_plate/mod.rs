@@ -59,6 +59,8 @@ mod report;
 use model::Inputs;
 
 pub const KEY: &str = "jet-plate";
+/// The page title.
+pub const TITLE: &str = "Force of a water jet on a flat plate";
 
 /// The smallest plate angle accepted: below about 1° the jet grazes the plate.
 const MIN_ANGLE: f64 = PI / 180.0;
@@ -81,7 +83,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Force of a water jet on a flat plate",
+        title: TITLE,
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary: "Force of a free jet on a fixed normal or inclined plate, and how the flow splits along the plate.",
         fields,

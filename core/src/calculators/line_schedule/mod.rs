@@ -87,6 +87,8 @@ pub mod rows;
 pub use rows::{parse, Row, RowKind, Turn};
 
 pub const KEY: &str = "line-schedule";
+/// The page title.
+pub const TITLE: &str = "Thrust blocks for every fitting along a line";
 
 /// The most rows a schedule may have.
 pub const MAX_ROWS: usize = 2000;
@@ -322,7 +324,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(super::restrained_length::schedule::fields());
     CalculatorSpec {
         key: KEY,
-        title: "Thrust blocks for every fitting along a line",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary:
             "Paste the fittings of a line, one per row, and get each thrust, its direction and the block it needs, \

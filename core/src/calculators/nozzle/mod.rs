@@ -78,6 +78,8 @@ mod report;
 use model::{Given, Inputs};
 
 pub const KEY: &str = "nozzle";
+/// The page title.
+pub const TITLE: &str = "End force and jet reaction at a flanged nozzle";
 
 pub(crate) const GIVEN_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -193,7 +195,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::profile_fields(&common::INLET_PROFILE));
     CalculatorSpec {
         key: KEY,
-        title: "End force and jet reaction at a flanged nozzle",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "End force on the flange joint, jet reaction and discharge of a nozzle, from the energy and momentum \
                 balances with nozzle coefficients.",

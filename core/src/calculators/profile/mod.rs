@@ -53,6 +53,8 @@ pub mod model;
 mod report;
 
 pub const KEY: &str = "profile";
+/// The page title.
+pub const TITLE: &str = "Flow and momentum factors from a velocity traverse";
 
 const SHAPES: &[ChoiceOption] = &[
     ChoiceOption {
@@ -108,7 +110,7 @@ const N_POWER_HELP: &str = "About 6 to 10 for turbulent pipe flow; 7 is the usua
 pub fn spec() -> CalculatorSpec {
     CalculatorSpec {
         key: KEY,
-        title: "Flow and momentum factors from a velocity traverse",
+        title: TITLE,
         group: crate::catalog::group::FLOW_AND_TANKS,
         summary: SUMMARY,
         fields: vec![

@@ -78,6 +78,8 @@ pub mod model;
 mod report;
 
 pub const KEY: &str = "reaction-arm";
+/// The page title.
+pub const TITLE: &str = "Spinning sprinkler speed and torque";
 
 /// The most nozzles an arm may have.
 const MAX_NOZZLES: f64 = 72.0;
@@ -351,7 +353,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Spinning sprinkler speed and torque",
+        title: TITLE,
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary: SUMMARY,
         fields,

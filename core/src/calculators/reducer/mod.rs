@@ -76,6 +76,8 @@ pub mod report;
 pub use model::{read, solve, Inputs, Solved};
 
 pub const KEY: &str = "reducer";
+/// The page title.
+pub const TITLE: &str = "Thrust at a reducer or expander";
 
 pub(crate) const LOSS_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -261,7 +263,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Thrust at a reducer or expander",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "Axial thrust on a concentric reducer or expander, with the outlet pressure from the energy balance \
                 and the fitting's loss.",

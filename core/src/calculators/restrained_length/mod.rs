@@ -56,6 +56,8 @@ pub mod report;
 pub mod schedule;
 
 pub const KEY: &str = "restrained-length";
+/// The page title.
+pub const TITLE: &str = "Restrained-joint length at bends, tees, reducers and dead ends";
 
 /// The fittings this page restrains (keys of the restraint model's fittings).
 const FITTING_OPTIONS: &[ChoiceOption] = &[
@@ -361,7 +363,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Restrained-joint length at bends, tees, reducers and dead ends",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "How far each side of a buried fitting the joints must be restrained so that soil friction and \
                 bearing carry the thrust: the ductile-iron pipe industry's method, and the same equations with \

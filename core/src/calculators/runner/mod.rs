@@ -86,6 +86,8 @@ pub mod pump;
 mod report;
 
 pub const KEY: &str = "runner";
+/// The page title.
+pub const TITLE: &str = "Turbine or pump runner: head, torque and power from blade angles";
 
 /// Incidence beyond which a warning is given (common practice, no source: a few
 /// degrees of incidence already cost measurable shock loss).
@@ -348,7 +350,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("25 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Turbine or pump runner: head, torque and power from blade angles",
+        title: TITLE,
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary: SUMMARY,
         fields,

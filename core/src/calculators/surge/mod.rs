@@ -82,7 +82,7 @@ const OD_HELP: &str = "Outside diameter of the pipe (the thrust area for push-on
 const MATERIAL_HELP: &str = "Sets Young's modulus E and Poisson's ratio ν of the wall; by default the material of \
     the size preset. Not used when the wave speed is typed.";
 const P_HELP: &str = "The steady pressure at the valve before it closes.";
-const TITLE: &str = "Surge at a closing valve and the load between elbows";
+pub const TITLE: &str = "Surge at a closing valve and the load between elbows";
 const SUMMARY: &str = "Joukowsky or slow-closure surge from the closure time and 2L/a, the design pressure and \
     thrust at the closing valve, and the water-hammer force, duration and impulse on a run between elbows.";
 const THRUST_LABEL: &str = "Total thrust at the valve or dead end (p + Δp)·A";

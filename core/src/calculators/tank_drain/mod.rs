@@ -124,6 +124,8 @@ mod report;
 pub mod run;
 
 pub const KEY: &str = "tank-drain";
+/// The page title.
+pub const TITLE: &str = "Vessel filling and draining";
 
 /// Largest orifice diameter as a share of the diameter of the vessel's smallest
 /// cross-section (by area).
@@ -546,7 +548,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Vessel filling and draining",
+        title: TITLE,
         group: crate::catalog::group::FLOW_AND_TANKS,
         summary: SUMMARY,
         fields,

@@ -136,6 +136,8 @@ const P_KNOWN_OPTIONS: &[ChoiceOption] = &[
 ];
 
 pub const KEY: &str = "tee";
+/// The page title.
+pub const TITLE: &str = "Thrust at a tee, wye or manifold";
 
 /// The most branches a junction may have.
 pub const MAX_BRANCHES: usize = 6;
@@ -676,7 +678,7 @@ pub fn spec() -> CalculatorSpec {
     ]);
     CalculatorSpec {
         key: KEY,
-        title: "Thrust at a tee, wye or manifold",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust on a tee, wye, splitter or manifold with up to six branches at any angles, dividing or \
                 combining, with one unknown branch flow solved by mass.",

@@ -118,6 +118,8 @@ pub mod report;
 pub use diagram::diagram;
 
 pub const KEY: &str = "thrust-block";
+/// The page title.
+pub const TITLE: &str = "Thrust block size for a buried fitting";
 
 // The restraint model shared with the line schedule lives in `crate::restraint`;
 // other pages and tests use it from there.
@@ -526,7 +528,7 @@ pub fn spec() -> CalculatorSpec {
     // The fluid fields' viscosity is not used here; keep the water temperature for density.
     CalculatorSpec {
         key: KEY,
-        title: "Thrust block size for a buried fitting",
+        title: TITLE,
         group: crate::catalog::group::FITTINGS,
         summary: "Thrust of a bend, dead end, tee or reducer at the design pressure (test and surge included), \
                 and the bearing or gravity block that carries it.",

@@ -79,6 +79,8 @@ mod report;
 use model::{Inputs, VaneKind, Wheel};
 
 pub const KEY: &str = "vane";
+/// The page title.
+pub const TITLE: &str = "Impulse-wheel bucket load and best running speed";
 
 const VANE_OPTIONS: &[ChoiceOption] = &[
     ChoiceOption {
@@ -193,7 +195,7 @@ pub fn spec() -> CalculatorSpec {
     fields.extend(common::fluid_fields("15 degC"));
     CalculatorSpec {
         key: KEY,
-        title: "Impulse-wheel bucket load and best running speed",
+        title: TITLE,
         group: crate::catalog::group::JETS_AND_ROTORS,
         summary:
             "Force, power and efficiency of a jet on a fixed vane, a single moving vane or a wheel of vanes, with \
