@@ -606,27 +606,19 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         optimised &= output.optimised;
         let wasm_name = hashed_name(&format!("fluxledger_{name}"), "wasm", &output.wasm);
         files.insert(wasm_name.clone(), output.wasm);
+        let glue = fill(
+            &output.glue_js,
+            &output.glue_wasm_name,
+            &wasm_name,
+            Path::new("wasm-bindgen glue"),
+        )?;
         if name == wasm_build::VERIFY_MODULE {
-            let glue = fill(
-                &output.glue_js,
-                &output.glue_wasm_name,
-                &wasm_name,
-                Path::new("wasm-bindgen glue"),
-            )?;
             verify = Some((wasm_name, glue));
             continue;
         }
         let unnamed = output.glue_js.replace(&output.glue_wasm_name, "");
         match &page_glue {
-            None => {
-                let glue = fill(
-                    &output.glue_js,
-                    &output.glue_wasm_name,
-                    &wasm_name,
-                    Path::new("wasm-bindgen glue"),
-                )?;
-                page_glue = Some((unnamed, glue));
-            }
+            None => page_glue = Some((unnamed, glue)),
             Some((first, _)) if *first != unnamed => {
                 return Err(SiteErrorKind::Bindgen {
                     detail: format!(

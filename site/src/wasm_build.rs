@@ -159,7 +159,7 @@ pub fn cargo_build_wasm(root: &Path, target_dir: &Path, names: &[&str], log: boo
 
 /// The file stem cargo gives module `name`'s `.wasm` (the example target
 /// `module-<name>`, as a crate name: `module_tank_drain`).
-pub fn module_stem(name: &str) -> String {
+fn module_stem(name: &str) -> String {
     format!("module_{}", name.replace('-', "_"))
 }
 

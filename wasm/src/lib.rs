@@ -314,11 +314,16 @@ macro_rules! calculator_exports {
 }
 
 /// The module of one calculator page: [`calculator_exports`] over that page's
-/// calculator alone, found by its key at compile time ([`calculators::page`]).
+/// calculator alone, found by its key at compile time ([`calculators::page`]); a
+/// key that is not registered is a compile error.
 #[macro_export]
 macro_rules! page_module {
     ($key:literal) => {
-        static SERVED: [$crate::Calculator; 1] = [$crate::page($key)];
+        // Evaluated at compile time: a key that is not registered stops the build.
+        static SERVED: [$crate::Calculator; 1] = [match $crate::page($key) {
+            Some(calculator) => calculator,
+            None => panic!(concat!("no calculator is registered under the key ", $key)),
+        }];
         $crate::calculator_exports!(&SERVED);
     };
 }
