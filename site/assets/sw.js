@@ -14,15 +14,28 @@
 // so one visit is enough for offline use.
 //
 // No byte twice: the page registers this worker after its first result, when the
-// page, its script, glue and wasm are already in the HTTP cache. Files whose names
+// page, its script and glue are already in the HTTP cache. Files whose names
 // carry a content hash never change, so the install reads them from that cache
 // (`cache: "default"`) instead of downloading the same bytes again; only the
 // unhashed files (pages, manifest, icons) are fetched fresh (`cache: "reload"`),
 // compressed in transit like every other response. The build prints the total.
+//
+// One module for every page offline: each calculator page loads a wasm module of
+// its own (`fluxledger_<page>.<hash>.wasm`, only its calculator), and storing all
+// of them would make the offline copy several times larger. The precache holds
+// instead the offline module, which serves every calculator through the same
+// exports, so the pages' one glue runs it. A page's own module comes from the
+// network, or from this cache once fetched through the worker; when the network
+// is gone, the offline module answers in its place. The site build refuses an
+// offline module whose glue differs from the pages', and a test of the wasm crate
+// checks that it answers each page exactly as the page's own module does.
 
 const VERSION = "__CACHE_VERSION__";
 const CACHE = `fluxledger-${VERSION}`;
 const PRECACHE = __PRECACHE__;
+const OFFLINE_MODULE = "__OFFLINE_MODULE__";
+/** A calculator page's own module (the verification page's is in the precache). */
+const PAGE_MODULE = /\/fluxledger_[a-z0-9-]+\.[0-9a-f]{8}\.wasm$/;
 
 self.addEventListener("install", (event) => {
   event.waitUntil(
@@ -91,8 +104,13 @@ self.addEventListener("fetch", (event) => {
       try {
         response = await fetch(request);
       } catch (error) {
-        // Offline and not stored: a plain network error for the page to handle,
-        // not an uncaught rejection in the worker.
+        // Offline: a page's own module is answered by the offline module.
+        if (PAGE_MODULE.test(url.pathname)) {
+          const standIn = await (await caches.open(CACHE)).match(new URL(OFFLINE_MODULE, self.location.href));
+          if (standIn) return standIn;
+        }
+        // Not stored: a plain network error for the page to handle, not an
+        // uncaught rejection in the worker.
         return Response.error();
       }
       // Keep a copy of plain same-origin files not in the precache list (not pages

@@ -4,14 +4,16 @@
 //! file, see [`crate::bundle`]), stylesheet, wasm glue and wasm modules (each
 //! calculator page its own, `fluxledger_<key>.<hash>.wasm`, with one glue shared by
 //! all of them; the verification page a module of every calculator with its own
-//! glue), the service worker, the manifest and the icons, all side by side so
+//! glue; the offline module, every calculator behind the pages' glue), the service
+//! worker, the manifest and the icons, all side by side so
 //! that every URL is relative and the service worker's scope (its own folder)
 //! covers everything. File names of the script, stylesheet, glue and module carry
 //! the first 8 hex digits of the SHA-256 of their content: a page can never load a
 //! glue and a module from different builds, and a new build never reuses a stale
 //! cached file. `sw.js` keeps its name (browsers look it up by URL) and gets the
-//! build's cache version (a hash over every other file) and the list of every file
-//! to precache.
+//! build's cache version (a hash over every other file), the list of every file
+//! to precache (all but the pages' own modules) and the offline module's name,
+//! which it hands to a page whose own module it cannot fetch.
 //!
 //! Each calculator page carries its demo result, computed natively by the core at
 //! build time ([`crate::prerender`]), and the stylesheet's screen rules inline
@@ -51,6 +53,8 @@ pub const MODULES_DIR: &str = "js";
 /// Placeholder in `sw.js` for the build's cache version (a bare hex string; put it
 /// inside quotes).
 pub const CACHE_VERSION_PLACEHOLDER: &str = "__CACHE_VERSION__";
+/// Placeholder in `sw.js` for the offline module's file name (put it inside quotes).
+pub const OFFLINE_MODULE_PLACEHOLDER: &str = "__OFFLINE_MODULE__";
 /// Placeholder in `sw.js` for the JSON array of every file to precache (written as
 /// an array literal; a quoted placeholder is replaced together with its quotes).
 pub const PRECACHE_PLACEHOLDER: &str = "__PRECACHE__";
@@ -167,9 +171,11 @@ pub struct BuildReport {
     /// Every file, sorted by name.
     pub files: Vec<FileReport>,
     /// Hashed names of the main assets: each calculator page's module by page key,
-    /// the verification page's, and the glue of the calculator pages.
+    /// the verification page's, the offline module (stored by the service worker in
+    /// place of the pages' own), and the glue of the calculator pages.
     pub modules: BTreeMap<String, String>,
     pub verify_module: String,
+    pub offline_module: String,
     pub glue: String,
     pub script: String,
     pub stylesheet: String,
@@ -232,8 +238,9 @@ impl fmt::Display for BuildReport {
         writeln!(f, "  {:<width$}  {:>9}  {:>9}  {:>9}", "total", bytes, gzip, transfer)?;
         writeln!(
             f,
-            "service worker precache: {} bytes as sent (Brotli), {} of them not already fetched by the first visit",
-            self.precache_bytes, self.precache_extra_bytes
+            "service worker precache: {} bytes as sent (Brotli), {} of them not already fetched by the first visit \
+             (the pages' own modules are not stored: offline, {} stands in for each)",
+            self.precache_bytes, self.precache_extra_bytes, self.offline_module
         )?;
         if !self.wasm_optimised {
             writeln!(
@@ -588,7 +595,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     let names: Vec<&str> = specs
         .iter()
         .map(|spec| spec.key)
-        .chain([wasm_build::VERIFY_MODULE])
+        .chain([wasm_build::VERIFY_MODULE, wasm_build::OFFLINE_MODULE])
         .collect();
     let module_paths = wasm_build::cargo_build_wasm(root, &opts.target_dir(), &names, opts.log)?;
     let built = bindgen_all(&module_paths, opts.wasm_opt, opts.log)?;
@@ -597,10 +604,12 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
 
     // Every calculator page's module has the same exports, so the same glue; it is
     // checked, then written once. Its default module (used only when the page
-    // script passes none) is the first page's.
+    // script passes none) is the first page's. The offline module must have that
+    // glue too: the service worker hands it to any page in place of its own.
     let mut page_modules: BTreeMap<String, String> = BTreeMap::new();
     let mut page_glue: Option<(String, String)> = None;
     let mut verify = None;
+    let mut offline = None;
     let mut optimised = true;
     for (name, output) in built {
         optimised &= output.optimised;
@@ -622,19 +631,24 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
             Some((first, _)) if *first != unnamed => {
                 return Err(SiteErrorKind::Bindgen {
                     detail: format!(
-                        "the module of page '{name}' has other exports than the first page's \
-                         (every calculator page shares one glue; see wasm/modules/)"
+                        "the module '{name}' has other exports than the first page's \
+                         (every calculator page and the offline module share one glue; see wasm/modules/)"
                     ),
                 }
                 .into());
             }
             Some(_) => {}
         }
-        page_modules.insert(name, wasm_name);
+        if name == wasm_build::OFFLINE_MODULE {
+            offline = Some(wasm_name);
+        } else {
+            page_modules.insert(name, wasm_name);
+        }
     }
-    let (Some((_, glue_js)), Some((verify_wasm, verify_glue_js))) = (page_glue, verify) else {
+    let (Some((_, glue_js)), Some((verify_wasm, verify_glue_js)), Some(offline_wasm)) = (page_glue, verify, offline)
+    else {
         return Err(SiteErrorKind::Bindgen {
-            detail: "the build has no calculator page module or no verification module".into(),
+            detail: "the build lacks a calculator page module, the verification module or the offline module".into(),
         }
         .into());
     };
@@ -740,12 +754,19 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         all.update(bytes);
     }
     let cache_version: String = all.finalize().iter().take(8).map(|b| format!("{b:02x}")).collect();
+    // Every file but the pages' own modules: the offline module stands in for them.
+    let precached_files: Vec<String> = files
+        .keys()
+        .filter(|name| !page_modules.values().any(|module| module == *name))
+        .cloned()
+        .collect();
     let precache: Vec<String> = std::iter::once("./".to_string())
-        .chain(files.keys().cloned())
+        .chain(precached_files.iter().cloned())
         .map(|n| json_string(&n))
         .collect();
     let sw_path = assets.join("sw.js");
     let sw_js = fill(&sources.sw_js, CACHE_VERSION_PLACEHOLDER, &cache_version, &sw_path)?;
+    let sw_js = fill(&sw_js, OFFLINE_MODULE_PLACEHOLDER, &offline_wasm, &sw_path)?;
     let sw_js = fill_literal(
         &sw_js,
         PRECACHE_PLACEHOLDER,
@@ -797,7 +818,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     });
     // The precache list is every file but sw.js; the files of the first visit are
     // in the HTTP cache already, and the worker reads hashed files from there.
-    let precached = reports.iter().filter(|r| r.name != "sw.js");
+    let precached = reports.iter().filter(|r| precached_files.contains(&r.name));
     let precache_bytes: usize = precached.clone().map(FileReport::transfer_bytes).sum();
     let precache_extra_bytes: usize = precached
         .filter(|r| !cold_load.as_ref().is_some_and(|c| c.files.contains(&r.name)))
@@ -808,6 +829,7 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         files: reports,
         modules: page_modules,
         verify_module: verify_wasm,
+        offline_module: offline_wasm,
         glue: glue_name,
         script,
         stylesheet,

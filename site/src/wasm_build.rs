@@ -29,6 +29,9 @@ const WASM_PACKAGE: &str = "fluxledger-wasm";
 const SHARED_STEM: &str = "fluxledger_wasm";
 /// The module target of the verification page (every calculator).
 pub const VERIFY_MODULE: &str = "verify";
+/// The module target the offline copy stores instead of every page's own: every
+/// calculator, with a page module's exports (`wasm/modules/offline.rs`).
+pub const OFFLINE_MODULE: &str = "offline";
 
 /// The bindgen output, in memory.
 pub struct WasmOutput {
@@ -43,8 +46,8 @@ pub struct WasmOutput {
     pub glue_wasm_name: String,
 }
 
-/// The compiled modules: `(name, path)` with the name a calculator key or
-/// [`VERIFY_MODULE`].
+/// The compiled modules: `(name, path)` with the name a calculator key,
+/// [`VERIFY_MODULE`] or [`OFFLINE_MODULE`].
 pub type Modules = Vec<(String, PathBuf)>;
 
 /// The cargo program to run: the one running us when we run under cargo.

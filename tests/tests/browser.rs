@@ -752,6 +752,31 @@ mod offline {
             Duration::from_secs(30),
         )
         .unwrap();
+        // The offline copy holds the offline module and no page's own module, so
+        // every page below but bend runs on the offline module in place of its own.
+        let stored = page
+            .eval(
+                &mut browser,
+                "caches.keys().then(async (names) => { const cache = await caches.open(names.find(n => n.startsWith('fluxledger-')));                  return (await cache.keys()).map(r => new URL(r.url).pathname.split('/').pop()).filter(n => n.endsWith('.wasm')).sort().join(' '); })",
+            )
+            .unwrap();
+        let stored = stored.as_str().unwrap_or_default().to_string();
+        assert!(
+            stored.split(' ').any(|n| n.starts_with("fluxledger_offline.")),
+            "the offline module is not stored: {stored}"
+        );
+        let own: Vec<&str> = stored
+            .split(' ')
+            .filter(|n| {
+                !n.starts_with("fluxledger_offline.")
+                    && !n.starts_with("fluxledger_verify.")
+                    && !n.starts_with("fluxledger_bend.")
+            })
+            .collect();
+        assert!(
+            own.is_empty(),
+            "pages' own modules stored, not only the offline one: {own:?}"
+        );
 
         server.stop();
         // The server is really gone: a file the worker never stored cannot load.
@@ -794,11 +819,56 @@ mod offline {
             .unwrap_or_else(|e| panic!("offline site root: {e}"));
         let contents = page.eval(&mut browser, "document.body.dataset.page ?? ''").unwrap();
         assert_eq!(contents, "contents", "the site root offline is the contents page");
+        // The outputs are the core's for the page's demo, whichever module ran.
         for calculator in fluxledger_core::calculators::CALCULATORS {
-            page.goto(&mut browser, &format!("{base}/{}.html", calculator.key))
-                .unwrap_or_else(|e| panic!("offline {}: {e}", calculator.key));
+            let key = calculator.key;
+            page.goto(&mut browser, &format!("{base}/{key}.html"))
+                .unwrap_or_else(|e| panic!("offline {key}: {e}"));
             let state = page.wait_rendered(&mut browser).unwrap();
-            assert_eq!(state, "ready", "{}.html offline", calculator.key);
+            assert_eq!(state, "ready", "{key}.html offline");
+            let system = page
+                .eval(
+                    &mut browser,
+                    "document.querySelector('input[name=unit-system]:checked')?.value ?? ''",
+                )
+                .unwrap();
+            let system = fluxledger_core::UnitSystem::from_key(system.as_str().unwrap_or_default())
+                .unwrap_or_else(|| panic!("{key}: no unit system chosen"));
+            let spec = fluxledger_core::calculators::spec(key).expect("registered");
+            let request = fluxledger_core::Request {
+                system,
+                ..fluxledger_core::catalog::demo_request(&spec, &[])
+            };
+            let solution = fluxledger_core::solve(key, &request)
+                .result
+                .unwrap_or_else(|e| panic!("{key}: the demo does not solve natively: {e:?}"));
+            let shown: Vec<(String, String)> = serde_json::from_str(
+                page.eval(
+                    &mut browser,
+                    "JSON.stringify([...document.querySelectorAll('[data-output]')].map(e => [e.dataset.output, e.textContent]))",
+                )
+                .unwrap()
+                .as_str()
+                .unwrap_or("[]"),
+            )
+            .unwrap();
+            assert!(!shown.is_empty(), "{key}: no output offline");
+            for (output, text) in &shown {
+                let core = solution
+                    .output(output)
+                    .unwrap_or_else(|| panic!("{key}: the page shows '{output}', which the core does not give"));
+                let number = |t: &str| -> String {
+                    t.chars()
+                        .take_while(|c| c.is_ascii_digit() || ".-+eE".contains(*c))
+                        .collect()
+                };
+                assert_eq!(
+                    number(text),
+                    number(&core.text),
+                    "{key} offline, {output}: page {text:?}, core {:?}",
+                    core.text
+                );
+            }
         }
 
         // Errors from the deliberate failed probe are expected; nothing else.

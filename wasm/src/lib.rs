@@ -47,10 +47,18 @@
 //! (a page's: [`page_module`], its one entry found at compile time by
 //! [`page`]; the verification page's: every calculator, with [`verify_exports`]).
 //! The functions here take those calculators as `served`. The modules are the
-//! example targets `module-<page key>` and `module-verify` (`wasm/modules/`),
+//! example targets `module-<page key>`, `module-verify` and `module-offline`
+//! (`wasm/modules/`),
 //! because Cargo builds examples as cdylibs, all in one
 //! `cargo build --examples`; this library itself is an rlib only. Every calculator
 //! page's module has the same exports, so one glue serves them all.
+//!
+//! The offline copy stores one module, not every page's: `module-offline` serves
+//! every calculator through the same exports as a page's module, and the service
+//! worker answers a page's module request with it when the network is gone. It
+//! may stand in for a page's own module because every export looks its calculator
+//! up by key and nothing else depends on what else is served; the test
+//! `the_offline_module_answers_every_page_as_its_own_module_does` holds that.
 //!
 //! Values go out as JSON text through [`json`] (the same shapes `serde_json` would
 //! write: `None` is `null`, maps are plain objects). What dropping
@@ -355,7 +363,7 @@ mod tests {
             .filter_map(|line| line.strip_prefix("name = \"module-")?.strip_suffix('"'))
             .collect();
         let mut expected: Vec<&str> = CALCULATORS.iter().map(|c| c.key).collect();
-        expected.push("verify");
+        expected.extend(["verify", "offline"]);
         let (mut found, mut wanted) = (targets.clone(), expected.clone());
         found.sort_unstable();
         wanted.sort_unstable();
@@ -368,6 +376,84 @@ mod tests {
                 "{path} does not build the module of page '{key}'"
             );
             assert!(manifest.contains(&format!("path = \"modules/{key}.rs\"")), "{key}");
+        }
+        let offline = include_str!("../modules/offline.rs");
+        assert!(offline.contains("fluxledger_wasm::calculator_exports!(fluxledger_wasm::CALCULATORS);"));
+        assert!(
+            !offline.contains("verify_exports"),
+            "the offline module has a page's exports only"
+        );
+    }
+
+    /// The offline module stands in for every page's own module: for each page, what
+    /// it describes and computes is the same text whether its module serves that
+    /// page alone or every calculator (the page's demo in both unit systems, a
+    /// field's conversion, and its demo link read through the glossary).
+    #[test]
+    fn the_offline_module_answers_every_page_as_its_own_module_does() {
+        use super::{json, view, Calculator, Request};
+        use fluxledger_core::catalog::demo_request;
+        use fluxledger_core::{calculators, UnitSystem};
+
+        fn text<T: serde::Serialize>(value: &T) -> String {
+            json::to_string(value).expect("a view writes as JSON")
+        }
+
+        for page in CALCULATORS {
+            let own = std::slice::from_ref(page);
+            let key = page.key;
+            assert_eq!(
+                text(&view::page_view(own, key)),
+                text(&view::page_view(CALCULATORS, key)),
+                "{key}: page description"
+            );
+            let spec = calculators::spec(key).expect("registered");
+            for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                let request = Request {
+                    system,
+                    ..demo_request(&spec, &[])
+                };
+                let solved = |served: &[Calculator]| {
+                    let outcome = calculators::solve_in(served, key, &request);
+                    text(&view::solve_view(&outcome, calculators::spec_in(served, key).as_ref()))
+                };
+                let alone = solved(own);
+                assert!(
+                    alone.starts_with("{\"ok\":true"),
+                    "{key}: the demo solves: {alone:.200}"
+                );
+                assert_eq!(alone, solved(CALCULATORS), "{key}: demo result, {system:?}");
+            }
+            let pairs: Vec<(String, String)> = spec
+                .fields
+                .iter()
+                .filter(|f| !f.demo.is_empty())
+                .map(|f| (f.key.to_string(), f.demo.to_string()))
+                .chain([("units".to_string(), "us".to_string())])
+                .collect();
+            assert_eq!(
+                text(&view::upgrade_view(own, key, &pairs)),
+                text(&view::upgrade_view(CALCULATORS, key, &pairs)),
+                "{key}: link reading"
+            );
+            if let Some(field) = spec.fields.iter().find(|f| !f.si_unit.is_empty()) {
+                let converted = |served: &[Calculator]| {
+                    text(&view::convert_view(
+                        served,
+                        key,
+                        field.key,
+                        "12",
+                        "",
+                        UnitSystem::UsCustomary,
+                    ))
+                };
+                assert_eq!(
+                    converted(own),
+                    converted(CALCULATORS),
+                    "{key}: conversion of {}",
+                    field.key
+                );
+            }
         }
     }
 }
