@@ -26,7 +26,9 @@
 //! - bytes before the first result: transfer sizes (headers included) of every
 //!   response completed by then,
 //! - keystroke to next frame at 1× and 4× (input event dispatched, then the time
-//!   to a task queued from the next animation frame, i.e. after that frame),
+//!   to a task queued from the next animation frame, i.e. after that frame), with
+//!   the edits at one phase of the frame clock and spread over a frame interval
+//!   (`KEYSTROKES`), and the frame's own work without the wait for it,
 //! - a 500-row line schedule: one edited row to next frame, 1×.
 
 #[allow(dead_code)] // the browser tests use more of the client than these figures do
@@ -251,35 +253,67 @@ fn cold_visit(url: &str, site: Site, query: bool) -> Result<(Load, Option<Load>)
 
 /// Keystroke to next frame: the input event is dispatched, then the time until a
 /// task queued from the next animation frame runs (after that frame's paint).
+///
+/// The pause before each edit is 30 ms plus `STEP` × (n mod 10) ms after the
+/// previous edit's frame. With `STEP` 0 (the first form of this figure) every edit
+/// falls at the same place in the frame clock, a place set by how long the page's
+/// own previous frame took, so the wait for the next frame is the same in every
+/// edit and differs between the two pages for that reason alone. With `STEP` 1.7
+/// the ten pauses spread the edits over one 60 Hz frame interval, as a person's
+/// keystrokes fall. Each edit also gives the time its input handler took and the
+/// frame's own work: from the later of the frame's start and the handler's end,
+/// to the task after the frame (the wait for the frame left out).
 const KEYSTROKES: &str = r#"
 (async () => {
   const input = document.getElementById("field-p") || document.querySelector("input[name=p]");
   const out = [];
   for (let n = 0; n < 30; n++) {
-    await new Promise((r) => setTimeout(r, 30));
+    await new Promise((r) => setTimeout(r, 30 + STEP * (n % 10)));
     const t0 = performance.now();
     input.value = String(10 + (n % 7));
     input.dispatchEvent(new Event("input", { bubbles: true }));
-    await new Promise((resolve) => requestAnimationFrame(() => {
+    const handled = performance.now();
+    const frameStart = await new Promise((resolve) => requestAnimationFrame((start) => {
       const channel = new MessageChannel();
-      channel.port1.onmessage = resolve;
+      channel.port1.onmessage = () => resolve(start);
       channel.port2.postMessage(0);
     }));
-    out.push(performance.now() - t0);
+    const painted = performance.now();
+    out.push([painted - t0, handled - t0, painted - Math.max(frameStart, handled)]);
   }
   return out;
 })()"#;
 
-fn keystrokes(url: &str, site: Site, cpu: u32) -> Result<Vec<f64>, String> {
+/// One edit's times (ms): keystroke to next frame, input handler, frame's own work.
+struct Keystroke {
+    to_next_frame: f64,
+    handler: f64,
+    frame_work: f64,
+}
+
+fn keystrokes(url: &str, site: Site, cpu: u32, step_ms: f64) -> Result<Vec<Keystroke>, String> {
     let mut browser = Browser::launch(&PHONE)?;
     let page = browser.new_page()?;
     page.goto(&mut browser, url)?;
     read_load(&page, &mut browser, site, false)?;
     page.call(&mut browser, "Emulation.setCPUThrottlingRate", json!({ "rate": cpu }))?;
-    let times = page.eval(&mut browser, KEYSTROKES)?;
+    let script = KEYSTROKES.replace("STEP", &format!("{step_ms}"));
+    let times = page.eval(&mut browser, &script)?;
     Ok(times
         .as_array()
-        .map(|a| a.iter().filter_map(Value::as_f64).collect())
+        .map(|edits| {
+            edits
+                .iter()
+                .filter_map(|edit| {
+                    let at = |i: usize| edit.get(i).and_then(Value::as_f64);
+                    Some(Keystroke {
+                        to_next_frame: at(0)?,
+                        handler: at(1)?,
+                        frame_work: at(2)?,
+                    })
+                })
+                .collect()
+        })
         .unwrap_or_default())
 }
 
@@ -449,20 +483,40 @@ fn print_measurements(site: &Fixture) -> Result<(), String> {
     }
 
     for cpu in [1, 4] {
-        let ours = keystrokes(&handbook, Site::Handbook, cpu)?;
-        let theirs = keystrokes(&peer, Site::Baseline, cpu)?;
-        let max = |v: &[f64]| v.iter().copied().fold(0.0, f64::max);
-        println!(
-            "  keystroke to next frame, {cpu}x CPU (30 edits; max {:.1} / {:.1} ms)",
-            max(&ours),
-            max(&theirs)
-        );
-        println!("    {:<9} median {:.1} ms", Site::Handbook.name(), median(&ours));
-        println!("    {:<9} median {:.1} ms", Site::Baseline.name(), median(&theirs));
-        ratios.push((
-            format!("keystroke to next frame, {cpu}x"),
-            median(&ours) / median(&theirs),
-        ));
+        for (step, phase) in [
+            (0.0, "edits at one phase of the frame clock"),
+            (1.7, "edits spread over a frame"),
+        ] {
+            let ours = keystrokes(&handbook, Site::Handbook, cpu, step)?;
+            let theirs = keystrokes(&peer, Site::Baseline, cpu, step)?;
+            let of = |v: &[Keystroke], f: fn(&Keystroke) -> f64| v.iter().map(f).collect::<Vec<f64>>();
+            let max = |v: &[f64]| v.iter().copied().fold(0.0, f64::max);
+            let (ours_total, theirs_total) = (of(&ours, |k| k.to_next_frame), of(&theirs, |k| k.to_next_frame));
+            println!(
+                "  keystroke to next frame, {cpu}x CPU, {phase} (30 edits; max {:.1} / {:.1} ms)",
+                max(&ours_total),
+                max(&theirs_total)
+            );
+            for (site, total, edits) in [
+                (Site::Handbook, &ours_total, &ours),
+                (Site::Baseline, &theirs_total, &theirs),
+            ] {
+                println!(
+                    "    {:<9} median {:.1} ms (input handler {:.1} ms, the frame's own work {:.1} ms)",
+                    site.name(),
+                    median(total),
+                    median(&of(edits, |k| k.handler)),
+                    median(&of(edits, |k| k.frame_work))
+                );
+            }
+            ratios.push((
+                format!(
+                    "keystroke to next frame, {cpu}x, {}",
+                    if step == 0.0 { "one phase" } else { "spread" }
+                ),
+                median(&ours_total) / median(&theirs_total),
+            ));
+        }
     }
     let schedule = line_schedule(&site.base)?;
     println!(
