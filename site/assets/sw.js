@@ -20,22 +20,25 @@
 // unhashed files (pages, manifest, icons) are fetched fresh (`cache: "reload"`),
 // compressed in transit like every other response. The build prints the total.
 //
-// One module for every page offline: each calculator page loads a wasm module of
-// its own (`fluxledger_<page>.<hash>.wasm`, only its calculator), and storing all
-// of them would make the offline copy several times larger. The precache holds
-// instead the offline module, which serves every calculator through the same
-// exports, so the pages' one glue runs it. A page's own module comes from the
-// network, or from this cache once fetched through the worker; when the network
-// is gone, the offline module answers in its place. The site build refuses an
-// offline module whose glue differs from the pages', and a test of the wasm crate
-// checks that it answers each page exactly as the page's own module does.
+// One module for every page: each calculator page loads a wasm module of its own
+// (`fluxledger_<page>.<hash>.wasm`, only its calculator), which keeps a first visit
+// short; storing all of them would make the offline copy several times larger.
+// The precache holds instead the offline module, which serves every calculator
+// through the same exports, so the pages' one glue runs it. A request for one of
+// this build's page modules is answered by the page's own module when the browser
+// already holds it (its first visit), and otherwise by the offline module: no page
+// waits for its module on the network once the worker is installed, online or not.
+// Only this build's page modules are answered so (`PAGE_MODULES`): a page of another
+// build has another glue. The site build refuses an offline module whose glue
+// differs from the pages', and a test of the wasm crate checks that it answers each
+// page exactly as the page's own module does.
 
 const VERSION = "__CACHE_VERSION__";
 const CACHE = `fluxledger-${VERSION}`;
 const PRECACHE = __PRECACHE__;
 const OFFLINE_MODULE = "__OFFLINE_MODULE__";
-/** A calculator page's own module (the verification page's is in the precache). */
-const PAGE_MODULE = /\/fluxledger_[a-z0-9-]+\.[0-9a-f]{8}\.wasm$/;
+/** File names of this build's calculator page modules. */
+const PAGE_MODULES = new Set(__PAGE_MODULES__);
 
 self.addEventListener("install", (event) => {
   event.waitUntil(
@@ -88,6 +91,21 @@ async function fromCache(request) {
   return (await cache.match(request)) || (await cache.match(request, { ignoreSearch: true }));
 }
 
+/**
+ * One of this build's page modules: the page's own when the browser holds it
+ * already (HTTP cache), else the offline module, else the network.
+ */
+async function pageModule(request) {
+  try {
+    const own = await fetch(new Request(request.url, { cache: "only-if-cached", mode: "same-origin" }));
+    if (own.ok) return own;
+  } catch (error) {
+    // Not in the HTTP cache.
+  }
+  const standIn = await (await caches.open(CACHE)).match(new URL(OFFLINE_MODULE, self.location.href));
+  return standIn || fetch(request);
+}
+
 self.addEventListener("fetch", (event) => {
   const request = event.request;
   if (request.method !== "GET") return;
@@ -102,15 +120,11 @@ self.addEventListener("fetch", (event) => {
       if (cached) return cached;
       let response;
       try {
+        if (PAGE_MODULES.has(url.pathname.split("/").pop())) return await pageModule(request);
         response = await fetch(request);
       } catch (error) {
-        // Offline: a page's own module is answered by the offline module.
-        if (PAGE_MODULE.test(url.pathname)) {
-          const standIn = await (await caches.open(CACHE)).match(new URL(OFFLINE_MODULE, self.location.href));
-          if (standIn) return standIn;
-        }
-        // Not stored: a plain network error for the page to handle, not an
-        // uncaught rejection in the worker.
+        // Offline and not stored: a plain network error for the page to handle,
+        // not an uncaught rejection in the worker.
         return Response.error();
       }
       // Keep a copy of plain same-origin files not in the precache list (not pages

@@ -12,8 +12,9 @@
 //! glue and a module from different builds, and a new build never reuses a stale
 //! cached file. `sw.js` keeps its name (browsers look it up by URL) and gets the
 //! build's cache version (a hash over every other file), the list of every file
-//! to precache (all but the pages' own modules) and the offline module's name,
-//! which it hands to a page whose own module it cannot fetch.
+//! to precache (all but the pages' own modules), the pages' module names and the
+//! offline module's name, which it hands to a page whose own module the browser
+//! does not hold.
 //!
 //! Each calculator page carries its demo result, computed natively by the core at
 //! build time ([`crate::prerender`]), and the stylesheet's screen rules inline
@@ -55,6 +56,9 @@ pub const MODULES_DIR: &str = "js";
 pub const CACHE_VERSION_PLACEHOLDER: &str = "__CACHE_VERSION__";
 /// Placeholder in `sw.js` for the offline module's file name (put it inside quotes).
 pub const OFFLINE_MODULE_PLACEHOLDER: &str = "__OFFLINE_MODULE__";
+/// Placeholder in `sw.js` for the JSON array of the calculator pages' module file
+/// names (written as an array literal, like [`PRECACHE_PLACEHOLDER`]).
+pub const PAGE_MODULES_PLACEHOLDER: &str = "__PAGE_MODULES__";
 /// Placeholder in `sw.js` for the JSON array of every file to precache (written as
 /// an array literal; a quoted placeholder is replaced together with its quotes).
 pub const PRECACHE_PLACEHOLDER: &str = "__PRECACHE__";
@@ -239,7 +243,7 @@ impl fmt::Display for BuildReport {
         writeln!(
             f,
             "service worker precache: {} bytes as sent (Brotli), {} of them not already fetched by the first visit \
-             (the pages' own modules are not stored: offline, {} stands in for each)",
+             (the pages' own modules are not stored: {} stands in for each)",
             self.precache_bytes, self.precache_extra_bytes, self.offline_module
         )?;
         if !self.wasm_optimised {
@@ -767,6 +771,13 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
     let sw_path = assets.join("sw.js");
     let sw_js = fill(&sources.sw_js, CACHE_VERSION_PLACEHOLDER, &cache_version, &sw_path)?;
     let sw_js = fill(&sw_js, OFFLINE_MODULE_PLACEHOLDER, &offline_wasm, &sw_path)?;
+    let page_module_names: Vec<String> = page_modules.values().map(|n| json_string(n)).collect();
+    let sw_js = fill_literal(
+        &sw_js,
+        PAGE_MODULES_PLACEHOLDER,
+        &format!("[{}]", page_module_names.join(", ")),
+        &sw_path,
+    )?;
     let sw_js = fill_literal(
         &sw_js,
         PRECACHE_PLACEHOLDER,

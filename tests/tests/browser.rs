@@ -778,6 +778,45 @@ mod offline {
             "pages' own modules stored, not only the offline one: {own:?}"
         );
 
+        // Online, once the worker is installed, another page's module is not
+        // downloaded: the worker answers with the offline module it stores.
+        let before = browser.events.len();
+        page.goto(&mut browser, &format!("{base}/tee.html")).unwrap();
+        assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready", "tee.html online");
+        // The page's request is answered by the worker, and the worker's only
+        // response for it is its own store's (a lookup in the HTTP cache that
+        // misses starts a request but receives no response).
+        let tee_module = |e: &&cdp::Event| {
+            e.method == "Network.responseReceived"
+                && e.params["response"]["url"]
+                    .as_str()
+                    .is_some_and(|u| u.contains("/fluxledger_tee.") && u.ends_with(".wasm"))
+        };
+        let is_page = |e: &&cdp::Event| e.session.as_deref() == Some(page.session.as_str());
+        let events = &browser.events[before..];
+        let to_page: Vec<&cdp::Event> = events.iter().filter(tee_module).filter(is_page).collect();
+        assert!(
+            !to_page.is_empty()
+                && to_page
+                    .iter()
+                    .all(|e| e.params["response"]["fromServiceWorker"] == true),
+            "tee's module did not come from the worker: {:?}",
+            to_page
+                .iter()
+                .map(|e| cdp::shorten(&e.params.to_string()))
+                .collect::<Vec<_>>()
+        );
+        let downloaded: Vec<String> = events
+            .iter()
+            .filter(tee_module)
+            .filter(|e| !is_page(e))
+            .map(|e| cdp::shorten(&e.params["response"]["url"].to_string()))
+            .collect();
+        assert!(
+            downloaded.is_empty(),
+            "the worker downloaded tee's own module instead of answering with the offline one: {downloaded:?}"
+        );
+
         server.stop();
         // The server is really gone: a file the worker never stored cannot load.
         let probe = page
