@@ -335,6 +335,12 @@ pub fn is_compressed_type(name: &str) -> bool {
         .is_some_and(|(_, ext)| COMPRESSED_EXTENSIONS.contains(&ext))
 }
 
+/// A JSON array literal of `items`, each written by [`json_string`].
+fn json_array<'a>(items: impl IntoIterator<Item = &'a str>) -> String {
+    let items: Vec<String> = items.into_iter().map(json_string).collect();
+    format!("[{}]", items.join(", "))
+}
+
 /// A JSON string literal.
 pub fn json_string(text: &str) -> String {
     let mut out = String::with_capacity(text.len() + 2);
@@ -764,26 +770,13 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         .filter(|name| !page_modules.values().any(|module| module == *name))
         .cloned()
         .collect();
-    let precache: Vec<String> = std::iter::once("./".to_string())
-        .chain(precached_files.iter().cloned())
-        .map(|n| json_string(&n))
-        .collect();
+    let precache = json_array(std::iter::once("./").chain(precached_files.iter().map(String::as_str)));
+    let page_module_names = json_array(page_modules.values().map(String::as_str));
     let sw_path = assets.join("sw.js");
     let sw_js = fill(&sources.sw_js, CACHE_VERSION_PLACEHOLDER, &cache_version, &sw_path)?;
     let sw_js = fill(&sw_js, OFFLINE_MODULE_PLACEHOLDER, &offline_wasm, &sw_path)?;
-    let page_module_names: Vec<String> = page_modules.values().map(|n| json_string(n)).collect();
-    let sw_js = fill_literal(
-        &sw_js,
-        PAGE_MODULES_PLACEHOLDER,
-        &format!("[{}]", page_module_names.join(", ")),
-        &sw_path,
-    )?;
-    let sw_js = fill_literal(
-        &sw_js,
-        PRECACHE_PLACEHOLDER,
-        &format!("[{}]", precache.join(", ")),
-        &sw_path,
-    )?;
+    let sw_js = fill_literal(&sw_js, PAGE_MODULES_PLACEHOLDER, &page_module_names, &sw_path)?;
+    let sw_js = fill_literal(&sw_js, PRECACHE_PLACEHOLDER, &precache, &sw_path)?;
     files.insert("sw.js".into(), sw_js.into_bytes());
 
     let compressed = compress_all(&files);
