@@ -20,6 +20,10 @@
 //! - [`upgrade_link`]`(page, pairs)` — a link's `[key, value]` pairs read in today's
 //!   vocabulary through the core's glossary, `{pairs, translations}`; the page runs
 //!   every link through it before reading fields and reports the translations.
+//! - [`solve_headline`]`(key, inputs, field_units, system)` — as `solve`, without
+//!   the tables, diagrams and plots (`{ok: true, headline_only: true, echoes,
+//!   outputs, warnings, carry_over}`, [`view::Detail::Headline`]): what the page
+//!   asks for on a keystroke while they are all off screen.
 //! - [`convert`]`(key, field, text, from_unit, system)` — what is typed in a
 //!   quantity field, converted to that field's default unit in `system` (used when
 //!   the page's unit system is switched) and rounded by the core to one figure more
@@ -145,6 +149,31 @@ pub fn solve(
     field_units: JsValue,
     system: &str,
 ) -> Result<String, JsError> {
+    solve_with(served, key, inputs, field_units, system, view::Detail::Full)
+}
+
+/// As [`solve`], without the tables, diagrams and plots ([`view::Detail::Headline`]).
+///
+/// # Errors
+/// As [`solve`].
+pub fn solve_headline(
+    served: &[Calculator],
+    key: &str,
+    inputs: JsValue,
+    field_units: JsValue,
+    system: &str,
+) -> Result<String, JsError> {
+    solve_with(served, key, inputs, field_units, system, view::Detail::Headline)
+}
+
+fn solve_with(
+    served: &[Calculator],
+    key: &str,
+    inputs: JsValue,
+    field_units: JsValue,
+    system: &str,
+    detail: view::Detail,
+) -> Result<String, JsError> {
     let system = UnitSystem::from_key(system)
         .ok_or_else(|| adapter_error("unknown unit system", format!("'{system}' (expected \"si\" or \"us\")")))?;
     let request = Request {
@@ -154,7 +183,7 @@ pub fn solve(
     };
     let outcome = calculators::solve_in(served, key, &request);
     let spec = calculators::spec_in(served, key);
-    to_json(&view::solve_view(&outcome, spec.as_ref()))
+    to_json(&view::solve_view_with(&outcome, spec.as_ref(), detail))
 }
 
 /// Converts the text typed in quantity field `field` of calculator `key` (a bare
@@ -241,7 +270,7 @@ pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<St
 
 /// The exports of a calculator page's module, over the calculators it serves
 /// (`$served`, a `&'static [Calculator]`): `catalog`, `calculator`, `upgrade_link`,
-/// `solve`, `convert`, `table_csv`, `table_csv_traced`, `qr_code`, `sheet_fields`
+/// `solve`, `solve_headline`, `convert`, `table_csv`, `table_csv_traced`, `qr_code`, `sheet_fields`
 /// and `case_difference`, each the function of this crate of the same name.
 ///
 /// The exports are written by the module's own crate (`wasm/modules/`), not here:
@@ -274,6 +303,16 @@ macro_rules! calculator_exports {
             system: &str,
         ) -> Result<String, wasm_bindgen::JsError> {
             $crate::solve($served, key, inputs, field_units, system)
+        }
+
+        #[wasm_bindgen::prelude::wasm_bindgen]
+        pub fn solve_headline(
+            key: &str,
+            inputs: wasm_bindgen::JsValue,
+            field_units: wasm_bindgen::JsValue,
+            system: &str,
+        ) -> Result<String, wasm_bindgen::JsError> {
+            $crate::solve_headline($served, key, inputs, field_units, system)
         }
 
         #[wasm_bindgen::prelude::wasm_bindgen]
@@ -383,6 +422,83 @@ mod tests {
             !offline.contains("verify_exports"),
             "the offline module has a page's exports only"
         );
+    }
+
+    /// The headline view of a solve carries exactly what the full view of the same
+    /// outcome carries, tables, diagrams and plots aside: for each calculator's
+    /// demo in both unit systems, and for a request it refuses (then the two views
+    /// are the same text).
+    #[test]
+    fn the_headline_view_is_the_full_view_without_its_tables_diagrams_and_plots() {
+        use super::{json, view, Request};
+        use fluxledger_core::catalog::demo_request;
+        use fluxledger_core::{calculators, UnitSystem};
+        use view::{Detail, SolveView};
+
+        fn text<T: serde::Serialize>(value: &T) -> String {
+            json::to_string(value).expect("a view writes as JSON")
+        }
+
+        for page in CALCULATORS {
+            let key = page.key;
+            let spec = calculators::spec(key).expect("registered");
+            for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                let request = Request {
+                    system,
+                    ..demo_request(&spec, &[])
+                };
+                let outcome = calculators::solve(key, &request);
+                let full = view::solve_view_with(&outcome, Some(&spec), Detail::Full);
+                let headline = view::solve_view_with(&outcome, Some(&spec), Detail::Headline);
+                let (SolveView::Solved(full), SolveView::Headline(headline)) = (&full, &headline) else {
+                    panic!(
+                        "{key}, {system:?}: the demo solves in both views: {:.200}",
+                        text(&headline)
+                    );
+                };
+                assert!(headline.ok && headline.headline_only, "{key}");
+                assert_eq!(text(&headline.echoes), text(&full.echoes), "{key}, {system:?}: echoes");
+                assert_eq!(
+                    text(&headline.outputs),
+                    text(&full.outputs),
+                    "{key}, {system:?}: outputs"
+                );
+                assert_eq!(
+                    text(&headline.warnings),
+                    text(&full.warnings),
+                    "{key}, {system:?}: warnings"
+                );
+                assert_eq!(
+                    text(&headline.carry_over),
+                    text(&full.carry_over),
+                    "{key}, {system:?}: links to a next calculator"
+                );
+                let written = text(&view::SolveView::Headline(headline.clone()));
+                for left_out in ["\"tables\"", "\"diagrams\"", "\"plots\""] {
+                    assert!(
+                        !written.contains(left_out),
+                        "{key}: the headline view writes {left_out}"
+                    );
+                }
+            }
+            // A value no quantity field accepts: the same refusal in both views (in
+            // the first field whose refusal stops the solve; some are shown only
+            // under a condition).
+            let refused = spec
+                .fields
+                .iter()
+                .filter(|f| !f.si_unit.is_empty() && !f.demo.is_empty())
+                .map(|f| calculators::solve(key, &demo_request(&spec, &[(f.key, "not a number")])))
+                .find(|outcome| outcome.result.is_err());
+            let Some(outcome) = refused else {
+                panic!("{key}: no quantity field refuses \"not a number\"");
+            };
+            assert_eq!(
+                text(&view::solve_view_with(&outcome, Some(&spec), Detail::Headline)),
+                text(&view::solve_view_with(&outcome, Some(&spec), Detail::Full)),
+                "{key}: a refused request"
+            );
+        }
     }
 
     /// The offline module stands in for every page's own module: for each page, what

@@ -250,12 +250,30 @@ fn output_spec_view(output: &OutputSpec) -> OutputSpecView {
 // ---------------------------------------------------------------------------
 // Solve
 
-/// What `solve()` returns: `{ok: true, ...}` or `{ok: false, ...}`.
+/// What `solve()` returns: `{ok: true, ...}` or `{ok: false, ...}`; what
+/// `solve_headline()` returns: `{ok: true, headline_only: true, ...}` or the same
+/// `{ok: false, ...}`.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 #[serde(untagged)]
 pub enum SolveView {
     Solved(SolvedView),
+    Headline(HeadlineView),
     Failed(FailedView),
+}
+
+/// How much of a solved result a view carries.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Detail {
+    /// Everything: values, warnings, links, tables, diagrams and plots.
+    Full,
+    /// What is read at a glance: the values, the warnings, the links to a next
+    /// calculator and the echoes; no tables, diagrams or plots.
+    ///
+    /// Why: the page asks for this while every table and figure is off screen (a
+    /// keystroke then waits for nothing else), and for the full result when it
+    /// catches them up. They are most of the result's text (on the bend page 16 of
+    /// its 19 kB), and writing that text is most of a solve's time.
+    Headline,
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -280,6 +298,20 @@ pub struct CarryOverView {
     pub title: &'static str,
     pub label: String,
     pub inputs: std::collections::BTreeMap<&'static str, String>,
+}
+
+/// A solved result without its tables, diagrams and plots ([`Detail::Headline`]):
+/// the other fields are those of the [`SolvedView`] of the same outcome.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct HeadlineView {
+    /// Always `true`.
+    pub ok: bool,
+    /// Always `true`: the tables, diagrams and plots were left out.
+    pub headline_only: bool,
+    pub echoes: Vec<EchoView>,
+    pub outputs: Vec<OutputView>,
+    pub warnings: Vec<WarningView>,
+    pub carry_over: Vec<CarryOverView>,
 }
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
@@ -438,9 +470,18 @@ pub struct WarningView {
 /// The view of a solve outcome. `spec` (the solved calculator's description, if the
 /// key was known) supplies the field labels of errors.
 pub fn solve_view(outcome: &Outcome, spec: Option<&CalculatorSpec>) -> SolveView {
+    solve_view_with(outcome, spec, Detail::Full)
+}
+
+/// The view of a solve outcome carrying `detail`; a failed outcome has the same
+/// view whatever the detail.
+pub fn solve_view_with(outcome: &Outcome, spec: Option<&CalculatorSpec>, detail: Detail) -> SolveView {
     let echoes = outcome.echoes.iter().map(echo_view).collect();
     match &outcome.result {
-        Ok(solution) => SolveView::Solved(solved_view(echoes, solution)),
+        Ok(solution) => match detail {
+            Detail::Full => SolveView::Solved(solved_view(echoes, solution)),
+            Detail::Headline => SolveView::Headline(headline_view(echoes, solution)),
+        },
         Err(error) => SolveView::Failed(FailedView {
             ok: false,
             echoes,
@@ -466,17 +507,32 @@ fn solved_view(echoes: Vec<EchoView>, solution: &Solution) -> SolvedView {
         diagrams: solution.diagrams.iter().map(diagram_view).collect(),
         plots: solution.plots.iter().map(plot_view).collect(),
         warnings: solution.warnings.iter().map(warning_view).collect(),
-        carry_over: solution
-            .carry_over
-            .iter()
-            .map(|c| CarryOverView {
-                calculator: c.calculator,
-                title: calculators::title(c.calculator).unwrap_or(""),
-                label: c.label.clone(),
-                inputs: c.inputs.iter().map(|(k, v)| (*k, v.clone())).collect(),
-            })
-            .collect(),
+        carry_over: carry_over_views(solution),
     }
+}
+
+fn headline_view(echoes: Vec<EchoView>, solution: &Solution) -> HeadlineView {
+    HeadlineView {
+        ok: true,
+        headline_only: true,
+        echoes,
+        outputs: solution.outputs.iter().map(output_view).collect(),
+        warnings: solution.warnings.iter().map(warning_view).collect(),
+        carry_over: carry_over_views(solution),
+    }
+}
+
+fn carry_over_views(solution: &Solution) -> Vec<CarryOverView> {
+    solution
+        .carry_over
+        .iter()
+        .map(|c| CarryOverView {
+            calculator: c.calculator,
+            title: calculators::title(c.calculator).unwrap_or(""),
+            label: c.label.clone(),
+            inputs: c.inputs.iter().map(|(k, v)| (*k, v.clone())).collect(),
+        })
+        .collect()
 }
 
 // ---------------------------------------------------------------------------

@@ -32,7 +32,7 @@ import { state, defaultUnit, isQuantity } from "./state.js";
 import { glue, loadGlue, dropGlue } from "./wasm.js";
 import { readUrl, writeUrl } from "./url.js";
 import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
-import { holdCatchUp, measureFigureWidth, render } from "./render-results.js";
+import { holdCatchUp, measureFigureWidth, partsWait, render } from "./render-results.js";
 import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
 import { watchHeadline } from "./layout.js";
@@ -48,13 +48,17 @@ function request() {
   return { inputs, fieldUnits };
 }
 
-/** Calls the wasm solve; recovers from a trap by loading a fresh module instance. */
-function solveNow() {
+/**
+ * Calls the wasm solve (`headline`: without the tables, diagrams and plots);
+ * recovers from a trap by loading a fresh module instance.
+ */
+function solveNow({ headline = false } = {}) {
   const { inputs, fieldUnits } = request();
   try {
     // The core answers with JSON text: one string crosses from wasm instead of
     // every value of the result one by one (`solve` in the wasm crate).
-    return JSON.parse(glue.solve(state.spec.key, inputs, fieldUnits, state.system));
+    const solve = headline ? glue.solve_headline : glue.solve;
+    return JSON.parse(solve(state.spec.key, inputs, fieldUnits, state.system));
   } catch (error) {
     const trapped = error instanceof WebAssembly.RuntimeError;
     notice("error", [
@@ -150,15 +154,18 @@ window.addEventListener("beforeprint", () => {
  */
 function settlePending() {
   if (frame) recompute({ writeToUrl: false });
+  // A table's CSV is read from the last result: a full one.
+  if (state.lastResult && state.lastResult.headline_only) recompute({ writeToUrl: false, full: true });
   if (urlTask) writeUrlNow();
 }
 
 /**
  * Recomputes, renders, and optionally writes the URL. `solved`: the result of a
  * solve of the current inputs already made (the page's first), used instead of
- * solving them again.
+ * solving them again. The core is asked for a headline result while the tables,
+ * diagrams and plots are all off screen (`partsWait`), unless `full`.
  */
-function recompute({ writeToUrl, solved = null }) {
+function recompute({ writeToUrl, solved = null, full = false }) {
   // A recompute now also answers the keystrokes waiting for the next frame.
   if (frame) cancelAnimationFrame(frame);
   frame = 0;
@@ -166,7 +173,7 @@ function recompute({ writeToUrl, solved = null }) {
   frameWritesUrl = false;
   // Without a module (being reloaded after a trap) the recompute after the reload
   // still owes the URL its write.
-  const result = solved || (glue ? solveNow() : null);
+  const result = solved || (glue ? solveNow({ headline: !full && partsWait() }) : null);
   if (!result) {
     frameWritesUrl = writeToUrl;
     return;

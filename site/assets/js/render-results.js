@@ -15,6 +15,11 @@
 // pauses: then in idle time, a part at a time, and a newer keystroke stops that
 // catching up (its own result supersedes it). The other results (a few values)
 // and the links to a next calculator are never deferred.
+//
+// While every deferred part is off screen (`partsWait`), the page asks the core
+// for a headline result (`headline_only`: no tables, diagrams or plots, most of a
+// result's text); the deferred parts then wait for a full result, which catching
+// up asks for (`state.recompute` with `full`) before bringing them up to date.
 
 import { clip, el, setText } from "./dom.js";
 import { state } from "./state.js";
@@ -36,6 +41,8 @@ const offScreen = new WeakSet();
 let observer = null;
 /** The idle callback, or the timer waiting for a pause in typing, that catches parts up. */
 let catchUp = { idle: 0, timer: 0 };
+/** Whether the deferred parts wait for a full result (the last one was a headline result). */
+let owed = false;
 
 /**
  * Quiet time after the last result before the parts off screen are caught up: a
@@ -72,6 +79,7 @@ export function render(result) {
       ...general.map((text) => el("p", { class: "general-error", text })),
     );
     headlineParts = null;
+    owed = false;
     forgetParts();
     ui.details.replaceChildren();
     finishRender("error");
@@ -113,6 +121,12 @@ export function render(result) {
       eager: true,
     });
   }
+  if (result.headline_only) {
+    renderWithout(next);
+    finishRender("ready");
+    return;
+  }
+  owed = false;
   for (const [index, table] of (result.tables || []).entries()) {
     next.push({ id: `table:${table.key || index}`, build: () => renderTable(table, index), update: (node) => updateTable(node, table) });
   }
@@ -125,6 +139,36 @@ export function render(result) {
   }
   updateParts(next);
   finishRender("ready");
+}
+
+/**
+ * Shows a headline result: `next` (the parts it carries, never deferred) updated,
+ * the deferred parts kept as they are and marked to wait for a full result. A
+ * result whose parts differ from those shown is completed at once.
+ */
+function renderWithout(next) {
+  const deferred = parts.filter((p) => !p.eager);
+  const shown = parts.filter((p) => p.eager);
+  if (deferred.length === 0 || shown.length !== next.length || next.some((part, i) => part.id !== shown[i].id)) {
+    state.recompute({ writeToUrl: false, full: true });
+    return;
+  }
+  owed = true;
+  updateParts([...next, ...deferred.map((part) => ({ id: part.id, behind: true }))]);
+}
+
+/**
+ * Whether a keystroke's result may leave the tables, diagrams and plots out: the
+ * page shows some, and all of them are off screen (their update would wait anyway).
+ */
+export function partsWait() {
+  const deferred = parts.filter((p) => !p.eager);
+  return deferred.length > 0 && deferred.every((p) => offScreen.has(p.node));
+}
+
+/** Asks for the full result of the current inputs when the deferred parts wait for one. */
+function completeResult() {
+  if (owed) state.recompute({ writeToUrl: false, full: true });
 }
 
 /**
@@ -245,12 +289,12 @@ function updateParts(next) {
     part.node = current.node;
     part.plan = current.plan;
     parts[i] = part;
-    if (!part.update) {
-      replaceNode(part, part.build());
-    } else if (offScreen.has(part.node) && !part.eager) {
+    if (part.behind || (part.update && offScreen.has(part.node) && !part.eager)) {
       part.pending = true;
       // Written once: a keystroke restyles nothing it does not change.
       if (!part.node.hasAttribute("data-stale")) part.node.setAttribute("data-stale", "");
+    } else if (!part.update) {
+      replaceNode(part, part.build());
     } else {
       applyUpdate(part);
     }
@@ -268,6 +312,8 @@ function replaceNode(part, fresh) {
 
 /** Brings one part up to date (or rebuilds it when it cannot be updated). */
 function applyUpdate(part) {
+  // A part kept from before a headline result waits for the full result.
+  if (part.behind) return;
   part.pending = false;
   const before = part.node;
   if (!part.update(part.node, part)) replaceNode(part, part.build());
@@ -280,6 +326,7 @@ function applyUpdate(part) {
 
 /** Brings every part up to date at once (before printing). */
 export function flushParts() {
+  completeResult();
   for (const part of parts) if (part.pending) applyUpdate(part);
 }
 
@@ -290,12 +337,21 @@ export function flushParts() {
  */
 function flushIdle(deadline) {
   catchUp.idle = 0;
+  if (owed) {
+    completeResult();
+    // The full result's own catch-up is this one.
+    holdCatchUp();
+    if (deadline && !deadline.didTimeout && deadline.timeRemaining() <= 0) {
+      if (parts.some((p) => p.pending && !p.behind)) catchUp.idle = requestIdle(flushIdle);
+      return;
+    }
+  }
   for (const part of parts) {
     if (!part.pending) continue;
     applyUpdate(part);
     if (deadline && !deadline.didTimeout && deadline.timeRemaining() <= 0) break;
   }
-  if (parts.some((p) => p.pending)) catchUp.idle = requestIdle(flushIdle);
+  if (parts.some((p) => p.pending && !p.behind)) catchUp.idle = requestIdle(flushIdle);
 }
 
 /** Catches the parts off screen up once typing pauses (`CATCH_UP_PAUSE_MS`). */
@@ -334,7 +390,12 @@ function watch(node) {
       for (const entry of entries) {
         if (entry.isIntersecting) {
           offScreen.delete(entry.target);
-          const part = parts.find((p) => p.node === entry.target);
+          let part = parts.find((p) => p.node === entry.target);
+          if (part && part.behind) {
+            // The full result brings the parts on screen up to date itself.
+            completeResult();
+            part = null;
+          }
           if (part && part.pending) applyUpdate(part);
         } else {
           offScreen.add(entry.target);

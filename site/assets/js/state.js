@@ -27,7 +27,7 @@ export const state = {
    * restores the text as typed: {system, text, unit} before, {shown, shownUnit} after.
    */
   converted: new Map(),
-  /** Set by main.js: recomputes and renders ({writeToUrl}). */
+  /** Set by main.js: recomputes and renders ({writeToUrl, full}). */
   recompute: () => {},
   /** Set by main.js: the same at the next animation frame, for keystrokes. */
   recomputeNextFrame: () => {},
