@@ -213,6 +213,32 @@ const panelLists = new WeakMap();
 /** The value cells of lists made by `outputList` (a list is never edited otherwise). */
 const listValues = new WeakMap();
 
+/**
+ * The outputs whose full text a list's values still show in their `title`, by list:
+ * written once typing pauses (`TITLE_PAUSE_MS`). A `title` written on every
+ * keystroke restyles its element in that keystroke's frame (the browser's own
+ * stylesheet has rules on `[title]`), and nobody reads a tooltip while typing.
+ */
+const titlesOwed = new Map();
+let titleTimer = 0;
+
+/** Pause in typing after which the values' titles are written. */
+const TITLE_PAUSE_MS = 150;
+
+function writeTitles() {
+  if (titleTimer) clearTimeout(titleTimer);
+  titleTimer = 0;
+  for (const [list, outputs] of titlesOwed) {
+    const values = listValues.get(list);
+    if (!values || !list.isConnected) continue;
+    outputs.forEach((output, i) => {
+      const dd = values[i];
+      if (dd && dd.title !== (output.text ?? "")) dd.title = output.text ?? "";
+    });
+  }
+  titlesOwed.clear();
+}
+
 /** Rewrites the values of a list made by `outputList` when it shows the same outputs. */
 function updateOutputList(list, outputs) {
   if (!list) return false;
@@ -227,8 +253,11 @@ function updateOutputList(list, outputs) {
     const label = dd.previousElementSibling;
     if (label) setText(label, output.label);
     setText(dd, output.shown);
-    if (dd.title !== (output.text ?? "")) dd.title = output.text ?? "";
   });
+  // The full texts follow once typing pauses: a newer keystroke's outputs replace these.
+  titlesOwed.set(list, outputs);
+  if (titleTimer) clearTimeout(titleTimer);
+  titleTimer = setTimeout(writeTitles, TITLE_PAUSE_MS);
   return true;
 }
 
@@ -327,6 +356,7 @@ function applyUpdate(part) {
 /** Brings every part up to date at once (before printing). */
 export function flushParts() {
   completeResult();
+  writeTitles();
   for (const part of parts) if (part.pending) applyUpdate(part);
 }
 
