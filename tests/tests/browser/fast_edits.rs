@@ -1,8 +1,9 @@
 //! Fast edits: keystrokes are coalesced per animation frame and the page updates
 //! its parts in place; after a burst of edits the page shows exactly what the core
 //! computes for the final URL (headline values, every table cell, a diagram's
-//! restraint arrow), and the table and the diagram were updated, not rebuilt: the
-//! patched diagram's markup is exactly that of a page opened with the final link.
+//! restraint arrow, each value's full text in its title), and the table and the
+//! diagram were updated, not rebuilt: the patched diagram's markup is exactly that
+//! of a page opened with the final link.
 
 use std::time::Duration;
 
@@ -15,6 +16,9 @@ use crate::harness::{fixture, launched, one_at_a_time, page_errors};
 
 const OUTPUTS: &str =
     "JSON.stringify([...document.querySelectorAll('[data-output]')].map(e => [e.dataset.output, e.textContent]))";
+/// Every value's full text, which it shows as its `title` once typing pauses.
+const TITLES: &str =
+    "JSON.stringify([...document.querySelectorAll('dd[data-output]')].map(e => [e.dataset.output, e.title]))";
 const TABLES: &str = "JSON.stringify([...document.querySelectorAll('table.ledger')].map(t => [t.dataset.table, [...t.tBodies[0].rows].map(r => [...r.cells].map(c => c.textContent))]))";
 
 /// Pressure and angle edits, some in the same frame, some a frame apart.
@@ -112,6 +116,28 @@ fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
             core.text
         );
     }
+
+    // Every value's title: the core's full text. It is written once typing pauses,
+    // so the demo's or an earlier keystroke's title would differ.
+    let keys: Vec<(String, String)> =
+        serde_json::from_str(page.eval(&mut browser, TITLES).unwrap().as_str().unwrap_or("[]")).unwrap();
+    assert!(!keys.is_empty(), "no value on the page");
+    let expected: Vec<(String, String)> = keys
+        .iter()
+        .map(|(key, _)| (key.clone(), solution.output(key).expect("checked above").text.clone()))
+        .collect();
+    let expected_json = serde_json::to_string(&expected).unwrap();
+    let settled = page.wait_for(
+        &mut browser,
+        &format!("{TITLES} === {}", serde_json::to_string(&expected_json).unwrap()),
+        Duration::from_secs(5),
+    );
+    let titles: Vec<(String, String)> =
+        serde_json::from_str(page.eval(&mut browser, TITLES).unwrap().as_str().unwrap_or("[]")).unwrap();
+    assert!(
+        settled.is_ok(),
+        "the values' titles are not the core's full texts: page {titles:?}, core {expected:?}"
+    );
 
     // Every table cell: the core's text (its number, as units are shown prettier).
     let tables: Vec<(String, Vec<Vec<String>>)> =
