@@ -20,7 +20,7 @@
 //! - [`upgrade_link`]`(page, pairs)` — a link's `[key, value]` pairs read in today's
 //!   vocabulary through the core's glossary, `{pairs, translations}`; the page runs
 //!   every link through it before reading fields and reports the translations.
-//! - [`solve_headline`]`(key, inputs, field_units, system)` — as `solve`, without
+//! - `solve_headline(key, inputs, field_units, system)` — as `solve`, without
 //!   the tables, diagrams and plots (`{ok: true, headline_only: true, echoes,
 //!   outputs, warnings, carry_over}`, [`view::Detail::Headline`]): what the page
 //!   asks for on a keystroke while they are all off screen.
@@ -136,37 +136,15 @@ pub fn upgrade_link(served: &[Calculator], page: &str, pairs: JsValue) -> Result
     to_json(&view::upgrade_view(served, page, &pairs))
 }
 
-/// Solves calculator `key` (one of those `served`) for what the user typed: the JSON text of the result
-/// ([`view::SolveView`], written by [`json::to_string`]).
+/// Solves calculator `key` (one of those `served`) for what the user typed: the JSON
+/// text of the result ([`view::SolveView`], written by [`json::to_string`]) with
+/// `detail` (the export `solve` asks for [`view::Detail::Full`], `solve_headline`
+/// for [`view::Detail::Headline`]).
 ///
 /// # Errors
 /// Throws only for a wrong call: `inputs` or `field_units` not an object of strings,
 /// or a `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
 pub fn solve(
-    served: &[Calculator],
-    key: &str,
-    inputs: JsValue,
-    field_units: JsValue,
-    system: &str,
-) -> Result<String, JsError> {
-    solve_with(served, key, inputs, field_units, system, view::Detail::Full)
-}
-
-/// As [`solve`], without the tables, diagrams and plots ([`view::Detail::Headline`]).
-///
-/// # Errors
-/// As [`solve`].
-pub fn solve_headline(
-    served: &[Calculator],
-    key: &str,
-    inputs: JsValue,
-    field_units: JsValue,
-    system: &str,
-) -> Result<String, JsError> {
-    solve_with(served, key, inputs, field_units, system, view::Detail::Headline)
-}
-
-fn solve_with(
     served: &[Calculator],
     key: &str,
     inputs: JsValue,
@@ -271,7 +249,8 @@ pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<St
 /// The exports of a calculator page's module, over the calculators it serves
 /// (`$served`, a `&'static [Calculator]`): `catalog`, `calculator`, `upgrade_link`,
 /// `solve`, `solve_headline`, `convert`, `table_csv`, `table_csv_traced`, `qr_code`, `sheet_fields`
-/// and `case_difference`, each the function of this crate of the same name.
+/// and `case_difference`, each the function of this crate of the same name
+/// (`solve_headline`: [`solve`] with [`view::Detail::Headline`]).
 ///
 /// The exports are written by the module's own crate (`wasm/modules/`), not here:
 /// a module then links only the calculators it names. Every module has the same
@@ -302,7 +281,14 @@ macro_rules! calculator_exports {
             field_units: wasm_bindgen::JsValue,
             system: &str,
         ) -> Result<String, wasm_bindgen::JsError> {
-            $crate::solve($served, key, inputs, field_units, system)
+            $crate::solve(
+                $served,
+                key,
+                inputs,
+                field_units,
+                system,
+                $crate::view::Detail::Full,
+            )
         }
 
         #[wasm_bindgen::prelude::wasm_bindgen]
@@ -312,7 +298,14 @@ macro_rules! calculator_exports {
             field_units: wasm_bindgen::JsValue,
             system: &str,
         ) -> Result<String, wasm_bindgen::JsError> {
-            $crate::solve_headline($served, key, inputs, field_units, system)
+            $crate::solve(
+                $served,
+                key,
+                inputs,
+                field_units,
+                system,
+                $crate::view::Detail::Headline,
+            )
         }
 
         #[wasm_bindgen::prelude::wasm_bindgen]

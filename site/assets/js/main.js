@@ -32,7 +32,7 @@ import { state, defaultUnit, isQuantity } from "./state.js";
 import { glue, loadGlue, dropGlue } from "./wasm.js";
 import { readUrl, writeUrl } from "./url.js";
 import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
-import { holdCatchUp, measureFigureWidth, partsWait, render } from "./render-results.js";
+import { completeResult, holdCatchUp, measureFigureWidth, partsWait, render } from "./render-results.js";
 import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
 import { watchHeadline } from "./layout.js";
@@ -155,7 +155,7 @@ window.addEventListener("beforeprint", () => {
 function settlePending() {
   if (frame) recompute({ writeToUrl: false });
   // A table's CSV is read from the last result: a full one.
-  if (state.lastResult && state.lastResult.headline_only) recompute({ writeToUrl: false, full: true });
+  completeResult();
   if (urlTask) writeUrlNow();
 }
 

@@ -41,8 +41,6 @@ const offScreen = new WeakSet();
 let observer = null;
 /** The idle callback, or the timer waiting for a pause in typing, that catches parts up. */
 let catchUp = { idle: 0, timer: 0 };
-/** Whether the deferred parts wait for a full result (the last one was a headline result). */
-let owed = false;
 
 /**
  * Quiet time after the last result before the parts off screen are caught up: a
@@ -79,7 +77,6 @@ export function render(result) {
       ...general.map((text) => el("p", { class: "general-error", text })),
     );
     headlineParts = null;
-    owed = false;
     forgetParts();
     ui.details.replaceChildren();
     finishRender("error");
@@ -126,7 +123,6 @@ export function render(result) {
     finishRender("ready");
     return;
   }
-  owed = false;
   for (const [index, table] of (result.tables || []).entries()) {
     next.push({ id: `table:${table.key || index}`, build: () => renderTable(table, index), update: (node) => updateTable(node, table) });
   }
@@ -153,7 +149,6 @@ function renderWithout(next) {
     state.recompute({ writeToUrl: false, full: true });
     return;
   }
-  owed = true;
   updateParts([...next, ...deferred.map((part) => ({ id: part.id, behind: true }))]);
 }
 
@@ -166,9 +161,17 @@ export function partsWait() {
   return deferred.length > 0 && deferred.every((p) => offScreen.has(p.node));
 }
 
-/** Asks for the full result of the current inputs when the deferred parts wait for one. */
-function completeResult() {
-  if (owed) state.recompute({ writeToUrl: false, full: true });
+/** Whether the deferred parts wait for a full result: the last result was a headline result. */
+function owed() {
+  return Boolean(state.lastResult && state.lastResult.headline_only);
+}
+
+/**
+ * Asks for the full result of the current inputs when the deferred parts wait for
+ * one (before catching them up, printing, or reading a table for its CSV).
+ */
+export function completeResult() {
+  if (owed()) state.recompute({ writeToUrl: false, full: true });
 }
 
 /**
@@ -367,7 +370,7 @@ export function flushParts() {
  */
 function flushIdle(deadline) {
   catchUp.idle = 0;
-  if (owed) {
+  if (owed()) {
     completeResult();
     // The full result's own catch-up is this one.
     holdCatchUp();
