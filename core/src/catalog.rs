@@ -709,24 +709,85 @@ impl Solution {
     }
 }
 
+/// How much of a [`Solution`] a solve builds.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum Detail {
+    /// Everything: values, warnings, checks, links, tables, diagrams and plots.
+    #[default]
+    Full,
+    /// What is read at a glance: the values, the warnings, the checks (a check that
+    /// disagrees is a warning) and the links to a next calculator; no tables,
+    /// diagrams or plots, which are neither built nor formatted.
+    ///
+    /// Why: a page asks for this while every table and figure is off screen, and
+    /// writing their text is most of a solve's time (the bend's demo: 47 of its
+    /// 66 µs natively go to the report, most of it to the tables and the diagram).
+    /// Everything else is the same as [`Detail::Full`]'s: the builders of the parts
+    /// left out get the report only to read ([`Report::table`]), so they cannot add
+    /// a value or a warning that a headline solve would miss.
+    Headline,
+}
+
 /// Builds a [`Solution`]'s outputs in the requested unit system.
 #[derive(Debug)]
 pub struct Report<'a> {
     spec: &'a CalculatorSpec,
     system: UnitSystem,
+    detail: Detail,
+    /// What has been written. Tables, diagrams and plots go through
+    /// [`Report::table`], [`Report::diagram`] and [`Report::plot`] (they are built
+    /// only for [`Detail::Full`]); the tidy test refuses a push to them elsewhere.
     pub solution: Solution,
 }
 
 impl<'a> Report<'a> {
+    /// A report that builds everything ([`Detail::Full`]).
     pub fn new(spec: &'a CalculatorSpec, system: UnitSystem) -> Report<'a> {
+        Report::with_detail(spec, system, Detail::Full)
+    }
+    pub fn with_detail(spec: &'a CalculatorSpec, system: UnitSystem, detail: Detail) -> Report<'a> {
         Report {
             spec,
             system,
+            detail,
             solution: Solution::default(),
         }
     }
     pub fn system(&self) -> UnitSystem {
         self.system
+    }
+    pub fn detail(&self) -> Detail {
+        self.detail
+    }
+    /// Adds the table `build` makes, for [`Detail::Full`] only. `build` reads the
+    /// report (its units, its formatting) and cannot write to it.
+    pub fn table(&mut self, build: impl FnOnce(&Report<'a>) -> Table) {
+        if self.detail == Detail::Full {
+            let table = build(self);
+            self.solution.tables.push(table);
+        }
+    }
+    /// Adds the diagrams `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
+    pub fn diagrams(&mut self, build: impl FnOnce(&Report<'a>) -> Vec<Diagram>) {
+        if self.detail == Detail::Full {
+            let diagrams = build(self);
+            self.solution.diagrams.extend(diagrams);
+        }
+    }
+    /// Adds the diagram `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
+    pub fn diagram(&mut self, build: impl FnOnce(&Report<'a>) -> Diagram) {
+        self.diagrams(|report| vec![build(report)]);
+    }
+    /// Adds the plots `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
+    pub fn plots(&mut self, build: impl FnOnce(&Report<'a>) -> Vec<Plot>) {
+        if self.detail == Detail::Full {
+            let plots = build(self);
+            self.solution.plots.extend(plots);
+        }
+    }
+    /// Adds the plot `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
+    pub fn plot(&mut self, build: impl FnOnce(&Report<'a>) -> Plot) {
+        self.plots(|report| vec![build(report)]);
     }
     /// Records output `key` (which must be listed in the spec) with its SI value.
     /// An undescribed key or a non-finite value is a defect of the calculator: it is
@@ -813,9 +874,10 @@ impl<'a> Report<'a> {
     pub fn fmt(&self, si: f64, kind: QuantityKind) -> String {
         units::format_quantity_labelled(si, kind, self.system)
     }
-    /// The solution, with the `checks` table appended when any check was made.
+    /// The solution, with the `checks` table appended when any check was made (for
+    /// [`Detail::Full`]).
     pub fn finish(mut self) -> Solution {
-        if !self.solution.checks.is_empty() {
+        if self.detail == Detail::Full && !self.solution.checks.is_empty() {
             let table = checks_table(&self.solution.checks, self.system);
             self.solution.tables.push(table);
         }

@@ -8,7 +8,10 @@
 //!
 //! - no output, diagram coordinate or plot point is NaN or ±∞;
 //! - no output text, table cell or warning shows "—", "NaN" or "inf";
-//! - `Solution::defects` is empty and every `Solution::checks` entry agrees.
+//! - `Solution::defects` is empty and every `Solution::checks` entry agrees;
+//! - a headline solve (`Detail::Headline`, what a page asks for while typing) gives
+//!   the full solve's outcome without its tables, diagrams and plots: the same
+//!   values, warnings, checks, links, echoes and errors.
 //!
 //! Refused requests must name fields the calculator has. At least
 //! [`MIN_SOLVED_SHARE`] of the requests drawn inside the limits must solve, so the
@@ -20,7 +23,7 @@
 
 use std::time::{Duration, Instant};
 
-use fluxledger_core::catalog::{CalculatorSpec, Solution};
+use fluxledger_core::catalog::{CalculatorSpec, Detail, Solution};
 use fluxledger_core::{calculators, Request, SolveError, UnitSystem};
 use fluxledger_tests::generate::{self, Reach, Rng};
 
@@ -148,7 +151,7 @@ fn fuzz(spec: &CalculatorSpec, seed: u64, budget: Duration) -> Tally {
         if reach == Reach::Valid {
             tally.valid_requests += 1;
         }
-        let problems = match &outcome.result {
+        let mut problems = match &outcome.result {
             Ok(solution) => {
                 if reach == Reach::Valid {
                     tally.valid_solved += 1;
@@ -162,6 +165,7 @@ fn fuzz(spec: &CalculatorSpec, seed: u64, budget: Duration) -> Tally {
                 .collect(),
             Err(other) => vec![format!("{other}")],
         };
+        problems.extend(headline_difference(spec.key, &request, &outcome));
         if !problems.is_empty() && tally.failures.len() < 3 {
             tally.failures.push(format!(
                 "{}: {}\n    system: {:?}\n    inputs: {:?}",
@@ -173,6 +177,38 @@ fn fuzz(spec: &CalculatorSpec, seed: u64, budget: Duration) -> Tally {
         }
     }
     tally
+}
+
+/// How a headline solve of `request` differs from `full` (its full solve) beyond
+/// leaving out the tables, diagrams and plots: nothing, or what differs.
+fn headline_difference(key: &str, request: &Request, full: &calculators::Outcome) -> Option<String> {
+    let headline = calculators::solve_in_with(calculators::CALCULATORS, key, request, Detail::Headline);
+    let mut expected = full.clone();
+    if let Ok(solution) = &mut expected.result {
+        solution.tables.clear();
+        solution.diagrams.clear();
+        solution.plots.clear();
+    }
+    if headline == expected {
+        return None;
+    }
+    Some(match (&headline.result, &expected.result) {
+        (Ok(h), Ok(f)) if h.outputs != f.outputs => {
+            format!("headline outputs differ: {:?} against {:?}", h.outputs, f.outputs)
+        }
+        (Ok(h), Ok(f)) if h.warnings != f.warnings => {
+            format!("headline warnings differ: {:?} against {:?}", h.warnings, f.warnings)
+        }
+        (Ok(h), Ok(f)) if !h.tables.is_empty() || !h.diagrams.is_empty() || !h.plots.is_empty() => {
+            format!(
+                "a headline solve built {} tables, {} diagrams, {} plots",
+                h.tables.len(),
+                h.diagrams.len(),
+                h.plots.len()
+            )
+        }
+        _ => format!("headline solve differs from the full solve: {headline:?} against {expected:?}"),
+    })
 }
 
 /// Fuzzes the calculators with these keys and fails with every broken request found.

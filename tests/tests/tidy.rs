@@ -21,7 +21,8 @@
 //! - the invariants DEVELOPERS.md states as absences: no `serde` in the core, no
 //!   HTML-writing DOM calls in any page script, every wasm export named in
 //!   DEVELOPERS.md, every intra-doc link of the core resolving, no core line wider
-//!   than rustfmt's `max_width`;
+//!   than rustfmt's `max_width`, no calculator adding tables, diagrams or plots to
+//!   a solution past the report (a headline solve must be able to skip them);
 //! - the words on the pages: no user-facing text (titles, labels, help, options,
 //!   cautions, the tables, diagrams, plots, warnings and checks of the demo and of
 //!   every sourced case, the method notes) uses developer wording ("from memory",
@@ -226,6 +227,50 @@ fn every_calculator_has_a_sourced_case() {
         "these calculators have no reference case that checks their outputs: {}",
         missing.join(", ")
     );
+}
+
+/// The places in `source` where tables, diagrams or plots are added to a solution
+/// directly (`….tables.push(`, also split over lines by rustfmt), as
+/// `(byte offset in the text without whitespace, what)`.
+fn direct_part_writes(source: &str) -> Vec<(usize, String)> {
+    let compact: String = source.chars().filter(|c| !c.is_whitespace()).collect();
+    let mut found = Vec::new();
+    for part in ["tables", "diagrams", "plots"] {
+        for verb in ["push", "extend", "insert", "append"] {
+            let needle = format!(".{part}.{verb}(");
+            found.extend(compact.match_indices(&needle).map(|(at, what)| (at, what.to_string())));
+        }
+    }
+    found
+}
+
+#[test]
+fn calculators_add_tables_diagrams_and_plots_only_through_the_report() {
+    // A headline solve (`Detail::Headline`) skips them by not calling the builders
+    // given to `Report::table`, `diagram` and `plot`; a direct push would be built
+    // (and paid for) on every keystroke.
+    let mut files = Vec::new();
+    rust_files(
+        &workspace_root().join("core").join("src").join("calculators"),
+        &mut files,
+    );
+    assert!(files.len() > 20, "too few calculator files found: {}", files.len());
+    let problems: Vec<String> = files
+        .iter()
+        .flat_map(|path| {
+            direct_part_writes(&read_text(path))
+                .into_iter()
+                .map(move |(_, what)| format!("{}: `{what}` (use Report::table, diagram or plot)", path.display()))
+        })
+        .collect();
+    assert!(problems.is_empty(), "{}", problems.join("\n"));
+    // The reader sees the forms rustfmt writes.
+    assert_eq!(
+        direct_part_writes("report\n    .solution\n    .tables\n    .push(t);").len(),
+        1
+    );
+    assert_eq!(direct_part_writes("report.solution.plots.extend(p);").len(), 1);
+    assert!(direct_part_writes("report.table(|r| t);").is_empty());
 }
 
 fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {

@@ -159,7 +159,7 @@ pub fn solve(
         field_units: string_map(field_units, "field_units")?,
         system,
     };
-    let outcome = calculators::solve_in(served, key, &request);
+    let outcome = calculators::solve_in_with(served, key, &request, detail);
     let spec = calculators::spec_in(served, key);
     to_json(&view::solve_view_with(&outcome, spec.as_ref(), detail))
 }
@@ -417,10 +417,11 @@ mod tests {
         );
     }
 
-    /// The headline view of a solve carries exactly what the full view of the same
-    /// outcome carries, tables, diagrams and plots aside: for each calculator's
-    /// demo in both unit systems, and for a request it refuses (then the two views
-    /// are the same text).
+    /// A headline solve's view (what `solve_headline` returns) carries exactly what
+    /// a full solve's view carries, tables, diagrams and plots aside: for each
+    /// calculator's demo in both unit systems, and for a request it refuses (then
+    /// the two are the same text). The fuzz test compares the two solves' outcomes
+    /// over generated requests.
     #[test]
     fn the_headline_view_is_the_full_view_without_its_tables_diagrams_and_plots() {
         use super::{json, view, Request};
@@ -440,9 +441,12 @@ mod tests {
                     system,
                     ..demo_request(&spec, &[])
                 };
-                let outcome = calculators::solve(key, &request);
-                let full = view::solve_view_with(&outcome, Some(&spec), Detail::Full);
-                let headline = view::solve_view_with(&outcome, Some(&spec), Detail::Headline);
+                let full = view::solve_view_with(&calculators::solve(key, &request), Some(&spec), Detail::Full);
+                let headline = view::solve_view_with(
+                    &calculators::solve_in_with(CALCULATORS, key, &request, Detail::Headline),
+                    Some(&spec),
+                    Detail::Headline,
+                );
                 let (SolveView::Solved(full), SolveView::Headline(headline)) = (&full, &headline) else {
                     panic!(
                         "{key}, {system:?}: the demo solves in both views: {:.200}",
@@ -481,14 +485,19 @@ mod tests {
                 .fields
                 .iter()
                 .filter(|f| !f.si_unit.is_empty() && !f.demo.is_empty())
-                .map(|f| calculators::solve(key, &demo_request(&spec, &[(f.key, "not a number")])))
-                .find(|outcome| outcome.result.is_err());
-            let Some(outcome) = refused else {
+                .map(|f| demo_request(&spec, &[(f.key, "not a number")]))
+                .find(|request| calculators::solve(key, request).result.is_err());
+            let Some(request) = refused else {
                 panic!("{key}: no quantity field refuses \"not a number\"");
             };
+            let headline = calculators::solve_in_with(CALCULATORS, key, &request, Detail::Headline);
             assert_eq!(
-                text(&view::solve_view_with(&outcome, Some(&spec), Detail::Headline)),
-                text(&view::solve_view_with(&outcome, Some(&spec), Detail::Full)),
+                text(&view::solve_view_with(&headline, Some(&spec), Detail::Headline)),
+                text(&view::solve_view_with(
+                    &calculators::solve(key, &request),
+                    Some(&spec),
+                    Detail::Full
+                )),
                 "{key}: a refused request"
             );
         }

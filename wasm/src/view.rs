@@ -261,20 +261,12 @@ pub enum SolveView {
     Failed(FailedView),
 }
 
-/// How much of a solved result a view carries.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Detail {
-    /// Everything: values, warnings, links, tables, diagrams and plots.
-    Full,
-    /// What is read at a glance: the values, the warnings, the links to a next
-    /// calculator and the echoes; no tables, diagrams or plots.
-    ///
-    /// Why: the page asks for this while every table and figure is off screen (a
-    /// keystroke then waits for nothing else), and for the full result when it
-    /// catches them up. They are most of the result's text (on the bend page 16 of
-    /// its 19 kB), and writing that text is most of a solve's time.
-    Headline,
-}
+/// How much of a solved result a solve builds and its view carries: the core's
+/// [`Detail`]. The page asks for [`Detail::Headline`] while every table and figure
+/// is off screen (a keystroke then waits for nothing else) and for the full result
+/// when it catches them up. Tables, diagrams and plots are most of the result's text
+/// (on the bend page 16 of its 19 kB), and building them most of a solve's time.
+pub use fluxledger_core::catalog::Detail;
 
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct SolvedView {

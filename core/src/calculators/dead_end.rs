@@ -289,16 +289,17 @@ fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         .find(|o| o.key == closure)
         .map(|o| o.label)
         .unwrap_or(closure);
-    report.solution.tables.push(common::basis_table(vec![
-        ("Closure", closure_label.to_string()),
-        ("Thrust area basis", basis_text.to_string()),
-        ("Diameter used", report.fmt(d_used, Q::Length)),
-        ("Thrust area", report.fmt(area, Q::Area)),
-        ("Formula", "T = p·A (no flow, so no momentum flux)".to_string()),
-    ]));
-    report.solution.tables.push(common::ledger_table(balance, system));
-    let diagram = diagram(d, d_od, d_used, closure, balance, report);
-    report.solution.diagrams.push(diagram);
+    report.table(|report| {
+        common::basis_table(vec![
+            ("Closure", closure_label.to_string()),
+            ("Thrust area basis", basis_text.to_string()),
+            ("Diameter used", report.fmt(d_used, Q::Length)),
+            ("Thrust area", report.fmt(area, Q::Area)),
+            ("Formula", "T = p·A (no flow, so no momentum flux)".to_string()),
+        ])
+    });
+    report.table(|_| common::ledger_table(balance, system));
+    report.diagram(|report| diagram(d, d_od, d_used, closure, balance, report));
     let carry = common::thrust_carry_over(report, "Size a thrust block for this dead end", thrust.norm(), 0.0);
     report.solution.carry_over.push(carry);
 }

@@ -11,7 +11,7 @@
 //! available for every page ([`title`]: text only, no code), for the links from one
 //! result to the next page.
 
-use crate::catalog::{self, CalculatorSpec, FieldEcho, Report, Request, Solution, Values};
+use crate::catalog::{self, CalculatorSpec, Detail, FieldEcho, Report, Request, Solution, Values};
 use crate::error::{FieldError, SolveError};
 
 pub mod anchor;
@@ -201,6 +201,13 @@ pub fn solve(key: &str, request: &Request) -> Outcome {
 /// [`solve`] among the calculators `served`: a key not among them is
 /// [`SolveError::UnknownCalculator`].
 pub fn solve_in(served: &[Calculator], key: &str, request: &Request) -> Outcome {
+    solve_in_with(served, key, request, Detail::Full)
+}
+
+/// [`solve_in`] building only what `detail` asks for: a [`Detail::Headline`]
+/// solution has no tables, diagrams or plots, and everything else equal to the
+/// full solution's.
+pub fn solve_in_with(served: &[Calculator], key: &str, request: &Request, detail: Detail) -> Outcome {
     let Some(calculator) = served.iter().find(|c| c.key == key) else {
         return Outcome {
             echoes: Vec::new(),
@@ -212,7 +219,7 @@ pub fn solve_in(served: &[Calculator], key: &str, request: &Request) -> Outcome 
     let result = match values {
         Err(errors) => Err(SolveError::Fields(errors)),
         Ok(values) => {
-            let mut report = Report::new(&spec, request.system);
+            let mut report = Report::with_detail(&spec, request.system, detail);
             match (calculator.compute)(&values, &mut report) {
                 Ok(()) => Ok(report.finish()),
                 Err(errors) => Err(SolveError::Fields(errors)),

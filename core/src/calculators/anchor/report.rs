@@ -68,10 +68,9 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     write_checks(inputs, solved, report);
     write_warnings(inputs, solved, report);
     let system = report.system();
-    report.solution.tables.push(basis_table(inputs, solved, report));
-    report.solution.tables.push(ledger_table(solved, system));
-    let views = super::diagram::views(inputs, solved, report);
-    report.solution.diagrams.extend(views);
+    report.table(|report| basis_table(inputs, solved, report));
+    report.table(|_| ledger_table(solved, system));
+    report.diagrams(|report| super::diagram::views(inputs, solved, report));
 }
 
 /// The share of a run's weight the anchor carries (c·L·û×W moment factor c and the

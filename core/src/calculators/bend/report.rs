@@ -180,57 +180,57 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     );
     report.solution.carry_over.push(carry);
 
-    let system = report.system();
-    let equal = (d_in - d_out).abs() <= 1e-9 * d_in;
-    let direction = if equal && p_in > 0.0 {
-        "along the bisector of the bend, away from its centre (equal sizes; flow and weight tilt it slightly, \
-                see the angle)"
-    } else {
-        "as given by the angle: a reducing bend's thrust leaves the bisector"
-    };
-    let loss = if k > 0.0 {
-        format!(
-            "K = {} on the inlet velocity (method as typed)",
-            crate::units::format_significant(k, 3)
-        )
-    } else {
-        "none".to_string()
-    };
-    let plane_text = match plane {
-        Plane::Sag => "vertical, the line turning upward (a sag): fluid weight in the plane",
-        Plane::Crest => "vertical, the line turning downward (a crest): fluid weight in the plane",
-        Plane::Horizontal => "horizontal: fluid weight normal to the plane (carried by the bedding)",
-    };
-    let mut basis = common::balance_basis_rows(
-        &inputs.known,
-        &[
-            ("Velocity profile, inlet", &inputs.profile_in),
-            ("Velocity profile, outlet", &inputs.profile_out),
-        ],
-        inputs.weights,
-        g,
-    );
-    basis.extend(vec![
-        (
-            "Pressure area",
-            match outside {
-                Some((od_in, od_out)) => format!(
-                    "outside diameters {} and {} (push-on or mechanical joints, restrained or not): the \
-                            pressure on the wall annulus is its own ledger term; momentum on the bores",
-                    report.fmt(od_in, Q::Length),
-                    report.fmt(od_out, Q::Length)
-                ),
-                None => "inside diameter (welded, flanged or fused joints only)".to_string(),
-            },
-        ),
-        ("Direction of the thrust", direction.to_string()),
-        ("Plane", plane_text.to_string()),
-        ("Loss", loss),
-        ("Fluid", fluid.name.clone()),
-    ]);
-    report.solution.tables.push(common::basis_table(basis));
-    report.solution.tables.push(common::ledger_table(balance, system));
-    report.solution.tables.push(common::ports_table(balance, system));
-    let diagram = super::diagram::diagram(&geometry, balance, report);
-    report.solution.diagrams.push(diagram);
+    report.table(|report| {
+        let equal = (d_in - d_out).abs() <= 1e-9 * d_in;
+        let direction = if equal && p_in > 0.0 {
+            "along the bisector of the bend, away from its centre (equal sizes; flow and weight tilt it slightly, \
+                    see the angle)"
+        } else {
+            "as given by the angle: a reducing bend's thrust leaves the bisector"
+        };
+        let loss = if k > 0.0 {
+            format!(
+                "K = {} on the inlet velocity (method as typed)",
+                crate::units::format_significant(k, 3)
+            )
+        } else {
+            "none".to_string()
+        };
+        let plane_text = match plane {
+            Plane::Sag => "vertical, the line turning upward (a sag): fluid weight in the plane",
+            Plane::Crest => "vertical, the line turning downward (a crest): fluid weight in the plane",
+            Plane::Horizontal => "horizontal: fluid weight normal to the plane (carried by the bedding)",
+        };
+        let mut basis = common::balance_basis_rows(
+            &inputs.known,
+            &[
+                ("Velocity profile, inlet", &inputs.profile_in),
+                ("Velocity profile, outlet", &inputs.profile_out),
+            ],
+            inputs.weights,
+            g,
+        );
+        basis.extend(vec![
+            (
+                "Pressure area",
+                match outside {
+                    Some((od_in, od_out)) => format!(
+                        "outside diameters {} and {} (push-on or mechanical joints, restrained or not): the \
+                                pressure on the wall annulus is its own ledger term; momentum on the bores",
+                        report.fmt(od_in, Q::Length),
+                        report.fmt(od_out, Q::Length)
+                    ),
+                    None => "inside diameter (welded, flanged or fused joints only)".to_string(),
+                },
+            ),
+            ("Direction of the thrust", direction.to_string()),
+            ("Plane", plane_text.to_string()),
+            ("Loss", loss),
+            ("Fluid", fluid.name.clone()),
+        ]);
+        common::basis_table(basis)
+    });
+    report.table(|report| common::ledger_table(balance, report.system()));
+    report.table(|report| common::ports_table(balance, report.system()));
+    report.diagram(|report| super::diagram::diagram(&geometry, balance, report));
 }

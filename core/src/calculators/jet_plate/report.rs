@@ -63,18 +63,11 @@ pub fn write(inputs: &Inputs, plate: &Plate, report: &mut Report<'_>) {
     }
 
     let system = report.system();
-    report
-        .solution
-        .tables
-        .push(split_table(jet, theta, q_forward, q_back, system));
-    report
-        .solution
-        .tables
-        .push(common::ledger_table(&plate.balance, system));
-    report.solution.tables.push(common::ports_table(&plate.balance, system));
-    report.solution.tables.push(basis(inputs, report));
-    let diagram = super::diagram::diagram(inputs, plate, report);
-    report.solution.diagrams.push(diagram);
+    report.table(|_| split_table(jet, theta, q_forward, q_back, system));
+    report.table(|_| common::ledger_table(&plate.balance, system));
+    report.table(|_| common::ports_table(&plate.balance, system));
+    report.table(|report| basis(inputs, report));
+    report.diagram(|report| super::diagram::diagram(inputs, plate, report));
 }
 
 fn split_table(jet: &Jet, theta: f64, q_forward: f64, q_back: f64, system: units::UnitSystem) -> Table {

@@ -166,11 +166,11 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
         String::new(),
     ]);
     table.emphasised_rows.push(table.rows.len() - 1);
-    report.solution.tables.push(table);
+    report.table(|_| table);
 
     // Thrust by row, and the governing block drawn.
     let f_scale = units::convert_to(1.0, Q::Force, f_unit).unwrap_or(1.0);
-    report.solution.plots.push(Plot {
+    report.plot(|_| Plot {
         key: "thrust_by_row",
         title: "Thrust of each fitting".to_string(),
         x_label: "row".to_string(),
@@ -198,7 +198,7 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             report,
         );
         d.title = format!("Largest thrust, row {}: {}", g.row.line, d.title);
-        report.solution.diagrams.push(d);
+        report.diagram(|_| d);
         report.solution.carry_over.push(CarryOver {
             calculator: super::super::thrust_block::KEY,
             label: format!("Open row {} (largest thrust) on the thrust-restraint page", g.row.line),

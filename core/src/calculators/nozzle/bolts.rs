@@ -498,8 +498,7 @@ pub fn write(bolting: &Bolting, p1: f64, bore_area: f64, gasket_diameter: Option
             "flanges are drilled for a multiple of 4 bolts (ASME B16.5, EN 1092-1): check the count",
         );
     }
-    let table = table(bolting, end_force, where_, load, allowable, utilisation, report);
-    report.solution.tables.push(table);
+    report.table(|report| table(bolting, end_force, where_, load, allowable, utilisation, report));
 }
 
 fn table(

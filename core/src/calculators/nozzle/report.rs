@@ -104,16 +104,14 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
     }
 
     let system = report.system();
-    let basis = basis_table(inputs, nozzle, report);
-    report.solution.tables.push(basis);
-    report.solution.tables.push(common::ledger_table(balance, system));
-    report.solution.tables.push(common::ports_table(balance, system));
+    report.table(|report| basis_table(inputs, nozzle, report));
+    report.table(|_| common::ledger_table(balance, system));
+    report.table(|_| common::ports_table(balance, system));
     if let Some(bolting) = &inputs.bolts {
         let gasket = inputs.d_gasket.map(|g| g.value);
         super::bolts::write(bolting, inlet.pressure, nozzle.a_pipe, gasket, report);
     }
-    let diagram = super::diagram::diagram(inputs, nozzle, report);
-    report.solution.diagrams.push(diagram);
+    report.diagram(|report| super::diagram::diagram(inputs, nozzle, report));
     let carry = common::thrust_carry_over(
         report,
         "Size a thrust block for the jet reaction on the line",

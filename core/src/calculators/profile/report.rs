@@ -69,7 +69,7 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
         .carry_over
         .extend(common::profile_carry_overs(beta, alpha));
     if !basis.is_empty() {
-        report.solution.tables.push(common::basis_table(basis));
+        report.table(|_| common::basis_table(basis));
     }
     let to_unit = |u: f64| units::convert_to(u, Q::Velocity, unit).unwrap_or(u);
     let mut table = Table {
@@ -92,10 +92,10 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
             note.to_string(),
         ]);
     }
-    report.solution.tables.push(table);
+    report.table(|_| table);
     let mut curve: Vec<[f64; 2]> = s.samples.iter().rev().map(|(r, u, _)| [-r, to_unit(*u)]).collect();
     curve.extend(s.samples.iter().map(|(r, u, _)| [*r, to_unit(*u)]));
-    report.solution.plots.push(Plot {
+    report.plot(|_| Plot {
         key: "profile",
         title: "Velocity across the pipe".to_string(),
         x_label: "position r/R across the diameter".to_string(),

@@ -105,10 +105,9 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
     common::forward_warnings(&shown.balance, report);
 
     let system = report.system();
-    report.solution.tables.push(torque_ledger(shown, system));
-    report.solution.tables.push(common::ports_table(&shown.balance, system));
-    let drawing = super::diagram::draw(arm, shown, report);
-    report.solution.diagrams.push(drawing);
+    report.table(|_| torque_ledger(shown, system));
+    report.table(|_| common::ports_table(&shown.balance, system));
+    report.diagram(|report| super::diagram::draw(arm, shown, report));
     plots(solved, report);
 }
 
@@ -319,7 +318,7 @@ fn plots(solved: &Solved, report: &mut Report<'_>) {
             label: "largest power".to_string(),
         });
     }
-    report.solution.plots.push(Plot {
+    report.plot(|_| Plot {
         key: "torque_speed",
         title: "Torque against speed".to_string(),
         x_label: format!("speed ({speed_unit})"),
@@ -327,7 +326,7 @@ fn plots(solved: &Solved, report: &mut Report<'_>) {
         series: torque_series,
         markers: torque_markers,
     });
-    report.solution.plots.push(Plot {
+    report.plot(|_| Plot {
         key: "power_speed",
         title: "Shaft power against speed".to_string(),
         x_label: format!("speed ({speed_unit})"),

@@ -232,12 +232,11 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
                 .to_string(),
         ),
     ]);
-    report.solution.tables.push(common::basis_table(basis));
+    report.table(|_| common::basis_table(basis));
     let system = report.system();
-    report.solution.tables.push(common::ledger_table(balance, system));
-    report.solution.tables.push(common::ports_table(balance, system));
-    let diagram = super::diagram::diagram(d_in, d_out, length, axis, balance, report);
-    report.solution.diagrams.push(diagram);
+    report.table(|_| common::ledger_table(balance, system));
+    report.table(|_| common::ports_table(balance, system));
+    report.diagram(|report| super::diagram::diagram(d_in, d_out, length, axis, balance, report));
     // The carried force is the axial thrust; up is +z in plan view, +y in elevation.
     let up = if a.y.abs() > 0.5 {
         Vec3::new(0.0, 1.0, 0.0)

@@ -55,8 +55,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     warnings(inputs, solved, report);
     ledger(report, inputs, solved);
     comparison(report, inputs, solved);
-    let diagram = super::diagram::diagram(inputs, solved, report);
-    report.solution.diagrams.push(diagram);
+    report.diagram(|report| super::diagram::diagram(inputs, solved, report));
 }
 
 /// The resistance each method's length mobilises on the thrust line against the
@@ -234,7 +233,7 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
             .push(vec![label.clone(), cell(&solved.ductile_iron), cell(&solved.pvc)]);
     }
     table.emphasised_rows.push(table.rows.len() - 1);
-    report.solution.tables.push(table);
+    report.table(|_| table);
 }
 
 fn comparison(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
@@ -274,5 +273,5 @@ fn comparison(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         None => "typed values".to_string(),
     };
     table.rows.push(vec!["Soil values".into(), String::new(), soil]);
-    report.solution.tables.push(table);
+    report.table(|_| table);
 }

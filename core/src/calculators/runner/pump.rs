@@ -456,7 +456,7 @@ pub fn write(solved: &PumpSolved, runner: &Runner, temperature: Option<f64>, rep
     }
     // Specific speed alone is in the outputs; the table adds the slip and NPSH terms.
     if solved.slip.is_some() || solved.npsh.is_some() {
-        report.solution.tables.push(table(solved, temperature, report));
+        report.table(|report| table(solved, temperature, report));
     }
 }
 

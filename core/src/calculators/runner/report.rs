@@ -107,16 +107,11 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
     independent_checks(report, runner, t1, t2, torque, euler_head, pressure_rise);
 
     let system = report.system();
-    report.solution.tables.push(triangle_table(t1, t2, system));
-    report
-        .solution
-        .tables
-        .push(ledger(balance, *water_torque, euler_head, system));
+    report.table(|_| triangle_table(t1, t2, system));
+    report.table(|_| ledger(balance, *water_torque, euler_head, system));
     super::pump::write(&solved.pump, runner, solved.water_temperature, report);
-    let drawing = super::diagram::draw(t1, t2, report);
-    report.solution.diagrams.push(drawing);
-    let plot = head_plot(solved, report);
-    report.solution.plots.push(plot);
+    report.diagram(|report| super::diagram::draw(t1, t2, report));
+    report.plot(|report| head_plot(solved, report));
 }
 
 /// Checks against paths that do not use the engine's angular-momentum balance:

@@ -72,47 +72,46 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         }
     };
     let (impulse_number, impulse_unit) = units::display_parts(solved.run.impulse_of_history(), Q::Force, system);
-    report.solution.tables.push(common::basis_table(vec![
-        (
-            "Wave speed a",
-            format!("{} ({})", fmt(solved.wave_speed, Q::Velocity), solved.wave_source),
-        ),
-        (
-            "Density ρ",
-            format!("{} ({})", fmt(inputs.fluid.density, Q::Density), inputs.fluid.name),
-        ),
-        ("Round trip 2L/a", fmt(solved.round_trip, Q::Time)),
-        ("Closure", closure),
-        ("Joukowsky rise ρ·a·ΔV", fmt(solved.joukowsky, Q::Pressure)),
-        (
-            "Slow-closure estimate 2ρLΔV/t_c",
-            fmt(solved.slow_estimate, Q::Pressure),
-        ),
-        ("Surge used", format!("{}: {}", fmt(solved.surge, Q::Pressure), used)),
-        ("Design pressure p + Δp", fmt(solved.design, Q::Pressure)),
-        (
-            "Thrust area",
-            format!(
-                "{} on the {} ({})",
-                fmt(solved.area, Q::Area),
-                if inputs.joint.uses_od() {
-                    "outside diameter"
-                } else {
-                    "bore"
-                },
-                inputs.joint.label()
+    report.table(|_| {
+        common::basis_table(vec![
+            (
+                "Wave speed a",
+                format!("{} ({})", fmt(solved.wave_speed, Q::Velocity), solved.wave_source),
             ),
-        ),
-        (
-            "Transient thrust Δp·A at the valve or dead end",
-            fmt(solved.thrust_surge, Q::Force),
-        ),
-        ("Total thrust (p + Δp)·A", fmt(solved.thrust_total, Q::Force)),
-    ]));
-    report
-        .solution
-        .tables
-        .push(run_table(inputs, solved, report, (impulse_number, impulse_unit.id)));
+            (
+                "Density ρ",
+                format!("{} ({})", fmt(inputs.fluid.density, Q::Density), inputs.fluid.name),
+            ),
+            ("Round trip 2L/a", fmt(solved.round_trip, Q::Time)),
+            ("Closure", closure),
+            ("Joukowsky rise ρ·a·ΔV", fmt(solved.joukowsky, Q::Pressure)),
+            (
+                "Slow-closure estimate 2ρLΔV/t_c",
+                fmt(solved.slow_estimate, Q::Pressure),
+            ),
+            ("Surge used", format!("{}: {}", fmt(solved.surge, Q::Pressure), used)),
+            ("Design pressure p + Δp", fmt(solved.design, Q::Pressure)),
+            (
+                "Thrust area",
+                format!(
+                    "{} on the {} ({})",
+                    fmt(solved.area, Q::Area),
+                    if inputs.joint.uses_od() {
+                        "outside diameter"
+                    } else {
+                        "bore"
+                    },
+                    inputs.joint.label()
+                ),
+            ),
+            (
+                "Transient thrust Δp·A at the valve or dead end",
+                fmt(solved.thrust_surge, Q::Force),
+            ),
+            ("Total thrust (p + Δp)·A", fmt(solved.thrust_total, Q::Force)),
+        ])
+    });
+    report.table(|report| run_table(inputs, solved, report, (impulse_number, impulse_unit.id)));
     report.solution.carry_over.push(carry_over(inputs, solved, report));
     if solved.surge > inputs.work.value + 101_325.0 {
         report.warn(
@@ -123,7 +122,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         );
     }
     common::pipe_velocity_warning(report, "dv", "pipe", inputs.dv.value);
-    report.solution.diagrams.push(super::diagram::draw(solved, report));
+    report.diagram(|report| super::diagram::draw(solved, report));
 }
 
 fn run_table(inputs: &Inputs, solved: &Solved, report: &Report<'_>, impulse: (String, &str)) -> Table {

@@ -66,18 +66,11 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
     }
     mass_ledger(s, report);
     if let Some(balance) = &s.balance {
-        report
-            .solution
-            .tables
-            .push(common::ports_table(balance, report.system()));
-        report
-            .solution
-            .tables
-            .push(common::ledger_table(balance, report.system()));
+        report.table(|report| common::ports_table(balance, report.system()));
+        report.table(|report| common::ledger_table(balance, report.system()));
     }
     level_plot(s, report);
-    let section = section(s, report);
-    report.solution.diagrams.push(section);
+    report.diagram(|report| section(s, report));
 }
 
 /// The mass balance as a ledger at the start, at the largest outflow and at the end
@@ -102,7 +95,7 @@ fn mass_ledger(s: &Solved, report: &mut Report<'_>) {
             cell(rho * (inflow - outflow)),
         ]);
     }
-    report.solution.tables.push(Table {
+    report.table(|_| Table {
         key: "mass_ledger",
         title: "Mass ledger: inflow − outflow = storage term ρ·dV/dt (positive when filling)".to_string(),
         columns: vec![
@@ -183,21 +176,23 @@ fn classic(s: &Solved, c: &Classic, report: &mut Report<'_>) {
             "a discharge coefficient this close to 1 assumes an ideal, perfectly rounded outlet",
         );
     }
-    report.solution.tables.push(common::basis_table(vec![
-        ("Vessel", "vertical cylinder, vented".to_string()),
-        ("Method", CLASSIC_METHOD.to_string()),
-        (
-            "Coefficients",
-            format!(
-                "C_d = {}, C_v = {}, C_c = C_d/C_v = {}",
-                units::format_significant(c.cd, 4),
-                units::format_significant(c.cv, 4),
-                units::format_significant(c.cd / c.cv, 4)
+    report.table(|_| {
+        common::basis_table(vec![
+            ("Vessel", "vertical cylinder, vented".to_string()),
+            ("Method", CLASSIC_METHOD.to_string()),
+            (
+                "Coefficients",
+                format!(
+                    "C_d = {}, C_v = {}, C_c = C_d/C_v = {}",
+                    units::format_significant(c.cd, 4),
+                    units::format_significant(c.cv, 4),
+                    units::format_significant(c.cd / c.cv, 4)
+                ),
             ),
-        ),
-        ("Area ratio r = C_d·a/A_t", units::format_significant(r, 4)),
-        ("Ports table and ledger", "at the largest outflow".to_string()),
-    ]));
+            ("Area ratio r = C_d·a/A_t", units::format_significant(r, 4)),
+            ("Ports table and ledger", "at the largest outflow".to_string()),
+        ])
+    });
 }
 
 fn general(s: &Solved, g: &General, report: &mut Report<'_>) {
@@ -360,7 +355,7 @@ fn general(s: &Solved, g: &General, report: &mut Report<'_>) {
     if let Some(top) = s.top {
         basis.insert(1, ("Top of the vessel above the outlet", report.fmt(top, Q::Length)));
     }
-    report.solution.tables.push(common::basis_table(basis));
+    report.table(|_| common::basis_table(basis));
 }
 
 fn outlet_field(outlet: &Outlet) -> &'static str {
@@ -422,7 +417,7 @@ fn level_plot(s: &Solved, report: &mut Report<'_>) {
             label: "half the level change".to_string(),
         })
         .collect();
-    report.solution.plots.push(Plot {
+    report.plot(|_| Plot {
         key: "level",
         title: "Liquid level against time".to_string(),
         x_label: format!("time ({t_unit})"),

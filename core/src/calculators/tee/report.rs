@@ -167,12 +167,11 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             },
         ),
     ]);
-    report.solution.tables.push(common::basis_table(basis));
-    report.solution.tables.push(branch_table(inputs, solved, report));
-    report.solution.tables.push(common::ledger_table(balance, system));
-    report.solution.tables.push(common::ports_table(balance, system));
-    let diagram = super::diagram::diagram(inputs, solved, report);
-    report.solution.diagrams.push(diagram);
+    report.table(|_| common::basis_table(basis));
+    report.table(|report| branch_table(inputs, solved, report));
+    report.table(|_| common::ledger_table(balance, system));
+    report.table(|_| common::ports_table(balance, system));
+    report.diagram(|report| super::diagram::diagram(inputs, solved, report));
     let carry = common::thrust_carry_over(
         report,
         "Size a thrust block for this junction's thrust",

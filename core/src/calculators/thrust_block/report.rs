@@ -53,7 +53,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     if let Some(f) = &solved.fitting {
         pressure_table(report, &f.pressures);
         let system = report.system();
-        report.solution.tables.push(common::ledger_table(&f.balance, system));
+        report.table(|_| common::ledger_table(&f.balance, system));
     }
     let angle = match &inputs.subject {
         Subject::Fitting(f) => f.angle.value,
@@ -63,18 +63,19 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         Subject::Fitting(f) => f.kind.key(),
         Subject::Given { .. } => "force",
     };
-    let diagram = super::diagram::diagram(
-        fitting,
-        plane,
-        inputs.main_od.unwrap_or(0.3),
-        solved.fitting.as_ref().and_then(|f| f.od2),
-        (solved.inlet_angle, angle),
-        inputs.block.submerged,
-        solved.thrust,
-        &solved.block.shape(),
-        report,
-    );
-    report.solution.diagrams.push(diagram);
+    report.diagram(|report| {
+        super::diagram::diagram(
+            fitting,
+            plane,
+            inputs.main_od.unwrap_or(0.3),
+            solved.fitting.as_ref().and_then(|f| f.od2),
+            (solved.inlet_angle, angle),
+            inputs.block.submerged,
+            solved.thrust,
+            &solved.block.shape(),
+            report,
+        )
+    });
 }
 
 fn pressure_outputs(report: &mut Report<'_>, pr: &Pressures) {
@@ -331,7 +332,7 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
         "the design pressure of the thrust below".into(),
     ]);
     table.emphasised_rows.push(table.rows.len() - 1);
-    report.solution.tables.push(table);
+    report.table(|_| table);
 }
 
 /// The soil classes and the published tables side by side: every table row beside
@@ -402,7 +403,7 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
             ]);
         }
     }
-    report.solution.tables.push(table);
+    report.table(|_| table);
     let mut sources = Table {
         key: "soil_sources",
         title: "The soil tables: sources and safety-factor conventions".to_string(),
@@ -422,5 +423,5 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
         "This handbook's grouping of the tables' rows; each class takes the lowest value of its rows".into(),
         "as the table it comes from; a typed value from a geotechnical basis always wins".into(),
     ]);
-    report.solution.tables.push(sources);
+    report.table(|_| sources);
 }

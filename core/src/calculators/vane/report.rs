@@ -154,21 +154,14 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     }
 
     let system = report.system();
-    report.solution.tables.push(velocity_table(state, system));
-    report.solution.tables.push(energy_table(state, mode, jet, rho, system));
-    report
-        .solution
-        .tables
-        .push(optimum_table(jet, &vane, rho, best_single, best_wheel, system));
-    report
-        .solution
-        .tables
-        .push(common::ledger_table(&state.balance, system));
-    report.solution.tables.push(common::ports_table(&state.balance, system));
-    report.solution.tables.push(basis(inputs, report));
-    report.solution.plots.extend(plots(inputs, solved, system));
-    let diagram = super::diagram::diagram(jet, &vane, mode, state, report);
-    report.solution.diagrams.push(diagram);
+    report.table(|_| velocity_table(state, system));
+    report.table(|_| energy_table(state, mode, jet, rho, system));
+    report.table(|_| optimum_table(jet, &vane, rho, best_single, best_wheel, system));
+    report.table(|_| common::ledger_table(&state.balance, system));
+    report.table(|_| common::ports_table(&state.balance, system));
+    report.table(|report| basis(inputs, report));
+    report.plots(|_| plots(inputs, solved, system));
+    report.diagram(|report| super::diagram::diagram(jet, &vane, mode, state, report));
 }
 
 /// Checks against paths that do not go through the engine's momentum balance:
