@@ -720,8 +720,8 @@ pub enum Detail {
     /// diagrams or plots, which are neither built nor formatted.
     ///
     /// Why: a page asks for this while every table and figure is off screen, and
-    /// writing their text is most of a solve's time (the bend's demo: 47 of its
-    /// 66 µs natively go to the report, most of it to the tables and the diagram).
+    /// building their text is most of a solve's time (the bend's demo, natively:
+    /// about 40 % less time for the solve and its headline text).
     /// Everything else is the same as [`Detail::Full`]'s: the builders of the parts
     /// left out get the report only to read ([`Report::table`]), so they cannot add
     /// a value or a warning that a headline solve would miss.
