@@ -202,7 +202,9 @@ function settleInitialValues(spec, fromUrl) {
     if (isQuantity(field)) state.units[field.key] = defaultUnit(field, state.system);
   }
   if (fromUrl.size === 0) return null;
-  const result = solveNow();
+  // The headline only: the first render shows it, and asks for the tables and
+  // figures once it is painted (render-results.js).
+  const result = solveNow({ headline: true });
   if (!result || result.ok) return result;
   const fields = new Map(spec.fields.map((f) => [f.key, f]));
   const refused = new Set();
@@ -294,8 +296,21 @@ async function start() {
   recompute({ writeToUrl: false, solved });
   // Show each quantity as the core read it: the number, with its unit selected.
   for (const field of spec.fields) normaliseField(field);
-  updatePrintFooter();
-  updateSheet();
+  if (solved && solved.headline_only) {
+    // A link's first result is its headline: painted first; then, in one task,
+    // the printed sheet (its link and QR code) and the tables and figures, after
+    // which the page is ready.
+    requestAnimationFrame(() =>
+      setTimeout(() => {
+        updatePrintFooter();
+        updateSheet();
+        completeResult();
+      }, 0),
+    );
+  } else {
+    updatePrintFooter();
+    updateSheet();
+  }
   // The note's later sections lie far below the result: fetched (in idle time)
   // only now, so that they never share the connection with the module the first
   // result waits for.

@@ -20,6 +20,9 @@
 // for a headline result (`headline_only`: no tables, diagrams or plots, most of a
 // result's text); the deferred parts then wait for a full result, which catching
 // up asks for (`state.recompute` with `full`) before bringing them up to date.
+// A link's first result is a headline result too: the page's start asks for its
+// tables and figures once the headline is painted, and the page is `ready` (body
+// `data-state`) when they are shown.
 
 import { clip, el, setText } from "./dom.js";
 import { state } from "./state.js";
@@ -119,8 +122,7 @@ export function render(result) {
     });
   }
   if (result.headline_only) {
-    renderWithout(next);
-    finishRender("ready");
+    if (renderWithout(next) !== false) finishRender("ready");
     return;
   }
   for (const [index, table] of (result.tables || []).entries()) {
@@ -140,11 +142,21 @@ export function render(result) {
 /**
  * Shows a headline result: `next` (the parts it carries, never deferred) updated,
  * the deferred parts kept as they are and marked to wait for a full result. A
- * result whose parts differ from those shown is completed at once.
+ * result whose parts differ from those shown is completed at once. Returns false
+ * for a link's first result, whose tables and figures are still to come.
  */
 function renderWithout(next) {
   const deferred = parts.filter((p) => !p.eager);
   const shown = parts.filter((p) => p.eager);
+  if (parts.length === 0 && !state.firstResultMarked) {
+    // A link's first result (the page shows no part yet): the headline and the
+    // parts this result carries now; the page's start asks for the tables and
+    // figures once it is painted (`completeResult`), and the page is not `ready`
+    // until they are shown.
+    updateParts(next);
+    markFirstResult();
+    return false;
+  }
   if (deferred.length === 0 || shown.length !== next.length || next.some((part, i) => part.id !== shown[i].id)) {
     state.recompute({ writeToUrl: false, full: true });
     return;
@@ -443,6 +455,11 @@ function watch(node) {
 function finishRender(status) {
   // Written when it changes: a keystroke restyles nothing it does not change.
   if (document.body.dataset.state !== status) document.body.dataset.state = status;
+  markFirstResult();
+}
+
+/** Marks the first result the page shows (its headline values), once. */
+function markFirstResult() {
   if (!state.firstResultMarked) {
     state.firstResultMarked = true;
     performance.mark("fluxledger:first-result");

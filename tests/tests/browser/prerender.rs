@@ -198,6 +198,38 @@ fn a_link_with_a_query_shows_computing_not_the_demo_then_its_own_result() {
         thrust.as_str().is_some_and(|t| t.ends_with("lbf")),
         "the link's US result is shown: {thrust}"
     );
+    // The link's first result is its headline (the tables and figures are built
+    // once it is painted); ready, the page shows every table and the diagram the
+    // core gives for the link, none left stale.
+    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
+    let request = fluxledger_core::Request {
+        system: fluxledger_core::UnitSystem::UsCustomary,
+        ..fluxledger_core::catalog::demo_request(
+            &spec,
+            &[
+                ("angle", "30deg"),
+                ("d", "12in"),
+                ("p", "150psi"),
+                ("plane", "horizontal"),
+            ],
+        )
+    };
+    let solution = fluxledger_core::solve("bend", &request)
+        .result
+        .unwrap_or_else(|e| panic!("the link does not solve natively: {e:?}"));
+    let shown = eval(
+        &fresh,
+        &mut browser,
+        r##"[document.querySelectorAll("#calculator table.ledger").length,
+            document.querySelectorAll("#calculator svg.diagram").length,
+            document.querySelectorAll("#calculator [data-stale]").length,
+            performance.getEntriesByName("fluxledger:first-result").length]"##,
+    );
+    assert_eq!(
+        shown,
+        json!([solution.tables.len(), solution.diagrams.len(), 0, 1]),
+        "tables, diagrams, stale parts and first-result marks of the link's page"
+    );
     let errors = page_errors(&browser, &fresh);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
