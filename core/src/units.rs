@@ -670,14 +670,18 @@ pub fn resolve_unit(unit_text: &str, kind: QuantityKind) -> Result<&'static Unit
 /// The units of `kind` nearest to an unknown spelling, at most three, nearest first:
 /// a spelling that differs only in letter case (`MM` → mm; then only those), else
 /// one or two edits away (`kpsi` → ksi, psi), compared in lower case over ids and aliases.
+///
+/// ASCII lower case: no unit spelling has a cased letter outside ASCII (a unit test
+/// checks), so Unicode's full case tables (about 12 kB in every wasm module) would
+/// change no suggestion.
 fn nearest_units(norm: &str, kind: QuantityKind) -> Vec<String> {
-    let typed = norm.to_lowercase();
+    let typed = norm.to_ascii_lowercase();
     let budget = if typed.chars().count() <= 3 { 1 } else { 2 };
     let mut ranked: Vec<(usize, usize, &'static str)> = Vec::new();
     for (order, def) in units_of(kind).enumerate() {
         let distance = std::iter::once(def.id)
             .chain(def.aliases.iter().copied())
-            .map(|spelling| edit_distance(&typed, &spelling.to_lowercase()))
+            .map(|spelling| edit_distance(&typed, &spelling.to_ascii_lowercase()))
             .min()
             .unwrap_or(usize::MAX);
         if distance <= budget {
@@ -1528,6 +1532,22 @@ mod tests {
         for (i, a) in spellings.iter().enumerate() {
             assert!(!spellings[i + 1..].contains(a), "{a} is listed twice");
             assert!(!ABSOLUTE_PRESSURE_SPELLINGS.contains(a), "{a} is also refused");
+        }
+    }
+
+    #[test]
+    fn no_unit_spelling_has_a_cased_letter_outside_ascii() {
+        // The suggestions for an unknown unit compare in ASCII lower case
+        // (`nearest_units`): a spelling with such a letter would need Unicode's.
+        for def in UNITS {
+            for spelling in std::iter::once(def.id).chain(def.aliases.iter().copied()) {
+                assert!(
+                    spelling
+                        .chars()
+                        .all(|c| c.is_ascii() || (c.to_lowercase().eq([c]) && c.to_uppercase().eq([c]))),
+                    "{spelling} has a cased letter outside ASCII"
+                );
+            }
         }
     }
 
