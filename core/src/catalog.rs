@@ -756,9 +756,6 @@ impl<'a> Report<'a> {
     pub fn system(&self) -> UnitSystem {
         self.system
     }
-    pub fn detail(&self) -> Detail {
-        self.detail
-    }
     /// Adds the table `build` makes, for [`Detail::Full`] only. `build` reads the
     /// report (its units, its formatting) and cannot write to it.
     pub fn table(&mut self, build: impl FnOnce(&Report<'a>) -> Table) {

@@ -229,16 +229,15 @@ fn every_calculator_has_a_sourced_case() {
     );
 }
 
-/// The places in `source` where tables, diagrams or plots are added to a solution
-/// directly (`….tables.push(`, also split over lines by rustfmt), as
-/// `(byte offset in the text without whitespace, what)`.
-fn direct_part_writes(source: &str) -> Vec<(usize, String)> {
+/// The calls in `source` that add tables, diagrams or plots to a solution directly
+/// (`….tables.push(`, also split over lines by rustfmt), one entry per call.
+fn direct_part_writes(source: &str) -> Vec<String> {
     let compact: String = source.chars().filter(|c| !c.is_whitespace()).collect();
     let mut found = Vec::new();
     for part in ["tables", "diagrams", "plots"] {
         for verb in ["push", "extend", "insert", "append"] {
             let needle = format!(".{part}.{verb}(");
-            found.extend(compact.match_indices(&needle).map(|(at, what)| (at, what.to_string())));
+            found.extend(compact.matches(&needle).map(str::to_string));
         }
     }
     found
@@ -260,7 +259,7 @@ fn calculators_add_tables_diagrams_and_plots_only_through_the_report() {
         .flat_map(|path| {
             direct_part_writes(&read_text(path))
                 .into_iter()
-                .map(move |(_, what)| format!("{}: `{what}` (use Report::table, diagram or plot)", path.display()))
+                .map(move |what| format!("{}: `{what}` (use Report::table, diagram or plot)", path.display()))
         })
         .collect();
     assert!(problems.is_empty(), "{}", problems.join("\n"));
