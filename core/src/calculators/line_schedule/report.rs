@@ -79,94 +79,97 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
         units::UnitSystem::Si => ("mm", "m"),
         units::UnitSystem::UsCustomary => ("in", "ft"),
     };
-    let cell = |v: f64, kind: Q, unit: &str| {
-        units::convert_to(v, kind, unit)
-            .map(|x| units::format_significant(x, 4))
-            .unwrap_or_default()
-    };
-    let mut table = Table {
-        key: "schedule",
-        title: "Thrust and block of every fitting".to_string(),
-        columns: vec![
-            "Row".into(),
-            "Tag".into(),
-            "Kind".into(),
-            format!("thrust diameter ({d_unit}), basis"),
-            "Angle (deg)".into(),
-            "Pressure basis".into(),
-            format!("elevation ({z_unit})"),
-            format!("surge allowance ({p_unit})"),
-            format!("pressure used ({p_unit})"),
-            format!("thrust ({f_unit})"),
-            "Direction".into(),
-            "Block".into(),
-            "Soil".into(),
-            "Restrained length per side".into(),
-        ],
-        rows: Vec::with_capacity(solved.len() + 1),
-        emphasised_rows: Vec::new(),
-    };
-    for s in solved {
-        let kind = s.row.kind.key();
-        let (block_text, soil_text) = block_and_soil_text(s, inputs, report);
+    // The table's text is built only for a full solve (a headline solve skips it).
+    report.table(|report| {
+        let cell = |v: f64, kind: Q, unit: &str| {
+            units::convert_to(v, kind, unit)
+                .map(|x| units::format_significant(x, 4))
+                .unwrap_or_default()
+        };
+        let mut table = Table {
+            key: "schedule",
+            title: "Thrust and block of every fitting".to_string(),
+            columns: vec![
+                "Row".into(),
+                "Tag".into(),
+                "Kind".into(),
+                format!("thrust diameter ({d_unit}), basis"),
+                "Angle (deg)".into(),
+                "Pressure basis".into(),
+                format!("elevation ({z_unit})"),
+                format!("surge allowance ({p_unit})"),
+                format!("pressure used ({p_unit})"),
+                format!("thrust ({f_unit})"),
+                "Direction".into(),
+                "Block".into(),
+                "Soil".into(),
+                "Restrained length per side".into(),
+            ],
+            rows: Vec::with_capacity(solved.len() + 1),
+            emphasised_rows: Vec::new(),
+        };
+        for s in solved {
+            let kind = s.row.kind.key();
+            let (block_text, soil_text) = block_and_soil_text(s, inputs, report);
+            table.rows.push(vec![
+                s.row.line.to_string(),
+                s.row.tag.clone(),
+                kind.to_string(),
+                if s.area_d > 0.0 {
+                    format!(
+                        "{} {}",
+                        cell(s.area_d, Q::Length, d_unit),
+                        if s.on_od { "OD" } else { "ID" }
+                    )
+                } else {
+                    String::new()
+                },
+                s.row
+                    .angle
+                    .map(|a| units::format_significant(a.to_degrees(), 4))
+                    .unwrap_or_default(),
+                basis_text(&s.from, inputs.basis),
+                s.row.z.map(|z| cell(z, Q::Length, z_unit)).unwrap_or_default(),
+                surge_text(s, inputs, |v| cell(v, Q::Pressure, p_unit), report),
+                cell(s.p, Q::Pressure, p_unit),
+                cell(s.thrust.norm(), Q::Force, f_unit),
+                direction_text(&s.row, s.plane, s.thrust),
+                block_text,
+                soil_text,
+                super::super::restrained_length::schedule::cell(
+                    &s.row,
+                    s.p,
+                    s.plane,
+                    s.joint,
+                    inputs.sf.value,
+                    &inputs.restrained,
+                    report,
+                ),
+            ]);
+        }
         table.rows.push(vec![
-            s.row.line.to_string(),
-            s.row.tag.clone(),
-            kind.to_string(),
-            if s.area_d > 0.0 {
-                format!(
-                    "{} {}",
-                    cell(s.area_d, Q::Length, d_unit),
-                    if s.on_od { "OD" } else { "ID" }
-                )
-            } else {
-                String::new()
-            },
-            s.row
-                .angle
-                .map(|a| units::format_significant(a.to_degrees(), 4))
-                .unwrap_or_default(),
-            basis_text(&s.from, inputs.basis),
-            s.row.z.map(|z| cell(z, Q::Length, z_unit)).unwrap_or_default(),
-            surge_text(s, inputs, |v| cell(v, Q::Pressure, p_unit), report),
-            cell(s.p, Q::Pressure, p_unit),
-            cell(s.thrust.norm(), Q::Force, f_unit),
-            direction_text(&s.row, s.plane, s.thrust),
-            block_text,
-            soil_text,
-            super::super::restrained_length::schedule::cell(
-                &s.row,
-                s.p,
-                s.plane,
-                s.joint,
-                inputs.sf.value,
-                &inputs.restrained,
-                report,
+            "Total".into(),
+            String::new(),
+            format!("{} fittings", solved.len()),
+            String::new(),
+            String::new(),
+            String::new(),
+            String::new(),
+            String::new(),
+            String::new(),
+            cell(total, Q::Force, f_unit),
+            "sum of magnitudes".into(),
+            format!(
+                "{} bearing, {} gravity",
+                report.fmt(total_area, Q::Area),
+                report.fmt(total_volume, Q::Volume)
             ),
+            String::new(),
+            String::new(),
         ]);
-    }
-    table.rows.push(vec![
-        "Total".into(),
-        String::new(),
-        format!("{} fittings", solved.len()),
-        String::new(),
-        String::new(),
-        String::new(),
-        String::new(),
-        String::new(),
-        String::new(),
-        cell(total, Q::Force, f_unit),
-        "sum of magnitudes".into(),
-        format!(
-            "{} bearing, {} gravity",
-            report.fmt(total_area, Q::Area),
-            report.fmt(total_volume, Q::Volume)
-        ),
-        String::new(),
-        String::new(),
-    ]);
-    table.emphasised_rows.push(table.rows.len() - 1);
-    report.table(|_| table);
+        table.emphasised_rows.push(table.rows.len() - 1);
+        table
+    });
 
     // Thrust by row, and the governing block drawn.
     let f_scale = units::convert_to(1.0, Q::Force, f_unit).unwrap_or(1.0);
@@ -186,19 +189,21 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
     });
     if let Some(g) = solved.iter().max_by(|a, b| a.thrust.norm().total_cmp(&b.thrust.norm())) {
         let fitting = g.row.kind.key();
-        let mut d = super::super::thrust_block::diagram(
-            fitting,
-            g.plane,
-            g.od,
-            g.od2,
-            (0.0, g.row.angle.unwrap_or(PI / 4.0)),
-            false,
-            g.thrust,
-            &g.block,
-            report,
-        );
-        d.title = format!("Largest thrust, row {}: {}", g.row.line, d.title);
-        report.diagram(|_| d);
+        report.diagram(|report| {
+            let mut d = super::super::thrust_block::diagram(
+                fitting,
+                g.plane,
+                g.od,
+                g.od2,
+                (0.0, g.row.angle.unwrap_or(PI / 4.0)),
+                false,
+                g.thrust,
+                &g.block,
+                report,
+            );
+            d.title = format!("Largest thrust, row {}: {}", g.row.line, d.title);
+            d
+        });
         report.solution.carry_over.push(CarryOver {
             calculator: super::super::thrust_block::KEY,
             label: format!("Open row {} (largest thrust) on the thrust-restraint page", g.row.line),
