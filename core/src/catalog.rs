@@ -759,17 +759,11 @@ impl<'a> Report<'a> {
     /// Adds the table `build` makes, for [`Detail::Full`] only. `build` reads the
     /// report (its units, its formatting) and cannot write to it.
     pub fn table(&mut self, build: impl FnOnce(&Report<'a>) -> Table) {
-        if self.detail == Detail::Full {
-            let table = build(self);
-            self.solution.tables.push(table);
-        }
+        self.add_parts(|report| vec![build(report)], |solution| &mut solution.tables);
     }
     /// Adds the diagrams `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
     pub fn diagrams(&mut self, build: impl FnOnce(&Report<'a>) -> Vec<Diagram>) {
-        if self.detail == Detail::Full {
-            let diagrams = build(self);
-            self.solution.diagrams.extend(diagrams);
-        }
+        self.add_parts(build, |solution| &mut solution.diagrams);
     }
     /// Adds the diagram `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
     pub fn diagram(&mut self, build: impl FnOnce(&Report<'a>) -> Diagram) {
@@ -777,14 +771,23 @@ impl<'a> Report<'a> {
     }
     /// Adds the plots `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
     pub fn plots(&mut self, build: impl FnOnce(&Report<'a>) -> Vec<Plot>) {
-        if self.detail == Detail::Full {
-            let plots = build(self);
-            self.solution.plots.extend(plots);
-        }
+        self.add_parts(build, |solution| &mut solution.plots);
     }
     /// Adds the plot `build` makes, for [`Detail::Full`] only (as [`Report::table`]).
     pub fn plot(&mut self, build: impl FnOnce(&Report<'a>) -> Plot) {
         self.plots(|report| vec![build(report)]);
+    }
+    /// The one place that decides whether parts are built: runs `build` for
+    /// [`Detail::Full`] only and appends what it makes to the list `parts` picks.
+    fn add_parts<T>(
+        &mut self,
+        build: impl FnOnce(&Report<'a>) -> Vec<T>,
+        parts: impl FnOnce(&mut Solution) -> &mut Vec<T>,
+    ) {
+        if self.detail == Detail::Full {
+            let built = build(self);
+            parts(&mut self.solution).extend(built);
+        }
     }
     /// Records output `key` (which must be listed in the spec) with its SI value.
     /// An undescribed key or a non-finite value is a defect of the calculator: it is
