@@ -37,15 +37,16 @@
 //!
 //! The speed at the load is where the water's torque equals the load torque (a
 //! constant friction or brake torque, a torque growing with speed or with speed
-//! squared, or a speed held by the driven machine), found by bisection over engine
-//! balances. The runaway speed is where the water's torque falls to zero; with a
+//! squared, or a speed held by the driven machine), found over engine balances by a
+//! bracketed search to floating-point resolution (`numeric::sign_change`). The
+//! runaway speed is where the water's torque falls to zero; with a
 //! fixed flow it is ω = W·cos α / R (derived from the definition), and the power
 //! peaks at half of it. Bearing and seal friction, a constant torque T_b plus an
 //! optional viscous part c·ω, resists besides the load; the free-running speed is
 //! where the water's torque equals the friction alone. At fixed flow the water's
 //! torque is linear in ω, so against T₀ + c·ω the speed at the load is
 //! (ρQR·W·cos α − T₀)/(ρQR² + c), which the checks table compares with the
-//! bisection. The page opens fed at a fixed supply pressure, as a sprinkler on a
+//! searched speed. The page opens fed at a fixed supply pressure, as a sprinkler on a
 //! main is. With a fixed pressure and an ideal tangential nozzle
 //! (C_v·cos α = 1) the torque never falls to zero and there is no finite runaway
 //! speed: only friction and windage hold such an arm.

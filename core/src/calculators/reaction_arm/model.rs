@@ -521,7 +521,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         Some(0.0)
     } else {
         match bracket(scale, speed_limit, &fluid_torque).map_err(fail)? {
-            Some(hi) => Some(crate::numeric::bisect_sign_change(0.0, hi, fluid_torque).map_err(fail)?),
+            Some(hi) => Some(crate::numeric::sign_change(0.0, hi, fluid_torque).map_err(fail)?),
             None => None,
         }
     };
@@ -534,7 +534,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
             return Ok(Operating::DoesNotStart);
         }
         Ok(match bracket(scale, speed_limit, &net)? {
-            Some(hi) => Operating::At(crate::numeric::bisect_sign_change(0.0, hi, net)?),
+            Some(hi) => Operating::At(crate::numeric::sign_change(0.0, hi, net)?),
             None => Operating::LoadNeverBalances,
         })
     };

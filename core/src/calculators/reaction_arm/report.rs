@@ -69,7 +69,7 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
             let friction = solved.friction.torque(shown.omega);
             report.output("friction_torque", friction);
             // With no load the friction takes all the torque: nothing reaches a load
-            // (the bisection leaves a rounding residue of the torques, not shown).
+            // (the search leaves a rounding residue of the torques, not shown).
             let to_load = match load {
                 Load::None => 0.0,
                 _ => (shown.torque - friction) * shown.omega,
@@ -114,7 +114,7 @@ pub fn write(solved: &Solved, report: &mut Report<'_>) {
 /// At a fixed flow the water's torque is linear in speed, ρQR(W·cos α − ωR), so
 /// against a resisting torque T₀ + c·ω (constant and viscous friction, a constant or
 /// linear load) the speed has the closed form ω = (ρQR·W·cos α − T₀)/(ρQR² + c):
-/// compared with the speed the bisection found over the engine's balances.
+/// compared with the speed searched over the engine's balances.
 fn operating_check(report: &mut Report<'_>, solved: &Solved) {
     let (arm, friction) = (&solved.arm, solved.friction);
     let Drive::Flow(q) = arm.drive else { return };

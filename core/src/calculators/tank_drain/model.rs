@@ -464,13 +464,13 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, w
     };
     let r = tank.ratio;
     let time_to_wanted = tank.time(h1, wanted, 1.0 / 64.0);
-    // Beyond the longest time the run stops where the level is then (bisection on the
+    // Beyond the longest time the run stops where the level is then (a bracketed search on the
     // closed-form time, which falls as the level rises).
     let reached = time_to_wanted <= longest;
     let h2 = if reached {
         wanted
     } else {
-        crate::numeric::bisect_sign_change(wanted, h1, |h| Ok::<f64, ()>(tank.time(h1, h, 1.0 / 64.0) - longest))
+        crate::numeric::sign_change(wanted, h1, |h| Ok::<f64, ()>(tank.time(h1, h, 1.0 / 64.0) - longest))
             .unwrap_or(wanted)
     };
     let time = if reached { time_to_wanted } else { longest };
