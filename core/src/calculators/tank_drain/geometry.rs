@@ -13,12 +13,15 @@
 //! - a typed level–area table: A linear between rows, V its exact integral
 //!   (trapezoids, plus the quadratic part within the row where h falls).
 //!
-//! The level holding a volume is found by bisection on V(h) (monotone in h), except
+//! The level holding a volume is found by a bracketed search on V(h) (monotone in h,
+//! [`crate::numeric::sign_change`]), except
 //! for the vertical cylinder and the cone, which invert in closed form.
 
+use std::convert::Infallible;
 use std::f64::consts::PI;
 
 use crate::error::FieldError;
+use crate::numeric;
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
 /// Most rows of a level–area table.
@@ -123,22 +126,12 @@ impl Shape {
                 }
             }
             _ => {
-                let (mut lo, mut hi) = (0.0, top);
-                if self.volume(hi) <= volume {
-                    return hi;
+                if self.volume(top) <= volume {
+                    return top;
                 }
-                for _ in 0..200 {
-                    let mid = 0.5 * (lo + hi);
-                    if mid <= lo || mid >= hi {
-                        break;
-                    }
-                    if self.volume(mid) < volume {
-                        lo = mid;
-                    } else {
-                        hi = mid;
-                    }
-                }
-                0.5 * (lo + hi)
+                let short_of_volume = |level: f64| Ok::<_, Infallible>(volume - self.volume(level));
+                let Ok(level) = numeric::sign_change(0.0, top, short_of_volume);
+                level
             }
         }
     }

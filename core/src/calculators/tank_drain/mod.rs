@@ -26,8 +26,8 @@
 //! of the run's volume), until the level reaches the final level, the vessel empties,
 //! fills to its top, the level settles where the inflow equals the outflow, or the
 //! longest time to simulate has passed; the page says which. The steady level
-//! (Q_out(h) = Q_in, the final inflow) is found by bisection, the outflow rising with
-//! the level.
+//! (Q_out(h) = Q_in, the final inflow) is found by a bracketed search, the outflow
+//! rising with the level.
 //!
 //! # The unsteady energy balance of the vented vertical cylinder
 //! The one case without inflow or gas pressure, a vented vertical cylinder through an
@@ -87,7 +87,7 @@
 //! final level reached, the time by tanh-sinh quadrature of dt = A(h)·dh/(Q_in −
 //! Q_out(h)) over the level (a different variable and method than the run's);
 //! when the run settles, the level where it settled against the steady level found
-//! by bisection. The published closed forms the sourced cases use: the horizontal
+//! by a bracketed search. The published closed forms the sourced cases use: the horizontal
 //! cylinder, t = 4L/(3C_d·a·√(2g))·((D − h₂)^{3/2} − (D − h₁)^{3/2}); the sphere,
 //! t = π/(C_d·a·√(2g))·(⅔D(h₁^{3/2} − h₂^{3/2}) − ⅖(h₁^{5/2} − h₂^{5/2})); the cone,
 //! t = πR²/(H_c²·C_d·a·√(2g))·⅖(h₁^{5/2} − h₂^{5/2}) (each ∫A(h)dh/(C_d·a·√(2gh))).

@@ -23,7 +23,8 @@ const GENERAL_METHOD: &str = "mass balance dV/dt = Q_in − Q_out integrated in 
     quasi-steady energy balance of the outlet";
 const QUADRATURE_BASIS: &str = "tanh-sinh quadrature of dt = A(h)·dh/(Q_in − Q_out(h)) over the level, a second \
     path to the same time";
-const SETTLED_BASIS: &str = "the steady level where the outflow equals the inflow, found by bisection on Q_out(h)";
+const SETTLED_BASIS: &str =
+    "the steady level where the outflow equals the inflow, found by a bracketed search on Q_out(h)";
 
 /// Writes everything the page shows from the solved vessel.
 pub fn write(s: &Solved, report: &mut Report<'_>) {

@@ -7,7 +7,10 @@
 //! outlet (a sphere, a horizontal cylinder, a cone) dh/dt is unbounded near empty
 //! while dV/dt stays finite, so the step control sees a smooth problem.
 
+use std::convert::Infallible;
+
 use crate::friction::darcy_friction_factor;
+use crate::numeric;
 use crate::units::STANDARD_GRAVITY;
 
 use super::geometry::Shape;
@@ -166,7 +169,7 @@ impl Vessel {
 
     /// Pipe velocity V from g·H = ½V²·(1 + K) + ½V²·f·L/D (exit velocity head,
     /// minor losses, Darcy–Weisbach friction with f from Colebrook or 64/Re), by
-    /// bisection: the right side rises with V.
+    /// a bracketed search ([`numeric::sign_change`]): the right side rises with V.
     fn pipe_velocity(&self, head: f64, bore: f64, length: f64, roughness: f64, k_minor: f64) -> f64 {
         let energy = STANDARD_GRAVITY * head;
         if energy <= 0.0 {
@@ -176,19 +179,11 @@ impl Vessel {
             let reynolds = self.density * v * bore / self.viscosity;
             0.5 * v * v * (1.0 + k_minor) + friction_loss(v, reynolds, roughness / bore, length / bore)
         };
-        let (mut lo, mut hi) = (0.0, (2.0 * energy / (1.0 + k_minor)).sqrt());
-        for _ in 0..200 {
-            let mid = 0.5 * (lo + hi);
-            if mid <= lo || mid >= hi {
-                break;
-            }
-            if needed(mid) < energy {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        0.5 * (lo + hi)
+        // At the upper end the exit head alone takes all the energy.
+        let fastest = (2.0 * energy / (1.0 + k_minor)).sqrt();
+        let unspent = |v: f64| Ok::<_, Infallible>(energy - needed(v));
+        let Ok(velocity) = numeric::sign_change(0.0, fastest, unspent);
+        velocity
     }
 
     /// Levels where the outflow or the area has a kink: the shape's, and for an outlet
@@ -311,7 +306,7 @@ pub fn rk4(vessel: &Vessel, t: f64, v: f64, dt: f64, top: f64) -> f64 {
 /// outlet), for at most `longest` seconds.
 pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run {
     let top = vessel.top.unwrap_or(f64::INFINITY);
-    // Volumes beyond a bottomless top are not asked for; the bisection needs a bound.
+    // Volumes beyond a bottomless top are not asked for; the search needs a bound.
     let search_top = vessel.top.unwrap_or(2.0 * start.max(target) + 1.0);
     let level_of = |v: f64| vessel.shape.level_of(v, search_top.max(1e-9));
     let point = |t: f64, v: f64| {
@@ -425,7 +420,7 @@ pub fn integrate(vessel: &Vessel, start: f64, target: f64, longest: f64) -> Run 
 
 /// The point of the run with the largest outflow. The outflow rises with the level,
 /// so an interior peak is where the net flow changes sign from filling to draining;
-/// it is placed there by bisection within its step (an accepted point alone would
+/// it is placed there by a bracketed search within its step (an accepted point alone would
 /// put it wherever the step control happened to land).
 pub fn peak(vessel: &Vessel, run: &Run) -> Point {
     let points = &run.points;
@@ -452,20 +447,11 @@ pub fn peak(vessel: &Vessel, run: &Run) -> Point {
             continue;
         }
         let dt = pb.time - pa.time;
-        let (mut lo, mut hi) = (0.0, 1.0);
-        for _ in 0..100 {
-            let mid = 0.5 * (lo + hi);
-            if mid <= lo || mid >= hi {
-                break;
-            }
-            let v = rk4(vessel, pa.time, pa.volume, mid * dt, search_top);
-            if vessel.rate(pa.time + mid * dt, v, search_top) > 0.0 {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        let share = 0.5 * (lo + hi);
+        let net_rate = |share: f64| {
+            let v = rk4(vessel, pa.time, pa.volume, share * dt, search_top);
+            Ok::<_, Infallible>(vessel.rate(pa.time + share * dt, v, search_top))
+        };
+        let Ok(share) = numeric::sign_change(0.0, 1.0, net_rate);
         let volume = rk4(vessel, pa.time, pa.volume, share * dt, search_top);
         let time = pa.time + share * dt;
         let level = vessel.shape.level_of(volume, search_top);
@@ -481,27 +467,20 @@ pub fn peak(vessel: &Vessel, run: &Run) -> Point {
 }
 
 /// The share of a step of `dt` from (t, v) at which one RK4 step lands on `goal`,
-/// by bisection (the step's end is a smooth function of its length).
+/// by a bracketed search (the step's end is a smooth function of its length).
 fn step_to(vessel: &Vessel, t: f64, v: f64, dt: f64, goal: f64, top: f64) -> f64 {
     let rising = rk4(vessel, t, v, dt, top) > v;
-    let (mut lo, mut hi) = (0.0, 1.0);
-    for _ in 0..100 {
-        let mid = 0.5 * (lo + hi);
-        if mid <= lo || mid >= hi {
-            break;
-        }
-        let end = rk4(vessel, t, v, mid * dt, top);
-        if (end < goal) == rising {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    0.5 * (lo + hi)
+    // How far the step's end still is from the goal, positive short of it.
+    let short_of_goal = |share: f64| {
+        let end = rk4(vessel, t, v, share * dt, top);
+        Ok::<_, Infallible>(if rising { goal - end } else { end - goal })
+    };
+    let Ok(share) = numeric::sign_change(0.0, 1.0, short_of_goal);
+    share
 }
 
 /// The level where the outflow equals `inflow`, if the vessel holds it: the
-/// outflow rises with the level, so bisection on Q_out(h) − Q_in.
+/// outflow rises with the level, so the sign change of Q_in − Q_out(h).
 pub fn steady_level(vessel: &Vessel, inflow: f64) -> Option<f64> {
     if inflow <= 0.0 {
         return None;
@@ -523,19 +502,9 @@ pub fn steady_level(vessel: &Vessel, inflow: f64) -> Option<f64> {
     } else if vessel.outlet_at(hi).flow < inflow {
         return None;
     }
-    let (mut lo, mut hi) = (0.0, hi);
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if mid <= lo || mid >= hi {
-            break;
-        }
-        if vessel.outlet_at(mid).flow < inflow {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-    }
-    Some(0.5 * (lo + hi))
+    let filling = |level: f64| Ok::<_, Infallible>(inflow - vessel.outlet_at(level).flow);
+    let Ok(level) = numeric::sign_change(0.0, hi, filling);
+    Some(level)
 }
 
 /// Time from `high` to `low` (or back) with a constant inflow, by tanh-sinh
