@@ -392,11 +392,62 @@ pub struct Solved {
     pub rate_at_end: f64,
     /// The engine's balance at the largest outflow.
     pub balance: Option<Balance>,
-    /// (time, level) of the run.
-    pub curve: Vec<[f64; 2]>,
-    /// (time, level) when half the level change is done, if it was.
-    pub half_way: Option<[f64; 2]>,
+    /// The level against time, for the plot.
+    pub level_curve: LevelCurve,
     pub inlet_bore: Option<f64>,
+}
+
+/// The level against time: the integrated run's points, or the classic tank's
+/// closed-form time, made into a curve only when the plot asks for it (its
+/// [`CURVE_STEPS`] quadratures were most of a headline solve's time).
+#[derive(Clone, Debug)]
+pub enum LevelCurve {
+    /// (time, level) of the run, and when half the level change was done, if it was.
+    Points {
+        points: Vec<[f64; 2]>,
+        half_way: Option<[f64; 2]>,
+    },
+    /// The classic tank from level `from` down to level `to`.
+    Classic { tank: Tank, from: f64, to: f64 },
+}
+
+/// (time, level) points of a [`LevelCurve`], and when half the level change is done.
+pub struct LevelPoints {
+    pub points: Vec<[f64; 2]>,
+    pub half_way: Option<[f64; 2]>,
+}
+
+impl LevelCurve {
+    /// The curve's points (integrated now for the classic tank).
+    pub fn points(&self) -> LevelPoints {
+        match self {
+            LevelCurve::Points { points, half_way } => LevelPoints {
+                points: points.clone(),
+                half_way: *half_way,
+            },
+            LevelCurve::Classic { tank, from, to } => {
+                let (h1, h2) = (*from, *to);
+                let mut points = Vec::with_capacity(CURVE_STEPS + 1);
+                let mut elapsed = 0.0;
+                let mut previous = h1;
+                points.push([0.0, h1]);
+                let mut half_way = [0.0, 0.5 * (h1 + h2)];
+                for i in 1..=CURVE_STEPS {
+                    let h = h1 - (h1 - h2) * i as f64 / CURVE_STEPS as f64;
+                    elapsed += tank.time(previous, h, 1.0 / 16.0);
+                    if i == CURVE_STEPS / 2 {
+                        half_way[0] = elapsed;
+                    }
+                    previous = h;
+                    points.push([elapsed, h]);
+                }
+                LevelPoints {
+                    points,
+                    half_way: Some(half_way),
+                }
+            }
+        }
+    }
 }
 
 /// Solves the vessel.
@@ -499,21 +550,11 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, w
         });
     let tank_energy = 0.5 * h2 * r * r * v_end * v_end;
 
-    // Level against time.
-    let mut curve = Vec::with_capacity(CURVE_STEPS + 1);
-    let mut elapsed = 0.0;
-    let mut previous = h1;
-    curve.push([0.0, h1]);
-    let mut half_way = [0.0, 0.5 * (h1 + h2)];
-    for i in 1..=CURVE_STEPS {
-        let h = h1 - (h1 - h2) * i as f64 / CURVE_STEPS as f64;
-        elapsed += tank.time(previous, h, 1.0 / 16.0);
-        if i == CURVE_STEPS / 2 {
-            half_way[0] = elapsed;
-        }
-        previous = h;
-        curve.push([elapsed, h]);
-    }
+    let level_curve = LevelCurve::Classic {
+        tank: tank.clone(),
+        from: h1,
+        to: h2,
+    };
     let at_end = jet(v_end);
     Solved {
         shape: vessel.shape.clone(),
@@ -534,8 +575,7 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, w
         rate_at_start: 0.0,
         rate_at_end: -at_end.flow,
         balance: None,
-        curve,
-        half_way: Some(half_way),
+        level_curve,
         inlet_bore: None,
         method: Method::Classic(Box::new(Classic {
             time_quasi_steady: quasi_steady_time(&tank, h1, h2),
@@ -567,7 +607,7 @@ fn solve_general(vessel: Vessel, h1: f64, h2: f64, longest: f64) -> Solved {
     };
     let peak = run::peak(&vessel, &run);
     let first = run.points[0];
-    let curve: Vec<[f64; 2]> = thin(&run.points).iter().map(|p| [p.time, p.level]).collect();
+    let points: Vec<[f64; 2]> = thin(&run.points).iter().map(|p| [p.time, p.level]).collect();
     let half = 0.5 * (h1 + h2);
     let half_way = run
         .points
@@ -595,8 +635,7 @@ fn solve_general(vessel: Vessel, h1: f64, h2: f64, longest: f64) -> Solved {
         rate_at_start: first.inflow - first.outlet.flow,
         rate_at_end: last.inflow - last.outlet.flow,
         balance: None,
-        curve,
-        half_way,
+        level_curve: LevelCurve::Points { points, half_way },
         inlet_bore: None,
         method: Method::General(Box::new(General {
             vessel,

@@ -6,7 +6,7 @@ use crate::catalog::{Diagram, Marker, Plot, Report, Series, Shape, ShapeStyle, T
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
 use super::geometry::Shape as Vessel;
-use super::model::{Classic, General, Method, Solved};
+use super::model::{Classic, General, LevelPoints, Method, Solved};
 use super::run::{Inflow, Outlet, Stop, LAMINAR_LIMIT};
 use super::{CHECK_MAX_RATIO, UNSTEADY_NOTICE_RATIO};
 use crate::calculators::common;
@@ -399,35 +399,38 @@ fn stop_text(stop: Stop) -> &'static str {
     }
 }
 
-/// Level against time.
+/// Level against time (the classic tank's curve is integrated here, for a full solve
+/// only).
 fn level_plot(s: &Solved, report: &mut Report<'_>) {
-    let span = s.curve.last().map_or(0.0, |p| p[0]);
-    let (t_unit, h_unit) = match (report.system(), span > 48.0 * 3600.0) {
-        (UnitSystem::Si, false) => ("min", "m"),
-        (UnitSystem::Si, true) => ("h", "m"),
-        (UnitSystem::UsCustomary, false) => ("min", "ft"),
-        (UnitSystem::UsCustomary, true) => ("h", "ft"),
-    };
-    let t_out = |t: f64| units::convert_to(t, Q::Time, t_unit).unwrap_or(t);
-    let h_out = |h: f64| units::convert_to(h, Q::Length, h_unit).unwrap_or(h);
-    let markers = s
-        .half_way
-        .iter()
-        .map(|[t, h]| Marker {
-            at: [t_out(*t), h_out(*h)],
-            label: "half the level change".to_string(),
-        })
-        .collect();
-    report.plot(|_| Plot {
-        key: "level",
-        title: "Liquid level against time".to_string(),
-        x_label: format!("time ({t_unit})"),
-        y_label: format!("level above the outlet ({h_unit})"),
-        series: vec![Series {
-            name: "level".to_string(),
-            points: s.curve.iter().map(|[t, h]| [t_out(*t), h_out(*h)]).collect(),
-        }],
-        markers,
+    report.plot(|report| {
+        let LevelPoints { points, half_way } = s.level_curve.points();
+        let span = points.last().map_or(0.0, |p| p[0]);
+        let (t_unit, h_unit) = match (report.system(), span > 48.0 * 3600.0) {
+            (UnitSystem::Si, false) => ("min", "m"),
+            (UnitSystem::Si, true) => ("h", "m"),
+            (UnitSystem::UsCustomary, false) => ("min", "ft"),
+            (UnitSystem::UsCustomary, true) => ("h", "ft"),
+        };
+        let t_out = |t: f64| units::convert_to(t, Q::Time, t_unit).unwrap_or(t);
+        let h_out = |h: f64| units::convert_to(h, Q::Length, h_unit).unwrap_or(h);
+        let markers = half_way
+            .iter()
+            .map(|[t, h]| Marker {
+                at: [t_out(*t), h_out(*h)],
+                label: "half the level change".to_string(),
+            })
+            .collect();
+        Plot {
+            key: "level",
+            title: "Liquid level against time".to_string(),
+            x_label: format!("time ({t_unit})"),
+            y_label: format!("level above the outlet ({h_unit})"),
+            series: vec![Series {
+                name: "level".to_string(),
+                points: points.iter().map(|[t, h]| [t_out(*t), h_out(*h)]).collect(),
+            }],
+            markers,
+        }
     });
 }
 
