@@ -550,7 +550,10 @@ mod tests {
         assert_relative_eq!(solved.runaway.expect("finite"), runaway, max_relative = 1e-9);
         assert_eq!(solved.operating, model::Operating::At(solved.runaway.unwrap_or(0.0)));
         assert_relative_eq!(solved.peak.expect("a peak").0, 0.5 * runaway, max_relative = 1e-6);
-        assert_eq!(solved.curve.len(), PLOT_POINTS);
+        let curve = solved.curve().expect("balances");
+        assert_eq!(curve.len(), PLOT_POINTS);
+        // The curve reaches beyond runaway, where the water's torque is negative.
+        assert!(curve[PLOT_POINTS - 1].omega > runaway && curve[PLOT_POINTS - 1].torque < 0.0);
     }
 
     #[test]

@@ -473,12 +473,27 @@ pub struct Solved {
     pub peak: Option<(f64, f64)>,
     /// The state at the load (the stall state when there is no speed at the load).
     pub shown: State,
-    /// States from standstill to beyond runaway, for the torque and power curves.
-    pub curve: Vec<State>,
+    /// The highest speed of the torque and power curves, rad/s (beyond runaway).
+    pub curve_top: f64,
 }
 
-/// Solves the arm: stall, runaway, the speed at the load, the largest power and the
-/// curves, all from engine balances.
+impl Solved {
+    /// States at [`PLOT_POINTS`] speeds from standstill to [`Solved::curve_top`], for
+    /// the torque and power curves. Balanced only when the plots are built (a full
+    /// solve): they were about half of a headline solve's balances.
+    ///
+    /// # Errors
+    /// The first balance that fails (the plots are then left out; every value shown
+    /// comes from balances of its own).
+    pub fn curve(&self) -> Result<Vec<State>, EngineError> {
+        (0..PLOT_POINTS)
+            .map(|i| self.arm.state(self.curve_top * i as f64 / (PLOT_POINTS - 1) as f64))
+            .collect()
+    }
+}
+
+/// Solves the arm: stall, runaway, the speed at the load and the largest power, all
+/// from engine balances, and the top speed of the curves ([`Solved::curve`]).
 ///
 /// # Errors
 /// The field that makes the case impossible (the flow or pressure that drives the
@@ -605,10 +620,6 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         Some(w) if w > 0.0 => 1.1 * w.max(operating.speed().unwrap_or(0.0)),
         _ => 1.5 * operating.speed().unwrap_or(0.0).max(3.0 * scale),
     };
-    let curve = (0..PLOT_POINTS)
-        .map(|i| arm.state(top * i as f64 / (PLOT_POINTS - 1) as f64))
-        .collect::<Result<Vec<State>, EngineError>>()
-        .map_err(fail)?;
 
     Ok(Solved {
         arm,
@@ -621,7 +632,7 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, FieldErrors> {
         operating,
         peak,
         shown,
-        curve,
+        curve_top: top,
     })
 }
 

@@ -5,6 +5,7 @@
 use std::f64::consts::PI;
 
 use crate::catalog::{Marker, Plot, Report, Series, Table};
+use crate::engine::EngineError;
 use crate::units::{self, QuantityKind as Q, UnitSystem};
 
 use super::model::{efficiency_of, Arm, Drive, Load, Operating, Solved, State};
@@ -245,17 +246,22 @@ fn axis_unit(max_abs: f64, kind: Q, system: UnitSystem) -> &'static str {
     units::display_unit(max_abs, kind, system).id
 }
 
+/// The torque and power curves, balanced here (for a full solve only); left out when
+/// a balance on them fails.
 fn plots(solved: &Solved, report: &mut Report<'_>) {
+    report.plots(|report| curve_plots(solved, report.system()).unwrap_or_default());
+}
+
+fn curve_plots(solved: &Solved, system: UnitSystem) -> Result<Vec<Plot>, EngineError> {
     let Solved {
         load,
         runaway,
         operating,
-        curve: states,
         shown,
         ..
     } = solved;
+    let states = &solved.curve()?;
     let operating = operating.speed();
-    let system = report.system();
     let top = states.last().map(|s| s.omega).unwrap_or(0.0);
     let conv = |v: f64, kind: Q, unit: &str| units::convert_to(v, kind, unit).unwrap_or(f64::NAN);
     let speed_unit = axis_unit(top, Q::AngularSpeed, system);
@@ -318,15 +324,15 @@ fn plots(solved: &Solved, report: &mut Report<'_>) {
             label: "largest power".to_string(),
         });
     }
-    report.plot(|_| Plot {
+    let torque_plot = Plot {
         key: "torque_speed",
         title: "Torque against speed".to_string(),
         x_label: format!("speed ({speed_unit})"),
         y_label: format!("torque ({torque_unit})"),
         series: torque_series,
         markers: torque_markers,
-    });
-    report.plot(|_| Plot {
+    };
+    let power_plot = Plot {
         key: "power_speed",
         title: "Shaft power against speed".to_string(),
         x_label: format!("speed ({speed_unit})"),
@@ -339,5 +345,6 @@ fn plots(solved: &Solved, report: &mut Report<'_>) {
                 .collect(),
         }],
         markers: power_markers,
-    });
+    };
+    Ok(vec![torque_plot, power_plot])
 }
