@@ -71,15 +71,13 @@ pub struct CurvePoint {
     pub efficiency: f64,
 }
 
-/// The solved vane: the state at the blade speed given, the optima searched, and
-/// the balances at [`PLOT_POINTS`] blade speeds for a single vane and for a wheel.
+/// The solved vane: the state at the blade speed given and the optima searched
+/// (the curves for the plots are balanced by [`curve`] only when plotted).
 #[derive(Clone, Debug)]
 pub struct Solved {
     pub state: VaneState,
     pub best_single: VaneState,
     pub best_wheel: VaneState,
-    pub single_curve: Vec<CurvePoint>,
-    pub wheel_curve: Vec<CurvePoint>,
 }
 
 /// Why a valid set of inputs has no operating point on this page.
@@ -116,26 +114,33 @@ pub fn solve(inputs: &Inputs) -> Result<Solved, Refusal> {
     let state = vane_balance(fluid, jet, &vane, inputs.kind, inputs.u.value).map_err(named)?;
     let best_single = best_speed(fluid, jet, &vane, VaneKind::Single).map_err(named)?;
     let best_wheel = best_speed(fluid, jet, &vane, VaneKind::Wheel).map_err(named)?;
-    let curve = |mode: VaneKind| -> Result<Vec<CurvePoint>, FieldErrors> {
-        (0..PLOT_POINTS)
-            .map(|i| {
-                let u = jet.velocity.value * i as f64 / (PLOT_POINTS - 1) as f64;
-                let s = vane_balance(fluid, jet, &vane, mode, u).map_err(named)?;
-                Ok(CurvePoint {
-                    u,
-                    power: s.power,
-                    efficiency: s.efficiency,
-                })
-            })
-            .collect()
-    };
     Ok(Solved {
-        single_curve: curve(VaneKind::Single)?,
-        wheel_curve: curve(VaneKind::Wheel)?,
         state,
         best_single,
         best_wheel,
     })
+}
+
+/// The balances at [`PLOT_POINTS`] blade speeds from standstill to the jet speed, for
+/// a single vane or a wheel (`mode`): the power and efficiency curves. Balanced only
+/// when the plots are built (a full solve): they were most of a headline solve.
+///
+/// # Errors
+/// The first balance that fails (the plots are then left out; every value shown
+/// comes from balances of its own).
+pub fn curve(inputs: &Inputs, mode: VaneKind) -> Result<Vec<CurvePoint>, EngineError> {
+    let (fluid, jet, vane) = (&inputs.fluid, &inputs.jet, inputs.vane());
+    (0..PLOT_POINTS)
+        .map(|i| {
+            let u = jet.velocity.value * i as f64 / (PLOT_POINTS - 1) as f64;
+            let s = vane_balance(fluid, jet, &vane, mode, u)?;
+            Ok(CurvePoint {
+                u,
+                power: s.power,
+                efficiency: s.efficiency,
+            })
+        })
+        .collect()
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

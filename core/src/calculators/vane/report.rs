@@ -5,12 +5,13 @@
 use std::f64::consts::PI;
 
 use crate::catalog::{Marker, Plot, Report, Series, Table};
+use crate::engine::EngineError;
 use crate::error::FieldError;
 use crate::units::{self, QuantityKind as Q, UnitSystem, STANDARD_GRAVITY};
 use crate::vector::Vec3;
 
 use super::super::common::{self, Jet, JetGiven};
-use super::model::{CurvePoint, Inputs, Refusal, Solved, Vane, VaneKind, VaneState};
+use super::model::{self, CurvePoint, Inputs, Refusal, Solved, Vane, VaneKind, VaneState};
 use super::LARGEST_JET_RATIO;
 
 /// The field errors of a refusal, with speeds in the report's units.
@@ -160,7 +161,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     report.table(|_| common::ledger_table(&state.balance, system));
     report.table(|_| common::ports_table(&state.balance, system));
     report.table(|report| basis(inputs, report));
-    report.plots(|_| plots(inputs, solved, system));
+    report.plots(|_| plots(inputs, solved, system).unwrap_or_default());
     report.diagram(|report| super::diagram::diagram(jet, &vane, mode, state, report));
 }
 
@@ -407,8 +408,11 @@ fn basis(inputs: &Inputs, report: &Report<'_>) -> Table {
     common::basis_table(rows)
 }
 
-/// Power and efficiency against blade speed, from the balances of the solved curves.
-fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
+/// Power and efficiency against blade speed, from the balances of the curves
+/// ([`model::curve`], balanced here); none when a balance on them fails.
+fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Result<Vec<Plot>, EngineError> {
+    let single_curve = model::curve(inputs, VaneKind::Single)?;
+    let wheel_curve = model::curve(inputs, VaneKind::Wheel)?;
     let (fluid, jet, vane, mode, state) = (&inputs.fluid, &inputs.jet, inputs.vane(), inputs.kind, &solved.state);
     let v = jet.velocity.value;
     let c = 1.0 - vane.k * vane.theta.cos();
@@ -418,16 +422,13 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
     let sx = |u: f64| units::convert_to(u, Q::Velocity, speed_unit.id).unwrap_or(u);
     let py = |p: f64| units::convert_to(p, Q::Power, power_unit.id).unwrap_or(p);
     let series = |pick: &dyn Fn(&CurvePoint) -> [f64; 2]| {
-        [
-            ("single vane", &solved.single_curve),
-            ("wheel of vanes", &solved.wheel_curve),
-        ]
-        .into_iter()
-        .map(|(name, curve)| Series {
-            name: name.to_string(),
-            points: curve.iter().map(pick).collect(),
-        })
-        .collect::<Vec<Series>>()
+        [("single vane", &single_curve), ("wheel of vanes", &wheel_curve)]
+            .into_iter()
+            .map(|(name, curve)| Series {
+                name: name.to_string(),
+                points: curve.iter().map(pick).collect(),
+            })
+            .collect::<Vec<Series>>()
     };
     let mut power_markers = vec![
         Marker {
@@ -460,7 +461,7 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
         });
     }
     let x_label = format!("blade speed u ({})", speed_unit.id);
-    vec![
+    Ok(vec![
         Plot {
             key: "power",
             title: "Power against blade speed (balances at each speed)".to_string(),
@@ -477,5 +478,5 @@ fn plots(inputs: &Inputs, solved: &Solved, system: UnitSystem) -> Vec<Plot> {
             series: series(&|p| [sx(p.u), p.efficiency]),
             markers: efficiency_markers,
         },
-    ]
+    ])
 }
