@@ -8,9 +8,10 @@
 //!   when the bracket's midpoint no longer moves, i.e. at floating-point resolution,
 //!   as bisection does. Each step tries the false-position point with the Illinois
 //!   modification (the value kept at an end that stays twice running is halved) and
-//!   falls back to halving the bracket whenever two steps did not halve it, so it is
-//!   never much slower than bisection and on a smooth function takes about a fifth
-//!   of its steps (bisection needs about 55 to reach floating-point resolution).
+//!   falls back to halving the bracket whenever three steps did not halve it, so it
+//!   is never much slower than bisection and on a smooth function takes about a
+//!   fifth of its steps (bisection needs about 55 to reach floating-point
+//!   resolution). [`sign_change_of`] is the same for a function that cannot fail.
 //! - [`peak_of`]: the maximum of a smooth function with one peak: the sign change
 //!   of a central difference (see its doc for why not golden section).
 //!
@@ -20,13 +21,19 @@
 
 /// Finds x in [`lo`, `hi`] where `f` changes sign from positive (at `lo`) to not
 /// positive (at `hi`), to floating-point resolution (see the module docs for the
-/// method). When the ends do not have those signs, it bisects, and ends next to
-/// the end that has the wrong sign.
+/// method). `f` is evaluated at both ends too. When the ends do not have those
+/// signs, it bisects, and ends next to the end that has the wrong sign.
 ///
 /// # Errors
 /// The first error `f` returns.
 pub fn sign_change<E>(lo: f64, hi: f64, f: impl Fn(f64) -> Result<f64, E>) -> Result<f64, E> {
     sign_change_until(lo, hi, f, |_, _| false)
+}
+
+/// [`sign_change`] of a function that cannot fail.
+pub fn sign_change_of(lo: f64, hi: f64, f: impl Fn(f64) -> f64) -> f64 {
+    let Ok(x) = sign_change(lo, hi, |x| Ok::<_, std::convert::Infallible>(f(x)));
+    x
 }
 
 /// [`sign_change`], also stopping once `narrow_enough(lo, hi)` holds for the bracket.
@@ -122,7 +129,7 @@ mod tests {
     type Never = std::convert::Infallible;
 
     #[test]
-    fn bisection_finds_the_square_root_of_two() {
+    fn the_sign_change_of_two_minus_x_squared_is_the_square_root_of_two() {
         // √2 = 1.414 213 562 373 095 (closed form).
         let r = sign_change(0.0, 2.0, |x| Ok::<_, Never>(2.0 - x * x)).unwrap();
         assert_relative_eq!(r, std::f64::consts::SQRT_2, max_relative = 1e-15);

@@ -16,7 +16,8 @@
 //! The nodes depend only on the step: their transcendental parts (five per node) are
 //! computed once per step and kept ([`nodes`]), so that an integral costs only the
 //! integrand's evaluations; each node's distances and weight are formed from them
-//! with the same operations as before, so results are the same to the bit.
+//! with the same operations as from freshly computed values, so a kept node changes
+//! no result.
 
 use std::cell::RefCell;
 use std::f64::consts::FRAC_PI_2;

@@ -14,10 +14,9 @@
 //!   (trapezoids, plus the quadratic part within the row where h falls).
 //!
 //! The level holding a volume is found by a bracketed search on V(h) (monotone in h,
-//! [`crate::numeric::sign_change`]), except
+//! [`crate::numeric::sign_change_of`]), except
 //! for the vertical cylinder and the cone, which invert in closed form.
 
-use std::convert::Infallible;
 use std::f64::consts::PI;
 
 use crate::error::FieldError;
@@ -129,9 +128,7 @@ impl Shape {
                 if self.volume(top) <= volume {
                     return top;
                 }
-                let short_of_volume = |level: f64| Ok::<_, Infallible>(volume - self.volume(level));
-                let Ok(level) = numeric::sign_change(0.0, top, short_of_volume);
-                level
+                numeric::sign_change_of(0.0, top, |level| volume - self.volume(level))
             }
         }
     }

@@ -521,8 +521,7 @@ fn solve_classic(vessel: &Vessel, (orifice, cd, cv): (f64, f64, f64), h1: f64, w
     let h2 = if reached {
         wanted
     } else {
-        crate::numeric::sign_change(wanted, h1, |h| Ok::<f64, ()>(tank.time(h1, h, 1.0 / 64.0) - longest))
-            .unwrap_or(wanted)
+        crate::numeric::sign_change_of(wanted, h1, |h| tank.time(h1, h, 1.0 / 64.0) - longest)
     };
     let time = if reached { time_to_wanted } else { longest };
     let time_free_fall = (2.0 * (h1 - h2) / STANDARD_GRAVITY).sqrt();

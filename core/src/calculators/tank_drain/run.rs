@@ -7,8 +7,6 @@
 //! outlet (a sphere, a horizontal cylinder, a cone) dh/dt is unbounded near empty
 //! while dV/dt stays finite, so the step control sees a smooth problem.
 
-use std::convert::Infallible;
-
 use crate::friction::darcy_friction_factor;
 use crate::numeric;
 use crate::units::STANDARD_GRAVITY;
@@ -169,7 +167,7 @@ impl Vessel {
 
     /// Pipe velocity V from g·H = ½V²·(1 + K) + ½V²·f·L/D (exit velocity head,
     /// minor losses, Darcy–Weisbach friction with f from Colebrook or 64/Re), by
-    /// a bracketed search ([`numeric::sign_change`]): the right side rises with V.
+    /// a bracketed search ([`numeric::sign_change_of`]): the right side rises with V.
     fn pipe_velocity(&self, head: f64, bore: f64, length: f64, roughness: f64, k_minor: f64) -> f64 {
         let energy = STANDARD_GRAVITY * head;
         if energy <= 0.0 {
@@ -181,9 +179,7 @@ impl Vessel {
         };
         // At the upper end the exit head alone takes all the energy.
         let fastest = (2.0 * energy / (1.0 + k_minor)).sqrt();
-        let unspent = |v: f64| Ok::<_, Infallible>(energy - needed(v));
-        let Ok(velocity) = numeric::sign_change(0.0, fastest, unspent);
-        velocity
+        numeric::sign_change_of(0.0, fastest, |v| energy - needed(v))
     }
 
     /// Levels where the outflow or the area has a kink: the shape's, and for an outlet
@@ -449,9 +445,9 @@ pub fn peak(vessel: &Vessel, run: &Run) -> Point {
         let dt = pb.time - pa.time;
         let net_rate = |share: f64| {
             let v = rk4(vessel, pa.time, pa.volume, share * dt, search_top);
-            Ok::<_, Infallible>(vessel.rate(pa.time + share * dt, v, search_top))
+            vessel.rate(pa.time + share * dt, v, search_top)
         };
-        let Ok(share) = numeric::sign_change(0.0, 1.0, net_rate);
+        let share = numeric::sign_change_of(0.0, 1.0, net_rate);
         let volume = rk4(vessel, pa.time, pa.volume, share * dt, search_top);
         let time = pa.time + share * dt;
         let level = vessel.shape.level_of(volume, search_top);
@@ -473,10 +469,13 @@ fn step_to(vessel: &Vessel, t: f64, v: f64, dt: f64, goal: f64, top: f64) -> f64
     // How far the step's end still is from the goal, positive short of it.
     let short_of_goal = |share: f64| {
         let end = rk4(vessel, t, v, share * dt, top);
-        Ok::<_, Infallible>(if rising { goal - end } else { end - goal })
+        if rising {
+            goal - end
+        } else {
+            end - goal
+        }
     };
-    let Ok(share) = numeric::sign_change(0.0, 1.0, short_of_goal);
-    share
+    numeric::sign_change_of(0.0, 1.0, short_of_goal)
 }
 
 /// The level where the outflow equals `inflow`, if the vessel holds it: the
@@ -502,9 +501,9 @@ pub fn steady_level(vessel: &Vessel, inflow: f64) -> Option<f64> {
     } else if vessel.outlet_at(hi).flow < inflow {
         return None;
     }
-    let filling = |level: f64| Ok::<_, Infallible>(inflow - vessel.outlet_at(level).flow);
-    let Ok(level) = numeric::sign_change(0.0, hi, filling);
-    Some(level)
+    Some(numeric::sign_change_of(0.0, hi, |level| {
+        inflow - vessel.outlet_at(level).flow
+    }))
 }
 
 /// Time from `high` to `low` (or back) with a constant inflow, by tanh-sinh
