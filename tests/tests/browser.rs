@@ -504,7 +504,8 @@ mod hostile_parameters {
             )
             .unwrap();
         }
-        // Keystrokes recompute at the next animation frame.
+        // A keystroke recomputes at once, or at the next animation frame when one
+        // was solved in this frame already.
         page.eval(&mut browser, "new Promise(r => requestAnimationFrame(() => r(true)))")
             .unwrap();
         let errors = page

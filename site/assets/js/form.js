@@ -261,8 +261,9 @@ function fieldOf(target) {
 }
 
 /**
- * Text fields recompute at the next frame after a keystroke (several keystrokes in
- * one frame cost one solve); a choice recomputes at once when it is changed.
+ * A keystroke in a text field recomputes at once, or once at the next frame when
+ * a keystroke was already solved in this one (`recomputeForKeystroke`); a choice
+ * recomputes at once when it is changed.
  */
 function onInput(event) {
   const target = event.target;
@@ -272,7 +273,7 @@ function onInput(event) {
   if (!field) return;
   clearPassingNotices();
   state.values[field.key] = target.value;
-  state.recomputeNextFrame({ writeToUrl: true });
+  state.recomputeForKeystroke({ writeToUrl: true });
 }
 
 function onChange(event) {

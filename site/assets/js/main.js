@@ -93,18 +93,32 @@ function recordEchoes(result) {
 let frame = 0;
 /** Whether the recompute that frame runs writes the URL. */
 let frameWritesUrl = false;
+/** Whether a keystroke has been solved at once since the last animation frame began. */
+let keystrokeSolvedThisFrame = false;
 
 /**
- * Recomputes at the next animation frame: the keystrokes of one frame cost one
- * solve, with the latest inputs (the field values are stored as they are typed).
+ * Recomputes for a keystroke. The first keystroke after a frame is solved at once,
+ * in its input event: its result is then painted in the next frame, and the solve
+ * runs while the browser waits for that frame instead of inside it. Keystrokes that
+ * follow it before the next frame cost one solve at that frame, with the latest
+ * inputs (the field values are stored as they are typed): a burst costs at most
+ * two solves a frame, and the last one shown is always the latest inputs'.
  */
-function recomputeNextFrame({ writeToUrl }) {
+function recomputeForKeystroke({ writeToUrl }) {
   frameWritesUrl = frameWritesUrl || writeToUrl;
   // Parts off screen wait for this keystroke's result, and the URL for a pause in
   // typing after it: catching up or writing the link now would only delay its frame.
   holdCatchUp();
   if (urlTask) writeUrlSoon();
   if (frame) return;
+  if (!keystrokeSolvedThisFrame) {
+    keystrokeSolvedThisFrame = true;
+    requestAnimationFrame(() => {
+      keystrokeSolvedThisFrame = false;
+    });
+    recompute({ writeToUrl: false });
+    return;
+  }
   frame = requestAnimationFrame(() => {
     frame = 0;
     recompute({ writeToUrl: false });
@@ -273,7 +287,7 @@ async function start() {
   }
   state.spec = state.page.calculator;
   state.recompute = recompute;
-  state.recomputeNextFrame = recomputeNextFrame;
+  state.recomputeForKeystroke = recomputeForKeystroke;
   state.settlePending = settlePending;
   state.writeUrl = writeUrl;
   const spec = state.spec;

@@ -29,8 +29,8 @@ export const state = {
   converted: new Map(),
   /** Set by main.js: recomputes and renders ({writeToUrl, full}). */
   recompute: () => {},
-  /** Set by main.js: the same at the next animation frame, for keystrokes. */
-  recomputeNextFrame: () => {},
+  /** Set by main.js: the same for a keystroke (at once, or once at the next animation frame). */
+  recomputeForKeystroke: () => {},
   /** Set by main.js: runs a recompute waiting for its frame now. */
   settlePending: () => {},
 };

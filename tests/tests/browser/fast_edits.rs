@@ -1,4 +1,5 @@
-//! Fast edits: keystrokes are coalesced per animation frame and the page updates
+//! Fast edits: a keystroke after a quiet frame is solved at once and those that
+//! follow it in the same frame once at the next frame, and the page updates
 //! its parts in place; after a burst of edits the page shows exactly what the core
 //! computes for the final URL (headline values, every table cell, a diagram's
 //! restraint arrow, each value's full text in its title), and the table and the
@@ -220,6 +221,85 @@ fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
     assert_eq!(
         patched, drawn,
         "the patched diagram differs from the one a page opened with the same link draws"
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+/// Two keystrokes in one frame after quiet frames: the headline right after each,
+/// and after the next frame.
+const TWO_IN_ONE_FRAME: &str = r#"(async () => {
+  const frame = () => new Promise((r) => requestAnimationFrame(() => r()));
+  await frame();
+  await frame();
+  const value = document.querySelector('.headline dd[data-output]');
+  const type = (text) => {
+    const input = document.getElementById('field-p');
+    input.value = text;
+    input.dispatchEvent(new Event('input', { bubbles: true }));
+    return value.textContent;
+  };
+  const before = value.textContent;
+  const first = type('20');
+  const second = type('30');
+  await frame();
+  return JSON.stringify({ key: value.dataset.output, before, first, second, next: value.textContent });
+})()"#;
+
+/// The first keystroke after a quiet frame is shown without waiting for a frame
+/// (its result is painted in the next one); a second keystroke in that frame waits
+/// for the next frame, which shows the latest inputs' result. Each shown value is
+/// the core's for the inputs typed by then.
+#[test]
+fn a_keystroke_after_a_quiet_frame_is_solved_at_once_and_the_next_one_at_the_next_frame() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch {
+        width: 360,
+        height: 740,
+    });
+    page.goto(&mut browser, &format!("{}/bend.html", site.base)).unwrap();
+    assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
+    let shown = page.eval(&mut browser, TWO_IN_ONE_FRAME).unwrap();
+    let shown: Value = serde_json::from_str(shown.as_str().unwrap_or("null")).unwrap();
+    let text = |name: &str| shown[name].as_str().unwrap_or_default().to_string();
+    let key = text("key");
+    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
+    let core_text = |pressure: &str| {
+        let solution = fluxledger_core::solve("bend", &demo_request(&spec, &[("p", pressure)]))
+            .result
+            .unwrap_or_else(|e| panic!("p = {pressure} does not solve natively: {e:?}"));
+        solution
+            .output(&key)
+            .unwrap_or_else(|| panic!("the core gives no output '{key}'"))
+            .text
+            .clone()
+    };
+    let (at_20, at_30) = (core_text("20bar"), core_text("30bar"));
+    assert_ne!(
+        leading_number(&at_20),
+        leading_number(&at_30),
+        "the two pressures must differ in {key}"
+    );
+    assert_ne!(
+        text("before"),
+        text("first"),
+        "the first keystroke was not shown at once: {shown}"
+    );
+    assert_eq!(
+        leading_number(&text("first")),
+        leading_number(&at_20),
+        "first keystroke: {shown}"
+    );
+    assert_eq!(
+        text("second"),
+        text("first"),
+        "the second keystroke in the same frame was solved at once: {shown}"
+    );
+    assert_eq!(
+        leading_number(&text("next")),
+        leading_number(&at_30),
+        "after the frame: {shown}"
     );
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
