@@ -12,7 +12,7 @@ use serde_json::Value;
 
 use fluxledger_core::catalog::{demo_request, Shape, ShapeStyle};
 
-use crate::cdp::Launch;
+use crate::cdp::{Browser, Launch, Page};
 use crate::harness::{fixture, launched, one_at_a_time, page_errors};
 
 const OUTPUTS: &str =
@@ -50,9 +50,8 @@ fn leading_number(text: &str) -> String {
         .collect()
 }
 
-#[test]
-fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
-    let _turn = one_at_a_time();
+/// The bend page on a phone-sized screen, rendered and ready for edits.
+fn bend_page_ready() -> (Browser, Page) {
     let site = fixture();
     let (mut browser, page) = launched(Launch {
         width: 360,
@@ -60,6 +59,13 @@ fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
     });
     page.goto(&mut browser, &format!("{}/bend.html", site.base)).unwrap();
     assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
+    (browser, page)
+}
+
+#[test]
+fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
+    let _turn = one_at_a_time();
+    let (mut browser, page) = bend_page_ready();
     page.eval(
         &mut browser,
         "window.before = { svg: document.querySelector('svg.diagram'), table: document.querySelector('table.ledger') }",
@@ -253,13 +259,7 @@ const TWO_IN_ONE_FRAME: &str = r#"(async () => {
 #[test]
 fn a_keystroke_after_a_quiet_frame_is_solved_at_once_and_the_next_one_at_the_next_frame() {
     let _turn = one_at_a_time();
-    let site = fixture();
-    let (mut browser, page) = launched(Launch {
-        width: 360,
-        height: 740,
-    });
-    page.goto(&mut browser, &format!("{}/bend.html", site.base)).unwrap();
-    assert_eq!(page.wait_rendered(&mut browser).unwrap(), "ready");
+    let (mut browser, page) = bend_page_ready();
     let shown = page.eval(&mut browser, TWO_IN_ONE_FRAME).unwrap();
     let shown: Value = serde_json::from_str(shown.as_str().unwrap_or("null")).unwrap();
     let text = |name: &str| shown[name].as_str().unwrap_or_default().to_string();
