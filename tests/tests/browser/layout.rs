@@ -233,8 +233,10 @@ fn a_table_wider_than_its_box_shows_that_it_scrolls() {
     browser
         .pump(Duration::from_millis(200))
         .unwrap_or_else(|e| panic!("{e}"));
-    // Each table: [key, wider than its box, marked, hint shown, faded edge].
-    let tables = "JSON.stringify([...document.querySelectorAll('.panel-table')].map(p => {         const box = p.querySelector('.table-scroll');         return [p.querySelector('table').dataset.table, box.scrollWidth > box.clientWidth + 1,           p.hasAttribute('data-overflows'),           getComputedStyle(p.querySelector('.table-actions'), '::before').content.includes('Scroll'),           getComputedStyle(box).maskImage !== 'none']; }))";
+    // Each table, read once it has been scrolled into view and painted (off screen a
+    // table is not laid out, so its cue waits for the frame that shows it):
+    // [key, wider than its box, marked, hint shown, faded edge].
+    let tables = "(async () => { const rows = [];       for (const p of document.querySelectorAll('.panel-table')) {         p.scrollIntoView();         await new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r)));         const box = p.querySelector('.table-scroll');         rows.push([p.querySelector('table').dataset.table, box.scrollWidth > box.clientWidth + 1,           p.hasAttribute('data-overflows'),           getComputedStyle(p.querySelector('.table-actions'), '::before').content.includes('Scroll'),           getComputedStyle(box).maskImage !== 'none']);       }       return JSON.stringify(rows); })()";
     let rows: Vec<(String, bool, bool, bool, bool)> =
         serde_json::from_str(eval(&page, &mut browser, tables).as_str().unwrap_or("[]")).unwrap_or_default();
     assert!(rows.iter().any(|r| r.1), "no table is wider than a phone: {rows:?}");
