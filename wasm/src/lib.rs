@@ -2,7 +2,8 @@
 //! `fluxledger-core`.
 //!
 //! A key design decision: this crate holds no physics, no defaults and no unit
-//! tables. Every export is `from_value` → core call → JSON text; the wire shapes are
+//! tables. Every export is `from_value` (or, for a form, [`fields_text`]) → core
+//! call → JSON text; the wire shapes are
 //! the serialisable mirrors in [`view`], built by pure functions that are tested
 //! natively. Every export that answers with a value (every one in the list below)
 //! answers with its JSON text,
@@ -32,8 +33,9 @@
 //! - [`solve`]`(key, inputs, field_units, system)` — the JSON text of the result
 //!   (the page reads it with `JSON.parse`: one string crosses from wasm instead of
 //!   every value one by one, see [`json`]); `inputs` and `field_units` (the
-//!   unit each selector shows) are plain objects of strings keyed by field key,
-//!   `system` is `"si"` or `"us"`. Outputs travel as `{number, unit, text, shown}`,
+//!   unit each selector shows) are the JSON text of plain objects of strings keyed
+//!   by field key (`JSON.stringify`: two strings cross into wasm, not every key
+//!   and value one by one, see [`fields_text`]), `system` is `"si"` or `"us"`. Outputs travel as `{number, unit, text, shown}`,
 //!   table cells as `{text, number, unit, shown}` with per-column `{title, unit,
 //!   kind}`, so the page takes no text apart. It never throws for
 //!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.
@@ -71,6 +73,7 @@
 
 pub mod compare;
 pub mod csv;
+pub mod fields_text;
 pub mod json;
 pub mod qr;
 pub mod verify;
@@ -102,13 +105,14 @@ fn to_json<T: Serialize + ?Sized>(value: &T) -> Result<String, JsError> {
     json::to_string(value).map_err(|e| adapter_error("could not convert the result", e))
 }
 
-/// Reads a plain object of strings; `undefined` and `null` read as empty.
-fn string_map(value: JsValue, name: &str) -> Result<BTreeMap<String, String>, JsError> {
-    if value.is_undefined() || value.is_null() {
-        return Ok(BTreeMap::new());
-    }
-    serde_wasm_bindgen::from_value(value)
-        .map_err(|e| adapter_error(&format!("`{name}` must be an object of strings keyed by field"), e))
+/// Reads the JSON text of a flat object of strings ([`fields_text`]).
+fn string_map(text: &str, name: &str) -> Result<BTreeMap<String, String>, JsError> {
+    fields_text::read_string_map(text).map_err(|e| {
+        adapter_error(
+            &format!("`{name}` must be the JSON text of an object of strings keyed by field"),
+            e,
+        )
+    })
 }
 
 /// The description of every calculator `served` ([`view::CatalogView`]).
@@ -142,13 +146,14 @@ pub fn upgrade_link(served: &[Calculator], page: &str, pairs: JsValue) -> Result
 /// for [`view::Detail::Headline`]).
 ///
 /// # Errors
-/// Throws only for a wrong call: `inputs` or `field_units` not an object of strings,
-/// or a `system` other than `"si"` or `"us"`. User errors are returned as `ok: false`.
+/// Throws only for a wrong call: `inputs` or `field_units` not the JSON text of an
+/// object of strings, or a `system` other than `"si"` or `"us"`. User errors are
+/// returned as `ok: false`.
 pub fn solve(
     served: &[Calculator],
     key: &str,
-    inputs: JsValue,
-    field_units: JsValue,
+    inputs: &str,
+    field_units: &str,
     system: &str,
     detail: view::Detail,
 ) -> Result<String, JsError> {
@@ -277,8 +282,8 @@ macro_rules! calculator_exports {
         #[wasm_bindgen::prelude::wasm_bindgen]
         pub fn solve(
             key: &str,
-            inputs: wasm_bindgen::JsValue,
-            field_units: wasm_bindgen::JsValue,
+            inputs: &str,
+            field_units: &str,
             system: &str,
         ) -> Result<String, wasm_bindgen::JsError> {
             $crate::solve(
@@ -294,8 +299,8 @@ macro_rules! calculator_exports {
         #[wasm_bindgen::prelude::wasm_bindgen]
         pub fn solve_headline(
             key: &str,
-            inputs: wasm_bindgen::JsValue,
-            field_units: wasm_bindgen::JsValue,
+            inputs: &str,
+            field_units: &str,
             system: &str,
         ) -> Result<String, wasm_bindgen::JsError> {
             $crate::solve(

@@ -40,8 +40,8 @@ function solveCase(kase) {
     if (isQuantity(field)) fieldUnits[field.key] = defaultUnit(field, kase.system);
   }
   try {
-    // The core answers with JSON text (one string crosses from wasm, see solve in the wasm crate).
-    return JSON.parse(glue.solve(state.spec.key, inputs, fieldUnits, kase.system));
+    // JSON text both ways: one string crosses each way (see solve in the wasm crate).
+    return JSON.parse(glue.solve(state.spec.key, JSON.stringify(inputs), JSON.stringify(fieldUnits), kase.system));
   } catch (error) {
     return null;
   }

@@ -55,10 +55,11 @@ function request() {
 function solveNow({ headline = false } = {}) {
   const { inputs, fieldUnits } = request();
   try {
-    // The core answers with JSON text: one string crosses from wasm instead of
-    // every value of the result one by one (`solve` in the wasm crate).
+    // JSON text both ways: the fields go in as one string and the result comes
+    // back as one, instead of every key, value and result crossing one by one
+    // (`solve` in the wasm crate).
     const solve = headline ? glue.solve_headline : glue.solve;
-    return JSON.parse(solve(state.spec.key, inputs, fieldUnits, state.system));
+    return JSON.parse(solve(state.spec.key, JSON.stringify(inputs), JSON.stringify(fieldUnits), state.system));
   } catch (error) {
     const trapped = error instanceof WebAssembly.RuntimeError;
     notice("error", [
