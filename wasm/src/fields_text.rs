@@ -46,14 +46,14 @@ pub fn read_string_map(text: &str) -> Result<BTreeMap<String, String>, ReadError
     };
     let mut map = BTreeMap::new();
     reader.skip_whitespace();
-    reader.expect(b'{', "'{'")?;
+    reader.require(b'{', "'{'")?;
     reader.skip_whitespace();
     if !reader.eat(b'}') {
         loop {
             reader.skip_whitespace();
             let key = reader.string()?;
             reader.skip_whitespace();
-            reader.expect(b':', "':'")?;
+            reader.require(b':', "':'")?;
             reader.skip_whitespace();
             let value = reader.string()?;
             map.insert(key, value);
@@ -61,7 +61,7 @@ pub fn read_string_map(text: &str) -> Result<BTreeMap<String, String>, ReadError
             if reader.eat(b'}') {
                 break;
             }
-            reader.expect(b',', "',' or '}'")?;
+            reader.require(b',', "',' or '}'")?;
         }
     }
     reader.skip_whitespace();
@@ -98,7 +98,7 @@ impl Reader<'_> {
         found
     }
 
-    fn expect(&mut self, byte: u8, expected: &'static str) -> Result<(), ReadError> {
+    fn require(&mut self, byte: u8, expected: &'static str) -> Result<(), ReadError> {
         if self.eat(byte) {
             Ok(())
         } else {
@@ -109,7 +109,7 @@ impl Reader<'_> {
     /// A JSON string. The text is `&str`, so the bytes between escapes are whole
     /// UTF-8 characters and are copied as they are.
     fn string(&mut self) -> Result<String, ReadError> {
-        self.expect(b'"', "a string")?;
+        self.require(b'"', "a string")?;
         let mut out = Vec::new();
         loop {
             let start = self.at;
