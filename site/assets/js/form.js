@@ -248,10 +248,14 @@ export function applyVisibility() {
     // Written only when it changes: a keystroke restyles nothing it does not change.
     const hidden = !isVisible(field);
     if (wrap.hidden !== hidden) wrap.hidden = hidden;
-    // Lets the printed sheet show an empty optional field as "not given".
-    const empty = (state.values[field.key] ?? "").trim() === "";
-    if (wrap.hasAttribute("data-empty") !== empty) wrap.toggleAttribute("data-empty", empty);
+    markEmpty(field, wrap);
   }
+}
+
+/** Lets the printed sheet show an empty optional field as "not given". */
+function markEmpty(field, wrap) {
+  const empty = (state.values[field.key] ?? "").trim() === "";
+  if (wrap.hasAttribute("data-empty") !== empty) wrap.toggleAttribute("data-empty", empty);
 }
 
 /** The field a form control belongs to (by its `name`), if any. */
@@ -273,6 +277,9 @@ function onInput(event) {
   if (!field) return;
   clearPassingNotices();
   state.values[field.key] = target.value;
+  // Typing in a text field shows or hides no field (only a choice does: applyVisibility).
+  const wrap = state.ui.fieldWraps.get(field.key);
+  if (wrap) markEmpty(field, wrap);
   state.recomputeForKeystroke({ writeToUrl: true });
 }
 

@@ -37,6 +37,7 @@ import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
 import { watchHeadline } from "./layout.js";
 import { loadNoteRest } from "./note.js";
+import { afterPause } from "./pause.js";
 
 function request() {
   const inputs = {};
@@ -110,24 +111,21 @@ function recomputeForKeystroke({ writeToUrl }) {
   // Parts off screen wait for this keystroke's result, and the URL for a pause in
   // typing after it: catching up or writing the link now would only delay its frame.
   holdCatchUp();
-  if (urlTask) writeUrlSoon();
+  urlWrite.postpone();
   if (frame) return;
   if (!keystrokeSolvedThisFrame) {
     keystrokeSolvedThisFrame = true;
     requestAnimationFrame(() => {
       keystrokeSolvedThisFrame = false;
     });
-    recompute({ writeToUrl: false });
+    recompute({ writeToUrl: false, typed: true });
     return;
   }
   frame = requestAnimationFrame(() => {
     frame = 0;
-    recompute({ writeToUrl: false });
+    recompute({ writeToUrl: false, typed: true });
   });
 }
-
-/** The task that writes the URL after the frame that showed its result. */
-let urlTask = 0;
 
 /** Pause in typing after which the URL is written. */
 const URL_PAUSE_MS = 300;
@@ -139,14 +137,10 @@ const URL_PAUSE_MS = 300;
  * have been painted. Copying the link, printing, saving a CSV, changing a unit and
  * leaving the page write it at once (`settlePending`, `pagehide`).
  */
-function writeUrlSoon() {
-  if (urlTask) clearTimeout(urlTask);
-  urlTask = setTimeout(writeUrlNow, URL_PAUSE_MS);
-}
+const urlWrite = afterPause(writeUrlNow, URL_PAUSE_MS);
 
 function writeUrlNow() {
-  if (urlTask) clearTimeout(urlTask);
-  urlTask = 0;
+  urlWrite.cancel();
   writeUrl();
   updatePrintFooter();
   // The sheet header prints the link and its QR code: written with the URL, after
@@ -156,11 +150,11 @@ function writeUrlNow() {
 
 // A reload or a closed tab right after a keystroke still leaves its URL behind.
 window.addEventListener("pagehide", () => {
-  if (urlTask) writeUrlNow();
+  if (urlWrite.pending()) writeUrlNow();
 });
 // A sheet printed from the browser's menu carries the latest link too.
 window.addEventListener("beforeprint", () => {
-  if (urlTask) writeUrlNow();
+  if (urlWrite.pending()) writeUrlNow();
 });
 
 /**
@@ -171,16 +165,17 @@ function settlePending() {
   if (frame) recompute({ writeToUrl: false });
   // A table's CSV is read from the last result: a full one.
   completeResult();
-  if (urlTask) writeUrlNow();
+  if (urlWrite.pending()) writeUrlNow();
 }
 
 /**
  * Recomputes, renders, and optionally writes the URL. `solved`: the result of a
  * solve of the current inputs already made (the page's first), used instead of
  * solving them again. The core is asked for a headline result while the tables,
- * diagrams and plots are all off screen (`partsWait`), unless `full`.
+ * diagrams and plots are all off screen (`partsWait`), unless `full`. `typed`: the
+ * inputs changed by typing in a text field, which shows or hides no field.
  */
-function recompute({ writeToUrl, solved = null, full = false }) {
+function recompute({ writeToUrl, solved = null, full = false, typed = false }) {
   // A recompute now also answers the keystrokes waiting for the next frame.
   if (frame) cancelAnimationFrame(frame);
   frame = 0;
@@ -195,9 +190,9 @@ function recompute({ writeToUrl, solved = null, full = false }) {
   }
   recordEchoes(result);
   syncUnitSelectors();
-  applyVisibility();
+  if (!typed) applyVisibility();
   render(result);
-  if (writeToUrl) writeUrlSoon();
+  if (writeToUrl) urlWrite.restart();
   updateCompare();
 }
 

@@ -14,7 +14,9 @@
 // is brought up to date when it comes into view, before printing, or once typing
 // pauses: then in idle time, a part at a time, and a newer keystroke stops that
 // catching up (its own result supersedes it). The other results (a few values)
-// and the links to a next calculator are never deferred.
+// and the links to a next calculator come with every result, a headline result
+// too, and wait off screen like the rest (a click or focus on a link that waits
+// brings it up to date first).
 //
 // While every deferred part is off screen (`partsWait`), the page asks the core
 // for a headline result (`headline_only`: no tables, diagrams or plots, most of a
@@ -31,19 +33,21 @@ import { renderTable, updateTable } from "./render-table.js";
 import { planDiagram } from "./render-diagram.js";
 import { planPlot } from "./render-plot.js";
 import { create, patch } from "./render-patch.js";
+import { afterPause } from "./pause.js";
 
 /**
- * The parts shown under the headline, in order: {id, node, build, update, eager,
- * pending, plan}. `id` names a part's kind and key (a change of ids rebuilds them
- * all); `pending` says an update still waits for the part to come into view; a
- * drawn part's `plan` is the drawing its elements show (render-patch).
+ * The parts shown under the headline, in order: {id, node, build, update,
+ * inHeadline, pending, plan}. `id` names a part's kind and key (a change of ids
+ * rebuilds them all); `inHeadline`: a headline result carries it too; `pending`
+ * says an update still waits for the part to come into view; a drawn part's `plan`
+ * is the drawing its elements show (render-patch).
  */
 let parts = [];
 /** Parts off screen, by node (a node the observer has not reported yet counts as on screen). */
 const offScreen = new WeakSet();
 let observer = null;
-/** The idle callback, or the timer waiting for a pause in typing, that catches parts up. */
-let catchUp = { idle: 0, timer: 0 };
+/** The idle callback that catches parts up (after `catchUpTimer`). */
+let idleCatchUp = 0;
 
 /**
  * Quiet time after the last result before the parts off screen are caught up: a
@@ -51,15 +55,23 @@ let catchUp = { idle: 0, timer: 0 };
  */
 const CATCH_UP_PAUSE_MS = 150;
 
+/**
+ * The fields' error and warning boxes shown, and the controls marked invalid, by
+ * the last render: the next one clears these (a keystroke neither visits nor
+ * restyles the dozens of fields that show nothing).
+ */
+const marked = { boxes: new Set(), controls: new Set() };
+
 export function render(result) {
   state.lastResult = result;
   const ui = state.ui;
-  // Cleared only where something is shown: a keystroke restyles nothing it does not change.
-  for (const box of [...ui.fieldErrors.values(), ...ui.fieldWarnings.values()]) {
-    if (!box.hidden) box.hidden = true;
-    if (box.firstChild) box.textContent = "";
+  for (const box of marked.boxes) {
+    box.hidden = true;
+    box.textContent = "";
   }
-  for (const control of ui.controls.values()) if (control.hasAttribute("aria-invalid")) control.removeAttribute("aria-invalid");
+  for (const control of marked.controls) control.removeAttribute("aria-invalid");
+  marked.boxes.clear();
+  marked.controls.clear();
 
   if (!result.ok) {
     const general = [];
@@ -69,7 +81,12 @@ export function render(result) {
       if (box && wrap && !wrap.hidden) {
         box.textContent = `${error.label || "This field"}: ${clip(error.message)}`;
         box.hidden = false;
-        ui.controls.get(error.field)?.setAttribute("aria-invalid", "true");
+        marked.boxes.add(box);
+        const control = ui.controls.get(error.field);
+        if (control) {
+          control.setAttribute("aria-invalid", "true");
+          marked.controls.add(control);
+        }
       } else {
         general.push(error.label ? `${error.label}: ${error.message}` : error.message);
       }
@@ -96,15 +113,22 @@ export function render(result) {
     if (box) {
       box.textContent = warning.message;
       box.hidden = false;
+      marked.boxes.add(box);
     }
   }
   if (!updateHeadline(outputs.filter((o) => o.headline), warnings)) buildHeadline(outputs.filter((o) => o.headline), warnings);
 
   const next = [];
-  const links = carryOverLinks(result.carry_over || []);
-  if (links.length > 0) {
-    // Cheap to write, and a link followed must carry the current inputs: never deferred.
-    next.push({ id: "carry", build: () => renderCarryOver(links), update: (node) => updateCarryOver(node, links), eager: true });
+  const carried = result.carry_over || [];
+  if (carried.some(isShownCarryOver)) {
+    // The links are written when shown (a link followed carries the current inputs:
+    // one that waits off screen is brought up to date when clicked or focused).
+    next.push({
+      id: "carry",
+      build: () => renderCarryOver(carryOverLinks(carried)),
+      update: (node) => updateCarryOver(node, carryOverLinks(carried)),
+      inHeadline: true,
+    });
   }
   const others = outputs.filter((o) => !o.headline);
   if (others.length > 0) {
@@ -117,8 +141,7 @@ export function render(result) {
         return panel;
       },
       update: (node) => updateOutputList(panelLists.get(node), others),
-      // A few values, cheap to write: never left behind the headline, even off screen.
-      eager: true,
+      inHeadline: true,
     });
   }
   if (result.headline_only) {
@@ -140,14 +163,15 @@ export function render(result) {
 }
 
 /**
- * Shows a headline result: `next` (the parts it carries, never deferred) updated,
- * the deferred parts kept as they are and marked to wait for a full result. A
+ * Shows a headline result: `next` (the parts it carries) updated, or marked to
+ * wait when off screen; the other parts kept as they are and marked to wait for a
+ * full result. A
  * result whose parts differ from those shown is completed at once. Returns false
  * for a link's first result, whose tables and figures are still to come.
  */
 function renderWithout(next) {
-  const deferred = parts.filter((p) => !p.eager);
-  const shown = parts.filter((p) => p.eager);
+  const deferred = parts.filter((p) => !p.inHeadline);
+  const shown = parts.filter((p) => p.inHeadline);
   if (parts.length === 0 && !state.firstResultMarked) {
     // A link's first result (the page shows no part yet): the headline and the
     // parts this result carries now; the page's start asks for the tables and
@@ -169,7 +193,7 @@ function renderWithout(next) {
  * page shows some, and all of them are off screen (their update would wait anyway).
  */
 export function partsWait() {
-  const deferred = parts.filter((p) => !p.eager);
+  const deferred = parts.filter((p) => !p.inHeadline);
   return deferred.length > 0 && deferred.every((p) => offScreen.has(p.node));
 }
 
@@ -235,14 +259,13 @@ const listValues = new WeakMap();
  * stylesheet has rules on `[title]`), and nobody reads a tooltip while typing.
  */
 const titlesOwed = new Map();
-let titleTimer = 0;
 
 /** Pause in typing after which the values' titles are written. */
 const TITLE_PAUSE_MS = 150;
+const titleWrite = afterPause(writeTitles, TITLE_PAUSE_MS);
 
 function writeTitles() {
-  if (titleTimer) clearTimeout(titleTimer);
-  titleTimer = 0;
+  titleWrite.cancel();
   for (const [list, outputs] of titlesOwed) {
     const values = listValues.get(list);
     if (!values || !list.isConnected) continue;
@@ -271,8 +294,7 @@ function updateOutputList(list, outputs) {
   });
   // The full texts follow once typing pauses: a newer keystroke's outputs replace these.
   titlesOwed.set(list, outputs);
-  if (titleTimer) clearTimeout(titleTimer);
-  titleTimer = setTimeout(writeTitles, TITLE_PAUSE_MS);
+  titleWrite.restart();
   return true;
 }
 
@@ -333,7 +355,7 @@ function updateParts(next) {
     part.node = current.node;
     part.plan = current.plan;
     parts[i] = part;
-    if (part.behind || (part.update && offScreen.has(part.node) && !part.eager)) {
+    if (part.behind || (part.update && offScreen.has(part.node))) {
       part.pending = true;
       // Written once: a keystroke restyles nothing it does not change.
       if (!part.node.hasAttribute("data-stale")) part.node.setAttribute("data-stale", "");
@@ -381,13 +403,14 @@ export function flushParts() {
  * the next idle period, so a keystroke typed meanwhile is not kept waiting.
  */
 function flushIdle(deadline) {
-  catchUp.idle = 0;
+  idleCatchUp = 0;
   if (owed()) {
     completeResult();
     // The full result's own catch-up is this one.
-    holdCatchUp();
+    catchUpTimer.cancel();
+    cancelIdleCatchUp();
     if (deadline && !deadline.didTimeout && deadline.timeRemaining() <= 0) {
-      if (parts.some((p) => p.pending && !p.behind)) catchUp.idle = requestIdle(flushIdle);
+      if (parts.some((p) => p.pending && !p.behind)) idleCatchUp = requestIdle(flushIdle);
       return;
     }
   }
@@ -396,26 +419,33 @@ function flushIdle(deadline) {
     applyUpdate(part);
     if (deadline && !deadline.didTimeout && deadline.timeRemaining() <= 0) break;
   }
-  if (parts.some((p) => p.pending && !p.behind)) catchUp.idle = requestIdle(flushIdle);
+  if (parts.some((p) => p.pending && !p.behind)) idleCatchUp = requestIdle(flushIdle);
 }
 
-/** Catches the parts off screen up once typing pauses (`CATCH_UP_PAUSE_MS`). */
+/** Waits for a pause in typing (`CATCH_UP_PAUSE_MS`), then catches up in idle time. */
+const catchUpTimer = afterPause(() => {
+  idleCatchUp = requestIdle(flushIdle);
+}, CATCH_UP_PAUSE_MS);
+
+/** Catches the parts off screen up once typing pauses. */
 function scheduleCatchUp() {
-  holdCatchUp();
-  catchUp.timer = setTimeout(() => {
-    catchUp.timer = 0;
-    catchUp.idle = requestIdle(flushIdle);
-  }, CATCH_UP_PAUSE_MS);
+  cancelIdleCatchUp();
+  catchUpTimer.restart();
 }
 
 /**
- * Stops catching up: called on a keystroke, whose result will reschedule it. Parts
- * stay marked `data-stale` meanwhile.
+ * Holds catching up back: called on a keystroke, whose result will reschedule it
+ * (the pause is counted from the latest keystroke). Parts stay marked
+ * `data-stale` meanwhile.
  */
 export function holdCatchUp() {
-  if (catchUp.timer) clearTimeout(catchUp.timer);
-  if (catchUp.idle) ("cancelIdleCallback" in window ? cancelIdleCallback : clearTimeout)(catchUp.idle);
-  catchUp = { idle: 0, timer: 0 };
+  cancelIdleCatchUp();
+  catchUpTimer.postpone();
+}
+
+function cancelIdleCatchUp() {
+  if (idleCatchUp) ("cancelIdleCallback" in window ? cancelIdleCallback : clearTimeout)(idleCatchUp);
+  idleCatchUp = 0;
 }
 
 /** An idle callback (a short timer where the browser has none). */
@@ -448,8 +478,20 @@ function watch(node) {
       }
     }, { rootMargin: "200px 0px" });
     window.addEventListener("beforeprint", flushParts);
+    // A part used before it came into view (a link clicked, focused or copied from
+    // its menu) is brought up to date first, in the capture phase: before the link
+    // is followed or its address read.
+    for (const type of ["click", "focusin", "contextmenu"]) document.addEventListener(type, bringUpToDate, true);
   }
   observer.observe(node);
+}
+
+/** Brings the part an event's target lies in up to date when it waits. */
+function bringUpToDate(event) {
+  const target = event.target;
+  if (!(target instanceof Node)) return;
+  const part = parts.find((p) => p.pending && !p.behind && p.node.contains(target));
+  if (part) applyUpdate(part);
 }
 
 function finishRender(status) {
@@ -478,11 +520,16 @@ export function measureFigureWidth(details = state.ui.details) {
   return state.figureWidth;
 }
 
+/** Whether a carry-over item is shown as a link (it names its page). */
+function isShownCarryOver(item) {
+  return Boolean(item && item.calculator && item.title);
+}
+
 /** The link target, label and page title of each carry-over item that is shown. */
 function carryOverLinks(items) {
   const links = [];
   for (const item of items) {
-    if (!item || !item.calculator || !item.title) continue;
+    if (!isShownCarryOver(item)) continue;
     const params = new URLSearchParams();
     for (const [key, value] of Object.entries(item.inputs || {})) {
       if (typeof value === "string") params.set(key, value);

@@ -304,3 +304,57 @@ fn a_keystroke_after_a_quiet_frame_is_solved_at_once_and_the_next_one_at_the_nex
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
+
+/// Types a pressure and, in the same task, clicks the carry-over link far below the
+/// screen (whose update waits for it to come into view), reading the link's address
+/// as the click's default action would follow it.
+const CLICK_WAITING_LINK: &str = r#"(() => {
+  const link = document.querySelector('a.carry-link');
+  const below = link.getBoundingClientRect().top - window.innerHeight;
+  let followed = null;
+  window.addEventListener('click', (event) => {
+    if (event.target.closest('a.carry-link')) {
+      event.preventDefault();
+      followed = event.target.closest('a.carry-link').href;
+    }
+  });
+  const input = document.getElementById('field-p');
+  input.value = '20';
+  input.dispatchEvent(new Event('input', { bubbles: true }));
+  const waited = link.closest('[data-stale]') !== null;
+  link.click();
+  return JSON.stringify({ below, waited, followed, params: [...new URL(followed).searchParams] });
+})()"#;
+
+/// The links to a next calculator wait off screen like the tables (a keystroke does
+/// not write them), and one clicked while it waits is brought up to date first: it
+/// carries exactly the core's inputs for the value just typed.
+#[test]
+fn a_waiting_link_clicked_right_after_a_keystroke_carries_that_keystrokes_inputs() {
+    let _turn = one_at_a_time();
+    let (mut browser, page) = bend_page_ready();
+    let clicked = page.eval(&mut browser, CLICK_WAITING_LINK).unwrap();
+    let clicked: Value = serde_json::from_str(clicked.as_str().unwrap_or("null")).unwrap();
+    assert!(
+        clicked["below"].as_f64().unwrap_or(0.0) > 200.0,
+        "the link must start far below the screen: {clicked}"
+    );
+    assert_eq!(
+        clicked["waited"],
+        Value::Bool(true),
+        "the keystroke wrote the link off screen: {clicked}"
+    );
+    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
+    let solution = fluxledger_core::solve("bend", &demo_request(&spec, &[("p", "20bar")]))
+        .result
+        .unwrap_or_else(|e| panic!("p = 20 bar does not solve natively: {e:?}"));
+    let carry = solution.carry_over.first().expect("the bend carries its thrust on");
+    let mut expected: Vec<(String, String)> = carry.inputs.iter().map(|(k, v)| (k.to_string(), v.clone())).collect();
+    expected.push(("system".into(), "si".into()));
+    let mut followed: Vec<(String, String)> = serde_json::from_value(clicked["params"].clone()).unwrap_or_default();
+    expected.sort();
+    followed.sort();
+    assert_eq!(followed, expected, "the link followed: {clicked}");
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
