@@ -294,8 +294,6 @@ async function start() {
   const prerendered = document.querySelector("#calculator .details");
   if (prerendered && prerendered.clientWidth > 0) measureFigureWidth(prerendered);
   buildPage();
-  buildSheet();
-  buildCompare();
   watchHeadline();
   window.addEventListener("resize", () => {
     state.viewportHeight = window.innerHeight || 800;
@@ -304,6 +302,10 @@ async function start() {
     if (width !== before && state.lastResult) render(state.lastResult);
   });
   recompute({ writeToUrl: false, solved });
+  // The printed sheet's panel and the comparison lie below the result: built after
+  // it, in the same task (a link's first result is shown a few milliseconds sooner).
+  buildSheet();
+  buildCompare();
   // Show each quantity as the core read it: the number, with its unit selected.
   for (const field of spec.fields) normaliseField(field);
   if (solved && solved.headline_only) {
