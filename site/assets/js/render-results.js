@@ -165,9 +165,9 @@ export function render(result) {
 /**
  * Shows a headline result: `next` (the parts it carries) updated, or marked to
  * wait when off screen; the other parts kept as they are and marked to wait for a
- * full result. A
- * result whose parts differ from those shown is completed at once. Returns false
- * for a link's first result, whose tables and figures are still to come.
+ * full result. A result whose parts differ from those shown is completed at once.
+ * Returns false for a link's first result, whose tables and figures are still to
+ * come.
  */
 function renderWithout(next) {
   const deferred = parts.filter((p) => !p.inHeadline);
