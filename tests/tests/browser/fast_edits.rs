@@ -10,10 +10,10 @@ use std::time::Duration;
 
 use serde_json::Value;
 
-use fluxledger_core::catalog::{demo_request, Shape, ShapeStyle};
+use fluxledger_core::catalog::{demo_request, Shape, ShapeStyle, Solution};
 
 use crate::cdp::{Browser, Launch, Page};
-use crate::harness::{fixture, launched, one_at_a_time, page_errors};
+use crate::harness::{carried_query, fixture, launched, one_at_a_time, page_errors};
 
 const OUTPUTS: &str =
     "JSON.stringify([...document.querySelectorAll('[data-output]')].map(e => [e.dataset.output, e.textContent]))";
@@ -48,6 +48,14 @@ fn leading_number(text: &str) -> String {
     text.chars()
         .take_while(|c| c.is_ascii_digit() || ".-+eE".contains(*c))
         .collect()
+}
+
+/// The core's solution of the bend page's demo with `overrides` typed over it.
+fn core_bend(overrides: &[(&str, &str)]) -> Solution {
+    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
+    fluxledger_core::solve("bend", &demo_request(&spec, overrides))
+        .result
+        .unwrap_or_else(|e| panic!("{overrides:?} does not solve natively: {e:?}"))
 }
 
 /// The bend page on a phone-sized screen, rendered and ready for edits.
@@ -103,10 +111,7 @@ fn after_fast_edits_the_page_equals_the_core_for_the_final_url() {
         .filter(|(k, _)| k != "system")
         .map(|(k, v)| (k.as_str(), v.as_str()))
         .collect();
-    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
-    let solution = fluxledger_core::solve("bend", &demo_request(&spec, &overrides))
-        .result
-        .unwrap_or_else(|e| panic!("the final URL does not solve natively: {e:?}"));
+    let solution = core_bend(&overrides);
 
     // Headline and other outputs: the core's numbers.
     let shown: Vec<(String, String)> =
@@ -264,12 +269,8 @@ fn a_keystroke_after_a_quiet_frame_is_solved_at_once_and_the_next_one_at_the_nex
     let shown: Value = serde_json::from_str(shown.as_str().unwrap_or("null")).unwrap();
     let text = |name: &str| shown[name].as_str().unwrap_or_default().to_string();
     let key = text("key");
-    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
     let core_text = |pressure: &str| {
-        let solution = fluxledger_core::solve("bend", &demo_request(&spec, &[("p", pressure)]))
-            .result
-            .unwrap_or_else(|e| panic!("p = {pressure} does not solve natively: {e:?}"));
-        solution
+        core_bend(&[("p", pressure)])
             .output(&key)
             .unwrap_or_else(|| panic!("the core gives no output '{key}'"))
             .text
@@ -344,17 +345,11 @@ fn a_waiting_link_clicked_right_after_a_keystroke_carries_that_keystrokes_inputs
         Value::Bool(true),
         "the keystroke wrote the link off screen: {clicked}"
     );
-    let spec = fluxledger_core::calculators::spec("bend").expect("bend is registered");
-    let solution = fluxledger_core::solve("bend", &demo_request(&spec, &[("p", "20bar")]))
-        .result
-        .unwrap_or_else(|e| panic!("p = 20 bar does not solve natively: {e:?}"));
+    let solution = core_bend(&[("p", "20bar")]);
     let carry = solution.carry_over.first().expect("the bend carries its thrust on");
-    let mut expected: Vec<(String, String)> = carry.inputs.iter().map(|(k, v)| (k.to_string(), v.clone())).collect();
-    expected.push(("system".into(), "si".into()));
     let mut followed: Vec<(String, String)> = serde_json::from_value(clicked["params"].clone()).unwrap_or_default();
-    expected.sort();
     followed.sort();
-    assert_eq!(followed, expected, "the link followed: {clicked}");
+    assert_eq!(followed, carried_query(carry, "si"), "the link followed: {clicked}");
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }

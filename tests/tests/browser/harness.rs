@@ -99,3 +99,12 @@ pub fn query_string(params: &[(String, String)]) -> String {
         .collect::<Vec<_>>()
         .join("&")
 }
+
+/// The query a carry-over link must carry: the core's inputs for the next page and
+/// the unit system, sorted by key (for comparing with a link's own, sorted too).
+pub fn carried_query(carry: &fluxledger_core::catalog::CarryOver, system: &str) -> Vec<(String, String)> {
+    let mut pairs: Vec<(String, String)> = carry.inputs.iter().map(|(k, v)| (k.to_string(), v.clone())).collect();
+    pairs.push(("system".into(), system.into()));
+    pairs.sort();
+    pairs
+}
