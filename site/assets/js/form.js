@@ -152,17 +152,14 @@ function buildField(field) {
   const entry = el("div", { class: "entry" });
   if (field.kind === "choice") {
     control = el("select", { id, name: field.key, class: "choice" });
-    for (const option of field.options || []) {
-      control.append(el("option", { value: option.key, text: option.label }));
-    }
+    fillOptions(control, field.options || [], "key");
     control.value = state.values[field.key] ?? "";
     entry.append(control);
   } else if (field.kind === "text") {
-    const lines = (state.values[field.key] ?? "").split("\n").length;
     control = el("textarea", {
       id,
       name: field.key,
-      rows: Math.max(4, Math.min(14, lines + 1)),
+      rows: textRows(state.values[field.key]),
       spellcheck: "false",
       autocapitalize: "off",
       autocomplete: "off",
@@ -184,7 +181,7 @@ function buildField(field) {
     entry.append(control);
     if (isQuantity(field)) {
       const select = el("select", { class: "unit", "aria-label": `Unit of ${field.label}`, dataset: { unitFor: field.key } });
-      for (const unit of field.units) select.append(el("option", { value: unit.id, text: unit.label }));
+      fillOptions(select, field.units, "id");
       select.value = state.units[field.key];
       state.ui.unitSelects.set(field.key, select);
       entry.append(select);
@@ -203,12 +200,137 @@ function buildField(field) {
   describedBy.push(warning.id);
   wrap.append(error, warning);
   control.setAttribute("aria-describedby", describedBy.join(" "));
+  register(field, { wrap, control, error, warning });
+  return wrap;
+}
 
+/** Where the page finds a field's parts (its unit selector is registered where it is made or taken over). */
+function register(field, { wrap, control, error, warning }) {
   state.ui.controls.set(field.key, control);
   state.ui.fieldWraps.set(field.key, wrap);
   state.ui.fieldErrors.set(field.key, error);
   state.ui.fieldWarnings.set(field.key, warning);
+}
+
+/** The rows a free-text field opens with: one more than its lines, 4 to 14. */
+function textRows(text) {
+  return Math.max(4, Math.min(14, (text ?? "").split("\n").length + 1));
+}
+
+/**
+ * A selector's options as the core lists them (`items`: units `{id, label}`,
+ * choices `{key, label}`; `valueKey` names the value), replacing any it had.
+ */
+function fillOptions(select, items, valueKey) {
+  select.replaceChildren(...items.map((item) => new Option(item.label, item[valueKey])));
+}
+
+/**
+ * Takes over a field the site tool wrote into the page for the demo
+ * (site/src/prerender.rs writes it as `buildField` makes it, with the demo's
+ * values, and each selector with its shown option only): the selectors get their
+ * options, every control the page state's value, the boxes are cleared, and the
+ * field is wired as `buildField` wires one. Returns false, changing nothing, when
+ * the field is not laid out as `buildField` lays it out (it is then built).
+ *
+ * The browser test `the_form_the_page_takes_over_is_the_form_its_script_builds`
+ * compares every page's form taken over with the form the script builds.
+ */
+function adoptField(field, wrap) {
+  const id = controlId(field.key);
+  const find = (suffix) => {
+    const node = document.getElementById(id + suffix);
+    return node && wrap.contains(node) ? node : null;
+  };
+  const control = find("");
+  const error = find("-error");
+  const warning = find("-warning");
+  const select = isQuantity(field) ? wrap.querySelector(":scope > .entry > select.unit") : null;
+  const kind =
+    field.kind === "choice" ? HTMLSelectElement : field.kind === "text" ? HTMLTextAreaElement : HTMLInputElement;
+  if (!(control instanceof kind) || !error || !warning || (isQuantity(field) && !select)) return false;
+  if (Boolean(field.help) !== Boolean(find("-help"))) return false;
+
+  const value = state.values[field.key] ?? "";
+  if (field.kind === "choice") {
+    fillOptions(control, field.options || [], "key");
+    control.value = value;
+  } else if (field.kind === "text") {
+    // The served text is the element's default; the script's own has none.
+    control.textContent = "";
+    control.value = value;
+    control.rows = textRows(value);
+  } else {
+    // The value as a property, as `buildField` sets it; the served attribute is
+    // dropped after (the typed value stays).
+    control.value = value;
+    control.removeAttribute("value");
+  }
+  if (select) {
+    fillOptions(select, field.units, "id");
+    select.value = state.units[field.key];
+    state.ui.unitSelects.set(field.key, select);
+  }
+  for (const box of [error, warning]) {
+    box.hidden = true;
+    box.textContent = "";
+  }
+  register(field, { wrap, control, error, warning });
+  return true;
+}
+
+/**
+ * The form: the one the site tool served, taken over field by field, or a new one.
+ * The served form leaves out the fields its demo hides: those shown for the page's
+ * values are built here, the others when a choice shows them or in idle time after
+ * the first result (`completeForm`). Building a field costs far more than finding
+ * it: building the whole form took about 100 ms of a link's first result at 4× CPU.
+ */
+function formFrom(served) {
+  const form = served || el("form", { class: "inputs", novalidate: true, "aria-label": "Inputs" });
+  const title = (served && served.querySelector(":scope > h2.panel-title")) || el("h2", { class: "panel-title", text: "Inputs" });
+  const servedFields = new Map();
+  if (served) {
+    for (const wrap of served.querySelectorAll(":scope > .field[data-field]")) servedFields.set(wrap.dataset.field, wrap);
+  }
+  const wraps = [];
+  for (const field of state.spec.fields) {
+    const wrap = servedFields.get(field.key);
+    if (wrap && adoptField(field, wrap)) wraps.push(wrap);
+    else if (!served || isVisible(field)) wraps.push(buildField(field));
+  }
+  form.replaceChildren(title, ...wraps);
+  form.addEventListener("submit", (event) => event.preventDefault());
+  return form;
+}
+
+/**
+ * A field's wrapper, built now (hidden or not, as the page's values say) when the
+ * form does not have it yet, in the core's order among the fields built.
+ */
+function fieldWrap(field) {
+  const made = state.ui.fieldWraps.get(field.key);
+  if (made) return made;
+  const wrap = buildField(field);
+  wrap.hidden = !isVisible(field);
+  markEmpty(field, wrap);
+  const fields = state.spec.fields;
+  let before = state.ui.form.firstElementChild;
+  for (let i = fields.indexOf(field) - 1; i >= 0; i--) {
+    const built = state.ui.fieldWraps.get(fields[i].key);
+    if (built && built !== wrap) {
+      before = built;
+      break;
+    }
+  }
+  before.after(wrap);
   return wrap;
+}
+
+/** Builds the fields the form still lacks (hidden by the page's values): once, in idle time. */
+export function completeForm() {
+  if (!state.ui.form) return;
+  for (const field of state.spec.fields) fieldWrap(field);
 }
 
 /**
@@ -217,10 +339,11 @@ function buildField(field) {
  */
 export function normaliseField(field) {
   const echo = state.echoes[field.key];
+  if (!echo || !isQuantity(field)) return;
+  // A field not built yet (hidden) has its value in the page state only.
   const control = state.ui.controls.get(field.key);
-  if (!echo || !control || !isQuantity(field)) return;
-  if (control.value.trim() !== echo.number) {
-    control.value = echo.number;
+  if ((state.values[field.key] ?? "").trim() !== echo.number) {
+    if (control) control.value = echo.number;
     state.values[field.key] = echo.number;
   }
   if (state.units[field.key] !== echo.unit) {
@@ -239,14 +362,20 @@ export function syncUnitSelectors() {
       state.units[key] = echo.unit;
     }
   }
+  // Fields not built yet (hidden) keep the unit in the page state only.
+  for (const key in state.echoes) {
+    const unit = state.echoes[key].unit;
+    if (unit && !state.ui.unitSelects.has(key) && state.units[key] !== unit) state.units[key] = unit;
+  }
 }
 
 export function applyVisibility() {
   for (const field of state.spec.fields) {
-    const wrap = state.ui.fieldWraps.get(field.key);
+    const hidden = !isVisible(field);
+    // A field shown for the first time is built now (`formFrom`).
+    const wrap = hidden ? state.ui.fieldWraps.get(field.key) : fieldWrap(field);
     if (!wrap) continue;
     // Written only when it changes: a keystroke restyles nothing it does not change.
-    const hidden = !isVisible(field);
     if (wrap.hidden !== hidden) wrap.hidden = hidden;
     markEmpty(field, wrap);
   }
@@ -334,10 +463,7 @@ export function buildPage() {
   const notices = noticesBox();
 
   const headline = el("div", { class: "headline", "aria-live": "polite", "aria-atomic": "true" });
-  const form = el("form", { class: "inputs", novalidate: true, "aria-label": "Inputs" });
-  form.addEventListener("submit", (event) => event.preventDefault());
-  form.append(el("h2", { class: "panel-title", text: "Inputs" }));
-  for (const field of state.spec.fields) form.append(buildField(field));
+  const form = formFrom(section.querySelector(".calc-main > form.inputs"));
 
   const details = el("div", { class: "details" });
   const printFooter = el("div", { class: "print-footer" });

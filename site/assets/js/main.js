@@ -31,13 +31,13 @@ import { notice } from "./notices.js";
 import { state, defaultUnit, isQuantity } from "./state.js";
 import { glue, loadGlue, dropGlue } from "./wasm.js";
 import { readUrl, writeUrl } from "./url.js";
-import { applyVisibility, buildPage, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
+import { applyVisibility, buildPage, completeForm, normaliseField, syncUnitSelectors, updatePrintFooter } from "./form.js";
 import { completeResult, holdCatchUp, measureFigureWidth, partsWait, render } from "./render-results.js";
 import { buildSheet, updateSheet } from "./sheet.js";
 import { buildCompare, updateCompare } from "./compare.js";
 import { watchHeadline } from "./layout.js";
 import { loadNoteRest } from "./note.js";
-import { afterPause } from "./pause.js";
+import { afterPause, whenIdle } from "./pause.js";
 
 function request() {
   const inputs = {};
@@ -237,8 +237,7 @@ function settleInitialValues(spec, fromUrl) {
  */
 function registerServiceWorker() {
   if (!("serviceWorker" in navigator)) return;
-  if ("requestIdleCallback" in window) window.requestIdleCallback(registerNow, { timeout: 5000 });
-  else setTimeout(registerNow, 1000);
+  whenIdle(registerNow, 5000, 1000);
 }
 
 function registerNow() {
@@ -323,6 +322,8 @@ async function start() {
     updatePrintFooter();
     updateSheet();
   }
+  // The fields the page's values hide are built once the first result is shown.
+  whenIdle(completeForm, 2000, 500);
   // The note's later sections lie far below the result: fetched (in idle time)
   // only now, so that they never share the connection with the module the first
   // result waits for.

@@ -9,6 +9,8 @@
 // in place of the link: both articles open with the same children. When the fetch
 // fails the link stays, and it works without script.
 
+import { whenIdle } from "./pause.js";
+
 /** Replaces the note's link with the whole note's later sections, in idle time. */
 export function loadNoteRest() {
   const more = document.querySelector(".method-note > .note-more");
@@ -36,6 +38,5 @@ export function loadNoteRest() {
         // The link stays: it opens the whole note.
       });
   };
-  if ("requestIdleCallback" in window) window.requestIdleCallback(run, { timeout: 3000 });
-  else setTimeout(run, 500);
+  whenIdle(run, 3000, 500);
 }

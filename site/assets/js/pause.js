@@ -44,3 +44,17 @@ export function afterPause(task, ms) {
     },
   };
 }
+
+/**
+ * Runs `task` when the browser is idle, at the latest `timeoutMs` later; a browser
+ * without `requestIdleCallback` waits `fallbackMs` instead. Returns a handle for
+ * `cancelIdle`.
+ */
+export function whenIdle(task, timeoutMs, fallbackMs) {
+  return "requestIdleCallback" in window ? requestIdleCallback(task, { timeout: timeoutMs }) : setTimeout(task, fallbackMs);
+}
+
+/** Forgets a task `whenIdle` scheduled. */
+export function cancelIdle(handle) {
+  ("cancelIdleCallback" in window ? cancelIdleCallback : clearTimeout)(handle);
+}

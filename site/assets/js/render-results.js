@@ -33,7 +33,7 @@ import { renderTable, updateTable } from "./render-table.js";
 import { planDiagram } from "./render-diagram.js";
 import { planPlot } from "./render-plot.js";
 import { create, patch } from "./render-patch.js";
-import { afterPause } from "./pause.js";
+import { afterPause, cancelIdle, whenIdle } from "./pause.js";
 
 /**
  * The parts shown under the headline, in order: {id, node, build, update,
@@ -444,13 +444,13 @@ export function holdCatchUp() {
 }
 
 function cancelIdleCatchUp() {
-  if (idleCatchUp) ("cancelIdleCallback" in window ? cancelIdleCallback : clearTimeout)(idleCatchUp);
+  if (idleCatchUp) cancelIdle(idleCatchUp);
   idleCatchUp = 0;
 }
 
 /** An idle callback (a short timer where the browser has none). */
 function requestIdle(callback) {
-  return "requestIdleCallback" in window ? requestIdleCallback(callback, { timeout: 1000 }) : setTimeout(callback, 50);
+  return whenIdle(callback, 1000, 50);
 }
 
 function forgetParts() {

@@ -129,6 +129,110 @@ fn every_page_serves_its_demo_result_and_the_script_renders_the_same_without_shi
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
 
+/// Every element of the calculator's form in tree order, as text: its tag, its
+/// attributes (sorted by name), a control's and option's value, a selector's
+/// selected index, whether it is hidden, and its text.
+const FORM_TREE: &str = r##"
+(() => {
+  const walk = (node) => {
+    if (node.nodeType === Node.TEXT_NODE) return node.data;
+    if (node.nodeType !== Node.ELEMENT_NODE) return null;
+    const attributes = Array.from(node.attributes, (a) => [a.name, a.value]).sort((a, b) => (a[0] < b[0] ? -1 : 1));
+    const state = {};
+    if (node instanceof HTMLInputElement || node instanceof HTMLSelectElement || node instanceof HTMLTextAreaElement || node instanceof HTMLOptionElement) state.value = node.value;
+    if (node instanceof HTMLSelectElement) state.selected = node.selectedIndex;
+    if (node instanceof HTMLTextAreaElement) state.rows = node.rows;
+    return [node.tagName, attributes, state, node.hidden, Array.from(node.childNodes, walk)];
+  };
+  return JSON.stringify(walk(document.querySelector("#calculator form.inputs")));
+})()"##;
+
+/// Run in the page before its scripts (`Page.addScriptToEvaluateOnNewDocument`):
+/// removes the form the site tool served once the document is parsed, before the
+/// page script runs, which then builds the whole form itself.
+const WITHOUT_SERVED_FORM: &str = r##"
+document.addEventListener("readystatechange", () => {
+  if (document.readyState === "interactive") {
+    for (const form of document.querySelectorAll("#calculator form.inputs")) {
+      form.remove();
+      window.servedFormsRemoved = (window.servedFormsRemoved || 0) + 1;
+    }
+  }
+});"##;
+
+/// Issue 9: the page script takes over the form the site tool served (finding a
+/// field costs far less than building it) and builds the fields the demo hides
+/// later. The form it ends with must be the one it builds when nothing was served:
+/// every element, attribute, value, option and hidden flag, for every page's demo
+/// and for a link that shows fields the demo hides.
+#[test]
+fn the_form_the_page_takes_over_is_the_form_its_script_builds() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch {
+        width: 360,
+        height: 740,
+    });
+    let mut addresses: Vec<(String, usize)> = calculators::CALCULATORS
+        .iter()
+        .map(|c| {
+            let fields = calculators::spec(c.key).map(|s| s.fields.len()).unwrap_or(0);
+            (format!("{}/{}.html", site.base, c.key), fields)
+        })
+        .collect();
+    let bend_fields = calculators::spec("bend").map(|s| s.fields.len()).unwrap_or(0);
+    addresses.push((
+        format!(
+            "{}/bend.html?p_known=outlet&p2=9bar&flow_given=v&v=2.5&system=si",
+            site.base
+        ),
+        bend_fields,
+    ));
+    let forms = |page: &Page, browser: &mut Browser, removed: usize| -> Vec<String> {
+        addresses
+            .iter()
+            .map(|(url, fields)| {
+                page.goto(browser, url).unwrap_or_else(|e| panic!("{e}"));
+                let state = page.wait_rendered(browser).unwrap_or_else(|e| panic!("{e}"));
+                assert_eq!(state, "ready", "{url}");
+                // The fields the page's values hide are built in idle time.
+                page.wait_for(
+                    browser,
+                    &format!("document.querySelectorAll('#calculator form.inputs > .field').length === {fields}"),
+                    std::time::Duration::from_secs(10),
+                )
+                .unwrap_or_else(|e| panic!("{url}: {e}"));
+                // The second round's pages must not have had a form to take over.
+                let gone = eval(page, browser, "window.servedFormsRemoved || 0");
+                assert_eq!(
+                    gone,
+                    json!(removed),
+                    "{url}: served forms removed before the script ran"
+                );
+                eval(page, browser, FORM_TREE).as_str().unwrap_or_default().to_string()
+            })
+            .collect()
+    };
+    let taken_over = forms(&page, &mut browser, 0);
+    page.call(
+        &mut browser,
+        "Page.addScriptToEvaluateOnNewDocument",
+        json!({ "source": WITHOUT_SERVED_FORM }),
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    let built = forms(&page, &mut browser, 1);
+    let mut problems = Vec::new();
+    for (((url, _), taken), built) in addresses.iter().zip(&taken_over).zip(&built) {
+        if taken.is_empty() || taken != built {
+            let (a, b) = around_first_difference(taken, built);
+            problems.push(format!("{url}: the forms differ\n  taken over: {a}\n  built:      {b}"));
+        }
+    }
+    assert!(problems.is_empty(), "\n{}", problems.join("\n"));
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
 #[test]
 fn a_link_with_a_query_shows_computing_not_the_demo_then_its_own_result() {
     let _turn = one_at_a_time();
