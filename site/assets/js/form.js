@@ -119,7 +119,10 @@ function setField(field, text, unit) {
   const control = state.ui.controls.get(field.key);
   if (control && control.value !== text) control.value = text;
   const select = state.ui.unitSelects.get(field.key);
-  if (select && unit) select.value = unit;
+  if (select && unit) {
+    ensureOptions(select);
+    select.value = unit;
+  }
 }
 
 async function copyLink() {
@@ -226,6 +229,56 @@ function fillOptions(select, items, valueKey) {
 }
 
 /**
+ * Served selectors whose options wait (`completeForm`): selector → the items and
+ * value key of `fillOptions`.
+ */
+const optionsToFill = new Map();
+
+/**
+ * A served selector's options: filled now, or, with `defer` while it shows the
+ * value wanted, left to wait for `completeForm` (a link's first result does not
+ * wait for the dozens of options it shows no one: about 25 ms at 4× CPU on the
+ * bend page).
+ */
+function adoptOptions(select, items, valueKey, value, defer) {
+  if (defer && select.options.length === 1 && select.options[0].value === value) {
+    optionsToFill.set(select, { items, valueKey });
+  } else {
+    fillOptions(select, items, valueKey);
+    select.value = value;
+  }
+}
+
+/**
+ * Fills a selector's options when they still wait: before the script sets its
+ * value, and when it is focused or pressed (before it opens).
+ */
+function ensureOptions(select) {
+  const waiting = optionsToFill.get(select);
+  if (!waiting) return;
+  optionsToFill.delete(select);
+  const value = select.value;
+  fillOptions(select, waiting.items, waiting.valueKey);
+  select.value = value;
+  if (optionsToFill.size === 0) listenForOpening(false);
+}
+
+/** Listens (or stops) for a selector being focused or pressed while options wait. */
+function listenForOpening(on) {
+  const section = state.ui.section;
+  if (!section) return;
+  for (const type of ["focusin", "pointerdown"]) {
+    if (on) section.addEventListener(type, onOpen, true);
+    else section.removeEventListener(type, onOpen, true);
+  }
+}
+
+
+function onOpen(event) {
+  if (event.target instanceof HTMLSelectElement) ensureOptions(event.target);
+}
+
+/**
  * Takes over a field the site tool wrote into the page for the demo
  * (site/src/prerender.rs writes it as `buildField` makes it, with the demo's
  * values, and each selector with its shown option only): the selectors get their
@@ -236,7 +289,7 @@ function fillOptions(select, items, valueKey) {
  * The browser test `the_form_the_page_takes_over_is_the_form_its_script_builds`
  * compares every page's form taken over with the form the script builds.
  */
-function adoptField(field, wrap) {
+function adoptField(field, wrap, deferOptions) {
   const id = controlId(field.key);
   const find = (suffix) => {
     const node = document.getElementById(id + suffix);
@@ -253,8 +306,7 @@ function adoptField(field, wrap) {
 
   const value = state.values[field.key] ?? "";
   if (field.kind === "choice") {
-    fillOptions(control, field.options || [], "key");
-    control.value = value;
+    adoptOptions(control, field.options || [], "key", value, deferOptions);
   } else if (field.kind === "text") {
     // The served text is the element's default; the script's own has none.
     control.textContent = "";
@@ -267,8 +319,7 @@ function adoptField(field, wrap) {
     control.removeAttribute("value");
   }
   if (select) {
-    fillOptions(select, field.units, "id");
-    select.value = state.units[field.key];
+    adoptOptions(select, field.units, "id", state.units[field.key], deferOptions);
     state.ui.unitSelects.set(field.key, select);
   }
   for (const box of [error, warning]) {
@@ -281,12 +332,13 @@ function adoptField(field, wrap) {
 
 /**
  * The form: the one the site tool served, taken over field by field, or a new one.
- * The served form leaves out the fields its demo hides: those shown for the page's
- * values are built here, the others when a choice shows them or in idle time after
- * the first result (`completeForm`). Building a field costs far more than finding
- * it: building the whole form took about 100 ms of a link's first result at 4× CPU.
+ * Building a field costs far more than finding it: building the whole form took
+ * about 100 ms of a link's first result at 4× CPU. The served form leaves out the
+ * fields its demo hides: they are built here, or with `defer` (a link's first
+ * result) those the page's values hide are built by `completeForm`, or when a
+ * choice shows them, and the served selectors' options wait too.
  */
-function formFrom(served) {
+function formFrom(served, defer) {
   const form = served || el("form", { class: "inputs", novalidate: true, "aria-label": "Inputs" });
   const title = (served && served.querySelector(":scope > h2.panel-title")) || el("h2", { class: "panel-title", text: "Inputs" });
   const servedFields = new Map();
@@ -296,8 +348,8 @@ function formFrom(served) {
   const wraps = [];
   for (const field of state.spec.fields) {
     const wrap = servedFields.get(field.key);
-    if (wrap && adoptField(field, wrap)) wraps.push(wrap);
-    else if (!served || isVisible(field)) wraps.push(buildField(field));
+    if (wrap && adoptField(field, wrap, defer)) wraps.push(wrap);
+    else if (!defer || isVisible(field)) wraps.push(buildField(field));
   }
   form.replaceChildren(title, ...wraps);
   form.addEventListener("submit", (event) => event.preventDefault());
@@ -327,10 +379,14 @@ function fieldWrap(field) {
   return wrap;
 }
 
-/** Builds the fields the form still lacks (hidden by the page's values): once, in idle time. */
+/**
+ * Completes a form built with `defer`: the fields it lacks (hidden by the page's
+ * values) and the options of the selectors that wait for them.
+ */
 export function completeForm() {
   if (!state.ui.form) return;
   for (const field of state.spec.fields) fieldWrap(field);
+  for (const select of [...optionsToFill.keys()]) ensureOptions(select);
 }
 
 /**
@@ -349,7 +405,10 @@ export function normaliseField(field) {
   if (state.units[field.key] !== echo.unit) {
     state.units[field.key] = echo.unit;
     const select = state.ui.unitSelects.get(field.key);
-    if (select) select.value = echo.unit;
+    if (select) {
+      ensureOptions(select);
+      select.value = echo.unit;
+    }
   }
 }
 
@@ -358,6 +417,7 @@ export function syncUnitSelectors() {
   for (const [key, select] of state.ui.unitSelects) {
     const echo = state.echoes[key];
     if (echo && echo.unit && select.value !== echo.unit) {
+      ensureOptions(select);
       select.value = echo.unit;
       state.units[key] = echo.unit;
     }
@@ -451,7 +511,12 @@ function onClick(event) {
   }
 }
 
-export function buildPage() {
+/**
+ * Builds the page's calculator, taking over the form the site tool served.
+ * `deferForm`: the fields the page's values hide and the served selectors' options
+ * wait for `completeForm` (a link's first result).
+ */
+export function buildPage({ deferForm = false } = {}) {
   const section = document.getElementById("calculator") || document.body.appendChild(el("section", { id: "calculator" }));
   state.ui.controls = new Map();
   state.ui.unitSelects = new Map();
@@ -463,7 +528,7 @@ export function buildPage() {
   const notices = noticesBox();
 
   const headline = el("div", { class: "headline", "aria-live": "polite", "aria-atomic": "true" });
-  const form = formFrom(section.querySelector(".calc-main > form.inputs"));
+  const form = formFrom(section.querySelector(".calc-main > form.inputs"), deferForm);
 
   const details = el("div", { class: "details" });
   const printFooter = el("div", { class: "print-footer" });
@@ -489,6 +554,8 @@ export function buildPage() {
   section.addEventListener("input", onInput);
   section.addEventListener("change", onChange);
   section.addEventListener("click", onClick);
+  // A selector whose options still wait gets them before it opens.
+  if (optionsToFill.size > 0) listenForOpening(true);
 }
 
 export function updatePrintFooter() {

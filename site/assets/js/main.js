@@ -292,7 +292,9 @@ async function start() {
   const solved = settleInitialValues(spec, fromUrl);
   const prerendered = document.querySelector("#calculator .details");
   if (prerendered && prerendered.clientWidth > 0) measureFigureWidth(prerendered);
-  buildPage();
+  // A link's first result is shown before the form is complete (`completeForm`).
+  const linkFirst = Boolean(solved && solved.headline_only);
+  buildPage({ deferForm: linkFirst });
   watchHeadline();
   window.addEventListener("resize", () => {
     state.viewportHeight = window.innerHeight || 800;
@@ -307,12 +309,13 @@ async function start() {
   buildCompare();
   // Show each quantity as the core read it: the number, with its unit selected.
   for (const field of spec.fields) normaliseField(field);
-  if (solved && solved.headline_only) {
+  if (linkFirst) {
     // A link's first result is its headline: painted first; then, in one task,
-    // the printed sheet (its link and QR code) and the tables and figures, after
-    // which the page is ready.
+    // the rest of the form, the printed sheet (its link and QR code) and the
+    // tables and figures, after which the page is ready.
     requestAnimationFrame(() =>
       setTimeout(() => {
+        completeForm();
         updatePrintFooter();
         updateSheet();
         completeResult();
@@ -322,8 +325,6 @@ async function start() {
     updatePrintFooter();
     updateSheet();
   }
-  // The fields the page's values hide are built once the first result is shown.
-  whenIdle(completeForm, 2000, 500);
   // The note's later sections lie far below the result: fetched (in idle time)
   // only now, so that they never share the connection with the module the first
   // result waits for.

@@ -183,7 +183,7 @@ fn the_form_the_page_takes_over_is_the_form_its_script_builds() {
     let bend_fields = calculators::spec("bend").map(|s| s.fields.len()).unwrap_or(0);
     addresses.push((
         format!(
-            "{}/bend.html?p_known=outlet&p2=9bar&flow_given=v&v=2.5&system=si",
+            "{}/bend.html?p_known=outlet&p2=130psi&flow_given=v&v=8ft/s&d=12in&system=si",
             site.base
         ),
         bend_fields,
