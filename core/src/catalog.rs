@@ -809,8 +809,9 @@ impl<'a> Report<'a> {
             );
             return;
         }
-        let text = units::format_quantity(si, spec.kind, self.system);
+        // One choice of unit and one formatting for the text and its parts.
         let (number, unit) = units::display_parts(si, spec.kind, self.system);
+        let text = units::joined_with_id(&number, unit);
         self.solution.outputs.push(OutputValue {
             key: spec.key,
             label: spec.label,

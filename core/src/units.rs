@@ -1066,25 +1066,24 @@ fn display_units(kind: QuantityKind, system: UnitSystem) -> &'static [&'static s
 /// The unit a result of `kind` is shown in for `si` in `system`.
 pub fn display_unit(si: f64, kind: QuantityKind, system: UnitSystem) -> &'static UnitDef {
     let ids = display_units(kind, system);
-    let mut chosen = ids[ids.len() - 1];
-    for id in ids {
-        if let Some(def) = find_unit_of(id, kind) {
-            // Compare after rounding to four figures, so 999 999.99 Pa shows as 1.000 MPa.
-            // Areas stay in m² (ft²) down to 0.01: a bearing face of 0.75 m² reads
-            // better than 750 000 mm².
-            let threshold = if kind == QuantityKind::Area {
-                0.009_999_5
-            } else {
-                0.999_95
-            };
-            if ((si - def.offset) / def.factor).abs() >= threshold {
-                chosen = id;
-                break;
-            }
-        }
-    }
-    // Every id in the display table is offered for its kind (checked by a unit test).
-    find_unit_of(chosen, kind).unwrap_or(&UNITS[0])
+    // Compare after rounding to four figures, so 999 999.99 Pa shows as 1.000 MPa.
+    // Areas stay in m² (ft²) down to 0.01: a bearing face of 0.75 m² reads better
+    // than 750 000 mm².
+    let threshold = if kind == QuantityKind::Area {
+        0.009_999_5
+    } else {
+        0.999_95
+    };
+    // The first unit in which the value reaches the threshold, else the last (the
+    // smallest). Every id in the display table is offered for its kind (checked by
+    // a unit test).
+    let last = ids.len() - 1;
+    ids.iter()
+        .enumerate()
+        .filter_map(|(i, id)| find_unit_of(id, kind).map(|def| (i, def)))
+        .find(|&(i, def)| i == last || ((si - def.offset) / def.factor).abs() >= threshold)
+        .map(|(_, def)| def)
+        .unwrap_or(&UNITS[0])
 }
 
 /// An SI value in the display unit for `system`: the number (four significant
@@ -1092,6 +1091,17 @@ pub fn display_unit(si: f64, kind: QuantityKind, system: UnitSystem) -> &'static
 pub fn display_parts(si: f64, kind: QuantityKind, system: UnitSystem) -> (String, &'static UnitDef) {
     let def = display_unit(si, kind, system);
     (format_significant((si - def.offset) / def.factor, 4), def)
+}
+
+/// A number and its unit as [`format_quantity`] joins them (`"12.4 kN"`; a
+/// dimensionless `-` unit adds nothing): the text of [`display_parts`] without
+/// formatting the number again.
+pub fn joined_with_id(number: &str, def: &UnitDef) -> String {
+    if def.id == "-" {
+        number.to_string()
+    } else {
+        format!("{number} {}", def.id)
+    }
 }
 
 /// Formats an SI value in the display unit for `system`, four significant figures.
@@ -1178,18 +1188,26 @@ pub fn relabel_codes(text: &str) -> Option<String> {
 /// label it), dozens of times a solve: a binary search over the ids in order
 /// instead of a scan of all of [`UNITS`].
 pub fn unit_by_id(id: &str) -> Option<&'static UnitDef> {
-    /// The units sorted by id, and the longest id (longer text is no id at all).
+    /// The units sorted by id (its length, then its text), and the longest id
+    /// (longer text is no id at all).
+    ///
+    /// Length first: most steps of the search compare two lengths, and
+    /// text is compared only among ids as long as the one sought (a solve looks up
+    /// a unit several times per value it shows).
     static BY_ID: std::sync::OnceLock<(Vec<&'static UnitDef>, usize)> = std::sync::OnceLock::new();
     let (sorted, longest) = BY_ID.get_or_init(|| {
         let mut sorted: Vec<&'static UnitDef> = UNITS.iter().collect();
-        sorted.sort_by_key(|u| u.id);
+        sorted.sort_by_key(|u| (u.id.len(), u.id));
         let longest = UNITS.iter().map(|u| u.id.len()).max().unwrap_or(0);
         (sorted, longest)
     });
     if id.is_empty() || id.len() > *longest {
         return None;
     }
-    sorted.binary_search_by(|u| u.id.cmp(id)).ok().map(|i| sorted[i])
+    sorted
+        .binary_search_by(|u| u.id.len().cmp(&id.len()).then_with(|| u.id.cmp(id)))
+        .ok()
+        .map(|i| sorted[i])
 }
 
 /// The number of `si` expressed in `unit_id`, if that unit exists and measures
@@ -1267,12 +1285,7 @@ fn trim_zeros(number: &str) -> String {
 
 fn format_in(si: f64, def: &UnitDef) -> String {
     let value = (si - def.offset) / def.factor;
-    let number = format_significant(value, 4);
-    if def.id == "-" {
-        number
-    } else {
-        format!("{number} {}", def.id)
-    }
+    joined_with_id(&format_significant(value, 4), def)
 }
 
 /// Formats with `sig` significant figures, no exponent for everyday magnitudes.

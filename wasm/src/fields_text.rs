@@ -41,6 +41,7 @@ impl std::error::Error for ReadError {}
 /// When `text` is not a JSON object whose values are all strings.
 pub fn read_string_map(text: &str) -> Result<BTreeMap<String, String>, ReadError> {
     let mut reader = Reader {
+        text,
         bytes: text.as_bytes(),
         at: 0,
     };
@@ -72,6 +73,7 @@ pub fn read_string_map(text: &str) -> Result<BTreeMap<String, String>, ReadError
 }
 
 struct Reader<'a> {
+    text: &'a str,
     bytes: &'a [u8],
     at: usize,
 }
@@ -110,7 +112,7 @@ impl Reader<'_> {
     /// UTF-8 characters and are copied as they are.
     fn string(&mut self) -> Result<String, ReadError> {
         self.require(b'"', "a string")?;
-        let mut out = Vec::new();
+        let mut out = String::new();
         loop {
             let start = self.at;
             while let Some(&byte) = self.bytes.get(self.at) {
@@ -119,19 +121,22 @@ impl Reader<'_> {
                 }
                 self.at += 1;
             }
-            out.extend_from_slice(&self.bytes[start..self.at]);
+            // A run ends at an ASCII byte (or the end): it is whole characters.
+            let run = &self.text[start..self.at];
             match self.bytes.get(self.at) {
                 Some(b'"') => {
                     self.at += 1;
-                    // Only whole characters were copied (runs end at ASCII bytes)
-                    // and escapes push whole characters: this cannot fail.
-                    return String::from_utf8(out).map_err(|_| self.error("UTF-8 text"));
+                    // The usual string has no escape: one copy of its run.
+                    if out.is_empty() {
+                        return Ok(run.to_string());
+                    }
+                    out.push_str(run);
+                    return Ok(out);
                 }
                 Some(b'\\') => {
                     self.at += 1;
-                    let decoded = self.escape()?;
-                    let mut buffer = [0; 4];
-                    out.extend_from_slice(decoded.encode_utf8(&mut buffer).as_bytes());
+                    out.push_str(run);
+                    out.push(self.escape()?);
                 }
                 Some(_) => return Err(self.error("an escaped control character")),
                 None => return Err(self.error("the closing '\"' of a string")),
