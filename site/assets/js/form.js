@@ -273,7 +273,7 @@ function listenForOpening(on) {
   }
 }
 
-
+/** A selector focused or pressed while its options wait gets them first. */
 function onOpen(event) {
   if (event.target instanceof HTMLSelectElement) ensureOptions(event.target);
 }
@@ -370,7 +370,7 @@ function fieldWrap(field) {
   let before = state.ui.form.firstElementChild;
   for (let i = fields.indexOf(field) - 1; i >= 0; i--) {
     const built = state.ui.fieldWraps.get(fields[i].key);
-    if (built && built !== wrap) {
+    if (built) {
       before = built;
       break;
     }
@@ -432,7 +432,7 @@ export function syncUnitSelectors() {
 export function applyVisibility() {
   for (const field of state.spec.fields) {
     const hidden = !isVisible(field);
-    // A field shown for the first time is built now (`formFrom`).
+    // A field that a form built with `defer` lacks is built when it is shown.
     const wrap = hidden ? state.ui.fieldWraps.get(field.key) : fieldWrap(field);
     if (!wrap) continue;
     // Written only when it changes: a keystroke restyles nothing it does not change.
