@@ -233,6 +233,72 @@ fn the_form_the_page_takes_over_is_the_form_its_script_builds() {
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
 
+/// Run in the page before its scripts (`Page.addScriptToEvaluateOnNewDocument`): at
+/// the link's first result (its performance mark, made while the page's first task
+/// still runs), the inside diameter's unit selector is focused and the flow's pressed, and
+/// how many options each offered before and after is recorded.
+const OPENED_AT_FIRST_RESULT: &str = r##"
+window.openedAtFirstResult = null;
+const markAsBefore = performance.mark.bind(performance);
+performance.mark = (name, ...rest) => {
+  const entry = markAsBefore(name, ...rest);
+  if (name === "fluxledger:first-result" && !window.openedAtFirstResult) {
+    const diameter = document.querySelector("#calculator select[data-unit-for=d]");
+    const flow = document.querySelector("#calculator select[data-unit-for=q]");
+    const record = { before: [diameter.options.length, flow.options.length] };
+    diameter.dispatchEvent(new FocusEvent("focusin", { bubbles: true }));
+    flow.dispatchEvent(new PointerEvent("pointerdown", { bubbles: true }));
+    record.after = [diameter.options.length, flow.options.length];
+    record.values = [diameter.value, flow.value];
+    window.openedAtFirstResult = record;
+  }
+  return entry;
+};"##;
+
+/// Issue 9: a link's first result does not wait for the options of the selectors
+/// that already show their value; one focused or pressed before they are added gets
+/// them first, keeping its value, and they are the options it ends with.
+#[test]
+fn a_unit_selector_opened_before_a_links_form_is_complete_gets_its_options_first() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch {
+        width: 360,
+        height: 740,
+    });
+    page.call(
+        &mut browser,
+        "Page.addScriptToEvaluateOnNewDocument",
+        json!({ "source": OPENED_AT_FIRST_RESULT }),
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    let url = format!("{}/bend.html?angle=30deg", site.base);
+    page.goto(&mut browser, &url).unwrap_or_else(|e| panic!("{e}"));
+    let state = page.wait_rendered(&mut browser).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(state, "ready", "{url}");
+    let opened = eval(&page, &mut browser, "window.openedAtFirstResult");
+    let complete = eval(
+        &page,
+        &mut browser,
+        "['d', 'q'].map((k) => document.querySelector(`#calculator select[data-unit-for=${k}]`).options.length)",
+    );
+    let counts: Vec<u64> = complete
+        .as_array()
+        .map(|a| a.iter().filter_map(Value::as_u64).collect())
+        .unwrap_or_default();
+    assert!(
+        counts.len() == 2 && counts.iter().all(|&n| n > 1),
+        "complete lists: {complete}"
+    );
+    // At the first result both selectors showed their one served option...
+    assert_eq!(opened["before"], json!([1, 1]), "{opened}");
+    // ...and focused or pressed, each had its whole list, still on its unit.
+    assert_eq!(opened["after"], complete, "{opened}");
+    assert_eq!(opened["values"], json!(["mm", "m3/h"]), "{opened}");
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
 #[test]
 fn a_link_with_a_query_shows_computing_not_the_demo_then_its_own_result() {
     let _turn = one_at_a_time();
