@@ -1106,16 +1106,16 @@ pub fn joined_with_id(number: &str, def: &UnitDef) -> String {
 
 /// Formats an SI value in the display unit for `system`, four significant figures.
 pub fn format_quantity(si: f64, kind: QuantityKind, system: UnitSystem) -> String {
-    let def = display_unit(si, kind, system);
-    format_in(si, def)
+    let (number, def) = display_parts(si, kind, system);
+    joined_with_id(&number, def)
 }
 
 /// [`format_quantity`] as people read it, the unit's label in place of its id
 /// (`"12.4 kN"`, `"45°"`, `"2 m³/h"`): what [`with_label`] makes of it, written at
 /// once.
 pub fn format_quantity_labelled(si: f64, kind: QuantityKind, system: UnitSystem) -> String {
-    let def = display_unit(si, kind, system);
-    def.show(&format_significant((si - def.offset) / def.factor, 4))
+    let (number, def) = display_parts(si, kind, system);
+    def.show(&number)
 }
 
 /// Formats an SI value in a given unit id (falls back to the SI display unit).

@@ -414,18 +414,18 @@ export function normaliseField(field) {
 
 /** Keeps each unit selector on the unit the core actually applied. */
 export function syncUnitSelectors() {
-  for (const [key, select] of state.ui.unitSelects) {
-    const echo = state.echoes[key];
-    if (echo && echo.unit && select.value !== echo.unit) {
-      ensureOptions(select);
-      select.value = echo.unit;
-      state.units[key] = echo.unit;
-    }
-  }
-  // Fields not built yet (hidden) keep the unit in the page state only.
   for (const key in state.echoes) {
     const unit = state.echoes[key].unit;
-    if (unit && !state.ui.unitSelects.has(key) && state.units[key] !== unit) state.units[key] = unit;
+    if (!unit) continue;
+    // A field not built yet (hidden) keeps the unit in the page state only.
+    const select = state.ui.unitSelects.get(key);
+    if (select ? select.value !== unit : state.units[key] !== unit) {
+      if (select) {
+        ensureOptions(select);
+        select.value = unit;
+      }
+      state.units[key] = unit;
+    }
   }
 }
 

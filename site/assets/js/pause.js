@@ -6,6 +6,9 @@
 // every keystroke took about 1 ms of the bend page's input handler at 4x CPU (a
 // profile of 30 edits). Here a call only moves the task's due time; the one timer,
 // when it fires before that time, waits again for the rest.
+//
+// Also `whenIdle`: a task for the browser's idle time, with a timer where the
+// browser has no idle callbacks.
 
 /** Due times closer than this (ms) count as reached: a timer may fire a little early. */
 const PAUSE_SLACK_MS = 1;

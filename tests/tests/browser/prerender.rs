@@ -173,20 +173,17 @@ fn the_form_the_page_takes_over_is_the_form_its_script_builds() {
         width: 360,
         height: 740,
     });
+    let fields_of = |key: &str| calculators::spec(key).map(|s| s.fields.len()).unwrap_or(0);
     let mut addresses: Vec<(String, usize)> = calculators::CALCULATORS
         .iter()
-        .map(|c| {
-            let fields = calculators::spec(c.key).map(|s| s.fields.len()).unwrap_or(0);
-            (format!("{}/{}.html", site.base, c.key), fields)
-        })
+        .map(|c| (format!("{}/{}.html", site.base, c.key), fields_of(c.key)))
         .collect();
-    let bend_fields = calculators::spec("bend").map(|s| s.fields.len()).unwrap_or(0);
     addresses.push((
         format!(
             "{}/bend.html?p_known=outlet&p2=130psi&flow_given=v&v=8ft/s&d=12in&system=si",
             site.base
         ),
-        bend_fields,
+        fields_of("bend"),
     ));
     let forms = |page: &Page, browser: &mut Browser, removed: usize| -> Vec<String> {
         addresses
@@ -195,13 +192,14 @@ fn the_form_the_page_takes_over_is_the_form_its_script_builds() {
                 page.goto(browser, url).unwrap_or_else(|e| panic!("{e}"));
                 let state = page.wait_rendered(browser).unwrap_or_else(|e| panic!("{e}"));
                 assert_eq!(state, "ready", "{url}");
-                // The fields the page's values hide are built in idle time.
-                page.wait_for(
+                // A ready page's form is complete: every field, those the page's
+                // values hide included.
+                let built = eval(
+                    page,
                     browser,
-                    &format!("document.querySelectorAll('#calculator form.inputs > .field').length === {fields}"),
-                    std::time::Duration::from_secs(10),
-                )
-                .unwrap_or_else(|e| panic!("{url}: {e}"));
+                    "document.querySelectorAll('#calculator form.inputs > .field').length",
+                );
+                assert_eq!(built, json!(fields), "{url}: fields in the form when ready");
                 // The second round's pages must not have had a form to take over.
                 let gone = eval(page, browser, "window.servedFormsRemoved || 0");
                 assert_eq!(
