@@ -425,13 +425,23 @@ impl Page {
 
     /// Waits until the calculator has rendered (`body[data-state]` set) and no part
     /// waits for its update.
+    ///
+    /// On a timeout the error says what the page was doing: its address, state,
+    /// the parts still waiting and its console's errors (a rare wait in a loaded
+    /// run is then readable from the test's output alone).
     pub fn wait_rendered(&self, browser: &mut Browser) -> Result<String> {
-        self.wait_for(
+        if let Err(waited) = self.wait_for(
             browser,
             // ...and no part off screen still waits for its update (`data-stale`).
             "document.body && document.body.dataset.state && !document.querySelector('[data-stale]')",
             Duration::from_secs(30),
-        )?;
+        ) {
+            let page = self
+                .eval(browser, WAITING_PAGE)
+                .map_or_else(|e| format!("(not readable: {e})"), |v| v.to_string());
+            let errors = error_messages(self.events(browser));
+            return Err(format!("{waited}; the page: {page}; its errors: {errors:?}"));
+        }
         let state = self.eval(browser, "document.body.dataset.state")?;
         Ok(state.as_str().unwrap_or_default().to_string())
     }
@@ -444,6 +454,14 @@ impl Page {
         })
     }
 }
+
+/// What a page that is not rendered in time shows: its address, readiness, body
+/// state, the parts still marked `data-stale`, the root's classes, visibility and
+/// scroll position.
+const WAITING_PAGE: &str = "JSON.stringify({ url: location.href, ready: document.readyState, \
+    state: document.body ? document.body.dataset.state || null : null, \
+    stale: [...document.querySelectorAll('[data-stale]')].map((e) => `${e.tagName.toLowerCase()}.${e.className} ${(e.querySelector('h2, h3') || {}).textContent || ''}`), \
+    root: document.documentElement.className, visibility: document.visibilityState, scrollY })";
 
 /// Error-level messages: console errors and assertions, uncaught exceptions, and
 /// browser log entries of level error (failed loads, CSP violations).
