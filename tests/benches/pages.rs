@@ -492,16 +492,20 @@ fn print_measurements(site: &Fixture) -> Result<(), String> {
             // moves by several milliseconds between loads (its layers, the engine's
             // tiers, the machine), more than the targets' margins.
             let (mut ours, mut theirs) = (Vec::new(), Vec::new());
-            let (mut ours_loads, mut theirs_loads) = (Vec::new(), Vec::new());
             for _ in 0..RUNS {
-                let edits = keystrokes(&handbook, Site::Handbook, cpu, step)?;
-                ours_loads.push(median(&edits.iter().map(|k| k.to_next_frame).collect::<Vec<f64>>()));
-                ours.extend(edits);
-                let edits = keystrokes(&peer, Site::Baseline, cpu, step)?;
-                theirs_loads.push(median(&edits.iter().map(|k| k.to_next_frame).collect::<Vec<f64>>()));
-                theirs.extend(edits);
+                ours.push(keystrokes(&handbook, Site::Handbook, cpu, step)?);
+                theirs.push(keystrokes(&peer, Site::Baseline, cpu, step)?);
             }
-            let of = |v: &[Keystroke], f: fn(&Keystroke) -> f64| v.iter().map(f).collect::<Vec<f64>>();
+            let of = |loads: &[Vec<Keystroke>], f: fn(&Keystroke) -> f64| {
+                loads.iter().flatten().map(f).collect::<Vec<f64>>()
+            };
+            let each_load = |loads: &[Vec<Keystroke>]| {
+                let medians: Vec<String> = loads
+                    .iter()
+                    .map(|load| format!("{:.1}", median(&of(std::slice::from_ref(load), |k| k.to_next_frame))))
+                    .collect();
+                medians.join(", ")
+            };
             let max = |v: &[f64]| v.iter().copied().fold(0.0, f64::max);
             let (ours_total, theirs_total) = (of(&ours, |k| k.to_next_frame), of(&theirs, |k| k.to_next_frame));
             println!(
@@ -509,17 +513,17 @@ fn print_measurements(site: &Fixture) -> Result<(), String> {
                 max(&ours_total),
                 max(&theirs_total)
             );
-            for (site, total, edits, loads) in [
-                (Site::Handbook, &ours_total, &ours, &ours_loads),
-                (Site::Baseline, &theirs_total, &theirs, &theirs_loads),
+            for (site, total, loads) in [
+                (Site::Handbook, &ours_total, &ours),
+                (Site::Baseline, &theirs_total, &theirs),
             ] {
                 println!(
                     "    {:<9} median {:.1} ms (input handler {:.1} ms, the frame's own work {:.1} ms); each load's median [{}]",
                     site.name(),
                     median(total),
-                    median(&of(edits, |k| k.handler)),
-                    median(&of(edits, |k| k.frame_work)),
-                    loads.iter().map(|v| format!("{v:.1}")).collect::<Vec<_>>().join(", ")
+                    median(&of(loads, |k| k.handler)),
+                    median(&of(loads, |k| k.frame_work)),
+                    each_load(loads)
                 );
             }
             ratios.push((
