@@ -1,6 +1,8 @@
-//! Reads what the page sends for a form: the JSON text of a flat object of strings
+//! Reads what the page sends as JSON text: a flat object of strings
 //! (`JSON.stringify({p: "150 psi", d: "12 in"})`), the wire of [`crate::solve`]'s
-//! `inputs` and `field_units`.
+//! `inputs` and `field_units`, and arrays of strings or of arrays of strings
+//! ([`read_string_list`], [`read_string_lists`]), the wire of
+//! [`crate::upgrade_link`]'s pairs and [`crate::table_csv_traced`]'s table.
 //!
 //! Why text: read as a JavaScript object, every key and every value crosses from
 //! JavaScript into wasm on its own (a call out of wasm, a UTF-8 encoding and an
@@ -8,9 +10,15 @@
 //! crossings on every keystroke. `JSON.stringify` is native and fast, and the one
 //! string crosses once.
 //!
-//! The reader accepts exactly one shape, an object whose values are strings (the
-//! JSON grammar of RFC 8259 for it, whitespace included), and reads it as the
-//! browser's `JSON.parse` would: escapes decoded, a key given twice keeps its last
+//! Why not `serde-wasm-bindgen` for the arrays: its reader of JavaScript values
+//! and the `js-sys` calls behind it were about 7.5 kB Brotli of every page's
+//! module (measured on the bend page's: 108.4 kB with it, 100.8 kB without the
+//! three exports that used it), and the glue carried their imports.
+//!
+//! Each reader accepts exactly one shape (the JSON grammar of RFC 8259 for it,
+//! whitespace included): an object whose values are strings, an array of
+//! strings, an array of arrays of strings. It reads it as the browser's
+//! `JSON.parse` would: escapes decoded, a key given twice keeps its last
 //! value. A lone surrogate escape (`"\ud800"`, which `JSON.stringify` writes for a
 //! string holding one) is read as U+FFFD: a Rust string cannot hold it, and the
 //! field's value is then refused by the core as any unreadable text is. The tests
@@ -40,11 +48,7 @@ impl std::error::Error for ReadError {}
 /// # Errors
 /// When `text` is not a JSON object whose values are all strings.
 pub fn read_string_map(text: &str) -> Result<BTreeMap<String, String>, ReadError> {
-    let mut reader = Reader {
-        text,
-        bytes: text.as_bytes(),
-        at: 0,
-    };
+    let mut reader = Reader::new(text);
     let mut map = BTreeMap::new();
     reader.skip_whitespace();
     reader.require(b'{', "'{'")?;
@@ -65,11 +69,46 @@ pub fn read_string_map(text: &str) -> Result<BTreeMap<String, String>, ReadError
             reader.require(b',', "',' or '}'")?;
         }
     }
-    reader.skip_whitespace();
-    if reader.at != reader.bytes.len() {
-        return Err(reader.error("the end of the text"));
-    }
+    reader.end()?;
     Ok(map)
+}
+
+/// The strings of the JSON array `text`, in order.
+///
+/// # Errors
+/// When `text` is not a JSON array whose items are all strings.
+pub fn read_string_list(text: &str) -> Result<Vec<String>, ReadError> {
+    let mut reader = Reader::new(text);
+    reader.skip_whitespace();
+    let list = reader.string_list()?;
+    reader.end()?;
+    Ok(list)
+}
+
+/// The arrays of strings of the JSON array `text` (`[["p", "150 psi"], ...]`), in
+/// order.
+///
+/// # Errors
+/// When `text` is not a JSON array whose items are all arrays of strings.
+pub fn read_string_lists(text: &str) -> Result<Vec<Vec<String>>, ReadError> {
+    let mut reader = Reader::new(text);
+    reader.skip_whitespace();
+    let mut lists = Vec::new();
+    reader.require(b'[', "'['")?;
+    reader.skip_whitespace();
+    if !reader.eat(b']') {
+        loop {
+            reader.skip_whitespace();
+            lists.push(reader.string_list()?);
+            reader.skip_whitespace();
+            if reader.eat(b']') {
+                break;
+            }
+            reader.require(b',', "',' or ']'")?;
+        }
+    }
+    reader.end()?;
+    Ok(lists)
 }
 
 struct Reader<'a> {
@@ -78,7 +117,44 @@ struct Reader<'a> {
     at: usize,
 }
 
-impl Reader<'_> {
+impl<'a> Reader<'a> {
+    fn new(text: &'a str) -> Self {
+        Reader {
+            text,
+            bytes: text.as_bytes(),
+            at: 0,
+        }
+    }
+
+    /// Whitespace, then the end of the text.
+    fn end(&mut self) -> Result<(), ReadError> {
+        self.skip_whitespace();
+        if self.at == self.bytes.len() {
+            Ok(())
+        } else {
+            Err(self.error("the end of the text"))
+        }
+    }
+
+    /// A JSON array of strings, its `[` next.
+    fn string_list(&mut self) -> Result<Vec<String>, ReadError> {
+        let mut list = Vec::new();
+        self.require(b'[', "'['")?;
+        self.skip_whitespace();
+        if !self.eat(b']') {
+            loop {
+                self.skip_whitespace();
+                list.push(self.string()?);
+                self.skip_whitespace();
+                if self.eat(b']') {
+                    break;
+                }
+                self.require(b',', "',' or ']'")?;
+            }
+        }
+        Ok(list)
+    }
+
     fn error(&self, expected: &'static str) -> ReadError {
         ReadError {
             expected,
@@ -211,7 +287,7 @@ mod tests {
     //! the same grammar: every text either reads to the same map in both, or is
     //! refused by both.
 
-    use super::read_string_map;
+    use super::{read_string_list, read_string_lists, read_string_map};
     use std::collections::BTreeMap;
 
     /// Texts both readers must accept, with what they hold.
@@ -271,6 +347,76 @@ mod tests {
                 "serde_json reads {text:?}: not a case to refuse"
             );
             assert!(read_string_map(text).is_err(), "read {text:?}");
+        }
+    }
+
+    /// Arrays both readers must accept as arrays of strings (`list`) or arrays of
+    /// arrays of strings (`lists`), with what they hold.
+    const ACCEPTED_LISTS: &[&str] = &[
+        "[]",
+        " [ ] ",
+        r#"[["p","150 psi"]]"#,
+        "[\n [ \"p\" , \"150 psi\" ] ,\r\n\t[\"d\",\"12 in\"],[]\n]",
+        r#"[["units","us"],["p","1"],["p","2"]]"#,
+        r#"[["q","a \"quoted\" value \\ \u00b0C \ud83d\ude00"]]"#,
+        r#"[["Version","0.1.0"],["Link","https://example.org/bend.html?p=1&d=2"],["",""]]"#,
+    ];
+    const ACCEPTED_LIST: &[&str] = &[
+        "[]",
+        r#"["Station","Thrust (kN)"]"#,
+        " [ \"a\" ,\n\"\" ] ",
+        r#"["=1+1","\u2212 40 \u00b0C"]"#,
+    ];
+
+    /// Texts both readers must refuse as arrays of arrays of strings.
+    const REFUSED_LISTS: &[&str] = &[
+        "",
+        "{}",
+        r#"["p","150 psi"]"#,
+        r#"[["p",150]]"#,
+        r#"[["p",null]]"#,
+        r#"[["p",["150 psi"]]]"#,
+        r#"[["p","150 psi"],]"#,
+        r#"[["p","150 psi",]]"#,
+        r#"[["p" "150 psi"]]"#,
+        r#"[["p","150 psi"]"#,
+        r#"[["p","150 psi"]] x"#,
+        r#"[["p","150 psi"]][]"#,
+        "[[\"line\nbreak\"]]",
+        r#"[["\x"]]"#,
+    ];
+
+    #[test]
+    fn reads_the_arrays_serde_json_reads() {
+        for text in ACCEPTED_LISTS {
+            let ours = read_string_lists(text).unwrap_or_else(|e| panic!("refused {text:?}: {e}"));
+            let theirs: Vec<Vec<String>> =
+                serde_json::from_str(text).unwrap_or_else(|e| panic!("serde_json refused {text:?}: {e}"));
+            assert_eq!(ours, theirs, "{text:?}");
+        }
+        for text in ACCEPTED_LIST {
+            let ours = read_string_list(text).unwrap_or_else(|e| panic!("refused {text:?}: {e}"));
+            let theirs: Vec<String> =
+                serde_json::from_str(text).unwrap_or_else(|e| panic!("serde_json refused {text:?}: {e}"));
+            assert_eq!(ours, theirs, "{text:?}");
+        }
+    }
+
+    #[test]
+    fn refuses_the_arrays_serde_json_refuses() {
+        for text in REFUSED_LISTS {
+            assert!(
+                serde_json::from_str::<Vec<Vec<String>>>(text).is_err(),
+                "serde_json reads {text:?}: not a case to refuse"
+            );
+            assert!(read_string_lists(text).is_err(), "read {text:?}");
+        }
+        for text in ["", "[[\"a\"]]", r#"["a",1]"#, r#"["a"]]"#, r#"{"a":"b"}"#] {
+            assert!(
+                serde_json::from_str::<Vec<String>>(text).is_err(),
+                "serde_json reads {text:?}: not a case to refuse"
+            );
+            assert!(read_string_list(text).is_err(), "read {text:?}");
         }
     }
 

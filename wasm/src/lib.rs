@@ -18,9 +18,10 @@
 //!   their units `{id, label}`, default unit per system and the chain of conditions
 //!   under which each is shown; outputs; cautions), with the version and the unit
 //!   systems: what a calculator page asks for.
-//! - [`upgrade_link`]`(page, pairs)` — a link's `[key, value]` pairs read in today's
-//!   vocabulary through the core's glossary, `{pairs, translations}`; the page runs
-//!   every link through it before reading fields and reports the translations.
+//! - [`upgrade_link`]`(page, pairs)` — a link's `[key, value]` pairs (the JSON text
+//!   of the array, see [`fields_text`]) read in today's vocabulary through the
+//!   core's glossary, `{pairs, translations}`; the page runs every link through it
+//!   before reading fields and reports the translations.
 //! - `solve_headline(key, inputs, field_units, system)` — as `solve`, without
 //!   the tables, diagrams and plots (`{ok: true, headline_only: true, echoes,
 //!   outputs, warnings, carry_over}`, [`view::Detail::Headline`]): what the page
@@ -41,8 +42,17 @@
 //!   anything a user typed: invalid input comes back as `{ok: false, errors: [...]}`.
 //!   It throws only when the script calls it wrongly (values that are not strings,
 //!   an unknown unit system), through the one helper [`adapter_error`].
-//! - [`table_csv`]`(headers, rows)` — the CSV text of a result table, every cell a
-//!   spreadsheet would run as a formula neutralised (see [`csv`]).
+//! - [`table_csv_traced`]`(header, columns, rows)` — the CSV text of a result table
+//!   after a header block that traces it, every cell a spreadsheet would run as a
+//!   formula neutralised (see [`csv`]); the three are JSON text of arrays of
+//!   strings, read by [`fields_text`].
+//! - [`qr_code`]`(text)`, [`sheet_fields`]`()`, [`case_difference`]`(pinned_si,
+//!   current_si, unit)` — the printed sheet's QR symbol, its page-level keys, and
+//!   a headline of the current case against a pinned one.
+//!
+//! Only the verification page's `verify_case` takes a JavaScript value (a case
+//! object, read with `serde-wasm-bindgen`); every page module's argument is a
+//! string or a number, so its module carries no reader of JavaScript values.
 //!
 //! # One module per page
 //! Every calculator page loads a module of its own that links only its calculator:
@@ -129,15 +139,23 @@ pub fn calculator(served: &[Calculator], key: &str) -> Result<String, JsError> {
     to_json(&page)
 }
 
-/// A link's pairs (`[[key, value], ...]`) for page `page`, read in today's
-/// vocabulary ([`view::upgrade_view`]): `{pairs, translations}`.
+/// A link's pairs (the JSON text of `[[key, value], ...]`, see [`fields_text`])
+/// for page `page`, read in today's vocabulary ([`view::upgrade_view`]):
+/// `{pairs, translations}`.
 ///
 /// # Errors
-/// Throws only when `pairs` is not an array of two-string arrays.
-pub fn upgrade_link(served: &[Calculator], page: &str, pairs: JsValue) -> Result<String, JsError> {
-    let pairs: Vec<(String, String)> = serde_wasm_bindgen::from_value(pairs)
-        .map_err(|e| adapter_error("`pairs` must be an array of [key, value] strings", e))?;
-    to_json(&view::upgrade_view(served, page, &pairs))
+/// Throws only when `pairs` is not the JSON text of an array of two-string arrays.
+pub fn upgrade_link(served: &[Calculator], page: &str, pairs: &str) -> Result<String, JsError> {
+    const SHAPE: &str = "`pairs` must be the JSON text of an array of [key, value] strings";
+    let lists = fields_text::read_string_lists(pairs).map_err(|e| adapter_error(SHAPE, e))?;
+    let mut read = Vec::with_capacity(lists.len());
+    for (at, list) in lists.into_iter().enumerate() {
+        let Ok([key, value]) = <[String; 2]>::try_from(list) else {
+            return Err(adapter_error(SHAPE, format!("item {at} is not two strings")));
+        };
+        read.push((key, value));
+    }
+    to_json(&view::upgrade_view(served, page, &read))
 }
 
 /// Solves calculator `key` (one of those `served`) for what the user typed: the JSON
@@ -188,32 +206,26 @@ pub fn convert(
     to_json(&view::convert_view(served, key, field, text, from_unit, system))
 }
 
-/// The CSV text of a table (`columns`: the headers, an array of strings, `rows`: an array of
-/// arrays of strings): RFC 4180, CRLF line ends, every cell a spreadsheet would run
-/// as a formula neutralised by [`csv::neutralise`].
+/// The CSV text of a table after a header block, every cell neutralised
+/// ([`csv::traced`]). Each argument is JSON text (see [`fields_text`]): `header`
+/// an array of arrays of strings (one line each), `columns` an array of strings
+/// (the headers), `rows` an array of arrays of strings.
 ///
 /// # Errors
-/// Throws only when `columns` or `rows` are not arrays of strings.
-pub fn table_csv(columns: JsValue, rows: JsValue) -> Result<String, JsError> {
-    let columns: Vec<String> = serde_wasm_bindgen::from_value(columns)
-        .map_err(|e| adapter_error("`columns` must be an array of strings", e))?;
-    let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
-        .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
-    Ok(csv::table(&columns, &rows))
-}
-
-/// The CSV text of a table after a header block (`header`: an array of arrays of
-/// strings, one line each), every cell neutralised ([`csv::traced`]).
-///
-/// # Errors
-/// Throws only when the arguments are not arrays of strings.
-pub fn table_csv_traced(header: JsValue, columns: JsValue, rows: JsValue) -> Result<String, JsError> {
-    let header: Vec<Vec<String>> = serde_wasm_bindgen::from_value(header)
-        .map_err(|e| adapter_error("`header` must be an array of arrays of strings", e))?;
-    let columns: Vec<String> = serde_wasm_bindgen::from_value(columns)
-        .map_err(|e| adapter_error("`columns` must be an array of strings", e))?;
-    let rows: Vec<Vec<String>> = serde_wasm_bindgen::from_value(rows)
-        .map_err(|e| adapter_error("`rows` must be an array of arrays of strings", e))?;
+/// Throws only when an argument is not JSON text of that shape.
+pub fn table_csv_traced(header: &str, columns: &str, rows: &str) -> Result<String, JsError> {
+    let lists = |text: &str, name: &str| {
+        fields_text::read_string_lists(text).map_err(|e| {
+            adapter_error(
+                &format!("`{name}` must be the JSON text of an array of arrays of strings"),
+                e,
+            )
+        })
+    };
+    let header = lists(header, "header")?;
+    let columns = fields_text::read_string_list(columns)
+        .map_err(|e| adapter_error("`columns` must be the JSON text of an array of strings", e))?;
+    let rows = lists(rows, "rows")?;
     Ok(csv::traced(&header, &columns, &rows))
 }
 
@@ -253,7 +265,7 @@ pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<St
 
 /// The exports of a calculator page's module, over the calculators it serves
 /// (`$served`, a `&'static [Calculator]`): `catalog`, `calculator`, `upgrade_link`,
-/// `solve`, `solve_headline`, `convert`, `table_csv`, `table_csv_traced`, `qr_code`, `sheet_fields`
+/// `solve`, `solve_headline`, `convert`, `table_csv_traced`, `qr_code`, `sheet_fields`
 /// and `case_difference`, each the function of this crate of the same name
 /// (`solve_headline`: [`solve`] with [`view::Detail::Headline`]).
 ///
@@ -275,7 +287,7 @@ macro_rules! calculator_exports {
         }
 
         #[wasm_bindgen::prelude::wasm_bindgen]
-        pub fn upgrade_link(page: &str, pairs: wasm_bindgen::JsValue) -> Result<String, wasm_bindgen::JsError> {
+        pub fn upgrade_link(page: &str, pairs: &str) -> Result<String, wasm_bindgen::JsError> {
             $crate::upgrade_link($served, page, pairs)
         }
 
@@ -325,19 +337,7 @@ macro_rules! calculator_exports {
         }
 
         #[wasm_bindgen::prelude::wasm_bindgen]
-        pub fn table_csv(
-            columns: wasm_bindgen::JsValue,
-            rows: wasm_bindgen::JsValue,
-        ) -> Result<String, wasm_bindgen::JsError> {
-            $crate::table_csv(columns, rows)
-        }
-
-        #[wasm_bindgen::prelude::wasm_bindgen]
-        pub fn table_csv_traced(
-            header: wasm_bindgen::JsValue,
-            columns: wasm_bindgen::JsValue,
-            rows: wasm_bindgen::JsValue,
-        ) -> Result<String, wasm_bindgen::JsError> {
+        pub fn table_csv_traced(header: &str, columns: &str, rows: &str) -> Result<String, wasm_bindgen::JsError> {
             $crate::table_csv_traced(header, columns, rows)
         }
 

@@ -522,9 +522,21 @@ fn carry_over_views(solution: &Solution) -> Vec<CarryOverView> {
             calculator: c.calculator,
             title: calculators::title(c.calculator).unwrap_or(""),
             label: c.label.clone(),
-            inputs: c.inputs.iter().map(|(k, v)| (*k, v.clone())).collect(),
+            inputs: inputs_by_key(&c.inputs),
         })
         .collect()
+}
+
+/// A carried-over link's inputs keyed by field (the last of a key given twice).
+/// Inserted one by one, not collected: `BTreeMap`'s `from_iter` sorts with the
+/// standard library's stable sort, a few kB of every page's module for a list of
+/// a handful of keys.
+fn inputs_by_key(inputs: &[(&'static str, String)]) -> std::collections::BTreeMap<&'static str, String> {
+    let mut map = std::collections::BTreeMap::new();
+    for (key, value) in inputs {
+        map.insert(*key, value.clone());
+    }
+    map
 }
 
 // ---------------------------------------------------------------------------

@@ -21,7 +21,7 @@ import { saveCsv } from "./csv.js";
 /** The inputs of a case query, read through the glossary: {values: Map, system}. */
 function readCase(query) {
   const raw = [...new URLSearchParams(query)];
-  const upgraded = raw.length > 0 ? JSON.parse(glue.upgrade_link(state.spec.key, raw)) : { pairs: [] };
+  const upgraded = raw.length > 0 ? JSON.parse(glue.upgrade_link(state.spec.key, JSON.stringify(raw))) : { pairs: [] };
   const values = new Map();
   let system = state.system;
   for (const [key, value] of upgraded.pairs || []) {

@@ -17,7 +17,7 @@ export function downloadCsv(table) {
 
 /** Saves rows of texts under a header block as `<calculator>-<name>-<date>.csv`. */
 export function saveCsv(name, headers, rows) {
-  const text = glue.table_csv_traced(traceRows(), headers, rows);
+  const text = glue.table_csv_traced(JSON.stringify(traceRows()), JSON.stringify(headers), JSON.stringify(rows));
   const date = new Date().toISOString().slice(0, 10);
   const file = `${state.spec.key}-${name}-${date}.csv`;
   // A byte order mark, so that spreadsheet programs read the file as UTF-8.

@@ -20,7 +20,7 @@ export const SYSTEM_KEY = "system";
  */
 export function readUrl(spec) {
   const raw = [...new URLSearchParams(location.search)];
-  const upgraded = raw.length > 0 ? JSON.parse(glue.upgrade_link(spec.key, raw)) : { pairs: [], translations: [] };
+  const upgraded = raw.length > 0 ? JSON.parse(glue.upgrade_link(spec.key, JSON.stringify(raw))) : { pairs: [], translations: [] };
   const translations = upgraded.translations || [];
   if (translations.length > 0) {
     notice("info", [`Old link keys read as: ${translations.join(", ")}.`]);
