@@ -9,11 +9,9 @@
 //! answers with its JSON text,
 //! written by [`json`] and read by the page with `JSON.parse` (one string crosses
 //! from wasm instead of every value one by one, and the module carries one
-//! serialiser: `serde-wasm-bindgen` only reads the arguments). The page script
+//! serialiser; `serde-wasm-bindgen` reads only the verification page's case). The page script
 //! calls these functions:
 //!
-//! - [`catalog`]`()` — the description of every calculator the module serves
-//!   (fields, unit lists, outputs, cautions).
 //! - [`calculator`]`(key)` — the description of one calculator (its fields with
 //!   their units `{id, label}`, default unit per system and the chain of conditions
 //!   under which each is shown; outputs; cautions), with the version and the unit
@@ -123,11 +121,6 @@ fn string_map(text: &str, name: &str) -> Result<BTreeMap<String, String>, JsErro
             e,
         )
     })
-}
-
-/// The description of every calculator `served` ([`view::CatalogView`]).
-pub fn catalog(served: &[Calculator]) -> Result<String, JsError> {
-    to_json(&view::catalog_view(served))
 }
 
 /// The description of calculator `key` ([`view::PageView`]).
@@ -264,7 +257,7 @@ pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<St
 }
 
 /// The exports of a calculator page's module, over the calculators it serves
-/// (`$served`, a `&'static [Calculator]`): `catalog`, `calculator`, `upgrade_link`,
+/// (`$served`, a `&'static [Calculator]`): `calculator`, `upgrade_link`,
 /// `solve`, `solve_headline`, `convert`, `table_csv_traced`, `qr_code`, `sheet_fields`
 /// and `case_difference`, each the function of this crate of the same name
 /// (`solve_headline`: [`solve`] with [`view::Detail::Headline`]).
@@ -276,11 +269,6 @@ pub fn case_difference(pinned_si: f64, current_si: f64, unit: &str) -> Result<St
 #[macro_export]
 macro_rules! calculator_exports {
     ($served:expr) => {
-        #[wasm_bindgen::prelude::wasm_bindgen]
-        pub fn catalog() -> Result<String, wasm_bindgen::JsError> {
-            $crate::catalog($served)
-        }
-
         #[wasm_bindgen::prelude::wasm_bindgen]
         pub fn calculator(key: &str) -> Result<String, wasm_bindgen::JsError> {
             $crate::calculator($served, key)

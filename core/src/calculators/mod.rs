@@ -353,6 +353,58 @@ pub(crate) mod testing {
 mod tests {
     use super::*;
 
+    /// The page sends only the fields that hold text (and the units of those): a
+    /// field not sent must read exactly as a field sent empty, in every
+    /// calculator, both unit systems, with a field blanked or given.
+    #[test]
+    fn a_field_not_sent_reads_as_a_field_sent_empty() {
+        use crate::catalog::{default_unit, demo_request, FieldKind};
+        use crate::UnitSystem;
+        for calculator in CALCULATORS {
+            let spec = (calculator.spec)();
+            let blanked = spec.fields.iter().find(|f| !f.demo.is_empty()).map(|f| f.key);
+            let variants: [&[(&str, &str)]; 2] = [&[], &[(blanked.unwrap_or(""), "")]];
+            for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
+                for overrides in variants {
+                    let mut sent = demo_request(&spec, overrides);
+                    sent.system = system;
+                    // As the page sends it: every field, empty ones as "", and the
+                    // unit its selector shows for every quantity.
+                    let mut every = sent.clone();
+                    for field in &spec.fields {
+                        every.inputs.entry(field.key.to_string()).or_default();
+                        if let FieldKind::Quantity(_) = field.kind {
+                            every
+                                .field_units
+                                .insert(field.key.to_string(), default_unit(field, system).to_string());
+                        }
+                    }
+                    // As it sends it now: the fields with text, and their units.
+                    sent.inputs.retain(|_, value| !value.is_empty());
+                    sent.field_units = every
+                        .field_units
+                        .iter()
+                        .filter(|(key, _)| sent.inputs.contains_key(*key))
+                        .map(|(key, unit)| (key.clone(), unit.clone()))
+                        .collect();
+                    if !overrides.is_empty() {
+                        assert!(
+                            sent.inputs.len() < every.inputs.len(),
+                            "{}: no field left out",
+                            spec.key
+                        );
+                    }
+                    assert_eq!(
+                        solve(spec.key, &sent),
+                        solve(spec.key, &every),
+                        "{} ({system:?}, {overrides:?})",
+                        spec.key
+                    );
+                }
+            }
+        }
+    }
+
     #[test]
     fn every_page_is_found_by_its_key_with_its_spec_title() {
         for calculator in CALCULATORS {
