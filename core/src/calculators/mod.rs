@@ -363,7 +363,8 @@ mod tests {
         for calculator in CALCULATORS {
             let spec = (calculator.spec)();
             let blanked = spec.fields.iter().find(|f| !f.demo.is_empty()).map(|f| f.key);
-            let variants: [&[(&str, &str)]; 2] = [&[], &[(blanked.unwrap_or(""), "")]];
+            let blanked = blanked.unwrap_or_else(|| panic!("{}: no demo value to blank", spec.key));
+            let variants: [&[(&str, &str)]; 2] = [&[], &[(blanked, "")]];
             for system in [UnitSystem::Si, UnitSystem::UsCustomary] {
                 for overrides in variants {
                     let mut sent = demo_request(&spec, overrides);
