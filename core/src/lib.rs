@@ -8,6 +8,7 @@
 //! primitives, warnings) that an adapter may serialise. Everything inside is SI.
 //!
 //! - [`units`]: the strict quantity parser and result formatter.
+//! - [`decimal`]: decimal number text read into `f64` (the parser's reader).
 //! - [`fluid`]: water properties from 0 to 100 °C and custom fluids.
 //! - [`friction`]: the Darcy friction factor (laminar, Colebrook).
 //! - [`pipe_sizes`]: pipe size presets (outside and inside diameters).
@@ -26,6 +27,7 @@
 
 pub mod calculators;
 pub mod catalog;
+pub mod decimal;
 pub mod engine;
 pub mod error;
 pub mod fluid;

@@ -363,7 +363,7 @@ pub fn split_shown(text: &str) -> Option<(String, Option<&'static UnitDef>)> {
         Some((number, unit)) => (number, Some(unit)),
         None => (text, None),
     };
-    if !number.parse::<f64>().is_ok_and(f64::is_finite)
+    if !crate::decimal::parse_decimal(number).is_some_and(f64::is_finite)
         || number.contains(|c: char| c.is_ascii_alphabetic() && c != 'e')
     {
         return None;
@@ -876,7 +876,7 @@ fn read_fraction(text: &str) -> Option<Result<(TypedNumber<'_>, &str), FieldErro
             None => return None,
         }
     } else {
-        let whole: f64 = body[..whole_len].parse().ok()?;
+        let whole = crate::decimal::parse_decimal(&body[..whole_len])?;
         let spaced = after_whole.trim_start();
         if let Some(rest) = after_whole.strip_prefix('/') {
             // "3/4": the whole part is the numerator.
@@ -903,7 +903,7 @@ fn read_fraction(text: &str) -> Option<Result<(TypedNumber<'_>, &str), FieldErro
             if num_len == 0 || den_len == 0 {
                 return None;
             }
-            let numerator: f64 = rest[..num_len].parse().ok()?;
+            let numerator = crate::decimal::parse_decimal(&rest[..num_len])?;
             let consumed = body.len() - rest.len() + num_len + 1 + den_len;
             match denominator(&rest[num_len + 1..num_len + 1 + den_len]) {
                 Ok(den) if numerator < den => Ok((whole + numerator / den, consumed)),
@@ -1003,9 +1003,8 @@ fn parse_number(text: &str) -> Result<f64, FieldErrorKind> {
     if dots > 1 {
         return Err(FieldErrorKind::NotANumber { text: text.to_string() });
     }
-    let value: f64 = normalised
-        .parse()
-        .map_err(|_| FieldErrorKind::NotANumber { text: text.to_string() })?;
+    let value = crate::decimal::parse_decimal(&normalised)
+        .ok_or_else(|| FieldErrorKind::NotANumber { text: text.to_string() })?;
     if value.is_finite() {
         Ok(value)
     } else {
