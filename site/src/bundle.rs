@@ -20,7 +20,8 @@
 //!
 //! The joined file leaves out the modules' comment lines and blank lines (a third
 //! of the script's compressed size: the sources are documented at length, and a
-//! phone on a slow link downloads the script on the way to a link's first result).
+//! phone on a slow link downloads the script on the way to a link's first result),
+//! and the indentation of every line that starts in code (0.8 kB Brotli of 21 kB).
 //! Only whole lines are left out, and only where a line scanner that knows strings,
 //! template literals (with `${…}` nested in them) and comments sees code: a line of
 //! a template literal is kept as it is. A module that ends inside a template literal
@@ -259,7 +260,13 @@ fn parse(name: &str, text: &str, folder_prefix: &str) -> Result<Module, String> 
         if let Some(declared) = declared_name(line) {
             module.declared.push(declared.to_string());
         }
-        module.body.push_str(line);
+        // A line that starts in code loses its indentation (a line of a template
+        // literal keeps it: it is text); the line breaks stay, so the code means
+        // what it meant.
+        let starts_in_code = was_code || line.len() < whole_line.len();
+        module
+            .body
+            .push_str(if starts_in_code { line.trim_start() } else { line });
         module.body.push('\n');
     }
     if !scan.in_code() {
@@ -375,7 +382,7 @@ mod tests {
         let joined = join(entry, "js", &list).unwrap();
         assert_eq!(
             joined,
-            "// ---- d.js\nlet d = 1;\n// ---- a.js\nconst a = d + 1;\n// ---- b.js\nfunction b() {\n  return d;\n}\n\
+            "// ---- d.js\nlet d = 1;\n// ---- a.js\nconst a = d + 1;\n// ---- b.js\nfunction b() {\nreturn d;\n}\n\
              // ---- main.js\nmain(a, b);\n// ---- app.js\n"
         );
     }
@@ -409,14 +416,14 @@ ${x ? `inner // text` : "}"} still template
             joined,
             r#"// ---- f.js
 function f(x) {
-  const t = `line one
+const t = `line one
 // template text, not a comment
 ${x ? `inner // text` : "}"} still template
 /* also text */`;
-  const s = "// in a string"; // trailing
-  /* block */ g();
- h();
-  return t + s;
+const s = "// in a string"; // trailing
+/* block */ g();
+h();
+return t + s;
 }
 // ---- app.js
 f(1);
