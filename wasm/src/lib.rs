@@ -78,6 +78,13 @@
 //! write: `None` is `null`, maps are plain objects). What dropping
 //! `serde-wasm-bindgen`'s serialiser saved is measured in DEVELOPERS.md ("Module
 //! size").
+//!
+//! # Allocator
+//! Every module allocates with Talc (`talc`'s allocator for single-threaded
+//! WebAssembly, which grows the module's memory as needed) instead of the standard
+//! library's dlmalloc: its code is smaller (the bend page's module 2 kB Brotli
+//! less, measured in DEVELOPERS.md, "Module size"). Native builds (the tests, the
+//! site tool) keep the system's allocator.
 
 pub mod compare;
 pub mod csv;
@@ -94,6 +101,10 @@ use serde::Serialize;
 use wasm_bindgen::prelude::*;
 
 pub use wasm_bindgen;
+
+#[cfg(all(target_family = "wasm", not(target_feature = "atomics")))]
+#[global_allocator]
+static ALLOCATOR: talc::wasm::WasmDynamicTalc = talc::wasm::new_wasm_dynamic_allocator();
 
 use fluxledger_core::calculators;
 /// What a module serves, and how a page's module finds its calculator.
