@@ -195,26 +195,23 @@ fn times_power_of_two(mut value: f64, mut exponent: i64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::parse_decimal;
+    use crate::test_random::TestRandom;
 
     /// Units in the last place between two positive finite `f64`.
     fn ulps(a: f64, b: f64) -> u64 {
         a.to_bits().abs_diff(b.to_bits())
     }
 
-    /// A small deterministic generator (xorshift64*), so that the generated
-    /// inputs are the same on every run.
-    struct Generator(u64);
+    /// Generated decimal text, from the tests' shared deterministic generator.
+    struct Generator(TestRandom);
 
     impl Generator {
-        fn next(&mut self) -> u64 {
-            self.0 ^= self.0 >> 12;
-            self.0 ^= self.0 << 25;
-            self.0 ^= self.0 >> 27;
-            self.0.wrapping_mul(0x2545_f491_4f6c_dd1d)
+        fn new(seed: u64) -> Self {
+            Generator(TestRandom::new(seed))
         }
 
         fn below(&mut self, n: u64) -> u64 {
-            self.next() % n
+            self.0.below(n)
         }
 
         /// Decimal text of `digits` random digits with a point at a random place
@@ -287,7 +284,7 @@ mod tests {
     /// path, so every one equals `str::parse` bit for bit.
     #[test]
     fn generated_short_numbers_read_exactly() {
-        let mut generator = Generator(0x9e37_79b9_7f4a_7c15);
+        let mut generator = Generator::new(0x9e37_79b9_7f4a_7c15);
         for _ in 0..200_000 {
             let digits = 1 + generator.below(15);
             let text = generator.number(digits, 7);
@@ -301,7 +298,7 @@ mod tests {
     /// the last place of `str::parse` (and mostly equal), infinite where it is.
     #[test]
     fn generated_long_and_far_scaled_numbers_read_within_one_ulp() {
-        let mut generator = Generator(0x2545_f491_4f6c_dd1d);
+        let mut generator = Generator::new(0x2545_f491_4f6c_dd1d);
         let (mut differing, mut approximate) = (0, 0);
         for _ in 0..200_000 {
             let digits = 1 + generator.below(30);

@@ -37,6 +37,8 @@ pub mod numeric;
 pub mod pipe_sizes;
 pub mod quadrature;
 pub mod restraint;
+#[cfg(test)]
+mod test_random;
 pub mod units;
 pub mod vector;
 pub mod velocity_profile;

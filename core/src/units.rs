@@ -1554,16 +1554,9 @@ mod tests {
     /// (an independent implementation): equal keys keep their order.
     #[test]
     fn the_short_list_sort_orders_as_the_standard_librarys_stable_sort() {
-        let mut state = 0x9e37_79b9_7f4a_7c15_u64;
+        let mut random = crate::test_random::TestRandom::new(0x9e37_79b9_7f4a_7c15);
         for length in 0..40 {
-            let mut list: Vec<(u64, usize)> = (0..length)
-                .map(|at| {
-                    state ^= state << 13;
-                    state ^= state >> 7;
-                    state ^= state << 17;
-                    (state % 7, at)
-                })
-                .collect();
+            let mut list: Vec<(u64, usize)> = (0..length).map(|at| (random.below(7), at)).collect();
             let mut expected = list.clone();
             expected.sort_by_key(|item| item.0);
             sort_short_by_key(&mut list, |item| item.0);
