@@ -662,6 +662,8 @@ fn build_locked(out: &Path, opts: &BuildOptions) -> Result<BuildReport, SiteErro
         }
         .into());
     };
+    // The page calls the glue as soon as the module is in: compiled while it streams.
+    let glue_js = format!("{}{glue_js}", crate::bundle::EAGER_COMPILE_HINT);
     let glue_name = hashed_name("fluxledger_wasm", "js", glue_js.as_bytes());
     let verify_glue_name = hashed_name("fluxledger_verify", "js", verify_glue_js.as_bytes());
     let mut modules = sources.modules.clone();
