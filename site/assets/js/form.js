@@ -532,20 +532,21 @@ export function buildPage({ deferForm = false } = {}) {
 
   const details = el("div", { class: "details" });
   const printFooter = el("div", { class: "print-footer" });
-
-  // The headline stays in view while the inputs scroll past (on phones), and no
-  // further: it sticks within this wrapper only.
-  const main = el("div", { class: "calc-main" }, headline, form);
   // The page's cautions (written into the page by the site tool) stand beside the
   // result: under the headline on a wide screen, before the result's details on a
   // phone, after the key results on the printed sheet.
   const cautions = document.getElementById("cautions");
-  const grid = el("div", { class: "calc-grid" }, main, cautions, details);
-  // The site tool puts the rules the first screen does not use in a <style> where
-  // the demo's details begin, the print stylesheet after them: both move to the
-  // head, in that order, before the section is rebuilt.
-  document.head.append(...section.querySelectorAll("style, link[rel=stylesheet]"));
-  section.replaceChildren(toolbar, notices, grid);
+
+  if (!takeOverServedGrid(section, { toolbar, headline, form, cautions, details })) {
+    // The headline stays in view while the inputs scroll past (on phones), and no
+    // further: it sticks within this wrapper only.
+    const main = el("div", { class: "calc-main" }, headline, form);
+    const grid = el("div", { class: "calc-grid" }, main, cautions, details);
+    // Stylesheets in the section (the rules the first screen does not use, print)
+    // move to the head, in their order, before the section is rebuilt.
+    document.head.append(...section.querySelectorAll("style, link[rel=stylesheet]"));
+    section.replaceChildren(toolbar, notices, grid);
+  }
   // The printed sheet ends with the link and version, after the method and cautions.
   (section.closest("main") || section).append(printFooter);
   Object.assign(state.ui, { section, headline, form, details, printFooter });
@@ -556,6 +557,33 @@ export function buildPage({ deferForm = false } = {}) {
   section.addEventListener("click", onClick);
   // A selector whose options still wait gets them before it opens.
   if (optionsToFill.size > 0) listenForOpening(true);
+}
+
+/**
+ * Takes over the calculator the site tool served (`prerender.rs`: toolbar, notices,
+ * and a grid of the headline and form, the cautions, the stylesheets of the rules
+ * the first screen does not use and of print, and the demo's details) where it
+ * stands: the demo's toolbar, headline and details give way to the page's own, the
+ * form and cautions stay, and the grid is no longer a demo part. The stylesheets
+ * stay where they are: a <style> moved is parsed again (7.5 ms at 4× CPU in a
+ * DevTools trace of a link's first result), and moving the grid's large subtree
+ * cost as much again. False, with nothing changed, when the section is not as served.
+ */
+function takeOverServedGrid(section, { toolbar, headline, form, cautions, details }) {
+  const grid = section.querySelector(":scope > .calc-grid");
+  const main = grid && grid.querySelector(":scope > .calc-main");
+  const servedToolbar = section.querySelector(":scope > .toolbar");
+  if (!main || !servedToolbar || form.parentElement !== main || !cautions || cautions.parentElement !== grid) return false;
+  servedToolbar.replaceWith(toolbar);
+  for (const child of [...main.children]) if (child !== form) child.remove();
+  main.prepend(headline);
+  for (const child of [...grid.children]) {
+    if (child !== main && child !== cautions && !child.matches("style, link[rel=stylesheet]")) child.remove();
+  }
+  grid.append(details);
+  grid.removeAttribute("data-demo");
+  grid.inert = false;
+  return true;
 }
 
 export function updatePrintFooter() {

@@ -279,6 +279,13 @@ async function start() {
     registerServiceWorker();
     return;
   }
+  // The head script adds this script as a module, which can run before the parser
+  // has reached the end of the page (a fast connection, a module from the cache);
+  // the calculator the site tool served is taken over where it stands, so it must
+  // be whole first.
+  if (document.readyState === "loading") {
+    await new Promise((resolve) => document.addEventListener("DOMContentLoaded", resolve, { once: true }));
+  }
   try {
     state.page = JSON.parse(glue.calculator(key));
   } catch (error) {
