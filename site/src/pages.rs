@@ -422,8 +422,10 @@ pub fn calculator_page(
 }
 
 /// The second `<style>` of a calculator page (the screen rules its first screen
-/// does not use) and, after it, the print stylesheet. The page script moves both
-/// to the head, in this order, before it rebuilds the calculator section.
+/// does not use) and, after it, the print stylesheet. The page script takes the
+/// calculator over around them and leaves both where they are (a `<style>` moved
+/// is parsed again); were the section not as served, it moves both to the head, in
+/// this order, before it rebuilds the section.
 fn print_after(later_rules: &str, assets: &PageAssets) -> String {
     format!(
         "<style>{later_rules}</style><link rel=\"stylesheet\" href=\"{}\" media=\"print\">",
