@@ -202,35 +202,23 @@ mod tests {
         a.to_bits().abs_diff(b.to_bits())
     }
 
-    /// Generated decimal text, from the tests' shared deterministic generator.
-    struct Generator(TestRandom);
-
-    impl Generator {
-        fn new(seed: u64) -> Self {
-            Generator(TestRandom::new(seed))
+    /// Decimal text of `digits` random digits with a point at a random place (or
+    /// none) and a random exponent in `exponents` (or none), drawn from the tests'
+    /// shared deterministic generator.
+    fn number(random: &mut TestRandom, digits: u64, exponents: i64) -> String {
+        let mut text: String = (0..digits).map(|_| char::from(b'0' + random.below(10) as u8)).collect();
+        if random.below(3) > 0 {
+            let at = random.below(digits + 1) as usize;
+            text.insert(at, '.');
         }
-
-        fn below(&mut self, n: u64) -> u64 {
-            self.0.below(n)
+        if exponents > 0 && random.below(2) == 0 {
+            let exponent = random.below(2 * exponents as u64 + 1) as i64 - exponents;
+            text.push_str(&format!("e{exponent}"));
         }
-
-        /// Decimal text of `digits` random digits with a point at a random place
-        /// (or none) and a random exponent in `exponents` (or none).
-        fn number(&mut self, digits: u64, exponents: i64) -> String {
-            let mut text: String = (0..digits).map(|_| char::from(b'0' + self.below(10) as u8)).collect();
-            if self.below(3) > 0 {
-                let at = self.below(digits + 1) as usize;
-                text.insert(at, '.');
-            }
-            if exponents > 0 && self.below(2) == 0 {
-                let exponent = self.below(2 * exponents as u64 + 1) as i64 - exponents;
-                text.push_str(&format!("e{exponent}"));
-            }
-            if self.below(4) == 0 {
-                text.insert(0, '-');
-            }
-            text
+        if random.below(4) == 0 {
+            text.insert(0, '-');
         }
+        text
     }
 
     /// Text as people type it: the exact path gives `str::parse`'s value (the
@@ -284,10 +272,10 @@ mod tests {
     /// path, so every one equals `str::parse` bit for bit.
     #[test]
     fn generated_short_numbers_read_exactly() {
-        let mut generator = Generator::new(0x9e37_79b9_7f4a_7c15);
+        let mut random = TestRandom::new(0x9e37_79b9_7f4a_7c15);
         for _ in 0..200_000 {
-            let digits = 1 + generator.below(15);
-            let text = generator.number(digits, 7);
+            let digits = 1 + random.below(15);
+            let text = number(&mut random, digits, 7);
             let std: f64 = text.parse().expect("generated text is a number");
             let ours = parse_decimal(&text).expect("generated text is a number");
             assert_eq!(ours.to_bits(), std.to_bits(), "{text}");
@@ -298,11 +286,11 @@ mod tests {
     /// the last place of `str::parse` (and mostly equal), infinite where it is.
     #[test]
     fn generated_long_and_far_scaled_numbers_read_within_one_ulp() {
-        let mut generator = Generator::new(0x2545_f491_4f6c_dd1d);
+        let mut random = TestRandom::new(0x2545_f491_4f6c_dd1d);
         let (mut differing, mut approximate) = (0, 0);
         for _ in 0..200_000 {
-            let digits = 1 + generator.below(30);
-            let text = generator.number(digits, 300);
+            let digits = 1 + random.below(30);
+            let text = number(&mut random, digits, 300);
             let std: f64 = text.parse().expect("generated text is a number");
             let ours = parse_decimal(&text).expect("generated text is a number");
             if std.is_infinite() || std == 0.0 || std.abs() < f64::MIN_POSITIVE {

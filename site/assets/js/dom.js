@@ -60,6 +60,22 @@ function setAttrs(node, attrs) {
 }
 
 /**
+ * Makes `nodes` the children of `parent`, in order, as `replaceChildren` does, but
+ * moving only the nodes out of place: where most are already in place (the served
+ * form's fields), taking each out and putting it back costs a link's first result
+ * several milliseconds at 4× CPU.
+ */
+export function setChildren(parent, nodes) {
+  const keep = new Set(nodes);
+  for (const child of [...parent.childNodes]) if (!keep.has(child)) child.remove();
+  let before = parent.firstChild;
+  for (const node of nodes) {
+    if (node === before) before = before.nextSibling;
+    else parent.insertBefore(node, before);
+  }
+}
+
+/**
  * Writes `text` into an element that shows one piece of text, only when it differs.
  * A lone text node has its data rewritten: the browser then lays out the changed
  * text alone, where `textContent` would remove the node and insert a new one (and

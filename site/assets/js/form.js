@@ -2,7 +2,7 @@
 // delegated listener per event type on the calculator section reads every control
 // (fields by `name`, unit selectors by `data-unit-for`, buttons by `data-action`).
 
-import { el } from "./dom.js";
+import { el, setChildren } from "./dom.js";
 import { clearPassingNotices, noticesBox } from "./notices.js";
 import { state, defaultUnit, isQuantity, isVisible, systemLabel } from "./state.js";
 import { glue } from "./wasm.js";
@@ -354,22 +354,6 @@ function formFrom(served, defer) {
   setChildren(form, [title, ...wraps]);
   form.addEventListener("submit", (event) => event.preventDefault());
   return form;
-}
-
-/**
- * Makes `nodes` the children of `parent`, in order, as `replaceChildren` does, but
- * moving only the nodes out of place: the served form's fields are already where
- * they belong, and taking each out and putting it back cost a link's first result
- * several milliseconds at 4× CPU.
- */
-function setChildren(parent, nodes) {
-  const keep = new Set(nodes);
-  for (const child of [...parent.childNodes]) if (!keep.has(child)) child.remove();
-  let before = parent.firstChild;
-  for (const node of nodes) {
-    if (node === before) before = before.nextSibling;
-    else parent.insertBefore(node, before);
-  }
 }
 
 /**
