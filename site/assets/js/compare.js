@@ -17,6 +17,7 @@ import { glue } from "./wasm.js";
 import { SYSTEM_KEY, caseParams, writeUrl } from "./url.js";
 import { sheetDescription } from "./sheet.js";
 import { saveCsv } from "./csv.js";
+import { forgetTable, watchTable } from "./layout.js";
 
 /** The inputs of a case query, read through the glossary: {values: Map, system}. */
 function readCase(query) {
@@ -145,7 +146,7 @@ export function updateCompare() {
     el(
       "p",
       { class: "compare-actions" },
-      el("button", { type: "button", dataset: { action: "pin" }, disabled: full, text: "Pin this case" }),
+      el("button", { type: "button", class: "button", dataset: { action: "pin" }, disabled: full, text: "Pin this case" }),
       " ",
       el("span", {
         class: "compare-help",
@@ -170,7 +171,7 @@ export function updateCompare() {
           i < pins.length
             ? el("button", {
                 type: "button",
-                class: "unpin",
+                class: "button unpin",
                 dataset: { action: "unpin", index: i },
                 "aria-label": `Remove ${title}`,
                 text: "×",
@@ -203,11 +204,13 @@ export function updateCompare() {
       el(
         "p",
         { class: "table-actions" },
-        el("button", { type: "button", dataset: { action: "compare-csv" }, text: "Download CSV" }),
+        el("button", { type: "button", class: "button button-small", dataset: { action: "compare-csv" }, text: "Download CSV" }),
       ),
     );
   }
+  forgetTable(panel);
   panel.replaceChildren(...parts);
+  if (pins.length > 0) watchTable(panel);
 }
 
 function downloadComparison() {

@@ -83,7 +83,8 @@ function fold(headline, folded) {
 
 let resizes = null;
 
-/** Marks a table panel made by `renderTable` when its table scrolls sideways. */
+/** Marks a table panel (made by `renderTable`, or the comparison's) when its table
+ * scrolls sideways. */
 export function watchTable(panel) {
   const box = panel.querySelector(".table-scroll");
   if (!box) return;
@@ -116,13 +117,23 @@ export function watchTable(panel) {
   if (table) resizes.observe(table);
 }
 
+/** Stops watching a table panel's table before the panel is redrawn (the observer
+ * would otherwise keep the replaced elements). */
+export function forgetTable(panel) {
+  const box = panel.querySelector(".table-scroll");
+  if (!box || !resizes) return;
+  resizes.unobserve(box);
+  const table = box.querySelector("table");
+  if (table) resizes.unobserve(table);
+}
+
 function markOverflow(box) {
   applyOverflow(measureOverflow(box));
 }
 
 /** Whether a table's box scrolls sideways and is scrolled to its end (reads only). */
 function measureOverflow(box) {
-  const panel = box.closest(".panel-table");
+  const panel = box.closest(".panel-table, .compare-panel");
   if (!panel) return null;
   const overflows = box.scrollWidth > box.clientWidth + 1;
   const atEnd = box.scrollLeft + box.clientWidth >= box.scrollWidth - 1;

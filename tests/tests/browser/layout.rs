@@ -4,7 +4,7 @@
 //! that sticks to the top takes at most a quarter of the screen. The result box
 //! folds while the reader scrolls down and opens on scrolling back or a tap; a
 //! table wider than its box shows that it scrolls; what the unit switch reported
-//! is gone at the next edit.
+//! is gone at the next edit. Every control a finger uses is tall enough to hit.
 
 use std::time::Duration;
 
@@ -230,17 +230,33 @@ fn a_table_wider_than_its_box_shows_that_it_scrolls() {
     let site = fixture();
     let (mut browser, page) = phone();
     open(&page, &mut browser, &format!("{}/bend.html", site.base));
+    // A pinned case adds the comparison's table, drawn again at every edit.
+    eval(
+        &page,
+        &mut browser,
+        "document.querySelector('.compare-panel button[data-action=pin]').click()",
+    );
+    page.wait_for(
+        &mut browser,
+        "document.querySelector('.compare-table')",
+        Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("pinning showed no comparison: {e}"));
     browser
         .pump(Duration::from_millis(200))
         .unwrap_or_else(|e| panic!("{e}"));
     // Each table, read once it has been scrolled into view and painted (off screen a
     // table is not laid out, so its cue waits for the frame that shows it):
     // [key, wider than its box, marked, hint shown, faded edge].
-    let tables = "(async () => { const rows = [];       for (const p of document.querySelectorAll('.panel-table')) {         p.scrollIntoView();         await new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r)));         const box = p.querySelector('.table-scroll');         rows.push([p.querySelector('table').dataset.table, box.scrollWidth > box.clientWidth + 1,           p.hasAttribute('data-overflows'),           getComputedStyle(p.querySelector('.table-actions'), '::before').content.includes('Scroll'),           getComputedStyle(box).maskImage !== 'none']);       }       return JSON.stringify(rows); })()";
+    let tables = "(async () => { const rows = [];       for (const p of document.querySelectorAll('.panel-table, .compare-panel')) {         p.scrollIntoView();         await new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r)));         const box = p.querySelector('.table-scroll');         rows.push([p.querySelector('table').dataset.table ?? 'comparison', box.scrollWidth > box.clientWidth + 1,           p.hasAttribute('data-overflows'),           getComputedStyle(p.querySelector('.table-actions'), '::before').content.includes('Scroll'),           getComputedStyle(box).maskImage !== 'none']);       }       return JSON.stringify(rows); })()";
     let rows: Vec<(String, bool, bool, bool, bool)> =
         serde_json::from_str(eval(&page, &mut browser, tables).as_str().unwrap_or("[]")).unwrap_or_default();
     assert!(rows.iter().any(|r| r.1), "no table is wider than a phone: {rows:?}");
     assert!(rows.iter().any(|r| !r.1), "every table is wider than a phone: {rows:?}");
+    assert!(
+        rows.iter().any(|r| r.0 == "comparison" && r.1),
+        "the comparison is not wider than a phone: {rows:?}"
+    );
     for (key, wide, marked, hint, faded) in &rows {
         assert_eq!((marked, hint, faded), (wide, wide, wide), "table {key}: wide {wide}");
     }
@@ -299,6 +315,67 @@ fn what_the_unit_switch_reported_is_gone_at_the_next_edit() {
         ),
         json!(""),
         "the report of the switch outlived the next edit"
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
+
+/// Controls shorter than a fingertip at 360 px: every visible button, field,
+/// selector and disclosure must be at least 44 CSS px tall (WCAG 2.2, success
+/// criterion 2.5.5 Target Size (Enhanced): 44 × 44 CSS px), except the small
+/// "remove this pinned case" crosses in the comparison's header row, which must be
+/// at least 24 × 24 (criterion 2.5.8 Target Size (Minimum)). Elements drawn 1 px
+/// wide or less are visually hidden (the unit switch's radios take their labels'
+/// box). Links in running text are not controls here.
+const SMALL_CONTROLS: &str = r#"JSON.stringify([...document.querySelectorAll('button, input, select, textarea, summary')]
+  .filter((e) => e.getClientRects().length > 0 && e.getBoundingClientRect().width > 1)
+  .flatMap((e) => {
+    const r = e.getBoundingClientRect();
+    const small = e.classList.contains('unpin');
+    const [w, h] = small ? [24, 24] : [0, 44];
+    if (r.width + 0.5 >= w && r.height + 0.5 >= h) return [];
+    const name = e.tagName.toLowerCase() + (e.id ? '#' + e.id : '') + (e.className ? '.' + String(e.className).replace(/ +/g, '.') : '');
+    return [`${name} "${(e.textContent || e.value || '').trim().slice(0, 30)}" ${r.width.toFixed(0)} × ${r.height.toFixed(1)} px`];
+  }))"#;
+
+#[test]
+fn every_control_is_a_finger_high_at_360_px() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = phone();
+    let mut problems = Vec::new();
+    for calculator in fluxledger_core::calculators::CALCULATORS {
+        let url = format!("{}/{}.html", site.base, calculator.key);
+        open(&page, &mut browser, &url);
+        // A pinned case shows the comparison's table, its crosses and its download;
+        // the calculation sheet's fields show when its panel is open.
+        eval(
+            &page,
+            &mut browser,
+            "document.querySelector('.compare-panel button[data-action=pin]').click()",
+        );
+        page.wait_for(
+            &mut browser,
+            "document.querySelector('.compare-table button.unpin')",
+            Duration::from_secs(5),
+        )
+        .unwrap_or_else(|e| panic!("{url}: pinning showed no comparison: {e}"));
+        eval(
+            &page,
+            &mut browser,
+            "document.querySelectorAll('details').forEach((d) => { d.open = true; })",
+        );
+        browser
+            .pump(Duration::from_millis(100))
+            .unwrap_or_else(|e| panic!("{e}"));
+        let small = eval(&page, &mut browser, SMALL_CONTROLS);
+        let small: Vec<String> = serde_json::from_str(small.as_str().unwrap_or("[]")).unwrap_or_default();
+        problems.extend(small.into_iter().map(|s| format!("{}: {s}", calculator.key)));
+    }
+    assert!(
+        problems.is_empty(),
+        "controls too small to hit:\n{}",
+        problems.join("\n")
     );
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
