@@ -436,8 +436,7 @@ impl Page<'_> {
             ));
             let warning = warnings
                 .iter()
-                .filter(|w| w.get("field").and_then(Value::as_str) == Some(key))
-                .last();
+                .rfind(|w| w.get("field").and_then(Value::as_str) == Some(key));
             match warning {
                 Some(w) => inner.push_str(&format!(
                     "<p class=\"field-warning\" id=\"{}-warning\">{}</p>",

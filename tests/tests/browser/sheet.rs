@@ -137,7 +137,7 @@ fn sheet_fields_travel_in_the_link_and_head_the_printed_sheet() {
     )
     .as_f64()
     .unwrap_or(0.0) as usize;
-    assert!(size >= 21 && (size - 17) % 4 == 0, "QR size {size}");
+    assert!(size >= 21 && (size - 17).is_multiple_of(4), "QR size {size}");
     let squares = eval(
         &page,
         &mut browser,

@@ -446,7 +446,10 @@ pub fn stress_area_closed_form(size: &BoltSize) -> f64 {
         PI / 4.0 * (size.diameter - 0.938_194 * size.pitch).powi(2)
     } else {
         let (d, n) = (size.diameter / INCH, INCH / size.pitch);
-        0.7854 * (d - 0.9743 / n).powi(2) * INCH * INCH
+        // The standard's formula as printed, its rounded π/4 included.
+        #[allow(clippy::approx_constant)]
+        let quarter_pi_as_printed = 0.7854;
+        quarter_pi_as_printed * (d - 0.9743 / n).powi(2) * INCH * INCH
     }
 }
 
@@ -492,7 +495,7 @@ pub fn write(bolting: &Bolting, p1: f64, bore_area: f64, gasket_diameter: Option
             ),
         );
     }
-    if bolting.count % 4 != 0 {
+    if !bolting.count.is_multiple_of(4) {
         report.warn(
             Some("bolts"),
             "flanges are drilled for a multiple of 4 bolts (ASME B16.5, EN 1092-1): check the count",

@@ -751,7 +751,7 @@ mod tests {
             ("mu", "1 mPa.s"),
         ]);
         assert!(custom.output("npsh_available").is_none());
-        assert!(custom.warnings.iter().any(|w| w.field.as_deref() == Some("p_vapour")));
+        assert!(custom.warnings.iter().any(|w| w.field == Some("p_vapour")));
         // An axial pump gets no slip, and is told so.
         let axial = solved(&[
             ("machine", "pump"),
