@@ -12,7 +12,7 @@
 // header block as every table.
 
 import { el } from "./dom.js";
-import { state, defaultUnit, isQuantity } from "./state.js";
+import { state, defaultUnit, isQuantity, systemLabel } from "./state.js";
 import { glue } from "./wasm.js";
 import { SYSTEM_KEY, caseParams, writeUrl } from "./url.js";
 import { sheetDescription } from "./sheet.js";
@@ -85,6 +85,25 @@ export function buildCompare() {
   updateCompare();
 }
 
+/**
+ * An input of a case as people read it: a quantity as the core read it (its echo:
+ * the number and the unit applied, the unit by its label, `850 m³/h` for the link's
+ * `850m3/h`), a choice by its label; the text as given when the core did not read it.
+ */
+function shownInput(field, text, result) {
+  if (text === "") return "—";
+  if (isQuantity(field)) {
+    const echo = result && (result.echoes || []).find((e) => e && e.field === field.key);
+    if (!echo || !echo.number) return text;
+    // A plain number (the core's unit `-`) is shown bare, as the core shows it.
+    if (!echo.unit || echo.unit === "-") return echo.number;
+    const unit = (field.units || []).find((u) => u.id === echo.unit);
+    return `${echo.number} ${unit ? unit.label : echo.unit}`;
+  }
+  const option = (field.options || []).find((o) => o.key === text);
+  return option ? option.label : text;
+}
+
 /** The comparison as rows of texts: {columns, rows: [{label, cells, differs, kind}]}. */
 function comparison() {
   const pins = (state.pins || []).filter(Boolean);
@@ -97,16 +116,13 @@ function comparison() {
   for (const field of state.spec.fields) {
     const texts = [...cases, current].map((c) => c.values.get(field.key) ?? "");
     if (texts.every((t) => t === "")) continue;
-    const shown = texts.map((text) => {
-      const option = (field.options || []).find((o) => o.key === text);
-      return option ? option.label : text || "—";
-    });
+    const shown = texts.map((text, i) => shownInput(field, text, i < cases.length ? results[i] : currentResult));
     const differs = texts.map((t) => t !== texts[texts.length - 1]);
     rows.push({ label: field.label, cells: shown, differs, kind: "input" });
   }
   rows.push({
     label: "Unit system",
-    cells: [...cases, current].map((c) => c.system),
+    cells: [...cases, current].map((c) => systemLabel(c.system)),
     differs: [...cases, current].map((c) => c.system !== current.system),
     kind: "input",
   });

@@ -314,6 +314,24 @@ fn pinned_cases_stand_beside_the_current_one_and_stay_in_the_link() {
     );
     let differing: Vec<String> = serde_json::from_str(differing.as_str().unwrap_or("[]")).unwrap_or_default();
     assert_eq!(differing.len(), 1, "differing inputs: {differing:?}");
+    // Inputs read as people read them (the unit by its label, as the core applied
+    // it), not in the link's spelling: `10 bar` for `10bar`, `m³/h` for `m3/h`.
+    let shown = eval(
+        &page,
+        &mut browser,
+        "JSON.stringify([...document.querySelectorAll('.compare-table tr.compare-input')].map(r => [...r.querySelectorAll('th, td')].map(c => c.firstChild ? c.firstChild.textContent : '')))",
+    );
+    let shown: Vec<Vec<String>> = serde_json::from_str(shown.as_str().unwrap_or("[]")).unwrap_or_default();
+    let row = |label: &str| -> Vec<String> {
+        shown
+            .iter()
+            .find(|r| r.first().is_some_and(|l| l.starts_with(label)))
+            .cloned()
+            .unwrap_or_else(|| panic!("no row {label:?} in {shown:?}"))
+    };
+    assert_eq!(row("Gauge pressure")[1..], ["10 bar", "16 bar"], "{shown:?}");
+    assert_eq!(row("Volumetric flow")[1..], ["850 m³/h", "850 m³/h"], "{shown:?}");
+    assert_eq!(row("Unit system")[1..], ["SI", "SI"], "{shown:?}");
     let pinned_p = eval(
         &page,
         &mut browser,
