@@ -185,7 +185,14 @@ pub fn latex_to_mathml(tex: &str, display: bool, path: &Path) -> Result<String, 
     // pulldown-latex 0.8 writes the no-break space of `\ `, `~` and
     // `\nobreakspace` as an escaped entity (`&amp;nbsp;`), which a page would show
     // as text; it means a no-break space.
-    Ok(strip_style_attributes(&mathml).replace("&amp;nbsp;", "&#160;"))
+    let mathml = strip_style_attributes(&mathml).replace("&amp;nbsp;", "&#160;");
+    // A display formula wider than a phone scrolls sideways (with the paragraph
+    // that holds it); it takes the keyboard's focus so that it can be scrolled
+    // without a pointer (WCAG 2.2 SC 2.1.1), as the result tables' boxes do.
+    Ok(match (display, mathml.strip_prefix("<math")) {
+        (true, Some(rest)) => format!("<math tabindex=\"0\"{rest}"),
+        _ => mathml,
+    })
 }
 
 /// The first `&name;` or `&#...;` HTML entity in a formula, if any.
@@ -234,6 +241,14 @@ mod tests {
         assert!(html.contains("<math"), "{html}");
         assert!(html.contains("display=\"block\""), "{html}");
         assert!(!html.contains('$'), "{html}");
+        // Only the display formula is a keyboard stop.
+        assert_eq!(html.matches("<math").count(), 2, "{html}");
+        assert_eq!(html.matches("<math tabindex=\"0\"").count(), 1, "{html}");
+        let display = &html[html.find("<math tabindex").unwrap_or(0)..];
+        assert!(
+            display.split('>').next().unwrap_or("").contains("display=\"block\""),
+            "{html}"
+        );
         assert!(html.contains("<mover"), "dot and vec accents: {html}");
     }
 

@@ -296,7 +296,9 @@ impl Page<'_> {
         };
         format!(
             concat!(
-                "<div class=\"{class}\" aria-live=\"polite\" aria-atomic=\"true\">",
+                // Focusable: on a phone the box scrolls when its values outgrow a
+                // quarter of the screen, and a keyboard must be able to scroll it.
+                "<div class=\"{class}\" tabindex=\"0\" aria-live=\"polite\" aria-atomic=\"true\">",
                 "<h2 class=\"panel-title\">Result <span class=\"demo-note\">(demo values)</span>",
                 "<span class=\"computing-note\">(computing the link’s values…)</span></h2>",
                 "<dl class=\"headline-values\">{values}</dl>{warnings}</div>"
@@ -623,7 +625,8 @@ fn render_table(table: &Value, index: usize) -> String {
         html.push_str("</tr>");
     }
     html.push_str("</tbody></table>");
-    let aria = format!("Download {} as CSV", if title.is_empty() { "the table" } else { title });
+    // The visible text first: a spoken command ("Download CSV") matches the name.
+    let aria = format!("Download CSV of {}", if title.is_empty() { "the table" } else { title });
     format!(
         concat!(
             "<section class=\"panel panel-table\">{heading}",

@@ -214,7 +214,7 @@ export function updateCompare() {
     parts.push(
       el(
         "div",
-        { class: "table-scroll" },
+        { class: "table-scroll", tabindex: "0" },
         el("table", { class: "ledger compare-table" }, el("thead", {}, head), el("tbody", {}, ...body)),
       ),
       el(

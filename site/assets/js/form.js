@@ -527,7 +527,9 @@ export function buildPage({ deferForm = false } = {}) {
   const toolbar = buildToolbar();
   const notices = noticesBox();
 
-  const headline = el("div", { class: "headline", "aria-live": "polite", "aria-atomic": "true" });
+  // Focusable, as served: on a phone the box scrolls when its values outgrow a
+  // quarter of the screen, and a keyboard must be able to scroll it.
+  const headline = el("div", { class: "headline", tabindex: "0", "aria-live": "polite", "aria-atomic": "true" });
   const form = formFrom(section.querySelector(".calc-main > form.inputs"), deferForm);
 
   const details = el("div", { class: "details" });

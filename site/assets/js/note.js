@@ -11,8 +11,38 @@
 
 import { whenIdle } from "./pause.js";
 
+/** Observes the note's boxes that can scroll sideways (see `watchScrollers`). */
+let scrollers = null;
+
+/**
+ * A paragraph or list item holding a formula, and a code block, scroll sideways
+ * when they are wider than the screen (a formula never breaks); while one does,
+ * it takes the keyboard's focus, so that it can be scrolled without a pointer
+ * (WCAG 2.2 SC 2.1.1), and one that fits takes none (no tab stop for every
+ * paragraph with a symbol in it). A box that holds something focusable already
+ * (a display formula is served focusable, a link) is left as it is.
+ */
+function watchScrollers(article) {
+  if (!article || !("ResizeObserver" in window)) return;
+  if (!scrollers) {
+    scrollers = new ResizeObserver((entries) => {
+      // Every width read before any attribute is written.
+      const marks = entries.map((entry) => [entry.target, entry.target.scrollWidth > entry.target.clientWidth + 1]);
+      for (const [box, wide] of marks) {
+        if (wide === box.hasAttribute("tabindex")) continue;
+        if (wide) box.setAttribute("tabindex", "0");
+        else box.removeAttribute("tabindex");
+      }
+    });
+  }
+  for (const box of article.querySelectorAll("p:has(> math), li:has(> math), pre")) {
+    if (!box.querySelector("[tabindex], a[href]")) scrollers.observe(box);
+  }
+}
+
 /** Replaces the note's link with the whole note's later sections, in idle time. */
 export function loadNoteRest() {
+  watchScrollers(document.querySelector("article.method-note"));
   const more = document.querySelector(".method-note > .note-more");
   const link = more && more.querySelector("a[href]");
   if (!link) return;
@@ -33,6 +63,7 @@ export function loadNoteRest() {
           node = next;
         }
         more.remove();
+        watchScrollers(article);
       })
       .catch(() => {
         // The link stays: it opens the whole note.

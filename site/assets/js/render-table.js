@@ -30,7 +30,8 @@ export function renderTable(table, index) {
     type: "button",
     class: "button button-small csv-download",
     text: "Download CSV",
-    "aria-label": `Download ${table.title || "the table"} as CSV`,
+    // The visible text first: a spoken command ("Download CSV") matches the name.
+    "aria-label": `Download CSV of ${table.title || "the table"}`,
     dataset: { action: "csv", tableIndex: String(index) },
   });
   const panel = el(

@@ -380,3 +380,89 @@ fn every_control_is_a_finger_high_at_360_px() {
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
+
+/// Regions a keyboard cannot scroll, and names that do not hold their visible
+/// text. A box that scrolls (overflow `auto` or `scroll` with more content than
+/// room, either way) must take the focus or hold something that does, so it can
+/// be scrolled without a pointer (WCAG 2.2 SC 2.1.1 Keyboard); a control named by
+/// `aria-label` (a button, link or disclosure) must hold its visible text in that
+/// name (SC 2.5.3 Label in Name).
+const KEYBOARD_PROBLEMS: &str = r#"JSON.stringify((() => {
+  const out = [];
+  const focusable = 'a[href], button, input, select, textarea, summary, [tabindex]:not([tabindex="-1"])';
+  const name = (e) => e.tagName.toLowerCase() + (e.id ? '#' + e.id : '') + (typeof e.className === 'string' && e.className ? '.' + e.className.trim().replace(/ +/g, '.') : '');
+  for (const e of document.querySelectorAll('body *')) {
+    if (e.getClientRects().length === 0) continue;
+    const style = getComputedStyle(e);
+    const scrolls = (o) => o === 'auto' || o === 'scroll';
+    const sideways = scrolls(style.overflowX) && e.scrollWidth > e.clientWidth + 1;
+    const down = scrolls(style.overflowY) && e.scrollHeight > e.clientHeight + 1;
+    if ((sideways || down) && !(e.matches(focusable) || e.querySelector(focusable)))
+      out.push(`${name(e)} scrolls ${sideways ? 'sideways' : 'down'} but takes no focus`);
+    const label = e.matches('button, a[href], summary, [role=button], [role=link]') ? e.getAttribute('aria-label') : null;
+    const text = (e.textContent || '').replace(/\s+/g, ' ').trim().toLowerCase();
+    if (label && text && /^[a-z]/.test(text) && !label.toLowerCase().includes(text))
+      out.push(`${name(e)} is named "${label}" but shows "${text}"`);
+  }
+  return out;
+})())"#;
+
+#[test]
+fn every_scrolling_box_takes_the_keyboard_and_every_name_holds_its_text() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = phone();
+    let mut pages = vec!["index.html".to_string()];
+    for calculator in fluxledger_core::calculators::CALCULATORS {
+        pages.push(format!("{}.html", calculator.key));
+        pages.push(format!("{}-method.html", calculator.key));
+    }
+    let mut problems = Vec::new();
+    for name in &pages {
+        let url = format!("{}/{name}", site.base);
+        if name.ends_with("-method.html") || name == "index.html" {
+            page.goto(&mut browser, &url).unwrap_or_else(|e| panic!("{url}: {e}"));
+        } else {
+            open(&page, &mut browser, &url);
+            // A pinned case adds the comparison's table.
+            eval(
+                &page,
+                &mut browser,
+                "document.querySelector('.compare-panel button[data-action=pin]').click()",
+            );
+            page.wait_for(
+                &mut browser,
+                "document.querySelector('.compare-table')",
+                Duration::from_secs(5),
+            )
+            .unwrap_or_else(|e| panic!("{url}: pinning showed no comparison: {e}"));
+            // The note's later sections come in idle time; the note is laid out
+            // only near the screen (`content-visibility`), as a reader reaches it.
+            page.wait_for(
+                &mut browser,
+                "!document.querySelector('.method-note > .note-more')",
+                Duration::from_secs(15),
+            )
+            .unwrap_or_else(|e| panic!("{url}: the note's later sections did not come: {e}"));
+            eval(
+                &page,
+                &mut browser,
+                "document.querySelector('.method-note').scrollIntoView()",
+            );
+        }
+        browser
+            .pump(Duration::from_millis(200))
+            .unwrap_or_else(|e| panic!("{e}"));
+        let found = eval(&page, &mut browser, KEYBOARD_PROBLEMS);
+        let found: Vec<String> = serde_json::from_str(found.as_str().unwrap_or("[]")).unwrap_or_default();
+        problems.extend(found.into_iter().map(|p| format!("{name}: {p}")));
+    }
+    assert!(
+        problems.is_empty(),
+        "{} problems:\n{}",
+        problems.len(),
+        problems.join("\n")
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
