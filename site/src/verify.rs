@@ -230,7 +230,8 @@ fn case_html(index: usize, case: &Case) -> String {
         )),
     }
     html.push_str(concat!(
-        "<div class=\"table-scroll\"><table class=\"case-checks\">\n",
+        // Focusable, as every table's box: it scrolls sideways on a phone.
+        "<div class=\"table-scroll\" tabindex=\"0\"><table class=\"case-checks\">\n",
         "<thead><tr><th scope=\"col\">Output</th><th scope=\"col\">Expected</th><th scope=\"col\">Tolerance</th>",
         "<th scope=\"col\">Computed here</th><th scope=\"col\">Agrees</th></tr></thead>\n<tbody>\n"
     ));

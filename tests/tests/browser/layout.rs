@@ -412,7 +412,7 @@ fn every_scrolling_box_takes_the_keyboard_and_every_name_holds_its_text() {
     let _turn = one_at_a_time();
     let site = fixture();
     let (mut browser, page) = phone();
-    let mut pages = vec!["index.html".to_string()];
+    let mut pages = vec!["index.html".to_string(), "verify.html".to_string()];
     for calculator in fluxledger_core::calculators::CALCULATORS {
         pages.push(format!("{}.html", calculator.key));
         pages.push(format!("{}-method.html", calculator.key));
@@ -422,6 +422,11 @@ fn every_scrolling_box_takes_the_keyboard_and_every_name_holds_its_text() {
         let url = format!("{}/{name}", site.base);
         if name.ends_with("-method.html") || name == "index.html" {
             page.goto(&mut browser, &url).unwrap_or_else(|e| panic!("{url}: {e}"));
+        } else if name == "verify.html" {
+            // The verification page marks when it has run every case.
+            page.goto(&mut browser, &url).unwrap_or_else(|e| panic!("{url}: {e}"));
+            page.wait_for(&mut browser, "document.body.dataset.state", Duration::from_secs(180))
+                .unwrap_or_else(|e| panic!("{url}: {e}"));
         } else {
             open(&page, &mut browser, &url);
             // A pinned case adds the comparison's table.
