@@ -35,8 +35,11 @@ function watchScrollers(article) {
       }
     });
   }
-  for (const box of article.querySelectorAll("p:has(> math), li:has(> math), pre")) {
-    if (!box.querySelector("[tabindex], a[href]")) scrollers.observe(box);
+  // The boxes the stylesheet lets scroll (`p:has(> math)`, `li:has(> math)`, `pre`),
+  // found without `:has`, which an older browser's selector engine would refuse.
+  for (const box of article.querySelectorAll("p, li, pre")) {
+    const scrolls = box.localName === "pre" || Array.from(box.children).some((child) => child.localName === "math");
+    if (scrolls && !box.querySelector("[tabindex], a[href]")) scrollers.observe(box);
   }
 }
 
