@@ -7,7 +7,8 @@
 // the first result. In idle time this fetches that page (from the service
 // worker's cache when offline), and puts the sections the page does not have yet
 // in place of the link: both articles open with the same children. When the fetch
-// fails the link stays, and it works without script.
+// fails the link stays, and it works without script. On every page with a note, a
+// box of it that scrolls sideways on a narrow screen takes the keyboard's focus.
 
 import { whenIdle } from "./pause.js";
 
@@ -43,7 +44,10 @@ function watchScrollers(article) {
   }
 }
 
-/** Replaces the note's link with the whole note's later sections, in idle time. */
+/**
+ * Gives the note's wide boxes the keyboard (`watchScrollers`), and replaces the
+ * note's link with the whole note's later sections, in idle time.
+ */
 export function loadNoteRest() {
   watchScrollers(document.querySelector("article.method-note"));
   const more = document.querySelector(".method-note > .note-more");
