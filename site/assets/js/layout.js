@@ -59,11 +59,15 @@ export function watchHeadline() {
   };
   window.addEventListener("scroll", onScroll, { passive: true });
   narrow.addEventListener("change", () => fold(headline, false));
-  // A tap on the folded box opens it; scrolling on down folds it again.
-  headline.addEventListener("click", () => {
+  // A tap on the folded box opens it, and so does the keyboard's focus (what it
+  // holds is then shown whole, to be read or scrolled); scrolling on down folds it
+  // again.
+  const open = () => {
     run = 0;
     fold(headline, false);
-  });
+  };
+  headline.addEventListener("click", open);
+  headline.addEventListener("focus", open);
 }
 
 /** Folds the result box to its first line of values, or opens it. */

@@ -219,6 +219,16 @@ fn the_result_box_folds_while_scrolling_down_and_opens_again() {
         .pump(Duration::from_millis(100))
         .unwrap_or_else(|e| panic!("{e}"));
     assert!(!folded(&page, &mut browser), "a tap did not open it");
+    // Down again, then the keyboard's focus opens it (it takes the focus: it
+    // scrolls when its values outgrow a quarter of the screen).
+    eval(&page, &mut browser, "document.querySelector('.headline').blur()");
+    scroll_to(&page, &mut browser, 1300);
+    assert!(folded(&page, &mut browser), "not folded on scrolling down once more");
+    eval(&page, &mut browser, "document.querySelector('.headline').focus()");
+    browser
+        .pump(Duration::from_millis(100))
+        .unwrap_or_else(|e| panic!("{e}"));
+    assert!(!folded(&page, &mut browser), "the keyboard's focus did not open it");
 
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
