@@ -15,10 +15,30 @@
 //    in the HTML, and nothing should compete with it for the connection or the
 //    processor. A fallback timer covers a page that is never painted (a tab in the
 //    background).
+// 3. The served form takes typing from the first paint (the page script takes
+//    over what was typed). From the first edit the demo result no longer answers
+//    the form: `is-editing` on <html> makes the stylesheet hide it and show
+//    "computing…" until the page script's own result replaces it. The form is
+//    never sent (it has no action of its own: Enter must not reload the page and
+//    lose what was typed).
 (function (doc, script, preloads, wasm) {
   var root = doc.documentElement;
   var query = location.search.length > 1;
   var started = false;
+  function onEdit(event) {
+    var target = event.target;
+    if (!target || !target.closest || !target.closest(".calc-grid[data-demo] form.inputs")) return;
+    root.classList.add("is-editing");
+    doc.removeEventListener("input", onEdit, true);
+  }
+  doc.addEventListener("input", onEdit, true);
+  doc.addEventListener(
+    "submit",
+    function (event) {
+      if (event.target && event.target.matches && event.target.matches("form.inputs")) event.preventDefault();
+    },
+    true
+  );
   function add(rel, href, as) {
     var link = doc.createElement("link");
     link.rel = rel;

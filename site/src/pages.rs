@@ -105,7 +105,7 @@ pub struct PageAssets {
 
 /// Where a prerendered calculator section's details (the result's tables,
 /// diagram and plots, below the first screen) begin.
-pub const DETAILS_START: &str = "<div class=\"details\">";
+pub const DETAILS_START: &str = "<div class=\"details\" inert>";
 
 /// The file name of a calculator's page.
 pub fn page_file(key: &str) -> String {

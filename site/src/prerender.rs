@@ -17,9 +17,13 @@
 //! the form and the details, where `form.js` puts it. Figures are drawn for a phone: the width
 //! and viewport height the script measures at 360 × 740 CSS px.
 //!
-//! Demo marking: every part the script replaces carries `data-demo` and `inert`
-//! (nothing can be typed into a field the script is about to rebuild, so nothing
-//! typed is lost), and the result heading says "demo values". A page opened with a
+//! Demo marking: the toolbar and the calculator's grid carry `data-demo`, and the
+//! parts the script replaces are `inert` (the toolbar, the headline, the details).
+//! The form is not: it takes typing from the first paint, and the page script
+//! takes over what was typed (`typedBeforeTakeOver` in `main.js`); once something
+//! is typed, `query.js` sets `is-editing` on `<html>` and the stylesheet hides the
+//! demo result and says "computing…" until the script's own result replaces it.
+//! The result heading says "demo values". A page opened with a
 //! query must not show the demo as the link's result: the small classic script
 //! `query.js` (loaded before the body) sets `has-query` on `<html>` when the address
 //! has a query, and the stylesheet then hides every `[data-demo]` part and shows
@@ -224,8 +228,8 @@ struct Page<'a> {
     cautions: String,
 }
 
-/// What `data-demo` parts carry: the marker and `inert` (no typing into a part the
-/// script replaces).
+/// What the demo's toolbar carries: the marker and `inert` (its switch and buttons
+/// work only with the page script).
 const DEMO: &str = " data-demo inert";
 
 impl Page<'_> {
@@ -233,7 +237,10 @@ impl Page<'_> {
         let mut html = String::new();
         html.push_str(&self.toolbar());
         html.push_str("<div id=\"notices\" class=\"notices\" role=\"status\" aria-live=\"polite\"></div>\n");
-        html.push_str(&format!("<div class=\"calc-grid\"{DEMO}>"));
+        // The grid is marked, not inert: its form takes typing from the first paint
+        // (the page script takes over what was typed); the parts the script
+        // replaces are inert (the toolbar, the headline, the details).
+        html.push_str("<div class=\"calc-grid\" data-demo>");
         html.push_str("<div class=\"calc-main\">");
         html.push_str(&self.headline());
         html.push_str(&self.form());
@@ -298,7 +305,7 @@ impl Page<'_> {
             concat!(
                 // Focusable: on a phone the box scrolls when its values outgrow a
                 // quarter of the screen, and a keyboard must be able to scroll it.
-                "<div class=\"{class}\" tabindex=\"0\" aria-live=\"polite\" aria-atomic=\"true\">",
+                "<div class=\"{class}\" tabindex=\"0\" aria-live=\"polite\" aria-atomic=\"true\" inert>",
                 "<h2 class=\"panel-title\">Result <span class=\"demo-note\">(demo values)</span>",
                 "<span class=\"computing-note\">(computing the link’s values…)</span></h2>",
                 "<dl class=\"headline-values\">{values}</dl>{warnings}</div>"
@@ -329,9 +336,10 @@ impl Page<'_> {
         let echoes = list(self.result, "echoes");
         let warnings = list(self.result, "warnings");
         for field in list(self.spec, "fields") {
-            // A field the demo hides is left out: the served form is inert and the
-            // page script writes the whole form, hidden fields included, when it
-            // takes over (the bytes of the first response, issue 9).
+            // A field the demo hides is left out: the page script writes the whole
+            // form, hidden fields included, when it takes over (the bytes of the
+            // first response, issue 9); a choice made before then needs the script
+            // anyway to show or hide fields.
             if !self.is_visible(field) {
                 continue;
             }
@@ -534,8 +542,10 @@ impl Page<'_> {
 /// The one option a demo selector shows: the selected one (the option whose `key`
 /// is `selected`), or the first, which a browser selects when none is marked.
 ///
-/// Why only one: the demo form is `inert` until the script replaces it with its
-/// own, complete selectors, so the other options could never be opened; a choice
+/// Why only one: the other options wait for the page script, which gives the
+/// selectors their options when it takes the form over (typing into the served
+/// form's text fields is kept; a choice needs the script to show or hide the
+/// fields that depend on it, so none is offered before it); a choice
 /// selector fills the field's width and a unit selector has a fixed width, so
 /// their size does not depend on the options. A list of pipe-size presets is about
 /// 5 kB gzip of a page (issue 9).
@@ -1419,7 +1429,17 @@ mod tests {
                     output.text
                 );
             }
-            assert_eq!(html.matches(" data-demo inert").count(), 2, "{}", spec.key);
+            // The toolbar and the grid are the demo's; of the grid, the headline and
+            // the details are inert, the form takes typing.
+            assert_eq!(html.matches(" data-demo").count(), 2, "{}", spec.key);
+            assert_eq!(html.matches(" data-demo inert").count(), 1, "{}", spec.key);
+            assert_eq!(html.matches(" inert>").count(), 3, "{}", spec.key);
+            assert!(html.contains("<div class=\"details\" inert>"), "{}", spec.key);
+            assert!(
+                !html.contains("<form class=\"inputs\" novalidate aria-label=\"Inputs\" inert"),
+                "{}",
+                spec.key
+            );
             assert!(!html.contains(" style="), "no inline styles under the CSP");
         }
     }

@@ -239,6 +239,28 @@ function settleInitialValues(spec, fromUrl) {
 }
 
 /**
+ * What the reader typed into the served form before this script took it over (the
+ * form takes typing from the first paint; query.js marks the page `is-editing`):
+ * field key → {text, unit}, the unit being the one the served selector showed
+ * beside the field. Served selectors show their one chosen option, so only typed
+ * text can differ from what was served.
+ */
+function typedBeforeTakeOver(spec) {
+  const typed = new Map();
+  if (!document.querySelector("#calculator .calc-grid[data-demo]")) return typed;
+  for (const field of spec.fields) {
+    if (field.kind === "choice") continue;
+    const control = document.getElementById(`field-${field.key}`);
+    if (!(control instanceof HTMLInputElement || control instanceof HTMLTextAreaElement)) continue;
+    if (control.value === control.defaultValue) continue;
+    const entry = control.closest(".entry");
+    const select = isQuantity(field) && entry ? entry.querySelector("select.unit") : null;
+    typed.set(field.key, { text: control.value, unit: select ? select.value : "" });
+  }
+  return typed;
+}
+
+/**
  * Registers the service worker in idle time (after the first result, when called
  * at the end of `start`), so its precache does not compete with the page's own
  * requests; browsers without `requestIdleCallback` wait a second instead.
@@ -302,9 +324,17 @@ async function start() {
   state.writeUrl = writeUrl;
   const spec = state.spec;
   const fromUrl = readUrl(spec);
+  // What was typed into the served form before this script took it over (read
+  // before the take-over gives the controls the page's values).
+  const typed = typedBeforeTakeOver(spec);
   // With a link the values are solved once here (to name a refused value); the
   // first render shows that result: the same inputs, the same result.
-  const solved = settleInitialValues(spec, fromUrl);
+  const settled = settleInitialValues(spec, fromUrl);
+  for (const [key, { text, unit }] of typed) {
+    state.values[key] = text;
+    if (unit) state.units[key] = unit;
+  }
+  const solved = typed.size > 0 ? null : settled;
   const prerendered = document.querySelector("#calculator .details");
   if (prerendered && prerendered.clientWidth > 0) measureFigureWidth(prerendered);
   // A link's first result is shown before the form is complete (`completeForm`).
@@ -317,7 +347,8 @@ async function start() {
     const width = measureFigureWidth();
     if (width !== before && state.lastResult) render(state.lastResult);
   });
-  recompute({ writeToUrl: false, solved });
+  // What was typed is a change of the calculation: the link follows it.
+  recompute({ writeToUrl: typed.size > 0, solved });
   // The printed sheet's panel and the comparison lie below the result: built after
   // it, in the same task (a link's first result is shown a few milliseconds sooner).
   buildSheet();

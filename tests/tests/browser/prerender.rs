@@ -611,3 +611,108 @@ fn every_page_completes_its_method_note_from_the_note_page() {
     let errors = page_errors(&browser, &page);
     assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
 }
+
+#[test]
+fn what_is_typed_before_the_page_script_takes_over_is_kept_and_computed() {
+    let _turn = one_at_a_time();
+    let site = fixture();
+    let (mut browser, page) = launched(Launch {
+        width: 360,
+        height: 740,
+    });
+    // The module's request waits until the test lets it go: until then the page
+    // is what a slow network shows after the first paint.
+    page.call(
+        &mut browser,
+        "Fetch.enable",
+        json!({ "patterns": [{ "urlPattern": "*.wasm", "requestStage": "Request" }] }),
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    let url = format!("{}/bend.html", site.base);
+    page.call(&mut browser, "Page.navigate", json!({ "url": url }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    page.wait_for(
+        &mut browser,
+        "document.readyState !== 'loading' && document.querySelector('.calc-grid[data-demo]') && performance.getEntriesByName('first-contentful-paint').length > 0",
+        std::time::Duration::from_secs(30),
+    )
+    .unwrap_or_else(|e| panic!("the served page did not paint: {e}"));
+
+    // The served form takes typing; the demo result no longer answers it.
+    eval(
+        &page,
+        &mut browser,
+        "(() => { const i = document.getElementById('field-p'); i.focus(); i.select(); })()",
+    );
+    page.call(&mut browser, "Input.insertText", json!({ "text": "16" }))
+        .unwrap_or_else(|e| panic!("{e}"));
+    // Enter sends nothing: the page stays, with what was typed.
+    for kind in ["keyDown", "keyUp"] {
+        page.call(
+            &mut browser,
+            "Input.dispatchKeyEvent",
+            json!({ "type": kind, "key": "Enter", "code": "Enter", "windowsVirtualKeyCode": 13 }),
+        )
+        .unwrap_or_else(|e| panic!("{e}"));
+    }
+    browser
+        .pump(std::time::Duration::from_millis(300))
+        .unwrap_or_else(|e| panic!("{e}"));
+    let before = eval(
+        &page,
+        &mut browser,
+        "JSON.stringify([document.getElementById('field-p').value, location.search, document.documentElement.classList.contains('is-editing'), getComputedStyle(document.querySelector('.headline-values')).visibility, document.body.dataset.state || ''])",
+    );
+    assert_eq!(
+        before,
+        json!(r#"["16","",true,"hidden",""]"#),
+        "typed before the script: [value, query, marked, demo result, state]"
+    );
+
+    // The module arrives: the script takes the form over with what was typed.
+    let paused: Vec<String> = page
+        .events(&browser)
+        .filter(|e| e.method == "Fetch.requestPaused")
+        .filter_map(|e| e.params["requestId"].as_str().map(str::to_string))
+        .collect();
+    assert!(!paused.is_empty(), "the module was not requested");
+    for id in &paused {
+        page.call(&mut browser, "Fetch.continueRequest", json!({ "requestId": id }))
+            .unwrap_or_else(|e| panic!("{e}"));
+    }
+    page.call(&mut browser, "Fetch.disable", json!({}))
+        .unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(page.wait_rendered(&mut browser).unwrap_or_default(), "ready");
+    // The link follows after a pause, as after any edit.
+    page.wait_for(
+        &mut browser,
+        "new URLSearchParams(location.search).get('p') === '16bar'",
+        std::time::Duration::from_secs(5),
+    )
+    .unwrap_or_else(|e| panic!("what was typed did not reach the link: {e}"));
+    let after = eval(
+        &page,
+        &mut browser,
+        "JSON.stringify([document.getElementById('field-p').value, new URLSearchParams(location.search).get('p'), document.querySelector('[data-output=thrust]').textContent])",
+    );
+    let after: (String, String, String) =
+        serde_json::from_str(after.as_str().unwrap_or("")).unwrap_or_else(|e| panic!("{after}: {e}"));
+    assert_eq!((after.0.as_str(), after.1.as_str()), ("16", "16bar"), "{after:?}");
+
+    // The result is the core's for that link, as a fresh load of it shows.
+    page.goto(&mut browser, &format!("{}/bend.html?p=16bar", site.base))
+        .unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(page.wait_rendered(&mut browser).unwrap_or_default(), "ready");
+    let linked = eval(
+        &page,
+        &mut browser,
+        "document.querySelector('[data-output=thrust]').textContent",
+    );
+    assert_eq!(
+        linked.as_str(),
+        Some(after.2.as_str()),
+        "typed before the take-over against the link"
+    );
+    let errors = page_errors(&browser, &page);
+    assert!(errors.is_empty(), "console errors:\n{}", errors.join("\n"));
+}
