@@ -156,6 +156,16 @@ fn every_case_agrees_in_the_browser_links_open_their_page_and_it_works_offline()
         Duration::from_secs(60),
     )
     .unwrap_or_else(|e| panic!("the service worker does not hold verify.html after a visit: {e}"));
+    // The calculator page fetches its note's later sections in idle time (up to 3 s
+    // after its first result, later on a loaded machine): online, that request is
+    // the page's own and must end before the server stops, or its refusal would be
+    // the error this test reports.
+    page.wait_for(
+        &mut browser,
+        "!document.querySelector('.method-note > .note-more')",
+        Duration::from_secs(30),
+    )
+    .unwrap_or_else(|e| panic!("the calculator page did not fetch its note online: {e}"));
 
     server.stop();
     let probe = page
