@@ -819,12 +819,7 @@ mod offline {
         );
         // The page's own idle fetch of its note's later sections ends online (on a
         // loaded machine it could come after the stop, and be refused).
-        page.wait_for(
-            &mut browser,
-            "!document.querySelector('.method-note > .note-more')",
-            Duration::from_secs(30),
-        )
-        .unwrap_or_else(|e| panic!("tee.html did not fetch its note online: {e}"));
+        harness::wait_for_whole_note(&page, &mut browser).unwrap_or_else(|e| panic!("tee.html online: {e}"));
 
         server.stop();
         // The server is really gone: a file the worker never stored cannot load.

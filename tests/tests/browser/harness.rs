@@ -5,6 +5,9 @@
 use std::fs;
 use std::path::{Path, PathBuf};
 use std::sync::{Mutex, MutexGuard, OnceLock};
+use std::time::Duration;
+
+use serde_json::json;
 
 use crate::cdp::{self, Browser, Launch, Page};
 
@@ -61,7 +64,6 @@ pub fn fixture() -> &'static Fixture {
     }
 }
 
-/// One browser at a time: the tests run on two shared cores.
 /// A fresh browser with one page, for a test: a browser that will not start fails
 /// the test with the reason (a missing Chromium says how to install it).
 pub fn launched(launch: Launch) -> (Browser, Page) {
@@ -70,6 +72,7 @@ pub fn launched(launch: Launch) -> (Browser, Page) {
     (browser, page)
 }
 
+/// One browser at a time: the tests run on two shared cores.
 pub fn one_at_a_time() -> MutexGuard<'static, ()> {
     static TURN: Mutex<()> = Mutex::new(());
     TURN.lock().unwrap_or_else(|poisoned| poisoned.into_inner())
@@ -107,4 +110,51 @@ pub fn carried_query(carry: &fluxledger_core::catalog::CarryOver, system: &str) 
     pairs.push(("system".into(), system.into()));
     pairs.sort();
     pairs
+}
+
+/// Types `text` into a field's control the way a user does: focus, select what is
+/// there, insert. Clears `data-state` first so that the caller can wait for the
+/// render of this edit and not see the previous one.
+pub fn type_into(page: &Page, browser: &mut Browser, field: &str, text: &str) -> Result<(), String> {
+    let id = serde_json::to_string(&format!("field-{field}")).unwrap_or_default();
+    let ready = page.eval(
+        browser,
+        &format!(
+            "(() => {{ const i = document.getElementById({id}); if (!i) return 'missing'; \
+             if (i.closest('[data-field]')?.hidden) return 'hidden'; \
+             i.focus(); i.select(); delete document.body.dataset.state; return 'ok'; }})()"
+        ),
+    )?;
+    if ready != "ok" {
+        return Err(format!("field '{field}': {ready}"));
+    }
+    page.call(browser, "Input.insertText", json!({ "text": text }))?;
+    Ok(())
+}
+
+/// Pins the current case on a calculator page and waits for the comparison's
+/// table (with its remove crosses and its download).
+pub fn pin_a_case(page: &Page, browser: &mut Browser) -> Result<(), String> {
+    page.eval(
+        browser,
+        "document.querySelector('.compare-panel button[data-action=pin]').click()",
+    )?;
+    page.wait_for(
+        browser,
+        "document.querySelector('.compare-table button.unpin')",
+        Duration::from_secs(5),
+    )
+    .map_err(|e| format!("pinning showed no comparison: {e}"))
+}
+
+/// Waits until a calculator page has its whole method note: it fetches the later
+/// sections in idle time after its first result (up to 3 s, later on a loaded
+/// machine).
+pub fn wait_for_whole_note(page: &Page, browser: &mut Browser) -> Result<(), String> {
+    page.wait_for(
+        browser,
+        "!document.querySelector('.method-note > .note-more')",
+        Duration::from_secs(30),
+    )
+    .map_err(|e| format!("the note's later sections did not come: {e}"))
 }

@@ -11,7 +11,7 @@ use std::time::Duration;
 use serde_json::{json, Value};
 
 use crate::cdp::{Browser, Launch, Page};
-use crate::harness::{fixture, launched, one_at_a_time, page_errors};
+use crate::harness::{fixture, launched, one_at_a_time, page_errors, pin_a_case, wait_for_whole_note};
 
 const PHONE_WIDTH: u32 = 360;
 const PHONE_HEIGHT: u32 = 740;
@@ -241,17 +241,7 @@ fn a_table_wider_than_its_box_shows_that_it_scrolls() {
     let (mut browser, page) = phone();
     open(&page, &mut browser, &format!("{}/bend.html", site.base));
     // A pinned case adds the comparison's table, drawn again at every edit.
-    eval(
-        &page,
-        &mut browser,
-        "document.querySelector('.compare-panel button[data-action=pin]').click()",
-    );
-    page.wait_for(
-        &mut browser,
-        "document.querySelector('.compare-table')",
-        Duration::from_secs(5),
-    )
-    .unwrap_or_else(|e| panic!("pinning showed no comparison: {e}"));
+    pin_a_case(&page, &mut browser).unwrap_or_else(|e| panic!("{e}"));
     browser
         .pump(Duration::from_millis(200))
         .unwrap_or_else(|e| panic!("{e}"));
@@ -359,17 +349,7 @@ fn every_control_is_a_finger_high_at_360_px() {
         open(&page, &mut browser, &url);
         // A pinned case shows the comparison's table, its crosses and its download;
         // the calculation sheet's fields show when its panel is open.
-        eval(
-            &page,
-            &mut browser,
-            "document.querySelector('.compare-panel button[data-action=pin]').click()",
-        );
-        page.wait_for(
-            &mut browser,
-            "document.querySelector('.compare-table button.unpin')",
-            Duration::from_secs(5),
-        )
-        .unwrap_or_else(|e| panic!("{url}: pinning showed no comparison: {e}"));
+        pin_a_case(&page, &mut browser).unwrap_or_else(|e| panic!("{url}: {e}"));
         eval(
             &page,
             &mut browser,
@@ -440,25 +420,10 @@ fn every_scrolling_box_takes_the_keyboard_and_every_name_holds_its_text() {
         } else {
             open(&page, &mut browser, &url);
             // A pinned case adds the comparison's table.
-            eval(
-                &page,
-                &mut browser,
-                "document.querySelector('.compare-panel button[data-action=pin]').click()",
-            );
-            page.wait_for(
-                &mut browser,
-                "document.querySelector('.compare-table')",
-                Duration::from_secs(5),
-            )
-            .unwrap_or_else(|e| panic!("{url}: pinning showed no comparison: {e}"));
+            pin_a_case(&page, &mut browser).unwrap_or_else(|e| panic!("{url}: {e}"));
             // The note's later sections come in idle time; the note is laid out
             // only near the screen (`content-visibility`), as a reader reaches it.
-            page.wait_for(
-                &mut browser,
-                "!document.querySelector('.method-note > .note-more')",
-                Duration::from_secs(15),
-            )
-            .unwrap_or_else(|e| panic!("{url}: the note's later sections did not come: {e}"));
+            wait_for_whole_note(&page, &mut browser).unwrap_or_else(|e| panic!("{url}: {e}"));
             eval(
                 &page,
                 &mut browser,

@@ -25,7 +25,7 @@ use fluxledger_core::Request;
 use fluxledger_tests::{load_cases, parse_difference, parse_typed, reference_dir, Case, Target, Tolerance};
 
 use crate::cdp::{self, Browser, Launch, Page};
-use crate::harness::{fixture, one_at_a_time, page_errors, query_string};
+use crate::harness::{fixture, one_at_a_time, page_errors, query_string, type_into};
 
 /// Every `[data-output]` element's text, grouped by output key (an output shown in
 /// two places must agree in both).
@@ -68,26 +68,6 @@ fn problems_of_page(browser: &Browser, page: &Page, base: &str) -> Vec<String> {
         }
     }
     problems
-}
-
-/// Types `text` into a field's control the way a user does: focus, select what is
-/// there, insert. Clears `data-state` first so that the caller can wait for the
-/// render of this edit and not see the previous one.
-fn type_into(page: &Page, browser: &mut Browser, field: &str, text: &str) -> Result<(), String> {
-    let id = serde_json::to_string(&format!("field-{field}")).unwrap_or_default();
-    let ready = page.eval(
-        browser,
-        &format!(
-            "(() => {{ const i = document.getElementById({id}); if (!i) return 'missing'; \
-             if (i.closest('[data-field]')?.hidden) return 'hidden'; \
-             i.focus(); i.select(); delete document.body.dataset.state; return 'ok'; }})()"
-        ),
-    )?;
-    if ready != "ok" {
-        return Err(format!("field '{field}': {ready}"));
-    }
-    page.call(browser, "Input.insertText", json!({ "text": text }))?;
-    Ok(())
 }
 
 // ---------------------------------------------------------------------------------

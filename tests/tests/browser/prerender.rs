@@ -9,7 +9,7 @@ use serde_json::{json, Value};
 use fluxledger_core::calculators;
 
 use crate::cdp::{Browser, Launch, Page};
-use crate::harness::{fixture, launched, one_at_a_time, page_errors};
+use crate::harness::{fixture, launched, one_at_a_time, page_errors, type_into};
 
 fn eval(page: &Page, browser: &mut Browser, expression: &str) -> Value {
     page.eval(browser, expression).unwrap_or_else(|e| panic!("{e}"))
@@ -639,13 +639,7 @@ fn what_is_typed_before_the_page_script_takes_over_is_kept_and_computed() {
     .unwrap_or_else(|e| panic!("the served page did not paint: {e}"));
 
     // The served form takes typing; the demo result no longer answers it.
-    eval(
-        &page,
-        &mut browser,
-        "(() => { const i = document.getElementById('field-p'); i.focus(); i.select(); })()",
-    );
-    page.call(&mut browser, "Input.insertText", json!({ "text": "16" }))
-        .unwrap_or_else(|e| panic!("{e}"));
+    type_into(&page, &mut browser, "p", "16").unwrap_or_else(|e| panic!("{e}"));
     // Enter sends nothing: the page stays, with what was typed.
     for kind in ["keyDown", "keyUp"] {
         page.call(

@@ -7,7 +7,7 @@ use std::time::Duration;
 use fluxledger_tests::{load_cases, output_kinds, parse_difference, parse_typed, reference_dir, Case, Tolerance};
 
 use crate::cdp::{Browser, Launch, Page};
-use crate::harness::{self, fixture, launched, one_at_a_time, page_errors};
+use crate::harness::{self, fixture, launched, one_at_a_time, page_errors, wait_for_whole_note};
 
 /// The page shows four significant figures: allow half a unit in the fourth
 /// figure on top of the case's own tolerance.
@@ -160,12 +160,7 @@ fn every_case_agrees_in_the_browser_links_open_their_page_and_it_works_offline()
     // after its first result, later on a loaded machine): online, that request is
     // the page's own and must end before the server stops, or its refusal would be
     // the error this test reports.
-    page.wait_for(
-        &mut browser,
-        "!document.querySelector('.method-note > .note-more')",
-        Duration::from_secs(30),
-    )
-    .unwrap_or_else(|e| panic!("the calculator page did not fetch its note online: {e}"));
+    wait_for_whole_note(&page, &mut browser).unwrap_or_else(|e| panic!("online: {e}"));
 
     server.stop();
     let probe = page
