@@ -282,7 +282,17 @@ function registerNow() {
   });
 }
 
+/** Waits until the document is parsed (at once when it is). */
+function whenParsed() {
+  if (document.readyState !== "loading") return Promise.resolve();
+  return new Promise((resolve) => document.addEventListener("DOMContentLoaded", resolve, { once: true }));
+}
+
 async function start() {
+  // The head script adds this script as a module, which can run before the parser
+  // has reached the body (a link's script from the HTTP cache): the page's key is
+  // on <body>.
+  if (!document.body) await whenParsed();
   const key = document.body.dataset.calculator;
   if (!key) {
     loadNoteRest();
@@ -305,9 +315,7 @@ async function start() {
   // has reached the end of the page (a fast connection, a module from the cache);
   // the calculator the site tool served is taken over where it stands, so it must
   // be whole first.
-  if (document.readyState === "loading") {
-    await new Promise((resolve) => document.addEventListener("DOMContentLoaded", resolve, { once: true }));
-  }
+  await whenParsed();
   try {
     state.page = JSON.parse(glue.calculator(key));
   } catch (error) {
