@@ -280,6 +280,45 @@ fuzz_tests! {
     restrained_length_is_robust => "restrained-length",
 }
 
+/// Every request fuzzing once found broken (`tests/data/fuzz-found.json`) is solved
+/// with nothing broken: each stays fixed whichever requests a run's time budget
+/// reaches. (Ten checks that disagreed by rounding alone, found by release-profile
+/// runs: their tolerances were relative to the result rather than to the terms
+/// that cancel to it.)
+#[test]
+fn requests_fuzzing_found_broken_stay_fixed() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/data/fuzz-found.json");
+    let text = std::fs::read_to_string(path).expect("tests/data/fuzz-found.json");
+    let data: serde_json::Value = serde_json::from_str(&text).expect("fuzz-found.json is JSON");
+    let cases = data["cases"].as_array().expect("a list of cases");
+    assert!(!cases.is_empty());
+    let mut failures = Vec::new();
+    for case in cases {
+        let key = case["calculator"].as_str().expect("calculator");
+        let mut request = Request {
+            system: match case["system"].as_str() {
+                Some("us") => UnitSystem::UsCustomary,
+                _ => UnitSystem::Si,
+            },
+            ..Request::default()
+        };
+        for (field, value) in case["inputs"].as_object().expect("inputs") {
+            request
+                .inputs
+                .insert(field.clone(), value.as_str().expect("text").to_string());
+        }
+        let outcome = calculators::solve(key, &request);
+        let problems = match &outcome.result {
+            Ok(solution) => solution_problems(solution),
+            Err(error) => vec![format!("refused: {error}")],
+        };
+        if !problems.is_empty() {
+            failures.push(format!("{key} (once: {}): {}", case["found"], problems.join("; ")));
+        }
+    }
+    assert!(failures.is_empty(), "{}", failures.join("\n"));
+}
+
 #[test]
 fn every_calculator_is_fuzzed() {
     let missing: Vec<&str> = calculators::CALCULATORS

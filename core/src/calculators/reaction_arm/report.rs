@@ -145,7 +145,10 @@ fn operating_check(report: &mut Report<'_>, solved: &Solved) {
         found,
         closed,
         1e-9,
-        0.0,
+        // Relative to W/R, the speed of a frictionless arm with tangential jets, as
+        // well as to the two speeds: at a speed of zero (jets pointing outwards, no
+        // load) the search ends at a rounding of zero, 1e-18 rad/s, not at 0.
+        w / r,
     );
 }
 

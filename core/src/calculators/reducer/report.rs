@@ -127,7 +127,10 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             axial,
             p_in * (basis_a_in - basis_a_out),
             1e-9,
-            0.0,
+            // Relative to the two pressure forces: with equal areas (push-on joints
+            // on one outside diameter) the formula gives 0 and the balance the
+            // rounding of their difference.
+            p_in.abs() * (basis_a_in + basis_a_out),
         );
     }
     if loss_model == "borda" && outside.is_none() && orientation == "horizontal" && uniform {
@@ -138,7 +141,10 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
             axial,
             -p_in * (a_out - a_in),
             1e-9,
-            p_in.abs() * a_out + p_out.abs() * a_out + mass_flow * (v1 + v2),
+            // As above, the kinetic-energy terms too: the energy balance finds p₁ as
+            // their difference, which can be a millionth of each (a 1 mm inlet on a
+            // 10 m outlet).
+            p_in.abs() * a_out + p_out.abs() * a_out + mass_flow * (v1 + v2) + rho * (v1 * v1 + v2 * v2) * a_out,
         );
     }
 

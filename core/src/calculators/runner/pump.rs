@@ -212,6 +212,10 @@ pub struct Slip {
     pub head: f64,
     /// The same from the closed form (u₂V_θ2′ − u₁V_θ1)/g.
     pub head_closed_form: f64,
+    /// Σ u(|V_θ| + u)/g over the two stations: the size of the terms whose
+    /// difference is the head, which the check's tolerance is relative to (they can
+    /// nearly cancel); the head's share of `moment_scale`, the torque check's.
+    pub head_terms: f64,
 }
 
 /// Specific speed at one operating point.
@@ -308,6 +312,11 @@ pub fn solve(
                 vtheta2: slipped.vtheta,
                 head,
                 head_closed_form: (t2.u * slipped.vtheta - t1.u * t1.vtheta) / g,
+                head_terms: [t1, &slipped]
+                    .iter()
+                    .map(|t| t.u.abs() * (t.vtheta.abs() + t.u.abs()))
+                    .sum::<f64>()
+                    / g,
             });
         }
     }
@@ -395,7 +404,7 @@ pub fn write(solved: &PumpSolved, runner: &Runner, temperature: Option<f64>, rep
             s.head,
             s.head_closed_form,
             1e-9,
-            0.0,
+            s.head_terms,
         );
         if let Some((limit, true)) = s.wiesner_limit {
             report.warn(

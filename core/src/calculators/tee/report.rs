@@ -270,12 +270,16 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     for (b, q) in branches.iter().zip(branch_flows) {
         let area = common::circle_area(b.diameter.value);
         let speed = branch_speed(b, q);
-        let pressure = p + rise_over_common(b, speed);
+        let rise = rise_over_common(b, speed);
+        let pressure = p + rise;
         let normal = b.direction * if dividing { 1.0 } else { -1.0 };
         let outside_area = b.outside.map_or(area, |od| common::circle_area(od.value));
         let beta = b.profile.beta.value;
         thrust += face(pressure, beta * speed * speed, area, outside_area, normal);
-        scale += (pressure.abs() + beta * rho * speed * speed) * outside_area;
+        // The branch pressure is the common pipe's plus the rise: when they nearly
+        // cancel (a fast common pipe, a wide slow branch), it carries the rounding
+        // of the larger, not of itself.
+        scale += (p.abs() + rise.abs() + beta * rho * speed * speed) * outside_area;
     }
     let weights = if inputs.weights {
         rho * g * volume + inputs.w_fitting.value
