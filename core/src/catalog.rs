@@ -16,7 +16,7 @@
 
 use std::collections::BTreeMap;
 
-use crate::error::{FieldError, FieldErrorKind};
+use crate::error::{Bounds, FieldError, FieldErrorKind};
 use crate::units::{self, QuantityKind, UnitSystem};
 
 /// What a field holds.
@@ -1028,15 +1028,12 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                         });
                         let smallest = smallest_meaningful(*kind);
                         if si != 0.0 && si.abs() < smallest && *kind != QuantityKind::Temperature {
-                            // Bounds read with the unit's label (°C, m³/h), not its code.
-                            let shown = |si: f64| units::with_label(&units::format_quantity_in(si, *kind, unit));
+                            let shown = |si: f64| bound_text(si, *kind, unit);
                             let (max, zero_allowed) = match field.limits {
                                 Some(limits) => (shown(limits.max), limits.contains(0.0)),
                                 None => (String::new(), true),
                             };
-                            let smallest = units::with_label(&without_trailing_zeros(&units::format_quantity_in(
-                                smallest, *kind, unit,
-                            )));
+                            let smallest = shown(smallest);
                             errors.push(FieldError::new(
                                 field.key,
                                 FieldErrorKind::BelowSmallest {
@@ -1052,18 +1049,22 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                             if !limits.contains(si) {
                                 errors.push(FieldError::new(
                                     field.key,
-                                    FieldErrorKind::OutOfRange {
-                                        min: units::with_label(&units::format_quantity_in(limits.min, *kind, unit)),
-                                        max: units::with_label(&units::format_quantity_in(limits.max, *kind, unit)),
-                                        min_inclusive: limits.min_inclusive,
-                                    },
+                                    FieldErrorKind::OutOfRange(bounds_in(limits, *kind, unit)),
                                 ));
                                 continue;
                             }
                         }
                         values.insert(field.key, Value::Quantity(si));
                     }
-                    Err(kind) => errors.push(FieldError::new(field.key, kind)),
+                    // What could not be read as a number is told the range to type in,
+                    // in the unit its selector shows.
+                    Err(error) => errors.push(FieldError::new(
+                        field.key,
+                        match field.limits {
+                            Some(limits) => error.with_bounds(bounds_in(limits, *kind, default_unit)),
+                            None => error,
+                        },
+                    )),
                 }
             }
             FieldKind::Choice(options) => {
@@ -1097,6 +1098,22 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
 }
 
 /// `"0.001000 mm"` → `"0.001 mm"`: a bound in a message reads as typed.
+/// A field's limits as a message states them, in `unit` (see [`bound_text`]).
+fn bounds_in(limits: Limits, kind: QuantityKind, unit: &str) -> Bounds {
+    Bounds {
+        min: bound_text(limits.min, kind, unit),
+        max: bound_text(limits.max, kind, unit),
+        min_inclusive: limits.min_inclusive,
+    }
+}
+
+/// A bound (an SI value) in `unit`, read with the unit's label (°C, m³/h), not its
+/// code, and without trailing zeros: a limit is a round number, and `180.0°` would
+/// claim a precision it does not have.
+fn bound_text(si: f64, kind: QuantityKind, unit: &str) -> String {
+    units::with_label(&without_trailing_zeros(&units::format_quantity_in(si, kind, unit)))
+}
+
 fn without_trailing_zeros(text: &str) -> String {
     let (number, rest) = text.split_once(' ').unwrap_or((text, ""));
     let number = if number.contains('.') && !number.contains(['e', 'E']) {
@@ -1256,6 +1273,51 @@ mod tests {
             Ok(_) => Vec::new(),
             Err(errors) => errors,
         }
+    }
+
+    /// What cannot be read as a number is told the field's range, in the unit its
+    /// selector shows, without trailing zeros. (Every field used to suggest
+    /// "e.g. 150 psi", an angle's and a diameter's alike, and name no range.)
+    #[test]
+    fn a_field_that_cannot_read_its_text_states_its_range_in_its_own_unit() {
+        let mut checked = 0;
+        for calculator in crate::calculators::CALCULATORS {
+            let spec = (calculator.spec)();
+            let demo = demo_request(&spec, &[]);
+            for field in &spec.fields {
+                let (FieldKind::Quantity(_), Some(_)) = (&field.kind, field.limits) else {
+                    continue;
+                };
+                if !is_shown(&spec, field, &demo) {
+                    continue;
+                }
+                let unit = units::unit_by_id(selector_unit(field, &demo)).expect("a selector shows a known unit");
+                let suffix = unit.show("");
+                for typed in ["abc", "1e400", "-inf", "1..5"] {
+                    let request = demo_request(&spec, &[(field.key, typed)]);
+                    let errors = validate(&spec, &request).1.err().unwrap_or_default();
+                    let Some(error) = errors.iter().find(|e| e.field == field.key) else {
+                        panic!("{}: {} accepted {typed:?}", calculator.key, field.key);
+                    };
+                    let message = error.kind.to_string();
+                    let Some((_, after)) = message.split_once(" and at most ") else {
+                        panic!("{}: {}: {typed:?}: no range in {message:?}", calculator.key, field.key);
+                    };
+                    let max = after.split(" (").next().unwrap_or(after);
+                    let Some(number) = max.strip_suffix(suffix.as_str()) else {
+                        panic!("{}: {}: {message:?} is not in {suffix:?}", calculator.key, field.key);
+                    };
+                    assert!(
+                        number.parse::<f64>().is_ok() && !(number.contains('.') && number.ends_with('0')),
+                        "{}: {}: {message:?}",
+                        calculator.key,
+                        field.key
+                    );
+                    checked += 1;
+                }
+            }
+        }
+        assert!(checked > 200, "only {checked} messages checked");
     }
 
     #[test]

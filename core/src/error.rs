@@ -9,10 +9,12 @@ use std::fmt;
 pub enum FieldErrorKind {
     /// A required field was empty or absent.
     Missing,
-    /// The text is not a number (optionally followed by a unit).
-    NotANumber { text: String },
-    /// NaN or an infinity was typed.
-    NotFinite,
+    /// The text is not a number (optionally followed by a unit). `bounds`: the
+    /// field's valid range, where it has one, so the message says what to type.
+    NotANumber { text: String, bounds: Option<Bounds> },
+    /// NaN or an infinity was typed, or a number too large for a 64-bit float
+    /// (`1e400`). `bounds` as for [`FieldErrorKind::NotANumber`].
+    NotFinite { bounds: Option<Bounds> },
     /// The unit is not known at all; `suggestions` are the nearest units of the
     /// field's kind (may be empty), `expected` every unit of that kind.
     UnknownUnit {
@@ -30,12 +32,8 @@ pub enum FieldErrorKind {
     },
     /// `1,500`: a comma that may be a decimal comma or a thousands separator.
     AmbiguousComma { text: String },
-    /// The value is outside the field's valid range (bounds formatted in the field's unit).
-    OutOfRange {
-        min: String,
-        max: String,
-        min_inclusive: bool,
-    },
+    /// The value is outside the field's valid range.
+    OutOfRange(Bounds),
     /// A non-zero value below the smallest meaningful magnitude of its kind
     /// (`catalog::smallest_meaningful`): 5e-324 mm is not a diameter.
     BelowSmallest {
@@ -54,6 +52,49 @@ pub enum FieldErrorKind {
     Inconsistent { reason: String },
     /// The text is too long to be an input (a guard against pasted junk).
     TooLong { max_chars: usize },
+}
+
+/// A field's valid range as a message states it: the bounds formatted in the unit
+/// the field is read in, without trailing zeros (`at least 0.1° and at most 180°`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Bounds {
+    pub min: String,
+    pub max: String,
+    /// Whether `min` itself is valid (`at least`) or not (`greater than`).
+    pub min_inclusive: bool,
+}
+
+impl fmt::Display for Bounds {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let op = if self.min_inclusive { "at least" } else { "greater than" };
+        write!(f, "{op} {} and at most {}", self.min, self.max)
+    }
+}
+
+impl FieldErrorKind {
+    /// `text` is not a number; the field's range is added where the field is known.
+    pub fn not_a_number(text: impl Into<String>) -> FieldErrorKind {
+        FieldErrorKind::NotANumber {
+            text: text.into(),
+            bounds: None,
+        }
+    }
+
+    /// The typed number is NaN, an infinity or beyond a 64-bit float.
+    pub const NOT_FINITE: FieldErrorKind = FieldErrorKind::NotFinite { bounds: None };
+
+    /// The same error, stating the field's valid range where the error is about what
+    /// to type (not a number, not finite); every other error is returned unchanged.
+    pub fn with_bounds(self, range: Bounds) -> FieldErrorKind {
+        match self {
+            FieldErrorKind::NotANumber { text, .. } => FieldErrorKind::NotANumber {
+                text,
+                bounds: Some(range),
+            },
+            FieldErrorKind::NotFinite { .. } => FieldErrorKind::NotFinite { bounds: Some(range) },
+            other => other,
+        }
+    }
 }
 
 /// An error attached to one input field.
@@ -81,14 +122,20 @@ impl fmt::Display for FieldErrorKind {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {
             FieldErrorKind::Missing => write!(f, "a value is required"),
-            FieldErrorKind::NotANumber { text } => {
-                write!(
-                    f,
-                    "'{}' is not a number; type a number, optionally with a unit, e.g. 150 psi",
-                    shorten(text)
-                )
+            FieldErrorKind::NotANumber { text, bounds } => {
+                write!(f, "'{}' is not a number; type a number", shorten(text))?;
+                match bounds {
+                    Some(bounds) => write!(f, " {bounds} (a unit after the number is optional)"),
+                    None => write!(f, ", optionally followed by its unit"),
+                }
             }
-            FieldErrorKind::NotFinite => write!(f, "must be a finite number (NaN and infinity are not accepted)"),
+            FieldErrorKind::NotFinite { bounds } => {
+                write!(f, "must be a finite number")?;
+                if let Some(bounds) = bounds {
+                    write!(f, " {bounds}")?;
+                }
+                write!(f, " (NaN, infinity and numbers beyond 1e308 are not accepted)")
+            }
             FieldErrorKind::UnknownUnit {
                 unit,
                 suggestions,
@@ -125,14 +172,7 @@ impl fmt::Display for FieldErrorKind {
                         without the comma or with a decimal point",
                 shorten(text)
             ),
-            FieldErrorKind::OutOfRange {
-                min,
-                max,
-                min_inclusive,
-            } => {
-                let op = if *min_inclusive { "at least" } else { "greater than" };
-                write!(f, "must be {op} {min} and at most {max}")
-            }
+            FieldErrorKind::OutOfRange(bounds) => write!(f, "must be {bounds}"),
             FieldErrorKind::BelowSmallest {
                 smallest,
                 zero,

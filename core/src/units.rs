@@ -813,9 +813,7 @@ fn read_quantity<'a>(
             if kind != QuantityKind::Length {
                 // Fractions are how the trade writes inches; elsewhere "1-1/4" is
                 // more likely a slip than a number.
-                return Err(FieldErrorKind::NotANumber {
-                    text: number.text.to_string(),
-                });
+                return Err(FieldErrorKind::not_a_number(number.text.to_string()));
             }
             (number, rest)
         }
@@ -825,9 +823,9 @@ fn read_quantity<'a>(
                 let lower = text.to_ascii_lowercase();
                 let bare = lower.trim_start_matches(['+', '-']);
                 if bare.starts_with("nan") || bare.starts_with("inf") {
-                    return Err(FieldErrorKind::NotFinite);
+                    return Err(FieldErrorKind::NOT_FINITE);
                 }
-                return Err(FieldErrorKind::NotANumber { text: text.to_string() });
+                return Err(FieldErrorKind::not_a_number(text.to_string()));
             }
             let number = TypedNumber {
                 text: number_text,
@@ -843,7 +841,7 @@ fn read_quantity<'a>(
     if si.is_finite() {
         Ok((si, number, unit))
     } else {
-        Err(FieldErrorKind::NotFinite)
+        Err(FieldErrorKind::NOT_FINITE)
     }
 }
 
@@ -934,7 +932,7 @@ fn read_fraction(text: &str) -> Option<Result<(TypedNumber<'_>, &str), FieldErro
         Ok((value, len)) => {
             let (number_text, rest) = text.split_at(number_end + len);
             if rest.starts_with(|c: char| c.is_ascii_digit() || c == '.' || c == ',' || c == '/') {
-                Err(FieldErrorKind::NotANumber { text: text.to_string() })
+                Err(FieldErrorKind::not_a_number(text.to_string()))
             } else {
                 Ok((
                     TypedNumber {
@@ -946,7 +944,7 @@ fn read_fraction(text: &str) -> Option<Result<(TypedNumber<'_>, &str), FieldErro
                 ))
             }
         }
-        Err(()) => Err(FieldErrorKind::NotANumber { text: text.to_string() }),
+        Err(()) => Err(FieldErrorKind::not_a_number(text.to_string())),
     })
 }
 
@@ -1016,17 +1014,17 @@ fn parse_number(text: &str) -> Result<f64, FieldErrorKind> {
         }
         text.replacen(',', ".", 1)
     } else {
-        return Err(FieldErrorKind::NotANumber { text: text.to_string() });
+        return Err(FieldErrorKind::not_a_number(text.to_string()));
     };
     if dots > 1 {
-        return Err(FieldErrorKind::NotANumber { text: text.to_string() });
+        return Err(FieldErrorKind::not_a_number(text.to_string()));
     }
-    let value = crate::decimal::parse_decimal(&normalised)
-        .ok_or_else(|| FieldErrorKind::NotANumber { text: text.to_string() })?;
+    let value =
+        crate::decimal::parse_decimal(&normalised).ok_or_else(|| FieldErrorKind::not_a_number(text.to_string()))?;
     if value.is_finite() {
         Ok(value)
     } else {
-        Err(FieldErrorKind::NotFinite)
+        Err(FieldErrorKind::NOT_FINITE)
     }
 }
 
@@ -1282,7 +1280,7 @@ pub fn convert_text(
     }
     let value = (si - target.offset) / target.factor;
     if !value.is_finite() {
-        return Err(FieldErrorKind::NotFinite);
+        return Err(FieldErrorKind::NOT_FINITE);
     }
     let figures = (number.significant.saturating_add(1))
         .clamp(CONVERTED_MIN_SIGNIFICANT_FIGURES, CONVERTED_MAX_SIGNIFICANT_FIGURES);
@@ -1686,9 +1684,9 @@ mod tests {
 
     #[test]
     fn refuses_bad_text_with_typed_errors() {
-        assert_eq!(parse_quantity("NaN", Q::Length, "m"), Err(FieldErrorKind::NotFinite));
-        assert_eq!(parse_quantity("-inf", Q::Length, "m"), Err(FieldErrorKind::NotFinite));
-        assert_eq!(parse_quantity("1e999", Q::Length, "m"), Err(FieldErrorKind::NotFinite));
+        assert_eq!(parse_quantity("NaN", Q::Length, "m"), Err(FieldErrorKind::NOT_FINITE));
+        assert_eq!(parse_quantity("-inf", Q::Length, "m"), Err(FieldErrorKind::NOT_FINITE));
+        assert_eq!(parse_quantity("1e999", Q::Length, "m"), Err(FieldErrorKind::NOT_FINITE));
         assert!(matches!(
             parse_quantity("1,500 m", Q::Length, "m"),
             Err(FieldErrorKind::AmbiguousComma { .. })
@@ -2054,7 +2052,7 @@ mod tests {
         ));
         assert_eq!(
             convert_text("NaN", Q::Pressure, "bar", "psi"),
-            Err(FieldErrorKind::NotFinite)
+            Err(FieldErrorKind::NOT_FINITE)
         );
         assert!(matches!(
             convert_text("10", Q::Pressure, "bar", "m"),
@@ -2071,7 +2069,7 @@ mod tests {
         // Past the largest finite number in the target unit.
         assert_eq!(
             convert_text("1e306", Q::Length, "m", "mm"),
-            Err(FieldErrorKind::NotFinite)
+            Err(FieldErrorKind::NOT_FINITE)
         );
     }
 

@@ -840,6 +840,7 @@ mod tests {
 
     use super::*;
     use fluxledger_core::catalog::{ChoiceOption, Limits, Marker, Series, ShapeStyle};
+    use fluxledger_core::error::Bounds;
     use fluxledger_core::units::QuantityKind;
     use fluxledger_core::FieldErrorKind;
     use serde_json::{json, Value};
@@ -1176,11 +1177,11 @@ mod tests {
     #[test]
     fn field_errors_carry_the_spec_label_and_the_core_message() {
         let spec = sample_spec();
-        let out_of_range = FieldErrorKind::OutOfRange {
+        let out_of_range = FieldErrorKind::OutOfRange(Bounds {
             min: "0 m3/h".into(),
             max: "360000 m3/h".into(),
             min_inclusive: false,
-        };
+        });
         let outcome = Outcome {
             echoes: vec![FieldEcho {
                 key: "q",
