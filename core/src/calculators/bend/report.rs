@@ -86,6 +86,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     } else {
         ("Gauge pressure at the inlet", inlet_state.pressure, p_in)
     };
+    let energy_terms = known.abs() + rho * (alpha1 * v1 * v1 + alpha2 * v2 * v2 + k * v1 * v1 + g * dz.abs());
     report.check(
         solved_label,
         "energy line with α and the loss, p₁ + α₁ρV₁²/2 = p₂ + α₂ρV₂²/2 + ρg(z₂ − z₁) + K·ρV₁²/2",
@@ -94,7 +95,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
         solved_closed,
         1e-9,
         // Relative to the largest term of the energy line (they can cancel).
-        known.abs() + rho * (alpha1 * v1 * v1 + alpha2 * v2 * v2 + k * v1 * v1 + g * dz.abs()),
+        energy_terms,
     );
     let e1 = Direction::X.vec();
     let e2 = geometry.outlet_direction().vec();
@@ -103,9 +104,12 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
     let closed = e1 * (p_in * basis_a_in + beta1 * mass_flow * v1)
         - e2 * (p_out * basis_a_out + beta2 * mass_flow * v2)
         + down * (fluid_weight + w_fitting);
-    // Relative to the sum of the terms' magnitudes: the terms can cancel.
+    // Relative to the sum of the terms' magnitudes: the terms can cancel, and the
+    // pressure found by the energy line carries the rounding of its terms (a fast
+    // 1 mm bore on a wide outside diameter: seen off by 2.5e-9 of the momentum).
     let scale = p_in.abs() * basis_a_in
         + p_out.abs() * basis_a_out
+        + energy_terms * basis_a_in.max(basis_a_out)
         + mass_flow * (beta1 * v1 + beta2 * v2)
         + fluid_weight
         + w_fitting;

@@ -229,15 +229,22 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     let branch_speed = |b: &super::model::Branch, q: &Option<f64>| {
         q.unwrap_or((total_flow - given).max(0.0)) / common::circle_area(b.diameter.value)
     };
-    let rise_over_common = |b: &super::model::Branch, speed: f64| {
+    // The rise of the branch's pressure over the common pipe's, and the sum of its
+    // terms' magnitudes (the rounding it carries when they cancel).
+    let rise_and_terms = |b: &super::model::Branch, speed: f64| {
         let v_ref = if k_on_common { v_common } else { speed };
         let loss = b.k.value * rho * v_ref * v_ref / 2.0;
         // The common face sits at z = 0; a branch's face one stub along its axis.
         let z = stub * b.direction.z * if dividing { 1.0 } else { -1.0 };
         let alpha = b.profile.alpha.value;
-        rho * (alpha0 * v_common * v_common - alpha * speed * speed) / 2.0 - rho * g * z
-            + if dividing { -loss } else { loss }
+        let (common_kinetic, branch_kinetic) = (
+            rho * alpha0 * v_common * v_common / 2.0,
+            rho * alpha * speed * speed / 2.0,
+        );
+        let rise = common_kinetic - branch_kinetic - rho * g * z + if dividing { -loss } else { loss };
+        (rise, common_kinetic + branch_kinetic + (rho * g * z).abs() + loss.abs())
     };
+    let rise_over_common = |b: &super::model::Branch, speed: f64| rise_and_terms(b, speed).0;
     let p = match inputs.known {
         KnownAt::Common(p) => p.value,
         KnownAt::Branch(n, p_known) => branches
@@ -270,7 +277,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
     for (b, q) in branches.iter().zip(branch_flows) {
         let area = common::circle_area(b.diameter.value);
         let speed = branch_speed(b, q);
-        let rise = rise_over_common(b, speed);
+        let (rise, rise_terms) = rise_and_terms(b, speed);
         let pressure = p + rise;
         let normal = b.direction * if dividing { 1.0 } else { -1.0 };
         let outside_area = b.outside.map_or(area, |od| common::circle_area(od.value));
@@ -278,8 +285,8 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
         thrust += face(pressure, beta * speed * speed, area, outside_area, normal);
         // The branch pressure is the common pipe's plus the rise: when they nearly
         // cancel (a fast common pipe, a wide slow branch), it carries the rounding
-        // of the larger, not of itself.
-        scale += (p.abs() + rise.abs() + beta * rho * speed * speed) * outside_area;
+        // of their terms, not of itself.
+        scale += (p.abs() + rise_terms + beta * rho * speed * speed) * outside_area;
     }
     let weights = if inputs.weights {
         rho * g * volume + inputs.w_fitting.value
