@@ -349,6 +349,10 @@ pub struct SolvedRow {
     pub surge: Option<RowSurge>,
     /// The static head from the test point to the row, ρ·g·(z_test − z), Pa (0 without z=).
     pub head: f64,
+    /// ρ·g·(|z_test| + |z|), Pa (0 without z=): the size of the two hydrostatic terms
+    /// the energy balance subtracts, which the elevation check's tolerance is
+    /// relative to.
+    pub hydrostatic_terms: f64,
     /// The row's pressure by the engine's energy balance of the still line from the
     /// test point (the independent check of `p`), when the row gives z=.
     pub p_by_energy_balance: Option<f64>,
@@ -400,6 +404,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
         _ => None,
     };
     let mut head = 0.0;
+    let mut hydrostatic_terms = 0.0;
     let mut p_by_energy_balance = None;
     let (p, from) = match (row.p, row.pw) {
         (Some(p), _) => (p, DesignFrom::RowPressure),
@@ -409,6 +414,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
             let mut p = p_test_point;
             if let (Some(z_test), Some(z)) = (inputs.z_test, row.z) {
                 head = pressure::elevation_head(fluid.density, z_test.value, z);
+                hydrostatic_terms = fluid.density * crate::units::STANDARD_GRAVITY * (z_test.value.abs() + z.abs());
                 p += head;
                 if p < 0.0 {
                     return Err(err(
@@ -553,6 +559,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
         closed_form,
         surge,
         head,
+        hydrostatic_terms,
         p_by_energy_balance,
     })
 }

@@ -246,7 +246,10 @@ fn elevation_and_surge_notes(inputs: &Inputs, solved: &[SolvedRow], report: &mut
             by_head,
             by_engine,
             1e-9,
-            corrected.iter().map(|s| s.p.abs() + s.head.abs()).sum(),
+            corrected
+                .iter()
+                .map(|s| s.p.abs() + s.head.abs() + s.hydrostatic_terms)
+                .sum(),
         );
     }
     if inputs.z_test.is_some() {

@@ -75,7 +75,8 @@
 //! closed-form quasi-steady Torricelli time
 //! t = (2A_t/(C_d·a))·√((1 − r²)/(2g))·(√h₁ − √h₂), an independent path that the
 //! unsteady solution must approach as r → 0; the allowed difference is
-//! 1.5·r²/(1 − r²)·√h₁/(√h₁ − √h₂), the order of the neglected term. The closed form
+//! (1.5·r²/(1 − r²) + 10⁻⁹)·√h₁/(√h₁ − √h₂), the order of the neglected term and of
+//! the rounding of the level reached, both amplified alike. The closed form
 //! and the quasi-steady draining example are in White, *Fluid Mechanics*; Munson et
 //! al., *Fundamentals of Fluid Mechanics*; Çengel & Cimbala, *Fluid Mechanics* (the
 //! conservation-of-mass chapter). The unsteady energy balance (unsteady Bernoulli

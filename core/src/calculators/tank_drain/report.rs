@@ -12,7 +12,7 @@ use super::{CHECK_MAX_RATIO, UNSTEADY_NOTICE_RATIO};
 use crate::calculators::common;
 
 const TIME_BASIS: &str = "the quasi-steady Torricelli closed form (2A_t/(C_d·a))·√((1 − r²)/2g)·(√h₁ − √h₂), which \
-    it must approach for a small outlet; allowed difference 1.5·r²/(1 − r²)·√h₁/(√h₁ − √h₂)";
+    it must approach for a small outlet; allowed difference (1.5·r²/(1 − r²) + 10⁻⁹)·√h₁/(√h₁ − √h₂)";
 const ENERGY_LABEL: &str =
     "Energy carried out by the jet plus kinetic energy left in the tank, per unit weight drained";
 const ENERGY_BASIS: &str = "the potential energy released per unit weight drained, (h₁ + h₂)/2 (energy balance of \
@@ -134,7 +134,11 @@ fn classic(s: &Solved, c: &Classic, report: &mut Report<'_>) {
     report.output("time_free_fall", c.time_free_fall);
     if r <= CHECK_MAX_RATIO {
         let r2 = r * r;
-        let tolerance = 1.5 * r2 / (1.0 - r2) * h1.sqrt() / (h1.sqrt() - h2.sqrt()) + 1e-9;
+        // The closed form's time for the level reached is as sensitive to that level
+        // as the model's difference is: both grow with √h₁/(√h₁ − √h₂), which is
+        // large when the run ends soon after the start (fuzzing found 5e-8 on a run
+        // of 2.4 s with the rounding allowance left outside that factor).
+        let tolerance = (1.5 * r2 / (1.0 - r2) + 1e-9) * h1.sqrt() / (h1.sqrt() - h2.sqrt());
         report.check(
             if s.time.is_some() {
                 "Time to drain (unsteady balance from rest)"

@@ -188,10 +188,18 @@ pub struct Solved {
 /// The flow given to each branch (`None` for the one solved by mass). When every
 /// share is given, they add up to 100 % only within 1e-6: the branch with the largest
 /// share takes the common flow less the others, so that mass closes exactly rather
-/// than to the rounding of the typed shares.
+/// than to the rounding of the typed shares. So too when the one left empty has
+/// nothing left (the given shares reach 100 %, or pass it by the 1e-9 the inputs
+/// allow): it gets no flow, not a backward trickle the size of the rounding.
 pub fn branch_flows(branches: &[Branch], total_flow: f64) -> Vec<Option<f64>> {
     let share = |b: &Branch| b.share.map_or(0.0, |s| s.value);
     let mut flows: Vec<Option<f64>> = branches.iter().map(|b| b.share.map(|s| s.value * total_flow)).collect();
+    let given: f64 = flows.iter().flatten().sum();
+    if flows.iter().filter(|q| q.is_none()).count() == 1 && given >= total_flow {
+        for q in flows.iter_mut().filter(|q| q.is_none()) {
+            *q = Some(0.0);
+        }
+    }
     if flows.iter().all(Option::is_some) {
         let largest = branches
             .iter()

@@ -100,7 +100,7 @@ fn pressure_outputs(report: &mut Report<'_>, pr: &Pressures) {
             pr.design,
             e.by_energy_balance,
             1e-9,
-            pr.at_test_point.abs().max(e.head.abs()),
+            pr.at_test_point.abs().max(e.head.abs()).max(e.hydrostatic_terms),
         );
     }
     if pr.basis == PressureBasis::Operating {
