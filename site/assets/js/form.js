@@ -54,7 +54,8 @@ function buildToolbar() {
  * core, through `convert`) to the field's default unit in the new system, whatever
  * unit it was typed in; a field the core cannot read stays as typed and is named.
  * What a field held before is remembered: switching back restores the text and
- * unit as typed, as long as the converted value was not edited in between.
+ * unit as typed, as long as the converted value was not edited in between; a value
+ * already in the new system's unit is left as it is both ways.
  * Empty fields take the new system's default unit.
  */
 function changeSystem(system) {
@@ -78,11 +79,23 @@ function changeSystem(system) {
     const memo = state.converted.get(key);
     state.converted.delete(key);
     if (memo && memo.system === system && memo.shown === text && memo.shownUnit === unit) {
+      if (memo.text !== state.values[key] || memo.unit !== state.units[key]) restored += 1;
       setField(field, memo.text, memo.unit);
-      restored += 1;
       continue;
     }
-    if (unit === target) continue;
+    if (unit === target) {
+      // Already in the new system's unit (typed with its own unit, `12 in` in SI):
+      // left as typed, and remembered, so that switching back leaves it as typed too
+      // instead of converting it (to 304.8 mm).
+      state.converted.set(key, {
+        system: from,
+        text: state.values[key],
+        unit: state.units[key] || unit,
+        shown: text,
+        shownUnit: unit,
+      });
+      continue;
+    }
     let answer = null;
     try {
       answer = JSON.parse(glue.convert(state.spec.key, key, text, state.units[key] || unit, system));

@@ -644,8 +644,11 @@ fn unit_switch_converts_filled_inputs_and_switching_back_restores_them() {
         width: 360,
         height: 800,
     });
-    open(&page, &mut browser, &format!("{}/bend.html?p=10bar", site.base));
+    // The bore in inches: already in the US customary unit, so left as it is both
+    // ways (it was converted to 304.8 mm on the way back).
+    open(&page, &mut browser, &format!("{}/bend.html?p=10bar&d=12in", site.base));
     assert_eq!(field(&page, &mut browser, "p"), ("10".to_string(), "bar".to_string()));
+    assert_eq!(field(&page, &mut browser, "d"), ("12".to_string(), "in".to_string()));
     let si_thrust = output_text(&page, &mut browser, "thrust").expect("thrust shown");
     let si_fields = eval(
         &page,
@@ -698,6 +701,7 @@ fn unit_switch_converts_filled_inputs_and_switching_back_restores_them() {
     // Back to SI: everything as typed, and the same result as before.
     switch_to(&page, &mut browser, "si");
     assert_eq!(field(&page, &mut browser, "p"), ("10".to_string(), "bar".to_string()));
+    assert_eq!(field(&page, &mut browser, "d"), ("12".to_string(), "in".to_string()));
     assert_eq!(
         eval(
             &page,
