@@ -1028,7 +1028,7 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
                         });
                         let smallest = smallest_meaningful(*kind);
                         if si != 0.0 && si.abs() < smallest && *kind != QuantityKind::Temperature {
-                            let shown = |si: f64| bound_text(si, *kind, unit);
+                            let shown = |si: f64| units::format_limit(si, *kind, unit);
                             let (max, zero_allowed) = match field.limits {
                                 Some(limits) => (shown(limits.max), limits.contains(0.0)),
                                 None => (String::new(), true),
@@ -1098,33 +1098,12 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
 }
 
 /// `"0.001000 mm"` → `"0.001 mm"`: a bound in a message reads as typed.
-/// A field's limits as a message states them, in `unit` (see [`bound_text`]).
+/// A field's limits as a message states them, in `unit` ([`units::format_limit`]).
 fn bounds_in(limits: Limits, kind: QuantityKind, unit: &str) -> Bounds {
     Bounds {
-        min: bound_text(limits.min, kind, unit),
-        max: bound_text(limits.max, kind, unit),
+        min: units::format_limit(limits.min, kind, unit),
+        max: units::format_limit(limits.max, kind, unit),
         min_inclusive: limits.min_inclusive,
-    }
-}
-
-/// A bound (an SI value) in `unit`, read with the unit's label (°C, m³/h), not its
-/// code, and without trailing zeros: a limit is a round number, and `180.0°` would
-/// claim a precision it does not have.
-fn bound_text(si: f64, kind: QuantityKind, unit: &str) -> String {
-    units::with_label(&without_trailing_zeros(&units::format_quantity_in(si, kind, unit)))
-}
-
-fn without_trailing_zeros(text: &str) -> String {
-    let (number, rest) = text.split_once(' ').unwrap_or((text, ""));
-    let number = if number.contains('.') && !number.contains(['e', 'E']) {
-        number.trim_end_matches('0').trim_end_matches('.')
-    } else {
-        number
-    };
-    if rest.is_empty() {
-        number.to_string()
-    } else {
-        format!("{number} {rest}")
     }
 }
 

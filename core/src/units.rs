@@ -1135,9 +1135,24 @@ pub fn format_quantity_labelled(si: f64, kind: QuantityKind, system: UnitSystem)
 
 /// Formats an SI value in a given unit id (falls back to the SI display unit).
 pub fn format_quantity_in(si: f64, kind: QuantityKind, unit_id: &str) -> String {
+    let (number, def) = parts_in(si, kind, unit_id);
+    joined_with_id(&number, def)
+}
+
+/// A field's limit (an SI value) in a unit id as a message states it: four
+/// significant figures without trailing zeros, the unit by its label (`0.1°`,
+/// `1 mm`, `99.9 °C`). A limit is a round number; `180.0°` would claim a precision
+/// it does not have. Falls back to the SI display unit as [`format_quantity_in`].
+pub fn format_limit(si: f64, kind: QuantityKind, unit_id: &str) -> String {
+    let (number, def) = parts_in(si, kind, unit_id);
+    def.show(&trim_zeros(&number))
+}
+
+/// The number (four significant figures) and unit of [`format_quantity_in`].
+fn parts_in(si: f64, kind: QuantityKind, unit_id: &str) -> (String, &'static UnitDef) {
     match find_unit(unit_id) {
-        Some(def) if def.kind == kind.dimension() => format_in(si, def),
-        _ => format_quantity(si, kind, UnitSystem::Si),
+        Some(def) if def.kind == kind.dimension() => (format_significant((si - def.offset) / def.factor, 4), def),
+        _ => display_parts(si, kind, UnitSystem::Si),
     }
 }
 
@@ -1299,11 +1314,6 @@ fn trim_zeros(number: &str) -> String {
     }
     let trimmed = mantissa.trim_end_matches('0').trim_end_matches('.');
     format!("{trimmed}{exponent}")
-}
-
-fn format_in(si: f64, def: &UnitDef) -> String {
-    let value = (si - def.offset) / def.factor;
-    joined_with_id(&format_significant(value, 4), def)
 }
 
 /// Formats with `sig` significant figures, no exponent for everyday magnitudes.

@@ -125,6 +125,14 @@ pub fn elevation_head(density: f64, z_test: f64, z_fitting: f64) -> f64 {
     density * STANDARD_GRAVITY * (z_test - z_fitting)
 }
 
+/// ρ·g·(|z_test| + |z_fitting|), Pa: the size of the two hydrostatic terms whose
+/// difference is [`elevation_head`] and that an energy balance between the two
+/// elevations subtracts; a check of the head is relative to it (1 µm apart a
+/// kilometre down, the head is a millionth of each).
+pub fn hydrostatic_terms(density: f64, z_test: f64, z_fitting: f64) -> f64 {
+    density * STANDARD_GRAVITY * (z_test.abs() + z_fitting.abs())
+}
+
 /// The pressure at a fitting at `z_fitting` when the still line holds `p_test_point`
 /// (gauge, Pa) at `z_test`, by the engine's energy balance between two ports of a
 /// pipe at those elevations with no flow (an independent path to

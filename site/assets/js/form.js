@@ -83,17 +83,14 @@ function changeSystem(system) {
       setField(field, memo.text, memo.unit);
       continue;
     }
+    // What the field holds now, to restore on switching back while it shows this.
+    const remember = (shown, shownUnit) =>
+      state.converted.set(key, { system: from, text: state.values[key], unit: state.units[key] || unit, shown, shownUnit });
     if (unit === target) {
       // Already in the new system's unit (typed with its own unit, `12 in` in SI):
       // left as typed, and remembered, so that switching back leaves it as typed too
       // instead of converting it (to 304.8 mm).
-      state.converted.set(key, {
-        system: from,
-        text: state.values[key],
-        unit: state.units[key] || unit,
-        shown: text,
-        shownUnit: unit,
-      });
+      remember(text, unit);
       continue;
     }
     let answer = null;
@@ -103,13 +100,7 @@ function changeSystem(system) {
       answer = null;
     }
     if (answer && answer.ok) {
-      state.converted.set(key, {
-        system: from,
-        text: state.values[key],
-        unit: state.units[key] || unit,
-        shown: answer.number,
-        shownUnit: answer.unit,
-      });
+      remember(answer.number, answer.unit);
       setField(field, answer.number, answer.unit);
       converted += 1;
     } else {

@@ -45,6 +45,12 @@ fn eval(page: &Page, browser: &mut Browser, expression: &str) -> Value {
     page.eval(browser, expression).unwrap_or_else(|e| panic!("{e}"))
 }
 
+/// The list a probe returns as JSON text (`JSON.stringify([...])`); empty when it
+/// returns something else.
+fn eval_list<T: serde::de::DeserializeOwned>(page: &Page, browser: &mut Browser, expression: &str) -> Vec<T> {
+    serde_json::from_str(eval(page, browser, expression).as_str().unwrap_or("[]")).unwrap_or_default()
+}
+
 fn phone() -> (Browser, Page) {
     let (mut browser, page) = launched(Launch {
         width: PHONE_WIDTH,
@@ -131,10 +137,7 @@ fn no_page_scrolls_sideways_at_360_px() {
             )
             .unwrap_or_else(|e| panic!("{name}: {e}"));
         if name != "index.html" && name != "verify.html" {
-            let labels = page
-                .eval(&mut browser, LABEL_PROBLEMS)
-                .unwrap_or_else(|e| panic!("{name}: {e}"));
-            let labels: Vec<String> = serde_json::from_str(labels.as_str().unwrap_or("[]")).unwrap_or_default();
+            let labels: Vec<String> = eval_list(&page, &mut browser, LABEL_PROBLEMS);
             problems.extend(labels.into_iter().map(|l| format!("{name}: {l}")));
             let heights = page
                 .eval(&mut browser, HEADLINE_HEIGHT)
@@ -249,8 +252,7 @@ fn a_table_wider_than_its_box_shows_that_it_scrolls() {
     // table is not laid out, so its cue waits for the frame that shows it):
     // [key, wider than its box, marked, hint shown, faded edge].
     let tables = "(async () => { const rows = [];       for (const p of document.querySelectorAll('.panel-table, .compare-panel')) {         p.scrollIntoView();         await new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r)));         const box = p.querySelector('.table-scroll');         rows.push([p.querySelector('table').dataset.table ?? 'comparison', box.scrollWidth > box.clientWidth + 1,           p.hasAttribute('data-overflows'),           getComputedStyle(p.querySelector('.table-actions'), '::before').content.includes('Scroll'),           getComputedStyle(box).maskImage !== 'none']);       }       return JSON.stringify(rows); })()";
-    let rows: Vec<(String, bool, bool, bool, bool)> =
-        serde_json::from_str(eval(&page, &mut browser, tables).as_str().unwrap_or("[]")).unwrap_or_default();
+    let rows: Vec<(String, bool, bool, bool, bool)> = eval_list(&page, &mut browser, tables);
     assert!(rows.iter().any(|r| r.1), "no table is wider than a phone: {rows:?}");
     assert!(rows.iter().any(|r| !r.1), "every table is wider than a phone: {rows:?}");
     assert!(
@@ -358,8 +360,7 @@ fn every_control_is_a_finger_high_at_360_px() {
         browser
             .pump(Duration::from_millis(100))
             .unwrap_or_else(|e| panic!("{e}"));
-        let small = eval(&page, &mut browser, SMALL_CONTROLS);
-        let small: Vec<String> = serde_json::from_str(small.as_str().unwrap_or("[]")).unwrap_or_default();
+        let small: Vec<String> = eval_list(&page, &mut browser, SMALL_CONTROLS);
         problems.extend(small.into_iter().map(|s| format!("{}: {s}", calculator.key)));
     }
     assert!(
@@ -433,8 +434,7 @@ fn every_scrolling_box_takes_the_keyboard_and_every_name_holds_its_text() {
         browser
             .pump(Duration::from_millis(200))
             .unwrap_or_else(|e| panic!("{e}"));
-        let found = eval(&page, &mut browser, KEYBOARD_PROBLEMS);
-        let found: Vec<String> = serde_json::from_str(found.as_str().unwrap_or("[]")).unwrap_or_default();
+        let found: Vec<String> = eval_list(&page, &mut browser, KEYBOARD_PROBLEMS);
         problems.extend(found.into_iter().map(|p| format!("{name}: {p}")));
     }
     assert!(

@@ -349,9 +349,8 @@ pub struct SolvedRow {
     pub surge: Option<RowSurge>,
     /// The static head from the test point to the row, ρ·g·(z_test − z), Pa (0 without z=).
     pub head: f64,
-    /// ρ·g·(|z_test| + |z|), Pa (0 without z=): the size of the two hydrostatic terms
-    /// the energy balance subtracts, which the elevation check's tolerance is
-    /// relative to.
+    /// [`pressure::hydrostatic_terms`] of the row (0 without z=), which the elevation
+    /// check's tolerance is relative to.
     pub hydrostatic_terms: f64,
     /// The row's pressure by the engine's energy balance of the still line from the
     /// test point (the independent check of `p`), when the row gives z=.
@@ -414,7 +413,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
             let mut p = p_test_point;
             if let (Some(z_test), Some(z)) = (inputs.z_test, row.z) {
                 head = pressure::elevation_head(fluid.density, z_test.value, z);
-                hydrostatic_terms = fluid.density * crate::units::STANDARD_GRAVITY * (z_test.value.abs() + z.abs());
+                hydrostatic_terms = pressure::hydrostatic_terms(fluid.density, z_test.value, z);
                 p += head;
                 if p < 0.0 {
                     return Err(err(

@@ -244,7 +244,6 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
         let rise = common_kinetic - branch_kinetic - rho * g * z + if dividing { -loss } else { loss };
         (rise, common_kinetic + branch_kinetic + (rho * g * z).abs() + loss.abs())
     };
-    let rise_over_common = |b: &super::model::Branch, speed: f64| rise_and_terms(b, speed).0;
     let p = match inputs.known {
         KnownAt::Common(p) => p.value,
         KnownAt::Branch(n, p_known) => branches
@@ -252,7 +251,7 @@ fn independent_checks(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved)
             .zip(branch_flows)
             .find(|(b, _)| b.index == n)
             .map_or(p_known.value, |(b, q)| {
-                p_known.value - rise_over_common(b, branch_speed(b, q))
+                p_known.value - rise_and_terms(b, branch_speed(b, q)).0
             }),
     };
     if let KnownAt::Branch(..) = inputs.known {

@@ -372,9 +372,7 @@ pub struct ElevationHead {
     pub z_fitting: f64,
     /// ρ·g·(z_test − z_fitting), Pa.
     pub head: f64,
-    /// ρ·g·(|z_test| + |z_fitting|), Pa: the size of the two hydrostatic terms the
-    /// energy balance subtracts, which the check's tolerance is relative to (1 µm
-    /// apart a kilometre down, the head is a millionth of each).
+    /// [`pressure::hydrostatic_terms`], which the check's tolerance is relative to.
     pub hydrostatic_terms: f64,
     /// The pressure at the fitting by the engine's energy balance of the still
     /// line between the two elevations (the independent check of `design`), Pa.
@@ -440,9 +438,7 @@ pub fn design_pressure(pi: &PressureInputs, main: Diameters, fluid: &Fluid) -> P
         z_test: e.z_test.value,
         z_fitting: e.z_fitting.value,
         head: pressure::elevation_head(fluid.density, e.z_test.value, e.z_fitting.value),
-        hydrostatic_terms: fluid.density
-            * crate::units::STANDARD_GRAVITY
-            * (e.z_test.value.abs() + e.z_fitting.value.abs()),
+        hydrostatic_terms: pressure::hydrostatic_terms(fluid.density, e.z_test.value, e.z_fitting.value),
         by_energy_balance: f64::NAN,
     });
     Pressures {
