@@ -59,6 +59,71 @@ img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; fo
     )
 }
 
+/// Splits the core's text at its symbols with a subscript, `C_d`, `L_run`, `V_θ2`,
+/// `R_p0.2`: one or two letters not inside a longer word, `_`, then letters and
+/// digits (a point between digits), not followed by a letter, a digit or `_`. Returns
+/// the plain runs and the subscripts in order: `(plain, Some(subscript))` for a
+/// symbol (its letters end the plain run), `(plain, None)` for the text after the
+/// last one. The page script reads the same (`symbolParts` in `assets/js/dom.js`);
+/// the text itself keeps its `_` (CSV, error messages, the printed link).
+pub fn symbol_parts(text: &str) -> Vec<(&str, Option<&str>)> {
+    let word = |c: char| c.is_alphabetic() || c.is_ascii_digit() || c == '_';
+    let mut parts = Vec::new();
+    let mut plain_start = 0;
+    for (underscore, _) in text.match_indices('_') {
+        if underscore < plain_start {
+            continue;
+        }
+        let before = &text[plain_start..underscore];
+        let base = before.chars().rev().take_while(|c| c.is_alphabetic()).count();
+        let base_ok = (1..=2).contains(&base) && {
+            let base_bytes: usize = before.chars().rev().take(base).map(char::len_utf8).sum();
+            !text[..underscore - base_bytes].chars().next_back().is_some_and(word)
+        };
+        if !base_ok {
+            continue;
+        }
+        let after = &text[underscore + 1..];
+        let letters: usize = after
+            .chars()
+            .take_while(|&c| c.is_alphabetic() || c.is_ascii_digit())
+            .map(char::len_utf8)
+            .sum();
+        if letters == 0 {
+            continue;
+        }
+        let decimals = after[letters..]
+            .strip_prefix('.')
+            .map(|rest| rest.bytes().take_while(u8::is_ascii_digit).count())
+            .filter(|&digits| digits > 0)
+            .map_or(0, |digits| 1 + digits);
+        let ends = |len: usize| !after[len..].chars().next().is_some_and(word);
+        let length = if decimals > 0 && ends(letters + decimals) {
+            letters + decimals
+        } else if ends(letters) {
+            letters
+        } else {
+            continue;
+        };
+        parts.push((&text[plain_start..underscore], Some(&after[..length])));
+        plain_start = underscore + 1 + length;
+    }
+    parts.push((&text[plain_start..], None));
+    parts
+}
+
+/// Escapes the core's text for HTML element content, its symbols' subscripts as
+/// `<sub>` ([`symbol_parts`]).
+pub fn escape_symbols(text: &str) -> String {
+    symbol_parts(text)
+        .into_iter()
+        .map(|(plain, subscript)| match subscript {
+            Some(sub) => format!("{}<sub>{}</sub>", escape(plain), escape(sub)),
+            None => escape(plain),
+        })
+        .collect()
+}
+
 /// Escapes text for HTML element content and double- or single-quoted attributes.
 pub fn escape(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
@@ -237,7 +302,7 @@ pub fn cautions_html(spec: &CalculatorSpec) -> String {
         "<h2 id=\"cautions-title\">Cautions</h2>\n<ul>\n"
     ));
     for caution in common_cautions(spec).chain(spec.cautions.iter().copied()) {
-        html.push_str(&format!("<li>{}</li>\n", escape(caution)));
+        html.push_str(&format!("<li>{}</li>\n", escape_symbols(caution)));
     }
     html.push_str("</ul>\n</aside>\n");
     html
@@ -490,6 +555,37 @@ pub fn contents_page(specs: &[CalculatorSpec], assets: &PageAssets) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn symbols_with_a_subscript_are_read_from_the_cores_text() {
+        // (text, its HTML): symbols as the core writes them, and words with `_`
+        // that are not symbols (a row keyword, a link key, a field key).
+        let cases = [
+            ("Discharge coefficient C_d", "Discharge coefficient C<sub>d</sub>"),
+            ("p·A_eff (45.00 kN)", "p·A<sub>eff</sub> (45.00 kN)"),
+            (
+                "swirl V_θ2 = u₂ − V_m2/tan β₂",
+                "swirl V<sub>θ2</sub> = u₂ − V<sub>m2</sub>/tan β₂",
+            ),
+            (
+                "f_B = min(R_p0.2/3, R_m/4)",
+                "f<sub>B</sub> = min(R<sub>p0.2</sub>/3, R<sub>m</sub>/4)",
+            ),
+            ("K·ρV_ref²/2", "K·ρV<sub>ref</sub>²/2"),
+            ("closure time t_c.", "closure time t<sub>c</sub>."),
+            ("(p_gauge + p_atm)/ρg", "(p<sub>gauge</sub> + p<sub>atm</sub>)/ρg"),
+            ("R_p0.2x", "R<sub>p0</sub>.2x"),
+            ("legs=one_level", "legs=one_level"),
+            ("rel_tol 1e-9", "rel_tol 1e-9"),
+            ("p_b1_x", "p_b1_x"),
+            ("x2_a and _a and a_ and a_b_c", "x2_a and _a and a_ and a_b_c"),
+            ("T_up < T_down", "T<sub>up</sub> &lt; T<sub>down</sub>"),
+            ("no symbol here", "no symbol here"),
+        ];
+        for (text, html) in cases {
+            assert_eq!(escape_symbols(text), html, "{text}");
+        }
+    }
 
     fn assets() -> PageAssets {
         PageAssets {

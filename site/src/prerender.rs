@@ -36,7 +36,7 @@ use fluxledger_core::catalog::{CalculatorSpec, Request};
 use fluxledger_core::UnitSystem;
 use fluxledger_wasm::view;
 
-use crate::pages::escape;
+use crate::pages::{escape, escape_symbols};
 
 /// The query key of the unit system in links (`SYSTEM_KEY` in `site/assets/js/url.js`).
 const SYSTEM_KEY: &str = "system";
@@ -292,7 +292,7 @@ impl Page<'_> {
         } else {
             let items: String = warnings
                 .iter()
-                .map(|w| format!("<li>{}</li>", escape(text(w, "message"))))
+                .map(|w| format!("<li>{}</li>", escape_symbols(text(w, "message"))))
                 .collect();
             format!("<ul class=\"warnings headline-warnings\" aria-label=\"Warnings\">{items}</ul>")
         };
@@ -426,7 +426,11 @@ impl Page<'_> {
                     }
                 }
             }
-            let mut inner = format!("<label for=\"{}\" class=\"field-label\">{}", escape(&id), escape(label));
+            let mut inner = format!(
+                "<label for=\"{}\" class=\"field-label\">{}",
+                escape(&id),
+                escape_symbols(label)
+            );
             if flag(field, "optional") {
                 inner.push_str("<span class=\"optional\"> (optional)</span>");
             }
@@ -435,7 +439,7 @@ impl Page<'_> {
             if !text(field, "help").is_empty() {
                 inner.push_str(&format!(
                     "<p class=\"help\" id=\"{id}-help\">{}</p>",
-                    escape(text(field, "help")),
+                    escape_symbols(text(field, "help")),
                     id = escape(&id)
                 ));
             }
@@ -451,7 +455,7 @@ impl Page<'_> {
                 Some(w) => inner.push_str(&format!(
                     "<p class=\"field-warning\" id=\"{}-warning\">{}</p>",
                     escape(&id),
-                    escape(text(w, "message"))
+                    escape_symbols(text(w, "message"))
                 )),
                 None => inner.push_str(&format!(
                     "<p class=\"field-warning\" id=\"{}-warning\" hidden></p>",
@@ -581,7 +585,7 @@ pub fn form_encode(text: &str) -> String {
 fn output_item(output: &Value) -> String {
     format!(
         "<div class=\"output\"><dt>{label}</dt><dd data-output=\"{key}\" title=\"{title}\">{shown}</dd></div>",
-        label = escape(text(output, "label")),
+        label = escape_symbols(text(output, "label")),
         key = escape(text(output, "key")),
         title = escape(text(output, "text")),
         shown = escape(text(output, "shown"))
@@ -598,7 +602,7 @@ fn render_table(table: &Value, index: usize) -> String {
     if !title.is_empty() {
         html.push_str(&format!(
             "<caption class=\"visually-hidden\">{}</caption>",
-            escape(title)
+            escape_symbols(title)
         ));
     }
     html.push_str("<thead><tr>");
@@ -607,7 +611,7 @@ fn render_table(table: &Value, index: usize) -> String {
             "" => text(column, "title").to_string(),
             unit => format!("{} ({unit})", text(column, "title")),
         };
-        html.push_str(&format!("<th scope=\"col\">{}</th>", escape(&heading)));
+        html.push_str(&format!("<th scope=\"col\">{}</th>", escape_symbols(&heading)));
     }
     html.push_str("</tr></thead><tbody>");
     let emphasised: Vec<u64> = list(table, "emphasised_rows")
@@ -621,7 +625,7 @@ fn render_table(table: &Value, index: usize) -> String {
             html.push_str("<tr>");
         }
         for (column, cell) in row.as_array().map(Vec::as_slice).unwrap_or(&[]).iter().enumerate() {
-            let shown = escape(text(cell, "shown"));
+            let shown = escape_symbols(text(cell, "shown"));
             // Numbers line up on the right; words wrap on the left.
             let words = columns.get(column).map(|c| text(c, "kind")) != Some("number");
             if column == 0 {
@@ -647,7 +651,7 @@ fn render_table(table: &Value, index: usize) -> String {
         heading = if title.is_empty() {
             String::new()
         } else {
-            format!("<h3 class=\"table-title\" aria-hidden=\"true\">{}</h3>", escape(title))
+            format!("<h3 class=\"table-title\" aria-hidden=\"true\">{}</h3>", escape_symbols(title))
         },
         table = html,
         aria = escape(&aria),
@@ -1082,13 +1086,13 @@ pub fn render_diagram(diagram: &Value, index: usize, width: f64, viewport_height
     let mut figure = String::from("<figure class=\"panel figure\">");
     let title = text(diagram, "title");
     if !title.is_empty() {
-        figure.push_str(&format!("<h2 class=\"panel-title\">{}</h2>", escape(title)));
+        figure.push_str(&format!("<h2 class=\"panel-title\">{}</h2>", escape_symbols(title)));
     }
     figure.push_str(&format!("<div class=\"figure-canvas\">{svg}</div>"));
     figure.push_str(&render_legend(&styles));
     let caption = text(diagram, "caption");
     if !caption.is_empty() {
-        figure.push_str(&format!("<figcaption>{}</figcaption>", escape(caption)));
+        figure.push_str(&format!("<figcaption>{}</figcaption>", escape_symbols(caption)));
     }
     figure.push_str("</figure>");
     figure
@@ -1131,7 +1135,7 @@ fn render_legend(styles: &[String]) -> String {
         };
         html.push_str(&format!(
             "<li><svg class=\"swatch\" viewBox=\"0 0 36 12\" width=\"36\" height=\"12\" aria-hidden=\"true\">{swatch}</svg><span>{}</span></li>",
-            escape(style_name(style))
+            escape_symbols(style_name(style))
         ));
     }
     html.push_str("</ul>");
@@ -1211,7 +1215,7 @@ pub fn render_plot(plot: &Value, width: f64) -> String {
     );
     let title = text(plot, "title");
     if !title.is_empty() {
-        figure.push_str(&format!("<h2 class=\"panel-title\">{}</h2>", escape(title)));
+        figure.push_str(&format!("<h2 class=\"panel-title\">{}</h2>", escape_symbols(title)));
     }
     if points.is_empty() {
         figure.push_str("<p>Nothing to plot for these inputs.</p></figure>");
@@ -1312,7 +1316,7 @@ pub fn render_plot(plot: &Value, width: f64) -> String {
         };
         legend.push_str(&format!(
             "<li><svg class=\"swatch\" viewBox=\"0 0 36 12\" width=\"36\" height=\"12\" aria-hidden=\"true\"><line class=\"{class}\" x1=\"1\" y1=\"6\" x2=\"35\" y2=\"6\"></line></svg><span>{}</span></li>",
-            escape(&name)
+            escape_symbols(&name)
         ));
     }
     let mut marker_list = String::new();
@@ -1336,7 +1340,7 @@ pub fn render_plot(plot: &Value, width: f64) -> String {
             "" => format!("Point {count}"),
             l => l.to_string(),
         };
-        marker_list.push_str(&format!("<li>{}</li>", escape(&label)));
+        marker_list.push_str(&format!("<li>{}</li>", escape_symbols(&label)));
     }
     svg.push_str("</svg>");
     figure.push_str(&format!("<div class=\"figure-canvas\">{svg}</div>"));

@@ -11,7 +11,7 @@
 // The table prints (when a case is pinned) and downloads as CSV with the same
 // header block as every table.
 
-import { el } from "./dom.js";
+import { el, symbolNodes } from "./dom.js";
 import { state, defaultUnit, isQuantity, systemLabel } from "./state.js";
 import { glue } from "./wasm.js";
 import { SYSTEM_KEY, caseParams, writeUrl } from "./url.js";
@@ -200,7 +200,7 @@ export function updateCompare() {
       el(
         "tr",
         { class: `compare-${row.kind}` },
-        el("th", { scope: "row", text: row.label }),
+        el("th", { scope: "row" }, ...symbolNodes(row.label)),
         ...row.cells.map((text, i) =>
           el(
             "td",

@@ -91,6 +91,52 @@ export function setText(node, text) {
   }
 }
 
+/**
+ * A symbol with a subscript in the core's text, `C_d`, `L_run`, `V_θ2`, `R_p0.2`:
+ * one or two letters not inside a longer word, `_`, then letters and digits (a point
+ * between digits), not followed by a letter, a digit or `_`. The page shows the part
+ * after `_` as a subscript; the text keeps its `_` (CSV, error messages, the link).
+ * `symbol_parts` in site/src/pages.rs reads the same for the served page.
+ */
+const SYMBOL = /(?<![\p{Alphabetic}\d_])(\p{Alphabetic}{1,2})_([\p{Alphabetic}\d]+(?:\.\d+)?)(?![\p{Alphabetic}\d_])/gu;
+
+/** The core's text as nodes for `el` or `append`: plain text, and `<sub>` for each symbol's subscript. */
+export function symbolNodes(text) {
+  const value = text ?? "";
+  if (!value.includes("_")) return [value];
+  const nodes = [];
+  let from = 0;
+  for (const match of value.matchAll(SYMBOL)) {
+    const underscore = match.index + match[1].length;
+    nodes.push(value.slice(from, underscore), el("sub", { text: match[2] }));
+    from = underscore + 1 + match[2].length;
+  }
+  nodes.push(value.slice(from));
+  return nodes.filter((node) => node !== "");
+}
+
+/**
+ * Writes the core's `text` into an element with its symbols' subscripts
+ * (`symbolNodes`), only when what it shows differs: text without a symbol as
+ * `setText` writes it.
+ */
+export function setSymbolText(node, text) {
+  const nodes = symbolNodes(text);
+  if (nodes.length === 1 && typeof nodes[0] === "string") {
+    setText(node, nodes[0]);
+    return;
+  }
+  const shown = node.childNodes;
+  const same =
+    shown.length === nodes.length &&
+    nodes.every((part, i) =>
+      typeof part === "string"
+        ? shown[i].nodeType === Node.TEXT_NODE && shown[i].data === part
+        : shown[i].nodeName === "SUB" && shown[i].textContent === part.textContent,
+    );
+  if (!same) node.replaceChildren(...nodes);
+}
+
 /** Shortens text for quoting (by code points, so no surrogate is split). */
 export function quote(text) {
   const chars = Array.from(String(text));

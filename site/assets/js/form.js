@@ -2,7 +2,7 @@
 // delegated listener per event type on the calculator section reads every control
 // (fields by `name`, unit selectors by `data-unit-for`, buttons by `data-action`).
 
-import { el, setChildren } from "./dom.js";
+import { el, setChildren, symbolNodes } from "./dom.js";
 import { clearPassingNotices, noticesBox } from "./notices.js";
 import { state, defaultUnit, isQuantity, isVisible, systemLabel } from "./state.js";
 import { glue } from "./wasm.js";
@@ -151,7 +151,7 @@ function buildField(field) {
   const id = controlId(field.key);
   const wrap = el("div", { class: "field", dataset: { field: field.key } });
   const describedBy = [];
-  const label = el("label", { for: id, class: "field-label", text: field.label });
+  const label = el("label", { for: id, class: "field-label" }, ...symbolNodes(field.label));
   if (field.optional) label.append(el("span", { class: "optional", text: " (optional)" }));
   wrap.append(label);
 
@@ -197,7 +197,7 @@ function buildField(field) {
   wrap.append(entry);
 
   if (field.help) {
-    const help = el("p", { class: "help", id: id + "-help", text: field.help });
+    const help = el("p", { class: "help", id: id + "-help" }, ...symbolNodes(field.help));
     describedBy.push(help.id);
     wrap.append(help);
   }

@@ -8,7 +8,16 @@
 // made afresh; the rest keeps its elements. Afterwards the elements are exactly
 // what `create` would make of the new plan.
 
-import { SVG_NS, attributesOf, setText } from "./dom.js";
+import { SVG_NS, attributesOf, setSymbolText, setText } from "./dom.js";
+
+/**
+ * Writes a plan's text: an HTML element's (a title, a caption, a legend's names)
+ * with its symbols' subscripts, an SVG element's as it is (no HTML inside SVG).
+ */
+function writeText(node, plan) {
+  if (plan.namespace) setText(node, plan.text);
+  else setSymbolText(node, plan.text);
+}
 
 /** An element described as data: built by `htmlPlan` / `svgPlan`, made by `create`. */
 class Plan {
@@ -56,7 +65,7 @@ export function svgPlan(tag, attrs, ...children) {
 export function create(plan) {
   const node = plan.namespace ? document.createElementNS(plan.namespace, plan.tag) : document.createElement(plan.tag);
   for (const name in plan.attrs) node.setAttribute(name, plan.attrs[name]);
-  if (plan.text !== undefined) node.textContent = plan.text;
+  if (plan.text !== undefined) writeText(node, plan);
   for (const child of plan.children) node.append(create(child));
   return node;
 }
@@ -78,11 +87,12 @@ export function patch(node, before, after) {
   for (const name in had) if (!(name in wants)) node.removeAttribute(name);
   if ((before.text === undefined) !== (after.text === undefined)) {
     // Text in place of children, or children in place of text: the contents anew.
-    node.textContent = after.text ?? "";
+    node.textContent = "";
+    if (after.text !== undefined) writeText(node, after);
     node.append(...after.children.map(create));
     return node;
   }
-  if (before.text !== after.text) setText(node, after.text);
+  if (before.text !== after.text) writeText(node, after);
   const kids = after.children;
   if (kids.length !== before.children.length) {
     node.replaceChildren(...kids.map(create));

@@ -26,7 +26,7 @@
 // tables and figures once the headline is painted, and the page is `ready` (body
 // `data-state`) when they are shown.
 
-import { clip, el, setText } from "./dom.js";
+import { clip, el, setSymbolText, setText, symbolNodes } from "./dom.js";
 import { state } from "./state.js";
 import { SYSTEM_KEY } from "./url.js";
 import { renderTable, updateTable } from "./render-table.js";
@@ -79,7 +79,7 @@ export function render(result) {
       const box = ui.fieldErrors.get(error.field);
       const wrap = ui.fieldWraps.get(error.field);
       if (box && wrap && !wrap.hidden) {
-        box.textContent = `${error.label || "This field"}: ${clip(error.message)}`;
+        box.replaceChildren(...symbolNodes(error.label || "This field"), `: ${clip(error.message)}`);
         box.hidden = false;
         marked.boxes.add(box);
         const control = ui.controls.get(error.field);
@@ -111,7 +111,7 @@ export function render(result) {
   for (const warning of warnings) {
     const box = warning.field ? ui.fieldWarnings.get(warning.field) : null;
     if (box) {
-      box.textContent = warning.message;
+      setSymbolText(box, warning.message);
       box.hidden = false;
       marked.boxes.add(box);
     }
@@ -238,7 +238,7 @@ function outputList(outputs, cls) {
       el(
         "div",
         { class: "output" },
-        el("dt", { text: output.label }),
+        el("dt", {}, ...symbolNodes(output.label)),
         el("dd", { dataset: { output: output.key }, title: output.text, text: output.shown }),
       ),
     );
@@ -289,7 +289,7 @@ function updateOutputList(list, outputs) {
   outputs.forEach((output, i) => {
     const dd = values[i];
     const label = dd.previousElementSibling;
-    if (label) setText(label, output.label);
+    if (label) setSymbolText(label, output.label);
     setText(dd, output.shown);
   });
   // The full texts follow once typing pauses: a newer keystroke's outputs replace these.
@@ -301,7 +301,7 @@ function updateOutputList(list, outputs) {
 function warningList(warnings) {
   if (warnings.length === 0) return null;
   const list = el("ul", { class: "warnings headline-warnings", "aria-label": "Warnings" });
-  for (const warning of warnings) list.append(el("li", { text: warning.message }));
+  for (const warning of warnings) list.append(el("li", {}, ...symbolNodes(warning.message)));
   return list;
 }
 
@@ -325,7 +325,7 @@ function updateHeadline(outputs, warnings) {
   const count = shown ? shown.children.length : 0;
   if (count > 0 && count === warnings.length) {
     // The same number of warnings (their figures follow the inputs): text rewritten in place.
-    warnings.forEach((warning, i) => setText(shown.children[i], warning.message));
+    warnings.forEach((warning, i) => setSymbolText(shown.children[i], warning.message));
   } else if (count !== warnings.length) {
     const list = warningList(warnings);
     if (shown) shown.remove();

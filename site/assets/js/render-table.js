@@ -7,7 +7,7 @@
 // changes (a line schedule of 500 rows repaints only its changed rows); a change
 // of columns rebuilds the table.
 
-import { el, setText } from "./dom.js";
+import { el, setSymbolText, symbolNodes } from "./dom.js";
 import { watchTable } from "./layout.js";
 
 /** A table panel; the CSV button names the table by its index in the result. */
@@ -15,11 +15,11 @@ export function renderTable(table, index) {
   const element = el("table", { class: "ledger", dataset: { table: table.key || "" } });
   // The title stands above the scrolling area, so a wide table scrolls under it
   // instead of cutting it off; the caption keeps it for screen readers.
-  if (table.title) element.append(el("caption", { class: "visually-hidden", text: table.title }));
+  if (table.title) element.append(el("caption", { class: "visually-hidden" }, ...symbolNodes(table.title)));
   const columns = table.columns || [];
   const head = el("tr");
   for (const column of columns) {
-    head.append(el("th", { scope: "col", text: column.unit ? `${column.title} (${column.unit})` : column.title }));
+    head.append(el("th", { scope: "col" }, ...symbolNodes(column.unit ? `${column.title} (${column.unit})` : column.title)));
   }
   element.append(el("thead", {}, head));
   const body = el("tbody");
@@ -37,7 +37,7 @@ export function renderTable(table, index) {
   const panel = el(
     "section",
     { class: "panel panel-table", dataset: { shape: columnsShape(table) } },
-    table.title ? el("h3", { class: "table-title", "aria-hidden": "true", text: table.title }) : null,
+    table.title ? el("h3", { class: "table-title", "aria-hidden": "true" }, ...symbolNodes(table.title)) : null,
     el("div", { class: "table-scroll", tabindex: "0" }, element),
     el("div", { class: "table-actions" }, download),
   );
@@ -54,8 +54,8 @@ function renderRow(row, columns, emphasised) {
     const words = columns[column]?.kind !== "number";
     tr.append(
       column === 0
-        ? el("th", { scope: "row", text: cell.shown })
-        : el("td", words ? { class: "text", text: cell.shown } : { text: cell.shown }),
+        ? el("th", { scope: "row" }, ...symbolNodes(cell.shown))
+        : el("td", words ? { class: "text" } : {}, ...symbolNodes(cell.shown)),
     );
   });
   return tr;
@@ -89,7 +89,7 @@ export function updateTable(panel, table) {
     }
     if (tr.classList.contains("emphasised") !== emphasised.has(r)) tr.classList.toggle("emphasised", emphasised.has(r));
     const cells = tr.cells;
-    for (let c = 0; c < row.length; c += 1) setText(cells[c], row[c]?.shown);
+    for (let c = 0; c < row.length; c += 1) setSymbolText(cells[c], row[c]?.shown);
   }
   while (body.rows.length > rows.length) body.lastElementChild.remove();
   if (rows.length > common) {

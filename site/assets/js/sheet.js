@@ -14,7 +14,7 @@
 //
 // It parses no numbers: values are shown as the user typed them.
 
-import { el, svg } from "./dom.js";
+import { el, svg, symbolNodes } from "./dom.js";
 import { state, isQuantity, isVisible } from "./state.js";
 import { glue } from "./wasm.js";
 
@@ -215,7 +215,7 @@ export function updateSheet() {
   };
   for (const field of given) {
     const { value: shown, unit } = typedValue(field);
-    const label = el("th", { scope: "row", text: field.label });
+    const label = el("th", { scope: "row" }, ...symbolNodes(field.label));
     if (field.kind === "text") {
       flush();
       inputRows.push(el("tr", {}, label, el("td", { class: "sheet-value sheet-text", colspan: 3, text: shown })));

@@ -22,6 +22,7 @@ use fluxledger_core::calculators::{self, CALCULATORS};
 use fluxledger_core::catalog::{demo_request, Solution};
 use fluxledger_core::units::QuantityKind;
 use fluxledger_core::Request;
+use fluxledger_site::pages::symbol_parts;
 use fluxledger_tests::{load_cases, parse_difference, parse_typed, reference_dir, Case, Target, Tolerance};
 
 use crate::cdp::{self, Browser, Launch, Page};
@@ -479,9 +480,30 @@ fn a_420_row_schedule_link_opens_on_a_first_visit() {
     assert!(problems.is_empty(), "\n{}", problems.join("\n"));
 }
 
+/// The markup the page script gives the core's `text` (its `innerHTML`): a symbol's
+/// subscript as `<sub>`, read by the site tool's [`symbol_parts`], a second reading
+/// of the same rule (`symbolNodes` in the page script's `dom.js`), and the text
+/// escaped as the browser serialises it.
+fn symbol_markup(text: &str) -> String {
+    let escape = |t: &str| {
+        t.replace('&', "&amp;")
+            .replace('<', "&lt;")
+            .replace('>', "&gt;")
+            .replace('\u{a0}', "&nbsp;")
+    };
+    symbol_parts(text)
+        .into_iter()
+        .map(|(plain, sub)| match sub {
+            Some(sub) => format!("{}<sub>{}</sub>", escape(plain), escape(sub)),
+            None => escape(plain),
+        })
+        .collect()
+}
+
 /// Every page's demo: each warning the core gives is shown in the headline, next to
-/// the numbers it qualifies; every table is shown under its title, and its
-/// emphasised rows (a failed check among them) stand out.
+/// the numbers it qualifies (its symbols' subscripts as subscripts); every table is
+/// shown under its title, and its emphasised rows (a failed check among them) stand
+/// out.
 #[test]
 fn warnings_sit_in_the_headline_and_tables_keep_titles_and_emphasis() {
     let _turn = one_at_a_time();
@@ -489,6 +511,7 @@ fn warnings_sit_in_the_headline_and_tables_keep_titles_and_emphasis() {
     let (mut browser, page) = launch(360);
     let mut problems = Vec::new();
     let mut warnings_seen = 0;
+    let mut subscripts_seen = 0;
     for calculator in CALCULATORS {
         let key = calculator.key;
         let solution = fluxledger_core::solve(key, &demo_request(&calculators::spec(key).expect("registered"), &[]))
@@ -500,24 +523,25 @@ fn warnings_sit_in_the_headline_and_tables_keep_titles_and_emphasis() {
         let shown: Vec<String> = serde_json::from_value(eval_json(
             &page,
             &mut browser,
-            "JSON.stringify([...document.querySelectorAll('.headline .headline-warnings li')].map(li => li.textContent))",
+            "JSON.stringify([...document.querySelectorAll('.headline .headline-warnings li')].map(li => li.innerHTML))",
         ))
         .unwrap_or_default();
-        let wanted: Vec<String> = solution.warnings.iter().map(|w| w.message.clone()).collect();
+        let wanted: Vec<String> = solution.warnings.iter().map(|w| symbol_markup(&w.message)).collect();
         warnings_seen += wanted.len();
+        subscripts_seen += wanted.iter().filter(|w| w.contains("<sub>")).count();
         if shown != wanted {
             problems.push(format!("{key}: headline warnings {shown:?}, the core gave {wanted:?}"));
         }
         let tables: Vec<(String, String, Vec<usize>)> = serde_json::from_value(eval_json(
             &page,
             &mut browser,
-            "JSON.stringify([...document.querySelectorAll('.panel-table')].map(p => [p.querySelector('table').dataset.table, p.querySelector('.table-title')?.textContent ?? '', [...p.querySelectorAll('tbody tr')].flatMap((r, i) => r.classList.contains('emphasised') ? [i] : [])]))",
+            "JSON.stringify([...document.querySelectorAll('.panel-table')].map(p => [p.querySelector('table').dataset.table, p.querySelector('.table-title')?.innerHTML ?? '', [...p.querySelectorAll('tbody tr')].flatMap((r, i) => r.classList.contains('emphasised') ? [i] : [])]))",
         ))
         .unwrap_or_default();
         let wanted: Vec<(String, String, Vec<usize>)> = solution
             .tables
             .iter()
-            .map(|t| (t.key.to_string(), t.title.clone(), t.emphasised_rows.clone()))
+            .map(|t| (t.key.to_string(), symbol_markup(&t.title), t.emphasised_rows.clone()))
             .collect();
         if tables != wanted {
             problems.push(format!("{key}: tables {tables:?}, the core gave {wanted:?}"));
@@ -525,6 +549,10 @@ fn warnings_sit_in_the_headline_and_tables_keep_titles_and_emphasis() {
     }
     assert!(problems.is_empty(), "\n{}", problems.join("\n"));
     assert!(warnings_seen > 0, "no demo gives a warning: this test would see none");
+    assert!(
+        subscripts_seen > 0,
+        "no demo warning has a symbol: this test would see no subscript"
+    );
 }
 
 // ---------------------------------------------------------------------------------

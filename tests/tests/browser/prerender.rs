@@ -30,8 +30,9 @@ const LIVE_VIEW: &str = "Promise.resolve(view(document))";
 /// Defines `view(doc)` in the page.
 const VIEW_FN: &str = r##"
 window.view = (doc) => ({
-  outputs: Array.from(doc.querySelectorAll("#calculator [data-output]")).map((d) => [d.dataset.output, d.textContent]),
-  warnings: Array.from(doc.querySelectorAll("#calculator .headline-warnings li")).map((li) => li.textContent),
+  // Labels, warnings and tables as markup: a symbol's subscript is a <sub> on both sides.
+  outputs: Array.from(doc.querySelectorAll("#calculator [data-output]")).map((d) => [d.dataset.output, d.previousElementSibling?.innerHTML, d.textContent]),
+  warnings: Array.from(doc.querySelectorAll("#calculator .headline-warnings li")).map((li) => li.innerHTML),
   // The fields shown, in order, and their values: the served page leaves out the
   // fields its demo hides; the script writes them hidden.
   fields: Array.from(doc.querySelectorAll("#calculator .field:not([hidden]) :is(input.quantity, textarea, select)")).map((c) => [c.id || c.getAttribute("aria-label"), c.value]),
@@ -45,12 +46,14 @@ window.view = (doc) => ({
     s.getAttribute("height"),
     (s.getAttribute("viewBox") || "").split(" ").map((n) => Number(Number(n).toPrecision(12))).join(" "),
   ]),
+  // The figures' titles, captions and legends, as markup (subscripts included).
+  figureTexts: Array.from(doc.querySelectorAll("#calculator figure :is(h2, figcaption, .legend span, .plot-markers li)")).map((e) => e.innerHTML),
   // A check's discrepancy at round-off (5.3e-14 % natively, 7.1e-14 % in the wasm:
   // the two builds' libm round differently) is the same "nothing" on both sides.
   tables: Array.from(doc.querySelectorAll("#calculator table.ledger")).map((t) => [
     t.dataset.table,
     t.rows.length,
-    t.textContent.replace(/(?<![0-9.])(?:0|[0-9.]+e-1[0-9]) %/g, "≈0 %"),
+    t.innerHTML.replace(/(?<![0-9.])(?:0|[0-9.]+e-1[0-9]) %/g, "≈0 %"),
   ]),
   carry: Array.from(doc.querySelectorAll("#calculator a.carry-link")).map((a) => a.getAttribute("href")),
 })"##;
