@@ -231,7 +231,7 @@ export function updateSheet() {
   ];
   // (replaceChildren would write a missing part as the text "null")
   if (notGiven.length > 0) {
-    parts.push(el("p", { class: "sheet-not-given", text: `Not given: ${notGiven.map((f) => f.label).join("; ")}.` }));
+    parts.push(el("p", { class: "sheet-not-given" }, ...symbolNodes(`Not given: ${notGiven.map((f) => f.label).join("; ")}.`)));
   }
   ui.sheetInputs.replaceChildren(...parts);
 
