@@ -123,7 +123,9 @@ export function symbolNodes(text) {
 export function setSymbolText(node, text) {
   const nodes = symbolNodes(text);
   if (nodes.length === 1 && typeof nodes[0] === "string") {
-    setText(node, nodes[0]);
+    // A subscript shown before goes even when the text reads the same without it.
+    if (node.firstElementChild) node.textContent = nodes[0];
+    else setText(node, nodes[0]);
     return;
   }
   const shown = node.childNodes;

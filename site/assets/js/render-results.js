@@ -88,13 +88,13 @@ export function render(result) {
           marked.controls.add(control);
         }
       } else {
-        general.push(error.label ? `${error.label}: ${error.message}` : error.message);
+        general.push(error.label ? [...symbolNodes(error.label), `: ${error.message}`] : [error.message]);
       }
     }
     ui.headline.classList.remove("has-warnings");
     ui.headline.replaceChildren(
       el("p", { class: "no-result", text: "No result yet: correct the marked inputs." }),
-      ...general.map((text) => el("p", { class: "general-error", text })),
+      ...general.map((parts) => el("p", { class: "general-error" }, ...parts)),
     );
     headlineParts = null;
     forgetParts();
