@@ -461,13 +461,20 @@ pub struct Table {
     pub rows: Vec<Vec<String>>,
     /// Rows (by index) that are totals or residuals and should stand out.
     pub emphasised_rows: Vec<usize>,
+    /// Columns (by index) of text as the user typed it (a fitting's tag): shown as
+    /// it is, never read for symbols or numbers ([`ColumnKind::Typed`]).
+    pub typed_columns: Vec<usize>,
 }
 
-/// Whether a table column holds words or values (numbers, with or without a unit).
+/// Whether a table column holds words, values (numbers, with or without a unit) or
+/// text as the user typed it.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum ColumnKind {
+    /// The core's words: a page shows a symbol's subscript (`C_d`) as one.
     Text,
     Number,
+    /// What the user typed (a tag): shown as it is, `TB_3` included.
+    Typed,
 }
 
 impl ColumnKind {
@@ -475,6 +482,7 @@ impl ColumnKind {
         match self {
             ColumnKind::Text => "text",
             ColumnKind::Number => "number",
+            ColumnKind::Typed => "typed",
         }
     }
 }
@@ -491,8 +499,9 @@ pub struct Column {
 impl Table {
     /// The columns as shown, read from the headers and the cells the calculators
     /// wrote: a column whose every filled cell begins with a number (and is not the
-    /// row-name column) is a [`ColumnKind::Number`] column; a header ending in a
-    /// unit id in parentheses names that unit. `—` and empty cells count as neither.
+    /// row-name column) is a [`ColumnKind::Number`] column, one the calculator marked
+    /// typed ([`Table::typed_columns`]) a [`ColumnKind::Typed`] one; a header ending in
+    /// a unit id in parentheses names that unit. `—` and empty cells count as neither.
     pub fn layout(&self) -> Vec<Column> {
         self.columns
             .iter()
@@ -518,7 +527,13 @@ impl Table {
                         let head = cell.split(' ').next().unwrap_or(cell);
                         units::split_shown(head).is_some()
                     });
-                let kind = if numeric { ColumnKind::Number } else { ColumnKind::Text };
+                let kind = if self.typed_columns.contains(&index) {
+                    ColumnKind::Typed
+                } else if numeric {
+                    ColumnKind::Number
+                } else {
+                    ColumnKind::Text
+                };
                 Column { title, unit, kind }
             })
             .collect()
@@ -919,6 +934,7 @@ fn checks_table(checks: &[Check], system: UnitSystem) -> Table {
         .collect(),
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for (i, c) in checks.iter().enumerate() {
         let scale = c.scale.max(c.value.abs()).max(c.reference.abs());

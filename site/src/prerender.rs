@@ -625,9 +625,15 @@ fn render_table(table: &Value, index: usize) -> String {
             html.push_str("<tr>");
         }
         for (column, cell) in row.as_array().map(Vec::as_slice).unwrap_or(&[]).iter().enumerate() {
-            let shown = escape_symbols(text(cell, "shown"));
+            let kind = columns.get(column).map(|c| text(c, "kind"));
+            // What the user typed (a tag) as it is; the core's words with subscripts.
+            let shown = if kind == Some("typed") {
+                escape(text(cell, "shown"))
+            } else {
+                escape_symbols(text(cell, "shown"))
+            };
             // Numbers line up on the right; words wrap on the left.
-            let words = columns.get(column).map(|c| text(c, "kind")) != Some("number");
+            let words = kind != Some("number");
             if column == 0 {
                 html.push_str(&format!("<th scope=\"row\">{shown}</th>"));
             } else if words {

@@ -1061,6 +1061,7 @@ mod tests {
                 columns: vec!["Term".into(), "x".into()],
                 rows: vec![vec!["Total".into(), "1 kN".into()]],
                 emphasised_rows: vec![0],
+                typed_columns: Vec::new(),
             }],
             diagrams: vec![Diagram {
                 title: "Plan".into(),
@@ -1401,12 +1402,32 @@ mod tests {
         let table = Table {
             key: "t",
             title: "T".into(),
-            columns: vec!["Term".into(), "area (mm2)".into(), "note".into(), "flow".into()],
+            columns: vec![
+                "Term".into(),
+                "area (mm2)".into(),
+                "note".into(),
+                "flow".into(),
+                "tag".into(),
+            ],
             rows: vec![
-                vec!["inlet".into(), "12.5".into(), "pressure side".into(), "3.2 m3/h".into()],
-                vec!["outlet".into(), "—".into(), "12 too".into(), "45 deg".into()],
+                vec![
+                    "inlet".into(),
+                    "12.5".into(),
+                    "pressure side".into(),
+                    "3.2 m3/h".into(),
+                    "TB_1".into(),
+                ],
+                vec![
+                    "outlet".into(),
+                    "—".into(),
+                    "12 too".into(),
+                    "45 deg".into(),
+                    "12".into(),
+                ],
             ],
             emphasised_rows: Vec::new(),
+            // A column of what the user typed is typed even where it reads as a number.
+            typed_columns: vec![4],
         };
         let view = to_json(&table_view(&table));
         assert_eq!(
@@ -1416,6 +1437,7 @@ mod tests {
                 {"title": "area", "unit": "mm²", "kind": "number"},
                 {"title": "note", "unit": "", "kind": "text"},
                 {"title": "flow", "unit": "", "kind": "number"},
+                {"title": "tag", "unit": "", "kind": "typed"},
             ])
         );
         assert_eq!(

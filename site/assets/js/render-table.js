@@ -7,7 +7,7 @@
 // changes (a line schedule of 500 rows repaints only its changed rows); a change
 // of columns rebuilds the table.
 
-import { el, setSymbolText, symbolNodes } from "./dom.js";
+import { el, setSymbolText, setText, symbolNodes } from "./dom.js";
 import { watchTable } from "./layout.js";
 
 /** A table panel; the CSV button names the table by its index in the result. */
@@ -51,11 +51,13 @@ function renderRow(row, columns, emphasised) {
   row.forEach((cell, column) => {
     // Numbers line up on the right and never wrap; words (a basis table's
     // explanations) wrap on the left so a phone shows them whole.
-    const words = columns[column]?.kind !== "number";
+    const kind = columns[column]?.kind;
+    const words = kind !== "number";
+    // What the user typed (a tag) is shown as it is; the core's own words with
+    // their symbols' subscripts.
+    const shown = kind === "typed" ? [cell.shown] : symbolNodes(cell.shown);
     tr.append(
-      column === 0
-        ? el("th", { scope: "row" }, ...symbolNodes(cell.shown))
-        : el("td", words ? { class: "text" } : {}, ...symbolNodes(cell.shown)),
+      column === 0 ? el("th", { scope: "row" }, ...shown) : el("td", words ? { class: "text" } : {}, ...shown),
     );
   });
   return tr;
@@ -89,7 +91,10 @@ export function updateTable(panel, table) {
     }
     if (tr.classList.contains("emphasised") !== emphasised.has(r)) tr.classList.toggle("emphasised", emphasised.has(r));
     const cells = tr.cells;
-    for (let c = 0; c < row.length; c += 1) setSymbolText(cells[c], row[c]?.shown);
+    for (let c = 0; c < row.length; c += 1) {
+      if (columns[c]?.kind === "typed") setText(cells[c], row[c]?.shown);
+      else setSymbolText(cells[c], row[c]?.shown);
+    }
   }
   while (body.rows.length > rows.length) body.lastElementChild.remove();
   if (rows.length > common) {

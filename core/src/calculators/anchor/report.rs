@@ -362,5 +362,6 @@ fn ledger_table(solved: &Solved, system: UnitSystem) -> Table {
         ],
         rows: table_rows,
         emphasised_rows: vec![total_index],
+        typed_columns: Vec::new(),
     }
 }

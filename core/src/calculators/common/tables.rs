@@ -81,6 +81,7 @@ pub fn ledger_table(balance: &Balance, system: UnitSystem) -> Table {
         ],
         rows: Vec::new(),
         emphasised_rows: vec![total_index, total_index + 1],
+        typed_columns: Vec::new(),
     };
     // A component of a term that is rounding residue of sines and cosines (1e-12 of
     // the largest term) is shown as the 0 it is.
@@ -137,6 +138,7 @@ pub fn ports_table(balance: &Balance, system: UnitSystem) -> Table {
         ],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for (index, p) in balance.ports.iter().enumerate() {
         let role = if p.role == Role::Inlet { "in" } else { "out" };
@@ -177,5 +179,6 @@ pub fn basis_table(rows: Vec<(&str, String)>) -> Table {
         columns: vec!["Item".to_string(), "Used".to_string()],
         rows: rows.into_iter().map(|(k, v)| vec![k.to_string(), v]).collect(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     }
 }

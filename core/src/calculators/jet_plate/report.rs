@@ -109,6 +109,7 @@ fn split_table(jet: &Jet, theta: f64, q_forward: f64, q_back: f64, system: units
             ],
         ],
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     }
 }
 

@@ -107,6 +107,8 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
             ],
             rows: Vec::with_capacity(solved.len() + 1),
             emphasised_rows: Vec::new(),
+            // The tag is the user's own text.
+            typed_columns: vec![1],
         };
         for s in solved {
             let kind = s.row.kind.key();

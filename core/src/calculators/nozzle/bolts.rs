@@ -564,6 +564,7 @@ fn table(
         columns: vec!["Quantity".to_string(), "value".to_string(), "basis".to_string()],
         rows,
         emphasised_rows: vec![6],
+        typed_columns: Vec::new(),
     }
 }
 

@@ -83,6 +83,7 @@ pub fn write(s: &Solved, report: &mut Report<'_>) {
         ],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for (r, u, note) in &s.samples {
         table.rows.push(vec![

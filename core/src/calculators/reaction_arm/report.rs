@@ -241,6 +241,7 @@ fn torque_ledger(state: &State, system: UnitSystem) -> Table {
             })
             .collect(),
         emphasised_rows: vec![total, total + 1],
+        typed_columns: Vec::new(),
     }
 }
 

@@ -226,6 +226,7 @@ fn ledger(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         columns: vec!["Term".into(), "Ductile-iron method".into(), "PVC wall ratios".into()],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for (label, cell) in &rows {
         table
@@ -255,6 +256,7 @@ fn comparison(report: &mut Report<'_>, inputs: &Inputs, solved: &Solved) {
         columns: vec!["Method".into(), format!("{what} ({unit})"), "Source".into()],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for m in [&solved.ductile_iron, &solved.pvc] {
         if m.method == solved.headline {

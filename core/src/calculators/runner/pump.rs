@@ -555,6 +555,7 @@ fn table(solved: &PumpSolved, temperature: Option<f64>, report: &Report<'_>) -> 
         } else {
             Vec::new()
         },
+        typed_columns: Vec::new(),
     }
 }
 

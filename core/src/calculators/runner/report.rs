@@ -239,6 +239,7 @@ fn triangle_table(t1: &Triangle, t2: &Triangle, system: UnitSystem) -> Table {
             ),
         ],
         emphasised_rows: vec![3],
+        typed_columns: Vec::new(),
     }
 }
 
@@ -291,6 +292,7 @@ fn ledger(balance: &Balance, water_torque: f64, euler_head: f64, system: UnitSys
             })
             .collect(),
         emphasised_rows: vec![total + 1, total + 2],
+        typed_columns: Vec::new(),
     }
 }
 

@@ -107,6 +107,7 @@ fn mass_ledger(s: &Solved, report: &mut Report<'_>) {
         ],
         rows,
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     });
 }
 

@@ -335,6 +335,7 @@ fn branch_table(inputs: &Inputs, solved: &Solved, report: &Report<'_>) -> Table 
         .collect(),
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for (n, (b, &i)) in branches.iter().zip(port_of).enumerate() {
         let state = &balance.ports[i];

@@ -275,6 +275,7 @@ fn pressure_table(report: &mut Report<'_>, pr: &Pressures) {
         ],
         rows: vec![vec!["Operating (working)".into(), cell(pr.work), "typed".into()]],
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     if let Some((m, from)) = &pr.mdp {
         let how = match from {
@@ -367,6 +368,7 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
         ],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for class in SOILS {
         for row in class.rows {
@@ -410,6 +412,7 @@ fn soil_comparison(report: &mut Report<'_>, load: f64, sf: f64, used: &str) {
         columns: vec!["Table".into(), "Source".into(), "Convention".into()],
         rows: Vec::new(),
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     };
     for t in SoilTable::ALL {
         sources.rows.push(vec![

@@ -274,6 +274,7 @@ fn velocity_table(state: &VaneState, system: UnitSystem) -> Table {
             row("leaving: absolute V₂", state.v_out),
         ],
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     }
 }
 
@@ -304,6 +305,7 @@ fn energy_table(state: &VaneState, mode: VaneKind, jet: &Jet, rho: f64, system: 
         columns: vec!["Term".to_string(), format!("power ({unit})")],
         rows,
         emphasised_rows: vec![1],
+        typed_columns: Vec::new(),
     }
 }
 
@@ -351,6 +353,7 @@ fn optimum_table(jet: &Jet, vane: &Vane, rho: f64, single: &VaneState, wheel: &V
             ],
         ],
         emphasised_rows: Vec::new(),
+        typed_columns: Vec::new(),
     }
 }
 
