@@ -1113,7 +1113,6 @@ pub fn validate(spec: &CalculatorSpec, request: &Request) -> (Vec<FieldEcho>, Re
     (echoes, result)
 }
 
-/// `"0.001000 mm"` → `"0.001 mm"`: a bound in a message reads as typed.
 /// A field's limits as a message states them, in `unit` ([`units::format_limit`]).
 fn bounds_in(limits: Limits, kind: QuantityKind, unit: &str) -> Bounds {
     Bounds {

@@ -64,7 +64,7 @@ img-src 'self' data:; connect-src 'self'; object-src 'none'; base-uri 'none'; fo
 /// digits (a point between digits), not followed by a letter, a digit or `_`. Returns
 /// the plain runs and the subscripts in order: `(plain, Some(subscript))` for a
 /// symbol (its letters end the plain run), `(plain, None)` for the text after the
-/// last one. The page script reads the same (`symbolParts` in `assets/js/dom.js`);
+/// last one. The page script reads the same (`symbolNodes` in `assets/js/dom.js`);
 /// the text itself keeps its `_` (CSV, error messages, the printed link).
 pub fn symbol_parts(text: &str) -> Vec<(&str, Option<&str>)> {
     let word = |c: char| c.is_alphabetic() || c.is_ascii_digit() || c == '_';

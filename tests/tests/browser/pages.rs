@@ -22,7 +22,7 @@ use fluxledger_core::calculators::{self, CALCULATORS};
 use fluxledger_core::catalog::{demo_request, Solution};
 use fluxledger_core::units::QuantityKind;
 use fluxledger_core::Request;
-use fluxledger_site::pages::symbol_parts;
+use fluxledger_site::pages::escape_symbols;
 use fluxledger_tests::{load_cases, parse_difference, parse_typed, reference_dir, Case, Target, Tolerance};
 
 use crate::cdp::{self, Browser, Launch, Page};
@@ -482,24 +482,15 @@ fn a_420_row_schedule_link_opens_on_a_first_visit() {
     assert!(problems.is_empty(), "\n{}", problems.join("\n"));
 }
 
-/// The markup the page script gives the core's `text` (its `innerHTML`): a symbol's
-/// subscript as `<sub>`, read by the site tool's [`symbol_parts`], a second reading
-/// of the same rule (`symbolNodes` in the page script's `dom.js`), and the text
-/// escaped as the browser serialises it.
+/// The markup the page script gives the core's `text` (its `innerHTML`): the site
+/// tool's [`escape_symbols`], a second reading of the same rule (`symbolNodes` in
+/// the page script's `dom.js`), with quotes and no-break spaces as the browser
+/// serialises element text (quotes as they are, U+00A0 as `&nbsp;`).
 fn symbol_markup(text: &str) -> String {
-    let escape = |t: &str| {
-        t.replace('&', "&amp;")
-            .replace('<', "&lt;")
-            .replace('>', "&gt;")
-            .replace('\u{a0}', "&nbsp;")
-    };
-    symbol_parts(text)
-        .into_iter()
-        .map(|(plain, sub)| match sub {
-            Some(sub) => format!("{}<sub>{}</sub>", escape(plain), escape(sub)),
-            None => escape(plain),
-        })
-        .collect()
+    escape_symbols(text)
+        .replace("&quot;", "\"")
+        .replace("&#39;", "'")
+        .replace('\u{a0}', "&nbsp;")
 }
 
 /// Every page's demo: each warning the core gives is shown in the headline, next to
