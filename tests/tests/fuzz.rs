@@ -282,9 +282,9 @@ fuzz_tests! {
 
 /// Every request fuzzing once found broken (`tests/data/fuzz-found.json`) is solved
 /// with nothing broken: each stays fixed whichever requests a run's time budget
-/// reaches. (Ten checks that disagreed by rounding alone, found by release-profile
-/// runs: their tolerances were relative to the result rather than to the terms
-/// that cancel to it.)
+/// reaches. (Most were checks that disagreed by rounding alone, found by
+/// release-profile runs: their tolerances were relative to the result rather than
+/// to the terms that cancel to it.)
 #[test]
 fn requests_fuzzing_found_broken_stay_fixed() {
     let path = concat!(env!("CARGO_MANIFEST_DIR"), "/data/fuzz-found.json");

@@ -457,6 +457,40 @@ mod tests {
     }
 
     #[test]
+    fn a_jet_as_fast_as_the_blades_pushes_nothing_and_its_checks_agree() {
+        // W₁ = V − u = 0: no force (the closed form's zero). The balance's momentum
+        // fluxes cancel to their rounding instead, which its check must take for
+        // agreement (a fuzz-found request: water near boiling at 500 m/s typed in
+        // ft/s, six jets on a wheel; the angles and diameters around it).
+        let speed = "1640.4199475065616 ft/s";
+        for (angle, d_jet) in [
+            ("164.74343239543643 deg", "123.91678039510373 mm"),
+            ("90 deg", "50 mm"),
+            ("180 deg", "10 mm"),
+            ("45 deg", "2 in"),
+        ] {
+            let s = solved(&[
+                ("vane", "wheel"),
+                ("jets", "6"),
+                ("fluid", "water"),
+                ("t", "211.81999999999994 degF"),
+                ("angle", angle),
+                ("d_jet", d_jet),
+                ("flow_given", "v"),
+                ("v", speed),
+                ("u", speed),
+            ]);
+            let momentum_flux = out(&s, "mass_flow_turned") * 500.0;
+            assert!(
+                out(&s, "force_x").abs() <= 1e-12 * momentum_flux,
+                "{angle}: {}",
+                out(&s, "force_x")
+            );
+            assert!(s.checks.iter().all(|c| c.agrees()), "{angle}: {:?}", s.checks);
+        }
+    }
+
+    #[test]
     fn searched_optima_are_at_a_third_and_a_half_of_the_jet_speed() {
         // Derived from the definition: d/du[(V − u)²u] = 0 at u = V/3; d/du[(V − u)u] = 0 at V/2.
         let s = solved(&with(&[
