@@ -657,6 +657,33 @@ mod tests {
     }
 
     #[test]
+    fn a_reducer_with_ends_nearly_alike_agrees_with_its_closed_form() {
+        // Derived from the definition: T = p(A₁ − A₂). Ends 0.1 nm apart leave 7e-10 of
+        // p·A₁: the engine's two end forces cancel to it with their rounding, which
+        // the check must not report as a disagreement.
+        let s = solved(&[
+            ("fitting", "reducer"),
+            ("size", "custom"),
+            ("d", "300 mm"),
+            ("od", "320 mm"),
+            ("size2", "custom"),
+            ("d2", "299.9999999 mm"),
+            ("od2", "319.9999999 mm"),
+            ("joint", "flanged"),
+            ("p_basis", "operating"),
+            ("p", "10 bar"),
+        ]);
+        let (d1, d2) = (0.3_f64, 0.2999999999_f64);
+        let expected = 1e6 * std::f64::consts::PI / 4.0 * (d1 * d1 - d2 * d2);
+        assert_relative_eq!(
+            s.output("thrust").map(|o| o.si).unwrap_or(0.0),
+            expected,
+            max_relative = 1e-5
+        );
+        assert!(s.checks.iter().all(|c| c.agrees()), "{:?}", s.checks);
+    }
+
+    #[test]
     fn crest_needs_a_gravity_block_and_sag_bears_down() {
         let crest = solved(&[
             ("plane", "vertical_crest"),
