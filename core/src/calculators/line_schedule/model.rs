@@ -345,6 +345,11 @@ pub struct SolvedRow {
     pub od2: Option<f64>,
     /// The row's thrust by its closed form, computed without the engine.
     pub closed_form: f64,
+    /// The forces the engine sums to the row's thrust, N: the pressure on both ends
+    /// (p·A₁ + p·A₂; they cancel to a reducer's thrust), or a force row's typed force.
+    /// The scale of the check of the thrusts' sum, so their rounding is not taken
+    /// for a disagreement.
+    pub end_forces: f64,
     /// The computed surge of the row's pipe, when chosen.
     pub surge: Option<RowSurge>,
     /// The static head from the test point to the row, ρ·g·(z_test − z), Pa (0 without z=).
@@ -447,10 +452,12 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
     let mut od_main = 0.3;
     let mut od_second = None;
     let closed_form;
+    let end_forces;
     let thrust = match row.kind {
         RowKind::Force => {
             let t = row.thrust.unwrap_or(0.0);
             closed_form = t;
+            end_forces = t.abs();
             // As the thrust-restraint page draws a given thrust with no typed angle.
             plane.given_thrust(t, plane.default_elevation())
         }
@@ -483,6 +490,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
                 symmetric: row.symmetric,
             };
             closed_form = restraint::closed_form_thrust(&fit, p).0;
+            end_forces = p.abs() * (a1 + a2);
             let balance = restraint::static_balance(&fit, p, fluid).map_err(|e| err(e.to_string()))?;
             let mut t = balance.thrust();
             if row.turn == Turn::Right {
@@ -556,6 +564,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
         od: od_main,
         od2: od_second,
         closed_form,
+        end_forces,
         surge,
         head,
         hydrostatic_terms,

@@ -70,7 +70,7 @@ pub fn write(inputs: &Inputs, solved: &[SolvedRow], report: &mut Report<'_>) {
         total,
         solved.iter().map(|s| s.closed_form).sum(),
         1e-9,
-        0.0,
+        solved.iter().map(|s| s.end_forces).sum(),
     );
 
     let f_unit = units::display_unit(max.max(1.0), Q::Force, system).id;
