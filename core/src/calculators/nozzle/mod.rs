@@ -43,7 +43,9 @@
 //! p₁A₁ − ρQ(V_j − β₁V₁) with p₁ = ρ(V_j²/C_v² − α₁V₁²)/2 worked in plain arithmetic
 //! (independent of the engine's balance); the jet reaction ṁV_j against the energy
 //! form 2·C_v²·A_j·(p₁ + α₁ρV₁²/2) with the engine's p₁; and, with the pressure given,
-//! the engine's p₁ against it.
+//! the engine's p₁ against it. The first and last are relative to the terms that
+//! cancel to them (ρQ(V_j + β₁V₁) and p₁A₁; the velocity heads), not to the result: a
+//! nozzle nearly as wide as the bore leaves their rounding.
 //!
 //! Sources: the integral momentum and energy balances and nozzle coefficients as in
 //! White, *Fluid Mechanics* (chapters 3 and 6), Munson et al., *Fundamentals of Fluid
@@ -313,6 +315,27 @@ mod tests {
     use approx::assert_relative_eq;
 
     crate::calculators::testing::page_helpers!(super::KEY);
+
+    #[test]
+    fn a_nozzle_nearly_as_wide_as_the_bore_pulls_nothing_and_its_checks_agree() {
+        // V_j = V₁ and p₁ = 0 in the limit: the end force p₁A₁ − ρQ(V_j − V₁) is the
+        // rounding of terms of order ρQV, which the check must not report as a
+        // disagreement (a bore 0.1 nm wider than the nozzle).
+        for (flow_given, key, value) in [("q", "q", "0.02 m3/s"), ("q", "q", "0.5 m3/s"), ("p", "p", "1 bar")] {
+            let s = solved(&[
+                ("flow_given", flow_given),
+                (key, value),
+                ("d", "100 mm"),
+                ("d_nozzle", "99.9999999 mm"),
+                ("cd", "1"),
+            ]);
+            let flow = s.output("flow").map(|o| o.si).unwrap_or(f64::NAN);
+            let v = flow / (std::f64::consts::PI / 4.0 * 0.1 * 0.1);
+            let end_force = s.output("end_force_bore").map(|o| o.si).unwrap_or(f64::NAN);
+            assert!(end_force.abs() <= 1e-6 * 1000.0 * flow * v, "{value}: {end_force}");
+            assert!(s.checks.iter().all(|c| c.agrees()), "{value}: {:?}", s.checks);
+        }
+    }
 
     #[test]
     fn keys_are_the_glossary_s_and_old_links_land_on_fields() {

@@ -57,6 +57,9 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
     let (beta1, alpha1) = (inputs.profile_in.beta.value, inputs.profile_in.alpha.value);
     let (v_jet_closed, v_pipe_closed) = (flow / nozzle.a_jet, flow / nozzle.a_pipe);
     let p_closed = 0.5 * rho * (v_jet_closed * v_jet_closed / (cv * cv) - alpha1 * v_pipe_closed * v_pipe_closed);
+    // Scaled by the terms that cancel to the end force (and in p₁, to the pressure):
+    // a nozzle nearly as wide as the bore leaves their rounding, not a zero.
+    let momentum_terms = rho * flow.abs() * (v_jet_closed.abs() + beta1.abs() * v_pipe_closed.abs());
     report.check(
         "End force on the bore",
         "the closed form p₁A₁ − ρQ(V_j − β₁V₁) with p₁ = ρ(V_j²/C_v² − α₁V₁²)/2, in plain arithmetic",
@@ -64,7 +67,7 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
         nozzle.end_force,
         p_closed * nozzle.a_pipe - rho * flow * (v_jet_closed - beta1 * v_pipe_closed),
         1e-9,
-        p_closed * nozzle.a_pipe,
+        p_closed.abs() * nozzle.a_pipe + momentum_terms,
     );
     report.check(
         "Jet reaction ṁV_j",
@@ -84,7 +87,9 @@ pub fn write(inputs: &Inputs, nozzle: &Nozzle, report: &mut Report<'_>) {
             inlet.pressure,
             p.value,
             1e-9,
-            0.0,
+            // The velocity heads that cancel to p₁ (they dwarf it when the nozzle is
+            // nearly as wide as the bore).
+            0.5 * rho * (v_jet_closed * v_jet_closed / (cv * cv) + alpha1.abs() * v_pipe_closed * v_pipe_closed),
         );
     }
     common::forward_warnings(balance, report);
