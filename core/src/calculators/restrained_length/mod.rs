@@ -433,6 +433,36 @@ mod tests {
     }
 
     #[test]
+    fn a_reducer_with_ends_nearly_alike_has_agreeing_checks() {
+        // The engine's thrust p(A₁ − A₂) is its two end forces cancelling: ends apart
+        // by 1e-9 of their diameter leave their rounding, which the checks of the
+        // mobilised resistance must not report as a disagreement (typed ends, and a
+        // fuzz-found pair of diameters typed over presets).
+        let cases: [&[(&str, &str)]; 2] = [
+            &[
+                ("size", "custom"),
+                ("d", "280 mm"),
+                ("od", "300 mm"),
+                ("size2", "custom"),
+                ("d2", "279.9999997 mm"),
+                ("od2", "299.9999997 mm"),
+            ],
+            &[
+                ("size", "iso4427sdr17_225"),
+                ("od", "3075.2797641812963 mm"),
+                ("size2", "sch80_6"),
+                ("od2", "3075.2797641782213 mm"),
+            ],
+        ];
+        for ends in cases {
+            let mut pairs = vec![("fitting", "reducer"), ("material", "ductile_iron")];
+            pairs.extend_from_slice(ends);
+            let s = solved(&pairs);
+            assert!(s.checks.iter().all(|c| c.agrees()), "{ends:?}: {:?}", s.checks);
+        }
+    }
+
+    #[test]
     fn demo_matches_the_method_note_worked_example() {
         // site/notes/restrained-length.md works the demo by hand: T ≈ 72.27 kN,
         // L ≈ 3.91 m (ductile iron) and 4.26 m (PVC, the longer, headlined).
