@@ -1,6 +1,7 @@
 //! Requests generated from a calculator's own description, for the property and
 //! fuzz tests: values inside, at and just beyond every field's limits, every option,
-//! and valid free text (a line schedule, a traverse) as well as junk.
+//! valid free text (a line schedule, a traverse) as well as junk, and quantities of
+//! one kind typed nearly alike.
 //!
 //! Everything is drawn from a small seeded generator ([`Rng`], SplitMix64), so a
 //! failing request can be replayed from its seed and printed whole.
@@ -395,7 +396,70 @@ pub fn request(spec: &CalculatorSpec, system: UnitSystem, reach: Reach, rng: &mu
         };
         request.inputs.insert(field.key.to_string(), text);
     }
+    if rng.chance(NEARLY_ALIKE_SHARE) {
+        type_nearly_alike(spec, &mut request, rng);
+    }
     request
+}
+
+/// The share of requests with two quantities of one kind typed nearly alike.
+const NEARLY_ALIKE_SHARE: f64 = 0.25;
+
+/// Types two quantities of one kind nearly alike: the degenerate cases where terms
+/// of a balance cancel to almost nothing (a reducer's ends, a nozzle as wide as its
+/// bore, blades as fast as the jet). The first keeps the value drawn for it (or
+/// gets one, when it was left empty); the second is typed equal to it or apart by a
+/// relative 1e-12 to 1e-4 either way, unless that is outside its limits.
+fn type_nearly_alike(spec: &CalculatorSpec, request: &mut Request, rng: &mut Rng) {
+    let quantities: Vec<(&FieldSpec, QuantityKind, Limits)> = spec
+        .fields
+        .iter()
+        .filter_map(|f| match (&f.kind, f.limits) {
+            (FieldKind::Quantity(kind), Some(limits)) => Some((f, *kind, limits)),
+            _ => None,
+        })
+        .collect();
+    if quantities.len() < 2 {
+        return;
+    }
+    let (first, kind, first_limits) = quantities[rng.below(quantities.len())];
+    let partners: Vec<_> = quantities
+        .iter()
+        .filter(|(field, k, _)| *k == kind && field.key != first.key)
+        .collect();
+    if partners.is_empty() {
+        return;
+    }
+    let (second, _, limits) = **rng.pick(&partners);
+    let drawn = request
+        .inputs
+        .get(first.key)
+        .and_then(|text| units::parse_quantity(text, kind, first.si_unit).ok());
+    let value = match drawn {
+        Some(value) => value,
+        None => {
+            let value = value_within(first_limits, kind, rng);
+            let Some(text) = typed(value, kind, first.si_unit) else {
+                return;
+            };
+            request.inputs.insert(first.key.to_string(), text);
+            value
+        }
+    };
+    let apart = *rng.pick(&[0.0, 1e-12, 1e-9, 1e-7, 1e-4]);
+    let sign = if rng.chance(0.5) { 1.0 } else { -1.0 };
+    let near = value * (1.0 + sign * apart);
+    if !limits.contains(near) {
+        return;
+    }
+    let unit = if rng.chance(0.5) {
+        second.si_unit
+    } else {
+        second.us_unit
+    };
+    if let Some(text) = typed(near, kind, unit) {
+        request.inputs.insert(second.key.to_string(), text);
+    }
 }
 
 /// The same generated case typed twice: every quantity in the SI request in its

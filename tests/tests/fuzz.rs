@@ -3,8 +3,11 @@
 //! Requests are generated from each calculator's own description
 //! (`fluxledger_tests::generate`): values inside, at and just beyond every field's
 //! limits, in either unit system's units, every option, and valid free text (a
-//! generated line schedule or traverse) as well as junk. For every request the core
-//! accepts, nothing shown may be broken:
+//! generated line schedule or traverse) as well as junk; in a quarter of them two
+//! quantities of one kind are typed nearly alike (equal or 1e-12 to 1e-4 apart: a
+//! reducer's ends, blades as fast as the jet), where a balance's terms cancel and
+//! a check scaled by its result alone reads rounding as a disagreement. For every
+//! request the core accepts, nothing shown may be broken:
 //!
 //! - no output, diagram coordinate or plot point is NaN or ±∞;
 //! - no output text, table cell or warning shows "—", "NaN" or "inf";
