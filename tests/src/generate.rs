@@ -162,7 +162,12 @@ pub fn schedule_rows(rng: &mut Rng) -> String {
                 if kind == "bend" {
                     tokens.push(format!("{:.4}deg", rng.range(1.0, 180.0)));
                 }
-                if kind == "tee" || kind == "reducer" {
+                if kind == "reducer" && rng.chance(0.2) {
+                    // Ends nearly alike, typed: the end forces cancel to almost nothing.
+                    let apart = 1.0 - *rng.pick(&[1e-12, 1e-9, 1e-7, 1e-4]);
+                    tokens.push(format!("d2={:?}mm", main.id * 1000.0 * apart));
+                    tokens.push(format!("od2={:?}mm", main.od * 1000.0 * apart));
+                } else if kind == "tee" || kind == "reducer" {
                     tokens.push(format!("size2={}", second.key));
                 }
             }
