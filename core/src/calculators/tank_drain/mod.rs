@@ -91,8 +91,9 @@
 //! final level reached, the time by tanh-sinh quadrature of dt = A(h)·dh/(Q_in −
 //! Q_out(h)) over the level (a different variable and method than the run's; to
 //! 1e-6, widened by the share ε·V/ΔV of the time that the volume's rounding leaves
-//! unresolved when the final level is nearly the start's); when the run settles, the level where it settled against the steady level found
-//! by a bracketed search. The published closed forms the sourced cases use: the horizontal
+//! unresolved when the final level is nearly the start's); when the run settles,
+//! the level where it settled against the steady level found by a bracketed search.
+//! The published closed forms the sourced cases use: the horizontal
 //! cylinder, t = 4L/(3C_d·a·√(2g))·((D − h₂)^{3/2} − (D − h₁)^{3/2}); the sphere,
 //! t = π/(C_d·a·√(2g))·(⅔D(h₁^{3/2} − h₂^{3/2}) − ⅖(h₁^{5/2} − h₂^{5/2})); the cone,
 //! t = πR²/(H_c²·C_d·a·√(2g))·⅖(h₁^{5/2} − h₂^{5/2}) (each ∫A(h)dh/(C_d·a·√(2gh))).
