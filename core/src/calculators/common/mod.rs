@@ -45,11 +45,31 @@ pub fn forward_warnings(balance: &Balance, report: &mut Report<'_>) {
     }
 }
 
+/// Speed of sound in water near room temperature, m/s: about 1480 (a fact of the
+/// trade, from memory; 1482 m/s at 20 °C in the usual tables).
+const WATER_SPEED_OF_SOUND: f64 = 1480.0;
+
 /// Warns when a pipe velocity is outside the usual design range for water lines.
 /// Common practice, no single source: about 0.5–3 m/s in mains, up to about 5 m/s in
 /// plant and fire-water piping; faster lines see erosion, noise and larger surges.
+/// Beyond [`fields::MAX_JET_SPEED`], a third of water's speed of sound
+/// ([`WATER_SPEED_OF_SOUND`]), the liquid's compressibility is no longer small and
+/// the incompressible balances of these pages do not hold: that is said instead (a
+/// nozzle nearly as wide as its bore, with a pressure given, reaches it).
 pub fn pipe_velocity_warning(report: &mut Report<'_>, field: &'static str, place: &str, speed: f64) {
-    if speed > 5.0 {
+    if speed > fields::MAX_JET_SPEED {
+        let text = report.fmt(speed, Q::Velocity);
+        let limit = report.fmt(fields::MAX_JET_SPEED, Q::Velocity);
+        let sound = report.fmt(WATER_SPEED_OF_SOUND, Q::Velocity);
+        report.warn(
+            Some(field),
+            format!(
+                "the velocity at the {place} is {text}, beyond {limit}: the liquid's compressibility matters there \
+                (water's speed of sound is about {sound}) and this page's incompressible balance does not hold; the \
+                result is not physical, check the inputs"
+            ),
+        );
+    } else if speed > 5.0 {
         let text = report.fmt(speed, Q::Velocity);
         report.warn(
             Some(field),

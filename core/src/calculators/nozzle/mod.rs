@@ -317,6 +317,33 @@ mod tests {
     crate::calculators::testing::page_helpers!(super::KEY);
 
     #[test]
+    fn a_flow_beyond_the_incompressible_range_is_said_to_be_so() {
+        // A nozzle 0.1 nm narrower than its bore, with 1 bar given: the ideal
+        // Bernoulli flow is 223 700 m/s, which no liquid reaches incompressibly
+        // (water's speed of sound is about 1480 m/s, a fact of the trade); a nozzle
+        // a tenth narrower gives an ordinary fast line, warned about as such.
+        let warnings = |d_nozzle: &str| {
+            let s = solved(&[
+                ("flow_given", "p"),
+                ("p", "1 bar"),
+                ("d", "100 mm"),
+                ("d_nozzle", d_nozzle),
+                ("cd", "1"),
+            ]);
+            s.warnings.iter().map(|w| w.message.clone()).collect::<Vec<_>>()
+        };
+        let wide = warnings("99.9999999 mm");
+        assert!(
+            wide.iter().any(|w| w.contains("incompressible balance does not hold")),
+            "{wide:?}"
+        );
+        assert!(!wide.iter().any(|w| w.contains("check erosion")), "{wide:?}");
+        let usual = warnings("90 mm");
+        assert!(usual.iter().any(|w| w.contains("check erosion")), "{usual:?}");
+        assert!(!usual.iter().any(|w| w.contains("incompressible")), "{usual:?}");
+    }
+
+    #[test]
     fn a_nozzle_nearly_as_wide_as_the_bore_pulls_nothing_and_its_checks_agree() {
         // V_j = V₁ and p₁ = 0 in the limit: the end force p₁A₁ − ρQ(V_j − V₁) is the
         // rounding of terms of order ρQV, which the check must not report as a
