@@ -332,6 +332,13 @@ impl StaticFitting {
             _ => 0.0,
         }
     }
+
+    /// The size of the pressure forces on the fitting's ends at gauge pressure `p`,
+    /// N: p·(A₁ + A₂). The engine sums such forces to the thrust, and a reducer's
+    /// ends nearly alike cancel to their rounding: the scale of a check of a thrust.
+    pub fn end_forces(&self, p: f64) -> f64 {
+        p.abs() * (self.area + self.area2)
+    }
 }
 
 /// The engine's static balance of a fitting at gauge pressure `p`, with no flow.

@@ -490,7 +490,7 @@ fn solve_row(row: &Row, fluid: &Fluid, inputs: &Inputs) -> Result<SolvedRow, (bo
                 symmetric: row.symmetric,
             };
             closed_form = restraint::closed_form_thrust(&fit, p).0;
-            end_forces = p.abs() * (a1 + a2);
+            end_forces = fit.end_forces(p);
             let balance = restraint::static_balance(&fit, p, fluid).map_err(|e| err(e.to_string()))?;
             let mut t = balance.thrust();
             if row.turn == Turn::Right {

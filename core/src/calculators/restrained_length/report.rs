@@ -65,7 +65,7 @@ pub fn write(inputs: &Inputs, solved: &Solved, report: &mut Report<'_>) {
 /// Relative to the end forces the engine sums, S_f·p·(A₁ + A₂), as well as the
 /// result: a reducer whose ends are nearly alike leaves their rounding.
 fn checks(report: &mut Report<'_>, solved: &Solved, sf: f64) {
-    let end_forces = sf * solved.pressures.design.abs() * (solved.fit.area + solved.fit.area2);
+    let end_forces = sf * solved.fit.end_forces(solved.pressures.design);
     for m in [&solved.ductile_iron, &solved.pvc] {
         let (mobilised, formula) = m.mobilised;
         report.check(

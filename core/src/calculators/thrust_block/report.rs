@@ -217,7 +217,7 @@ fn static_checks(report: &mut Report<'_>, fit: &StaticFitting, p: f64, thrust: V
         thrust.norm(),
         closed,
         1e-9,
-        p.abs() * (fit.area + fit.area2),
+        fit.end_forces(p),
     );
     if let Some((closed_v, formula_v)) = restraint::closed_form_vertical(fit, p) {
         report.check(
